@@ -1,0 +1,1 @@
+//! Layer: local (in progress).
