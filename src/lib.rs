@@ -16,6 +16,7 @@ pub mod error; // the crate's one error enum (cross-cutting)
 pub mod arith; // layer 1: integers and rationals — factoring, square-free parts, roots
 pub mod local; // layer 2: p-adic and real places — valuations, symbols, square classes, Hilbert symbols
 pub mod curve; // layer 3: Weierstrass models, points, 2-torsion, 2-isogenies, torsion
+pub mod conic; // layer 4: rational conics — Legendre's equation, parametrisation
 pub mod quartic; // layer 4: quartic homogeneous spaces — local solvability, point search
 pub mod selmer; // layer 5: F2 vector spaces, Q(S,2), Selmer groups
 pub mod descent; // layer 6: exact-sequence bookkeeping, rank bounds, reports

@@ -2,7 +2,23 @@
 //!
 //! Primality, factorisation with an effort budget, square-free parts and
 //! kernels, integer square roots.
+//!
+//! * [`prime`]: exact primality below `2^64`, Baillie–PSW above;
+//! * [`factor`](mod@factor): trial division, Pollard–Brent rho, ECM;
+//! * [`roots`]: integer and rational square roots, perfect squares;
+//! * [`squarefree`]: square-free parts and kernels.
 
+pub(crate) mod ecm;
+pub mod factor;
+pub(crate) mod mont;
 pub mod prime;
+pub(crate) mod rho;
+pub mod roots;
+pub mod squarefree;
 
-pub use prime::is_prime;
+pub use factor::{factor, factor_u64, Factorization};
+pub use prime::{
+    is_prime, is_prime_u64, is_strong_lucas_probable_prime, is_strong_probable_prime, jacobi,
+};
+pub use roots::{is_perfect_square, isqrt, rational_sqrt_exact, sqrt_exact};
+pub use squarefree::{is_squarefree, squarefree_kernel, squarefree_part, squarefree_part_rational};

@@ -1,1 +1,44 @@
-//! Layer: curve (in progress).
+//! Layer 3: elliptic curves over Q — Weierstrass models, points and the
+//! group law, changes of model, rational 2-torsion, the reduced model
+//! y² = x³ + ax² + bx for descent, 2-isogenies and the torsion subgroup.
+//!
+//! # Overview
+//! * [`weierstrass`]: the [`Curve`] type, a general Weierstrass model
+//!   y² + a1xy + a3y = x³ + a2x² + a4x + a6 over Q with its invariants
+//!   b2, b4, b6, b8, c4, c6, Δ, j [Sil09, III.1]; text form `a1 a2 a3 a4 a6`.
+//! * [`point`]: [`Point`] and the exact chord-and-tangent group law
+//!   [Sil09, III.2.3], scalar multiplication, naive height.
+//! * [`model`]: [`ModelChange`] (u, r, s, t) acting on curves and points,
+//!   composition, inverse [Sil09, III.1, Table 3.1]; [`integral_model`].
+//! * [`two_torsion`]: the rational points of order 2 and the reduced model
+//!   [`TwoTorsionModel`] y² = x³ + ax² + bx with T = (0, 0), a, b ∈ Z and no
+//!   prime p with p² | a, p⁴ | b.
+//! * [`isogeny`]: [`TwoIsogeny`] φ: E → E′, y² = x³ − 2ax² + (a² − 4b)x,
+//!   and its dual φ̂, with φ̂ ∘ φ = [2] [ST92, III.4].
+//! * [`torsion`]: [`torsion_subgroup`], exact, by point counts at good primes
+//!   (reduction is injective on torsion [Sil09, VII.3.1]), Nagell–Lutz
+//!   integrality [Sil09, VIII.7.2] and integer roots of division
+//!   polynomials.
+//!
+//! Integer roots of integer polynomials — the one root-finding tool behind
+//! 2-torsion and torsion — are computed exactly by p-adic (Hensel) lifting
+//! from a prime of squarefree reduction (crate-internal `poly` module).
+
+pub mod isogeny;
+pub mod model;
+pub mod point;
+mod poly;
+pub mod tate;
+pub mod torsion;
+pub mod two_torsion;
+pub mod weierstrass;
+
+pub use isogeny::TwoIsogeny;
+pub use model::{integral_model, ModelChange};
+pub use point::Point;
+pub use torsion::{torsion_subgroup, TorsionGroup};
+pub use two_torsion::{
+    first_two_torsion_model, short_integral_model, two_torsion_model,
+    two_torsion_model_with_budget, two_torsion_points, TwoTorsionModel,
+};
+pub use weierstrass::{Curve, MAX_COEFFICIENT_DIGITS};

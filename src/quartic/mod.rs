@@ -1,1 +1,33 @@
-//! Layer: quartic (in progress).
+//! Layer 4: quartic homogeneous spaces `y² = g(x, z)`.
+//!
+//! For `E: y² = x³ + ax² + bx` and `d ≠ 0`, the homogeneous space
+//! `C_d: N² = dM⁴ + aM²e² + (b/d)e⁴` has a rational point with `e ≠ 0` iff
+//! `d` is the `x`-coordinate class of a rational point of `E`
+//! [SilvermanTate92, III.5–6]. This layer holds
+//!
+//! * [`Quartic`] (module `form`): integer binary quartics of non-zero
+//!   discriminant, their invariants `I, J, Δ`, and the spaces `C_d`;
+//! * local solubility at every place, exact and with evidence
+//!   ([`locally_soluble`], [`LocalSolubility`], [`LocalPoint`]): the real
+//!   place by a Sturm-sequence root count (Lemma R, module `real`), odd `p`
+//!   and `p = 2` by refinement of residue classes (Lemmas P and T, module
+//!   `padic`), large `p` through Weil's bound and root finding over `F_p`
+//!   (module `fp`);
+//! * which places can obstruct ([`relevant_places`]) and the local images
+//!   `W_v` of the descent map ([`local_image`]);
+//! * a sieved search for rational points (module `search`).
+
+pub mod form;
+mod fp;
+pub mod image;
+pub mod local;
+pub mod padic;
+pub mod real;
+pub mod search;
+
+pub use form::Quartic;
+pub use image::{local_image, relevant_places, ClassEvidence, LocalImage};
+pub use local::{
+    locally_soluble, odd_prime_soluble, real_soluble, two_adic_soluble, LocalPoint, LocalSolubility,
+};
+pub use real::real_root_count;

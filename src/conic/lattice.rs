@@ -1,0 +1,285 @@
+//! Small-dimensional lattice tools for the conic solver: exact LLL
+//! reduction and Fincke–Pohst enumeration with respect to a positive
+//! definite *diagonal* quadratic form N(v) = Σ wᵢ vᵢ².
+//!
+//! Everything is exact (rational Gram–Schmidt data), so the enumeration
+//! returns *every* lattice vector with N(v) ≤ R, which is what the
+//! correctness argument of [`super::legendre`] needs. The dimension is 2 or
+//! 3 here, so recomputing the Gram–Schmidt data after each change is cheap.
+//!
+//! References: LLL reduction [LLL82], [Cohen93, Alg. 2.6.3]; enumeration of
+//! short vectors [FinckePohst85], [Cohen93, Alg. 2.7.5].
+
+use num_bigint::BigInt;
+use num_integer::Integer;
+use num_rational::BigRational;
+use num_traits::{One, Signed, Zero};
+
+use crate::arith::isqrt;
+use crate::budget::Budget;
+use crate::error::{Error, Result};
+
+/// A basis of a lattice in Z^n, one row per basis vector.
+pub(crate) type Basis = Vec<Vec<BigInt>>;
+
+/// N(x) = Σ wᵢ xᵢ yᵢ, the bilinear form of the diagonal weight vector.
+fn inner(w: &[BigInt], x: &[BigInt], y: &[BigInt]) -> BigInt {
+    w.iter()
+        .zip(x.iter().zip(y.iter()))
+        .map(|(wi, (xi, yi))| wi * xi * yi)
+        .sum()
+}
+
+/// Gram–Schmidt data: squared lengths B_i and coefficients μ_{ij}, j < i.
+struct GramSchmidt {
+    b: Vec<BigRational>,
+    mu: Vec<Vec<BigRational>>,
+}
+
+fn gram_schmidt(w: &[BigInt], basis: &Basis) -> GramSchmidt {
+    let n = basis.len();
+    let mut b: Vec<BigRational> = Vec::with_capacity(n);
+    let mut mu = vec![vec![BigRational::zero(); n]; n];
+    // r[i][j] = <b_i, b*_j> ; b*_j squared length B_j = r[j][j]
+    let mut r = vec![vec![BigRational::zero(); n]; n];
+    for i in 0..n {
+        for j in 0..=i {
+            let mut s = BigRational::from_integer(inner(w, &basis[i], &basis[j]));
+            for k in 0..j {
+                s -= &mu[j][k] * &r[i][k];
+            }
+            r[i][j] = s;
+            if j < i {
+                mu[i][j] = if b[j].is_zero() {
+                    BigRational::zero()
+                } else {
+                    &r[i][j] / &b[j]
+                };
+            }
+        }
+        b.push(r[i][i].clone());
+    }
+    GramSchmidt { b, mu }
+}
+
+/// Nearest integer to a rational (halves rounded up).
+fn round(x: &BigRational) -> BigInt {
+    let half = BigRational::new(BigInt::one(), BigInt::from(2));
+    (x + half).floor().to_integer()
+}
+
+fn exhausted(stage: &str) -> Error {
+    Error::BudgetExhausted {
+        stage: stage.to_string(),
+    }
+}
+
+/// LLL-reduces `basis` (linearly independent rows) in place with respect
+/// to N, with Lovász constant δ = 3/4 ([LLL82]). One budget unit per
+/// size-reduction or swap step.
+pub(crate) fn lll(w: &[BigInt], basis: &mut Basis, budget: &mut Budget) -> Result<()> {
+    let n = basis.len();
+    if n < 2 {
+        return Ok(());
+    }
+    let delta = BigRational::new(BigInt::from(3), BigInt::from(4));
+    let mut k = 1usize;
+    while k < n {
+        budget.spend(1).map_err(|_| exhausted("lattice reduction"))?;
+        // size-reduce b_k against b_{k-1}, ..., b_0
+        for j in (0..k).rev() {
+            let gs = gram_schmidt(w, basis);
+            let q = round(&gs.mu[k][j]);
+            if !q.is_zero() {
+                let bj = basis[j].clone();
+                for (x, y) in basis[k].iter_mut().zip(bj.iter()) {
+                    *x -= &q * y;
+                }
+            }
+        }
+        let gs = gram_schmidt(w, basis);
+        let m = &gs.mu[k][k - 1];
+        let lhs = gs.b[k].clone();
+        let rhs = (&delta - m * m) * &gs.b[k - 1];
+        if lhs >= rhs {
+            k += 1;
+        } else {
+            basis.swap(k, k - 1);
+            k = if k > 1 { k - 1 } else { 1 };
+        }
+    }
+    Ok(())
+}
+
+/// floor(sqrt(t)) for a nonnegative rational t.
+fn floor_sqrt(t: &BigRational) -> BigInt {
+    let f = t.floor().to_integer();
+    if f.is_negative() {
+        return BigInt::zero();
+    }
+    // floor(sqrt(floor t)) = floor(sqrt t) for t >= 0
+    isqrt(&f).unwrap_or_else(|_| BigInt::zero())
+}
+
+/// Every nonzero vector v of the lattice spanned by `basis` with
+/// N(v) ≤ `radius`, up to sign (exactly one of ±v is listed), by
+/// Fincke–Pohst enumeration [FinckePohst85]. `basis` should be LLL-reduced
+/// so that the search tree is small. One budget unit per tree node.
+pub(crate) fn short_vectors(
+    w: &[BigInt],
+    basis: &Basis,
+    radius: &BigInt,
+    budget: &mut Budget,
+) -> Result<Vec<Vec<BigInt>>> {
+    let n = basis.len();
+    let gs = gram_schmidt(w, basis);
+    let r = BigRational::from_integer(radius.clone());
+    let mut out: Vec<Vec<BigInt>> = Vec::new();
+    let mut coords = vec![BigInt::zero(); n];
+    enumerate(
+        &gs,
+        basis,
+        n,
+        &r,
+        &mut coords,
+        &mut out,
+        budget,
+    )?;
+    Ok(out)
+}
+
+/// Recursive step: coordinates x_{level..n} are fixed in `coords`;
+/// `rem` is the radius left for levels below.
+fn enumerate(
+    gs: &GramSchmidt,
+    basis: &Basis,
+    level: usize,
+    rem: &BigRational,
+    coords: &mut Vec<BigInt>,
+    out: &mut Vec<Vec<BigInt>>,
+    budget: &mut Budget,
+) -> Result<()> {
+    let n = basis.len();
+    if level == 0 {
+        if coords.iter().all(|c| c.is_zero()) {
+            return Ok(());
+        }
+        // keep one of ±v: the last nonzero coordinate positive
+        if let Some(last) = coords.iter().rev().find(|c| !c.is_zero()) {
+            if last.is_negative() {
+                return Ok(());
+            }
+        }
+        let dim = basis[0].len();
+        let mut v = vec![BigInt::zero(); dim];
+        for (c, row) in coords.iter().zip(basis.iter()) {
+            for (vi, bi) in v.iter_mut().zip(row.iter()) {
+                *vi += c * bi;
+            }
+        }
+        out.push(v);
+        return Ok(());
+    }
+    let i = level - 1;
+    budget.spend(1).map_err(|_| exhausted("short-vector enumeration"))?;
+    if gs.b[i].is_zero() {
+        return Err(Error::Degenerate {
+            reason: "lattice basis is linearly dependent".into(),
+        });
+    }
+    // centre c = -Σ_{j>i} μ_{j,i} x_j
+    let mut centre = BigRational::zero();
+    for j in (i + 1)..n {
+        centre -= &gs.mu[j][i] * BigRational::from_integer(coords[j].clone());
+    }
+    let t = rem / &gs.b[i];
+    let s = floor_sqrt(&t) + 1u32;
+    let lo = centre.floor().to_integer() - &s;
+    let hi = centre.floor().to_integer() + &s + 1u32;
+    let mut x = lo;
+    while x <= hi {
+        let d = BigRational::from_integer(x.clone()) - &centre;
+        let used = &d * &d * &gs.b[i];
+        if &used <= rem {
+            coords[i] = x.clone();
+            let next = rem - used;
+            enumerate(gs, basis, i, &next, coords, out, budget)?;
+        }
+        x += 1u32;
+    }
+    coords[i] = BigInt::zero();
+    Ok(())
+}
+
+/// Hermite normal form style echelon basis of the lattice generated by the
+/// rows of `gens` (integer vectors of length `dim`, spanning a full-rank
+/// lattice). Returns `dim` independent rows.
+pub(crate) fn echelon_basis(gens: &[Vec<BigInt>], dim: usize) -> Result<Basis> {
+    let mut rows: Vec<Vec<BigInt>> = gens.to_vec();
+    let mut basis: Basis = Vec::with_capacity(dim);
+    for col in 0..dim {
+        // gather the gcd of column `col` into one row by extended Euclid
+        let mut pivot: Option<Vec<BigInt>> = None;
+        let mut rest: Vec<Vec<BigInt>> = Vec::new();
+        for row in rows.into_iter() {
+            if row[col].is_zero() {
+                rest.push(row);
+                continue;
+            }
+            match pivot.take() {
+                None => pivot = Some(row),
+                Some(p) => {
+                    let e = p[col].extended_gcd(&row[col]);
+                    let (pa, ra) = (&p[col] / &e.gcd, &row[col] / &e.gcd);
+                    // new pivot = x p + y row  (entry gcd), other = ra p - pa row (entry 0)
+                    let newp: Vec<BigInt> =
+                        p.iter().zip(row.iter()).map(|(u, v)| &e.x * u + &e.y * v).collect();
+                    let other: Vec<BigInt> =
+                        p.iter().zip(row.iter()).map(|(u, v)| &ra * u - &pa * v).collect();
+                    rest.push(other);
+                    pivot = Some(newp);
+                }
+            }
+        }
+        match pivot {
+            Some(p) => basis.push(p),
+            None => {
+                return Err(Error::Degenerate {
+                    reason: "generators do not span a full-rank lattice".into(),
+                })
+            }
+        }
+        rows = rest;
+    }
+    Ok(basis)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn v(xs: &[i64]) -> Vec<BigInt> {
+        xs.iter().map(|&x| BigInt::from(x)).collect()
+    }
+
+    #[test]
+    fn enumeration_finds_every_short_vector_of_z2() {
+        // Z^2 with N = x^2 + y^2: vectors of norm <= 2 up to sign are
+        // (1,0), (0,1), (1,1), (-1,1): four of them (common practice).
+        let w = v(&[1, 1]);
+        let mut basis = vec![v(&[1, 0]), v(&[7, 1])];
+        let mut budget = Budget::unlimited();
+        lll(&w, &mut basis, &mut budget).unwrap();
+        let out = short_vectors(&w, &basis, &BigInt::from(2), &mut budget).unwrap();
+        assert_eq!(out.len(), 4);
+    }
+
+    #[test]
+    fn echelon_basis_has_the_right_index() {
+        // lattice {x ≡ 2y mod 5} in Z^2 has index 5
+        let gens = vec![v(&[2, 1]), v(&[5, 0]), v(&[0, 5])];
+        let b = echelon_basis(&gens, 2).unwrap();
+        let det = &b[0][0] * &b[1][1] - &b[0][1] * &b[1][0];
+        assert_eq!(det.abs(), BigInt::from(5));
+    }
+}

@@ -1,0 +1,135 @@
+//! The 2-isogeny with kernel {O, (0, 0)} and its dual.
+//!
+//! Let E: y² = x³ + a x² + b x with b(a² − 4b) ≠ 0, and
+//! E′: y² = x³ + a′x² + b′x with a′ = −2a, b′ = a² − 4b. The map
+//!
+//! ```text
+//! φ: E → E′,  φ(x, y) = (y²/x², y(b − x²)/x²),   φ(O) = φ((0,0)) = O
+//! ```
+//!
+//! is an isogeny of degree 2 with kernel {O, T}, T = (0, 0)
+//! [ST92, III.4], [Sil09, III.4.5]. Applying the same construction to E′
+//! gives E″: y² = x³ + 4a x² + 16b x, which is E rescaled by u = 2
+//! (x = 4x_E, y = 8y_E); composing φ′: E′ → E″ with that rescaling gives
+//! the dual isogeny
+//!
+//! ```text
+//! φ̂: E′ → E,  φ̂(X, Y) = (Y²/(4X²), Y(b′ − X²)/(8X²)),   φ̂(O) = φ̂((0,0)) = O,
+//! ```
+//!
+//! and φ̂ ∘ φ = [2] on E, φ ∘ φ̂ = [2] on E′ [ST92, III.4], [Sil09, III.6.1].
+
+use num_bigint::BigInt;
+use num_rational::BigRational;
+use num_traits::Zero;
+
+use super::point::Point;
+use super::two_torsion::TwoTorsionModel;
+use super::weierstrass::Curve;
+use crate::error::Result;
+
+/// The 2-isogeny φ: E → E′ of the module docs, for E: y² = x³ + a x² + b x.
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub struct TwoIsogeny {
+    a: BigInt,
+    b: BigInt,
+    domain: Curve,
+    codomain: Curve,
+}
+
+fn ab_curve(a: &BigInt, b: &BigInt) -> Result<Curve> {
+    Curve::new([
+        BigRational::zero(),
+        BigRational::from_integer(a.clone()),
+        BigRational::zero(),
+        BigRational::from_integer(b.clone()),
+        BigRational::zero(),
+    ])
+}
+
+impl TwoIsogeny {
+    /// The isogeny from y² = x³ + a x² + b x.
+    ///
+    /// # Errors
+    /// [`crate::Error::SingularCurve`] if b = 0 or a² − 4b = 0.
+    pub fn new(a: BigInt, b: BigInt) -> Result<TwoIsogeny> {
+        let domain = ab_curve(&a, &b)?;
+        let (a2, b2) = codomain_ab(&a, &b);
+        let codomain = ab_curve(&a2, &b2)?;
+        Ok(TwoIsogeny {
+            a,
+            b,
+            domain,
+            codomain,
+        })
+    }
+
+    /// The isogeny from a reduced model (its T = (0, 0) is the kernel).
+    pub fn from_model(m: &TwoTorsionModel) -> Result<TwoIsogeny> {
+        TwoIsogeny::new(m.a.clone(), m.b.clone())
+    }
+
+    /// (a, b) of the domain E.
+    pub fn domain_coefficients(&self) -> (&BigInt, &BigInt) {
+        (&self.a, &self.b)
+    }
+
+    /// (a′, b′) = (−2a, a² − 4b) of the codomain E′.
+    pub fn codomain_coefficients(&self) -> (BigInt, BigInt) {
+        codomain_ab(&self.a, &self.b)
+    }
+
+    /// The domain E.
+    pub fn domain(&self) -> &Curve {
+        &self.domain
+    }
+
+    /// The codomain E′.
+    pub fn codomain(&self) -> &Curve {
+        &self.codomain
+    }
+
+    /// The isogeny E′ → E″ built the same way from E′ (E″ is E scaled by 2).
+    pub fn next(&self) -> Result<TwoIsogeny> {
+        let (a2, b2) = self.codomain_coefficients();
+        TwoIsogeny::new(a2, b2)
+    }
+
+    /// φ(P) for P on E.
+    pub fn image(&self, p: &Point) -> Point {
+        phi(p, &self.b)
+    }
+
+    /// φ̂(Q) for Q on E′.
+    pub fn dual_image(&self, q: &Point) -> Point {
+        let (_, b2) = self.codomain_coefficients();
+        match phi(q, &b2) {
+            Point::Infinity => Point::Infinity,
+            Point::Affine { x, y } => Point::Affine {
+                x: x / BigRational::from_integer(4.into()),
+                y: y / BigRational::from_integer(8.into()),
+            },
+        }
+    }
+}
+
+fn codomain_ab(a: &BigInt, b: &BigInt) -> (BigInt, BigInt) {
+    (-(a * BigInt::from(2)), a * a - b * BigInt::from(4))
+}
+
+/// (x, y) ↦ (y²/x², y(b − x²)/x²), with O and (0, 0) going to O.
+fn phi(p: &Point, b: &BigInt) -> Point {
+    match p {
+        Point::Infinity => Point::Infinity,
+        Point::Affine { x, y } => {
+            if x.is_zero() {
+                return Point::Infinity;
+            }
+            let x2 = x * x;
+            Point::Affine {
+                x: y * y / &x2,
+                y: y * (BigRational::from_integer(b.clone()) - &x2) / &x2,
+            }
+        }
+    }
+}

@@ -1,0 +1,364 @@
+//! Weierstrass models over Q: coefficients, invariants, parsing and display.
+//!
+//! A model is E: y² + a1·xy + a3·y = x³ + a2·x² + a4·x + a6 with a_i ∈ Q.
+//! Its standard quantities are [Sil09, III.1]
+//!
+//! ```text
+//! b2 = a1² + 4a2,          b4 = 2a4 + a1a3,          b6 = a3² + 4a6,
+//! b8 = a1²a6 + 4a2a6 − a1a3a4 + a2a3² − a4²,
+//! c4 = b2² − 24b4,         c6 = −b2³ + 36b2b4 − 216b6,
+//! Δ  = −b2²b8 − 8b4³ − 27b6² + 9b2b4b6,      j = c4³/Δ,
+//! ```
+//!
+//! related by 4b8 = b2b6 − b4² and 1728Δ = c4³ − c6². The model is an
+//! elliptic curve iff Δ ≠ 0 [Sil09, III.1.4].
+//!
+//! # Text form
+//! A curve is written as its five coefficients a1 a2 a3 a4 a6, in that
+//! order, each an integer or a fraction `p/q`, separated by blanks and/or
+//! single commas: `"0 -1 0 -4 4"`, `"0,0,0,-25,0"`, `"1/2, 0 0 3 -7/4"`.
+//! [`Display`](std::fmt::Display) writes the same form (blank-separated,
+//! fractions in lowest terms), so printing and parsing round-trip.
+
+use std::fmt;
+use std::str::FromStr;
+
+use num_bigint::BigInt;
+use num_rational::BigRational;
+use num_traits::{One, Zero};
+
+use crate::error::{Error, Result};
+
+/// Longest accepted numerator or denominator, in digits, when parsing.
+pub const MAX_COEFFICIENT_DIGITS: usize = 100_000;
+
+/// An elliptic curve over Q given by a (general) Weierstrass model, with its
+/// invariants b2, b4, b6, b8, c4, c6, Δ and j precomputed.
+///
+/// Invariant: Δ ≠ 0 (checked by every constructor).
+#[derive(Clone, Debug, PartialEq, Eq, Hash)]
+pub struct Curve {
+    a: [BigRational; 5],
+    b2: BigRational,
+    b4: BigRational,
+    b6: BigRational,
+    b8: BigRational,
+    c4: BigRational,
+    c6: BigRational,
+    disc: BigRational,
+    j: BigRational,
+}
+
+fn q(n: i64) -> BigRational {
+    BigRational::from_integer(BigInt::from(n))
+}
+
+impl Curve {
+    /// The curve with Weierstrass coefficients `[a1, a2, a3, a4, a6]`.
+    ///
+    /// Computes the invariants of [Sil09, III.1] (see the module docs).
+    ///
+    /// # Errors
+    /// [`Error::SingularCurve`] if Δ = 0 (the cubic has a node or a cusp).
+    ///
+    /// # Example
+    /// y² = x³ − x has Δ = 64 and j = 1728:
+    /// ```
+    /// use isodescent::curve::Curve;
+    /// let e = Curve::from_ints([0, 0, 0, -1, 0]).unwrap();
+    /// assert_eq!(e.discriminant().to_string(), "64");
+    /// assert_eq!(e.j_invariant().to_string(), "1728");
+    /// ```
+    pub fn new(a: [BigRational; 5]) -> Result<Curve> {
+        let [a1, a2, a3, a4, a6] = &a;
+        let b2 = a1 * a1 + q(4) * a2;
+        let b4 = q(2) * a4 + a1 * a3;
+        let b6 = a3 * a3 + q(4) * a6;
+        let b8 = a1 * a1 * a6 + q(4) * a2 * a6 - a1 * a3 * a4 + a2 * a3 * a3 - a4 * a4;
+        let c4 = &b2 * &b2 - q(24) * &b4;
+        let c6 = -(&b2 * &b2 * &b2) + q(36) * &b2 * &b4 - q(216) * &b6;
+        let disc = -(&b2 * &b2 * &b8) - q(8) * &b4 * &b4 * &b4 - q(27) * &b6 * &b6
+            + q(9) * &b2 * &b4 * &b6;
+        if disc.is_zero() {
+            let reason = if c4.is_zero() {
+                "discriminant is 0 and c4 = 0 (the cubic has a cusp)".to_string()
+            } else {
+                "discriminant is 0 (the cubic has a node)".to_string()
+            };
+            return Err(Error::SingularCurve { reason });
+        }
+        let j = &c4 * &c4 * &c4 / &disc;
+        Ok(Curve {
+            a,
+            b2,
+            b4,
+            b6,
+            b8,
+            c4,
+            c6,
+            disc,
+            j,
+        })
+    }
+
+    /// The curve with integer coefficients `[a1, a2, a3, a4, a6]`.
+    ///
+    /// # Errors
+    /// [`Error::SingularCurve`] if Δ = 0.
+    pub fn from_ints(a: [i64; 5]) -> Result<Curve> {
+        Curve::new(a.map(q))
+    }
+
+    /// The curve with integer coefficients given as big integers.
+    ///
+    /// # Errors
+    /// [`Error::SingularCurve`] if Δ = 0.
+    pub fn from_bigints(a: [BigInt; 5]) -> Result<Curve> {
+        Curve::new(a.map(BigRational::from_integer))
+    }
+
+    /// The short model y² = x³ + A x + B.
+    ///
+    /// # Errors
+    /// [`Error::SingularCurve`] if 4A³ + 27B² = 0.
+    pub fn short(a: BigRational, b: BigRational) -> Result<Curve> {
+        Curve::new([BigRational::zero(), BigRational::zero(), BigRational::zero(), a, b])
+    }
+
+    /// The coefficients `[a1, a2, a3, a4, a6]`.
+    pub fn coefficients(&self) -> &[BigRational; 5] {
+        &self.a
+    }
+    /// a1.
+    pub fn a1(&self) -> &BigRational {
+        &self.a[0]
+    }
+    /// a2.
+    pub fn a2(&self) -> &BigRational {
+        &self.a[1]
+    }
+    /// a3.
+    pub fn a3(&self) -> &BigRational {
+        &self.a[2]
+    }
+    /// a4.
+    pub fn a4(&self) -> &BigRational {
+        &self.a[3]
+    }
+    /// a6.
+    pub fn a6(&self) -> &BigRational {
+        &self.a[4]
+    }
+    /// b2 = a1² + 4a2.
+    pub fn b2(&self) -> &BigRational {
+        &self.b2
+    }
+    /// b4 = 2a4 + a1a3.
+    pub fn b4(&self) -> &BigRational {
+        &self.b4
+    }
+    /// b6 = a3² + 4a6.
+    pub fn b6(&self) -> &BigRational {
+        &self.b6
+    }
+    /// b8 = a1²a6 + 4a2a6 − a1a3a4 + a2a3² − a4².
+    pub fn b8(&self) -> &BigRational {
+        &self.b8
+    }
+    /// c4 = b2² − 24b4.
+    pub fn c4(&self) -> &BigRational {
+        &self.c4
+    }
+    /// c6 = −b2³ + 36b2b4 − 216b6.
+    pub fn c6(&self) -> &BigRational {
+        &self.c6
+    }
+    /// Δ = −b2²b8 − 8b4³ − 27b6² + 9b2b4b6 (nonzero).
+    pub fn discriminant(&self) -> &BigRational {
+        &self.disc
+    }
+    /// j = c4³/Δ.
+    pub fn j_invariant(&self) -> &BigRational {
+        &self.j
+    }
+
+    /// True iff all five coefficients are integers.
+    pub fn is_integral(&self) -> bool {
+        self.a.iter().all(|c| c.is_integer())
+    }
+
+    /// True iff a1 = a2 = a3 = 0 (the model is y² = x³ + a4 x + a6).
+    pub fn is_short(&self) -> bool {
+        self.a[0].is_zero() && self.a[1].is_zero() && self.a[2].is_zero()
+    }
+}
+
+impl fmt::Display for Curve {
+    /// The five coefficients separated by blanks, e.g. `0 -1 0 -4 4` or
+    /// `1/2 0 0 3 -7/4`; the output parses back to an equal curve.
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        for (i, c) in self.a.iter().enumerate() {
+            if i > 0 {
+                f.write_str(" ")?;
+            }
+            write!(f, "{c}")?;
+        }
+        Ok(())
+    }
+}
+
+/// Parses one coefficient token: an optional sign, decimal digits, and an
+/// optional `/` followed by decimal digits.
+fn parse_token(tok: &str, input: &str) -> Result<BigRational> {
+    let bad = |reason: String| Error::Parse {
+        input: truncate_for_message(input),
+        reason,
+    };
+    let (num_s, den_s) = match tok.split_once('/') {
+        Some((n, d)) => (n, Some(d)),
+        None => (tok, None),
+    };
+    let digits = |s: &str, what: &str, signed: bool| -> Result<BigInt> {
+        let body = if signed {
+            s.strip_prefix('-').or_else(|| s.strip_prefix('+')).unwrap_or(s)
+        } else {
+            s
+        };
+        if body.is_empty() || !body.bytes().all(|b| b.is_ascii_digit()) {
+            return Err(bad(format!(
+                "{what} {:?} is not a decimal integer",
+                truncate_for_message(s)
+            )));
+        }
+        if body.len() > MAX_COEFFICIENT_DIGITS {
+            return Err(bad(format!(
+                "{what} has {} digits; at most {MAX_COEFFICIENT_DIGITS} are accepted",
+                body.len()
+            )));
+        }
+        let v = BigInt::parse_bytes(body.as_bytes(), 10)
+            .ok_or_else(|| bad(format!("{what} is not a decimal integer")))?;
+        Ok(if s.starts_with('-') { -v } else { v })
+    };
+    let num = digits(num_s, "numerator", true)?;
+    let den = match den_s {
+        None => BigInt::one(),
+        Some(d) => digits(d, "denominator", false)?,
+    };
+    if den.is_zero() {
+        return Err(Error::ZeroDenominator {
+            context: format!("coefficient {:?}", truncate_for_message(tok)),
+        });
+    }
+    Ok(BigRational::new(num, den))
+}
+
+/// Shortens very long inputs before they are copied into an error message.
+fn truncate_for_message(s: &str) -> String {
+    const KEEP: usize = 80;
+    if s.len() <= KEEP {
+        s.to_string()
+    } else {
+        let cut = (0..=KEEP).rev().find(|&i| s.is_char_boundary(i)).unwrap_or(0);
+        format!("{}… ({} bytes)", &s[..cut], s.len())
+    }
+}
+
+/// Splits curve text into tokens: blanks separate, and a single comma may
+/// stand between two tokens (with blanks around it or not).
+fn split_tokens(s: &str) -> Result<Vec<&str>> {
+    let bad = |reason: &str| Error::Parse {
+        input: truncate_for_message(s),
+        reason: reason.to_string(),
+    };
+    let mut tokens = Vec::new();
+    let mut comma_pending = false;
+    let mut start: Option<usize> = None;
+    for (i, ch) in s.char_indices() {
+        if ch == ',' || ch.is_whitespace() {
+            if let Some(st) = start.take() {
+                tokens.push(&s[st..i]);
+                comma_pending = false;
+            }
+            if ch == ',' {
+                if comma_pending || tokens.is_empty() {
+                    return Err(bad("empty coefficient between commas or before a comma"));
+                }
+                comma_pending = true;
+            }
+        } else if start.is_none() {
+            start = Some(i);
+        }
+    }
+    if let Some(st) = start {
+        tokens.push(&s[st..]);
+    } else if comma_pending {
+        return Err(bad("trailing comma"));
+    }
+    Ok(tokens)
+}
+
+impl FromStr for Curve {
+    type Err = Error;
+
+    /// Parses five coefficients `a1 a2 a3 a4 a6` (see the module docs).
+    ///
+    /// # Errors
+    /// [`Error::Parse`] for a wrong number of coefficients, a token that is
+    /// not an integer or fraction, or a numerator/denominator longer than
+    /// [`MAX_COEFFICIENT_DIGITS`]; [`Error::ZeroDenominator`] for `p/0`;
+    /// [`Error::SingularCurve`] if the model has Δ = 0.
+    fn from_str(s: &str) -> Result<Curve> {
+        // Five coefficients of at most 2·MAX digits plus a sign, a slash and
+        // separators: anything far longer is rejected before scanning.
+        if s.len() > 5 * (2 * MAX_COEFFICIENT_DIGITS + 2) + 4096 {
+            return Err(Error::Parse {
+                input: truncate_for_message(s),
+                reason: format!("input of {} bytes is too long", s.len()),
+            });
+        }
+        let tokens = split_tokens(s)?;
+        if tokens.len() != 5 {
+            return Err(Error::Parse {
+                input: truncate_for_message(s),
+                reason: format!(
+                    "expected 5 coefficients a1 a2 a3 a4 a6, found {}",
+                    tokens.len()
+                ),
+            });
+        }
+        let vals = tokens
+            .iter()
+            .map(|t| parse_token(t, s))
+            .collect::<Result<Vec<BigRational>>>()?;
+        let a: [BigRational; 5] = vals.try_into().map_err(|_| Error::Parse {
+            input: truncate_for_message(s),
+            reason: "expected 5 coefficients".to_string(),
+        })?;
+        Curve::new(a)
+    }
+}
+
+#[cfg(test)]
+#[allow(clippy::unwrap_used)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn the_three_documented_text_forms_parse() {
+        let e: Curve = "0 -1 0 -4 4".parse().unwrap();
+        assert_eq!(e.a4(), &q(-4));
+        let e: Curve = "0,0,0,-25,0".parse().unwrap();
+        assert_eq!(e.a4(), &q(-25));
+        let e: Curve = "1/2, 0 0 3 -7/4".parse().unwrap();
+        assert_eq!(e.a1(), &BigRational::new(1.into(), 2.into()));
+        assert_eq!(e.a6(), &BigRational::new((-7).into(), 4.into()));
+    }
+
+    #[test]
+    fn doubled_or_dangling_commas_are_rejected() {
+        for s in ["0,,0,0,-25,0", ",0,0,0,-25,0", "0,0,0,-25,0,"] {
+            assert!(matches!(s.parse::<Curve>(), Err(Error::Parse { .. })), "{s}");
+        }
+    }
+}

@@ -1,0 +1,60 @@
+//! Options for a descent, with defaults that decide most curves with small
+//! coefficients in milliseconds.
+
+/// Knobs for [`crate::descent::descend`]. Every budget is counted in the
+/// deterministic units of [`crate::Budget`], so the same input and the same
+/// options always give the same report.
+#[derive(Clone, Debug, PartialEq, Eq)]
+#[non_exhaustive]
+pub struct DescentOptions {
+    /// Height bound H for the search on each homogeneous space: all coprime
+    /// (M, e) with max(|M|, |e|) ≤ H are tried (about 1.2·H² pairs).
+    pub search_height: u64,
+    /// Work units for factoring b and a² − 4b (per side).
+    pub factor_units: u64,
+    /// Work units for all local-solvability tests of one side.
+    pub local_units: u64,
+    /// Work units for the point search on one homogeneous space.
+    pub search_units: u64,
+    /// Most cosets of (Selmer group / known images) searched per side; the
+    /// rest stay undecided.
+    pub max_classes_searched: usize,
+    /// Most representatives searched inside one coset.
+    pub representatives_per_class: usize,
+    /// Run the second descent on classes the first one leaves undecided.
+    pub second_descent: bool,
+    /// Height bound for the searches on the 4-coverings of the second descent.
+    pub second_search_height: u64,
+    /// Work units for the whole second descent of one class.
+    pub second_descent_units: u64,
+}
+
+impl Default for DescentOptions {
+    fn default() -> Self {
+        DescentOptions {
+            search_height: 128,
+            factor_units: 50_000_000,
+            local_units: 50_000_000,
+            search_units: 200_000_000,
+            max_classes_searched: 64,
+            representatives_per_class: 4,
+            second_descent: true,
+            second_search_height: 64,
+            second_descent_units: 100_000_000,
+        }
+    }
+}
+
+impl DescentOptions {
+    /// Defaults with a different search height.
+    pub fn with_search_height(mut self, h: u64) -> Self {
+        self.search_height = h;
+        self
+    }
+
+    /// Defaults with the second descent switched on or off.
+    pub fn with_second_descent(mut self, on: bool) -> Self {
+        self.second_descent = on;
+        self
+    }
+}

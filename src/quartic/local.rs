@@ -1,0 +1,252 @@
+//! Local solubility of `y² = g(x, z)` at one place, with evidence.
+//!
+//! [`locally_soluble`] dispatches to [`real_soluble`] (Lemma R, module
+//! `real`), [`odd_prime_soluble`] (Lemma P) and [`two_adic_soluble`]
+//! (Lemma T, both in module `padic`). A soluble answer carries a
+//! [`LocalPoint`]; [`LocalPoint::verify`] re-checks it from scratch with
+//! its own arithmetic (plain division for the valuation, Euler's criterion
+//! for residuosity), sharing no code with the search.
+
+use super::form::Quartic;
+use super::padic;
+use super::real;
+use crate::budget::Budget;
+use crate::error::{Error, Result};
+use crate::local::{sqrt_mod_prime_power, Place, Prime};
+use num_bigint::BigInt;
+use num_integer::Integer;
+use num_traits::{One, Signed, Zero};
+use std::fmt;
+
+/// Extra `p`-adic digits of `y` beyond `v_p(g(x, z))` in a [`LocalPoint`].
+pub const EXTRA_PRECISION: u32 = 8;
+
+/// Evidence that `y² = g(x, z)` has a point over `Q_v`.
+///
+/// * At a prime `p`: integers `(x, z)`, not both divisible by `p`, with
+///   `G = g(x, z)` a **non-zero square in `Q_p`** (so `(x : z : √G)` is a
+///   `Q_p`-point), and `y` with `y² ≡ G (mod p^precision)`, where
+///   `precision = v_p(G) + EXTRA_PRECISION`. Squareness is exactly
+///   checkable: `v_p(G)` even and the unit part a residue mod `p`
+///   (`≡ 1 mod 8` at 2) [Serre73, II.3.3].
+/// * At the real place: integers `(x, z)` with `G = g(x, z) > 0`;
+///   `y = ⌊√G⌋` and `precision = 0`.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub struct LocalPoint {
+    place: Place,
+    x: BigInt,
+    z: BigInt,
+    y: BigInt,
+    precision: u32,
+}
+
+impl LocalPoint {
+    /// Wraps evidence from elsewhere (unchecked; call [`LocalPoint::verify`]).
+    pub fn new(place: Place, x: BigInt, z: BigInt, y: BigInt, precision: u32) -> LocalPoint {
+        LocalPoint {
+            place,
+            x,
+            z,
+            y,
+            precision,
+        }
+    }
+
+    /// The place the point lives over.
+    pub fn place(&self) -> &Place {
+        &self.place
+    }
+
+    /// The `x` coordinate (an integer).
+    pub fn x(&self) -> &BigInt {
+        &self.x
+    }
+
+    /// The `z` coordinate (an integer).
+    pub fn z(&self) -> &BigInt {
+        &self.z
+    }
+
+    /// The approximate `y`: `y² ≡ g(x, z) mod p^precision` (finite place),
+    /// or `⌊√g(x, z)⌋` (real place).
+    pub fn y(&self) -> &BigInt {
+        &self.y
+    }
+
+    /// The `p`-adic precision of `y` (0 at the real place).
+    pub fn precision(&self) -> u32 {
+        self.precision
+    }
+
+    /// Re-checks the evidence against `q`, independently of the search:
+    ///
+    /// * real place: `g(x, z) > 0` and `y = ⌊√g(x, z)⌋`;
+    /// * prime `p`: `p ∤ gcd(x, z)`; `G = g(x, z) ≠ 0`; `v = v_p(G)` (by
+    ///   repeated division) is even; the unit part `u` satisfies
+    ///   `u^((p−1)/2) ≡ 1 (mod p)` (Euler's criterion) for odd `p`, or
+    ///   `u ≡ 1 (mod 8)` for `p = 2`; `precision > v`; and
+    ///   `y² ≡ G (mod p^precision)`.
+    ///
+    /// Example: for `g = −34x⁴ + 2z⁴` at `p = 17`, `(x, z) = (0, 1)` gives
+    /// `G = 2 ≡ 6² (mod 17)`, so `(0, 1)` with `y = 6`, precision 1 passes,
+    /// while `y = 5` or `(x, z) = (17, 17)` fails.
+    pub fn verify(&self, q: &Quartic) -> bool {
+        let g = q.eval(&self.x, &self.z);
+        match &self.place {
+            Place::Real => g.is_positive() && self.y == g.sqrt(),
+            Place::Finite(p) => verify_finite(p.get(), &self.x, &self.z, &g, &self.y, self.precision),
+        }
+    }
+}
+
+/// The independent `p`-adic check of [`LocalPoint::verify`].
+fn verify_finite(p: &BigInt, x: &BigInt, z: &BigInt, g: &BigInt, y: &BigInt, precision: u32) -> bool {
+    if x.is_multiple_of(p) && z.is_multiple_of(p) {
+        return false;
+    }
+    if g.is_zero() {
+        return false;
+    }
+    let mut u = g.clone();
+    let mut v = 0u32;
+    while u.is_multiple_of(p) {
+        u /= p;
+        v += 1;
+    }
+    if v % 2 == 1 || precision <= v {
+        return false;
+    }
+    let unit_ok = if p == &BigInt::from(2) {
+        u.mod_floor(&BigInt::from(8)).is_one()
+    } else {
+        let e = (p - BigInt::one()) / BigInt::from(2);
+        u.mod_floor(p).modpow(&e, p).is_one()
+    };
+    let modulus = num_traits::pow(p.clone(), precision as usize);
+    unit_ok && (y * y - g).mod_floor(&modulus).is_zero()
+}
+
+impl fmt::Display for LocalPoint {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        match &self.place {
+            Place::Real => write!(f, "(x, z) = ({}, {}) over R, g > 0", self.x, self.z),
+            Place::Finite(p) => write!(
+                f,
+                "(x, z) = ({}, {}) over Q_{}, y ≡ {} mod {}^{}",
+                self.x, self.z, p, self.y, p, self.precision
+            ),
+        }
+    }
+}
+
+/// The answer to "does `y² = g(x, z)` have a `Q_v`-point?".
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub enum LocalSolubility {
+    /// There is a point; here is one.
+    Soluble(LocalPoint),
+    /// There is no point over the completion at `place`.
+    Insoluble {
+        /// The place where the curve has no point.
+        place: Place,
+    },
+}
+
+impl LocalSolubility {
+    /// True for [`LocalSolubility::Soluble`].
+    pub fn is_soluble(&self) -> bool {
+        matches!(self, LocalSolubility::Soluble(_))
+    }
+
+    /// The witness, if soluble.
+    pub fn point(&self) -> Option<&LocalPoint> {
+        match self {
+            LocalSolubility::Soluble(pt) => Some(pt),
+            LocalSolubility::Insoluble { .. } => None,
+        }
+    }
+}
+
+/// Decides whether `y² = g(x, z)` has a point over `Q_v` (`v` = `place`),
+/// exactly, with evidence.
+///
+/// Statement and method: real place by Lemma R ([`real_soluble`]); odd `p`
+/// by Lemma P ([`odd_prime_soluble`]); `p = 2` by Lemma T
+/// ([`two_adic_soluble`]). All three terminate on every non-degenerate
+/// quartic (see the module docs of `padic` for the termination proof).
+///
+/// Errors: [`Error::BudgetExhausted`] when `budget` runs out.
+///
+/// Cost: real place, `O(log(coefficients))` Sturm evaluations; prime `p`,
+/// at most `4·(v_p(Δ) + 4)` classes, each costing `p` residue tests for
+/// `p < 64` and `O(log p)` polynomial products above.
+///
+/// Example: `y² = −34x⁴ + 2z⁴`, i.e. `[−34, 0, 0, 0, 2]` (the curve
+/// `2Y² = 1 − 17X⁴` of [Lind40], [Reichardt42] with `y = 2Y`), is soluble
+/// at `R`, 2, 17 and every other place, yet has no rational point.
+pub fn locally_soluble(q: &Quartic, place: &Place, budget: &mut Budget) -> Result<LocalSolubility> {
+    match place {
+        Place::Real => real_soluble(q, budget),
+        Place::Finite(p) if p.is_two() => two_adic_soluble(q, budget),
+        Place::Finite(p) => odd_prime_soluble(q, p, budget),
+    }
+}
+
+/// Real solubility by Lemma R (module `real`); the witness has
+/// `g(x, z) > 0`.
+///
+/// Errors: [`Error::BudgetExhausted`].
+///
+/// Example: `x⁴ − 17z⁴` is soluble (witness `(1, 0)`); `−x⁴ − z⁴` is not.
+pub fn real_soluble(q: &Quartic, budget: &mut Budget) -> Result<LocalSolubility> {
+    Ok(match real::real_witness(q, budget)? {
+        Some((x, z)) => {
+            let g = q.eval(&x, &z);
+            LocalSolubility::Soluble(LocalPoint::new(Place::Real, x, z, g.sqrt(), 0))
+        }
+        None => LocalSolubility::Insoluble { place: Place::Real },
+    })
+}
+
+/// `Q_p`-solubility for an odd prime `p` by Lemma P (module `padic`).
+///
+/// Errors: [`Error::InvalidArgument`] for `p = 2` (use
+/// [`two_adic_soluble`]); [`Error::BudgetExhausted`].
+///
+/// Example: `x⁴ − 3z⁴` at 3: `g(1, 0) = 1` is a square, soluble.
+/// `3x⁴ + 3z⁴` at 3 is not: `x⁴ + z⁴ ≢ 0 (mod 3)` for `(x, z)` not both
+/// divisible by 3, so every value has valuation exactly 1.
+pub fn odd_prime_soluble(q: &Quartic, p: &Prime, budget: &mut Budget) -> Result<LocalSolubility> {
+    if p.is_two() {
+        return Err(Error::InvalidArgument {
+            reason: "odd_prime_soluble called with p = 2".into(),
+        });
+    }
+    finish(q, p, padic::odd_prime_witness(q, p, budget)?)
+}
+
+/// `Q_2`-solubility by Lemma T (module `padic`).
+///
+/// Errors: [`Error::BudgetExhausted`].
+///
+/// Example: `x⁴ + z⁴` is soluble (`g(0, 1) = 1`). `3x⁴ + 3z⁴` is not:
+/// with one of `x, z` odd and one even, `x⁴ + z⁴ ≡ 1 (mod 16)` and
+/// `3·(1 + 16k) ≡ 3 (mod 8)`; with both odd, `v₂(3(x⁴ + z⁴)) = 1`.
+pub fn two_adic_soluble(q: &Quartic, budget: &mut Budget) -> Result<LocalSolubility> {
+    finish(q, &Prime::two(), padic::two_adic_witness(q, budget)?)
+}
+
+/// Attaches `y` (a square root of `g(x, z)` to `v + EXTRA_PRECISION`
+/// digits) to a `p`-adic witness.
+fn finish(q: &Quartic, p: &Prime, w: Option<(BigInt, BigInt)>) -> Result<LocalSolubility> {
+    let place = Place::Finite(p.clone());
+    let Some((x, z)) = w else {
+        return Ok(LocalSolubility::Insoluble { place });
+    };
+    let g = q.eval(&x, &z);
+    debug_assert!(padic::is_padic_square(&g, p));
+    let precision = padic::val_u32(&g, p).saturating_add(EXTRA_PRECISION);
+    let y = sqrt_mod_prime_power(&g, p, precision).ok_or_else(|| Error::InvalidArgument {
+        reason: format!("internal: g({x}, {z}) = {g} has no square root mod {p}^{precision}"),
+    })?;
+    Ok(LocalSolubility::Soluble(LocalPoint::new(place, x, z, y, precision)))
+}

@@ -1,0 +1,346 @@
+//! The finite places: does `y² = g(x, z)` have a point over `Q_p`?
+//!
+//! # Reduction to residue classes
+//!
+//! Scaling `(x, z, y) ↦ (λx, λz, λ²y)` by a unit `λ` does not change the
+//! point, so `C(Q_p) ≠ ∅` iff `g(x, z) ∈ Q_p²` (zero allowed) for some
+//! `(x : z) ∈ P¹(Q_p)`, and `P¹(Q_p)` is covered by the two *charts*
+//! `{(t : 1) : t ∈ Z_p}` and `{(1 : t) : t ∈ pZ_p}`. In a chart the question
+//! is whether a polynomial `f ∈ Z[t]` (`f(t) = g(t, 1)` resp. `g(1, t)`)
+//! takes a square value on a *class* `t ∈ t₀ + p^k Z_p`. We write
+//! `F(s) = f(t₀ + p^k s) = Σ Fᵢ sⁱ` for the class polynomial; dividing `F`
+//! by an even power of `p` does not change the question, so we keep only
+//! the parity of the content valuation `m = minᵢ v(Fᵢ)` and
+//! `F₁ = F/p^m` (primitive).
+//!
+//! A zero of `g` in `P¹(Q_p)` is a simple root (`Δ ≠ 0`); near it `g` takes
+//! every value of the form `g'(α)·s` with `s` small, so there are also
+//! points with `g(x, z)` a *non-zero* square. Every witness this module
+//! returns has `g(x, z)` a non-zero square in `Q_p`.
+//!
+//! # Lemma P (odd p) — common practice; cf. [MerrimanSiksekSmart96, §5], [Cremona97, §3.6]
+//!
+//! Let `p` be odd, `F = p^m F₁` as above and `φ = F₁ mod p ≠ 0`. For a residue
+//! `r ∈ F_p` with `φ(r) ≠ 0`, every `s ≡ r (mod p)` has
+//! `F(s) = p^m·(unit ≡ φ(r) mod p)`, which is a square in `Q_p` iff `m` is
+//! even and `φ(r)` is a quadratic residue (a unit of `Z_p` is a square iff
+//! it is a square mod `p`, by Hensel's lemma). So:
+//!
+//! * `m` even and some `φ(r)` a non-zero residue: **soluble**, witness
+//!   `t₀ + p^k r`.
+//! * otherwise only the roots `r` of `φ` can carry solutions, and the
+//!   class is replaced by the classes `t₀ + p^k r + p^{k+1} Z_p`, with
+//!   class polynomial `F(r + p s)`, whose content exceeds `m` (all its
+//!   coefficients are divisible by `p^{m+1}`).
+//!
+//! # Lemma T (p = 2) — common practice; cf. [MerrimanSiksekSmart96, §5], [Siksek95]
+//!
+//! A unit of `Z_2` is a square iff it is `≡ 1 mod 8` [Serre73, II.3.3].
+//! With `F = 2^m F₁`, `a₀ = F₁(0)` and `μ = min_{i≥1} v(F₁ᵢ)` (`∞` if `F₁` is
+//! constant):
+//!
+//! * if `F(0) ≠ 0` is a square in `Q_2`: **soluble**, witness `t₀`;
+//! * if `a₀` is odd and `μ ≥ 1`, then `F₁(s) ≡ a₀ (mod 2^μ)` for all
+//!   `s ∈ Z_2`, so `v(F(s)) = m` for all `s`, and the class **dies** if
+//!   `m` is odd, or `μ ≥ 3` (then `F₁(s) ≡ a₀ ≢ 1 mod 8`), or `μ = 2` and
+//!   `a₀ ≡ 3 (mod 4)`;
+//! * otherwise the class is split into `t₀ + 2^k r + 2^{k+1}Z_2`, `r ∈ {0, 1}`.
+//!
+//! # Termination (both cases)
+//!
+//! Along a chain of nested classes that never dies, either the content
+//! `m` grows (odd p: at every step; p = 2: within every 4 steps, because
+//! `μ` grows by at least 1 per step while `v(a₀)` stays put once `a₀` is
+//! odd), so the classes shrink to a root `α ∈ Z_p` of `f`. If `f` has no
+//! root in the chart, every chain dies and the search ends: **insoluble**.
+//! If `α` is a root, put `δ = v(f'(α))`; for `k > δ` the class of `α` has
+//! `F(s) = f'(α) p^k (s + τ)(1 + p·(…))`, so (odd p) `φ` is linear and takes
+//! a non-zero residue value as soon as `m = k + δ` is even, i.e. within two
+//! more steps; (p = 2) the neighbouring class at distance `2^k` reaches
+//! `μ ≥ 3` within three more steps and its unit parts run through all odd
+//! residues mod 8. The classes are processed breadth first, so the chain
+//! of the root itself (which never dies) cannot hide these witnesses: the
+//! search stops at depth about `δ + 4 ≤ v(Δ) + 4`.
+//!
+//! # Large primes (odd p ≥ [`ENUMERATION_LIMIT`])
+//!
+//! Looping over `r ∈ F_p` is replaced by three exact facts:
+//!
+//! * **Weil's bound** [LidlNiederreiter97, Thm. 5.41]: if `φ` is not a
+//!   constant times a square in `F_p[x]` and has `d ≤ 4` distinct roots in
+//!   `F̄_p`, then `|Σ_{r∈F_p} χ(φ(r))| ≤ (d − 1)√p ≤ 3√p`. The number of
+//!   `r` with `φ(r)` a non-zero square is `(p − Z + Σχ)/2 ≥ (p − 4 − 3√p)/2`
+//!   (`Z ≤ 4` the number of roots in `F_p`), which is positive for `p > 16`.
+//!   So when `m` is even the class is **soluble**; a witness is found by
+//!   testing `r = 0, 1, 2, …` in order (expected about two tries; the scan
+//!   is bounded by the count above and charged to the budget).
+//! * If `φ = c·h²` with `c` a residue, any `r` with `h(r) ≠ 0` is a witness
+//!   (`deg h ≤ 2`, so one of `r = 0, 1, 2` works); if `c` is a non-residue,
+//!   no `r` with `φ(r) ≠ 0` is, and only the roots of `h` are refined.
+//! * The roots of `φ` in `F_p` come from `gcd(φ, x^p − x)` and
+//!   equal-degree splitting (module `fp`), `O(log p)` polynomial products.
+//!
+//! So the cost at a prime `p` is polynomial in `log p` and in the size of
+//! the coefficients: at most 4 classes per level, depth `≤ v_p(Δ) + 4`.
+
+use super::form::Quartic;
+use super::fp;
+use crate::budget::Budget;
+use crate::error::Result;
+use crate::local::{legendre, split_valuation, Prime};
+use num_bigint::BigInt;
+use num_integer::Integer;
+use num_traits::{One, ToPrimitive, Zero};
+use std::collections::VecDeque;
+
+/// Odd primes below this bound are handled by looping over all residues
+/// `r ∈ F_p`; from this bound on by Weil's bound and root finding (Weil's
+/// argument needs `p > 16`).
+pub const ENUMERATION_LIMIT: u64 = 64;
+
+/// Which chart a class lives in.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+enum Chart {
+    /// `(t : 1)`, `t ∈ Z_p`.
+    Affine,
+    /// `(1 : t)`, `t ∈ pZ_p`.
+    Infinity,
+}
+
+/// The class `t ∈ base + scale·Z_p` of a chart, with class polynomial
+/// `poly(s) = f(base + scale·s) / p^(2j)` (lowest degree first).
+#[derive(Debug, Clone)]
+struct Class {
+    chart: Chart,
+    base: BigInt,
+    scale: BigInt,
+    poly: Vec<BigInt>,
+}
+
+impl Class {
+    fn witness(&self, r: &BigInt) -> (BigInt, BigInt) {
+        let t = &self.base + &self.scale * r;
+        match self.chart {
+            Chart::Affine => (t, BigInt::one()),
+            Chart::Infinity => (BigInt::one(), t),
+        }
+    }
+
+    /// The class `base + scale·(r + p·Z_p)`, polynomial `F(r + p s)`.
+    fn child(&self, r: &BigInt, p: &BigInt) -> Class {
+        Class {
+            chart: self.chart,
+            base: &self.base + &self.scale * r,
+            scale: &self.scale * p,
+            poly: shift_scale(&self.poly, r, p),
+        }
+    }
+}
+
+/// `G(s) = F(r + p s)`: Taylor shift by `r` (synthetic division), then scale
+/// coefficient `i` by `pⁱ`.
+fn shift_scale(f: &[BigInt], r: &BigInt, p: &BigInt) -> Vec<BigInt> {
+    let mut c = f.to_vec();
+    let n = c.len();
+    for i in 0..n {
+        for j in (i..n.saturating_sub(1)).rev() {
+            let t = &c[j + 1] * r;
+            c[j] += t;
+        }
+    }
+    let mut pw = BigInt::one();
+    for ci in c.iter_mut() {
+        *ci *= &pw;
+        pw *= p;
+    }
+    c
+}
+
+/// The two starting classes: `g(t, 1)` on `Z_p` and `g(1, p t)` on `Z_p`.
+fn initial_classes(q: &Quartic, p: &BigInt) -> VecDeque<Class> {
+    let c = q.coeffs();
+    let affine: Vec<BigInt> = c.iter().rev().cloned().collect();
+    let mut pw = BigInt::one();
+    let infinity: Vec<BigInt> = c
+        .iter()
+        .map(|ci| {
+            let v = ci * &pw;
+            pw *= p;
+            v
+        })
+        .collect();
+    VecDeque::from(vec![
+        Class {
+            chart: Chart::Affine,
+            base: BigInt::zero(),
+            scale: BigInt::one(),
+            poly: affine,
+        },
+        Class {
+            chart: Chart::Infinity,
+            base: BigInt::zero(),
+            scale: p.clone(),
+            poly: infinity,
+        },
+    ])
+}
+
+/// Content valuation `m` of a non-zero polynomial and the quotient `F/p^m`.
+fn content_split(f: &[BigInt], p: &Prime) -> (u64, Vec<BigInt>) {
+    let m = f
+        .iter()
+        .filter_map(|c| split_valuation(c, p).map(|(v, _)| v))
+        .min()
+        .unwrap_or(0);
+    let pm = num_traits::pow(p.get().clone(), m as usize);
+    (m, f.iter().map(|c| c / &pm).collect())
+}
+
+/// Divides `F` by `p^(2⌊m/2⌋)` (keeps numbers small; the parity of the
+/// content and `F₁` are unchanged).
+fn strip_even_power(f: &[BigInt], m: u64, p: &BigInt) -> Vec<BigInt> {
+    let e = (m / 2) * 2;
+    if e == 0 {
+        return f.to_vec();
+    }
+    let pe = num_traits::pow(p.clone(), e as usize);
+    f.iter().map(|c| c / &pe).collect()
+}
+
+/// True iff the integer `n ≠ 0` is a square in `Q_p` (exact: `v` even and
+/// the unit part a residue mod `p`, or `≡ 1 mod 8` at 2).
+fn is_nonzero_padic_square(n: &BigInt, p: &Prime) -> bool {
+    match split_valuation(n, p) {
+        None => false,
+        Some((v, u)) => {
+            v % 2 == 0
+                && if p.is_two() {
+                    u.mod_floor(&BigInt::from(8)).is_one()
+                } else {
+                    legendre(&u, p).map(|s| s == 1).unwrap_or(false)
+                }
+        }
+    }
+}
+
+/// Decides `C(Q_p) ≠ ∅` for an odd prime `p` by Lemma P (small `p`) or
+/// Lemma P with the large-prime facts; returns a witness `(x, z)`
+/// (coprime to `p` jointly) with `g(x, z)` a non-zero square in `Q_p`, or
+/// `None` when there is no `Q_p`-point.
+///
+/// Budget: one unit per class and per residue tested; `16·log₂ p` per
+/// polynomial exponentiation.
+pub(crate) fn odd_prime_witness(q: &Quartic, p: &Prime, budget: &mut Budget) -> Result<Option<(BigInt, BigInt)>> {
+    const STAGE: &str = "local solubility at an odd prime";
+    let pb = p.get();
+    let small = p.to_u64().filter(|&v| v < ENUMERATION_LIMIT);
+    let mut queue = initial_classes(q, pb);
+    while let Some(class) = queue.pop_front() {
+        fp::charge(budget, 1, STAGE)?;
+        let (m, f1) = content_split(&class.poly, p);
+        let class = Class {
+            poly: strip_even_power(&class.poly, m, pb),
+            ..class
+        };
+        let phi = fp::reduce(&f1, pb);
+        let even = m % 2 == 0;
+        let mut children: Vec<BigInt> = Vec::new();
+        if let Some(ps) = small {
+            for r in 0..ps {
+                fp::charge(budget, 1, STAGE)?;
+                let r = BigInt::from(r);
+                let val = fp::eval(&phi, &r, pb);
+                if val.is_zero() {
+                    children.push(r);
+                } else if even && legendre(&val, p)? == 1 {
+                    return Ok(Some(class.witness(&r)));
+                }
+            }
+        } else {
+            if even {
+                match fp::constant_times_square(&phi, pb) {
+                    None => {
+                        // Weil: a witness exists; scan r = 0, 1, 2, ….
+                        let mut r = BigInt::zero();
+                        loop {
+                            fp::charge(budget, 1 + pb.bits() / 8, STAGE)?;
+                            let val = fp::eval(&phi, &r, pb);
+                            if !val.is_zero() && legendre(&val, p)? == 1 {
+                                return Ok(Some(class.witness(&r)));
+                            }
+                            r += 1;
+                        }
+                    }
+                    Some(c) if legendre(&c, p)? == 1 => {
+                        let mut r = BigInt::zero();
+                        loop {
+                            fp::charge(budget, 1, STAGE)?;
+                            if !fp::eval(&phi, &r, pb).is_zero() {
+                                return Ok(Some(class.witness(&r)));
+                            }
+                            r += 1;
+                        }
+                    }
+                    Some(_) => {}
+                }
+            }
+            children = fp::roots(&phi, pb, budget)?;
+        }
+        for r in children {
+            queue.push_back(class.child(&r, pb));
+        }
+    }
+    Ok(None)
+}
+
+/// Decides `C(Q_2) ≠ ∅` by Lemma T; returns a witness `(x, z)` (not both
+/// even) with `g(x, z)` a non-zero square in `Q_2`, or `None`.
+///
+/// Budget: one unit per class.
+pub(crate) fn two_adic_witness(q: &Quartic, budget: &mut Budget) -> Result<Option<(BigInt, BigInt)>> {
+    const STAGE: &str = "local solubility at 2";
+    let two_p = Prime::two();
+    let two = BigInt::from(2);
+    let mut queue = initial_classes(q, &two);
+    while let Some(class) = queue.pop_front() {
+        fp::charge(budget, 1, STAGE)?;
+        let (m, f1) = content_split(&class.poly, &two_p);
+        let class = Class {
+            poly: strip_even_power(&class.poly, m, &two),
+            ..class
+        };
+        let f0 = &class.poly[0];
+        if !f0.is_zero() && is_nonzero_padic_square(f0, &two_p) {
+            return Ok(Some(class.witness(&BigInt::zero())));
+        }
+        let a0 = &f1[0];
+        let mu = f1[1..]
+            .iter()
+            .filter_map(|c| split_valuation(c, &two_p).map(|(v, _)| v))
+            .min();
+        if a0.is_odd() && mu.map_or(true, |u| u >= 1) {
+            let mu = mu.unwrap_or(u64::MAX);
+            let a0_mod4 = a0.mod_floor(&BigInt::from(4)).to_u8().unwrap_or(0);
+            if m % 2 == 1 || mu >= 3 || (mu == 2 && a0_mod4 == 3) {
+                continue;
+            }
+        }
+        for r in [BigInt::zero(), BigInt::one()] {
+            queue.push_back(class.child(&r, &two));
+        }
+    }
+    Ok(None)
+}
+
+/// `true` iff `n` is a non-zero square in `Q_p`; used by callers that want
+/// the same exact test (the verifier has its own independent copy).
+pub(crate) fn is_padic_square(n: &BigInt, p: &Prime) -> bool {
+    !n.is_zero() && is_nonzero_padic_square(n, p)
+}
+
+/// `v_p(n)` for `n ≠ 0`, as `u32` (saturating).
+pub(crate) fn val_u32(n: &BigInt, p: &Prime) -> u32 {
+    split_valuation(n, p)
+        .map(|(v, _)| v.min(u32::MAX as u64) as u32)
+        .unwrap_or(0)
+}

@@ -1,0 +1,451 @@
+//! Linear algebra over F2 on bit-packed vectors.
+//!
+//! A vector of length n is `⌈n/64⌉` machine words; addition is XOR, so row
+//! reduction of an m × n matrix costs O(m · rank · n/64) word operations.
+//! Subspaces are kept as a basis in reduced row-echelon form, which makes
+//! membership, sums, intersections, kernels and preimages short loops of
+//! word operations. Everything is exact and deterministic.
+
+use std::fmt;
+
+/// A vector in F2^n, bit-packed.
+#[derive(Clone, PartialEq, Eq, Hash, PartialOrd, Ord)]
+pub struct BitVec {
+    len: usize,
+    words: Vec<u64>,
+}
+
+impl BitVec {
+    /// The zero vector of length `len`.
+    pub fn zeros(len: usize) -> Self {
+        BitVec {
+            len,
+            words: vec![0; len.div_ceil(64)],
+        }
+    }
+
+    /// The i-th unit vector of length `len` (`None` if i ≥ len).
+    pub fn unit(len: usize, i: usize) -> Option<Self> {
+        let mut v = Self::zeros(len);
+        v.set(i, true).then_some(v)
+    }
+
+    /// The vector with the given bits (bit i of `bits` is coordinate i);
+    /// `len` must be at most 64.
+    pub fn from_u64(len: usize, bits: u64) -> Self {
+        let mut v = Self::zeros(len);
+        if let Some(w) = v.words.first_mut() {
+            let mask = if len >= 64 { u64::MAX } else { (1u64 << len) - 1 };
+            *w = bits & mask;
+        }
+        v
+    }
+
+    /// The vector from a list of booleans.
+    pub fn from_bools(bits: &[bool]) -> Self {
+        let mut v = Self::zeros(bits.len());
+        for (i, &b) in bits.iter().enumerate() {
+            v.set(i, b);
+        }
+        v
+    }
+
+    /// Length n.
+    pub fn len(&self) -> usize {
+        self.len
+    }
+
+    /// True for the empty vector (length 0).
+    pub fn is_empty(&self) -> bool {
+        self.len == 0
+    }
+
+    /// Coordinate i (false outside the range).
+    pub fn get(&self, i: usize) -> bool {
+        i < self.len && (self.words[i / 64] >> (i % 64)) & 1 == 1
+    }
+
+    /// Sets coordinate i; returns false (and does nothing) if i ≥ len.
+    pub fn set(&mut self, i: usize, bit: bool) -> bool {
+        if i >= self.len {
+            return false;
+        }
+        let m = 1u64 << (i % 64);
+        if bit {
+            self.words[i / 64] |= m;
+        } else {
+            self.words[i / 64] &= !m;
+        }
+        true
+    }
+
+    /// self += other (lengths must agree; extra bits of a longer `other` are ignored).
+    pub fn add_assign(&mut self, other: &BitVec) {
+        for (a, b) in self.words.iter_mut().zip(&other.words) {
+            *a ^= b;
+        }
+        self.trim();
+    }
+
+    /// self + other.
+    pub fn add(&self, other: &BitVec) -> BitVec {
+        let mut r = self.clone();
+        r.add_assign(other);
+        r
+    }
+
+    /// True for the zero vector.
+    pub fn is_zero(&self) -> bool {
+        self.words.iter().all(|&w| w == 0)
+    }
+
+    /// The standard dot product Σ x_i y_i in F2.
+    pub fn dot(&self, other: &BitVec) -> bool {
+        let mut acc = 0u64;
+        for (a, b) in self.words.iter().zip(&other.words) {
+            acc ^= a & b;
+        }
+        acc.count_ones() % 2 == 1
+    }
+
+    /// Index of the lowest set coordinate.
+    pub fn leading(&self) -> Option<usize> {
+        for (k, &w) in self.words.iter().enumerate() {
+            if w != 0 {
+                return Some(64 * k + w.trailing_zeros() as usize);
+            }
+        }
+        None
+    }
+
+    /// Number of set coordinates.
+    pub fn weight(&self) -> usize {
+        self.words.iter().map(|w| w.count_ones() as usize).sum()
+    }
+
+    /// Indices of the set coordinates, ascending.
+    pub fn ones(&self) -> impl Iterator<Item = usize> + '_ {
+        (0..self.len).filter(move |&i| self.get(i))
+    }
+
+    /// Concatenation (self, other).
+    pub fn concat(&self, other: &BitVec) -> BitVec {
+        let mut r = BitVec::zeros(self.len + other.len);
+        for i in self.ones() {
+            r.set(i, true);
+        }
+        for i in other.ones() {
+            r.set(self.len + i, true);
+        }
+        r
+    }
+
+    /// Coordinates [start, start + len) as a vector.
+    pub fn slice(&self, start: usize, len: usize) -> BitVec {
+        let mut r = BitVec::zeros(len);
+        for i in 0..len {
+            if self.get(start + i) {
+                r.set(i, true);
+            }
+        }
+        r
+    }
+
+    fn trim(&mut self) {
+        if self.len % 64 != 0 {
+            if let Some(w) = self.words.last_mut() {
+                *w &= (1u64 << (self.len % 64)) - 1;
+            }
+        }
+    }
+}
+
+impl fmt::Debug for BitVec {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        write!(f, "{self}")
+    }
+}
+
+impl fmt::Display for BitVec {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        for i in 0..self.len {
+            write!(f, "{}", u8::from(self.get(i)))?;
+        }
+        Ok(())
+    }
+}
+
+/// A subspace of F2^n, held as a basis in reduced row-echelon form
+/// (leading coordinates strictly increasing, each leading coordinate zero in
+/// every other basis vector).
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub struct Subspace {
+    ambient: usize,
+    basis: Vec<BitVec>,
+}
+
+impl Subspace {
+    /// The zero subspace of F2^n.
+    pub fn zero(ambient: usize) -> Self {
+        Subspace {
+            ambient,
+            basis: Vec::new(),
+        }
+    }
+
+    /// The whole space F2^n.
+    pub fn full(ambient: usize) -> Self {
+        Self::span(ambient, (0..ambient).filter_map(|i| BitVec::unit(ambient, i)))
+    }
+
+    /// The span of the given vectors (each of length `ambient`).
+    pub fn span<I: IntoIterator<Item = BitVec>>(ambient: usize, vectors: I) -> Self {
+        let mut s = Self::zero(ambient);
+        for v in vectors {
+            s.insert(v);
+        }
+        s
+    }
+
+    /// Dimension of the ambient space.
+    pub fn ambient(&self) -> usize {
+        self.ambient
+    }
+
+    /// Dimension of the subspace.
+    pub fn dim(&self) -> usize {
+        self.basis.len()
+    }
+
+    /// The echelon basis.
+    pub fn basis(&self) -> &[BitVec] {
+        &self.basis
+    }
+
+    /// Reduces v modulo the subspace: the result is zero iff v lies in it,
+    /// and is zero at every leading coordinate of the basis.
+    pub fn reduce(&self, v: &BitVec) -> BitVec {
+        let mut r = v.clone();
+        for b in &self.basis {
+            if let Some(l) = b.leading() {
+                if r.get(l) {
+                    r.add_assign(b);
+                }
+            }
+        }
+        r
+    }
+
+    /// True iff v lies in the subspace.
+    pub fn contains(&self, v: &BitVec) -> bool {
+        self.reduce(v).is_zero()
+    }
+
+    /// Adds v to the spanning set; returns true iff the dimension grew.
+    pub fn insert(&mut self, v: BitVec) -> bool {
+        let r = self.reduce(&v);
+        let Some(l) = r.leading() else {
+            return false;
+        };
+        for b in &mut self.basis {
+            if b.get(l) {
+                b.add_assign(&r);
+            }
+        }
+        let pos = self
+            .basis
+            .iter()
+            .position(|b| b.leading().is_some_and(|bl| bl > l))
+            .unwrap_or(self.basis.len());
+        self.basis.insert(pos, r);
+        true
+    }
+
+    /// The sum U + V.
+    pub fn sum(&self, other: &Subspace) -> Subspace {
+        let mut s = self.clone();
+        for b in &other.basis {
+            s.insert(b.clone());
+        }
+        s
+    }
+
+    /// The intersection U ∩ V (Zassenhaus: reduce the rows (u, u) and
+    /// (v, 0); rows of the form (0, w) span the intersection).
+    pub fn intersection(&self, other: &Subspace) -> Subspace {
+        let n = self.ambient;
+        let rows = self
+            .basis
+            .iter()
+            .map(|u| u.concat(u))
+            .chain(other.basis.iter().map(|v| v.concat(&BitVec::zeros(n))));
+        let big = Subspace::span(2 * n, rows);
+        let vecs = big
+            .basis
+            .iter()
+            .filter(|r| r.leading().is_some_and(|l| l >= n))
+            .map(|r| r.slice(n, n));
+        Subspace::span(n, vecs)
+    }
+
+    /// Every element of the subspace (2^dim of them); `None` if dim > 24.
+    pub fn elements(&self) -> Option<Vec<BitVec>> {
+        if self.dim() > 24 {
+            return None;
+        }
+        let mut out = vec![BitVec::zeros(self.ambient)];
+        for b in &self.basis {
+            let more: Vec<BitVec> = out.iter().map(|v| v.add(b)).collect();
+            out.extend(more);
+        }
+        Some(out)
+    }
+
+    /// The annihilator {f : f · u = 0 for all u in U}, as a subspace of the
+    /// dual F2^n (identified with F2^n by the dot product).
+    pub fn annihilator(&self) -> Subspace {
+        let m = LinearMap::from_rows(self.ambient, self.basis.clone());
+        m.kernel()
+    }
+
+    /// A basis of a complement of `self` inside `larger` (which must contain
+    /// `self`): vectors whose classes form a basis of larger / self.
+    pub fn complement_in(&self, larger: &Subspace) -> Vec<BitVec> {
+        let mut s = self.clone();
+        let mut out = Vec::new();
+        for b in &larger.basis {
+            if s.insert(b.clone()) {
+                out.push(b.clone());
+            }
+        }
+        out
+    }
+}
+
+/// A linear map F2^n → F2^m given by its m rows (each of length n): the
+/// image of x has coordinate i equal to row_i · x.
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub struct LinearMap {
+    source: usize,
+    rows: Vec<BitVec>,
+}
+
+impl LinearMap {
+    /// The map with the given rows, each a vector in F2^source.
+    pub fn from_rows(source: usize, rows: Vec<BitVec>) -> Self {
+        LinearMap { source, rows }
+    }
+
+    /// The map whose j-th column is `columns[j]` (all of length `target`).
+    pub fn from_columns(target: usize, columns: &[BitVec]) -> Self {
+        let n = columns.len();
+        let rows = (0..target)
+            .map(|i| BitVec::from_bools(&columns.iter().map(|c| c.get(i)).collect::<Vec<_>>()))
+            .collect::<Vec<_>>();
+        debug_assert!(rows.iter().all(|r| r.len() == n));
+        LinearMap { source: n, rows }
+    }
+
+    /// Dimension of the source.
+    pub fn source(&self) -> usize {
+        self.source
+    }
+
+    /// Dimension of the target.
+    pub fn target(&self) -> usize {
+        self.rows.len()
+    }
+
+    /// The image of x.
+    pub fn apply(&self, x: &BitVec) -> BitVec {
+        BitVec::from_bools(&self.rows.iter().map(|r| r.dot(x)).collect::<Vec<_>>())
+    }
+
+    /// The rank.
+    pub fn rank(&self) -> usize {
+        Subspace::span(self.source, self.rows.iter().cloned()).dim()
+    }
+
+    /// The kernel {x : Ax = 0}: the annihilator of the row space, computed
+    /// from the reduced echelon form (free columns give the basis).
+    pub fn kernel(&self) -> Subspace {
+        let echelon = Subspace::span(self.source, self.rows.iter().cloned());
+        let pivots: Vec<usize> = echelon.basis.iter().filter_map(|b| b.leading()).collect();
+        let mut ker = Subspace::zero(self.source);
+        for free in (0..self.source).filter(|c| !pivots.contains(c)) {
+            let mut v = BitVec::zeros(self.source);
+            v.set(free, true);
+            for (b, &p) in echelon.basis.iter().zip(&pivots) {
+                if b.get(free) {
+                    v.set(p, true);
+                }
+            }
+            ker.insert(v);
+        }
+        ker
+    }
+
+    /// The image: the span of the columns.
+    pub fn image(&self) -> Subspace {
+        let m = self.target();
+        Subspace::span(
+            m,
+            (0..self.source).filter_map(|j| {
+                BitVec::unit(self.source, j).map(|e| self.apply(&e))
+            }),
+        )
+    }
+
+    /// The preimage A^{-1}(W) of a subspace W of the target.
+    pub fn preimage(&self, w: &Subspace) -> Subspace {
+        // x ∈ A^{-1}(W) iff f(Ax) = 0 for every f in the annihilator of W.
+        let ann = w.annihilator();
+        let rows: Vec<BitVec> = ann
+            .basis()
+            .iter()
+            .map(|f| {
+                let mut row = BitVec::zeros(self.source);
+                for i in f.ones() {
+                    if let Some(r) = self.rows.get(i) {
+                        row.add_assign(r);
+                    }
+                }
+                row
+            })
+            .collect();
+        LinearMap::from_rows(self.source, rows).kernel()
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn a_vector_lies_in_the_span_of_itself_and_not_of_an_independent_one() {
+        let a = BitVec::from_u64(5, 0b10110);
+        let b = BitVec::from_u64(5, 0b00011);
+        let s = Subspace::span(5, [a.clone()]);
+        assert!(s.contains(&a));
+        assert!(!s.contains(&b));
+        let t = Subspace::span(5, [a.clone(), b.clone(), a.add(&b)]);
+        assert_eq!(t.dim(), 2);
+        assert!(t.contains(&a.add(&b)));
+    }
+
+    #[test]
+    fn rank_nullity_holds_for_a_small_map() {
+        let rows = vec![
+            BitVec::from_u64(4, 0b0011),
+            BitVec::from_u64(4, 0b0110),
+            BitVec::from_u64(4, 0b0101),
+        ];
+        let m = LinearMap::from_rows(4, rows);
+        assert_eq!(m.rank(), 2);
+        let k = m.kernel();
+        assert_eq!(k.dim(), 2);
+        for v in k.elements().unwrap() {
+            assert!(m.apply(&v).is_zero());
+        }
+    }
+}
