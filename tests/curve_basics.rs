@@ -170,7 +170,7 @@ fn completing_the_square_and_cube_gives_the_c4_c6_short_model() {
 
 #[test]
 fn points_move_between_models_both_ways() {
-    let e: Curve = "1 -1 1 -10 -20".parse().unwrap();
+    let e: Curve = "0 -1 1 -10 -20".parse().unwrap();
     let p = Point::from_ints(5, 5);
     assert!(e.contains(&p));
     let ch = ModelChange::new(r(2, 3), r(1, 5), r(-7, 2), r(3, 1)).unwrap();

@@ -1,9 +1,10 @@
 //! Tests of the sieved point search on quartics `y² = g(x, z)`.
 
 use isodescent::quartic::search::{
-    search, search_all, search_report, Congruence, QuarticPoint, SearchOptions, SearchOutcome,
-    MAX_HEIGHT,
+    search, search_all, search_all_quartic, search_quartic, search_report, Congruence,
+    QuarticPoint, SearchOptions, SearchOutcome, MAX_HEIGHT,
 };
+use isodescent::quartic::Quartic;
 use isodescent::{Budget, Error};
 use num_bigint::BigInt;
 use num_integer::Integer;
@@ -196,20 +197,21 @@ fn fermats_quartics_have_only_their_trivial_points() {
 
 #[test]
 fn a_point_of_height_near_five_thousand_with_huge_values_is_found() {
-    // g(x0, z0) = q(x0, z0)² with coefficients near 10^15, so g(x, z) is
-    // far beyond i128 at this height and the exact test must use BigInt.
+    // g(x0, z0) = q(x0, z0)² with a coefficient near 10^24, beyond i64, so
+    // the exact test must run in BigInt.
     let (x0, z0) = (-4999, 4001);
-    let q = [999_999_937, -1_000_003, 7];
+    let q = [999_999_999_937, -1_000_003, 7];
     let c = [1_000_000_007, 3, -5, 999_999_999_989];
     let g = through(q, c, x0, z0);
     assert!(!degenerate(&g));
+    assert!(g.iter().any(|c| i64::try_from(c).is_err()));
     let pts = search_all(&g, &SearchOptions::up_to(5000), &mut Budget::unlimited()).unwrap();
     let p = pts
         .iter()
         .find(|p| p.x == BigInt::from(x0) && p.z == BigInt::from(z0))
         .expect("the chosen point");
     assert!(p.lies_on(&g));
-    assert!(p.y.bits() > 128);
+    assert!(p.y.bits() > 64);
 }
 
 #[test]
@@ -305,4 +307,16 @@ fn the_first_point_is_the_least_in_the_search_order() {
         y: BigInt::from(3),
     };
     assert_eq!(out, SearchOutcome::Found(expected));
+}
+
+#[test]
+fn the_quartic_wrappers_search_the_same_form() {
+    // y² = x⁴ + z⁴: only (1, 0, 1) and (0, 1, 1) (Fermat, as above).
+    let q = Quartic::from_i64([1, 0, 0, 0, 1]).unwrap();
+    let opts = SearchOptions::up_to(200);
+    let pts = search_all_quartic(&q, &opts, &mut Budget::unlimited()).unwrap();
+    assert_eq!(pts, search_all(q.coeffs(), &opts, &mut Budget::unlimited()).unwrap());
+    assert_eq!(pts.len(), 2);
+    let first = search_quartic(&q, &opts, &mut Budget::unlimited()).unwrap();
+    assert_eq!(first, SearchOutcome::Found(pts[0].clone()));
 }

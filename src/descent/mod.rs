@@ -27,6 +27,7 @@
 //! lower bound k + k' − 2. Independence is certified by the F2 images, not
 //! by heights.
 
+pub mod batch;
 pub mod bounds;
 pub mod options;
 pub mod report;
@@ -34,6 +35,7 @@ pub mod side;
 
 use num_bigint::BigInt;
 
+pub use batch::{is_skipped_line, json_for_line};
 pub use options::DescentOptions;
 pub use report::DescentReport;
 pub use side::{ClassStatus, SelmerElement, SelmerSide};

@@ -76,7 +76,11 @@ impl DescentReport {
         s.push_str(&points_json(&self.points));
         let _ = write!(s, ",\"torsion_order\":{}", self.torsion.order());
         let (n1, n2) = self.torsion.structure();
-        let _ = write!(s, ",\"torsion_structure\":[{n1},{n2}]");
+        if n2 <= 1 {
+            let _ = write!(s, ",\"torsion_structure\":[{n1}]");
+        } else {
+            let _ = write!(s, ",\"torsion_structure\":[{n2},{n1}]");
+        }
         s.push_str(",\"selmer\":[");
         for (i, d) in self.isogenies.iter().enumerate() {
             if i > 0 {
@@ -266,10 +270,10 @@ impl fmt::Display for DescentReport {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
         writeln!(f, "E: [a1, a2, a3, a4, a6] = [{}]", self.curve)?;
         let (n1, n2) = self.torsion.structure();
-        let structure = if n1 <= 1 {
-            format!("Z/{n2}")
+        let structure = if n2 <= 1 {
+            format!("Z/{n1}")
         } else {
-            format!("Z/{n1} x Z/{n2}")
+            format!("Z/{n2} x Z/{n1}")
         };
         writeln!(f, "torsion: {structure} (order {})", self.torsion.order())?;
         let verdict = if self.is_decided() {

@@ -115,7 +115,7 @@ impl Quartic {
     /// `(x, z) = (M, e)`, and `y = d₁·N`. When `d | b`, `d₁ = ±1` and this is
     /// `[d, 0, a, 0, b/d]` exactly.
     ///
-    /// Its discriminant is `16·d₁⁸·b·(a² − 4b)²` (computed symbolically:
+    /// Its discriminant is `16·d₁¹²·b·(a² − 4b)²` (computed symbolically:
     /// `Δ(dM⁴ + aM² + (b/d)) = 16 b (a² − 4b)²`), so it is non-degenerate
     /// iff `b(a² − 4b) ≠ 0`, i.e. iff `E` is non-singular.
     ///

@@ -6,7 +6,7 @@
 //! [`Quartic::two_isogeny_space`]. Let `p` be an odd prime with
 //! `p ∤ d·b·(a² − 4b)`. The integral model of `C_d` is
 //! `[d·d₁², 0, a·d₁², 0, (b/h)·d₁]` with `d₁ | d`, a `p`-unit, and its
-//! discriminant `16·d₁⁸·b·(a² − 4b)²` is a `p`-unit. So `C_d` reduces mod `p`
+//! discriminant `16·d₁¹²·b·(a² − 4b)²` is a `p`-unit. So `C_d` reduces mod `p`
 //! to a smooth curve of genus one, which has at least
 //! `p + 1 − 2√p > 0` points over `F_p` by the Hasse–Weil bound
 //! [Silverman09, V.1.1]; a smooth `F_p`-point lifts to a `Q_p`-point by

@@ -34,9 +34,10 @@
 //! and, when `m` is a power of the prime `p`, not both `p | x` and `p | z`.
 //! If `g(x, z)` is a square and `gcd(x, z) = 1`, then `x mod m ∈ S(m, z)` for
 //! every `m`; this is the classical necessary condition behind every sieve
-//! for squares (common practice). The moduli used are
-//! `64, 27, 25, 49` and the primes `11 ≤ p ≤ 113`, plus any caller
-//! [`Congruence`]s. `S(m, z)` depends only on `z mod m`; it is stored as an
+//! for squares (common practice). The moduli are taken from the list
+//! `64, 27, 25, 49` and the primes `11 ≤ p ≤ 109`, in that order, the first
+//! `log₂(row length) + 6` of them (so that the expected number of survivors
+//! per row is well below one), plus any caller [`Congruence`]s. `S(m, z)` depends only on `z mod m`; it is stored as an
 //! `m`-bit mask, computed once per residue class of `z` (with `u64`
 //! arithmetic on the coefficients reduced modulo `m` once). For a row, the
 //! candidates `x` of an interval are packed 64 to a machine word, and for
@@ -55,8 +56,9 @@
 //! `6/π²` [HardyWright, Thm. 332]). The sieve touches each of the `≈ 2H²`
 //! pairs as one bit of a word, a few word operations per 64 pairs, and runs
 //! the exact test on a fraction of about `2^-k` of them after `k` moduli.
-//! Memory is `O(min(H, 2¹⁸))` bits for the row buffer plus `O(Σ m²)` bits
-//! for the residue masks; nothing grows like `H²`.
+//! Memory is `O(min(H, 2¹⁸))` bits for the row buffer (rows longer than
+//! `2¹⁸` are cut into chunks) plus `O(Σ m²)` bits for the residue masks;
+//! nothing grows like `H²`. Measured throughput is in `docs/performance.md`.
 //!
 //! # Budget
 //! The search charges its [`Budget`] one unit per 64 candidate `x` of a row
@@ -64,6 +66,7 @@
 //! sieve survivor. The charges depend only on the input, so a given budget
 //! always stops at the same place.
 
+use super::form::Quartic;
 use crate::budget::Budget;
 use crate::error::{Error, Result};
 use num_bigint::BigInt;
@@ -410,6 +413,37 @@ pub fn search_report(
     run_search(coeffs, options, budget, false)
 }
 
+/// [`search`] for a [`Quartic`]: the first point of `y² = g(x, z)` in the
+/// search order, among the pairs of height `≤ options.height`.
+///
+/// Same cases, errors (a `Quartic` is never degenerate) and cost as
+/// [`search`].
+///
+/// Example: for `Quartic::from_i64([1, 0, 0, 0, 3])` the first point is
+/// `(1, 0, 1)`.
+pub fn search_quartic(
+    quartic: &Quartic,
+    options: &SearchOptions,
+    budget: &mut Budget,
+) -> Result<SearchOutcome> {
+    search(quartic.coeffs(), options, budget)
+}
+
+/// [`search_all`] for a [`Quartic`]: every point of height
+/// `≤ options.height`, in search order.
+///
+/// Same errors and cost as [`search_all`].
+///
+/// Example: for `Quartic::from_i64([1, 0, 0, 0, 1])` (`y² = x⁴ + z⁴`) the
+/// points are `(1, 0, 1)` and `(0, 1, 1)` at every height `≥ 1`.
+pub fn search_all_quartic(
+    quartic: &Quartic,
+    options: &SearchOptions,
+    budget: &mut Budget,
+) -> Result<Vec<QuarticPoint>> {
+    search_all(quartic.coeffs(), options, budget)
+}
+
 // ---------------------------------------------------------------------------
 // Driver
 
@@ -552,17 +586,22 @@ fn isqrt_u128(n: u128) -> u128 {
 // The sieve
 
 /// One sieve modulus with its lazily computed residue masks.
+///
+/// Row `r` (the mask `S(m, z)` for `z ≡ r mod m`) is stored *periodically
+/// extended*: bit `t` of `rows[r*wpr ..]` is bit `t mod m` of the mask, for
+/// every `t < 64·wpr`, and `wpr = ⌈m/64⌉ + 1`, so the 64 bits starting at any
+/// offset `o < m` are read from two consecutive words.
 struct Modulus {
     m: u32,
-    /// Words per row mask.
+    /// Words per extended row.
     wpr: usize,
-    /// Row masks: row `r` (for `z ≡ r mod m`) is `rows[r*wpr .. (r+1)*wpr]`.
+    /// The extended row masks.
     rows: Vec<u64>,
     /// `|S(m, r)|`, or `u32::MAX` if row `r` is not computed yet.
     pop: Vec<u32>,
     /// What defines the rows.
     kind: ModKind,
-    /// 64-bit windows of the current row at every offset.
+    /// 64-bit windows of one row at every offset, built for long rows.
     windows: Vec<u64>,
     /// The row whose windows are in `windows` (`u32::MAX`: none).
     windows_row: u32,
@@ -591,36 +630,49 @@ impl Modulus {
         for t in 0..m as u64 {
             is_square[((t * t) % m as u64) as usize] = true;
         }
-        let wpr = (m as usize).div_ceil(64);
+        let wpr = (m as usize).div_ceil(64) + 1;
         Modulus {
             m,
             wpr,
             rows: vec![0; wpr * m as usize],
             pop: vec![u32::MAX; m as usize],
             kind: ModKind::Square { p, c, is_square },
-            windows: vec![0; m as usize],
+            windows: Vec::new(),
             windows_row: u32::MAX,
         }
     }
 
     fn caller(cong: &Congruence) -> Self {
         let m = cong.modulus as u32;
-        let wpr = (m as usize).div_ceil(64);
-        let mut rows = vec![0u64; wpr * m as usize];
-        let mut pop = vec![0u32; m as usize];
-        for &(a, b) in &cong.allowed {
-            let (a, b) = (a as usize, b as usize);
-            rows[b * wpr + a / 64] |= 1 << (a % 64);
-            pop[b] += 1;
-        }
-        Modulus {
+        let wpr = (m as usize).div_ceil(64) + 1;
+        let mut md = Modulus {
             m,
             wpr,
-            rows,
-            pop,
+            rows: vec![0u64; wpr * m as usize],
+            pop: vec![0u32; m as usize],
             kind: ModKind::Caller,
-            windows: vec![0; m as usize],
+            windows: Vec::new(),
             windows_row: u32::MAX,
+        };
+        for &(a, b) in &cong.allowed {
+            let (a, b) = (a as usize, b as usize);
+            md.rows[b * wpr + a / 64] |= 1 << (a % 64);
+            md.pop[b] += 1;
+        }
+        for r in 0..m as usize {
+            md.extend_row(r);
+        }
+        md
+    }
+
+    /// Copies bits `0..m` of row `r` periodically over the rest of the row.
+    fn extend_row(&mut self, r: usize) {
+        let m = self.m as usize;
+        let row = &mut self.rows[r * self.wpr..(r + 1) * self.wpr];
+        for t in m..64 * row.len() {
+            let u = t - m;
+            let bit = (row[u / 64] >> (u % 64)) & 1;
+            row[t / 64] |= bit << (t % 64);
         }
     }
 
@@ -634,57 +686,57 @@ impl Modulus {
         if let ModKind::Square { p, c, is_square } = &self.kind {
             let m = self.m as u64;
             let zr = r as u64;
-            // d_i = c_i · z^i mod m, so g(x, z) ≡ d0 x⁴ + d1 x³ + ... + d4.
+            // d_i = c_i · z^i mod m, so g(x, z) ≡ d0 x⁴ + d1 x³ + ... + d4; with
+            // all d_i, x < m ≤ 2^7 the Horner value stays below 2^40.
             let mut d = [0u64; 5];
             let mut zp = 1u64;
-            for i in 0..5 {
-                d[i] = (c[i] * zp) % m;
+            for (di, ci) in d.iter_mut().zip(c.iter()) {
+                *di = (ci * zp) % m;
                 zp = (zp * zr) % m;
             }
-            let p_divides_z = zr % (*p as u64) == 0;
+            let p = *p as u64;
+            let p_divides_z = zr % p == 0;
             let row = &mut self.rows[ri * self.wpr..(ri + 1) * self.wpr];
+            let mut xp = 0u64; // xr mod p
             for xr in 0..m {
-                if p_divides_z && xr % (*p as u64) == 0 {
+                let coprime_ok = !(p_divides_z && xp == 0);
+                xp += 1;
+                if xp == p {
+                    xp = 0;
+                }
+                if !coprime_ok {
                     continue;
                 }
-                let mut v = d[0];
-                for &di in &d[1..] {
-                    v = (v * xr + di) % m;
-                }
-                if is_square[v as usize] {
+                let v = (((d[0] * xr + d[1]) * xr + d[2]) * xr + d[3]) * xr + d[4];
+                if is_square[(v % m) as usize] {
                     row[(xr / 64) as usize] |= 1 << (xr % 64);
                     count += 1;
                 }
             }
+            self.extend_row(ri);
         }
         self.pop[ri] = count;
         count
     }
 
-    fn row_bit(&self, r: usize, t: usize) -> u64 {
-        (self.rows[r * self.wpr + t / 64] >> (t % 64)) & 1
+    /// Bits `o, o+1, …, o+63` of the periodic row mask `r` (`o < m`).
+    #[inline(always)]
+    fn window(&self, r: usize, o: usize) -> u64 {
+        let q = r * self.wpr + (o >> 6);
+        let s = o & 63;
+        (self.rows[q] >> s) | ((self.rows[q + 1] << 1) << (63 - s))
     }
 
-    /// Fills `windows[o]` = bits `o, o+1, …, o+63` (mod m) of row `r`.
+    /// Fills `windows[o] = window(r, o)` for every offset `o < m`.
     fn ensure_windows(&mut self, r: u32) {
         if self.windows_row == r {
             return;
         }
         let m = self.m as usize;
-        let ri = r as usize;
-        let mut w = 0u64;
-        for i in 0..64 {
-            w |= self.row_bit(ri, i % m) << i;
-        }
-        let mut next = 64 % m; // index of the bit entering at the top
-        for o in 0..m {
-            self.windows[o] = w;
-            w = (w >> 1) | (self.row_bit(ri, next) << 63);
-            next += 1;
-            if next == m {
-                next = 0;
-            }
-        }
+        let mut windows = std::mem::take(&mut self.windows);
+        windows.clear();
+        windows.extend((0..m).map(|o| self.window(r as usize, o)));
+        self.windows = windows;
         self.windows_row = r;
     }
 }
@@ -696,8 +748,14 @@ struct Sieve {
     big: [BigInt; 5],
     congruences: Vec<Congruence>,
     buf: Vec<u64>,
-    /// Per-row order of the moduli.
-    order: Vec<usize>,
+    /// Per-row order of the moduli: (density key, modulus index, row).
+    keys: Vec<(u64, usize, u32)>,
+    /// Words in the current row.
+    row_words: usize,
+    /// The number of caller moduli (they come first in `moduli`).
+    n_caller: usize,
+    /// Words per chunk of a row (`CHUNK_WORDS` except in tests).
+    chunk_words: usize,
 }
 
 impl Sieve {
@@ -720,7 +778,10 @@ impl Sieve {
             big: coeffs.clone(),
             congruences: congruences.to_vec(),
             buf: Vec::new(),
-            order: Vec::new(),
+            keys: Vec::new(),
+            row_words: 0,
+            n_caller: congruences.len(),
+            chunk_words: CHUNK_WORDS,
         }
     }
 
@@ -755,38 +816,38 @@ impl Sieve {
                     }
                 }
             }
-            self.prepare_row(z);
             if z <= lo {
+                self.prepare_row(z, 2 * ((hi - lo) as usize).div_ceil(64));
                 self.sieve_interval(z as i64, -hi_i, -lo_i - 1, out, budget)?;
                 self.sieve_interval(z as i64, lo_i + 1, hi_i, out, budget)?;
             } else {
+                self.prepare_row(z, (2 * hi as usize + 1).div_ceil(64));
                 self.sieve_interval(z as i64, -hi_i, hi_i, out, budget)?;
             }
         }
         Ok(())
     }
 
-    /// Computes the row masks for `z` and orders the moduli by density.
-    fn prepare_row(&mut self, z: u64) {
-        self.order.clear();
-        for (k, md) in self.moduli.iter_mut().enumerate() {
+    /// Computes the row masks for `z` and orders the moduli by density;
+    /// `row_words` is the number of words the row will be sieved in.
+    fn prepare_row(&mut self, z: u64, row_words: usize) {
+        self.row_words = row_words;
+        self.keys.clear();
+        // About log2(candidates in the row) + 6 moduli reduce the survivors
+        // of a row to a small fraction of one; more only cost set-up time.
+        let wanted = (64 - (64 * row_words as u64).leading_zeros() as usize + 6)
+            .min(SIEVE_MODULI.len());
+        let active = self.n_caller + wanted;
+        for (k, md) in self.moduli.iter_mut().take(active).enumerate() {
             let r = (z % md.m as u64) as u32;
             let pop = md.ensure_row(r);
             if pop < md.m {
-                self.order.push(k);
+                // Density pop/m in 32-bit fixed point; ties keep the index order.
+                let density = ((pop as u64) << 32) / md.m as u64;
+                self.keys.push((density, k, r));
             }
         }
-        let moduli = &self.moduli;
-        let pop_of = |k: usize| {
-            let md = &moduli[k];
-            md.pop[(z % md.m as u64) as usize] as u64
-        };
-        // Increasing density pop/m: compare pop_a·m_b with pop_b·m_a.
-        self.order.sort_by(|&a, &b| {
-            (pop_of(a) * moduli[b].m as u64)
-                .cmp(&(pop_of(b) * moduli[a].m as u64))
-                .then(a.cmp(&b))
-        });
+        self.keys.sort_unstable();
     }
 
     /// Sieves `x ∈ [a, b]` in row `z` (moduli already prepared).
@@ -800,7 +861,7 @@ impl Sieve {
     ) -> std::result::Result<(), OutOfBudget> {
         let mut start = a;
         while start <= b {
-            let len = ((b - start) as u64 + 1).min((CHUNK_WORDS * 64) as u64) as usize;
+            let len = ((b - start) as u64 + 1).min((self.chunk_words * 64) as u64) as usize;
             let nwords = len.div_ceil(64);
             budget.spend(nwords as u64).map_err(|_| OutOfBudget)?;
             self.buf.clear();
@@ -808,19 +869,33 @@ impl Sieve {
             if len % 64 != 0 {
                 self.buf[nwords - 1] = (1u64 << (len % 64)) - 1;
             }
-            for oi in 0..self.order.len() {
-                let md = &mut self.moduli[self.order[oi]];
+            for &(_, k, row) in &self.keys {
+                let md = &mut self.moduli[k];
                 let m = md.m as usize;
-                md.ensure_windows((z as u64 % m as u64) as u32);
                 let mut r = start.rem_euclid(m as i64) as usize;
                 let step = 64 % m;
                 let mut any = 0u64;
-                for w in self.buf.iter_mut() {
-                    *w &= md.windows[r];
-                    any |= *w;
-                    r += step;
-                    if r >= m {
-                        r -= m;
+                if 2 * self.row_words >= m {
+                    // Long row: one table of windows, one load per word.
+                    md.ensure_windows(row);
+                    for w in self.buf.iter_mut() {
+                        *w &= md.windows[r];
+                        any |= *w;
+                        r += step;
+                        if r >= m {
+                            r -= m;
+                        }
+                    }
+                } else {
+                    // Short row: read each window from the extended mask.
+                    let ri = row as usize;
+                    for w in self.buf.iter_mut() {
+                        *w &= md.window(ri, r);
+                        any |= *w;
+                        r += step;
+                        if r >= m {
+                            r -= m;
+                        }
                     }
                 }
                 if any == 0 {
@@ -909,14 +984,56 @@ mod tests {
     }
 
     #[test]
+    fn the_exact_test_falls_back_to_bigint_when_i128_overflows() {
+        // (x² + z²)² at x = 2^40, z = 3: g(x, z) ≈ 2^160 overflows i128.
+        let g = [1, 0, 2, 0, 1].map(BigInt::from);
+        let sieve = Sieve::new(&g, &[]);
+        let x = 1i64 << 40;
+        assert!(eval_i128(&[1, 0, 2, 0, 1], x, 3).is_none());
+        let want = (BigInt::from(1) << 80u32) + 9;
+        assert_eq!(sieve.exact_square(x, 3), Some(want));
+        assert_eq!(sieve.exact_square(x, 2), Some((BigInt::from(1) << 80u32) + 4));
+        // A non-square value near 2^160: (x² + z²)² + 1 is not a square.
+        let g1 = [1, 0, 2, 0, 2].map(BigInt::from);
+        assert_eq!(Sieve::new(&g1, &[]).exact_square(x, 1), None);
+    }
+
+    #[test]
+    fn cutting_rows_into_small_chunks_changes_nothing() {
+        let g = [1, 2, -3, 4, 9].map(BigInt::from);
+        let cong = Congruence::new(3, [(0, 1), (1, 1), (2, 2), (1, 0)]).unwrap();
+        for congs in [vec![], vec![cong]] {
+            let mut reference = Vec::new();
+            let mut sieve = Sieve::new(&g, &congs);
+            assert!(sieve
+                .block(0, 200, false, &mut reference, &mut Budget::unlimited())
+                .is_ok());
+            assert!(!reference.is_empty());
+            for chunk_words in [1, 2, 3] {
+                let mut sieve = Sieve::new(&g, &congs);
+                sieve.chunk_words = chunk_words;
+                let mut got = Vec::new();
+                assert!(sieve
+                    .block(0, 200, false, &mut got, &mut Budget::unlimited())
+                    .is_ok());
+                assert_eq!(got, reference, "chunk of {chunk_words} words");
+            }
+        }
+    }
+
+    #[test]
     fn the_windows_of_a_row_are_its_periodic_bit_pattern() {
         let g = [1, 0, 0, 0, 1].map(BigInt::from);
         let mut md = Modulus::square(13, 13, &g);
         md.ensure_row(5);
         md.ensure_windows(5);
+        // Row 5 of x⁴ + z⁴ mod 13, by hand: x⁴ + 5⁴ is a square mod 13.
+        let squares: Vec<u64> = (0..13).map(|t| t * t % 13).collect();
+        let bit = |x: u64| squares.contains(&((x.pow(4) + 625) % 13)) as u64;
         for o in 0..13usize {
             for i in 0..64usize {
-                assert_eq!((md.windows[o] >> i) & 1, md.row_bit(5, (o + i) % 13));
+                assert_eq!((md.windows[o] >> i) & 1, bit(((o + i) % 13) as u64));
+                assert_eq!(md.windows[o], md.window(5, o));
             }
         }
     }
