@@ -10,9 +10,6 @@ use num_integer::Integer;
 use num_rational::BigRational;
 use num_traits::Zero;
 
-fn z(n: i64) -> BigRational {
-    BigRational::from_integer(n.into())
-}
 fn q(n: i64, d: i64) -> BigRational {
     BigRational::new(n.into(), d.into())
 }
@@ -28,10 +25,8 @@ fn is_reduced_at_small_primes(a: &BigInt, b: &BigInt) -> bool {
 
 #[test]
 fn two_torsion_of_a_general_model_with_a1_and_a3_nonzero() {
-    // y^2 + xy + y = x^3 - x^2 - 14x + 29 ... built instead from a known
-    // factorisation: start from y^2 = (x - 1)(x + 2)(x - 5) and apply a
-    // change of model with s, t nonzero; the three points of order 2 must
-    // come back.
+    // Start from y^2 = (x - 1)(x + 2)(x - 5) and apply a change of model
+    // with s, t nonzero: the three points of order 2 must come back.
     let base = Curve::from_ints([0, -4, 0, -7, 10]).unwrap(); // (x-1)(x+2)(x-5)
     let ch = isodescent::curve::ModelChange::new(q(1, 3), q(1, 2), q(-2, 1), q(5, 7)).unwrap();
     let e = ch.apply_to_curve(&base);

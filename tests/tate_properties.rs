@@ -109,10 +109,15 @@ fn random_two_torsion_curve(rng: &mut Rng, bound: i64) -> (i64, i64) {
 /// Multiplies a and b by powers of 2 and 3 and a sign, to reach additive
 /// reduction of every kind at 2 and 3.
 fn twisted_two_torsion_curve(rng: &mut Rng) -> [BigRational; 5] {
-    let (a, b) = random_two_torsion_curve(rng, 40);
-    let d = [1i64, -1, 2, -2, 3, -3, 6, -6, 4, 12, -12, 8, 9][rng.range(0, 12) as usize];
-    let extra = [1i64, 2, 4, 3, 9][rng.range(0, 4) as usize];
-    [q(0), q(a * d), q(0), q(b * d * d * extra * extra), q(0)]
+    loop {
+        let (a, b) = random_two_torsion_curve(rng, 40);
+        let d = [1i64, -1, 2, -2, 3, -3, 6, -6, 4, 12, -12, 8, 9][rng.range(0, 12) as usize];
+        let extra = [1i64, 2, 4, 3, 9][rng.range(0, 4) as usize];
+        let (a, b) = (a * d, b * d * d * extra * extra);
+        if a * a != 4 * b {
+            return [q(0), q(a), q(0), q(b), q(0)];
+        }
+    }
 }
 
 /// The Kodaira symbols at the bad primes, as strings with the primes.

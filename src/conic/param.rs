@@ -36,7 +36,7 @@ pub struct ConicParametrisation {
     pub forms: [[BigInt; 3]; 3],
     /// The point P (primitive).
     base: [BigInt; 3],
-    /// The unimodular basis (P, e, f) as columns... stored as rows P, e, f.
+    /// The unimodular frame (P, e, f), det ±1, stored as rows.
     frame: [[BigInt; 3]; 3],
     /// B(P, e), B(P, f).
     polar_base: [BigInt; 2],
@@ -62,11 +62,13 @@ impl ConicParametrisation {
     /// this is the tangent direction (B(P, f), −B(P, e)).
     ///
     /// # Errors
-    /// [`Error::InvalidArgument`] if R = (0, 0, 0). Whether R lies on the
-    /// conic is not checked here (the caller has the form); for a point off
-    /// the conic the answer is the parameter of the second intersection of
-    /// the line PR with the conic... only when R is on the conic is
-    /// evaluate(u, v) proportional to R.
+    /// [`Error::InvalidArgument`] if R = (0, 0, 0). Membership of R in the
+    /// conic is not checked (the caller holds the form); for R off the
+    /// conic the answer is the direction of the line PR, and
+    /// evaluate(u, v) is then the second intersection of that line with
+    /// the conic rather than R.
+    ///
+    /// Cost: two 3×3 determinants.
     pub fn parameter_of(&self, r: &[BigInt; 3]) -> Result<(BigInt, BigInt)> {
         if r.iter().all(|x| x.is_zero()) {
             return Err(Error::InvalidArgument {
