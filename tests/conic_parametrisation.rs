@@ -10,7 +10,50 @@ use isodescent::{Budget, Error};
 use num_bigint::BigInt;
 use num_integer::Integer;
 use num_traits::{One, Signed, Zero};
+use num_rational::BigRational;
 use proptest::prelude::*;
+
+/// The diagonal entries of q after symmetric Gaussian elimination over Q
+/// on its Gram matrix (pivot on a nonzero diagonal entry; if all are zero,
+/// first replace x_i by x_i + x_j for some nonzero off-diagonal entry).
+fn diag_over_q(q: &TernaryForm) -> Vec<BigRational> {
+    let h = q.doubled_gram();
+    let mut m: Vec<Vec<BigRational>> = h
+        .iter()
+        .map(|r| r.iter().map(|x| BigRational::from_integer(x.clone())).collect())
+        .collect();
+    let mut out = Vec::new();
+    let mut idx: Vec<usize> = vec![0, 1, 2];
+    while !idx.is_empty() {
+        if let Some(pos) = idx.iter().position(|&i| !m[i][i].is_zero()) {
+            let p = idx.remove(pos);
+            let piv = m[p][p].clone();
+            for &i in &idx {
+                for &j in &idx {
+                    let t = &m[i][p] * &m[p][j] / &piv;
+                    m[i][j] = &m[i][j] - t;
+                }
+            }
+            out.push(piv);
+        } else {
+            // all remaining diagonal entries are 0: add row/col j to i
+            let (i, j) = idx
+                .iter()
+                .flat_map(|&i| idx.iter().map(move |&j| (i, j)))
+                .find(|&(i, j)| i != j && !m[i][j].is_zero())
+                .expect("nondegenerate");
+            for k in 0..3 {
+                let t = m[j][k].clone();
+                m[i][k] = &m[i][k] + t;
+            }
+            for k in 0..3 {
+                let t = m[k][j].clone();
+                m[k][i] = &m[k][i] + t;
+            }
+        }
+    }
+    out
+}
 
 fn big(x: i64) -> BigInt {
     BigInt::from(x)
@@ -110,8 +153,9 @@ fn xy_minus_z2_and_friends_have_points() {
 }
 
 #[test]
-fn the_norm_form_of_the_hamilton_quaternions_has_no_real_zero() {
-    // common practice: x² + y² + z² + xy is positive definite (det H = 6·... > 0 minors).
+fn a_positive_definite_ternary_form_fails_at_the_real_place() {
+    // common practice: x² + y² + z² + xy is positive definite (leading
+    // minors of H: 2, 3, 6, all positive; Sylvester's criterion).
     let q = TernaryForm::new(big(1), big(1), big(1), big(0), big(0), big(1));
     let s = solve_ternary(&q, &mut Budget::unlimited()).unwrap();
     assert_eq!(s, ConicSolution::Insoluble { place: Place::Real });
@@ -188,16 +232,17 @@ proptest! {
                 prop_assert!(q.evaluate(&r).is_zero());
                 prop_assert!(!r.iter().all(|x| x.is_zero()));
             }
-            Ok(ConicSolution::Insoluble { .. }) => {
-                // cross-check: an independent rational diagonalisation
-                // (Lagrange's completion of squares on 4ac-style minors is
-                // what the library uses; here we search small vectors for
-                // a zero instead, which must not exist).
-                for x in -12i64..=12 { for y in -12i64..=12 { for z in 0i64..=12 {
-                    if (x, y, z) != (0, 0, 0) {
-                        prop_assert!(!q.evaluate(&[big(x), big(y), big(z)]).is_zero());
-                    }
-                }}}
+            Ok(ConicSolution::Insoluble { place }) => {
+                // cross-check by a second diagonalisation (symmetric
+                // Gaussian elimination over Q, common practice) and
+                // Hilbert symbols (Serre, A Course in Arithmetic, IV.2.2
+                // Thm. 6): the diagonal form must fail at `place` too.
+                let dg = diag_over_q(&q);
+                let l = dg.iter().fold(BigInt::one(), |l, x| l.lcm(x.denom()));
+                let ints: Vec<BigInt> = dg.iter().map(|x| (x * BigRational::from_integer(l.clone())).to_integer()).collect();
+                let u = -(&ints[0] * &ints[2]);
+                let w = -(&ints[1] * &ints[2]);
+                prop_assert_eq!(hilbert_symbol_int(&u, &w, &place).unwrap(), -1);
             }
         }
     }
