@@ -84,6 +84,16 @@ pub enum Error {
         /// Which stage gave up.
         stage: String,
     },
+    /// Reading or writing a file or stream failed.
+    #[error("cannot {action} {target}: {reason}")]
+    Io {
+        /// What was being done, e.g. "read" or "write".
+        action: String,
+        /// The file or stream, as text.
+        target: String,
+        /// The operating system's message.
+        reason: String,
+    },
     /// Any other argument outside the documented domain.
     #[error("invalid argument: {reason}")]
     InvalidArgument {

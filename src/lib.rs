@@ -20,6 +20,7 @@ pub mod conic; // layer 4: rational conics — Legendre's equation, parametrisat
 pub mod quartic; // layer 4: quartic homogeneous spaces — local solvability, point search
 pub mod selmer; // layer 5: F2 vector spaces, Q(S,2), Selmer groups
 pub mod descent; // layer 6: exact-sequence bookkeeping, rank bounds, reports
+pub mod family; // layer 7: families of curves — twists, congruent numbers, boxes; streaming, parallel, sharded scans
 
 pub use budget::Budget;
 pub use error::{Error, Result};

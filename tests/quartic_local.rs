@@ -3,8 +3,8 @@
 
 use isodescent::local::{Place, Prime};
 use isodescent::quartic::{
-    locally_soluble, odd_prime_soluble, real_root_count, real_soluble, two_adic_soluble, LocalPoint,
-    LocalSolubility, Quartic,
+    locally_soluble, odd_prime_soluble, real_root_count, real_soluble, two_adic_soluble,
+    LocalPoint, LocalSolubility, Quartic,
 };
 use isodescent::{Budget, Error};
 use num_bigint::BigInt;
@@ -26,7 +26,10 @@ fn soluble_with_valid_point(q: &Quartic, pl: &Place) -> bool {
     let ans = locally_soluble(q, pl, &mut Budget::unlimited()).unwrap();
     match &ans {
         LocalSolubility::Soluble(pt) => {
-            assert!(pt.verify(q), "witness {pt} fails verification for {q} at {pl}");
+            assert!(
+                pt.verify(q),
+                "witness {pt} fails verification for {q} at {pl}"
+            );
             assert_eq!(pt.place(), pl);
             true
         }
@@ -70,13 +73,16 @@ fn sturm_counts_match_sympy_real_roots() {
 fn degenerate_forms_are_rejected_with_a_typed_error() {
     for c in [
         [0, 0, 0, 0, 0],
-        [1, -2, 1, 0, 0],  // x⁴ − 2x³z + x²z² = x²(x − z)²
-        [1, 0, -2, 0, 1],  // (x² − z²)²
-        [0, 0, 1, 0, -1],  // double root at infinity
-        [1, 0, 0, 0, 0],   // x⁴
-        [2, 4, 2, 0, 0],   // 2x²(x + z)²
+        [1, -2, 1, 0, 0], // x⁴ − 2x³z + x²z² = x²(x − z)²
+        [1, 0, -2, 0, 1], // (x² − z²)²
+        [0, 0, 1, 0, -1], // double root at infinity
+        [1, 0, 0, 0, 0],  // x⁴
+        [2, 4, 2, 0, 0],  // 2x²(x + z)²
     ] {
-        assert!(matches!(Quartic::from_i64(c), Err(Error::Degenerate { .. })), "{c:?}");
+        assert!(
+            matches!(Quartic::from_i64(c), Err(Error::Degenerate { .. })),
+            "{c:?}"
+        );
     }
 }
 
@@ -99,20 +105,26 @@ fn the_two_isogeny_space_rejects_d_zero_and_singular_curves() {
 #[test]
 fn the_two_isogeny_space_has_the_silverman_tate_shape() {
     // [SilvermanTate92, III.5]: N² = dM⁴ + aM²e² + (b/d)e⁴ when d | b.
-    let sp = Quartic::two_isogeny_space(&BigInt::from(-3), &BigInt::from(5), &BigInt::from(12)).unwrap();
+    let sp =
+        Quartic::two_isogeny_space(&BigInt::from(-3), &BigInt::from(5), &BigInt::from(12)).unwrap();
     assert_eq!(sp.coeffs(), &[-3, 0, 5, 0, -4].map(BigInt::from));
     // d ∤ b: multiply by d₁² with d₁ = d/gcd(d, b): d = 6, b = 4, h = 2, d₁ = 3:
     // 6·9 M⁴ + 5·9 M²e² + 2·3 e⁴.
-    let sp = Quartic::two_isogeny_space(&BigInt::from(6), &BigInt::from(5), &BigInt::from(4)).unwrap();
+    let sp =
+        Quartic::two_isogeny_space(&BigInt::from(6), &BigInt::from(5), &BigInt::from(4)).unwrap();
     assert_eq!(sp.coeffs(), &[54, 0, 45, 0, 6].map(BigInt::from));
     // Its discriminant is 16·d₁¹²·b·(a² − 4b)² (sympy 1.14, symbolic).
-    assert_eq!(sp.discriminant(), BigInt::from(16) * BigInt::from(3).pow(12) * 4 * 81);
+    assert_eq!(
+        sp.discriminant(),
+        BigInt::from(16) * BigInt::from(3).pow(12) * 4 * 81
+    );
 }
 
 #[test]
 fn clearing_denominators_scales_by_an_exact_square() {
     let r = |n: i64, d: i64| BigRational::new(n.into(), d.into());
-    let (qq, s) = Quartic::from_rationals(&[r(1, 2), r(0, 1), r(0, 1), r(0, 1), r(-17, 2)]).unwrap();
+    let (qq, s) =
+        Quartic::from_rationals(&[r(1, 2), r(0, 1), r(0, 1), r(0, 1), r(-17, 2)]).unwrap();
     assert_eq!(s, BigInt::from(2));
     assert_eq!(qq.coeffs(), &[2, 0, 0, 0, -34].map(BigInt::from));
     let (qq, s) = Quartic::from_rationals(&[r(1, 3), r(1, 2), r(0, 1), r(0, 1), r(5, 1)]).unwrap();
@@ -125,7 +137,10 @@ fn evaluation_and_display_are_as_documented() {
     let g = q([1, 0, 0, 0, -17]);
     assert_eq!(g.eval(&BigInt::from(2), &BigInt::from(1)), BigInt::from(-1));
     assert_eq!(g.to_string(), "y^2 = x^4 - 17*z^4");
-    assert_eq!(q([-2, 1, 0, -1, 3]).to_string(), "y^2 = -2*x^4 + x^3*z - x*z^3 + 3*z^4");
+    assert_eq!(
+        q([-2, 1, 0, -1, 3]).to_string(),
+        "y^2 = -2*x^4 + x^3*z - x*z^3 + 3*z^4"
+    );
 }
 
 // ------------------------------------------------------ Lind–Reichardt
@@ -136,8 +151,14 @@ fn evaluation_and_display_are_as_documented() {
 fn the_lind_reichardt_quartic_is_soluble_everywhere_locally() {
     let g = q([-34, 0, 0, 0, 2]);
     assert!(soluble_with_valid_point(&g, &Place::Real));
-    for p in [2u64, 3, 5, 7, 11, 13, 17, 19, 23, 29, 31, 37, 41, 43, 47, 53, 59, 61, 67, 71, 73, 97, 101, 257, 65537] {
-        assert!(soluble_with_valid_point(&g, &place(p)), "Lind–Reichardt at {p}");
+    for p in [
+        2u64, 3, 5, 7, 11, 13, 17, 19, 23, 29, 31, 37, 41, 43, 47, 53, 59, 61, 67, 71, 73, 97, 101,
+        257, 65537,
+    ] {
+        assert!(
+            soluble_with_valid_point(&g, &place(p)),
+            "Lind–Reichardt at {p}"
+        );
     }
     let big_p = Prime::new(big("100000000000000000039")).unwrap();
     assert!(soluble_with_valid_point(&g, &Place::Finite(big_p)));
@@ -148,10 +169,22 @@ fn the_lind_reichardt_quartic_is_soluble_everywhere_locally() {
 #[test]
 fn real_solubility_follows_the_signs_and_the_real_roots() {
     // Lemma R: c4 > 0 or c0 > 0 or a real root.
-    assert!(soluble_with_valid_point(&q([1, 0, 0, 0, -17]), &Place::Real));
-    assert!(soluble_with_valid_point(&q([-1, 0, 0, 0, 17]), &Place::Real));
-    assert!(!soluble_with_valid_point(&q([-1, 0, 0, 0, -1]), &Place::Real));
-    assert!(!soluble_with_valid_point(&q([-2, 0, -3, 0, -5]), &Place::Real));
+    assert!(soluble_with_valid_point(
+        &q([1, 0, 0, 0, -17]),
+        &Place::Real
+    ));
+    assert!(soluble_with_valid_point(
+        &q([-1, 0, 0, 0, 17]),
+        &Place::Real
+    ));
+    assert!(!soluble_with_valid_point(
+        &q([-1, 0, 0, 0, -1]),
+        &Place::Real
+    ));
+    assert!(!soluble_with_valid_point(
+        &q([-2, 0, -3, 0, -5]),
+        &Place::Real
+    ));
     // −x⁴ + 5x²z² − 4z⁴ = −(x² − z²)(x² − 4z²) > 0 only for 1 < |x/z| < 2.
     let g = q([-1, 0, 5, 0, -4]);
     let pt = match real_soluble(&g, &mut Budget::unlimited()).unwrap() {
@@ -163,7 +196,10 @@ fn real_solubility_follows_the_signs_and_the_real_roots() {
     let g = q([-1, 0, 2_002_001, 0, -1_002_001_000_000]);
     assert!(soluble_with_valid_point(&g, &Place::Real));
     // Root at infinity (c4 = 0): always soluble.
-    assert!(soluble_with_valid_point(&q([0, -1, 0, 0, -1]), &Place::Real));
+    assert!(soluble_with_valid_point(
+        &q([0, -1, 0, 0, -1]),
+        &Place::Real
+    ));
 }
 
 // --------------------------------------------------------- finite places
@@ -203,14 +239,35 @@ fn large_primes_are_decided_by_hand_checked_families() {
     let zero = BigInt::from(0);
     // p(x⁴ + z⁴): x⁴ ≡ −z⁴ needs −1 to be a 4th power, impossible for p ≡ 3 mod 4;
     // so v_p = 1 on every primitive pair: insoluble.
-    let g = Quartic::new([p.clone(), zero.clone(), zero.clone(), zero.clone(), p.clone()]).unwrap();
+    let g = Quartic::new([
+        p.clone(),
+        zero.clone(),
+        zero.clone(),
+        zero.clone(),
+        p.clone(),
+    ])
+    .unwrap();
     assert!(!soluble_with_valid_point(&g, &pl));
     // x⁴ + p z⁴: g(1, 0) = 1: soluble.
-    let g = Quartic::new([one.clone(), zero.clone(), zero.clone(), zero.clone(), p.clone()]).unwrap();
+    let g = Quartic::new([
+        one.clone(),
+        zero.clone(),
+        zero.clone(),
+        zero.clone(),
+        p.clone(),
+    ])
+    .unwrap();
     assert!(soluble_with_valid_point(&g, &pl));
     // −x⁴ + p z⁴: −1 is a non-residue, so x a unit gives a non-square unit;
     // p | x gives v_p = 1: insoluble.
-    let g = Quartic::new([-one.clone(), zero.clone(), zero.clone(), zero.clone(), p.clone()]).unwrap();
+    let g = Quartic::new([
+        -one.clone(),
+        zero.clone(),
+        zero.clone(),
+        zero.clone(),
+        p.clone(),
+    ])
+    .unwrap();
     assert!(!soluble_with_valid_point(&g, &pl));
     // −x⁴ + p²z⁴: x = p, z = 1 gives p²(1 − p²) and 1 − p² ≡ 1: soluble.
     let p2 = &p * &p;
@@ -228,7 +285,14 @@ fn a_soluble_answer_at_a_forty_digit_prime_carries_a_checkable_point() {
     let p: BigInt = (BigInt::from(1) << 127u32) - BigInt::from(1);
     let pl = Place::Finite(Prime::new(p.clone()).unwrap());
     let c = big("123456789012345678901234567890");
-    let g = Quartic::new([-c.clone(), c.clone() + 7, -BigInt::from(3) * &c, BigInt::from(5), -&c - 1]).unwrap();
+    let g = Quartic::new([
+        -c.clone(),
+        c.clone() + 7,
+        -BigInt::from(3) * &c,
+        BigInt::from(5),
+        -&c - 1,
+    ])
+    .unwrap();
     // Good reduction at p (Δ ≢ 0 mod p), so soluble by Hasse–Weil + Hensel.
     assert_ne!(g.discriminant() % &p, BigInt::from(0));
     assert!(soluble_with_valid_point(&g, &pl));
@@ -264,7 +328,9 @@ fn asking_the_odd_prime_routine_about_two_is_an_error() {
         odd_prime_soluble(&g, &Prime::two(), &mut Budget::unlimited()),
         Err(Error::InvalidArgument { .. })
     ));
-    assert!(two_adic_soluble(&g, &mut Budget::unlimited()).unwrap().is_soluble());
+    assert!(two_adic_soluble(&g, &mut Budget::unlimited())
+        .unwrap()
+        .is_soluble());
 }
 
 #[test]

@@ -137,8 +137,12 @@ fn quartic_at(p: u64) -> impl Strategy<Value = [i64; 5]> {
 
 /// Forms with `p` dividing every coefficient but one (chosen position).
 fn all_but_one_divisible(p: u64) -> impl Strategy<Value = [i64; 5]> {
-    (0usize..5, [-9i64..=9, -9i64..=9, -9i64..=9, -9i64..=9, -9i64..=9], 1u32..=3).prop_map(
-        move |(j, mut c, e)| {
+    (
+        0usize..5,
+        [-9i64..=9, -9i64..=9, -9i64..=9, -9i64..=9, -9i64..=9],
+        1u32..=3,
+    )
+        .prop_map(move |(j, mut c, e)| {
             for (i, ci) in c.iter_mut().enumerate() {
                 if i != j {
                     *ci *= (p as i64).pow(e);
@@ -147,8 +151,7 @@ fn all_but_one_divisible(p: u64) -> impl Strategy<Value = [i64; 5]> {
                 }
             }
             c
-        },
-    )
+        })
 }
 
 fn check(c: [i64; 5], p: u64) -> Result<(), TestCaseError> {
@@ -201,13 +204,16 @@ proptest! {
 fn the_oracle_decides_most_cases_and_sees_both_answers() {
     let mut seed = 0x5eed_u64;
     let mut next = |m: i64| {
-        seed = seed.wrapping_mul(6364136223846793005).wrapping_add(1442695040888963407);
+        seed = seed
+            .wrapping_mul(6364136223846793005)
+            .wrapping_add(1442695040888963407);
         ((seed >> 33) as i64).rem_euclid(2 * m + 1) - m
     };
     for p in [2u64, 3, 5] {
         let (mut decided, mut yes, mut no, mut total) = (0, 0, 0, 0);
         for _ in 0..400 {
-            let c: [i64; 5] = [0; 5].map(|_| next(9) * (p as i64).pow(next(2).unsigned_abs() as u32));
+            let c: [i64; 5] =
+                [0; 5].map(|_| next(9) * (p as i64).pow(next(2).unsigned_abs() as u32));
             let Some(lib) = library(c, p) else { continue };
             total += 1;
             if let Some(orc) = oracle(c, p, kmax_for(p)) {
@@ -220,7 +226,10 @@ fn the_oracle_decides_most_cases_and_sees_both_answers() {
                 }
             }
         }
-        assert!(decided * 100 >= total * 95, "p = {p}: oracle decided only {decided}/{total}");
+        assert!(
+            decided * 100 >= total * 95,
+            "p = {p}: oracle decided only {decided}/{total}"
+        );
         assert!(yes > 0 && no > 0, "p = {p}: soluble {yes}, insoluble {no}");
     }
 }
@@ -238,7 +247,10 @@ impl C {
     }
     fn div(self, o: C) -> C {
         let d = o.0 * o.0 + o.1 * o.1;
-        C((self.0 * o.0 + self.1 * o.1) / d, (self.1 * o.0 - self.0 * o.1) / d)
+        C(
+            (self.0 * o.0 + self.1 * o.1) / d,
+            (self.1 * o.0 - self.0 * o.1) / d,
+        )
     }
     fn abs(self) -> f64 {
         self.0.hypot(self.1)
@@ -250,15 +262,20 @@ impl C {
 fn durand_kerner(coef: &[f64]) -> Option<Vec<C>> {
     let n = coef.len() - 1;
     let a: Vec<f64> = coef.iter().map(|c| c / coef[0]).collect();
-    let eval = |z: C| a.iter().fold(C(0.0, 0.0), |acc, &c| acc.mul(z).sub(C(-c, 0.0)));
-    let mut r: Vec<C> = (0..n).map(|i| {
-        let s = C(0.4, 0.9);
-        let mut z = C(1.0, 0.0);
-        for _ in 0..i {
-            z = z.mul(s);
-        }
-        z
-    }).collect();
+    let eval = |z: C| {
+        a.iter()
+            .fold(C(0.0, 0.0), |acc, &c| acc.mul(z).sub(C(-c, 0.0)))
+    };
+    let mut r: Vec<C> = (0..n)
+        .map(|i| {
+            let s = C(0.4, 0.9);
+            let mut z = C(1.0, 0.0);
+            for _ in 0..i {
+                z = z.mul(s);
+            }
+            z
+        })
+        .collect();
     for _ in 0..2000 {
         let mut delta: f64 = 0.0;
         for i in 0..n {

@@ -192,7 +192,10 @@ fn fermats_quartics_have_only_their_trivial_points() {
     // chapter from memory).
     let minus = all(&big([1, 0, 0, 0, -1]), 1000);
     let zero = BigInt::from(0);
-    assert_eq!(minus, vec![(1, 0, one), (-1, 1, zero.clone()), (1, 1, zero)]);
+    assert_eq!(
+        minus,
+        vec![(1, 0, one), (-1, 1, zero.clone()), (1, 1, zero)]
+    );
 }
 
 #[test]
@@ -228,14 +231,22 @@ fn every_reported_point_is_normalised_and_on_the_curve() {
             assert_eq!(p.x, BigInt::from(1));
         }
     }
-    let keys: Vec<_> = pts.iter().map(|p| (p.height(), p.z.clone(), p.x.clone())).collect();
+    let keys: Vec<_> = pts
+        .iter()
+        .map(|p| (p.height(), p.z.clone(), p.x.clone()))
+        .collect();
     assert!(keys.windows(2).all(|w| w[0] < w[1]), "search order");
 }
 
 #[test]
 fn a_degenerate_quartic_is_refused_with_a_typed_error() {
     let opts = SearchOptions::up_to(10);
-    for c in [[0, 0, 0, 0, 0], [1, 0, 2, 0, 1], [0, 0, 1, 0, 0], [1, -2, 1, 0, 0]] {
+    for c in [
+        [0, 0, 0, 0, 0],
+        [1, 0, 2, 0, 1],
+        [0, 0, 1, 0, 0],
+        [1, -2, 1, 0, 0],
+    ] {
         let err = search(&big(c), &opts, &mut Budget::unlimited()).unwrap_err();
         assert!(matches!(err, Error::Degenerate { .. }), "{c:?}: {err:?}");
     }
@@ -244,12 +255,28 @@ fn a_degenerate_quartic_is_refused_with_a_typed_error() {
 #[test]
 fn bad_heights_and_congruences_are_refused_with_typed_errors() {
     let g = big([1, 0, 0, 0, 3]);
-    let err = search_all(&g, &SearchOptions::up_to(MAX_HEIGHT + 1), &mut Budget::unlimited());
+    let err = search_all(
+        &g,
+        &SearchOptions::up_to(MAX_HEIGHT + 1),
+        &mut Budget::unlimited(),
+    );
     assert!(matches!(err, Err(Error::InvalidArgument { .. })));
-    assert!(matches!(Congruence::new(0, []), Err(Error::InvalidArgument { .. })));
-    assert!(matches!(Congruence::new(1 << 20, []), Err(Error::InvalidArgument { .. })));
-    assert!(matches!(Congruence::new(8, [(8, 0)]), Err(Error::InvalidArgument { .. })));
-    assert!(matches!(Congruence::on_x(8, [9]), Err(Error::InvalidArgument { .. })));
+    assert!(matches!(
+        Congruence::new(0, []),
+        Err(Error::InvalidArgument { .. })
+    ));
+    assert!(matches!(
+        Congruence::new(1 << 20, []),
+        Err(Error::InvalidArgument { .. })
+    ));
+    assert!(matches!(
+        Congruence::new(8, [(8, 0)]),
+        Err(Error::InvalidArgument { .. })
+    ));
+    assert!(matches!(
+        Congruence::on_x(8, [9]),
+        Err(Error::InvalidArgument { .. })
+    ));
 }
 
 #[test]
@@ -315,7 +342,10 @@ fn the_quartic_wrappers_search_the_same_form() {
     let q = Quartic::from_i64([1, 0, 0, 0, 1]).unwrap();
     let opts = SearchOptions::up_to(200);
     let pts = search_all_quartic(&q, &opts, &mut Budget::unlimited()).unwrap();
-    assert_eq!(pts, search_all(q.coeffs(), &opts, &mut Budget::unlimited()).unwrap());
+    assert_eq!(
+        pts,
+        search_all(q.coeffs(), &opts, &mut Budget::unlimited()).unwrap()
+    );
     assert_eq!(pts.len(), 2);
     let first = search_quartic(&q, &opts, &mut Budget::unlimited()).unwrap();
     assert_eq!(first, SearchOutcome::Found(pts[0].clone()));

@@ -218,3 +218,39 @@ fn an_exhausted_budget_is_reported_not_a_panic() {
         Err(Error::FactorBudgetExhausted { .. }) | Err(Error::BudgetExhausted { .. })
     ));
 }
+
+#[test]
+fn the_curve_wrappers_give_the_same_data_as_the_coefficient_functions() {
+    use isodescent::curve::Curve;
+    // y² = x³ − 16x (from memory: conductor 32 after minimalisation).
+    let e = Curve::from_ints([0, 0, 0, -16, 0]).unwrap();
+    let g = e.local_data(&mut Budget::unlimited()).unwrap();
+    assert_eq!(g.conductor, BigInt::from(32));
+    let at2 = e.local_data_at(&prime(2)).unwrap();
+    assert_eq!(at2, g.primes[0]);
+    let (m, ch) = e.global_minimal_model(&mut Budget::unlimited()).unwrap();
+    assert_eq!(m, Curve::from_ints([0, 0, 0, -1, 0]).unwrap());
+    // The other layer's change of model agrees with ours.
+    assert_eq!(ch.apply_to_curve(&e), m);
+}
+
+#[test]
+fn a_rational_model_at_a_prime_of_its_denominators_is_not_minimal() {
+    use isodescent::curve::tate::local_reduction_rational;
+    // y² + y = x³ − x moved by u = 1/3 and then by u = 5 (a non-integral
+    // model at 5, a non-minimal one at 3): a_i ↦ 3^i a_i / 5^i.
+    let base = [0i64, 0, 1, -1, 0];
+    let w = [1u32, 2, 3, 4, 6];
+    let a: [BigRational; 5] = std::array::from_fn(|i| {
+        BigRational::new(BigInt::from(base[i]) * BigInt::from(3).pow(w[i]), BigInt::from(5).pow(w[i]))
+    });
+    for p in [3u64, 5, 37] {
+        let lr = local_reduction_rational(&a, &prime(p)).unwrap();
+        assert_eq!(lr.minimal_at_input, p == 37, "at {p}");
+        let want = if p == 37 { Kodaira::In(1) } else { Kodaira::I0 };
+        assert_eq!(lr.kodaira, want);
+    }
+    let g = global_local_data(&a, &mut Budget::unlimited()).unwrap();
+    assert_eq!(g.minimal_model, ints(base));
+    assert_eq!(g.conductor, BigInt::from(37));
+}

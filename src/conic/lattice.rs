@@ -62,12 +62,6 @@ fn gram_schmidt(w: &[BigInt], basis: &Basis) -> GramSchmidt {
     GramSchmidt { b, mu }
 }
 
-/// Nearest integer to a rational (halves rounded up).
-fn round(x: &BigRational) -> BigInt {
-    let half = BigRational::new(BigInt::one(), BigInt::from(2));
-    (x + half).floor().to_integer()
-}
-
 fn exhausted(stage: &str) -> Error {
     Error::BudgetExhausted {
         stage: stage.to_string(),
@@ -75,40 +69,107 @@ fn exhausted(stage: &str) -> Error {
 }
 
 /// LLL-reduces `basis` (linearly independent rows) in place with respect
-/// to N, with Lovász constant δ = 3/4 ([LLL82]). One budget unit per
-/// size-reduction or swap step.
+/// to N, with Lovász constant δ = 3/4, by the all-integer variant of
+/// [LLL82] given as [Cohen93, Alg. 2.6.7]: the Gram–Schmidt data are kept
+/// as the integers dᵢ (Gram determinants) and λᵢⱼ = dⱼ μᵢⱼ, so no
+/// rational arithmetic is needed. One budget unit per size-reduction or
+/// swap step.
+///
+/// # Errors
+/// [`Error::Degenerate`] if the rows are dependent;
+/// [`Error::BudgetExhausted`] when the budget runs out.
 pub(crate) fn lll(w: &[BigInt], basis: &mut Basis, budget: &mut Budget) -> Result<()> {
     let n = basis.len();
     if n < 2 {
         return Ok(());
     }
-    let delta = BigRational::new(BigInt::from(3), BigInt::from(4));
+    // 0-indexed: d[i+1] is the Gram determinant of b_0..b_i, d[0] = 1.
+    let mut d = vec![BigInt::zero(); n + 1];
+    let mut lam = vec![vec![BigInt::zero(); n]; n];
+    d[0] = BigInt::one();
+    d[1] = inner(w, &basis[0], &basis[0]);
+    if d[1].is_zero() {
+        return Err(dependent());
+    }
     let mut k = 1usize;
+    let mut kmax = 0usize;
     while k < n {
         budget.spend(1).map_err(|_| exhausted("lattice reduction"))?;
-        // size-reduce b_k against b_{k-1}, ..., b_0
-        for j in (0..k).rev() {
-            let gs = gram_schmidt(w, basis);
-            let q = round(&gs.mu[k][j]);
-            if !q.is_zero() {
-                let bj = basis[j].clone();
-                for (x, y) in basis[k].iter_mut().zip(bj.iter()) {
-                    *x -= &q * y;
+        if k > kmax {
+            kmax = k;
+            for j in 0..=k {
+                let mut u = inner(w, &basis[k], &basis[j]);
+                for i in 0..j {
+                    u = (&d[i + 1] * &u - &lam[k][i] * &lam[j][i]) / &d[i];
+                }
+                if j < k {
+                    lam[k][j] = u;
+                } else {
+                    if u.is_zero() {
+                        return Err(dependent());
+                    }
+                    d[k + 1] = u;
                 }
             }
         }
-        let gs = gram_schmidt(w, basis);
-        let m = &gs.mu[k][k - 1];
-        let lhs = gs.b[k].clone();
-        let rhs = (&delta - m * m) * &gs.b[k - 1];
-        if lhs >= rhs {
-            k += 1;
-        } else {
-            basis.swap(k, k - 1);
+        reduce(basis, &mut lam, &d, k, k - 1);
+        let l = &lam[k][k - 1];
+        let lhs = BigInt::from(4) * &d[k + 1] * &d[k - 1];
+        let rhs = BigInt::from(3) * &d[k] * &d[k] - BigInt::from(4) * l * l;
+        if lhs < rhs {
+            swap(basis, &mut lam, &mut d, k, kmax);
             k = if k > 1 { k - 1 } else { 1 };
+        } else {
+            for l in (0..k.saturating_sub(1)).rev() {
+                reduce(basis, &mut lam, &d, k, l);
+            }
+            k += 1;
         }
     }
     Ok(())
+}
+
+fn dependent() -> Error {
+    Error::Degenerate {
+        reason: "lattice basis is linearly dependent".into(),
+    }
+}
+
+/// RED(k, l) of [Cohen93, Alg. 2.6.7] (0-indexed).
+fn reduce(basis: &mut Basis, lam: &mut [Vec<BigInt>], d: &[BigInt], k: usize, l: usize) {
+    let two_lam: BigInt = &lam[k][l] * 2u32;
+    if two_lam.abs() <= d[l + 1] {
+        return;
+    }
+    // q = round(λ / d): floor((2λ + d) / 2d)
+    let q = (&two_lam + &d[l + 1]).div_floor(&(&d[l + 1] * 2u32));
+    let bl = basis[l].clone();
+    for (x, y) in basis[k].iter_mut().zip(bl.iter()) {
+        *x -= &q * y;
+    }
+    lam[k][l] = &lam[k][l] - &q * &d[l + 1];
+    for i in 0..l {
+        let t = &q * &lam[l][i];
+        lam[k][i] -= t;
+    }
+}
+
+/// SWAP(k) of [Cohen93, Alg. 2.6.7] (0-indexed).
+fn swap(basis: &mut Basis, lam: &mut [Vec<BigInt>], d: &mut [BigInt], k: usize, kmax: usize) {
+    basis.swap(k, k - 1);
+    for j in 0..k.saturating_sub(1) {
+        let t = lam[k][j].clone();
+        lam[k][j] = lam[k - 1][j].clone();
+        lam[k - 1][j] = t;
+    }
+    let l = lam[k][k - 1].clone();
+    let b = (&d[k - 1] * &d[k + 1] + &l * &l) / &d[k];
+    for i in (k + 1)..=kmax {
+        let t = lam[i][k].clone();
+        lam[i][k] = (&d[k + 1] * &lam[i][k - 1] - &l * &t) / &d[k];
+        lam[i][k - 1] = (&b * &t + &l * &lam[i][k]) / &d[k + 1];
+    }
+    d[k] = b;
 }
 
 /// floor(sqrt(t)) for a nonnegative rational t.

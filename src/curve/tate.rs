@@ -43,6 +43,7 @@ use num_traits::{One, Signed, Zero};
 
 use crate::arith::factor;
 use crate::budget::Budget;
+use crate::curve::{Curve, ModelChange};
 use crate::error::{Error, Result};
 use crate::local::{legendre, valuation, Prime};
 
@@ -208,14 +209,14 @@ pub struct IntegralInvariants {
 /// assert_eq!(i.c6, (-216).into());
 /// ```
 pub fn integral_invariants(a: &[BigInt; 5]) -> IntegralInvariants {
-    let [a1, a2, a3, a4, a6] = a;
-    let b2 = a1 * a1 + 4 * a2;
-    let b4 = a1 * a3 + 2 * a4;
-    let b6 = a3 * a3 + 4 * a6;
-    let b8 = a1 * a1 * a6 + 4 * a2 * a6 - a1 * a3 * a4 + a2 * a3 * a3 - a4 * a4;
-    let c4 = &b2 * &b2 - 24 * &b4;
-    let b2_cubed: BigInt = &b2 * &b2 * &b2;
-    let c6 = -b2_cubed + 36 * &b2 * &b4 - 216 * &b6;
+    let BcInvariants {
+        b2,
+        b4,
+        b6,
+        b8,
+        c4,
+        c6,
+    } = b_and_c_invariants(a);
     let b2b2b8: BigInt = &b2 * &b2 * &b8;
     let discriminant = -b2b2b8 - 8 * &b4 * &b4 * &b4 - 27 * &b6 * &b6 + 9 * &b2 * &b4 * &b6;
     IntegralInvariants {
@@ -226,6 +227,35 @@ pub fn integral_invariants(a: &[BigInt; 5]) -> IntegralInvariants {
         c4,
         c6,
         discriminant,
+    }
+}
+
+/// b2, b4, b6, b8, c4, c6 without Δ (the cheap part, needed once per pass).
+struct BcInvariants {
+    b2: BigInt,
+    b4: BigInt,
+    b6: BigInt,
+    b8: BigInt,
+    c4: BigInt,
+    c6: BigInt,
+}
+
+fn b_and_c_invariants(a: &[BigInt; 5]) -> BcInvariants {
+    let [a1, a2, a3, a4, a6] = a;
+    let b2 = a1 * a1 + 4 * a2;
+    let b4 = a1 * a3 + 2 * a4;
+    let b6 = a3 * a3 + 4 * a6;
+    let b8 = a1 * a1 * a6 + 4 * a2 * a6 - a1 * a3 * a4 + a2 * a3 * a3 - a4 * a4;
+    let c4 = &b2 * &b2 - 24 * &b4;
+    let b2_cubed: BigInt = &b2 * &b2 * &b2;
+    let c6 = -b2_cubed + 36 * &b2 * &b4 - 216 * &b6;
+    BcInvariants {
+        b2,
+        b4,
+        b6,
+        b8,
+        c4,
+        c6,
     }
 }
 
@@ -539,11 +569,16 @@ struct Run<'a> {
     r: BigInt,
     s: BigInt,
     t: BigInt,
+    /// p⁰, …, p⁶.
+    small_powers: Vec<BigInt>,
 }
 
 impl Run<'_> {
     fn pow(&self, k: u32) -> BigInt {
-        num_traits::pow(self.p.get().clone(), k as usize)
+        match self.small_powers.get(k as usize) {
+            Some(pk) => pk.clone(),
+            None => num_traits::pow(self.p.get().clone(), k as usize),
+        }
     }
 
     /// Applies `[1, r, s, t]` and records it.
@@ -602,7 +637,7 @@ enum Pass {
 ///   `X = 36x + 3b2`, the double root is `X = −3c6/c4` (or 0 when
 ///   `p | c4`), so `x = −(c6 + b2c4)/(12c4)` (or `−b2/12`);
 ///   `y = −(a1x + a3)/2`.
-fn singular_point(a: &[BigInt; 5], inv: &IntegralInvariants, p: &Prime) -> Result<(BigInt, BigInt)> {
+fn singular_point(a: &[BigInt; 5], inv: &BcInvariants, p: &Prime) -> Result<(BigInt, BigInt)> {
     let pp = p.get();
     let [a1, a2, a3, a4, a6] = a;
     match p.to_u64() {
@@ -641,11 +676,10 @@ fn singular_point(a: &[BigInt; 5], inv: &IntegralInvariants, p: &Prime) -> Resul
 
 /// One pass of Tate's algorithm, steps 2–11 of [Sil94, IV.9.4], over a
 /// model with `n = v_p(Δ) ≥ 1`.
-fn tate_pass(run: &mut Run<'_>) -> Result<Pass> {
+fn tate_pass(run: &mut Run<'_>, n: u64) -> Result<Pass> {
     let p = run.p;
     let pp = p.get().clone();
-    let inv0 = integral_invariants(&run.a);
-    let n = valuation(&inv0.discriminant, p).ok_or_else(|| internal("zero discriminant"))?;
+    let inv0 = b_and_c_invariants(&run.a);
 
     // Step 2: singular point to (0, 0).
     let (r, t) = singular_point(&run.a, &inv0, p)?;
@@ -653,7 +687,7 @@ fn tate_pass(run: &mut Run<'_>) -> Result<Pass> {
     if !(divisible(&run.a[2], &pp) && divisible(&run.a[3], &pp) && divisible(&run.a[4], &pp)) {
         return Err(internal("singular point not moved to (0, 0)"));
     }
-    let inv = integral_invariants(&run.a);
+    let inv = b_and_c_invariants(&run.a);
     if !divisible(&inv.b2, &pp) {
         // Multiplicative: tangent slopes are the roots of T² + a1T − a2.
         let split = matches!(
@@ -882,11 +916,15 @@ pub fn local_reduction(coeffs: &[BigInt; 5], p: &Prime) -> Result<LocalReduction
         r: BigInt::zero(),
         s: BigInt::zero(),
         t: BigInt::zero(),
+        small_powers: std::iter::successors(Some(BigInt::one()), |x| Some(x * p.get()))
+            .take(7)
+            .collect(),
     };
     let mut scalings: u64 = 0;
+    // v_p(Δ); a change [1, r, s, t] keeps Δ, the scaling u = p divides it
+    // by p¹².
+    let mut n = valuation(&inv.discriminant, p).ok_or_else(|| internal("zero discriminant"))?;
     loop {
-        let disc = integral_invariants(&run.a).discriminant;
-        let n = valuation(&disc, p).ok_or_else(|| internal("zero discriminant"))?;
         let found = if n == 0 {
             Pass::Found {
                 kodaira: Kodaira::I0,
@@ -896,12 +934,15 @@ pub fn local_reduction(coeffs: &[BigInt; 5], p: &Prime) -> Result<LocalReduction
         } else {
             // A pass ending in step 11 leaves integral changes behind; the
             // scaling by p then applies to the changed model.
-            tate_pass(&mut run)?
+            tate_pass(&mut run, n)?
         };
         match found {
             Pass::NotMinimal => {
                 run.scale_down()?;
                 scalings += 1;
+                n = n
+                    .checked_sub(12)
+                    .ok_or_else(|| internal("non-minimal with v(Δ) < 12"))?;
             }
             Pass::Found {
                 kodaira,
@@ -992,16 +1033,7 @@ fn normalising_shift(a: &[BigInt; 5]) -> (BigInt, BigInt, BigInt) {
 /// ```
 pub fn global_local_data(coeffs: &[BigRational; 5], budget: &mut Budget) -> Result<GlobalLocalData> {
     // Step 1: an integral model.
-    let mut d = BigInt::one();
-    for c in coeffs {
-        d = d.lcm(c.denom());
-    }
-    let weights = [1u32, 2, 3, 4, 6];
-    let mut integral: [BigInt; 5] = Default::default();
-    for i in 0..5 {
-        let scaled = &coeffs[i] * rat(&num_traits::pow(d.clone(), weights[i] as usize));
-        integral[i] = scaled.to_integer();
-    }
+    let (d, integral) = integral_scaling(coeffs);
     let disc = integral_invariants(&integral).discriminant;
     if disc.is_zero() {
         return Err(Error::SingularCurve {
@@ -1045,14 +1077,8 @@ pub fn global_local_data(coeffs: &[BigRational; 5], budget: &mut Budget) -> Resu
             total = to_here.clone();
         }
         if lr.reduction != ReductionKind::Good {
-            let p_integral_input = coeffs.iter().all(|c| !divisible(c.denom(), p.get()));
-            let vu = crate::local::valuation_rational(&to_here[0], &p).unwrap_or(0);
             conductor *= num_traits::pow(p.get().clone(), lr.conductor_exponent as usize);
-            records.push(LocalReduction {
-                minimal_at_input: p_integral_input && vu == 0,
-                change: to_here,
-                ..lr
-            });
+            records.push(relative_to_input(lr, coeffs, to_here));
         }
     }
 
@@ -1066,6 +1092,125 @@ pub fn global_local_data(coeffs: &[BigRational; 5], budget: &mut Budget) -> Resu
         conductor,
         primes: records,
     })
+}
+
+/// `d` = the lcm of the denominators, and `[d·a1, d²·a2, d³·a3, d⁴·a4,
+/// d⁶·a6]` (the change `u = 1/d`), an integral model.
+fn integral_scaling(coeffs: &[BigRational; 5]) -> (BigInt, [BigInt; 5]) {
+    let mut d = BigInt::one();
+    for c in coeffs {
+        d = d.lcm(c.denom());
+    }
+    let weights = [1usize, 2, 3, 4, 6];
+    let integral: [BigInt; 5] = std::array::from_fn(|i| {
+        (&coeffs[i] * rat(&num_traits::pow(d.clone(), weights[i]))).to_integer()
+    });
+    (d, integral)
+}
+
+/// A record from an integral model re-expressed for the rational `coeffs`:
+/// `change` is the total change from `coeffs`, and the input counts as
+/// minimal at p iff it is p-integral and that change has `v_p(u) = 0`.
+fn relative_to_input(
+    lr: LocalReduction,
+    coeffs: &[BigRational; 5],
+    change: [BigRational; 4],
+) -> LocalReduction {
+    let p_integral = coeffs.iter().all(|c| !divisible(c.denom(), lr.prime.get()));
+    let vu = crate::local::valuation_rational(&change[0], &lr.prime).unwrap_or(0);
+    LocalReduction {
+        minimal_at_input: p_integral && vu == 0,
+        change,
+        ..lr
+    }
+}
+
+/// Tate's algorithm at `p` for a model with rational coefficients.
+///
+/// The model is first scaled to an integral one by `u = 1/d`, `d` the lcm
+/// of the denominators; then [`local_reduction`] runs on it. The record's
+/// `change` goes from `coeffs` to a model integral at every prime and
+/// minimal at `p`; `minimal_at_input` is true iff `coeffs` is `p`-integral
+/// and minimal at `p`.
+///
+/// # Errors
+/// [`Error::SingularCurve`] when `Δ = 0`.
+///
+/// # Example
+/// `y² = x³ − x/16` is `y² = x³ − x` with `u = 1/2`; at 2 it is type III
+/// and not minimal:
+/// ```
+/// use isodescent::curve::tate::{local_reduction_rational, Kodaira};
+/// use isodescent::local::Prime;
+/// use num_rational::BigRational;
+/// let mut a = [0, 0, 0, 0, 0].map(|c: i64| BigRational::from_integer(c.into()));
+/// a[3] = BigRational::new((-1).into(), 16.into());
+/// let lr = local_reduction_rational(&a, &Prime::two()).unwrap();
+/// assert_eq!(lr.kodaira, Kodaira::III);
+/// assert!(!lr.minimal_at_input);
+/// assert_eq!(lr.change[0], BigRational::new(1.into(), 2.into()));
+/// ```
+pub fn local_reduction_rational(coeffs: &[BigRational; 5], p: &Prime) -> Result<LocalReduction> {
+    let (d, integral) = integral_scaling(coeffs);
+    let lr = local_reduction(&integral, p)?;
+    let scale = [
+        BigRational::new(BigInt::one(), d),
+        BigRational::zero(),
+        BigRational::zero(),
+        BigRational::zero(),
+    ];
+    let change = compose(&scale, &lr.change);
+    Ok(relative_to_input(lr, coeffs, change))
+}
+
+impl Curve {
+    /// The global minimal model, the conductor and the local data at the
+    /// bad primes of this curve: [`global_local_data`] on its coefficients.
+    ///
+    /// # Errors
+    /// Those of [`global_local_data`] (budget exhaustion while factoring Δ).
+    ///
+    /// # Example
+    /// ```
+    /// use isodescent::curve::Curve;
+    /// use isodescent::Budget;
+    /// let e = Curve::from_ints([0, 0, 1, -1, 0]).unwrap();
+    /// assert_eq!(e.local_data(&mut Budget::unlimited()).unwrap().conductor, 37.into());
+    /// ```
+    pub fn local_data(&self, budget: &mut Budget) -> Result<GlobalLocalData> {
+        global_local_data(self.coefficients(), budget)
+    }
+
+    /// Tate's algorithm at one prime: [`local_reduction_rational`] on the
+    /// coefficients.
+    ///
+    /// # Errors
+    /// None in practice (a [`Curve`] is nonsingular).
+    pub fn local_data_at(&self, p: &Prime) -> Result<LocalReduction> {
+        local_reduction_rational(self.coefficients(), p)
+    }
+
+    /// The reduced global minimal model and the change of model to it
+    /// (see [`global_local_data`]).
+    ///
+    /// # Errors
+    /// Those of [`global_local_data`].
+    ///
+    /// # Example
+    /// `y² = x³ − 16x` has minimal model `y² = x³ − x`, reached by `u = 2`:
+    /// ```
+    /// use isodescent::curve::Curve;
+    /// use isodescent::Budget;
+    /// let e = Curve::from_ints([0, 0, 0, -16, 0]).unwrap();
+    /// let (m, ch) = e.global_minimal_model(&mut Budget::unlimited()).unwrap();
+    /// assert_eq!(m, Curve::from_ints([0, 0, 0, -1, 0]).unwrap());
+    /// assert_eq!(ch.u().to_string(), "2");
+    /// ```
+    pub fn global_minimal_model(&self, budget: &mut Budget) -> Result<(Curve, ModelChange)> {
+        let g = self.local_data(budget)?;
+        let [u, r, s, t] = g.change;
+        Ok((Curve::from_bigints(g.minimal_model)?, ModelChange::new(u, r, s, t)?))
+    }
 }
 
 /// The integers of a model known to be integral.

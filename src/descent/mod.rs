@@ -32,6 +32,7 @@ pub mod bounds;
 pub mod options;
 pub mod report;
 pub mod side;
+pub mod verify;
 
 use num_bigint::BigInt;
 
@@ -39,12 +40,13 @@ pub use batch::{is_skipped_line, json_for_line};
 pub use options::DescentOptions;
 pub use report::DescentReport;
 pub use side::{ClassStatus, SelmerElement, SelmerSide};
+pub use verify::{verify_report, Verification};
 
 use crate::arith::factor;
 use crate::budget::Budget;
 use crate::curve::{
-    torsion_subgroup, two_torsion_model, two_torsion_points, Curve, Point, TwoIsogeny,
-    TwoTorsionModel,
+    torsion_subgroup, two_torsion_model, two_torsion_points, Curve, Point, TorsionGroup,
+    TwoIsogeny, TwoTorsionModel,
 };
 use crate::error::{Error, Result};
 use crate::local::Prime;
@@ -90,7 +92,7 @@ impl IsogenyDescent {
 fn primes_of(n: &BigInt, budget: &mut Budget, into: &mut Vec<Prime>) -> Result<()> {
     let f = factor(n, budget)?;
     for p in f.primes() {
-        into.push(Prime::new(p.clone())?);
+        into.push(Prime::certified(p.clone()));
     }
     Ok(())
 }
@@ -105,6 +107,17 @@ pub fn descend_isogeny(
     t: &Point,
     options: &DescentOptions,
 ) -> Result<IsogenyDescent> {
+    let torsion = torsion_subgroup(curve);
+    descend_isogeny_with_torsion(curve, t, &torsion, options)
+}
+
+/// [`descend_isogeny`] with the torsion subgroup of `curve` supplied.
+fn descend_isogeny_with_torsion(
+    curve: &Curve,
+    t: &Point,
+    torsion: &TorsionGroup,
+    options: &DescentOptions,
+) -> Result<IsogenyDescent> {
     let model = two_torsion_model(curve, t)?;
     let isogeny = TwoIsogeny::from_model(&model)?;
     let (a, b) = (model.a.clone(), model.b.clone());
@@ -116,7 +129,7 @@ pub fn descend_isogeny(
     primes.sort();
     primes.dedup();
 
-    let torsion_e: Vec<Point> = torsion_subgroup(curve)
+    let torsion_e: Vec<Point> = torsion
         .points()
         .iter()
         .map(|p| model.from_input(p))
@@ -175,7 +188,7 @@ pub fn descend(curve: &Curve, options: &DescentOptions) -> Result<DescentReport>
     let torsion = torsion_subgroup(curve);
     let mut isogenies = Vec::with_capacity(ts.len());
     for t in &ts {
-        isogenies.push(descend_isogeny(curve, t, options)?);
+        isogenies.push(descend_isogeny_with_torsion(curve, t, &torsion, options)?);
     }
     Ok(DescentReport::new(curve.clone(), torsion, isogenies))
 }

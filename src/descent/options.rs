@@ -46,6 +46,17 @@ impl Default for DescentOptions {
 }
 
 impl DescentOptions {
+    /// Selmer groups and torsion images only: no point search and no second
+    /// descent. Rank bounds are then k + k' − 2 ≤ r ≤ dim Sel + dim Sel' − 2
+    /// with k, k' the torsion-image dimensions.
+    pub fn selmer_only() -> Self {
+        DescentOptions {
+            max_classes_searched: 0,
+            second_descent: false,
+            ..Self::default()
+        }
+    }
+
     /// Defaults with a different search height.
     pub fn with_search_height(mut self, h: u64) -> Self {
         self.search_height = h;

@@ -34,6 +34,14 @@ impl Prime {
         }
     }
 
+    /// Wraps an integer the caller has already certified as prime (for
+    /// example a prime factor returned by [`crate::arith::factor`]).
+    /// Crate-internal: the public API only builds primes through a test.
+    pub(crate) fn certified(p: BigInt) -> Prime {
+        debug_assert!(is_prime(&p));
+        Prime(p)
+    }
+
     /// The prime 2.
     pub fn two() -> Prime {
         Prime(BigInt::from(2))

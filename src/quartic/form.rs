@@ -69,7 +69,9 @@ impl Quartic {
         let q = Quartic { coeffs };
         if q.discriminant().is_zero() {
             return Err(Error::Degenerate {
-                reason: format!("the quartic {q} has discriminant 0 (zero form or repeated factor)"),
+                reason: format!(
+                    "the quartic {q} has discriminant 0 (zero form or repeated factor)"
+                ),
             });
         }
         Ok(q)
@@ -134,7 +136,9 @@ impl Quartic {
         let disc = b * (a * a - BigInt::from(4) * b);
         if disc.is_zero() {
             return Err(Error::Degenerate {
-                reason: format!("b(a² − 4b) = 0 for a = {a}, b = {b}: the curve y² = x³ + ax² + bx is singular"),
+                reason: format!(
+                    "b(a² − 4b) = 0 for a = {a}, b = {b}: the curve y² = x³ + ax² + bx is singular"
+                ),
             });
         }
         let h = d.gcd(b);

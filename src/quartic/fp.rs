@@ -148,9 +148,19 @@ fn gcd(a: &FpPoly, b: &FpPoly, p: &BigInt) -> FpPoly {
 }
 
 /// `base^e mod m`, charging `16·bits(e)` units.
-fn powmod(base: &FpPoly, e: &BigInt, m: &FpPoly, p: &BigInt, budget: &mut Budget) -> Result<FpPoly> {
+fn powmod(
+    base: &FpPoly,
+    e: &BigInt,
+    m: &FpPoly,
+    p: &BigInt,
+    budget: &mut Budget,
+) -> Result<FpPoly> {
     let bits = e.bits();
-    charge(budget, 16 * bits.max(1), "local solubility (polynomial powering mod p)")?;
+    charge(
+        budget,
+        16 * bits.max(1),
+        "local solubility (polynomial powering mod p)",
+    )?;
     let b = rem(base, m, p);
     let mut acc: FpPoly = rem(&vec![BigInt::one()], m, p);
     for i in (0..bits).rev() {
@@ -254,13 +264,18 @@ mod tests {
         // Independent check: evaluate at every residue (common practice).
         let mut seed = 12345u64;
         let mut next = || {
-            seed = seed.wrapping_mul(6364136223846793005).wrapping_add(1442695040888963407);
+            seed = seed
+                .wrapping_mul(6364136223846793005)
+                .wrapping_add(1442695040888963407);
             (seed >> 33) as i64
         };
         for &p in &[5i64, 7, 11, 13, 67, 101, 257] {
             for _ in 0..200 {
                 let phi: Vec<i64> = (0..5).map(|_| next() % p).collect();
-                let red = reduce(&phi.iter().map(|&c| BigInt::from(c)).collect::<Vec<_>>(), &BigInt::from(p));
+                let red = reduce(
+                    &phi.iter().map(|&c| BigInt::from(c)).collect::<Vec<_>>(),
+                    &BigInt::from(p),
+                );
                 if red.is_empty() {
                     continue;
                 }

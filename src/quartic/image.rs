@@ -120,10 +120,11 @@ impl LocalImage {
     /// a homomorphism); exposed so callers and tests can check.
     pub fn is_subgroup(&self) -> bool {
         self.members.contains(&0)
-            && self
-                .members
-                .iter()
-                .all(|x| self.members.iter().all(|y| self.members.binary_search(&(x ^ y)).is_ok()))
+            && self.members.iter().all(|x| {
+                self.members
+                    .iter()
+                    .all(|y| self.members.binary_search(&(x ^ y)).is_ok())
+            })
     }
 
     /// True iff the class with this mask lies in `W_v`.
@@ -171,7 +172,12 @@ fn f2_basis(masks: &[u8]) -> Vec<u8> {
 ///
 /// Example: for `y² = x³ − x` (`a = 0, b = −1`) at `R`: `C_{−1}` is
 /// `N² = −M⁴ + e⁴`, soluble, so `W_R = {1, −1}`, masks `[0, 1]`.
-pub fn local_image(a: &BigInt, b: &BigInt, place: &Place, budget: &mut Budget) -> Result<LocalImage> {
+pub fn local_image(
+    a: &BigInt,
+    b: &BigInt,
+    place: &Place,
+    budget: &mut Budget,
+) -> Result<LocalImage> {
     let reps = class_representatives(place);
     debug_assert_eq!(reps.len(), 1 << class_dimension(place));
     let mut members = Vec::new();

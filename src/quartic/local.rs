@@ -94,13 +94,22 @@ impl LocalPoint {
         let g = q.eval(&self.x, &self.z);
         match &self.place {
             Place::Real => g.is_positive() && self.y == g.sqrt(),
-            Place::Finite(p) => verify_finite(p.get(), &self.x, &self.z, &g, &self.y, self.precision),
+            Place::Finite(p) => {
+                verify_finite(p.get(), &self.x, &self.z, &g, &self.y, self.precision)
+            }
         }
     }
 }
 
 /// The independent `p`-adic check of [`LocalPoint::verify`].
-fn verify_finite(p: &BigInt, x: &BigInt, z: &BigInt, g: &BigInt, y: &BigInt, precision: u32) -> bool {
+fn verify_finite(
+    p: &BigInt,
+    x: &BigInt,
+    z: &BigInt,
+    g: &BigInt,
+    y: &BigInt,
+    precision: u32,
+) -> bool {
     if x.is_multiple_of(p) && z.is_multiple_of(p) {
         return false;
     }
@@ -248,5 +257,7 @@ fn finish(q: &Quartic, p: &Prime, w: Option<(BigInt, BigInt)>) -> Result<LocalSo
     let y = sqrt_mod_prime_power(&g, p, precision).ok_or_else(|| Error::InvalidArgument {
         reason: format!("internal: g({x}, {z}) = {g} has no square root mod {p}^{precision}"),
     })?;
-    Ok(LocalSolubility::Soluble(LocalPoint::new(place, x, z, y, precision)))
+    Ok(LocalSolubility::Soluble(LocalPoint::new(
+        place, x, z, y, precision,
+    )))
 }

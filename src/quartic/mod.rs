@@ -17,6 +17,7 @@
 //!   `W_v` of the descent map ([`local_image`]);
 //! * a sieved search for rational points (module `search`).
 
+pub mod covering;
 pub mod form;
 mod fp;
 pub mod image;

@@ -230,7 +230,11 @@ fn is_nonzero_padic_square(n: &BigInt, p: &Prime) -> bool {
 ///
 /// Budget: one unit per class and per residue tested; `16·log₂ p` per
 /// polynomial exponentiation.
-pub(crate) fn odd_prime_witness(q: &Quartic, p: &Prime, budget: &mut Budget) -> Result<Option<(BigInt, BigInt)>> {
+pub(crate) fn odd_prime_witness(
+    q: &Quartic,
+    p: &Prime,
+    budget: &mut Budget,
+) -> Result<Option<(BigInt, BigInt)>> {
     const STAGE: &str = "local solubility at an odd prime";
     let pb = p.get();
     let small = p.to_u64().filter(|&v| v < ENUMERATION_LIMIT);
@@ -297,7 +301,10 @@ pub(crate) fn odd_prime_witness(q: &Quartic, p: &Prime, budget: &mut Budget) -> 
 /// even) with `g(x, z)` a non-zero square in `Q_2`, or `None`.
 ///
 /// Budget: one unit per class.
-pub(crate) fn two_adic_witness(q: &Quartic, budget: &mut Budget) -> Result<Option<(BigInt, BigInt)>> {
+pub(crate) fn two_adic_witness(
+    q: &Quartic,
+    budget: &mut Budget,
+) -> Result<Option<(BigInt, BigInt)>> {
     const STAGE: &str = "local solubility at 2";
     let two_p = Prime::two();
     let two = BigInt::from(2);

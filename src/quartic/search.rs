@@ -15,7 +15,7 @@
 //! Finding a point proves `C(Q) ≠ ∅`; finding none proves only that there is
 //! no point of height `≤ H` (the curve may still have points, as the
 //! Lind–Reichardt curve shows in the other direction: it has points over
-//! every completion of Q and none over Q [Lind40], [Reichardt42]).
+//! every completion of Q and none over Q [Lind40; Reichardt42]).
 //!
 //! # Order
 //! Points are reported in the *search order*: by increasing height, then by
@@ -79,6 +79,9 @@ pub const MAX_HEIGHT: u64 = 1 << 62;
 
 /// The largest modulus a caller [`Congruence`] may have.
 pub const MAX_CONGRUENCE_MODULUS: u64 = 4096;
+
+/// The largest number of caller [`Congruence`]s in one search.
+pub const MAX_CONGRUENCES: usize = 1024;
 
 /// Sieve moduli: prime powers, each with its prime.
 const SIEVE_MODULI: [(u32, u32); 29] = [
@@ -273,9 +276,7 @@ impl Congruence {
 fn check_congruence_modulus(modulus: u64) -> Result<()> {
     if modulus == 0 || modulus > MAX_CONGRUENCE_MODULUS {
         return Err(Error::InvalidArgument {
-            reason: format!(
-                "congruence modulus {modulus} is outside 1..={MAX_CONGRUENCE_MODULUS}"
-            ),
+            reason: format!("congruence modulus {modulus} is outside 1..={MAX_CONGRUENCE_MODULUS}"),
         });
     }
     Ok(())
@@ -323,7 +324,8 @@ impl SearchOptions {
 ///
 /// Errors: [`Error::Degenerate`] if the discriminant of `g` is 0 (in
 /// particular if `g = 0`), since then the curve can have about `H²` points
-/// of height `≤ H`; [`Error::InvalidArgument`] if `height > MAX_HEIGHT`.
+/// of height `≤ H`; [`Error::InvalidArgument`] if `height > MAX_HEIGHT` or
+/// there are more than [`MAX_CONGRUENCES`] congruences.
 ///
 /// Cost: at most about `1.2·H²` coprime candidate pairs, sieved 64 at a time
 /// (see the module documentation); less when a point of small height exists.
@@ -482,6 +484,14 @@ fn run_search(
             reason: format!("search height {h} exceeds the maximum {MAX_HEIGHT}"),
         });
     }
+    if options.congruences.len() > MAX_CONGRUENCES {
+        return Err(Error::InvalidArgument {
+            reason: format!(
+                "{} congruence conditions given, at most {MAX_CONGRUENCES} allowed",
+                options.congruences.len()
+            ),
+        });
+    }
     if discriminant_times_27(coeffs).is_zero() {
         return Err(Error::Degenerate {
             reason: format!(
@@ -599,6 +609,8 @@ struct Modulus {
     rows: Vec<u64>,
     /// `|S(m, r)|`, or `u32::MAX` if row `r` is not computed yet.
     pop: Vec<u32>,
+    /// `⌊2³²·|S(m, r)|/m⌋` for computed rows.
+    density: Vec<u64>,
     /// What defines the rows.
     kind: ModKind,
     /// 64-bit windows of one row at every offset, built for long rows.
@@ -636,6 +648,7 @@ impl Modulus {
             wpr,
             rows: vec![0; wpr * m as usize],
             pop: vec![u32::MAX; m as usize],
+            density: vec![0; m as usize],
             kind: ModKind::Square { p, c, is_square },
             windows: Vec::new(),
             windows_row: u32::MAX,
@@ -650,6 +663,7 @@ impl Modulus {
             wpr,
             rows: vec![0u64; wpr * m as usize],
             pop: vec![0u32; m as usize],
+            density: vec![0; m as usize],
             kind: ModKind::Caller,
             windows: Vec::new(),
             windows_row: u32::MAX,
@@ -661,6 +675,7 @@ impl Modulus {
         }
         for r in 0..m as usize {
             md.extend_row(r);
+            md.density[r] = ((md.pop[r] as u64) << 32) / m as u64;
         }
         md
     }
@@ -716,6 +731,7 @@ impl Modulus {
             self.extend_row(ri);
         }
         self.pop[ri] = count;
+        self.density[ri] = ((count as u64) << 32) / self.m as u64;
         count
     }
 
@@ -748,8 +764,8 @@ struct Sieve {
     big: [BigInt; 5],
     congruences: Vec<Congruence>,
     buf: Vec<u64>,
-    /// Per-row order of the moduli: (density key, modulus index, row).
-    keys: Vec<(u64, usize, u32)>,
+    /// Per-row order of the moduli: (density << 16 | modulus index, row).
+    keys: Vec<(u64, u32)>,
     /// Words in the current row.
     row_words: usize,
     /// The number of caller moduli (they come first in `moduli`).
@@ -842,12 +858,13 @@ impl Sieve {
             let r = (z % md.m as u64) as u32;
             let pop = md.ensure_row(r);
             if pop < md.m {
-                // Density pop/m in 32-bit fixed point; ties keep the index order.
-                let density = ((pop as u64) << 32) / md.m as u64;
-                self.keys.push((density, k, r));
+                // Density pop/m in 32-bit fixed point, then the index, packed
+                // into one sort key (ties keep the index order).
+                let key = (md.density[r as usize] << 16) | k as u64;
+                self.keys.push((key, r));
             }
         }
-        self.keys.sort_unstable();
+        self.keys.sort_unstable_by_key(|&(key, _)| key);
     }
 
     /// Sieves `x ∈ [a, b]` in row `z` (moduli already prepared).
@@ -869,13 +886,13 @@ impl Sieve {
             if len % 64 != 0 {
                 self.buf[nwords - 1] = (1u64 << (len % 64)) - 1;
             }
-            for &(_, k, row) in &self.keys {
-                let md = &mut self.moduli[k];
+            for &(key, row) in &self.keys {
+                let md = &mut self.moduli[(key & 0xffff) as usize];
                 let m = md.m as usize;
                 let mut r = start.rem_euclid(m as i64) as usize;
                 let step = 64 % m;
                 let mut any = 0u64;
-                if 2 * self.row_words >= m {
+                if self.row_words >= m {
                     // Long row: one table of windows, one load per word.
                     md.ensure_windows(row);
                     for w in self.buf.iter_mut() {
@@ -949,6 +966,7 @@ impl Sieve {
 }
 
 #[cfg(test)]
+#[allow(clippy::unwrap_used)] // tests may unwrap
 mod tests {
     use super::*;
 
@@ -992,7 +1010,10 @@ mod tests {
         assert!(eval_i128(&[1, 0, 2, 0, 1], x, 3).is_none());
         let want = (BigInt::from(1) << 80u32) + 9;
         assert_eq!(sieve.exact_square(x, 3), Some(want));
-        assert_eq!(sieve.exact_square(x, 2), Some((BigInt::from(1) << 80u32) + 4));
+        assert_eq!(
+            sieve.exact_square(x, 2),
+            Some((BigInt::from(1) << 80u32) + 4)
+        );
         // A non-square value near 2^160: (x² + z²)² + 1 is not a square.
         let g1 = [1, 0, 2, 0, 2].map(BigInt::from);
         assert_eq!(Sieve::new(&g1, &[]).exact_square(x, 1), None);

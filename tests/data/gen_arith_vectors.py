@@ -3,7 +3,7 @@
 
 Reference libraries: python-flint 0.9.0 (flint.fmpz.factor, flint.fmpz.is_prime) and
 sympy 1.14.0 (sympy.factorint, sympy.isprime, sympy.nextprime). Factorisations come from
-flint; sympy re-checks the primality of every factor and, for numbers of at most 45 digits,
+flint; sympy re-checks the primality of every factor and, for numbers of at most 30 digits,
 the whole factorisation. Primality flags are computed by both and must agree.
 Random choices use Python's `random.Random(20240601)`, so the files are reproducible.
 
@@ -33,8 +33,8 @@ def fac_line(n):
     g = flint.fmpz(abs(n)).factor() if abs(n) > 1 else []
     fs = {int(p): int(e) for p, e in g}
     assert all(sympy.isprime(p) for p in fs), n
-    if len(str(abs(n))) <= 45:
-        # sympy's factorint is slow beyond that on numbers with two 20-digit factors;
+    if len(str(abs(n))) <= 30:
+        # sympy's factorint is slow beyond that on numbers with two large factors;
         # larger entries are built from known primes and checked by multiplying back.
         f = sympy.factorint(n)
         assert fs == {int(p): int(e) for p, e in f.items() if p != -1}, n

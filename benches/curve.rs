@@ -1,0 +1,95 @@
+//! Criterion benchmarks for the curves layer: the group law and the
+//! reduced-model computation on curves with 20-, 50- and 100-digit
+//! coefficients, plus 2-torsion and the torsion subgroup.
+//!
+//! Run: `cargo bench --bench curve`.
+
+use criterion::{black_box, criterion_group, criterion_main, Criterion};
+use isodescent::curve::{
+    first_two_torsion_model, torsion_subgroup, two_torsion_points, Curve, Point,
+};
+use num_bigint::BigInt;
+use num_rational::BigRational;
+use num_traits::Zero;
+
+/// A deterministic d-digit integer (digits from a fixed linear recurrence).
+fn digits(d: usize, seed: u64) -> BigInt {
+    let mut s = String::new();
+    let mut x = seed;
+    for i in 0..d {
+        x = x.wrapping_mul(6364136223846793005).wrapping_add(1442695040888963407);
+        let digit = ((x >> 33) % 10) as u8;
+        s.push((b'0' + if i == 0 { digit.max(1) } else { digit }) as char);
+    }
+    s.parse().unwrap_or_default()
+}
+
+/// y² = x³ + a x² + b x through (x0, x0 k): a, b with about d digits and a
+/// point of (almost surely) infinite order.
+fn curve_with_point(d: usize) -> (Curve, Point) {
+    let a = digits(d, 1);
+    let x0 = digits(d / 2, 2);
+    let k = digits(d / 4 + 1, 3);
+    let b = &x0 * &k * &k - &x0 * &x0 - &a * &x0;
+    let e = Curve::from_bigints([BigInt::zero(), a, BigInt::zero(), b, BigInt::zero()])
+        .unwrap_or_else(|_| Curve::from_ints([0, 0, 0, -1, 0]).unwrap_or_else(|_| unreachable!()));
+    let p = Point::new(
+        BigRational::from_integer(x0.clone()),
+        BigRational::from_integer(&x0 * &k),
+    );
+    (e, p)
+}
+
+/// A general model (a1, a3 ≠ 0) with one rational 2-torsion point and about
+/// d-digit coefficients: y² = (x − r1)(x² + c) moved by a change of model
+/// with r, s, t ≠ 0.
+fn general_curve(d: usize) -> Curve {
+    let r1 = digits(d / 2, 4);
+    let c = digits(d, 5);
+    let a2 = -r1.clone();
+    let a4 = c.clone();
+    let a6 = -(&r1 * &c);
+    let base = Curve::from_bigints([BigInt::zero(), a2, BigInt::zero(), a4, a6])
+        .unwrap_or_else(|_| unreachable!());
+    let ch = isodescent::curve::ModelChange::new(
+        BigRational::from_integer(1.into()),
+        BigRational::from_integer(digits(d / 3 + 1, 6)),
+        BigRational::from_integer(1.into()),
+        BigRational::from_integer(digits(d / 3 + 1, 7)),
+    )
+    .unwrap_or_else(|_| unreachable!());
+    ch.apply_to_curve(&base)
+}
+
+fn bench(c: &mut Criterion) {
+    for d in [20usize, 50, 100] {
+        let (e, p) = curve_with_point(d);
+        let p2 = e.double(&p);
+        c.bench_function(&format!("curve/add/{d}-digit"), |b| {
+            b.iter(|| e.add(black_box(&p), black_box(&p2)))
+        });
+        c.bench_function(&format!("curve/double/{d}-digit"), |b| {
+            b.iter(|| e.double(black_box(&p)))
+        });
+        c.bench_function(&format!("curve/mul_by_8/{d}-digit"), |b| {
+            b.iter(|| e.mul_i64(black_box(&p), 8))
+        });
+        let g = general_curve(d);
+        c.bench_function(&format!("curve/two_torsion_points/{d}-digit"), |b| {
+            b.iter(|| two_torsion_points(black_box(&g)))
+        });
+        c.bench_function(&format!("curve/reduced_model/{d}-digit"), |b| {
+            b.iter(|| first_two_torsion_model(black_box(&g)))
+        });
+        c.bench_function(&format!("curve/torsion_subgroup/{d}-digit"), |b| {
+            b.iter(|| torsion_subgroup(black_box(&g)))
+        });
+    }
+}
+
+criterion_group! {
+    name = benches;
+    config = Criterion::default().sample_size(20).measurement_time(std::time::Duration::from_secs(2)).warm_up_time(std::time::Duration::from_millis(500));
+    targets = bench
+}
+criterion_main!(benches);

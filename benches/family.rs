@@ -1,0 +1,2 @@
+//! Family-scan benchmarks (being built).
+fn main() {}
