@@ -78,8 +78,14 @@ fn the_curve_of_conductor_14_has_types_i6_and_i3() {
     // From memory: y² + xy + y = x³ + 4x − 6 has Δ = −21952 = −2⁶·7³.
     let a = ints([1, 0, 1, 4, -6]);
     assert_eq!(integral_invariants(&a).discriminant, BigInt::from(-21952));
-    assert_eq!(local_reduction(&a, &prime(2)).unwrap().kodaira, Kodaira::In(6));
-    assert_eq!(local_reduction(&a, &prime(7)).unwrap().kodaira, Kodaira::In(3));
+    assert_eq!(
+        local_reduction(&a, &prime(2)).unwrap().kodaira,
+        Kodaira::In(6)
+    );
+    assert_eq!(
+        local_reduction(&a, &prime(7)).unwrap().kodaira,
+        Kodaira::In(3)
+    );
 }
 
 #[test]
@@ -125,13 +131,17 @@ fn a_heavily_scaled_model_at_a_large_prime_comes_back_to_the_minimal_one() {
     let pr = Prime::new(p.clone()).unwrap();
     let base = [0i64, 0, 1, -1, 0];
     let weights = [1usize, 2, 3, 4, 6];
-    let scaled: [BigInt; 5] =
-        std::array::from_fn(|i| BigInt::from(base[i]) * num_traits::pow(p.clone(), 50 * weights[i]));
+    let scaled: [BigInt; 5] = std::array::from_fn(|i| {
+        BigInt::from(base[i]) * num_traits::pow(p.clone(), 50 * weights[i])
+    });
     let lr = local_reduction(&scaled, &pr).unwrap();
     assert_eq!(lr.kodaira, Kodaira::I0);
     assert_eq!(lr.disc_valuation, 0);
     assert!(!lr.minimal_at_input);
-    assert_eq!(lr.change[0], BigRational::from_integer(num_traits::pow(p, 50)));
+    assert_eq!(
+        lr.change[0],
+        BigRational::from_integer(num_traits::pow(p, 50))
+    );
 }
 
 #[test]
@@ -141,7 +151,13 @@ fn a_huge_multiplicative_valuation_is_read_exactly() {
     // tangents y = 0 and y = −x, both rational: split I_200, c_2 = 200
     // [Sil94, IV.9, Algorithm 9.4, step 2].
     let big = num_traits::pow(BigInt::from(2), 200);
-    let a = [BigInt::one(), BigInt::zero(), BigInt::zero(), BigInt::zero(), big];
+    let a = [
+        BigInt::one(),
+        BigInt::zero(),
+        BigInt::zero(),
+        BigInt::zero(),
+        big,
+    ];
     let disc = integral_invariants(&a).discriminant;
     let v = isodescent::local::valuation(&disc, &prime(2)).unwrap();
     assert_eq!(v, 200);
@@ -162,7 +178,10 @@ fn a_non_integral_model_gets_an_integral_minimal_model_and_the_right_conductor()
     assert_eq!(g.conductor, BigInt::from(32));
     // The minimal model has Δ = 64 (that of y² = x³ − x), and the bad
     // prime 2 records that the input was not minimal (it is not 2-integral).
-    assert_eq!(integral_invariants(&g.minimal_model).discriminant, BigInt::from(64));
+    assert_eq!(
+        integral_invariants(&g.minimal_model).discriminant,
+        BigInt::from(64)
+    );
     assert_eq!(g.primes.len(), 1);
     assert!(!g.primes[0].minimal_at_input);
 }
@@ -242,7 +261,10 @@ fn a_rational_model_at_a_prime_of_its_denominators_is_not_minimal() {
     let base = [0i64, 0, 1, -1, 0];
     let w = [1u32, 2, 3, 4, 6];
     let a: [BigRational; 5] = std::array::from_fn(|i| {
-        BigRational::new(BigInt::from(base[i]) * BigInt::from(3).pow(w[i]), BigInt::from(5).pow(w[i]))
+        BigRational::new(
+            BigInt::from(base[i]) * BigInt::from(3).pow(w[i]),
+            BigInt::from(5).pow(w[i]),
+        )
     });
     for p in [3u64, 5, 37] {
         let lr = local_reduction_rational(&a, &prime(p)).unwrap();

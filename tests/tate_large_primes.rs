@@ -28,7 +28,12 @@ fn short(a: BigInt, b: BigInt) -> [BigInt; 5] {
 fn run(a: BigInt, b: BigInt) -> (Kodaira, u64, u32, u64) {
     let lr = local_reduction(&short(a, b), &prime()).unwrap();
     assert!(lr.minimal_at_input);
-    (lr.kodaira, lr.tamagawa, lr.conductor_exponent, lr.disc_valuation)
+    (
+        lr.kodaira,
+        lr.tamagawa,
+        lr.conductor_exponent,
+        lr.disc_valuation,
+    )
 }
 
 // sympy 1.14 at p = 10³⁹ + 3: legendre_symbol(2, p) = legendre_symbol(3, p)

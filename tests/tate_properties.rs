@@ -218,14 +218,23 @@ fn ogg_formula_and_the_tables_hold_at_every_bad_prime_of_five_thousand_random_cu
             let p = &lr.prime;
             let small = p.to_u64().is_some_and(|x| x <= 3);
             let vd = vp(&disc, p).unwrap_or(0);
-            seen_types.insert(format!("{}@{}", lr.kodaira, if small { p.to_string() } else { "p".into() }));
+            seen_types.insert(format!(
+                "{}@{}",
+                lr.kodaira,
+                if small { p.to_string() } else { "p".into() }
+            ));
             // v_p(Δ) recorded is that of the global minimal model.
             assert_eq!(lr.disc_valuation, vd, "{a:?} at {p}");
             let m = lr.kodaira.component_count();
             let f = u64::from(lr.conductor_exponent);
             // Ogg's formula [Ogg67]; for p = 2 [Saito88].
             assert_eq!(vd, f + m - 1, "Ogg fails for {a:?} at {p}: {}", lr.kodaira);
-            assert!(tamagawa_allowed(lr), "{a:?} at {p}: {} c={}", lr.kodaira, lr.tamagawa);
+            assert!(
+                tamagawa_allowed(lr),
+                "{a:?} at {p}: {} c={}",
+                lr.kodaira,
+                lr.tamagawa
+            );
             // Multiplicative iff p ∤ c4 on a minimal model [Silverman, AEC, VII.5.1].
             let mult = matches!(
                 lr.reduction,
@@ -278,7 +287,10 @@ fn ogg_formula_and_the_tables_hold_at_every_bad_prime_of_five_thousand_random_cu
     // The sample reaches every additive type at 2 and at 3.
     for p in ["2", "3"] {
         for k in ["II", "III", "IV", "I0*", "I1*", "I2*", "IV*", "III*", "II*"] {
-            assert!(seen_types.contains(&format!("{k}@{p}")), "no {k} at {p}: {seen_types:?}");
+            assert!(
+                seen_types.contains(&format!("{k}@{p}")),
+                "no {k} at {p}: {seen_types:?}"
+            );
         }
     }
 }
@@ -360,7 +372,10 @@ fn two_isogenous_curves_y2_x3_ax2_bx_and_y2_x3_m2ax2_a2m4b_x_have_equal_conducto
             random_two_torsion_curve(&mut rng, 400)
         } else {
             let c = twisted_two_torsion_curve(&mut rng);
-            (c[1].to_integer().to_i64().unwrap(), c[3].to_integer().to_i64().unwrap())
+            (
+                c[1].to_integer().to_i64().unwrap(),
+                c[3].to_integer().to_i64().unwrap(),
+            )
         };
         let e = global(&[q(0), q(a), q(0), q(b), q(0)]);
         let e2 = global(&[q(0), q(-2 * a), q(0), q(a * a - 4 * b), q(0)]);
@@ -388,7 +403,10 @@ fn local_reduction_on_the_integral_input_agrees_with_the_global_records() {
             // valuation.
             let image = transform(a, &lr.change);
             let m = to_ints(&image).unwrap();
-            assert_eq!(vp(&c4_c6_disc(&m).2, &lr.prime).unwrap_or(0), lr.disc_valuation);
+            assert_eq!(
+                vp(&c4_c6_disc(&m).2, &lr.prime).unwrap_or(0),
+                lr.disc_valuation
+            );
             let u = lr.change[0].to_integer();
             assert_eq!(lr.minimal_at_input, u.is_one());
         }

@@ -369,9 +369,9 @@ fn cubic_roots(a: &BigInt, b: &BigInt, c: &BigInt, p: &Prime) -> Result<CubicRoo
     match p.to_u64() {
         Some(q) if q <= 3 => cubic_roots_by_search(&a, &b, &c, q),
         _ => {
-            let d: BigInt = &a * &a * &b * &b - 4 * &b * &b * &b - 4 * &a * &a * &a * &c
-                - 27 * &c * &c
-                + 18 * &a * &b * &c;
+            let d: BigInt =
+                &a * &a * &b * &b - 4 * &b * &b * &b - 4 * &a * &a * &a * &c - 27 * &c * &c
+                    + 18 * &a * &b * &c;
             let d = d.mod_floor(pp);
             if !d.is_zero() {
                 let count = count_roots_squarefree_cubic(&a, &b, &c, pp)?;
@@ -1031,7 +1031,10 @@ fn normalising_shift(a: &[BigInt; 5]) -> (BigInt, BigInt, BigInt) {
 /// let g = global_local_data(&a, &mut Budget::unlimited()).unwrap();
 /// assert_eq!(g.conductor, 32.into());
 /// ```
-pub fn global_local_data(coeffs: &[BigRational; 5], budget: &mut Budget) -> Result<GlobalLocalData> {
+pub fn global_local_data(
+    coeffs: &[BigRational; 5],
+    budget: &mut Budget,
+) -> Result<GlobalLocalData> {
     // Step 1: an integral model.
     let (d, integral) = integral_scaling(coeffs);
     let disc = integral_invariants(&integral).discriminant;
@@ -1073,7 +1076,10 @@ pub fn global_local_data(coeffs: &[BigRational; 5], budget: &mut Budget) -> Resu
         let moved = !(u.is_one() && r.is_zero() && s.is_zero() && t.is_zero());
         let to_here = compose(&total, &lr.change);
         if moved {
-            current = integral_model(&change_rational(&current.clone().map(|x| rat(&x)), &lr.change)?)?;
+            current = integral_model(&change_rational(
+                &current.clone().map(|x| rat(&x)),
+                &lr.change,
+            )?)?;
             total = to_here.clone();
         }
         if lr.reduction != ReductionKind::Good {
@@ -1209,7 +1215,10 @@ impl Curve {
     pub fn global_minimal_model(&self, budget: &mut Budget) -> Result<(Curve, ModelChange)> {
         let g = self.local_data(budget)?;
         let [u, r, s, t] = g.change;
-        Ok((Curve::from_bigints(g.minimal_model)?, ModelChange::new(u, r, s, t)?))
+        Ok((
+            Curve::from_bigints(g.minimal_model)?,
+            ModelChange::new(u, r, s, t)?,
+        ))
     }
 }
 
@@ -1291,15 +1300,25 @@ mod tests {
             for a in 1..q {
                 for b in 0..q {
                     for c in 0..q {
-                        let roots: Vec<i64> =
-                            (0..q).filter(|x| (a * x * x + b * x + c) % q == 0).collect();
+                        let roots: Vec<i64> = (0..q)
+                            .filter(|x| (a * x * x + b * x + c) % q == 0)
+                            .collect();
                         let got = quadratic_roots(&a.into(), &b.into(), &c.into(), &pr).unwrap();
-                        let disc_zero = if q == 2 { b % 2 == 0 } else { (b * b - 4 * a * c).rem_euclid(q) == 0 };
+                        let disc_zero = if q == 2 {
+                            b % 2 == 0
+                        } else {
+                            (b * b - 4 * a * c).rem_euclid(q) == 0
+                        };
                         if disc_zero {
                             assert_eq!(roots.len(), 1);
                             assert_eq!(got, QuadRoots::Double(roots[0].into()));
                         } else {
-                            assert_eq!(got, QuadRoots::Distinct { rational: roots.len() == 2 });
+                            assert_eq!(
+                                got,
+                                QuadRoots::Distinct {
+                                    rational: roots.len() == 2
+                                }
+                            );
                         }
                     }
                 }

@@ -31,6 +31,8 @@ pub mod batch;
 pub mod bounds;
 pub mod options;
 pub mod report;
+#[cfg(feature = "serde")]
+pub mod serde_view;
 pub mod side;
 pub mod verify;
 

@@ -851,8 +851,8 @@ impl Sieve {
         self.keys.clear();
         // About log2(candidates in the row) + 6 moduli reduce the survivors
         // of a row to a small fraction of one; more only cost set-up time.
-        let wanted = (64 - (64 * row_words as u64).leading_zeros() as usize + 6)
-            .min(SIEVE_MODULI.len());
+        let wanted =
+            (64 - (64 * row_words as u64).leading_zeros() as usize + 6).min(SIEVE_MODULI.len());
         let active = self.n_caller + wanted;
         for (k, md) in self.moduli.iter_mut().take(active).enumerate() {
             let r = (z % md.m as u64) as u32;
