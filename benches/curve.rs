@@ -17,7 +17,9 @@ fn digits(d: usize, seed: u64) -> BigInt {
     let mut s = String::new();
     let mut x = seed;
     for i in 0..d {
-        x = x.wrapping_mul(6364136223846793005).wrapping_add(1442695040888963407);
+        x = x
+            .wrapping_mul(6364136223846793005)
+            .wrapping_add(1442695040888963407);
         let digit = ((x >> 33) % 10) as u8;
         s.push((b'0' + if i == 0 { digit.max(1) } else { digit }) as char);
     }

@@ -12,6 +12,7 @@
 //!   --search-work N      work units per homogeneous-space search
 //!   --local-work N       work units for the local tests of one side
 //!   --factor-work N      work units for factoring per isogeny
+//!   --seconds S          wall-clock limit per curve (results then depend on timing)
 //! ```
 //! Coefficients are integers or fractions p/q separated by spaces and/or
 //! commas. In `--json` mode blank lines and lines starting with `#` are
@@ -37,7 +38,7 @@ const DEMO: &[(&str, &str)] = &[
     ("0 7 0 3 0", "a second reduced form"),
 ];
 
-const USAGE: &str = "usage: descend [--json | \"A1 A2 A3 A4 A6\"] [--height H] [--second-height H] [--no-second] [--search-work N] [--local-work N] [--factor-work N]";
+const USAGE: &str = "usage: descend [--json | \"A1 A2 A3 A4 A6\"] [--height H] [--second-height H] [--no-second] [--search-work N] [--local-work N] [--factor-work N] [--seconds S]";
 
 enum Mode {
     Demo,
@@ -63,6 +64,15 @@ fn parse_args() -> Result<(Mode, DescentOptions), String> {
             "--search-work" => options.search_units = number("--search-work")?,
             "--local-work" => options.local_units = number("--local-work")?,
             "--factor-work" => options.factor_units = number("--factor-work")?,
+            "--seconds" => {
+                let v = args.next().ok_or("--seconds needs a value")?;
+                let secs: f64 = v
+                    .parse()
+                    .ok()
+                    .filter(|s: &f64| s.is_finite() && *s > 0.0 && *s < 1e9)
+                    .ok_or(format!("--seconds needs a positive number, got {v:?}"))?;
+                options.time_limit = Some(std::time::Duration::from_secs_f64(secs));
+            }
             "-h" | "--help" => return Err(String::new()),
             s if s.starts_with("--") => return Err(format!("unknown option {s}")),
             s => {

@@ -80,7 +80,9 @@ fn two_torsion_with_hundred_digit_coefficients_is_exact() {
     want.sort();
     assert_eq!(
         xs,
-        want.into_iter().map(BigRational::from_integer).collect::<Vec<_>>()
+        want.into_iter()
+            .map(BigRational::from_integer)
+            .collect::<Vec<_>>()
     );
 }
 
@@ -93,11 +95,17 @@ fn reduced_model_divides_out_primes_with_p2_dividing_a_and_p4_dividing_b() {
     let b = BigInt::from(-7) * k.pow(4);
     let e = Curve::from_bigints([BigInt::zero(), a, BigInt::zero(), b, BigInt::zero()]).unwrap();
     let m = two_torsion_model(&e, &Point::from_ints(0, 0)).unwrap();
-    assert_eq!((m.a.clone(), m.b.clone()), (BigInt::from(3), BigInt::from(-7)));
+    assert_eq!(
+        (m.a.clone(), m.b.clone()),
+        (BigInt::from(3), BigInt::from(-7))
+    );
     // p = 2 with p^2 | a but p^4 ∤ b must stay.
     let e = Curve::from_ints([0, 4, 0, 8, 0]).unwrap();
     let m = two_torsion_model(&e, &Point::from_ints(0, 0)).unwrap();
-    assert_eq!((m.a.clone(), m.b.clone()), (BigInt::from(4), BigInt::from(8)));
+    assert_eq!(
+        (m.a.clone(), m.b.clone()),
+        (BigInt::from(4), BigInt::from(8))
+    );
 }
 
 #[test]

@@ -12,14 +12,21 @@ fn q(n: i64, d: i64) -> BigRational {
 
 /// A curve through two chosen rational points: a1, a2, a3 free, a4 and a6
 /// solved from the two linear conditions (common practice).
-fn curve_through(a1: i64, a2: i64, a3: i64, p1: (i64, i64), p2: (i64, i64)) -> Option<(Curve, Point, Point)> {
+fn curve_through(
+    a1: i64,
+    a2: i64,
+    a3: i64,
+    p1: (i64, i64),
+    p2: (i64, i64),
+) -> Option<(Curve, Point, Point)> {
     let (x1, y1, x2, y2) = (q(p1.0, 1), q(p1.1, 1), q(p2.0, 1), q(p2.1, 1));
     if x1 == x2 {
         return None;
     }
     let (a1, a2, a3) = (q(a1, 1), q(a2, 1), q(a3, 1));
     // g(x, y) = y^2 + a1 xy + a3 y - x^3 - a2 x^2 = a4 x + a6.
-    let g = |x: &BigRational, y: &BigRational| y * y + &a1 * x * y + &a3 * y - x * x * x - &a2 * x * x;
+    let g =
+        |x: &BigRational, y: &BigRational| y * y + &a1 * x * y + &a3 * y - x * x * x - &a2 * x * x;
     let (g1, g2) = (g(&x1, &y1), g(&x2, &y2));
     let a4 = (&g1 - &g2) / (&x1 - &x2);
     let a6 = g1 - &a4 * &x1;

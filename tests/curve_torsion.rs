@@ -64,8 +64,8 @@ fn kubert(n: u32, t: &BigRational) -> Option<(BigRational, BigRational)> {
             }
             let f = &three * t * t - &three * t + &one;
             let c = -(t * (&two * t - &one) * &f) / (&m * &m * &m);
-            let b = t * (&two * t - &one) * (&two * t * t - &two * t + &one) * &f
-                / (&m * &m * &m * &m);
+            let b =
+                t * (&two * t - &one) * (&two * t * t - &two * t + &one) * &f / (&m * &m * &m * &m);
             Some((b, c))
         }
         _ => None,
@@ -100,7 +100,10 @@ fn check_group_is_consistent(e: &Curve, g: &TorsionGroup) {
             assert!(g.points().contains(&e.add(p, gen)));
         }
     }
-    assert_eq!(g.generators().len(), usize::from(n1 > 1) + usize::from(n2 > 1));
+    assert_eq!(
+        g.generators().len(),
+        usize::from(n1 > 1) + usize::from(n2 > 1)
+    );
     assert_eq!(g.reduction_bound() % g.order(), 0);
 }
 
@@ -111,7 +114,9 @@ fn kubert_families_have_torsion_divisible_by_n_with_the_point_zero_zero_inside()
         let mut tested = 0;
         for t in ts.iter().take(40) {
             let Some((b, c)) = kubert(n, t) else { continue };
-            let Some(e) = tate_normal(&b, &c) else { continue };
+            let Some(e) = tate_normal(&b, &c) else {
+                continue;
+            };
             let p = Point::new(z(0), z(0));
             // Validate the parametrisation itself with the group law.
             assert_eq!(e.order_up_to(&p, 12), Some(n), "N={n} t={t}: {e}");
@@ -170,14 +175,14 @@ fn classical_small_examples_have_their_known_torsion() {
     // From memory; standard examples (Silverman, AEC, VIII.7 and its
     // exercises; Silverman–Tate, Rational Points on Elliptic Curves, II.4–5).
     let cases: [([i64; 5], (u32, u32)); 8] = [
-        ([0, 0, 0, 0, -2], (1, 1)),  // y^2 = x^3 - 2
-        ([0, 0, 0, 0, 1], (6, 1)),   // y^2 = x^3 + 1
-        ([0, 0, 0, -1, 0], (2, 2)),  // y^2 = x^3 - x
-        ([0, 0, 0, 0, 4], (3, 1)),   // y^2 = x^3 + 4
+        ([0, 0, 0, 0, -2], (1, 1)),    // y^2 = x^3 - 2
+        ([0, 0, 0, 0, 1], (6, 1)),     // y^2 = x^3 + 1
+        ([0, 0, 0, -1, 0], (2, 2)),    // y^2 = x^3 - x
+        ([0, 0, 0, 0, 4], (3, 1)),     // y^2 = x^3 + 4
         ([0, 0, 0, -43, 166], (7, 1)), // y^2 = x^3 - 43x + 166
-        ([0, 0, 0, 4, 0], (4, 1)),   // y^2 = x^3 + 4x: (2, ±4) of order 4
-        ([0, -1, 1, 0, 0], (5, 1)),  // y^2 + y = x^3 - x^2
-        ([0, 0, 0, -2, 0], (2, 1)),  // y^2 = x^3 - 2x
+        ([0, 0, 0, 4, 0], (4, 1)),     // y^2 = x^3 + 4x: (2, ±4) of order 4
+        ([0, -1, 1, 0, 0], (5, 1)),    // y^2 + y = x^3 - x^2
+        ([0, 0, 0, -2, 0], (2, 1)),    // y^2 = x^3 - 2x
     ];
     for (a, s) in cases {
         let e = Curve::from_ints(a).unwrap();

@@ -12,7 +12,6 @@
 
 use num_bigint::BigInt;
 use num_integer::Integer;
-use num_rational::BigRational;
 use num_traits::{One, Signed, Zero};
 
 use crate::arith::isqrt;
@@ -28,38 +27,6 @@ fn inner(w: &[BigInt], x: &[BigInt], y: &[BigInt]) -> BigInt {
         .zip(x.iter().zip(y.iter()))
         .map(|(wi, (xi, yi))| wi * xi * yi)
         .sum()
-}
-
-/// Gram–Schmidt data: squared lengths B_i and coefficients μ_{ij}, j < i.
-struct GramSchmidt {
-    b: Vec<BigRational>,
-    mu: Vec<Vec<BigRational>>,
-}
-
-fn gram_schmidt(w: &[BigInt], basis: &Basis) -> GramSchmidt {
-    let n = basis.len();
-    let mut b: Vec<BigRational> = Vec::with_capacity(n);
-    let mut mu = vec![vec![BigRational::zero(); n]; n];
-    // r[i][j] = <b_i, b*_j> ; b*_j squared length B_j = r[j][j]
-    let mut r = vec![vec![BigRational::zero(); n]; n];
-    for i in 0..n {
-        for j in 0..=i {
-            let mut s = BigRational::from_integer(inner(w, &basis[i], &basis[j]));
-            for k in 0..j {
-                s -= &mu[j][k] * &r[i][k];
-            }
-            r[i][j] = s;
-            if j < i {
-                mu[i][j] = if b[j].is_zero() {
-                    BigRational::zero()
-                } else {
-                    &r[i][j] / &b[j]
-                };
-            }
-        }
-        b.push(r[i][i].clone());
-    }
-    GramSchmidt { b, mu }
 }
 
 fn exhausted(stage: &str) -> Error {
@@ -172,20 +139,40 @@ fn swap(basis: &mut Basis, lam: &mut [Vec<BigInt>], d: &mut [BigInt], k: usize, 
     d[k] = b;
 }
 
-/// floor(sqrt(t)) for a nonnegative rational t.
-fn floor_sqrt(t: &BigRational) -> BigInt {
-    let f = t.floor().to_integer();
-    if f.is_negative() {
-        return BigInt::zero();
+/// The integral Gram–Schmidt data of [Cohen93, §2.6.3]: `d[i + 1]` is the
+/// Gram determinant of b_0..b_i (`d[0] = 1`) and `lam[k][j] = d[j + 1] μ_kj`,
+/// all integers.
+fn integral_gs(w: &[BigInt], basis: &Basis) -> Result<(Vec<BigInt>, Vec<Vec<BigInt>>)> {
+    let n = basis.len();
+    let mut d = vec![BigInt::one(); n + 1];
+    let mut lam = vec![vec![BigInt::zero(); n]; n];
+    for k in 0..n {
+        for j in 0..=k {
+            let mut u = inner(w, &basis[k], &basis[j]);
+            for i in 0..j {
+                u = (&d[i + 1] * &u - &lam[k][i] * &lam[j][i]) / &d[i];
+            }
+            if j < k {
+                lam[k][j] = u;
+            } else {
+                if u.is_zero() {
+                    return Err(dependent());
+                }
+                d[k + 1] = u;
+            }
+        }
     }
-    // floor(sqrt(floor t)) = floor(sqrt t) for t >= 0
-    isqrt(&f).unwrap_or_else(|_| BigInt::zero())
+    Ok((d, lam))
 }
 
 /// Every nonzero vector v of the lattice spanned by `basis` with
 /// N(v) ≤ `radius`, up to sign (exactly one of ±v is listed), by
-/// Fincke–Pohst enumeration [FinckePohst85]. `basis` should be LLL-reduced
-/// so that the search tree is small. One budget unit per tree node.
+/// Fincke–Pohst enumeration [FinckePohst85] in exact integer arithmetic.
+///
+/// With yᵢ = d_{i+1} xᵢ + Σ_{j>i} λ_{ji} xⱼ one has
+/// N(Σ xᵢ bᵢ) = Σᵢ yᵢ² / (dᵢ d_{i+1}), so each level is an integer range.
+/// `basis` should be LLL-reduced so that the search tree is small. One
+/// budget unit per tree node.
 pub(crate) fn short_vectors(
     w: &[BigInt],
     basis: &Basis,
@@ -193,83 +180,85 @@ pub(crate) fn short_vectors(
     budget: &mut Budget,
 ) -> Result<Vec<Vec<BigInt>>> {
     let n = basis.len();
-    let gs = gram_schmidt(w, basis);
-    let r = BigRational::from_integer(radius.clone());
+    let (d, lam) = integral_gs(w, basis)?;
     let mut out: Vec<Vec<BigInt>> = Vec::new();
     let mut coords = vec![BigInt::zero(); n];
-    enumerate(
-        &gs,
+    let level = Level {
+        d: &d,
+        lam: &lam,
         basis,
-        n,
-        &r,
-        &mut coords,
-        &mut out,
-        budget,
-    )?;
+    };
+    level.enumerate(n, radius.clone(), BigInt::one(), &mut coords, &mut out, budget)?;
     Ok(out)
 }
 
-/// Recursive step: coordinates x_{level..n} are fixed in `coords`;
-/// `rem` is the radius left for levels below.
-fn enumerate(
-    gs: &GramSchmidt,
-    basis: &Basis,
-    level: usize,
-    rem: &BigRational,
-    coords: &mut Vec<BigInt>,
-    out: &mut Vec<Vec<BigInt>>,
-    budget: &mut Budget,
-) -> Result<()> {
-    let n = basis.len();
-    if level == 0 {
-        if coords.iter().all(|c| c.is_zero()) {
-            return Ok(());
-        }
-        // keep one of ±v: the last nonzero coordinate positive
-        if let Some(last) = coords.iter().rev().find(|c| !c.is_zero()) {
-            if last.is_negative() {
+struct Level<'a> {
+    d: &'a [BigInt],
+    lam: &'a [Vec<BigInt>],
+    basis: &'a Basis,
+}
+
+impl Level<'_> {
+    /// Coordinates x_{level..n} are fixed in `coords`; the radius left for
+    /// the levels below is num/den.
+    fn enumerate(
+        &self,
+        level: usize,
+        num: BigInt,
+        den: BigInt,
+        coords: &mut Vec<BigInt>,
+        out: &mut Vec<Vec<BigInt>>,
+        budget: &mut Budget,
+    ) -> Result<()> {
+        let n = self.basis.len();
+        if level == 0 {
+            if coords.iter().all(|c| c.is_zero()) {
                 return Ok(());
             }
-        }
-        let dim = basis[0].len();
-        let mut v = vec![BigInt::zero(); dim];
-        for (c, row) in coords.iter().zip(basis.iter()) {
-            for (vi, bi) in v.iter_mut().zip(row.iter()) {
-                *vi += c * bi;
+            // keep one of ±v: the last nonzero coordinate positive
+            if let Some(last) = coords.iter().rev().find(|c| !c.is_zero()) {
+                if last.is_negative() {
+                    return Ok(());
+                }
             }
+            let dim = self.basis[0].len();
+            let mut v = vec![BigInt::zero(); dim];
+            for (c, row) in coords.iter().zip(self.basis.iter()) {
+                for (vi, bi) in v.iter_mut().zip(row.iter()) {
+                    *vi += c * bi;
+                }
+            }
+            out.push(v);
+            return Ok(());
         }
-        out.push(v);
-        return Ok(());
-    }
-    let i = level - 1;
-    budget.spend(1).map_err(|_| exhausted("short-vector enumeration"))?;
-    if gs.b[i].is_zero() {
-        return Err(Error::Degenerate {
-            reason: "lattice basis is linearly dependent".into(),
-        });
-    }
-    // centre c = -Σ_{j>i} μ_{j,i} x_j
-    let mut centre = BigRational::zero();
-    for j in (i + 1)..n {
-        centre -= &gs.mu[j][i] * BigRational::from_integer(coords[j].clone());
-    }
-    let t = rem / &gs.b[i];
-    let s = floor_sqrt(&t) + 1u32;
-    let lo = centre.floor().to_integer() - &s;
-    let hi = centre.floor().to_integer() + &s + 1u32;
-    let mut x = lo;
-    while x <= hi {
-        let d = BigRational::from_integer(x.clone()) - &centre;
-        let used = &d * &d * &gs.b[i];
-        if &used <= rem {
+        let i = level - 1;
+        budget
+            .spend(1)
+            .map_err(|_| exhausted("short-vector enumeration"))?;
+        let c: BigInt = ((i + 1)..n).map(|j| &self.lam[j][i] * &coords[j]).sum();
+        let dd = &self.d[i] * &self.d[i + 1];
+        // |y| ≤ Y with Y² ≤ num·dᵢd_{i+1}/den
+        let bound = (&num * &dd).div_floor(&den);
+        if bound.is_negative() {
+            return Ok(());
+        }
+        let y_max = isqrt(&bound).unwrap_or_else(|_| BigInt::zero());
+        let di1 = &self.d[i + 1];
+        // x from ceil((−Y − c)/d) to floor((Y − c)/d)
+        let lo = -((&y_max + &c).div_floor(di1));
+        let hi = (&y_max - &c).div_floor(di1);
+        let mut x = lo;
+        while x <= hi {
+            let y = di1 * &x + &c;
             coords[i] = x.clone();
-            let next = rem - used;
-            enumerate(gs, basis, i, &next, coords, out, budget)?;
+            let num2 = &num * &dd - &y * &y * &den;
+            let den2 = &den * &dd;
+            self.enumerate(i, num2, den2, coords, out, budget)?;
+            x += 1u32;
         }
-        x += 1u32;
+        coords[i] = BigInt::zero();
+        Ok(())
     }
-    coords[i] = BigInt::zero();
-    Ok(())
 }
 
 /// Hermite normal form style echelon basis of the lattice generated by the

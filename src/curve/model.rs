@@ -73,7 +73,12 @@ impl ModelChange {
     /// # Errors
     /// [`Error::Zero`] if u = 0.
     pub fn scaling(u: BigRational) -> Result<Self> {
-        ModelChange::new(u, BigRational::zero(), BigRational::zero(), BigRational::zero())
+        ModelChange::new(
+            u,
+            BigRational::zero(),
+            BigRational::zero(),
+            BigRational::zero(),
+        )
     }
 
     /// The pure translation (1, r, s, t).
@@ -147,9 +152,8 @@ impl ModelChange {
         let na1 = (a1 + &two * s) * &ui;
         let na2 = (a2 - s * a1 + &three * r - s * s) * &ui2;
         let na3 = (a3 + r * a1 + &two * t) * &ui3;
-        let na4 = (a4 - s * a3 + &two * r * a2 - (t + r * s) * a1 + &three * r * r
-            - &two * s * t)
-            * &ui4;
+        let na4 =
+            (a4 - s * a3 + &two * r * a2 - (t + r * s) * a1 + &three * r * r - &two * s * t) * &ui4;
         let na6 = (a6 + r * a4 + r * r * a2 + r * r * r - t * a3 - t * t - r * t * a1) * &ui6;
         let coeffs = [na1, na2, na3, na4, na6];
         match Curve::new(coeffs.clone()) {

@@ -285,6 +285,9 @@ mod tests {
         let p = Point::from_ints(0, 0);
         assert!(e.contains(&p));
         assert_eq!(e.mul_i64(&p, -5), e.neg(&e.mul_i64(&p, 5)));
-        assert_eq!(e.add(&e.mul_i64(&p, 5), &e.mul_i64(&p, -5)), Point::Infinity);
+        assert_eq!(
+            e.add(&e.mul_i64(&p, 5), &e.mul_i64(&p, -5)),
+            Point::Infinity
+        );
     }
 }

@@ -257,7 +257,11 @@ fn gcd_degree_mod_p(a: &[u64], b: &[u64], p: u64) -> Option<usize> {
     let mut b = b.to_vec();
     loop {
         if b.is_empty() {
-            return if a.is_empty() { None } else { Some(a.len() - 1) };
+            return if a.is_empty() {
+                None
+            } else {
+                Some(a.len() - 1)
+            };
         }
         // a <- a mod b
         let lb = *b.last().unwrap_or(&1);
@@ -419,10 +423,7 @@ mod tests {
     fn integer_roots_of_a_split_cubic_are_found_in_order() {
         // (x - 3)(x + 5)(2x - 1) = 2x^3 + 3x^2 - 32x + 15
         let f = p(&[15, -32, 3, 2]);
-        assert_eq!(
-            integer_roots(&f),
-            vec![BigInt::from(-5), BigInt::from(3)]
-        );
+        assert_eq!(integer_roots(&f), vec![BigInt::from(-5), BigInt::from(3)]);
     }
 
     #[test]

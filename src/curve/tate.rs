@@ -4,7 +4,7 @@
 //! # What is computed
 //! For an integral Weierstrass model
 //! `E: y² + a1·xy + a3·y = x³ + a2·x² + a4·x + a6` and a prime `p`,
-//! [`local_reduction`] runs Tate's algorithm [Tate75], in the form of
+//! [`local_reduction`] runs Tate's algorithm \[Tate75\], in the form of
 //! [Sil94, IV.9, Algorithm 9.4] (see also [Cre97, 3.2]), and returns the
 //! Kodaira symbol of the special fibre of the Néron model, the exponent
 //! `f_p` of the conductor, the Tamagawa number `c_p = [E(Q_p) : E⁰(Q_p)]`,
@@ -845,7 +845,7 @@ fn subprocedure_in_star(run: &mut Run<'_>, disc_val: u64) -> Result<(u64, u64)> 
 /// # Statement
 /// Returns the Kodaira symbol, `f_p`, `c_p`, `v_p(Δ_min)`, whether the
 /// model is minimal at `p`, and `[u, r, s, t]` (integers, `u = p^k`) to a
-/// model integral and minimal at `p` [Tate75], [Sil94, IV.9].
+/// model integral and minimal at `p` \[Tate75\], [Sil94, IV.9].
 ///
 /// # The algorithm ([Sil94, IV.9, Algorithm 9.4]; [Cre97, 3.2])
 /// Write `a_{i,k} = a_i / p^k` and `n = v_p(Δ)`.
@@ -875,8 +875,8 @@ fn subprocedure_in_star(run: &mut Run<'_>, disc_val: u64) -> Result<(u64, u64)> 
 ///
 /// The exponent of the conductor: `f = 0` (good), 1 (multiplicative),
 /// and for additive reduction `f = 2` when `p ≥ 5` (tame), and
-/// `f = v_p(Δ_min) + 1 − m_p` when `p = 2, 3`, by Ogg's formula [Ogg67]
-/// (proved for p = 2 in [Saito88]), `m_p` = [`Kodaira::component_count`].
+/// `f = v_p(Δ_min) + 1 − m_p` when `p = 2, 3`, by Ogg's formula \[Ogg67\]
+/// (proved for p = 2 in \[Saito88\]), `m_p` = [`Kodaira::component_count`].
 ///
 /// The roots of quadratics mod p use the Legendre symbol; the number of
 /// roots of the cubic in step 6 is `deg gcd(T^p − T, P)` computed by
@@ -997,7 +997,7 @@ fn normalising_shift(a: &[BigInt; 5]) -> (BigInt, BigInt, BigInt) {
 /// Q has class number one, so `E` has a global minimal model, integral
 /// and minimal at every prime [Sil86, VIII.8.3]; it is unique once
 /// normalised to `a1, a3 ∈ {0, 1}`, `a2 ∈ {−1, 0, 1}` [Cre97, 3.2]
-/// ([Kraus89] characterises the invariants `c4, c6` that occur).
+/// (\[Kraus89\] characterises the invariants `c4, c6` that occur).
 /// The conductor is `N = ∏ p^f_p`.
 ///
 /// # Method
@@ -1014,7 +1014,7 @@ fn normalising_shift(a: &[BigInt; 5]) -> (BigInt, BigInt, BigInt) {
 ///
 /// # Errors
 /// [`Error::SingularCurve`] when `Δ = 0`; the errors of
-/// [`crate::arith::factor`] ([`Error::FactorBudgetExhausted`],
+/// [`factor`](fn@crate::arith::factor) ([`Error::FactorBudgetExhausted`],
 /// [`Error::BudgetExhausted`]) when `budget` runs out.
 ///
 /// # Cost
@@ -1235,6 +1235,7 @@ fn integral_model(a: &[BigRational; 5]) -> Result<[BigInt; 5]> {
 }
 
 #[cfg(test)]
+#[allow(clippy::unwrap_used)]
 mod tests {
     use super::*;
 

@@ -191,13 +191,7 @@ fn primary_part(
         let mut next: Vec<Point> = Vec::new();
         if l == 2 && k == 1 {
             // Points of order exactly 4: roots of f_4 / 2.
-            let sextic = ZPoly::new(
-                polys[4]
-                    .0
-                    .iter()
-                    .map(|c| c / BigInt::from(2))
-                    .collect(),
-            );
+            let sextic = ZPoly::new(polys[4].0.iter().map(|c| c / BigInt::from(2)).collect());
             for p in points_over_roots(cubic, &sextic) {
                 let d = short.double(&p);
                 if !d.is_infinity() && short.double(&d).is_infinity() {
@@ -236,7 +230,10 @@ fn points_over_roots(cubic: &ZPoly, f: &ZPoly) -> Vec<Point> {
         if y.is_zero() {
             out.push(Point::new(xr, BigRational::zero()));
         } else {
-            out.push(Point::new(xr.clone(), BigRational::from_integer(-y.clone())));
+            out.push(Point::new(
+                xr.clone(),
+                BigRational::from_integer(-y.clone()),
+            ));
             out.push(Point::new(xr, BigRational::from_integer(y)));
         }
     }

@@ -291,7 +291,10 @@ mod tests {
     fn documented_reduced_model_example_holds() {
         let e = Curve::from_ints([0, -1, 0, -4, 4]).unwrap();
         let m = two_torsion_model(&e, &Point::from_ints(1, 0)).unwrap();
-        assert_eq!((m.a.clone(), m.b.clone()), (BigInt::from(2), BigInt::from(-3)));
+        assert_eq!(
+            (m.a.clone(), m.b.clone()),
+            (BigInt::from(2), BigInt::from(-3))
+        );
         assert_eq!(m.change().apply_to_curve(&e), *m.curve());
     }
 }

@@ -30,7 +30,12 @@ use num_traits::{One, Zero};
 use crate::error::{Error, Result};
 
 /// Longest accepted numerator or denominator, in digits, when parsing.
-pub const MAX_COEFFICIENT_DIGITS: usize = 100_000;
+///
+/// Computing j = c4³/Δ in lowest terms needs a gcd of numbers about 12
+/// times this long, and big-integer gcd is quadratic: at 4000 digits a
+/// curve parses in a fraction of a second, at 10⁵ digits it would take
+/// minutes. [`Curve::new`] itself has no cap (its cost is the caller's).
+pub const MAX_COEFFICIENT_DIGITS: usize = 4_000;
 
 /// An elliptic curve over Q given by a (general) Weierstrass model, with its
 /// invariants b2, b4, b6, b8, c4, c6, Δ and j precomputed.
@@ -122,7 +127,13 @@ impl Curve {
     /// # Errors
     /// [`Error::SingularCurve`] if 4A³ + 27B² = 0.
     pub fn short(a: BigRational, b: BigRational) -> Result<Curve> {
-        Curve::new([BigRational::zero(), BigRational::zero(), BigRational::zero(), a, b])
+        Curve::new([
+            BigRational::zero(),
+            BigRational::zero(),
+            BigRational::zero(),
+            a,
+            b,
+        ])
     }
 
     /// The coefficients `[a1, a2, a3, a4, a6]`.
@@ -220,7 +231,9 @@ fn parse_token(tok: &str, input: &str) -> Result<BigRational> {
     };
     let digits = |s: &str, what: &str, signed: bool| -> Result<BigInt> {
         let body = if signed {
-            s.strip_prefix('-').or_else(|| s.strip_prefix('+')).unwrap_or(s)
+            s.strip_prefix('-')
+                .or_else(|| s.strip_prefix('+'))
+                .unwrap_or(s)
         } else {
             s
         };
@@ -259,7 +272,10 @@ fn truncate_for_message(s: &str) -> String {
     if s.len() <= KEEP {
         s.to_string()
     } else {
-        let cut = (0..=KEEP).rev().find(|&i| s.is_char_boundary(i)).unwrap_or(0);
+        let cut = (0..=KEEP)
+            .rev()
+            .find(|&i| s.is_char_boundary(i))
+            .unwrap_or(0);
         format!("{}… ({} bytes)", &s[..cut], s.len())
     }
 }
@@ -358,7 +374,10 @@ mod tests {
     #[test]
     fn doubled_or_dangling_commas_are_rejected() {
         for s in ["0,,0,0,-25,0", ",0,0,0,-25,0", "0,0,0,-25,0,"] {
-            assert!(matches!(s.parse::<Curve>(), Err(Error::Parse { .. })), "{s}");
+            assert!(
+                matches!(s.parse::<Curve>(), Err(Error::Parse { .. })),
+                "{s}"
+            );
         }
     }
 }

@@ -36,6 +36,8 @@ pub mod serde_view;
 pub mod side;
 pub mod verify;
 
+use std::time::Instant;
+
 use num_bigint::BigInt;
 
 pub use batch::{is_skipped_line, json_for_line};
@@ -109,8 +111,9 @@ pub fn descend_isogeny(
     t: &Point,
     options: &DescentOptions,
 ) -> Result<IsogenyDescent> {
+    let deadline = options.time_limit.map(|d| Instant::now() + d);
     let torsion = torsion_subgroup(curve);
-    descend_isogeny_with_torsion(curve, t, &torsion, options)
+    descend_isogeny_with_torsion(curve, t, &torsion, options, deadline)
 }
 
 /// [`descend_isogeny`] with the torsion subgroup of `curve` supplied.
@@ -119,12 +122,13 @@ fn descend_isogeny_with_torsion(
     t: &Point,
     torsion: &TorsionGroup,
     options: &DescentOptions,
+    deadline: Option<Instant>,
 ) -> Result<IsogenyDescent> {
     let model = two_torsion_model(curve, t)?;
     let isogeny = TwoIsogeny::from_model(&model)?;
     let (a, b) = (model.a.clone(), model.b.clone());
     let (a2, b2) = isogeny.codomain_coefficients();
-    let mut budget = Budget::with_units(options.factor_units);
+    let mut budget = options.budget(options.factor_units, deadline);
     let mut primes = vec![Prime::two()];
     primes_of(&b, &mut budget, &mut primes)?;
     primes_of(&b2, &mut budget, &mut primes)?;
@@ -138,9 +142,9 @@ fn descend_isogeny_with_torsion(
         .collect();
     let torsion_e2 = torsion_subgroup(isogeny.codomain()).points().to_vec();
 
-    let domain = side::compute_side(&a, &b, model.curve(), &primes, &torsion_e, options)?;
+    let domain = side::compute_side(&a, &b, model.curve(), &primes, &torsion_e, options, deadline)?;
     let codomain =
-        side::compute_side(&a2, &b2, isogeny.codomain(), &primes, &torsion_e2, options)?;
+        side::compute_side(&a2, &b2, isogeny.codomain(), &primes, &torsion_e2, options, deadline)?;
     if domain.torsion_dim + codomain.torsion_dim != 2 {
         return Err(Error::InvalidArgument {
             reason: format!(
@@ -183,6 +187,7 @@ fn descend_isogeny_with_torsion(
 /// budget errors ([`Error::FactorBudgetExhausted`],
 /// [`Error::BudgetExhausted`]) when a budget in `options` runs out.
 pub fn descend(curve: &Curve, options: &DescentOptions) -> Result<DescentReport> {
+    let deadline = options.time_limit.map(|d| Instant::now() + d);
     let ts = two_torsion_points(curve);
     if ts.is_empty() {
         return Err(Error::NoTwoTorsion);
@@ -190,7 +195,7 @@ pub fn descend(curve: &Curve, options: &DescentOptions) -> Result<DescentReport>
     let torsion = torsion_subgroup(curve);
     let mut isogenies = Vec::with_capacity(ts.len());
     for t in &ts {
-        isogenies.push(descend_isogeny_with_torsion(curve, t, &torsion, options)?);
+        isogenies.push(descend_isogeny_with_torsion(curve, t, &torsion, options, deadline)?);
     }
     Ok(DescentReport::new(curve.clone(), torsion, isogenies))
 }

@@ -1,6 +1,10 @@
 //! Options for a descent, with defaults that decide most curves with small
 //! coefficients in milliseconds.
 
+use std::time::{Duration, Instant};
+
+use crate::budget::Budget;
+
 /// Knobs for [`crate::descent::descend`]. Every budget is counted in the
 /// deterministic units of [`crate::Budget`], so the same input and the same
 /// options always give the same report.
@@ -27,6 +31,10 @@ pub struct DescentOptions {
     pub second_search_height: u64,
     /// Work units for the whole second descent of one class.
     pub second_descent_units: u64,
+    /// Optional wall-clock limit for one curve, on top of the unit budgets.
+    /// A run that hits it is, by nature, not reproducible; `None` (the
+    /// default) keeps every result deterministic.
+    pub time_limit: Option<Duration>,
 }
 
 impl Default for DescentOptions {
@@ -41,6 +49,7 @@ impl Default for DescentOptions {
             second_descent: true,
             second_search_height: 64,
             second_descent_units: 100_000_000,
+            time_limit: None,
         }
     }
 }
@@ -54,6 +63,15 @@ impl DescentOptions {
             max_classes_searched: 0,
             second_descent: false,
             ..Self::default()
+        }
+    }
+
+    /// A budget of `units` with this run's deadline (if any) attached.
+    pub(crate) fn budget(&self, units: u64, deadline: Option<Instant>) -> Budget {
+        let b = Budget::with_units(units);
+        match deadline {
+            Some(d) => b.with_deadline(d),
+            None => b,
         }
     }
 

@@ -13,13 +13,14 @@
 //! representatives for a point, adding its class to K when found;
 //! (5) an adapted basis of Sel: torsion images, point images, the rest.
 
+use std::time::Instant;
+
 use num_bigint::BigInt;
 use num_integer::Integer;
 use num_rational::BigRational;
 use num_traits::{One, Signed, Zero};
 
 use super::options::DescentOptions;
-use crate::budget::Budget;
 use crate::curve::{Curve, Point};
 use crate::error::{Error, Result};
 use crate::local::{Place, Prime};
@@ -191,11 +192,12 @@ pub fn compute_side(
     primes: &[Prime],
     torsion: &[Point],
     options: &DescentOptions,
+    deadline: Option<Instant>,
 ) -> Result<SelmerSide> {
     let qs2 = QS2::new(primes.to_vec());
     let mut places = vec![Place::Real];
     places.extend(qs2.primes().iter().cloned().map(Place::Finite));
-    let mut budget = Budget::with_units(options.local_units);
+    let mut budget = options.budget(options.local_units, deadline);
     let mut local_images = Vec::with_capacity(places.len());
     let mut conditions = Vec::with_capacity(places.len());
     for v in &places {
@@ -252,7 +254,7 @@ pub fn compute_side(
                 continue;
             }
             tried += 1;
-            if let Some((v, point)) = search_coset(a, b, curve, &qs2, &x, &known, options, &mut searches)? {
+            if let Some((v, point)) = search_coset(a, b, curve, &qs2, &x, &known, options, deadline, &mut searches)? {
                 known.insert(v.clone());
                 elements.push(SelmerElement {
                     class: qs2.integer(&v),
@@ -323,6 +325,7 @@ fn search_coset(
     x: &BitVec,
     known: &Subspace,
     options: &DescentOptions,
+    deadline: Option<Instant>,
     searches: &mut Vec<SearchRecord>,
 ) -> Result<Option<Found>> {
     for (d, v) in coset_representatives(qs2, x, known)
@@ -333,7 +336,7 @@ fn search_coset(
             continue;
         }
         let (coeffs, f) = space_for(&d, a, b)?;
-        let mut budget = Budget::with_units(options.search_units);
+        let mut budget = options.budget(options.search_units, deadline);
         let outcome = search(&coeffs, &SearchOptions::up_to(options.search_height), &mut budget)?;
         let found = match &outcome {
             SearchOutcome::Found(qp) => point_from_space(&d, &f, qp).map(|p| (p, qp.clone())),

@@ -243,6 +243,7 @@ pub(crate) fn constant_times_square(phi: &FpPoly, p: &BigInt) -> Option<BigInt> 
 }
 
 #[cfg(test)]
+#[allow(clippy::unwrap_used)]
 mod tests {
     use super::*;
 

@@ -47,6 +47,7 @@ def fac_line(n):
 
 
 def write_factor(name, comment, numbers):
+    print(name, len(numbers), flush=True)
     with open("tests/data/" + name, "w") as fh:
         fh.write(HEADER)
         fh.write("# " + comment + "\n")
@@ -93,10 +94,11 @@ write_factor("factor_built.txt",
 powers = [3 ** 40, 2 ** 100 * 3, 7 ** 30 * 11 ** 3, (10 ** 9 + 7) ** 5]
 for d in (10, 15, 20):
     p = rand_prime(d)
-    powers += [p ** 2, p ** 3, p ** 2 * rand_prime(d)]
+    powers += [p ** 2, p ** 3, p ** 2 * rand_prime(min(d, 15))]
 carmichael = [561, 1105, 1729, 2465, 2821, 6601, 8911, 41041, 825265, 321197185,
               5394826801, 232250619601, 9746347772161]
 # Chernick's form (6k+1)(12k+1)(18k+1) with all three factors prime is a Carmichael number.
+print("chernick", flush=True)
 k = 10 ** 9
 found = 0
 while found < 3:
