@@ -1,7 +1,7 @@
-//! Criterion benchmarks for Tate's algorithm on models with 50-digit
-//! coefficients, at fixed primes (so that factoring is not measured), and
-//! the global minimal model of a 50-digit model whose discriminant has
-//! only small prime factors.
+//! Criterion benchmarks for Tate's algorithm on models with coefficients
+//! of 30 to 70 digits, at fixed primes (so that factoring is not
+//! measured), and the global minimal model of such a model whose
+//! discriminant has only small prime factors.
 //!
 //! Run: `cargo bench --bench tate`.
 
@@ -47,9 +47,9 @@ fn transform(a: &[BigRational; 5], ch: &[BigRational; 4]) -> [BigRational; 5] {
     [n1, n2, n3, n4, n6]
 }
 
-/// A small model moved by `u = 1/k` and shifts of about 16/25/25 digits,
-/// giving an integral, non-minimal model with coefficients of up to about
-/// 50 digits.
+/// A small model moved by `u = 1/k` and shifts of 16/25/25 digits, giving
+/// an integral, non-minimal model (coefficients of about 29, 56, 35, 62, 68
+/// digits for k = 6⁴).
 fn disguised(base: [i64; 5], k: i64) -> [BigInt; 5] {
     let a = base.map(|c| q(&c.into()));
     let ch = [
@@ -88,7 +88,7 @@ fn bench_tate(c: &mut Criterion) {
     });
 
     // Type I0* at a 17-digit prime p: y² = x³ − 7p²x + 6p³ (coefficients
-    // of 35 and 52 digits); the cubic T³ − 7T + 6 is counted by the gcd
+    // of 33 and 49 digits); the cubic T³ − 7T + 6 is counted by the gcd
     // with T^p − T.
     let p17: BigInt = "10000000000000061".parse().unwrap_or_default();
     if let Ok(pr) = Prime::new(p17.clone()) {
@@ -105,7 +105,7 @@ fn bench_tate(c: &mut Criterion) {
     }
 
     // The global minimal model of y² + y = x³ − x² − 10x − 20 disguised by
-    // u = 1/(2³·3²·5) and 16/25/25-digit shifts: Δ = −11⁵·2³⁶·3²⁴·5¹²,
+    // u = 1/(2³·3²·5) and 16/25/25-digit shifts (28 to 65 digits): Δ = −11⁵·2³⁶·3²⁴·5¹²,
     // so factoring is trivial and four runs of Tate's algorithm dominate.
     let glob = disguised([0, -1, 1, -10, -20], 360).map(|x| q(&x));
     g.bench_function("global_data_of_a_disguised_50_digit_model", |b| {

@@ -94,8 +94,7 @@ fn parse_args(v: &[String]) -> Res<Args> {
 }
 
 fn need<'a>(v: &'a Option<String>, what: &str) -> Res<&'a str> {
-    v.as_deref()
-        .ok_or_else(|| format!("missing {what}").into())
+    v.as_deref().ok_or_else(|| format!("missing {what}").into())
 }
 
 fn number<T: std::str::FromStr>(v: &Option<String>, what: &str) -> Res<T> {
@@ -107,10 +106,9 @@ fn number<T: std::str::FromStr>(v: &Option<String>, what: &str) -> Res<T> {
 
 fn family_of(a: &Args) -> Res<Family> {
     let fam = match need(&a.family, "--family (congruent, twists or box)")? {
-        "congruent" => Family::congruent_numbers(
-            number(&a.from, "--from")?,
-            number(&a.to, "--to")?,
-        )?,
+        "congruent" => {
+            Family::congruent_numbers(number(&a.from, "--from")?, number(&a.to, "--to")?)?
+        }
         "twists" => {
             let curve: Curve = need(&a.curve, "--curve \"a1 a2 a3 a4 a6\"")?.parse()?;
             Family::quadratic_twists(&curve, number(&a.from, "--from")?, number(&a.to, "--to")?)?
@@ -187,7 +185,10 @@ fn cmd_scan(a: &Args) -> Res<()> {
             );
         }
         if st.records > 0 {
-            eprintln!("{out}: {} records already there, going on after them", st.records);
+            eprintln!(
+                "{out}: {} records already there, going on after them",
+                st.records
+            );
         }
         kept = st.records;
         tally = st.tally;
@@ -215,7 +216,11 @@ fn cmd_scan(a: &Args) -> Res<()> {
             }
         }
         if !seen {
-            return Err(format!("{out} holds member {li}, which is not in this family and shard").into());
+            return Err(format!(
+                "{out} was written for another family or shard: it holds member {li}, \
+                 which this family and shard do not have"
+            )
+            .into());
         }
     }
 
@@ -328,7 +333,10 @@ fn plot(t: &Tally, path: &str, title: &str) -> Res<()> {
         .margin(16)
         .x_label_area_size(40)
         .y_label_area_size(64)
-        .build_cartesian_2d((0u32..max_s + 1).into_segmented(), 0u64..max_n + max_n / 10 + 1)?;
+        .build_cartesian_2d(
+            (0u32..max_s + 1).into_segmented(),
+            0u64..max_n + max_n / 10 + 1,
+        )?;
     ch.configure_mesh()
         .disable_x_mesh()
         .x_desc("dim Sel(E) + dim Sel(E') - 2")

@@ -20,7 +20,7 @@ fn big(s: &str) -> BigInt {
 }
 
 proptest! {
-    #![proptest_config(ProptestConfig { cases: 256, ..ProptestConfig::default() })]
+    #![proptest_config(ProptestConfig { cases: 64, ..ProptestConfig::default() })]
 
     #[test]
     fn a_factorisation_multiplies_back_and_lists_primes(n in any::<i128>().prop_filter("nonzero", |n| *n != 0)) {
@@ -102,10 +102,19 @@ fn zero_is_refused_with_a_typed_error() {
     let z = BigInt::zero();
     let mut b = Budget::unlimited();
     assert!(matches!(factor(&z, &mut b), Err(Error::Zero { .. })));
-    assert!(matches!(squarefree_part(&z, &mut b), Err(Error::Zero { .. })));
-    assert!(matches!(squarefree_kernel(&z, &mut b), Err(Error::Zero { .. })));
+    assert!(matches!(
+        squarefree_part(&z, &mut b),
+        Err(Error::Zero { .. })
+    ));
+    assert!(matches!(
+        squarefree_kernel(&z, &mut b),
+        Err(Error::Zero { .. })
+    ));
     let zr = BigRational::from_integer(z.clone());
-    assert!(matches!(squarefree_part_rational(&zr, &mut b), Err(Error::Zero { .. })));
+    assert!(matches!(
+        squarefree_part_rational(&zr, &mut b),
+        Err(Error::Zero { .. })
+    ));
     let zd = BigRational::new_raw(BigInt::one(), BigInt::zero());
     assert!(matches!(
         squarefree_part_rational(&zd, &mut b),
@@ -117,7 +126,10 @@ fn zero_is_refused_with_a_typed_error() {
 
 #[test]
 fn a_negative_argument_to_isqrt_is_a_typed_error() {
-    assert!(matches!(isqrt(&BigInt::from(-4)), Err(Error::NotPositive { .. })));
+    assert!(matches!(
+        isqrt(&BigInt::from(-4)),
+        Err(Error::NotPositive { .. })
+    ));
     assert_eq!(sqrt_exact(&BigInt::from(-4)), None);
     assert!(!is_perfect_square(&BigInt::from(-1)));
     assert!(!is_prime(&BigInt::from(-7)));
@@ -141,19 +153,43 @@ fn small_hand_checked_examples_come_out_right() {
     let fs: Vec<(BigInt, u32)> = vec![(2.into(), 3), (3.into(), 2), (5.into(), 1)];
     assert_eq!(f.factors(), &fs[..]);
     let mut b = Budget::unlimited();
-    assert_eq!(squarefree_part(&BigInt::from(-72), &mut b).unwrap(), BigInt::from(-2));
-    assert_eq!(squarefree_kernel(&BigInt::from(-72), &mut b).unwrap(), BigInt::from(6));
+    assert_eq!(
+        squarefree_part(&BigInt::from(-72), &mut b).unwrap(),
+        BigInt::from(-2)
+    );
+    assert_eq!(
+        squarefree_kernel(&BigInt::from(-72), &mut b).unwrap(),
+        BigInt::from(6)
+    );
     let x = BigRational::new(3.into(), 8.into());
-    assert_eq!(squarefree_part_rational(&x, &mut b).unwrap(), BigInt::from(6));
+    assert_eq!(
+        squarefree_part_rational(&x, &mut b).unwrap(),
+        BigInt::from(6)
+    );
     let y = BigRational::new((-1).into(), 4.into());
-    assert_eq!(squarefree_part_rational(&y, &mut b).unwrap(), BigInt::from(-1));
+    assert_eq!(
+        squarefree_part_rational(&y, &mut b).unwrap(),
+        BigInt::from(-1)
+    );
     let q = BigRational::new(9.into(), 4.into());
-    assert_eq!(rational_sqrt_exact(&q), Some(BigRational::new(3.into(), 2.into())));
-    assert_eq!(rational_sqrt_exact(&BigRational::new(2.into(), 9.into())), None);
+    assert_eq!(
+        rational_sqrt_exact(&q),
+        Some(BigRational::new(3.into(), 2.into()))
+    );
+    assert_eq!(
+        rational_sqrt_exact(&BigRational::new(2.into(), 9.into())),
+        None
+    );
     // An unreduced fraction 8/18 = 4/9 is a square.
     let unreduced = BigRational::new_raw(8.into(), 18.into());
-    assert_eq!(rational_sqrt_exact(&unreduced), Some(BigRational::new(2.into(), 3.into())));
-    assert_eq!(factor_u64(600851475143), vec![(71, 1), (839, 1), (1471, 1), (6857, 1)]);
+    assert_eq!(
+        rational_sqrt_exact(&unreduced),
+        Some(BigRational::new(2.into(), 3.into()))
+    );
+    assert_eq!(
+        factor_u64(600851475143),
+        vec![(71, 1), (839, 1), (1471, 1), (6857, 1)]
+    );
 }
 
 #[test]
@@ -183,11 +219,11 @@ fn an_exhausted_budget_hands_back_found_primes_and_the_cofactor() {
 
 #[test]
 fn huge_arguments_do_not_panic() {
-    // 2^4000 + 1: far too large to factor fully with a small budget, but every
+    // 2^1500 + 1: far too large to factor fully with a small budget, but every
     // entry point must answer or return a typed error.
-    let n = (BigInt::one() << 4000u32) + 1u32;
-    let _ = is_prime(&n);
-    match factor(&n, &mut Budget::with_units(200_000)) {
+    let n = (BigInt::one() << 1500u32) + 1u32;
+    assert!(!is_prime(&n)); // 2^1500 + 1 is divisible by 2^4 + 1 = 17 (as 1500 = 4 * 375)
+    match factor(&n, &mut Budget::with_units(50_000)) {
         Ok(f) => assert_eq!(f.value(), n),
         Err(Error::FactorBudgetExhausted { found, cofactor }) => {
             let mut v = cofactor;

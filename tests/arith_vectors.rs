@@ -39,8 +39,10 @@ fn check_file(text: &str) -> usize {
         assert_eq!(f.sign(), if n < &BigInt::from(0) { -1 } else { 1 });
         assert_eq!(&f.value(), n);
         if let Some(u) = n.to_u64() {
-            let small: Vec<(BigInt, u32)> =
-                factor_u64(u).into_iter().map(|(p, e)| (BigInt::from(p), e)).collect();
+            let small: Vec<(BigInt, u32)> = factor_u64(u)
+                .into_iter()
+                .map(|(p, e)| (BigInt::from(p), e))
+                .collect();
             assert_eq!(small, *expected, "factor_u64({u})");
         }
     }
@@ -66,7 +68,10 @@ fn perfect_powers_and_carmichael_numbers_factor_as_sympy_and_flint_say() {
 fn primality_of_pseudoprimes_and_random_numbers_matches_sympy_and_flint() {
     let text = include_str!("data/prime_tricky.txt");
     let mut count = 0;
-    for l in text.lines().filter(|l| !l.starts_with('#') && !l.trim().is_empty()) {
+    for l in text
+        .lines()
+        .filter(|l| !l.starts_with('#') && !l.trim().is_empty())
+    {
         let (n, flag) = l.split_once(' ').unwrap();
         let n: BigInt = n.parse().unwrap();
         let expected = flag == "1";

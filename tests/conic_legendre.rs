@@ -63,7 +63,10 @@ fn bad_places_by_hilbert(a: &BigInt, b: &BigInt, c: &BigInt) -> Vec<Place> {
 
 fn check_point(a: &BigInt, b: &BigInt, c: &BigInt, p: &[BigInt; 3]) {
     let [x, y, z] = p;
-    assert!(!(x.is_zero() && y.is_zero() && z.is_zero()), "trivial point");
+    assert!(
+        !(x.is_zero() && y.is_zero() && z.is_zero()),
+        "trivial point"
+    );
     assert!(
         (a * x * x + b * y * y + c * z * z).is_zero(),
         "({x},{y},{z}) not on {a}X^2+{b}Y^2+{c}Z^2"
@@ -78,11 +81,17 @@ fn solve_and_check(a: &BigInt, b: &BigInt, c: &BigInt) -> ConicSolution {
     let bad = bad_places_by_hilbert(a, b, c);
     match &s {
         ConicSolution::Point(p) => {
-            assert!(bad.is_empty(), "{a},{b},{c}: point found but bad places {bad:?}");
+            assert!(
+                bad.is_empty(),
+                "{a},{b},{c}: point found but bad places {bad:?}"
+            );
             check_point(a, b, c, p);
         }
         ConicSolution::Insoluble { place } => {
-            assert!(bad.contains(place), "{a},{b},{c}: reported {place}, bad {bad:?}");
+            assert!(
+                bad.contains(place),
+                "{a},{b},{c}: reported {place}, bad {bad:?}"
+            );
         }
     }
     s
@@ -222,14 +231,14 @@ fn a_tiny_budget_stops_with_a_budget_error() {
 #[test]
 fn rational_coefficients_are_cleared_of_denominators() {
     let q = |n: i64, d: i64| BigRational::new(big(n), big(d));
-    let s = solve_diagonal_rational(&q(1, 3), &q(1, 12), &q(-5, 12), &mut Budget::unlimited())
-        .unwrap();
+    let s =
+        solve_diagonal_rational(&q(1, 3), &q(1, 12), &q(-5, 12), &mut Budget::unlimited()).unwrap();
     // ×12: 4X² + Y² − 5Z² = 0
     let [x, y, z] = s.point().unwrap().clone();
     let v: BigInt = 4 * &x * &x + &y * &y - 5 * &z * &z;
     assert!(v.is_zero());
-    let s = solve_diagonal_rational(&q(1, 2), &q(3, 7), &q(1, 5), &mut Budget::unlimited())
-        .unwrap();
+    let s =
+        solve_diagonal_rational(&q(1, 2), &q(3, 7), &q(1, 5), &mut Budget::unlimited()).unwrap();
     assert_eq!(s, ConicSolution::Insoluble { place: Place::Real });
 }
 
@@ -295,12 +304,19 @@ fn conics_with_thirty_digit_coefficients_are_solved_when_soluble() {
         let ps: Vec<BigInt> = (0..3).map(|_| random_prime(30, &mut st)).collect();
         let a = ps[0].clone();
         let b = -ps[1].clone();
-        let c = if tried % 2 == 0 { ps[2].clone() } else { -ps[2].clone() };
+        let c = if tried % 2 == 0 {
+            ps[2].clone()
+        } else {
+            -ps[2].clone()
+        };
         let s = solve_diagonal_with_primes(&a, &b, &c, &ps, &mut Budget::unlimited()).unwrap();
         let u = -(&a * &c);
         let w = -(&b * &c);
         let mut places = vec![Place::Real, Place::Finite(Prime::two())];
-        places.extend(ps.iter().map(|p| Place::Finite(Prime::new(p.clone()).unwrap())));
+        places.extend(
+            ps.iter()
+                .map(|p| Place::Finite(Prime::new(p.clone()).unwrap())),
+        );
         let all_good = places
             .iter()
             .all(|v| hilbert_symbol_int(&u, &w, v).unwrap() == 1);

@@ -1,16 +1,17 @@
 //! Parametrisations of conics by binary quadratic forms, and zeros of
 //! general ternary forms.
 
+#![allow(clippy::needless_range_loop)] // index loops mirror the matrix formulas
+
 use isodescent::conic::{
-    parametrise, parametrise_diagonal, solve_diagonal, solve_ternary, ConicSolution,
-    TernaryForm,
+    parametrise, parametrise_diagonal, solve_diagonal, solve_ternary, ConicSolution, TernaryForm,
 };
 use isodescent::local::{hilbert_symbol_int, Place, Prime};
 use isodescent::{Budget, Error};
 use num_bigint::BigInt;
 use num_integer::Integer;
-use num_traits::{One, Signed, Zero};
 use num_rational::BigRational;
+use num_traits::{One, Signed, Zero};
 use proptest::prelude::*;
 
 /// The diagonal entries of q after symmetric Gaussian elimination over Q
@@ -20,7 +21,11 @@ fn diag_over_q(q: &TernaryForm) -> Vec<BigRational> {
     let h = q.doubled_gram();
     let mut m: Vec<Vec<BigRational>> = h
         .iter()
-        .map(|r| r.iter().map(|x| BigRational::from_integer(x.clone())).collect())
+        .map(|r| {
+            r.iter()
+                .map(|x| BigRational::from_integer(x.clone()))
+                .collect()
+        })
         .collect();
     let mut out = Vec::new();
     let mut idx: Vec<usize> = vec![0, 1, 2];
@@ -87,7 +92,10 @@ fn pythagorean_triples_are_all_in_the_image_of_the_circle_parametrisation() {
         assert!(q.evaluate(&r).is_zero());
         let (u, v) = par.parameter_of(&r).unwrap();
         let img = par.evaluate(&u, &v);
-        assert!(proportional(&img, &r), "({x},{y},{z}) ↦ ({u},{v}) ↦ {img:?}");
+        assert!(
+            proportional(&img, &r),
+            "({x},{y},{z}) ↦ ({u},{v}) ↦ {img:?}"
+        );
     }
 }
 
@@ -268,5 +276,9 @@ fn the_parametrisation_of_the_circle_has_small_integer_forms() {
         assert!(q.evaluate(&r).is_zero());
         assert!(!r.iter().all(|x| x.is_zero()));
     }
-    assert!(par.forms.iter().flatten().all(|c| c.abs() <= BigInt::one() * 2));
+    assert!(par
+        .forms
+        .iter()
+        .flatten()
+        .all(|c| c.abs() <= BigInt::one() * 2));
 }

@@ -112,7 +112,7 @@ fn kubert_families_have_torsion_divisible_by_n_with_the_point_zero_zero_inside()
     let ts = small_rationals();
     for n in [4u32, 5, 6, 7, 8, 9, 10, 12] {
         let mut tested = 0;
-        for t in ts.iter().take(40) {
+        for t in ts.iter().take(24) {
             let Some((b, c)) = kubert(n, t) else { continue };
             let Some(e) = tate_normal(&b, &c) else {
                 continue;
@@ -126,7 +126,7 @@ fn kubert_families_have_torsion_divisible_by_n_with_the_point_zero_zero_inside()
             check_group_is_consistent(&e, &g);
             tested += 1;
         }
-        assert!(tested >= 10, "N={n}: only {tested} nonsingular members");
+        assert!(tested >= 8, "N={n}: only {tested} nonsingular members");
     }
 }
 

@@ -44,7 +44,8 @@ fn squarefree_count_up_to_ten_thousand_is_6083() {
 fn the_box_of_bound_one_has_six_nonsingular_members_and_skips_singular_pairs() {
     let fam = Family::pair_box(1).unwrap();
     let params: Vec<Parameter> = fam.members().map(|m| m.parameter).collect();
-    let want = [(-1, -1), (-1, 1), (0, -1), (0, 1), (1, -1), (1, 1)].map(|(a, b)| Parameter::Pair(a, b));
+    let want =
+        [(-1, -1), (-1, 1), (0, -1), (0, 1), (1, -1), (1, 1)].map(|(a, b)| Parameter::Pair(a, b));
     assert_eq!(params, want.to_vec());
     // Bound 2: 5·5 pairs, minus 5 with b = 0, minus (±2, 1): 18 members.
     let fam2 = Family::pair_box(2).unwrap();
@@ -92,11 +93,16 @@ fn twist_family_of_a_curve_without_two_torsion_is_refused() {
     // y² + y = x³ − x² − 10x − 20 has torsion Z/5 [Cre97, Table 1, curve 11a1],
     // so no point of order 2.
     let e = Curve::from_ints([0, -1, 1, -10, -20]).unwrap();
-    assert_eq!(Family::quadratic_twists(&e, 1, 10), Err(Error::NoTwoTorsion));
+    assert_eq!(
+        Family::quadratic_twists(&e, 1, 10),
+        Err(Error::NoTwoTorsion)
+    );
     let f = Curve::from_ints([0, 0, 0, -1, 0]).unwrap();
     let fam = Family::quadratic_twists(&f, -6, 6).unwrap();
     let ds: Vec<Parameter> = fam.members().map(|m| m.parameter).collect();
-    let want: Vec<Parameter> = [-6, -5, -3, -2, -1, 1, 2, 3, 5, 6].map(Parameter::Twist).to_vec();
+    let want: Vec<Parameter> = [-6, -5, -3, -2, -1, 1, 2, 3, 5, 6]
+        .map(Parameter::Twist)
+        .to_vec();
     assert_eq!(ds, want);
 }
 

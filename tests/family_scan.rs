@@ -25,7 +25,9 @@ fn scan_output_is_in_family_order_for_any_thread_count_and_window() {
         .collect();
     assert_eq!(sequential.len() as u64, fam.count());
     for (threads, window) in [(1, 0), (2, 0), (2, 1), (3, 2), (0, 5)] {
-        let so = ScanOptions::default().with_threads(threads).with_window(window);
+        let so = ScanOptions::default()
+            .with_threads(threads)
+            .with_window(window);
         let got = lines(&run(&fam, &so));
         assert_eq!(got, sequential, "threads {threads}, window {window}");
     }
@@ -37,11 +39,14 @@ fn a_record_line_is_the_descent_object_with_two_keys_in_front() {
     for r in run(&fam, &ScanOptions::default()) {
         let line = r.to_line();
         let with = Json::parse(&line).unwrap();
-        let Json::Object(kv) = with else { panic!("not an object: {line}") };
+        let Json::Object(kv) = with else {
+            panic!("not an object: {line}")
+        };
         assert_eq!(kv[0].0, "family_index");
         assert_eq!(kv[1].0, "family_parameter");
         let member = fam.members().nth(r.index as usize).unwrap();
-        let contract = Json::parse(&json_for_line(&member.line(), &DescentOptions::default())).unwrap();
+        let contract =
+            Json::parse(&json_for_line(&member.line(), &DescentOptions::default())).unwrap();
         assert_eq!(Json::Object(kv[2..].to_vec()), contract);
         let rec = RecordLine::parse(&line).unwrap();
         assert_eq!(rec.index, r.index);
@@ -102,7 +107,11 @@ fn check_parity(records: &[RecordLine]) -> usize {
         // is finite, so it checks our bounds rather than proving anything.
         if lo == hi {
             decided += 1;
-            assert_eq!(lo % 2 == 1, root_number_is_minus_one(n), "n = {n}: rank {lo}");
+            assert_eq!(
+                lo % 2 == 1,
+                root_number_is_minus_one(n),
+                "n = {n}: rank {lo}"
+            );
         }
         // Unconditionally: root number −1 forces odd 2^∞-Selmer corank, so
         // at least 1, and our upper bound (which only removes classes shown

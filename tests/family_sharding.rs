@@ -21,7 +21,12 @@ fn survey() -> &'static Path {
         let exe = std::env::current_exe().unwrap();
         let profile_dir = exe.parent().unwrap().parent().unwrap().to_path_buf();
         let target_dir = profile_dir.parent().unwrap().to_path_buf();
-        let profile = profile_dir.file_name().unwrap().to_str().unwrap().to_string();
+        let profile = profile_dir
+            .file_name()
+            .unwrap()
+            .to_str()
+            .unwrap()
+            .to_string();
         let cargo = std::env::var("CARGO").unwrap_or_else(|_| "cargo".into());
         let mut cmd = Command::new(cargo);
         cmd.current_dir(ROOT)
@@ -35,10 +40,16 @@ fn survey() -> &'static Path {
         if cfg!(feature = "parallel") {
             cmd.args(["--features", "parallel"]);
         }
-        let status = cmd.status().expect("cannot run cargo to build the survey example");
+        let status = cmd
+            .status()
+            .expect("cannot run cargo to build the survey example");
         assert!(status.success(), "building the survey example failed");
         let bin = profile_dir.join("examples").join("survey");
-        assert!(bin.exists(), "survey example not found at {}", bin.display());
+        assert!(
+            bin.exists(),
+            "survey example not found at {}",
+            bin.display()
+        );
         bin
     })
 }
@@ -91,7 +102,14 @@ fn single(dir: &Path, family: &[&str]) -> Vec<u8> {
 // A family with a blank-separated --curve argument, so quoting through
 // the shell is exercised too: twists of y² + xy = x³ − x ((0, 0) has order 2).
 const TWISTS: [&str; 8] = [
-    "--family", "twists", "--curve", "1 0 0 -1 0", "--from", "-40", "--to", "40",
+    "--family",
+    "twists",
+    "--curve",
+    "1 0 0 -1 0",
+    "--from",
+    "-40",
+    "--to",
+    "40",
 ];
 const CONGRUENT: [&str; 6] = ["--family", "congruent", "--from", "1", "--to", "120"];
 
@@ -113,9 +131,15 @@ fn gnu_parallel_shards_merge_to_the_single_process_result() {
                 .arg("--")
                 .args(family),
         );
-        assert!(report.contains("complete: every member exactly once"), "{report}");
+        assert!(
+            report.contains("complete: every member exactly once"),
+            "{report}"
+        );
         let got = std::fs::read(outdir.join("merged.jsonl")).unwrap();
-        assert_eq!(got, want, "{name}: merged shards differ from the single run");
+        assert_eq!(
+            got, want,
+            "{name}: merged shards differ from the single run"
+        );
         for k in 1..=3 {
             assert!(outdir.join(format!("shard-{k}-of-3.jsonl")).exists());
         }
@@ -196,7 +220,16 @@ fn a_run_killed_mid_line_is_resumed_by_the_command_without_loss_or_duplicates() 
     // A different family refuses to resume this file.
     let other = Command::new(survey())
         .arg("scan")
-        .args(["--family", "congruent", "--from", "2", "--to", "120", "--quiet", "--out"])
+        .args([
+            "--family",
+            "congruent",
+            "--from",
+            "2",
+            "--to",
+            "120",
+            "--quiet",
+            "--out",
+        ])
         .arg(&out)
         .output()
         .unwrap();

@@ -25,7 +25,11 @@ fn places_of(xs: &[&BigRational]) -> Vec<Place> {
         }
     }
     let mut places = vec![Place::Real];
-    places.extend(primes.into_iter().map(|p| Place::Finite(Prime::new(p).unwrap())));
+    places.extend(
+        primes
+            .into_iter()
+            .map(|p| Place::Finite(Prime::new(p).unwrap())),
+    );
     places
 }
 

@@ -276,3 +276,26 @@ fn a_rational_model_at_a_prime_of_its_denominators_is_not_minimal() {
     assert_eq!(g.minimal_model, ints(base));
     assert_eq!(g.conductor, BigInt::from(37));
 }
+
+#[test]
+fn tamagawa_numbers_of_i1_star_and_i2_star_at_5_match_step_7_worked_by_hand() {
+    // Step 7 of [Sil94, IV.9.4] by hand at p = 5 for y² = x³ + 5x² + a4·x + a6:
+    // P(T) = T³ + T² has the double root 0.
+    // * a4 = 0, a6 = 5⁴·b: level 1 quadratic Y² − b, distinct roots since
+    //   5 ∤ b: I1*, c = 4 iff b is a square mod 5 (1 is, 2 is not).
+    // * a4 = 0, a6 = 5⁵·d: level 1 gives the double root 0; level 2 is
+    //   X² + d: I2*, c = 4 iff −d is a square mod 5 (−1 ≡ 4 is, −2 ≡ 3 not).
+    // * a4 = 5³, a6 = 0: level 2 is X² + X = X(X + 1): I2*, c = 4.
+    let cases: [([i64; 5], Kodaira, u64); 5] = [
+        ([0, 5, 0, 0, 625], Kodaira::InStar(1), 4),
+        ([0, 5, 0, 0, 1250], Kodaira::InStar(1), 2),
+        ([0, 5, 0, 0, 3125], Kodaira::InStar(2), 4),
+        ([0, 5, 0, 0, 6250], Kodaira::InStar(2), 2),
+        ([0, 5, 0, 125, 0], Kodaira::InStar(2), 4),
+    ];
+    for (a, k, c) in cases {
+        let lr = local_reduction(&ints(a), &prime(5)).unwrap();
+        assert_eq!((lr.kodaira, lr.tamagawa), (k, c), "{a:?}");
+        assert_eq!(lr.conductor_exponent, 2);
+    }
+}

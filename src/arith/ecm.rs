@@ -290,3 +290,39 @@ pub(crate) fn ecm<R: Ring>(ring: &R, budget: &mut Budget) -> Split {
     }
     Split::Failed
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::arith::mont::Mont;
+    use num_bigint::BigUint;
+
+    /// Counts the curves among `σ = 11..11+count` that split `n`.
+    fn successes(n: &BigUint, b1: u64, b2: u64, count: u64) -> usize {
+        let ring = Mont::<2>::new(n).expect("odd, two words");
+        (11..11 + count)
+            .filter(|&s| {
+                matches!(
+                    ecm_curve(&ring, s, b1, b2, &mut Budget::unlimited()),
+                    Split::Found(_)
+                )
+            })
+            .count()
+    }
+
+    #[test]
+    fn stage_two_finds_factors_that_stage_one_misses() {
+        // p = 1000000000039 (13 digits), q = 1000000000000000003 (19 digits):
+        // both prime by sympy 1.14 isprime.
+        let p = BigUint::from(1_000_000_000_039u64);
+        let q = BigUint::from(1_000_000_000_000_000_003u64);
+        let n = &p * &q;
+        let only1 = successes(&n, 2000, 2000, 60);
+        let with2 = successes(&n, 2000, 100_000, 60);
+        eprintln!("stage 1 only: {only1}, with stage 2: {with2}");
+        assert!(
+            with2 > only1,
+            "stage 1 only: {only1}, with stage 2: {with2}"
+        );
+    }
+}

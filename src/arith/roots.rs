@@ -189,7 +189,6 @@ pub(crate) fn isqrt_u64(n: u64) -> u64 {
     r
 }
 
-
 #[cfg(test)]
 mod tests {
     use super::*;

@@ -7,8 +7,9 @@
 //! correctness argument of [`super::legendre`] needs. The dimension is 2 or
 //! 3 here, so recomputing the Gram–Schmidt data after each change is cheap.
 //!
-//! References: LLL reduction [LLL82], [Cohen93, Alg. 2.6.3]; enumeration of
-//! short vectors [FinckePohst85], [Cohen93, Alg. 2.7.5].
+//! References: LLL reduction \[LLL82\], [Cohen93, Alg. 2.6.3]; enumeration of
+//! short vectors \[FinckePohst85\], [Cohen93, Alg. 2.7.5].
+#![allow(clippy::needless_range_loop)] // index loops mirror the formulas
 
 use num_bigint::BigInt;
 use num_integer::Integer;
@@ -37,7 +38,7 @@ fn exhausted(stage: &str) -> Error {
 
 /// LLL-reduces `basis` (linearly independent rows) in place with respect
 /// to N, with Lovász constant δ = 3/4, by the all-integer variant of
-/// [LLL82] given as [Cohen93, Alg. 2.6.7]: the Gram–Schmidt data are kept
+/// \[LLL82\] given as [Cohen93, Alg. 2.6.7]: the Gram–Schmidt data are kept
 /// as the integers dᵢ (Gram determinants) and λᵢⱼ = dⱼ μᵢⱼ, so no
 /// rational arithmetic is needed. One budget unit per size-reduction or
 /// swap step.
@@ -61,7 +62,9 @@ pub(crate) fn lll(w: &[BigInt], basis: &mut Basis, budget: &mut Budget) -> Resul
     let mut k = 1usize;
     let mut kmax = 0usize;
     while k < n {
-        budget.spend(1).map_err(|_| exhausted("lattice reduction"))?;
+        budget
+            .spend(1)
+            .map_err(|_| exhausted("lattice reduction"))?;
         if k > kmax {
             kmax = k;
             for j in 0..=k {
@@ -167,7 +170,7 @@ fn integral_gs(w: &[BigInt], basis: &Basis) -> Result<(Vec<BigInt>, Vec<Vec<BigI
 
 /// Every nonzero vector v of the lattice spanned by `basis` with
 /// N(v) ≤ `radius`, up to sign (exactly one of ±v is listed), by
-/// Fincke–Pohst enumeration [FinckePohst85] in exact integer arithmetic.
+/// Fincke–Pohst enumeration \[FinckePohst85\] in exact integer arithmetic.
 ///
 /// With yᵢ = d_{i+1} xᵢ + Σ_{j>i} λ_{ji} xⱼ one has
 /// N(Σ xᵢ bᵢ) = Σᵢ yᵢ² / (dᵢ d_{i+1}), so each level is an integer range.
@@ -188,7 +191,14 @@ pub(crate) fn short_vectors(
         lam: &lam,
         basis,
     };
-    level.enumerate(n, radius.clone(), BigInt::one(), &mut coords, &mut out, budget)?;
+    level.enumerate(
+        n,
+        radius.clone(),
+        BigInt::one(),
+        &mut coords,
+        &mut out,
+        budget,
+    )?;
     Ok(out)
 }
 
@@ -282,10 +292,16 @@ pub(crate) fn echelon_basis(gens: &[Vec<BigInt>], dim: usize) -> Result<Basis> {
                     let e = p[col].extended_gcd(&row[col]);
                     let (pa, ra) = (&p[col] / &e.gcd, &row[col] / &e.gcd);
                     // new pivot = x p + y row  (entry gcd), other = ra p - pa row (entry 0)
-                    let newp: Vec<BigInt> =
-                        p.iter().zip(row.iter()).map(|(u, v)| &e.x * u + &e.y * v).collect();
-                    let other: Vec<BigInt> =
-                        p.iter().zip(row.iter()).map(|(u, v)| &ra * u - &pa * v).collect();
+                    let newp: Vec<BigInt> = p
+                        .iter()
+                        .zip(row.iter())
+                        .map(|(u, v)| &e.x * u + &e.y * v)
+                        .collect();
+                    let other: Vec<BigInt> = p
+                        .iter()
+                        .zip(row.iter())
+                        .map(|(u, v)| &ra * u - &pa * v)
+                        .collect();
                     rest.push(other);
                     pivot = Some(newp);
                 }
@@ -305,6 +321,7 @@ pub(crate) fn echelon_basis(gens: &[Vec<BigInt>], dim: usize) -> Result<Basis> {
 }
 
 #[cfg(test)]
+#[allow(clippy::unwrap_used)]
 mod tests {
     use super::*;
 

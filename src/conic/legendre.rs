@@ -2,6 +2,7 @@
 //!
 //! See the [module documentation of `conic`](super) for the method and the
 //! proof that it always terminates with a point when one exists.
+#![allow(clippy::needless_range_loop)] // index loops mirror the formulas
 
 use std::collections::BTreeSet;
 
@@ -14,7 +15,7 @@ use super::lattice::{echelon_basis, lll, short_vectors};
 use crate::arith::factor;
 use crate::budget::Budget;
 use crate::error::{Error, Result};
-use crate::local::{hilbert_symbol_int, legendre, sqrt_mod_prime, split_valuation, Place, Prime};
+use crate::local::{hilbert_symbol_int, legendre, split_valuation, sqrt_mod_prime, Place, Prime};
 
 /// The answer to "does this conic have a rational point?".
 #[derive(Debug, Clone, PartialEq, Eq)]
@@ -54,7 +55,7 @@ fn nonzero(x: &BigInt, what: &str) -> Result<()> {
 }
 
 /// The distinct primes dividing a·b·c, ascending, found with
-/// [`crate::arith::factor`].
+/// [`crate::arith::factor()`].
 fn primes_of(coeffs: &[&BigInt], budget: &mut Budget) -> Result<Vec<Prime>> {
     let mut set: BTreeSet<BigInt> = BTreeSet::new();
     for c in coeffs {
@@ -73,7 +74,7 @@ fn primes_of(coeffs: &[&BigInt], budget: &mut Budget) -> Result<Vec<Prime>> {
 /// nontrivial solution in Q_v. By the Hasse–Minkowski theorem
 /// [Serre73, IV.3.2, Thm. 8] one of the two always happens.
 ///
-/// **Method.** Factor a, b, c with [`crate::arith::factor`], reduce to
+/// **Method.** Factor a, b, c with [`crate::arith::factor()`], reduce to
 /// square-free pairwise coprime coefficients, test Legendre's conditions
 /// [IrelandRosen90, 17.3, Thm. 1], and find a point by lattice reduction
 /// and enumeration in the lattice of solutions modulo abc, as in
@@ -95,7 +96,7 @@ fn primes_of(coeffs: &[&BigInt], budget: &mut Budget) -> Result<Vec<Prime>> {
 /// **Cost.** Factoring a, b, c, plus one square root modulo each prime
 /// dividing abc, plus an LLL reduction in dimension 3 of numbers of size
 /// |abc|, O(log |abc|) swaps, plus about 40 enumerated lattice vectors.
-/// Budget units: those of [`crate::arith::factor`], plus one per LLL step
+/// Budget units: those of [`crate::arith::factor()`], plus one per LLL step
 /// and one per enumeration node.
 ///
 /// **Example.** X² + Y² − 5 Z² = 0 has the point (1, 2, 1); X² + Y² − 3Z² = 0
@@ -141,12 +142,11 @@ pub fn solve_diagonal(
 /// ```
 /// use isodescent::conic::solve_diagonal_with_primes;
 /// use isodescent::Budget;
-/// let primes = [2.into(), 3.into(), 7.into()];
-/// // 3 X² + 7 Y² − 42 Z² = 0 ... has (7, 3, 2)? 3·49 + 7·9 = 210 = 42·5: no; just check the answer.
-/// let s = solve_diagonal_with_primes(&3.into(), &7.into(), &(-42).into(), &primes, &mut Budget::unlimited()).unwrap();
-/// if let Some([x, y, z]) = s.point() {
-///     assert_eq!(3 * x * x + 7 * y * y, 42 * z * z);
-/// }
+/// // 2 X² + 3 Y² − 5 Z² = 0 has the point (1, 1, 1).
+/// let primes = [2.into(), 3.into(), 5.into()];
+/// let s = solve_diagonal_with_primes(&2.into(), &3.into(), &(-5).into(), &primes, &mut Budget::unlimited()).unwrap();
+/// let [x, y, z] = s.point().unwrap();
+/// assert_eq!(2 * x * x + 3 * y * y, 5 * z * z);
 /// ```
 pub fn solve_diagonal_with_primes(
     a: &BigInt,
@@ -408,7 +408,11 @@ pub(crate) fn solve_core(
     // Step 6: map back and normalise.
     let mut x: Vec<BigInt> = y.iter().zip(mult.iter()).map(|(a, m)| a * m).collect();
     primitive(&mut x);
-    Ok(ConicSolution::Point([x[0].clone(), x[1].clone(), x[2].clone()]))
+    Ok(ConicSolution::Point([
+        x[0].clone(),
+        x[1].clone(),
+        x[2].clone(),
+    ]))
 }
 
 /// Divides by the content and makes the first nonzero entry positive.
@@ -417,7 +421,10 @@ pub(crate) fn primitive(x: &mut [BigInt]) {
     if g.is_zero() {
         return;
     }
-    let neg = x.iter().find(|v| !v.is_zero()).is_some_and(|v| v.is_negative());
+    let neg = x
+        .iter()
+        .find(|v| !v.is_zero())
+        .is_some_and(|v| v.is_negative());
     for v in x.iter_mut() {
         *v = &*v / &g;
         if neg {
@@ -534,7 +541,10 @@ fn two_squares_point(
 ) -> Result<Vec<BigInt>> {
     // the condition stored for k is x_{k+1} ≡ λ x_{k+2} = x_i ≡ λ x_j
     let w = vec![BigInt::one(), BigInt::one()];
-    let mut basis = vec![vec![lam.mod_floor(n), BigInt::one()], vec![n.clone(), BigInt::zero()]];
+    let mut basis = vec![
+        vec![lam.mod_floor(n), BigInt::one()],
+        vec![n.clone(), BigInt::zero()],
+    ];
     lll(&w, &mut basis, budget)?;
     let mut radius = n * 2u32 - 1u32;
     loop {

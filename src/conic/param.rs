@@ -1,4 +1,5 @@
 //! Parametrising a conic with a rational point by binary quadratic forms.
+#![allow(clippy::needless_range_loop)] // index loops mirror the formulas
 
 use num_bigint::BigInt;
 use num_integer::Integer;
@@ -28,8 +29,8 @@ use crate::error::{Error, Result};
 /// isotropic plane, impossible for a non-degenerate ternary form); the
 /// tangent direction (B(P, d) = 0) gives P itself; and each point R ≠ P
 /// comes from the direction of R − λP in span(e, f). The nine coefficients
-/// are divided by their common content. [Cassels91, §1] ("Lectures on
-/// elliptic curves", the rational parametrisation of a conic with a point).
+/// are divided by their common content. (The rational parametrisation of
+/// a conic with a point: [Cassels91, Ch. 1]; common practice.)
 #[derive(Debug, Clone, PartialEq, Eq)]
 pub struct ConicParametrisation {
     /// `forms[i] = [A, B, C]`: the i-th coordinate is A u² + B uv + C v².
@@ -178,10 +179,7 @@ pub fn parametrise(q: &TernaryForm, point: &[BigInt; 3]) -> Result<ConicParametr
             &p[i] * &qf - &bf * &f[i],
         ];
     }
-    let g = forms
-        .iter()
-        .flatten()
-        .fold(BigInt::zero(), |g, c| g.gcd(c));
+    let g = forms.iter().flatten().fold(BigInt::zero(), |g, c| g.gcd(c));
     if !g.is_zero() && !g.is_one() {
         for row in forms.iter_mut() {
             for c in row.iter_mut() {

@@ -1,4 +1,5 @@
 //! Ternary quadratic forms with integer coefficients and their zeros.
+#![allow(clippy::needless_range_loop)] // index loops mirror the formulas
 
 use std::collections::BTreeSet;
 use std::fmt;
@@ -151,9 +152,9 @@ fn check_nondegenerate(q: &TernaryForm) -> Result<BigInt> {
 /// **Statement.** q = 0 has a nontrivial rational solution iff it has one
 /// over every completion Q_v (Hasse–Minkowski, [Serre73, IV.3.2, Thm. 8]).
 ///
-/// **Method: diagonalisation by leading minors** ([Cassels78, Ch. 2,
-/// Lemma 1.2] — Lagrange's completion of squares written with Jacobi's
-/// minors). Choose integer vectors f₁, f₂, f₃ (from e₁, e₂, e₃ and their
+/// **Method: diagonalisation by leading minors** (common practice:
+/// Lagrange's completion of squares, written with Jacobi's leading
+/// principal minors). Choose integer vectors f₁, f₂, f₃ (from e₁, e₂, e₃ and their
 /// pairwise sums) with q(f₁) ≠ 0 and Δ₂ ≠ 0, and let H′ = UᵀHU for
 /// U = (f₁ f₂ f₃) with leading minors Δ₁ = H′₁₁, Δ₂, Δ₃ = det H′ =
 /// (det U)² det H. The vectors w₁ = e₁, w₂ = Δ₁e₂ − H′₁₂e₁ and
@@ -241,11 +242,7 @@ pub fn solve_ternary(q: &TernaryForm, budget: &mut Budget) -> Result<ConicSoluti
         &hp[0][2] * &hp[1][0] - &hp[0][0] * &hp[1][2],
         delta2.clone(),
     ];
-    let diag = [
-        delta1.clone(),
-        &delta1 * &delta2,
-        &delta2 * &delta3,
-    ];
+    let diag = [delta1.clone(), &delta1 * &delta2, &delta2 * &delta3];
     let mut set: BTreeSet<BigInt> = BTreeSet::new();
     for n in [&delta1, &delta2, &det_u, &det_h] {
         for p in factor(n, budget)?.primes() {
@@ -272,12 +269,20 @@ pub fn solve_ternary(q: &TernaryForm, budget: &mut Budget) -> Result<ConicSoluti
         }
     }
     primitive(&mut x);
-    if x.iter().all(|v| v.is_zero()) || !q.evaluate(&[x[0].clone(), x[1].clone(), x[2].clone()]).is_zero() {
+    if x.iter().all(|v| v.is_zero())
+        || !q
+            .evaluate(&[x[0].clone(), x[1].clone(), x[2].clone()])
+            .is_zero()
+    {
         // cannot happen: U and (w1 w2 w3) are invertible and the diagonal
         // form is q in the new coordinates; reported rather than panicking.
         return Err(Error::Degenerate {
             reason: format!("internal diagonalisation check failed for {q}"),
         });
     }
-    Ok(ConicSolution::Point([x[0].clone(), x[1].clone(), x[2].clone()]))
+    Ok(ConicSolution::Point([
+        x[0].clone(),
+        x[1].clone(),
+        x[2].clone(),
+    ]))
 }

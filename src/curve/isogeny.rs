@@ -17,7 +17,7 @@
 //! φ̂: E′ → E,  φ̂(X, Y) = (Y²/(4X²), Y(b′ − X²)/(8X²)),   φ̂(O) = φ̂((0,0)) = O,
 //! ```
 //!
-//! and φ̂ ∘ φ = [2] on E, φ ∘ φ̂ = [2] on E′ [ST92, III.4], [Sil09, III.6.1].
+//! and φ̂ ∘ φ = \[2\] on E, φ ∘ φ̂ = \[2\] on E′ [ST92, III.4], [Sil09, III.6.1].
 
 use num_bigint::BigInt;
 use num_rational::BigRational;

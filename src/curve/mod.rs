@@ -14,7 +14,7 @@
 //!   [`TwoTorsionModel`] y² = x³ + ax² + bx with T = (0, 0), a, b ∈ Z and no
 //!   prime p with p² | a, p⁴ | b.
 //! * [`isogeny`]: [`TwoIsogeny`] φ: E → E′, y² = x³ − 2ax² + (a² − 4b)x,
-//!   and its dual φ̂, with φ̂ ∘ φ = [2] [ST92, III.4].
+//!   and its dual φ̂, with φ̂ ∘ φ = \[2\] [ST92, III.4].
 //! * [`torsion`]: [`torsion_subgroup`], exact, by point counts at good primes
 //!   (reduction is injective on torsion [Sil09, VII.3.1]), Nagell–Lutz
 //!   integrality [Sil09, VIII.7.2] and integer roots of division

@@ -13,7 +13,7 @@
 //!
 //! and P1 + P2 = (x3, y3) [Sil09, III.2.3]. All arithmetic is exact in Q.
 //! Scalar multiples use double-and-add on the binary digits of |n|, with
-//! [−n]P = −[n]P: O(log |n|) group operations.
+//! \[−n\]P = −\[n\]P: O(log |n|) group operations.
 
 use std::fmt;
 
@@ -211,15 +211,15 @@ impl Curve {
         self.add(p, &self.neg(q))
     }
 
-    /// [2]P.
+    /// \[2\]P.
     pub fn double(&self, p: &Point) -> Point {
         self.add(p, p)
     }
 
-    /// [n]P for any integer n (negative n gives −[|n|]P), by
+    /// \[n\]P for any integer n (negative n gives −\[|n|\]P), by
     /// double-and-add.
     ///
-    /// Example: on y² = x³ − 2, [2](3, 5) = (129/100, −383/1000).
+    /// Example: on y² = x³ − 2, \[2\](3, 5) = (129/100, −383/1000).
     pub fn mul(&self, p: &Point, n: &BigInt) -> Point {
         let mut acc = Point::Infinity;
         let m = n.magnitude();
@@ -237,7 +237,7 @@ impl Curve {
         }
     }
 
-    /// [n]P for a machine integer n.
+    /// \[n\]P for a machine integer n.
     pub fn mul_i64(&self, p: &Point, n: i64) -> Point {
         self.mul(p, &BigInt::from(n))
     }

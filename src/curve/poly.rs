@@ -412,6 +412,7 @@ pub(crate) fn mod_inverse(a: &BigInt, m: &BigInt) -> Option<BigInt> {
 }
 
 #[cfg(test)]
+#[allow(clippy::unwrap_used)]
 mod tests {
     use super::*;
 

@@ -2,7 +2,7 @@
 //!
 //! # Method
 //! Work on the integral short model E_s: y² = x³ + A x + B
-//! ([`short_integral_model`](super::two_torsion::short_integral_model)).
+//! (`two_torsion::short_integral_model`).
 //!
 //! 1. **A multiple of the order.** For a prime p ≥ 3 of good reduction the
 //!    reduction map E(Q)_tors → Ẽ(F_p) is injective [Sil09, VII.3.1(b)], so
@@ -19,8 +19,8 @@
 //!    f_3 = 3x⁴ + 6Ax² + 12Bx − A²,
 //!    f_4 = 2(x⁶ + 5Ax⁴ + 20Bx³ − 5A²x² − 4ABx − 8B² − A³) and the usual
 //!    doubling recurrences), the points of order ℓ are the (x, ±y) with x an
-//!    integer root of x³ + Ax + B (ℓ = 2) or of f_ℓ (ℓ odd) and y² = x³ + Ax
-//!    + B a square. The points of order 4 come from the integer roots of
+//!    integer root of x³ + Ax + B (ℓ = 2) or of f_ℓ (ℓ odd) and
+//!    y² = x³ + Ax + B a square. The points of order 4 come from the integer roots of
 //!    f_4/2. A point P of order ℓ^(k+1) (k ≥ 1, and k ≥ 2 when ℓ = 2) is a
 //!    solution of ℓP = Q with Q of order ℓ^k: x(P) is an integer root of
 //!    φ_ℓ(x) − x(Q)ψ_ℓ(x)², φ_ℓ = xψ_ℓ² − ψ_(ℓ+1)ψ_(ℓ−1) [Sil09, III.3.7],
@@ -31,7 +31,7 @@
 //! 4. **Assembly.** E(Q)_tors is the direct sum of its ℓ-primary parts; its
 //!    structure Z/n1 × Z/n2 (n2 | n1) has n1 the largest order of an element.
 //!
-//! Mazur's theorem [Maz77] (the group is Z/n, n ≤ 10 or n = 12, or
+//! Mazur's theorem \[Maz77\] (the group is Z/n, n ≤ 10 or n = 12, or
 //! Z/2 × Z/2m, m ≤ 4) is *not* used by the algorithm; the tests check it.
 
 use num_bigint::BigInt;
@@ -86,7 +86,7 @@ impl TorsionGroup {
         self.bound
     }
     /// True iff the structure is one of the fifteen groups of Mazur's
-    /// theorem [Maz77].
+    /// theorem \[Maz77\].
     pub fn is_in_mazur_list(&self) -> bool {
         match self.structure {
             (n, 1) => (1..=10).contains(&n) || n == 12,

@@ -32,10 +32,10 @@ use crate::error::{Error, Result};
 /// Longest accepted numerator or denominator, in digits, when parsing.
 ///
 /// Computing j = c4³/Δ in lowest terms needs a gcd of numbers about 12
-/// times this long, and big-integer gcd is quadratic: at 4000 digits a
+/// times this long, and big-integer gcd is quadratic: at 2000 digits a
 /// curve parses in a fraction of a second, at 10⁵ digits it would take
 /// minutes. [`Curve::new`] itself has no cap (its cost is the caller's).
-pub const MAX_COEFFICIENT_DIGITS: usize = 4_000;
+pub const MAX_COEFFICIENT_DIGITS: usize = 2_000;
 
 /// An elliptic curve over Q given by a (general) Weierstrass model, with its
 /// invariants b2, b4, b6, b8, c4, c6, Δ and j precomputed.

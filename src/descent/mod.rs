@@ -193,9 +193,16 @@ pub fn descend(curve: &Curve, options: &DescentOptions) -> Result<DescentReport>
         return Err(Error::NoTwoTorsion);
     }
     let torsion = torsion_subgroup(curve);
+    let mut budget = options.budget(options.factor_units, deadline);
+    let local_data = curve.local_data(&mut budget)?;
     let mut isogenies = Vec::with_capacity(ts.len());
     for t in &ts {
         isogenies.push(descend_isogeny_with_torsion(curve, t, &torsion, options, deadline)?);
     }
-    Ok(DescentReport::new(curve.clone(), torsion, isogenies))
+    Ok(DescentReport::new(
+        curve.clone(),
+        torsion,
+        local_data,
+        isogenies,
+    ))
 }

@@ -9,6 +9,7 @@ use num_traits::One;
 
 use super::side::{ClassStatus, SelmerSide};
 use super::IsogenyDescent;
+use crate::curve::tate::{GlobalLocalData, ReductionKind};
 use crate::curve::{Curve, Point, TorsionGroup};
 use crate::local::class_representatives;
 use crate::quartic::search::SearchOutcome;
@@ -20,6 +21,9 @@ pub struct DescentReport {
     pub curve: Curve,
     /// Its torsion subgroup.
     pub torsion: TorsionGroup,
+    /// Global minimal model, conductor and Tate's algorithm at every bad
+    /// prime.
+    pub local_data: GlobalLocalData,
     /// One descent per rational 2-torsion point.
     pub isogenies: Vec<IsogenyDescent>,
     /// Proven lower bound for the rank of E(Q).
@@ -33,7 +37,12 @@ pub struct DescentReport {
 
 impl DescentReport {
     /// Combines the descents for the rational 2-torsion points.
-    pub fn new(curve: Curve, torsion: TorsionGroup, isogenies: Vec<IsogenyDescent>) -> Self {
+    pub fn new(
+        curve: Curve,
+        torsion: TorsionGroup,
+        local_data: GlobalLocalData,
+        isogenies: Vec<IsogenyDescent>,
+    ) -> Self {
         let best = isogenies
             .iter()
             .enumerate()
@@ -52,6 +61,7 @@ impl DescentReport {
         DescentReport {
             curve,
             torsion,
+            local_data,
             isogenies,
             rank_lower,
             rank_upper,
@@ -81,6 +91,31 @@ impl DescentReport {
         } else {
             let _ = write!(s, ",\"torsion_structure\":[{n2},{n1}]");
         }
+        let _ = write!(s, ",\"conductor\":\"{}\"", self.local_data.conductor);
+        let mm: Vec<String> = self
+            .local_data
+            .minimal_model
+            .iter()
+            .map(|c| format!("\"{c}\""))
+            .collect();
+        let _ = write!(s, ",\"minimal_model\":[{}]", mm.join(","));
+        let bad: Vec<String> = self
+            .local_data
+            .primes
+            .iter()
+            .map(|r| {
+                format!(
+                    "{{\"p\":\"{}\",\"kodaira\":\"{}\",\"conductor_exponent\":{},\"tamagawa\":{},\"reduction\":\"{}\",\"disc_valuation\":{}}}",
+                    r.prime,
+                    r.kodaira,
+                    r.conductor_exponent,
+                    r.tamagawa,
+                    reduction_word(r.reduction),
+                    r.disc_valuation
+                )
+            })
+            .collect();
+        let _ = write!(s, ",\"bad_primes\":[{}]", bad.join(","));
         s.push_str(",\"selmer\":[");
         for (i, d) in self.isogenies.iter().enumerate() {
             if i > 0 {
@@ -96,10 +131,19 @@ impl DescentReport {
     /// The JSON object for a line that could not be processed.
     pub fn error_json(input: &str, message: &str) -> String {
         format!(
-            "{{\"input\":{},\"rank_lower\":null,\"rank_upper\":null,\"points\":[],\"torsion_order\":null,\"torsion_structure\":null,\"selmer\":[],\"error\":{}}}",
+            "{{\"input\":{},\"rank_lower\":null,\"rank_upper\":null,\"points\":[],\"torsion_order\":null,\"torsion_structure\":null,\"conductor\":null,\"minimal_model\":null,\"bad_primes\":[],\"selmer\":[],\"error\":{}}}",
             json_string(input),
             json_string(message)
         )
+    }
+}
+
+fn reduction_word(k: ReductionKind) -> &'static str {
+    match k {
+        ReductionKind::Good => "good",
+        ReductionKind::SplitMultiplicative => "split_multiplicative",
+        ReductionKind::NonSplitMultiplicative => "nonsplit_multiplicative",
+        ReductionKind::Additive => "additive",
     }
 }
 
@@ -276,6 +320,30 @@ impl fmt::Display for DescentReport {
             format!("Z/{n2} x Z/{n1}")
         };
         writeln!(f, "torsion: {structure} (order {})", self.torsion.order())?;
+        let mm: Vec<String> = self
+            .local_data
+            .minimal_model
+            .iter()
+            .map(|c| c.to_string())
+            .collect();
+        writeln!(
+            f,
+            "minimal model [{}], conductor {}",
+            mm.join(", "),
+            self.local_data.conductor
+        )?;
+        for r in &self.local_data.primes {
+            writeln!(
+                f,
+                "  p = {}: {} reduction, type {}, f_p = {}, c_p = {}, v_p(disc) = {}",
+                r.prime,
+                reduction_word(r.reduction).replace('_', " "),
+                r.kodaira,
+                r.conductor_exponent,
+                r.tamagawa,
+                r.disc_valuation
+            )?;
+        }
         let verdict = if self.is_decided() {
             format!("rank = {}", self.rank_lower)
         } else {

@@ -132,8 +132,20 @@ struct IsogenyView {
 }
 
 #[derive(Derive)]
+struct BadPrimeView {
+    p: String,
+    kodaira: String,
+    conductor_exponent: u32,
+    tamagawa: u64,
+    disc_valuation: u64,
+}
+
+#[derive(Derive)]
 struct ReportView {
     curve: String,
+    minimal_model: Vec<String>,
+    conductor: String,
+    bad_primes: Vec<BadPrimeView>,
     torsion_order: u32,
     torsion_structure: (u32, u32),
     rank_lower: usize,
@@ -146,6 +158,25 @@ impl Serialize for DescentReport {
     fn serialize<S: Serializer>(&self, serializer: S) -> Result<S::Ok, S::Error> {
         let view = ReportView {
             curve: self.curve.to_string(),
+            minimal_model: self
+                .local_data
+                .minimal_model
+                .iter()
+                .map(|c| c.to_string())
+                .collect(),
+            conductor: self.local_data.conductor.to_string(),
+            bad_primes: self
+                .local_data
+                .primes
+                .iter()
+                .map(|r| BadPrimeView {
+                    p: r.prime.to_string(),
+                    kodaira: r.kodaira.to_string(),
+                    conductor_exponent: r.conductor_exponent,
+                    tamagawa: r.tamagawa,
+                    disc_valuation: r.disc_valuation,
+                })
+                .collect(),
             torsion_order: self.torsion.order(),
             torsion_structure: self.torsion.structure(),
             rank_lower: self.rank_lower,

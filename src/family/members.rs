@@ -134,7 +134,11 @@ impl Member {
 
 #[derive(Clone, Debug, PartialEq, Eq)]
 enum Kind {
-    Twists { base: Curve, from: i64, to: i64 },
+    Twists {
+        base: Box<Curve>,
+        from: i64,
+        to: i64,
+    },
     Congruent { from: u64, to: u64 },
     Pairs { bound: i64 },
 }
@@ -192,7 +196,7 @@ impl Family {
         }
         Ok(Family {
             kind: Kind::Twists {
-                base: base.clone(),
+                base: Box::new(base.clone()),
                 from,
                 to,
             },

@@ -200,7 +200,10 @@ impl fmt::Display for Tally {
                 pct(n)
             )?;
         }
-        writeln!(f, "Selmer dimensions (first isogeny)  Sel(E)  Sel(E')      count   share")?;
+        writeln!(
+            f,
+            "Selmer dimensions (first isogeny)  Sel(E)  Sel(E')      count   share"
+        )?;
         for (&(a, b), &n) in &self.selmer_pairs {
             writeln!(
                 f,
@@ -208,7 +211,10 @@ impl fmt::Display for Tally {
                 pct(n)
             )?;
         }
-        writeln!(f, "Selmer rank bound (min over isogenies of dims - 2)      count   share")?;
+        writeln!(
+            f,
+            "Selmer rank bound (min over isogenies of dims - 2)      count   share"
+        )?;
         for (&s, &n) in &self.selmer_rank {
             writeln!(f, "                 {s:>5}  {n:>36}  {:>5.2}%", pct(n))?;
         }
@@ -275,10 +281,12 @@ pub fn read_for_resume<R: BufRead>(mut input: R, name: &str, shard: &Shard) -> R
         }
         let line_no = st.records + 1;
         let text = std::str::from_utf8(&buf).ok();
-        let rec = text.and_then(RecordLine::parse).ok_or_else(|| Error::Parse {
-            input: format!("{name}, line {line_no}"),
-            reason: "not a family-scan record".into(),
-        })?;
+        let rec = text
+            .and_then(RecordLine::parse)
+            .ok_or_else(|| Error::Parse {
+                input: format!("{name}, line {line_no}"),
+                reason: "not a family-scan record".into(),
+            })?;
         if !shard.contains(rec.index) {
             return Err(Error::InvalidArgument {
                 reason: format!(
@@ -487,7 +495,8 @@ pub fn merge_shards<R: BufRead, W: Write>(
                     } else if found {
                         report.duplicates.push(i);
                     } else {
-                        out.write_all(raw).map_err(|e| io_err("write", "merged output", &e))?;
+                        out.write_all(raw)
+                            .map_err(|e| io_err("write", "merged output", &e))?;
                         report.written += 1;
                         report.tally.add(rec);
                         found = true;
@@ -508,6 +517,7 @@ pub fn merge_shards<R: BufRead, W: Write>(
             h.advance(&mut report)?;
         }
     }
-    out.flush().map_err(|e| io_err("write", "merged output", &e))?;
+    out.flush()
+        .map_err(|e| io_err("write", "merged output", &e))?;
     Ok(report)
 }

@@ -150,7 +150,7 @@ pub fn scan_member(member: &Member, options: &DescentOptions) -> ScanRecord {
 }
 
 /// How a scan runs.
-#[derive(Clone, Debug, PartialEq, Eq)]
+#[derive(Clone, Debug, Default, PartialEq, Eq)]
 #[non_exhaustive]
 pub struct ScanOptions {
     /// Worker threads; 0 means one per core. Without the `parallel` feature
@@ -161,14 +161,6 @@ pub struct ScanOptions {
     pub window: usize,
 }
 
-impl Default for ScanOptions {
-    fn default() -> Self {
-        ScanOptions {
-            threads: 0,
-            window: 0,
-        }
-    }
-}
 
 impl ScanOptions {
     /// Defaults with `threads` worker threads.

@@ -117,9 +117,11 @@ impl Quartic {
     /// `(x, z) = (M, e)`, and `y = d₁·N`. When `d | b`, `d₁ = ±1` and this is
     /// `[d, 0, a, 0, b/d]` exactly.
     ///
-    /// Its discriminant is `16·d₁¹²·b·(a² − 4b)²` (computed symbolically:
-    /// `Δ(dM⁴ + aM² + (b/d)) = 16 b (a² − 4b)²`), so it is non-degenerate
-    /// iff `b(a² − 4b) ≠ 0`, i.e. iff `E` is non-singular.
+    /// Its discriminant is `16·d₁¹²·b·(a² − 4b)²` (computed symbolically
+    /// with sympy 1.14: `Δ(dM⁴ + aM² + (b/d)) = 16 b (a² − 4b)²`, and the
+    /// integral form likewise), so it is non-degenerate iff
+    /// `b(a² − 4b) ≠ 0`, i.e. iff `E` is non-singular; the constructor
+    /// checks that condition instead of recomputing `I` and `J`.
     ///
     /// Errors: [`Error::Zero`] for `d = 0`; [`Error::Degenerate`] when
     /// `b(a² − 4b) = 0`.
@@ -145,7 +147,13 @@ impl Quartic {
         let d1 = d / &h;
         let d1sq = &d1 * &d1;
         let z = BigInt::zero();
-        Quartic::new([d * &d1sq, z.clone(), a * &d1sq, z, (b / &h) * &d1])
+        // The discriminant is 16·d₁¹²·b·(a² − 4b)² (above), non-zero here:
+        // no need to recompute I and J.
+        let q = Quartic {
+            coeffs: [d * &d1sq, z.clone(), a * &d1sq, z, (b / &h) * &d1],
+        };
+        debug_assert!(!q.discriminant().is_zero());
+        Ok(q)
     }
 
     /// The coefficients `[c4, c3, c2, c1, c0]`.

@@ -24,7 +24,8 @@ use crate::budget::Budget;
 use crate::error::{Error, Result};
 use num_bigint::BigInt;
 use num_integer::Integer;
-use num_traits::{One, Zero};
+use crate::local::legendre_u64;
+use num_traits::{One, ToPrimitive, Zero};
 
 /// A polynomial over `F_p`, lowest degree first, entries in `[0, p)`, no
 /// trailing zeros (the zero polynomial is empty).
@@ -240,6 +241,376 @@ pub(crate) fn constant_times_square(phi: &FpPoly, p: &BigInt) -> Option<BigInt> 
         }
         _ => None,
     }
+}
+
+// ------------------------------------------------------------ machine words
+//
+// The same algorithms for `p < 2^63`, with residues in `u64`, products in
+// `u64` (`p < 2^32`) or `u128`, and polynomials of degree `≤ 6` in fixed
+// arrays (no allocation). Every function below mirrors one above step for
+// step (same shifts `δ`, same order of roots), so both paths return the
+// same answers; the unit tests compare them on random inputs.
+
+/// The largest prime handled by the machine-word path (exclusive bound):
+/// below `2^63` a sum of two residues fits in a `u64`.
+pub(crate) const WORD_LIMIT: u64 = 1 << 63;
+
+/// `F_p` for an odd prime `p < 2^63`.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub(crate) struct WordField {
+    p: u64,
+}
+
+impl WordField {
+    /// The field for `p` (the caller promises `p` odd prime `< 2^63`).
+    pub(crate) fn new(p: u64) -> WordField {
+        debug_assert!(p % 2 == 1 && p < WORD_LIMIT);
+        WordField { p }
+    }
+
+    /// The characteristic.
+    pub(crate) fn p(self) -> u64 {
+        self.p
+    }
+
+    #[inline]
+    pub(crate) fn mul(self, a: u64, b: u64) -> u64 {
+        if self.p >> 32 == 0 {
+            a * b % self.p
+        } else {
+            ((a as u128 * b as u128) % self.p as u128) as u64
+        }
+    }
+
+    #[inline]
+    pub(crate) fn add(self, a: u64, b: u64) -> u64 {
+        let s = a + b;
+        if s >= self.p {
+            s - self.p
+        } else {
+            s
+        }
+    }
+
+    #[inline]
+    pub(crate) fn sub(self, a: u64, b: u64) -> u64 {
+        if a >= b {
+            a - b
+        } else {
+            a + (self.p - b)
+        }
+    }
+
+    pub(crate) fn pow(self, mut a: u64, mut e: u64) -> u64 {
+        let mut acc = 1 % self.p;
+        while e > 0 {
+            if e & 1 == 1 {
+                acc = self.mul(acc, a);
+            }
+            a = self.mul(a, a);
+            e >>= 1;
+        }
+        acc
+    }
+
+    /// `a⁻¹` for `a ≢ 0` (Fermat, as in the `BigInt` path).
+    pub(crate) fn inv(self, a: u64) -> u64 {
+        self.pow(a, self.p - 2)
+    }
+
+    /// `c mod p` for an integer `c`.
+    pub(crate) fn reduce(self, c: &BigInt) -> u64 {
+        match c.to_i128() {
+            Some(v) => v.rem_euclid(self.p as i128) as u64,
+            None => c.mod_floor(&BigInt::from(self.p)).to_u64().unwrap_or(0),
+        }
+    }
+
+    /// True iff `a` is a non-zero square (Jacobi symbol in machine words).
+    #[inline]
+    pub(crate) fn is_nonzero_square(self, a: u64) -> bool {
+        a != 0 && legendre_u64(a, self.p) == 1
+    }
+
+    /// `φ(r)`.
+    #[inline]
+    pub(crate) fn eval(self, phi: &WordPoly, r: u64) -> u64 {
+        let mut acc = 0;
+        for &c in phi.coeffs().iter().rev() {
+            acc = self.add(self.mul(acc, r), c);
+        }
+        acc
+    }
+}
+
+/// A polynomial over `F_p` of degree `≤ 6`, lowest degree first, entries in
+/// `[0, p)`, trimmed (`len` = degree + 1; `0` for the zero polynomial).
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub(crate) struct WordPoly {
+    c: [u64; 7],
+    len: usize,
+}
+
+impl WordPoly {
+    const ZERO: WordPoly = WordPoly { c: [0; 7], len: 0 };
+
+    /// From residues (at most 7), trimming trailing zeros.
+    pub(crate) fn from_slice(a: &[u64]) -> WordPoly {
+        let mut out = WordPoly::ZERO;
+        out.c[..a.len()].copy_from_slice(a);
+        out.len = a.len();
+        out.trim();
+        out
+    }
+
+    fn trim(&mut self) {
+        while self.len > 0 && self.c[self.len - 1] == 0 {
+            self.len -= 1;
+        }
+    }
+
+    /// The coefficients, lowest degree first.
+    pub(crate) fn coeffs(&self) -> &[u64] {
+        &self.c[..self.len]
+    }
+
+    /// Number of coefficients (degree + 1; `0` for the zero polynomial).
+    pub(crate) fn len(&self) -> usize {
+        self.len
+    }
+
+    fn lead(&self) -> u64 {
+        self.c[self.len - 1]
+    }
+}
+
+fn wmonic(a: WordPoly, f: WordField) -> WordPoly {
+    if a.len == 0 || a.lead() == 1 {
+        return a;
+    }
+    let li = f.inv(a.lead());
+    let mut out = a;
+    for c in out.c[..out.len].iter_mut() {
+        *c = f.mul(*c, li);
+    }
+    out
+}
+
+/// Remainder of `a` modulo non-zero `m`.
+fn wrem(a: &WordPoly, m: &WordPoly, f: WordField) -> WordPoly {
+    let dm = m.len - 1;
+    let li = if m.lead() == 1 { 1 } else { f.inv(m.lead()) };
+    let mut r = *a;
+    while r.len > dm {
+        let dr = r.len - 1;
+        let q = f.mul(r.c[dr], li);
+        if q != 0 {
+            for i in 0..=dm {
+                let idx = dr - dm + i;
+                r.c[idx] = f.sub(r.c[idx], f.mul(q, m.c[i]));
+            }
+        }
+        r.len -= 1;
+        r.trim();
+    }
+    r
+}
+
+/// Exact quotient `a / m`.
+fn wquo(a: &WordPoly, m: &WordPoly, f: WordField) -> WordPoly {
+    let dm = m.len - 1;
+    let li = f.inv(m.lead());
+    let mut r = *a;
+    let mut q = WordPoly::ZERO;
+    q.len = a.len.saturating_sub(dm);
+    while r.len > dm {
+        let dr = r.len - 1;
+        let c = f.mul(r.c[dr], li);
+        for i in 0..=dm {
+            let idx = dr - dm + i;
+            r.c[idx] = f.sub(r.c[idx], f.mul(c, m.c[i]));
+        }
+        q.c[dr - dm] = c;
+        r.len -= 1;
+    }
+    q.trim();
+    q
+}
+
+/// `a·b` (degrees must add up to at most 6).
+fn wmul(a: &WordPoly, b: &WordPoly, f: WordField) -> WordPoly {
+    if a.len == 0 || b.len == 0 {
+        return WordPoly::ZERO;
+    }
+    let mut out = WordPoly::ZERO;
+    out.len = a.len + b.len - 1;
+    for i in 0..a.len {
+        for j in 0..b.len {
+            out.c[i + j] = f.add(out.c[i + j], f.mul(a.c[i], b.c[j]));
+        }
+    }
+    out.trim();
+    out
+}
+
+fn wsub(a: &WordPoly, b: &WordPoly, f: WordField) -> WordPoly {
+    let mut out = WordPoly::ZERO;
+    out.len = a.len.max(b.len);
+    for i in 0..out.len {
+        let x = if i < a.len { a.c[i] } else { 0 };
+        let y = if i < b.len { b.c[i] } else { 0 };
+        out.c[i] = f.sub(x, y);
+    }
+    out.trim();
+    out
+}
+
+/// Monic gcd.
+fn wgcd(a: &WordPoly, b: &WordPoly, f: WordField) -> WordPoly {
+    let (mut x, mut y) = (*a, *b);
+    while y.len > 0 {
+        let r = wrem(&x, &y, f);
+        x = y;
+        y = r;
+    }
+    wmonic(x, f)
+}
+
+/// `base^e mod m` (`deg m ≤ 4`), charging `16·bits(e)` units like [`powmod`].
+fn wpowmod(
+    base: &WordPoly,
+    e: u64,
+    m: &WordPoly,
+    f: WordField,
+    budget: &mut Budget,
+) -> Result<WordPoly> {
+    let bits = u64::from(64 - e.leading_zeros());
+    charge(
+        budget,
+        16 * bits.max(1),
+        "local solubility (polynomial powering mod p)",
+    )?;
+    let b = wrem(base, m, f);
+    let mut acc = wrem(&WordPoly::from_slice(&[1]), m, f);
+    for i in (0..bits).rev() {
+        acc = wrem(&wmul(&acc, &acc, f), m, f);
+        if e >> i & 1 == 1 {
+            acc = wrem(&wmul(&acc, &b, f), m, f);
+        }
+    }
+    Ok(acc)
+}
+
+/// The distinct roots of `φ` (non-zero, `deg ≤ 4`) in `F_p`, ascending:
+/// the machine-word twin of [`roots`].
+pub(crate) fn roots_word(phi: &WordPoly, f: WordField, budget: &mut Budget) -> Result<Vec<u64>> {
+    if phi.len <= 1 {
+        return Ok(Vec::new());
+    }
+    let g = wmonic(*phi, f);
+    let x = WordPoly::from_slice(&[0, 1]);
+    let xp = wpowmod(&x, f.p(), &g, f, budget)?;
+    let r = wgcd(&g, &wsub(&xp, &x, f), f);
+    let mut out = Vec::with_capacity(4);
+    wsplit(&r, f, budget, &mut out)?;
+    out.sort_unstable();
+    Ok(out)
+}
+
+fn wsplit(r: &WordPoly, f: WordField, budget: &mut Budget, out: &mut Vec<u64>) -> Result<()> {
+    match r.len {
+        0 | 1 => return Ok(()),
+        2 => {
+            out.push(f.sub(0, r.c[0]));
+            return Ok(());
+        }
+        _ => {}
+    }
+    let half = (f.p() - 1) / 2;
+    let one = WordPoly::from_slice(&[1]);
+    let mut delta = 0u64;
+    loop {
+        let shifted = WordPoly::from_slice(&[delta % f.p(), 1]);
+        let pw = wpowmod(&shifted, half, r, f, budget)?;
+        let h = wgcd(r, &wsub(&pw, &one, f), f);
+        if h.len > 1 && h.len < r.len {
+            let other = wmonic(wquo(r, &h, f), f);
+            wsplit(&h, f, budget, out)?;
+            return wsplit(&other, f, budget, out);
+        }
+        delta += 1;
+    }
+}
+
+/// The machine-word twin of [`constant_times_square`].
+pub(crate) fn constant_times_square_word(phi: &WordPoly, f: WordField) -> Option<u64> {
+    if phi.len == 0 {
+        return None;
+    }
+    let lc = phi.lead();
+    let psi = wmonic(*phi, f);
+    let two_inv = f.inv(2);
+    match psi.len - 1 {
+        0 => Some(lc),
+        2 => {
+            let disc = f.sub(f.mul(psi.c[1], psi.c[1]), f.mul(4 % f.p(), psi.c[0]));
+            (disc == 0).then_some(lc)
+        }
+        4 => {
+            let u = f.mul(psi.c[3], two_inv);
+            let v = f.mul(f.sub(psi.c[2], f.mul(u, u)), two_inv);
+            let ok1 = f.mul(f.mul(2, u), v) == psi.c[1];
+            let ok0 = f.mul(v, v) == psi.c[0];
+            (ok1 && ok0).then_some(lc)
+        }
+        _ => None,
+    }
+}
+
+/// A square root of `a` modulo `p` (Tonelli–Shanks [Cohen93, Alg. 1.5.1]),
+/// or `None` when `a` is a non-residue; `sqrt(0) = 0`.
+pub(crate) fn sqrt_word(a: u64, f: WordField) -> Option<u64> {
+    let p = f.p();
+    let a = a % p;
+    if a == 0 {
+        return Some(0);
+    }
+    if legendre_u64(a, p) != 1 {
+        return None;
+    }
+    let s = (p - 1).trailing_zeros();
+    let q = (p - 1) >> s;
+    if s == 1 {
+        return Some(f.pow(a, (p + 1) / 4));
+    }
+    let mut z = 2u64;
+    while legendre_u64(z, p) != -1 {
+        z += 1;
+    }
+    let mut m = s;
+    let mut c = f.pow(z, q);
+    let mut t = f.pow(a, q);
+    let mut r = f.pow(a, (q + 1) / 2);
+    while t != 1 {
+        let mut i = 0u32;
+        let mut t2 = t;
+        while t2 != 1 {
+            t2 = f.mul(t2, t2);
+            i += 1;
+            if i >= m {
+                return None;
+            }
+        }
+        let mut b = c;
+        for _ in 0..(m - i - 1) {
+            b = f.mul(b, b);
+        }
+        m = i;
+        c = f.mul(b, b);
+        t = f.mul(t, c);
+        r = f.mul(r, b);
+    }
+    Some(r)
 }
 
 #[cfg(test)]

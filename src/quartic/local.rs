@@ -8,11 +8,12 @@
 //! for residuosity), sharing no code with the search.
 
 use super::form::Quartic;
+use super::fp;
 use super::padic;
 use super::real;
 use crate::budget::Budget;
 use crate::error::{Error, Result};
-use crate::local::{sqrt_mod_prime_power, Place, Prime};
+use crate::local::{split_valuation, sqrt_mod_prime_power, Place, Prime};
 use num_bigint::BigInt;
 use num_integer::Integer;
 use num_traits::{One, Signed, Zero};
@@ -190,7 +191,7 @@ impl LocalSolubility {
 /// `p < 64` and `O(log p)` polynomial products above.
 ///
 /// Example: `y² = −34x⁴ + 2z⁴`, i.e. `[−34, 0, 0, 0, 2]` (the curve
-/// `2Y² = 1 − 17X⁴` of [Lind40], [Reichardt42] with `y = 2Y`), is soluble
+/// `2Y² = 1 − 17X⁴` of \[Lind40\], \[Reichardt42\] with `y = 2Y`), is soluble
 /// at `R`, 2, 17 and every other place, yet has no rational point.
 pub fn locally_soluble(q: &Quartic, place: &Place, budget: &mut Budget) -> Result<LocalSolubility> {
     match place {
@@ -254,10 +255,45 @@ fn finish(q: &Quartic, p: &Prime, w: Option<(BigInt, BigInt)>) -> Result<LocalSo
     let g = q.eval(&x, &z);
     debug_assert!(padic::is_padic_square(&g, p));
     let precision = padic::val_u32(&g, p).saturating_add(EXTRA_PRECISION);
-    let y = sqrt_mod_prime_power(&g, p, precision).ok_or_else(|| Error::InvalidArgument {
+    let y = padic_sqrt(&g, p, precision).ok_or_else(|| Error::InvalidArgument {
         reason: format!("internal: g({x}, {z}) = {g} has no square root mod {p}^{precision}"),
     })?;
     Ok(LocalSolubility::Soluble(LocalPoint::new(
         place, x, z, y, precision,
     )))
+}
+
+/// A square root of `g` modulo `p^precision` for `g ≠ 0` with `v = v_p(g)`
+/// even and `< precision` and unit part `u` a square mod `p` (mod 8 at 2).
+///
+/// Odd `p < 2^63`: `y₀ = √u mod p` by Tonelli–Shanks in machine words, then
+/// Newton–Hensel doubling [Cohen93, §1.5] `y ← y − (y² − u)·w`, with
+/// `w ≡ (2y)⁻¹` kept to the current precision by `w ← w(2 − 2y·w)`;
+/// finally `y·p^{v/2}`. Otherwise `crate::local::sqrt_mod_prime_power`.
+fn padic_sqrt(g: &BigInt, p: &Prime, precision: u32) -> Option<BigInt> {
+    let Some(pw) = p.to_u64().filter(|&v| v % 2 == 1 && v < fp::WORD_LIMIT) else {
+        return sqrt_mod_prime_power(g, p, precision);
+    };
+    let (v, u) = split_valuation(g, p)?;
+    let v = u32::try_from(v).ok()?;
+    if v % 2 == 1 || v >= precision {
+        return None;
+    }
+    let k = precision - v;
+    let f = fp::WordField::new(pw);
+    let y0 = fp::sqrt_word(f.reduce(&u), f)?;
+    if y0 == 0 {
+        return None;
+    }
+    let mut y = BigInt::from(y0);
+    let mut w = BigInt::from(f.inv(f.mul(2, y0)));
+    let pb = p.get();
+    let mut j = 1u32;
+    while j < k {
+        j = (2 * j).min(k);
+        let m = num_traits::pow(pb.clone(), j as usize);
+        y = (&y - (&y * &y - &u) * &w).mod_floor(&m);
+        w = (&w * (BigInt::from(2) - BigInt::from(2) * &y * &w)).mod_floor(&m);
+    }
+    Some(y * num_traits::pow(pb.clone(), (v / 2) as usize))
 }

@@ -33,7 +33,7 @@
 //!   class polynomial `F(r + p s)`, whose content exceeds `m` (all its
 //!   coefficients are divisible by `p^{m+1}`).
 //!
-//! # Lemma T (p = 2) — common practice; cf. [MerrimanSiksekSmart96, §5], [Siksek95]
+//! # Lemma T (p = 2) — common practice; cf. [MerrimanSiksekSmart96, §5], \[Siksek95\]
 //!
 //! A unit of `Z_2` is a square iff it is `≡ 1 mod 8` [Serre73, II.3.3].
 //! With `F = 2^m F₁`, `a₀ = F₁(0)` and `μ = min_{i≥1} v(F₁ᵢ)` (`∞` if `F₁` is
@@ -228,6 +228,16 @@ fn is_nonzero_padic_square(n: &BigInt, p: &Prime) -> bool {
 /// (coprime to `p` jointly) with `g(x, z)` a non-zero square in `Q_p`, or
 /// `None` when there is no `Q_p`-point.
 ///
+/// The class tree is kept in exact integers; the work modulo `p` (values
+/// of `φ`, residuosity, roots) runs in machine words when `p < 2^63`
+/// ([`class_verdict_word`]) and in `BigInt` above ([`class_verdict_big`]).
+/// Both decide a class the same way: the witness is the least residue `r`
+/// with `φ(r)` a non-zero square (when `m` is even), otherwise the class is
+/// refined at the roots of `φ`, ascending. (For `p ≥ ENUMERATION_LIMIT`
+/// Weil's bound and `φ = c·h²` only tell *that* such an `r` exists; the
+/// scan `r = 0, 1, 2, …` then finds the least one, so enumeration and the
+/// large-prime route give the same answer.)
+///
 /// Budget: one unit per class and per residue tested; `16·log₂ p` per
 /// polynomial exponentiation.
 pub(crate) fn odd_prime_witness(
@@ -235,66 +245,227 @@ pub(crate) fn odd_prime_witness(
     p: &Prime,
     budget: &mut Budget,
 ) -> Result<Option<(BigInt, BigInt)>> {
-    const STAGE: &str = "local solubility at an odd prime";
     let pb = p.get();
-    let small = p.to_u64().filter(|&v| v < ENUMERATION_LIMIT);
+    let word = p
+        .to_u64()
+        .filter(|&v| v < fp::WORD_LIMIT)
+        .map(fp::WordField::new);
     let mut queue = initial_classes(q, pb);
     while let Some(class) = queue.pop_front() {
-        fp::charge(budget, 1, STAGE)?;
-        let (m, f1) = content_split(&class.poly, p);
-        let class = Class {
-            poly: strip_even_power(&class.poly, m, pb),
-            ..class
+        fp::charge(budget, 1, ODD_STAGE)?;
+        let (verdict, m) = match word {
+            Some(f) => {
+                let (m, phi) = content_residues_word(&class.poly, p, f);
+                (class_verdict_word(&phi, m % 2 == 0, f, budget)?, m)
+            }
+            None => {
+                let (m, f1) = content_split(&class.poly, p);
+                (class_verdict_big(&f1, m % 2 == 0, p, budget)?, m)
+            }
         };
-        let phi = fp::reduce(&f1, pb);
-        let even = m % 2 == 0;
-        let mut children: Vec<BigInt> = Vec::new();
-        if let Some(ps) = small {
-            for r in 0..ps {
-                fp::charge(budget, 1, STAGE)?;
-                let r = BigInt::from(r);
-                let val = fp::eval(&phi, &r, pb);
-                if val.is_zero() {
-                    children.push(r);
-                } else if even && legendre(&val, p)? == 1 {
-                    return Ok(Some(class.witness(&r)));
+        match verdict {
+            Verdict::Witness(r) => return Ok(Some(class.witness(&r))),
+            Verdict::Refine(roots) if roots.is_empty() => {}
+            Verdict::Refine(roots) => {
+                let class = Class {
+                    poly: strip_even_power(&class.poly, m, pb),
+                    ..class
+                };
+                for r in roots {
+                    queue.push_back(class.child(&r, pb));
                 }
             }
-        } else {
-            if even {
-                match fp::constant_times_square(&phi, pb) {
-                    None => {
-                        // Weil: a witness exists; scan r = 0, 1, 2, ….
-                        let mut r = BigInt::zero();
-                        loop {
-                            fp::charge(budget, 1 + pb.bits() / 8, STAGE)?;
-                            let val = fp::eval(&phi, &r, pb);
-                            if !val.is_zero() && legendre(&val, p)? == 1 {
-                                return Ok(Some(class.witness(&r)));
-                            }
-                            r += 1;
-                        }
-                    }
-                    Some(c) if legendre(&c, p)? == 1 => {
-                        let mut r = BigInt::zero();
-                        loop {
-                            fp::charge(budget, 1, STAGE)?;
-                            if !fp::eval(&phi, &r, pb).is_zero() {
-                                return Ok(Some(class.witness(&r)));
-                            }
-                            r += 1;
-                        }
-                    }
-                    Some(_) => {}
-                }
-            }
-            children = fp::roots(&phi, pb, budget)?;
-        }
-        for r in children {
-            queue.push_back(class.child(&r, pb));
         }
     }
     Ok(None)
+}
+
+const ODD_STAGE: &str = "local solubility at an odd prime";
+
+/// What Lemma P says about one class: a witness residue `r`, or the
+/// residues (roots of `φ`, ascending) whose subclasses must be examined.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub(crate) enum Verdict {
+    Witness(BigInt),
+    Refine(Vec<BigInt>),
+}
+
+/// Lemma P for one class in `BigInt` arithmetic: `f1 = F/p^m` (primitive),
+/// `even` = `m` even.
+pub(crate) fn class_verdict_big(
+    f1: &[BigInt],
+    even: bool,
+    p: &Prime,
+    budget: &mut Budget,
+) -> Result<Verdict> {
+    let pb = p.get();
+    let phi = fp::reduce(f1, pb);
+    if let Some(ps) = p.to_u64().filter(|&v| v < ENUMERATION_LIMIT) {
+        let mut children = Vec::new();
+        for r in 0..ps {
+            fp::charge(budget, 1, ODD_STAGE)?;
+            let r = BigInt::from(r);
+            let val = fp::eval(&phi, &r, pb);
+            if val.is_zero() {
+                children.push(r);
+            } else if even && legendre(&val, p)? == 1 {
+                return Ok(Verdict::Witness(r));
+            }
+        }
+        return Ok(Verdict::Refine(children));
+    }
+    if even {
+        match fp::constant_times_square(&phi, pb) {
+            None => {
+                // Weil: a witness exists; scan r = 0, 1, 2, ….
+                let mut r = BigInt::zero();
+                loop {
+                    fp::charge(budget, 1 + pb.bits() / 8, ODD_STAGE)?;
+                    let val = fp::eval(&phi, &r, pb);
+                    if !val.is_zero() && legendre(&val, p)? == 1 {
+                        return Ok(Verdict::Witness(r));
+                    }
+                    r += 1;
+                }
+            }
+            Some(c) if legendre(&c, p)? == 1 => {
+                let mut r = BigInt::zero();
+                loop {
+                    fp::charge(budget, 1, ODD_STAGE)?;
+                    if !fp::eval(&phi, &r, pb).is_zero() {
+                        return Ok(Verdict::Witness(r));
+                    }
+                    r += 1;
+                }
+            }
+            Some(_) => {}
+        }
+    }
+    Ok(Verdict::Refine(fp::roots(&phi, pb, budget)?))
+}
+
+/// Bit `r` of entry `p` is set iff `r` is a non-zero square modulo `p`
+/// (`p < 64`; entries for even or composite `p` are never read).
+const SMALL_SQUARES: [u64; 64] = small_square_masks();
+
+const fn small_square_masks() -> [u64; 64] {
+    let mut out = [0u64; 64];
+    let mut p = 3;
+    while p < 64 {
+        let mut r = 1;
+        while r < p {
+            out[p] |= 1 << (r * r % p);
+            r += 1;
+        }
+        p += 2;
+    }
+    out
+}
+
+/// Lemma P for one class in machine words (`p < 2^63`): the twin of
+/// [`class_verdict_big`], taking `φ = F₁ mod p` already reduced.
+pub(crate) fn class_verdict_word(
+    phi: &fp::WordPoly,
+    even: bool,
+    f: fp::WordField,
+    budget: &mut Budget,
+) -> Result<Verdict> {
+    let p = f.p();
+    if p < ENUMERATION_LIMIT {
+        let squares = SMALL_SQUARES[p as usize];
+        let mut children = Vec::new();
+        let mut tested = 0;
+        let mut witness = None;
+        for r in 0..p {
+            tested += 1;
+            let val = f.eval(phi, r);
+            if val == 0 {
+                children.push(BigInt::from(r));
+            } else if even && squares >> val & 1 == 1 {
+                witness = Some(r);
+                break;
+            }
+        }
+        fp::charge(budget, tested, ODD_STAGE)?;
+        return Ok(match witness {
+            Some(r) => Verdict::Witness(BigInt::from(r)),
+            None => Verdict::Refine(children),
+        });
+    }
+    if even {
+        match fp::constant_times_square_word(phi, f) {
+            None => {
+                // Weil: a witness exists; scan r = 0, 1, 2, ….
+                let per_try = 1 + u64::from(64 - p.leading_zeros()) / 8;
+                let mut r = 0u64;
+                loop {
+                    fp::charge(budget, per_try, ODD_STAGE)?;
+                    if f.is_nonzero_square(f.eval(phi, r)) {
+                        return Ok(Verdict::Witness(BigInt::from(r)));
+                    }
+                    r += 1;
+                }
+            }
+            Some(c) if f.is_nonzero_square(c) => {
+                let mut r = 0u64;
+                loop {
+                    fp::charge(budget, 1, ODD_STAGE)?;
+                    if f.eval(phi, r) != 0 {
+                        return Ok(Verdict::Witness(BigInt::from(r)));
+                    }
+                    r += 1;
+                }
+            }
+            Some(_) => {}
+        }
+    }
+    let roots = fp::roots_word(phi, f, budget)?;
+    Ok(Verdict::Refine(roots.into_iter().map(BigInt::from).collect()))
+}
+
+/// `v_p(c)` for `c ≠ 0` (machine-word fast path), `None` for `c = 0`.
+fn val_word(c: &BigInt, p: &Prime, pw: u64) -> Option<u64> {
+    match c.to_i128() {
+        Some(0) => None,
+        Some(mut x) => {
+            let q = pw as i128;
+            let mut v = 0;
+            while x % q == 0 {
+                x /= q;
+                v += 1;
+            }
+            Some(v)
+        }
+        None => split_valuation(c, p).map(|(v, _)| v),
+    }
+}
+
+/// The content valuation `m` of a non-zero class polynomial `F` and
+/// `φ = (F/p^m) mod p`, without building `F/p^m` when the coefficients
+/// fit in `i128`.
+pub(crate) fn content_residues_word(
+    f: &[BigInt],
+    p: &Prime,
+    field: fp::WordField,
+) -> (u64, fp::WordPoly) {
+    let pw = field.p();
+    let m = f.iter().filter_map(|c| val_word(c, p, pw)).min().unwrap_or(0);
+    let mut res = [0u64; 5];
+    let mut pm: Option<BigInt> = None;
+    for (slot, c) in res.iter_mut().zip(f) {
+        *slot = if m == 0 {
+            field.reduce(c)
+        } else if let Some(mut x) = c.to_i128() {
+            for _ in 0..m {
+                x /= pw as i128;
+            }
+            x.rem_euclid(pw as i128) as u64
+        } else {
+            let pm = pm.get_or_insert_with(|| num_traits::pow(p.get().clone(), m as usize));
+            field.reduce(&(c / &*pm))
+        };
+    }
+    (m, fp::WordPoly::from_slice(&res[..f.len().min(5)]))
 }
 
 /// Decides `C(Q_2) ≠ ∅` by Lemma T; returns a witness `(x, z)` (not both

@@ -99,7 +99,7 @@ carmichael = [561, 1105, 1729, 2465, 2821, 6601, 8911, 41041, 825265, 321197185,
               5394826801, 232250619601, 9746347772161]
 # Chernick's form (6k+1)(12k+1)(18k+1) with all three factors prime is a Carmichael number.
 print("chernick", flush=True)
-k = 10 ** 9
+k = 10 ** 6
 found = 0
 while found < 3:
     k += 1
