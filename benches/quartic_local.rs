@@ -8,11 +8,18 @@
 //! coefficient but `c4`, so the roots of `g mod p` are found by `gcd` with
 //! `x^p − x` and the classes refined); the real place.
 //!
+//! A second group, `local_image`, times [`local_image`] at the places a
+//! descent visits for the congruent-number curves `y² = x³ − n²x`
+//! (`a = 0, b = −n²`, and the isogenous side `b = 4n²`), square-free
+//! `n ≤ 300`: the real place, `p = 2`, the odd primes `p | n` below 64 and
+//! those from 64 on (Lemma P by enumeration of residues, resp. by Weil's
+//! bound and root finding, both in machine words).
+//!
 //! Run: `cargo bench --bench quartic_local`.
 
 use criterion::{black_box, criterion_group, criterion_main, Criterion};
 use isodescent::local::{Place, Prime};
-use isodescent::quartic::{locally_soluble, Quartic};
+use isodescent::quartic::{local_image, locally_soluble, Quartic};
 use isodescent::Budget;
 use num_bigint::BigInt;
 
@@ -98,5 +105,53 @@ fn bench(c: &mut Criterion) {
     group.finish();
 }
 
-criterion_group!(benches, bench);
+/// `(a, b, place)` for every place a congruent-number descent visits,
+/// sorted into real, 2, odd `p < 64`, odd `p ≥ 64`.
+fn congruent_places(n_max: i64) -> [Vec<(BigInt, BigInt, Place)>; 4] {
+    let mut out: [Vec<(BigInt, BigInt, Place)>; 4] = Default::default();
+    for n in 1..=n_max {
+        if (2..).take_while(|p| p * p <= n).any(|p| n % (p * p) == 0) {
+            continue;
+        }
+        let mut odd = Vec::new();
+        let mut m = n;
+        for p in 2..=n {
+            if m % p == 0 {
+                if p != 2 {
+                    odd.push(p as u64);
+                }
+                m /= p;
+            }
+        }
+        for b in [-n * n, 4 * n * n] {
+            let (a, b) = (BigInt::from(0), BigInt::from(b));
+            out[0].push((a.clone(), b.clone(), Place::Real));
+            out[1].push((a.clone(), b.clone(), Place::Finite(Prime::two())));
+            for &p in &odd {
+                let v = Place::Finite(Prime::small(p).unwrap());
+                out[if p < 64 { 2 } else { 3 }].push((a.clone(), b.clone(), v));
+            }
+        }
+    }
+    out
+}
+
+fn bench_images(c: &mut Criterion) {
+    let mut group = c.benchmark_group("local_image");
+    let jobs = congruent_places(300);
+    let names = ["real place", "p = 2", "odd p < 64", "odd p >= 64"];
+    for (name, list) in names.iter().zip(&jobs) {
+        let label = format!("congruent n <= 300, {name}, {} images", list.len());
+        group.bench_function(label, |bch| {
+            bch.iter(|| {
+                for (a, b, v) in list {
+                    black_box(local_image(a, b, v, &mut Budget::unlimited()).unwrap());
+                }
+            })
+        });
+    }
+    group.finish();
+}
+
+criterion_group!(benches, bench, bench_images);
 criterion_main!(benches);

@@ -127,7 +127,10 @@ fn examine_side(n: i64, side: &SelmerSide) -> SideResult {
         }
     }
     let u = undecided.len();
-    assert!(u <= 4, "n = {n}: {u} undecided classes, more than this test handles");
+    assert!(
+        u <= 4,
+        "n = {n}: {u} undecided classes, more than this test handles"
+    );
     let mut image_masks = Vec::new();
     let mut excluded = Vec::new();
     for mask in 1u64..(1 << u) {
@@ -166,7 +169,6 @@ fn examine_side(n: i64, side: &SelmerSide) -> SideResult {
                 excluded.push(mask);
             }
             SecondDescentOutcome::Undecided { .. } => {}
-            _ => {}
         }
     }
     // The span of the found classes must avoid every excluded class.
@@ -178,7 +180,10 @@ fn examine_side(n: i64, side: &SelmerSide) -> SideResult {
         }
     }
     for x in &excluded {
-        assert!(!span.contains(x), "n = {n}: class mask {x} is both an image and excluded");
+        assert!(
+            !span.contains(x),
+            "n = {n}: class mask {x} is both an image and excluded"
+        );
     }
     let found_dim = span.len().trailing_zeros() as usize;
     SideResult {
@@ -197,7 +202,10 @@ fn range() -> (i64, i64) {
             .and_then(|s| s.parse().ok())
             .unwrap_or(d)
     };
-    (get("SECOND_DESCENT_MIN_N", 1), get("SECOND_DESCENT_MAX_N", 300))
+    (
+        get("SECOND_DESCENT_MIN_N", 1),
+        get("SECOND_DESCENT_MAX_N", 300),
+    )
 }
 
 #[test]

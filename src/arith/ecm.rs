@@ -1,5 +1,5 @@
-//! Lenstra's elliptic curve method [Lenstra87] on Montgomery curves
-//! `B·y² = x³ + A·x² + x` [Montgomery87], with Suyama's parametrisation,
+//! Lenstra's elliptic curve method \[Lenstra87\] on Montgomery curves
+//! `B·y² = x³ + A·x² + x` \[Montgomery87\], with Suyama's parametrisation,
 //! the Montgomery ladder in stage 1 and the standard continuation with a
 //! baby-step/giant-step table in stage 2.
 //!
@@ -88,7 +88,7 @@ fn classify(g: BigInt, n: &BigInt) -> Option<Split> {
 /// modulus `n` (odd, composite, no factor 2 or 3): stage 1 to `b1`,
 /// stage 2 to `b2`.
 ///
-/// Suyama's parametrisation [Zimmermann-Dodson06, §2]: `u = σ² − 5`,
+/// Suyama's parametrisation \[Zimmermann-Dodson06, §2\]: `u = σ² − 5`,
 /// `v = 4σ`, starting point `x₀ : z₀ = u³ : v³` on the curve with
 /// `(A + 2)/4 = (v − u)³(3u + v) / (16u³v)`; its group order is divisible
 /// by 12. Stage 1 multiplies the point by every prime power `≤ b1`;
@@ -124,11 +124,11 @@ pub(crate) fn ecm_curve<R: Ring>(
     let a24 = (num * inv).mod_floor(&n);
     let curve = Curve {
         ring,
-        a24: ring.from_big(&a24),
+        a24: ring.elem_big(&a24),
     };
     let mut q = Pt {
-        x: ring.from_big(&u3),
-        z: ring.from_big(&v3),
+        x: ring.elem_big(&u3),
+        z: ring.elem_big(&v3),
     };
 
     // Stage 1.
@@ -246,7 +246,7 @@ fn batch_invert<R: Ring>(ring: &R, xs: &[R::E], n: &BigInt) -> Result<Vec<R::E>,
         return Err(split);
     }
     let inv = match total.modinv(n) {
-        Some(i) => ring.from_big(&i),
+        Some(i) => ring.elem_big(&i),
         None => return Err(Split::Failed),
     };
     let mut out = vec![ring.zero(); xs.len()];
@@ -260,7 +260,7 @@ fn batch_invert<R: Ring>(ring: &R, xs: &[R::E], n: &BigInt) -> Result<Vec<R::E>,
 
 /// The ECM effort schedule: `(B1, curves)` per tier, aimed at prime
 /// factors of about 15, 20, 25, 30, 35 digits (B1 values after the
-/// optimal-parameter table of [Zimmermann-Dodson06, Table 1]; curve counts
+/// optimal-parameter table of \[Zimmermann-Dodson06, Table 1\]; curve counts
 /// raised for our simpler stage 2 with `B2 = 50·B1`). The last tier repeats
 /// until the budget runs out.
 pub(crate) const SCHEDULE: [(u64, u32); 6] = [

@@ -93,9 +93,9 @@ const RHO_ITERATIONS: u64 = 1 << 14;
 /// 2. a cofactor `< 2^64` is split by [`factor_u64`]'s method
 ///    (exact primality, Pollard–Brent rho);
 /// 3. a larger cofactor is tested with Baillie–PSW [`is_prime`], checked for
-///    being a perfect power, then split by Pollard–Brent rho [Brent80]
+///    being a perfect power, then split by Pollard–Brent rho \[Brent80\]
 ///    (16384 iterations, finds factors up to about 9 digits) and Lenstra's
-///    ECM [Lenstra87] with B1 = 2000, 11000, 50000, … (finds factors of
+///    ECM \[Lenstra87\] with B1 = 2000, 11000, 50000, … (finds factors of
 ///    15, 20, 25 digits with a few dozen to a few hundred curves); both
 ///    parts of a split are factored recursively.
 ///
@@ -241,7 +241,7 @@ fn split_in<R: Ring>(ring: &R, budget: &mut Budget) -> Split {
 ///
 /// Method: trial division by the primes below 4096, then recursive
 /// splitting of the cofactor with [`is_prime_u64`] (exact) and
-/// Pollard–Brent rho [Brent80] in 64-bit Montgomery arithmetic. Exact: no
+/// Pollard–Brent rho \[Brent80\] in 64-bit Montgomery arithmetic. Exact: no
 /// probable primes.
 ///
 /// Cost: rho needs about `p^{1/2} ≤ 2^16` steps for the second-largest

@@ -1,11 +1,11 @@
 //! Modular arithmetic for an odd modulus, in fixed-width Montgomery form.
 //!
-//! Montgomery's representation [Montgomery85] stores a residue `x mod m` as
+//! Montgomery's representation \[Montgomery85\] stores a residue `x mod m` as
 //! `x·R mod m` with `R = 2^(64N)`; the product of two representatives is
 //! reduced by the REDC step without any division, so a modular
 //! multiplication costs about `2N²` word multiplications. The routines here
 //! use the coarsely integrated operand scanning (CIOS) form of REDC
-//! [KocAcarKaliski96]. Every `N` from 1 word (the `u64` fast path) up to 16
+//! \[KocAcarKaliski96\]. Every `N` from 1 word (the `u64` fast path) up to 16
 //! words (1024 bits) is served by the const-generic [`Mont`]; larger moduli
 //! fall back to [`BigRing`], which reduces with ordinary big-integer
 //! division. The prime tests, Pollard–Brent rho and ECM are written once
@@ -35,7 +35,7 @@ pub(crate) trait Ring {
     /// `a / 2 mod m` (m is odd).
     fn half(&self, a: &Self::E) -> Self::E;
     /// The residue of a (possibly negative) big integer.
-    fn from_big(&self, x: &BigInt) -> Self::E;
+    fn elem_big(&self, x: &BigInt) -> Self::E;
     /// The canonical integer in `[0, m)` of a residue.
     fn to_big(&self, a: &Self::E) -> BigInt;
     /// The modulus.
@@ -49,8 +49,8 @@ pub(crate) trait Ring {
         *a == self.zero()
     }
     /// The residue of a small signed integer.
-    fn from_i64(&self, x: i64) -> Self::E {
-        self.from_big(&BigInt::from(x))
+    fn elem_i64(&self, x: i64) -> Self::E {
+        self.elem_big(&BigInt::from(x))
     }
     /// `a^e mod m` for `e ≥ 0`, left-to-right binary powering.
     fn pow(&self, a: &Self::E, e: &BigUint) -> Self::E {
@@ -214,7 +214,7 @@ impl<const N: usize> Mont<N> {
 
     /// The plain residue of a Montgomery form.
     #[inline]
-    pub(crate) fn from_mont(&self, x: &[u64; N]) -> [u64; N] {
+    pub(crate) fn out_of_mont(&self, x: &[u64; N]) -> [u64; N] {
         let mut one = [0u64; N];
         one[0] = 1;
         self.redc_mul(x, &one)
@@ -267,7 +267,7 @@ impl<const N: usize> Ring for Mont<N> {
         r
     }
 
-    fn from_big(&self, x: &BigInt) -> [u64; N] {
+    fn elem_big(&self, x: &BigInt) -> [u64; N] {
         let m = self.modulus();
         let r = x.mod_floor(&m);
         let digits = r.magnitude().to_u64_digits();
@@ -276,7 +276,7 @@ impl<const N: usize> Ring for Mont<N> {
         self.to_mont(&limbs)
     }
 
-    fn from_i64(&self, x: i64) -> [u64; N] {
+    fn elem_i64(&self, x: i64) -> [u64; N] {
         if N == 1 {
             let m = self.m[0];
             let r = if x >= 0 {
@@ -293,11 +293,11 @@ impl<const N: usize> Ring for Mont<N> {
             limbs[0] = r;
             return self.to_mont(&limbs);
         }
-        self.from_big(&BigInt::from(x))
+        self.elem_big(&BigInt::from(x))
     }
 
     fn to_big(&self, a: &[u64; N]) -> BigInt {
-        let plain = self.from_mont(a);
+        let plain = self.out_of_mont(a);
         BigInt::from_biguint(Sign::Plus, BigUint::from_slice(&u64s_to_u32s(&plain)))
     }
 
@@ -365,7 +365,7 @@ impl Ring for BigRing {
             a >> 1u32
         }
     }
-    fn from_big(&self, x: &BigInt) -> BigInt {
+    fn elem_big(&self, x: &BigInt) -> BigInt {
         x.mod_floor(&self.m)
     }
     fn to_big(&self, a: &BigInt) -> BigInt {
@@ -426,7 +426,7 @@ mod tests {
 
     fn check_ring<R: Ring>(r: &R, a: i64, b: i64) {
         let m = r.modulus();
-        let (x, y) = (r.from_i64(a), r.from_i64(b));
+        let (x, y) = (r.elem_i64(a), r.elem_i64(b));
         let big = |v: i64| BigInt::from(v);
         assert_eq!(r.to_big(&r.mul(&x, &y)), (big(a) * big(b)).mod_floor(&m));
         assert_eq!(r.to_big(&r.add(&x, &y)), (big(a) + big(b)).mod_floor(&m));

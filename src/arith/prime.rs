@@ -2,7 +2,7 @@
 //!
 //! * `n < 2^64`: Miller–Rabin to a fixed set of bases that is known to
 //!   admit no strong pseudoprime below `2^64` — the answer is a proof.
-//! * `n ≥ 2^64`: the Baillie–PSW test [BaillieWagstaff80, PomeranceSW80]:
+//! * `n ≥ 2^64`: the Baillie–PSW test \[BaillieWagstaff80, PomeranceSW80\]:
 //!   a strong Fermat test to base 2 followed by a strong Lucas test with
 //!   Selfridge's parameters. No composite passing it is known; it is
 //!   deterministic (no random bases) but is not a proof of primality.
@@ -27,7 +27,7 @@ const U64_BASES: [u64; 7] = [2, 325, 9375, 28178, 450775, 9780504, 1795265022];
 /// True iff `n` is prime, for `n < 2^64`; the answer is exact.
 ///
 /// Method: trial division by the primes below 100; then the strong
-/// probable-prime (Miller–Rabin) test [Riesel94, ch. 4] with bases
+/// probable-prime (Miller–Rabin) test \[Riesel94, ch. 4\] with bases
 /// `{2, 325, 9375, 28178, 450775, 9780504, 1795265022}` (J. Sinclair; no
 /// strong pseudoprime below `2^64` passes all of them). A base that is
 /// `≡ 0 mod n` is skipped, as it carries no information.
@@ -59,14 +59,14 @@ pub fn is_prime_u64(n: u64) -> bool {
     U64_BASES
         .iter()
         .filter(|&&a| a % n != 0)
-        .all(|&a| strong_probable_prime_ring(&ring, &ring.from_i64((a % n) as i64), &d, s))
+        .all(|&a| strong_probable_prime_ring(&ring, &ring.elem_i64((a % n) as i64), &d, s))
 }
 
 /// True iff `n` is prime. Negative numbers, 0 and 1 are not prime.
 ///
 /// Method: `n < 2^64` goes to [`is_prime_u64`] (exact). Larger `n`:
 /// trial division by the primes below 100, then Baillie–PSW
-/// [BaillieWagstaff80, PomeranceSW80]: `n` must be a strong probable prime
+/// \[BaillieWagstaff80, PomeranceSW80\]: `n` must be a strong probable prime
 /// to base 2 and a strong Lucas probable prime for Selfridge's parameters
 /// (`D` the first of `5, −7, 9, −11, …` with Jacobi symbol `(D/n) = −1`,
 /// `P = 1`, `Q = (1 − D)/4`). No composite is known to pass; the test is
@@ -106,7 +106,7 @@ fn bpsw(n: &BigUint) -> bool {
         let nm1 = n - 1u32;
         let s = nm1.trailing_zeros().unwrap_or(0);
         let d = &nm1 >> s;
-        let two = ring.from_i64(2);
+        let two = ring.elem_i64(2);
         strong_probable_prime_ring(&ring, &two, &d, s as u32) && strong_lucas_selfridge(&ring, n)
     })
     .unwrap_or(false)
@@ -133,7 +133,7 @@ pub(crate) fn strong_probable_prime_ring<R: Ring>(ring: &R, a: &R::E, d: &BigUin
     false
 }
 
-/// The Jacobi symbol `(a/n)` for odd `n > 0` [Cohen93, Alg. 1.4.10].
+/// The Jacobi symbol `(a/n)` for odd `n > 0` \[Cohen93, Alg. 1.4.10\].
 pub fn jacobi(a: &BigInt, n: &BigInt) -> i32 {
     let mut a = a.mod_floor(n);
     let mut n = n.clone();
@@ -160,7 +160,7 @@ pub fn jacobi(a: &BigInt, n: &BigInt) -> i32 {
 }
 
 /// Strong Lucas probable-prime test with Selfridge's method A parameters
-/// [BaillieWagstaff80, §4]; `n` odd, not a perfect square is checked here.
+/// \[BaillieWagstaff80, §4\]; `n` odd, not a perfect square is checked here.
 fn strong_lucas_selfridge<R: Ring>(ring: &R, n: &BigUint) -> bool {
     let nb = BigInt::from(n.clone());
     // A perfect square has no D with (D/n) = -1: reject it first.
@@ -183,8 +183,8 @@ fn strong_lucas_selfridge<R: Ring>(ring: &R, n: &BigUint) -> bool {
     }
     let p = ring.one();
     let q_int = (1 - dd) / 4;
-    let q = ring.from_i64(q_int);
-    let d_el = ring.from_i64(dd);
+    let q = ring.elem_i64(q_int);
+    let d_el = ring.elem_i64(dd);
     // n + 1 = k·2^s with k odd.
     let np1 = n + 1u32;
     let s = np1.trailing_zeros().unwrap_or(0);
@@ -231,7 +231,7 @@ pub fn is_strong_lucas_probable_prime(n: &BigInt) -> bool {
 }
 
 /// True iff odd `n > 2` is a strong probable prime to base `a`
-/// (Miller–Rabin round) [Riesel94, ch. 4]; `false` for even `n` or `n < 3`.
+/// (Miller–Rabin round) \[Riesel94, ch. 4\]; `false` for even `n` or `n < 3`.
 /// A prime always passes; a base `≡ 0 mod n` counts as a pass.
 pub fn is_strong_probable_prime(n: &BigInt, a: &BigInt) -> bool {
     if n < &BigInt::from(3) || n.is_even() {
@@ -242,7 +242,7 @@ pub fn is_strong_probable_prime(n: &BigInt, a: &BigInt) -> bool {
     let s = nm1.trailing_zeros().unwrap_or(0);
     let d = &nm1 >> s;
     with_ring!(mag, |ring| {
-        let base = ring.from_big(a);
+        let base = ring.elem_big(a);
         ring.is_zero(&base) || strong_probable_prime_ring(&ring, &base, &d, s as u32)
     })
     .unwrap_or(false)
@@ -335,7 +335,7 @@ mod tests {
 
     #[test]
     fn the_jacobi_symbol_matches_euler_criterion_for_small_primes() {
-        // Euler's criterion: (a/p) = a^((p-1)/2) mod p [Cohen93, Prop. 1.4.6].
+        // Euler's criterion: (a/p) = a^((p-1)/2) mod p \[Cohen93, Prop. 1.4.6\].
         for p in [3i64, 5, 7, 11, 13, 101] {
             for a in -20i64..20 {
                 let e = BigInt::from(a).modpow(&BigInt::from((p - 1) / 2), &BigInt::from(p));
@@ -357,7 +357,7 @@ mod tests {
 
     #[test]
     fn the_prime_table_counts_the_primes_below_ten_thousand() {
-        // pi(10^4) = 1229 [Riesel94, Table 1].
+        // pi(10^4) = 1229 \[Riesel94, Table 1\].
         let t = prime_table(10_000);
         assert_eq!(t.primes_in(1, 10_000).count(), 1229);
     }

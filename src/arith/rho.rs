@@ -20,7 +20,7 @@ pub(crate) enum Split {
 /// Number of iterations between two gcds (Brent's product trick).
 const BATCH: u64 = 128;
 
-/// Pollard–Brent rho [Brent80] on the ring's (odd, composite) modulus `n`
+/// Pollard–Brent rho \[Brent80\] on the ring's (odd, composite) modulus `n`
 /// with the map `x ↦ x² + c` (in Montgomery form: still a polynomial map
 /// of degree 2 mod every prime factor) from the start `x₀ = 2`.
 ///
@@ -35,9 +35,9 @@ pub(crate) fn pollard_brent<R: Ring>(
     budget: &mut Budget,
 ) -> Split {
     let n = ring.modulus();
-    let cc = ring.from_i64(c);
+    let cc = ring.elem_i64(c);
     let f = |x: &R::E| ring.add(&ring.sqr(x), &cc);
-    let mut y = ring.from_i64(2);
+    let mut y = ring.elem_i64(2);
     let mut x = y.clone();
     let mut q = ring.one();
     let mut ys = y.clone();

@@ -10,7 +10,7 @@ use num_traits::{One, Signed, Zero};
 ///
 /// Method: Newton's iteration on integers (as implemented by
 /// `num-integer`'s `Roots`), which converges to `⌊√n⌋` from above
-/// [Cohen93, Alg. 1.7.1].
+/// \[Cohen93, Alg. 1.7.1\].
 ///
 /// Errors: [`Error::NotPositive`] for `n < 0` (the message names the value).
 ///
@@ -183,7 +183,7 @@ pub(crate) fn isqrt_u64(n: u64) -> u64 {
     while r.checked_mul(r).map_or(true, |s| s > n) {
         r -= 1;
     }
-    while (r + 1).checked_mul(r + 1).map_or(false, |s| s <= n) {
+    while (r + 1).checked_mul(r + 1).is_some_and(|s| s <= n) {
         r += 1;
     }
     r

@@ -139,8 +139,13 @@ enum Kind {
         from: i64,
         to: i64,
     },
-    Congruent { from: u64, to: u64 },
-    Pairs { bound: i64 },
+    Congruent {
+        from: u64,
+        to: u64,
+    },
+    Pairs {
+        bound: i64,
+    },
 }
 
 /// A family of curves with a rational point of order 2, enumerated in a

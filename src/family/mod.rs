@@ -6,7 +6,7 @@
 //! * [`Family`] enumerates the members of a family in a fixed order,
 //!   lazily ([`Family::members`]); the member's index in that order is the
 //!   key everything else uses.
-//! * [`scan`] runs [`crate::descent::json_for_line`] on each member and
+//! * [`scan()`](fn@scan) runs [`crate::descent::json_for_line`] on each member and
 //!   hands the [`ScanRecord`]s back in family order, with memory bounded
 //!   independently of the family size; with the `parallel` feature on a
 //!   rayon pool (see [`scan`](mod@scan) for how order is kept).

@@ -161,7 +161,6 @@ pub struct ScanOptions {
     pub window: usize,
 }
 
-
 impl ScanOptions {
     /// Defaults with `threads` worker threads.
     pub fn with_threads(mut self, threads: usize) -> Self {

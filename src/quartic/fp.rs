@@ -374,11 +374,6 @@ impl WordPoly {
         &self.c[..self.len]
     }
 
-    /// Number of coefficients (degree + 1; `0` for the zero polynomial).
-    pub(crate) fn len(&self) -> usize {
-        self.len
-    }
-
     fn lead(&self) -> u64 {
         self.c[self.len - 1]
     }
@@ -671,4 +666,138 @@ mod tests {
         let quad = reduce(&[1, 2, 1].map(BigInt::from), &p);
         assert_eq!(constant_times_square(&quad, &p), Some(BigInt::one()));
     }
+
+    // ------------------------------------------------ word vs BigInt paths
+
+    use proptest::prelude::*;
+
+    /// Odd primes on both sides of 2^32 and up to the word limit (primality
+    /// checked with sympy 1.14 `isprime`; `2^61 − 1` is a Mersenne prime,
+    /// `9223372036854775783` is sympy's `prevprime(2^63)`).
+    const PRIMES: [u64; 9] = [
+        67,
+        101,
+        257,
+        65_537,
+        1_000_000_007,
+        4_294_967_311,
+        1_000_000_000_039,
+        (1 << 61) - 1,
+        9_223_372_036_854_775_783,
+    ];
+
+    fn to_big(a: &[u64]) -> FpPoly {
+        trim(a.iter().map(|&c| BigInt::from(c)).collect())
+    }
+
+    /// `lc·∏(x − ρᵢ)·tail`, reduced mod p (degree ≤ 4), so that random
+    /// inputs have roots in `F_p` and square factors often enough.
+    fn planted(p: u64, lc: u64, rho: &[u64], tail: &[u64]) -> Vec<u64> {
+        let f = WordField::new(p);
+        let mut acc = WordPoly::from_slice(&[lc % p]);
+        for &r in rho {
+            acc = wmul(&acc, &WordPoly::from_slice(&[f.sub(0, r % p), 1]), f);
+        }
+        let t: Vec<u64> = tail.iter().map(|&c| c % p).collect();
+        acc = wmul(&acc, &WordPoly::from_slice(&t), f);
+        acc.coeffs().to_vec()
+    }
+
+    proptest! {
+        #![proptest_config(ProptestConfig { cases: 300, ..ProptestConfig::default() })]
+
+        #[test]
+        fn word_and_bigint_root_finding_agree_on_random_polynomials(
+            pi in 0usize..PRIMES.len(),
+            coeffs in proptest::collection::vec(any::<u64>(), 1..=5),
+        ) {
+            let p = PRIMES[pi];
+            let red: Vec<u64> = coeffs.iter().map(|&c| c % p).collect();
+            let w = WordPoly::from_slice(&red);
+            prop_assume!(w.len > 0);
+            let f = WordField::new(p);
+            let got = roots_word(&w, f, &mut Budget::unlimited()).unwrap();
+            let want = roots(&to_big(&red), &BigInt::from(p), &mut Budget::unlimited()).unwrap();
+            prop_assert_eq!(got.into_iter().map(BigInt::from).collect::<Vec<_>>(), want);
+        }
+
+        #[test]
+        fn word_and_bigint_paths_agree_on_planted_roots_and_squares(
+            pi in 0usize..PRIMES.len(),
+            lc in 1u64..u64::MAX,
+            rho in proptest::collection::vec(any::<u64>(), 0..=4),
+            tail in proptest::collection::vec(any::<u64>(), 1..=2),
+            square in any::<bool>(),
+        ) {
+            let p = PRIMES[pi];
+            prop_assume!(lc % p != 0);
+            let f = WordField::new(p);
+            let red = if square {
+                // lc·h² with h of degree ≤ 2
+                let h = planted(p, 1, &rho[..rho.len().min(2)], &tail[..1]);
+                let h = WordPoly::from_slice(&h);
+                let sq = wmul(&h, &h, f);
+                wmul(&WordPoly::from_slice(&[lc % p]), &sq, f).coeffs().to_vec()
+            } else {
+                let k = rho.len().min(5 - tail.len());
+                planted(p, lc, &rho[..k], &tail)
+            };
+            let w = WordPoly::from_slice(&red);
+            prop_assume!(w.len > 0);
+            let pb = BigInt::from(p);
+            let big = to_big(&red);
+            let got = roots_word(&w, f, &mut Budget::unlimited()).unwrap();
+            let want = roots(&big, &pb, &mut Budget::unlimited()).unwrap();
+            prop_assert_eq!(got.iter().map(|&r| BigInt::from(r)).collect::<Vec<_>>(), want);
+            for &r in &got {
+                prop_assert_eq!(f.eval(&w, r), 0);
+            }
+            prop_assert_eq!(
+                constant_times_square_word(&w, f).map(BigInt::from),
+                constant_times_square(&big, &pb)
+            );
+            if square {
+                prop_assert!(constant_times_square_word(&w, f).is_some());
+            }
+            for r in [0u64, 1, 2, p - 1] {
+                prop_assert_eq!(BigInt::from(f.eval(&w, r)), eval(&big, &BigInt::from(r), &pb));
+            }
+        }
+
+        #[test]
+        fn machine_word_square_roots_square_back_and_match_legendre(
+            pi in 0usize..PRIMES.len(),
+            a in any::<u64>(),
+        ) {
+            let p = PRIMES[pi];
+            let f = WordField::new(p);
+            let a = a % p;
+            let big_symbol = crate::local::legendre(
+                &BigInt::from(a),
+                &crate::local::Prime::new(BigInt::from(p)).unwrap(),
+            ).unwrap();
+            match sqrt_word(a, f) {
+                Some(y) => {
+                    prop_assert_eq!(f.mul(y, y), a);
+                    prop_assert!(big_symbol >= 0);
+                }
+                None => prop_assert_eq!(big_symbol, -1),
+            }
+        }
+    }
+
+    #[test]
+    fn word_roots_of_a_split_quartic_are_found_at_the_largest_word_prime() {
+        // (x − 1)(x − 2)(x − 3)(x − (p − 1)) mod p = 9223372036854775783.
+        let p = PRIMES[8];
+        let phi = planted(p, 1, &[1, 2, 3, p - 1], &[1]);
+        let got = roots_word(
+            &WordPoly::from_slice(&phi),
+            WordField::new(p),
+            &mut Budget::unlimited(),
+        )
+        .unwrap();
+        assert_eq!(got, vec![1, 2, 3, p - 1]);
+    }
 }
+

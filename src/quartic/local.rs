@@ -16,7 +16,7 @@ use crate::error::{Error, Result};
 use crate::local::{split_valuation, sqrt_mod_prime_power, Place, Prime};
 use num_bigint::BigInt;
 use num_integer::Integer;
-use num_traits::{One, Signed, Zero};
+use num_traits::{One, Signed, ToPrimitive, Zero};
 use std::fmt;
 
 /// Extra `p`-adic digits of `y` beyond `v_p(g(x, z))` in a [`LocalPoint`].
@@ -269,8 +269,16 @@ fn finish(q: &Quartic, p: &Prime, w: Option<(BigInt, BigInt)>) -> Result<LocalSo
 /// Odd `p < 2^63`: `y₀ = √u mod p` by Tonelli–Shanks in machine words, then
 /// Newton–Hensel doubling [Cohen93, §1.5] `y ← y − (y² − u)·w`, with
 /// `w ≡ (2y)⁻¹` kept to the current precision by `w ← w(2 − 2y·w)`;
-/// finally `y·p^{v/2}`. Otherwise `crate::local::sqrt_mod_prime_power`.
+/// finally `y·p^{v/2}`. At `p = 2` with `precision − v ≤ 62`: the unit
+/// `u ≡ 1 (mod 8)` has a root lifted bit by bit in machine words (if
+/// `y² ≡ u mod 2^j`, `j ≥ 3`, then `y` or `y + 2^{j−1}` is a root mod
+/// `2^{j+1}` [Serre73, II.3.3]). Otherwise `crate::local::sqrt_mod_prime_power`.
 fn padic_sqrt(g: &BigInt, p: &Prime, precision: u32) -> Option<BigInt> {
+    if p.is_two() {
+        if let Some(y) = two_adic_sqrt_word(g, precision) {
+            return Some(y);
+        }
+    }
     let Some(pw) = p.to_u64().filter(|&v| v % 2 == 1 && v < fp::WORD_LIMIT) else {
         return sqrt_mod_prime_power(g, p, precision);
     };
@@ -297,3 +305,29 @@ fn padic_sqrt(g: &BigInt, p: &Prime, precision: u32) -> Option<BigInt> {
     }
     Some(y * num_traits::pow(pb.clone(), (v / 2) as usize))
 }
+
+/// The machine-word case of [`padic_sqrt`] at `p = 2`; `None` when it does
+/// not apply (or `g` is not a square to this precision), and the caller
+/// falls back to the general routine.
+fn two_adic_sqrt_word(g: &BigInt, precision: u32) -> Option<BigInt> {
+    let v = u32::try_from(g.trailing_zeros()?).ok()?;
+    if v % 2 == 1 || v >= precision || precision - v > 62 {
+        return None;
+    }
+    let k = precision - v;
+    let mask = (1u64 << k) - 1;
+    let u = ((g >> v) & BigInt::from(mask)).to_u64()?;
+    let need = if k >= 3 { 7 } else { (1 << k) - 1 };
+    if u & need != 1 & need {
+        return None;
+    }
+    let mut y: u64 = 1;
+    for j in 3..k {
+        let diff = (u128::from(y) * u128::from(y)).wrapping_sub(u128::from(u));
+        if diff & ((1u128 << (j + 1)) - 1) != 0 {
+            y += 1 << (j - 1);
+        }
+    }
+    Some(BigInt::from(y) << (v / 2))
+}
+

@@ -90,7 +90,7 @@ use crate::error::Result;
 use crate::local::{legendre, split_valuation, Prime};
 use num_bigint::BigInt;
 use num_integer::Integer;
-use num_traits::{One, ToPrimitive, Zero};
+use num_traits::{One, Signed, ToPrimitive, Zero};
 use std::collections::VecDeque;
 
 /// Odd primes below this bound are handled by looping over all residues
@@ -471,43 +471,95 @@ pub(crate) fn content_residues_word(
 /// Decides `C(Q_2) ≠ ∅` by Lemma T; returns a witness `(x, z)` (not both
 /// even) with `g(x, z)` a non-zero square in `Q_2`, or `None`.
 ///
+/// Lemma T needs only `m`, the parity and residue mod 4 of `a₀ = F₁(0)`,
+/// `μ` and the residue mod 8 of the unit part of `F(0)`; these are read
+/// off the binary digits of the coefficients (`v₂` = trailing zeros) without
+/// forming `F₁ = F/2^m`, and the subclasses use shifts instead of products.
+///
 /// Budget: one unit per class.
 pub(crate) fn two_adic_witness(
     q: &Quartic,
     budget: &mut Budget,
 ) -> Result<Option<(BigInt, BigInt)>> {
     const STAGE: &str = "local solubility at 2";
-    let two_p = Prime::two();
     let two = BigInt::from(2);
     let mut queue = initial_classes(q, &two);
     while let Some(class) = queue.pop_front() {
         fp::charge(budget, 1, STAGE)?;
-        let (m, f1) = content_split(&class.poly, &two_p);
-        let class = Class {
-            poly: strip_even_power(&class.poly, m, &two),
-            ..class
-        };
-        let f0 = &class.poly[0];
-        if !f0.is_zero() && is_nonzero_padic_square(f0, &two_p) {
-            return Ok(Some(class.witness(&BigInt::zero())));
+        let vals: Vec<Option<u64>> = class.poly.iter().map(|c| c.trailing_zeros()).collect();
+        let m = vals.iter().flatten().copied().min().unwrap_or(0);
+        // F(0) / 2^(2⌊m/2⌋) ≠ 0 a square in Q_2: v₂ even, unit ≡ 1 mod 8.
+        if let Some(v0) = vals[0] {
+            if v0 % 2 == 0 && unit_mod8(&class.poly[0], v0) == 1 {
+                return Ok(Some(class.witness(&BigInt::zero())));
+            }
         }
-        let a0 = &f1[0];
-        let mu = f1[1..]
-            .iter()
-            .filter_map(|c| split_valuation(c, &two_p).map(|(v, _)| v))
-            .min();
-        if a0.is_odd() && mu.map_or(true, |u| u >= 1) {
+        // a₀ = F(0)/2^m is odd iff v₂(F(0)) = m; μ = min_{i≥1} v₂(Fᵢ) − m.
+        let a0_odd = vals[0] == Some(m);
+        let mu = vals[1..].iter().flatten().min().map(|&v| v - m);
+        if a0_odd && mu.map_or(true, |u| u >= 1) {
             let mu = mu.unwrap_or(u64::MAX);
-            let a0_mod4 = a0.mod_floor(&BigInt::from(4)).to_u8().unwrap_or(0);
+            let a0_mod4 = unit_mod8(&class.poly[0], m) % 4;
             if m % 2 == 1 || mu >= 3 || (mu == 2 && a0_mod4 == 3) {
                 continue;
             }
         }
-        for r in [BigInt::zero(), BigInt::one()] {
-            queue.push_back(class.child(&r, &two));
+        let e = (m / 2) * 2;
+        let poly: Vec<BigInt> = class.poly.iter().map(|c| c >> e).collect();
+        for r in [false, true] {
+            queue.push_back(Class {
+                chart: class.chart,
+                base: if r {
+                    &class.base + &class.scale
+                } else {
+                    class.base.clone()
+                },
+                scale: &class.scale << 1u32,
+                poly: shift_scale_two(&poly, r),
+            });
         }
     }
     Ok(None)
+}
+
+/// `(c / 2^v) mod 8` for `c ≠ 0` with `2^v | c`, read from the binary
+/// digits of `|c|` (two's complement of the digits for `c < 0`).
+fn unit_mod8(c: &BigInt, v: u64) -> u8 {
+    let mag = c.magnitude();
+    let word = (v / 64) as usize;
+    let bit = v % 64;
+    let mut digits = mag.iter_u64_digits().skip(word);
+    let lo = digits.next().unwrap_or(0) >> bit;
+    let hi = if bit > 61 {
+        digits.next().unwrap_or(0) << (64 - bit)
+    } else {
+        0
+    };
+    let low3 = ((lo | hi) & 7) as u8;
+    if c.is_negative() {
+        (8 - low3) & 7
+    } else {
+        low3
+    }
+}
+
+/// `G(s) = F(r + 2s)` for `r ∈ {0, 1}`: Taylor shift by `r` (additions
+/// only), then coefficient `i` shifted left by `i` bits.
+fn shift_scale_two(f: &[BigInt], r: bool) -> Vec<BigInt> {
+    let mut c = f.to_vec();
+    let n = c.len();
+    if r {
+        for i in 0..n {
+            for j in (i..n.saturating_sub(1)).rev() {
+                let t = c[j + 1].clone();
+                c[j] += t;
+            }
+        }
+    }
+    for (i, ci) in c.iter_mut().enumerate() {
+        *ci <<= i;
+    }
+    c
 }
 
 /// `true` iff `n` is a non-zero square in `Q_p`; used by callers that want
@@ -521,4 +573,91 @@ pub(crate) fn val_u32(n: &BigInt, p: &Prime) -> u32 {
     split_valuation(n, p)
         .map(|(v, _)| v.min(u32::MAX as u64) as u32)
         .unwrap_or(0)
+}
+
+#[cfg(test)]
+#[allow(clippy::unwrap_used)]
+mod tests {
+    use super::*;
+    use proptest::prelude::*;
+
+    /// Small primes (enumeration) and large ones up to the word limit
+    /// (primality checked with sympy 1.14 `isprime`).
+    const PRIMES: [u64; 10] = [
+        3,
+        5,
+        7,
+        61,
+        67,
+        101,
+        65_537,
+        4_294_967_311,
+        (1 << 61) - 1,
+        9_223_372_036_854_775_783,
+    ];
+
+    proptest! {
+        #![proptest_config(ProptestConfig { cases: 400, ..ProptestConfig::default() })]
+
+        /// The machine-word and `BigInt` versions of one Lemma P step give
+        /// the same verdict (same witness residue, same refinement list) and
+        /// the same content valuation and residues.
+        #[test]
+        fn word_and_bigint_class_verdicts_agree(
+            pi in 0usize..PRIMES.len(),
+            base in proptest::collection::vec(any::<i64>(), 5),
+            vals in proptest::collection::vec(0u32..4, 5),
+            planted_root in any::<u64>(),
+            plant in any::<bool>(),
+            huge in any::<bool>(),
+        ) {
+            let p = PRIMES[pi];
+            let prime = Prime::new(BigInt::from(p)).unwrap();
+            let pb = BigInt::from(p);
+            // F_i = base_i·p^vals_i (optionally times 10^30 to leave i128),
+            // optionally shifted so that φ has the root planted_root.
+            let mut poly: Vec<BigInt> = base
+                .iter()
+                .zip(&vals)
+                .map(|(&c, &v)| BigInt::from(c) * num_traits::pow(pb.clone(), v as usize))
+                .collect();
+            if plant {
+                let r = BigInt::from(planted_root % p);
+                let at_r = fp::eval(&poly, &r, &pb);
+                poly[0] -= at_r;
+            }
+            if huge {
+                let big: BigInt = "1000000000000000000000000000001".parse().unwrap();
+                for c in poly.iter_mut() {
+                    *c *= &big;
+                }
+            }
+            prop_assume!(poly.iter().any(|c| !c.is_zero()));
+            let (m_big, f1) = content_split(&poly, &prime);
+            let f = fp::WordField::new(p);
+            let (m_word, phi) = content_residues_word(&poly, &prime, f);
+            prop_assert_eq!(m_word, m_big);
+            let reduced: Vec<u64> = f1.iter().map(|c| f.reduce(c)).collect();
+            prop_assert_eq!(phi, fp::WordPoly::from_slice(&reduced));
+            for even in [true, false] {
+                let w = class_verdict_word(&phi, even, f, &mut Budget::unlimited()).unwrap();
+                let b = class_verdict_big(&f1, even, &prime, &mut Budget::unlimited()).unwrap();
+                prop_assert_eq!(w, b);
+            }
+        }
+    }
+
+    #[test]
+    fn the_small_square_table_matches_eulers_criterion() {
+        // Euler's criterion [Serre73, I.3.2] (section from memory): r ≠ 0 is a square mod p iff
+        // r^((p−1)/2) ≡ 1.
+        for p in (3u64..64).step_by(2).filter(|&p| (2..p).all(|d| p % d != 0)) {
+            let f = fp::WordField::new(p);
+            for r in 1..p {
+                let euler = f.pow(r, (p - 1) / 2) == 1;
+                assert_eq!(SMALL_SQUARES[p as usize] >> r & 1 == 1, euler, "{r} mod {p}");
+            }
+            assert_eq!(SMALL_SQUARES[p as usize] & 1, 0);
+        }
+    }
 }
