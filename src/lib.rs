@@ -9,6 +9,7 @@
 //! The modules are layers; each uses only the ones above it in this list.
 #![forbid(unsafe_code)]
 #![warn(missing_docs, clippy::unwrap_used)]
+#![cfg_attr(test, allow(clippy::unwrap_used))]
 
 pub mod budget; // deterministic effort budgets (cross-cutting)
 pub mod error; // the crate's one error enum (cross-cutting)
