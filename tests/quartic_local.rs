@@ -342,3 +342,82 @@ fn an_exhausted_budget_is_reported_not_guessed() {
     let r = locally_soluble(&g, &place(3), &mut Budget::with_units(1));
     assert!(matches!(r, Err(Error::BudgetExhausted { .. })), "{r:?}");
 }
+
+#[test]
+fn the_hand_checked_families_come_out_the_same_at_word_size_primes_and_past_them() {
+    // Primes p ≡ 3 (mod 4) on both sides of 2^32, near 2^61 and 2^63, and
+    // just above 2^63 (where the machine-word route stops); primality and
+    // p % 4 checked with sympy 1.14 (`isprime`, `nextprime`).
+    for s in [
+        "1000000007",
+        "4294967311",
+        "2305843009213693951",
+        "9223372036854775783",
+        "9223372036854775907",
+    ] {
+        let p = big(s);
+        assert_eq!(&p % 4, BigInt::from(3));
+        let pl = Place::Finite(Prime::new(p.clone()).unwrap());
+        let z = BigInt::from(0);
+        let one = BigInt::from(1);
+        // p(x⁴ + z⁴): −1 is not a fourth power mod p, v_p = 1: insoluble.
+        let g = Quartic::new([p.clone(), z.clone(), z.clone(), z.clone(), p.clone()]).unwrap();
+        assert!(!soluble_with_valid_point(&g, &pl), "p(x⁴ + z⁴) at {p}");
+        // −x⁴ + p z⁴: −1 a non-residue, and p | x gives v_p = 1: insoluble.
+        let g = Quartic::new([-one.clone(), z.clone(), z.clone(), z.clone(), p.clone()]).unwrap();
+        assert!(!soluble_with_valid_point(&g, &pl), "−x⁴ + pz⁴ at {p}");
+        // −x⁴ + p²z⁴: (p, 1) gives p²(1 − p²), a square: soluble.
+        let g = Quartic::new([-one.clone(), z.clone(), z.clone(), z.clone(), &p * &p]).unwrap();
+        assert!(soluble_with_valid_point(&g, &pl), "−x⁴ + p²z⁴ at {p}");
+        // Good reduction ⇒ soluble (Hasse–Weil + Hensel) [Silverman09, V.1.1].
+        let g = q([-7, 3, -5, 2, -11]);
+        assert_ne!(g.discriminant() % &p, BigInt::from(0));
+        assert!(soluble_with_valid_point(&g, &pl), "good reduction at {p}");
+    }
+}
+
+#[test]
+fn witnesses_of_high_valuation_carry_square_roots_that_check_out() {
+    // g = p^(2k)·(u x⁴ + p z⁴) with u a non-zero square (mod 8 at 2): the
+    // witness value has valuation ≥ 2k, and y must satisfy
+    // y² ≡ g(x, z) mod p^(v + 8); `verify` re-checks it independently.
+    for (p, u) in [(2u64, 9i64), (3, 4), (5, 4), (61, 4), (1_000_000_007, 4)] {
+        let pb = BigInt::from(p);
+        let pl = place(p);
+        for k in [1usize, 5, 12] {
+            let s = num_traits::pow(pb.clone(), 2 * k);
+            let z = BigInt::from(0);
+            let g = Quartic::new([&s * u, z.clone(), z.clone(), z, &s * &pb]).unwrap();
+            let ans = locally_soluble(&g, &pl, &mut Budget::unlimited()).unwrap();
+            let pt = ans.point().expect("soluble: g(1, 0) is a square");
+            assert!(pt.verify(&g), "{pt} for {g}");
+            assert!(pt.precision() >= 2 * k as u32 + 8);
+        }
+    }
+}
+
+#[test]
+fn the_two_isogeny_space_discriminant_is_the_symbolic_formula() {
+    // Δ = 16·d₁¹²·b·(a² − 4b)² with d₁ = d/gcd(d, b) (sympy 1.14
+    // `discriminant` of the integral form, symbolically); the constructor
+    // relies on it instead of recomputing I and J.
+    use num_integer::Integer;
+    for d in [-30i64, -7, -2, -1, 1, 2, 3, 6, 10, 35] {
+        for a in -4i64..=4 {
+            for b in [-36i64, -12, -5, -1, 1, 2, 5, 9, 18, 20] {
+                if b * (a * a - 4 * b) == 0 {
+                    continue;
+                }
+                let (db, ab, bb) = (BigInt::from(d), BigInt::from(a), BigInt::from(b));
+                let sp = Quartic::two_isogeny_space(&db, &ab, &bb).unwrap();
+                let d1 = &db / db.gcd(&bb);
+                let want = BigInt::from(16)
+                    * num_traits::pow(d1, 12)
+                    * &bb
+                    * num_traits::pow(&ab * &ab - BigInt::from(4) * &bb, 2);
+                assert_eq!(sp.discriminant(), want, "d = {d}, a = {a}, b = {b}");
+                assert_eq!(Quartic::new(sp.coeffs().clone()).unwrap(), sp);
+            }
+        }
+    }
+}

@@ -21,8 +21,15 @@ struct Pt<E> {
     z: E,
 }
 
-/// The giant-step width `D = 2·3·5·7·11` of stage 2.
-const D: u64 = 2310;
+/// The giant-step width of stage 2: `2·3·5·7·11` for long stage 2 ranges,
+/// `2·3·5·7` for short ones (fewer baby steps).
+fn giant_width(b2: u64) -> u64 {
+    if b2 < 200_000 {
+        210
+    } else {
+        2310
+    }
+}
 
 /// One curve's parameters: the ring and `(A + 2)/4`.
 struct Curve<'a, R: Ring> {
@@ -131,8 +138,9 @@ pub(crate) fn ecm_curve<R: Ring>(
         z: ring.elem_big(&v3),
     };
 
+    let d_width = giant_width(b2);
     // Stage 1.
-    let table = prime_table(b2 + D);
+    let table = prime_table(b2 + d_width);
     for p in table.primes_in(2, b1) {
         let mut pk = p;
         while pk <= b1 / p {
@@ -151,8 +159,8 @@ pub(crate) fn ecm_curve<R: Ring>(
         return Split::Failed;
     }
 
-    // Stage 2, baby steps: jQ for odd j < D/2, normalised for gcd(j, D) = 1.
-    let half = (D / 2) as usize;
+    // Stage 2, baby steps: jQ for odd j < d_width/2, normalised for gcd(j, D) = 1.
+    let half = (d_width / 2) as usize;
     let mut multiples: Vec<Option<Pt<R::E>>> = vec![None; half + 1];
     let q2 = curve.dbl(&q);
     multiples[1] = Some(q.clone());
@@ -160,7 +168,7 @@ pub(crate) fn ecm_curve<R: Ring>(
     let mut cur = curve.add(&q2, &q, &q); // 3Q
     let mut j = 3usize;
     while j < half {
-        if j.gcd(&(D as usize)) == 1 {
+        if j.gcd(&(d_width as usize)) == 1 {
             multiples[j] = Some(cur.clone());
         }
         let next = curve.add(&cur, &q2, &prev);
@@ -190,11 +198,11 @@ pub(crate) fn ecm_curve<R: Ring>(
     }
 
     // Giant steps R_k = kD·Q for k = k0, k0+1, …
-    let k0 = (b1 / D).max(1);
-    let kmax = b2 / D + 1;
-    let dq = curve.mul(D, &q);
-    let mut r_prev = curve.mul((k0 - 1).max(1) * D, &q);
-    let mut r = curve.mul(k0 * D, &q);
+    let k0 = (b1 / d_width).max(1);
+    let kmax = b2 / d_width + 1;
+    let dq = curve.mul(d_width, &q);
+    let mut r_prev = curve.mul((k0 - 1).max(1) * d_width, &q);
+    let mut r = curve.mul(k0 * d_width, &q);
     if k0 == 1 {
         // R_0 is the point at infinity; use the doubling for the first step.
         r_prev = Pt {
@@ -204,7 +212,7 @@ pub(crate) fn ecm_curve<R: Ring>(
     }
     let mut acc = ring.one();
     for k in k0..=kmax {
-        let base = k * D;
+        let base = k * d_width;
         let mut pairs = 0u64;
         for (idx, &j) in js.iter().enumerate() {
             let j = j as u64;
@@ -263,7 +271,9 @@ fn batch_invert<R: Ring>(ring: &R, xs: &[R::E], n: &BigInt) -> Result<Vec<R::E>,
 /// optimal-parameter table of \[Zimmermann-Dodson06, Table 1\]; curve counts
 /// raised for our simpler stage 2 with `B2 = 50·B1`). The last tier repeats
 /// until the budget runs out.
-pub(crate) const SCHEDULE: [(u64, u32); 6] = [
+pub(crate) const SCHEDULE: [(u64, u32); 8] = [
+    (150, 10),
+    (500, 15),
     (2_000, 30),
     (11_000, 110),
     (50_000, 350),
@@ -278,8 +288,15 @@ pub(crate) const B2_FACTOR: u64 = 50;
 /// Runs ECM curves along [`SCHEDULE`] (Suyama parameters `σ = 11, 12, …`)
 /// until one splits `n` or the budget runs out.
 pub(crate) fn ecm<R: Ring>(ring: &R, budget: &mut Budget) -> Split {
+    ecm_tiers(ring, &SCHEDULE, budget)
+}
+
+/// Runs ECM curves along the given `(B1, curves)` tiers (Suyama parameters
+/// `σ = 11, 12, …`, `B2 = 50·B1`) until one splits `n`, the tiers end
+/// ([`Split::Failed`]) or the budget runs out.
+pub(crate) fn ecm_tiers<R: Ring>(ring: &R, tiers: &[(u64, u32)], budget: &mut Budget) -> Split {
     let mut sigma = 11u64;
-    for &(b1, curves) in SCHEDULE.iter() {
+    for &(b1, curves) in tiers.iter() {
         for _ in 0..curves {
             match ecm_curve(ring, sigma, b1, b1 * B2_FACTOR, budget) {
                 Split::Failed => {}

@@ -1,6 +1,7 @@
 //! Integer factorisation with an effort budget.
 
-use super::ecm::ecm;
+use super::ecm::{ecm, ecm_tiers};
+use super::siqs;
 use super::mont::{with_ring, Ring};
 use super::prime::{is_prime, is_prime_u64, prime_table};
 use super::rho::{pollard_brent, rho_u64, Split};
@@ -83,8 +84,12 @@ impl Factorization {
 /// Primes below this bound are removed by trial division.
 const TRIAL_BOUND: u64 = 1 << 12;
 
-/// Rho iterations tried before ECM on a cofactor of more than 64 bits.
+/// Rho iterations tried before ECM on a cofactor too large for the sieve.
 const RHO_ITERATIONS: u64 = 1 << 14;
+
+/// Rho iterations tried before the sieve (finds factors of up to about
+/// 7 digits).
+const PRESIEVE_RHO_ITERATIONS: u64 = 1 << 11;
 
 /// The factorisation of a nonzero integer `n`.
 ///
@@ -224,8 +229,41 @@ fn exhausted(found: BTreeMap<BigInt, u32>, rest: Vec<(BigInt, u32)>) -> Error {
 
 /// A proper divisor of the odd composite `c > 2^64` that is not a perfect
 /// power and has no prime factor below [`TRIAL_BOUND`].
+///
+/// Up to [`siqs::MAX_BITS`] bits: a short rho run and a few small ECM
+/// curves (cheap next to the sieve, they catch factors of up to about 12
+/// digits), then the quadratic sieve, whose cost depends only on the size
+/// of `c`. Beyond, or if the sieve fails: rho and the full ECM schedule.
 fn split_big(c: &BigUint, budget: &mut Budget) -> Split {
+    let bits = c.bits();
+    if bits <= siqs::MAX_BITS {
+        let pre = with_ring!(c, |ring| presieve_in(&ring, bits, budget)).unwrap_or(Split::Failed);
+        if pre != Split::Failed {
+            return pre;
+        }
+        match siqs::siqs(c, budget) {
+            Split::Failed => {}
+            other => return other,
+        }
+    }
     with_ring!(c, |ring| split_in(&ring, budget)).unwrap_or(Split::Failed)
+}
+
+/// ECM tiers `(B1, curves)` tried before the sieve on a cofactor of more
+/// than 100 bits, and on one of more than 115 bits.
+const PRESIEVE_ECM: [(u64, u32); 2] = [(150, 8), (500, 12)];
+
+fn presieve_in<R: Ring>(ring: &R, bits: u64, budget: &mut Budget) -> Split {
+    match pollard_brent(ring, 1, PRESIEVE_RHO_ITERATIONS, budget) {
+        Split::Failed => {}
+        other => return other,
+    }
+    let tiers: &[(u64, u32)] = match bits {
+        0..=100 => &[],
+        101..=115 => &PRESIEVE_ECM[..1],
+        _ => &PRESIEVE_ECM[..],
+    };
+    ecm_tiers(ring, tiers, budget)
 }
 
 fn split_in<R: Ring>(ring: &R, budget: &mut Budget) -> Split {

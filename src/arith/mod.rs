@@ -13,6 +13,7 @@ pub mod factor;
 pub(crate) mod mont;
 pub mod prime;
 pub(crate) mod rho;
+pub(crate) mod siqs;
 pub mod roots;
 pub mod squarefree;
 

@@ -66,7 +66,14 @@ impl TwoIsogeny {
 
     /// The isogeny from a reduced model (its T = (0, 0) is the kernel).
     pub fn from_model(m: &TwoTorsionModel) -> Result<TwoIsogeny> {
-        TwoIsogeny::new(m.a.clone(), m.b.clone())
+        let (a2, b2) = codomain_ab(&m.a, &m.b);
+        let codomain = ab_curve(&a2, &b2)?;
+        Ok(TwoIsogeny {
+            a: m.a.clone(),
+            b: m.b.clone(),
+            domain: m.curve().clone(),
+            codomain,
+        })
     }
 
     /// (a, b) of the domain E.

@@ -140,23 +140,43 @@ impl ModelChange {
 
     /// The new model E′ (Table 3.1 of [Sil09, III.1]; module docs).
     pub fn apply_to_curve(&self, e: &Curve) -> Curve {
-        let [a1, a2, a3, a4, a6] = e.coefficients();
         let (u, r, s, t) = (&self.u, &self.r, &self.s, &self.t);
-        let two = BigRational::from_integer(BigInt::from(2));
-        let three = BigRational::from_integer(BigInt::from(3));
-        let ui = u.recip();
-        let ui2 = &ui * &ui;
-        let ui3 = &ui2 * &ui;
-        let ui4 = &ui2 * &ui2;
-        let ui6 = &ui3 * &ui3;
-        let na1 = (a1 + &two * s) * &ui;
-        let na2 = (a2 - s * a1 + &three * r - s * s) * &ui2;
-        let na3 = (a3 + r * a1 + &two * t) * &ui3;
-        let na4 =
-            (a4 - s * a3 + &two * r * a2 - (t + r * s) * a1 + &three * r * r - &two * s * t) * &ui4;
-        let na6 = (a6 + r * a4 + r * r * a2 + r * r * r - t * a3 - t * t - r * t * a1) * &ui6;
-        let coeffs = [na1, na2, na3, na4, na6];
-        match Curve::new(coeffs.clone()) {
+        let coeffs = match e.integer_coefficients() {
+            Some(a) if r.is_integer() && s.is_integer() && t.is_integer() => {
+                // Numerators in Z, then one division by u^i each.
+                let nums = table_3_1(a, [r.numer(), s.numer(), t.numer()]);
+                if u.is_one() {
+                    nums.map(BigRational::from_integer)
+                } else {
+                    let mut i = 0;
+                    nums.map(|n| {
+                        let w = [1u32, 2, 3, 4, 6][i];
+                        i += 1;
+                        BigRational::new(n * u.denom().pow(w), u.numer().pow(w))
+                    })
+                }
+            }
+            _ => {
+                let [a1, a2, a3, a4, a6] = e.coefficients();
+                let two = BigRational::from_integer(BigInt::from(2));
+                let three = BigRational::from_integer(BigInt::from(3));
+                let ui = u.recip();
+                let ui2 = &ui * &ui;
+                let ui3 = &ui2 * &ui;
+                let ui4 = &ui2 * &ui2;
+                let ui6 = &ui3 * &ui3;
+                let na1 = (a1 + &two * s) * &ui;
+                let na2 = (a2 - s * a1 + &three * r - s * s) * &ui2;
+                let na3 = (a3 + r * a1 + &two * t) * &ui3;
+                let na4 = (a4 - s * a3 + &two * r * a2 - (t + r * s) * a1 + &three * r * r
+                    - &two * s * t)
+                    * &ui4;
+                let na6 =
+                    (a6 + r * a4 + r * r * a2 + r * r * r - t * a3 - t * t - r * t * a1) * &ui6;
+                [na1, na2, na3, na4, na6]
+            }
+        };
+        match Curve::new(coeffs) {
             Ok(c) => c,
             // Δ′ = u⁻¹²Δ ≠ 0, so this branch is unreachable; return the
             // input rather than panic.
@@ -170,10 +190,21 @@ impl ModelChange {
         match p {
             Point::Infinity => Point::Infinity,
             Point::Affine { x, y } => {
+                let dx = if self.r.is_zero() { x.clone() } else { x - &self.r };
+                let mut ny = if self.s.is_zero() {
+                    y.clone()
+                } else {
+                    y - &self.s * &dx
+                };
+                if !self.t.is_zero() {
+                    ny -= &self.t;
+                }
+                if self.u.is_one() {
+                    return Point::Affine { x: dx, y: ny };
+                }
                 let ui = self.u.recip();
                 let ui2 = &ui * &ui;
-                let dx = x - &self.r;
-                let ny = (y - &self.s * &dx - &self.t) * &ui2 * &ui;
+                let ny = ny * &ui2 * &ui;
                 Point::Affine { x: dx * ui2, y: ny }
             }
         }
@@ -185,15 +216,39 @@ impl ModelChange {
         match p {
             Point::Infinity => Point::Infinity,
             Point::Affine { x, y } => {
-                let u2 = &self.u * &self.u;
-                let u2x = &u2 * x;
-                Point::Affine {
-                    y: &u2 * &self.u * y + &self.s * &u2x + &self.t,
-                    x: u2x + &self.r,
+                let (u2x, u3y) = if self.u.is_one() {
+                    (x.clone(), y.clone())
+                } else {
+                    let u2 = &self.u * &self.u;
+                    (&u2 * x, &u2 * &self.u * y)
+                };
+                let mut ny = u3y;
+                if !self.s.is_zero() {
+                    ny += &self.s * &u2x;
                 }
+                if !self.t.is_zero() {
+                    ny += &self.t;
+                }
+                let nx = if self.r.is_zero() { u2x } else { u2x + &self.r };
+                Point::Affine { x: nx, y: ny }
             }
         }
     }
+}
+
+/// The right-hand sides u^i a_i′ of Table 3.1 (module docs), in integers.
+fn table_3_1(a: [&BigInt; 5], rst: [&BigInt; 3]) -> [BigInt; 5] {
+    let [a1, a2, a3, a4, a6] = a;
+    let [r, s, t] = rst;
+    let rs = r * s;
+    let r2 = r * r;
+    [
+        a1 + s * 2,
+        a2 - s * a1 + r * 3 - s * s,
+        a3 + r * a1 + t * 2,
+        a4 - s * a3 + r * a2 * 2 - (t + &rs) * a1 + &r2 * 3 - s * t * 2,
+        a6 + r * a4 + &r2 * a2 + &r2 * r - t * a3 - t * t - r * t * a1,
+    ]
 }
 
 /// The least common multiple of the denominators of some rationals.

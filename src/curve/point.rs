@@ -121,6 +121,24 @@ impl Curve {
         match p {
             Point::Infinity => true,
             Point::Affine { x, y } => {
+                if let Some([a1, a2, a3, a4, a6]) = self.integer_coefficients() {
+                    // Integral model: clear the denominators of x and y.
+                    // With x = xn/xd, y = yn/yd the equation times xd³yd²
+                    // reads yn·xd²·(yn·xd + a1·xn·yd + a3·xd·yd)
+                    //   = yd²·(((xn + a2·xd)·xn + a4·xd²)·xn + a6·xd³).
+                    let (xn, yn) = (x.numer(), y.numer());
+                    if x.is_integer() && y.is_integer() {
+                        let lhs = yn * (yn + a1 * xn + a3);
+                        let rhs = ((xn + a2) * xn + a4) * xn + a6;
+                        return lhs == rhs;
+                    }
+                    let (xd, yd) = (x.denom(), y.denom());
+                    let xd2 = xd * xd;
+                    let lhs = yn * &xd2 * (yn * xd + a1 * xn * yd + a3 * xd * yd);
+                    let rhs =
+                        yd * yd * (((xn + a2 * xd) * xn + a4 * &xd2) * xn + a6 * &xd2 * xd);
+                    return lhs == rhs;
+                }
                 let [a1, a2, a3, a4, a6] = self.coefficients();
                 let lhs = y * y + a1 * x * y + a3 * y;
                 let rhs = ((x + a2) * x + a4) * x + a6;

@@ -31,7 +31,8 @@
 use num_bigint::BigInt;
 use num_integer::Integer;
 use num_rational::BigRational;
-use num_traits::{One, Signed, Zero};
+use num_traits::{One, Signed, ToPrimitive, Zero};
+use std::sync::OnceLock;
 
 use super::model::{lcm_denominators, ModelChange};
 use super::point::Point;
@@ -58,45 +59,79 @@ pub fn short_integral_model(e: &Curve) -> (BigInt, BigInt, Curve, ModelChange) {
     let r = -e.b2() / rat(12);
     let s = -e.a1() / rat(2);
     let t = -(e.a1() * &r + e.a3()) / rat(2);
-    let u = BigRational::new(BigInt::one(), BigInt::from(6));
-    let mut change = match ModelChange::new(u, r, s, t) {
+    // A = −27c4, B = −54c6 [Sil09, III.1]; then clear denominators.
+    let a_q = e.c4() * rat(-27);
+    let b_q = e.c6() * rat(-54);
+    let d = lcm_denominators([&a_q, &b_q]);
+    let d2 = &d * &d;
+    let a = (a_q * BigRational::from_integer(&d2 * &d2)).to_integer();
+    let b = (b_q * BigRational::from_integer(&d2 * &d2 * &d2)).to_integer();
+    let u = BigRational::new(BigInt::one(), BigInt::from(6) * &d);
+    let change = match ModelChange::new(u, r, s, t) {
         Ok(c) => c,
-        Err(_) => ModelChange::identity(), // u = 1/6 ≠ 0: unreachable
+        Err(_) => ModelChange::identity(), // u = 1/(6d) ≠ 0: unreachable
     };
-    let mut short = change.apply_to_curve(e);
-    let d = lcm_denominators([short.a4(), short.a6()]);
-    if !d.is_one() {
-        if let Ok(sc) = ModelChange::scaling(BigRational::new(BigInt::one(), d)) {
-            short = sc.apply_to_curve(&short);
-            change = change.then(&sc);
-        }
-    }
-    let a = short.a4().to_integer();
-    let b = short.a6().to_integer();
+    let zero = BigRational::zero;
+    let short = match Curve::new([
+        zero(),
+        zero(),
+        zero(),
+        BigRational::from_integer(a.clone()),
+        BigRational::from_integer(b.clone()),
+    ]) {
+        Ok(c) => c,
+        Err(_) => change.apply_to_curve(e), // Δ′ = u⁻¹²Δ ≠ 0: unreachable
+    };
     (a, b, short, change)
 }
 
 /// The nonzero rational points of order 2 of E, in ascending order of x.
 ///
-/// Method: integer roots of x³ + Ax + B on the integral short model
-/// (module docs), mapped back. Exact; cost dominated by a few Newton lifts
-/// to the size of B, so 100-digit coefficients take well under a
-/// millisecond (see docs/performance.md).
+/// Method: a point of order 2 has 2y + a1x + a3 = 0 and x a root of
+/// 4x³ + b2x² + 2b4x + b6 [Sil09, III.2, Exercise 3.7]. For an integral
+/// model X = 4x is then an integer root of the monic
+/// X³ + b2X² + 8b4X + 16b6 (and for a1 = a3 = 0 simply x is an integer
+/// root of x³ + a2x² + a4x + a6); other models go through the integral
+/// short model (module docs). Integer roots are found exactly by p-adic
+/// lifting, or directly when the cubic has the factor x. Cost: a few
+/// microseconds for small coefficients; 100-digit coefficients take well
+/// under a millisecond (see docs/performance.md).
 ///
 /// Example: y² = x³ − x has (−1, 0), (0, 0), (1, 0); y² = x³ + 1 has only
 /// (−1, 0); y² = x³ − 2 has none.
 pub fn two_torsion_points(e: &Curve) -> Vec<Point> {
-    let (a, b, _, change) = short_integral_model(e);
-    let cubic = ZPoly::new(vec![b, a, BigInt::zero(), BigInt::one()]);
-    let mut pts: Vec<Point> = integer_roots(&cubic)
-        .into_iter()
-        .map(|x| {
-            change.to_old(&Point::Affine {
-                x: BigRational::from_integer(x),
-                y: BigRational::zero(),
+    let mut pts: Vec<Point> = if let Some([a1, a2, a3, a4, a6]) = e.integer_coefficients() {
+        if a1.is_zero() && a3.is_zero() {
+            let cubic = ZPoly::new(vec![a6.clone(), a4.clone(), a2.clone(), BigInt::one()]);
+            integer_roots(&cubic)
+                .into_iter()
+                .map(|x| Point::new(BigRational::from_integer(x), BigRational::zero()))
+                .collect()
+        } else {
+            let [b2, b4, b6] = [e.b2(), e.b4(), e.b6()].map(|c| c.numer().clone());
+            let cubic = ZPoly::new(vec![b6 * 16, b4 * 8, b2, BigInt::one()]);
+            integer_roots(&cubic)
+                .into_iter()
+                .map(|big_x| {
+                    let x = BigRational::new(big_x, BigInt::from(4));
+                    let y = -(e.a1() * &x + e.a3()) / rat(2);
+                    Point::new(x, y)
+                })
+                .collect()
+        }
+    } else {
+        let (a, b, _, change) = short_integral_model(e);
+        let cubic = ZPoly::new(vec![b, a, BigInt::zero(), BigInt::one()]);
+        integer_roots(&cubic)
+            .into_iter()
+            .map(|x| {
+                change.to_old(&Point::Affine {
+                    x: BigRational::from_integer(x),
+                    y: BigRational::zero(),
+                })
             })
-        })
-        .collect();
+            .collect()
+    };
     pts.sort();
     pts
 }
@@ -170,31 +205,56 @@ pub fn two_torsion_model_with_budget(
     budget: &mut Budget,
 ) -> Result<TwoTorsionModel> {
     e.check_point(t)?;
-    let (xt, _) = match t {
-        Point::Affine { x, y } if e.double(t).is_infinity() => (x.clone(), y.clone()),
-        _ => {
-            return Err(Error::InvalidArgument {
-                reason: format!("the point {t} does not have order 2 on the curve {e}"),
-            })
-        }
+    let (xt, yt) = match t {
+        Point::Affine { x, y } => (x, y),
+        Point::Infinity => return Err(not_order_two(e, t)),
     };
-    // Step 1: complete the square and move T to (0, 0).
-    let s = -e.a1() / rat(2);
-    let tt = -(e.a1() * &xt + e.a3()) / rat(2);
-    let step1 = ModelChange::translation(xt, s, tt);
-    let e1 = step1.apply_to_curve(e);
-    // Step 2: clear denominators.
-    let d = lcm_denominators([e1.a2(), e1.a4()]);
-    let a_int = (e1.a2() * BigRational::from_integer(&d * &d)).to_integer();
-    let d2 = &d * &d;
-    let b_int = (e1.a4() * BigRational::from_integer(&d2 * &d2)).to_integer();
+    // Order 2 iff P = −P, i.e. 2y + a1x + a3 = 0 [Sil09, III.2.3(a)].
+    let fast = match e.integer_coefficients() {
+        Some([a1, a2, a3, a4, _]) if a1.is_zero() && a3.is_zero() && xt.is_integer() => {
+            Some((a2, a4, xt.numer()))
+        }
+        _ => None,
+    };
+    let (a_int, b_int, d, s, tt) = if let Some((a2, a4, x)) = fast {
+        // y² = F(x) with F monic integral: the translation x ↦ x + x_T
+        // gives a = a2 + 3x_T, b = F′(x_T) directly (d = 1, s = t = 0).
+        if !yt.is_zero() {
+            return Err(not_order_two(e, t));
+        }
+        let a = a2 + x * 3;
+        let b = (x * 3 + a2 * 2) * x + a4;
+        (a, b, BigInt::one(), BigRational::zero(), BigRational::zero())
+    } else {
+        if !(yt * rat(2) + e.a1() * xt + e.a3()).is_zero() {
+            return Err(not_order_two(e, t));
+        }
+        // Step 1: complete the square and move T to (0, 0): the change
+        // (1, x_T, s, t) of [Sil09, III.1, Table 3.1] gives a2′, a4′.
+        let [a1, a2, a3, a4, _] = e.coefficients();
+        let s = -a1 / rat(2);
+        let tt = -(a1 * xt + a3) / rat(2);
+        let r = xt;
+        let a2p = a2 - &s * a1 + r * rat(3) - &s * &s;
+        let a4p = a4 - &s * a3 + r * a2 * rat(2) - (&tt + r * &s) * a1 + r * r * rat(3)
+            - &s * &tt * rat(2);
+        // Step 2: clear denominators.
+        let d = lcm_denominators([&a2p, &a4p]);
+        let d2 = &d * &d;
+        let a_int = (a2p * BigRational::from_integer(d2.clone())).to_integer();
+        let b_int = (a4p * BigRational::from_integer(&d2 * &d2)).to_integer();
+        (a_int, b_int, d, s, tt)
+    };
     // Step 3: divide out D with D² | a, D⁴ | b.
     let big_d = fourth_power_root_part(&a_int.pow(2).gcd(&b_int), budget)?;
-    let d2b = &big_d * &big_d;
-    let a = &a_int / &d2b;
-    let b = &b_int / (&d2b * &d2b);
-    let scale = ModelChange::scaling(BigRational::new(big_d, d))?;
-    let change = step1.then(&scale);
+    let (a, b) = if big_d.is_one() {
+        (a_int, b_int)
+    } else {
+        let d2b = &big_d * &big_d;
+        (&a_int / &d2b, &b_int / (&d2b * &d2b))
+    };
+    // The composite of (1, x_T, s, t) and the scaling by D/d.
+    let change = ModelChange::new(BigRational::new(big_d, d), xt.clone(), s, tt)?;
     let curve = Curve::new([
         BigRational::zero(),
         BigRational::from_integer(a.clone()),
@@ -212,6 +272,12 @@ pub fn two_torsion_model_with_budget(
     })
 }
 
+fn not_order_two(e: &Curve, t: &Point) -> Error {
+    Error::InvalidArgument {
+        reason: format!("the point {t} does not have order 2 on the curve {e}"),
+    }
+}
+
 /// The first (least x) rational point of order 2 and its reduced model.
 ///
 /// # Errors
@@ -225,16 +291,31 @@ pub fn first_two_torsion_model(e: &Curve) -> Result<TwoTorsionModel> {
 }
 
 /// The largest D > 0 with D⁴ | g (g > 0).
+///
+/// Trial division by the primes below 4096, stopping as soon as p⁴
+/// exceeds the remaining cofactor (then no larger prime can contribute);
+/// a cofactor of at least 4096⁴ left over is factored under `budget`.
 fn fourth_power_root_part(g: &BigInt, budget: &mut Budget) -> Result<BigInt> {
     let mut g = g.abs();
     let mut d = BigInt::one();
     if g.is_zero() {
         return Ok(d);
     }
-    const TRIAL: u64 = 4096;
-    let mut p = 2u64;
-    while p < TRIAL {
-        let pb = BigInt::from(p);
+    let primes = trial_primes();
+    let mut next = 0;
+    while next < primes.len() {
+        if let Some(gs) = g.to_u128() {
+            // Finish the trial division in machine words.
+            let (ds, rest, complete) = trial_fourth_powers(gs, &primes[next..]);
+            d *= BigInt::from(ds);
+            if complete {
+                return Ok(d);
+            }
+            g = BigInt::from(rest);
+            break;
+        }
+        let pb = BigInt::from(primes[next]);
+        next += 1;
         let mut e = 0u32;
         while (&g % &pb).is_zero() {
             g /= &pb;
@@ -243,7 +324,6 @@ fn fourth_power_root_part(g: &BigInt, budget: &mut Budget) -> Result<BigInt> {
         for _ in 0..e / 4 {
             d *= &pb;
         }
-        p = next_prime_u64(p);
     }
     let limit = BigInt::from(TRIAL).pow(4);
     if g < limit {
@@ -258,14 +338,52 @@ fn fourth_power_root_part(g: &BigInt, budget: &mut Budget) -> Result<BigInt> {
     Ok(d)
 }
 
-fn next_prime_u64(p: u64) -> u64 {
-    let mut n = p + 1;
-    loop {
-        if (2..).take_while(|k: &u64| k * k <= n).all(|k| n % k != 0) {
-            return n;
+/// Trial division of g by `primes` (ascending): returns (D, the cofactor,
+/// whether the division is complete), with D⁴ the largest fourth power
+/// dividing g built from these primes. Stops early (complete) once p⁴
+/// exceeds the cofactor, since then no larger prime has p⁴ | cofactor;
+/// otherwise complete iff the cofactor is below [`TRIAL`]⁴.
+fn trial_fourth_powers(mut g: u128, primes: &[u32]) -> (u128, u128, bool) {
+    let mut d: u128 = 1;
+    for &p in primes {
+        let p = p as u128;
+        if p * p * p * p > g {
+            return (d, g, true);
         }
-        n += 1;
+        let mut e = 0u32;
+        while g % p == 0 {
+            g /= p;
+            e += 1;
+        }
+        // D⁴ | g < 2^128 keeps D < 2^32.
+        d *= p.pow(e / 4);
     }
+    let t = TRIAL as u128;
+    (d, g, g < t * t * t * t)
+}
+
+/// Trial-division limit of [`fourth_power_root_part`].
+const TRIAL: u32 = 4096;
+
+/// The primes below [`TRIAL`], built once (sieve of Eratosthenes).
+fn trial_primes() -> &'static [u32] {
+    static PRIMES: OnceLock<Vec<u32>> = OnceLock::new();
+    PRIMES.get_or_init(|| {
+        let n = TRIAL as usize;
+        let mut composite = vec![false; n];
+        let mut out = Vec::new();
+        for i in 2..n {
+            if !composite[i] {
+                out.push(i as u32);
+                let mut j = i * i;
+                while j < n {
+                    composite[j] = true;
+                    j += i;
+                }
+            }
+        }
+        out
+    })
 }
 
 #[cfg(test)]

@@ -21,11 +21,15 @@
 //! fractions in lowest terms), so printing and parsing round-trip.
 
 use std::fmt;
+use std::hash::{Hash, Hasher};
+use std::ops::{Add, Mul, Sub};
 use std::str::FromStr;
+use std::sync::OnceLock;
 
 use num_bigint::BigInt;
+use num_integer::Integer;
 use num_rational::BigRational;
-use num_traits::{One, Zero};
+use num_traits::{One, ToPrimitive, Zero};
 
 use crate::error::{Error, Result};
 
@@ -38,12 +42,16 @@ use crate::error::{Error, Result};
 pub const MAX_COEFFICIENT_DIGITS: usize = 2_000;
 
 /// An elliptic curve over Q given by a (general) Weierstrass model, with its
-/// invariants b2, b4, b6, b8, c4, c6, Δ and j precomputed.
+/// invariants b2, b4, b6, b8, c4, c6 and Δ precomputed and j computed on
+/// first use.
 ///
-/// Invariant: Δ ≠ 0 (checked by every constructor).
-#[derive(Clone, Debug, PartialEq, Eq, Hash)]
+/// Invariant: Δ ≠ 0 (checked by every constructor). Equality and hashing
+/// look at the five coefficients only (the invariants are functions of
+/// them).
+#[derive(Clone, Debug)]
 pub struct Curve {
     a: [BigRational; 5],
+    integral: bool,
     b2: BigRational,
     b4: BigRational,
     b6: BigRational,
@@ -51,17 +59,106 @@ pub struct Curve {
     c4: BigRational,
     c6: BigRational,
     disc: BigRational,
-    j: BigRational,
+    j: OnceLock<BigRational>,
+}
+
+impl PartialEq for Curve {
+    fn eq(&self, other: &Self) -> bool {
+        self.a == other.a
+    }
+}
+
+impl Eq for Curve {}
+
+impl Hash for Curve {
+    fn hash<H: Hasher>(&self, state: &mut H) {
+        self.a.hash(state);
+    }
 }
 
 fn q(n: i64) -> BigRational {
     BigRational::from_integer(BigInt::from(n))
 }
 
+/// An `i128` whose arithmetic reports overflow by becoming `None`.
+#[derive(Clone, Copy)]
+struct Checked(Option<i128>);
+
+impl From<i64> for Checked {
+    fn from(n: i64) -> Self {
+        Checked(Some(n as i128))
+    }
+}
+
+impl Add for Checked {
+    type Output = Checked;
+    fn add(self, o: Checked) -> Checked {
+        Checked(self.0.zip(o.0).and_then(|(x, y)| x.checked_add(y)))
+    }
+}
+
+impl Sub for Checked {
+    type Output = Checked;
+    fn sub(self, o: Checked) -> Checked {
+        Checked(self.0.zip(o.0).and_then(|(x, y)| x.checked_sub(y)))
+    }
+}
+
+impl Mul for Checked {
+    type Output = Checked;
+    fn mul(self, o: Checked) -> Checked {
+        Checked(self.0.zip(o.0).and_then(|(x, y)| x.checked_mul(y)))
+    }
+}
+
+/// [b2, b4, b6, b8, c4, c6, Δ] of an integral model (module docs), in any
+/// commutative ring with the needed operations.
+fn integral_invariants<T>(a: &[T; 5]) -> [T; 7]
+where
+    T: Clone + Add<Output = T> + Sub<Output = T> + Mul<Output = T> + From<i64>,
+{
+    let k = |n: i64| T::from(n);
+    let [a1, a2, a3, a4, a6] = a.clone();
+    let b2 = a1.clone() * a1.clone() + k(4) * a2.clone();
+    let b4 = k(2) * a4.clone() + a1.clone() * a3.clone();
+    let b6 = a3.clone() * a3.clone() + k(4) * a6.clone();
+    let b8 = a1.clone() * a1.clone() * a6.clone() + k(4) * a2.clone() * a6.clone()
+        - a1 * a3.clone() * a4.clone()
+        + a2 * a3.clone() * a3
+        - a4.clone() * a4;
+    let b2sq = b2.clone() * b2.clone();
+    let c4 = b2sq.clone() - k(24) * b4.clone();
+    let c6 = k(36) * b2.clone() * b4.clone() - b2sq.clone() * b2.clone() - k(216) * b6.clone();
+    let disc = k(9) * b2.clone() * b4.clone() * b6.clone()
+        - b2sq * b8.clone()
+        - k(8) * b4.clone() * b4.clone() * b4.clone()
+        - k(27) * b6.clone() * b6.clone();
+    [b2, b4, b6, b8, c4, c6, disc]
+}
+
+/// [b2, b4, b6, b8, c4, c6, Δ] of integer coefficients: in `i128` when
+/// nothing overflows, else in `BigInt`.
+fn integer_invariants(a: [&BigInt; 5]) -> [BigInt; 7] {
+    let small = a.map(|c| Checked(c.to_i128()));
+    if small.iter().all(|c| c.0.is_some()) {
+        let inv = integral_invariants(&small);
+        if inv.iter().all(|c| c.0.is_some()) {
+            return inv.map(|c| BigInt::from(c.0.unwrap_or_default()));
+        }
+    }
+    integral_invariants(&a.map(|c| c.clone()))
+}
+
 impl Curve {
     /// The curve with Weierstrass coefficients `[a1, a2, a3, a4, a6]`.
     ///
     /// Computes the invariants of [Sil09, III.1] (see the module docs).
+    /// Integral models are computed in integers (machine words when
+    /// nothing overflows); a model with denominators is first scaled to
+    /// an integral one by u = 1/d, d = lcm of the denominators (a_i ↦ d^i a_i),
+    /// and the invariants are scaled back (b_i ↦ b_i/d^i, c4 ↦ c4/d⁴,
+    /// c6 ↦ c6/d⁶, Δ ↦ Δ/d¹²). j = c4³/Δ is reduced to lowest terms on
+    /// the first call of [`Curve::j_invariant`].
     ///
     /// # Errors
     /// [`Error::SingularCurve`] if Δ = 0 (the cubic has a node or a cusp).
@@ -75,15 +172,29 @@ impl Curve {
     /// assert_eq!(e.j_invariant().to_string(), "1728");
     /// ```
     pub fn new(a: [BigRational; 5]) -> Result<Curve> {
-        let [a1, a2, a3, a4, a6] = &a;
-        let b2 = a1 * a1 + q(4) * a2;
-        let b4 = q(2) * a4 + a1 * a3;
-        let b6 = a3 * a3 + q(4) * a6;
-        let b8 = a1 * a1 * a6 + q(4) * a2 * a6 - a1 * a3 * a4 + a2 * a3 * a3 - a4 * a4;
-        let c4 = &b2 * &b2 - q(24) * &b4;
-        let c6 = -(&b2 * &b2 * &b2) + q(36) * &b2 * &b4 - q(216) * &b6;
-        let disc = -(&b2 * &b2 * &b8) - q(8) * &b4 * &b4 * &b4 - q(27) * &b6 * &b6
-            + q(9) * &b2 * &b4 * &b6;
+        let integral = a.iter().all(|c| c.is_integer());
+        let inv: [BigRational; 7] = if integral {
+            integer_invariants([a[0].numer(), a[1].numer(), a[2].numer(), a[3].numer(), a[4].numer()])
+                .map(BigRational::from_integer)
+        } else {
+            let d = a.iter().fold(BigInt::one(), |d, c| d.lcm(c.denom()));
+            let [s1, s2, s3, s4, s6] = [1u32, 2, 3, 4, 6].map(|w| {
+                let c = &a[match w {
+                    6 => 4,
+                    w => w as usize - 1,
+                }];
+                c.numer() * (d.pow(w) / c.denom())
+            });
+            let ints = integer_invariants([&s1, &s2, &s3, &s4, &s6]);
+            let weights = [2u32, 4, 6, 8, 4, 6, 12];
+            let mut k = 0;
+            ints.map(|v| {
+                let w = weights[k];
+                k += 1;
+                BigRational::new(v, d.pow(w))
+            })
+        };
+        let [b2, b4, b6, b8, c4, c6, disc] = inv;
         if disc.is_zero() {
             let reason = if c4.is_zero() {
                 "discriminant is 0 and c4 = 0 (the cubic has a cusp)".to_string()
@@ -92,9 +203,9 @@ impl Curve {
             };
             return Err(Error::SingularCurve { reason });
         }
-        let j = &c4 * &c4 * &c4 / &disc;
         Ok(Curve {
             a,
+            integral,
             b2,
             b4,
             b6,
@@ -102,7 +213,7 @@ impl Curve {
             c4,
             c6,
             disc,
-            j,
+            j: OnceLock::new(),
         })
     }
 
@@ -188,14 +299,27 @@ impl Curve {
     pub fn discriminant(&self) -> &BigRational {
         &self.disc
     }
-    /// j = c4³/Δ.
+    /// j = c4³/Δ, in lowest terms (computed on the first call, then kept).
     pub fn j_invariant(&self) -> &BigRational {
-        &self.j
+        self.j.get_or_init(|| {
+            let c4 = &self.c4;
+            c4 * c4 * c4 / &self.disc
+        })
     }
 
     /// True iff all five coefficients are integers.
     pub fn is_integral(&self) -> bool {
-        self.a.iter().all(|c| c.is_integer())
+        self.integral
+    }
+
+    /// The five coefficients as integers, if the model is integral.
+    pub fn integer_coefficients(&self) -> Option<[&BigInt; 5]> {
+        if self.integral {
+            let a = &self.a;
+            Some([a[0].numer(), a[1].numer(), a[2].numer(), a[3].numer(), a[4].numer()])
+        } else {
+            None
+        }
     }
 
     /// True iff a1 = a2 = a3 = 0 (the model is y² = x³ + a4 x + a6).

@@ -276,10 +276,14 @@ fn write_side(f: &mut fmt::Formatter<'_>, label: &str, s: &SelmerSide) -> fmt::R
                 on_space.y
             ),
             ClassStatus::Undecided => "undecided: everywhere locally soluble, no point found".into(),
-            ClassStatus::ProvenNotImage { obstructions } => {
+            ClassStatus::ProvenNotImage {
+                obstructions,
+                space,
+                ..
+            } => {
                 let places: Vec<String> = obstructions.iter().map(|o| o.place.to_string()).collect();
                 format!(
-                    "not an image: {} 4-coverings, insoluble at {}",
+                    "not an image: C_{space} has {} 4-coverings, insoluble at {} respectively",
                     obstructions.len(),
                     places.join(", ")
                 )

@@ -83,7 +83,7 @@ fn side_view(s: &SelmerSide) -> SideView {
                     _ => None,
                 },
                 obstructions: match &e.status {
-                    ClassStatus::ProvenNotImage { obstructions } => obstructions
+                    ClassStatus::ProvenNotImage { obstructions, .. } => obstructions
                         .iter()
                         .map(|o| {
                             (

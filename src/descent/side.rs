@@ -20,10 +20,14 @@ use num_integer::Integer;
 use num_rational::BigRational;
 use num_traits::{One, Signed, Zero};
 
+use super::bounds::max_avoiding_dimension;
 use super::options::DescentOptions;
 use crate::curve::{Curve, Point};
 use crate::error::{Error, Result};
 use crate::local::{Place, Prime};
+use crate::quartic::covering::{
+    second_descent, NoPointEvidence, SecondDescentOptions, SecondDescentOutcome,
+};
 use crate::quartic::image::{local_image, LocalImage};
 use crate::quartic::search::{search, QuarticPoint, SearchOptions, SearchOutcome};
 use crate::quartic::Quartic;
@@ -63,8 +67,14 @@ pub enum ClassStatus {
     /// Every 4-covering of C_d is locally insoluble somewhere, so no element
     /// of the coset d·K is an image.
     ProvenNotImage {
-        /// One obstruction per 4-covering.
+        /// The class d whose homogeneous space was proven to have no point.
+        space: BigInt,
+        /// One obstruction per 4-covering (a covering with c4 = c3 = 0 is
+        /// a conic y² = g2 u² + g1 uv + g0 v²).
         obstructions: Vec<CoveringObstruction>,
+        /// The complete evidence, re-checkable with
+        /// [`crate::quartic::covering::verify_obstruction`].
+        evidence: Box<NoPointEvidence>,
     },
 }
 
@@ -130,6 +140,10 @@ pub struct SelmerSide {
     /// Points of infinite order found on this side, with classes
     /// independent modulo the torsion image.
     pub points: Vec<Point>,
+    /// Classes handed to the second descent, with the word for what it
+    /// concluded ("point_image", "proven_not_image", "undecided") — or the
+    /// error that stopped it.
+    pub second_descent_runs: Vec<(BigInt, String)>,
 }
 
 impl SelmerSide {
@@ -273,13 +287,42 @@ pub fn compute_side(
             break;
         }
     }
-    for v in known.complement_in(&group) {
+    let mut second_descent_runs = Vec::new();
+    let mut proven: Vec<(BitVec, ClassStatus)> = Vec::new();
+    if options.second_descent {
+        run_second_descent(
+            a,
+            b,
+            curve,
+            &qs2,
+            &group,
+            &mut known,
+            &mut elements,
+            &mut points,
+            &mut proven,
+            &mut second_descent_runs,
+            options,
+            deadline,
+        )?;
+    }
+    // Adapted complement: proven classes first (independent mod K), then
+    // the rest, undecided.
+    let mut span = known.clone();
+    for (v, status) in &proven {
+        if span.insert(v.clone()) {
+            elements.push(SelmerElement {
+                class: qs2.integer(v),
+                status: status.clone(),
+            });
+        }
+    }
+    for v in span.complement_in(&group) {
         elements.push(SelmerElement {
             class: qs2.integer(&v),
             status: ClassStatus::Undecided,
         });
     }
-    let image_upper = group.dim();
+    let image_upper = known.dim() + proven_upper(&known, &group, &proven);
     Ok(SelmerSide {
         a: a.clone(),
         b: b.clone(),
@@ -292,7 +335,139 @@ pub fn compute_side(
         elements,
         searches,
         points,
+        second_descent_runs,
     })
+}
+
+/// The largest possible dim (I/K) for an image I with K ⊆ I ⊆ Sel that
+/// avoids every proven coset: [`max_avoiding_dimension`] in coordinates of
+/// a complement of K.
+fn proven_upper(known: &Subspace, group: &Subspace, proven: &[(BitVec, ClassStatus)]) -> usize {
+    let rest = known.complement_in(group);
+    let u = rest.len();
+    if proven.is_empty() || u > 16 {
+        return u;
+    }
+    let mut forbidden = Vec::new();
+    for (v, _) in proven {
+        for pattern in 1u64..(1u64 << u) {
+            let mut w = v.clone();
+            for (i, r) in rest.iter().enumerate() {
+                if (pattern >> i) & 1 == 1 {
+                    w.add_assign(r);
+                }
+            }
+            if known.contains(&w) {
+                forbidden.push(BitVec::from_u64(u, pattern));
+                break;
+            }
+        }
+    }
+    max_avoiding_dimension(u, &forbidden)
+}
+
+/// The second descent on the cosets of Sel/K the first one left open: a
+/// point found on a 4-covering enlarges K; a proof that C_d has no point
+/// excludes the coset d·K.
+#[allow(clippy::too_many_arguments)]
+fn run_second_descent(
+    a: &BigInt,
+    b: &BigInt,
+    curve: &Curve,
+    qs2: &QS2,
+    group: &Subspace,
+    known: &mut Subspace,
+    elements: &mut Vec<SelmerElement>,
+    points: &mut Vec<Point>,
+    proven: &mut Vec<(BitVec, ClassStatus)>,
+    runs: &mut Vec<(BigInt, String)>,
+    options: &DescentOptions,
+    deadline: Option<Instant>,
+) -> Result<()> {
+    let sd_options = SecondDescentOptions::default().with_search_height(options.second_search_height);
+    let mut tried = 0usize;
+    'restart: loop {
+        let rest = known.complement_in(group);
+        let u = rest.len().min(10);
+        for pattern in 1u64..(1u64 << u) {
+            let mut x = BitVec::zeros(qs2.dim());
+            for (i, r) in rest.iter().enumerate().take(u) {
+                if (pattern >> i) & 1 == 1 {
+                    x.add_assign(r);
+                }
+            }
+            if known.contains(&x) {
+                continue;
+            }
+            // already proven: the coset of x mod K contains a proven class
+            if proven.iter().any(|(v, _)| known.contains(&v.add(&x))) {
+                continue;
+            }
+            if tried >= options.max_classes_searched {
+                return Ok(());
+            }
+            tried += 1;
+            let Some((d, v)) = coset_representatives(qs2, &x, known).into_iter().next() else {
+                continue;
+            };
+            let mut budget = options.budget(options.second_descent_units, deadline);
+            match second_descent(a, b, &d, &sd_options, &mut budget) {
+                Ok(SecondDescentOutcome::Point {
+                    space_point,
+                    point_x,
+                    point_y,
+                    ..
+                }) => {
+                    let p = Point::new(point_x, point_y);
+                    if !curve.contains(&p) {
+                        return Err(Error::InvalidArgument {
+                            reason: format!(
+                                "internal check failed: second-descent point for C_{d} is not on the curve"
+                            ),
+                        });
+                    }
+                    runs.push((d.clone(), "point_image".into()));
+                    known.insert(v.clone());
+                    elements.push(SelmerElement {
+                        class: qs2.integer(&v),
+                        status: ClassStatus::PointImage {
+                            point: p.clone(),
+                            space: d,
+                            on_space: space_point,
+                        },
+                    });
+                    points.push(p);
+                    continue 'restart;
+                }
+                Ok(SecondDescentOutcome::NoPoint(evidence)) => {
+                    runs.push((d.clone(), "proven_not_image".into()));
+                    let obstructions = evidence
+                        .obstructions
+                        .iter()
+                        .map(|o| CoveringObstruction {
+                            covering: o.covering_coefficients(),
+                            place: o.place.clone(),
+                        })
+                        .collect();
+                    proven.push((
+                        v,
+                        ClassStatus::ProvenNotImage {
+                            space: d,
+                            obstructions,
+                            evidence: Box::new(evidence),
+                        },
+                    ));
+                }
+                Ok(SecondDescentOutcome::Undecided { .. }) => {
+                    runs.push((d, "undecided".into()));
+                }
+                Err(e) => {
+                    runs.push((d, format!("gave up: {e}")));
+                }
+            }
+        }
+        return Ok(());
+    }
 }
 
 /// Representatives of the coset x + K, smallest |d| first (at most 2^12

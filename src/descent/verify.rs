@@ -16,7 +16,9 @@
 //! 4. torsion images and point images lie in the Selmer group, the point
 //!    images are independent modulo the torsion images, and the rank bounds
 //!    follow from the dimensions by the exact sequence;
-//! 5. each "proven not an image" obstruction is re-decided at its place.
+//! 5. each "proven not an image" class has its second-descent evidence
+//!    re-checked by [`verify_obstruction`]: the twists λ are the complete
+//!    list, and each covering is insoluble at the place named.
 //!
 //! The result lists every check with its outcome, so a reader sees what
 //! was checked, not only a yes/no.
@@ -27,6 +29,7 @@ use super::side::{connecting_value, ClassStatus, SelmerSide};
 use crate::budget::Budget;
 use crate::curve::Curve;
 use crate::error::Result;
+use crate::quartic::covering::verify_obstruction;
 use crate::quartic::{locally_soluble, LocalSolubility, Quartic};
 use crate::selmer::f2::Subspace;
 use crate::selmer::group::{selmer_from_local_images, LocalCondition};
@@ -201,20 +204,18 @@ fn verify_side(
                     all_span.insert(v),
                 );
             }
-            ClassStatus::ProvenNotImage { obstructions } => {
-                for o in obstructions {
-                    let ok = match Quartic::new(o.covering.clone()) {
-                        Ok(q) => !locally_soluble(&q, &o.place, budget)?.is_soluble(),
-                        Err(_) => false,
-                    };
-                    out.record(
-                        format!(
-                            "{tag}: class {}: covering {:?} insoluble at {}",
-                            el.class, o.covering, o.place
-                        ),
-                        ok,
-                    );
-                }
+            ClassStatus::ProvenNotImage {
+                space, evidence, ..
+            } => {
+                let ok = space == &el.class
+                    && verify_obstruction(&side.a, &side.b, space, evidence, budget);
+                out.record(
+                    format!(
+                        "{tag}: class {}: every 4-covering of C_{} re-checks insoluble at its place",
+                        el.class, space
+                    ),
+                    ok,
+                );
             }
             ClassStatus::Undecided => {}
         }

@@ -13,7 +13,7 @@
 //! when it is and the point search finds nothing, the class `d` is left
 //! undecided. [`second_descent`] splits `C_d` further.
 //!
-//! # Step 1: the conic of `C_d` [Cassels91], [SilvermanTate92, III.6]
+//! # Step 1: the conic of `C_d` [Cassels91, Ch. 1], [SilvermanTate92, III.6]
 //!
 //! Multiplying `C_d` by `4d` and completing the square,
 //!
@@ -115,7 +115,7 @@
 //!
 //! `E: y² = x³ − 68x`, `d = 2`: `C_2: N² = 2M⁴ − 34e⁴`. With
 //! `X = e/M`, `Y = N/(2M²)` this is `2Y² = 1 − 17X⁴`, the curve of
-//! [Lind40] and [Reichardt42], locally soluble everywhere without a rational
+//! [Lind40, Reichardt42], locally soluble everywhere without a rational
 //! point. Here `(Q)` is `X² − 2Y² = 272 Z²`, `Res(F, G) = 4352 = 2⁸·17`, so
 //! the twists are `λ ∈ {±1, ±2, ±17, ±34}`; each `D_λ` has a quartic model
 //! insoluble over `R` or `Q_2`, so the second descent returns `NoPoint`.

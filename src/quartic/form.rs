@@ -38,7 +38,7 @@ use crate::error::{Error, Result};
 use num_bigint::BigInt;
 use num_integer::Integer;
 use num_rational::BigRational;
-use num_traits::{One, Signed, Zero};
+use num_traits::{One, Signed, ToPrimitive, Zero};
 use std::fmt;
 
 /// A binary quartic form `g(x, z) = c4 x⁴ + c3 x³z + c2 x²z² + c1 xz³ + c0 z⁴`
@@ -143,7 +143,10 @@ impl Quartic {
                 ),
             });
         }
-        let h = d.gcd(b);
+        let h = match (d.to_i64(), b.to_i64()) {
+            (Some(ds), Some(bs)) => BigInt::from(ds.unsigned_abs().gcd(&bs.unsigned_abs())),
+            _ => d.gcd(b),
+        };
         let d1 = d / &h;
         let d1sq = &d1 * &d1;
         let z = BigInt::zero();

@@ -22,9 +22,9 @@
 
 use crate::budget::Budget;
 use crate::error::{Error, Result};
+use crate::local::legendre_u64;
 use num_bigint::BigInt;
 use num_integer::Integer;
-use crate::local::legendre_u64;
 use num_traits::{One, ToPrimitive, Zero};
 
 /// A polynomial over `F_p`, lowest degree first, entries in `[0, p)`, no
@@ -320,6 +320,10 @@ impl WordField {
 
     /// `c mod p` for an integer `c`.
     pub(crate) fn reduce(self, c: &BigInt) -> u64 {
+        if let Some(v) = c.to_i64() {
+            let r = v.unsigned_abs() % self.p;
+            return if v < 0 && r != 0 { self.p - r } else { r };
+        }
         match c.to_i128() {
             Some(v) => v.rem_euclid(self.p as i128) as u64,
             None => c.mod_floor(&BigInt::from(self.p)).to_u64().unwrap_or(0),
@@ -800,4 +804,3 @@ mod tests {
         assert_eq!(got, vec![1, 2, 3, p - 1]);
     }
 }
-

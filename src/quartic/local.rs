@@ -293,6 +293,23 @@ fn padic_sqrt(g: &BigInt, p: &Prime, precision: u32) -> Option<BigInt> {
     if y0 == 0 {
         return None;
     }
+    let root_scale = num_traits::pow(p.get().clone(), (v / 2) as usize);
+    if let Some(m) = pw.checked_pow(k).filter(|&m| m < fp::WORD_LIMIT) {
+        // Everything below p^k < 2^63: products fit in u128.
+        let mm = u128::from(m);
+        let um = u.mod_floor(&BigInt::from(m)).to_u64()?;
+        let (mut y, mut w) = (u128::from(y0), u128::from(f.inv(f.mul(2, y0))));
+        let mut j = 1u32;
+        while j < k {
+            j = (2 * j).min(k);
+            let mj = u128::from(pw.pow(j));
+            let e = (y * y + mm * mm - u128::from(um)) % mj; // y² − u mod p^j
+            y = (y + mj - e * w % mj) % mj;
+            let t = 2 * y % mj * w % mj; // 2y·w
+            w = w * ((2 + mj - t) % mj) % mj;
+        }
+        return Some(BigInt::from(y) * root_scale);
+    }
     let mut y = BigInt::from(y0);
     let mut w = BigInt::from(f.inv(f.mul(2, y0)));
     let pb = p.get();
@@ -303,7 +320,7 @@ fn padic_sqrt(g: &BigInt, p: &Prime, precision: u32) -> Option<BigInt> {
         y = (&y - (&y * &y - &u) * &w).mod_floor(&m);
         w = (&w * (BigInt::from(2) - BigInt::from(2) * &y * &w)).mod_floor(&m);
     }
-    Some(y * num_traits::pow(pb.clone(), (v / 2) as usize))
+    Some(y * root_scale)
 }
 
 /// The machine-word case of [`padic_sqrt`] at `p = 2`; `None` when it does
@@ -330,4 +347,3 @@ fn two_adic_sqrt_word(g: &BigInt, precision: u32) -> Option<BigInt> {
     }
     Some(BigInt::from(y) << (v / 2))
 }
-

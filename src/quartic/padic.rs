@@ -420,11 +420,25 @@ pub(crate) fn class_verdict_word(
         }
     }
     let roots = fp::roots_word(phi, f, budget)?;
-    Ok(Verdict::Refine(roots.into_iter().map(BigInt::from).collect()))
+    Ok(Verdict::Refine(
+        roots.into_iter().map(BigInt::from).collect(),
+    ))
 }
 
 /// `v_p(c)` for `c ≠ 0` (machine-word fast path), `None` for `c = 0`.
 fn val_word(c: &BigInt, p: &Prime, pw: u64) -> Option<u64> {
+    if let Some(x) = c.to_i64() {
+        if x == 0 {
+            return None;
+        }
+        let mut u = x.unsigned_abs();
+        let mut v = 0;
+        while u % pw == 0 {
+            u /= pw;
+            v += 1;
+        }
+        return Some(v);
+    }
     match c.to_i128() {
         Some(0) => None,
         Some(mut x) => {
@@ -449,12 +463,23 @@ pub(crate) fn content_residues_word(
     field: fp::WordField,
 ) -> (u64, fp::WordPoly) {
     let pw = field.p();
-    let m = f.iter().filter_map(|c| val_word(c, p, pw)).min().unwrap_or(0);
+    let m = f
+        .iter()
+        .filter_map(|c| val_word(c, p, pw))
+        .min()
+        .unwrap_or(0);
     let mut res = [0u64; 5];
     let mut pm: Option<BigInt> = None;
     for (slot, c) in res.iter_mut().zip(f) {
         *slot = if m == 0 {
             field.reduce(c)
+        } else if let Some(x) = c.to_i64() {
+            let q = pw as i128;
+            let mut x = i128::from(x);
+            for _ in 0..m {
+                x /= q;
+            }
+            x.rem_euclid(q) as u64
         } else if let Some(mut x) = c.to_i128() {
             for _ in 0..m {
                 x /= pw as i128;
@@ -651,11 +676,18 @@ mod tests {
     fn the_small_square_table_matches_eulers_criterion() {
         // Euler's criterion [Serre73, I.3.2] (section from memory): r ≠ 0 is a square mod p iff
         // r^((p−1)/2) ≡ 1.
-        for p in (3u64..64).step_by(2).filter(|&p| (2..p).all(|d| p % d != 0)) {
+        for p in (3u64..64)
+            .step_by(2)
+            .filter(|&p| (2..p).all(|d| p % d != 0))
+        {
             let f = fp::WordField::new(p);
             for r in 1..p {
                 let euler = f.pow(r, (p - 1) / 2) == 1;
-                assert_eq!(SMALL_SQUARES[p as usize] >> r & 1 == 1, euler, "{r} mod {p}");
+                assert_eq!(
+                    SMALL_SQUARES[p as usize] >> r & 1 == 1,
+                    euler,
+                    "{r} mod {p}"
+                );
             }
             assert_eq!(SMALL_SQUARES[p as usize] & 1, 0);
         }

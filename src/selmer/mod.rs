@@ -7,4 +7,5 @@
 
 pub mod f2;
 pub mod group;
+pub mod local_count;
 pub mod qs2;
