@@ -317,8 +317,15 @@ pub(crate) fn integer_roots(f: &ZPoly) -> Vec<BigInt> {
         let k = g.0.iter().take_while(|c| c.is_zero()).count();
         g = ZPoly::new(g.0[k..].to_vec());
     }
-    if g.degree().unwrap_or(0) == 0 {
-        return roots;
+    match g.degree().unwrap_or(0) {
+        0 => return roots,
+        1 | 2 => {
+            roots.extend(low_degree_roots(&g));
+            roots.sort();
+            roots.dedup();
+            return roots;
+        }
+        _ => {}
     }
     let mut tried = 0usize;
     let mut reduced_to_squarefree = false;
@@ -379,6 +386,36 @@ pub(crate) fn integer_roots(f: &ZPoly) -> Vec<BigInt> {
     roots
 }
 
+/// The integer roots of a polynomial of degree 1 or 2, directly: c1x + c0
+/// has the root −c0/c1 when c1 | c0; c2x² + c1x + c0 has the roots
+/// (−c1 ± s)/(2c2) with s² = c1² − 4c2c0, when the discriminant is a
+/// square and 2c2 divides the numerator. Exact.
+fn low_degree_roots(g: &ZPoly) -> Vec<BigInt> {
+    let mut out = Vec::new();
+    match g.0.as_slice() {
+        [c0, c1] => {
+            let (q, r) = (-c0).div_rem(c1);
+            if r.is_zero() {
+                out.push(q);
+            }
+        }
+        [c0, c1, c2] => {
+            let disc: BigInt = c1 * c1 - c2 * c0 * 4u32;
+            if let Some(s) = crate::arith::sqrt_exact(&disc) {
+                let den: BigInt = c2 * 2u32;
+                for num in [-c1 - &s, -c1 + &s] {
+                    let (q, r) = num.div_rem(&den);
+                    if r.is_zero() {
+                        out.push(q);
+                    }
+                }
+            }
+        }
+        _ => {}
+    }
+    out
+}
+
 /// A bound B with |R| ≤ B for every nonzero integer root R of g (g(0) ≠ 0):
 /// the smaller of |g(0)| and the Cauchy bound 1 + max |a_i| / |a_n|.
 fn root_bound(g: &ZPoly) -> BigInt {
@@ -432,6 +469,19 @@ mod tests {
         // (x - 7)^2 (x + 2) = x^3 - 12x^2 + 21x + 98
         let f = p(&[98, 21, -12, 1]);
         assert_eq!(integer_roots(&f), vec![BigInt::from(-2), BigInt::from(7)]);
+    }
+
+    #[test]
+    fn linear_and_quadratic_roots_are_solved_directly() {
+        // 6x^2 - x - 2 = (2x + 1)(3x - 2): no integer roots.
+        assert!(integer_roots(&p(&[-2, -1, 6])).is_empty());
+        // x^2 - 2x + 1 = (x - 1)^2: one root, listed once.
+        assert_eq!(integer_roots(&p(&[1, -2, 1])), vec![BigInt::from(1)]);
+        // 3x + 12 and 3x + 13.
+        assert_eq!(integer_roots(&p(&[12, 3])), vec![BigInt::from(-4)]);
+        assert!(integer_roots(&p(&[13, 3])).is_empty());
+        // x^2 + 1 has no real roots.
+        assert!(integer_roots(&p(&[1, 0, 1])).is_empty());
     }
 
     #[test]

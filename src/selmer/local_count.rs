@@ -74,7 +74,7 @@
 //! With `Sel^φ(E) ⊂ H¹(Q, E[φ])` cut out by the images of
 //! `E′(Q_v)/φE(Q_v)` (= `W_v(E′)`, the descent's codomain side) and
 //! `Sel^ψ(E′)` by those of `E(Q_v)/ψE′(Q_v)` (= `W_v(E)`, the domain side),
-//! [Cassels65] (see also the Greenberg–Wiles formula [Wiles95, Prop. 1.6];
+//! \[Cassels65\] (see also the Greenberg–Wiles formula [Wiles95, Prop. 1.6];
 //! both from memory):
 //! ```text
 //! |Sel^φ(E)| / |Sel^ψ(E′)| = |E(Q)[φ]|/|E′(Q)[ψ]| · ∏_v |E′(Q_v)/φE(Q_v)| / |E(Q_v)[φ]|,
@@ -493,7 +493,7 @@ pub fn images_match_prediction(a: &BigInt, b: &BigInt, images: &[LocalImage]) ->
 }
 
 /// `Σ_v (dim W_v(E′) − 1)` over the given local images of the codomain
-/// side `E′`: by Cassels' formula [Cassels65] (module docs) this equals
+/// side `E′`: by Cassels' formula \[Cassels65\] (module docs) this equals
 /// `dim Sel^φ(E) − dim Sel^ψ(E′)`, i.e. dim of the codomain side's Selmer
 /// group minus dim of the domain side's, when the images cover `R` and
 /// every prime of `2b(a² − 4b)`.
@@ -519,7 +519,7 @@ pub fn selmer_difference_from_images(codomain_images: &[LocalImage]) -> i64 {
 /// `Σ_v (log₂ |W_v(E′)| − 1)` with every `|W_v(E′)|` *predicted* from
 /// Tamagawa numbers and minimal models ([`predicted_local_image_size`] on
 /// `E′ = (−2a, a² − 4b)`), over `R` and `primes`: Cassels' formula
-/// [Cassels65] then gives `dim Sel^φ(E) − dim Sel^ψ(E′)` without any
+/// \[Cassels65\] then gives `dim Sel^φ(E) − dim Sel^ψ(E′)` without any
 /// local solvability test, when `primes` holds the primes of
 /// `2b(a² − 4b)`.
 ///
