@@ -79,14 +79,20 @@ fn huge_curves() -> Vec<(&'static str, Curve)> {
     let moved = ch.apply_to_curve(&base);
     assert_ne!(moved.a1(), &q(0.into()));
     vec![
-        ("y^2 = x^3 + x^2 + p1 p2 x", reduced(1.into(), big(P1) * big(P2))),
+        (
+            "y^2 = x^3 + x^2 + p1 p2 x",
+            reduced(1.into(), big(P1) * big(P2)),
+        ),
         // b = 2^3 · 3 · 5 · 7 · p3 · p4: the small part splits at once, the
         // 300-digit part does not.
         (
             "y^2 = x^3 - 3x^2 - 840 p3 p4 x",
             reduced((-3).into(), -(BigInt::from(840) * big(P3) * big(P4))),
         ),
-        ("y^2 = x^3 - p2 p3 x", reduced(0.into(), -(big(P2) * big(P3)))),
+        (
+            "y^2 = x^3 - p2 p3 x",
+            reduced(0.into(), -(big(P2) * big(P3))),
+        ),
         ("moved model of y^2 = x^3 + 5x^2 + p1 p4 x", moved),
     ]
 }
@@ -104,7 +110,10 @@ fn timed_descend(
         t.elapsed().as_secs_f64(),
         match &r {
             Ok(rep) => format!("report, rank {}..{}", rep.rank_lower, rep.rank_upper),
-            Err(e) => format!("error: {}", e.to_string().chars().take(90).collect::<String>()),
+            Err(e) => format!(
+                "error: {}",
+                e.to_string().chars().take(90).collect::<String>()
+            ),
         }
     );
     r
@@ -145,7 +154,10 @@ fn the_json_front_end_reports_a_budget_error_on_one_line() {
     let line = format!("0 1 0 {n} 0");
     let t = Instant::now();
     let out = json_for_line(&line, &small_factor_budget());
-    eprintln!("json_for_line on a 300-digit b: {:.3} s", t.elapsed().as_secs_f64());
+    eprintln!(
+        "json_for_line on a 300-digit b: {:.3} s",
+        t.elapsed().as_secs_f64()
+    );
     assert!(!out.contains('\n'));
     let v: serde_json::Value = serde_json::from_str(&out).unwrap();
     let err = v["error"].as_str().unwrap();

@@ -60,7 +60,9 @@ fn check_contract(line: &str) -> serde_json::Value {
     assert!(!line.contains('\n'), "output spans several lines: {line}");
     let v: serde_json::Value = serde_json::from_str(line)
         .unwrap_or_else(|e| panic!("output is not valid JSON ({e}): {line}"));
-    let obj = v.as_object().unwrap_or_else(|| panic!("not an object: {line}"));
+    let obj = v
+        .as_object()
+        .unwrap_or_else(|| panic!("not an object: {line}"));
     for k in CONTRACT_KEYS {
         assert!(obj.contains_key(k), "key {k} missing in {line}");
     }
@@ -198,7 +200,9 @@ fn the_same_curve_gives_identical_reports_and_display_run_after_run() {
     let opts = small_options();
     let mut decided = 0;
     for line in LINES {
-        let Ok(e) = line.parse::<Curve>() else { continue };
+        let Ok(e) = line.parse::<Curve>() else {
+            continue;
+        };
         let (r1, r2) = (descend(&e, &opts), descend(&e, &opts));
         assert_eq!(r1, r2, "reports differ between runs for {line:?}");
         match (r1, r2) {

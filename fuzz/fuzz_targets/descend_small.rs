@@ -18,7 +18,11 @@ use num_rational::BigRational;
 /// A small fraction from two bytes: numerator in −128..=127, denominator
 /// in 1..=4 (1 half of the time).
 fn frac(n: u8, d: u8) -> BigRational {
-    let den = if d & 1 == 0 { 1 } else { i64::from(d >> 1) % 4 + 1 };
+    let den = if d & 1 == 0 {
+        1
+    } else {
+        i64::from(d >> 1) % 4 + 1
+    };
     BigRational::new(BigInt::from(n as i8), BigInt::from(den))
 }
 
@@ -30,17 +34,16 @@ fn curve_from(data: &[u8]) -> Option<Curve> {
     let byte = |i: usize| data.get(i).copied().unwrap_or(0);
     if byte(0) & 1 == 0 {
         let zero = BigRational::from_integer(BigInt::from(0));
-        let base = Curve::new([
-            zero.clone(),
-            int(byte(1)),
-            zero.clone(),
-            int(byte(2)),
-            zero,
-        ])
-        .ok()?;
+        let base =
+            Curve::new([zero.clone(), int(byte(1)), zero.clone(), int(byte(2)), zero]).ok()?;
         let u = frac(byte(3), byte(4));
-        let ch = ModelChange::new(u, frac(byte(5), byte(6)), frac(byte(7), 0), frac(byte(8), byte(9)))
-            .ok()?;
+        let ch = ModelChange::new(
+            u,
+            frac(byte(5), byte(6)),
+            frac(byte(7), 0),
+            frac(byte(8), byte(9)),
+        )
+        .ok()?;
         Some(ch.apply_to_curve(&base))
     } else {
         let c = [
@@ -71,9 +74,16 @@ fuzz_target!(|data: &[u8]| {
             for p in &report.points {
                 assert!(curve.contains(p), "point {p:?} not on {curve}");
             }
-            assert!(report.rank_lower <= report.rank_upper, "bounds cross on {curve}");
+            assert!(
+                report.rank_lower <= report.rank_upper,
+                "bounds cross on {curve}"
+            );
             match verify_report(&report, 2_000_000) {
-                Ok(v) => assert!(v.all_passed(), "verification failed on {curve}: {:?}", v.failures()),
+                Ok(v) => assert!(
+                    v.all_passed(),
+                    "verification failed on {curve}: {:?}",
+                    v.failures()
+                ),
                 Err(Error::BudgetExhausted { .. }) => {}
                 Err(e) => panic!("verify_report error {e:?} on {curve}"),
             }

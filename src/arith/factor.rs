@@ -1,11 +1,11 @@
 //! Integer factorisation with an effort budget.
 
 use super::ecm::{ecm, ecm_tiers};
-use super::siqs;
 use super::mont::{with_ring, Ring};
 use super::prime::{is_prime, is_prime_u64, prime_table};
 use super::rho::{pollard_brent, rho_u64, Split};
 use super::roots::perfect_power;
+use super::siqs;
 use crate::budget::Budget;
 use crate::error::{Error, Result};
 use num_bigint::{BigInt, BigUint};
@@ -97,16 +97,21 @@ const PRESIEVE_RHO_ITERATIONS: u64 = 1 << 11;
 /// 1. trial division by the primes below 4096;
 /// 2. a cofactor `< 2^64` is split by [`factor_u64`]'s method
 ///    (exact primality, Pollard–Brent rho);
-/// 3. a larger cofactor is tested with Baillie–PSW [`is_prime`], checked for
-///    being a perfect power, then split by Pollard–Brent rho \[Brent80\]
-///    (16384 iterations, finds factors up to about 9 digits) and Lenstra's
-///    ECM \[Lenstra87\] with B1 = 2000, 11000, 50000, … (finds factors of
-///    15, 20, 25 digits with a few dozen to a few hundred curves); both
-///    parts of a split are factored recursively.
+/// 3. a larger cofactor is tested with Baillie–PSW [`is_prime`] and checked
+///    for being a perfect power; a composite of at most 170 bits (about 51
+///    digits) then gets 2048 Pollard–Brent rho iterations \[Brent80\]
+///    (factors up to about 7 digits), above 100 bits a few ECM curves
+///    \[Lenstra87\] with B1 = 150 and 500 (factors up to about 12 digits),
+///    and finally the self-initialising quadratic sieve \[Pomerance85\]
+///    \[Contini97\], whose running time depends only on the size of the
+///    cofactor; a larger composite (or one the sieve fails on) gets 16384
+///    rho iterations and ECM with B1 = 150, 500, 2000, 11000, 50000, …;
+///    both parts of a split are factored recursively.
 ///
 /// Primes above `2^64` in the result are Baillie–PSW probable primes (no
 /// counterexample is known). Everything is deterministic: fixed rho
-/// constants, Suyama parameters `σ = 11, 12, …`.
+/// constants, Suyama parameters `σ = 11, 12, …`, a fixed pseudo-random
+/// sequence for the primes of the sieve polynomials.
 ///
 /// Input cases: `n = ±1` gives an empty factor list with sign `±1`; the
 /// sign of a negative `n` is kept in [`Factorization::sign`].
@@ -116,11 +121,16 @@ const PRESIEVE_RHO_ITERATIONS: u64 = 1 << 11;
 /// prime powers found so far and the unfactored cofactor (their product
 /// times the sign is `n`).
 ///
-/// Budget units: one per trial division and one per modular
-/// multiplication in rho and ECM.
+/// Budget units: one per trial division, one per modular multiplication
+/// in rho and ECM, and in the sieve one per sieve-array update, per
+/// factor-base root update and per trial division of a sieve candidate.
 ///
-/// Cost: any `n` of up to 40 digits whose second-largest prime factor has
-/// at most 20 digits takes well under a second (see docs/performance.md).
+/// Cost: any `n` of up to 40 digits (whatever the sizes of its prime
+/// factors) is split by the sieve in tens of milliseconds: 13–20 million
+/// budget units and 15–40 ms of CPU time for the 40-digit products of two
+/// 20-digit primes measured in docs/performance.md, about 1.4 million
+/// units and 5 ms for 30-digit ones; a 50-digit semiprime took about
+/// 350 million units (0.35 s).
 ///
 /// Example: `factor(−360) = −1 · 2³ · 3² · 5`.
 pub fn factor(n: &BigInt, budget: &mut Budget) -> Result<Factorization> {

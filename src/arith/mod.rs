@@ -4,7 +4,8 @@
 //! kernels, integer square roots.
 //!
 //! * [`prime`]: exact primality below `2^64`, Baillie–PSW above;
-//! * [`factor`](mod@factor): trial division, Pollard–Brent rho, ECM;
+//! * [`factor`](mod@factor): trial division, Pollard–Brent rho, ECM, the
+//!   self-initialising quadratic sieve;
 //! * [`roots`]: integer and rational square roots, perfect squares;
 //! * [`squarefree`]: square-free parts and kernels.
 
@@ -13,8 +14,8 @@ pub mod factor;
 pub(crate) mod mont;
 pub mod prime;
 pub(crate) mod rho;
-pub(crate) mod siqs;
 pub mod roots;
+pub(crate) mod siqs;
 pub mod squarefree;
 
 pub use factor::{factor, factor_u64, Factorization};

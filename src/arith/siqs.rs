@@ -156,7 +156,9 @@ fn is_residue(a: u64, p: u64) -> bool {
 /// to `Q(x)` minus `½·log k`.
 fn multiplier(n: &BigUint) -> u64 {
     const KS: [u64; 16] = [1, 3, 5, 7, 11, 13, 15, 17, 19, 21, 23, 29, 31, 33, 35, 37];
-    let small: Vec<u64> = (3u64..200).filter(|&p| (2..p).all(|d| p % d != 0)).collect();
+    let small: Vec<u64> = (3u64..200)
+        .filter(|&p| (2..p).all(|d| p % d != 0))
+        .collect();
     let mut best = (f64::MIN, 1u64);
     for &k in &KS {
         let kn8 = (super::prime::rem_u64(n, 8) * k) % 8;
@@ -216,7 +218,11 @@ pub(crate) fn siqs(n: &BigUint, budget: &mut Budget) -> Split {
         .unwrap_or(&PARAMS[PARAMS.len() - 1]);
 
     // Factor base: 2, then the odd primes p with (kN/p) ≠ −1.
-    let mut fb: Vec<FbPrime> = vec![FbPrime { p: 2, t: 1, logp: 1 }];
+    let mut fb: Vec<FbPrime> = vec![FbPrime {
+        p: 2,
+        t: 1,
+        logp: 1,
+    }];
     let mut p = 3u64;
     while fb.len() < fb_size {
         if (2..).take_while(|d| d * d <= p).all(|d| p % d != 0) {
@@ -387,8 +393,7 @@ pub(crate) fn siqs(n: &BigUint, budget: &mut Budget) -> Split {
                 return Split::Exhausted;
             }
             let c_big = (&b * &b - &knb) / &a;
-            let (Some(ai), Some(bi), Some(ci)) = (a.to_i128(), b.to_i128(), c_big.to_i128())
-            else {
+            let (Some(ai), Some(bi), Some(ci)) = (a.to_i128(), b.to_i128(), c_big.to_i128()) else {
                 return Split::Failed;
             };
             // Sieve.
@@ -448,9 +453,8 @@ pub(crate) fn siqs(n: &BigUint, budget: &mut Budget) -> Split {
                     }
                     for (i, f) in fb.iter().enumerate().skip(1) {
                         let p = f.p as usize;
-                        let hit = in_a[i]
-                            || pos % p == root1[i] as usize
-                            || pos % p == root2[i] as usize;
+                        let hit =
+                            in_a[i] || pos % p == root1[i] as usize || pos % p == root2[i] as usize;
                         if hit {
                             let pp = f.p as u128;
                             while v % pp == 0 {
@@ -607,16 +611,42 @@ mod tests {
     #[test]
     fn the_sieve_splits_semiprimes_of_20_to_40_digits() {
         // Factors from tests/data/factor_built.txt (sympy 1.14.0 / python-flint 0.9.0).
-        for (p, q) in [
-            (1303950553u64, 1822850903u64),
-            (3795742297, 5942859581),
-        ] {
+        for (p, q) in [(1303950553u64, 1822850903u64), (3795742297, 5942859581)] {
             let n = BigUint::from(p) * BigUint::from(q);
             match siqs(&n, &mut Budget::unlimited()) {
                 Split::Found(d) => assert!(d == BigInt::from(p) || d == BigInt::from(q)),
                 other => panic!("{n}: {other:?}"),
             }
         }
+    }
+
+    #[test]
+    fn the_sieve_splits_a_product_of_two_15_digit_primes() {
+        // 370961196796819 · 720421300418621: both prime by sympy 1.14 isprime
+        // (the first number of the 15-digit group of benches/arith.rs).
+        let n: BigUint = "267248347801212327008981166599".parse().unwrap();
+        match siqs(&n, &mut Budget::unlimited()) {
+            Split::Found(d) => {
+                let d = d.magnitude().clone();
+                assert!(d > BigUint::one() && d < n && (&n % &d).is_zero());
+            }
+            other => panic!("{other:?}"),
+        }
+    }
+
+    #[test]
+    fn a_small_budget_stops_the_sieve() {
+        let n: BigUint = "267248347801212327008981166599".parse().unwrap();
+        let mut b = Budget::with_units(1000);
+        assert_eq!(siqs(&n, &mut b), Split::Exhausted);
+    }
+
+    #[test]
+    fn moduli_outside_the_size_range_are_declined() {
+        let small = BigUint::from(1_009u64 * 1_013);
+        assert_eq!(siqs(&small, &mut Budget::unlimited()), Split::Failed);
+        let huge = (BigUint::one() << 200u32) + 1u32;
+        assert_eq!(siqs(&huge, &mut Budget::unlimited()), Split::Failed);
     }
 
     #[test]

@@ -219,6 +219,12 @@ pub fn compute_side(
         conditions.push(LocalCondition::from_masks(v.clone(), &w.members));
         local_images.push(w);
     }
+    // Independent check (debug builds): |W_v| from the Tamagawa numbers of
+    // E and E' must equal the size found by the local solvability tests.
+    debug_assert!(
+        crate::selmer::local_count::images_match_prediction(a, b, &local_images),
+        "local image sizes disagree with Tamagawa numbers for a={a} b={b}"
+    );
     let group = selmer_from_local_images(&qs2, &conditions)?;
 
     let mut known = Subspace::zero(qs2.dim());

@@ -188,7 +188,9 @@ impl LocalSolubility {
 ///
 /// Cost: real place, `O(log(coefficients))` Sturm evaluations; prime `p`,
 /// at most `4·(v_p(Δ) + 4)` classes, each costing `p` residue tests for
-/// `p < 64` and `O(log p)` polynomial products above.
+/// `p < 64` and `O(log p)` polynomial products above (in machine words for
+/// `p < 2^63`). For the spaces of a congruent-number descent this is about
+/// 1–3 µs per class (see docs/performance.md).
 ///
 /// Example: `y² = −34x⁴ + 2z⁴`, i.e. `[−34, 0, 0, 0, 2]` (the curve
 /// `2Y² = 1 − 17X⁴` of \[Lind40\], \[Reichardt42\] with `y = 2Y`), is soluble
