@@ -2,12 +2,22 @@
 //! reduced-model computation on curves with 20-, 50- and 100-digit
 //! coefficients, plus 2-torsion and the torsion subgroup.
 //!
+//! The `curve/family/*` benchmarks time each curves-layer call the descent
+//! makes, over two whole families per iteration: the congruent-number curves
+//! y² = x³ − n²x for square-free n ≤ 2000 (1215 curves) and
+//! y² = x³ + ax² + bx with |a|, |b| ≤ 30 (3650 nonsingular curves), plus
+//! `descend` with `DescentOptions::selmer_only()` end to end. Divide by the
+//! family size for the cost per curve.
+//!
 //! Run: `cargo bench --bench curve`.
 
 use criterion::{black_box, criterion_group, criterion_main, Criterion};
 use isodescent::curve::{
-    first_two_torsion_model, torsion_subgroup, two_torsion_points, Curve, Point,
+    first_two_torsion_model, torsion_subgroup, two_torsion_model, two_torsion_points, Curve, Point,
+    TwoIsogeny, TwoTorsionModel,
 };
+use isodescent::descent::{descend, DescentOptions};
+use isodescent::Budget;
 use num_bigint::BigInt;
 use num_rational::BigRational;
 use num_traits::Zero;
@@ -89,9 +99,143 @@ fn bench(c: &mut Criterion) {
     }
 }
 
+/// The two descent families of the module docs.
+fn families() -> Vec<(&'static str, Vec<Curve>)> {
+    let squarefree = |n: i64| !(2..).take_while(|p| p * p <= n).any(|p| n % (p * p) == 0);
+    let congruent: Vec<Curve> = (1..=2000i64)
+        .filter(|&n| squarefree(n))
+        .filter_map(|n| Curve::from_ints([0, 0, 0, -n * n, 0]).ok())
+        .collect();
+    let mut ab = Vec::new();
+    for a in -30..=30i64 {
+        for b in -30..=30i64 {
+            if let Ok(c) = Curve::from_ints([0, a, 0, b, 0]) {
+                ab.push(c);
+            }
+        }
+    }
+    vec![("congruent_2000", congruent), ("ab_30", ab)]
+}
+
+fn bench_families(c: &mut Criterion) {
+    for (name, curves) in families() {
+        let ts: Vec<Vec<Point>> = curves.iter().map(two_torsion_points).collect();
+        let models: Vec<Vec<TwoTorsionModel>> = curves
+            .iter()
+            .zip(&ts)
+            .map(|(e, ps)| {
+                ps.iter()
+                    .filter_map(|p| two_torsion_model(e, p).ok())
+                    .collect()
+            })
+            .collect();
+        let isogenies: Vec<TwoIsogeny> = models
+            .iter()
+            .flatten()
+            .filter_map(|m| TwoIsogeny::from_model(m).ok())
+            .collect();
+        let tors: Vec<_> = curves.iter().map(torsion_subgroup).collect();
+        let mut g = c.benchmark_group(format!("curve/family/{name}"));
+        g.sample_size(10);
+        g.bench_function("curve_new", |b| {
+            b.iter(|| {
+                for e in &curves {
+                    black_box(Curve::new(e.coefficients().clone()).ok());
+                }
+            })
+        });
+        g.bench_function("two_torsion_points", |b| {
+            b.iter(|| {
+                for e in &curves {
+                    black_box(two_torsion_points(e));
+                }
+            })
+        });
+        g.bench_function("torsion_subgroup_of_e", |b| {
+            b.iter(|| {
+                for e in &curves {
+                    black_box(torsion_subgroup(e));
+                }
+            })
+        });
+        g.bench_function("two_torsion_model_all_points", |b| {
+            b.iter(|| {
+                for (e, ps) in curves.iter().zip(&ts) {
+                    for p in ps {
+                        black_box(two_torsion_model(e, p).ok());
+                    }
+                }
+            })
+        });
+        g.bench_function("isogeny_from_model", |b| {
+            b.iter(|| {
+                for m in models.iter().flatten() {
+                    black_box(TwoIsogeny::from_model(m).ok());
+                }
+            })
+        });
+        g.bench_function("torsion_subgroup_of_codomains", |b| {
+            b.iter(|| {
+                for i in &isogenies {
+                    black_box(torsion_subgroup(i.codomain()));
+                }
+            })
+        });
+        g.bench_function("contains_torsion_points", |b| {
+            b.iter(|| {
+                for (e, t) in curves.iter().zip(&tors) {
+                    for p in t.points() {
+                        black_box(e.contains(p));
+                    }
+                }
+            })
+        });
+        g.bench_function("model_change_there_and_back", |b| {
+            b.iter(|| {
+                for (ms, t) in models.iter().zip(&tors) {
+                    for m in ms {
+                        for p in t.points() {
+                            black_box(m.to_input(&m.from_input(p)));
+                        }
+                    }
+                }
+            })
+        });
+        let codomain_torsion: Vec<Vec<Point>> = isogenies
+            .iter()
+            .map(|i| torsion_subgroup(i.codomain()).points().to_vec())
+            .collect();
+        g.bench_function("dual_image_of_codomain_torsion", |b| {
+            b.iter(|| {
+                for (i, pts) in isogenies.iter().zip(&codomain_torsion) {
+                    for q in pts {
+                        black_box(i.dual_image(q));
+                    }
+                }
+            })
+        });
+        g.bench_function("local_data", |b| {
+            b.iter(|| {
+                for e in &curves {
+                    black_box(e.local_data(&mut Budget::unlimited()).ok());
+                }
+            })
+        });
+        let opts = DescentOptions::selmer_only();
+        g.bench_function("descend_selmer_only", |b| {
+            b.iter(|| {
+                for e in &curves {
+                    black_box(descend(e, &opts).ok());
+                }
+            })
+        });
+        g.finish();
+    }
+}
+
 criterion_group! {
     name = benches;
     config = Criterion::default().sample_size(20).measurement_time(std::time::Duration::from_secs(2)).warm_up_time(std::time::Duration::from_millis(500));
-    targets = bench
+    targets = bench, bench_families
 }
 criterion_main!(benches);

@@ -192,3 +192,60 @@ fn images_of_the_other_two_torsion_points_are_the_codomain_two_torsion() {
     assert_eq!(img, Point::from_ints(4, -8));
     assert_eq!(phi.dual_image(&img), phi.domain().double(&p));
 }
+
+#[test]
+fn the_direct_reduced_model_of_an_integral_a_b_curve_agrees_with_the_general_construction() {
+    // For y^2 = x^3 + a2 x^2 + a4 x + a6 with integer coefficients and an
+    // integer root e the reduced model is built directly; moving the same
+    // curve by a change with s, t ≠ 0 forces the general construction.
+    // E_T is unique up to u = ±1 (a ↦ a/u², b ↦ b/u⁴) once integral and
+    // reduced (common practice), so both must give the same (a, b).
+    let cases: [[i64; 5]; 5] = [
+        [0, -4, 0, -7, 10], // (x - 1)(x + 2)(x - 5)
+        [0, 0, 0, -1, 0],   // y^2 = x^3 - x
+        [0, 3, 0, -10, 0],  // x(x - 2)(x + 5)
+        [0, 0, 0, 0, 1],    // y^2 = x^3 + 1: one point (-1, 0)
+        [0, 12, 0, 32, 0],  // x(x + 4)(x + 8): p = 2 divides out
+    ];
+    let moved = isodescent::curve::ModelChange::new(q(1, 1), q(3, 1), q(1, 1), q(-2, 1)).unwrap();
+    for a in cases {
+        let e = Curve::from_ints(a).unwrap();
+        let e2 = moved.apply_to_curve(&e);
+        let ts = two_torsion_points(&e);
+        assert!(!ts.is_empty());
+        for t in ts {
+            let direct = two_torsion_model(&e, &t).unwrap();
+            let general = two_torsion_model(&e2, &moved.to_new(&t)).unwrap();
+            assert_eq!(
+                (&direct.a, &direct.b),
+                (&general.a, &general.b),
+                "{e}, T = {t}"
+            );
+            assert_eq!(direct.change().apply_to_curve(&e), *direct.curve());
+            assert_eq!(direct.from_input(&t), Point::from_ints(0, 0));
+        }
+    }
+}
+
+#[test]
+fn reduction_finds_a_prime_above_the_trial_division_limit() {
+    // 4099 is prime (checked by trial division below); with a = 3·4099² and
+    // b = 5·4099⁴, gcd(a², b) = 4099⁴ ≥ 4096⁴ is left after trial division,
+    // so the factoring step must find D = 4099. With the cofactor k the
+    // Mersenne prime 2^61 − 1 (prime: from memory, a classical fact) the gcd
+    // 4099⁴k² exceeds 2^128 (the big-integer phase) and D is still 4099.
+    let p = BigInt::from(4099);
+    assert!((2..65).all(|d| 4099 % d != 0));
+    let p2 = &p * &p;
+    let m61 = (BigInt::from(1) << 61) - 1;
+    for k in [BigInt::from(1), m61] {
+        let a = BigInt::from(3) * &p2 * &k;
+        let b = BigInt::from(5) * &p2 * &p2 * &k * &k;
+        let e =
+            Curve::from_bigints([BigInt::zero(), a, BigInt::zero(), b, BigInt::zero()]).unwrap();
+        let m = two_torsion_model(&e, &Point::from_ints(0, 0)).unwrap();
+        assert_eq!(m.a, BigInt::from(3) * &k, "k = {k}");
+        assert_eq!(m.b, BigInt::from(5) * &k * &k, "k = {k}");
+        assert!(is_reduced_at_small_primes(&m.a, &m.b));
+    }
+}

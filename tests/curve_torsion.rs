@@ -217,3 +217,121 @@ fn torsion_of_curves_with_thirty_digit_coefficients_is_found_quickly_and_exactly
     assert_eq!(g.order() % 7, 0);
     check_group_is_consistent(&e, &g);
 }
+
+/// The model y² = x³ + b2x² + 8b4x + 16b6 of E (the scaling u = 1/2 after
+/// completing the square, [Sil09, III.1]): integral with a1 = a3 = 0 when E
+/// is integral, and with a2 ≠ 0 in general.
+fn completed_square_model(e: &Curve) -> Curve {
+    Curve::new([
+        BigRational::zero(),
+        e.b2().clone(),
+        BigRational::zero(),
+        e.b4() * z(8),
+        e.b6() * z(16),
+    ])
+    .unwrap()
+}
+
+#[test]
+fn kubert_families_keep_their_structure_on_the_completed_square_model() {
+    // The torsion structure is an invariant of the curve, so the general
+    // model E(b, c) and its model y² = x³ + b2x² + 8b4x + 16b6 must agree;
+    // the second is integral with a2 ≠ 0, the shape the descent uses.
+    let ts = small_rationals();
+    for n in [4u32, 5, 6, 7, 8, 9, 10, 12] {
+        let mut tested = 0;
+        for t in ts.iter().take(12) {
+            let Some((b, c)) = kubert(n, t) else { continue };
+            let Some(e) = tate_normal(&b, &c) else {
+                continue;
+            };
+            let (e_int, _) = isodescent::curve::integral_model(&e);
+            let m = completed_square_model(&e_int);
+            assert!(m.is_integral() && m.a1().is_zero() && m.a3().is_zero());
+            let g = torsion_subgroup(&m);
+            assert_eq!(
+                g.structure(),
+                torsion_subgroup(&e).structure(),
+                "N={n} t={t}"
+            );
+            assert_eq!(g.order() % n, 0);
+            check_group_is_consistent(&m, &g);
+            tested += 1;
+        }
+        assert!(tested >= 4, "N={n}: only {tested} nonsingular members");
+    }
+}
+
+#[test]
+fn torsion_points_move_with_a_change_of_model() {
+    // τ maps E(Q)_tors onto E′(Q)_tors (common practice): the points found on
+    // an integral a1 = a3 = 0 model (computed there directly) and on a moved
+    // general model (computed via the short model) must correspond.
+    let ch = isodescent::curve::ModelChange::new(q(2, 3), q(1, 2), q(-1, 1), q(3, 4)).unwrap();
+    for a in [
+        [0, 0, 0, -1, 0],
+        [0, 1, 0, -4, -4],
+        [0, 0, 0, 4, 0],
+        [0, -1, 0, -4, 4],
+        [0, 5, 0, 4, 0],
+        [0, 0, 0, -25, 0],
+        [0, 2, 0, -3, 0],
+    ] {
+        let e = Curve::from_ints(a).unwrap();
+        let e2 = ch.apply_to_curve(&e);
+        let g = torsion_subgroup(&e);
+        let g2 = torsion_subgroup(&e2);
+        assert_eq!(g.structure(), g2.structure(), "{e}");
+        let mut moved: Vec<Point> = g.points().iter().map(|p| ch.to_new(p)).collect();
+        moved.sort();
+        assert_eq!(moved, g2.points(), "{e}");
+        check_group_is_consistent(&e, &g);
+    }
+}
+
+#[test]
+fn torsion_of_small_a_b_curves_matches_a_nagell_lutz_search() {
+    // Oracle: on y² = F(x) = x³ + ax² + bx with integer coefficients a
+    // torsion point has integer coordinates and y = 0 or y² | disc F
+    // (Nagell–Lutz, Silverman–Tate, Rational Points on Elliptic Curves,
+    // II.5). With disc F = b²(a² − 4b), the bound |x| ≤ max(1 + |a| + |b|,
+    // √|disc F|) + 1 follows since F(x) ≥ x² once x ≥ 1 + |a| + |b|, and
+    // F(x) < 0 below the least real root, which is ≥ −(1 + |a| + |b|)
+    // (Cauchy's bound). The candidates of finite order are those with
+    // nP = O for some n ≤ 12 (Mazur [Maz77]: every torsion point has order
+    // at most 12).
+    let mut checked = 0;
+    for a in -12i64..=12 {
+        for b in -12i64..=12 {
+            let Ok(e) = Curve::from_ints([0, a, 0, b, 0]) else {
+                continue;
+            };
+            let disc = (b * b * (a * a - 4 * b)).abs();
+            let bound = (1 + a.abs() + b.abs()).max((disc as f64).sqrt() as i64 + 1) + 1;
+            let mut found = vec![Point::Infinity];
+            for x in -bound..=bound {
+                let fx = x * x * x + a * x * x + b * x;
+                if fx < 0 {
+                    continue;
+                }
+                let y = (fx as f64).sqrt().round() as i64;
+                let y = (y - 2..=y + 2).find(|y| *y >= 0 && y * y == fx);
+                let Some(y) = y else { continue };
+                if y != 0 && disc % (y * y) != 0 {
+                    continue;
+                }
+                for yy in if y == 0 { vec![0] } else { vec![-y, y] } {
+                    let p = Point::from_ints(x, yy);
+                    if (1..=12).any(|n| e.mul_i64(&p, n).is_infinity()) {
+                        found.push(p);
+                    }
+                }
+            }
+            found.sort();
+            let g = torsion_subgroup(&e);
+            assert_eq!(g.points(), found.as_slice(), "a={a} b={b}");
+            checked += 1;
+        }
+    }
+    assert!(checked > 500);
+}

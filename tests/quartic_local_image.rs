@@ -122,7 +122,7 @@ fn relevant_places_are_r_two_and_the_bad_primes() {
     );
     // Missing 17: the cofactor is reported.
     assert!(matches!(
-        relevant_places(&b(0), &b(-17), &b(-1), &[two.clone()]),
+        relevant_places(&b(0), &b(-17), &b(-1), std::slice::from_ref(&two)),
         Err(Error::InvalidArgument { .. })
     ));
     // d with a new prime (d ∤ b) must be covered too.

@@ -448,9 +448,7 @@ pub(crate) fn siqs(n: &BigUint, budget: &mut Budget) -> Split {
                     let mut v = val.unsigned_abs();
                     let tz = v.trailing_zeros();
                     v >>= tz;
-                    for _ in 0..tz {
-                        primes.push(0);
-                    }
+                    primes.extend(std::iter::repeat(0).take(tz as usize));
                     for (i, f) in fb.iter().enumerate().skip(1) {
                         let p = f.p as usize;
                         let hit =

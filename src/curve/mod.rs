@@ -16,9 +16,13 @@
 //! * [`isogeny`]: [`TwoIsogeny`] φ: E → E′, y² = x³ − 2ax² + (a² − 4b)x,
 //!   and its dual φ̂, with φ̂ ∘ φ = \[2\] [ST92, III.4].
 //! * [`torsion`]: [`torsion_subgroup`], exact, by point counts at good primes
-//!   (reduction is injective on torsion [Sil09, VII.3.1]), Nagell–Lutz
-//!   integrality [Sil09, VIII.7.2] and integer roots of division
-//!   polynomials.
+//!   (reduction is injective on torsion [Sil09, VII.3.1]), with an early
+//!   exit when the points of order 2 already account for the bound,
+//!   Nagell–Lutz integrality [Sil09, VIII.7.2], halving for the 2-primary
+//!   part and integer roots of division polynomials for odd primes.
+//!
+//! Integral models are handled in integers throughout (machine words where
+//! nothing overflows); j is reduced to lowest terms only when asked for.
 //!
 //! Integer roots of integer polynomials — the one root-finding tool behind
 //! 2-torsion and torsion — are computed exactly by p-adic (Hensel) lifting

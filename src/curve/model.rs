@@ -190,7 +190,11 @@ impl ModelChange {
         match p {
             Point::Infinity => Point::Infinity,
             Point::Affine { x, y } => {
-                let dx = if self.r.is_zero() { x.clone() } else { x - &self.r };
+                let dx = if self.r.is_zero() {
+                    x.clone()
+                } else {
+                    x - &self.r
+                };
                 let mut ny = if self.s.is_zero() {
                     y.clone()
                 } else {

@@ -135,8 +135,7 @@ impl Curve {
                     let (xd, yd) = (x.denom(), y.denom());
                     let xd2 = xd * xd;
                     let lhs = yn * &xd2 * (yn * xd + a1 * xn * yd + a3 * xd * yd);
-                    let rhs =
-                        yd * yd * (((xn + a2 * xd) * xn + a4 * &xd2) * xn + a6 * &xd2 * xd);
+                    let rhs = yd * yd * (((xn + a2 * xd) * xn + a4 * &xd2) * xn + a6 * &xd2 * xd);
                     return lhs == rhs;
                 }
                 let [a1, a2, a3, a4, a6] = self.coefficients();

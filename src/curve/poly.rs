@@ -18,7 +18,11 @@
 //! balanced residue is tested exactly. The answer is therefore exact; the
 //! cost is a brute-force root search mod a small p plus n Newton lifts.
 //!
-//! A polynomial that is not squarefree (never the case for the callers in
+//! Polynomials of degree 1 or 2 (after removing a factor x^k) are solved
+//! directly: a division, or the quadratic formula with an exact integer
+//! square root of the discriminant.
+//!
+//! A polynomial of degree ≥ 3 that is not squarefree (never the case for the callers in
 //! this layer, which pass polynomials whose roots are proved distinct) is
 //! replaced by its squarefree part f / gcd(f, f′) after a few dozen primes
 //! fail, which restores the hypothesis.

@@ -1,35 +1,52 @@
 //! The torsion subgroup E(Q)_tors, exactly.
 //!
 //! # Method
-//! Work on the integral short model E_s: y² = x³ + A x + B
-//! (`two_torsion::short_integral_model`).
+//! Work on an integral model M: y² = F(x) = x³ + f2x² + f4x + f6 (f_i ∈ Z):
+//! the input itself when it is integral with a1 = a3 = 0 (as every model the
+//! descent builds is), else its integral short model
+//! (`two_torsion::short_integral_model`). Results are mapped back to the
+//! input model.
 //!
-//! 1. **A multiple of the order.** For a prime p ≥ 3 of good reduction the
-//!    reduction map E(Q)_tors → Ẽ(F_p) is injective [Sil09, VII.3.1(b)], so
-//!    #E(Q)_tors divides N = gcd #Ẽ(F_p) over the first 24 primes p ≥ 5 with
-//!    p ∤ 4A³ + 27B². Each #Ẽ(F_p) = p + 1 + Σ_x (x³ + Ax + B | p) is a
-//!    Legendre-symbol sum read off a table of squares mod p.
-//! 2. **Integrality.** By the Nagell–Lutz theorem [Sil09, VIII.7.2] every
-//!    rational torsion point of E_s has integer coordinates, so only integer
-//!    roots of the polynomials below matter; they are found exactly by
-//!    p-adic lifting (`poly` module).
-//! 3. **The ℓ-primary part, for each prime ℓ | N.** With the division
+//! 1. **Points of order 2.** (e, 0) with e an integer root of F.
+//! 2. **A multiple of the order.** For an odd prime p of good reduction
+//!    (p ∤ Δ(M)) the reduction map E(Q)_tors → Ẽ(F_p) is injective
+//!    [Sil09, VII.3.1(b)] (the kernel of reduction has no torsion when
+//!    v(p) < p − 1 [Sil09, IV.6.1]), so #E(Q)_tors divides
+//!    N = gcd #M̃(F_p) over the first 24 such primes. Each
+//!    #M̃(F_p) = p + 1 + Σ_x (F(x) | p) is a Legendre-symbol sum over a
+//!    precomputed table, with F(x) mod p stepped by finite differences in
+//!    machine words. **Early exit:** as soon as the running gcd equals the
+//!    number of points already found in step 1, those points are the whole
+//!    group (they form a subgroup whose order is a multiple of #E(Q)_tors),
+//!    and nothing else is computed; this settles the common groups Z/2 and
+//!    Z/2 × Z/2 after a few primes.
+//! 3. **Integrality.** By the Nagell–Lutz theorem [Sil09, VIII.7.2],
+//!    [ST92, II.5] every rational torsion point of M has integer
+//!    coordinates, so only integer roots of the polynomials below matter;
+//!    they are found exactly by p-adic lifting (`poly` module).
+//! 4. **The 2-primary part** (if 2 | N), by halving on M: the points of
+//!    order 4 over T = (e, 0) come from two square tests (see
+//!    `two_primary`), the points of order 2^k, k ≥ 3, from integer roots of
+//!    the halving quartic x⁴ − b4x² − 2b6x − b8 − x_Q(4x³ + b2x² + 2b4x + b6)
+//!    [Sil09, III.2.3(d)]; levels stop when one is empty or 2^k ∤ N.
+//! 5. **The ℓ-primary part, for each odd prime ℓ | N**, on the integral
+//!    short model E_s: y² = x³ + Ax + B of M. With the division
 //!    polynomials ψ_n [Sil09, Exercise 3.7] (ψ_n = f_n(x) for odd n,
 //!    ψ_n = 2y·f_n(x) for even n, f_0 = 0, f_1 = f_2 = 1,
 //!    f_3 = 3x⁴ + 6Ax² + 12Bx − A²,
 //!    f_4 = 2(x⁶ + 5Ax⁴ + 20Bx³ − 5A²x² − 4ABx − 8B² − A³) and the usual
 //!    doubling recurrences), the points of order ℓ are the (x, ±y) with x an
-//!    integer root of x³ + Ax + B (ℓ = 2) or of f_ℓ (ℓ odd) and
-//!    y² = x³ + Ax + B a square. The points of order 4 come from the integer roots of
-//!    f_4/2. A point P of order ℓ^(k+1) (k ≥ 1, and k ≥ 2 when ℓ = 2) is a
-//!    solution of ℓP = Q with Q of order ℓ^k: x(P) is an integer root of
-//!    φ_ℓ(x) − x(Q)ψ_ℓ(x)², φ_ℓ = xψ_ℓ² − ψ_(ℓ+1)ψ_(ℓ−1) [Sil09, III.3.7],
-//!    and each candidate is confirmed by computing ℓP. Levels stop when one
-//!    is empty or ℓ^(k+1) ∤ N. Every polynomial used has distinct roots
-//!    (for odd ℓ, or ℓ = 2 with 2Q ≠ O, the ℓ² solutions of ℓP = Q have
-//!    distinct x), as the root finder requires.
-//! 4. **Assembly.** E(Q)_tors is the direct sum of its ℓ-primary parts; its
-//!    structure Z/n1 × Z/n2 (n2 | n1) has n1 the largest order of an element.
+//!    integer root of f_ℓ and y² = x³ + Ax + B a square. A point P of
+//!    order ℓ^(k+1) (k ≥ 1) is a solution of ℓP = Q with Q of order ℓ^k:
+//!    x(P) is an integer root of φ_ℓ(x) − x(Q)ψ_ℓ(x)²,
+//!    φ_ℓ = xψ_ℓ² − ψ_(ℓ+1)ψ_(ℓ−1) [Sil09, III.3.7], and each candidate is
+//!    confirmed by computing ℓP. Levels stop when one is empty or
+//!    ℓ^(k+1) ∤ N. Every polynomial used has distinct roots (the ℓ² solutions
+//!    of ℓP = Q have distinct x when ℓ is odd), as the root finder requires.
+//! 6. **Assembly.** E(Q)_tors is the direct sum of its ℓ-primary parts; the
+//!    order of a sum is the product of the orders (known from the levels);
+//!    its structure Z/n1 × Z/n2 (n2 | n1) has n1 the largest order of an
+//!    element.
 //!
 //! Mazur's theorem \[Maz77\] (the group is Z/n, n ≤ 10 or n = 12, or
 //! Z/2 × Z/2m, m ≤ 4) is *not* used by the algorithm; the tests check it.
@@ -83,8 +100,10 @@ impl TorsionGroup {
     pub fn points(&self) -> &[Point] {
         &self.points
     }
-    /// The multiple of the order obtained from point counts mod p
-    /// (step 1 of the module docs).
+    /// The multiple N of the order obtained from point counts mod p
+    /// (step 2 of the module docs): the gcd over the good primes used,
+    /// which are the first 24, or fewer when the early exit applied (then
+    /// N equals the order).
     pub fn reduction_bound(&self) -> u32 {
         self.bound
     }
@@ -213,7 +232,11 @@ fn two_primary(work: &WorkModel, roots: &[BigInt], e_max: u32) -> Primary {
     if e_max < 2 || roots.is_empty() {
         return part;
     }
-    let (f2, f4, f6) = (work.coefficient(2), work.coefficient(1), work.coefficient(0));
+    let (f2, f4, f6) = (
+        work.coefficient(2),
+        work.coefficient(1),
+        work.coefficient(0),
+    );
     // Order 4.
     let mut level2 = Vec::new();
     let mut parents2 = Vec::new();
@@ -595,11 +618,30 @@ fn square_tables() -> &'static [Vec<i8>] {
 
 /// #M̃(F_p) = p + 1 + Σ_x χ(x³ + f2x² + f4x + f6) for p odd (residues of
 /// the f_i given), with χ read from `chi`.
+///
+/// F(x) mod p is stepped by finite differences (F(x + 1) = F(x) + D1(x),
+/// D1(x + 1) = D1(x) + D2(x), D2(x + 1) = D2(x) + 6), so the loop has
+/// additions only.
 fn count_points_with_table(f2: u64, f4: u64, f6: u64, p: u64, chi: &[i8]) -> u64 {
+    let add = |a: u64, b: u64| {
+        let s = a + b;
+        if s >= p {
+            s - p
+        } else {
+            s
+        }
+    };
+    // F(0) = f6, D1(0) = F(1) − F(0) = 1 + f2 + f4, D2(0) = 6 + 2f2.
+    let mut v = f6 % p;
+    let mut d1 = (1 + f2 + f4) % p;
+    let mut d2 = (6 + 2 * f2) % p;
+    let six = 6 % p;
     let mut total: i64 = p as i64 + 1;
-    for x in 0..p {
-        let v = (((x + f2) * x % p + f4) * x + f6) % p;
+    for _ in 0..p {
         total += chi[v as usize] as i64;
+        v = add(v, d1);
+        d1 = add(d1, d2);
+        d2 = add(d2, six);
     }
     total as u64
 }
@@ -651,6 +693,29 @@ mod tests {
                         }
                     }
                     assert_eq!(count_points_mod_p(a, b, p), n, "p={p} a={a} b={b}");
+                }
+            }
+        }
+    }
+
+    #[test]
+    fn point_counts_with_an_x_squared_term_match_a_brute_force_count() {
+        for p in [3u64, 5, 7, 11, 13, 101] {
+            let chi = legendre_table(p);
+            for f2 in 0..4u64 {
+                for f4 in 0..4u64 {
+                    for f6 in 0..4u64 {
+                        let mut n = 1u64; // O
+                        for x in 0..p {
+                            let fx = (x * x * x + f2 * x * x + f4 * x + f6) % p;
+                            n += (0..p).filter(|y| y * y % p == fx).count() as u64;
+                        }
+                        assert_eq!(
+                            count_points_with_table(f2 % p, f4 % p, f6 % p, p, &chi),
+                            n,
+                            "p={p} f=({f2},{f4},{f6})"
+                        );
+                    }
                 }
             }
         }

@@ -23,10 +23,15 @@
 //!    D⁴ | b (equivalently D⁴ | gcd(a², b)), gives a/D², b/D⁴: afterwards
 //!    no prime p has p² | a and p⁴ | b together.
 //!
-//! Each step is exact over Q; the composite change is recorded so points
-//! can be moved both ways. Step 3 factors gcd(a², b) (after trial division
-//! by the primes below 4096, only when the cofactor is at least 2^48, since
-//! a prime p > 4096 with p⁴ | G forces G > 2^48).
+//! Each step is exact over Q; the composite change (D/d, x_T, −a1/2,
+//! −(a1x_T + a3)/2) is recorded so points can be moved both ways. When the
+//! input is integral with a1 = a3 = 0 and x_T ∈ Z (every model the descent
+//! builds), steps 1–2 reduce to a = a2 + 3x_T, b = F′(x_T) for
+//! F = x³ + a2x² + a4x + a6, computed in integers. Step 3 divides
+//! G = gcd(a², b) by the primes below 4096 (in machine words once G < 2^128,
+//! stopping as soon as p⁴ exceeds the cofactor), and factors the cofactor
+//! only when it is at least 4096⁴ (a prime p > 4096 with p⁴ | G forces
+//! that).
 
 use num_bigint::BigInt;
 use num_integer::Integer;
@@ -224,7 +229,13 @@ pub fn two_torsion_model_with_budget(
         }
         let a = a2 + x * 3;
         let b = (x * 3 + a2 * 2) * x + a4;
-        (a, b, BigInt::one(), BigRational::zero(), BigRational::zero())
+        (
+            a,
+            b,
+            BigInt::one(),
+            BigRational::zero(),
+            BigRational::zero(),
+        )
     } else {
         if !(yt * rat(2) + e.a1() * xt + e.a3()).is_zero() {
             return Err(not_order_two(e, t));

@@ -35,10 +35,12 @@ use crate::error::{Error, Result};
 
 /// Longest accepted numerator or denominator, in digits, when parsing.
 ///
-/// Computing j = c4³/Δ in lowest terms needs a gcd of numbers about 12
-/// times this long, and big-integer gcd is quadratic: at 2000 digits a
-/// curve parses in a fraction of a second, at 10⁵ digits it would take
-/// minutes. [`Curve::new`] itself has no cap (its cost is the caller's).
+/// Reducing invariants with denominators (Δ/d¹² for a model with
+/// denominators d) and j = c4³/Δ (on request) to lowest terms needs gcds of
+/// numbers about 12 times this long, and big-integer gcd is quadratic: at
+/// 2000 digits a curve parses in a fraction of a second, at 10⁵ digits
+/// that would take minutes. [`Curve::new`] itself has no cap (its cost is
+/// the caller's).
 pub const MAX_COEFFICIENT_DIGITS: usize = 2_000;
 
 /// An elliptic curve over Q given by a (general) Weierstrass model, with its
@@ -174,8 +176,14 @@ impl Curve {
     pub fn new(a: [BigRational; 5]) -> Result<Curve> {
         let integral = a.iter().all(|c| c.is_integer());
         let inv: [BigRational; 7] = if integral {
-            integer_invariants([a[0].numer(), a[1].numer(), a[2].numer(), a[3].numer(), a[4].numer()])
-                .map(BigRational::from_integer)
+            integer_invariants([
+                a[0].numer(),
+                a[1].numer(),
+                a[2].numer(),
+                a[3].numer(),
+                a[4].numer(),
+            ])
+            .map(BigRational::from_integer)
         } else {
             let d = a.iter().fold(BigInt::one(), |d, c| d.lcm(c.denom()));
             let [s1, s2, s3, s4, s6] = [1u32, 2, 3, 4, 6].map(|w| {
@@ -316,7 +324,13 @@ impl Curve {
     pub fn integer_coefficients(&self) -> Option<[&BigInt; 5]> {
         if self.integral {
             let a = &self.a;
-            Some([a[0].numer(), a[1].numer(), a[2].numer(), a[3].numer(), a[4].numer()])
+            Some([
+                a[0].numer(),
+                a[1].numer(),
+                a[2].numer(),
+                a[3].numer(),
+                a[4].numer(),
+            ])
         } else {
             None
         }
