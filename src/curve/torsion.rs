@@ -151,7 +151,7 @@ pub fn torsion_subgroup(e: &Curve) -> TorsionGroup {
             }
         }
     }
-    assemble(e, &work, &parts, bound)
+    assemble(&work, &parts, bound)
 }
 
 /// The working model M: y² = x³ + f2x² + f4x + f6 with f_i ∈ Z (the input
@@ -315,7 +315,7 @@ fn odd_primary(work: &WorkModel, l: u32, e_max: u32) -> Primary {
 }
 
 /// The group from its primary parts, on the input model.
-fn assemble(e: &Curve, work: &WorkModel, parts: &[Primary], bound: u32) -> TorsionGroup {
+fn assemble(work: &WorkModel, parts: &[Primary], bound: u32) -> TorsionGroup {
     // Points of M with their orders.
     let mut group: Vec<(Point, u32)> = vec![(Point::Infinity, 1)];
     for part in parts {
@@ -376,7 +376,6 @@ fn assemble(e: &Curve, work: &WorkModel, parts: &[Primary], bound: u32) -> Torsi
             }
         }
     }
-    let _ = e;
     TorsionGroup {
         points: on_input.into_iter().map(|g| g.0).collect(),
         generators,
