@@ -551,44 +551,73 @@ fn multiplication_numerator(
 /// N = gcd of #M̃(F_p) over the first [`GOOD_PRIMES`] odd primes p ∤ Δ(M),
 /// stopping early, with `true`, as soon as N equals `found` (the number of
 /// rational torsion points already in hand, which then make up the whole
-/// group since #E(Q)_tors | N).
+/// group since #E(Q)_tors | N). It also stops early, with `false`, once N
+/// is a power of 2 that has not changed over [`STABLE_PRIMES`] primes: the
+/// 2-primary search that follows settles the group as exactly as with more
+/// primes, and costs only a few square-root tests at each level.
 fn reduction_bound(work: &WorkModel, found: u32) -> (u32, bool) {
-    let f: Vec<BigInt> = (0..3).map(|i| work.coefficient(i)).collect();
-    let disc = work.curve.discriminant().numer().clone();
-    let small: Option<Vec<i128>> = f.iter().map(|c| c.to_i128()).collect();
-    let disc_small = disc.to_i128();
-    let residue = |c: &BigInt, small: Option<i128>, p: u64| -> u64 {
+    let f = [work.coefficient(0), work.coefficient(1), work.coefficient(2)];
+    let disc = work.curve.discriminant().numer();
+    // Residues in machine words when the numbers fit.
+    let small: Option<[i64; 4]> = match (
+        f[0].to_i64(),
+        f[1].to_i64(),
+        f[2].to_i64(),
+        disc.to_i64(),
+    ) {
+        (Some(a), Some(b), Some(c), Some(d)) => Some([a, b, c, d]),
+        _ => None,
+    };
+    let residues = |p: u64| -> [u64; 4] {
         match small {
-            Some(v) => v.rem_euclid(p as i128) as u64,
-            None => c.mod_floor(&BigInt::from(p)).to_u64().unwrap_or(0),
+            Some(v) => v.map(|c| c.rem_euclid(p as i64) as u64),
+            None => {
+                let pb = BigInt::from(p);
+                let r = |c: &BigInt| c.mod_floor(&pb).to_u64().unwrap_or(0);
+                [r(&f[0]), r(&f[1]), r(&f[2]), r(disc)]
+            }
         }
     };
     let tables = square_tables();
     let mut g: u64 = 0;
     let mut used = 0;
-    for (idx, p) in odd_primes().enumerate() {
-        if residue(&disc, disc_small, p) == 0 {
+    let mut stable = 0;
+    let mut extra = odd_primes().skip(tables.len());
+    let mut k = 0;
+    loop {
+        let fresh;
+        let (p, chi): (u64, &[i8]) = match tables.get(k) {
+            Some((p, chi)) => (*p, chi),
+            None => match extra.next() {
+                Some(p) => {
+                    fresh = legendre_table(p);
+                    (p, &fresh)
+                }
+                None => break,
+            },
+        };
+        k += 1;
+        let [f6, f4, f2, dm] = residues(p);
+        if dm == 0 {
             continue;
         }
-        let fm: Vec<u64> = (0..3)
-            .map(|i| residue(&f[i], small.as_ref().map(|v| v[i]), p))
-            .collect();
-        let count = match tables.get(idx) {
-            Some(chi) => count_points_with_table(fm[2], fm[1], fm[0], p, chi),
-            None => count_points_with_table(fm[2], fm[1], fm[0], p, &legendre_table(p)),
-        };
-        g = g.gcd(&count);
+        let new_g = g.gcd(&count_points_with_table(f2, f4, f6, p, chi));
+        stable = if new_g == g { stable + 1 } else { 0 };
+        g = new_g;
         used += 1;
         let bound = g.min(u32::MAX as u64) as u32;
         if bound == found {
             return (bound, true);
         }
-        if used == GOOD_PRIMES {
+        if used == GOOD_PRIMES || (stable >= STABLE_PRIMES && g.is_power_of_two()) {
             break;
         }
     }
     (g.min(u32::MAX as u64) as u32, false)
 }
+
+/// See [`reduction_bound`].
+const STABLE_PRIMES: usize = 6;
 
 /// Number of odd primes whose Legendre tables are kept.
 const TABLED_PRIMES: usize = 64;
@@ -603,14 +632,14 @@ fn legendre_table(p: u64) -> Vec<i8> {
     chi
 }
 
-/// Legendre tables of the first [`TABLED_PRIMES`] odd primes (in the
-/// order of `odd_primes`), built once.
-fn square_tables() -> &'static [Vec<i8>] {
-    static TABLES: OnceLock<Vec<Vec<i8>>> = OnceLock::new();
+/// The first [`TABLED_PRIMES`] odd primes with their Legendre tables,
+/// built once.
+fn square_tables() -> &'static [(u64, Vec<i8>)] {
+    static TABLES: OnceLock<Vec<(u64, Vec<i8>)>> = OnceLock::new();
     TABLES.get_or_init(|| {
         odd_primes()
             .take(TABLED_PRIMES)
-            .map(legendre_table)
+            .map(|p| (p, legendre_table(p)))
             .collect()
     })
 }

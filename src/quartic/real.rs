@@ -211,6 +211,9 @@ pub(crate) fn real_witness(q: &Quartic, budget: &mut Budget) -> Result<Option<(B
     if c[4].is_positive() {
         return Ok(Some((zero, one)));
     }
+    if let Some(w) = biquadratic_witness(q) {
+        return Ok(w);
+    }
     let f = dehomogenise(q);
     // Cauchy-type bound: every real root r satisfies |r| < B.
     let bound = one.clone() + c.iter().map(|x| x.abs()).max().unwrap_or_default();
@@ -281,4 +284,42 @@ pub(crate) fn real_witness(q: &Quartic, budget: &mut Budget) -> Result<Option<(B
     Err(Error::Degenerate {
         reason: format!("{q}: real roots found but no positive value isolated"),
     })
+}
+
+/// Fast path for even forms g = c4 x⁴ + c2 x² z² + c0 z⁴ (c3 = c1 = 0, the
+/// shape of every 2-isogeny homogeneous space) with c4 < 0 and c0 < 0.
+/// In t = x²/z² ≥ 0, g/z⁴ = c4 t² + c2 t + c0 is a downward parabola, so g
+/// takes a positive value iff its vertex t₀ = −c2/(2c4) is positive (c2 > 0)
+/// and the maximum c0 − c2²/(4c4) is positive, i.e. c2² > 4 c4 c0 (common
+/// practice: elementary calculus). Then the positive set is an open
+/// interval of t > 0 around t₀, and x = ⌊z√t₀⌋ or x + 1 hits it once z is
+/// large enough; z runs through powers of 2, which terminates.
+///
+/// Returns `None` when the form is not of this shape (the caller falls back
+/// to the Sturm sequence), `Some(None)` for "no real point", and
+/// `Some(Some((x, z)))` with g(x, z) > 0.
+fn biquadratic_witness(q: &Quartic) -> Option<Option<(BigInt, BigInt)>> {
+    let c = q.coeffs();
+    if !(c[1].is_zero() && c[3].is_zero() && c[0].is_negative() && c[4].is_negative()) {
+        return None;
+    }
+    let (c4, c2, c0) = (&c[0], &c[2], &c[4]);
+    if !c2.is_positive() || c2 * c2 <= BigInt::from(4) * c4 * c0 {
+        return Some(None);
+    }
+    // t₀ = c2 / (2|c4|); x ≈ z·√t₀ = √(z² c2 / (2|c4|))
+    let two_abs_c4: BigInt = -(c4 * 2u32);
+    let mut z = BigInt::one();
+    for _ in 0..4096 {
+        let t_scaled = (&z * &z * c2) / &two_abs_c4;
+        let x0 = t_scaled.sqrt();
+        for x in [x0.clone(), &x0 + 1u32] {
+            if q.eval(&x, &z).is_positive() {
+                return Some(Some((x, z)));
+            }
+        }
+        z <<= 1;
+    }
+    // Not reached for a non-degenerate form; let the general path decide.
+    None
 }
