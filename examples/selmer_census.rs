@@ -1,0 +1,59 @@
+//! Times the descent over the congruent-number curves y² = x³ − n² x for
+//! square-free n ≤ N and prints the rate and the decided share — the
+//! measurement behind the descent figures in docs/performance.md.
+//!
+//! ```text
+//! cargo run --release --example selmer_census -- N [selmer-only|first|full]
+//! ```
+//! `selmer-only`: Selmer groups and torsion images, no search;
+//! `first`: default search, no second descent; `full`: the defaults.
+
+use std::process::ExitCode;
+use std::time::Instant;
+
+use isodescent::curve::Curve;
+use isodescent::descent::{descend, DescentOptions};
+
+fn squarefree(n: i64) -> bool {
+    (2..).take_while(|p| p * p <= n).all(|p| n % (p * p) != 0)
+}
+
+fn main() -> ExitCode {
+    let mut args = std::env::args().skip(1);
+    let Some(n_max) = args.next().and_then(|s| s.parse::<i64>().ok()).filter(|&n| n >= 1) else {
+        eprintln!("usage: selmer_census N [selmer-only|first|full]");
+        return ExitCode::from(2);
+    };
+    let mode = args.next().unwrap_or_else(|| "selmer-only".to_string());
+    let opts = match mode.as_str() {
+        "selmer-only" => DescentOptions::selmer_only(),
+        "first" => DescentOptions::default().with_second_descent(false),
+        "full" => DescentOptions::default(),
+        other => {
+            eprintln!("unknown mode {other:?}");
+            return ExitCode::from(2);
+        }
+    };
+    let start = Instant::now();
+    let (mut curves, mut decided, mut errors) = (0u64, 0u64, 0u64);
+    for n in (1..=n_max).filter(|&n| squarefree(n)) {
+        let Ok(c) = Curve::from_ints([0, 0, 0, -n * n, 0]) else {
+            errors += 1;
+            continue;
+        };
+        match descend(&c, &opts) {
+            Ok(r) => {
+                curves += 1;
+                decided += u64::from(r.is_decided());
+            }
+            Err(_) => errors += 1,
+        }
+    }
+    let secs = start.elapsed().as_secs_f64();
+    println!(
+        "mode {mode}: {curves} curves (n <= {n_max}), {errors} errors, {decided} decided ({:.1}%), {secs:.2} s, {:.0} curves/s",
+        100.0 * decided as f64 / curves.max(1) as f64,
+        curves as f64 / secs
+    );
+    ExitCode::SUCCESS
+}
