@@ -19,7 +19,9 @@
 //!    number of points already found in step 1, those points are the whole
 //!    group (they form a subgroup whose order is a multiple of #E(Q)_tors),
 //!    and nothing else is computed; this settles the common groups Z/2 and
-//!    Z/2 × Z/2 after a few primes.
+//!    Z/2 × Z/2 after a few primes. The counting also stops once N is a
+//!    power of 2 unchanged over 6 primes: step 4 then proves the group
+//!    whatever N is, at the cost of a few square tests.
 //! 3. **Integrality.** By the Nagell–Lutz theorem [Sil09, VIII.7.2],
 //!    [ST92, II.5] every rational torsion point of M has integer
 //!    coordinates, so only integer roots of the polynomials below matter;
@@ -556,15 +558,15 @@ fn multiplication_numerator(
 /// 2-primary search that follows settles the group as exactly as with more
 /// primes, and costs only a few square-root tests at each level.
 fn reduction_bound(work: &WorkModel, found: u32) -> (u32, bool) {
-    let f = [work.coefficient(0), work.coefficient(1), work.coefficient(2)];
+    let f = [
+        work.coefficient(0),
+        work.coefficient(1),
+        work.coefficient(2),
+    ];
     let disc = work.curve.discriminant().numer();
     // Residues in machine words when the numbers fit.
-    let small: Option<[i64; 4]> = match (
-        f[0].to_i64(),
-        f[1].to_i64(),
-        f[2].to_i64(),
-        disc.to_i64(),
-    ) {
+    let small: Option<[i64; 4]> = match (f[0].to_i64(), f[1].to_i64(), f[2].to_i64(), disc.to_i64())
+    {
         (Some(a), Some(b), Some(c), Some(d)) => Some([a, b, c, d]),
         _ => None,
     };
