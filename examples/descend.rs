@@ -30,13 +30,28 @@ use isodescent::descent::{descend, is_skipped_line, json_for_line, DescentOption
 /// Weierstrass models. Chosen for this crate; the numbers carry no outside
 /// meaning.
 const DEMO: &[(&str, &str)] = &[
-    ("0 -30 0 3 0", "reduced form y^2 = x^3 + a x^2 + b x; two independent points"),
-    ("2 3 2 -10 2", "general model with a1, a3 nonzero; points come back on it"),
+    (
+        "0 -30 0 3 0",
+        "reduced form y^2 = x^3 + a x^2 + b x; two independent points",
+    ),
+    (
+        "2 3 2 -10 2",
+        "general model with a1, a3 nonzero; points come back on it",
+    ),
     ("0 -7 0 1/16 0", "rational coefficients"),
-    ("0 -29 0 -30 0", "three rational 2-torsion points; Selmer classes proven not images"),
+    (
+        "0 -29 0 -30 0",
+        "three rational 2-torsion points; Selmer classes proven not images",
+    ),
     ("0 0 0 -1154 0", "a curve of higher rank"),
-    ("0 -30 0 -8 0", "the bounds stay apart: reported honestly as an interval"),
-    ("0 1 1 -2 0", "no rational point of order 2: a typed error, not a panic"),
+    (
+        "0 -30 0 -8 0",
+        "the bounds stay apart: reported honestly as an interval",
+    ),
+    (
+        "0 1 1 -2 0",
+        "no rational point of order 2: a typed error, not a panic",
+    ),
 ];
 
 const USAGE: &str = "usage: descend [--json | \"A1 A2 A3 A4 A6\"] [--height H] [--second-height H] [--no-second] [--search-work N] [--local-work N] [--factor-work N] [--seconds S]";

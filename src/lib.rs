@@ -11,17 +11,35 @@
 #![warn(missing_docs, clippy::unwrap_used)]
 #![cfg_attr(test, allow(clippy::unwrap_used))]
 
-pub mod budget; // deterministic effort budgets (cross-cutting)
-pub mod error; // the crate's one error enum (cross-cutting)
+// Cross-cutting: the error enum and deterministic effort budgets.
+pub mod budget;
+pub mod error;
 
-pub mod arith; // layer 1: integers and rationals — factoring, square-free parts, roots
-pub mod local; // layer 2: p-adic and real places — valuations, symbols, square classes, Hilbert symbols
-pub mod curve; // layer 3: Weierstrass models, points, 2-torsion, 2-isogenies, torsion
-pub mod conic; // layer 4: rational conics — Legendre's equation, parametrisation
-pub mod quartic; // layer 4: quartic homogeneous spaces — local solvability, point search
-pub mod selmer; // layer 5: F2 vector spaces, Q(S,2), Selmer groups
-pub mod descent; // layer 6: exact-sequence bookkeeping, rank bounds, reports
-pub mod family; // layer 7: families of curves — twists, congruent numbers, boxes; streaming, parallel, sharded scans
+// The layers, lowest first; each uses only the ones above it here.
+
+/// Layer 1: integers and rationals — primality, factoring, square-free parts, roots.
+pub mod arith;
+
+/// Layer 2: the places of Q — valuations, symbols, square classes, Hilbert symbols.
+pub mod local;
+
+/// Layer 3: Weierstrass models, points, 2-torsion, 2-isogenies, torsion, Tate's algorithm.
+pub mod curve;
+
+/// Layer 4: rational conics — Legendre's equation, parametrisation.
+pub mod conic;
+
+/// Layer 5: quartic homogeneous spaces — local solvability, point search, 4-coverings.
+pub mod quartic;
+
+/// Layer 6: F2 vector spaces, Q(S,2), Selmer groups, local-image counts.
+pub mod selmer;
+
+/// Layer 7: the descent — both sides of each 2-isogeny, rank bounds, reports.
+pub mod descent;
+
+/// Layer 8: families of curves — twists, congruent numbers, boxes; streaming, parallel, sharded scans.
+pub mod family;
 
 pub use budget::Budget;
 pub use error::{Error, Result};

@@ -16,7 +16,10 @@ fn lind_reichardt_class_is_proven_not_an_image() {
     let c = Curve::from_ints([0, 0, 0, -68, 0]).unwrap();
     let first = descend(&c, &DescentOptions::default().with_second_descent(false)).unwrap();
     let r = descend(&c, &DescentOptions::default()).unwrap();
-    assert!(first.rank_upper > r.rank_upper, "the second descent must sharpen the bound");
+    assert!(
+        first.rank_upper > r.rank_upper,
+        "the second descent must sharpen the bound"
+    );
     let side = &r.isogenies[0].domain;
     let proven: Vec<String> = side
         .elements
@@ -29,7 +32,10 @@ fn lind_reichardt_class_is_proven_not_an_image() {
         side.elements.iter().any(|e| {
             matches!(&e.status, ClassStatus::ProvenNotImage { space, .. }
                 if *space == 2.into() || *space == (-34).into())
-        }) || side.second_descent_runs.iter().any(|(d, w)| (*d == 2.into() || *d == (-34).into()) && w == "proven_not_image"),
+        }) || side
+            .second_descent_runs
+            .iter()
+            .any(|(d, w)| (*d == 2.into() || *d == (-34).into()) && w == "proven_not_image"),
         "proven classes {proven:?}, runs {:?}",
         side.second_descent_runs
     );
@@ -64,7 +70,10 @@ fn the_second_descent_decides_clearly_more_congruent_number_curves() {
         let r2 = descend(&c, &second).unwrap();
         // both are proven intervals, so they must overlap, and the second
         // is at least as sharp
-        assert!(r2.rank_lower >= r1.rank_lower && r2.rank_upper <= r1.rank_upper, "n = {n}");
+        assert!(
+            r2.rank_lower >= r1.rank_lower && r2.rank_upper <= r1.rank_upper,
+            "n = {n}"
+        );
         total += 1;
         d1 += usize::from(r1.is_decided());
         d2 += usize::from(r2.is_decided());

@@ -12,9 +12,19 @@ fn report(coeffs: &str) -> isodescent::descent::DescentReport {
 
 #[test]
 fn honest_reports_pass_every_check() {
-    for c in ["0 0 0 -36 0", "0 0 0 -1 0", "0 3 0 -10 0", "1 0 0 -11 -14", "0 -1/4 0 -6 0", "0 7 0 3 0", "0 0 0 -34 0"] {
+    for c in [
+        "0 0 0 -36 0",
+        "0 0 0 -1 0",
+        "0 3 0 -10 0",
+        "1 0 0 -11 -14",
+        "0 -1/4 0 -6 0",
+        "0 7 0 3 0",
+        "0 0 0 -34 0",
+    ] {
         let Ok(c2) = c.parse::<Curve>() else { continue };
-        let Ok(r) = descend(&c2, &DescentOptions::default()) else { continue };
+        let Ok(r) = descend(&c2, &DescentOptions::default()) else {
+            continue;
+        };
         let v = verify_report(&r, 10_000_000).unwrap();
         assert!(v.all_passed(), "{c}: {:?}", v.failures());
         assert!(v.checks.len() > 10);
@@ -53,5 +63,10 @@ fn a_forged_local_image_is_caught() {
     w.members = (0..n).collect();
     let v = verify_report(&r, 10_000_000).unwrap();
     let failed: Vec<String> = v.failures().iter().map(|c| c.what.clone()).collect();
-    assert!(failed.iter().any(|f| f.contains("re-decided insoluble") || f.contains("recomputed")), "{failed:?}");
+    assert!(
+        failed
+            .iter()
+            .any(|f| f.contains("re-decided insoluble") || f.contains("recomputed")),
+        "{failed:?}"
+    );
 }

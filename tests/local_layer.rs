@@ -20,16 +20,27 @@ const VECTORS: &str = include_str!("data/local_vectors.txt");
 #[test]
 fn legendre_jacobi_and_modular_roots_match_sympy_vectors() {
     let mut counts = [0usize; 3];
-    for line in VECTORS.lines().filter(|l| !l.starts_with('#') && !l.is_empty()) {
+    for line in VECTORS
+        .lines()
+        .filter(|l| !l.starts_with('#') && !l.is_empty())
+    {
         let f: Vec<&str> = line.split_whitespace().collect();
         match f[0] {
             "L" => {
                 let p = Prime::new(big(f[2])).unwrap();
-                assert_eq!(legendre(&big(f[1]), &p).unwrap().to_string(), f[3], "{line}");
+                assert_eq!(
+                    legendre(&big(f[1]), &p).unwrap().to_string(),
+                    f[3],
+                    "{line}"
+                );
                 counts[0] += 1;
             }
             "J" => {
-                assert_eq!(jacobi(&big(f[1]), &big(f[2])).unwrap().to_string(), f[3], "{line}");
+                assert_eq!(
+                    jacobi(&big(f[1]), &big(f[2])).unwrap().to_string(),
+                    f[3],
+                    "{line}"
+                );
                 counts[1] += 1;
             }
             "S" => {
@@ -114,7 +125,9 @@ fn hilbert_symbols_agree_with_the_norm_criterion_at_small_places() {
         .chain([Place::Real])
         .collect();
     for place in &places {
-        for a in [-15i64, -11, -7, -6, -5, -3, -2, -1, 2, 3, 5, 6, 7, 10, 11, 14, 15, 22, 33] {
+        for a in [
+            -15i64, -11, -7, -6, -5, -3, -2, -1, 2, 3, 5, 6, 7, 10, 11, 14, 15, 22, 33,
+        ] {
             for b in [-10i64, -5, -3, -2, -1, 2, 3, 5, 7, 11, 12, 18] {
                 let f = hilbert_symbol_int(&a.into(), &b.into(), place).unwrap();
                 assert_eq!(f, hilbert_by_norms(a, b, place), "({a},{b}) at {place}");

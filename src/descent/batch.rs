@@ -4,9 +4,9 @@
 
 use std::panic::{catch_unwind, AssertUnwindSafe};
 
+use super::descend;
 use super::options::DescentOptions;
 use super::report::DescentReport;
-use super::descend;
 use crate::curve::Curve;
 
 /// True for lines the batch skips: blank, or starting with `#` (after

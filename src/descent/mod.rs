@@ -142,9 +142,24 @@ fn descend_isogeny_with_torsion(
         .collect();
     let torsion_e2 = torsion_subgroup(isogeny.codomain()).points().to_vec();
 
-    let domain = side::compute_side(&a, &b, model.curve(), &primes, &torsion_e, options, deadline)?;
-    let codomain =
-        side::compute_side(&a2, &b2, isogeny.codomain(), &primes, &torsion_e2, options, deadline)?;
+    let domain = side::compute_side(
+        &a,
+        &b,
+        model.curve(),
+        &primes,
+        &torsion_e,
+        options,
+        deadline,
+    )?;
+    let codomain = side::compute_side(
+        &a2,
+        &b2,
+        isogeny.codomain(),
+        &primes,
+        &torsion_e2,
+        options,
+        deadline,
+    )?;
     if domain.torsion_dim + codomain.torsion_dim != 2 {
         return Err(Error::InvalidArgument {
             reason: format!(
@@ -197,7 +212,9 @@ pub fn descend(curve: &Curve, options: &DescentOptions) -> Result<DescentReport>
     let local_data = curve.local_data(&mut budget)?;
     let mut isogenies = Vec::with_capacity(ts.len());
     for t in &ts {
-        isogenies.push(descend_isogeny_with_torsion(curve, t, &torsion, options, deadline)?);
+        isogenies.push(descend_isogeny_with_torsion(
+            curve, t, &torsion, options, deadline,
+        )?);
     }
     Ok(DescentReport::new(
         curve.clone(),

@@ -251,11 +251,7 @@ fn masks_text(img: &crate::quartic::LocalImage) -> String {
 }
 
 fn write_side(f: &mut fmt::Formatter<'_>, label: &str, s: &SelmerSide) -> fmt::Result {
-    writeln!(
-        f,
-        "  {label}: y^2 = x^3 + ({}) x^2 + ({}) x",
-        s.a, s.b
-    )?;
+    writeln!(f, "  {label}: y^2 = x^3 + ({}) x^2 + ({}) x", s.a, s.b)?;
     writeln!(
         f,
         "    Selmer dimension {} · known image {} (torsion {}) · image at most {}",
@@ -266,8 +262,14 @@ fn write_side(f: &mut fmt::Formatter<'_>, label: &str, s: &SelmerSide) -> fmt::R
     )?;
     for e in &s.elements {
         let what = match &e.status {
-            ClassStatus::TorsionImage { point } => format!("image of torsion point {}", point_text(point)),
-            ClassStatus::PointImage { point, space, on_space } => format!(
+            ClassStatus::TorsionImage { point } => {
+                format!("image of torsion point {}", point_text(point))
+            }
+            ClassStatus::PointImage {
+                point,
+                space,
+                on_space,
+            } => format!(
                 "image of {} from C_{} at (M, e, N) = ({}, {}, {})",
                 point_text(point),
                 space,
@@ -275,13 +277,16 @@ fn write_side(f: &mut fmt::Formatter<'_>, label: &str, s: &SelmerSide) -> fmt::R
                 on_space.z,
                 on_space.y
             ),
-            ClassStatus::Undecided => "undecided: everywhere locally soluble, no point found".into(),
+            ClassStatus::Undecided => {
+                "undecided: everywhere locally soluble, no point found".into()
+            }
             ClassStatus::ProvenNotImage {
                 obstructions,
                 space,
                 ..
             } => {
-                let places: Vec<String> = obstructions.iter().map(|o| o.place.to_string()).collect();
+                let places: Vec<String> =
+                    obstructions.iter().map(|o| o.place.to_string()).collect();
                 format!(
                     "not an image: C_{space} has {} 4-coverings, insoluble at {} respectively",
                     obstructions.len(),

@@ -274,7 +274,17 @@ pub fn compute_side(
                 continue;
             }
             tried += 1;
-            if let Some((v, point)) = search_coset(a, b, curve, &qs2, &x, &known, options, deadline, &mut searches)? {
+            if let Some((v, point)) = search_coset(
+                a,
+                b,
+                curve,
+                &qs2,
+                &x,
+                &known,
+                options,
+                deadline,
+                &mut searches,
+            )? {
                 known.insert(v.clone());
                 elements.push(SelmerElement {
                     class: qs2.integer(&v),
@@ -390,7 +400,8 @@ fn run_second_descent(
     options: &DescentOptions,
     deadline: Option<Instant>,
 ) -> Result<()> {
-    let sd_options = SecondDescentOptions::default().with_search_height(options.second_search_height);
+    let sd_options =
+        SecondDescentOptions::default().with_search_height(options.second_search_height);
     let mut tried = 0usize;
     'restart: loop {
         let rest = known.complement_in(group);
@@ -518,7 +529,11 @@ fn search_coset(
         }
         let (coeffs, f) = space_for(&d, a, b)?;
         let mut budget = options.budget(options.search_units, deadline);
-        let outcome = search(&coeffs, &SearchOptions::up_to(options.search_height), &mut budget)?;
+        let outcome = search(
+            &coeffs,
+            &SearchOptions::up_to(options.search_height),
+            &mut budget,
+        )?;
         let found = match &outcome {
             SearchOutcome::Found(qp) => point_from_space(&d, &f, qp).map(|p| (p, qp.clone())),
             _ => None,

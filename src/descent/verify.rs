@@ -93,7 +93,13 @@ pub fn verify_report(report: &DescentReport, units: u64) -> Result<Verification>
             format!("{tag}: kernel point lies on the input curve"),
             report.curve.contains(&d.kernel_point),
         );
-        verify_side(&mut out, &format!("{tag}, E"), &d.domain, d.model.curve(), &mut budget)?;
+        verify_side(
+            &mut out,
+            &format!("{tag}, E"),
+            &d.domain,
+            d.model.curve(),
+            &mut budget,
+        )?;
         verify_side(
             &mut out,
             &format!("{tag}, E'"),
@@ -114,8 +120,18 @@ pub fn verify_report(report: &DescentReport, units: u64) -> Result<Verification>
             d.domain.torsion_dim + d.codomain.torsion_dim == 2,
         );
     }
-    let lo = report.isogenies.iter().map(|d| d.rank_lower).max().unwrap_or(0);
-    let hi = report.isogenies.iter().map(|d| d.rank_upper).min().unwrap_or(lo);
+    let lo = report
+        .isogenies
+        .iter()
+        .map(|d| d.rank_lower)
+        .max()
+        .unwrap_or(0);
+    let hi = report
+        .isogenies
+        .iter()
+        .map(|d| d.rank_upper)
+        .min()
+        .unwrap_or(lo);
     out.record(
         "overall bounds are the sharpest of the isogenies",
         (lo, hi) == (report.rank_lower, report.rank_upper),
@@ -132,7 +148,10 @@ fn verify_side(
 ) -> Result<()> {
     let mut conditions = Vec::new();
     for w in &side.local_images {
-        out.record(format!("{tag}: W_{} is a subgroup", w.place), w.is_subgroup());
+        out.record(
+            format!("{tag}: W_{} is a subgroup", w.place),
+            w.is_subgroup(),
+        );
         for ev in &w.evidence {
             let q = Quartic::two_isogeny_space(&ev.representative, &side.a, &side.b)?;
             match &ev.solubility {
@@ -176,7 +195,10 @@ fn verify_side(
                     && connecting_value(&side.b, point)
                         .map(|x| same_class(&side.qs2.vector_rational(&x).ok(), &v))
                         .unwrap_or(false);
-                out.record(format!("{tag}: class {} is α of a torsion point", el.class), ok);
+                out.record(
+                    format!("{tag}: class {} is α of a torsion point", el.class),
+                    ok,
+                );
                 torsion_span.insert(v.clone());
                 all_span.insert(v);
             }
@@ -200,7 +222,10 @@ fn verify_side(
                     on_curve && alpha_ok && space_ok,
                 );
                 out.record(
-                    format!("{tag}: class {} is independent of the earlier images", el.class),
+                    format!(
+                        "{tag}: class {} is independent of the earlier images",
+                        el.class
+                    ),
                     all_span.insert(v),
                 );
             }
@@ -231,9 +256,6 @@ fn verify_side(
     Ok(())
 }
 
-fn same_class(
-    a: &Option<crate::selmer::f2::BitVec>,
-    b: &crate::selmer::f2::BitVec,
-) -> bool {
+fn same_class(a: &Option<crate::selmer::f2::BitVec>, b: &crate::selmer::f2::BitVec) -> bool {
     a.as_ref() == Some(b)
 }

@@ -173,7 +173,15 @@ mod tests {
 
     #[test]
     fn roots_mod_prime_powers_square_back_including_two() {
-        for (p, k) in [(2u64, 1u32), (2, 2), (2, 3), (2, 10), (3, 5), (5, 4), (7, 3)] {
+        for (p, k) in [
+            (2u64, 1u32),
+            (2, 2),
+            (2, 3),
+            (2, 10),
+            (3, 5),
+            (5, 4),
+            (7, 3),
+        ] {
             let pr = Prime::small(p).unwrap();
             let pk = BigInt::from(p).pow(k);
             for a in -200i64..200 {
@@ -182,7 +190,10 @@ mod tests {
                     .any(|x| (BigInt::from(x * x) - &big_a).mod_floor(&pk).is_zero());
                 match sqrt_mod_prime_power(&big_a, &pr, k) {
                     Some(x) => {
-                        assert!((&x * &x - &big_a).mod_floor(&pk).is_zero(), "a={a} p={p} k={k}")
+                        assert!(
+                            (&x * &x - &big_a).mod_floor(&pk).is_zero(),
+                            "a={a} p={p} k={k}"
+                        )
                     }
                     None => assert!(!brute, "missed a root: a={a} p={p} k={k}"),
                 }

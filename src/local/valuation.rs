@@ -68,7 +68,10 @@ mod tests {
     #[test]
     fn valuations_split_off_the_right_power() {
         let p = Prime::small(3).unwrap();
-        assert_eq!(split_valuation(&BigInt::from(-162), &p), Some((4, BigInt::from(-2))));
+        assert_eq!(
+            split_valuation(&BigInt::from(-162), &p),
+            Some((4, BigInt::from(-2)))
+        );
         let big = BigInt::from(3).pow(200) * 7;
         assert_eq!(split_valuation(&big, &p), Some((200, BigInt::from(7))));
         let x = BigRational::new(BigInt::from(5), BigInt::from(18));

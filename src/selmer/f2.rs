@@ -35,7 +35,11 @@ impl BitVec {
     pub fn from_u64(len: usize, bits: u64) -> Self {
         let mut v = Self::zeros(len);
         if let Some(w) = v.words.first_mut() {
-            let mask = if len >= 64 { u64::MAX } else { (1u64 << len) - 1 };
+            let mask = if len >= 64 {
+                u64::MAX
+            } else {
+                (1u64 << len) - 1
+            };
             *w = bits & mask;
         }
         v
@@ -195,7 +199,10 @@ impl Subspace {
 
     /// The whole space F2^n.
     pub fn full(ambient: usize) -> Self {
-        Self::span(ambient, (0..ambient).filter_map(|i| BitVec::unit(ambient, i)))
+        Self::span(
+            ambient,
+            (0..ambient).filter_map(|i| BitVec::unit(ambient, i)),
+        )
     }
 
     /// The span of the given vectors (each of length `ambient`).
@@ -390,9 +397,7 @@ impl LinearMap {
         let m = self.target();
         Subspace::span(
             m,
-            (0..self.source).filter_map(|j| {
-                BitVec::unit(self.source, j).map(|e| self.apply(&e))
-            }),
+            (0..self.source).filter_map(|j| BitVec::unit(self.source, j).map(|e| self.apply(&e))),
         )
     }
 
