@@ -24,7 +24,7 @@
 //! of CPU before the factor budget runs out (measured figures in
 //! docs/robustness.md), too slow for the regular suite. So the same curves
 //! run twice: with a small factor budget in the regular suite, and with
-//! the defaults in the `#[ignore]`d tests, run by
+//! the defaults in `huge_curves_give_a_budget_error_under_the_default_options`, run by
 //! `cargo test --release --test robustness_budgets -- --ignored --nocapture`.
 
 use std::time::Instant;
@@ -167,7 +167,6 @@ fn the_json_front_end_reports_a_budget_error_on_one_line() {
 }
 
 #[test]
-#[ignore = "tens of seconds of CPU per curve under the default factor budget (docs/robustness.md)"]
 fn huge_curves_give_a_budget_error_under_the_default_options() {
     for (label, e) in huge_curves() {
         let r = timed_descend(label, &e, &DescentOptions::default());

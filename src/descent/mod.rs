@@ -47,9 +47,8 @@ pub use side::{ClassStatus, SelmerElement, SelmerSide};
 pub use verify::{verify_report, Verification};
 
 use crate::arith::factor;
-use crate::budget::Budget;
 use crate::curve::{
-    torsion_subgroup, two_torsion_model, two_torsion_points, Curve, Point, TorsionGroup,
+    torsion_subgroup, two_torsion_model_with_budget, two_torsion_points, Curve, Point, TorsionGroup,
     TwoIsogeny, TwoTorsionModel,
 };
 use crate::error::{Error, Result};
@@ -93,8 +92,14 @@ impl IsogenyDescent {
     }
 }
 
-fn primes_of(n: &BigInt, budget: &mut Budget, into: &mut Vec<Prime>) -> Result<()> {
-    let f = factor(n, budget)?;
+fn primes_of(
+    n: &BigInt,
+    options: &DescentOptions,
+    deadline: Option<Instant>,
+    into: &mut Vec<Prime>,
+) -> Result<()> {
+    let mut budget = options.factor_budget(n.bits(), deadline);
+    let f = factor(n, &mut budget)?;
     for p in f.primes() {
         into.push(Prime::certified(p.clone()));
     }
@@ -124,14 +129,20 @@ fn descend_isogeny_with_torsion(
     options: &DescentOptions,
     deadline: Option<Instant>,
 ) -> Result<IsogenyDescent> {
-    let model = two_torsion_model(curve, t)?;
+    let size = curve
+        .coefficients()
+        .iter()
+        .map(|c| c.numer().bits() + c.denom().bits())
+        .max()
+        .unwrap_or(0);
+    let mut reduction_budget = options.factor_budget(4 * size, deadline);
+    let model = two_torsion_model_with_budget(curve, t, &mut reduction_budget)?;
     let isogeny = TwoIsogeny::from_model(&model)?;
     let (a, b) = (model.a.clone(), model.b.clone());
     let (a2, b2) = isogeny.codomain_coefficients();
-    let mut budget = options.budget(options.factor_units, deadline);
     let mut primes = vec![Prime::two()];
-    primes_of(&b, &mut budget, &mut primes)?;
-    primes_of(&b2, &mut budget, &mut primes)?;
+    primes_of(&b, options, deadline, &mut primes)?;
+    primes_of(&b2, options, deadline, &mut primes)?;
     primes.sort();
     primes.dedup();
 
@@ -208,7 +219,8 @@ pub fn descend(curve: &Curve, options: &DescentOptions) -> Result<DescentReport>
         return Err(Error::NoTwoTorsion);
     }
     let torsion = torsion_subgroup(curve);
-    let mut budget = options.budget(options.factor_units, deadline);
+    let disc = curve.discriminant();
+    let mut budget = options.factor_budget(disc.numer().bits() + disc.denom().bits(), deadline);
     let local_data = curve.local_data(&mut budget)?;
     let mut isogenies = Vec::with_capacity(ts.len());
     for t in &ts {

@@ -14,7 +14,12 @@ pub struct DescentOptions {
     /// Height bound H for the search on each homogeneous space: all coprime
     /// (M, e) with max(|M|, |e|) ≤ H are tried (about 1.2·H² pairs).
     pub search_height: u64,
-    /// Work units for factoring b and a² − 4b (per side).
+    /// Work units for one factorisation of a number of up to 128 bits
+    /// (b, a² − 4b, the discriminant, the gcd in the reduced model). A
+    /// unit on a larger number costs more (multi-word arithmetic), so a
+    /// number of `bits` > 128 bits gets `factor_units · (128/bits)²`
+    /// units: out-of-reach factorisations of huge inputs then end in about
+    /// the same time as on small ones.
     pub factor_units: u64,
     /// Work units for all local-solvability tests of one side.
     pub local_units: u64,
@@ -29,7 +34,7 @@ pub struct DescentOptions {
     pub second_descent: bool,
     /// Height bound for the searches on the 4-coverings of the second descent.
     pub second_search_height: u64,
-    /// Work units for the whole second descent of one class.
+    /// Work units for the whole second descent of one side (all its classes).
     pub second_descent_units: u64,
     /// Optional wall-clock limit for one curve, on top of the unit budgets.
     /// A run that hits it is, by nature, not reproducible; `None` (the
@@ -73,6 +78,17 @@ impl DescentOptions {
             Some(d) => b.with_deadline(d),
             None => b,
         }
+    }
+
+    /// The factoring budget for a number `n` (see [`DescentOptions::factor_units`]).
+    pub(crate) fn factor_budget(&self, n_bits: u64, deadline: Option<Instant>) -> Budget {
+        let units = if n_bits <= 128 {
+            self.factor_units
+        } else {
+            let scaled = (self.factor_units as u128) * 128 * 128 / (n_bits as u128 * n_bits as u128);
+            scaled.max(1) as u64
+        };
+        self.budget(units, deadline)
     }
 
     /// Defaults with a different search height.

@@ -403,6 +403,9 @@ fn run_second_descent(
     let sd_options =
         SecondDescentOptions::default().with_search_height(options.second_search_height);
     let mut tried = 0usize;
+    // One budget for the whole side, so the cost cannot grow with the
+    // number of classes.
+    let mut budget = options.budget(options.second_descent_units, deadline);
     'restart: loop {
         let rest = known.complement_in(group);
         let u = rest.len().min(10);
@@ -427,7 +430,10 @@ fn run_second_descent(
             let Some((d, v)) = coset_representatives(qs2, &x, known).into_iter().next() else {
                 continue;
             };
-            let mut budget = options.budget(options.second_descent_units, deadline);
+            if budget.is_exhausted() {
+                runs.push((d, "gave up: second-descent budget of this side spent".into()));
+                return Ok(());
+            }
             match second_descent(a, b, &d, &sd_options, &mut budget) {
                 Ok(SecondDescentOutcome::Point {
                     space_point,
