@@ -17,28 +17,28 @@ pub mod error;
 
 // The layers, lowest first; each uses only the ones above it here.
 
-/// Layer 1: integers and rationals — primality, factoring, square-free parts, roots.
+// Layer 1: integers and rationals — primality, factoring, square-free parts, roots.
 pub mod arith;
 
-/// Layer 2: the places of Q — valuations, symbols, square classes, Hilbert symbols.
+// Layer 2: the places of Q — valuations, symbols, square classes, Hilbert symbols.
 pub mod local;
 
-/// Layer 3: Weierstrass models, points, 2-torsion, 2-isogenies, torsion, Tate's algorithm.
+// Layer 3: Weierstrass models, points, 2-torsion, 2-isogenies, torsion, Tate's algorithm.
 pub mod curve;
 
-/// Layer 4: rational conics — Legendre's equation, parametrisation.
+// Layer 4: rational conics — Legendre's equation, parametrisation.
 pub mod conic;
 
-/// Layer 5: quartic homogeneous spaces — local solvability, point search, 4-coverings.
+// Layer 5: quartic homogeneous spaces — local solvability, point search, 4-coverings.
 pub mod quartic;
 
-/// Layer 6: F2 vector spaces, Q(S,2), Selmer groups, local-image counts.
+// Layer 6: F2 vector spaces, Q(S,2), Selmer groups, local-image counts.
 pub mod selmer;
 
-/// Layer 7: the descent — both sides of each 2-isogeny, rank bounds, reports.
+// Layer 7: the descent — both sides of each 2-isogeny, rank bounds, reports.
 pub mod descent;
 
-/// Layer 8: families of curves — twists, congruent numbers, boxes; streaming, parallel, sharded scans.
+// Layer 8: families of curves — twists, congruent numbers, boxes; streaming, parallel, sharded scans.
 pub mod family;
 
 pub use budget::Budget;

@@ -20,12 +20,10 @@
 //! The wall-clock time of each run is printed (`--nocapture`), never
 //! asserted: speed goals belong in benches/.
 //!
-//! Under the default options each of these curves takes tens of seconds
-//! of CPU before the factor budget runs out (measured figures in
-//! docs/robustness.md), too slow for the regular suite. So the same curves
-//! run twice: with a small factor budget in the regular suite, and with
-//! the defaults in `huge_curves_give_a_budget_error_under_the_default_options`, run by
-//! `cargo test --release --test robustness_budgets -- --ignored --nocapture`.
+//! The same curves run twice: with a small factor budget, and with the
+//! default options in `huge_curves_give_a_budget_error_under_the_default_options`
+//! (about half a second per curve since the factoring budget is scaled by
+//! operand size; figures in docs/robustness.md).
 
 use std::time::Instant;
 

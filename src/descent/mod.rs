@@ -48,8 +48,8 @@ pub use verify::{verify_report, Verification};
 
 use crate::arith::factor;
 use crate::curve::{
-    torsion_subgroup, two_torsion_model_with_budget, two_torsion_points, Curve, Point, TorsionGroup,
-    TwoIsogeny, TwoTorsionModel,
+    torsion_subgroup, two_torsion_model_with_budget, two_torsion_points, Curve, Point,
+    TorsionGroup, TwoIsogeny, TwoTorsionModel,
 };
 use crate::error::{Error, Result};
 use crate::local::Prime;

@@ -85,7 +85,8 @@ impl DescentOptions {
         let units = if n_bits <= 128 {
             self.factor_units
         } else {
-            let scaled = (self.factor_units as u128) * 128 * 128 / (n_bits as u128 * n_bits as u128);
+            let scaled =
+                (self.factor_units as u128) * 128 * 128 / (n_bits as u128 * n_bits as u128);
             scaled.max(1) as u64
         };
         self.budget(units, deadline)

@@ -431,7 +431,10 @@ fn run_second_descent(
                 continue;
             };
             if budget.is_exhausted() {
-                runs.push((d, "gave up: second-descent budget of this side spent".into()));
+                runs.push((
+                    d,
+                    "gave up: second-descent budget of this side spent".into(),
+                ));
                 return Ok(());
             }
             match second_descent(a, b, &d, &sd_options, &mut budget) {
