@@ -264,12 +264,7 @@ pub fn compute_side(
             if tried >= options.max_classes_searched {
                 break;
             }
-            let mut x = BitVec::zeros(qs2.dim());
-            for (i, r) in rest.iter().enumerate().take(u) {
-                if (pattern >> i) & 1 == 1 {
-                    x.add_assign(r);
-                }
-            }
+            let x = combination(qs2.dim(), &rest, pattern);
             if known.contains(&x) {
                 continue;
             }
@@ -367,12 +362,7 @@ fn proven_upper(known: &Subspace, group: &Subspace, proven: &[(BitVec, ClassStat
     let mut forbidden = Vec::new();
     for (v, _) in proven {
         for pattern in 1u64..(1u64 << u) {
-            let mut w = v.clone();
-            for (i, r) in rest.iter().enumerate() {
-                if (pattern >> i) & 1 == 1 {
-                    w.add_assign(r);
-                }
-            }
+            let w = v.add(&combination(v.len(), &rest, pattern));
             if known.contains(&w) {
                 forbidden.push(BitVec::from_u64(u, pattern));
                 break;
@@ -410,12 +400,7 @@ fn run_second_descent(
         let rest = known.complement_in(group);
         let u = rest.len().min(10);
         for pattern in 1u64..(1u64 << u) {
-            let mut x = BitVec::zeros(qs2.dim());
-            for (i, r) in rest.iter().enumerate().take(u) {
-                if (pattern >> i) & 1 == 1 {
-                    x.add_assign(r);
-                }
-            }
+            let x = combination(qs2.dim(), &rest, pattern);
             if known.contains(&x) {
                 continue;
             }
@@ -494,6 +479,18 @@ fn run_second_descent(
         }
         return Ok(());
     }
+}
+
+/// Σ_i bit_i(pattern)·vectors[i], in F2^dim (only the first 64 vectors
+/// can be selected).
+fn combination(dim: usize, vectors: &[BitVec], pattern: u64) -> BitVec {
+    let mut x = BitVec::zeros(dim);
+    for (i, r) in vectors.iter().enumerate().take(64) {
+        if (pattern >> i) & 1 == 1 {
+            x.add_assign(r);
+        }
+    }
+    x
 }
 
 /// Representatives of the coset x + K, smallest |d| first (at most 2^12
