@@ -7,6 +7,22 @@
 //! re-check.
 //!
 //! The modules are layers; each uses only the ones above it in this list.
+//!
+//! ```
+//! use isodescent::curve::Curve;
+//! use isodescent::descent::{descend, DescentOptions};
+//!
+//! fn main() -> Result<(), isodescent::Error> {
+//!     let e: Curve = "0 0 0 -36 0".parse()?; // a1 a2 a3 a4 a6
+//!     let report = descend(&e, &DescentOptions::default())?;
+//!     assert_eq!((report.rank_lower, report.rank_upper), (1, 1));
+//!     for p in &report.points {
+//!         assert!(e.contains(p)); // points come back on your model
+//!     }
+//!     println!("{report}");
+//!     Ok(())
+//! }
+//! ```
 #![forbid(unsafe_code)]
 #![warn(missing_docs, clippy::unwrap_used)]
 #![cfg_attr(test, allow(clippy::unwrap_used))]
