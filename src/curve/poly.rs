@@ -27,6 +27,7 @@
 //! replaced by its squarefree part f / gcd(f, f′) after a few dozen primes
 //! fail, which restores the hypothesis.
 
+use crate::local::sqrt::mod_inverse;
 use num_bigint::BigInt;
 use num_integer::Integer;
 use num_traits::{One, Signed, ToPrimitive, Zero};
@@ -439,16 +440,6 @@ fn root_bound(g: &ZPoly) -> BigInt {
         cauchy
     } else {
         a0.min(cauchy)
-    }
-}
-
-/// Inverse of a modulo m, if gcd(a, m) = 1.
-pub(crate) fn mod_inverse(a: &BigInt, m: &BigInt) -> Option<BigInt> {
-    let e = a.mod_floor(m).extended_gcd(m);
-    if e.gcd.is_one() {
-        Some(e.x.mod_floor(m))
-    } else {
-        None
     }
 }
 

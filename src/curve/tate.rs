@@ -209,16 +209,8 @@ pub struct IntegralInvariants {
 /// assert_eq!(i.c6, (-216).into());
 /// ```
 pub fn integral_invariants(a: &[BigInt; 5]) -> IntegralInvariants {
-    let BcInvariants {
-        b2,
-        b4,
-        b6,
-        b8,
-        c4,
-        c6,
-    } = b_and_c_invariants(a);
-    let b2b2b8: BigInt = &b2 * &b2 * &b8;
-    let discriminant = -b2b2b8 - 8 * &b4 * &b4 * &b4 - 27 * &b6 * &b6 + 9 * &b2 * &b4 * &b6;
+    let [b2, b4, b6, b8, c4, c6, discriminant] =
+        super::weierstrass::integer_invariants([&a[0], &a[1], &a[2], &a[3], &a[4]]);
     IntegralInvariants {
         b2,
         b4,
@@ -241,21 +233,14 @@ struct BcInvariants {
 }
 
 fn b_and_c_invariants(a: &[BigInt; 5]) -> BcInvariants {
-    let [a1, a2, a3, a4, a6] = a;
-    let b2 = a1 * a1 + 4 * a2;
-    let b4 = a1 * a3 + 2 * a4;
-    let b6 = a3 * a3 + 4 * a6;
-    let b8 = a1 * a1 * a6 + 4 * a2 * a6 - a1 * a3 * a4 + a2 * a3 * a3 - a4 * a4;
-    let c4 = &b2 * &b2 - 24 * &b4;
-    let b2_cubed: BigInt = &b2 * &b2 * &b2;
-    let c6 = -b2_cubed + 36 * &b2 * &b4 - 216 * &b6;
+    let i = integral_invariants(a);
     BcInvariants {
-        b2,
-        b4,
-        b6,
-        b8,
-        c4,
-        c6,
+        b2: i.b2,
+        b4: i.b4,
+        b6: i.b6,
+        b8: i.b8,
+        c4: i.c4,
+        c6: i.c6,
     }
 }
 

@@ -140,7 +140,7 @@ where
 
 /// [b2, b4, b6, b8, c4, c6, Δ] of integer coefficients: in `i128` when
 /// nothing overflows, else in `BigInt`.
-fn integer_invariants(a: [&BigInt; 5]) -> [BigInt; 7] {
+pub(crate) fn integer_invariants(a: [&BigInt; 5]) -> [BigInt; 7] {
     let small = a.map(|c| Checked(c.to_i128()));
     if small.iter().all(|c| c.0.is_some()) {
         let inv = integral_invariants(&small);

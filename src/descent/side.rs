@@ -500,12 +500,7 @@ fn coset_representatives(qs2: &QS2, x: &BitVec, known: &Subspace) -> Vec<(BigInt
     let basis = known.basis();
     let k = basis.len().min(12);
     for pattern in 0u64..(1u64 << k) {
-        let mut v = x.clone();
-        for (i, bv) in basis.iter().enumerate().take(k) {
-            if (pattern >> i) & 1 == 1 {
-                v.add_assign(bv);
-            }
-        }
+        let v = x.add(&combination(x.len(), basis, pattern));
         reps.push((qs2.integer(&v), v));
     }
     reps.sort_by(|p, q| p.0.abs().cmp(&q.0.abs()).then(p.0.cmp(&q.0)));

@@ -36,31 +36,15 @@ fn jacobi_u64(mut a: u64, mut n: u64) -> i8 {
     }
 }
 
-/// Jacobi symbol for big integers, a ≥ 0, n odd positive.
+/// Jacobi symbol for big integers, n odd positive: the word fast path when
+/// both fit, else the arithmetic layer's [`crate::arith::jacobi`].
 fn jacobi_big(a: &BigInt, n: &BigInt) -> i8 {
-    let mut a = a.mod_floor(n);
-    let mut n = n.clone();
-    let mut t = 1i8;
-    loop {
-        if let (Some(x), Some(m)) = (a.to_u64(), n.to_u64()) {
-            return t * jacobi_u64(x, m);
+    if let Some(m) = n.to_u64() {
+        if let Some(x) = a.mod_floor(n).to_u64() {
+            return jacobi_u64(x, m);
         }
-        if a.is_zero() {
-            return if n.is_one() { t } else { 0 };
-        }
-        let z = a.trailing_zeros().unwrap_or(0);
-        a >>= z;
-        let n8 = (&n % 8u32).to_u32().unwrap_or(0);
-        if z % 2 == 1 && (n8 == 3 || n8 == 5) {
-            t = -t;
-        }
-        let a4 = (&a % 4u32).to_u32().unwrap_or(0);
-        if a4 == 3 && n8 % 4 == 3 {
-            t = -t;
-        }
-        std::mem::swap(&mut a, &mut n);
-        a = a.mod_floor(&n);
     }
+    crate::arith::jacobi(a, n) as i8
 }
 
 /// Legendre symbol (a/p) for an odd prime p: 0 if p | a, 1 if a is a

@@ -76,7 +76,7 @@ impl QS2 {
                 rest = u;
             }
         }
-        if !rest.is_one() && !is_perfect_square(&rest) {
+        if !rest.is_one() && !crate::arith::is_perfect_square(&rest) {
             return Err(Error::InvalidArgument {
                 reason: format!("{n} is not in Q(S,2) for S = {{{}}}", self.primes_text()),
             });
@@ -111,12 +111,4 @@ impl QS2 {
             .collect::<Vec<_>>()
             .join(", ")
     }
-}
-
-fn is_perfect_square(n: &BigInt) -> bool {
-    if n.is_negative() {
-        return false;
-    }
-    let r = n.sqrt();
-    &(&r * &r) == n
 }
