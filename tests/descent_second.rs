@@ -4,9 +4,8 @@
 use isodescent::curve::Curve;
 use isodescent::descent::{descend, verify_report, ClassStatus, DescentOptions};
 
-fn squarefree(n: i64) -> bool {
-    (2..).take_while(|p| p * p <= n).all(|p| n % (p * p) != 0)
-}
+mod common;
+use common::squarefree;
 
 #[test]
 fn lind_reichardt_class_is_proven_not_an_image() {
