@@ -94,6 +94,14 @@ pub enum Error {
         /// The operating system's message.
         reason: String,
     },
+    /// An internal consistency check failed: a bug in this crate, never
+    /// the caller's fault. The message names the check; please report the
+    /// input.
+    #[error("internal check failed: {check}")]
+    Internal {
+        /// The check that failed.
+        check: String,
+    },
     /// Any other argument outside the documented domain.
     #[error("invalid argument: {reason}")]
     InvalidArgument {

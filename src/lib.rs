@@ -54,7 +54,10 @@ pub mod selmer;
 // Layer 7: the descent — both sides of each 2-isogeny, rank bounds, reports.
 pub mod descent;
 
-// Layer 8: families of curves — twists, congruent numbers, boxes; streaming, parallel, sharded scans.
+// Layer 8: the edge — reports as text and JSON, input lines as curves.
+pub mod output;
+
+// Layer 9: families of curves — twists, congruent numbers, boxes; streaming, parallel, sharded scans.
 pub mod family;
 
 pub use budget::Budget;

@@ -5,7 +5,9 @@
 //! # Overview
 //! * [`weierstrass`]: the [`Curve`] type, a general Weierstrass model
 //!   y² + a1xy + a3y = x³ + a2x² + a4x + a6 over Q with its invariants
-//!   b2, b4, b6, b8, c4, c6, Δ, j [Sil09, III.1]; text form `a1 a2 a3 a4 a6`.
+//!   b2, b4, b6, b8, c4, c6, Δ, j [Sil09, III.1]; parsing from an equation or
+//!   from `a1 a2 a3 a4 a6`.
+//! * [`equation`]: curves and homogeneous spaces written as equations.
 //! * [`point`]: [`Point`] and the exact chord-and-tangent group law
 //!   [Sil09, III.2.3], scalar multiplication, naive height.
 //! * [`model`]: [`ModelChange`] (u, r, s, t) acting on curves and points,
@@ -28,6 +30,7 @@
 //! 2-torsion and torsion — are computed exactly by p-adic (Hensel) lifting
 //! from a prime of squarefree reduction (crate-internal `poly` module).
 
+pub mod equation;
 pub mod isogeny;
 pub mod model;
 pub mod point;

@@ -14,11 +14,14 @@
 //! elliptic curve iff Δ ≠ 0 [Sil09, III.1.4].
 //!
 //! # Text form
-//! A curve is written as its five coefficients a1 a2 a3 a4 a6, in that
-//! order, each an integer or a fraction `p/q`, separated by blanks and/or
-//! single commas: `"0 -1 0 -4 4"`, `"0,0,0,-25,0"`, `"1/2, 0 0 3 -7/4"`.
-//! [`Display`](std::fmt::Display) writes the same form (blank-separated,
-//! fractions in lowest terms), so printing and parsing round-trip.
+//! [`Display`](std::fmt::Display) writes a curve as its equation, zero
+//! terms dropped and signs folded (`y^2 + xy + y = x^3 - x^2 - 10x - 20`;
+//! see [`super::equation`]). [`FromStr`] reads that equation (with `^` or
+//! `**`, any spacing, rational coefficients) and, as an alternative, the
+//! five coefficients a1 a2 a3 a4 a6 in that order, each an integer or a
+//! fraction `p/q`, separated by blanks and/or single commas:
+//! `"0 -1 0 -4 4"`, `"0,0,0,-25,0"`, `"1/2, 0 0 3 -7/4"`. Printing and
+//! parsing round-trip.
 
 use std::fmt;
 use std::hash::{Hash, Hasher};
@@ -343,16 +346,11 @@ impl Curve {
 }
 
 impl fmt::Display for Curve {
-    /// The five coefficients separated by blanks, e.g. `0 -1 0 -4 4` or
-    /// `1/2 0 0 3 -7/4`; the output parses back to an equal curve.
+    /// The equation, e.g. `y^2 = x^3 - x^2 - 4x + 4` or
+    /// `y^2 = x^3 + (1/2)x^2 - 7/4`; the output parses back to an equal
+    /// curve.
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
-        for (i, c) in self.a.iter().enumerate() {
-            if i > 0 {
-                f.write_str(" ")?;
-            }
-            write!(f, "{c}")?;
-        }
-        Ok(())
+        f.write_str(&super::equation::equation_text(&self.a))
     }
 }
 
@@ -405,7 +403,7 @@ fn parse_token(tok: &str, input: &str) -> Result<BigRational> {
 }
 
 /// Shortens very long inputs before they are copied into an error message.
-fn truncate_for_message(s: &str) -> String {
+pub(crate) fn truncate_for_message(s: &str) -> String {
     const KEEP: usize = 80;
     if s.len() <= KEEP {
         s.to_string()
@@ -455,11 +453,13 @@ fn split_tokens(s: &str) -> Result<Vec<&str>> {
 impl FromStr for Curve {
     type Err = Error;
 
-    /// Parses five coefficients `a1 a2 a3 a4 a6` (see the module docs).
+    /// Parses an equation (text containing `=`, see [`super::equation`])
+    /// or five coefficients `a1 a2 a3 a4 a6` (see the module docs).
     ///
     /// # Errors
-    /// [`Error::Parse`] for a wrong number of coefficients, a token that is
-    /// not an integer or fraction, or a numerator/denominator longer than
+    /// [`Error::Parse`] for an equation that is not a Weierstrass equation,
+    /// a wrong number of coefficients, a token that is not an integer or
+    /// fraction, or a numerator/denominator longer than
     /// [`MAX_COEFFICIENT_DIGITS`]; [`Error::ZeroDenominator`] for `p/0`;
     /// [`Error::SingularCurve`] if the model has Δ = 0.
     fn from_str(s: &str) -> Result<Curve> {
@@ -470,6 +470,9 @@ impl FromStr for Curve {
                 input: truncate_for_message(s),
                 reason: format!("input of {} bytes is too long", s.len()),
             });
+        }
+        if s.contains('=') {
+            return Curve::new(super::equation::parse_equation(s)?);
         }
         let tokens = split_tokens(s)?;
         if tokens.len() != 5 {

@@ -27,12 +27,9 @@
 //! lower bound k + k' − 2. Independence is certified by the F2 images, not
 //! by heights.
 
-pub mod batch;
 pub mod bounds;
 pub mod options;
 pub mod report;
-#[cfg(feature = "serde")]
-pub mod serde_view;
 pub mod side;
 pub mod verify;
 
@@ -40,9 +37,8 @@ use std::time::Instant;
 
 use num_bigint::BigInt;
 
-pub use batch::{is_skipped_line, json_for_line};
 pub use options::DescentOptions;
-pub use report::DescentReport;
+pub use report::{Completion, DescentReport, RankBounds};
 pub use side::{ClassStatus, SelmerElement, SelmerSide};
 pub use verify::{verify_report, Verification};
 
@@ -172,9 +168,9 @@ fn descend_isogeny_with_torsion(
         deadline,
     )?;
     if domain.torsion_dim + codomain.torsion_dim != 2 {
-        return Err(Error::InvalidArgument {
-            reason: format!(
-                "internal check failed: torsion images have dimensions {} + {} ≠ 2",
+        return Err(Error::Internal {
+            check: format!(
+                "torsion images have dimensions {} + {} ≠ 2",
                 domain.torsion_dim, codomain.torsion_dim
             ),
         });
@@ -213,7 +209,8 @@ fn descend_isogeny_with_torsion(
 /// budget errors ([`Error::FactorBudgetExhausted`],
 /// [`Error::BudgetExhausted`]) when a budget in `options` runs out.
 pub fn descend(curve: &Curve, options: &DescentOptions) -> Result<DescentReport> {
-    let deadline = options.time_limit.map(|d| Instant::now() + d);
+    let started = Instant::now();
+    let deadline = options.time_limit.map(|d| started + d);
     let ts = two_torsion_points(curve);
     if ts.is_empty() {
         return Err(Error::NoTwoTorsion);
@@ -223,15 +220,61 @@ pub fn descend(curve: &Curve, options: &DescentOptions) -> Result<DescentReport>
     let mut budget = options.factor_budget(disc.numer().bits() + disc.denom().bits(), deadline);
     let local_data = curve.local_data(&mut budget)?;
     let mut isogenies = Vec::with_capacity(ts.len());
-    for t in &ts {
-        isogenies.push(descend_isogeny_with_torsion(
-            curve, t, &torsion, options, deadline,
-        )?);
+    let mut completion = Completion::Complete;
+    let mut first_error = None;
+    for (i, t) in ts.iter().enumerate() {
+        match descend_isogeny_with_torsion(curve, t, &torsion, options, deadline) {
+            Ok(d) => isogenies.push(d),
+            Err(e) if is_budget_error(&e) => {
+                // Fall back to the first descent alone (no search, no
+                // 4-coverings), with a short grace period of its own: the
+                // local images are cheap next to what ran out.
+                let fallback = options.clone().local_conditions_only();
+                let grace = fallback_deadline(options, started);
+                if completion.is_complete() {
+                    completion = Completion::Partial {
+                        step: format!("isogeny {}", i + 1),
+                        reason: e.to_string(),
+                    };
+                }
+                match descend_isogeny_with_torsion(curve, t, &torsion, &fallback, grace) {
+                    Ok(d) => isogenies.push(d),
+                    Err(e2) => {
+                        first_error.get_or_insert(e2);
+                    }
+                }
+            }
+            Err(e) => return Err(e),
+        }
+    }
+    if isogenies.is_empty() {
+        return Err(first_error.unwrap_or(Error::BudgetExhausted {
+            stage: "every isogeny of the descent".to_string(),
+        }));
     }
     Ok(DescentReport::new(
         curve.clone(),
         torsion,
         local_data,
         isogenies,
+        completion,
     ))
+}
+
+/// True for the errors that mean "a budget or the clock ran out", after
+/// which a cheaper run can still prove something.
+fn is_budget_error(e: &Error) -> bool {
+    matches!(
+        e,
+        Error::BudgetExhausted { .. } | Error::FactorBudgetExhausted { .. }
+    )
+}
+
+/// The deadline of the first-descent fallback: a quarter of the time
+/// limit (at least 1 s) after the limit itself, or none without a limit.
+fn fallback_deadline(options: &DescentOptions, started: Instant) -> Option<Instant> {
+    options.time_limit.map(|d| {
+        let grace = (d / 4).max(std::time::Duration::from_secs(1));
+        started + d + grace
+    })
 }

@@ -64,11 +64,15 @@ impl DescentOptions {
     /// descent. Rank bounds are then k + k' − 2 ≤ r ≤ dim Sel + dim Sel' − 2
     /// with k, k' the torsion-image dimensions.
     pub fn selmer_only() -> Self {
-        DescentOptions {
-            max_classes_searched: 0,
-            second_descent: false,
-            ..Self::default()
-        }
+        Self::default().local_conditions_only()
+    }
+
+    /// These options with the point search and the second descent off:
+    /// only the local conditions (the first descent) are computed.
+    pub fn local_conditions_only(mut self) -> Self {
+        self.max_classes_searched = 0;
+        self.second_descent = false;
+        self
     }
 
     /// A budget of `units` with this run's deadline (if any) attached.

@@ -77,21 +77,21 @@ impl Verification {
 pub fn verify_report(report: &DescentReport, units: u64) -> Result<Verification> {
     let mut out = Verification::default();
     let mut budget = Budget::with_units(units);
-    for p in &report.points {
+    for p in report.points() {
         out.record(
             format!("returned point {p:?} lies on the input curve"),
-            report.curve.contains(p),
+            report.curve().contains(p),
         );
     }
     out.record(
         "number of returned points equals the rank lower bound",
-        report.points.len() == report.rank_lower,
+        report.points().len() == report.rank_lower(),
     );
-    for (i, d) in report.isogenies.iter().enumerate() {
+    for (i, d) in report.isogenies().iter().enumerate() {
         let tag = format!("isogeny {}", i + 1);
         out.record(
             format!("{tag}: kernel point lies on the input curve"),
-            report.curve.contains(&d.kernel_point),
+            report.curve().contains(&d.kernel_point),
         );
         verify_side(
             &mut out,
@@ -121,20 +121,20 @@ pub fn verify_report(report: &DescentReport, units: u64) -> Result<Verification>
         );
     }
     let lo = report
-        .isogenies
+        .isogenies()
         .iter()
         .map(|d| d.rank_lower)
         .max()
         .unwrap_or(0);
     let hi = report
-        .isogenies
+        .isogenies()
         .iter()
         .map(|d| d.rank_upper)
         .min()
         .unwrap_or(lo);
     out.record(
         "overall bounds are the sharpest of the isogenies",
-        (lo, hi) == (report.rank_lower, report.rank_upper),
+        (lo, hi) == (report.rank_lower(), report.rank_upper()),
     );
     Ok(out)
 }

@@ -20,8 +20,8 @@ use std::sync::Arc;
 use std::time::Instant;
 
 use super::members::{Member, Parameter};
-use crate::descent::report::json_string;
-use crate::descent::{json_for_line, DescentOptions};
+use crate::descent::DescentOptions;
+use crate::output::json_for_line;
 use crate::error::{Error, Result};
 
 /// The k-th of N shards of a family: the members whose index i has
@@ -336,4 +336,9 @@ impl PoolEngine {
             }
         }
     }
+}
+
+/// A JSON string literal.
+fn json_string(s: &str) -> String {
+    serde_json::Value::String(s.to_string()).to_string()
 }

@@ -257,8 +257,8 @@ fn finish(q: &Quartic, p: &Prime, w: Option<(BigInt, BigInt)>) -> Result<LocalSo
     let g = q.eval(&x, &z);
     debug_assert!(padic::is_padic_square(&g, p));
     let precision = padic::val_u32(&g, p).saturating_add(EXTRA_PRECISION);
-    let y = padic_sqrt(&g, p, precision).ok_or_else(|| Error::InvalidArgument {
-        reason: format!("internal: g({x}, {z}) = {g} has no square root mod {p}^{precision}"),
+    let y = padic_sqrt(&g, p, precision).ok_or_else(|| Error::Internal {
+        check: format!("g({x}, {z}) = {g} has no square root mod {p}^{precision}"),
     })?;
     Ok(LocalSolubility::Soluble(LocalPoint::new(
         place, x, z, y, precision,

@@ -149,15 +149,15 @@ impl PadicCountTerms {
         let (q, r) = num.div_rem(&den);
         let ok = r.is_zero() && [1u64, 2, 4, 8].iter().any(|&s| q == BigInt::from(s));
         if !ok {
-            return Err(Error::InvalidArgument {
-                reason: format!(
-                    "internal check failed: predicted |W_{p}| = {num}/{den} is not 1, 2, 4 or 8 \
+            return Err(Error::Internal {
+                check: format!(
+                    "predicted |W_{p}| = {num}/{den} is not 1, 2, 4 or 8 \
                      (terms {self:?})"
                 ),
             });
         }
-        u64::try_from(&q).map_err(|_| Error::InvalidArgument {
-            reason: "internal check failed: predicted size out of range".into(),
+        u64::try_from(&q).map_err(|_| Error::Internal {
+            check: "predicted size out of range".into(),
         })
     }
 }
@@ -183,8 +183,8 @@ impl RealCountTerms {
         let num = 2 * self.components;
         let den = self.components_dual * self.kernel_on_identity;
         if den == 0 || num % den != 0 || !matches!(num / den, 1 | 2) {
-            return Err(Error::InvalidArgument {
-                reason: format!("internal check failed: real count {num}/{den} ({self:?})"),
+            return Err(Error::Internal {
+                check: format!("real count {num}/{den} ({self:?})"),
             });
         }
         Ok(num / den)
@@ -210,8 +210,8 @@ fn dual_coefficients(a: &BigInt, b: &BigInt) -> (BigInt, BigInt) {
 fn tamagawa_and_scaling(a: &BigInt, b: &BigInt, p: &Prime) -> Result<(u64, i64)> {
     let z = BigInt::zero();
     let lr = local_reduction(&[z.clone(), a.clone(), z.clone(), b.clone(), z], p)?;
-    let k = valuation_rational(&lr.change[0], p).ok_or_else(|| Error::InvalidArgument {
-        reason: "internal check failed: scaling u = 0 from Tate's algorithm".into(),
+    let k = valuation_rational(&lr.change[0], p).ok_or_else(|| Error::Internal {
+        check: "scaling u = 0 from Tate's algorithm".into(),
     })?;
     Ok((lr.tamagawa, k))
 }

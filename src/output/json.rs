@@ -1,0 +1,402 @@
+//! The one JSON schema of a report (`docs/report.schema.json`), produced
+//! with serde. Exact rationals are strings `"p/q"` or `"p"`; square-free
+//! classes and big integers are decimal strings.
+
+use std::collections::BTreeMap;
+
+use serde::Serialize;
+
+use super::text::{evidence_summary, rational_text, side_names};
+use super::Detail;
+use crate::curve::equation::{equation_text, quartic_text, reduced_equation_text};
+use crate::curve::tate::ReductionKind;
+use crate::curve::Point;
+use crate::descent::report::{Completion, DescentReport};
+use crate::descent::side::{ClassStatus, SelmerSide};
+use crate::local::class_representatives;
+use crate::quartic::search::SearchOutcome;
+
+/// The schema version written in every line as `format_version`.
+pub const FORMAT_VERSION: u32 = 2;
+
+#[derive(Serialize)]
+struct PointView {
+    x: String,
+    y: String,
+}
+
+fn point_view(p: &Point) -> Option<PointView> {
+    Some(PointView {
+        x: rational_text(p.x()?),
+        y: rational_text(p.y()?),
+    })
+}
+
+fn points_view(ps: &[Point]) -> Vec<PointView> {
+    ps.iter().filter_map(point_view).collect()
+}
+
+#[derive(Serialize)]
+struct TorsionView {
+    order: u32,
+    cyclic_factors: Vec<u32>,
+    generators: Vec<PointView>,
+}
+
+#[derive(Serialize)]
+struct ReductionView {
+    kind: &'static str,
+    kodaira: String,
+    conductor_exponent: u32,
+    tamagawa: u64,
+    disc_valuation: u64,
+}
+
+#[derive(Serialize)]
+struct SpacePointView {
+    #[serde(rename = "M")]
+    m: String,
+    e: String,
+    #[serde(rename = "N")]
+    n: String,
+}
+
+#[derive(Serialize)]
+struct ClassView {
+    class: String,
+    status: &'static str,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    point: Option<PointView>,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    space: Option<String>,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    space_point: Option<SpacePointView>,
+}
+
+#[derive(Serialize)]
+struct LocalImageView {
+    place: String,
+    classes: Vec<String>,
+}
+
+#[derive(Serialize)]
+struct SpaceView {
+    class: String,
+    equation: String,
+    coefficients: Vec<String>,
+    outcome: &'static str,
+    height: Option<u64>,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    point: Option<SpacePointView>,
+}
+
+#[derive(Serialize)]
+struct CoveringView {
+    quartic: Vec<String>,
+    insoluble_at: String,
+}
+
+#[derive(Serialize)]
+struct CoveringsView {
+    class: String,
+    coverings: Vec<CoveringView>,
+}
+
+#[derive(Serialize)]
+struct EvidenceView {
+    local_images: Vec<LocalImageView>,
+    spaces: Vec<SpaceView>,
+    four_coverings: Vec<CoveringsView>,
+}
+
+#[derive(Serialize)]
+struct SideView {
+    equation: String,
+    selmer_group: &'static str,
+    sha_group: &'static str,
+    dimension: usize,
+    image_lower: usize,
+    image_upper: usize,
+    torsion_image_dimension: usize,
+    sha_dimension_lower: usize,
+    sha_dimension_upper: usize,
+    elements: Vec<ClassView>,
+    evidence_summary: String,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    evidence: Option<EvidenceView>,
+}
+
+#[derive(Serialize)]
+struct IsogenyView {
+    kernel_point: Option<PointView>,
+    decides_rank: bool,
+    rank_lower: usize,
+    rank_upper: usize,
+    reduced_model: String,
+    curve: SideView,
+    isogenous: SideView,
+}
+
+#[derive(Serialize)]
+struct StopView {
+    step: String,
+    reason: String,
+}
+
+/// A full line: the report fields, or nulls and an error.
+#[derive(Serialize)]
+struct LineView<'a> {
+    format_version: u32,
+    input: &'a str,
+    curve: Option<String>,
+    status: &'static str,
+    stopped: Option<StopView>,
+    rank_lower: Option<usize>,
+    rank_upper: Option<usize>,
+    points: Vec<PointView>,
+    torsion_order: Option<u32>,
+    torsion: Option<TorsionView>,
+    conductor: Option<String>,
+    minimal_model: Option<String>,
+    reduction: BTreeMap<String, ReductionView>,
+    selmer: Vec<IsogenyView>,
+    error: Option<&'a str>,
+}
+
+fn kind_word(k: ReductionKind) -> &'static str {
+    match k {
+        ReductionKind::Good => "good",
+        ReductionKind::SplitMultiplicative => "split_multiplicative",
+        ReductionKind::NonSplitMultiplicative => "nonsplit_multiplicative",
+        ReductionKind::Additive => "additive",
+    }
+}
+
+fn space_point(p: &crate::quartic::search::QuarticPoint) -> SpacePointView {
+    SpacePointView {
+        m: p.x.to_string(),
+        e: p.z.to_string(),
+        n: p.y.to_string(),
+    }
+}
+
+fn side_view(s: &SelmerSide, domain: bool, detail: Detail) -> SideView {
+    let (sel, sha) = side_names(domain);
+    let elements = s
+        .elements
+        .iter()
+        .map(|e| {
+            let (point, space, sp) = match &e.status {
+                ClassStatus::TorsionImage { point } => (point_view(point), None, None),
+                ClassStatus::PointImage {
+                    point,
+                    space,
+                    on_space,
+                } => (
+                    point_view(point),
+                    Some(space.to_string()),
+                    Some(space_point(on_space)),
+                ),
+                ClassStatus::ProvenNotImage { space, .. } => (None, Some(space.to_string()), None),
+                ClassStatus::Undecided => (None, None, None),
+            };
+            ClassView {
+                class: e.class.to_string(),
+                status: e.status.word(),
+                point,
+                space,
+                space_point: sp,
+            }
+        })
+        .collect();
+    let evidence = (detail == Detail::Full).then(|| EvidenceView {
+        local_images: s
+            .local_images
+            .iter()
+            .map(|w| {
+                let reps = class_representatives(&w.place);
+                LocalImageView {
+                    place: w.place.to_string(),
+                    classes: w
+                        .members
+                        .iter()
+                        .filter_map(|&m| reps.get(m as usize).map(|r| r.to_string()))
+                        .collect(),
+                }
+            })
+            .collect(),
+        spaces: s
+            .searches
+            .iter()
+            .map(|r| {
+                let (outcome, height, point) = match &r.outcome {
+                    SearchOutcome::Found(p) => ("point", None, Some(space_point(p))),
+                    SearchOutcome::NoneUpTo { height } => ("none_up_to", Some(*height), None),
+                    SearchOutcome::GaveUp { completed_height } => {
+                        ("budget_ran_out", Some(*completed_height), None)
+                    }
+                };
+                SpaceView {
+                    class: r.class.to_string(),
+                    equation: quartic_text(&r.quartic),
+                    coefficients: r.quartic.iter().map(|c| c.to_string()).collect(),
+                    outcome,
+                    height,
+                    point,
+                }
+            })
+            .collect(),
+        four_coverings: s
+            .elements
+            .iter()
+            .filter_map(|e| match &e.status {
+                ClassStatus::ProvenNotImage {
+                    space,
+                    obstructions,
+                    ..
+                } => Some(CoveringsView {
+                    class: space.to_string(),
+                    coverings: obstructions
+                        .iter()
+                        .map(|o| CoveringView {
+                            quartic: o.covering.iter().map(|c| c.to_string()).collect(),
+                            insoluble_at: o.place.to_string(),
+                        })
+                        .collect(),
+                }),
+                _ => None,
+            })
+            .collect(),
+    });
+    let dim = s.dimension();
+    SideView {
+        equation: reduced_equation_text(&s.a, &s.b),
+        selmer_group: sel,
+        sha_group: sha,
+        dimension: dim,
+        image_lower: s.image_lower(),
+        image_upper: s.image_upper,
+        torsion_image_dimension: s.torsion_dim,
+        sha_dimension_lower: dim - s.image_upper.min(dim),
+        sha_dimension_upper: dim - s.image_lower(),
+        elements,
+        evidence_summary: evidence_summary(s),
+        evidence,
+    }
+}
+
+fn report_view<'a>(input: &'a str, r: &DescentReport, detail: Detail) -> LineView<'a> {
+    let t = r.torsion();
+    let (n1, n2) = t.structure();
+    let cyclic_factors = if n2 <= 1 { vec![n1] } else { vec![n2, n1] };
+    let ld = r.local_data();
+    let (status, stopped) = match r.completion() {
+        Completion::Partial { step, reason } => (
+            "partial",
+            Some(StopView {
+                step: step.clone(),
+                reason: reason.clone(),
+            }),
+        ),
+        _ => ("complete", None),
+    };
+    LineView {
+        format_version: FORMAT_VERSION,
+        input,
+        curve: Some(r.curve().to_string()),
+        status,
+        stopped,
+        rank_lower: Some(r.rank_lower()),
+        rank_upper: Some(r.rank_upper()),
+        points: points_view(r.points()),
+        torsion_order: Some(t.order()),
+        torsion: Some(TorsionView {
+            order: t.order(),
+            cyclic_factors,
+            generators: points_view(t.generators()),
+        }),
+        conductor: Some(ld.conductor.to_string()),
+        minimal_model: Some(equation_text(
+            &ld.minimal_model
+                .clone()
+                .map(num_rational::BigRational::from_integer),
+        )),
+        reduction: ld
+            .primes
+            .iter()
+            .map(|p| {
+                (
+                    p.prime.to_string(),
+                    ReductionView {
+                        kind: kind_word(p.reduction),
+                        kodaira: p.kodaira.to_string(),
+                        conductor_exponent: p.conductor_exponent,
+                        tamagawa: p.tamagawa,
+                        disc_valuation: p.disc_valuation,
+                    },
+                )
+            })
+            .collect(),
+        selmer: r
+            .isogenies()
+            .iter()
+            .enumerate()
+            .map(|(i, d)| IsogenyView {
+                kernel_point: point_view(&d.kernel_point),
+                decides_rank: r.deciding_isogeny() == Some(i),
+                rank_lower: d.rank_lower,
+                rank_upper: d.rank_upper,
+                reduced_model: reduced_equation_text(&d.domain.a, &d.domain.b),
+                curve: side_view(&d.domain, true, detail),
+                isogenous: side_view(&d.codomain, false, detail),
+            })
+            .collect(),
+        error: None,
+    }
+}
+
+fn to_line<T: Serialize>(v: &T) -> String {
+    serde_json::to_string(v).unwrap_or_else(|e| {
+        // Serialising plain strings and integers cannot fail; keep the line
+        // well-formed if it ever does.
+        format!(
+            "{{\"format_version\":{FORMAT_VERSION},\"error\":{}}}",
+            serde_json::Value::String(format!("internal error while writing JSON: {e}"))
+        )
+    })
+}
+
+/// The one-line JSON object of a report, with `input` echoed.
+pub fn report_line(input: &str, r: &DescentReport, detail: Detail) -> String {
+    to_line(&report_view(input, r, detail))
+}
+
+/// The JSON object for an input that gave no report.
+pub fn error_line(input: &str, message: &str) -> String {
+    to_line(&LineView {
+        format_version: FORMAT_VERSION,
+        input,
+        curve: None,
+        status: "error",
+        stopped: None,
+        rank_lower: None,
+        rank_upper: None,
+        points: Vec::new(),
+        torsion_order: None,
+        torsion: None,
+        conductor: None,
+        minimal_model: None,
+        reduction: BTreeMap::new(),
+        selmer: Vec::new(),
+        error: Some(message),
+    })
+}
+
+impl Serialize for DescentReport {
+    /// The JSON schema of [`report_line`] with an empty `input` and the
+    /// summary evidence.
+    fn serialize<S: serde::Serializer>(&self, serializer: S) -> Result<S::Ok, S::Error> {
+        report_view("", self, Detail::Summary).serialize(serializer)
+    }
+}
+

@@ -1,0 +1,71 @@
+//! Layer 8: the edge where reports become text and JSON, and where input
+//! lines become curves. Nothing below this layer writes or reads text
+//! other than a curve's equation.
+//!
+//! * [`text`]: the report for a person — the answer first (equation, rank
+//!   with what proves each end, points, torsion), then per isogeny the
+//!   derivation of the bounds, then local data, then evidence.
+//! * [`json`]: the one JSON schema (`docs/report.schema.json`), written with
+//!   serde; every line carries `format_version`.
+//! * [`batch`]: one curve per input line, one JSON line out; invalid bytes
+//!   and panics become that line's error and the batch goes on.
+
+pub mod batch;
+pub mod json;
+pub mod text;
+
+use std::fmt;
+
+use crate::descent::DescentReport;
+
+pub use batch::{
+    classify_line, is_skipped_line, json_for_bytes, json_for_line, json_for_line_with, LineKind,
+};
+pub use json::{error_line, report_line, FORMAT_VERSION};
+
+/// How much evidence a report shows.
+#[derive(Clone, Copy, Debug, Default, PartialEq, Eq, Hash)]
+#[non_exhaustive]
+pub enum Detail {
+    /// One summary line per side: spaces searched, points found, how many
+    /// 4-coverings are insoluble and where. Spaces with points are shown
+    /// with their equations.
+    #[default]
+    Summary,
+    /// Everything: local images at every place, every space searched with
+    /// its equation, every 4-covering with the place where it is insoluble.
+    Full,
+}
+
+/// A report with a chosen [`Detail`], for `{}` formatting.
+pub struct ReportText<'a> {
+    report: &'a DescentReport,
+    detail: Detail,
+}
+
+impl DescentReport {
+    /// The text report with the given detail (`{report}` is the summary).
+    pub fn text(&self, detail: Detail) -> ReportText<'_> {
+        ReportText {
+            report: self,
+            detail,
+        }
+    }
+
+    /// The one-line JSON object of this report (see [`json`]).
+    pub fn to_json_line(&self, input: &str, detail: Detail) -> String {
+        report_line(input, self, detail)
+    }
+}
+
+impl fmt::Display for ReportText<'_> {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        text::write_report(f, self.report, self.detail)
+    }
+}
+
+impl fmt::Display for DescentReport {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        text::write_report(f, self, Detail::Summary)
+    }
+}

@@ -1,0 +1,432 @@
+//! The text report: the answer first, then per isogeny the derivation of
+//! the bounds, then local data, then evidence (summarised, or in full).
+
+use std::fmt::{self, Write as _};
+
+use num_bigint::BigInt;
+use num_rational::BigRational;
+use num_traits::One;
+
+use super::Detail;
+use crate::curve::equation::{equation_text, quartic_text, reduced_equation_text};
+use crate::curve::tate::ReductionKind;
+use crate::curve::{ModelChange, Point};
+use crate::descent::report::{Completion, DescentReport};
+use crate::descent::side::{ClassStatus, SelmerSide};
+use crate::descent::IsogenyDescent;
+use crate::local::class_representatives;
+use crate::quartic::search::SearchOutcome;
+
+/// A rational as "p/q" in lowest terms, or "p".
+pub fn rational_text(x: &BigRational) -> String {
+    if x.denom().is_one() {
+        x.numer().to_string()
+    } else {
+        format!("{}/{}", x.numer(), x.denom())
+    }
+}
+
+/// A point as "(x, y)" or "O".
+pub fn point_text(p: &Point) -> String {
+    match (p.x(), p.y()) {
+        (Some(x), Some(y)) => format!("({}, {})", rational_text(x), rational_text(y)),
+        _ => "O".to_string(),
+    }
+}
+
+/// The words for a reduction type.
+pub(crate) fn reduction_words(k: ReductionKind) -> &'static str {
+    match k {
+        ReductionKind::Good => "good",
+        ReductionKind::SplitMultiplicative => "split multiplicative",
+        ReductionKind::NonSplitMultiplicative => "non-split multiplicative",
+        ReductionKind::Additive => "additive",
+    }
+}
+
+/// The names of a side's Selmer group and of the part of Sha it measures.
+///
+/// For φ: E → E' with dual φ̂, the classes d of C_d over E (points of E)
+/// form Sel^φ̂(E') ⊇ E(Q)/φ̂(E'(Q)), and Sel/image ≅ Ш(E')[φ̂]; the classes
+/// over E' form Sel^φ(E) and measure Ш(E)[φ].
+pub(crate) fn side_names(domain: bool) -> (&'static str, &'static str) {
+    if domain {
+        ("Sel^φ̂(E')", "Ш(E')[φ̂]")
+    } else {
+        ("Sel^φ(E)", "Ш(E)[φ]")
+    }
+}
+
+/// How the reduced model comes from the input model.
+fn model_relation(change: &ModelChange) -> String {
+    if change.is_identity() {
+        return "the input model itself".to_string();
+    }
+    format!(
+        "from the input model by x = u^2x' + r, y = u^3y' + su^2x' + t with u = {}, r = {}, s = {}, t = {}",
+        rational_text(change.u()),
+        rational_text(change.r()),
+        rational_text(change.s()),
+        rational_text(change.t())
+    )
+}
+
+fn classes_text(img: &crate::quartic::LocalImage) -> String {
+    let reps = class_representatives(&img.place);
+    let names: Vec<String> = img
+        .members
+        .iter()
+        .map(|&m| {
+            reps.get(m as usize)
+                .map(BigInt::to_string)
+                .unwrap_or_else(|| format!("#{m}"))
+        })
+        .collect();
+    format!("{{{}}}", names.join(", "))
+}
+
+fn class_line(status: &ClassStatus) -> String {
+    match status {
+        ClassStatus::TorsionImage { point } => {
+            format!("image of the torsion point {}", point_text(point))
+        }
+        ClassStatus::PointImage {
+            point,
+            space,
+            on_space,
+        } => format!(
+            "image of {} from C_{space} at (M, e, N) = ({}, {}, {})",
+            point_text(point),
+            on_space.x,
+            on_space.z,
+            on_space.y
+        ),
+        ClassStatus::Undecided => "undecided: locally soluble everywhere, no point found".into(),
+        ClassStatus::ProvenNotImage {
+            obstructions,
+            space,
+            ..
+        } => format!(
+            "not an image: all {} 4-coverings of C_{space} are locally insoluble",
+            obstructions.len()
+        ),
+    }
+}
+
+/// "R: 2, 3: 1" from the places of a list of obstructions.
+pub(crate) fn place_tally<'a>(places: impl Iterator<Item = &'a crate::local::Place>) -> String {
+    let mut tally: Vec<(String, usize)> = Vec::new();
+    for p in places {
+        let name = p.to_string();
+        match tally.iter_mut().find(|(n, _)| *n == name) {
+            Some((_, k)) => *k += 1,
+            None => tally.push((name, 1)),
+        }
+    }
+    tally
+        .iter()
+        .map(|(n, k)| format!("{n}: {k}"))
+        .collect::<Vec<_>>()
+        .join(", ")
+}
+
+/// One-line summary of a side's searches and second descent.
+pub(crate) fn evidence_summary(s: &SelmerSide) -> String {
+    let mut parts = Vec::new();
+    if !s.searches.is_empty() {
+        let heights: Vec<u64> = s
+            .searches
+            .iter()
+            .filter_map(|r| match &r.outcome {
+                SearchOutcome::NoneUpTo { height } => Some(*height),
+                SearchOutcome::GaveUp { completed_height } => Some(*completed_height),
+                SearchOutcome::Found(_) => None,
+            })
+            .collect();
+        let found = s
+            .searches
+            .iter()
+            .filter(|r| matches!(r.outcome, SearchOutcome::Found(_)))
+            .count();
+        let reach = match (heights.iter().min(), heights.iter().max()) {
+            (Some(lo), Some(hi)) if lo == hi => format!(" to height {hi}"),
+            (Some(lo), Some(hi)) => format!(" to heights {lo}..{hi}"),
+            _ => String::new(),
+        };
+        parts.push(format!(
+            "{} spaces searched{reach}, {found} point{} found",
+            s.searches.len(),
+            if found == 1 { "" } else { "s" }
+        ));
+    }
+    let proven: Vec<&ClassStatus> = s
+        .elements
+        .iter()
+        .map(|e| &e.status)
+        .filter(|st| matches!(st, ClassStatus::ProvenNotImage { .. }))
+        .collect();
+    if !proven.is_empty() {
+        let mut count = 0;
+        let places = proven.iter().flat_map(|st| match st {
+            ClassStatus::ProvenNotImage { obstructions, .. } => {
+                obstructions.iter().map(|o| &o.place).collect::<Vec<_>>()
+            }
+            _ => Vec::new(),
+        });
+        let places: Vec<&crate::local::Place> = places.collect();
+        count += places.len();
+        parts.push(format!(
+            "all {count} 4-coverings of {} space{} locally insoluble ({})",
+            proven.len(),
+            if proven.len() == 1 { "" } else { "s" },
+            place_tally(places.into_iter())
+        ));
+    }
+    if parts.is_empty() {
+        "no search (local conditions only)".to_string()
+    } else {
+        parts.join("; ")
+    }
+}
+
+fn write_side(
+    f: &mut fmt::Formatter<'_>,
+    s: &SelmerSide,
+    domain: bool,
+    detail: Detail,
+) -> fmt::Result {
+    let (sel, _) = side_names(domain);
+    writeln!(f, "  basis of {sel} in Q*/Q*^2:")?;
+    for e in &s.elements {
+        writeln!(f, "    {:>8}  {}", e.class.to_string(), class_line(&e.status))?;
+    }
+    // Each homogeneous space once, with its equation.
+    let mut shown: Vec<&BigInt> = Vec::new();
+    let mut lines = Vec::new();
+    for r in &s.searches {
+        if shown.contains(&&r.class) {
+            continue;
+        }
+        let with_point = matches!(r.outcome, SearchOutcome::Found(_));
+        if detail == Detail::Full || with_point {
+            shown.push(&r.class);
+            let outcome = match &r.outcome {
+                SearchOutcome::Found(p) => format!("point (M, e, N) = ({}, {}, {})", p.x, p.z, p.y),
+                SearchOutcome::NoneUpTo { height } => format!("no point up to height {height}"),
+                SearchOutcome::GaveUp { completed_height } => {
+                    format!("budget ran out, no point up to height {completed_height}")
+                }
+            };
+            lines.push(format!(
+                "    C_{}: {}   {outcome}",
+                r.class,
+                quartic_text(&r.quartic)
+            ));
+        }
+    }
+    if !lines.is_empty() {
+        writeln!(f, "  homogeneous spaces:")?;
+        for l in lines {
+            writeln!(f, "{l}")?;
+        }
+    }
+    if detail == Detail::Full {
+        let locals: Vec<String> = s
+            .local_images
+            .iter()
+            .map(|w| format!("{}: {}", w.place, classes_text(w)))
+            .collect();
+        writeln!(f, "  local images: {}", locals.join("; "))?;
+        for e in &s.elements {
+            if let ClassStatus::ProvenNotImage {
+                obstructions,
+                space,
+                ..
+            } = &e.status
+            {
+                writeln!(f, "  4-coverings of C_{space}:")?;
+                for o in obstructions {
+                    writeln!(
+                        f,
+                        "    y^2 = {}   insoluble at {}",
+                        quartic_text(&o.covering)
+                            .trim_start_matches("N^2 = ")
+                            .replace('M', "u")
+                            .replace('e', "v"),
+                        o.place
+                    )?;
+                }
+            }
+        }
+    }
+    Ok(())
+}
+
+fn write_isogeny(
+    f: &mut fmt::Formatter<'_>,
+    i: usize,
+    count: usize,
+    d: &IsogenyDescent,
+    deciding: bool,
+    detail: Detail,
+) -> fmt::Result {
+    let (ka, kb) = (d.domain.image_lower(), d.codomain.image_lower());
+    let (ua, ub) = (d.domain.image_upper, d.codomain.image_upper);
+    let head = format!(
+        "isogeny {} of {count}: φ with kernel generated by {}",
+        i + 1,
+        point_text(&d.kernel_point)
+    );
+    if !deciding && detail == Detail::Summary {
+        return writeln!(
+            f,
+            "{head}: {} ≤ rank ≤ {} (dim Sel^φ̂(E') = {}, dim Sel^φ(E) = {})",
+            d.rank_lower,
+            d.rank_upper,
+            d.domain.dimension(),
+            d.codomain.dimension()
+        );
+    }
+    writeln!(
+        f,
+        "{head}{}",
+        if deciding { ", decides the rank" } else { "" }
+    )?;
+    writeln!(
+        f,
+        "  reduced model E: {} ({})",
+        reduced_equation_text(&d.domain.a, &d.domain.b),
+        model_relation(d.model.change())
+    )?;
+    writeln!(
+        f,
+        "  isogenous curve E': {}",
+        reduced_equation_text(&d.codomain.a, &d.codomain.b)
+    )?;
+    writeln!(
+        f,
+        "  dim Sel^φ̂(E') = {}, dim Sel^φ(E) = {}; images of E(Q) and E'(Q) have dimension in [{ka}, {ua}] and [{kb}, {ub}]",
+        d.domain.dimension(),
+        d.codomain.dimension()
+    )?;
+    writeln!(
+        f,
+        "  rank ≥ {ka} + {kb} − 2 = {}, rank ≤ {ua} + {ub} − 2 = {}",
+        d.rank_lower, d.rank_upper
+    )?;
+    let ((sl, su), (tl, tu)) = d.sha_bounds();
+    writeln!(
+        f,
+        "  dim Ш(E')[φ̂] in [{sl}, {su}], dim Ш(E)[φ] in [{tl}, {tu}]"
+    )?;
+    write_side(f, &d.domain, true, detail)?;
+    write_side(f, &d.codomain, false, detail)
+}
+
+/// Writes `report` with the given detail.
+pub(crate) fn write_report(
+    f: &mut fmt::Formatter<'_>,
+    r: &DescentReport,
+    detail: Detail,
+) -> fmt::Result {
+    writeln!(f, "{}", r.curve())?;
+    let b = r.rank_bounds();
+    let n = r.points().len();
+    let lower_proof = if b.lower == 0 {
+        "trivially".to_string()
+    } else {
+        format!(
+            "by {n} independent point{} (their images under the connecting maps are independent)",
+            if n == 1 { "" } else { "s" }
+        )
+    };
+    let upper_proof = match r.deciding_isogeny() {
+        Some(i) => format!("by the Selmer groups of isogeny {}", i + 1),
+        None => "by the Selmer groups".to_string(),
+    };
+    if b.is_decided() {
+        writeln!(
+            f,
+            "rank {}: ≥ {lower_proof}, ≤ {upper_proof}",
+            b.lower
+        )?;
+    } else {
+        writeln!(
+            f,
+            "rank in [{}, {}]: lower bound {lower_proof}, upper bound {upper_proof}",
+            b.lower, b.upper
+        )?;
+    }
+    if n > 0 {
+        let pts: Vec<String> = r.points().iter().map(point_text).collect();
+        writeln!(
+            f,
+            "points: {} (independent modulo torsion; not shown to generate)",
+            pts.join(", ")
+        )?;
+    }
+    let t = r.torsion();
+    let (n1, n2) = t.structure();
+    let structure = if n2 <= 1 {
+        format!("Z/{n1}")
+    } else {
+        format!("Z/{n2} x Z/{n1}")
+    };
+    let gens: Vec<String> = t.generators().iter().map(point_text).collect();
+    writeln!(
+        f,
+        "torsion: {structure}, generated by {}",
+        if gens.is_empty() {
+            "O".to_string()
+        } else {
+            gens.join(", ")
+        }
+    )?;
+    if let Completion::Partial { step, reason } = r.completion() {
+        writeln!(
+            f,
+            "partial: {step} stopped ({reason}); the bounds above are proven by the steps that ran"
+        )?;
+    }
+    writeln!(f)?;
+    let count = r.isogenies().len();
+    for (i, d) in r.isogenies().iter().enumerate() {
+        write_isogeny(f, i, count, d, r.deciding_isogeny() == Some(i), detail)?;
+    }
+    writeln!(f)?;
+    let ld = r.local_data();
+    let mm = ld
+        .minimal_model
+        .clone()
+        .map(BigRational::from_integer);
+    writeln!(
+        f,
+        "minimal model {}, conductor {}",
+        equation_text(&mm),
+        ld.conductor
+    )?;
+    for p in &ld.primes {
+        writeln!(
+            f,
+            "  p = {}: {} reduction, Kodaira type {}, f_p = {}, c_p = {}, v_p(Δ) = {}",
+            p.prime,
+            reduction_words(p.reduction),
+            p.kodaira,
+            p.conductor_exponent,
+            p.tamagawa,
+            p.disc_valuation
+        )?;
+    }
+    writeln!(f)?;
+    let mut ev = String::new();
+    for (i, d) in r.isogenies().iter().enumerate() {
+        let _ = writeln!(
+            ev,
+            "evidence, isogeny {}: on E {}; on E' {}",
+            i + 1,
+            evidence_summary(&d.domain),
+            evidence_summary(&d.codomain)
+        );
+    }
+    f.write_str(&ev)
+}
