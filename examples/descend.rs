@@ -1,29 +1,34 @@
 //! Command-line front end for the descent.
 //!
 //! ```text
-//! descend                       descent on the built-in demo curves, readable reports
-//! descend "A1 A2 A3 A4 A6"      readable report for one curve
-//! descend --json                one curve per stdin line -> one JSON object per line
+//! descend                          descent on the built-in demo curves, readable reports
+//! descend "y^2 = x^3 - 30x^2 + 3x" readable report for one curve
+//! descend --json                   one curve per stdin line -> one JSON object per line
 //!
 //! options (before or after the curve):
-//!   --height H           search height on each homogeneous space   (default 128)
-//!   --second-height H    search height on the 4-coverings          (default 64)
-//!   --no-second          skip the second descent
+//!   --space-height H     search height on each homogeneous space   (default 128)
+//!   --covering-height H  search height on the 4-coverings          (default 64)
+//!   --skip-coverings     no 4-coverings (first descent and search only)
 //!   --search-work N      work units per homogeneous-space search
 //!   --local-work N       work units for the local tests of one side
 //!   --factor-work N      work units for factoring per isogeny
 //!   --seconds S          wall-clock limit per curve (results then depend on timing)
+//!   --all-evidence       every local image, space searched and 4-covering, in text and JSON
 //! ```
-//! Coefficients are integers or fractions p/q separated by spaces and/or
-//! commas. In `--json` mode blank lines and lines starting with `#` are
-//! skipped; a bad line gets an object with its `error` and the batch goes
-//! on. The exit status is non-zero only for usage or I/O errors.
+//! A curve is its equation (`y^2 + xy = x^3 - 2x + 1`, `^` or `**`, spaces
+//! optional, rational coefficients) or its five coefficients a1 a2 a3 a4 a6.
+//! In `--json` mode input is read as bytes, line by line: blank lines
+//! (Unicode white space only, including U+2028/U+2029) and lines starting
+//! with `#` are skipped; a bad line, including one that is not valid UTF-8,
+//! gets an object with its `error` and the batch goes on. The exit status
+//! is non-zero only for usage or I/O errors.
 
 use std::io::{self, BufRead, Write};
 use std::process::ExitCode;
 
 use isodescent::curve::Curve;
-use isodescent::descent::{descend, is_skipped_line, json_for_line, DescentOptions};
+use isodescent::descent::{descend, DescentOptions};
+use isodescent::output::{json_for_bytes, Detail};
 
 /// Demo scenario: a handful of curves a researcher might be checking while
 /// studying y² = x³ + a x² + b x with small coefficients, given in assorted
@@ -31,30 +36,30 @@ use isodescent::descent::{descend, is_skipped_line, json_for_line, DescentOption
 /// meaning.
 const DEMO: &[(&str, &str)] = &[
     (
-        "0 -30 0 3 0",
-        "reduced form y^2 = x^3 + a x^2 + b x; two independent points",
+        "y^2 = x^3 - 30x^2 + 3x",
+        "reduced form y^2 = x^3 + ax^2 + bx; two independent points",
     ),
     (
-        "2 3 2 -10 2",
+        "y^2 + 2xy + 2y = x^3 + 3x^2 - 10x + 2",
         "general model with a1, a3 nonzero; points come back on it",
     ),
-    ("0 -7 0 1/16 0", "rational coefficients"),
+    ("y^2 = x^3 - 7x^2 + (1/16)x", "rational coefficients"),
     (
-        "0 -29 0 -30 0",
+        "y^2 = x^3 - 29x^2 - 30x",
         "three rational 2-torsion points; Selmer classes proven not images",
     ),
-    ("0 0 0 -1154 0", "a curve of higher rank"),
+    ("y^2 = x^3 - 1154x", "a curve of higher rank"),
     (
-        "0 -30 0 -8 0",
+        "y^2 = x^3 - 30x^2 - 8x",
         "the bounds stay apart: reported honestly as an interval",
     ),
     (
         "0 1 1 -2 0",
-        "no rational point of order 2: a typed error, not a panic",
+        "no rational point of order 2 (five-coefficient input): a typed error, not a panic",
     ),
 ];
 
-const USAGE: &str = "usage: descend [--json | \"A1 A2 A3 A4 A6\"] [--height H] [--second-height H] [--no-second] [--search-work N] [--local-work N] [--factor-work N] [--seconds S]";
+const USAGE: &str = "usage: descend [--json | \"EQUATION\" | \"A1 A2 A3 A4 A6\"] [--space-height H] [--covering-height H] [--skip-coverings] [--search-work N] [--local-work N] [--factor-work N] [--seconds S] [--all-evidence]";
 
 enum Mode {
     Demo,
@@ -62,8 +67,9 @@ enum Mode {
     Json,
 }
 
-fn parse_args() -> Result<(Mode, DescentOptions), String> {
+fn parse_args() -> Result<(Mode, DescentOptions, Detail), String> {
     let mut options = DescentOptions::default();
+    let mut detail = Detail::Summary;
     let mut mode = Mode::Demo;
     let mut args = std::env::args().skip(1);
     while let Some(a) = args.next() {
@@ -74,9 +80,10 @@ fn parse_args() -> Result<(Mode, DescentOptions), String> {
         };
         match a.as_str() {
             "--json" => mode = Mode::Json,
-            "--height" => options.search_height = number("--height")?,
-            "--second-height" => options.second_search_height = number("--second-height")?,
-            "--no-second" => options.second_descent = false,
+            "--space-height" => options.search_height = number("--space-height")?,
+            "--covering-height" => options.second_search_height = number("--covering-height")?,
+            "--skip-coverings" => options.second_descent = false,
+            "--all-evidence" => detail = Detail::Full,
             "--search-work" => options.search_units = number("--search-work")?,
             "--local-work" => options.local_units = number("--local-work")?,
             "--factor-work" => options.factor_units = number("--factor-work")?,
@@ -93,50 +100,59 @@ fn parse_args() -> Result<(Mode, DescentOptions), String> {
             s if s.starts_with("--") => return Err(format!("unknown option {s}")),
             s => {
                 if matches!(mode, Mode::One(_)) {
-                    return Err("give the five coefficients as one argument".into());
+                    return Err("give the curve as one argument (quote the equation)".into());
                 }
                 mode = Mode::One(s.to_string());
             }
         }
     }
     if options.search_height > 1_000_000 {
-        return Err("--height above 10^6 would take days; choose a smaller bound".into());
+        return Err("--space-height above 10^6 would take days; choose a smaller bound".into());
     }
-    Ok((mode, options))
+    Ok((mode, options, detail))
 }
 
-fn report_one(text: &str, options: &DescentOptions, out: &mut impl Write) -> io::Result<()> {
+fn report_one(
+    text: &str,
+    options: &DescentOptions,
+    detail: Detail,
+    out: &mut impl Write,
+) -> io::Result<()> {
     match text.parse::<Curve>() {
         Err(e) => writeln!(out, "{text}: {e}"),
         Ok(curve) => match descend(&curve, options) {
-            Ok(r) => writeln!(out, "{r}"),
+            Ok(r) => writeln!(out, "{}", r.text(detail)),
             Err(e) => writeln!(out, "{text}: {e}"),
         },
     }
 }
 
-fn run(mode: Mode, options: &DescentOptions) -> io::Result<()> {
+fn run(mode: Mode, options: &DescentOptions, detail: Detail) -> io::Result<()> {
     let stdout = io::stdout();
     let mut out = stdout.lock();
     match mode {
         Mode::Demo => {
             for (curve, note) in DEMO {
-                writeln!(out, "── {curve}   ({note})")?;
-                report_one(curve, options, &mut out)?;
+                writeln!(out, "── {note}")?;
+                report_one(curve, options, detail, &mut out)?;
             }
         }
-        Mode::One(text) => report_one(&text, options, &mut out)?,
+        Mode::One(text) => report_one(&text, options, detail, &mut out)?,
         Mode::Json => {
             // Caught panics are reported in the JSON; keep stderr quiet.
             std::panic::set_hook(Box::new(|_| {}));
             let stdin = io::stdin();
-            for line in stdin.lock().lines() {
-                let line = line?;
-                if is_skipped_line(&line) {
-                    continue;
+            let mut input = stdin.lock();
+            let mut line = Vec::new();
+            loop {
+                line.clear();
+                if input.read_until(b'\n', &mut line)? == 0 {
+                    break;
                 }
-                writeln!(out, "{}", json_for_line(&line, options))?;
-                out.flush()?;
+                if let Some(json) = json_for_bytes(&line, options, detail) {
+                    writeln!(out, "{json}")?;
+                    out.flush()?;
+                }
             }
         }
     }
@@ -144,7 +160,7 @@ fn run(mode: Mode, options: &DescentOptions) -> io::Result<()> {
 }
 
 fn main() -> ExitCode {
-    let (mode, options) = match parse_args() {
+    let (mode, options, detail) = match parse_args() {
         Ok(x) => x,
         Err(msg) => {
             if !msg.is_empty() {
@@ -154,7 +170,7 @@ fn main() -> ExitCode {
             return ExitCode::from(2);
         }
     };
-    match run(mode, &options) {
+    match run(mode, &options, detail) {
         Ok(()) => ExitCode::SUCCESS,
         Err(e) if e.kind() == io::ErrorKind::BrokenPipe => ExitCode::SUCCESS,
         Err(e) => {

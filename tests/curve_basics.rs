@@ -145,7 +145,7 @@ fn display_round_trips_through_the_parser() {
         assert_eq!(back, e);
     }
     let e: Curve = "1/2, 0 0 3 -7/4".parse().unwrap();
-    assert_eq!(e.to_string(), "1/2 0 0 3 -7/4");
+    assert_eq!(e.to_string(), "y^2 + (1/2)xy = x^3 + 3x - 7/4");
 }
 
 #[test]
@@ -153,7 +153,7 @@ fn integral_model_of_the_documented_rational_curve() {
     let e: Curve = "1/2, 0 0 3 -7/4".parse().unwrap();
     let (m, ch) = integral_model(&e);
     assert!(m.is_integral());
-    assert_eq!(m.to_string(), "2 0 0 768 -7168");
+    assert_eq!(m.to_string(), "y^2 + 2xy = x^3 + 768x - 7168");
     assert_eq!(m.j_invariant(), e.j_invariant());
     assert_eq!(ch.apply_to_curve(&e), m);
 }

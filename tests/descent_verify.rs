@@ -1,14 +1,10 @@
 //! The verify path accepts honest reports and rejects tampered ones.
 
-use isodescent::curve::{Curve, Point};
-use isodescent::descent::{descend, verify_report, DescentOptions};
-use num_bigint::BigInt;
-use num_rational::BigRational;
+//! (Tampered reports are checked by the unit tests of `descent::verify`,
+//! which can reach inside a report.)
 
-fn report(coeffs: &str) -> isodescent::descent::DescentReport {
-    let c: Curve = coeffs.parse().unwrap();
-    descend(&c, &DescentOptions::default()).unwrap()
-}
+use isodescent::curve::Curve;
+use isodescent::descent::{descend, verify_report, DescentOptions};
 
 #[test]
 fn honest_reports_pass_every_check() {
@@ -19,54 +15,16 @@ fn honest_reports_pass_every_check() {
         "1 0 0 -11 -14",
         "0 -1/4 0 -6 0",
         "0 7 0 3 0",
-        "0 0 0 -34 0",
+        "y^2 = x^3 + 5x^2 - 14x",
+        "y^2 + xy = x^3 - x^2 - 6x",
     ] {
-        let Ok(c2) = c.parse::<Curve>() else { continue };
-        let Ok(r) = descend(&c2, &DescentOptions::default()) else {
-            continue;
-        };
+        // Every listed curve must parse and descend: a failure here fails
+        // the test rather than skipping the curve.
+        let c2 = c.parse::<Curve>().unwrap_or_else(|e| panic!("{c}: {e}"));
+        let r = descend(&c2, &DescentOptions::default()).unwrap_or_else(|e| panic!("{c}: {e}"));
         let v = verify_report(&r, 10_000_000).unwrap();
         assert!(v.all_passed(), "{c}: {:?}", v.failures());
         assert!(v.checks.len() > 10);
     }
 }
 
-#[test]
-fn a_moved_point_is_caught() {
-    let mut r = report("0 0 0 -36 0");
-    assert!(!r.points.is_empty());
-    let q = |n: i64| BigRational::from_integer(BigInt::from(n));
-    r.points[0] = Point::new(q(1), q(1));
-    let v = verify_report(&r, 10_000_000).unwrap();
-    assert!(!v.all_passed());
-}
-
-#[test]
-fn an_inflated_rank_bound_is_caught() {
-    let mut r = report("0 0 0 -1 0");
-    r.isogenies[0].rank_upper += 1;
-    let v = verify_report(&r, 10_000_000).unwrap();
-    assert!(!v.all_passed());
-}
-
-#[test]
-fn a_forged_local_image_is_caught() {
-    let mut r = report("0 0 0 -36 0");
-    // find a place whose local image is not everything, and claim it is
-    let side = &mut r.isogenies[0].domain;
-    let w = side
-        .local_images
-        .iter_mut()
-        .find(|w| w.members.len() < 1 << isodescent::local::class_dimension(&w.place))
-        .expect("some proper local image");
-    let n = 1u8 << isodescent::local::class_dimension(&w.place);
-    w.members = (0..n).collect();
-    let v = verify_report(&r, 10_000_000).unwrap();
-    let failed: Vec<String> = v.failures().iter().map(|c| c.what.clone()).collect();
-    assert!(
-        failed
-            .iter()
-            .any(|f| f.contains("re-decided insoluble") || f.contains("recomputed")),
-        "{failed:?}"
-    );
-}

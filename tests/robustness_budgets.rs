@@ -29,7 +29,8 @@ use std::time::Instant;
 
 use isodescent::arith::is_prime;
 use isodescent::curve::{Curve, ModelChange};
-use isodescent::descent::{descend, json_for_line, DescentOptions};
+use isodescent::descent::{descend, DescentOptions};
+use isodescent::output::json_for_line;
 use isodescent::Error;
 use num_bigint::BigInt;
 use num_rational::BigRational;
@@ -107,7 +108,7 @@ fn timed_descend(
         "{label}: {:.3} s, {}",
         t.elapsed().as_secs_f64(),
         match &r {
-            Ok(rep) => format!("report, rank {}..{}", rep.rank_lower, rep.rank_upper),
+            Ok(rep) => format!("report, rank {}..{}", rep.rank_lower(), rep.rank_upper()),
             Err(e) => format!(
                 "error: {}",
                 e.to_string().chars().take(90).collect::<String>()

@@ -10,7 +10,8 @@
 use std::panic::{catch_unwind, AssertUnwindSafe};
 
 use isodescent::curve::{Curve, ModelChange};
-use isodescent::descent::{descend, json_for_line, verify_report, DescentOptions};
+use isodescent::descent::{descend, verify_report, DescentOptions};
+use isodescent::output::json_for_line;
 use isodescent::Error;
 use num_bigint::BigInt;
 use num_rational::BigRational;
@@ -131,10 +132,10 @@ proptest! {
         prop_assert!(got.is_ok(), "descend panicked on the curve {}", e);
         match got.unwrap() {
             Ok(rep) => {
-                for p in &rep.points {
+                for p in rep.points() {
                     prop_assert!(e.contains(p), "point {:?} not on {}", p, e);
                 }
-                prop_assert!(rep.rank_lower <= rep.rank_upper);
+                prop_assert!(rep.rank_lower() <= rep.rank_upper());
                 let ver = verify_report(&rep, 2_000_000).unwrap();
                 prop_assert!(ver.all_passed(), "verification failed on {}: {:?}", e, ver.failures());
             }
@@ -155,7 +156,7 @@ proptest! {
         prop_assert!(got.is_ok(), "descend panicked on the curve {}", e);
         match got.unwrap() {
             Ok(rep) => {
-                for p in &rep.points {
+                for p in rep.points() {
                     prop_assert!(e.contains(p), "point {:?} not on {}", p, e);
                 }
             }

@@ -53,14 +53,14 @@ impl RankBounds {
 #[derive(Clone, Debug, PartialEq, Eq)]
 #[non_exhaustive]
 pub struct DescentReport {
-    curve: Curve,
-    torsion: TorsionGroup,
-    local_data: GlobalLocalData,
-    isogenies: Vec<IsogenyDescent>,
-    deciding: Option<usize>,
-    bounds: RankBounds,
-    points: Vec<Point>,
-    completion: Completion,
+    pub(crate) curve: Curve,
+    pub(crate) torsion: TorsionGroup,
+    pub(crate) local_data: GlobalLocalData,
+    pub(crate) isogenies: Vec<IsogenyDescent>,
+    pub(crate) deciding: Option<usize>,
+    pub(crate) bounds: RankBounds,
+    pub(crate) points: Vec<Point>,
+    pub(crate) completion: Completion,
 }
 
 impl DescentReport {

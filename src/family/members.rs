@@ -125,8 +125,8 @@ pub struct Member {
 }
 
 impl Member {
-    /// The curve as one input line (`a1 a2 a3 a4 a6`), the form that
-    /// [`crate::descent::json_for_line`] reads.
+    /// The curve as it is echoed in the `input` field of the member's
+    /// record: its equation.
     pub fn line(&self) -> String {
         self.curve.to_string()
     }

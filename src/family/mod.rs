@@ -6,7 +6,7 @@
 //! * [`Family`] enumerates the members of a family in a fixed order,
 //!   lazily ([`Family::members`]); the member's index in that order is the
 //!   key everything else uses.
-//! * [`scan()`](fn@scan) runs [`crate::descent::json_for_line`] on each member and
+//! * [`scan()`](fn@scan) runs [`crate::output::json_for_line`] on each member and
 //!   hands the [`ScanRecord`]s back in family order, with memory bounded
 //!   independently of the family size; with the `parallel` feature on a
 //!   rayon pool (see [`scan`](mod@scan) for how order is kept).
@@ -34,12 +34,10 @@
 //! assert_eq!(ranks[0], ("n=1".to_string(), Some(0)));
 //! ```
 
-pub mod json;
 pub mod members;
 pub mod records;
 pub mod scan;
 
-pub use json::Json;
 pub use members::{is_squarefree_u64, quadratic_twist, Family, Member, Members, Parameter};
 pub use records::{
     merge_shards, read_for_resume, IndexList, MergeReport, RecordLine, ResumeState, Tally,

@@ -3,7 +3,7 @@
 //!
 //! # File format
 //! One line per member, `\n`-terminated, in family order: the object of
-//! [`crate::descent::json_for_line`] with `"family_index"` and
+//! [`crate::output::json_for_line`] with `"family_index"` and
 //! `"family_parameter"` put in front ([`super::ScanRecord::to_line`]). A
 //! file holds one shard (possibly the whole family, shard 1/1), indices
 //! strictly increasing. A last line without its `\n` is a line that was
@@ -14,7 +14,8 @@ use std::collections::BTreeMap;
 use std::fmt;
 use std::io::{BufRead, Write};
 
-use super::json::Json;
+use serde_json::Value;
+
 use super::members::Family;
 use super::scan::Shard;
 use crate::error::{Error, Result};
@@ -42,14 +43,15 @@ impl RecordLine {
     /// JSON object with a numeric `family_index` and a string
     /// `family_parameter`.
     pub fn parse(line: &str) -> Option<RecordLine> {
-        let v = Json::parse(line)?;
+        let v: Value = serde_json::from_str(line.trim_end_matches(['\n', '\r'])).ok()?;
         let index = v.get("family_index")?.as_u64()?;
         let parameter = v.get("family_parameter")?.as_str()?.to_string();
-        let num = |k: &str| v.get(k).and_then(Json::as_u64);
-        let error = v.get("error").and_then(Json::as_str).map(str::to_string);
+        let num = |k: &str| v.get(k).and_then(Value::as_u64);
+        let error = v.get("error").and_then(Value::as_str).map(str::to_string);
         let selmer = v
             .get("selmer")
-            .and_then(Json::as_array)
+            .and_then(Value::as_array)
+            .map(Vec::as_slice)
             .unwrap_or(&[])
             .iter()
             .filter_map(|iso| {

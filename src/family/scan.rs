@@ -21,7 +21,7 @@ use std::time::Instant;
 
 use super::members::{Member, Parameter};
 use crate::descent::DescentOptions;
-use crate::output::json_for_line;
+use crate::output::{error_line, report_line, Detail};
 use crate::error::{Error, Result};
 
 /// The k-th of N shards of a family: the members whose index i has
@@ -108,14 +108,14 @@ pub struct ScanRecord {
     pub index: u64,
     /// Its parameter.
     pub parameter: Parameter,
-    /// The object of [`json_for_line`] for the member's curve line.
+    /// The object of [`crate::output::json_for_line`] for the member's curve line.
     pub json: String,
     /// Wall-clock seconds the worker spent on this member.
     pub seconds: f64,
 }
 
 impl ScanRecord {
-    /// The output line (without newline): the [`json_for_line`] object with
+    /// The output line (without newline): the [`crate::output::json_for_line`] object with
     /// two keys put in front, `"family_index"` and `"family_parameter"`;
     /// the keys of the descent contract are unchanged.
     ///
@@ -137,10 +137,10 @@ impl ScanRecord {
     }
 }
 
-/// Runs the descent on one member (never panics: see [`json_for_line`]).
+/// Runs the descent on one member (never panics: see [`crate::output::json_for_line`]).
 pub fn scan_member(member: &Member, options: &DescentOptions) -> ScanRecord {
     let t = Instant::now();
-    let json = json_for_line(&member.line(), options);
+    let json = report_for_curve(&member.curve, &member.line(), options);
     ScanRecord {
         index: member.index,
         parameter: member.parameter,
@@ -208,7 +208,7 @@ struct PoolEngine {
 /// With the `parallel` feature and `scan_options.threads != 1` the members
 /// run on a rayon pool of that many threads (0: one per core); otherwise
 /// on the calling thread as the iterator is pulled. The records are the
-/// same in both cases: each is [`json_for_line`] of the member's curve,
+/// same in both cases: each is [`crate::output::json_for_line`] of the member's curve,
 /// which depends only on the curve and `options` (deterministic budgets).
 ///
 /// Errors: [`Error::InvalidArgument`] if the thread pool cannot be
@@ -341,4 +341,19 @@ impl PoolEngine {
 /// A JSON string literal.
 fn json_string(s: &str) -> String {
     serde_json::Value::String(s.to_string()).to_string()
+}
+
+/// The JSON object for one member: [`crate::descent::descend`] on the
+/// member's curve (a typed value, never re-parsed), written once at the
+/// edge. A panic inside the descent becomes the line's error, as in
+/// [`crate::output::json_for_line`].
+fn report_for_curve(curve: &crate::curve::Curve, input: &str, options: &DescentOptions) -> String {
+    let run = std::panic::catch_unwind(std::panic::AssertUnwindSafe(|| {
+        crate::descent::descend(curve, options)
+    }));
+    match run {
+        Ok(Ok(r)) => report_line(input, &r, Detail::Summary),
+        Ok(Err(e)) => error_line(input, &e.to_string()),
+        Err(_) => error_line(input, "internal error (panic) during the descent"),
+    }
 }

@@ -107,7 +107,7 @@ fn class_line(status: &ClassStatus) -> String {
             space,
             ..
         } => format!(
-            "not an image: all {} 4-coverings of C_{space} are locally insoluble",
+            "not an image: each of the {} 4-coverings of C_{space} is locally insoluble",
             obstructions.len()
         ),
     }
@@ -153,9 +153,10 @@ pub(crate) fn evidence_summary(s: &SelmerSide) -> String {
             (Some(lo), Some(hi)) => format!(" to heights {lo}..{hi}"),
             _ => String::new(),
         };
+        let spaces = s.searches.len();
         parts.push(format!(
-            "{} spaces searched{reach}, {found} point{} found",
-            s.searches.len(),
+            "{spaces} space{} searched{reach}, {found} point{} found",
+            if spaces == 1 { "" } else { "s" },
             if found == 1 { "" } else { "s" }
         ));
     }
@@ -333,35 +334,31 @@ pub(crate) fn write_report(
     let b = r.rank_bounds();
     let n = r.points().len();
     let lower_proof = if b.lower == 0 {
-        "trivially".to_string()
+        "trivial".to_string()
     } else {
         format!(
-            "by {n} independent point{} (their images under the connecting maps are independent)",
+            "{n} point{} independent modulo torsion (certified by their images under the connecting maps)",
             if n == 1 { "" } else { "s" }
         )
     };
     let upper_proof = match r.deciding_isogeny() {
-        Some(i) => format!("by the Selmer groups of isogeny {}", i + 1),
-        None => "by the Selmer groups".to_string(),
+        Some(i) => format!("the Selmer groups of isogeny {}", i + 1),
+        None => "the Selmer groups".to_string(),
     };
-    if b.is_decided() {
-        writeln!(
-            f,
-            "rank {}: ≥ {lower_proof}, ≤ {upper_proof}",
-            b.lower
-        )?;
+    let head = if b.is_decided() {
+        format!("rank {}", b.lower)
     } else {
-        writeln!(
-            f,
-            "rank in [{}, {}]: lower bound {lower_proof}, upper bound {upper_proof}",
-            b.lower, b.upper
-        )?;
-    }
+        format!("rank in [{}, {}]", b.lower, b.upper)
+    };
+    writeln!(
+        f,
+        "{head} (lower bound: {lower_proof}; upper bound: {upper_proof})"
+    )?;
     if n > 0 {
         let pts: Vec<String> = r.points().iter().map(point_text).collect();
         writeln!(
             f,
-            "points: {} (independent modulo torsion; not shown to generate)",
+            "points: {} (independent; not shown to generate E(Q) modulo torsion)",
             pts.join(", ")
         )?;
     }
