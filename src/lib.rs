@@ -9,14 +9,13 @@
 //! The modules are layers; each uses only the ones above it in this list.
 //!
 //! ```
-//! use isodescent::curve::Curve;
-//! use isodescent::descent::{descend, DescentOptions};
+//! use isodescent::{descend, Curve, DescentOptions};
 //!
 //! fn main() -> Result<(), isodescent::Error> {
-//!     let e: Curve = "0 0 0 -36 0".parse()?; // a1 a2 a3 a4 a6
+//!     let e: Curve = "y^2 = x^3 - 36x".parse()?; // or "0 0 0 -36 0"
 //!     let report = descend(&e, &DescentOptions::default())?;
-//!     assert_eq!((report.rank_lower, report.rank_upper), (1, 1));
-//!     for p in &report.points {
+//!     assert_eq!((report.rank_lower(), report.rank_upper()), (1, 1));
+//!     for p in report.points() {
 //!         assert!(e.contains(p)); // points come back on your model
 //!     }
 //!     println!("{report}");
@@ -61,4 +60,8 @@ pub mod output;
 pub mod family;
 
 pub use budget::Budget;
+pub use curve::{Curve, Point};
+pub use descent::{descend, Completion, DescentOptions, DescentReport, RankBounds};
 pub use error::{Error, Result};
+pub use local::{Place, Prime};
+pub use output::Detail;

@@ -30,7 +30,7 @@ fn congruent_family_up_to_ten_is_the_seven_squarefree_n_in_order() {
     assert_eq!(indices, (0..7).collect::<Vec<u64>>());
     assert_eq!(fam.count(), 7);
     let m = fam.members().nth(3).unwrap();
-    assert_eq!(m.line(), "0 0 0 -25 0");
+    assert_eq!(m.line(), "y^2 = x^3 - 25x");
 }
 
 #[test]

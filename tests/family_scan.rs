@@ -2,10 +2,8 @@
 //! the congruent-number family against classical facts.
 
 use isodescent::descent::DescentOptions;
+use isodescent::family::{scan, scan_member, Family, RecordLine, ScanOptions, ScanRecord, Shard};
 use isodescent::output::json_for_line;
-use isodescent::family::{
-    scan, scan_member, Family, RecordLine, ScanOptions, ScanRecord, Shard,
-};
 
 fn run(fam: &Family, so: &ScanOptions) -> Vec<ScanRecord> {
     scan(fam.members(), &DescentOptions::default(), so)

@@ -96,7 +96,9 @@ fn validate(root: &Value, schema: &Value, v: &Value, at: &str, errors: &mut Vec<
                     Some(Value::Bool(false)) => {
                         errors.push(format!("{at}: key {k} is not in the schema"))
                     }
-                    Some(s @ Value::Object(_)) => validate(root, s, x, &format!("{at}.{k}"), errors),
+                    Some(s @ Value::Object(_)) => {
+                        validate(root, s, x, &format!("{at}.{k}"), errors)
+                    }
                     _ => {}
                 },
             }
@@ -141,8 +143,12 @@ fn every_batch_line_validates_in_both_details() {
 #[test]
 fn full_evidence_carries_the_four_covering_quartics() {
     // y^2 = x^3 - 29x^2 - 30x has classes proven not images (demo data).
-    let line = json_for_bytes(b"y^2 = x^3 - 29x^2 - 30x", &DescentOptions::default(), Detail::Full)
-        .unwrap();
+    let line = json_for_bytes(
+        b"y^2 = x^3 - 29x^2 - 30x",
+        &DescentOptions::default(),
+        Detail::Full,
+    )
+    .unwrap();
     let v: Value = serde_json::from_str(&line).unwrap();
     let coverings: usize = v["selmer"]
         .as_array()
@@ -158,8 +164,12 @@ fn full_evidence_carries_the_four_covering_quartics() {
 
 #[test]
 fn invalid_utf8_gets_an_error_line_that_validates() {
-    let out = json_for_bytes(b"0 0 0 \xFF\xFE -1 0\n", &DescentOptions::default(), Detail::Summary)
-        .unwrap();
+    let out = json_for_bytes(
+        b"0 0 0 \xFF\xFE -1 0\n",
+        &DescentOptions::default(),
+        Detail::Summary,
+    )
+    .unwrap();
     assert_valid(&out);
     let v: Value = serde_json::from_str(&out).unwrap();
     assert!(v["error"].as_str().unwrap().contains("UTF-8"), "{out}");
@@ -169,7 +179,10 @@ fn invalid_utf8_gets_an_error_line_that_validates() {
 fn separator_only_lines_are_blank_lines() {
     let opts = DescentOptions::default();
     for raw in ["\u{2028}", "\u{2029}\u{2028}", " \t", "", "# comment"] {
-        assert!(json_for_bytes(raw.as_bytes(), &opts, Detail::Summary).is_none(), "{raw:?}");
+        assert!(
+            json_for_bytes(raw.as_bytes(), &opts, Detail::Summary).is_none(),
+            "{raw:?}"
+        );
     }
 }
 
@@ -186,14 +199,31 @@ fn the_serde_view_of_a_report_is_the_line_without_input() {
     let c: Curve = "y^2 = x^3 - 36x".parse().unwrap();
     let r = descend(&c, &DescentOptions::default()).unwrap();
     let mut v = serde_json::to_value(&r).unwrap();
-    let mut line: Value = serde_json::from_str(&json_for_line("y^2 = x^3 - 36x", &DescentOptions::default())).unwrap();
+    let mut line: Value = serde_json::from_str(&json_for_line(
+        "y^2 = x^3 - 36x",
+        &DescentOptions::default(),
+    ))
+    .unwrap();
     v["input"] = Value::Null;
     line["input"] = Value::Null;
     assert_eq!(v, line);
     // the keys test harnesses read
-    for k in ["input", "rank_lower", "rank_upper", "points", "torsion_order", "selmer", "error"] {
+    for k in [
+        "input",
+        "rank_lower",
+        "rank_upper",
+        "points",
+        "torsion_order",
+        "selmer",
+        "error",
+    ] {
         assert!(line.get(k).is_some(), "{k}");
     }
     assert_eq!(line["rank_lower"], 1);
-    assert_eq!(line["points"][0]["x"].as_str().map(|s| s.contains('/') || s.parse::<i64>().is_ok()), Some(true));
+    assert_eq!(
+        line["points"][0]["x"]
+            .as_str()
+            .map(|s| s.contains('/') || s.parse::<i64>().is_ok()),
+        Some(true)
+    );
 }

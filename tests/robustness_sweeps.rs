@@ -25,7 +25,7 @@ const CONTRACT_KEYS: [&str; 8] = [
     "rank_upper",
     "points",
     "torsion_order",
-    "torsion_structure",
+    "torsion",
     "selmer",
     "error",
 ];

@@ -71,11 +71,11 @@ fuzz_target!(|data: &[u8]| {
     options.second_search_height = 8;
     match descend(&curve, &options) {
         Ok(report) => {
-            for p in &report.points {
+            for p in report.points() {
                 assert!(curve.contains(p), "point {p:?} not on {curve}");
             }
             assert!(
-                report.rank_lower <= report.rank_upper,
+                report.rank_lower() <= report.rank_upper(),
                 "bounds cross on {curve}"
             );
             match verify_report(&report, 2_000_000) {

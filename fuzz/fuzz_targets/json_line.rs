@@ -1,13 +1,16 @@
 //! Fuzz target: the JSON front end's line handling.
 //!
 //! The first two bytes pick small budgets (so each run is quick); the rest
-//! is the input line. Checks that `json_for_line` answers with exactly one
-//! line of valid JSON (serde_json) holding the contract keys, and that no
-//! panic was caught on the way (a caught panic would show up in `error`;
-//! libfuzzer-sys also aborts on any panic, caught or not).
+//! is a raw batch of lines, bytes as read (invalid UTF-8 anywhere). Checks
+//! that every non-blank line gets exactly one line of valid JSON
+//! (serde_json) holding the contract keys, that the batch goes on past a
+//! bad line, and that no panic was caught on the way (a caught panic would
+//! show up in `error`; libfuzzer-sys also aborts on any panic, caught or
+//! not).
 #![no_main]
 
-use isodescent::descent::{is_skipped_line, json_for_line, DescentOptions};
+use isodescent::descent::DescentOptions;
+use isodescent::output::{json_for_bytes, Detail};
 use libfuzzer_sys::fuzz_target;
 
 const KEYS: [&str; 8] = [
@@ -16,7 +19,7 @@ const KEYS: [&str; 8] = [
     "rank_upper",
     "points",
     "torsion_order",
-    "torsion_structure",
+    "torsion",
     "selmer",
     "error",
 ];
@@ -33,23 +36,21 @@ fuzz_target!(|data: &[u8]| {
     options.second_descent = data[0] & 0x80 != 0;
     options.second_descent_units = 200_000;
     options.second_search_height = 8;
-    let line = String::from_utf8_lossy(&data[2..]);
-    // The batch loop hands json_for_line single lines that are not skipped.
-    let line = line.lines().next().unwrap_or("");
-    if is_skipped_line(line) {
-        return;
-    }
-    let out = json_for_line(line, &options);
-    assert!(!out.contains('\n'), "output spans lines: {out}");
-    let v: serde_json::Value = match serde_json::from_str(&out) {
-        Ok(v) => v,
-        Err(e) => panic!("invalid JSON ({e}): {out}"),
-    };
-    let obj = v.as_object().expect("output is a JSON object");
-    for k in KEYS {
-        assert!(obj.contains_key(k), "key {k} missing: {out}");
-    }
-    if let Some(err) = obj["error"].as_str() {
-        assert!(!err.contains("panic"), "caught panic: {out}");
+    for raw in data[2..].split(|&b| b == b'\n').take(4) {
+        let Some(out) = json_for_bytes(raw, &options, Detail::Summary) else {
+            continue;
+        };
+        assert!(!out.contains('\n'), "output spans lines: {out}");
+        let v: serde_json::Value = match serde_json::from_str(&out) {
+            Ok(v) => v,
+            Err(e) => panic!("invalid JSON ({e}): {out}"),
+        };
+        let obj = v.as_object().expect("output is a JSON object");
+        for k in KEYS {
+            assert!(obj.contains_key(k), "key {k} missing: {out}");
+        }
+        if let Some(err) = obj["error"].as_str() {
+            assert!(!err.contains("panic"), "caught panic: {out}");
+        }
     }
 });

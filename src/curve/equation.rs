@@ -140,8 +140,7 @@ fn digits_at(s: &[u8], mut i: usize, input: &str) -> Result<(BigInt, usize)> {
             ),
         ));
     }
-    let v = BigInt::parse_bytes(&s[start..i], 10)
-        .ok_or_else(|| bad(input, "malformed number"))?;
+    let v = BigInt::parse_bytes(&s[start..i], 10).ok_or_else(|| bad(input, "malformed number"))?;
     Ok((v, i))
 }
 
@@ -339,7 +338,13 @@ mod tests {
         let a = [q(0), q(-30), q(0), q(3), q(0)];
         assert_eq!(equation_text(&a), "y^2 = x^3 - 30x^2 + 3x");
         let half = BigRational::new(1.into(), 2.into());
-        let a = [q(0), half, q(0), q(0), BigRational::new((-7).into(), 4.into())];
+        let a = [
+            q(0),
+            half,
+            q(0),
+            q(0),
+            BigRational::new((-7).into(), 4.into()),
+        ];
         assert_eq!(equation_text(&a), "y^2 = x^3 + (1/2)x^2 - 7/4");
     }
 

@@ -21,8 +21,8 @@ use std::time::Instant;
 
 use super::members::{Member, Parameter};
 use crate::descent::DescentOptions;
-use crate::output::{error_line, report_line, Detail};
 use crate::error::{Error, Result};
+use crate::output::{error_line, report_line, Detail};
 
 /// The k-th of N shards of a family: the members whose index i has
 /// i mod N = k − 1 (k from 1 to N). Shards 1/N, …, N/N partition every

@@ -399,4 +399,3 @@ impl Serialize for DescentReport {
         report_view("", self, Detail::Summary).serialize(serializer)
     }
 }
-

@@ -199,7 +199,12 @@ fn write_side(
     let (sel, _) = side_names(domain);
     writeln!(f, "  basis of {sel} in Q*/Q*^2:")?;
     for e in &s.elements {
-        writeln!(f, "    {:>8}  {}", e.class.to_string(), class_line(&e.status))?;
+        writeln!(
+            f,
+            "    {:>8}  {}",
+            e.class.to_string(),
+            class_line(&e.status)
+        )?;
     }
     // Each homogeneous space once, with its equation.
     let mut shown: Vec<&BigInt> = Vec::new();
@@ -392,10 +397,7 @@ pub(crate) fn write_report(
     }
     writeln!(f)?;
     let ld = r.local_data();
-    let mm = ld
-        .minimal_model
-        .clone()
-        .map(BigRational::from_integer);
+    let mm = ld.minimal_model.clone().map(BigRational::from_integer);
     writeln!(
         f,
         "minimal model {}, conductor {}",
