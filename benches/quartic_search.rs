@@ -8,7 +8,7 @@
 //! (normalised pairs of height ≤ H with gcd(x, z) = 1, about 1.2·H²).
 
 use criterion::{black_box, criterion_group, criterion_main, Criterion, Throughput};
-use isodescent::quartic::search::{search, SearchOptions, SearchOutcome};
+use isodescent::quartic::{search, SearchOptions, SearchOutcome};
 use isodescent::Budget;
 use num_bigint::BigInt;
 use num_integer::Integer;

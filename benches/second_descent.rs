@@ -10,7 +10,7 @@
 //!   evidence of the first case.
 
 use criterion::{criterion_group, criterion_main, Criterion};
-use isodescent::quartic::covering::{
+use isodescent::quartic::{
     second_descent, verify_obstruction, SecondDescentOptions, SecondDescentOutcome,
 };
 use isodescent::Budget;

@@ -6,7 +6,7 @@
 //! Run: `cargo bench --bench tate`.
 
 use criterion::{black_box, criterion_group, criterion_main, Criterion};
-use isodescent::curve::tate::{global_local_data, local_reduction};
+use isodescent::curve::{global_local_data, local_reduction};
 use isodescent::local::Prime;
 use isodescent::Budget;
 use num_bigint::BigInt;

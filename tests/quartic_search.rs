@@ -1,10 +1,10 @@
 //! Tests of the sieved point search on quartics `y² = g(x, z)`.
 
-use isodescent::quartic::search::{
+use isodescent::quartic::Quartic;
+use isodescent::quartic::{
     search, search_all, search_all_quartic, search_quartic, search_report, Congruence,
     QuarticPoint, SearchOptions, SearchOutcome, MAX_HEIGHT,
 };
-use isodescent::quartic::Quartic;
 use isodescent::{Budget, Error};
 use num_bigint::BigInt;
 use num_integer::Integer;

@@ -5,12 +5,12 @@
 use isodescent::curve::{Curve, Point};
 use isodescent::descent::{descend_isogeny, ClassStatus, DescentOptions};
 use isodescent::local::{Place, Prime};
-use isodescent::quartic::covering::{
+use isodescent::quartic::{locally_soluble, Quartic};
+use isodescent::quartic::{search, SearchOptions, SearchOutcome};
+use isodescent::quartic::{
     second_descent, verify_obstruction, NoPointEvidence, ObstructedCurve, SecondDescentOptions,
     SecondDescentOutcome,
 };
-use isodescent::quartic::search::{search, SearchOptions, SearchOutcome};
-use isodescent::quartic::{locally_soluble, Quartic};
 use isodescent::{Budget, Error};
 use num_bigint::BigInt;
 use num_rational::BigRational;

@@ -1,7 +1,7 @@
 //! Tate's algorithm on classical curves whose conductors and local data are
 //! known, on non-minimal and non-integral input, and on bad input.
 
-use isodescent::curve::tate::{
+use isodescent::curve::{
     global_local_data, integral_invariants, local_reduction, Kodaira, ReductionKind,
 };
 use isodescent::local::Prime;
@@ -255,7 +255,7 @@ fn the_curve_wrappers_give_the_same_data_as_the_coefficient_functions() {
 
 #[test]
 fn a_rational_model_at_a_prime_of_its_denominators_is_not_minimal() {
-    use isodescent::curve::tate::local_reduction_rational;
+    use isodescent::curve::local_reduction_rational;
     // y² + y = x³ − x moved by u = 1/3 and then by u = 5 (a non-integral
     // model at 5, a non-minimal one at 3): a_i ↦ 3^i a_i / 5^i.
     let base = [0i64, 0, 1, -1, 0];

@@ -2,7 +2,7 @@
 //! Tamagawa numbers read from quadratic and cubic residuosity computed by
 //! sympy 1.14 (`legendre_symbol`, `galoistools.gf_factor`).
 
-use isodescent::curve::tate::{local_reduction, Kodaira, ReductionKind};
+use isodescent::curve::{local_reduction, Kodaira, ReductionKind};
 use isodescent::local::Prime;
 use num_bigint::BigInt;
 use num_rational::BigRational;

@@ -2,7 +2,7 @@
 //! Ogg's formula, the classical table for p ≥ 5, invariance under changes
 //! of model and under 2-isogeny, and the global minimal model.
 
-use isodescent::curve::tate::{
+use isodescent::curve::{
     global_local_data, local_reduction, GlobalLocalData, Kodaira, LocalReduction, ReductionKind,
 };
 use isodescent::local::{legendre, valuation, Prime};

@@ -98,9 +98,9 @@
 //! \[Serre73\], \[IrelandRosen90\], \[CremonaRusin03\], \[LLL82\], \[Cohen93\],
 //! \[FinckePohst85\], \[Cassels91\]; see docs/references.md.
 pub(crate) mod lattice;
-pub mod legendre;
-pub mod param;
-pub mod ternary;
+pub(crate) mod legendre;
+pub(crate) mod param;
+pub(crate) mod ternary;
 pub use legendre::{
     insoluble_places, solve_diagonal, solve_diagonal_rational, solve_diagonal_with_primes,
     ConicSolution,

@@ -30,19 +30,23 @@
 //! 2-torsion and torsion — are computed exactly by p-adic (Hensel) lifting
 //! from a prime of squarefree reduction (crate-internal `poly` module).
 
-pub mod equation;
-pub mod isogeny;
-pub mod model;
-pub mod point;
+pub(crate) mod equation;
+pub(crate) mod isogeny;
+pub(crate) mod model;
+pub(crate) mod point;
 mod poly;
-pub mod tate;
-pub mod torsion;
-pub mod two_torsion;
-pub mod weierstrass;
+pub(crate) mod tate;
+pub(crate) mod torsion;
+pub(crate) mod two_torsion;
+pub(crate) mod weierstrass;
 
 pub use isogeny::TwoIsogeny;
 pub use model::{integral_model, ModelChange};
 pub use point::Point;
+pub use tate::{
+    global_local_data, integral_invariants, local_reduction, local_reduction_rational,
+    GlobalLocalData, IntegralInvariants, Kodaira, LocalReduction, ReductionKind,
+};
 pub use torsion::{torsion_subgroup, TorsionGroup};
 pub use two_torsion::{
     first_two_torsion_model, short_integral_model, two_torsion_model,

@@ -27,11 +27,11 @@
 //! lower bound k + k' − 2. Independence is certified by the F2 images, not
 //! by heights.
 
-pub mod bounds;
-pub mod options;
-pub mod report;
-pub mod side;
-pub mod verify;
+pub(crate) mod bounds;
+pub(crate) mod options;
+pub(crate) mod report;
+pub(crate) mod side;
+pub(crate) mod verify;
 
 use std::time::Instant;
 
@@ -39,7 +39,7 @@ use num_bigint::BigInt;
 
 pub use options::DescentOptions;
 pub use report::{Completion, DescentReport, RankBounds};
-pub use side::{ClassStatus, SelmerElement, SelmerSide};
+pub use side::{ClassStatus, CoveringObstruction, SearchRecord, SelmerElement, SelmerSide};
 pub use verify::{verify_report, Verification};
 
 use crate::arith::factor;

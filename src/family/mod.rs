@@ -34,9 +34,9 @@
 //! assert_eq!(ranks[0], ("n=1".to_string(), Some(0)));
 //! ```
 
-pub mod members;
-pub mod records;
-pub mod scan;
+pub(crate) mod members;
+pub(crate) mod records;
+pub(crate) mod scan;
 
 pub use members::{is_squarefree_u64, quadratic_twist, Family, Member, Members, Parameter};
 pub use records::{

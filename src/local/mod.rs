@@ -18,12 +18,12 @@
 //! So at 2 the basis is {2, −1, 5}, at odd p it is {p, n} with n the least
 //! positive non-residue, and at R it is {−1} ([Serre73, II.3.3]).
 
-pub mod hilbert;
-pub mod place;
-pub mod sqrt;
-pub mod square_class;
-pub mod symbols;
-pub mod valuation;
+pub(crate) mod hilbert;
+pub(crate) mod place;
+pub(crate) mod sqrt;
+pub(crate) mod square_class;
+pub(crate) mod symbols;
+pub(crate) mod valuation;
 
 pub use hilbert::{hilbert_symbol, hilbert_symbol_int};
 pub use place::{Place, Prime};

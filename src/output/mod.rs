@@ -10,9 +10,9 @@
 //! * [`batch`]: one curve per input line, one JSON line out; invalid bytes
 //!   and panics become that line's error and the batch goes on.
 
-pub mod batch;
-pub mod json;
-pub mod text;
+pub(crate) mod batch;
+pub(crate) mod json;
+pub(crate) mod text;
 
 use std::fmt;
 
