@@ -7,7 +7,7 @@ use super::prime::{is_prime, is_prime_u64, prime_table, rem_u64};
 use super::rho::{pollard_brent, Split};
 use super::roots::perfect_power_up_to;
 use super::siqs;
-use super::small::split_u64;
+use super::small::{gcd_u64, split_u64};
 use crate::budget::Budget;
 use crate::error::{Error, Result};
 use num_bigint::{BigInt, BigUint};
@@ -122,16 +122,71 @@ fn primorial() -> &'static BigUint {
     })
 }
 
+/// The primes below [`TRIAL_BOUND`] grouped into products below `2^64`:
+/// `(product, range of its primes in the list)`, and the list.
+struct Chunks {
+    chunks: Vec<(u64, std::ops::Range<usize>)>,
+    primes: Vec<u64>,
+}
+
+fn chunks() -> &'static Chunks {
+    static C: OnceLock<Chunks> = OnceLock::new();
+    C.get_or_init(|| {
+        let primes: Vec<u64> = prime_table(TRIAL_BOUND)
+            .primes_in(3, TRIAL_BOUND - 1)
+            .collect();
+        let mut chunks = Vec::new();
+        let mut start = 0;
+        let mut prod = 1u64;
+        for (i, &p) in primes.iter().enumerate() {
+            match prod.checked_mul(p) {
+                Some(q) => prod = q,
+                None => {
+                    chunks.push((prod, start..i));
+                    start = i;
+                    prod = p;
+                }
+            }
+        }
+        chunks.push((prod, start..primes.len()));
+        Chunks { chunks, primes }
+    })
+}
+
+/// The odd primes below [`TRIAL_BOUND`] that divide `g` (a divisor of
+/// their product).
+fn small_prime_divisors(g: &BigUint) -> Vec<u64> {
+    if let Some(x) = g.to_u64() {
+        return factor_u64(x).into_iter().map(|(p, _)| p).collect();
+    }
+    let t = chunks();
+    let mut out = Vec::new();
+    for (c, range) in &t.chunks {
+        let d = gcd_u64(rem_u64(g, *c), *c);
+        if d > 1 {
+            out.extend(t.primes[range.clone()].iter().filter(|&&p| d % p == 0));
+        }
+    }
+    out
+}
+
 /// Removes every prime below [`TRIAL_BOUND`] from `m`, recording it in
-/// `found`; stops early once `m < 2^64` (the word-size path finishes it).
+/// `found`; a number below `2^64` is left to the word-size path.
 ///
-/// Method: `g = gcd(m, ∏ p)` over the primes `p < TRIAL_BOUND` (one
-/// reduction of the primorial modulo `m` when `m` is the smaller), then
-/// only the primes dividing `g` are divided out. A number larger than the
-/// primorial is divided by pairs of primes instead (two primes per pass
-/// over its words).
+/// Method: after the powers of 2, `g = gcd(m, ∏ p)` over the odd primes
+/// `p < TRIAL_BOUND`: for `m` of at most six words the product of the
+/// primes, grouped into words, is accumulated modulo `m` in Montgomery
+/// form (about 1900 multiplications); for larger `m` the primorial is
+/// reduced modulo `m` once. Then only the primes dividing `g` are
+/// divided out. A number larger than the primorial (about 94 000 bits)
+/// is divided by pairs of primes instead (two primes per pass over its
+/// words).
 fn trial_divide(m: &mut BigUint, found: &mut BTreeMap<BigInt, u32>) {
-    let table = prime_table(TRIAL_BOUND);
+    let tz = m.trailing_zeros().unwrap_or(0);
+    if tz > 0 {
+        *m >>= tz;
+        *found.entry(BigInt::from(2)).or_insert(0) += tz as u32;
+    }
     let mut divide_out = |m: &mut BigUint, p: u64| {
         let pb = BigUint::from(p);
         let mut e = 0u32;
@@ -143,36 +198,46 @@ fn trial_divide(m: &mut BigUint, found: &mut BTreeMap<BigInt, u32>) {
             *found.entry(BigInt::from(p)).or_insert(0) += e;
         }
     };
+    if m.is_zero() || m.bits() <= 64 {
+        return;
+    }
     let prim = primorial();
-    if m.bits() < prim.bits() {
-        let r = prim % &*m;
-        let mut g = m.gcd(&r);
-        if g.is_one() {
-            return;
+    let g = if m.bits() <= 384 {
+        let t = chunks();
+        let acc = with_ring!(m, |ring| {
+            let mut acc = ring.one();
+            for (c, _) in &t.chunks {
+                acc = ring.mul(&acc, &ring.unit_multiple_u64(*c));
+            }
+            ring.to_big(&acc)
+        });
+        match acc {
+            Some(a) => a.magnitude().gcd(m),
+            None => m.gcd(&(prim % &*m)),
         }
-        for p in table.primes_in(2, TRIAL_BOUND - 1) {
-            if g.is_one() || m.bits() <= 64 {
+    } else if m.bits() < prim.bits() {
+        m.gcd(&(prim % &*m))
+    } else {
+        let t = chunks();
+        for pair in t.primes.chunks(2) {
+            if m.bits() <= 64 {
                 break;
             }
-            if rem_u64(&g, p) == 0 {
-                g /= BigUint::from(p);
-                divide_out(m, p);
+            let pp: u64 = pair.iter().product();
+            let r = rem_u64(m, pp);
+            for &p in pair {
+                if r % p == 0 {
+                    divide_out(m, p);
+                }
             }
         }
         return;
+    };
+    if g.is_one() {
+        return;
     }
-    let primes: Vec<u64> = table.primes_in(2, TRIAL_BOUND - 1).collect();
-    for pair in primes.chunks(2) {
-        if m.bits() <= 64 {
-            break;
-        }
-        let pp: u64 = pair.iter().product();
-        let r = rem_u64(m, pp);
-        for &p in pair {
-            if r % p == 0 {
-                divide_out(m, p);
-            }
-        }
+    for p in small_prime_divisors(&g) {
+        divide_out(m, p);
     }
 }
 
