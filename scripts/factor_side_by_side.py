@@ -1,5 +1,6 @@
 #!/usr/bin/env python3
-"""Times python-flint's fmpz.factor() on the numbers of benches/arith.rs and prints the
+"""Times python-flint's fmpz.factor() on the numbers of benches/arith.rs (groups factor_sizes and
+factor) and prints the
 ratio of our criterion medians to flint's median.
 
 Usage:
@@ -28,6 +29,24 @@ NUMBERS = {  # same list, same order, as benches/arith.rs
          3109898323645415535574981604728249868779],
 }
 
+SIZES = {  # group factor_sizes of benches/arith.rs: p, q random primes of d digits
+    8: 1617112384513319,
+    9: 418593139362162697,
+    10: 6881212980518412671,
+    11: 1387963942594134081079,
+    12: 80551254091020886344251,
+    13: 5786066816834635098394559,
+    14: 1912614221021085043121289191,
+    15: 283334206502604836738363188807,
+    16: 59106137351597839651530909133361,
+    17: 1122591703439096732752496344774529,
+    18: 115553126415904632093306783016014461,
+    19: 8022874210350435847575463436375479729,
+    20: 3447453260913698249602873997444564308381,
+    21: 571966649857784659082929989519912463753813,
+    22: 17778604110573035003702769146759503953219199,
+}
+
 
 def flint_median(n, reps=10):
     """Median wall-clock and median CPU (process) time of fmpz(n).factor()."""
@@ -40,11 +59,11 @@ def flint_median(n, reps=10):
     return statistics.median(wall), statistics.median(cpu)
 
 
-def ours(crit_dir, digits, i):
-    name = "p%d*q%d #%d" % (digits, digits, i)
+def ours(crit_dir, digits, i, group="factor"):
+    name = "p%d*q%d #%d" % (digits, digits, i) if group == "factor" else "d%02d" % digits
     # criterion replaces characters that are unsafe in paths
     for cand in (name, name.replace("*", "_").replace("#", "_"), name.replace("*", "_")):
-        path = os.path.join(crit_dir, "factor", cand, "new", "estimates.json")
+        path = os.path.join(crit_dir, group, cand, "new", "estimates.json")
         if os.path.exists(path):
             with open(path) as fh:
                 return json.load(fh)["median"]["point_estimate"] / 1e9
@@ -57,6 +76,13 @@ def main():
     print("python-flint", flint.__version__)
     print("%-6s %-42s %11s %11s %11s %7s" % ("digits", "n", "flint wall", "flint cpu",
                                              "ours (ms)", "ratio"))
+    for digits, n in SIZES.items():
+        f, fc = flint_median(n, reps=30 if digits <= 12 else 10)
+        o = ours(crit_dir, digits, 0, group="factor_sizes")
+        ratio = "%.2f" % (o / f) if o else "-"
+        print("%-6d %-42d %11.3f %11.3f %11s %7s" % (
+            digits, n, f * 1e3, fc * 1e3, "%.3f" % (o * 1e3) if o else "-", ratio))
+    print("-- the nine numbers of group factor --")
     for digits, ns in NUMBERS.items():
         for i, n in enumerate(ns):
             f, fc = flint_median(n)

@@ -6,10 +6,10 @@
 //! Only `X : Z` projective coordinates are used: doubling costs 5
 //! multiplications, a differential addition 6.
 
+use super::meter::Meter;
 use super::mont::Ring;
 use super::prime::prime_table;
 use super::rho::Split;
-use crate::budget::Budget;
 use num_bigint::BigInt;
 use num_integer::Integer;
 use num_traits::{One, Zero};
@@ -109,7 +109,7 @@ pub(crate) fn ecm_curve<R: Ring>(
     sigma: u64,
     b1: u64,
     b2: u64,
-    budget: &mut Budget,
+    budget: &mut impl Meter,
 ) -> Split {
     let n = ring.modulus();
     // Curve and point, set up with big integers (once per curve).
@@ -287,14 +287,14 @@ pub(crate) const B2_FACTOR: u64 = 50;
 
 /// Runs ECM curves along [`SCHEDULE`] (Suyama parameters `σ = 11, 12, …`)
 /// until one splits `n` or the budget runs out.
-pub(crate) fn ecm<R: Ring>(ring: &R, budget: &mut Budget) -> Split {
+pub(crate) fn ecm<R: Ring>(ring: &R, budget: &mut impl Meter) -> Split {
     ecm_tiers(ring, &SCHEDULE, budget)
 }
 
 /// Runs ECM curves along the given `(B1, curves)` tiers (Suyama parameters
 /// `σ = 11, 12, …`, `B2 = 50·B1`) until one splits `n`, the tiers end
 /// ([`Split::Failed`]) or the budget runs out.
-pub(crate) fn ecm_tiers<R: Ring>(ring: &R, tiers: &[(u64, u32)], budget: &mut Budget) -> Split {
+pub(crate) fn ecm_tiers<R: Ring>(ring: &R, tiers: &[(u64, u32)], budget: &mut impl Meter) -> Split {
     let mut sigma = 11u64;
     for &(b1, curves) in tiers.iter() {
         for _ in 0..curves {
@@ -312,6 +312,7 @@ pub(crate) fn ecm_tiers<R: Ring>(ring: &R, tiers: &[(u64, u32)], budget: &mut Bu
 mod tests {
     use super::*;
     use crate::arith::mont::Mont;
+    use crate::budget::Budget;
     use num_bigint::BigUint;
 
     /// Counts the curves among `σ = 11..11+count` that split `n`.

@@ -11,11 +11,13 @@
 
 pub(crate) mod ecm;
 pub mod factor;
+pub(crate) mod meter;
 pub(crate) mod mont;
 pub mod prime;
 pub(crate) mod rho;
 pub mod roots;
 pub(crate) mod siqs;
+pub(crate) mod small;
 pub mod squarefree;
 
 pub use factor::{factor, factor_u64, Factorization};

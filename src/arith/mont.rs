@@ -52,6 +52,12 @@ pub(crate) trait Ring {
     fn elem_i64(&self, x: i64) -> Self::E {
         self.elem_big(&BigInt::from(x))
     }
+    /// The residue of `x·u` for a unit `u` fixed by the ring (`R⁻¹` in
+    /// Montgomery form: the representation is `x` itself, no conversion).
+    /// Enough for products whose gcd with the modulus is all that counts.
+    fn unit_multiple_u64(&self, x: u64) -> Self::E {
+        self.elem_big(&BigInt::from(x))
+    }
     /// `a^e mod m` for `e ≥ 0`, left-to-right binary powering.
     fn pow(&self, a: &Self::E, e: &BigUint) -> Self::E {
         let bits = e.bits();
@@ -294,6 +300,15 @@ impl<const N: usize> Ring for Mont<N> {
             return self.to_mont(&limbs);
         }
         self.elem_big(&BigInt::from(x))
+    }
+
+    fn unit_multiple_u64(&self, x: u64) -> [u64; N] {
+        if N == 1 && x >= self.m[0] {
+            return self.elem_big(&BigInt::from(x));
+        }
+        let mut limbs = [0u64; N];
+        limbs[0] = x;
+        limbs
     }
 
     fn to_big(&self, a: &[u64; N]) -> BigInt {

@@ -7,7 +7,7 @@
 //!   Selfridge's parameters. No composite passing it is known; it is
 //!   deterministic (no random bases) but is not a proof of primality.
 
-use super::mont::{with_ring, Mont, Ring};
+use super::mont::{with_ring, Ring};
 use num_bigint::{BigInt, BigUint};
 use num_integer::Integer;
 use num_traits::{One, Signed, ToPrimitive, Zero};
@@ -33,7 +33,7 @@ const U64_BASES: [u64; 7] = [2, 325, 9375, 28178, 450775, 9780504, 1795265022];
 /// `≡ 0 mod n` is skipped, as it carries no information.
 ///
 /// Cost: at most 7 modular exponentiations with 64-bit Montgomery
-/// arithmetic, a few microseconds.
+/// arithmetic (`src/arith/small.rs`), about a microsecond.
 ///
 /// Example: `is_prime_u64(561) == false` (Carmichael, `561 = 3·11·17`),
 /// `is_prime_u64(2^61 − 1) == true`.
@@ -52,14 +52,7 @@ pub fn is_prime_u64(n: u64) -> bool {
     if n < 97 * 97 {
         return true;
     }
-    let ring = Mont::<1>::from_limbs([n]);
-    let d_full = n - 1;
-    let s = d_full.trailing_zeros();
-    let d = BigUint::from(d_full >> s);
-    U64_BASES
-        .iter()
-        .filter(|&&a| a % n != 0)
-        .all(|&a| strong_probable_prime_ring(&ring, &ring.elem_i64((a % n) as i64), &d, s))
+    super::small::miller_rabin_u64(n, &U64_BASES)
 }
 
 /// True iff `n` is prime. Negative numbers, 0 and 1 are not prime.

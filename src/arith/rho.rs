@@ -1,7 +1,8 @@
 //! Pollard's rho method in Brent's variant.
 
+use super::meter::Meter;
 use super::mont::Ring;
-use crate::budget::Budget;
+
 use num_bigint::BigInt;
 use num_integer::Integer;
 use num_traits::One;
@@ -32,7 +33,7 @@ pub(crate) fn pollard_brent<R: Ring>(
     ring: &R,
     c: i64,
     max_iter: u64,
-    budget: &mut Budget,
+    budget: &mut impl Meter,
 ) -> Split {
     let n = ring.modulus();
     let cc = ring.elem_i64(c);
@@ -91,21 +92,4 @@ pub(crate) fn pollard_brent<R: Ring>(
     } else {
         Split::Found(g)
     }
-}
-
-/// Pollard–Brent rho for `u64`: returns a proper divisor of the odd
-/// composite `n` (not a prime power is not required), trying the
-/// constants `c = 1, 2, …` until one works. No budget: the expected cost
-/// is about `n^{1/4}` ≤ 65536 iterations.
-pub(crate) fn rho_u64(n: u64) -> u64 {
-    let ring = super::mont::Mont::<1>::from_limbs([n]);
-    let mut budget = Budget::unlimited();
-    for c in 1..i64::MAX {
-        if let Split::Found(d) = pollard_brent(&ring, c, u64::MAX, &mut budget) {
-            if let Some(d) = num_traits::ToPrimitive::to_u64(&d) {
-                return d;
-            }
-        }
-    }
-    n
 }

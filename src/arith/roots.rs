@@ -138,10 +138,14 @@ pub(crate) fn exact_root(n: &BigInt, k: u32) -> Option<BigInt> {
     }
 }
 
-/// If `n > 1` is a perfect power, `Some((r, k))` with `r^k = n`, `k ≥ 2`
-/// maximal; else `None`. Tries each prime exponent `k ≤ log2 n`, dividing
-/// it out repeatedly.
-pub(crate) fn perfect_power(n: &BigInt) -> Option<(BigInt, u32)> {
+/// Perfect powers:
+/// `Some((r, k))` with `r^k = n`, `k ≥ 2` the largest exponent
+/// whose prime factors are all `≤ max_exp`; else `None`. Tries each prime
+/// exponent `k ≤ min(max_exp, log2 n)`, taking roots repeatedly. With
+/// `max_exp = u32::MAX` this finds the largest `k`; a smaller `max_exp`
+/// is enough when every prime factor of `n` exceeds `2^(bits(n)/max_exp)`
+/// (e.g. after trial division).
+pub(crate) fn perfect_power_up_to(n: &BigInt, max_exp: u32) -> Option<(BigInt, u32)> {
     if n <= &BigInt::one() {
         return None;
     }
@@ -149,7 +153,7 @@ pub(crate) fn perfect_power(n: &BigInt) -> Option<(BigInt, u32)> {
     let mut base = n.clone();
     let mut exp = 1u32;
     let mut k = 2u32;
-    while (k as u64) <= bits {
+    while (k as u64) <= bits && k <= max_exp {
         if is_small_prime(k) {
             while base.bits() >= k as u64 {
                 match exact_root(&base, k) {
@@ -202,12 +206,15 @@ mod tests {
 
     #[test]
     fn perfect_powers_report_the_largest_exponent() {
-        assert_eq!(perfect_power(&BigInt::from(64)), Some((BigInt::from(2), 6)));
         assert_eq!(
-            perfect_power(&BigInt::from(3u64.pow(10) * 7u64.pow(5))),
+            perfect_power_up_to(&BigInt::from(64), u32::MAX),
+            Some((BigInt::from(2), 6))
+        );
+        assert_eq!(
+            perfect_power_up_to(&BigInt::from(3u64.pow(10) * 7u64.pow(5)), u32::MAX),
             Some((BigInt::from(63), 5))
         );
-        assert_eq!(perfect_power(&BigInt::from(72)), None);
+        assert_eq!(perfect_power_up_to(&BigInt::from(72), u32::MAX), None);
         assert_eq!(isqrt_u64(u64::MAX), 4294967295);
     }
 }

@@ -21,8 +21,8 @@
 //! Everything is deterministic: the primes of each `A` are drawn by a fixed
 //! pseudo-random sequence.
 
+use super::meter::Meter;
 use super::rho::Split;
-use crate::budget::Budget;
 use num_bigint::{BigInt, BigUint};
 use num_integer::Integer;
 use num_traits::{One, Signed, ToPrimitive, Zero};
@@ -202,7 +202,7 @@ impl Lcg {
 /// and per trial division of a candidate, charged per polynomial.
 /// Returns [`Split::Failed`] for moduli outside the size range or if every
 /// dependency gives a trivial gcd.
-pub(crate) fn siqs(n: &BigUint, budget: &mut Budget) -> Split {
+pub(crate) fn siqs(n: &BigUint, budget: &mut impl Meter) -> Split {
     let bits = n.bits();
     if !(MIN_BITS..=MAX_BITS).contains(&bits) || n.is_even() {
         return Split::Failed;
@@ -605,6 +605,7 @@ fn combine(rels: &[Relation], fb: &[FbPrime], n: &BigInt) -> Split {
 #[cfg(test)]
 mod tests {
     use super::*;
+    use crate::budget::Budget;
 
     #[test]
     fn the_sieve_splits_semiprimes_of_20_to_40_digits() {

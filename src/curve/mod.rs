@@ -50,6 +50,7 @@ pub use tate::{
 pub use torsion::{torsion_subgroup, TorsionGroup};
 pub use two_torsion::{
     first_two_torsion_model, short_integral_model, two_torsion_model,
-    two_torsion_model_with_budget, two_torsion_points, TwoTorsionModel,
+    two_torsion_model_with_budget, two_torsion_points, two_torsion_points_with_budget,
+    TwoTorsionModel,
 };
 pub use weierstrass::{Curve, MAX_COEFFICIENT_DIGITS};

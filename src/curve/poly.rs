@@ -27,7 +27,7 @@
 //! replaced by its squarefree part f / gcd(f, f′) after a few dozen primes
 //! fail, which restores the hypothesis.
 
-use crate::local::sqrt::mod_inverse;
+use crate::budget::{Budget, Exhausted};
 use num_bigint::BigInt;
 use num_integer::Integer;
 use num_traits::{One, Signed, ToPrimitive, Zero};
@@ -310,11 +310,35 @@ pub(crate) fn odd_primes() -> impl Iterator<Item = u64> {
 ///
 /// Exact (see the module docs). The zero polynomial and constants have no
 /// roots by convention here (callers never pass the zero polynomial).
+/// No budget: see [`integer_roots_with_budget`].
 pub(crate) fn integer_roots(f: &ZPoly) -> Vec<BigInt> {
+    // An unlimited budget never runs out, so the error arm is unreachable.
+    integer_roots_with_budget(f, &mut Budget::unlimited()).unwrap_or_default()
+}
+
+/// [`integer_roots`] charging `budget` by operand size, and stopping when
+/// it runs out (units or deadline).
+///
+/// Budget units: one per 64-bit word product, counted as in schoolbook
+/// multiplication (an upper bound for num-bigint's sub-quadratic
+/// products on large operands); a
+/// Newton step modulo `m` costs about `(2·deg f + 6)·words(m)²` units,
+/// the evaluations of `f` at a candidate `deg f · words(f)·words(root)`,
+/// the squarefree reduction `words²` per pseudo-remainder step.
+///
+/// Method note: the Newton iteration lifts the inverse of `f′(r)` along
+/// with `r` (`v ← v·(2 − f′(r)·v) mod m²`), so no extended gcd is
+/// computed on the huge moduli: each step is a few multiplications.
+///
+/// Errors: [`Exhausted`] when the budget runs out.
+pub(crate) fn integer_roots_with_budget(
+    f: &ZPoly,
+    budget: &mut Budget,
+) -> Result<Vec<BigInt>, Exhausted> {
     let mut roots = Vec::new();
     let mut g = f.clone();
     if g.degree().unwrap_or(0) == 0 {
-        return roots;
+        return Ok(roots);
     }
     // Strip the factor x^k.
     if g.0.first().is_some_and(|c| c.is_zero()) {
@@ -323,12 +347,14 @@ pub(crate) fn integer_roots(f: &ZPoly) -> Vec<BigInt> {
         g = ZPoly::new(g.0[k..].to_vec());
     }
     match g.degree().unwrap_or(0) {
-        0 => return roots,
+        0 => return Ok(roots),
         1 | 2 => {
+            let w = g.0.iter().map(|c| c.bits().div_ceil(64)).max().unwrap_or(1);
+            budget.spend(8 * w * w)?;
             roots.extend(low_degree_roots(&g));
             roots.sort();
             roots.dedup();
-            return roots;
+            return Ok(roots);
         }
         _ => {}
     }
@@ -337,14 +363,17 @@ pub(crate) fn integer_roots(f: &ZPoly) -> Vec<BigInt> {
     let mut primes = odd_primes();
     let p = loop {
         let Some(p) = primes.next() else {
-            return roots;
+            return Ok(roots);
         };
         tried += 1;
         if tried == 48 && !reduced_to_squarefree {
+            let w = g.0.iter().map(|c| c.bits().div_ceil(64)).max().unwrap_or(1);
+            let n = g.0.len() as u64;
+            budget.spend(n * n * w * w * 4)?;
             g = g.squarefree_part();
             reduced_to_squarefree = true;
             if g.degree().unwrap_or(0) == 0 {
-                return roots;
+                return Ok(roots);
             }
         }
         let gm = g.mod_small(p);
@@ -357,44 +386,54 @@ pub(crate) fn integer_roots(f: &ZPoly) -> Vec<BigInt> {
         }
     };
     let gm = g.mod_small(p);
+    let dm = g.derivative().mod_small(p);
     let bound = root_bound(&g);
     let two_b = &bound * 2u32 + 1u32;
     let pb = BigInt::from(p);
     let deriv = g.derivative();
-    for r0 in 0..p {
-        // Horner mod p in u64.
+    let deg = g.0.len() as u64;
+    let eval_small = |c: &[u64], r0: u64| {
         let mut acc = 0u128;
-        for &c in gm.iter().rev() {
-            acc = (acc * r0 as u128 + c as u128) % p as u128;
+        for &x in c.iter().rev() {
+            acc = (acc * r0 as u128 + x as u128) % p as u128;
         }
-        if acc != 0 {
+        acc as u64
+    };
+    for r0 in 0..p {
+        if eval_small(&gm, r0) != 0 {
             continue;
         }
-        // Newton lifting r <- r - f(r)/f'(r) mod p^(2^k).
+        // f′(r0) ≢ 0 mod p: the root is simple (p was chosen so).
+        let d0 = eval_small(&dm, r0);
+        if d0 == 0 {
+            continue;
+        }
+        let mut v = BigInt::from(pow_mod_u64(d0, p - 2, p)); // f′(r)⁻¹ mod m
         let mut r = BigInt::from(r0);
         let mut m = pb.clone();
         while m <= two_b {
             m = &m * &m;
+            let w = m.bits().div_ceil(64).max(1);
+            budget.spend((2 * deg + 6) * w * w)?;
             let fr = g.eval_mod(&r, &m);
+            r = (r - fr * &v).mod_floor(&m);
             let dr = deriv.eval_mod(&r, &m);
-            let Some(inv) = mod_inverse(&dr, &m) else {
-                break; // cannot happen for a simple root mod p
-            };
-            r = (r - fr * inv).mod_floor(&m);
+            v = (&v * (BigInt::from(2) - (dr * &v).mod_floor(&m))).mod_floor(&m);
         }
         let cand = if &r * 2u32 > m { &r - &m } else { r };
-        if cand.abs() <= bound && g.eval(&cand).is_zero() && !roots.contains(&cand) {
-            roots.push(cand);
+        if cand.abs() <= bound {
+            let w = cand.bits().div_ceil(64).max(1);
+            let wf = g.0.iter().map(|c| c.bits().div_ceil(64)).max().unwrap_or(1);
+            budget.spend(deg * deg * w * (wf + deg * w))?;
+            if g.eval(&cand).is_zero() && !roots.contains(&cand) {
+                roots.push(cand);
+            }
         }
     }
     roots.sort();
-    roots
+    Ok(roots)
 }
 
-/// The integer roots of a polynomial of degree 1 or 2, directly: c1x + c0
-/// has the root −c0/c1 when c1 | c0; c2x² + c1x + c0 has the roots
-/// (−c1 ± s)/(2c2) with s² = c1² − 4c2c0, when the discriminant is a
-/// square and 2c2 divides the numerator. Exact.
 fn low_degree_roots(g: &ZPoly) -> Vec<BigInt> {
     let mut out = Vec::new();
     match g.0.as_slice() {

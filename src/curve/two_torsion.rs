@@ -41,7 +41,7 @@ use std::sync::OnceLock;
 
 use super::model::{lcm_denominators, ModelChange};
 use super::point::Point;
-use super::poly::{integer_roots, ZPoly};
+use super::poly::{integer_roots_with_budget, ZPoly};
 use super::weierstrass::Curve;
 use crate::budget::Budget;
 use crate::error::{Error, Result};
@@ -105,17 +105,33 @@ pub fn short_integral_model(e: &Curve) -> (BigInt, BigInt, Curve, ModelChange) {
 /// Example: y² = x³ − x has (−1, 0), (0, 0), (1, 0); y² = x³ + 1 has only
 /// (−1, 0); y² = x³ − 2 has none.
 pub fn two_torsion_points(e: &Curve) -> Vec<Point> {
+    // An unlimited budget never runs out, so the error arm is unreachable.
+    two_torsion_points_with_budget(e, &mut Budget::unlimited()).unwrap_or_default()
+}
+
+/// [`two_torsion_points`] charging `budget` for the root finding by
+/// operand size (one unit per 64-bit word product, see
+/// `poly::integer_roots_with_budget`) and honouring its deadline.
+///
+/// Errors: [`Error::BudgetExhausted`] (stage "2-torsion root finding")
+/// when the budget runs out.
+pub fn two_torsion_points_with_budget(e: &Curve, budget: &mut Budget) -> Result<Vec<Point>> {
+    let exhausted = |_| Error::BudgetExhausted {
+        stage: "2-torsion root finding".into(),
+    };
     let mut pts: Vec<Point> = if let Some([a1, a2, a3, a4, a6]) = e.integer_coefficients() {
         if a1.is_zero() && a3.is_zero() {
             let cubic = ZPoly::new(vec![a6.clone(), a4.clone(), a2.clone(), BigInt::one()]);
-            integer_roots(&cubic)
+            integer_roots_with_budget(&cubic, budget)
+                .map_err(exhausted)?
                 .into_iter()
                 .map(|x| Point::new(BigRational::from_integer(x), BigRational::zero()))
                 .collect()
         } else {
             let [b2, b4, b6] = [e.b2(), e.b4(), e.b6()].map(|c| c.numer().clone());
             let cubic = ZPoly::new(vec![b6 * 16, b4 * 8, b2, BigInt::one()]);
-            integer_roots(&cubic)
+            integer_roots_with_budget(&cubic, budget)
+                .map_err(exhausted)?
                 .into_iter()
                 .map(|big_x| {
                     let x = BigRational::new(big_x, BigInt::from(4));
@@ -127,7 +143,8 @@ pub fn two_torsion_points(e: &Curve) -> Vec<Point> {
     } else {
         let (a, b, _, change) = short_integral_model(e);
         let cubic = ZPoly::new(vec![b, a, BigInt::zero(), BigInt::one()]);
-        integer_roots(&cubic)
+        integer_roots_with_budget(&cubic, budget)
+            .map_err(exhausted)?
             .into_iter()
             .map(|x| {
                 change.to_old(&Point::Affine {
@@ -138,7 +155,7 @@ pub fn two_torsion_points(e: &Curve) -> Vec<Point> {
             .collect()
     };
     pts.sort();
-    pts
+    Ok(pts)
 }
 
 /// E in the form y² = x³ + a x² + b x with T at (0, 0), integral and
