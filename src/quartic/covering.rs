@@ -360,8 +360,24 @@ fn resultant2(f: &Form2, g: &Form2) -> BigInt {
     &x * &x - (a1 * b2 - a2 * b1) * (b1 * c2 - b2 * c1)
 }
 
-/// The quartic `g(α m + β n, γ m + δ n)`.
-fn transform4(g: &[BigInt; 5], t: &[[BigInt; 2]; 2]) -> [BigInt; 5] {
+/// Machine words of the largest entry of `xs` (at least 1).
+fn words<'a>(xs: impl IntoIterator<Item = &'a BigInt>) -> u64 {
+    xs.into_iter().map(|x| x.bits() / 64 + 1).max().unwrap_or(1)
+}
+
+/// The quartic `g(α m + β n, γ m + δ n)`, charged by operand size: about
+/// 50 products of a coefficient-sized by a substitution-sized number, so
+/// `50 · words(g) · words(t)` units (schoolbook cost, common practice).
+fn transform4(g: &[BigInt; 5], t: &[[BigInt; 2]; 2], budget: &mut Budget) -> Result<[BigInt; 5]> {
+    let wt = words(t.iter().flatten());
+    let units = 50u64
+        .saturating_mul(words(g.iter()).saturating_add(4 * wt))
+        .saturating_mul(wt);
+    spend(budget, units, "transforming a 4-covering")?;
+    Ok(transform4_raw(g, t))
+}
+
+fn transform4_raw(g: &[BigInt; 5], t: &[[BigInt; 2]; 2]) -> [BigInt; 5] {
     let l1 = [t[0][0].clone(), t[0][1].clone()];
     let l2 = [t[1][0].clone(), t[1][1].clone()];
     let mut out: [BigInt; 5] = Default::default();
@@ -395,8 +411,15 @@ fn identity2() -> [[BigInt; 2]; 2] {
     ]
 }
 
-fn size4(g: &[BigInt; 5]) -> BigInt {
-    g.iter().map(|c| c * c).sum()
+/// The sum of squared coefficients, charged `5 · words(g)²` units.
+fn size4(g: &[BigInt; 5], budget: &mut Budget) -> Result<BigInt> {
+    let w = words(g.iter());
+    spend(
+        budget,
+        5u64.saturating_mul(w).saturating_mul(w),
+        "reducing a 4-covering",
+    )?;
+    Ok(g.iter().map(|c| c * c).sum())
 }
 
 /// Greedy reduction of a binary quartic by the substitutions
@@ -404,12 +427,13 @@ fn size4(g: &[BigInt; 5]) -> BigInt {
 /// `m ↔ n`, each accepted only if it lowers the sum of squared
 /// coefficients (common practice; any unimodular substitution keeps the
 /// rational points in bijection). Returns the new quartic and the frame.
+/// Every transform and size is charged by operand size (at most 200 rounds
+/// of at most 9 candidate moves).
 fn reduce_quartic(g: &[BigInt; 5], budget: &mut Budget) -> Result<([BigInt; 5], [[BigInt; 2]; 2])> {
     let mut cur = g.clone();
     let mut frame = identity2();
-    let mut best = size4(&cur);
+    let mut best = size4(&cur, budget)?;
     for _ in 0..200 {
-        spend(budget, 10, "reducing a 4-covering")?;
         let mut moves: Vec<[[BigInt; 2]; 2]> = Vec::new();
         let z = BigInt::zero;
         let o = BigInt::one;
@@ -434,8 +458,8 @@ fn reduce_quartic(g: &[BigInt; 5], budget: &mut Budget) -> Result<([BigInt; 5], 
         }
         let mut improved = false;
         for t in moves {
-            let cand = transform4(&cur, &t);
-            let s = size4(&cand);
+            let cand = transform4(&cur, &t, budget)?;
+            let s = size4(&cand, budget)?;
             if s < best {
                 best = s;
                 cur = cand;
@@ -1192,7 +1216,7 @@ fn check_one(
             if raw.iter().any(|x| !x.is_multiple_of(&k2)) {
                 return Ok(false);
             }
-            let expect = transform4(&raw.map(|x| x / &k2), frame);
+            let expect = transform4(&raw.map(|x| x / &k2), frame, budget)?;
             if &expect != coeffs {
                 return Ok(false);
             }
