@@ -52,10 +52,33 @@ fn main() -> ExitCode {
             }
         };
         let start = Instant::now();
-        let out = descend(&curve, &DescentOptions::default());
+        let mut options = DescentOptions::default();
+        if std::env::var_os("STRESS_NO_SECOND").is_some() {
+            options = options.with_second_descent(false);
+        }
+        if std::env::var_os("STRESS_NO_SEARCH").is_some() {
+            options.max_classes_searched = 0;
+        }
+        let out = descend(&curve, &options);
         let ms = start.elapsed().as_secs_f64() * 1e3;
         match out {
             Ok(r) => {
+                if std::env::var_os("STRESS_DETAIL").is_some() {
+                    for d in &r.isogenies {
+                        for side in [&d.domain, &d.codomain] {
+                            println!(
+                                "  side b={}: dim Sel {}, dim I {:?}, dim K {}, searches {}, 4-covering runs {:?}, pairing error {:?}",
+                                side.b,
+                                side.dimension(),
+                                side.liftable_dim(),
+                                side.image_lower(),
+                                side.searches.len(),
+                                side.second_descent_runs,
+                                side.pairing_error
+                            );
+                        }
+                    }
+                }
                 let sel: Vec<String> = r
                     .isogenies
                     .iter()

@@ -26,14 +26,15 @@ use crate::curve::{Curve, Point};
 use crate::error::{Error, Result};
 use crate::local::{Place, Prime};
 use crate::quartic::covering::{
-    second_descent, NoPointEvidence, SecondDescentOptions, SecondDescentOutcome,
+    second_descent, second_descent_on_twists, NoPointEvidence, SecondDescentOptions,
+    SecondDescentOutcome,
 };
 use crate::quartic::image::{local_image, LocalImage};
 use crate::quartic::search::{search, QuarticPoint, SearchOptions, SearchOutcome};
 use crate::quartic::Quartic;
 use crate::selmer::f2::{BitVec, Subspace};
 use crate::selmer::group::{selmer_from_local_images, LocalCondition};
-use crate::selmer::pairing::{lift_pairing, LiftPairing};
+use crate::selmer::pairing::{class_lift, lift_pairing, soluble_twists, LiftPairing};
 use crate::selmer::qs2::QS2;
 
 /// Why a 4-covering of a homogeneous space has no point: the covering
@@ -225,7 +226,11 @@ pub const EVIDENCE_CLASSES: usize = 2;
 
 /// Most twists λ one 4-covering run of the descent may examine (the
 /// routine's own default is larger; the descent keeps each run short).
-pub const DESCENT_MAX_TWISTS: usize = 1 << 8;
+pub const DESCENT_MAX_TWISTS: usize = 1 << 6;
+
+/// Most twists searched per class on the point route (the soluble twists
+/// form a coset computed by linear algebra; a few of them are searched).
+pub const TWISTS_PER_CLASS: usize = 8;
 
 /// Runs the first descent on one side.
 ///
@@ -344,7 +349,8 @@ pub fn compute_side(
             &qs2,
             &group,
             &space,
-            pairing.as_ref().map(|p| &p.liftable),
+            pairing.as_ref(),
+            &conditions,
             &mut known,
             &mut elements,
             &mut points,
@@ -536,7 +542,8 @@ fn run_second_descent(
     qs2: &QS2,
     group: &Subspace,
     space: &Subspace,
-    liftable: Option<&Subspace>,
+    pairing: Option<&LiftPairing>,
+    conditions: &[LocalCondition],
     known: &mut Subspace,
     elements: &mut Vec<SelmerElement>,
     points: &mut Vec<Point>,
@@ -551,6 +558,7 @@ fn run_second_descent(
     // One budget for the whole side, so the cost cannot grow with the
     // number of classes.
     let mut budget = options.budget(options.second_descent_units, deadline);
+    let liftable = pairing.map(|p| &p.liftable);
     let mut tried = 0usize;
     let mut done: Vec<BigInt> = Vec::new();
     // Points: basis classes of space / K, restarting after each point.
@@ -574,7 +582,19 @@ fn run_second_descent(
                 ));
                 break 'restart;
             }
-            match second_descent(a, b, &d, &sd_options, &mut budget) {
+            let outcome = if pairing.is_some() {
+                targeted(a, b, &d, qs2, conditions, &sd_options, &mut budget)
+            } else {
+                second_descent(a, b, &d, &sd_options, &mut budget)
+            };
+            if let Err(Error::InvalidArgument { reason }) = &outcome {
+                if reason.starts_with("internal check failed") {
+                    return Err(Error::InvalidArgument {
+                        reason: reason.clone(),
+                    });
+                }
+            }
+            match outcome {
                 Ok(SecondDescentOutcome::Point {
                     space_point,
                     point_x,
@@ -665,6 +685,30 @@ fn run_second_descent(
     Ok(())
 }
 
+/// The 4-covering route on the soluble twists of a class d in I only:
+/// the pairing data of d, the coset of twists by linear algebra, at most
+/// [`TWISTS_PER_CLASS`] of them searched.
+fn targeted(
+    a: &BigInt,
+    b: &BigInt,
+    d: &BigInt,
+    qs2: &QS2,
+    conditions: &[LocalCondition],
+    sd_options: &SecondDescentOptions,
+    budget: &mut Budget,
+) -> Result<SecondDescentOutcome> {
+    let lift = class_lift(a, b, d, qs2, budget)?;
+    let twists = soluble_twists(&lift, qs2, conditions, TWISTS_PER_CLASS, budget)?;
+    if twists.is_empty() {
+        return Err(Error::InvalidArgument {
+            reason: format!(
+                "internal check failed: class {d} lies in the liftable subgroup but has no soluble twist (a = {a}, b = {b})"
+            ),
+        });
+    }
+    second_descent_on_twists(a, b, d, &lift.conic_point, &twists, sd_options, budget)
+}
+
 fn not_image(d: BigInt, evidence: NoPointEvidence) -> ClassStatus {
     let obstructions = evidence
         .obstructions
@@ -681,13 +725,38 @@ fn not_image(d: BigInt, evidence: NoPointEvidence) -> ClassStatus {
     }
 }
 
-/// Representatives of the coset x + K: x and x + k for each basis vector k
-/// of K (dim K + 1 of them), smallest |d| first.
+/// Representatives of the coset x + K, smallest |d| first: x is first
+/// moved greedily (add a basis vector of K while that lowers |d|; each
+/// step lowers |d|, at most 4·dim K + 4 passes), then the result y, the
+/// y + k and the y + k + k' (k, k' basis vectors of K) are sorted — at most
+/// 1 + m + m(m−1)/2 classes for m = dim K, never 2^m.
 fn coset_representatives(qs2: &QS2, x: &BitVec, known: &Subspace) -> Vec<(BigInt, BitVec)> {
-    let mut reps = vec![(qs2.integer(x), x.clone())];
-    for k in known.basis() {
-        let v = x.add(k);
-        reps.push((qs2.integer(&v), v));
+    let basis = known.basis();
+    let mut y = x.clone();
+    let mut dy = qs2.integer(&y).abs();
+    for _ in 0..(4 * basis.len() + 4) {
+        let mut improved = false;
+        for k in basis {
+            let z = y.add(k);
+            let dz = qs2.integer(&z).abs();
+            if dz < dy {
+                y = z;
+                dy = dz;
+                improved = true;
+            }
+        }
+        if !improved {
+            break;
+        }
+    }
+    let mut reps = vec![(qs2.integer(&y), y.clone())];
+    for (i, k) in basis.iter().enumerate() {
+        let v = y.add(k);
+        reps.push((qs2.integer(&v), v.clone()));
+        for k2 in &basis[i + 1..] {
+            let w = v.add(k2);
+            reps.push((qs2.integer(&w), w));
+        }
     }
     reps.sort_by(|p, q| p.0.abs().cmp(&q.0.abs()).then(p.0.cmp(&q.0)));
     reps

@@ -337,6 +337,32 @@ fn padic_value(
     })
 }
 
+/// A point of `X² − dY² = ΔZ²` read off when `Δ`, `−Δ/d` or `d + Δ` is a
+/// square (`(√Δ, 0, 1)`, `(0, s, 1)`, `(s, 1, 1)`); spares the general
+/// solver the easy cases, which include every class on the side of a
+/// curve with E[2] rational (`Δ` a square).
+pub(crate) fn obvious_conic_point(d: &BigInt, delta: &BigInt) -> Option<[BigInt; 3]> {
+    let root = |n: &BigInt| -> Option<BigInt> {
+        if n.is_negative() {
+            return None;
+        }
+        let r = n.sqrt();
+        (&r * &r == *n).then_some(r)
+    };
+    if let Some(r) = root(delta) {
+        return Some([r, BigInt::zero(), BigInt::one()]);
+    }
+    if (-delta).is_multiple_of(d) {
+        if let Some(s) = root(&(-delta / d)) {
+            return Some([BigInt::zero(), s, BigInt::one()]);
+        }
+    }
+    if let Some(s) = root(&(d + delta)) {
+        return Some([s, BigInt::one(), BigInt::one()]);
+    }
+    None
+}
+
 /// The square classes of the basis `−1, p₁, …` of `Q(S, 2)` at every place.
 fn basis_classes(qs2: &QS2, budget: &mut Budget) -> Result<Vec<Vec<u8>>> {
     let mut out = Vec::new();
@@ -392,14 +418,21 @@ fn class_lift_with(
     budget: &mut Budget,
 ) -> Result<ClassLift> {
     let (delta, bd) = check(a, b, d)?;
-    let primes: Vec<BigInt> = qs2.primes().iter().map(|p| p.get().clone()).collect();
-    let sol = solve_diagonal_with_primes(&BigInt::one(), &(-d), &(-&delta), &primes, budget)?;
-    let Some(p0) = sol.point().cloned() else {
-        return Err(Error::InvalidArgument {
-            reason: format!(
-                "the conic X² − ({d})Y² = ({delta})Z² has no rational point, so d = {d} is not in the Selmer group"
-            ),
-        });
+    let p0 = match obvious_conic_point(d, &delta) {
+        Some(p) => p,
+        None => {
+            let primes: Vec<BigInt> = qs2.primes().iter().map(|p| p.get().clone()).collect();
+            let sol =
+                solve_diagonal_with_primes(&BigInt::one(), &(-d), &(-&delta), &primes, budget)?;
+            let Some(p0) = sol.point().cloned() else {
+                return Err(Error::InvalidArgument {
+                    reason: format!(
+                        "the conic X² − ({d})Y² = ({delta})Z² has no rational point, so d = {d} is not in the Selmer group"
+                    ),
+                });
+            };
+            p0
+        }
     };
     let q = Quartic::two_isogeny_space(d, a, b)?;
     let mut values = Vec::new();
@@ -480,6 +513,91 @@ pub fn lift_pairing(
         matrix,
         liftable,
     })
+}
+
+/// The twists (in the normalisation of `h`) whose 2-coverings above `C_d`
+/// are soluble at every place: the square-free `λ ∈ Q(S, 2)` with
+/// `loc_v(λ) ∈ h(P_v)·W'_v` for every `v ∈ S ∪ {∞}`, where
+/// `W'_v = W_v^⊥` under the Hilbert symbol is the other side's local image
+/// (local duality; the tests check it on the computed images). They form a
+/// coset of the other side's Selmer group, empty iff `d ∉ I`. Returned: a
+/// particular solution and its sums with the first basis vectors of that
+/// group, at most `max` classes, in a fixed order.
+///
+/// `conditions` are this side's local images (`W_v`), at the places of
+/// `S ∪ {∞}`.
+///
+/// # Errors
+/// [`Error::InvalidArgument`] when a place of the lift has no condition;
+/// [`Error::BudgetExhausted`].
+pub fn soluble_twists(
+    lift: &ClassLift,
+    qs2: &QS2,
+    conditions: &[super::group::LocalCondition],
+    max: usize,
+    budget: &mut Budget,
+) -> Result<Vec<BigInt>> {
+    let table = basis_classes(qs2, budget)?;
+    let n = qs2.dim();
+    // rows (r | rhs): Σ_k x_k·[(e_k, w)_v = −1] = [(h_v, w)_v = −1]
+    let mut rows: Vec<(BitVec, bool)> = Vec::new();
+    for (val, row) in lift.values.iter().zip(&table) {
+        let cond = conditions
+            .iter()
+            .find(|c| c.place == val.place)
+            .ok_or_else(|| Error::InvalidArgument {
+                reason: format!("no local image at {}", val.place),
+            })?;
+        for w in cond.image.basis() {
+            let wm = w.ones().fold(0u8, |m, i| m | (1u8 << i));
+            let mut r = BitVec::zeros(n);
+            for (k, &cls) in row.iter().enumerate() {
+                if hilbert_on_classes(cls, wm, &val.place) == -1 {
+                    r.set(k, true);
+                }
+            }
+            rows.push((r, hilbert_on_classes(val.class, wm, &val.place) == -1));
+        }
+    }
+    spend(
+        budget,
+        size_units(n as u64).saturating_mul(rows.len() as u64 + 1),
+    )?;
+    // Gaussian elimination on the augmented rows.
+    let mut pivots: Vec<(usize, BitVec, bool)> = Vec::new();
+    for (mut r, mut c) in rows {
+        for (p, pr, pc) in &pivots {
+            if r.get(*p) {
+                r.add_assign(pr);
+                c ^= *pc;
+            }
+        }
+        match r.leading() {
+            Some(l) => {
+                for (_, pr, pc) in pivots.iter_mut() {
+                    if pr.get(l) {
+                        pr.add_assign(&r);
+                        *pc ^= c;
+                    }
+                }
+                pivots.push((l, r, c));
+            }
+            None if c => return Ok(Vec::new()), // inconsistent: d ∉ I
+            None => {}
+        }
+    }
+    let mut x0 = BitVec::zeros(n);
+    for (l, _, c) in &pivots {
+        x0.set(*l, *c);
+    }
+    let homogeneous =
+        LinearMap::from_rows(n, pivots.iter().map(|(_, r, _)| r.clone()).collect()).kernel();
+    let mut out = vec![qs2.integer(&x0)];
+    for k in homogeneous.basis().iter().take(max.saturating_sub(1)) {
+        out.push(qs2.integer(&x0.add(k)));
+    }
+    out.truncate(max);
+    Ok(out)
 }
 
 /// Re-checks a [`ClassLift`] from its data alone: the conic point is a
