@@ -7,56 +7,35 @@
 //!
 //! so with k ≤ dim α(E(Q)) ≤ u and k' ≤ dim α'(E'(Q)) ≤ u' we get
 //! k + k' − 2 ≤ r ≤ u + u' − 2. Here k is the dimension of the span of
-//! the images of torsion and of the points found, and u is dim Sel minus
-//! what the second descent proves is not in the image (see
-//! [`max_avoiding_dimension`]). The quotient Sel/α(E(Q)) is the
-//! φ'-part of the Tate–Shafarevich group's 2-torsion seen by this descent,
-//! so its dimension lies between dim Sel − u and dim Sel − k.
+//! the images of torsion and of the points found, and u is the dimension
+//! of the subgroup I ⊆ Sel of classes that lift to everywhere locally
+//! soluble 2-coverings (the second descent, [`crate::selmer::pairing`]),
+//! or dim Sel without it. The quotient Sel/α(E(Q)) is the φ'-part of the
+//! Tate–Shafarevich group's 2-torsion seen by this descent, so its
+//! dimension lies between dim Sel − u and dim Sel − k.
 
-use crate::selmer::f2::{BitVec, Subspace};
-
-/// Largest dimension of a subspace of F2^n that contains none of the
-/// nonzero vectors in `forbidden`.
+/// dim Sel²(E/Q) from one 2-isogeny φ: E → E' (torsion included).
 ///
-/// If the image I satisfies K ⊆ I ⊆ Sel and every vector of `forbidden`
-/// (expressed in coordinates of Sel/K) is proven not to lie in I/K, then
-/// dim I ≤ dim K + this number. Exact search for n ≤ 10; for larger n the
-/// trivial bound n (or 0 when every nonzero vector is forbidden) is
-/// returned, which is still a valid upper bound.
-pub fn max_avoiding_dimension(n: usize, forbidden: &[BitVec]) -> usize {
-    let forbidden: Vec<&BitVec> = forbidden.iter().filter(|v| !v.is_zero()).collect();
-    if forbidden.is_empty() {
-        return n;
-    }
-    if n > 10 {
-        let all = n < 64 && forbidden.len() as u64 >= (1u64 << n) - 1;
-        return if all { 0 } else { n };
-    }
-    let allowed: Vec<BitVec> = (1u64..(1u64 << n))
-        .map(|bits| BitVec::from_u64(n, bits))
-        .filter(|v| !forbidden.contains(&v))
-        .collect();
-    let mut best = 0;
-    grow(&Subspace::zero(n), &allowed, 0, &forbidden, &mut best);
-    best
-}
-
-fn grow(s: &Subspace, allowed: &[BitVec], from: usize, forbidden: &[&BitVec], best: &mut usize) {
-    *best = (*best).max(s.dim());
-    for (i, v) in allowed.iter().enumerate().skip(from) {
-        if s.contains(v) {
-            continue;
-        }
-        let mut t = s.clone();
-        t.insert(v.clone());
-        if forbidden.iter().any(|f| t.contains(f)) {
-            continue;
-        }
-        grow(&t, allowed, i + 1, forbidden, best);
-        if *best == s.ambient() {
-            return;
-        }
-    }
+/// The exact sequence (common practice: the long exact Galois cohomology
+/// sequence of 0 → E[φ] → E[2] → E'[φ̂] → 0, restricted to Selmer groups;
+/// see docs/second_descent.md, §8)
+///
+/// 0 → E'(Q)[φ̂]/φ(E(Q)[2]) → Sel^φ(E) → Sel²(E) → Sel^φ̂(E')
+///
+/// gives dim Sel²(E) = dim Sel^φ(E) − t + dim I, where I is the image of
+/// the last map — the classes of Sel^φ̂(E') that lift to everywhere locally
+/// soluble 2-coverings of E, computed by [`crate::selmer::pairing`] — and
+/// t = dim E'(Q)[φ̂]/φ(E(Q)[2]) is 0 when E[2] is rational (then φ maps
+/// E[2] onto E'[φ̂]) and 1 otherwise.
+///
+/// `phi_selmer_dim` = dim Sel^φ(E) (the side of E' in this crate: classes
+/// of E'(Q)/φ(E(Q))), `liftable_dim` = dim I on the side of E.
+pub fn selmer2_dimension(
+    phi_selmer_dim: usize,
+    liftable_dim: usize,
+    full_two_torsion: bool,
+) -> usize {
+    (phi_selmer_dim + liftable_dim).saturating_sub(usize::from(!full_two_torsion))
 }
 
 /// Rank bounds from the two sides of one isogeny.
@@ -76,25 +55,12 @@ mod tests {
     use super::*;
 
     #[test]
-    fn forbidding_nothing_leaves_the_whole_space() {
-        assert_eq!(max_avoiding_dimension(3, &[]), 3);
-    }
-
-    #[test]
-    fn forbidding_one_vector_leaves_a_hyperplane() {
-        assert_eq!(max_avoiding_dimension(3, &[BitVec::from_u64(3, 0b101)]), 2);
-    }
-
-    #[test]
-    fn forbidding_every_nonzero_vector_leaves_zero() {
-        let all: Vec<BitVec> = (1..8).map(|b| BitVec::from_u64(3, b)).collect();
-        assert_eq!(max_avoiding_dimension(3, &all), 0);
-    }
-
-    #[test]
-    fn forbidding_a_basis_of_f2_squared_leaves_the_diagonal() {
-        let f = [BitVec::from_u64(2, 0b01), BitVec::from_u64(2, 0b10)];
-        assert_eq!(max_avoiding_dimension(2, &f), 1);
+    fn the_two_selmer_dimension_drops_the_torsion_image_only_without_full_two_torsion() {
+        // Invented dimensions: with E[2] rational nothing is subtracted;
+        // without it the image of E'(Q)[φ̂] takes one dimension of Sel^φ(E).
+        assert_eq!(selmer2_dimension(1, 1, true), 2);
+        assert_eq!(selmer2_dimension(1, 1, false), 1);
+        assert_eq!(selmer2_dimension(0, 0, false), 0);
     }
 
     #[test]

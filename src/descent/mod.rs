@@ -86,6 +86,43 @@ impl IsogenyDescent {
         };
         (f(&self.domain), f(&self.codomain))
     }
+
+    /// dim_F2 Sel²(E/Q) of the reduced model E (isomorphic to the input
+    /// curve), torsion included, from the exact sequence of
+    /// [`bounds::selmer2_dimension`]: dim Sel^φ(E) (this descent's E'
+    /// side) − t + dim I (the liftable subgroup on E's side). `None` when
+    /// the pairing on E's side was not computed (budget).
+    pub fn selmer2_rank(&self) -> Option<usize> {
+        let full = is_square(&(&self.model.a * &self.model.a - 4 * &self.model.b));
+        Some(bounds::selmer2_dimension(
+            self.codomain.dimension(),
+            self.domain.liftable_dim()?,
+            full,
+        ))
+    }
+
+    /// dim_F2 Sel²(E'/Q) of the isogenous curve E', torsion included
+    /// (the same sequence for the dual isogeny; E'[2] is rational iff b is
+    /// a square).
+    pub fn selmer2_rank_codomain(&self) -> Option<usize> {
+        let full = is_square(&self.model.b);
+        Some(bounds::selmer2_dimension(
+            self.domain.dimension(),
+            self.codomain.liftable_dim()?,
+            full,
+        ))
+    }
+}
+
+/// dim_F2 Sel²(E/Q) of the curve of a descent, torsion included: the value
+/// of the first isogeny whose pairing was computed (with E[2] rational all
+/// three isogenies give the same number; the tests check it).
+pub fn selmer2_rank(isogenies: &[IsogenyDescent]) -> Option<usize> {
+    isogenies.iter().find_map(IsogenyDescent::selmer2_rank)
+}
+
+fn is_square(n: &BigInt) -> bool {
+    !num_traits::Signed::is_negative(n) && crate::arith::is_perfect_square(n)
 }
 
 fn primes_of(

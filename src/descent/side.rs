@@ -20,19 +20,21 @@ use num_integer::Integer;
 use num_rational::BigRational;
 use num_traits::{One, Signed, Zero};
 
-use super::bounds::max_avoiding_dimension;
 use super::options::DescentOptions;
+use crate::budget::Budget;
 use crate::curve::{Curve, Point};
 use crate::error::{Error, Result};
 use crate::local::{Place, Prime};
 use crate::quartic::covering::{
-    second_descent, NoPointEvidence, SecondDescentOptions, SecondDescentOutcome,
+    second_descent, second_descent_on_twists, NoPointEvidence, SecondDescentOptions,
+    SecondDescentOutcome,
 };
 use crate::quartic::image::{local_image, LocalImage};
 use crate::quartic::search::{search, QuarticPoint, SearchOptions, SearchOutcome};
 use crate::quartic::Quartic;
 use crate::selmer::f2::{BitVec, Subspace};
 use crate::selmer::group::{selmer_from_local_images, LocalCondition};
+use crate::selmer::pairing::{class_lift, lift_pairing, soluble_twists, LiftPairing};
 use crate::selmer::qs2::QS2;
 
 /// Why a 4-covering of a homogeneous space has no point: the covering
@@ -144,6 +146,13 @@ pub struct SelmerSide {
     /// concluded ("point_image", "proven_not_image", "undecided") — or the
     /// error that stopped it.
     pub second_descent_runs: Vec<(BigInt, String)>,
+    /// The lifting pairing on the Selmer group and its kernel I, the
+    /// classes that lift to everywhere locally soluble 2-coverings of the
+    /// curve ([`crate::selmer::pairing`]); `None` if its budget ran out
+    /// (then `pairing_error` says why).
+    pub pairing: Option<LiftPairing>,
+    /// Why the pairing is missing, if it is.
+    pub pairing_error: Option<String>,
 }
 
 impl SelmerSide {
@@ -155,6 +164,25 @@ impl SelmerSide {
     /// dim of the span of known images (a lower bound for dim α(E(Q))).
     pub fn image_lower(&self) -> usize {
         self.known.dim()
+    }
+
+    /// The subgroup I of classes lifting to everywhere locally soluble
+    /// 2-coverings (it contains α(E(Q))), if the pairing was computed.
+    pub fn liftable(&self) -> Option<&Subspace> {
+        self.pairing.as_ref().map(|p| &p.liftable)
+    }
+
+    /// dim I, if the pairing was computed.
+    pub fn liftable_dim(&self) -> Option<usize> {
+        self.liftable().map(Subspace::dim)
+    }
+
+    /// True iff the class d is known to lie outside I, hence outside
+    /// α(E(Q)) (whatever its entry in `elements` says). `None` when the
+    /// pairing is missing or d is not a class of Q(S, 2).
+    pub fn excluded_by_pairing(&self, d: &BigInt) -> Option<bool> {
+        let v = self.qs2.vector(d).ok()?;
+        Some(!self.liftable()?.contains(&v))
     }
 }
 
@@ -191,14 +219,38 @@ fn point_from_space(d: &BigInt, f: &BigInt, qp: &QuarticPoint) -> Option<Point> 
     Some(Point::new(x, y))
 }
 
+/// Most classes outside the liftable subgroup handed to the 4-covering
+/// route per side, for re-checkable evidence (and as a cross-check of the
+/// pairing): each such class must come back `NoPoint`.
+pub const EVIDENCE_CLASSES: usize = 2;
+
+/// Most twists λ one 4-covering run of the descent may examine (the
+/// routine's own default is larger; the descent keeps each run short).
+pub const DESCENT_MAX_TWISTS: usize = 1 << 6;
+
+/// Most twists searched per class on the point route (the soluble twists
+/// form a coset computed by linear algebra; a few of them are searched).
+pub const TWISTS_PER_CLASS: usize = 8;
+
 /// Runs the first descent on one side.
 ///
 /// `primes` must be the primes dividing 2·b·(a² − 4b); `torsion` the
 /// torsion points of `curve` (which must be y² = x³ + a x² + b x).
 ///
+/// Steps, each polynomial in |S| and dim Sel: the local images and the
+/// Selmer group; the lifting pairing ([`crate::selmer::pairing`]) and its
+/// kernel I (the classes lifting to everywhere locally soluble
+/// 2-coverings); the point search on at most `max_classes_searched`
+/// cosets of (I or Sel)/K in a fixed order (basis first, then sums of two,
+/// …); with the second descent on, the 4-covering route on the complement
+/// basis of K in I (for points) and on at most [`EVIDENCE_CLASSES`]
+/// classes outside I (for evidence). The upper bound for dim α(E(Q)) is
+/// dim I when the pairing was computed and the second descent is on.
+///
 /// # Errors
 /// Budget exhaustion in the local tests ([`Error::BudgetExhausted`]) and
-/// inconsistent input ([`Error::InvalidArgument`]).
+/// inconsistent input ([`Error::InvalidArgument`]), including an internal
+/// contradiction between the pairing and the 4-covering route.
 pub fn compute_side(
     a: &BigInt,
     b: &BigInt,
@@ -248,56 +300,45 @@ pub fn compute_side(
     }
     let torsion_dim = known.dim();
 
-    let mut searches = Vec::new();
-    let mut points = Vec::new();
-    let mut tried = 0usize;
-    loop {
-        let rest = known.complement_in(&group);
-        if rest.is_empty() || tried >= options.max_classes_searched {
-            break;
-        }
-        // Cosets of Sel/K in a fixed order: combinations of the complement
-        // basis by increasing bit pattern.
-        let u = rest.len().min(16);
-        let mut progress = false;
-        for pattern in 1u64..(1u64 << u) {
-            if tried >= options.max_classes_searched {
-                break;
-            }
-            let x = combination(qs2.dim(), &rest, pattern);
-            if known.contains(&x) {
-                continue;
-            }
-            tried += 1;
-            if let Some((v, point)) = search_coset(
-                a,
-                b,
-                curve,
-                &qs2,
-                &x,
-                &known,
-                options,
-                deadline,
-                &mut searches,
-            )? {
-                known.insert(v.clone());
-                elements.push(SelmerElement {
-                    class: qs2.integer(&v),
-                    status: ClassStatus::PointImage {
-                        point: point.0.clone(),
-                        space: point.1.clone(),
-                        on_space: point.2.clone(),
-                    },
-                });
-                points.push(point.0);
-                progress = true;
-                break; // recompute the complement
-            }
-        }
-        if !progress {
-            break;
+    // The lifting pairing: its own budget, so a failure leaves the first
+    // descent intact.
+    let mut pairing_budget = options.budget(options.local_units, deadline);
+    let (pairing, pairing_error) = match lift_pairing(a, b, &qs2, &group, &mut pairing_budget) {
+        Ok(p) => (Some(p), None),
+        Err(e) => (None, Some(e.to_string())),
+    };
+    if let Some(p) = &pairing {
+        if !known.basis().iter().all(|v| p.liftable.contains(v)) {
+            return Err(Error::InvalidArgument {
+                reason: format!(
+                    "internal check failed: a torsion image lies outside the liftable subgroup (a = {a}, b = {b})"
+                ),
+            });
         }
     }
+    let use_pairing = options.second_descent && pairing.is_some();
+    let space = match (&pairing, use_pairing) {
+        (Some(p), true) => p.liftable.clone(),
+        _ => group.clone(),
+    };
+
+    let mut searches = Vec::new();
+    let mut points = Vec::new();
+    let mut work = options.budget(u64::MAX, deadline);
+    search_cosets(
+        a,
+        b,
+        curve,
+        &qs2,
+        &space,
+        &mut known,
+        &mut elements,
+        &mut points,
+        &mut searches,
+        options,
+        deadline,
+        &mut work,
+    )?;
     let mut second_descent_runs = Vec::new();
     let mut proven: Vec<(BitVec, ClassStatus)> = Vec::new();
     if options.second_descent {
@@ -307,6 +348,9 @@ pub fn compute_side(
             curve,
             &qs2,
             &group,
+            &space,
+            pairing.as_ref(),
+            &conditions,
             &mut known,
             &mut elements,
             &mut points,
@@ -316,16 +360,27 @@ pub fn compute_side(
             deadline,
         )?;
     }
-    // Adapted complement: proven classes first (independent mod K), then
-    // the rest, undecided.
+    // Adapted basis: known images, then proven classes (independent mod K),
+    // then the rest of the search space, then the rest of Sel.
     let mut span = known.clone();
     for (v, status) in &proven {
-        if span.insert(v.clone()) {
+        if span
+            .try_insert(v.clone(), &mut work)
+            .map_err(|_| exhausted())?
+        {
             elements.push(SelmerElement {
                 class: qs2.integer(v),
                 status: status.clone(),
             });
         }
+    }
+    let inside = span.sum(&space);
+    for v in span.complement_in(&inside) {
+        span.insert(v.clone());
+        elements.push(SelmerElement {
+            class: qs2.integer(&v),
+            status: ClassStatus::Undecided,
+        });
     }
     for v in span.complement_in(&group) {
         elements.push(SelmerElement {
@@ -333,7 +388,15 @@ pub fn compute_side(
             status: ClassStatus::Undecided,
         });
     }
-    let image_upper = known.dim() + proven_upper(&known, &group, &proven);
+    let image_upper = if use_pairing {
+        space.dim()
+    } else if options.second_descent && !proven.is_empty() {
+        // A proven class v ∉ K is outside the image with its whole coset
+        // v + K, so the image mod K is a proper subspace of Sel/K.
+        group.dim().saturating_sub(1)
+    } else {
+        group.dim()
+    };
     Ok(SelmerSide {
         a: a.clone(),
         b: b.clone(),
@@ -347,34 +410,130 @@ pub fn compute_side(
         searches,
         points,
         second_descent_runs,
+        pairing,
+        pairing_error,
     })
 }
 
-/// The largest possible dim (I/K) for an image I with K ⊆ I ⊆ Sel that
-/// avoids every proven coset: [`max_avoiding_dimension`] in coordinates of
-/// a complement of K.
-fn proven_upper(known: &Subspace, group: &Subspace, proven: &[(BitVec, ClassStatus)]) -> usize {
-    let rest = known.complement_in(group);
-    let u = rest.len();
-    if proven.is_empty() || u > 16 {
-        return u;
+fn exhausted() -> Error {
+    Error::BudgetExhausted {
+        stage: "linear algebra on a Selmer group".into(),
     }
-    let mut forbidden = Vec::new();
-    for (v, _) in proven {
-        for pattern in 1u64..(1u64 << u) {
-            let w = v.add(&combination(v.len(), &rest, pattern));
-            if known.contains(&w) {
-                forbidden.push(BitVec::from_u64(u, pattern));
-                break;
-            }
-        }
-    }
-    max_avoiding_dimension(u, &forbidden)
 }
 
-/// The second descent on the cosets of Sel/K the first one left open: a
-/// point found on a 4-covering enlarges K; a proof that C_d has no point
-/// excludes the coset d·K.
+/// The index sets of {0, …, u−1} by increasing size, lexicographic within
+/// a size: the fixed order in which cosets are visited. Lazy; the caller
+/// stops it.
+struct Combinations {
+    u: usize,
+    current: Vec<usize>,
+}
+
+impl Combinations {
+    fn new(u: usize) -> Self {
+        Combinations {
+            u,
+            current: Vec::new(),
+        }
+    }
+}
+
+impl Iterator for Combinations {
+    type Item = Vec<usize>;
+    fn next(&mut self) -> Option<Vec<usize>> {
+        let u = self.u;
+        let k = self.current.len();
+        // advance within size k
+        let mut i = k;
+        while i > 0 {
+            i -= 1;
+            if self.current[i] < u - (k - i) {
+                self.current[i] += 1;
+                for j in i + 1..k {
+                    self.current[j] = self.current[j - 1] + 1;
+                }
+                return Some(self.current.clone());
+            }
+        }
+        // next size
+        if k < u {
+            self.current = (0..=k).collect();
+            return Some(self.current.clone());
+        }
+        None
+    }
+}
+
+/// The point search on the cosets of `space`/K: at most
+/// `max_classes_searched` cosets, in the order of [`Combinations`] on a
+/// complement basis; after each point found, K grows and the order
+/// restarts on the new complement (classes already searched are skipped).
+#[allow(clippy::too_many_arguments)]
+fn search_cosets(
+    a: &BigInt,
+    b: &BigInt,
+    curve: &Curve,
+    qs2: &QS2,
+    space: &Subspace,
+    known: &mut Subspace,
+    elements: &mut Vec<SelmerElement>,
+    points: &mut Vec<Point>,
+    searches: &mut Vec<SearchRecord>,
+    options: &DescentOptions,
+    deadline: Option<Instant>,
+    work: &mut Budget,
+) -> Result<()> {
+    let mut tried = 0usize;
+    let mut seen: Vec<BitVec> = Vec::new();
+    'restart: loop {
+        let rest = known.complement_in(space);
+        if rest.is_empty() {
+            return Ok(());
+        }
+        for combo in Combinations::new(rest.len()) {
+            if tried >= options.max_classes_searched {
+                return Ok(());
+            }
+            let mut x = BitVec::zeros(qs2.dim());
+            for &i in &combo {
+                x.add_assign(&rest[i]);
+            }
+            let key = known.try_reduce(&x, work).map_err(|_| exhausted())?;
+            if key.is_zero() || seen.contains(&key) {
+                continue;
+            }
+            seen.push(key);
+            tried += 1;
+            if let Some((v, point)) =
+                search_coset(a, b, curve, qs2, &x, known, options, deadline, searches)?
+            {
+                known.try_insert(v.clone(), work).map_err(|_| exhausted())?;
+                elements.push(SelmerElement {
+                    class: qs2.integer(&v),
+                    status: ClassStatus::PointImage {
+                        point: point.0.clone(),
+                        space: point.1.clone(),
+                        on_space: point.2.clone(),
+                    },
+                });
+                points.push(point.0);
+                seen = seen
+                    .iter()
+                    .map(|s| known.reduce(s))
+                    .filter(|s| !s.is_zero())
+                    .collect();
+                continue 'restart;
+            }
+        }
+        return Ok(());
+    }
+}
+
+/// The 4-covering route: on the complement basis of K in `space` (points),
+/// and on at most [`EVIDENCE_CLASSES`] basis classes outside `liftable`
+/// (evidence that they are not images; by the theory each such run must
+/// end `NoPoint`, which is checked). Without a pairing, on the complement
+/// basis of K in Sel.
 #[allow(clippy::too_many_arguments)]
 fn run_second_descent(
     a: &BigInt,
@@ -382,6 +541,9 @@ fn run_second_descent(
     curve: &Curve,
     qs2: &QS2,
     group: &Subspace,
+    space: &Subspace,
+    pairing: Option<&LiftPairing>,
+    conditions: &[LocalCondition],
     known: &mut Subspace,
     elements: &mut Vec<SelmerElement>,
     points: &mut Vec<Point>,
@@ -390,39 +552,49 @@ fn run_second_descent(
     options: &DescentOptions,
     deadline: Option<Instant>,
 ) -> Result<()> {
-    let sd_options =
+    let mut sd_options =
         SecondDescentOptions::default().with_search_height(options.second_search_height);
-    let mut tried = 0usize;
+    sd_options.max_twists = sd_options.max_twists.min(DESCENT_MAX_TWISTS);
     // One budget for the whole side, so the cost cannot grow with the
     // number of classes.
     let mut budget = options.budget(options.second_descent_units, deadline);
+    let liftable = pairing.map(|p| &p.liftable);
+    let mut tried = 0usize;
+    let mut done: Vec<BigInt> = Vec::new();
+    // Points: basis classes of space / K, restarting after each point.
     'restart: loop {
-        let rest = known.complement_in(group);
-        let u = rest.len().min(10);
-        for pattern in 1u64..(1u64 << u) {
-            let x = combination(qs2.dim(), &rest, pattern);
-            if known.contains(&x) {
-                continue;
-            }
-            // already proven: the coset of x mod K contains a proven class
-            if proven.iter().any(|(v, _)| known.contains(&v.add(&x))) {
-                continue;
-            }
+        for x in known.complement_in(space) {
             if tried >= options.max_classes_searched {
-                return Ok(());
+                break 'restart;
             }
-            tried += 1;
             let Some((d, v)) = coset_representatives(qs2, &x, known).into_iter().next() else {
                 continue;
             };
+            if done.contains(&d) {
+                continue;
+            }
+            done.push(d.clone());
+            tried += 1;
             if budget.is_exhausted() {
                 runs.push((
                     d,
                     "gave up: second-descent budget of this side spent".into(),
                 ));
-                return Ok(());
+                break 'restart;
             }
-            match second_descent(a, b, &d, &sd_options, &mut budget) {
+            let outcome = if pairing.is_some() {
+                targeted(a, b, &d, qs2, conditions, &sd_options, &mut budget)
+            } else {
+                second_descent(a, b, &d, &sd_options, &mut budget)
+            };
+            if let Err(Error::InvalidArgument { reason }) = &outcome {
+                if reason.starts_with("internal check failed") {
+                    return Err(Error::InvalidArgument {
+                        reason: reason.clone(),
+                    });
+                }
+            }
+            match outcome {
                 Ok(SecondDescentOutcome::Point {
                     space_point,
                     point_x,
@@ -434,6 +606,13 @@ fn run_second_descent(
                         return Err(Error::InvalidArgument {
                             reason: format!(
                                 "internal check failed: second-descent point for C_{d} is not on the curve"
+                            ),
+                        });
+                    }
+                    if liftable.is_some_and(|l| !l.contains(&v)) {
+                        return Err(Error::InvalidArgument {
+                            reason: format!(
+                                "internal check failed: class {d} has a point but pairs nontrivially (a = {a}, b = {b})"
                             ),
                         });
                     }
@@ -451,23 +630,15 @@ fn run_second_descent(
                     continue 'restart;
                 }
                 Ok(SecondDescentOutcome::NoPoint(evidence)) => {
+                    if liftable.is_some() {
+                        return Err(Error::InvalidArgument {
+                            reason: format!(
+                                "internal check failed: class {d} lies in the liftable subgroup but every 4-covering is insoluble (a = {a}, b = {b})"
+                            ),
+                        });
+                    }
                     runs.push((d.clone(), "proven_not_image".into()));
-                    let obstructions = evidence
-                        .obstructions
-                        .iter()
-                        .map(|o| CoveringObstruction {
-                            covering: o.covering_coefficients(),
-                            place: o.place.clone(),
-                        })
-                        .collect();
-                    proven.push((
-                        v,
-                        ClassStatus::ProvenNotImage {
-                            space: d,
-                            obstructions,
-                            evidence: Box::new(evidence),
-                        },
-                    ));
+                    proven.push((v, not_image(d, evidence)));
                 }
                 Ok(SecondDescentOutcome::Undecided { .. }) => {
                     runs.push((d, "undecided".into()));
@@ -477,31 +648,115 @@ fn run_second_descent(
                 }
             }
         }
-        return Ok(());
+        break;
     }
-}
-
-/// Σ_i bit_i(pattern)·vectors[i], in F2^dim (only the first 64 vectors
-/// can be selected).
-fn combination(dim: usize, vectors: &[BitVec], pattern: u64) -> BitVec {
-    let mut x = BitVec::zeros(dim);
-    for (i, r) in vectors.iter().enumerate().take(64) {
-        if (pattern >> i) & 1 == 1 {
-            x.add_assign(r);
+    // Evidence: a few classes outside the liftable subgroup.
+    let Some(liftable) = liftable else {
+        return Ok(());
+    };
+    let outside = liftable.complement_in(group);
+    for x in outside.into_iter().take(EVIDENCE_CLASSES) {
+        let Some((d, v)) = coset_representatives(qs2, &x, liftable).into_iter().next() else {
+            continue;
+        };
+        if budget.is_exhausted() {
+            runs.push((
+                d,
+                "gave up: second-descent budget of this side spent".into(),
+            ));
+            break;
+        }
+        match second_descent(a, b, &d, &sd_options, &mut budget) {
+            Ok(SecondDescentOutcome::NoPoint(evidence)) => {
+                runs.push((d.clone(), "proven_not_image".into()));
+                proven.push((v, not_image(d, evidence)));
+            }
+            Ok(other) => {
+                return Err(Error::InvalidArgument {
+                    reason: format!(
+                        "internal check failed: class {d} pairs nontrivially but the 4-covering route says {} (a = {a}, b = {b})",
+                        other.word()
+                    ),
+                });
+            }
+            Err(e) => runs.push((d, format!("gave up: {e}"))),
         }
     }
-    x
+    Ok(())
 }
 
-/// Representatives of the coset x + K, smallest |d| first (at most 2^12
-/// are looked at).
+/// The 4-covering route on the soluble twists of a class d in I only:
+/// the pairing data of d, the coset of twists by linear algebra, at most
+/// [`TWISTS_PER_CLASS`] of them searched.
+fn targeted(
+    a: &BigInt,
+    b: &BigInt,
+    d: &BigInt,
+    qs2: &QS2,
+    conditions: &[LocalCondition],
+    sd_options: &SecondDescentOptions,
+    budget: &mut Budget,
+) -> Result<SecondDescentOutcome> {
+    let lift = class_lift(a, b, d, qs2, budget)?;
+    let twists = soluble_twists(&lift, qs2, conditions, TWISTS_PER_CLASS, budget)?;
+    if twists.is_empty() {
+        return Err(Error::InvalidArgument {
+            reason: format!(
+                "internal check failed: class {d} lies in the liftable subgroup but has no soluble twist (a = {a}, b = {b})"
+            ),
+        });
+    }
+    second_descent_on_twists(a, b, d, &lift.conic_point, &twists, sd_options, budget)
+}
+
+fn not_image(d: BigInt, evidence: NoPointEvidence) -> ClassStatus {
+    let obstructions = evidence
+        .obstructions
+        .iter()
+        .map(|o| CoveringObstruction {
+            covering: o.covering_coefficients(),
+            place: o.place.clone(),
+        })
+        .collect();
+    ClassStatus::ProvenNotImage {
+        space: d,
+        obstructions,
+        evidence: Box::new(evidence),
+    }
+}
+
+/// Representatives of the coset x + K, smallest |d| first: x is first
+/// moved greedily (add a basis vector of K while that lowers |d|; each
+/// step lowers |d|, at most 4·dim K + 4 passes), then the result y, the
+/// y + k and the y + k + k' (k, k' basis vectors of K) are sorted — at most
+/// 1 + m + m(m−1)/2 classes for m = dim K, never 2^m.
 fn coset_representatives(qs2: &QS2, x: &BitVec, known: &Subspace) -> Vec<(BigInt, BitVec)> {
-    let mut reps = Vec::new();
     let basis = known.basis();
-    let k = basis.len().min(12);
-    for pattern in 0u64..(1u64 << k) {
-        let v = x.add(&combination(x.len(), basis, pattern));
-        reps.push((qs2.integer(&v), v));
+    let mut y = x.clone();
+    let mut dy = qs2.integer(&y).abs();
+    for _ in 0..(4 * basis.len() + 4) {
+        let mut improved = false;
+        for k in basis {
+            let z = y.add(k);
+            let dz = qs2.integer(&z).abs();
+            if dz < dy {
+                y = z;
+                dy = dz;
+                improved = true;
+            }
+        }
+        if !improved {
+            break;
+        }
+    }
+    let mut reps = vec![(qs2.integer(&y), y.clone())];
+    for (i, k) in basis.iter().enumerate() {
+        let v = y.add(k);
+        reps.push((qs2.integer(&v), v.clone()));
+        for k2 in &basis[i + 1..] {
+            let w = v.add(k2);
+            reps.push((qs2.integer(&w), w));
+        }
     }
     reps.sort_by(|p, q| p.0.abs().cmp(&q.0.abs()).then(p.0.cmp(&q.0)));
     reps

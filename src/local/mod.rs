@@ -27,7 +27,7 @@ pub(crate) mod valuation;
 
 pub use hilbert::{hilbert_symbol, hilbert_symbol_int};
 pub use place::{Place, Prime};
-pub use sqrt::{sqrt_mod_prime, sqrt_mod_prime_power};
+pub use sqrt::{mod_inverse_with_budget, sqrt_mod_prime, sqrt_mod_prime_power};
 pub use square_class::{
     class_dimension, class_representatives, is_square_in, square_class, square_class_int,
 };

@@ -360,8 +360,24 @@ fn resultant2(f: &Form2, g: &Form2) -> BigInt {
     &x * &x - (a1 * b2 - a2 * b1) * (b1 * c2 - b2 * c1)
 }
 
-/// The quartic `g(α m + β n, γ m + δ n)`.
-fn transform4(g: &[BigInt; 5], t: &[[BigInt; 2]; 2]) -> [BigInt; 5] {
+/// Machine words of the largest entry of `xs` (at least 1).
+fn words<'a>(xs: impl IntoIterator<Item = &'a BigInt>) -> u64 {
+    xs.into_iter().map(|x| x.bits() / 64 + 1).max().unwrap_or(1)
+}
+
+/// The quartic `g(α m + β n, γ m + δ n)`, charged by operand size: about
+/// 50 products of a coefficient-sized by a substitution-sized number, so
+/// `50 · words(g) · words(t)` units (schoolbook cost, common practice).
+fn transform4(g: &[BigInt; 5], t: &[[BigInt; 2]; 2], budget: &mut Budget) -> Result<[BigInt; 5]> {
+    let wt = words(t.iter().flatten());
+    let units = 50u64
+        .saturating_mul(words(g.iter()).saturating_add(4 * wt))
+        .saturating_mul(wt);
+    spend(budget, units, "transforming a 4-covering")?;
+    Ok(transform4_raw(g, t))
+}
+
+fn transform4_raw(g: &[BigInt; 5], t: &[[BigInt; 2]; 2]) -> [BigInt; 5] {
     let l1 = [t[0][0].clone(), t[0][1].clone()];
     let l2 = [t[1][0].clone(), t[1][1].clone()];
     let mut out: [BigInt; 5] = Default::default();
@@ -395,8 +411,15 @@ fn identity2() -> [[BigInt; 2]; 2] {
     ]
 }
 
-fn size4(g: &[BigInt; 5]) -> BigInt {
-    g.iter().map(|c| c * c).sum()
+/// The sum of squared coefficients, charged `5 · words(g)²` units.
+fn size4(g: &[BigInt; 5], budget: &mut Budget) -> Result<BigInt> {
+    let w = words(g.iter());
+    spend(
+        budget,
+        5u64.saturating_mul(w).saturating_mul(w),
+        "reducing a 4-covering",
+    )?;
+    Ok(g.iter().map(|c| c * c).sum())
 }
 
 /// Greedy reduction of a binary quartic by the substitutions
@@ -404,12 +427,13 @@ fn size4(g: &[BigInt; 5]) -> BigInt {
 /// `m ↔ n`, each accepted only if it lowers the sum of squared
 /// coefficients (common practice; any unimodular substitution keeps the
 /// rational points in bijection). Returns the new quartic and the frame.
+/// Every transform and size is charged by operand size (at most 200 rounds
+/// of at most 9 candidate moves).
 fn reduce_quartic(g: &[BigInt; 5], budget: &mut Budget) -> Result<([BigInt; 5], [[BigInt; 2]; 2])> {
     let mut cur = g.clone();
     let mut frame = identity2();
-    let mut best = size4(&cur);
+    let mut best = size4(&cur, budget)?;
     for _ in 0..200 {
-        spend(budget, 10, "reducing a 4-covering")?;
         let mut moves: Vec<[[BigInt; 2]; 2]> = Vec::new();
         let z = BigInt::zero;
         let o = BigInt::one;
@@ -434,8 +458,8 @@ fn reduce_quartic(g: &[BigInt; 5], budget: &mut Budget) -> Result<([BigInt; 5], 
         }
         let mut improved = false;
         for t in moves {
-            let cand = transform4(&cur, &t);
-            let s = size4(&cand);
+            let cand = transform4(&cur, &t, budget)?;
+            let s = size4(&cand, budget)?;
             if s < best {
                 best = s;
                 cur = cand;
@@ -643,6 +667,8 @@ fn check_input(a: &BigInt, b: &BigInt, d: &BigInt) -> Result<BigInt> {
 /// Everything [`second_descent`] builds before looking at the twists.
 struct Setup {
     delta: BigInt,
+    /// The base point of the parametrisation of `(Q)`.
+    base: [BigInt; 3],
     forms: [[BigInt; 3]; 3],
     f: Form2,
     g: Form2,
@@ -651,12 +677,15 @@ struct Setup {
     known: BTreeSet<BigInt>,
 }
 
+/// `max = 0`: build no twist list (the caller names its twists);
+/// `given`: the point of `(Q)` to parametrise from (checked), if any.
 fn setup(
     a: &BigInt,
     b: &BigInt,
     d: &BigInt,
     check_local: bool,
     max: usize,
+    given: Option<&[BigInt; 3]>,
     budget: &mut Budget,
 ) -> Result<Setup> {
     let delta = check_input(a, b, d)?;
@@ -677,12 +706,30 @@ fn setup(
             }
         }
     }
-    let ps: Vec<BigInt> = known.iter().cloned().collect();
-    let sol = solve_diagonal_with_primes(&BigInt::one(), &(-d), &(-&delta), &ps, budget)?;
-    let Some(pt) = sol.point().cloned() else {
-        return Err(Error::InvalidArgument {
-            reason: format!("C_d for d = {d} is not locally soluble everywhere (its conic X² − dY² = (a² − 4b)Z² is insoluble)"),
-        });
+    if let Some([x, y, z]) = given {
+        if x * x - d * y * y != &delta * z * z || (x.is_zero() && y.is_zero() && z.is_zero()) {
+            return Err(Error::InvalidArgument {
+                reason: format!(
+                    "({x}, {y}, {z}) is not a point of X² − dY² = (a² − 4b)Z² for d = {d}"
+                ),
+            });
+        }
+    }
+    let pt = match given
+        .cloned()
+        .or_else(|| crate::selmer::pairing::obvious_conic_point(d, &delta))
+    {
+        Some(pt) => pt,
+        None => {
+            let ps: Vec<BigInt> = known.iter().cloned().collect();
+            let sol = solve_diagonal_with_primes(&BigInt::one(), &(-d), &(-&delta), &ps, budget)?;
+            let Some(pt) = sol.point().cloned() else {
+                return Err(Error::InvalidArgument {
+                    reason: format!("C_d for d = {d} is not locally soluble everywhere (its conic X² − dY² = (a² − 4b)Z² is insoluble)"),
+                });
+            };
+            pt
+        }
     };
     let par = parametrise_diagonal(&BigInt::one(), &(-d), &(-&delta), &pt)?;
     let forms = par.forms;
@@ -698,12 +745,28 @@ fn setup(
     let mut lam_primes = BTreeSet::new();
     lam_primes.insert(BigInt::from(2));
     add_primes(d, budget, &mut lam_primes)?;
+    // The twist list only grows with the primes of the resultant: refuse
+    // before factoring it when the primes of 2d alone exceed the limit.
+    let k = lam_primes.len();
+    if max > 0 && (k + 1 >= 63 || (1usize << (k + 1)) > max) {
+        return Err(Error::BudgetExhausted {
+            stage: format!(
+                "second descent: at least 2^{} twists exceed the limit {max}",
+                k + 1
+            ),
+        });
+    }
     add_primes(&resultant, budget, &mut lam_primes)?;
     let lp: Vec<BigInt> = lam_primes.iter().cloned().collect();
-    let lambdas = twists(&lp, max)?;
+    let lambdas = if max > 0 {
+        twists(&lp, max)?
+    } else {
+        Vec::new()
+    };
     known.extend(lam_primes);
     Ok(Setup {
         delta,
+        base: pt,
         forms,
         f,
         g,
@@ -920,7 +983,7 @@ pub fn second_descent(
     options: &SecondDescentOptions,
     budget: &mut Budget,
 ) -> Result<SecondDescentOutcome> {
-    let s = setup(a, b, d, true, options.max_twists, budget)?;
+    let s = setup(a, b, d, true, options.max_twists, None, budget)?;
     let f_ps = conic_primes(&s.f, budget)?;
     let g_ps = conic_primes(&s.g, budget)?;
     let mut obstructions = Vec::new();
@@ -974,6 +1037,140 @@ pub fn second_descent(
             covering: coeffs,
             search: outcome,
         });
+    }
+    Ok(SecondDescentOutcome::Undecided {
+        survivors,
+        obstructions,
+    })
+}
+
+/// The second descent on the class `d` restricted to chosen twists: for
+/// each square-free `λ_h` in the normalisation of
+/// [`crate::selmer::pairing`] (the class of the tangent form `h` at a
+/// point of `C_d`), the twist of Lemma Λ is `λ = κ·λ_h` with `κ` the square
+/// class of the binary form `X₀q₁ − dY₀q₂ − ΔZ₀q₃` (the tangent form at the
+/// base point `(X₀, Y₀, Z₀)` = `conic_point` of the parametrisation, a
+/// constant times a square: docs/second_descent.md §9). `conic_point` must
+/// be the point the classes `λ_h` were computed with
+/// ([`crate::selmer::pairing::ClassLift::conic_point`]). The twists that lift `d` to
+/// everywhere locally soluble 2-coverings are a coset computed by linear
+/// algebra ([`crate::selmer::pairing::soluble_twists`]), so the caller hands
+/// in a few of them instead of all `2^(k+1)`.
+///
+/// **Answer.** [`SecondDescentOutcome::Point`] or
+/// [`SecondDescentOutcome::Undecided`] (never `NoPoint`: not every twist is
+/// examined).
+///
+/// **Errors.** As [`second_descent`]; [`Error::InvalidArgument`] with
+/// "internal check failed" if a named twist turns out locally insoluble
+/// (it contradicts the pairing).
+pub fn second_descent_on_twists(
+    a: &BigInt,
+    b: &BigInt,
+    d: &BigInt,
+    conic_point: &[BigInt; 3],
+    lambda_h: &[BigInt],
+    options: &SecondDescentOptions,
+    budget: &mut Budget,
+) -> Result<SecondDescentOutcome> {
+    let s = setup(a, b, d, false, 0, Some(conic_point), budget)?;
+    let [x0, y0, z0] = &s.base;
+    let phi: Form2 = [0, 1, 2]
+        .map(|i| x0 * &s.forms[0][i] - d * y0 * &s.forms[1][i] - &s.delta * z0 * &s.forms[2][i]);
+    if &phi[1] * &phi[1] != BigInt::from(4) * &phi[0] * &phi[2] {
+        return Err(Error::InvalidArgument {
+            reason: format!(
+                "internal check failed: the tangent form of C_{d} is not a constant times a square"
+            ),
+        });
+    }
+    let kappa = if phi[0].is_zero() {
+        phi[2].clone()
+    } else {
+        phi[0].clone()
+    };
+    if kappa.is_zero() {
+        return Err(Error::InvalidArgument {
+            reason: format!("internal check failed: the tangent form of C_{d} vanishes"),
+        });
+    }
+    let f_ps = conic_primes(&s.f, budget)?;
+    let g_ps = conic_primes(&s.g, budget)?;
+    let mut obstructions = Vec::new();
+    let mut survivors = Vec::new();
+    for lh in lambda_h {
+        let raw = &kappa * lh;
+        // square-free part over the known primes; the rest must be a square
+        let mut lambda = if raw.is_negative() {
+            -BigInt::one()
+        } else {
+            BigInt::one()
+        };
+        let mut rest = raw.abs();
+        for p in &s.known {
+            let mut parity = false;
+            while !rest.is_zero() && rest.is_multiple_of(p) {
+                rest /= p;
+                parity = !parity;
+            }
+            if parity {
+                lambda *= p;
+            }
+        }
+        if !is_perfect_square(&rest) {
+            return Err(Error::InvalidArgument {
+                reason: format!(
+                    "internal check failed: twist {raw} of C_{d} has a prime outside 2·d·Res(F, G)"
+                ),
+            });
+        }
+        match examine_twist(&lambda, d, &s, &f_ps, &g_ps, budget)? {
+            TwistVerdict::Obstructed(o) => {
+                obstructions.push(o);
+                return Err(Error::InvalidArgument {
+                    reason: format!(
+                        "internal check failed: twist {lambda} of C_{d} is locally insoluble, against the pairing"
+                    ),
+                });
+            }
+            TwistVerdict::Soluble {
+                coeffs,
+                par,
+                k,
+                frame,
+            } => {
+                let mut sub = Budget::with_units(options.search_units);
+                let outcome = search(
+                    &coeffs,
+                    &SearchOptions::up_to(options.search_height),
+                    &mut sub,
+                )?;
+                spend(
+                    budget,
+                    sub.spent().min(options.search_units),
+                    "second descent: covering searches",
+                )?;
+                if let SearchOutcome::Found(cp) = &outcome {
+                    if let Some((space_point, x, y)) =
+                        map_back(a, b, d, &s, &lambda, &par, &k, &frame, cp)?
+                    {
+                        return Ok(SecondDescentOutcome::Point {
+                            space_point,
+                            point_x: x,
+                            point_y: y,
+                            lambda,
+                            covering: coeffs,
+                            covering_point: cp.clone(),
+                        });
+                    }
+                }
+                survivors.push(SurvivingCovering {
+                    lambda,
+                    covering: coeffs,
+                    search: outcome,
+                });
+            }
+        }
     }
     Ok(SecondDescentOutcome::Undecided {
         survivors,
@@ -1192,7 +1389,7 @@ fn check_one(
             if raw.iter().any(|x| !x.is_multiple_of(&k2)) {
                 return Ok(false);
             }
-            let expect = transform4(&raw.map(|x| x / &k2), frame);
+            let expect = transform4(&raw.map(|x| x / &k2), frame, budget)?;
             if &expect != coeffs {
                 return Ok(false);
             }

@@ -8,6 +8,8 @@
 
 use std::fmt;
 
+use crate::budget::{Budget, Exhausted};
+
 /// A vector in F2^n, bit-packed.
 #[derive(Clone, PartialEq, Eq, Hash, PartialOrd, Ord)]
 pub struct BitVec {
@@ -248,6 +250,33 @@ impl Subspace {
         self.reduce(v).is_zero()
     }
 
+    /// Work units of one [`Subspace::reduce`]: one per machine word of
+    /// every basis vector touched (the operand size), at least one.
+    pub fn reduce_cost(&self) -> u64 {
+        let words = self.ambient.div_ceil(64).max(1) as u64;
+        (self.basis.len() as u64 + 1).saturating_mul(words)
+    }
+
+    /// [`Subspace::reduce`], charging [`Subspace::reduce_cost`] units to
+    /// `budget` first (and checking its deadline).
+    ///
+    /// # Errors
+    /// [`Exhausted`] when the budget runs out; nothing is computed then.
+    pub fn try_reduce(&self, v: &BitVec, budget: &mut Budget) -> Result<BitVec, Exhausted> {
+        budget.spend(self.reduce_cost())?;
+        Ok(self.reduce(v))
+    }
+
+    /// [`Subspace::insert`], charging twice [`Subspace::reduce_cost`] units
+    /// (the reduction and the back-substitution) first.
+    ///
+    /// # Errors
+    /// [`Exhausted`] when the budget runs out; the subspace is unchanged.
+    pub fn try_insert(&mut self, v: BitVec, budget: &mut Budget) -> Result<bool, Exhausted> {
+        budget.spend(self.reduce_cost().saturating_mul(2))?;
+        Ok(self.insert(v))
+    }
+
     /// Adds v to the spanning set; returns true iff the dimension grew.
     pub fn insert(&mut self, v: BitVec) -> bool {
         let r = self.reduce(&v);
@@ -436,6 +465,33 @@ mod tests {
         let t = Subspace::span(5, [a.clone(), b.clone(), a.add(&b)]);
         assert_eq!(t.dim(), 2);
         assert!(t.contains(&a.add(&b)));
+    }
+
+    #[test]
+    fn budgeted_insertion_charges_by_size_and_stops_when_spent() {
+        let mut s = Subspace::zero(130);
+        let mut b = Budget::with_units(100);
+        // 130 coordinates = 3 words; an empty subspace costs 2·1·3 = 6.
+        assert_eq!(
+            s.try_insert(BitVec::unit(130, 5).unwrap(), &mut b),
+            Ok(true)
+        );
+        assert_eq!(b.spent(), 6);
+        assert_eq!(
+            s.try_reduce(&BitVec::unit(130, 5).unwrap(), &mut b)
+                .map(|r| r.is_zero()),
+            Ok(true)
+        );
+        let mut tiny = Budget::with_units(1);
+        assert_eq!(
+            s.try_insert(BitVec::unit(130, 7).unwrap(), &mut tiny),
+            Err(Exhausted)
+        );
+        assert_eq!(
+            s.dim(),
+            1,
+            "a refused insertion leaves the subspace unchanged"
+        );
     }
 
     #[test]

@@ -1,0 +1,99 @@
+//! Runs the descent with default options on curves read from stdin, one
+//! per line as five integers `a1 a2 a3 a4 a6`, and prints one line per
+//! curve: the rank bounds, the 2-Selmer rank and the wall time. The
+//! measurement behind the stress table in docs/performance.md (run each
+//! line under `/usr/bin/time -v` for the peak memory).
+//!
+//! ```text
+//! echo "0 -1 0 -497668710 0" | cargo run --release --example stress_curve
+//! ```
+
+use std::io::{self, BufRead};
+use std::process::ExitCode;
+use std::str::FromStr;
+use std::time::Instant;
+
+use isodescent::curve::Curve;
+use isodescent::descent::{descend, DescentOptions};
+use num_bigint::BigInt;
+
+fn main() -> ExitCode {
+    let stdin = io::stdin();
+    let mut status = ExitCode::SUCCESS;
+    for line in stdin.lock().lines() {
+        let Ok(line) = line else {
+            return ExitCode::from(2);
+        };
+        let t = line.trim();
+        if t.is_empty() || t.starts_with('#') {
+            continue;
+        }
+        let parsed: Option<Vec<BigInt>> = t
+            .split_whitespace()
+            .map(|w| BigInt::from_str(w).ok())
+            .collect();
+        let Some(c) = parsed.filter(|v| v.len() == 5) else {
+            println!("bad line: {t}");
+            status = ExitCode::from(1);
+            continue;
+        };
+        let coeffs = [
+            c[0].clone(),
+            c[1].clone(),
+            c[2].clone(),
+            c[3].clone(),
+            c[4].clone(),
+        ];
+        let curve = match Curve::from_bigints(coeffs) {
+            Ok(curve) => curve,
+            Err(e) => {
+                println!("error: {e}");
+                continue;
+            }
+        };
+        let start = Instant::now();
+        let mut options = DescentOptions::default();
+        if std::env::var_os("STRESS_NO_SECOND").is_some() {
+            options = options.with_second_descent(false);
+        }
+        if std::env::var_os("STRESS_NO_SEARCH").is_some() {
+            options.max_classes_searched = 0;
+        }
+        let out = descend(&curve, &options);
+        let ms = start.elapsed().as_secs_f64() * 1e3;
+        match out {
+            Ok(r) => {
+                if std::env::var_os("STRESS_DETAIL").is_some() {
+                    for d in r.isogenies() {
+                        for side in [&d.domain, &d.codomain] {
+                            println!(
+                                "  side b={}: dim Sel {}, dim I {:?}, dim K {}, searches {}, 4-covering runs {:?}, pairing error {:?}",
+                                side.b,
+                                side.dimension(),
+                                side.liftable_dim(),
+                                side.image_lower(),
+                                side.searches.len(),
+                                side.second_descent_runs,
+                                side.pairing_error
+                            );
+                        }
+                    }
+                }
+                let sel: Vec<String> = r
+                    .isogenies()
+                    .iter()
+                    .map(|d| d.selmer2_rank().map_or("?".to_string(), |r| r.to_string()))
+                    .collect();
+                println!(
+                    "bounds {}..{} selmer2 {} time_ms {:.1}",
+                    r.rank_lower(),
+                    r.rank_upper(),
+                    sel.join("/"),
+                    ms
+                );
+            }
+            Err(e) => println!("error: {e} time_ms {ms:.1}"),
+        }
+    }
+    status
+}
