@@ -434,7 +434,9 @@ fn k_prime_curves_answer_with_consistent_two_selmer_data() {
         }
         eprintln!(
             "k = {k}: bounds {}..{}, Sel² dimension {}",
-            r.rank_lower(), r.rank_upper(), ranks[0]
+            r.rank_lower(),
+            r.rank_upper(),
+            ranks[0]
         );
     }
 }

@@ -61,6 +61,7 @@ pub struct DescentReport {
     pub(crate) bounds: RankBounds,
     pub(crate) points: Vec<Point>,
     pub(crate) completion: Completion,
+    pub(crate) selmer2_rank: Option<usize>,
 }
 
 impl DescentReport {
@@ -96,7 +97,9 @@ impl DescentReport {
             .and_then(|i| isogenies.get(i))
             .map(|d| d.points.clone())
             .unwrap_or_default();
+        let selmer2_rank = super::selmer2_rank(&isogenies);
         DescentReport {
+            selmer2_rank,
             curve,
             torsion,
             local_data,
@@ -160,6 +163,13 @@ impl DescentReport {
     /// True when the bounds meet.
     pub fn is_decided(&self) -> bool {
         self.bounds.is_decided()
+    }
+
+    /// dim_F2 Sel²(E/Q), torsion included (so at least dim E(Q)[2]), from
+    /// the exact sequence of the 2-isogeny descent and the lifting pairing;
+    /// `None` when a budget stopped the pairing.
+    pub fn selmer2_rank(&self) -> Option<usize> {
+        self.selmer2_rank
     }
 
     /// Whether every step ran, or which one stopped.

@@ -156,6 +156,7 @@ struct LineView<'a> {
     points: Vec<PointView>,
     torsion_order: Option<u32>,
     torsion: Option<TorsionView>,
+    selmer2_rank: Option<usize>,
     conductor: Option<String>,
     minimal_model: Option<String>,
     reduction: BTreeMap<String, ReductionView>,
@@ -315,6 +316,7 @@ fn report_view<'a>(input: &'a str, r: &DescentReport, detail: Detail) -> LineVie
             cyclic_factors,
             generators: points_view(t.generators()),
         }),
+        selmer2_rank: r.selmer2_rank(),
         conductor: Some(ld.conductor.to_string()),
         minimal_model: Some(equation_text(
             &ld.minimal_model
@@ -384,6 +386,7 @@ pub fn error_line(input: &str, message: &str) -> String {
         points: Vec::new(),
         torsion_order: None,
         torsion: None,
+        selmer2_rank: None,
         conductor: None,
         minimal_model: None,
         reduction: BTreeMap::new(),

@@ -346,8 +346,23 @@ pub(crate) fn write_report(
             if n == 1 { "" } else { "s" }
         )
     };
-    let upper_proof = match r.deciding_isogeny() {
-        Some(i) => format!("the Selmer groups of isogeny {}", i + 1),
+    let upper_proof = match r
+        .deciding_isogeny()
+        .and_then(|i| r.isogenies().get(i).map(|d| (i, d)))
+    {
+        Some((i, d)) => {
+            let second = d.domain.image_upper < d.domain.dimension()
+                || d.codomain.image_upper < d.codomain.dimension();
+            format!(
+                "the Selmer groups of isogeny {}{}",
+                i + 1,
+                if second {
+                    " and the second descent"
+                } else {
+                    ""
+                }
+            )
+        }
         None => "the Selmer groups".to_string(),
     };
     let head = if b.is_decided() {
@@ -384,6 +399,14 @@ pub(crate) fn write_report(
             gens.join(", ")
         }
     )?;
+    if let Some(s2) = r.selmer2_rank() {
+        let t2 = if n2 <= 1 { 1 } else { 2 };
+        writeln!(
+            f,
+            "2-Selmer group: dim Sel^2(E/Q) = {s2} (E(Q)[2] contributes {t2}, so rank ≤ {})",
+            s2.saturating_sub(t2)
+        )?;
+    }
     if let Completion::Partial { step, reason } = r.completion() {
         writeln!(
             f,
