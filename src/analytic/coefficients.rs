@@ -31,7 +31,7 @@ use crate::error::{Error, Result};
 use crate::local::legendre_u64;
 
 /// Primes below this are counted directly.
-const DIRECT_COUNT_BELOW: u64 = 1000;
+const DIRECT_COUNT_BELOW: u64 = 230;
 
 /// Points tried by baby-step giant-step before falling back to a count.
 const POINTS_TRIED: u64 = 40;
@@ -103,7 +103,8 @@ impl ApTable {
         // [Sil09, III.1].
         let a = mulmod(p - residue(&(&self.c4 * 27), p), 1, p);
         let b = mulmod(p - residue(&(&self.c6 * 54), p), 1, p);
-        bsgs(a % p, b % p, p).unwrap_or_else(|| direct(bm, p))
+        let fast = if p < (1 << 31) { super::bsgs::ap_fast(a % p, b % p, p, POINTS_TRIED) } else { None };
+        fast.or_else(|| bsgs(a % p, b % p, p)).unwrap_or_else(|| direct(bm, p))
     }
 
     /// True when a bad prime does not fit a machine word (then the series
@@ -460,6 +461,8 @@ mod tests {
             let aa = p - (27 * c4) % p;
             let b = bsgs(aa, 0, p).unwrap_or(i64::MAX);
             assert_eq!(b, d, "p = {p}, a4 = {a}");
+            let f = crate::analytic::bsgs::ap_fast(aa, 0, p, 40).unwrap_or(i64::MAX);
+            assert_eq!(f, d, "p = {p}");
         }
     }
 }

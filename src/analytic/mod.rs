@@ -37,6 +37,7 @@
 //! The default options skip curves with conductor above
 //! [`DEFAULT_CONDUCTOR_LIMIT`]; see `docs/analytic.md`.
 
+mod bsgs;
 pub mod certified;
 pub mod coefficients;
 pub mod ledger;
@@ -68,11 +69,13 @@ pub const DEFAULT_MAX_TERMS: u64 = 4_000_000;
 /// Target for the truncation error of `L^{(r)}(E,1)`, `r ≤ 1`.
 const TRUNCATION_TARGET: f64 = 1e-13;
 
-/// The values of `t` tried in the functional-equation test.
-const THETA_POINTS: [f64; 3] = [1.1, 1.2, 1.3];
+/// The values of `t` tried in the functional-equation test (the number
+/// of terms is chosen for the first; later ones carry larger bounds).
+const THETA_POINTS: [f64; 3] = [1.1, 1.05, 1.2];
+
 
 /// The splitting parameter of the consistency check of `Λ(1)`.
-const SPLIT: f64 = 1.2;
+const SPLIT: f64 = 1.1;
 
 /// Options of [`analyse`].
 #[derive(Debug, Clone, PartialEq)]
@@ -85,6 +88,11 @@ pub struct AnalyticOptions {
     /// memory is about 12 bytes per term). With too few terms the error
     /// bounds grow and fewer values are certified; nothing is guessed.
     pub max_terms: u64,
+    /// The truncation error aimed at for `L(E,1)` and `L'(E,1)` (default
+    /// 10⁻¹³); the functional-equation test aims at 10⁴ times this. Only
+    /// the number of terms depends on it: every value still carries its
+    /// proven bound.
+    pub tolerance: f64,
 }
 
 impl Default for AnalyticOptions {
@@ -92,6 +100,7 @@ impl Default for AnalyticOptions {
         AnalyticOptions {
             conductor_limit: DEFAULT_CONDUCTOR_LIMIT,
             max_terms: DEFAULT_MAX_TERMS,
+            tolerance: TRUNCATION_TARGET,
         }
     }
 }
@@ -100,6 +109,13 @@ impl AnalyticOptions {
     /// The options with another conductor limit.
     pub fn with_conductor_limit(mut self, limit: u64) -> Self {
         self.conductor_limit = limit;
+        self
+    }
+
+    /// The options with another truncation target (see
+    /// [`AnalyticOptions::tolerance`]).
+    pub fn with_tolerance(mut self, tolerance: f64) -> Self {
+        self.tolerance = tolerance;
         self
     }
 
@@ -351,16 +367,22 @@ fn root_number_by_theta(s: &Series<'_>, budget: &mut Budget) -> Result<Option<i8
 ///
 /// # Errors
 /// [`crate::Error::BudgetExhausted`] when the budget runs out;
-/// [`crate::Error::InvalidArgument`] for an option of 0 terms.
+/// [`crate::Error::InvalidArgument`] for options out of range (0 or more
+/// than 2³² terms, a tolerance outside (0, 1)).
 pub fn analyse(
     curve: &Curve,
     local: &GlobalLocalData,
     options: &AnalyticOptions,
     budget: &mut Budget,
 ) -> Result<AnalyticData> {
-    if options.max_terms == 0 {
+    if options.max_terms == 0 || options.max_terms > u64::from(u32::MAX) {
         return Err(crate::Error::InvalidArgument {
-            reason: "max_terms must be positive".into(),
+            reason: format!("max_terms must lie in 1..2^32, got {}", options.max_terms),
+        });
+    }
+    if !(options.tolerance > 0.0 && options.tolerance < 1.0) {
+        return Err(crate::Error::InvalidArgument {
+            reason: format!("tolerance must lie in (0, 1), got {}", options.tolerance),
         });
     }
     let by_formula = root_number_by_formula(local);
@@ -389,18 +411,19 @@ pub fn analyse(
     // largest t tried and for the split check.
     let probe = Series::new(&[0, 1], n)?;
     let c = probe.step();
-    let m_l = series::terms_needed(&c, 1, TRUNCATION_TARGET);
-    let tmax = THETA_POINTS[THETA_POINTS.len() - 1].max(SPLIT);
+    let m_l = series::terms_needed(&c, 0, options.tolerance).max(series::terms_needed(&c, 1, options.tolerance));
+    let tmax = THETA_POINTS[0].max(SPLIT);
     let m_t = smallest_terms(
         |m| {
             let q = c.scale(1.0 / tmax).neg().exp();
             let qm = c.scale((m + 1) as f64 / tmax).neg().exp();
             let one_q = Certified::exact(1.0).minus(&q);
-            qm.scale(2.0 * (m + 1) as f64)
+            qm.scale(2.0)
+                .mul(&one_q.scale((m + 1) as f64).add(&q))
                 .div(&one_q.mul(&one_q))
                 .upper()
         },
-        1e-12,
+        options.tolerance * 1e4,
     );
     let m = m_l.max(m_t).min(options.max_terms);
     let an = an_list(local, m, budget)?;

@@ -121,14 +121,15 @@ impl<'a> Series<'a> {
     }
 
     /// `F(t) = Σ a_n e^{−nct}` with the truncation bound
-    /// `2(M+1)q^{M+1}/(1 − q)²`.
+    /// `Σ_{n>M} 2n·q^n`, `q = e^{−ct}`.
     pub fn theta(&self, t: f64, budget: &mut Budget) -> Result<Certified> {
         let s = self.power_sum(t, |_| 1.0, budget)?;
         let m = self.terms() as f64;
         let q = self.c.scale(t).neg().exp();
         let qm = self.c.scale(t * (m + 1.0)).neg().exp();
         let one_q = Certified::exact(1.0).minus(&q);
-        let tail = qm.scale(2.0 * (m + 1.0)).div(&one_q.mul(&one_q));
+        // Σ_{n>M} n q^n = q^{M+1}((M+1)(1 − q) + q)/(1 − q)².
+        let tail = qm.scale(2.0).mul(&one_q.scale(m + 1.0).add(&q)).div(&one_q.mul(&one_q));
         Ok(widen(s, tail.upper()))
     }
 
