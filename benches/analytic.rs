@@ -30,7 +30,9 @@ fn primes(n: usize) -> Vec<u64> {
 fn bench_ap(c: &mut Criterion) {
     // 37a1: y² + y = x³ − x.
     let e = Curve::from_ints([0, 0, 1, -1, 0]).unwrap_or_else(|_| unreachable!());
-    let local = e.local_data(&mut Budget::unlimited()).unwrap_or_else(|_| unreachable!());
+    let local = e
+        .local_data(&mut Budget::unlimited())
+        .unwrap_or_else(|_| unreachable!());
     let table = ApTable::new(&local);
     let ps = primes(1_000_000);
     let mut g = c.benchmark_group("analytic");
@@ -60,15 +62,28 @@ fn bench_analyse(c: &mut Criterion) {
     g.sample_size(10);
     for (name, a) in curves {
         let e = Curve::from_ints(a).unwrap_or_else(|_| unreachable!());
-        let local = e.local_data(&mut Budget::unlimited()).unwrap_or_else(|_| unreachable!());
+        let local = e
+            .local_data(&mut Budget::unlimited())
+            .unwrap_or_else(|_| unreachable!());
         let tors = torsion_subgroup(&e).order();
-        let cp: BigInt = local.primes.iter().map(|l| BigInt::from(l.tamagawa)).product();
+        let cp: BigInt = local
+            .primes
+            .iter()
+            .map(|l| BigInt::from(l.tamagawa))
+            .product();
         println!("{name}: conductor {}", local.conductor);
         g.bench_function(format!("analyse + ledger, {name}"), |b| {
             b.iter(|| {
-                let d = analyse(&e, &local, &AnalyticOptions::default(), &mut Budget::unlimited())
-                    .unwrap_or_else(|_| unreachable!());
-                let l = d.analytic_rank().and_then(|r| sha_analytic(&d, r, tors, &cp, None));
+                let d = analyse(
+                    &e,
+                    &local,
+                    &AnalyticOptions::default(),
+                    &mut Budget::unlimited(),
+                )
+                .unwrap_or_else(|_| unreachable!());
+                let l = d
+                    .analytic_rank()
+                    .and_then(|r| sha_analytic(&d, r, tors, &cp, None));
                 black_box((d, l))
             })
         });

@@ -31,7 +31,11 @@ impl Mont {
             inv = inv.wrapping_mul(2u32.wrapping_sub((p as u32).wrapping_mul(inv)));
         }
         let r = (1u64 << 32) % p;
-        Mont { p, pinv: inv.wrapping_neg(), r2: (r * r) % p }
+        Mont {
+            p,
+            pinv: inv.wrapping_neg(),
+            r2: (r * r) % p,
+        }
     }
 
     #[inline]
@@ -110,7 +114,11 @@ impl Curve {
     fn double(&self, p: Jac) -> Jac {
         let f = &self.f;
         if p.z == 0 || p.y == 0 {
-            return Jac { x: self.one, y: self.one, z: 0 };
+            return Jac {
+                x: self.one,
+                y: self.one,
+                z: 0,
+            };
         }
         let xx = f.mul(p.x, p.x);
         let yy = f.mul(p.y, p.y);
@@ -124,14 +132,22 @@ impl Curve {
         let y8 = f.add(y8, y8);
         let y3 = f.sub(f.mul(m, f.sub(s, x3)), y8);
         let z3 = f.mul(f.add(p.y, p.y), p.z);
-        Jac { x: x3, y: y3, z: z3 }
+        Jac {
+            x: x3,
+            y: y3,
+            z: z3,
+        }
     }
 
     /// `p + (x2, y2)` with the second point affine.
     fn add_affine(&self, p: Jac, x2: u64, y2: u64) -> Jac {
         let f = &self.f;
         if p.z == 0 {
-            return Jac { x: x2, y: y2, z: self.one };
+            return Jac {
+                x: x2,
+                y: y2,
+                z: self.one,
+            };
         }
         let z1z1 = f.mul(p.z, p.z);
         let u2 = f.mul(x2, z1z1);
@@ -139,7 +155,15 @@ impl Curve {
         let h = f.sub(u2, p.x);
         let r = f.sub(s2, p.y);
         if h == 0 {
-            return if r == 0 { self.double(p) } else { Jac { x: self.one, y: self.one, z: 0 } };
+            return if r == 0 {
+                self.double(p)
+            } else {
+                Jac {
+                    x: self.one,
+                    y: self.one,
+                    z: 0,
+                }
+            };
         }
         let hh = f.mul(h, h);
         let hhh = f.mul(h, hh);
@@ -147,11 +171,19 @@ impl Curve {
         let x3 = f.sub(f.sub(f.mul(r, r), hhh), f.add(v, v));
         let y3 = f.sub(f.mul(r, f.sub(v, x3)), f.mul(p.y, hhh));
         let z3 = f.mul(p.z, h);
-        Jac { x: x3, y: y3, z: z3 }
+        Jac {
+            x: x3,
+            y: y3,
+            z: z3,
+        }
     }
 
     fn mul(&self, x: u64, y: u64, k: u64) -> Jac {
-        let mut r = Jac { x: self.one, y: self.one, z: 0 };
+        let mut r = Jac {
+            x: self.one,
+            y: self.one,
+            z: 0,
+        };
         if k == 0 {
             return r;
         }
@@ -286,7 +318,11 @@ pub(crate) fn ap_fast(a: u64, b: u64, p: u64, tries: u64) -> Option<i64> {
         tried += 1;
         let chi = i64::from(legendre_u64(d, p));
         let d2 = d * d % p;
-        let e = Curve { f, a: f.to(a * d2 % p), one: f.to(1) };
+        let e = Curve {
+            f,
+            a: f.to(a * d2 % p),
+            one: f.to(1),
+        };
         let c = candidates(&e, f.to(xx * d % p), f.to(d2), bound);
         let Some(c) = c else { continue };
         let c: Vec<i64> = c.into_iter().map(|v| v * chi).collect();

@@ -103,8 +103,13 @@ impl ApTable {
         // [Sil09, III.1].
         let a = mulmod(p - residue(&(&self.c4 * 27), p), 1, p);
         let b = mulmod(p - residue(&(&self.c6 * 54), p), 1, p);
-        let fast = if p < (1 << 31) { super::bsgs::ap_fast(a % p, b % p, p, POINTS_TRIED) } else { None };
-        fast.or_else(|| bsgs(a % p, b % p, p)).unwrap_or_else(|| direct(bm, p))
+        let fast = if p < (1 << 31) {
+            super::bsgs::ap_fast(a % p, b % p, p, POINTS_TRIED)
+        } else {
+            None
+        };
+        fast.or_else(|| bsgs(a % p, b % p, p))
+            .unwrap_or_else(|| direct(bm, p))
     }
 
     /// True when a bad prime does not fit a machine word (then the series

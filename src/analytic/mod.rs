@@ -73,7 +73,6 @@ const TRUNCATION_TARGET: f64 = 1e-13;
 /// of terms is chosen for the first; later ones carry larger bounds).
 const THETA_POINTS: [f64; 3] = [1.1, 1.05, 1.2];
 
-
 /// The splitting parameter of the consistency check of `Λ(1)`.
 const SPLIT: f64 = 1.1;
 
@@ -411,7 +410,11 @@ pub fn analyse(
     // largest t tried and for the split check.
     let probe = Series::new(&[0, 1], n)?;
     let c = probe.step();
-    let m_l = series::terms_needed(&c, 0, options.tolerance).max(series::terms_needed(&c, 1, options.tolerance));
+    let m_l = series::terms_needed(&c, 0, options.tolerance).max(series::terms_needed(
+        &c,
+        1,
+        options.tolerance,
+    ));
     let tmax = THETA_POINTS[0].max(SPLIT);
     let m_t = smallest_terms(
         |m| {

@@ -129,7 +129,10 @@ impl<'a> Series<'a> {
         let qm = self.c.scale(t * (m + 1.0)).neg().exp();
         let one_q = Certified::exact(1.0).minus(&q);
         // Σ_{n>M} n q^n = q^{M+1}((M+1)(1 − q) + q)/(1 − q)².
-        let tail = qm.scale(2.0).mul(&one_q.scale(m + 1.0).add(&q)).div(&one_q.mul(&one_q));
+        let tail = qm
+            .scale(2.0)
+            .mul(&one_q.scale(m + 1.0).add(&q))
+            .div(&one_q.mul(&one_q));
         Ok(widen(s, tail.upper()))
     }
 
