@@ -293,7 +293,7 @@ fn candidates(e: &Curve, x: u64, y: u64, bound: u64) -> Option<Vec<i64>> {
 /// `5 ≤ p < 2³¹` of good reduction; `None` if undecided after `tries`
 /// points.
 pub(crate) fn ap_fast(a: u64, b: u64, p: u64, tries: u64) -> Option<i64> {
-    debug_assert!(p < (1 << 31) && p >= 5);
+    debug_assert!((5..(1 << 31)).contains(&p));
     let f = Mont::new(p);
     let bound = {
         let mut r = ((4 * p) as f64).sqrt() as u64;
