@@ -36,6 +36,9 @@ const DIRECT_COUNT_BELOW: u64 = 230;
 /// Points tried by baby-step giant-step before falling back to a count.
 const POINTS_TRIED: u64 = 40;
 
+/// Points tried above 2²⁴, where a direct count would be too slow.
+const POINTS_TRIED_LARGE: u64 = 2000;
+
 /// The data needed to compute `a_p` at good primes: the minimal model's
 /// invariants `b2, b4, b6, c4, c6` and the bad primes with their `a_p`.
 #[derive(Debug, Clone)]
@@ -83,13 +86,35 @@ impl ApTable {
         self.bad.iter().find(|&&(q, _)| q == p).map(|&(_, a)| a)
     }
 
-    /// `a_p` for a prime `p` (the caller promises primality).
-    pub fn ap(&self, p: u64) -> i64 {
+    /// `a_p` for a prime `p < 2⁶²`.
+    ///
+    /// # Errors
+    /// [`Error::NotPrime`] when `p` is not prime; [`Error::InvalidArgument`]
+    /// when `p ≥ 2⁶²`; [`Error::BudgetExhausted`] in the (never observed)
+    /// case that baby-step giant-step stays ambiguous for `p ≥ 2²⁴` after
+    /// [`POINTS_TRIED_LARGE`] points.
+    pub fn ap(&self, p: u64) -> Result<i64> {
+        if p >= 1 << 62 {
+            return Err(Error::InvalidArgument {
+                reason: format!("a_p is computed for p < 2^62, got {p}"),
+            });
+        }
+        if !crate::arith::is_prime_u64(p) {
+            return Err(Error::NotPrime { value: p.into() });
+        }
+        self.ap_unchecked(p).ok_or_else(|| Error::BudgetExhausted {
+            stage: format!("a_p at p = {p}"),
+        })
+    }
+
+    /// `a_p` for a prime `p < 2⁶²` (not checked); `None` only in the case
+    /// described at [`ApTable::ap`].
+    pub(crate) fn ap_unchecked(&self, p: u64) -> Option<i64> {
         if let Some(a) = self.bad_ap(p) {
-            return a;
+            return Some(a);
         }
         if p < 5 {
-            return count_small(&self.model, p);
+            return Some(count_small(&self.model, p));
         }
         let bm: [u64; 3] = [
             residue(&self.b[0], p),
@@ -97,19 +122,25 @@ impl ApTable {
             residue(&self.b[2], p),
         ];
         if p < DIRECT_COUNT_BELOW {
-            return direct(bm, p);
+            return Some(direct(bm, p));
         }
         // y² = x³ − 27c4·x − 54c6 is isomorphic to E over F_p, p ≥ 5
         // [Sil09, III.1].
-        let a = mulmod(p - residue(&(&self.c4 * 27), p), 1, p);
-        let b = mulmod(p - residue(&(&self.c6 * 54), p), 1, p);
+        let a = (p - residue(&(&self.c4 * 27), p)) % p;
+        let b = (p - residue(&(&self.c6 * 54), p)) % p;
         let fast = if p < (1 << 31) {
-            super::bsgs::ap_fast(a % p, b % p, p, POINTS_TRIED)
+            super::bsgs::ap_fast(a, b, p, POINTS_TRIED)
         } else {
             None
         };
-        fast.or_else(|| bsgs(a % p, b % p, p))
-            .unwrap_or_else(|| direct(bm, p))
+        if let Some(v) = fast.or_else(|| bsgs(a, b, p, POINTS_TRIED)) {
+            return Some(v);
+        }
+        if p < 1 << 24 {
+            Some(direct(bm, p))
+        } else {
+            bsgs(a, b, p, POINTS_TRIED_LARGE)
+        }
     }
 
     /// True when a bad prime does not fit a machine word (then the series
@@ -314,8 +345,8 @@ fn candidates(f: &Fp, pt: Pt, bound: u64) -> Option<Vec<i64>> {
 
 /// Baby-step giant-step for `a_p` on `y² = x³ + ax + b`, `p ≥ 5` prime and
 /// the curve nonsingular mod `p`. `None` if undecided after
-/// [`POINTS_TRIED`] points.
-fn bsgs(a: u64, b: u64, p: u64) -> Option<i64> {
+/// `tries` points.
+fn bsgs(a: u64, b: u64, p: u64, tries: u64) -> Option<i64> {
     let bound = {
         // floor(2√p) = floor(√(4p)), exact integer square root.
         let mut r = ((4 * p) as f64).sqrt() as u64;
@@ -330,7 +361,7 @@ fn bsgs(a: u64, b: u64, p: u64) -> Option<i64> {
     let mut live: Option<Vec<i64>> = None;
     let mut tried = 0;
     let mut x0 = 0u64;
-    while tried < POINTS_TRIED && x0 < p {
+    while tried < tries && x0 < p {
         let d = addmod(mulmod(addmod(mulmod(x0, x0, p), a, p), x0, p), b, p);
         x0 += 1;
         if d == 0 {
@@ -372,7 +403,7 @@ pub fn ap(local: &GlobalLocalData, p: u64) -> Result<i64> {
     if !crate::arith::is_prime_u64(p) {
         return Err(Error::NotPrime { value: p.into() });
     }
-    Ok(ApTable::new(local).ap(p))
+    ApTable::new(local).ap(p)
 }
 
 /// The coefficients `a_1, …, a_n` of the L-series (index 0 holds 0).
@@ -425,7 +456,11 @@ pub fn an_list(local: &GlobalLocalData, n: u64, budget: &mut Budget) -> Result<V
                 4 * (pu as f64).sqrt().sqrt() as u64 + 40
             };
             spent(budget, cost)?;
-            a[i] = table.ap(pu);
+            a[i] = table
+                .ap_unchecked(pu)
+                .ok_or_else(|| Error::BudgetExhausted {
+                    stage: format!("a_p at p = {pu}"),
+                })?;
             continue;
         }
         // i = p^k · rest with p ∤ rest.
@@ -464,7 +499,7 @@ mod tests {
             let d = direct([0, (2 * (p - 1)) % p, 0], p);
             let c4 = 48 % p; // c4 = 48 for y² = x³ − x
             let aa = p - (27 * c4) % p;
-            let b = bsgs(aa, 0, p).unwrap_or(i64::MAX);
+            let b = bsgs(aa, 0, p, 40).unwrap_or(i64::MAX);
             assert_eq!(b, d, "p = {p}, a4 = {a}");
             let f = crate::analytic::bsgs::ap_fast(aa, 0, p, 40).unwrap_or(i64::MAX);
             assert_eq!(f, d, "p = {p}");

@@ -7,13 +7,15 @@
 //! components), `c_p` the Tamagawa numbers and `Reg` the regulator.
 //!
 //! Regulator normalisation assumed here: `Reg = det(⟨P_i, P_j⟩)` for a
-//! basis `P_i` of `E(Q)` modulo torsion, with `⟨P, Q⟩ = ĥ(P + Q) − ĥ(P) −
-//! ĥ(Q)` and `ĥ(P) = lim_n h(x(2^nP))/4^n`, `h(a/b) = log max(|a|, |b|)`.
-//! This `ĥ` is twice the canonical height of [Sil09, VIII.9] (which uses
-//! `½·h(x)`), and with it `⟨P, P⟩ = 2ĥ(P)`; it is the normalisation in
-//! which the formula above holds as written (for rank 1, `Reg = 2ĥ(P)` in
-//! this convention equals `h_{Sil}(P)`·2… see docs/analytic.md for the
-//! check on a rank-one curve). For rank 0, `Reg = 1`.
+//! basis `P_i` of `E(Q)` modulo torsion, where `⟨P, Q⟩ = ĥ(P + Q) − ĥ(P) −
+//! ĥ(Q)` and `ĥ` is the canonical height of [Sil09, VIII.9],
+//! `ĥ(P) = ½·lim h(x(2^nP))/4^n` with `h(a/b) = log max(|a|, |b|)`. Then
+//! `⟨P, P⟩ = 2ĥ(P) = lim h(x(2^nP))/4^n`: for rank 1 the regulator is the
+//! limit of `h(x(2^nP))/4^n` itself, without the factor ½. This is the
+//! normalisation in which the formula above holds as written; the test
+//! `rank_one_ledgers_are_squares_with_the_stated_regulator_normalisation`
+//! checks it on four rank-one curves, where twice this value gives no
+//! square. For rank 0, `Reg = 1`.
 
 use num_bigint::BigInt;
 use num_traits::ToPrimitive;
