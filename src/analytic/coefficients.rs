@@ -43,9 +43,9 @@ const POINTS_TRIED_LARGE: u64 = 2000;
 /// invariants `b2, b4, b6, c4, c6` and the bad primes with their `a_p`.
 #[derive(Debug, Clone)]
 pub struct ApTable {
-    b: [BigInt; 3],
-    c4: BigInt,
-    c6: BigInt,
+    b: [Int; 3],
+    c4x27: Int,
+    c6x54: Int,
     model: [BigInt; 5],
     bad: Vec<(u64, i64)>,
     huge_bad: bool,
@@ -70,11 +70,11 @@ impl ApTable {
                 None => huge_bad = true,
             }
         }
-        let b = [inv.b2.clone(), inv.b4.clone(), inv.b6.clone()];
+        let b = [Int::new(&inv.b2), Int::new(&inv.b4), Int::new(&inv.b6)];
         ApTable {
             b,
-            c4: inv.c4.clone(),
-            c6: inv.c6.clone(),
+            c4x27: Int::new(&(&inv.c4 * 27)),
+            c6x54: Int::new(&(&inv.c6 * 54)),
             model: local.minimal_model.clone(),
             bad,
             huge_bad,
@@ -116,18 +116,14 @@ impl ApTable {
         if p < 5 {
             return Some(count_small(&self.model, p));
         }
-        let bm: [u64; 3] = [
-            residue(&self.b[0], p),
-            residue(&self.b[1], p),
-            residue(&self.b[2], p),
-        ];
+        let bm: [u64; 3] = [self.b[0].rem(p), self.b[1].rem(p), self.b[2].rem(p)];
         if p < DIRECT_COUNT_BELOW {
             return Some(direct(bm, p));
         }
         // y² = x³ − 27c4·x − 54c6 is isomorphic to E over F_p, p ≥ 5
         // [Sil09, III.1].
-        let a = (p - residue(&(&self.c4 * 27), p)) % p;
-        let b = (p - residue(&(&self.c6 * 54), p)) % p;
+        let a = (p - self.c4x27.rem(p)) % p;
+        let b = (p - self.c6x54.rem(p)) % p;
         let fast = if p < (1 << 31) {
             super::bsgs::ap_fast(a, b, p, POINTS_TRIED)
         } else {
@@ -152,6 +148,30 @@ impl ApTable {
     /// `(p, a_p)` at the bad primes below 2⁶⁴.
     pub fn bad_primes(&self) -> &[(u64, i64)] {
         &self.bad
+    }
+}
+
+/// An integer with a machine-word fast path for reductions.
+#[derive(Debug, Clone)]
+struct Int {
+    small: Option<i128>,
+    big: BigInt,
+}
+
+impl Int {
+    fn new(x: &BigInt) -> Int {
+        Int {
+            small: x.to_i128(),
+            big: x.clone(),
+        }
+    }
+
+    /// `self mod p` in `[0, p)`.
+    fn rem(&self, p: u64) -> u64 {
+        match self.small {
+            Some(v) => v.rem_euclid(i128::from(p)) as u64,
+            None => residue(&self.big, p),
+        }
     }
 }
 

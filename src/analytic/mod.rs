@@ -88,7 +88,7 @@ pub struct AnalyticOptions {
     /// bounds grow and fewer values are certified; nothing is guessed.
     pub max_terms: u64,
     /// The truncation error aimed at for `L(E,1)` and `L'(E,1)` (default
-    /// 10⁻¹³); the functional-equation test aims at 10⁴ times this, at most
+    /// 10⁻¹³); the functional-equation test aims at 10⁷ times this, at most
     /// 10⁻⁶. Only
     /// the number of terms depends on it: every value still carries its
     /// proven bound.
@@ -427,7 +427,7 @@ pub fn analyse(
                 .div(&one_q.mul(&one_q))
                 .upper()
         },
-        (options.tolerance * 1e4).min(1e-6),
+        (options.tolerance * 1e7).min(1e-6),
     );
     let m = m_l.max(m_t).min(options.max_terms);
     let an = an_list(local, m, budget)?;
