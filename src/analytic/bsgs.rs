@@ -227,11 +227,11 @@ impl Curve {
     }
 }
 
-/// All `b`, `|b| ≤ bound`, with `(p + 1 − b)·P = O` for the affine point
-/// `(x, y)` (Montgomery form), or `None` if `P` has order ≤ 2m + 1.
-fn candidates(e: &Curve, x: u64, y: u64, bound: u64) -> Option<Vec<i64>> {
-    let p = e.f.p;
-    let width = 2 * bound + 1;
+/// All `N ∈ [lo, hi]` (`lo ≥ 1`) with `N·P = O` for the affine point
+/// `(x, y)` (Montgomery form), or `None` if `P` has order ≤ 2m + 1 (then
+/// it says little and is skipped).
+fn multiples_in(e: &Curve, x: u64, y: u64, lo: u64, hi: u64) -> Option<Vec<u64>> {
+    let width = hi - lo + 1;
     let m = ((width as f64 / 2.0).sqrt().ceil() as u64).max(1);
     let mut chain = Vec::with_capacity(m as usize);
     let mut q = Jac { x, y, z: e.one };
@@ -253,17 +253,15 @@ fn candidates(e: &Curve, x: u64, y: u64, bound: u64) -> Option<Vec<i64>> {
     }
     baby.sort_unstable();
     if baby.windows(2).any(|w| w[0].0 == w[1].0) {
-        return None;
+        return None; // j·P = ±k·P: order ≤ 2m
     }
+    // Centres c_i = lo + m + i·s cover [c_i − m, c_i + m].
     let s = 2 * m + 1;
     let steps = width.div_ceil(s);
-    let c0 = -(bound as i64) + m as i64;
-    let start = (p as i64 + 1 - c0) as u64;
     let sp = e.normalise(&[e.mul(x, y, s)]);
     let (sx, sy) = sp.first().copied().flatten()?;
-    let sy = e.f.sub(0, sy);
     let mut giant = Vec::with_capacity(steps as usize);
-    let mut r = e.mul(x, y, start);
+    let mut r = e.mul(x, y, lo + m);
     for _ in 0..steps {
         giant.push(r);
         r = e.add_affine(r, sx, sy);
@@ -271,19 +269,39 @@ fn candidates(e: &Curve, x: u64, y: u64, bound: u64) -> Option<Vec<i64>> {
     let gaff = e.normalise(&giant);
     let mut out = Vec::new();
     for (i, g) in gaff.iter().enumerate() {
-        let c = c0 + (i as u64 * s) as i64;
+        let c = lo + m + i as u64 * s;
         match g {
             None => out.push(c),
             Some((gx, gy)) => {
                 if let Ok(k) = baby.binary_search_by(|b| b.0.cmp(gx)) {
                     let (_, by, j) = baby[k];
-                    let j = j as i64;
-                    out.push(if by == *gy { c + j } else { c - j });
+                    // c·P = j·P ⇒ (c − j)·P = O; c·P = −j·P ⇒ (c + j)·P = O.
+                    out.push(if by == *gy { c - j } else { c + j });
                 }
             }
         }
     }
-    out.retain(|b| b.unsigned_abs() <= bound);
+    out.retain(|n| (lo..=hi).contains(n));
+    Some(out)
+}
+
+/// All `b`, `|b| ≤ bound`, `b ≡ p + 1 (mod k)`, with `(p + 1 − b)·P = O`,
+/// where `k` divides the group order: searched as `N·(kP) = O` with
+/// `p + 1 − b = kN` (the same condition). `None` for points of small order.
+fn candidates(e: &Curve, x: u64, y: u64, bound: u64, k: u64) -> Option<Vec<i64>> {
+    let p = e.f.p;
+    let (kx, ky) = if k == 1 {
+        (x, y)
+    } else {
+        e.normalise(&[e.mul(x, y, k)]).first().copied().flatten()?
+    };
+    let lo = (p + 1 - bound).div_ceil(k);
+    let hi = (p + 1 + bound) / k;
+    let ns = multiples_in(e, kx, ky, lo, hi)?;
+    let mut out: Vec<i64> = ns
+        .into_iter()
+        .map(|n| (p + 1) as i64 - (k * n) as i64)
+        .collect();
     out.sort_unstable();
     out.dedup();
     Some(out)
@@ -291,8 +309,16 @@ fn candidates(e: &Curve, x: u64, y: u64, bound: u64) -> Option<Vec<i64>> {
 
 /// `a_p` of `y² = x³ + ax + b` (plain residues) for a prime
 /// `5 ≤ p < 2³¹` of good reduction; `None` if undecided after `tries`
-/// points.
-pub(crate) fn ap_fast(a: u64, b: u64, p: u64, tries: u64) -> Option<i64> {
+/// points. `k_curve` must divide `#E(F_p)` and `k_twist` the order of the
+/// quadratic twist (1 always does).
+pub(crate) fn ap_fast(
+    a: u64,
+    b: u64,
+    p: u64,
+    tries: u64,
+    k_curve: u64,
+    k_twist: u64,
+) -> Option<i64> {
     debug_assert!((5..(1 << 31)).contains(&p));
     let f = Mont::new(p);
     let bound = {
@@ -323,7 +349,8 @@ pub(crate) fn ap_fast(a: u64, b: u64, p: u64, tries: u64) -> Option<i64> {
             a: f.to(a * d2 % p),
             one: f.to(1),
         };
-        let c = candidates(&e, f.to(xx * d % p), f.to(d2), bound);
+        let k = if chi == 1 { k_curve } else { k_twist };
+        let c = candidates(&e, f.to(xx * d % p), f.to(d2), bound, k.max(1));
         let Some(c) = c else { continue };
         let c: Vec<i64> = c.into_iter().map(|v| v * chi).collect();
         let next: Vec<i64> = match live.take() {

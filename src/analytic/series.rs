@@ -64,6 +64,10 @@ fn spend(budget: &mut Budget, units: u64) -> Result<()> {
 impl<'a> Series<'a> {
     /// `an[n]` for `1 ≤ n < an.len()` (index 0 ignored) and the conductor.
     ///
+    /// The truncation bounds assume `|a_n| ≤ d(n)√n`, true for the
+    /// coefficients of an elliptic curve ([`super::an_list`]); for other
+    /// sequences the bounds are not proven.
+    ///
     /// # Errors
     /// [`Error::InvalidArgument`] when the conductor is 0 or above 2⁵³
     /// (then it is not exact in binary64).
