@@ -149,8 +149,9 @@ pub enum RankTheorem {
     /// Gross–Zagier 1986 and Kolyvagin 1990, with modularity (Wiles 1995;
     /// Breuil–Conrad–Diamond–Taylor 2001).
     GrossZagierKolyvagin,
-    /// `L(E,1) ≠ 0 ⇒` rank 0 for curves with complex multiplication:
-    /// Coates–Wiles 1977.
+    /// `L(E,1) ≠ 0 ⇒` rank 0 for curves with complex multiplication by
+    /// the ring of integers of an imaginary quadratic field: Coates–Wiles
+    /// 1977.
     CoatesWiles,
 }
 
@@ -290,31 +291,32 @@ impl AnalyticData {
     }
 }
 
-/// The thirteen j-invariants of curves over Q with complex
-/// multiplication [Sil94, App. A.3] (from memory).
-const CM_J: [i64; 12] = [
+/// The j-invariants of the curves over Q with complex multiplication by
+/// the full ring of integers of an imaginary quadratic field (discriminants
+/// −3, −4, −7, −8, −11, −19, −43, −67, −163) [Sil94, App. A.3] (from
+/// memory). The four j-invariants of CM by a non-maximal order (54000,
+/// 287496, −12288000, 16581375) are left out: for them the report names
+/// Gross–Zagier–Kolyvagin, which covers every curve.
+const CM_MAXIMAL_J: [i64; 8] = [
     0,
     1728,
     -3375,
     8000,
     -32768,
-    54000,
-    287_496,
     -884_736,
-    -12_288_000,
-    16_581_375,
     -884_736_000,
     -147_197_952_000,
 ];
 
-fn has_cm(curve: &Curve) -> bool {
+/// True when `j(E)` is one of [`CM_MAXIMAL_J`] or `−640320³`.
+fn has_cm_by_maximal_order(curve: &Curve) -> bool {
     let j = curve.j_invariant();
     if !j.denom().is_one() {
         return false;
     }
-    let big: BigInt = "-262537412640768000".parse().unwrap_or_default();
     let n = j.numer();
-    *n == big || CM_J.iter().any(|&v| *n == BigInt::from(v))
+    let d163 = -BigInt::from(640_320i64).pow(3);
+    *n == d163 || CM_MAXIMAL_J.iter().any(|&v| *n == BigInt::from(v))
 }
 
 /// The smallest `m` with `bound(m) ≤ target` (doubling, then bisection).
@@ -487,7 +489,7 @@ pub fn analyse(
     data.l_values.push((first, v));
     if !v.may_be_zero() {
         data.analytic_rank = Some(first);
-        let theorem = if first == 0 && has_cm(curve) {
+        let theorem = if first == 0 && has_cm_by_maximal_order(curve) {
             RankTheorem::CoatesWiles
         } else {
             RankTheorem::GrossZagierKolyvagin
