@@ -103,7 +103,7 @@ impl ApTable {
     /// [`Error::NotPrime`] when `p` is not prime; [`Error::InvalidArgument`]
     /// when `p ≥ 2⁶²`; [`Error::BudgetExhausted`] in the (never observed)
     /// case that baby-step giant-step stays ambiguous for `p ≥ 2²⁴` after
-    /// [`POINTS_TRIED_LARGE`] points.
+    /// 2000 points.
     pub fn ap(&self, p: u64) -> Result<i64> {
         if p >= 1 << 62 {
             return Err(Error::InvalidArgument {
