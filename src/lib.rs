@@ -41,6 +41,9 @@ pub mod local;
 // Layer 3: Weierstrass models, points, 2-torsion, 2-isogenies, torsion, Tate's algorithm.
 pub mod curve;
 
+// Layer 3a: the analytic side — a_n, root number, period, certified L-values, BSD ledger.
+pub mod analytic;
+
 // Layer 4: rational conics — Legendre's equation, parametrisation.
 pub mod conic;
 

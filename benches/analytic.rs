@@ -1,0 +1,99 @@
+//! Criterion benchmarks for the analytic layer: every `a_p` up to 10⁶, and
+//! the whole analysis (root number, period, certified L-values, analytic
+//! rank) plus the BSD ledger for curves of conductor near 10⁸.
+//!
+//! Run: `cargo bench --bench analytic`.
+
+use criterion::{black_box, criterion_group, criterion_main, Criterion};
+use isodescent::analytic::{analyse, sha_analytic, AnalyticOptions, ApTable};
+use isodescent::curve::{torsion_subgroup, Curve};
+use isodescent::Budget;
+use num_bigint::BigInt;
+
+/// Primes up to `n` (sieve of Eratosthenes).
+fn primes(n: usize) -> Vec<u64> {
+    let mut s = vec![true; n + 1];
+    let mut out = Vec::new();
+    for i in 2..=n {
+        if s[i] {
+            out.push(i as u64);
+            let mut j = i * i;
+            while j <= n {
+                s[j] = false;
+                j += i;
+            }
+        }
+    }
+    out
+}
+
+fn bench_ap(c: &mut Criterion) {
+    // 37a1: y² + y = x³ − x (trivial torsion), and y² = x³ − 1767²x
+    // (torsion Z/2 × Z/2, the family this crate is about).
+    let ps = primes(1_000_000);
+    let mut g = c.benchmark_group("analytic");
+    g.sample_size(10);
+    for (name, a) in [
+        ("37a1", [0, 0, 1, -1, 0]),
+        ("y^2=x^3-1767^2x", [0, 0, 0, -1767 * 1767, 0]),
+    ] {
+        let e = Curve::from_ints(a).unwrap_or_else(|_| unreachable!());
+        let local = e
+            .local_data(&mut Budget::unlimited())
+            .unwrap_or_else(|_| unreachable!());
+        let table = ApTable::new(&local);
+        g.bench_function(format!("a_p for all p below 10^6 ({name})"), |b| {
+            b.iter(|| {
+                let mut s = 0i64;
+                for &p in &ps {
+                    s += table.ap(p).unwrap_or(0);
+                }
+                black_box(s)
+            })
+        });
+    }
+    g.finish();
+}
+
+fn bench_analyse(c: &mut Criterion) {
+    // Conductors near 10^8: congruent-number curves y² = x³ − n²x with
+    // n = 1767 (N = 32·n² ≈ 10^8, w = −1) and n = 1763 (w = +1).
+    let curves: Vec<(&str, [i64; 5])> = vec![
+        ("n=1767", [0, 0, 0, -1767 * 1767, 0]),
+        ("n=1763", [0, 0, 0, -1763 * 1763, 0]),
+    ];
+    let mut g = c.benchmark_group("analytic");
+    g.sample_size(10);
+    for (name, a) in curves {
+        let e = Curve::from_ints(a).unwrap_or_else(|_| unreachable!());
+        let local = e
+            .local_data(&mut Budget::unlimited())
+            .unwrap_or_else(|_| unreachable!());
+        let tors = torsion_subgroup(&e).order();
+        let cp: BigInt = local
+            .primes
+            .iter()
+            .map(|l| BigInt::from(l.tamagawa))
+            .product();
+        println!("{name}: conductor {}", local.conductor);
+        g.bench_function(format!("analyse + ledger, {name}"), |b| {
+            b.iter(|| {
+                let d = analyse(
+                    &e,
+                    &local,
+                    &AnalyticOptions::default(),
+                    &mut Budget::unlimited(),
+                )
+                .unwrap_or_else(|_| unreachable!());
+                let l = d
+                    .analytic_rank()
+                    .and_then(|r| sha_analytic(&d, r, tors, &cp, None));
+                black_box((d, l))
+            })
+        });
+    }
+    g.finish();
+}
+
+criterion_group!(benches, bench_ap, bench_analyse);
+criterion_main!(benches);
