@@ -42,6 +42,9 @@ pub mod local;
 // Layer 3: Weierstrass models, points, 2-torsion, 2-isogenies, torsion, Tate's algorithm.
 pub mod curve;
 
+// Layer 3½: canonical heights, the height pairing, regulators, saturation.
+pub mod height;
+
 // Layer 4: rational conics — Legendre's equation, parametrisation.
 pub mod conic;
 
