@@ -165,8 +165,8 @@ pub(crate) fn real_roots_f64(c: &[f64]) -> Vec<f64> {
 pub(crate) struct Archimedean {
     /// The integer shift `r`.
     r: BigInt,
-    /// `b2, b4, b6, b8` of the shifted model, as f64.
-    b: [f64; 4],
+    /// `b2, b4, b6, b8` of the shifted model, as double-doubles.
+    b: [Dd; 4],
     /// Certified bounds `ℓ₋ ≤ log z ≤ ℓ₊` on `E(R)`.
     pub log_z_lo: f64,
     pub log_z_hi: f64,
@@ -251,7 +251,7 @@ impl Archimedean {
         let (p0, gap) = cert.ok_or_else(|| Error::InvalidArgument {
             reason: "could not certify the real roots of 4x³ + b2x² + 2b4x + b6".into(),
         })?;
-        let delta = (scale / 4.0).floor().max(1.0);
+        let delta = scale.ceil().max(1.0);
         let r_f = p0.floor() - delta;
         let r = BigRational::from_float(r_f)
             .ok_or_else(too_big)?
@@ -306,9 +306,15 @@ impl Archimedean {
         // Rounding in the few operations above: a generous allowance.
         g_sup += 1e-9 * (1.0 + g_sup.abs());
         h_sup += 1e-9 * (1.0 + h_sup.abs());
+        let bdd = [
+            Dd::from_bigint(&nb2),
+            Dd::from_bigint(&nb4),
+            Dd::from_bigint(&nb6),
+            Dd::from_bigint(&nb8),
+        ];
         Ok(Archimedean {
             r,
-            b,
+            b: bdd,
             log_z_lo: zlo.ln() - 1e-12,
             log_z_hi: zhi.ln() + 1e-12,
             g_sup,
@@ -330,40 +336,164 @@ impl Archimedean {
         n
     }
 
-    /// `Λ∞(P)` for `x = xn/xd` (lowest terms, `xd > 0`): value,
+    /// `Λ∞(P) + log xd` for `x = xn/xd` (lowest terms, `xd > 0`): value,
     /// truncation bound, rounding estimate.
+    ///
+    /// The orbit `t ↦ w(t)/z(t)` and `z` are computed in double-double
+    /// arithmetic (unit roundoff `2⁻¹⁰⁴`), starting from `t₀ = xd/(xn − r·xd)`
+    /// obtained by exact integer division to 110 bits; only the logarithms
+    /// are taken in f64 (`ln z = ln(z_hi) + z_lo/z_hi`).
     pub fn lambda(&self, xn: &BigInt, xd: &BigInt, tol: f64) -> (f64, f64, f64) {
         let num = xn - &self.r * xd; // x' = num/xd > 0
-        let log_x = ln_abs(&num) - ln_abs(xd);
-        let mut t = ratio_f64(xd, &num);
+        let log_num = ln_abs(&num);
+        let mut t = Dd::quotient(xd, &num);
         let [b2, b4, b6, b8] = self.b;
         let n_terms = self.terms_for(tol);
         let mut sum = 0.0;
         let mut weight = 1.0;
         let mut rounding = 0.0;
         for _ in 0..n_terms {
-            let t2 = t * t;
-            let t3 = t2 * t;
-            let t4 = t2 * t2;
-            let z = 1.0 - b4 * t2 - 2.0 * b6 * t3 - b8 * t4;
-            let w = 4.0 * t + b2 * t2 + 2.0 * b4 * t3 + b6 * t4;
-            let mag = 1.0 + (b4 * t2).abs() + (2.0 * b6 * t3).abs() + (b8 * t4).abs();
-            let dz = (2.0 * b4 * t2).abs() + (6.0 * b6 * t3).abs() + (4.0 * b8 * t4).abs();
-            // Error of z itself, plus a relative error of t of 8·EPS.
-            rounding += weight * (8.0 * EPS * (mag + dz) / z + EPS);
-            sum += weight * z.ln();
+            let t2 = t.mul(t);
+            let t3 = t2.mul(t);
+            let t4 = t2.mul(t2);
+            let z = Dd::ONE
+                .sub(b4.mul(t2))
+                .sub(b6.mul(t3).scale(2.0))
+                .sub(b8.mul(t4));
+            let w = t
+                .scale(4.0)
+                .add(b2.mul(t2))
+                .add(b4.mul(t3).scale(2.0))
+                .add(b6.mul(t4));
+            let lz = z.hi.ln() + z.lo / z.hi;
+            // ln in f64 (≤ 1 ulp) and the double-double cancellation in z.
+            let mag =
+                1.0 + (b4.hi * t2.hi).abs() + (2.0 * b6.hi * t3.hi).abs() + (b8.hi * t4.hi).abs();
+            rounding += weight * (2.0 * EPS * lz.abs() + EPS * EPS * 64.0 * mag / z.hi);
+            sum += weight * lz;
             weight *= 0.25;
-            if t == 0.0 {
-                break;
-            }
-            t = w / z;
+            t = w.div(z);
         }
         let lz = self.log_z_lo.abs().max(self.log_z_hi.abs());
         let trunc = weight * lz / 3.0;
-        let value = log_x + 0.25 * sum;
-        let rounding = 16.0 * (0.25 * rounding + 4.0 * EPS * (log_x.abs() + 1.0))
-            + 4.0 * EPS * (ln_abs(&num).abs() + ln_abs(xd).abs());
+        // Λ∞ + log xd = log num + ¼Σ: the big logarithm enters once.
+        let value = log_num + 0.25 * sum;
+        // ln_abs: argument rounded to 53 bits (≤ EPS absolute after ln),
+        // result rounded (≤ EPS·|ln|), binary-exponent term (≤ EPS·|ln|);
+        // the final sums (≤ 2·EPS·|value|). Safety factor 4 on these, 16
+        // on the series estimate.
+        let rounding = 16.0 * 0.25 * rounding
+            + 4.0 * (3.0 * EPS * (log_num.abs() + 1.0) + 2.0 * EPS * value.abs());
         (value, trunc, rounding)
+    }
+}
+
+/// A double-double number `hi + lo` with `|lo| ≤ ulp(hi)/2` (Dekker,
+/// Numer. Math. 18 (1971); common practice).
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub(crate) struct Dd {
+    hi: f64,
+    lo: f64,
+}
+
+fn two_sum(a: f64, b: f64) -> (f64, f64) {
+    let s = a + b;
+    let bb = s - a;
+    (s, (a - (s - bb)) + (b - bb))
+}
+
+fn split(a: f64) -> (f64, f64) {
+    // Veltkamp splitting with 2^27 + 1.
+    let c = 134_217_729.0 * a;
+    let hi = c - (c - a);
+    (hi, a - hi)
+}
+
+fn two_prod(a: f64, b: f64) -> (f64, f64) {
+    let p = a * b;
+    let (ah, al) = split(a);
+    let (bh, bl) = split(b);
+    let e = ((ah * bh - p) + ah * bl + al * bh) + al * bl;
+    (p, e)
+}
+
+impl Dd {
+    const ONE: Dd = Dd { hi: 1.0, lo: 0.0 };
+
+    fn new(hi: f64, lo: f64) -> Dd {
+        let (h, l) = two_sum(hi, lo);
+        Dd { hi: h, lo: l }
+    }
+
+    fn add(self, o: Dd) -> Dd {
+        let (s, e) = two_sum(self.hi, o.hi);
+        Dd::new(s, e + self.lo + o.lo)
+    }
+
+    fn sub(self, o: Dd) -> Dd {
+        self.add(Dd {
+            hi: -o.hi,
+            lo: -o.lo,
+        })
+    }
+
+    fn mul(self, o: Dd) -> Dd {
+        let (p, e) = two_prod(self.hi, o.hi);
+        Dd::new(p, e + self.hi * o.lo + self.lo * o.hi)
+    }
+
+    fn scale(self, k: f64) -> Dd {
+        Dd {
+            hi: self.hi * k,
+            lo: self.lo * k,
+        }
+    }
+
+    fn div(self, o: Dd) -> Dd {
+        let q1 = self.hi / o.hi;
+        let r = self.sub(o.mul(Dd { hi: q1, lo: 0.0 }));
+        let q2 = r.hi / o.hi;
+        let r = r.sub(o.mul(Dd { hi: q2, lo: 0.0 }));
+        let q3 = r.hi / o.hi;
+        Dd::new(q1, q2).add(Dd { hi: q3, lo: 0.0 })
+    }
+
+    /// A big integer to about 106 bits (exact below 2^106).
+    pub(crate) fn from_bigint(n: &BigInt) -> Dd {
+        let bits = n.bits();
+        let shift = bits.saturating_sub(110);
+        let top: BigInt = n >> shift;
+        let hi = top.to_f64().unwrap_or(f64::NAN);
+        let rest = &top
+            - BigRational::from_float(hi)
+                .map(|q| q.to_integer())
+                .unwrap_or_default();
+        let lo = rest.to_f64().unwrap_or(0.0);
+        let s = 2f64.powi(shift.min(1000) as i32);
+        Dd::new(hi * s, lo * s)
+    }
+
+    /// `a/b` for big integers `a ≥ 0`, `b > 0`, to about 106 bits, by
+    /// exact integer division (0 on underflow).
+    pub(crate) fn quotient(a: &BigInt, b: &BigInt) -> Dd {
+        if a.is_zero() {
+            return Dd { hi: 0.0, lo: 0.0 };
+        }
+        let k = 112i64 + b.bits() as i64 - a.bits() as i64;
+        let q: BigInt = if k >= 0 {
+            (a << (k as usize)) / b
+        } else {
+            (a >> ((-k) as usize)) / b
+        };
+        if k > 1000 {
+            // a/b < 2^-880: far below anything that matters (t ≈ 0).
+            return Dd { hi: 0.0, lo: 0.0 };
+        }
+        let d = Dd::from_bigint(&q);
+        let e = (-k).clamp(-1074, 1023) as i32;
+        // Two steps so that 2^e does not overflow for large |k|.
+        let (e1, e2) = (e / 2, e - e / 2);
+        d.scale(2f64.powi(e1)).scale(2f64.powi(e2))
     }
 }
 

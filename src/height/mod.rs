@@ -264,16 +264,15 @@ impl HeightContext {
             return Certified::exact(0.0);
         };
         let (xn, xd) = (x.numer(), x.denom());
-        let (arch, trunc, rounding) = self.arch.lambda(xn, xd, precision * 0.5);
-        let log_den = local::ln_abs(xd);
-        let mut value = arch + log_den;
-        let mut err = trunc + rounding + 4.0 * local::EPS * log_den.abs();
+        // log d² + Λ∞(P) in one piece (see local::Archimedean::lambda).
+        let (mut value, trunc, rounding) = self.arch.lambda(xn, xd, precision * 0.5);
+        let mut err = trunc + rounding;
         for bp in &self.bad {
             let (num, den) = bp.correction(&self.a, &self.b, x, y);
             if num != 0 {
                 let c = num as f64 / den as f64 * bp.log_p;
                 value += c;
-                err += 4.0 * local::EPS * c.abs();
+                err += 4.0 * local::EPS * (c.abs() + value.abs());
             }
         }
         Certified { value, error: err }
