@@ -15,7 +15,10 @@ use std::sync::OnceLock;
 /// Elliptic Curves*, Table 1 (from memory). The others are checked here by
 /// `contains` (the points are on the curves) — independence is not
 /// needed for the identities below.
-const CURVES: &[([i64; 5], &[(i64, i64)])] = &[
+/// Coefficients `[a1, a2, a3, a4, a6]` and integral points.
+type CurveWithPoints = ([i64; 5], &'static [(i64, i64)]);
+
+const CURVES: &[CurveWithPoints] = &[
     ([0, 0, 1, -1, 0], &[(0, 0)]),
     ([0, 1, 1, -2, 0], &[(-1, 1), (0, 0)]),
     ([0, 0, 1, -7, 6], &[(0, 2), (1, 0), (2, 0)]),
