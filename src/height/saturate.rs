@@ -29,11 +29,12 @@
 //! over `F_p`. If `Σ aᵢPᵢ + Σ b_jT_j ∈ pE(Q)` then `(a, b)` is in the
 //! kernel of every row; so once the common kernel has no vector with
 //! `a ≠ 0`, no point outside `L + E(Q)_tors` has its `p`-th multiple
-//! inside, i.e. `L` is `p`-saturated. For `p = 2` on a curve with three
-//! rational points of order 2 the `p`-part is never cyclic; there the
-//! rows come from the 2-descent map `P ↦ (x(P) − eᵢ) mod squares`
-//! (Silverman, AEC 2nd ed., X.1.4) followed by Legendre symbols at
-//! auxiliary primes, which are homomorphisms `E(Q) → Z/2` as well.
+//! inside, i.e. `L` is `p`-saturated. For `p = 2` the rows come instead
+//! from the 2-descent maps over F_q, `P ↦ (X(P) − e) mod squares` for the
+//! roots `e` of the 2-division cubic modulo `q` (Silverman, AEC 2nd ed.,
+//! X.1.4, X.4.9), which see all of `E(F_q)/2E(F_q)` also when its 2-part
+//! is not cyclic (with cyclic 2-parts alone, points in the image of the
+//! dual of a rational 2-isogeny would stay invisible).
 //!
 //! When a kernel vector survives many auxiliary primes, the combination
 //! `Q = Σ aᵢPᵢ + Σ b_jT_j` (some `a_k = 1`) is tested for divisibility
@@ -51,7 +52,6 @@
 
 use num_bigint::BigInt;
 use num_integer::Integer;
-use num_rational::BigRational;
 use num_traits::{ToPrimitive, Zero};
 
 use super::bounds::{difference_bounds, height_lower_bound};
@@ -72,12 +72,17 @@ pub struct SaturationOptions {
     /// `ĥ` (cost about `2e^{1.5H}` candidates). Default 10.
     pub max_search_height: f64,
     /// The search height used is `min(max_search_height, B + margin)`,
-    /// `B` the naive-minus-canonical bound. Default 2.5.
+    /// `B` the naive-minus-canonical bound. Default 0.5: the search is the
+    /// dominant cost (it grows like `e^{1.5·margin}`), while a smaller
+    /// lower bound only raises the index bound like `λ^{−r/2}`.
     pub search_margin: f64,
     /// Largest prime `p` for which `p`-saturation is attempted. Default 200.
     pub max_prime: u64,
-    /// Largest auxiliary prime `q`. Default 200 000.
+    /// Largest auxiliary prime `q` (each costs `O(q)` for the point
+    /// count). Default 20 000.
     pub max_aux_prime: u64,
+    /// Most auxiliary primes examined for one `p`. Default 400.
+    pub max_aux_primes_per_p: usize,
     /// Useful auxiliary primes tried per `p` before testing divisibility.
     /// Default 24.
     pub aux_per_round: usize,
@@ -87,9 +92,10 @@ impl Default for SaturationOptions {
     fn default() -> Self {
         SaturationOptions {
             max_search_height: 10.0,
-            search_margin: 2.5,
+            search_margin: 0.5,
             max_prime: 200,
-            max_aux_prime: 200_000,
+            max_aux_prime: 20_000,
+            max_aux_primes_per_p: 400,
             aux_per_round: 24,
         }
     }
@@ -226,12 +232,6 @@ pub fn saturate(
 
     let tors = torsion_subgroup(ctx.minimal_model());
     let tors_gens: Vec<Point> = tors.generators().to_vec();
-    let two_torsion_x: Vec<BigRational> = tors
-        .points()
-        .iter()
-        .filter(|t| !t.is_infinity() && ctx.add_minimal(t, t).is_infinity())
-        .filter_map(|t| t.x().cloned())
-        .collect();
 
     let mut primes_checked = Vec::new();
     let mut unresolved = Vec::new();
@@ -243,7 +243,7 @@ pub fn saturate(
             p += 1;
             continue;
         }
-        let outcome = p_saturate(&ctx, &pts, &tors_gens, &two_torsion_x, p, options, budget)?;
+        let outcome = p_saturate(&ctx, &pts, &tors_gens, p, options, budget)?;
         match outcome {
             Outcome::Saturated => {
                 primes_checked.push(p);
@@ -313,7 +313,6 @@ fn p_saturate(
     ctx: &HeightContext,
     pts: &[Point],
     tors_gens: &[Point],
-    two_torsion_x: &[BigRational],
     p: u64,
     options: &SaturationOptions,
     budget: &mut Budget,
@@ -325,28 +324,28 @@ fn p_saturate(
         .chain(tors_gens.iter())
         .map(|q| short.to_jac(q))
         .collect();
-    let elems_min: Vec<&Point> = pts.iter().chain(tors_gens.iter()).collect();
-    let use_characters = p == 2 && two_torsion_x.len() == 3;
     let disc = ctx.discriminant();
     let mut rows: Vec<Vec<u64>> = Vec::new();
     let mut useful = 0usize;
     let mut rounds = 0usize;
     let mut q = 4u64;
+    let mut examined = 0usize;
     loop {
         q += 1;
-        if q > options.max_aux_prime {
+        if q > options.max_aux_prime || examined >= options.max_aux_primes_per_p {
             return Ok(Outcome::Unknown);
         }
         if !is_prime_u64(q) || q == p || (disc % BigInt::from(q)).is_zero() {
             continue;
         }
+        examined += 1;
         budget
             .spend(q / 8 + 16)
             .map_err(|_| Error::BudgetExhausted {
                 stage: "p-saturation".into(),
             })?;
-        let new_rows: Vec<Vec<u64>> = if use_characters {
-            character_rows(&elems_min, two_torsion_x, q)
+        let new_rows: Vec<Vec<u64>> = if p == 2 {
+            two_rows(ctx, &elems, q)
         } else {
             cyclic_row(ctx, &elems, p, q).into_iter().collect()
         };
@@ -753,47 +752,39 @@ fn cyclic_row(ctx: &HeightContext, elems: &[Jac], p: u64, q: u64) -> Option<Vec<
     Some(row)
 }
 
-/// Two rows (i = 1, 2) from the Legendre symbol at `q` of the 2-descent
-/// map `P ↦ x(P) − eᵢ` (module docs); empty if `q` divides a difference
-/// of roots or a denominator in play.
-fn character_rows(elems: &[&Point], ex: &[BigRational], q: u64) -> Vec<Vec<u64>> {
-    let qb = BigInt::from(q);
-    let chi = |v: &BigRational| -> Option<u64> {
-        if v.is_zero() {
-            return None;
-        }
-        let mut n = v.numer() * v.denom();
-        while (&n % &qb).is_zero() {
-            n /= &qb;
-        }
-        let r = big_mod(&n, q);
-        Some(u64::from(pow_mod(r, (q - 1) / 2, q) != 1))
+/// Rows for `p = 2` at an auxiliary prime `q`: for each root `e` of
+/// `X³ + AX + B` over F_q (all but one when there are three), the
+/// homomorphism `P ↦ χ_q(X(P) − e)` (`χ_q` the Legendre symbol, written
+/// additively), with `χ_q(f'(e))` at the point `(e, 0)` and 0 at O.
+/// These are the 2-descent maps over F_q (Silverman, AEC 2nd ed., X.1.4
+/// and X.4.9): together injective on `E(F_q)/2E(F_q)`.
+fn two_rows(ctx: &HeightContext, elems: &[Jac], q: u64) -> Vec<Vec<u64>> {
+    let s = ctx.short();
+    let f = Fq {
+        q,
+        a: big_mod(&s.big_a, q),
+        b: big_mod(&s.big_b, q),
     };
-    let mut rows = Vec::new();
-    for i in 0..2 {
-        let ei = &ex[i];
-        let others: Vec<&BigRational> = ex
+    let cubic = |x: u64| (mul_mod(mul_mod(x, x, q), x, q) + mul_mod(f.a, x, q) + f.b) % q;
+    let roots: Vec<u64> = (0..q).filter(|&x| cubic(x) == 0).collect();
+    let used = match roots.len() {
+        1 => 1,
+        3 => 2,
+        _ => return Vec::new(),
+    };
+    let chi = |v: u64| u64::from(pow_mod(v % q, (q - 1) / 2, q) != 1);
+    let reduced: Vec<Pt> = elems.iter().map(|j| f.reduce(j)).collect();
+    let mut rows = Vec::with_capacity(used);
+    for &e in &roots[..used] {
+        let fprime = (mul_mod(3, mul_mod(e, e, q), q) + f.a) % q;
+        let row = reduced
             .iter()
-            .enumerate()
-            .filter(|(k, _)| *k != i)
-            .map(|(_, v)| v)
+            .map(|pt| match pt {
+                None => 0,
+                Some((x, _)) if *x == e => chi(fprime),
+                Some((x, _)) => chi((x + q - e) % q),
+            })
             .collect();
-        let special = (ei - others[0]) * (ei - others[1]);
-        if (special.numer() % &qb).is_zero() || (special.denom() % &qb).is_zero() {
-            return Vec::new();
-        }
-        let mut row = Vec::with_capacity(elems.len());
-        for p in elems {
-            let v = match p.x() {
-                None => Some(0),
-                Some(x) if x == ei => chi(&special),
-                Some(x) => chi(&(x - ei)),
-            };
-            match v {
-                Some(c) => row.push(c),
-                None => return Vec::new(),
-            }
-        }
         rows.push(row);
     }
     rows
