@@ -25,6 +25,7 @@ fn saturation_over_the_box() {
         vec![(0, 0, Duration::ZERO, Duration::ZERO); 5];
     let mut curves = 0;
     let mut not_proven = Vec::new();
+    let mut enlarged = Vec::new();
     let t_all = Instant::now();
     for a in -30i64..=30 {
         for b in -30i64..=30 {
@@ -52,6 +53,9 @@ fn saturation_over_the_box() {
             slot.3 = slot.3.max(dt);
             match s {
                 Ok(s) => {
+                    if s.index_found > 1 {
+                        enlarged.push(format!("[{a},{b}] index {}", s.index_found));
+                    }
                     if s.proven_saturated {
                         slot.1 += 1;
                         assert!(
@@ -83,6 +87,11 @@ fn saturation_over_the_box() {
             );
         }
     }
+    println!(
+        "descent points enlarged by saturation ({}): {:?}",
+        enlarged.len(),
+        enlarged.iter().take(10).collect::<Vec<_>>()
+    );
     println!("not proven ({}):", not_proven.len());
     for line in not_proven.iter().take(40) {
         println!("  {line}");

@@ -31,8 +31,8 @@
 //! ```
 //!
 //! `z > 0` on `E(R)` and `log z` lies in a range `[ℓ₋, ℓ₊]` that is
-//! certified once per curve (grid plus a Lipschitz bound on the
-//! polynomial `z`), so stopping after `N` terms leaves a tail of at most
+//! certified once per curve (adaptive bisection with Taylor's theorem on
+//! the polynomial `z`), so stopping after `N` terms leaves a tail of at most
 //! `(1/3)·4⁻ᴺ·max(|ℓ₋|, |ℓ₊|)`.
 
 use num_bigint::BigInt;

@@ -16,15 +16,17 @@
 //! Every value is a [`Certified`] `value ± error`. The error is the sum of
 //! (a) a proven bound on the truncation of Tate's series, from bounds on
 //! `log z` over `E(R)` certified once per curve (exact rational sign tests
-//! for the real roots, a grid plus a Lipschitz bound for `z`), and (b) an
-//! a-priori estimate of the f64 rounding, taken with a safety factor of
-//! 16 over the standard model of floating-point arithmetic. Part (b) is an
-//! estimate, not an interval proof; `docs/heights.md` says so and the
-//! tests check it against exact computations.
+//! for the real roots, adaptive bisection with Taylor's theorem for `z`),
+//! and (b) an a-priori estimate of the rounding (the series runs in
+//! double-double arithmetic, the logarithms in f64), with safety factors
+//! of 4 and 16 over the standard model of floating-point arithmetic.
+//! Part (b) is an estimate, not an interval proof; `docs/heights.md` says
+//! so, and the tests check the enclosures against exact identities.
 //!
 //! # Layout
-//! - [`projective`]-style exact arithmetic (crate-internal): Jacobian
-//!   integer coordinates for points with hundreds of digits;
+//! - `projective` (crate-internal): exact Jacobian integer arithmetic for
+//!   points with hundreds of digits, behind [`HeightContext::multiple`] and
+//!   [`HeightContext::combination`];
 //! - `local`: the archimedean and non-archimedean local heights;
 //! - [`bounds`]: naive/canonical height difference bounds and a proven
 //!   lower bound for `ĥ` on non-torsion points;
