@@ -44,6 +44,9 @@ pub mod curve;
 // Layer 3a: the analytic side — a_n, root number, period, certified L-values, BSD ledger.
 pub mod analytic;
 
+// Layer 3b: canonical heights, the height pairing, regulators, saturation.
+pub mod height;
+
 // Layer 4: rational conics — Legendre's equation, parametrisation.
 pub mod conic;
 

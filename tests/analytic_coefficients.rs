@@ -2,7 +2,7 @@
 //! known identities.
 
 use isodescent::analytic::{an_list, ap, ApTable};
-use isodescent::curve::tate::GlobalLocalData;
+use isodescent::curve::GlobalLocalData;
 use isodescent::curve::{Curve, TwoIsogeny};
 use isodescent::{Budget, Error};
 use num_bigint::BigInt;

@@ -1,0 +1,269 @@
+//! Saturation, regulators, published values, big points and bad input.
+
+use isodescent::curve::{Curve, Point};
+use isodescent::height::{
+    canonical_height, canonical_height_to, regulator, saturate, Certified, HeightContext,
+    SaturationOptions,
+};
+use isodescent::{Budget, Error};
+use num_bigint::BigInt;
+
+fn pts(v: &[(i64, i64)]) -> Vec<Point> {
+    v.iter().map(|&(x, y)| Point::from_ints(x, y)).collect()
+}
+
+fn within(c: &Certified, published: f64, digits_err: f64) -> bool {
+    (c.value - published).abs() <= c.error + digits_err
+}
+
+/// Published regulators (BSD normalisation, ⟨P, P⟩ = ĥ(P) ≈ h(x(P))):
+/// 37a1 y² + y = x³ − x, generator (0, 0): 0.0511114082399688;
+/// 389a1 y² + y = x³ + x² − 2x, generators (−1, 1), (0, 0):
+/// 0.152460177943144; 5077a1 y² + y = x³ − 7x + 6, generators (0, 2),
+/// (1, 0), (2, 0): 0.417143558758384. Curves and values as in Cremona's
+/// tables (*Algorithms for Modular Elliptic Curves*, 2nd ed., and their
+/// extension); values from memory, 15 digits.
+#[test]
+fn published_regulators_of_the_first_curves_of_ranks_one_two_three() {
+    let cases: [([i64; 5], Vec<Point>, f64); 3] = [
+        ([0, 0, 1, -1, 0], pts(&[(0, 0)]), 0.0511114082399688),
+        ([0, 1, 1, -2, 0], pts(&[(-1, 1), (0, 0)]), 0.152460177943144),
+        (
+            [0, 0, 1, -7, 6],
+            pts(&[(0, 2), (1, 0), (2, 0)]),
+            0.417143558758384,
+        ),
+    ];
+    for (a, g, published) in cases {
+        let e = Curve::from_ints(a).unwrap();
+        let reg = regulator(&e, &g).unwrap();
+        assert!(reg.error < 1e-10, "{reg}");
+        assert!(
+            within(&reg, published, 1e-14),
+            "{a:?}: {reg} vs {published}"
+        );
+    }
+}
+
+/// Saturation gives back the lattice: replace generators by 2P + Q, 3P, …
+/// (an index-n sublattice, n = |det|) and check that saturation finds the
+/// index, proves saturation, and returns a basis with the regulator of the
+/// generators (Reg(L) = n²·Reg(sat L); Siksek, Rocky Mountain J. Math. 25
+/// (1995), and the generators' regulators above).
+#[test]
+fn saturation_recovers_the_lattice_from_sublattices() {
+    type Case = (
+        [i64; 5],
+        &'static [(i64, i64)],
+        &'static [&'static [i64]],
+        u64,
+    );
+    let cases: &[Case] = &[
+        ([0, 0, 1, -1, 0], &[(0, 0)], &[&[3]], 3),
+        ([0, 0, 1, -1, 0], &[(0, 0)], &[&[2]], 2),
+        ([0, 0, 1, -1, 0], &[(0, 0)], &[&[1]], 1),
+        ([0, 1, 1, -2, 0], &[(-1, 1), (0, 0)], &[&[2, 1], &[0, 1]], 2),
+        ([0, 1, 1, -2, 0], &[(-1, 1), (0, 0)], &[&[3, 0], &[5, 1]], 3),
+        ([0, 1, 1, -2, 0], &[(-1, 1), (0, 0)], &[&[2, 0], &[0, 3]], 6),
+        // y² = x³ − 36x (E(Q)_tors = Z/2 × Z/2) with P = (−3, 9): the
+        // sublattices spanned by 2P and 6P have index 2 and 6 in the
+        // saturated lattice spanned by P (the test asserts saturation of P
+        // through `proven_saturated` on the result).
+        ([0, 0, 0, -36, 0], &[(-3, 9)], &[&[2]], 2),
+        ([0, 0, 0, -36, 0], &[(-3, 9)], &[&[6]], 6),
+        (
+            [0, 0, 1, -7, 6],
+            &[(0, 2), (1, 0), (2, 0)],
+            &[&[1, 2, 0], &[0, 3, 0], &[0, 1, 2]],
+            6,
+        ),
+    ];
+    for (a, g, m, index) in cases {
+        let e = Curve::from_ints(*a).unwrap();
+        let g = pts(g);
+        let ctx = HeightContext::new(&e, &mut Budget::unlimited()).unwrap();
+        let sub: Vec<Point> = m
+            .iter()
+            .map(|row| {
+                let c: Vec<BigInt> = row.iter().map(|&v| BigInt::from(v)).collect();
+                ctx.combination(&g, &c).unwrap()
+            })
+            .collect();
+        let want = ctx.regulator(&g).unwrap();
+        let s = saturate(
+            &e,
+            &sub,
+            &SaturationOptions::default(),
+            &mut Budget::unlimited(),
+        )
+        .unwrap();
+        assert!(s.proven_saturated, "{a:?} {m:?}: {s:?}");
+        assert_eq!(s.index_found, *index, "{a:?} {m:?}");
+        assert!(s.index_bound.unwrap() >= *index);
+        assert!(
+            s.regulator.overlaps(&want),
+            "{a:?}: {} vs {want}",
+            s.regulator
+        );
+        for (p, h) in s.generators.iter().zip(&s.heights) {
+            assert!(e.contains(p));
+            assert!(h.overlaps(&ctx.height(p).unwrap()));
+        }
+        // The sublattice's regulator is index² times the lattice's.
+        let sub_reg = ctx.regulator(&sub).unwrap();
+        let n2 = (*index * *index) as f64;
+        assert!((sub_reg.value - n2 * want.value).abs() <= sub_reg.error + n2 * want.error);
+    }
+}
+
+/// Saturation on a non-minimal model: y² = x³ − 36·16x (u = 2 from
+/// y² = x³ − 36x) with 2·(−12, 72); points come back on the input model.
+#[test]
+fn saturation_works_on_the_input_model() {
+    let e = Curve::from_ints([0, 0, 0, -576, 0]).unwrap();
+    let p = Point::from_ints(-12, 72);
+    assert!(e.contains(&p));
+    let p2 = e.mul_i64(&p, 2);
+    let s = saturate(
+        &e,
+        &[p2],
+        &SaturationOptions::default(),
+        &mut Budget::unlimited(),
+    )
+    .unwrap();
+    assert!(s.proven_saturated);
+    assert_eq!(s.index_found, 2);
+    assert!(e.contains(&s.generators[0]));
+    let h = canonical_height(&e, &p).unwrap();
+    assert!(s.heights[0].overlaps(&h));
+}
+
+/// A point with about 100-digit coordinates: ĥ(nP) = n²ĥ(P) to the
+/// default precision (Silverman, AEC 2nd ed., VIII.9.3(b)), and the error
+/// bound meets the default target 1e-12.
+#[test]
+fn hundred_digit_points_meet_the_default_precision() {
+    let e = Curve::from_ints([0, 0, 1, -7, 6]).unwrap();
+    let ctx = HeightContext::new(&e, &mut Budget::unlimited()).unwrap();
+    let p = ctx
+        .combination(
+            &pts(&[(0, 2), (1, 0), (2, 0)]),
+            &[1.into(), 1.into(), 1.into()],
+        )
+        .unwrap();
+    let hp = ctx.height(&p).unwrap();
+    // The first multiple whose x has a denominator of at least 100 digits.
+    let (n, big) = (2i64..)
+        .map(|n| (n, ctx.multiple(&p, &BigInt::from(n)).unwrap()))
+        .find(|(_, q)| q.x().unwrap().denom().to_string().len() >= 100)
+        .unwrap();
+    let digits = big.x().unwrap().denom().to_string().len();
+    assert!(digits <= 130, "{digits} digits");
+    let hb = ctx.height(&big).unwrap();
+    assert!(hb.error <= 1e-12, "{hb}");
+    let n2 = (n * n) as f64;
+    assert!((hb.value - n2 * hp.value).abs() <= hb.error + n2 * hp.error);
+}
+
+/// Bad input gives typed errors (common practice for this crate).
+#[test]
+fn bad_input_gives_typed_errors() {
+    let e = Curve::from_ints([0, 0, 1, -1, 0]).unwrap();
+    let off = Point::from_ints(1, 1);
+    assert!(matches!(
+        canonical_height(&e, &off),
+        Err(Error::PointNotOnCurve { .. })
+    ));
+    let p = Point::from_ints(0, 0);
+    for bad in [0.0, -1.0, f64::NAN, 1e-20] {
+        assert!(matches!(
+            canonical_height_to(&e, &p, bad),
+            Err(Error::InvalidArgument { .. })
+        ));
+    }
+    // Dependent points: P and 2P.
+    let p2 = e.mul_i64(&p, 2);
+    let r = saturate(
+        &e,
+        &[p.clone(), p2],
+        &SaturationOptions::default(),
+        &mut Budget::unlimited(),
+    );
+    assert!(matches!(r, Err(Error::InvalidArgument { .. })));
+    // A torsion point alone is dependent too (regulator 0).
+    let t = Curve::from_ints([0, 0, 0, -36, 0]).unwrap();
+    let r = saturate(
+        &t,
+        &[Point::from_ints(0, 0)],
+        &SaturationOptions::default(),
+        &mut Budget::unlimited(),
+    );
+    assert!(matches!(r, Err(Error::InvalidArgument { .. })));
+    // A tiny budget stops the work with BudgetExhausted.
+    let r = saturate(
+        &e,
+        &[e.mul_i64(&p, 3)],
+        &SaturationOptions::default(),
+        &mut Budget::with_units(50),
+    );
+    assert!(
+        matches!(
+            r,
+            Err(Error::BudgetExhausted { .. }) | Err(Error::FactorBudgetExhausted { .. })
+        ),
+        "{r:?}"
+    );
+    // No points: the zero lattice is saturated.
+    let s = saturate(
+        &e,
+        &[],
+        &SaturationOptions::default(),
+        &mut Budget::unlimited(),
+    )
+    .unwrap();
+    assert!(s.proven_saturated && s.generators.is_empty());
+}
+
+/// Two precisions give overlapping enclosures (each is an enclosure of
+/// the same number; common practice).
+#[test]
+fn coarse_and_fine_enclosures_overlap() {
+    let e = Curve::from_ints([0, 1, 1, -2, 0]).unwrap();
+    let p = Point::from_ints(-1, 1);
+    let fine = canonical_height_to(&e, &p, 1e-13).unwrap();
+    let coarse = canonical_height_to(&e, &p, 1e-3).unwrap();
+    assert!(fine.overlaps(&coarse) && coarse.error <= 1e-3 && fine.error <= 1e-12);
+}
+
+/// A point the default descent returns on y² = x³ − 5x² + 13x is three
+/// times a rational point modulo torsion (found by the box measurement,
+/// docs/heights.md). Checked here with the curves layer's affine group law
+/// (Silverman, AEC 2nd ed., III.2.3), independent of the Jacobian code:
+/// 3R − P is a torsion point.
+#[test]
+fn a_descent_point_that_is_a_triple_is_divided() {
+    use isodescent::curve::torsion_subgroup;
+    use isodescent::descent::{descend, DescentOptions};
+    let e = Curve::from_ints([0, -5, 0, 13, 0]).unwrap();
+    let report = descend(&e, &DescentOptions::default()).unwrap();
+    assert_eq!(report.points().len(), 1);
+    let p = &report.points()[0];
+    let s = saturate(
+        &e,
+        &report.points(),
+        &SaturationOptions::default(),
+        &mut Budget::unlimited(),
+    )
+    .unwrap();
+    assert!(s.proven_saturated);
+    assert_eq!(s.index_found, 3);
+    let r = &s.generators[0];
+    let tors = torsion_subgroup(&e);
+    let three_r = e.mul_i64(r, 3);
+    assert!(
+        tors.points().contains(&e.sub(&three_r, p)) || tors.points().contains(&e.add(&three_r, p)),
+        "3R ∓ P is not torsion"
+    );
+    let hp = canonical_height(&e, p).unwrap();
+    assert!((hp.value - 9.0 * s.heights[0].value).abs() <= hp.error + 9.0 * s.heights[0].error);
+}
