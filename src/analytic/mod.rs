@@ -367,6 +367,22 @@ fn root_number_by_theta(s: &Series<'_>, budget: &mut Budget) -> Result<Option<i8
 ///
 /// `local` must be the curve's own local data ([`Curve::local_data`]).
 ///
+/// # Example
+/// ```
+/// use isodescent::analytic::{analyse, AnalyticOptions, RankTheorem};
+/// use isodescent::curve::Curve;
+/// use isodescent::Budget;
+///
+/// let e: Curve = "0 0 1 -1 0".parse().unwrap(); // conductor 37
+/// let mut budget = Budget::unlimited();
+/// let local = e.local_data(&mut budget).unwrap();
+/// let data = analyse(&e, &local, &AnalyticOptions::default(), &mut budget).unwrap();
+/// assert_eq!(data.root_number(), Some(-1));
+/// let d1 = data.l_value(1).unwrap(); // L'(E,1) = 0.3059997738…
+/// assert!((d1.value() - 0.305_999_773_834).abs() < 1e-11 && d1.error() < 1e-12);
+/// assert_eq!(data.rank_proven(), Some((1, RankTheorem::GrossZagierKolyvagin)));
+/// ```
+///
 /// # Errors
 /// [`crate::Error::BudgetExhausted`] when the budget runs out;
 /// [`crate::Error::InvalidArgument`] for options out of range (0 or more
