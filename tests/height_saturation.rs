@@ -213,6 +213,11 @@ fn bad_input_gives_typed_errors() {
         ),
         "{r:?}"
     );
+    // Options out of range are refused, not obeyed.
+    let mut o = SaturationOptions::default();
+    o.max_prime = u64::MAX;
+    let r = saturate(&e, std::slice::from_ref(&p), &o, &mut Budget::unlimited());
+    assert!(matches!(r, Err(Error::InvalidArgument { .. })));
     // No points: the zero lattice is saturated.
     let s = saturate(
         &e,

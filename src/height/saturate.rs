@@ -64,6 +64,14 @@ use crate::budget::Budget;
 use crate::curve::{torsion_subgroup, Point};
 use crate::error::{Error, Result};
 
+/// Largest accepted [`SaturationOptions::max_prime`] (arithmetic mod `p`
+/// is done in 64-bit words).
+pub const MAX_PRIME_LIMIT: u64 = 100_000;
+
+/// Largest accepted [`SaturationOptions::max_aux_prime`] (a point count
+/// mod `q` takes `O(q)` time and memory).
+pub const MAX_AUX_PRIME_LIMIT: u64 = 10_000_000;
+
 /// Options of [`saturate`].
 #[derive(Clone, Debug, PartialEq)]
 #[non_exhaustive]
@@ -182,6 +190,17 @@ pub fn saturate(
     {
         return Err(Error::InvalidArgument {
             reason: "saturation search height/margin out of range".into(),
+        });
+    }
+    if options.max_prime > MAX_PRIME_LIMIT
+        || options.max_aux_prime > MAX_AUX_PRIME_LIMIT
+        || options.aux_per_round == 0
+    {
+        return Err(Error::InvalidArgument {
+            reason: format!(
+                "saturation options out of range: max_prime ≤ {MAX_PRIME_LIMIT}, \
+                 max_aux_prime ≤ {MAX_AUX_PRIME_LIMIT}, aux_per_round ≥ 1"
+            ),
         });
     }
     for p in points {
