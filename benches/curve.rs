@@ -6,7 +6,7 @@
 //! makes, over two whole families per iteration: the congruent-number curves
 //! y² = x³ − n²x for square-free n ≤ 2000 (1215 curves) and
 //! y² = x³ + ax² + bx with |a|, |b| ≤ 30 (3650 nonsingular curves), plus
-//! `descend` with `DescentOptions::selmer_only()` end to end. Divide by the
+//! `descend` with `DescentOptions::default().local_conditions_only()` end to end. Divide by the
 //! family size for the cost per curve.
 //!
 //! Run: `cargo bench --bench curve`.
@@ -221,8 +221,8 @@ fn bench_families(c: &mut Criterion) {
                 }
             })
         });
-        let opts = DescentOptions::selmer_only();
-        g.bench_function("descend_selmer_only", |b| {
+        let opts = DescentOptions::default().local_conditions_only();
+        g.bench_function("descend_local_only", |b| {
             b.iter(|| {
                 for e in &curves {
                     black_box(descend(e, &opts).ok());

@@ -21,13 +21,13 @@ fn congruent_curves(from: i64, to: i64) -> Vec<Curve> {
         .collect()
 }
 
-fn bench_selmer_only(c: &mut Criterion) {
-    let mut g = c.benchmark_group("descent/selmer_only_congruent");
+fn bench_local_only(c: &mut Criterion) {
+    let mut g = c.benchmark_group("descent/local_only_congruent");
     g.sample_size(10);
     for (from, to) in [(1i64, 200i64), (99_800, 100_000)] {
         let curves = congruent_curves(from, to);
         g.throughput(Throughput::Elements(curves.len() as u64));
-        let opts = DescentOptions::selmer_only();
+        let opts = DescentOptions::default().local_conditions_only();
         g.bench_function(format!("n_{from}_to_{to}"), |bch| {
             bch.iter(|| {
                 for e in &curves {
@@ -60,5 +60,5 @@ fn bench_full(c: &mut Criterion) {
     g.finish();
 }
 
-criterion_group!(benches, bench_selmer_only, bench_full);
+criterion_group!(benches, bench_local_only, bench_full);
 criterion_main!(benches);

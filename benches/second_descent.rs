@@ -57,7 +57,7 @@ fn bench(c: &mut Criterion) {
     let side = descend_isogeny(
         &lind,
         &Point::from_ints(0, 0),
-        &DescentOptions::selmer_only(),
+        &DescentOptions::default().local_conditions_only(),
     )
     .unwrap()
     .domain;

@@ -5,10 +5,12 @@
 //! docs/performance.md.
 //!
 //! ```text
-//! cargo run --release --example selmer_census -- N|box:B [selmer-only|first|full]
+//! cargo run --release --example selmer_census -- N|box:B [local-only|first|descent|full]
 //! ```
-//! `selmer-only`: Selmer groups and torsion images, no search;
-//! `first`: default search, no second descent; `full`: the defaults.
+//! `local-only`: Selmer groups and torsion images, no search;
+//! `first`: default search, no second descent, no analytic side;
+//! `descent`: the whole descent, no analytic side or saturation;
+//! `full`: the defaults (descent, analytic side, saturation).
 
 use std::process::ExitCode;
 use std::time::Instant;
@@ -28,7 +30,7 @@ fn main() -> ExitCode {
         None => (false, family.parse::<i64>().ok()),
     };
     let Some(n_max) = n_max.filter(|&n| (1..=1_000_000).contains(&n)) else {
-        eprintln!("usage: selmer_census N|box:B [selmer-only|first|full]");
+        eprintln!("usage: selmer_census N|box:B [local-only|first|descent|full]");
         return ExitCode::from(2);
     };
     let members: Vec<[i64; 5]> = if boxed {
@@ -43,10 +45,13 @@ fn main() -> ExitCode {
             .map(|n| [0, 0, 0, -n * n, 0])
             .collect()
     };
-    let mode = args.next().unwrap_or_else(|| "selmer-only".to_string());
+    let mode = args.next().unwrap_or_else(|| "local-only".to_string());
     let opts = match mode.as_str() {
-        "selmer-only" => DescentOptions::selmer_only(),
-        "first" => DescentOptions::default().with_second_descent(false),
+        "local-only" => DescentOptions::default().local_conditions_only(),
+        "first" => DescentOptions::default()
+            .descent_only()
+            .with_second_descent(false),
+        "descent" => DescentOptions::default().descent_only(),
         "full" => DescentOptions::default(),
         other => {
             eprintln!("unknown mode {other:?}");

@@ -138,7 +138,7 @@ fn cassels_holds(a: i64, bb: i64) -> Result<(), String> {
     let d = descend_isogeny(
         &curve,
         &Point::from_ints(0, 0),
-        &DescentOptions::selmer_only(),
+        &DescentOptions::default().local_conditions_only(),
     )
     .unwrap();
     let diff = d.codomain.dimension() as i64 - d.domain.dimension() as i64;

@@ -49,7 +49,7 @@ fn elements(side: &SelmerSide) -> Vec<BitVec> {
 fn the_local_images_of_the_two_sides_annihilate_each_other_under_the_hilbert_symbol() {
     let mut places_checked = 0;
     for (a, b) in box_curves(8) {
-        let d = isogeny_of(a, b, &DescentOptions::selmer_only());
+        let d = isogeny_of(a, b, &DescentOptions::default().local_conditions_only());
         for (w, w2) in d.domain.local_images.iter().zip(&d.codomain.local_images) {
             assert_eq!(w.place, w2.place);
             let reps = class_representatives(&w.place);
@@ -79,7 +79,7 @@ fn the_local_images_of_the_two_sides_annihilate_each_other_under_the_hilbert_sym
 fn every_class_lift_rechecks_from_its_evidence() {
     let mut checked = 0;
     for (a, b) in box_curves(6) {
-        let d = isogeny_of(a, b, &DescentOptions::selmer_only());
+        let d = isogeny_of(a, b, &DescentOptions::default().local_conditions_only());
         for side in [&d.domain, &d.codomain] {
             let p = side.pairing.as_ref().expect("pairing computed");
             for lift in &p.lifts {
@@ -113,7 +113,7 @@ fn every_class_lift_rechecks_from_its_evidence() {
 fn the_pairing_is_additive_in_the_first_class() {
     let mut checked = 0;
     for (a, b) in box_curves(10) {
-        let d = isogeny_of(a, b, &DescentOptions::selmer_only());
+        let d = isogeny_of(a, b, &DescentOptions::default().local_conditions_only());
         for side in [&d.domain, &d.codomain] {
             let p = side.pairing.as_ref().expect("pairing computed");
             let n = p.basis.len();
@@ -155,7 +155,7 @@ fn the_liftable_subgroup_agrees_with_the_four_covering_route_class_by_class() {
     let opts = SecondDescentOptions::default();
     let (mut agree_out, mut agree_in, mut unfinished) = (0, 0, 0);
     for (a, b) in curves {
-        let d = isogeny_of(a, b, &DescentOptions::selmer_only());
+        let d = isogeny_of(a, b, &DescentOptions::default().local_conditions_only());
         for side in [&d.domain, &d.codomain] {
             let liftable = side.liftable().expect("pairing computed");
             if side.group.dim() > 6 {
@@ -306,7 +306,12 @@ fn monsky(n: i64) -> usize {
 
 fn selmer2_of_congruent(n: i64) -> usize {
     let c = Curve::from_ints([0, 0, 0, -n * n, 0]).unwrap();
-    let d = descend_isogeny(&c, &Point::from_ints(0, 0), &DescentOptions::selmer_only()).unwrap();
+    let d = descend_isogeny(
+        &c,
+        &Point::from_ints(0, 0),
+        &DescentOptions::default().local_conditions_only(),
+    )
+    .unwrap();
     d.selmer2_rank().expect("pairing computed")
 }
 
@@ -381,7 +386,7 @@ fn the_three_isogenies_of_a_curve_with_rational_two_torsion_agree_on_the_two_sel
             }
             // y² = x(x − e1)(x − e2) = x³ − (e1 + e2)x² + e1e2 x
             let c = Curve::from_ints([0, -(e1 + e2), 0, e1 * e2, 0]).unwrap();
-            let r = descend(&c, &DescentOptions::selmer_only()).unwrap();
+            let r = descend(&c, &DescentOptions::default().local_conditions_only()).unwrap();
             assert_eq!(r.isogenies().len(), 3);
             let ranks: Vec<usize> = r
                 .isogenies()
@@ -458,7 +463,7 @@ impl PositiveSquare for BigInt {
 #[test]
 fn the_pairing_matrix_is_symmetric() {
     for (a, b) in box_curves(10) {
-        let d = isogeny_of(a, b, &DescentOptions::selmer_only());
+        let d = isogeny_of(a, b, &DescentOptions::default().local_conditions_only());
         for side in [&d.domain, &d.codomain] {
             let p = side.pairing.as_ref().unwrap();
             assert!(p.is_symmetric(), "a={a} b={b}: {:?}", p.matrix);

@@ -28,6 +28,7 @@
 //! by heights.
 
 pub(crate) mod bounds;
+pub(crate) mod global;
 pub(crate) mod options;
 pub(crate) mod report;
 pub(crate) mod side;
@@ -37,6 +38,7 @@ use std::time::Instant;
 
 use num_bigint::BigInt;
 
+pub use global::{RankProof, ShaTwoPart};
 pub use options::DescentOptions;
 pub use report::{Completion, DescentReport, RankBounds};
 pub use side::{ClassStatus, CoveringObstruction, SearchRecord, SelmerElement, SelmerSide};
@@ -289,13 +291,9 @@ pub fn descend(curve: &Curve, options: &DescentOptions) -> Result<DescentReport>
             stage: "every isogeny of the descent".to_string(),
         }));
     }
-    Ok(DescentReport::new(
-        curve.clone(),
-        torsion,
-        local_data,
-        isogenies,
-        completion,
-    ))
+    let mut report = DescentReport::new(curve.clone(), torsion, local_data, isogenies, completion);
+    global::complete(&mut report, options, deadline);
+    Ok(report)
 }
 
 /// True for the errors that mean "a budget or the clock ran out", after

@@ -3,12 +3,14 @@
 
 use std::time::{Duration, Instant};
 
+use crate::analytic::AnalyticOptions;
 use crate::budget::Budget;
+use crate::height::SaturationOptions;
 
 /// Knobs for [`crate::descent::descend`]. Every budget is counted in the
 /// deterministic units of [`crate::Budget`], so the same input and the same
 /// options always give the same report.
-#[derive(Clone, Debug, PartialEq, Eq)]
+#[derive(Clone, Debug, PartialEq)]
 #[non_exhaustive]
 pub struct DescentOptions {
     /// Height bound H for the search on each homogeneous space: all coprime
@@ -40,6 +42,15 @@ pub struct DescentOptions {
     /// A run that hits it is, by nature, not reproducible; `None` (the
     /// default) keeps every result deterministic.
     pub time_limit: Option<Duration>,
+    /// The analytic side (`None`: off): root number, certified L-values,
+    /// ranks settled by theorem and the Birch–Swinnerton-Dyer ledger, for
+    /// curves with conductor up to the options' limit (default 10¹⁰).
+    pub analytic: Option<AnalyticOptions>,
+    /// Saturation of the points into generators with heights and the
+    /// regulator, when the rank is decided (`None`: off).
+    pub saturation: Option<SaturationOptions>,
+    /// Work units for the analytic side and for saturation (each).
+    pub global_units: u64,
 }
 
 impl Default for DescentOptions {
@@ -55,23 +66,32 @@ impl Default for DescentOptions {
             second_search_height: 64,
             second_descent_units: 100_000_000,
             time_limit: None,
+            analytic: Some(AnalyticOptions::default()),
+            saturation: Some(SaturationOptions::default()),
+            global_units: 2_000_000_000,
         }
     }
 }
 
 impl DescentOptions {
-    /// Selmer groups and torsion images only: no point search and no second
-    /// descent. Rank bounds are then k + k' − 2 ≤ r ≤ dim Sel + dim Sel' − 2
-    /// with k, k' the torsion-image dimensions.
-    pub fn selmer_only() -> Self {
-        Self::default().local_conditions_only()
-    }
-
-    /// These options with the point search and the second descent off:
-    /// only the local conditions (the first descent) are computed.
+    /// These options with the point search, the second descent, the
+    /// analytic side and saturation off: only the local conditions (the
+    /// first descent) are computed. Rank bounds are then
+    /// k + k' − 2 ≤ r ≤ dim Sel + dim Sel' − 2 with k, k' the
+    /// torsion-image dimensions.
     pub fn local_conditions_only(mut self) -> Self {
         self.max_classes_searched = 0;
         self.second_descent = false;
+        self.analytic = None;
+        self.saturation = None;
+        self
+    }
+
+    /// These options without the analytic side and without saturation:
+    /// the descent alone.
+    pub fn descent_only(mut self) -> Self {
+        self.analytic = None;
+        self.saturation = None;
         self
     }
 

@@ -1,9 +1,12 @@
 //! The typed report of a descent, read through accessors. Its text and JSON
 //! forms live in [`crate::output`].
 
+use super::global::{GlobalFacts, RankProof, ShaTwoPart};
 use super::IsogenyDescent;
+use crate::analytic::{AnalyticData, ShaLedger};
 use crate::curve::tate::GlobalLocalData;
 use crate::curve::{Curve, Point, TorsionGroup};
+use crate::height::Saturation;
 
 /// Whether every step of the descent ran to its end.
 #[derive(Clone, Debug, PartialEq, Eq)]
@@ -47,10 +50,12 @@ impl RankBounds {
 /// Everything a descent found about one curve.
 ///
 /// Invariants: `rank_lower() ≤ rank_upper()`; `points()` holds
-/// `rank_lower()` points of the input curve, independent modulo torsion;
+/// `descent_bounds().lower` points of the input curve, independent modulo
+/// torsion (fewer than `rank_lower()` when an analytic theorem raised the
+/// lower bound and the search has not found the points);
 /// `isogenies()` holds one descent per rational 2-torsion point that ran
 /// (all of them when [`DescentReport::completion`] is complete).
-#[derive(Clone, Debug, PartialEq, Eq)]
+#[derive(Clone, Debug, PartialEq)]
 #[non_exhaustive]
 pub struct DescentReport {
     pub(crate) curve: Curve,
@@ -62,6 +67,8 @@ pub struct DescentReport {
     pub(crate) points: Vec<Point>,
     pub(crate) completion: Completion,
     pub(crate) selmer2_rank: Option<usize>,
+    pub(crate) descent_bounds: RankBounds,
+    pub(crate) global: GlobalFacts,
 }
 
 impl DescentReport {
@@ -100,6 +107,8 @@ impl DescentReport {
         let selmer2_rank = super::selmer2_rank(&isogenies);
         DescentReport {
             selmer2_rank,
+            descent_bounds: RankBounds { lower, upper },
+            global: GlobalFacts::default(),
             curve,
             torsion,
             local_data,
@@ -144,6 +153,84 @@ impl DescentReport {
         self.bounds
     }
 
+    /// The bounds the descent alone proves (equal to
+    /// [`DescentReport::rank_bounds`] unless an analytic theorem settled
+    /// the rank).
+    pub fn descent_bounds(&self) -> RankBounds {
+        self.descent_bounds
+    }
+
+    /// What settled the rank, if it is settled.
+    pub fn rank_settled_by(&self) -> Option<RankProof> {
+        self.global.settled_by
+    }
+
+    /// The analytic data (root number, period, certified L-values), when
+    /// the analytic side ran.
+    pub fn analytic(&self) -> Option<&AnalyticData> {
+        self.global.analytic.as_ref()
+    }
+
+    /// Generators of E(Q)/E(Q)_tors with heights, the regulator and the
+    /// index certificate, when saturation ran (it runs when the rank is
+    /// decided and as many independent points are known). They generate
+    /// exactly when `proven_saturated` is true.
+    pub fn saturation(&self) -> Option<&Saturation> {
+        self.global.saturation.as_ref()
+    }
+
+    /// True when the returned points are proven to generate E(Q) modulo
+    /// torsion.
+    pub fn points_generate(&self) -> bool {
+        self.global
+            .saturation
+            .as_ref()
+            .is_some_and(|s| s.proven_saturated && s.generators.len() == self.bounds.lower)
+            || (self.bounds.upper == 0 && self.global.conflict.is_none())
+    }
+
+    /// The points a caller should use: the saturated, LLL-reduced basis
+    /// when saturation ran, else the descent's independent points.
+    pub fn returned_points(&self) -> &[Point] {
+        match &self.global.saturation {
+            Some(s) => &s.generators,
+            None => &self.points,
+        }
+    }
+
+    /// ĥ of each of [`DescentReport::returned_points`], in the same order,
+    /// certified (normalisation of [`crate::height`]); empty when a height
+    /// could not be computed.
+    pub fn returned_heights(&self) -> &[crate::height::Certified] {
+        match &self.global.saturation {
+            Some(s) => &s.heights,
+            None => &self.global.point_heights,
+        }
+    }
+
+    /// The regulator of the returned points, when saturation ran (1 for
+    /// rank 0 is not reported here).
+    pub fn regulator(&self) -> Option<crate::height::Certified> {
+        self.global.saturation.as_ref().map(|s| s.regulator)
+    }
+
+    /// The Birch–Swinnerton-Dyer ledger (the analytic order of Sha), when
+    /// every ingredient is proven.
+    pub fn sha_ledger(&self) -> Option<&ShaLedger> {
+        self.global.ledger.as_ref()
+    }
+
+    /// The ledger's comparison with the 2-part of Sha the descent proves.
+    pub fn sha_two_part(&self) -> Option<ShaTwoPart> {
+        self.global.sha_two_part
+    }
+
+    /// A disagreement between the descent and the analytic side — a bug in
+    /// one of them, reported loudly and never resolved silently.
+    pub fn conflict(&self) -> Option<&str> {
+        self.global.conflict.as_deref()
+    }
+
     /// Proven lower bound for the rank of E(Q).
     pub fn rank_lower(&self) -> usize {
         self.bounds.lower
@@ -154,8 +241,9 @@ impl DescentReport {
         self.bounds.upper
     }
 
-    /// Points of infinite order on the input model, independent modulo
-    /// torsion (`rank_lower()` of them). They are not claimed to generate.
+    /// Points of infinite order on the input model found by the descent,
+    /// independent modulo torsion. They are not claimed to generate; see
+    /// [`DescentReport::saturation`] for generators.
     pub fn points(&self) -> &[Point] {
         &self.points
     }

@@ -84,8 +84,8 @@ pub fn verify_report(report: &DescentReport, units: u64) -> Result<Verification>
         );
     }
     out.record(
-        "number of returned points equals the rank lower bound",
-        report.points().len() == report.rank_lower(),
+        "number of returned points equals the descent's lower bound",
+        report.points().len() == report.descent_bounds().lower,
     );
     for (i, d) in report.isogenies().iter().enumerate() {
         let tag = format!("isogeny {}", i + 1);
@@ -134,7 +134,7 @@ pub fn verify_report(report: &DescentReport, units: u64) -> Result<Verification>
         .unwrap_or(lo);
     out.record(
         "overall bounds are the sharpest of the isogenies",
-        (lo, hi) == (report.rank_lower(), report.rank_upper()),
+        (lo, hi) == (report.descent_bounds().lower, report.descent_bounds().upper),
     );
     Ok(out)
 }

@@ -138,6 +138,56 @@ struct IsogenyView {
 }
 
 #[derive(Serialize)]
+struct CertifiedView {
+    value: String,
+    error: String,
+}
+
+fn certified(value: f64, error: f64) -> CertifiedView {
+    CertifiedView {
+        value: decimal(value, error),
+        error: format!("{error:.1e}"),
+    }
+}
+
+#[derive(Serialize)]
+struct LValueView {
+    order: usize,
+    value: String,
+    error: String,
+}
+
+#[derive(Serialize)]
+struct AnalyticView {
+    conductor: String,
+    root_number_route: Option<&'static str>,
+    real_period: Option<CertifiedView>,
+    real_components: Option<u8>,
+    l_values: Vec<LValueView>,
+    terms: u64,
+    theorem: Option<&'static str>,
+    skipped: Option<&'static str>,
+}
+
+#[derive(Serialize)]
+struct SaturationView {
+    index_bound: Option<u64>,
+    index_found: u64,
+    primes_checked: Vec<u64>,
+    unresolved: Vec<u64>,
+    height_lower_bound: Option<String>,
+}
+
+#[derive(Serialize)]
+struct LedgerView {
+    sha: CertifiedView,
+    nearest_square: Option<u64>,
+    square_within_error: bool,
+    sha2_dimension_from_descent: Option<usize>,
+    two_adic_valuation: Option<u32>,
+}
+
+#[derive(Serialize)]
 struct StopView {
     step: String,
     reason: String,
@@ -157,6 +207,17 @@ struct LineView<'a> {
     torsion_order: Option<u32>,
     torsion: Option<TorsionView>,
     selmer2_rank: Option<usize>,
+    rank_settled_by: Option<&'static str>,
+    heights: Vec<String>,
+    regulator: Option<String>,
+    points_generate: bool,
+    generators: Option<SaturationView>,
+    root_number: Option<i8>,
+    analytic_rank: Option<usize>,
+    sha_analytic: Option<String>,
+    analytic: Option<AnalyticView>,
+    ledger: Option<LedgerView>,
+    conflict: Option<String>,
     conductor: Option<String>,
     minimal_model: Option<String>,
     reduction: BTreeMap<String, ReductionView>,
@@ -309,7 +370,7 @@ fn report_view<'a>(input: &'a str, r: &DescentReport, detail: Detail) -> LineVie
         stopped,
         rank_lower: Some(r.rank_lower()),
         rank_upper: Some(r.rank_upper()),
-        points: points_view(r.points()),
+        points: points_view(r.returned_points()),
         torsion_order: Some(t.order()),
         torsion: Some(TorsionView {
             order: t.order(),
@@ -317,6 +378,38 @@ fn report_view<'a>(input: &'a str, r: &DescentReport, detail: Detail) -> LineVie
             generators: points_view(t.generators()),
         }),
         selmer2_rank: r.selmer2_rank(),
+        rank_settled_by: r.rank_settled_by().map(|p| p.word()),
+        heights: r
+            .returned_heights()
+            .iter()
+            .map(|h| decimal(h.value, h.error))
+            .collect(),
+        regulator: r.regulator().map(|g| decimal(g.value, g.error)),
+        points_generate: r.points_generate(),
+        generators: r.saturation().map(|s| SaturationView {
+            index_bound: s.index_bound,
+            index_found: s.index_found,
+            primes_checked: s.primes_checked.clone(),
+            unresolved: s.unresolved.clone(),
+            height_lower_bound: s.height_lower_bound.map(|h| format!("{h:.6}")),
+        }),
+        root_number: r.analytic().and_then(|a| a.root_number()),
+        analytic_rank: r.analytic().and_then(|a| a.analytic_rank()),
+        sha_analytic: r
+            .sha_ledger()
+            .map(|l| decimal(l.value.value(), l.value.error())),
+        analytic: r.analytic().map(analytic_view),
+        ledger: r.sha_ledger().map(|l| {
+            let two = r.sha_two_part();
+            LedgerView {
+                sha: certified(l.value.value(), l.value.error()),
+                nearest_square: l.nearest_square,
+                square_within_error: l.is_square_within_error,
+                sha2_dimension_from_descent: two.map(|t| t.descent_dimension),
+                two_adic_valuation: two.and_then(|t| t.analytic_valuation),
+            }
+        }),
+        conflict: r.conflict().map(str::to_string),
         conductor: Some(ld.conductor.to_string()),
         minimal_model: Some(equation_text(
             &ld.minimal_model
@@ -357,6 +450,49 @@ fn report_view<'a>(input: &'a str, r: &DescentReport, detail: Detail) -> LineVie
     }
 }
 
+/// `value` with as many decimals as its error bound justifies (at least
+/// one, at most 16): the digits shown are all correct up to the bound.
+pub fn decimal(value: f64, error: f64) -> String {
+    let decimals = if error > 0.0 && error.is_finite() {
+        (-error.log10()).floor().clamp(1.0, 16.0) as usize
+    } else {
+        16
+    };
+    format!("{value:.decimals$}")
+}
+
+fn analytic_view(a: &crate::analytic::AnalyticData) -> AnalyticView {
+    use crate::analytic::{RootNumberRoute, Skip};
+    AnalyticView {
+        conductor: a.conductor().to_string(),
+        root_number_route: a.root_number_route().map(|r| match r {
+            RootNumberRoute::FunctionalEquationAndFormula => {
+                "functional_equation_and_local_formulas"
+            }
+            RootNumberRoute::FunctionalEquation => "functional_equation",
+            RootNumberRoute::Formula => "local_formulas",
+        }),
+        real_period: a.real_period().map(|c| certified(c.value(), c.error())),
+        real_components: a.real_components(),
+        l_values: a
+            .l_values()
+            .iter()
+            .map(|(k, c)| LValueView {
+                order: *k,
+                value: decimal(c.value(), c.error()),
+                error: format!("{:.1e}", c.error()),
+            })
+            .collect(),
+        terms: a.terms_used(),
+        theorem: a.rank_proven().map(|(_, t)| t.name()),
+        skipped: a.skipped().map(|s| match s {
+            Skip::ConductorAboveLimit => "conductor_above_limit",
+            Skip::RootNumberUndecided => "root_number_undecided",
+            Skip::Inconsistent => "inconsistent",
+        }),
+    }
+}
+
 fn to_line<T: Serialize>(v: &T) -> String {
     serde_json::to_string(v).unwrap_or_else(|e| {
         // Serialising plain strings and integers cannot fail; keep the line
@@ -387,6 +523,17 @@ pub fn error_line(input: &str, message: &str) -> String {
         torsion_order: None,
         torsion: None,
         selmer2_rank: None,
+        rank_settled_by: None,
+        heights: Vec::new(),
+        regulator: None,
+        points_generate: false,
+        generators: None,
+        root_number: None,
+        analytic_rank: None,
+        sha_analytic: None,
+        analytic: None,
+        ledger: None,
+        conflict: None,
         conductor: None,
         minimal_model: None,
         reduction: BTreeMap::new(),

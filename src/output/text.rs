@@ -8,13 +8,16 @@ use num_rational::BigRational;
 use num_traits::One;
 
 use super::Detail;
+use crate::analytic::AnalyticData;
 use crate::curve::equation::{equation_text, quartic_text, reduced_equation_text};
 use crate::curve::tate::ReductionKind;
 use crate::curve::{ModelChange, Point};
 use crate::descent::report::{Completion, DescentReport};
 use crate::descent::side::{ClassStatus, SelmerSide};
 use crate::descent::IsogenyDescent;
+use crate::descent::RankProof;
 use crate::local::class_representatives;
+use crate::output::json::decimal;
 use crate::quartic::search::SearchOutcome;
 
 /// A rational as "p/q" in lowest terms, or "p".
@@ -370,16 +373,94 @@ pub(crate) fn write_report(
     } else {
         format!("rank in [{}, {}]", b.lower, b.upper)
     };
-    writeln!(
-        f,
-        "{head} (lower bound: {lower_proof}; upper bound: {upper_proof})"
-    )?;
-    if n > 0 {
-        let pts: Vec<String> = r.points().iter().map(point_text).collect();
+    match (r.rank_settled_by(), r.analytic()) {
+        (Some(RankProof::Analytic(theorem)), Some(a)) => {
+            let d = r.descent_bounds();
+            let (w, k) = (a.root_number().unwrap_or(0), b.lower);
+            let value = a
+                .l_value(k)
+                .map(|c| format!("{} ± {:.1e}", decimal(c.value(), c.error()), c.error()))
+                .unwrap_or_default();
+            writeln!(
+                f,
+                "{head} (proven by {}: w = {w:+}, L{}(E,1) = {value} ≠ 0; the descent alone gives [{}, {}])",
+                theorem.name(),
+                if k == 1 { "'" } else { "" },
+                d.lower,
+                d.upper
+            )?;
+        }
+        _ => writeln!(
+            f,
+            "{head} (lower bound: {lower_proof}; upper bound: {upper_proof})"
+        )?,
+    }
+    if let Some(c) = r.conflict() {
         writeln!(
             f,
-            "points: {} (independent; not shown to generate E(Q) modulo torsion)",
-            pts.join(", ")
+            "CONFLICT (a bug in the descent or the analytic side; nothing was settled by it): {c}"
+        )?;
+    }
+    let returned = r.returned_points();
+    let heights = r.returned_heights();
+    let with_heights: Vec<String> = returned
+        .iter()
+        .enumerate()
+        .map(|(i, p)| match heights.get(i) {
+            Some(h) => format!(
+                "{} (ĥ = {} ± {:.1e})",
+                point_text(p),
+                decimal(h.value, h.error),
+                h.error
+            ),
+            None => point_text(p),
+        })
+        .collect();
+    if r.points_generate() && !returned.is_empty() {
+        let s = r.saturation();
+        let certificate = s
+            .map(|s| {
+                let primes: Vec<String> = s.primes_checked.iter().map(u64::to_string).collect();
+                format!(
+                    "index bound {}, p-saturated for p in {{{}}}",
+                    s.index_bound
+                        .map(|b| b.to_string())
+                        .unwrap_or_else(|| "-".into()),
+                    primes.join(", ")
+                )
+            })
+            .unwrap_or_default();
+        writeln!(
+            f,
+            "generators of E(Q) modulo torsion: {} (proven by saturation: {certificate})",
+            with_heights.join(", ")
+        )?;
+    } else if !returned.is_empty() {
+        let index = r
+            .saturation()
+            .and_then(|s| s.index_bound)
+            .map(|b| format!("; their span has index at most {b} in its saturation"))
+            .unwrap_or_default();
+        writeln!(
+            f,
+            "points: {} (independent; not shown to generate E(Q) modulo torsion{index})",
+            with_heights.join(", ")
+        )?;
+    }
+    if let Some(reg) = r.regulator() {
+        writeln!(
+            f,
+            "regulator: {} ± {:.1e}",
+            decimal(reg.value, reg.error),
+            reg.error
+        )?;
+    }
+    if returned.len() < b.lower {
+        writeln!(
+            f,
+            "points: {} of the {} independent points the rank requires were found",
+            returned.len(),
+            b.lower
         )?;
     }
     let t = r.torsion();
@@ -418,6 +499,9 @@ pub(crate) fn write_report(
     for (i, d) in r.isogenies().iter().enumerate() {
         write_isogeny(f, i, count, d, r.deciding_isogeny() == Some(i), detail)?;
     }
+    if let Some(a) = r.analytic() {
+        write_analytic(f, r, a)?;
+    }
     writeln!(f)?;
     let ld = r.local_data();
     let mm = ld.minimal_model.clone().map(BigRational::from_integer);
@@ -451,4 +535,83 @@ pub(crate) fn write_report(
         );
     }
     f.write_str(&ev)
+}
+
+fn write_analytic(f: &mut fmt::Formatter<'_>, r: &DescentReport, a: &AnalyticData) -> fmt::Result {
+    writeln!(f)?;
+    if let Some(skip) = a.skipped() {
+        return writeln!(f, "analytic side: not computed ({skip:?})");
+    }
+    let w = a
+        .root_number()
+        .map(|w| format!("{w:+}"))
+        .unwrap_or_else(|| "undecided".into());
+    let period = a
+        .real_period()
+        .map(|c| format!("{} ± {:.1e}", decimal(c.value(), c.error()), c.error()))
+        .unwrap_or_else(|| "-".into());
+    writeln!(
+        f,
+        "analytic side: root number w = {w}, Ω = {period} ({} real component{}), {} terms",
+        a.real_components().unwrap_or(0),
+        if a.real_components() == Some(1) {
+            ""
+        } else {
+            "s"
+        },
+        a.terms_used()
+    )?;
+    let values: Vec<String> = a
+        .l_values()
+        .iter()
+        .map(|(k, c)| {
+            format!(
+                "L{}(E,1) = {} ± {:.1e}",
+                "'".repeat(*k),
+                decimal(c.value(), c.error()),
+                c.error()
+            )
+        })
+        .collect();
+    if !values.is_empty() {
+        writeln!(f, "  {}", values.join(", "))?;
+    }
+    match a.analytic_rank() {
+        Some(k) if k <= 1 => writeln!(f, "  analytic rank {k} (order of vanishing at s = 1, proven)")?,
+        Some(k) => writeln!(
+            f,
+            "  analytic rank at most {k} (smallest order with a certified non-zero value; lower orders not proven to vanish)"
+        )?,
+        None => writeln!(f, "  no L^(r)(E,1) with r ≤ 3 certified non-zero")?,
+    }
+    match r.sha_ledger() {
+        Some(l) => {
+            let square = match (l.nearest_square, l.is_square_within_error) {
+                (Some(s), true) => format!("within its error of the square {s}"),
+                _ => "not within its error of an integer square".to_string(),
+            };
+            writeln!(
+                f,
+                "  Birch–Swinnerton-Dyer: analytic order of Sha = {} ± {:.1e}, {square}",
+                decimal(l.value.value(), l.value.error()),
+                l.value.error()
+            )?;
+            if let Some(t) = r.sha_two_part() {
+                writeln!(
+                    f,
+                    "  dim Ш(E)[2] = {} (from dim Sel^2(E) and the rank){}",
+                    t.descent_dimension,
+                    match t.analytic_valuation {
+                        Some(v) => format!(", 2-adic valuation of the square {v}: {}", if t.consistent { "consistent" } else { "INCONSISTENT" }),
+                        None => String::new(),
+                    }
+                )?;
+            }
+        }
+        None => writeln!(
+            f,
+            "  Birch–Swinnerton-Dyer: no ledger (it needs the rank decided, L^(r)(E,1) certified, and for rank ≥ 1 proven generators)"
+        )?,
+    }
+    Ok(())
 }

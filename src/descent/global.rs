@@ -1,0 +1,190 @@
+//! After the descent: the analytic side, generators, and the
+//! Birch–Swinnerton-Dyer ledger.
+//!
+//! 1. [`crate::analytic::analyse`] gives the root number and certified
+//!    L-values. When a theorem settles the rank — w = +1 and L(E,1) ≠ 0
+//!    (rank 0), or w = −1 and L'(E,1) ≠ 0 (rank 1): Gross–Zagier (1986)
+//!    and Kolyvagin (1990) with modularity, or Coates–Wiles (1977) for CM —
+//!    the bounds become that rank. If the theorem's rank lies outside the
+//!    descent's proven bounds, one of the two computations is wrong: the
+//!    report carries the conflict, the descent's bounds stay, and nothing
+//!    is settled.
+//! 2. When the rank is decided and as many independent points are known,
+//!    [`crate::height::saturate`] turns them into generators of
+//!    E(Q)/E(Q)_tors, with heights, the regulator and the index
+//!    certificate; "generate" is claimed only when saturation proved it.
+//! 3. The ledger: Sha_an = L^(r)(E,1)/r! · |E(Q)_tors|² / (Ω · Reg · ∏ c_p)
+//!    for r = 0, and for r ≥ 1 when the generators are proven; never
+//!    filled with a guess. Its 2-part is compared with dim Ш(E)[2] =
+//!    dim Sel²(E) − dim E(Q)[2] − r, which the descent proves once r is
+//!    known: for finite Ш, #Ш is a square and 2^dim Ш(E)[2] divides it.
+
+use num_bigint::BigInt;
+
+use super::options::DescentOptions;
+use super::report::{Completion, DescentReport, RankBounds};
+use crate::analytic::{self, AnalyticData, RankTheorem, ShaLedger};
+use crate::error::Error;
+use crate::height::{saturate, Saturation};
+
+/// What settled the rank.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+#[non_exhaustive]
+pub enum RankProof {
+    /// The descent's bounds meet.
+    Descent,
+    /// An analytic theorem (the descent's bounds did not meet, or agree).
+    Analytic(RankTheorem),
+}
+
+impl RankProof {
+    /// The JSON word: "descent" or "analytic".
+    pub fn word(&self) -> &'static str {
+        match self {
+            RankProof::Descent => "descent",
+            RankProof::Analytic(_) => "analytic",
+        }
+    }
+}
+
+/// The ledger's comparison with the 2-part of Sha proven by the descent.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub struct ShaTwoPart {
+    /// dim Ш(E)[2] = dim Sel²(E) − dim E(Q)[2] − rank (proven).
+    pub descent_dimension: usize,
+    /// v_2 of the nearest square to Sha_an, when Sha_an is within its
+    /// error of a positive integer square.
+    pub analytic_valuation: Option<u32>,
+    /// True when 2^descent_dimension divides the square (consistent), or
+    /// when there is no square to compare.
+    pub consistent: bool,
+}
+
+/// Everything after the descent (fields of the report).
+#[derive(Clone, Debug, Default, PartialEq)]
+pub(crate) struct GlobalFacts {
+    pub(crate) analytic: Option<AnalyticData>,
+    pub(crate) saturation: Option<Saturation>,
+    pub(crate) ledger: Option<ShaLedger>,
+    pub(crate) sha_two_part: Option<ShaTwoPart>,
+    pub(crate) settled_by: Option<RankProof>,
+    pub(crate) conflict: Option<String>,
+    /// ĥ of the descent's points when saturation did not run.
+    pub(crate) point_heights: Vec<crate::height::Certified>,
+}
+
+fn note_stop(report: &mut DescentReport, step: &str, e: &Error) {
+    if report.completion.is_complete() {
+        report.completion = Completion::Partial {
+            step: step.to_string(),
+            reason: e.to_string(),
+        };
+    }
+}
+
+/// Runs steps 1–3 of the module docs on a finished descent report.
+pub(crate) fn complete(
+    report: &mut DescentReport,
+    options: &DescentOptions,
+    deadline: Option<std::time::Instant>,
+) {
+    if report.bounds.is_decided() {
+        report.global.settled_by = Some(RankProof::Descent);
+    }
+    if let Some(aopts) = &options.analytic {
+        let mut budget = options.budget(options.global_units, deadline);
+        match analytic::analyse(&report.curve, &report.local_data, aopts, &mut budget) {
+            Ok(a) => {
+                if let Some((r, theorem)) = a.rank_proven() {
+                    let b = report.bounds;
+                    if r < b.lower || r > b.upper {
+                        report.global.conflict = Some(format!(
+                            "{} gives rank {r}, outside the descent's proven bounds [{}, {}]",
+                            theorem.name(),
+                            b.lower,
+                            b.upper
+                        ));
+                    } else if !b.is_decided() {
+                        report.bounds = RankBounds { lower: r, upper: r };
+                        report.global.settled_by = Some(RankProof::Analytic(theorem));
+                    }
+                }
+                report.global.analytic = Some(a);
+            }
+            Err(e) => note_stop(report, "analytic side", &e),
+        }
+    }
+    let rank = report.bounds.lower;
+    if let Some(sopts) = &options.saturation {
+        if report.bounds.is_decided() && rank > 0 && report.points.len() == rank {
+            let mut budget = options.budget(options.global_units, deadline);
+            match saturate(&report.curve, &report.points, sopts, &mut budget) {
+                Ok(s) => report.global.saturation = Some(s),
+                Err(e) => note_stop(report, "saturation", &e),
+            }
+        }
+    }
+    if report.global.saturation.is_none() && !report.points.is_empty() {
+        report.global.point_heights = report
+            .points
+            .iter()
+            .map_while(|p| crate::height::canonical_height(&report.curve, p).ok())
+            .collect();
+    }
+    ledger(report);
+}
+
+fn ledger(report: &mut DescentReport) {
+    let Some(a) = &report.global.analytic else {
+        return;
+    };
+    if !report.bounds.is_decided() || report.global.conflict.is_some() {
+        return;
+    }
+    let rank = report.bounds.lower;
+    let regulator = if rank == 0 {
+        None
+    } else {
+        match &report.global.saturation {
+            Some(s) if s.proven_saturated && s.generators.len() == rank => {
+                match analytic::Certified::new(s.regulator.value, s.regulator.error) {
+                    Ok(c) => Some(c),
+                    Err(_) => return,
+                }
+            }
+            _ => return,
+        }
+    };
+    let tamagawa: BigInt = report
+        .local_data
+        .primes
+        .iter()
+        .map(|p| BigInt::from(p.tamagawa))
+        .product();
+    let Some(l) = analytic::sha_analytic(a, rank, report.torsion.order(), &tamagawa, regulator)
+    else {
+        return;
+    };
+    if let Some(s2) = report.selmer2_rank {
+        let (_, n2) = report.torsion.structure();
+        let t2 = if n2 <= 1 { 1 } else { 2 };
+        let dim = s2.saturating_sub(t2 + rank);
+        let val = l
+            .nearest_square
+            .filter(|&s| l.is_square_within_error && s > 0)
+            .map(|s| s.trailing_zeros());
+        report.global.sha_two_part = Some(ShaTwoPart {
+            descent_dimension: dim,
+            analytic_valuation: val,
+            consistent: val.map_or(true, |v| v as usize >= dim),
+        });
+        if let Some(v) = val {
+            if (v as usize) < dim {
+                report.global.conflict = Some(format!(
+                    "the descent proves dim Ш(E)[2] = {dim}, but the analytic order of Sha has 2-adic valuation {v}"
+                ));
+            }
+        }
+    }
+    report.global.ledger = Some(l);
+}
