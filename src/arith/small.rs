@@ -275,8 +275,9 @@ pub(crate) fn rho_brent_u64(n: u64, c: u64, max_iter: u64) -> Option<u64> {
 }
 
 /// A proper divisor of the odd composite `n < 2^64` that is not a
-/// perfect square: Hart's method for `n < 2^42` (a few hundred
-/// iterations), then Pollard–Brent rho with `c = 1, 2, …`.
+/// perfect square: Hart's method for `n < 2^42` (256 iterations), a few
+/// small ECM curves for larger `n`, then Pollard–Brent rho with
+/// `c = 1, 2, …`.
 ///
 /// Cost: rho needs about `√p` iterations for the least prime `p | n`, so
 /// at most about `2^17` Montgomery multiplications.
@@ -285,6 +286,8 @@ pub(crate) fn split_u64(n: u64) -> u64 {
         if let Some(d) = hart_olf(n, 256) {
             return d;
         }
+    } else if let Some(d) = ecm_u64(n) {
+        return d;
     }
     for c in 1..u64::MAX {
         if let Some(d) = rho_brent_u64(n, c, 1 << 24) {
@@ -292,6 +295,22 @@ pub(crate) fn split_u64(n: u64) -> u64 {
         }
     }
     n
+}
+
+/// ECM tiers `(B1, curves)` for word-size composites of at least 42
+/// bits, whose least prime factor has 6–10 digits here.
+const ECM_U64_TIERS: [(u64, u32); 3] = [(60, 8), (150, 16), (400, 24)];
+
+/// A few ECM curves \[Lenstra87\] with small bounds on the odd composite
+/// `n < 2^64` (the generic one-word Montgomery ring of
+/// `super::mont`); `None` when they all fail.
+fn ecm_u64(n: u64) -> Option<u64> {
+    let ring = super::mont::Mont::<1>::from_limbs([n]);
+    let mut budget = crate::budget::Budget::unlimited();
+    match super::ecm::ecm_tiers(&ring, &ECM_U64_TIERS, &mut budget) {
+        super::rho::Split::Found(d) => num_traits::ToPrimitive::to_u64(&d),
+        _ => None,
+    }
 }
 
 #[cfg(test)]
