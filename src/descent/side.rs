@@ -810,3 +810,21 @@ fn search_coset(
     }
     Ok(None)
 }
+
+#[cfg(test)]
+mod tests {
+    use super::Combinations;
+
+    #[test]
+    fn cosets_are_visited_by_size_then_lexicographically_and_all_once() {
+        let all: Vec<Vec<usize>> = Combinations::new(4).collect();
+        assert_eq!(all.len(), 15); // 2^4 − 1 nonempty subsets (common practice)
+        assert_eq!(&all[..5], &[vec![0], vec![1], vec![2], vec![3], vec![0, 1]]);
+        assert_eq!(all.last(), Some(&vec![0, 1, 2, 3]));
+        let mut sorted = all.clone();
+        sorted.sort();
+        sorted.dedup();
+        assert_eq!(sorted.len(), 15);
+        assert_eq!(Combinations::new(0).count(), 0);
+    }
+}
