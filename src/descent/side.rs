@@ -9,9 +9,15 @@
 //! The computation: (1) local images W_v at R, 2 and every prime of
 //! b(a² − 4b) from the quartic layer; (2) the Selmer group as the preimage
 //! of their product ([`crate::selmer::group`]); (3) K = span of α(torsion);
-//! (4) for each coset of Sel/K (in a fixed order) search a few of its
-//! representatives for a point, adding its class to K when found;
-//! (5) an adapted basis of Sel: torsion images, point images, the rest.
+//! (4) the lifting pairing and its kernel I ⊇ α(E(Q)) (the second descent
+//! as linear algebra, [`crate::selmer::pairing`]); (5) for at most
+//! `max_classes_searched` cosets of I/K (Sel/K with the second descent
+//! off), in a fixed order, search a few representatives for a point,
+//! adding its class to K when found; (6) with the second descent on, the
+//! 4-covering route on the soluble twists of the classes of I/K, and on a
+//! few classes outside I for re-checkable evidence; (7) an adapted basis
+//! of Sel: torsion images, point images, proven classes, the rest of I,
+//! the rest of Sel (see docs/second_descent.md §10).
 
 use std::time::Instant;
 
