@@ -309,10 +309,11 @@ pub fn compute_side(
     // The lifting pairing: its own budget, so a failure leaves the first
     // descent intact.
     let mut pairing_budget = options.budget(options.local_units, deadline);
-    let (pairing, pairing_error) = match lift_pairing(a, b, &qs2, &group, &mut pairing_budget) {
-        Ok(p) => (Some(p), None),
-        Err(e) => (None, Some(e.to_string())),
-    };
+    let (pairing, pairing_error) =
+        match lift_pairing(a, b, &qs2, &group, &known, &mut pairing_budget) {
+            Ok(p) => (Some(p), None),
+            Err(e) => (None, Some(e.to_string())),
+        };
     if let Some(p) = &pairing {
         if !known.basis().iter().all(|v| p.liftable.contains(v)) {
             return Err(Error::InvalidArgument {
