@@ -68,6 +68,7 @@ fn bench(c: &mut Criterion) {
                 &side.b,
                 &side.qs2,
                 &side.group,
+                &side.known,
                 &mut Budget::unlimited(),
             )
             .unwrap()

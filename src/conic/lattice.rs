@@ -259,6 +259,11 @@ impl Level<'_> {
         let hi = (&y_max - &c).div_floor(di1);
         let mut x = lo;
         while x <= hi {
+            // every candidate costs, at the innermost level too (where the
+            // recursion returns before charging): the range can be long.
+            budget
+                .spend(1)
+                .map_err(|_| exhausted("short-vector enumeration"))?;
             let y = di1 * &x + &c;
             coords[i] = x.clone();
             let num2 = &num * &dd - &y * &y * &den;

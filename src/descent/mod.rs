@@ -46,7 +46,7 @@ pub use verify::{verify_report, Verification};
 
 use crate::arith::factor;
 use crate::curve::{
-    torsion_subgroup, two_torsion_model_with_budget, two_torsion_points, Curve, Point,
+    torsion_subgroup, two_torsion_model_with_budget, two_torsion_points_with_budget, Curve, Point,
     TorsionGroup, TwoIsogeny, TwoTorsionModel,
 };
 use crate::error::{Error, Result};
@@ -250,7 +250,8 @@ fn descend_isogeny_with_torsion(
 pub fn descend(curve: &Curve, options: &DescentOptions) -> Result<DescentReport> {
     let started = Instant::now();
     let deadline = options.time_limit.map(|d| started + d);
-    let ts = two_torsion_points(curve);
+    let mut root_budget = options.budget(options.factor_units, deadline);
+    let ts = two_torsion_points_with_budget(curve, &mut root_budget)?;
     if ts.is_empty() {
         return Err(Error::NoTwoTorsion);
     }

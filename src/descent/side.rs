@@ -9,9 +9,15 @@
 //! The computation: (1) local images W_v at R, 2 and every prime of
 //! b(a² − 4b) from the quartic layer; (2) the Selmer group as the preimage
 //! of their product ([`crate::selmer::group`]); (3) K = span of α(torsion);
-//! (4) for each coset of Sel/K (in a fixed order) search a few of its
-//! representatives for a point, adding its class to K when found;
-//! (5) an adapted basis of Sel: torsion images, point images, the rest.
+//! (4) the lifting pairing and its kernel I ⊇ α(E(Q)) (the second descent
+//! as linear algebra, [`crate::selmer::pairing`]); (5) for at most
+//! `max_classes_searched` cosets of I/K (Sel/K with the second descent
+//! off), in a fixed order, search a few representatives for a point,
+//! adding its class to K when found; (6) with the second descent on, the
+//! 4-covering route on the soluble twists of the classes of I/K, and on a
+//! few classes outside I for re-checkable evidence; (7) an adapted basis
+//! of Sel: torsion images, point images, proven classes, the rest of I,
+//! the rest of Sel (see docs/second_descent.md §10).
 
 use std::time::Instant;
 
@@ -303,10 +309,11 @@ pub fn compute_side(
     // The lifting pairing: its own budget, so a failure leaves the first
     // descent intact.
     let mut pairing_budget = options.budget(options.local_units, deadline);
-    let (pairing, pairing_error) = match lift_pairing(a, b, &qs2, &group, &mut pairing_budget) {
-        Ok(p) => (Some(p), None),
-        Err(e) => (None, Some(e.to_string())),
-    };
+    let (pairing, pairing_error) =
+        match lift_pairing(a, b, &qs2, &group, &known, &mut pairing_budget) {
+            Ok(p) => (Some(p), None),
+            Err(e) => (None, Some(e.to_string())),
+        };
     if let Some(p) = &pairing {
         if !known.basis().iter().all(|v| p.liftable.contains(v)) {
             return Err(Error::InvalidArgument {
@@ -809,4 +816,22 @@ fn search_coset(
         }
     }
     Ok(None)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::Combinations;
+
+    #[test]
+    fn cosets_are_visited_by_size_then_lexicographically_and_all_once() {
+        let all: Vec<Vec<usize>> = Combinations::new(4).collect();
+        assert_eq!(all.len(), 15); // 2^4 − 1 nonempty subsets (common practice)
+        assert_eq!(&all[..5], &[vec![0], vec![1], vec![2], vec![3], vec![0, 1]]);
+        assert_eq!(all.last(), Some(&vec![0, 1, 2, 3]));
+        let mut sorted = all.clone();
+        sorted.sort();
+        sorted.dedup();
+        assert_eq!(sorted.len(), 15);
+        assert_eq!(Combinations::new(0).count(), 0);
+    }
 }

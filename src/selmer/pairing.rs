@@ -107,9 +107,14 @@ impl ClassLift {
 /// The pairing on one Selmer group and its kernel.
 #[derive(Clone, Debug, PartialEq, Eq)]
 pub struct LiftPairing {
-    /// The basis `d₁, …, dₙ` of the Selmer group used (coordinate vectors).
+    /// The basis `d₁, …, dₙ` of the Selmer group used (coordinate vectors):
+    /// first `known_count` classes known to be images of rational points
+    /// (their rows are zero: an image lifts to `Sel²`), then the rest.
     pub basis: Vec<BitVec>,
-    /// The evidence per basis class, in the order of `basis`.
+    /// How many leading basis classes are known images.
+    pub known_count: usize,
+    /// The evidence for the basis classes after the known images, in the
+    /// order of `basis[known_count..]`.
     pub lifts: Vec<ClassLift>,
     /// Row `i` is `(⟨dᵢ, dⱼ⟩)_j` (bit set means −1).
     pub matrix: Vec<BitVec>,
@@ -130,6 +135,9 @@ impl LiftPairing {
         (0..n).all(|i| (0..n).all(|j| self.matrix[i].get(j) == self.matrix[j].get(i)))
     }
 }
+
+/// Work units allowed to one conic solution inside the pairing.
+pub const CONIC_UNITS: u64 = 200_000;
 
 fn spend(budget: &mut Budget, units: u64) -> Result<()> {
     budget.spend(units).map_err(|_| Error::BudgetExhausted {
@@ -422,8 +430,16 @@ fn class_lift_with(
         Some(p) => p,
         None => {
             let primes: Vec<BigInt> = qs2.primes().iter().map(|p| p.get().clone()).collect();
+            // The conic gets its own cap (charged to `budget` afterwards),
+            // so one hard conic cannot take the whole allowance.
+            let cap = budget
+                .remaining()
+                .map_or(CONIC_UNITS, |r| r.min(CONIC_UNITS));
+            let mut sub = Budget::with_units(cap);
             let sol =
-                solve_diagonal_with_primes(&BigInt::one(), &(-d), &(-&delta), &primes, budget)?;
+                solve_diagonal_with_primes(&BigInt::one(), &(-d), &(-&delta), &primes, &mut sub);
+            spend(budget, sub.spent().min(cap))?;
+            let sol = sol?;
             let Some(p0) = sol.point().cloned() else {
                 return Err(Error::InvalidArgument {
                     reason: format!(
@@ -466,22 +482,28 @@ fn class_lift_with(
 ///
 /// # Errors
 /// As [`class_lift`] for each basis class.
+/// `known` must be a subspace of `group` made of images of rational points
+/// (torsion images, say): they lie in the kernel, their rows are zero and
+/// no conic is solved for them.
 pub fn lift_pairing(
     a: &BigInt,
     b: &BigInt,
     qs2: &QS2,
     group: &Subspace,
+    known: &Subspace,
     budget: &mut Budget,
 ) -> Result<LiftPairing> {
     let table = basis_classes(qs2, budget)?;
-    let basis: Vec<BitVec> = group.basis().to_vec();
-    let mut lifts = Vec::with_capacity(basis.len());
-    for v in &basis {
+    let mut basis: Vec<BitVec> = known.basis().to_vec();
+    let known_count = basis.len();
+    basis.extend(known.complement_in(group));
+    let mut lifts = Vec::with_capacity(basis.len() - known_count);
+    for v in &basis[known_count..] {
         let d = qs2.integer(v);
         lifts.push(class_lift_with(a, b, &d, qs2, &table, budget)?);
     }
     let n = basis.len();
-    let mut matrix = Vec::with_capacity(n);
+    let mut matrix = vec![BitVec::zeros(n); known_count];
     for l in &lifts {
         let mut row = BitVec::zeros(n);
         for (j, w) in basis.iter().enumerate() {
@@ -509,6 +531,7 @@ pub fn lift_pairing(
     );
     Ok(LiftPairing {
         basis,
+        known_count,
         lifts,
         matrix,
         liftable,
