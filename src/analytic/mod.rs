@@ -1,4 +1,4 @@
-//! The analytic side: the L-series `L(E, s) = Σ a_n n^{−s}` of an elliptic
+//! Layer 3a: the analytic side — the L-series `L(E, s) = Σ a_n n^{−s}` of an elliptic
 //! curve over Q, its root number, the real period, the values
 //! `L^{(r)}(E, 1)` for `r ≤ 3` with proven error bounds, ranks settled by
 //! theorem, and the Birch–Swinnerton-Dyer ledger.

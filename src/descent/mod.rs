@@ -1,4 +1,4 @@
-//! Layer 6: the descent end to end — exact-sequence bookkeeping, rank
+//! Layer 7: the descent end to end — exact-sequence bookkeeping, rank
 //! bounds, points on the input model, and reports.
 //!
 //! [`descend`] takes any Weierstrass model over Q with a rational point of

@@ -1,4 +1,4 @@
-//! Canonical heights, the height pairing, the regulator, and saturation
+//! Layer 3b: canonical heights, the height pairing, the regulator, and saturation
 //! of a set of independent points (the Mordell–Weil lattice).
 //!
 //! # Normalisation

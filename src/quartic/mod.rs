@@ -1,4 +1,4 @@
-//! Layer 4: quartic homogeneous spaces `y² = g(x, z)`.
+//! Layer 5: quartic homogeneous spaces `y² = g(x, z)`.
 //!
 //! For `E: y² = x³ + ax² + bx` and `d ≠ 0`, the homogeneous space
 //! `C_d: N² = dM⁴ + aM²e² + (b/d)e⁴` has a rational point with `e ≠ 0` iff

@@ -1,4 +1,4 @@
-//! Layer 5: Selmer groups as F2 vector spaces.
+//! Layer 6: Selmer groups as F2 vector spaces.
 //!
 //! [`f2`] holds bit-packed linear algebra over F2; [`qs2`] the group
 //! Q(S, 2) of classes of Q*/Q*^2 unramified outside S, with basis {−1} ∪ S;
