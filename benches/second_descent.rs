@@ -23,7 +23,7 @@ use isodescent::descent::{descend, descend_isogeny, DescentOptions};
 use isodescent::quartic::{
     second_descent, verify_obstruction, SecondDescentOptions, SecondDescentOutcome,
 };
-use isodescent::selmer::pairing::lift_pairing;
+use isodescent::selmer::lift_pairing;
 use isodescent::Budget;
 use num_bigint::BigInt;
 

@@ -81,8 +81,8 @@ fn parse_args() -> Result<(Mode, DescentOptions, Detail), String> {
         match a.as_str() {
             "--json" => mode = Mode::Json,
             "--space-height" => options.search_height = number("--space-height")?,
-            "--covering-height" => options.second_search_height = number("--covering-height")?,
-            "--skip-coverings" => options.second_descent = false,
+            "--covering-height" => options.covering_search_height = number("--covering-height")?,
+            "--skip-coverings" => options.four_coverings = false,
             "--all-evidence" => detail = Detail::Full,
             "--search-work" => options.search_units = number("--search-work")?,
             "--local-work" => options.local_units = number("--local-work")?,

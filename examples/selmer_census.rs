@@ -50,7 +50,7 @@ fn main() -> ExitCode {
         "local-only" => DescentOptions::default().local_conditions_only(),
         "first" => DescentOptions::default()
             .descent_only()
-            .with_second_descent(false),
+            .with_four_coverings(false),
         "descent" => DescentOptions::default().descent_only(),
         "full" => DescentOptions::default(),
         other => {

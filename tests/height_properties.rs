@@ -3,7 +3,7 @@
 //! curves with small coefficients).
 
 use isodescent::curve::{torsion_subgroup, Curve, Point};
-use isodescent::height::{bounds, naive_height, Certified, HeightContext};
+use isodescent::height::{difference_bounds, naive_height, Certified, HeightContext};
 use isodescent::Budget;
 use num_bigint::BigInt;
 use proptest::prelude::*;
@@ -156,7 +156,7 @@ proptest! {
         k in 0usize..CURVES.len(), c in coeffs(), t in 0usize..8
     ) {
         let d = &data()[k];
-        let b = bounds::difference_bounds(&d.ctx);
+        let b = difference_bounds(&d.ctx);
         let p = point(d, &c, t);
         let hp = h(d, &p);
         let nh = naive_height(&d.ctx.to_minimal().to_new(&p));
@@ -187,7 +187,7 @@ fn torsion_points_have_height_zero() {
 #[test]
 fn the_limit_definition_agrees_with_the_local_height_sum() {
     for d in data() {
-        let b = bounds::difference_bounds(&d.ctx);
+        let b = difference_bounds(&d.ctx);
         let bmax = b.naive_minus_canonical.max(b.canonical_minus_naive);
         for (i, g) in d.gens.iter().enumerate() {
             let p = d.curve.add(g, &d.torsion[i % d.torsion.len()]);

@@ -38,7 +38,7 @@ fn small_options() -> DescentOptions {
     o.search_units = 2_000_000;
     o.local_units = 2_000_000;
     o.factor_units = 2_000_000;
-    o.second_descent = false;
+    o.four_coverings = false;
     o
 }
 

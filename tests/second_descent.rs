@@ -81,7 +81,7 @@ fn the_lind_reichardt_class_is_locally_soluble_everywhere_and_left_undecided_by_
     let desc = descend_isogeny(
         &c,
         &Point::from_ints(0, 0),
-        &DescentOptions::default().with_second_descent(false),
+        &DescentOptions::default().with_four_coverings(false),
     )
     .unwrap();
     let undecided: Vec<&BigInt> = desc

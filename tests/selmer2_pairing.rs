@@ -9,8 +9,8 @@ use isodescent::descent::{
 use isodescent::local::class_representatives;
 use isodescent::local::hilbert_symbol_int;
 use isodescent::quartic::{second_descent, SecondDescentOptions, SecondDescentOutcome};
-use isodescent::selmer::f2::BitVec;
-use isodescent::selmer::pairing::{class_lift, verify_class_lift};
+use isodescent::selmer::BitVec;
+use isodescent::selmer::{class_lift, verify_class_lift};
 use isodescent::Budget;
 use num_bigint::BigInt;
 
@@ -483,7 +483,7 @@ fn the_pairing_matrix_is_symmetric() {
 fn a_class_outside_the_selmer_group_is_a_typed_error() {
     // y² = x³ − x: d = 3 does not divide b; d = −1 on y² = x³ + x is not
     // soluble over R (N² = −M⁴ − e⁴).
-    let q = isodescent::selmer::qs2::QS2::new(vec![isodescent::local::Prime::two()]);
+    let q = isodescent::selmer::QS2::new(vec![isodescent::local::Prime::two()]);
     let r = class_lift(
         &0.into(),
         &(-1).into(),
@@ -518,8 +518,8 @@ fn a_class_outside_the_selmer_group_is_a_typed_error() {
 /// small Selmer group of a box of curves.
 #[test]
 fn the_soluble_twists_exist_exactly_for_the_kernel_of_the_pairing() {
-    use isodescent::selmer::group::LocalCondition;
-    use isodescent::selmer::pairing::soluble_twists;
+    use isodescent::selmer::LocalCondition;
+    use isodescent::selmer::soluble_twists;
     let (mut with, mut without) = (0, 0);
     for (a, b) in box_curves(9) {
         let d = isogeny_of(a, b, &DescentOptions::default().local_conditions_only());

@@ -66,9 +66,9 @@ fuzz_target!(|data: &[u8]| {
     options.search_units = 500_000;
     options.local_units = 2_000_000;
     options.factor_units = 2_000_000;
-    options.second_descent = data.get(11).is_some_and(|b| b & 1 == 1);
-    options.second_descent_units = 1_000_000;
-    options.second_search_height = 8;
+    options.four_coverings = data.get(11).is_some_and(|b| b & 1 == 1);
+    options.covering_units = 1_000_000;
+    options.covering_search_height = 8;
     match descend(&curve, &options) {
         Ok(report) => {
             for p in report.points() {

@@ -33,9 +33,9 @@ fuzz_target!(|data: &[u8]| {
     options.search_units = 1_000 * u64::from(data[1] % 64 + 1);
     options.local_units = 200_000;
     options.factor_units = 200_000;
-    options.second_descent = data[0] & 0x80 != 0;
-    options.second_descent_units = 200_000;
-    options.second_search_height = 8;
+    options.four_coverings = data[0] & 0x80 != 0;
+    options.covering_units = 200_000;
+    options.covering_search_height = 8;
     for raw in data[2..].split(|&b| b == b'\n').take(4) {
         let Some(out) = json_for_bytes(raw, &options, Detail::Summary) else {
             continue;

@@ -38,12 +38,12 @@
 //! [`DEFAULT_CONDUCTOR_LIMIT`]; see `docs/analytic.md`.
 
 mod bsgs;
-pub mod certified;
-pub mod coefficients;
-pub mod ledger;
-pub mod period;
-pub mod root_number;
-pub mod series;
+pub(crate) mod certified;
+pub(crate) mod coefficients;
+pub(crate) mod ledger;
+pub(crate) mod period;
+pub(crate) mod root_number;
+pub(crate) mod series;
 
 use num_bigint::BigInt;
 use num_traits::{One, ToPrimitive};

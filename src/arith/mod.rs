@@ -10,15 +10,15 @@
 //! * [`squarefree`]: square-free parts and kernels.
 
 pub(crate) mod ecm;
-pub mod factor;
+pub(crate) mod factor;
 pub(crate) mod meter;
 pub(crate) mod mont;
-pub mod prime;
+pub(crate) mod prime;
 pub(crate) mod rho;
-pub mod roots;
+pub(crate) mod roots;
 pub(crate) mod siqs;
 pub(crate) mod small;
-pub mod squarefree;
+pub(crate) mod squarefree;
 
 pub use factor::{factor, factor_u64, Factorization};
 pub use prime::{

@@ -82,7 +82,7 @@ impl Kodaira {
     /// This is the `m_p` of Ogg's formula `v_p(Δ_min) = f_p + m_p − 1`.
     ///
     /// ```
-    /// use isodescent::curve::tate::Kodaira;
+    /// use isodescent::curve::Kodaira;
     /// assert_eq!(Kodaira::InStar(3).component_count(), 8);
     /// ```
     pub fn component_count(&self) -> u64 {
@@ -202,7 +202,7 @@ pub struct IntegralInvariants {
 ///
 /// Example: `y² + y = x³ − x` has `Δ = 37`, `c4 = 48`, `c6 = −216`.
 /// ```
-/// use isodescent::curve::tate::integral_invariants;
+/// use isodescent::curve::integral_invariants;
 /// let i = integral_invariants(&[0, 0, 1, -1, 0].map(Into::into));
 /// assert_eq!(i.discriminant, 37.into());
 /// assert_eq!(i.c4, 48.into());
@@ -880,7 +880,7 @@ fn subprocedure_in_star(run: &mut Run<'_>, disc_val: u64) -> Result<(u64, u64)> 
 /// `y² + y = x³ − x² − 10x − 20` has `Δ = −11⁵`; at 11 it is split
 /// multiplicative of type I5 with `c_11 = 5` (from memory):
 /// ```
-/// use isodescent::curve::tate::{local_reduction, Kodaira};
+/// use isodescent::curve::{local_reduction, Kodaira};
 /// use isodescent::local::Prime;
 /// let a = [0, -1, 1, -10, -20].map(Into::into);
 /// let lr = local_reduction(&a, &Prime::small(11).unwrap()).unwrap();
@@ -1009,7 +1009,7 @@ fn normalising_shift(a: &[BigInt; 5]) -> (BigInt, BigInt, BigInt) {
 /// # Example
 /// `y² = x³ − x` has conductor 32 (from memory):
 /// ```
-/// use isodescent::curve::tate::global_local_data;
+/// use isodescent::curve::global_local_data;
 /// use isodescent::Budget;
 /// use num_rational::BigRational;
 /// let a = [0, 0, 0, -1, 0].map(|c: i64| BigRational::from_integer(c.into()));
@@ -1131,7 +1131,7 @@ fn relative_to_input(
 /// `y² = x³ − x/16` is `y² = x³ − x` with `u = 1/2`; at 2 it is type III
 /// and not minimal:
 /// ```
-/// use isodescent::curve::tate::{local_reduction_rational, Kodaira};
+/// use isodescent::curve::{local_reduction_rational, Kodaira};
 /// use isodescent::local::Prime;
 /// use num_rational::BigRational;
 /// let mut a = [0, 0, 0, 0, 0].map(|c: i64| BigRational::from_integer(c.into()));

@@ -32,12 +32,14 @@ pub struct DescentOptions {
     pub max_classes_searched: usize,
     /// Most representatives searched inside one coset.
     pub representatives_per_class: usize,
-    /// Run the second descent on classes the first one leaves undecided.
-    pub second_descent: bool,
+    /// Run the second descent on classes the first one leaves undecided:
+    /// the lifting pairing (the exact bound) and, for a few classes, the
+    /// 4-coverings (points and re-checkable evidence).
+    pub four_coverings: bool,
     /// Height bound for the searches on the 4-coverings of the second descent.
-    pub second_search_height: u64,
+    pub covering_search_height: u64,
     /// Work units for the whole second descent of one side (all its classes).
-    pub second_descent_units: u64,
+    pub covering_units: u64,
     /// Optional wall-clock limit for one curve, on top of the unit budgets.
     /// A run that hits it is, by nature, not reproducible; `None` (the
     /// default) keeps every result deterministic.
@@ -62,9 +64,9 @@ impl Default for DescentOptions {
             search_units: 200_000_000,
             max_classes_searched: 64,
             representatives_per_class: 4,
-            second_descent: true,
-            second_search_height: 64,
-            second_descent_units: 100_000_000,
+            four_coverings: true,
+            covering_search_height: 64,
+            covering_units: 100_000_000,
             time_limit: None,
             analytic: Some(AnalyticOptions::default()),
             saturation: Some(SaturationOptions::default()),
@@ -81,7 +83,7 @@ impl DescentOptions {
     /// torsion-image dimensions.
     pub fn local_conditions_only(mut self) -> Self {
         self.max_classes_searched = 0;
-        self.second_descent = false;
+        self.four_coverings = false;
         self.analytic = None;
         self.saturation = None;
         self
@@ -123,8 +125,8 @@ impl DescentOptions {
     }
 
     /// Defaults with the second descent switched on or off.
-    pub fn with_second_descent(mut self, on: bool) -> Self {
-        self.second_descent = on;
+    pub fn with_four_coverings(mut self, on: bool) -> Self {
+        self.four_coverings = on;
         self
     }
 }

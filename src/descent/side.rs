@@ -323,7 +323,7 @@ pub fn compute_side(
             });
         }
     }
-    let use_pairing = options.second_descent && pairing.is_some();
+    let use_pairing = options.four_coverings && pairing.is_some();
     let space = match (&pairing, use_pairing) {
         (Some(p), true) => p.liftable.clone(),
         _ => group.clone(),
@@ -348,7 +348,7 @@ pub fn compute_side(
     )?;
     let mut second_descent_runs = Vec::new();
     let mut proven: Vec<(BitVec, ClassStatus)> = Vec::new();
-    if options.second_descent {
+    if options.four_coverings {
         run_second_descent(
             a,
             b,
@@ -397,7 +397,7 @@ pub fn compute_side(
     }
     let image_upper = if use_pairing {
         space.dim()
-    } else if options.second_descent && !proven.is_empty() {
+    } else if options.four_coverings && !proven.is_empty() {
         // A proven class v ∉ K is outside the image with its whole coset
         // v + K, so the image mod K is a proper subspace of Sel/K.
         group.dim().saturating_sub(1)
@@ -560,11 +560,11 @@ fn run_second_descent(
     deadline: Option<Instant>,
 ) -> Result<()> {
     let mut sd_options =
-        SecondDescentOptions::default().with_search_height(options.second_search_height);
+        SecondDescentOptions::default().with_search_height(options.covering_search_height);
     sd_options.max_twists = sd_options.max_twists.min(DESCENT_MAX_TWISTS);
     // One budget for the whole side, so the cost cannot grow with the
     // number of classes.
-    let mut budget = options.budget(options.second_descent_units, deadline);
+    let mut budget = options.budget(options.covering_units, deadline);
     let liftable = pairing.map(|p| &p.liftable);
     let mut tried = 0usize;
     let mut done: Vec<BigInt> = Vec::new();

@@ -36,11 +36,11 @@
 // Matrix code reads best with explicit indices.
 #![allow(clippy::needless_range_loop)]
 
-pub mod bounds;
+pub(crate) mod bounds;
 mod lll;
 mod local;
 mod projective;
-pub mod saturate;
+pub(crate) mod saturate;
 
 use std::fmt;
 
@@ -52,6 +52,7 @@ use crate::curve::tate::ReductionKind;
 use crate::curve::{Curve, ModelChange, Point};
 use crate::error::{Error, Result};
 
+pub use bounds::{difference_bounds, height_lower_bound, DifferenceBounds, HeightLowerBound};
 pub use saturate::{saturate, Saturation, SaturationOptions};
 
 use local::{Archimedean, BadPrime};

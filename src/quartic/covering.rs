@@ -969,7 +969,7 @@ fn examine_twist(
 /// no point of height ≤ 128 on `C_53`, but a 4-covering yields
 /// `(M, e) = (119, 143)`, i.e. `x = 53·119²/143² = 750533/20449`.
 /// ```
-/// use isodescent::quartic::covering::{second_descent, SecondDescentOptions, SecondDescentOutcome};
+/// use isodescent::quartic::{second_descent, SecondDescentOptions, SecondDescentOutcome};
 /// use isodescent::Budget;
 /// use num_bigint::BigInt;
 /// let out = second_descent(&BigInt::from(0), &BigInt::from(-68), &BigInt::from(2),

@@ -336,7 +336,7 @@ impl SearchOptions {
 /// first point is `(−1, 1, 3)`.
 ///
 /// ```
-/// use isodescent::quartic::search::{search, SearchOptions, SearchOutcome};
+/// use isodescent::quartic::{search, SearchOptions, SearchOutcome};
 /// use isodescent::Budget;
 /// use num_bigint::BigInt;
 /// let g = [2, 0, 0, 0, 7].map(BigInt::from);

@@ -7,8 +7,22 @@
 //! subgroup of classes that lift to everywhere locally soluble 2-coverings
 //! (the second descent as linear algebra).
 
-pub mod f2;
-pub mod group;
-pub mod local_count;
-pub mod pairing;
-pub mod qs2;
+#[allow(dead_code)]
+pub(crate) mod f2;
+pub(crate) mod group;
+// Cross-check functions: used by debug assertions and the unit tests in `checks`.
+#[allow(dead_code)]
+pub(crate) mod local_count;
+pub(crate) mod pairing;
+pub(crate) mod qs2;
+
+#[cfg(test)]
+mod checks;
+
+pub use f2::{BitVec, Subspace};
+pub use group::{selmer_from_local_images, LocalCondition};
+pub use pairing::{
+    class_lift, lift_pairing, soluble_twists, verify_class_lift, ClassLift, LiftPairing,
+    LocalLiftValue,
+};
+pub use qs2::QS2;

@@ -55,7 +55,7 @@ impl QS2 {
     /// outside S divides n to an odd power.
     ///
     /// ```
-    /// use isodescent::selmer::qs2::QS2;
+    /// use isodescent::selmer::QS2;
     /// use isodescent::local::Prime;
     /// let q = QS2::new(vec![Prime::small(2).unwrap(), Prime::small(5).unwrap()]);
     /// assert_eq!(q.vector(&(-20).into()).unwrap().to_string(), "101");

@@ -7,15 +7,15 @@
 
 use std::time::Instant;
 
-use isodescent::arith::factor_u64;
-use isodescent::curve::{Curve, Point};
-use isodescent::descent::{descend_isogeny, DescentOptions};
-use isodescent::local::{Place, Prime};
-use isodescent::selmer::local_count::{
+use crate::arith::factor_u64;
+use crate::curve::{Curve, Point};
+use crate::descent::{descend_isogeny, DescentOptions};
+use crate::local::{Place, Prime};
+use crate::selmer::local_count::{
     check_local_images, padic_count_terms, selmer_difference_from_images,
     selmer_difference_from_tamagawa,
 };
-use isodescent::Budget;
+use crate::Budget;
 use num_bigint::BigInt;
 
 fn b(n: i64) -> BigInt {

@@ -5,17 +5,17 @@
 //! computed Selmer groups. Bounded families here; the full families are in
 //! `tests/local_count_families.rs` (ignored by default).
 
-use isodescent::arith::factor_u64;
-use isodescent::curve::{Curve, Point, TwoIsogeny};
-use isodescent::descent::{descend_isogeny, DescentOptions};
-use isodescent::local::{valuation_rational, Place, Prime};
-use isodescent::quartic::local_image;
-use isodescent::selmer::local_count::{
+use crate::arith::factor_u64;
+use crate::curve::{Curve, Point, TwoIsogeny};
+use crate::descent::{descend_isogeny, DescentOptions};
+use crate::local::{valuation_rational, Place, Prime};
+use crate::quartic::local_image;
+use crate::selmer::local_count::{
     check_local_images, images_match_prediction, local_images_agree, padic_count_terms,
     predicted_local_image_size, real_count_terms, real_sign_rule, selmer_difference_from_images,
     selmer_difference_from_tamagawa, DUAL_LEADING_COEFFICIENT, ISOGENY_LEADING_COEFFICIENT,
 };
-use isodescent::{Budget, Error};
+use crate::{Budget, Error};
 use num_bigint::BigInt;
 use num_rational::BigRational;
 
@@ -299,7 +299,7 @@ fn singular_models_are_typed_errors() {
         assert!(selmer_difference_from_tamagawa(&b(a), &b(bb), &[]).is_err());
     }
     let e =
-        isodescent::selmer::local_count::odd_prime_count(&b(0), &b(-1), &Prime::two()).unwrap_err();
+        crate::selmer::local_count::odd_prime_count(&b(0), &b(-1), &Prime::two()).unwrap_err();
     assert!(matches!(e, Error::InvalidArgument { .. }));
 }
 
