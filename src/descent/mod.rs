@@ -28,6 +28,7 @@
 //! by heights.
 
 pub(crate) mod bounds;
+pub(crate) mod deep_search;
 pub(crate) mod options;
 pub(crate) mod report;
 pub(crate) mod side;
@@ -37,6 +38,7 @@ use std::time::Instant;
 
 use num_bigint::BigInt;
 
+pub use deep_search::{complete_report_points, search_missing_points, DeepSearchOptions};
 pub use options::DescentOptions;
 pub use report::{Completion, DescentReport, RankBounds};
 pub use side::{ClassStatus, CoveringObstruction, SearchRecord, SelmerElement, SelmerSide};
