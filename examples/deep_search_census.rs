@@ -106,7 +106,11 @@ fn main() {
             }
             println!(
                 "n = {n}: rank {rank}, deep search {} in {:.3} s ({} units)",
-                if ok { "found the points" } else { "found too few" },
+                if ok {
+                    "found the points"
+                } else {
+                    "found too few"
+                },
                 dt.as_secs_f64(),
                 budget.spent()
             );

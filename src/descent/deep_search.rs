@@ -542,7 +542,10 @@ pub fn complete_report_points(
             }
         }
     }
-    let best = hunts.iter().rev().max_by_key(|h| (h.total() >= target_rank, h.total()));
+    let best = hunts
+        .iter()
+        .rev()
+        .max_by_key(|h| (h.total() >= target_rank, h.total()));
     match best {
         Some(h) if h.total() > report.points().len() => {
             let mut all = h.descent.points.clone();
