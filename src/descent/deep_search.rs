@@ -571,8 +571,10 @@ mod tests {
 
     #[test]
     fn bad_options_are_refused() {
-        let mut o = DeepSearchOptions::default();
-        o.growth = 1;
+        let o = DeepSearchOptions {
+            growth: 1,
+            ..DeepSearchOptions::default()
+        };
         assert!(o.check().is_err());
         let o = DeepSearchOptions::default().with_max_covering_height(1);
         assert!(o.check().is_err());
