@@ -6,9 +6,10 @@
 //! points and with proven generators.
 //!
 //! ```text
-//! cargo run --release --example deep_search_census -- [FROM] [TO] [MAX_COVERING_HEIGHT]
+//! cargo run --release --example deep_search_census -- [FROM] [TO] [MAX_COVERING_HEIGHT] [DEEP_MEGA_UNITS]
 //! ```
-//! Defaults: 1 1000 4096. One line per curve that needed the deep search
+//! Defaults: 1 1000 4096 400 (the deep search's budget per curve is
+//! DEEP_MEGA_UNITS·10⁶ work units). One line per curve that needed the deep search
 //! or failed, then a summary.
 
 use std::time::{Duration, Instant};
@@ -30,8 +31,6 @@ fn squarefree(n: i64) -> bool {
     true
 }
 
-/// Work units of the deep search per curve.
-const DEEP_UNITS: u64 = 400_000_000;
 /// Work units of saturation per curve.
 const SATURATION_UNITS: u64 = 2_000_000_000;
 
@@ -43,6 +42,7 @@ fn main() {
     let from = *args.first().unwrap_or(&1) as i64;
     let to = *args.get(1).unwrap_or(&1000) as i64;
     let height = *args.get(2).unwrap_or(&4096);
+    let deep_units = args.get(3).unwrap_or(&400).saturating_mul(1_000_000);
     let deep_options = DeepSearchOptions::default().with_max_covering_height(height);
 
     let (mut positive, mut full_rank, mut generated) = (0usize, 0usize, 0usize);
@@ -92,7 +92,7 @@ fn main() {
         if points.len() < rank {
             needed_deep += 1;
             let t = Instant::now();
-            let mut budget = Budget::with_units(DEEP_UNITS);
+            let mut budget = Budget::with_units(deep_units);
             let result = complete_report_points(&report, rank, &deep_options, &mut budget);
             let dt = t.elapsed();
             t_deep += dt;
