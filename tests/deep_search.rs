@@ -129,3 +129,45 @@ fn nothing_missing_small_budget_and_bad_targets() {
     assert!(got.is_empty(), "{got:?}");
     assert!(got.iter().all(|p| e.contains(p)));
 }
+
+#[test]
+fn new_points_are_independent_of_the_ones_already_found() {
+    // A weak descent (search height 2, no 4-coverings) on congruent-number
+    // curves that the default descent proves to have rank 2: take the
+    // first n ≤ 300 where the weak descent finds exactly one point on some
+    // isogeny, and complete it. Independence of old and new points is
+    // checked a second way, by a certified positive regulator (Silverman,
+    // AEC 2nd ed., VIII.9: the height pairing is positive definite on
+    // E(Q)/E(Q)_tors).
+    let weak = DescentOptions::default()
+        .with_search_height(2)
+        .with_second_descent(false);
+    let mut checked = 0;
+    for n in 1..=300i64 {
+        if (2..=17).any(|k| n % (k * k) == 0) {
+            continue;
+        }
+        let (e, strong) = congruent(n);
+        if !(strong.is_decided() && strong.rank_lower() == 2) {
+            continue;
+        }
+        let r = descend(&e, &weak).unwrap();
+        let Some(iso) = r.isogenies().iter().find(|i| i.points.len() == 1) else {
+            continue;
+        };
+        let mut budget = Budget::with_units(400_000_000);
+        let new =
+            search_missing_points(&e, iso, 2, &DeepSearchOptions::default(), &mut budget).unwrap();
+        assert_eq!(new.len(), 1, "n = {n}");
+        let mut all = iso.points.clone();
+        all.extend(new);
+        assert!(all.iter().all(|p| e.contains(p)), "n = {n}");
+        let reg = regulator(&e, &all).unwrap();
+        assert!(reg.lower() > 0.0, "n = {n}: regulator {reg:?}");
+        checked += 1;
+        if checked == 2 {
+            break;
+        }
+    }
+    assert_eq!(checked, 2);
+}
