@@ -91,7 +91,10 @@ fn the_box_up_to_twelve_is_consistent_and_decided() {
     assert!(with_points > 100);
     // Saturation proves generation on every curve where it has the points
     // and a lower bound for ĥ (docs/heights.md); allow a few without one.
-    assert!(generated * 100 >= with_points * 95, "{generated} of {with_points}");
+    assert!(
+        generated * 100 >= with_points * 95,
+        "{generated} of {with_points}"
+    );
 }
 
 #[test]

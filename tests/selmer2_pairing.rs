@@ -518,8 +518,8 @@ fn a_class_outside_the_selmer_group_is_a_typed_error() {
 /// small Selmer group of a box of curves.
 #[test]
 fn the_soluble_twists_exist_exactly_for_the_kernel_of_the_pairing() {
-    use isodescent::selmer::LocalCondition;
     use isodescent::selmer::soluble_twists;
+    use isodescent::selmer::LocalCondition;
     let (mut with, mut without) = (0, 0);
     for (a, b) in box_curves(9) {
         let d = isogeny_of(a, b, &DescentOptions::default().local_conditions_only());

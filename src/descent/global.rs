@@ -9,7 +9,10 @@
 //!    descent's proven bounds, one of the two computations is wrong: the
 //!    report carries the conflict, the descent's bounds stay, and nothing
 //!    is settled.
-//! 2. When the rank is decided and as many independent points are known,
+//! 2. When the rank is decided but fewer independent points are known,
+//!    the deep search ([`super::deep_search`]) looks for the missing ones
+//!    on 4-coverings at larger heights, under its own budget.
+//!    When the rank is decided and as many independent points are known,
 //!    [`crate::height::saturate`] turns them into generators of
 //!    E(Q)/E(Q)_tors, with heights, the regulator and the index
 //!    certificate; "generate" is claimed only when saturation proved it.
@@ -112,6 +115,22 @@ pub(crate) fn complete(
                 report.global.analytic = Some(a);
             }
             Err(e) => note_stop(report, "analytic side", &e),
+        }
+    }
+    if let Some(dopts) = &options.deep_search {
+        let rank = report.bounds.lower;
+        if report.bounds.is_decided() && report.points.len() < rank {
+            let mut budget = options.budget(options.global_units, deadline);
+            match super::deep_search::complete_report_points(report, rank, dopts, &mut budget) {
+                Ok(points) if points.len() > report.points.len() => {
+                    // Independent points (certified by their classes):
+                    // the descent's lower bound rises with them.
+                    report.descent_bounds.lower = report.descent_bounds.lower.max(points.len());
+                    report.points = points;
+                }
+                Ok(_) => {}
+                Err(e) => note_stop(report, "deep search for points", &e),
+            }
         }
     }
     let rank = report.bounds.lower;

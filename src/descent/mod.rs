@@ -28,6 +28,7 @@
 //! by heights.
 
 pub(crate) mod bounds;
+pub(crate) mod deep_search;
 pub(crate) mod global;
 pub(crate) mod options;
 pub(crate) mod report;
@@ -38,6 +39,7 @@ use std::time::Instant;
 
 use num_bigint::BigInt;
 
+pub use deep_search::{complete_report_points, search_missing_points, DeepSearchOptions};
 pub use global::{RankProof, ShaTwoPart};
 pub use options::DescentOptions;
 pub use report::{Completion, DescentReport, RankBounds};

@@ -3,6 +3,7 @@
 
 use std::time::{Duration, Instant};
 
+use super::deep_search::DeepSearchOptions;
 use crate::analytic::AnalyticOptions;
 use crate::budget::Budget;
 use crate::height::SaturationOptions;
@@ -51,7 +52,13 @@ pub struct DescentOptions {
     /// Saturation of the points into generators with heights and the
     /// regulator, when the rank is decided (`None`: off).
     pub saturation: Option<SaturationOptions>,
-    /// Work units for the analytic side and for saturation (each).
+    /// When the rank is known (for example from the analytic side) to
+    /// exceed the number of independent points found, search the
+    /// 4-coverings of the classes that must hold points to a larger height
+    /// (`None`: off).
+    pub deep_search: Option<DeepSearchOptions>,
+    /// Work units for the analytic side, the deep search and saturation
+    /// (each).
     pub global_units: u64,
 }
 
@@ -70,6 +77,7 @@ impl Default for DescentOptions {
             time_limit: None,
             analytic: Some(AnalyticOptions::default()),
             saturation: Some(SaturationOptions::default()),
+            deep_search: Some(DeepSearchOptions::default()),
             global_units: 2_000_000_000,
         }
     }
@@ -86,6 +94,7 @@ impl DescentOptions {
         self.four_coverings = false;
         self.analytic = None;
         self.saturation = None;
+        self.deep_search = None;
         self
     }
 
@@ -94,6 +103,7 @@ impl DescentOptions {
     pub fn descent_only(mut self) -> Self {
         self.analytic = None;
         self.saturation = None;
+        self.deep_search = None;
         self
     }
 

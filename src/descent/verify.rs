@@ -85,7 +85,14 @@ pub fn verify_report(report: &DescentReport, units: u64) -> Result<Verification>
     }
     out.record(
         "number of returned points equals the descent's lower bound",
-        report.points().len() == report.descent_bounds().lower,
+        report.points().len() == report.descent_bounds().lower
+            && report.points().len()
+                >= report
+                    .isogenies()
+                    .iter()
+                    .map(|d| d.rank_lower)
+                    .max()
+                    .unwrap_or(0),
     );
     for (i, d) in report.isogenies().iter().enumerate() {
         let tag = format!("isogeny {}", i + 1);

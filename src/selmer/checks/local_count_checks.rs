@@ -298,8 +298,7 @@ fn singular_models_are_typed_errors() {
         assert!(local_images_agree(&b(a), &b(bb), &[], &mut Budget::unlimited()).is_err());
         assert!(selmer_difference_from_tamagawa(&b(a), &b(bb), &[]).is_err());
     }
-    let e =
-        crate::selmer::local_count::odd_prime_count(&b(0), &b(-1), &Prime::two()).unwrap_err();
+    let e = crate::selmer::local_count::odd_prime_count(&b(0), &b(-1), &Prime::two()).unwrap_err();
     assert!(matches!(e, Error::InvalidArgument { .. }));
 }
 

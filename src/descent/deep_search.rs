@@ -1,0 +1,582 @@
+//! A second, budgeted hunt for the points a descent did not find.
+//!
+//! When the rank r is known from elsewhere (the descent's own bounds, or a
+//! theorem of the analytic layer) and the descent returned fewer than r
+//! independent points, the missing points lie in Selmer classes the
+//! descent left open: classes of the liftable subgroup I (or of the whole
+//! Selmer group when the pairing is missing) outside the span K of the
+//! known images. This module searches those classes again, much further:
+//!
+//! 1. the homogeneous space C_d itself (the 2-covering) to a moderate
+//!    height, which is cheap;
+//! 2. its everywhere locally soluble 4-coverings
+//!    ([`crate::quartic::covering`]) to a large height.
+//!
+//! A point of canonical height ĥ has, on a 2-covering, coordinates of
+//! size about e^(ĥ/4) and on a 4-covering about e^(ĥ/8) (the covering
+//! maps have degree 2 and 4 in the coordinates; common practice), so the
+//! 4-coverings reach points whose height is twice as large for the same
+//! search height.
+//!
+//! # Order and cost
+//! The work is done in rounds of growing covering height (each round
+//! multiplies the height by `growth`, up to `max_covering_height`). In a
+//! round every open class of both sides is visited in a fixed order
+//! (complement basis vectors of K, then sums of two of them, at most
+//! `max_classes_per_side` classes; never all 2^dim classes). A search to
+//! height H visits about 1.2·H² pairs, so with growth g the rounds before
+//! the last cost a fraction 1/(g² − 1) of it: the total is linear in the
+//! work of the last round, and every search is charged to the caller's
+//! [`Budget`]. Before each covering search the remaining budget is
+//! compared with the search's cost, so the hunt stops (returning what it
+//! has) instead of overrunning. The hunt stops as soon as the target
+//! number of points is reached.
+//!
+//! # Independence
+//! A point found in class d ∉ K on one side has α-image independent of
+//! the known images on that side; the side's K then grows by d. By the
+//! lemma in the documentation of [`crate::descent`] (points on E with
+//! α-images independent modulo α(torsion), and φ̂ of points on E' with
+//! α'-images independent modulo α'(torsion), are independent in
+//! E(Q)/E(Q)_tors), the descent's points together with the new ones are
+//! independent. Independence is thus certified by F₂-linear algebra,
+//! not by heights.
+
+use num_bigint::BigInt;
+use num_traits::{One, Signed, Zero};
+
+use super::side::{connecting_value, SelmerSide, TWISTS_PER_CLASS};
+use super::{DescentReport, IsogenyDescent};
+use crate::budget::Budget;
+use crate::curve::{Curve, Point};
+use crate::error::{Error, Result};
+use crate::quartic::covering::{
+    second_descent, second_descent_on_twists, SecondDescentOptions, SecondDescentOutcome,
+};
+use crate::quartic::search::{search, SearchOptions, SearchOutcome, MAX_HEIGHT};
+use crate::quartic::Quartic;
+use crate::selmer::f2::{BitVec, Subspace};
+use crate::selmer::group::LocalCondition;
+use crate::selmer::pairing::{class_lift, soluble_twists};
+
+/// Knobs of [`search_missing_points`].
+#[derive(Clone, Debug, PartialEq, Eq)]
+#[non_exhaustive]
+pub struct DeepSearchOptions {
+    /// Covering height of the first round.
+    pub first_covering_height: u64,
+    /// Largest covering height (the last round).
+    pub max_covering_height: u64,
+    /// Factor between the heights of two rounds (at least 2).
+    pub growth: u64,
+    /// Largest height of the direct search on C_d (the 2-covering); in a
+    /// round of covering height H it is min(2H, this).
+    pub max_space_height: u64,
+    /// Most open classes visited per side and round.
+    pub max_classes_per_side: usize,
+    /// Most twists (4-coverings) searched per class.
+    pub twists_per_class: usize,
+    /// Most twists examined by the untargeted 4-covering route (used when
+    /// the lifting pairing is missing).
+    pub max_twists: usize,
+}
+
+impl Default for DeepSearchOptions {
+    fn default() -> Self {
+        DeepSearchOptions {
+            first_covering_height: 256,
+            max_covering_height: 4096,
+            growth: 4,
+            max_space_height: 2048,
+            max_classes_per_side: 8,
+            twists_per_class: 2 * TWISTS_PER_CLASS,
+            max_twists: 1 << 6,
+        }
+    }
+}
+
+impl DeepSearchOptions {
+    /// Defaults with another largest covering height.
+    pub fn with_max_covering_height(mut self, h: u64) -> Self {
+        self.max_covering_height = h;
+        self
+    }
+
+    fn check(&self) -> Result<()> {
+        let bad = |reason: &str| {
+            Err(Error::InvalidArgument {
+                reason: format!("deep search options: {reason}"),
+            })
+        };
+        if self.first_covering_height == 0 || self.first_covering_height > self.max_covering_height
+        {
+            return bad("need 0 < first_covering_height ≤ max_covering_height");
+        }
+        // 2⁶²/… would overflow the sieve's cost estimate long before; keep
+        // heights where H² fits comfortably in a u64.
+        if self.max_covering_height > (1 << 24) || self.max_space_height > (1 << 24) {
+            return bad("heights above 2^24 are not supported");
+        }
+        if self.growth < 2 || self.growth > 1 << 10 {
+            return bad("growth must lie in 2..=1024");
+        }
+        if self.twists_per_class == 0 || self.max_twists == 0 {
+            return bad("twist counts must be positive");
+        }
+        debug_assert!(self.max_covering_height <= MAX_HEIGHT);
+        Ok(())
+    }
+
+    /// The covering heights of the rounds, increasing.
+    fn rounds(&self) -> Vec<u64> {
+        let mut hs = Vec::new();
+        let mut h = self.first_covering_height;
+        loop {
+            hs.push(h);
+            if h >= self.max_covering_height {
+                break;
+            }
+            h = h.saturating_mul(self.growth).min(self.max_covering_height);
+        }
+        hs
+    }
+}
+
+/// Work units of one sieved search to height h (one unit per 64
+/// candidates, about 2h² candidates; [`crate::quartic::search`]), with
+/// room for the exact tests of the survivors.
+fn search_cost(h: u64) -> u64 {
+    (2 * h * h) / 64 + 4 * h + 64
+}
+
+/// One side of one isogeny during the hunt.
+struct SideHunt<'a> {
+    side: &'a SelmerSide,
+    /// The side's curve y² = x³ + a x² + b x.
+    curve: &'a Curve,
+    /// Where the classes are searched: I, or Sel without a pairing.
+    space: Subspace,
+    /// Span of the images known so far (grows).
+    known: Subspace,
+    conditions: Vec<LocalCondition>,
+    /// Classes (as integers) whose direct and covering searches at the
+    /// current round are done.
+    done: Vec<BigInt>,
+}
+
+impl<'a> SideHunt<'a> {
+    fn new(side: &'a SelmerSide, curve: &'a Curve) -> Self {
+        let space = match side.liftable() {
+            Some(l) => l.clone(),
+            None => side.group.clone(),
+        };
+        let conditions = side
+            .local_images
+            .iter()
+            .map(|w| LocalCondition::from_masks(w.place.clone(), &w.members))
+            .collect();
+        SideHunt {
+            side,
+            curve,
+            space,
+            known: side.known.clone(),
+            conditions,
+            done: Vec::new(),
+        }
+    }
+
+    /// The open classes in the fixed order: complement basis vectors of K
+    /// in the search space, then sums of two, at most `max` of them, each
+    /// moved to a small representative of its coset.
+    fn open_classes(&self, max: usize) -> Vec<(BigInt, BitVec)> {
+        let rest = self.known.complement_in(&self.space);
+        let mut out: Vec<(BigInt, BitVec)> = Vec::new();
+        let push = |v: BitVec, out: &mut Vec<(BigInt, BitVec)>| {
+            let (d, v) = small_representative(self, &v);
+            if !d.is_one() && !out.iter().any(|(e, _)| *e == d) {
+                out.push((d, v));
+            }
+        };
+        for v in &rest {
+            if out.len() >= max {
+                return out;
+            }
+            push(v.clone(), &mut out);
+        }
+        for i in 0..rest.len() {
+            for j in i + 1..rest.len() {
+                if out.len() >= max {
+                    return out;
+                }
+                push(rest[i].add(&rest[j]), &mut out);
+            }
+        }
+        out
+    }
+}
+
+/// x moved greedily inside x + K to a class of small |d| (each step
+/// lowers |d|, so at most a bounded number of passes).
+fn small_representative(hunt: &SideHunt<'_>, x: &BitVec) -> (BigInt, BitVec) {
+    let qs2 = &hunt.side.qs2;
+    let basis = hunt.known.basis();
+    let mut y = x.clone();
+    let mut dy = qs2.integer(&y).abs();
+    for _ in 0..(4 * basis.len() + 4) {
+        let mut improved = false;
+        for k in basis {
+            let z = y.add(k);
+            let dz = qs2.integer(&z).abs();
+            if dz < dy {
+                y = z;
+                dy = dz;
+                improved = true;
+            }
+        }
+        if !improved {
+            break;
+        }
+    }
+    (qs2.integer(&y), y)
+}
+
+/// A point found on one side: on that side's curve, with its class.
+struct Catch {
+    point: Point,
+    class: BitVec,
+}
+
+/// The direct search on C_d to height `h` (charged to `budget`).
+fn search_space(
+    hunt: &SideHunt<'_>,
+    d: &BigInt,
+    h: u64,
+    budget: &mut Budget,
+) -> Result<Option<Point>> {
+    let (a, b) = (&hunt.side.a, &hunt.side.b);
+    let q = Quartic::two_isogeny_space(d, a, b)?;
+    let outcome = search(q.coeffs(), &SearchOptions::up_to(h), budget)?;
+    let SearchOutcome::Found(qp) = outcome else {
+        return Ok(None);
+    };
+    if qp.z.is_zero() {
+        return Ok(None);
+    }
+    // y² = d M⁴ + a M² e² + (b/d) e⁴ with the factor f = |d / gcd(d, b)|
+    // taken out of N (the integral model of the quartic layer).
+    let g = num_integer::Integer::gcd(d, b);
+    let f = (d / &g).abs();
+    let m = num_rational::BigRational::from_integer(qp.x.clone());
+    let e = num_rational::BigRational::from_integer(qp.z.clone());
+    let n = num_rational::BigRational::new(qp.y.clone(), f);
+    let dq = num_rational::BigRational::from_integer(d.clone());
+    let x = &dq * &m * &m / (&e * &e);
+    let y = &dq * &m * &n / (&e * &e * &e);
+    Ok(Some(Point::new(x, y)))
+}
+
+/// The 4-covering route on C_d to height `h`: on a few soluble twists of
+/// the class when the pairing is known, else on all twists.
+fn search_coverings(
+    hunt: &SideHunt<'_>,
+    d: &BigInt,
+    h: u64,
+    options: &DeepSearchOptions,
+    budget: &mut Budget,
+) -> Result<Option<Point>> {
+    let (a, b) = (&hunt.side.a, &hunt.side.b);
+    let mut sd = SecondDescentOptions::default().with_search_height(h);
+    sd.search_units = sd.search_units.max(search_cost(h));
+    sd.max_twists = options.max_twists;
+    let outcome = if hunt.side.pairing.is_some() {
+        let lift = class_lift(a, b, d, &hunt.side.qs2, budget)?;
+        let twists = soluble_twists(
+            &lift,
+            &hunt.side.qs2,
+            &hunt.conditions,
+            options.twists_per_class,
+            budget,
+        )?;
+        if twists.is_empty() {
+            return Ok(None);
+        }
+        let needed = search_cost(h).saturating_mul(twists.len() as u64);
+        if budget.remaining().is_some_and(|r| r < needed) {
+            return Err(exhausted());
+        }
+        second_descent_on_twists(a, b, d, &lift.conic_point, &twists, &sd, budget)?
+    } else {
+        let needed = search_cost(h).saturating_mul(options.max_twists as u64);
+        if budget.remaining().is_some_and(|r| r < needed) {
+            return Err(exhausted());
+        }
+        second_descent(a, b, d, &sd, budget)?
+    };
+    match outcome {
+        SecondDescentOutcome::Point {
+            point_x, point_y, ..
+        } => Ok(Some(Point::new(point_x, point_y))),
+        _ => Ok(None),
+    }
+}
+
+fn exhausted() -> Error {
+    Error::BudgetExhausted {
+        stage: "deep point search".into(),
+    }
+}
+
+/// Checks a point from class d and returns its class if it is new.
+fn accept(hunt: &SideHunt<'_>, d: &BigInt, p: Point) -> Result<Option<Catch>> {
+    if !hunt.curve.contains(&p) {
+        return Err(Error::Internal {
+            check: format!("deep search: point from C_{d} is not on the curve"),
+        });
+    }
+    let Some(val) = connecting_value(&hunt.side.b, &p) else {
+        return Ok(None);
+    };
+    let class = hunt.side.qs2.vector_rational(&val)?;
+    if !hunt.space.contains(&class) {
+        return Err(Error::Internal {
+            check: format!("deep search: point from C_{d} has a class outside the Selmer group"),
+        });
+    }
+    if hunt.known.contains(&class) {
+        return Ok(None);
+    }
+    Ok(Some(Catch { point: p, class }))
+}
+
+/// One isogeny during the hunt: both sides and the points found so far
+/// (on the input model).
+struct IsogenyHunt<'a> {
+    descent: &'a IsogenyDescent,
+    sides: [SideHunt<'a>; 2],
+    found: Vec<Point>,
+}
+
+impl<'a> IsogenyHunt<'a> {
+    fn new(descent: &'a IsogenyDescent) -> Self {
+        IsogenyHunt {
+            descent,
+            sides: [
+                SideHunt::new(&descent.domain, descent.model.curve()),
+                SideHunt::new(&descent.codomain, descent.isogeny.codomain()),
+            ],
+            found: Vec::new(),
+        }
+    }
+
+    fn total(&self) -> usize {
+        self.descent.points.len() + self.found.len()
+    }
+
+    /// One round at covering height `h`; stops early at `target` points.
+    /// `Err` only for internal failures; budget exhaustion is `Ok(false)`.
+    fn round(
+        &mut self,
+        input: &Curve,
+        h: u64,
+        target: usize,
+        options: &DeepSearchOptions,
+        budget: &mut Budget,
+    ) -> Result<bool> {
+        let space_h = (2 * h).min(options.max_space_height);
+        for s in 0..2 {
+            self.sides[s].done.clear();
+            'restart: loop {
+                if self.total() >= target {
+                    return Ok(true);
+                }
+                let classes = self.sides[s].open_classes(options.max_classes_per_side);
+                for (d, _) in classes {
+                    if self.sides[s].done.contains(&d) {
+                        continue;
+                    }
+                    self.sides[s].done.push(d.clone());
+                    if budget.is_exhausted() {
+                        return Ok(false);
+                    }
+                    let hunt = &self.sides[s];
+                    let mut p = match search_space(hunt, &d, space_h, budget) {
+                        Ok(p) => p,
+                        Err(e) if is_budget(&e) => return Ok(false),
+                        Err(e) => return Err(e),
+                    };
+                    if p.is_none() {
+                        p = match search_coverings(hunt, &d, h, options, budget) {
+                            Ok(p) => p,
+                            Err(e) if is_budget(&e) => return Ok(false),
+                            // A class the covering machinery cannot handle
+                            // (e.g. too many twists) is skipped.
+                            Err(Error::InvalidArgument { reason })
+                                if !reason.starts_with("internal check failed") =>
+                            {
+                                None
+                            }
+                            Err(e) => return Err(e),
+                        };
+                    }
+                    let Some(p) = p else { continue };
+                    let Some(catch) = accept(&self.sides[s], &d, p)? else {
+                        continue;
+                    };
+                    let on_input = if s == 0 {
+                        self.descent.model.to_input(&catch.point)
+                    } else {
+                        self.descent
+                            .model
+                            .to_input(&self.descent.isogeny.dual_image(&catch.point))
+                    };
+                    if !input.contains(&on_input) || on_input.is_infinity() {
+                        return Err(Error::Internal {
+                            check: "deep search: mapped point is not on the input curve".into(),
+                        });
+                    }
+                    self.sides[s].known.insert(catch.class);
+                    self.found.push(on_input);
+                    continue 'restart;
+                }
+                break;
+            }
+        }
+        Ok(self.total() >= target)
+    }
+}
+
+fn is_budget(e: &Error) -> bool {
+    matches!(
+        e,
+        Error::BudgetExhausted { .. } | Error::FactorBudgetExhausted { .. }
+    )
+}
+
+/// Searches the open Selmer classes of one isogeny descent much further
+/// than the descent did, until the descent's points and the new ones
+/// number `target_rank`.
+///
+/// `curve` must be the input curve of the descent. Returns only the new
+/// points, on the input model, each verified to lie on `curve`; together
+/// with `descent.points` they are independent modulo torsion (module
+/// documentation). Fewer than `target_rank − descent.points.len()` points
+/// come back when the budget or the largest height is reached first; an
+/// empty vector when nothing is missing.
+///
+/// # Errors
+/// [`Error::InvalidArgument`] for options out of range or when
+/// `target_rank` exceeds the descent's proven upper bound;
+/// [`Error::Internal`] when a found point fails a check (a bug).
+pub fn search_missing_points(
+    curve: &Curve,
+    descent: &IsogenyDescent,
+    target_rank: usize,
+    options: &DeepSearchOptions,
+    budget: &mut Budget,
+) -> Result<Vec<Point>> {
+    options.check()?;
+    if target_rank > descent.rank_upper {
+        return Err(Error::InvalidArgument {
+            reason: format!(
+                "target rank {target_rank} exceeds the proven upper bound {}",
+                descent.rank_upper
+            ),
+        });
+    }
+    let mut hunt = IsogenyHunt::new(descent);
+    if hunt.total() >= target_rank {
+        return Ok(Vec::new());
+    }
+    for h in options.rounds() {
+        if hunt.round(curve, h, target_rank, options, budget)? || budget.is_exhausted() {
+            break;
+        }
+    }
+    Ok(hunt.found)
+}
+
+/// [`search_missing_points`] over every isogeny of a descent report,
+/// round by round (all isogenies at one height before the next height),
+/// so the isogeny on which the generators are smallest is the one that
+/// finds them. Returns a full list of independent points on the input
+/// model — the points of one isogeny's descent followed by its new points
+/// — from the first isogeny that reaches `target_rank`, or else from the
+/// isogeny with the most points (the descent's own points when nothing
+/// was found).
+///
+/// # Errors
+/// As [`search_missing_points`] (the target is checked against the
+/// report's upper bound).
+pub fn complete_report_points(
+    report: &DescentReport,
+    target_rank: usize,
+    options: &DeepSearchOptions,
+    budget: &mut Budget,
+) -> Result<Vec<Point>> {
+    options.check()?;
+    if target_rank > report.rank_upper() {
+        return Err(Error::InvalidArgument {
+            reason: format!(
+                "target rank {target_rank} exceeds the proven upper bound {}",
+                report.rank_upper()
+            ),
+        });
+    }
+    if report.points().len() >= target_rank {
+        return Ok(report.points().to_vec());
+    }
+    let mut hunts: Vec<IsogenyHunt<'_>> = report
+        .isogenies()
+        .iter()
+        .filter(|d| d.rank_upper >= target_rank)
+        .map(IsogenyHunt::new)
+        .collect();
+    let curve = report.curve();
+    'rounds: for h in options.rounds() {
+        for hunt in &mut hunts {
+            if hunt.round(curve, h, target_rank, options, budget)? {
+                break 'rounds;
+            }
+            if budget.is_exhausted() {
+                break 'rounds;
+            }
+        }
+    }
+    let best = hunts
+        .iter()
+        .rev()
+        .max_by_key(|h| (h.total() >= target_rank, h.total()));
+    match best {
+        Some(h) if h.total() > report.points().len() => {
+            let mut all = h.descent.points.clone();
+            all.extend(h.found.iter().cloned());
+            Ok(all)
+        }
+        _ => Ok(report.points().to_vec()),
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn rounds_grow_to_the_largest_height() {
+        // common practice: geometric rounds ending exactly at the maximum
+        let o = DeepSearchOptions::default();
+        assert_eq!(o.rounds(), vec![256, 1024, 4096]);
+        let o = DeepSearchOptions::default().with_max_covering_height(300);
+        assert_eq!(o.rounds(), vec![256, 300]);
+    }
+
+    #[test]
+    fn bad_options_are_refused() {
+        let o = DeepSearchOptions {
+            growth: 1,
+            ..DeepSearchOptions::default()
+        };
+        assert!(o.check().is_err());
+        let o = DeepSearchOptions::default().with_max_covering_height(1);
+        assert!(o.check().is_err());
+    }
+}
