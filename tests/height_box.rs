@@ -42,7 +42,7 @@ fn saturation_over_the_box() {
             let t = Instant::now();
             let s = saturate(
                 &e,
-                &report.points(),
+                report.points(),
                 &SaturationOptions::default(),
                 &mut Budget::unlimited(),
             );

@@ -255,7 +255,7 @@ fn a_descent_point_that_is_a_triple_is_divided() {
     let p = &report.points()[0];
     let s = saturate(
         &e,
-        &report.points(),
+        report.points(),
         &SaturationOptions::default(),
         &mut Budget::unlimited(),
     )
