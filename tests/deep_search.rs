@@ -12,7 +12,7 @@ use isodescent::{Budget, Error};
 
 fn congruent(n: i64) -> (Curve, DescentReport) {
     let e = Curve::from_ints([0, 0, 0, -n * n, 0]).unwrap();
-    let r = descend(&e, &DescentOptions::default()).unwrap();
+    let r = descend(&e, &DescentOptions::default().descent_only()).unwrap();
     (e, r)
 }
 
@@ -140,6 +140,7 @@ fn new_points_are_independent_of_the_ones_already_found() {
     // AEC 2nd ed., VIII.9: the height pairing is positive definite on
     // E(Q)/E(Q)_tors).
     let weak = DescentOptions::default()
+        .descent_only()
         .with_search_height(2)
         .with_four_coverings(false);
     let mut checked = 0;

@@ -219,24 +219,7 @@ impl<'a> SideHunt<'a> {
 /// lowers |d|, so at most a bounded number of passes).
 fn small_representative(hunt: &SideHunt<'_>, x: &BitVec) -> (BigInt, BitVec) {
     let qs2 = &hunt.side.qs2;
-    let basis = hunt.known.basis();
-    let mut y = x.clone();
-    let mut dy = qs2.integer(&y).abs();
-    for _ in 0..(4 * basis.len() + 4) {
-        let mut improved = false;
-        for k in basis {
-            let z = y.add(k);
-            let dz = qs2.integer(&z).abs();
-            if dz < dy {
-                y = z;
-                dy = dz;
-                improved = true;
-            }
-        }
-        if !improved {
-            break;
-        }
-    }
+    let y = super::side::smallest_in_coset(qs2, x, &hunt.known);
     (qs2.integer(&y), y)
 }
 

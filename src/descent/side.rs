@@ -732,12 +732,10 @@ fn not_image(d: BigInt, evidence: NoPointEvidence) -> ClassStatus {
     }
 }
 
-/// Representatives of the coset x + K, smallest |d| first: x is first
-/// moved greedily (add a basis vector of K while that lowers |d|; each
-/// step lowers |d|, at most 4·dim K + 4 passes), then the result y, the
-/// y + k and the y + k + k' (k, k' basis vectors of K) are sorted — at most
-/// 1 + m + m(m−1)/2 classes for m = dim K, never 2^m.
-fn coset_representatives(qs2: &QS2, x: &BitVec, known: &Subspace) -> Vec<(BigInt, BitVec)> {
+/// x moved greedily inside x + K towards a class of small |d|: add a basis
+/// vector of K while that lowers |d| (each step lowers |d|; at most
+/// 4·dim K + 4 passes).
+pub(crate) fn smallest_in_coset(qs2: &QS2, x: &BitVec, known: &Subspace) -> BitVec {
     let basis = known.basis();
     let mut y = x.clone();
     let mut dy = qs2.integer(&y).abs();
@@ -756,6 +754,17 @@ fn coset_representatives(qs2: &QS2, x: &BitVec, known: &Subspace) -> Vec<(BigInt
             break;
         }
     }
+    y
+}
+
+/// Representatives of the coset x + K, smallest |d| first: x is first
+/// moved greedily (add a basis vector of K while that lowers |d|; each
+/// step lowers |d|, at most 4·dim K + 4 passes), then the result y, the
+/// y + k and the y + k + k' (k, k' basis vectors of K) are sorted — at most
+/// 1 + m + m(m−1)/2 classes for m = dim K, never 2^m.
+fn coset_representatives(qs2: &QS2, x: &BitVec, known: &Subspace) -> Vec<(BigInt, BitVec)> {
+    let basis = known.basis();
+    let y = smallest_in_coset(qs2, x, known);
     let mut reps = vec![(qs2.integer(&y), y.clone())];
     for (i, k) in basis.iter().enumerate() {
         let v = y.add(k);
