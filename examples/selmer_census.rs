@@ -5,12 +5,13 @@
 //! docs/performance.md.
 //!
 //! ```text
-//! cargo run --release --example selmer_census -- N|box:B [local-only|first|descent|full]
+//! cargo run --release --example selmer_census -- N|box:B [local-only|first|descent|analytic|points|full]
 //! ```
 //! `local-only`: Selmer groups and torsion images, no search;
 //! `first`: default search, no second descent, no analytic side;
 //! `descent`: the whole descent, no analytic side or saturation;
-//! `full`: the defaults (descent, analytic side, saturation).
+//! `analytic`: the descent and the analytic side; `points`: also the deep
+//! search for missing points; `full`: the defaults (also saturation).
 
 use std::process::ExitCode;
 use std::time::Instant;
@@ -30,7 +31,7 @@ fn main() -> ExitCode {
         None => (false, family.parse::<i64>().ok()),
     };
     let Some(n_max) = n_max.filter(|&n| (1..=1_000_000).contains(&n)) else {
-        eprintln!("usage: selmer_census N|box:B [local-only|first|descent|full]");
+        eprintln!("usage: selmer_census N|box:B [local-only|first|descent|analytic|points|full]");
         return ExitCode::from(2);
     };
     let members: Vec<[i64; 5]> = if boxed {
@@ -52,6 +53,17 @@ fn main() -> ExitCode {
             .descent_only()
             .with_four_coverings(false),
         "descent" => DescentOptions::default().descent_only(),
+        "analytic" => {
+            let mut o = DescentOptions::default();
+            o.saturation = None;
+            o.deep_search = None;
+            o
+        }
+        "points" => {
+            let mut o = DescentOptions::default();
+            o.saturation = None;
+            o
+        }
         "full" => DescentOptions::default(),
         other => {
             eprintln!("unknown mode {other:?}");
@@ -60,6 +72,9 @@ fn main() -> ExitCode {
     };
     let start = Instant::now();
     let (mut curves, mut decided, mut errors) = (0u64, 0u64, 0u64);
+    // Curves of positive decided rank, those with rank-many points, and
+    // those whose points are proven to generate E(Q) modulo torsion.
+    let (mut positive, mut with_points, mut generated) = (0u64, 0u64, 0u64);
     for m in members {
         let Ok(c) = Curve::from_ints(m) else {
             errors += 1;
@@ -69,6 +84,11 @@ fn main() -> ExitCode {
             Ok(r) => {
                 curves += 1;
                 decided += u64::from(r.is_decided());
+                if r.is_decided() && r.rank_lower() > 0 {
+                    positive += 1;
+                    with_points += u64::from(r.returned_points().len() == r.rank_lower());
+                    generated += u64::from(r.points_generate());
+                }
             }
             Err(_) => errors += 1,
         }
@@ -78,6 +98,9 @@ fn main() -> ExitCode {
         "mode {mode}, family {family}: {curves} curves, {errors} errors, {decided} decided ({:.1}%), {secs:.2} s, {:.0} curves/s",
         100.0 * decided as f64 / curves.max(1) as f64,
         curves as f64 / secs
+    );
+    println!(
+        "  rank >= 1: {positive} curves, {with_points} with rank-many independent points, {generated} with proven generators"
     );
     ExitCode::SUCCESS
 }

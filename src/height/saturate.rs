@@ -86,6 +86,10 @@ pub struct SaturationOptions {
     pub search_margin: f64,
     /// Largest prime `p` for which `p`-saturation is attempted. Default 200.
     pub max_prime: u64,
+    /// Primes `p` tried when no index bound could be proven (default 7:
+    /// such a run proves nothing about generation, so it only looks for
+    /// the common small divisibilities).
+    pub primes_without_bound: u64,
     /// Largest auxiliary prime `q` (each costs `O(q)` for the point
     /// count). Default 20 000.
     pub max_aux_prime: u64,
@@ -102,6 +106,7 @@ impl Default for SaturationOptions {
             max_search_height: 10.0,
             search_margin: 0.5,
             max_prime: 200,
+            primes_without_bound: 7,
             max_aux_prime: 20_000,
             max_aux_primes_per_p: 400,
             aux_per_round: 24,
@@ -255,7 +260,12 @@ pub fn saturate(
     let mut primes_checked = Vec::new();
     let mut unresolved = Vec::new();
     let mut index_found = 1u64;
-    let bound_now = |ib: Option<u64>| ib.unwrap_or(options.max_prime).min(options.max_prime);
+    // Without a proven index bound nothing can prove generation; the small
+    // primes are still tried (they catch the common non-saturated cases).
+    let bound_now = |ib: Option<u64>| {
+        ib.unwrap_or(options.primes_without_bound)
+            .min(options.max_prime)
+    };
     let mut p = 2u64;
     while p <= bound_now(index_bound) {
         if !is_prime_u64(p) {
