@@ -268,6 +268,7 @@ fn cmd_scan(a: &Args) -> Res<()> {
         println!("memory   peak resident {kb} kB");
     }
     print!("{tally}");
+    print_limit_law(&tally, &family);
     if let Some(svg) = &a.svg {
         plot(&tally, svg, &family.describe())?;
         println!("plot     {svg}");
@@ -390,5 +391,27 @@ fn main() -> ExitCode {
             eprintln!("survey: {e}");
             ExitCode::from(1)
         }
+    }
+}
+
+/// For the congruent-number family: the observed 2-Selmer ranks beside
+/// Heath-Brown's limit law, with their total variation distance (a
+/// statistical comparison, not a test).
+fn print_limit_law(tally: &Tally, family: &Family) {
+    if !family.describe().contains("congruent") {
+        return;
+    }
+    let law = isodescent::family::congruent_selmer_limit_law(8);
+    if let Some((rows, tv)) = tally.selmer2_against(&law) {
+        println!("2-Selmer rank beyond E[2] against Heath-Brown's limit law (Invent. Math. 118, 1994; from memory)");
+        println!("                 s   observed   limit law");
+        for (r, obs, exp) in rows {
+            println!(
+                "             {r:>5}   {:>7.2}%   {:>8.2}%",
+                100.0 * obs,
+                100.0 * exp
+            );
+        }
+        println!("total variation distance {tv:.4}");
     }
 }

@@ -156,3 +156,23 @@ fn the_smallest_congruent_numbers_are_found_and_non_congruent_ones_excluded() {
     }
     assert_eq!(records.len(), 6);
 }
+
+/// Heath-Brown's limit law (Invent. Math. 118 (1994), Theorem 1; from
+/// memory) is a probability distribution with d_1 = 2·d_0, and the survey
+/// tally compares the observed 2-Selmer ranks with it.
+#[test]
+fn the_limit_law_is_a_distribution_and_the_tally_compares_with_it() {
+    let law = isodescent::family::congruent_selmer_limit_law(30);
+    let total: f64 = law.iter().sum();
+    assert!((total - 1.0).abs() < 1e-12, "{total}");
+    assert!((law[1] - 2.0 * law[0]).abs() < 1e-15);
+    let fam = Family::congruent_numbers(1, 60).unwrap();
+    let mut t = isodescent::family::Tally::new();
+    for r in run(&fam, &ScanOptions::default()) {
+        t.add(&RecordLine::parse(&r.to_line()).unwrap());
+    }
+    let (rows, tv) = t.selmer2_against(&law).expect("records carry selmer2_rank");
+    let observed: f64 = rows.iter().map(|r| r.1).sum();
+    assert!((observed - 1.0).abs() < 1e-12);
+    assert!((0.0..=1.0).contains(&tv));
+}

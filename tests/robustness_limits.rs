@@ -20,7 +20,10 @@ fn odd_primorial(k: usize) -> num_bigint::BigInt {
         }
         n += 2;
     }
-    primes.iter().map(|&p| num_bigint::BigInt::from(p)).product()
+    primes
+        .iter()
+        .map(|&p| num_bigint::BigInt::from(p))
+        .product()
 }
 
 fn corpus() -> Vec<String> {

@@ -279,7 +279,7 @@ impl Family {
     pub fn describe(&self) -> String {
         match &self.kind {
             Kind::Twists { base, from, to } => format!(
-                "quadratic twists of [{base}] by square-free d in [{from}, {to}], d != 0"
+                "quadratic twists of {base} by square-free d in [{from}, {to}], d != 0"
             ),
             Kind::Congruent { from, to } => format!(
                 "congruent-number curves y^2 = x^3 - n^2 x, square-free n in [{from}, {to}]"

@@ -40,6 +40,7 @@ pub(crate) mod scan;
 
 pub use members::{is_squarefree_u64, quadratic_twist, Family, Member, Members, Parameter};
 pub use records::{
-    merge_shards, read_for_resume, IndexList, MergeReport, RecordLine, ResumeState, Tally,
+    congruent_selmer_limit_law, merge_shards, read_for_resume, IndexList, LawComparison,
+    MergeReport, RecordLine, ResumeState, Tally,
 };
 pub use scan::{scan, scan_member, Scan, ScanOptions, ScanRecord, Shard};

@@ -36,6 +36,9 @@ pub struct RecordLine {
     /// For each isogeny of `selmer`, the dimensions of the Selmer groups on
     /// the curve's side and on the isogenous side.
     pub selmer: Vec<(u64, u64)>,
+    /// `selmer2_rank` minus dim E(Q)[2] (the number of even cyclic factors
+    /// of the torsion): the 2-Selmer rank beyond the 2-torsion.
+    pub selmer2_excess: Option<u64>,
 }
 
 impl RecordLine {
@@ -59,7 +62,22 @@ impl RecordLine {
                 Some((d("curve")?, d("isogenous")?))
             })
             .collect();
+        let two_torsion_dim = v
+            .get("torsion")
+            .and_then(|t| t.get("cyclic_factors"))
+            .and_then(Value::as_array)
+            .map(|fs| {
+                fs.iter()
+                    .filter(|f| f.as_u64().is_some_and(|n| n % 2 == 0))
+                    .count() as u64
+            });
+        let selmer2_excess = v
+            .get("selmer2_rank")
+            .and_then(Value::as_u64)
+            .zip(two_torsion_dim)
+            .and_then(|(s, t)| s.checked_sub(t));
         Some(RecordLine {
+            selmer2_excess,
             index,
             parameter,
             rank_lower: num("rank_lower"),
@@ -106,6 +124,8 @@ pub struct Tally {
     pub selmer_pairs: BTreeMap<(u64, u64), u64>,
     /// Count of each value of [`RecordLine::selmer_rank_bound`].
     pub selmer_rank: BTreeMap<u64, u64>,
+    /// Count of each value of [`RecordLine::selmer2_excess`].
+    pub selmer2: BTreeMap<u64, u64>,
     trace: Vec<(u64, f64)>,
     stride: u64,
 }
@@ -132,6 +152,9 @@ impl Tally {
         }
         if let Some(s) = r.selmer_rank_bound() {
             *self.selmer_rank.entry(s).or_insert(0) += 1;
+        }
+        if let Some(s) = r.selmer2_excess {
+            *self.selmer2.entry(s).or_insert(0) += 1;
         }
         if self.stride == 0 {
             self.stride = 1;
@@ -170,6 +193,59 @@ impl Tally {
             t.push((self.curves, self.decided_share()));
         }
         t
+    }
+}
+
+/// Heath-Brown's limit law for the congruent-number curves: the share of
+/// square-free n with s(n) = dim Sel²(E_n) − 2 equal to r is
+/// d_r = α · 2^r / ∏_{j=1}^{r} (2^j − 1), α = ∏_{j≥0} (1 + 2^{−j})^{−1}
+/// (Heath-Brown, "The size of Selmer groups for the congruent number
+/// problem II", Invent. Math. 118 (1994), Theorem 1; from memory). Returns
+/// d_0, …, d_{r_max}.
+pub fn congruent_selmer_limit_law(r_max: usize) -> Vec<f64> {
+    let alpha: f64 = (0..64).map(|j| 1.0 / (1.0 + 0.5f64.powi(j))).product();
+    let mut out = Vec::with_capacity(r_max + 1);
+    let mut d = alpha;
+    for r in 0..=r_max {
+        if r > 0 {
+            d *= 2.0 / (2f64.powi(r as i32) - 1.0);
+        }
+        out.push(d);
+    }
+    out
+}
+
+/// Rows (s, observed share, share under the law) and the total variation
+/// distance, from [`Tally::selmer2_against`].
+pub type LawComparison = (Vec<(u64, f64, f64)>, f64);
+
+impl Tally {
+    /// The observed distribution of [`RecordLine::selmer2_excess`] beside
+    /// `law`, and their total variation distance (half the sum of the
+    /// absolute differences, the mass of the law beyond the table
+    /// included). `None` when no record carried a 2-Selmer rank.
+    pub fn selmer2_against(&self, law: &[f64]) -> Option<LawComparison> {
+        let total: u64 = self.selmer2.values().sum();
+        if total == 0 {
+            return None;
+        }
+        let top = self
+            .selmer2
+            .keys()
+            .copied()
+            .max()
+            .unwrap_or(0)
+            .max(law.len() as u64);
+        let mut rows = Vec::new();
+        let mut tv = 0.0;
+        for r in 0..=top {
+            let obs = *self.selmer2.get(&r).unwrap_or(&0) as f64 / total as f64;
+            let exp = law.get(r as usize).copied().unwrap_or(0.0);
+            tv += (obs - exp).abs();
+            rows.push((r, obs, exp));
+        }
+        let beyond: f64 = 1.0 - law.iter().sum::<f64>();
+        Some((rows, 0.5 * (tv + beyond.max(0.0))))
     }
 }
 
@@ -219,6 +295,15 @@ impl fmt::Display for Tally {
         )?;
         for (&s, &n) in &self.selmer_rank {
             writeln!(f, "                 {s:>5}  {n:>36}  {:>5.2}%", pct(n))?;
+        }
+        if !self.selmer2.is_empty() {
+            writeln!(
+                f,
+                "2-Selmer rank beyond E(Q)[2] (dim Sel^2 - dim E(Q)[2])      count   share"
+            )?;
+            for (&s, &n) in &self.selmer2 {
+                writeln!(f, "                 {s:>5}  {n:>36}  {:>5.2}%", pct(n))?;
+            }
         }
         Ok(())
     }
