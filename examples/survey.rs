@@ -327,10 +327,33 @@ fn plot(t: &Tally, path: &str, title: &str) -> Res<()> {
     let root = root.titled(title, ("sans-serif", 16))?;
     let (left, right) = root.split_horizontally(550);
 
-    let max_s = t.selmer_rank.keys().copied().max().unwrap_or(0) as u32;
-    let max_n = t.selmer_rank.values().copied().max().unwrap_or(0).max(1);
+    // Left: for the congruent-number family, the 2-Selmer rank beyond
+    // E[2] with Heath-Brown's limit law as points (expected counts);
+    // otherwise the Selmer rank bound.
+    let congruent = title.contains("congruent") && !t.selmer2.is_empty();
+    let (counts, caption, x_desc) = if congruent {
+        (
+            &t.selmer2,
+            "2-Selmer rank beyond E[2]; dots: Heath-Brown's limit law",
+            "dim Sel^2(E) - 2",
+        )
+    } else {
+        (
+            &t.selmer_rank,
+            "Selmer rank bound (min over isogenies)",
+            "dim Sel(E) + dim Sel(E') - 2",
+        )
+    };
+    let total: u64 = counts.values().sum();
+    let law = isodescent::family::congruent_selmer_limit_law(8);
+    let max_s = counts.keys().copied().max().unwrap_or(0) as u32;
+    let mut max_n = counts.values().copied().max().unwrap_or(0).max(1);
+    if congruent {
+        let top = law.iter().fold(0f64, |m, &d| m.max(d)) * total as f64;
+        max_n = max_n.max(top.ceil() as u64);
+    }
     let mut ch = ChartBuilder::on(&left)
-        .caption("Selmer rank bound (min over isogenies)", ("sans-serif", 18))
+        .caption(caption, ("sans-serif", 16))
         .margin(16)
         .x_label_area_size(40)
         .y_label_area_size(64)
@@ -340,15 +363,25 @@ fn plot(t: &Tally, path: &str, title: &str) -> Res<()> {
         )?;
     ch.configure_mesh()
         .disable_x_mesh()
-        .x_desc("dim Sel(E) + dim Sel(E') - 2")
+        .x_desc(x_desc)
         .y_desc("curves")
         .draw()?;
     ch.draw_series(
         Histogram::vertical(&ch)
             .style(RGBColor(60, 110, 180).filled())
             .margin(6)
-            .data(t.selmer_rank.iter().map(|(&s, &n)| (s as u32, n))),
+            .data(counts.iter().map(|(&s, &n)| (s as u32, n))),
     )?;
+    if congruent {
+        ch.draw_series((0..=max_s).map(|s| {
+            let expected = law.get(s as usize).copied().unwrap_or(0.0) * total as f64;
+            Circle::new(
+                (SegmentValue::CenterOf(s), expected.round() as u64),
+                5,
+                RGBColor(190, 60, 40).filled(),
+            )
+        }))?;
+    }
 
     let trace = t.trace();
     let max_x = trace.last().map(|p| p.0).unwrap_or(1).max(1);
