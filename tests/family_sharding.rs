@@ -213,10 +213,13 @@ fn a_run_killed_mid_line_is_resumed_by_the_command_without_loss_or_duplicates() 
     );
     assert_eq!(std::fs::read(&out).unwrap(), want);
     assert!(summary.contains("30 kept from an earlier run"), "{summary}");
-    // The plot is an SVG document drawn by plotters with both panels.
+    // The plot is an SVG document drawn by plotters with both panels; for
+    // the congruent family the left one shows the 2-Selmer ranks with the
+    // limit law as dots.
     let text = std::fs::read_to_string(&svg).unwrap();
     assert!(text.trim_start().starts_with("<svg") && text.trim_end().ends_with("</svg>"));
-    assert!(text.contains("Selmer rank bound") && text.contains("decided"));
+    assert!(text.contains("2-Selmer rank") && text.contains("decided"));
+    assert!(text.contains("<circle"));
     // A different family refuses to resume this file.
     let other = Command::new(survey())
         .arg("scan")
