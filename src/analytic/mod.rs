@@ -4,16 +4,16 @@
 //! theorem, and the Birch–Swinnerton-Dyer ledger.
 //!
 //! # Overview
-//! * [`coefficients`]: `a_p` (direct counts, baby-step giant-step on the
+//! * `coefficients`: `a_p` (direct counts, baby-step giant-step on the
 //!   curve and its twist), `a_n` by multiplicativity.
-//! * [`root_number`]: `w(E) = −∏ w_p` where every `w_p` has a closed
+//! * `root_number`: `w(E) = −∏ w_p` where every `w_p` has a closed
 //!   formula (all primes unless additive at 2 or 3).
-//! * [`period`]: the real period by the AGM, with the number of real
+//! * `period`: the real period by the AGM, with the number of real
 //!   components.
-//! * [`series`]: the rapidly converging series for `Λ^{(r)}(1)` and
+//! * `series`: the rapidly converging series for `Λ^{(r)}(1)` and
 //!   `L^{(r)}(E, 1)`, the theta function `F(t)` of the functional
 //!   equation, and the value of `Λ(1)` with any splitting parameter.
-//! * [`ledger`]: the analytic order of Sha.
+//! * `ledger`: the analytic order of Sha.
 //! * [`Certified`]: a binary64 midpoint with a proven error radius; every
 //!   number this module hands out is one.
 //!

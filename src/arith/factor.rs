@@ -245,14 +245,14 @@ fn trial_divide(m: &mut BigUint, found: &mut BTreeMap<BigInt, u32>) {
 ///
 /// Method (the fundamental theorem of arithmetic gives uniqueness). The
 /// cheap steps run under every budget:
-/// 1. trial division by every prime below [`TRIAL_BOUND`] `= 2^16`
+/// 1. trial division by every prime below `TRIAL_BOUND` `= 2^16`
 ///    (a gcd with their product, see `trial_divide`);
 /// 2. a cofactor below `2^64` is factored completely and exactly by
 ///    [`factor_u64`]'s method (its work has a fixed bound of about
 ///    `2^17` word multiplications);
 /// 3. every larger cofactor is tested with Baillie–PSW [`is_prime`] and
 ///    for being a perfect power `r^k` (only `k ≤ bits/16` can occur after
-///    step 1); cofactors above [`CHEAP_TEST_BITS`] are charged for these
+///    step 1); cofactors above `CHEAP_TEST_BITS` are charged for these
 ///    tests.
 ///
 /// Then the budgeted methods, on a composite that is not a perfect power:
@@ -290,7 +290,7 @@ fn trial_divide(m: &mut BigUint, found: &mut BTreeMap<BigInt, u32>) {
 /// factor-base root update or a trial division of a candidate is charged
 /// `1/(2W²)` units (an eighth of a two-word multiplication: measured
 /// about 1 ns against 8 ns). The cheap steps above are not charged
-/// (except the tests on cofactors above [`CHEAP_TEST_BITS`]: `3·bits·k²/W²`).
+/// (except the tests on cofactors above `CHEAP_TEST_BITS`: `3·bits·k²/W²`).
 /// A caller that scales its budget down by `(128/bits)²` for large `n`
 /// therefore still pays for the real work on a small hard cofactor only.
 ///

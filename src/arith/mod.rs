@@ -3,11 +3,11 @@
 //! Primality, factorisation with an effort budget, square-free parts and
 //! kernels, integer square roots.
 //!
-//! * [`prime`]: exact primality below `2^64`, Baillie–PSW above;
-//! * [`factor`](mod@factor): trial division, Pollard–Brent rho, ECM, the
+//! * `prime`: exact primality below `2^64`, Baillie–PSW above;
+//! * `factor`: trial division, Pollard–Brent rho, ECM, the
 //!   self-initialising quadratic sieve;
-//! * [`roots`]: integer and rational square roots, perfect squares;
-//! * [`squarefree`]: square-free parts and kernels.
+//! * `roots`: integer and rational square roots, perfect squares;
+//! * `squarefree`: square-free parts and kernels.
 
 pub(crate) mod ecm;
 pub(crate) mod factor;

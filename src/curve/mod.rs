@@ -3,21 +3,21 @@
 //! y² = x³ + ax² + bx for descent, 2-isogenies and the torsion subgroup.
 //!
 //! # Overview
-//! * [`weierstrass`]: the [`Curve`] type, a general Weierstrass model
+//! * `weierstrass`: the [`Curve`] type, a general Weierstrass model
 //!   y² + a1xy + a3y = x³ + a2x² + a4x + a6 over Q with its invariants
 //!   b2, b4, b6, b8, c4, c6, Δ, j [Sil09, III.1]; parsing from an equation or
 //!   from `a1 a2 a3 a4 a6`.
-//! * [`equation`]: curves and homogeneous spaces written as equations.
-//! * [`point`]: [`Point`] and the exact chord-and-tangent group law
+//! * `equation`: curves and homogeneous spaces written as equations.
+//! * `point`: [`Point`] and the exact chord-and-tangent group law
 //!   [Sil09, III.2.3], scalar multiplication, naive height.
-//! * [`model`]: [`ModelChange`] (u, r, s, t) acting on curves and points,
+//! * `model`: [`ModelChange`] (u, r, s, t) acting on curves and points,
 //!   composition, inverse [Sil09, III.1, Table 3.1]; [`integral_model`].
-//! * [`two_torsion`]: the rational points of order 2 and the reduced model
+//! * `two_torsion`: the rational points of order 2 and the reduced model
 //!   [`TwoTorsionModel`] y² = x³ + ax² + bx with T = (0, 0), a, b ∈ Z and no
 //!   prime p with p² | a, p⁴ | b.
-//! * [`isogeny`]: [`TwoIsogeny`] φ: E → E′, y² = x³ − 2ax² + (a² − 4b)x,
+//! * `isogeny`: [`TwoIsogeny`] φ: E → E′, y² = x³ − 2ax² + (a² − 4b)x,
 //!   and its dual φ̂, with φ̂ ∘ φ = \[2\] [ST92, III.4].
-//! * [`torsion`]: [`torsion_subgroup`], exact, by point counts at good primes
+//! * `torsion`: [`torsion_subgroup`], exact, by point counts at good primes
 //!   (reduction is injective on torsion [Sil09, VII.3.1]), with an early
 //!   exit when the points of order 2 already account for the bound,
 //!   Nagell–Lutz integrality [Sil09, VIII.7.2], halving for the 2-primary

@@ -203,7 +203,7 @@ impl TwoTorsionModel {
 
 /// The reduced model E_T for descent via the 2-isogeny with kernel {O, T}
 /// (module docs), with the default factoring budget
-/// [`DEFAULT_REDUCTION_UNITS`].
+/// `DEFAULT_REDUCTION_UNITS`.
 ///
 /// # Errors
 /// [`Error::PointNotOnCurve`] if T is not on E; [`Error::InvalidArgument`]

@@ -453,7 +453,7 @@ fn split_tokens(s: &str) -> Result<Vec<&str>> {
 impl FromStr for Curve {
     type Err = Error;
 
-    /// Parses an equation (text containing `=`, see [`super::equation`])
+    /// Parses an equation (text containing `=`, see `super::equation`)
     /// or five coefficients `a1 a2 a3 a4 a6` (see the module docs).
     ///
     /// # Errors

@@ -18,9 +18,9 @@
 //!    certificate; "generate" is claimed only when saturation proved it.
 //! 3. The ledger: Sha_an = L^(r)(E,1)/r! · |E(Q)_tors|² / (Ω · Reg · ∏ c_p)
 //!    for r = 0, and for r ≥ 1 when the generators are proven; never
-//!    filled with a guess. Its 2-part is compared with dim Ш(E)[2] =
-//!    dim Sel²(E) − dim E(Q)[2] − r, which the descent proves once r is
-//!    known: for finite Ш, #Ш is a square and 2^dim Ш(E)[2] divides it.
+//!    filled with a guess. Its 2-part is compared with dim Ш(E)\[2\] =
+//!    dim Sel²(E) − dim E(Q)\[2\] − r, which the descent proves once r is
+//!    known: for finite Ш, #Ш is a square and 2^dim Ш(E)\[2\] divides it.
 
 use num_bigint::BigInt;
 
@@ -53,7 +53,7 @@ impl RankProof {
 /// The ledger's comparison with the 2-part of Sha proven by the descent.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
 pub struct ShaTwoPart {
-    /// dim Ш(E)[2] = dim Sel²(E) − dim E(Q)[2] − rank (proven).
+    /// dim Ш(E)\[2\] = dim Sel²(E) − dim E(Q)\[2\] − rank (proven).
     pub descent_dimension: usize,
     /// v_2 of the nearest square to Sha_an, when Sha_an is within its
     /// error of a positive integer square.

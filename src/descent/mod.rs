@@ -9,8 +9,8 @@
 //! 2. factors b and a² − 4b (the bad primes of both sides, since
 //!    a'² − 4b' = 16 b);
 //! 3. computes both Selmer groups from local images at R, 2 and every bad
-//!    prime ([`side::compute_side`]) and searches their homogeneous spaces;
-//! 4. combines both sides by the exact sequence ([`bounds`]).
+//!    prime (`side::compute_side`) and searches their homogeneous spaces;
+//! 4. combines both sides by the exact sequence (`bounds`).
 //!
 //! With three rational 2-torsion points it does this for each of the three
 //! isogenies and reports the sharpest bounds: max of the lower bounds, min
@@ -93,7 +93,7 @@ impl IsogenyDescent {
 
     /// dim_F2 Sel²(E/Q) of the reduced model E (isomorphic to the input
     /// curve), torsion included, from the exact sequence of
-    /// [`bounds::selmer2_dimension`]: dim Sel^φ(E) (this descent's E'
+    /// `bounds::selmer2_dimension`: dim Sel^φ(E) (this descent's E'
     /// side) − t + dim I (the liftable subgroup on E's side). `None` when
     /// the pairing on E's side was not computed (budget).
     pub fn selmer2_rank(&self) -> Option<usize> {
@@ -106,7 +106,7 @@ impl IsogenyDescent {
     }
 
     /// dim_F2 Sel²(E'/Q) of the isogenous curve E', torsion included
-    /// (the same sequence for the dual isogeny; E'[2] is rational iff b is
+    /// (the same sequence for the dual isogeny; E'\[2\] is rational iff b is
     /// a square).
     pub fn selmer2_rank_codomain(&self) -> Option<usize> {
         let full = is_square(&self.model.b);
@@ -119,7 +119,7 @@ impl IsogenyDescent {
 }
 
 /// dim_F2 Sel²(E/Q) of the curve of a descent, torsion included: the value
-/// of the first isogeny whose pairing was computed (with E[2] rational all
+/// of the first isogeny whose pairing was computed (with E\[2\] rational all
 /// three isogenies give the same number; the tests check it).
 pub fn selmer2_rank(isogenies: &[IsogenyDescent]) -> Option<usize> {
     isogenies.iter().find_map(IsogenyDescent::selmer2_rank)

@@ -253,7 +253,7 @@ impl DescentReport {
         self.bounds.is_decided()
     }
 
-    /// dim_F2 Sel²(E/Q), torsion included (so at least dim E(Q)[2]), from
+    /// dim_F2 Sel²(E/Q), torsion included (so at least dim E(Q)\[2\]), from
     /// the exact sequence of the 2-isogeny descent and the lifting pairing;
     /// `None` when a budget stopped the pairing.
     pub fn selmer2_rank(&self) -> Option<usize> {

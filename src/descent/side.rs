@@ -154,7 +154,7 @@ pub struct SelmerSide {
     pub second_descent_runs: Vec<(BigInt, String)>,
     /// The lifting pairing on the Selmer group and its kernel I, the
     /// classes that lift to everywhere locally soluble 2-coverings of the
-    /// curve ([`crate::selmer::pairing`]); `None` if its budget ran out
+    /// curve (`crate::selmer::pairing`); `None` if its budget ran out
     /// (then `pairing_error` says why).
     pub pairing: Option<LiftPairing>,
     /// Why the pairing is missing, if it is.

@@ -190,7 +190,7 @@ impl Family {
     ///
     /// Errors: [`Error::NoTwoTorsion`] if `base` has no rational point of
     /// order 2 (nor then has any twist); [`Error::InvalidArgument`] if
-    /// `from > to` or a bound exceeds [`MAX_PARAMETER`] in absolute value.
+    /// `from > to` or a bound exceeds `MAX_PARAMETER` in absolute value.
     ///
     /// Example: `quadratic_twists(y² = x³ − x, 1, 10)` has the seven
     /// members d = 1, 2, 3, 5, 6, 7, 10.
@@ -213,7 +213,7 @@ impl Family {
     ///
     /// Errors: [`Error::NotPositive`] if `from` is 0;
     /// [`Error::InvalidArgument`] if `from > to` or `to` exceeds
-    /// [`MAX_PARAMETER`].
+    /// `MAX_PARAMETER`.
     ///
     /// Example: `congruent_numbers(1, 10)` has the members
     /// n = 1, 2, 3, 5, 6, 7, 10.
@@ -234,7 +234,7 @@ impl Family {
     /// singular pairs (b = 0 or a² = 4b) skipped.
     ///
     /// Errors: [`Error::InvalidArgument`] if `bound` exceeds
-    /// [`MAX_PARAMETER`].
+    /// `MAX_PARAMETER`.
     ///
     /// Example: `pair_box(1)` has the six members (a, b) = (−1, −1),
     /// (−1, 1), (0, −1), (0, 1), (1, −1), (1, 1).

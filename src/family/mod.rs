@@ -9,9 +9,9 @@
 //! * [`scan()`](fn@scan) runs [`crate::output::json_for_line`] on each member and
 //!   hands the [`ScanRecord`]s back in family order, with memory bounded
 //!   independently of the family size; with the `parallel` feature on a
-//!   rayon pool (see [`scan`](mod@scan) for how order is kept).
+//!   rayon pool (see `scan` for how order is kept).
 //! * [`Shard`] `k/N` is the members with index ≡ k − 1 (mod N).
-//! * [`records`]: the output line format, [`Tally`] (summary counts and
+//! * `records`: the output line format, [`Tally`] (summary counts and
 //!   the cumulative decided share), [`read_for_resume`] (continue an
 //!   interrupted output file without losing or duplicating a line) and
 //!   [`merge_shards`] (shard files → one file in family order, with a

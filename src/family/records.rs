@@ -36,7 +36,7 @@ pub struct RecordLine {
     /// For each isogeny of `selmer`, the dimensions of the Selmer groups on
     /// the curve's side and on the isogenous side.
     pub selmer: Vec<(u64, u64)>,
-    /// `selmer2_rank` minus dim E(Q)[2] (the number of even cyclic factors
+    /// `selmer2_rank` minus dim E(Q)\[2\] (the number of even cyclic factors
     /// of the torsion): the 2-Selmer rank beyond the 2-torsion.
     pub selmer2_excess: Option<u64>,
 }

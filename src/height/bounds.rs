@@ -92,7 +92,7 @@ pub const MAX_SEARCH_HEIGHT: f64 = 16.0;
 ///
 /// # Errors
 /// [`Error::InvalidArgument`] for a search height that is not finite or
-/// exceeds [`MAX_SEARCH_HEIGHT`]; [`Error::BudgetExhausted`].
+/// exceeds `MAX_SEARCH_HEIGHT`; [`Error::BudgetExhausted`].
 pub fn height_lower_bound(
     ctx: &HeightContext,
     search_height: f64,

@@ -28,10 +28,10 @@
 //!   points with hundreds of digits, behind [`HeightContext::multiple`] and
 //!   [`HeightContext::combination`];
 //! - `local`: the archimedean and non-archimedean local heights;
-//! - [`bounds`]: naive/canonical height difference bounds and a proven
+//! - `bounds`: naive/canonical height difference bounds and a proven
 //!   lower bound for `ĥ` on non-torsion points;
 //! - `lll`: LLL reduction for the height pairing;
-//! - [`saturate`](mod@saturate): index bounds and p-saturation.
+//! - `saturate`: index bounds and p-saturation.
 
 // Matrix code reads best with explicit indices.
 #![allow(clippy::needless_range_loop)]

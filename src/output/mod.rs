@@ -2,12 +2,12 @@
 //! lines become curves. Nothing below this layer writes or reads text
 //! other than a curve's equation.
 //!
-//! * [`text`]: the report for a person — the answer first (equation, rank
+//! * `text`: the report for a person — the answer first (equation, rank
 //!   with what proves each end, points, torsion), then per isogeny the
 //!   derivation of the bounds, then local data, then evidence.
-//! * [`json`]: the one JSON schema (`docs/report.schema.json`), written with
+//! * `json`: the one JSON schema (`docs/report.schema.json`), written with
 //!   serde; every line carries `format_version`.
-//! * [`batch`]: one curve per input line, one JSON line out; invalid bytes
+//! * `batch`: one curve per input line, one JSON line out; invalid bytes
 //!   and panics become that line's error and the batch goes on.
 
 pub(crate) mod batch;
@@ -52,7 +52,7 @@ impl DescentReport {
         }
     }
 
-    /// The one-line JSON object of this report (see [`json`]).
+    /// The one-line JSON object of this report (see `json`).
     pub fn to_json_line(&self, input: &str, detail: Detail) -> String {
         report_line(input, self, detail)
     }

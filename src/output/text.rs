@@ -50,8 +50,8 @@ pub(crate) fn reduction_words(k: ReductionKind) -> &'static str {
 /// The names of a side's Selmer group and of the part of Sha it measures.
 ///
 /// For φ: E → E' with dual φ̂, the classes d of C_d over E (points of E)
-/// form Sel^φ̂(E') ⊇ E(Q)/φ̂(E'(Q)), and Sel/image ≅ Ш(E')[φ̂]; the classes
-/// over E' form Sel^φ(E) and measure Ш(E)[φ].
+/// form Sel^φ̂(E') ⊇ E(Q)/φ̂(E'(Q)), and Sel/image ≅ Ш(E')\[φ̂\]; the classes
+/// over E' form Sel^φ(E) and measure Ш(E)\[φ\].
 pub(crate) fn side_names(domain: bool) -> (&'static str, &'static str) {
     if domain {
         ("Sel^φ̂(E')", "Ш(E')[φ̂]")

@@ -314,7 +314,7 @@ impl SearchOptions {
 ///
 /// `coeffs = [c4, c3, c2, c1, c0]` are the coefficients of
 /// `g = c4·x⁴ + c3·x³z + c2·x²z² + c1·xz³ + c0·z⁴`. The method is the sieve
-/// described in the [module documentation](self); every reported point is
+/// described in the module documentation of the quartic search; every reported point is
 /// verified exactly, and a pair is rejected only when a necessary condition
 /// for `g(x, z)` to be a square fails (so no point is missed).
 ///
@@ -325,7 +325,7 @@ impl SearchOptions {
 /// Errors: [`Error::Degenerate`] if the discriminant of `g` is 0 (in
 /// particular if `g = 0`), since then the curve can have about `H²` points
 /// of height `≤ H`; [`Error::InvalidArgument`] if `height > MAX_HEIGHT` or
-/// there are more than [`MAX_CONGRUENCES`] congruences.
+/// there are more than `MAX_CONGRUENCES` congruences.
 ///
 /// Cost: at most about `1.2·H²` coprime candidate pairs, sieved 64 at a time
 /// (see the module documentation); less when a point of small height exists.

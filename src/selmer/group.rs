@@ -74,7 +74,7 @@ pub fn localisation(qs2: &QS2, place: &Place) -> Result<LinearMap> {
 /// Sel = ⋂_v loc_v^{-1}(W_v) inside Q(S, 2).
 ///
 /// # Errors
-/// Propagates errors of [`localisation`].
+/// Propagates errors of `localisation`.
 pub fn selmer_from_local_images(qs2: &QS2, conditions: &[LocalCondition]) -> Result<Subspace> {
     let n = qs2.dim();
     let mut rows = Vec::new();
