@@ -127,6 +127,12 @@ pub(crate) fn complete(
                     // the descent's lower bound rises with them.
                     report.descent_bounds.lower = report.descent_bounds.lower.max(points.len());
                     report.points = points;
+                    // The points and the Selmer bounds now prove the rank
+                    // without the analytic theorem (which only guided the
+                    // search).
+                    if report.descent_bounds.is_decided() {
+                        report.global.settled_by = Some(RankProof::Descent);
+                    }
                 }
                 Ok(_) => {}
                 Err(e) => note_stop(report, "deep search for points", &e),
