@@ -321,16 +321,7 @@ pub(crate) fn ap_fast(
 ) -> Option<i64> {
     debug_assert!((5..(1 << 31)).contains(&p));
     let f = Mont::new(p);
-    let bound = {
-        let mut r = ((4 * p) as f64).sqrt() as u64;
-        while r * r > 4 * p {
-            r -= 1;
-        }
-        while (r + 1) * (r + 1) <= 4 * p {
-            r += 1;
-        }
-        r
-    };
+    let bound = super::coefficients::hasse_width(p);
     let mut live: Option<Vec<i64>> = None;
     let mut tried = 0;
     let mut x0 = 0u64;

@@ -378,17 +378,7 @@ fn candidates(f: &Fp, pt: Pt, bound: u64) -> Option<Vec<i64>> {
 /// the curve nonsingular mod `p`. `None` if undecided after
 /// `tries` points.
 fn bsgs(a: u64, b: u64, p: u64, tries: u64) -> Option<i64> {
-    let bound = {
-        // floor(2√p) = floor(√(4p)), exact integer square root.
-        let mut r = ((4 * p) as f64).sqrt() as u64;
-        while r * r > 4 * p {
-            r -= 1;
-        }
-        while (r + 1) * (r + 1) <= 4 * p {
-            r += 1;
-        }
-        r
-    };
+    let bound = hasse_width(p);
     let mut live: Option<Vec<i64>> = None;
     let mut tried = 0;
     let mut x0 = 0u64;
@@ -515,6 +505,19 @@ pub fn an_list(local: &GlobalLocalData, n: u64, budget: &mut Budget) -> Result<V
         }
     }
     Ok(a)
+}
+
+/// ⌊2√p⌋ = ⌊√(4p)⌋, the Hasse bound on |a_p|, by an exact integer square
+/// root (the float estimate corrected in both directions).
+pub(crate) fn hasse_width(p: u64) -> u64 {
+    let mut r = ((4 * p) as f64).sqrt() as u64;
+    while r * r > 4 * p {
+        r -= 1;
+    }
+    while (r + 1) * (r + 1) <= 4 * p {
+        r += 1;
+    }
+    r
 }
 
 #[cfg(test)]
