@@ -319,27 +319,6 @@ fn has_cm_by_maximal_order(curve: &Curve) -> bool {
     *n == d163 || CM_MAXIMAL_J.iter().any(|&v| *n == BigInt::from(v))
 }
 
-/// The smallest `m` with `bound(m) ≤ target` (doubling, then bisection).
-fn smallest_terms(bound: impl Fn(u64) -> f64, target: f64) -> u64 {
-    let mut hi = 16u64;
-    while bound(hi) > target || bound(hi).is_nan() {
-        hi *= 2;
-        if hi > 1 << 40 {
-            return u64::MAX;
-        }
-    }
-    let mut lo = hi / 2;
-    while hi - lo > 1 + hi / 64 {
-        let mid = lo + (hi - lo) / 2;
-        if bound(mid) <= target {
-            hi = mid;
-        } else {
-            lo = mid;
-        }
-    }
-    hi
-}
-
 /// The root number by the test `F(1/t) = w·t²·F(t)`: `Ok(Some(w))` when
 /// one sign is excluded and the other is not, `Ok(None)` when
 /// inconclusive at every `t` tried, `Err(())`-like `Some(0)` when both
@@ -435,7 +414,7 @@ pub fn analyse(
         options.tolerance,
     ));
     let tmax = THETA_POINTS[0].max(SPLIT);
-    let m_t = smallest_terms(
+    let m_t = series::smallest_terms(
         |m| {
             let q = c.scale(1.0 / tmax).neg().exp();
             let qm = c.scale((m + 1) as f64 / tmax).neg().exp();

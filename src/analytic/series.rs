@@ -343,9 +343,13 @@ pub(crate) fn e1_scaled_cf(x: f64) -> Certified {
 /// The number of terms after which the tail bound of `S_r` (in units of
 /// `L`, i.e. times `2c`) drops below `target`, for the step `c`.
 pub(crate) fn terms_needed(c: &Certified, r: usize, target: f64) -> u64 {
-    let ok = |m: usize| tail_bound(c, r, m) * 2.0 * c.upper() <= target;
-    let mut hi = 16usize;
-    while !ok(hi) {
+    smallest_terms(|m| tail_bound(c, r, m as usize) * 2.0 * c.upper(), target)
+}
+
+/// The smallest `m` with `bound(m) ≤ target` (doubling, then bisection).
+pub(crate) fn smallest_terms(bound: impl Fn(u64) -> f64, target: f64) -> u64 {
+    let mut hi = 16u64;
+    while bound(hi) > target || bound(hi).is_nan() {
         hi *= 2;
         if hi > 1 << 40 {
             return u64::MAX;
@@ -354,13 +358,13 @@ pub(crate) fn terms_needed(c: &Certified, r: usize, target: f64) -> u64 {
     let mut lo = hi / 2;
     while hi - lo > 1 + hi / 64 {
         let mid = lo + (hi - lo) / 2;
-        if ok(mid) {
+        if bound(mid) <= target {
             hi = mid;
         } else {
             lo = mid;
         }
     }
-    hi as u64
+    hi
 }
 
 /// Derivatives `h^{(k)}(1)`, `k = 0..=3`, of `h(s) = (2π/√N)^s/Γ(s)`.
