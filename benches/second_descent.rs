@@ -1,4 +1,4 @@
-//! Criterion benchmarks for the second descent (src/quartic/covering.rs).
+//! Criterion benchmarks for the second descent (src/quartic/second_descent.rs).
 //!
 //! * `second_descent/lind_reichardt`: y² = x³ − 68x, class d = 2, whose
 //!   space is 2Y² = 1 − 17X⁴; every twist is obstructed (`NoPoint`).

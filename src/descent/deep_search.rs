@@ -45,15 +45,15 @@
 use num_bigint::BigInt;
 use num_traits::{One, Signed, Zero};
 
-use super::side::{connecting_value, SelmerSide, TWISTS_PER_CLASS};
+use super::isogeny_side::{connecting_value, SelmerSide, TWISTS_PER_CLASS};
 use super::{DescentReport, IsogenyDescent};
 use crate::budget::Budget;
 use crate::curve::{Curve, Point};
 use crate::error::{Error, Result};
-use crate::quartic::covering::{
+use crate::quartic::search::{search, SearchOptions, SearchOutcome, MAX_HEIGHT};
+use crate::quartic::second_descent::{
     second_descent, second_descent_on_twists, SecondDescentOptions, SecondDescentOutcome,
 };
-use crate::quartic::search::{search, SearchOptions, SearchOutcome, MAX_HEIGHT};
 use crate::quartic::Quartic;
 use crate::selmer::f2::{BitVec, Subspace};
 use crate::selmer::group::LocalCondition;
@@ -219,7 +219,7 @@ impl<'a> SideHunt<'a> {
 /// lowers |d|, so at most a bounded number of passes).
 fn small_representative(hunt: &SideHunt<'_>, x: &BitVec) -> (BigInt, BitVec) {
     let qs2 = &hunt.side.qs2;
-    let y = super::side::smallest_in_coset(qs2, x, &hunt.known);
+    let y = super::isogeny_side::smallest_in_coset(qs2, x, &hunt.known);
     (qs2.integer(&y), y)
 }
 

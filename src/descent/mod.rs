@@ -9,7 +9,7 @@
 //! 2. factors b and a² − 4b (the bad primes of both sides, since
 //!    a'² − 4b' = 16 b);
 //! 3. computes both Selmer groups from local images at R, 2 and every bad
-//!    prime (`side::compute_side`) and searches their homogeneous spaces;
+//!    prime (`isogeny_side::compute_side`) and searches their homogeneous spaces;
 //! 4. combines both sides by the exact sequence (`bounds`).
 //!
 //! With three rational 2-torsion points it does this for each of the three
@@ -30,9 +30,9 @@
 pub(crate) mod bounds;
 pub(crate) mod deep_search;
 pub(crate) mod global;
+pub(crate) mod isogeny_side;
 pub(crate) mod options;
 pub(crate) mod report;
-pub(crate) mod side;
 pub(crate) mod verify;
 
 use std::time::Instant;
@@ -41,9 +41,9 @@ use num_bigint::BigInt;
 
 pub use deep_search::{complete_report_points, search_missing_points, DeepSearchOptions};
 pub use global::{RankProof, ShaTwoPart};
+pub use isogeny_side::{ClassStatus, CoveringObstruction, SearchRecord, SelmerElement, SelmerSide};
 pub use options::DescentOptions;
 pub use report::{Completion, DescentReport, RankBounds};
-pub use side::{ClassStatus, CoveringObstruction, SearchRecord, SelmerElement, SelmerSide};
 pub use verify::{verify_report, Verification};
 
 use crate::arith::factor;
@@ -190,7 +190,7 @@ fn descend_isogeny_with_torsion(
         .collect();
     let torsion_e2 = torsion_subgroup(isogeny.codomain()).points().to_vec();
 
-    let domain = side::compute_side(
+    let domain = isogeny_side::compute_side(
         &a,
         &b,
         model.curve(),
@@ -199,7 +199,7 @@ fn descend_isogeny_with_torsion(
         options,
         deadline,
     )?;
-    let codomain = side::compute_side(
+    let codomain = isogeny_side::compute_side(
         &a2,
         &b2,
         isogeny.codomain(),

@@ -24,12 +24,12 @@
 //! was checked, not only a yes/no.
 
 use super::bounds::rank_bounds;
+use super::isogeny_side::{connecting_value, ClassStatus, SelmerSide};
 use super::report::DescentReport;
-use super::side::{connecting_value, ClassStatus, SelmerSide};
 use crate::budget::Budget;
 use crate::curve::Curve;
 use crate::error::Result;
-use crate::quartic::covering::verify_obstruction;
+use crate::quartic::second_descent::verify_obstruction;
 use crate::quartic::{locally_soluble, LocalSolubility, Quartic};
 use crate::selmer::f2::Subspace;
 use crate::selmer::group::{selmer_from_local_images, LocalCondition};

@@ -38,7 +38,7 @@
 
 pub(crate) mod bounds;
 mod lll;
-mod local;
+mod local_terms;
 mod projective;
 pub(crate) mod saturate;
 
@@ -55,7 +55,7 @@ use crate::error::{Error, Result};
 pub use bounds::{difference_bounds, height_lower_bound, DifferenceBounds, HeightLowerBound};
 pub use saturate::{saturate, Saturation, SaturationOptions};
 
-use local::{Archimedean, BadPrime};
+use local_terms::{Archimedean, BadPrime};
 use projective::{Jac, ShortModel};
 
 /// Default requested absolute precision of a canonical height.
@@ -267,7 +267,7 @@ impl HeightContext {
             return Certified::exact(0.0);
         };
         let (xn, xd) = (x.numer(), x.denom());
-        // log d² + Λ∞(P) in one piece (see local::Archimedean::lambda).
+        // log d² + Λ∞(P) in one piece (see local_terms::Archimedean::lambda).
         let (mut value, trunc, rounding) = self.arch.lambda(xn, xd, precision * 0.5);
         let mut err = trunc + rounding;
         for bp in &self.bad {
@@ -275,7 +275,7 @@ impl HeightContext {
             if num != 0 {
                 let c = num as f64 / den as f64 * bp.log_p;
                 value += c;
-                err += 4.0 * local::EPS * (c.abs() + value.abs());
+                err += 4.0 * local_terms::EPS * (c.abs() + value.abs());
             }
         }
         Certified { value, error: err }
@@ -341,7 +341,9 @@ impl HeightContext {
                 let s = self.height_minimal(&self.add_minimal(&pts[i], &pts[j]), precision);
                 let v = 0.5 * (s.value - h[i].value - h[j].value);
                 let e = 0.5 * (s.error + h[i].error + h[j].error)
-                    + 2.0 * local::EPS * (s.value.abs() + h[i].value.abs() + h[j].value.abs());
+                    + 2.0
+                        * local_terms::EPS
+                        * (s.value.abs() + h[i].value.abs() + h[j].value.abs());
                 m[i][j] = Certified { value: v, error: e };
                 m[j][i] = m[i][j];
             }
@@ -425,7 +427,7 @@ pub fn determinant(m: &[Vec<Certified>]) -> Certified {
         err += prod;
     }
     let prod_norms: f64 = norms.iter().product();
-    err += 4.0 * (n * n * n) as f64 * local::EPS * prod_norms;
+    err += 4.0 * (n * n * n) as f64 * local_terms::EPS * prod_norms;
     Certified {
         value: det,
         error: err,
@@ -494,10 +496,10 @@ pub fn naive_height(p: &Point) -> Certified {
             let n = x.numer().abs();
             let d = x.denom().abs();
             let m = if n > d { n } else { d };
-            let v = local::ln_abs(&m);
+            let v = local_terms::ln_abs(&m);
             Certified {
                 value: v,
-                error: 8.0 * local::EPS * v.abs().max(1.0),
+                error: 8.0 * local_terms::EPS * v.abs().max(1.0),
             }
         }
     }

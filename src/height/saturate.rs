@@ -56,7 +56,7 @@ use num_traits::{ToPrimitive, Zero};
 
 use super::bounds::{difference_bounds, height_lower_bound};
 use super::lll::lll_gram;
-use super::local::real_roots_f64;
+use super::local_terms::real_roots_f64;
 use super::projective::Jac;
 use super::{determinant, Certified, HeightContext, DEFAULT_PRECISION};
 use crate::arith::is_prime_u64;
@@ -465,7 +465,7 @@ fn try_divide(
     let Some(k) = (0..pts.len()).find(|&i| v[i] == 1) else {
         return Ok(None);
     };
-    let xqf = super::local::ratio_f64(xq.numer(), xq.denom());
+    let xqf = super::local_terms::ratio_f64(xq.numer(), xq.denom());
     if !xqf.is_finite() {
         return Ok(None);
     }

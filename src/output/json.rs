@@ -11,8 +11,8 @@ use super::Detail;
 use crate::curve::equation::{equation_text, quartic_text, reduced_equation_text};
 use crate::curve::tate::ReductionKind;
 use crate::curve::Point;
+use crate::descent::isogeny_side::{ClassStatus, SelmerSide};
 use crate::descent::report::{Completion, DescentReport};
-use crate::descent::side::{ClassStatus, SelmerSide};
 use crate::local::class_representatives;
 use crate::quartic::search::SearchOutcome;
 

@@ -34,7 +34,7 @@
 //!   `b < 0`, or `a > 0` and `a² > 4b` (elementary).
 
 use super::form::Quartic;
-use super::local::{locally_soluble, LocalSolubility};
+use super::solubility::{locally_soluble, LocalSolubility};
 use crate::budget::Budget;
 use crate::error::{Error, Result};
 use crate::local::{class_dimension, class_representatives, Place, Prime};

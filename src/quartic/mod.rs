@@ -17,26 +17,26 @@
 //!   `W_v` of the descent map ([`local_image`]);
 //! * a sieved search for rational points (module `search`).
 
-pub(crate) mod covering;
 pub(crate) mod form;
 mod fp;
 pub(crate) mod image;
-pub(crate) mod local;
 pub(crate) mod padic;
 pub(crate) mod real;
 pub(crate) mod search;
+pub(crate) mod second_descent;
+pub(crate) mod solubility;
 
-pub use covering::{
-    second_descent, verify_obstruction, NoPointEvidence, ObstructedCurve, SecondDescentOptions,
-    SecondDescentOutcome, TwistObstruction,
-};
 pub use form::Quartic;
 pub use image::{local_image, relevant_places, ClassEvidence, LocalImage};
-pub use local::{
-    locally_soluble, odd_prime_soluble, real_soluble, two_adic_soluble, LocalPoint, LocalSolubility,
-};
 pub use real::real_root_count;
 pub use search::{
     search, search_all, search_all_quartic, search_quartic, search_report, Congruence,
     QuarticPoint, SearchOptions, SearchOutcome, SearchReport, MAX_CONGRUENCE_MODULUS, MAX_HEIGHT,
+};
+pub use second_descent::{
+    second_descent, verify_obstruction, NoPointEvidence, ObstructedCurve, SecondDescentOptions,
+    SecondDescentOutcome, TwistObstruction,
+};
+pub use solubility::{
+    locally_soluble, odd_prime_soluble, real_soluble, two_adic_soluble, LocalPoint, LocalSolubility,
 };

@@ -12,7 +12,7 @@ pub(crate) mod f2;
 pub(crate) mod group;
 // Cross-check functions: used by debug assertions and the unit tests in `checks`.
 #[allow(dead_code)]
-pub(crate) mod local_count;
+pub(crate) mod image_size;
 pub(crate) mod pairing;
 pub(crate) mod qs2;
 

@@ -3,14 +3,14 @@
 //! [Schaefer96, Lemma 3.8], [SchaeferStoll04, Lemma 3.1], and Cassels'
 //! formula for the ratio of the two Selmer groups [Cassels65] against the
 //! computed Selmer groups. Bounded families here; the full families are in
-//! `tests/local_count_families.rs` (ignored by default).
+//! `src/selmer/checks/image_size_families.rs` (ignored by default).
 
 use crate::arith::factor_u64;
 use crate::curve::{Curve, Point, TwoIsogeny};
 use crate::descent::{descend_isogeny, DescentOptions};
 use crate::local::{valuation_rational, Place, Prime};
 use crate::quartic::local_image;
-use crate::selmer::local_count::{
+use crate::selmer::image_size::{
     check_local_images, images_match_prediction, local_images_agree, padic_count_terms,
     predicted_local_image_size, real_count_terms, real_sign_rule, selmer_difference_from_images,
     selmer_difference_from_tamagawa, DUAL_LEADING_COEFFICIENT, ISOGENY_LEADING_COEFFICIENT,
@@ -63,7 +63,7 @@ fn z_of(p: &Point) -> BigRational {
 
 /// On points R of E′(Q) in the p-adic formal group (v_p(X) < 0), the ratio
 /// z(ψR)/z(R) agrees with ψ′(0) = −2 to order ≥ 2·v_p(z(R)): ψ*(z) is an
-/// odd power series, −2z + O(z³) (module docs of `selmer::local_count`;
+/// odd power series, −2z + O(z³) (module docs of `selmer::image_size`;
 /// the series for φ likewise, with φ′(0) = −1). Points (checked by hand):
 /// P = (−4, 6) on y² = x³ − 25x (−64 + 100 = 36) and P = (1, 2) on
 /// y² = x³ + x² + 2x (1 + 1 + 2 = 4); Q = φ(P) on E′.
@@ -298,7 +298,7 @@ fn singular_models_are_typed_errors() {
         assert!(local_images_agree(&b(a), &b(bb), &[], &mut Budget::unlimited()).is_err());
         assert!(selmer_difference_from_tamagawa(&b(a), &b(bb), &[]).is_err());
     }
-    let e = crate::selmer::local_count::odd_prime_count(&b(0), &b(-1), &Prime::two()).unwrap_err();
+    let e = crate::selmer::image_size::odd_prime_count(&b(0), &b(-1), &Prime::two()).unwrap_err();
     assert!(matches!(e, Error::InvalidArgument { .. }));
 }
 

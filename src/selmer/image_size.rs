@@ -238,7 +238,7 @@ fn tamagawa_and_scaling(a: &BigInt, b: &BigInt, p: &Prime) -> Result<(u64, i64)>
 /// minimal, so `|W_2(E)| = 2 · 2/4 · 2 = 2` (and local solvability finds
 /// `W_2 = {1, −1}`: `C_{−1}: N² = −M⁴ + e⁴` has the point `(0, 1)`).
 /// ```text
-/// use isodescent::selmer::local_count::padic_count_terms;
+/// use isodescent::selmer::image_size::padic_count_terms;
 /// use isodescent::local::Prime;
 /// let t = padic_count_terms(&0.into(), &(-1).into(), &Prime::two()).unwrap();
 /// assert_eq!((t.tamagawa, t.tamagawa_dual, t.leading_valuation), (2, 4, 1));
@@ -272,7 +272,7 @@ pub fn padic_count_terms(a: &BigInt, b: &BigInt, p: &Prime) -> Result<PadicCount
 /// `y² = x³ + 3x` at 3: `E` has `c_3 = 2` (type III), `E′: y² = x³ − 12x`
 /// has `c_3 = 2` (type III), so `|W_3| = 2`.
 /// ```text
-/// use isodescent::selmer::local_count::odd_prime_count;
+/// use isodescent::selmer::image_size::odd_prime_count;
 /// use isodescent::local::Prime;
 /// assert_eq!(odd_prime_count(&0.into(), &3.into(), &Prime::small(3).unwrap()).unwrap(), 2);
 /// ```
@@ -294,7 +294,7 @@ pub fn odd_prime_count(a: &BigInt, b: &BigInt, p: &Prime) -> Result<u64> {
 /// `y² = x³ − 25x` (congruent number 5): `|W_2| = 4`, computed
 /// independently by local solvability (see the tests).
 /// ```text
-/// use isodescent::selmer::local_count::two_adic_count;
+/// use isodescent::selmer::image_size::two_adic_count;
 /// assert_eq!(two_adic_count(&0.into(), &(-25).into()).unwrap(), 4);
 /// ```
 pub fn two_adic_count(a: &BigInt, b: &BigInt) -> Result<u64> {
@@ -311,7 +311,7 @@ pub fn two_adic_count(a: &BigInt, b: &BigInt) -> Result<u64> {
 /// `y² = x³ − x`: `E(R)` has two components, `E′: y² = x³ + 4x` one,
 /// containing `(0, 0)`; so `|W_R| = 2·2/1/2 = 2`.
 /// ```text
-/// use isodescent::selmer::local_count::real_count_terms;
+/// use isodescent::selmer::image_size::real_count_terms;
 /// let t = real_count_terms(&0.into(), &(-1).into()).unwrap();
 /// assert_eq!((t.components, t.components_dual, t.kernel_on_identity), (2, 1, 2));
 /// assert_eq!(t.size().unwrap(), 2);
@@ -345,7 +345,7 @@ pub fn real_count_terms(a: &BigInt, b: &BigInt) -> Result<RealCountTerms> {
 /// `y² = x³ + 3x² + x`: `b > 0`, `a = 3 > 0`, `9 > 4`, so `−1 ∈ W_R`
 /// (indeed `x = −1/2` gives `y² = 1/8`).
 /// ```text
-/// use isodescent::selmer::local_count::real_sign_rule;
+/// use isodescent::selmer::image_size::real_sign_rule;
 /// assert!(real_sign_rule(&3.into(), &1.into()).unwrap());
 /// assert!(!real_sign_rule(&(-3).into(), &1.into()).unwrap());
 /// ```
@@ -368,7 +368,7 @@ pub fn real_sign_rule(a: &BigInt, b: &BigInt) -> Result<bool> {
 /// # Example
 /// `y² = x³ − x`: sizes 2 at `R`, 2 at 2, 2 at 3 (good reduction).
 /// ```text
-/// use isodescent::selmer::local_count::predicted_local_image_size;
+/// use isodescent::selmer::image_size::predicted_local_image_size;
 /// use isodescent::local::{Place, Prime};
 /// let s = |v: Place| predicted_local_image_size(&0.into(), &(-1).into(), &v).unwrap();
 /// assert_eq!(s(Place::Real), 2);
@@ -418,7 +418,7 @@ fn places_for(primes: &[Prime]) -> Vec<Place> {
 ///
 /// # Example
 /// ```text
-/// use isodescent::selmer::local_count::check_local_images;
+/// use isodescent::selmer::image_size::check_local_images;
 /// use isodescent::local::Prime;
 /// use isodescent::Budget;
 /// let primes = [Prime::two(), Prime::small(5).unwrap()];
@@ -449,7 +449,7 @@ pub fn check_local_images(
 ///
 /// # Example
 /// ```text
-/// use isodescent::selmer::local_count::local_images_agree;
+/// use isodescent::selmer::image_size::local_images_agree;
 /// use isodescent::local::Prime;
 /// use isodescent::Budget;
 /// let primes = [Prime::two(), Prime::small(3).unwrap()];
@@ -474,7 +474,7 @@ pub fn local_images_agree(
 ///
 /// # Example
 /// ```text
-/// use isodescent::selmer::local_count::images_match_prediction;
+/// use isodescent::selmer::image_size::images_match_prediction;
 /// use isodescent::quartic::local_image;
 /// use isodescent::local::{Place, Prime};
 /// use isodescent::Budget;
@@ -502,7 +502,7 @@ pub fn images_match_prediction(a: &BigInt, b: &BigInt, images: &[LocalImage]) ->
 /// `y² = x³ − x`: `E′: y² = x³ + 4x` has `|W_R(E′)| = 1`, `|W_2(E′)| = 4`,
 /// so the sum is `−1 + 1 = 0`.
 /// ```text
-/// use isodescent::selmer::local_count::selmer_difference_from_images;
+/// use isodescent::selmer::image_size::selmer_difference_from_images;
 /// use isodescent::quartic::local_image;
 /// use isodescent::local::{Place, Prime};
 /// use isodescent::Budget;
@@ -531,7 +531,7 @@ pub fn selmer_difference_from_images(codomain_images: &[LocalImage]) -> i64 {
 /// and `2 · c_2(E′)/c_2(E) · 2^{1 + 0 − 1} = 2 · 4/2 = 4` at 2 (its dual
 /// `y² = x³ − 16x` needs `u = 2`), so the difference is `−1 + 1 = 0`.
 /// ```text
-/// use isodescent::selmer::local_count::selmer_difference_from_tamagawa;
+/// use isodescent::selmer::image_size::selmer_difference_from_tamagawa;
 /// use isodescent::local::Prime;
 /// assert_eq!(selmer_difference_from_tamagawa(&0.into(), &(-1).into(), &[Prime::two()]).unwrap(), 0);
 /// ```

@@ -128,8 +128,8 @@ use num_rational::BigRational;
 use num_traits::{One, Signed, Zero};
 
 use super::form::Quartic;
-use super::local::{locally_soluble, LocalSolubility};
 use super::search::{search, QuarticPoint, SearchOptions, SearchOutcome};
+use super::solubility::{locally_soluble, LocalSolubility};
 use crate::arith::{factor, is_perfect_square};
 use crate::budget::Budget;
 use crate::conic::{parametrise, parametrise_diagonal, solve_diagonal_with_primes, TernaryForm};

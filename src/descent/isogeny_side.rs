@@ -31,12 +31,12 @@ use crate::budget::Budget;
 use crate::curve::{Curve, Point};
 use crate::error::{Error, Result};
 use crate::local::{Place, Prime};
-use crate::quartic::covering::{
+use crate::quartic::image::{local_image, LocalImage};
+use crate::quartic::search::{search, QuarticPoint, SearchOptions, SearchOutcome};
+use crate::quartic::second_descent::{
     second_descent, second_descent_on_twists, NoPointEvidence, SecondDescentOptions,
     SecondDescentOutcome,
 };
-use crate::quartic::image::{local_image, LocalImage};
-use crate::quartic::search::{search, QuarticPoint, SearchOptions, SearchOutcome};
 use crate::quartic::Quartic;
 use crate::selmer::f2::{BitVec, Subspace};
 use crate::selmer::group::{selmer_from_local_images, LocalCondition};
@@ -81,7 +81,7 @@ pub enum ClassStatus {
         /// a conic y² = g2 u² + g1 uv + g0 v²).
         obstructions: Vec<CoveringObstruction>,
         /// The complete evidence, re-checkable with
-        /// [`crate::quartic::covering::verify_obstruction`].
+        /// [`crate::quartic::second_descent::verify_obstruction`].
         evidence: Box<NoPointEvidence>,
     },
 }
@@ -280,7 +280,7 @@ pub fn compute_side(
     // Independent check (debug builds): |W_v| from the Tamagawa numbers of
     // E and E' must equal the size found by the local solvability tests.
     debug_assert!(
-        crate::selmer::local_count::images_match_prediction(a, b, &local_images),
+        crate::selmer::image_size::images_match_prediction(a, b, &local_images),
         "local image sizes disagree with Tamagawa numbers for a={a} b={b}"
     );
     let group = selmer_from_local_images(&qs2, &conditions)?;

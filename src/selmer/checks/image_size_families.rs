@@ -2,8 +2,8 @@
 //! Tamagawa numbers ([Schaefer96, Lemma 3.8]) and of Cassels' formula
 //! ([Cassels65]) against the computed Selmer groups. Ignored by default
 //! (a few minutes in release); run with
-//! `cargo test --release --test local_count_families -- --ignored --nocapture`.
-//! The bounded versions run in `tests/local_count_checks.rs`.
+//! `cargo test --release --lib image_size_families -- --ignored --nocapture`.
+//! The bounded versions run in `src/selmer/checks/image_size_checks.rs`.
 
 use std::time::Instant;
 
@@ -11,7 +11,7 @@ use crate::arith::factor_u64;
 use crate::curve::{Curve, Point};
 use crate::descent::{descend_isogeny, DescentOptions};
 use crate::local::{Place, Prime};
-use crate::selmer::local_count::{
+use crate::selmer::image_size::{
     check_local_images, padic_count_terms, selmer_difference_from_images,
     selmer_difference_from_tamagawa,
 };
