@@ -73,8 +73,11 @@ fn main() -> ExitCode {
                                 side.liftable_dim(),
                                 side.image_lower(),
                                 side.searches.len(),
-                                side.second_descent_runs,
-                                side.pairing_error
+                                side.covering_runs
+                                    .iter()
+                                    .map(|r| format!("{}: {}", r.class, r.verdict.word()))
+                                    .collect::<Vec<_>>(),
+                                side.pairing_error.as_ref().map(|e| e.to_string())
                             );
                         }
                     }

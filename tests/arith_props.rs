@@ -5,9 +5,8 @@
 //! isqrt(n)² ≤ n < (isqrt(n) + 1)².
 
 use isodescent::arith::{
-    factor, factor_u64, is_perfect_square, is_prime, is_prime_u64, is_squarefree,
-    is_strong_lucas_probable_prime, is_strong_probable_prime, isqrt, rational_sqrt_exact,
-    sqrt_exact, squarefree_kernel, squarefree_part, squarefree_part_rational,
+    factor, factor_u64, is_perfect_square, is_prime, is_prime_u64, is_squarefree, isqrt,
+    rational_sqrt_exact, sqrt_exact, squarefree_kernel, squarefree_part, squarefree_part_rational,
 };
 use isodescent::{Budget, Error};
 use num_bigint::BigInt;
@@ -45,20 +44,6 @@ proptest! {
             v *= (p as u128).pow(e);
         }
         prop_assert_eq!(v, n as u128);
-    }
-
-    #[test]
-    fn the_word_size_test_agrees_with_baillie_psw(n in any::<u64>()) {
-        // Two different algorithms: Miller-Rabin with fixed bases versus the
-        // strong base-2 test plus the strong Lucas test (Baillie-PSW).
-        let n = n | 1;
-        let bn = BigInt::from(n);
-        let bpsw = n > 2
-            && is_strong_probable_prime(&bn, &BigInt::from(2))
-            && (n < 100 || is_strong_lucas_probable_prime(&bn) || bn == BigInt::from(5));
-        if n > 100 {
-            prop_assert_eq!(is_prime_u64(n), bpsw, "n = {}", n);
-        }
     }
 
     #[test]

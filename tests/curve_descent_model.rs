@@ -96,14 +96,14 @@ fn reduced_model_divides_out_primes_with_p2_dividing_a_and_p4_dividing_b() {
     let e = Curve::from_bigints([BigInt::zero(), a, BigInt::zero(), b, BigInt::zero()]).unwrap();
     let m = two_torsion_model(&e, &Point::from_ints(0, 0)).unwrap();
     assert_eq!(
-        (m.a.clone(), m.b.clone()),
+        (m.a().clone(), m.b().clone()),
         (BigInt::from(3), BigInt::from(-7))
     );
     // p = 2 with p^2 | a but p^4 ∤ b must stay.
     let e = Curve::from_ints([0, 4, 0, 8, 0]).unwrap();
     let m = two_torsion_model(&e, &Point::from_ints(0, 0)).unwrap();
     assert_eq!(
-        (m.a.clone(), m.b.clone()),
+        (m.a().clone(), m.b().clone()),
         (BigInt::from(4), BigInt::from(8))
     );
 }
@@ -120,15 +120,15 @@ fn reduced_model_of_a_rational_general_model_is_integral_reduced_and_consistent(
         let e = ch.apply_to_curve(&base);
         for tp in two_torsion_points(&e) {
             let m = two_torsion_model(&e, &tp).unwrap();
-            assert!(is_reduced_at_small_primes(&m.a, &m.b));
+            assert!(is_reduced_at_small_primes(m.a(), m.b()));
             assert_eq!(m.change().apply_to_curve(&e), *m.curve());
             assert_eq!(m.from_input(&tp), Point::from_ints(0, 0));
             assert_eq!(m.to_input(&Point::from_ints(0, 0)), tp);
             assert_eq!(m.curve().j_invariant(), e.j_invariant());
             // The reduced curve is y^2 = x^3 + a x^2 + b x.
-            assert_eq!(m.curve().a2(), &BigRational::from_integer(m.a.clone()));
-            assert_eq!(m.curve().a4(), &BigRational::from_integer(m.b.clone()));
-            assert!(m.curve().a6().is_zero() && m.curve().is_short() == m.a.is_zero());
+            assert_eq!(m.curve().a2(), &BigRational::from_integer(m.a().clone()));
+            assert_eq!(m.curve().a4(), &BigRational::from_integer(m.b().clone()));
+            assert!(m.curve().a6().is_zero() && m.curve().is_short() == m.a().is_zero());
         }
     }
 }
@@ -217,8 +217,8 @@ fn the_direct_reduced_model_of_an_integral_a_b_curve_agrees_with_the_general_con
             let direct = two_torsion_model(&e, &t).unwrap();
             let general = two_torsion_model(&e2, &moved.to_new(&t)).unwrap();
             assert_eq!(
-                (&direct.a, &direct.b),
-                (&general.a, &general.b),
+                (&direct.a(), &direct.b()),
+                (&general.a(), &general.b()),
                 "{e}, T = {t}"
             );
             assert_eq!(direct.change().apply_to_curve(&e), *direct.curve());
@@ -244,8 +244,8 @@ fn reduction_finds_a_prime_above_the_trial_division_limit() {
         let e =
             Curve::from_bigints([BigInt::zero(), a, BigInt::zero(), b, BigInt::zero()]).unwrap();
         let m = two_torsion_model(&e, &Point::from_ints(0, 0)).unwrap();
-        assert_eq!(m.a, BigInt::from(3) * &k, "k = {k}");
-        assert_eq!(m.b, BigInt::from(5) * &k * &k, "k = {k}");
-        assert!(is_reduced_at_small_primes(&m.a, &m.b));
+        assert_eq!(*m.a(), BigInt::from(3) * &k, "k = {k}");
+        assert_eq!(*m.b(), BigInt::from(5) * &k * &k, "k = {k}");
+        assert!(is_reduced_at_small_primes(m.a(), m.b()));
     }
 }

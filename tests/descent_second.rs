@@ -2,7 +2,7 @@
 //! images, points found through 4-coverings, and the decided share.
 
 use isodescent::curve::Curve;
-use isodescent::descent::{descend, verify_report, ClassStatus, DescentOptions};
+use isodescent::descent::{descend, verify_report, ClassStatus, CoveringVerdict, DescentOptions};
 
 mod common;
 use common::squarefree;
@@ -38,11 +38,12 @@ fn lind_reichardt_class_is_proven_not_an_image() {
             matches!(&e.status, ClassStatus::ProvenNotImage { space, .. }
                 if *space == 2.into() || *space == (-34).into())
         }) || side
-            .second_descent_runs
+            .covering_runs
             .iter()
-            .any(|(d, w)| (*d == 2.into() || *d == (-34).into()) && w == "proven_not_image"),
+            .any(|run| (run.class == 2.into() || run.class == (-34).into())
+                && run.verdict == CoveringVerdict::ProvenNotImage),
         "proven classes {proven:?}, runs {:?}",
-        side.second_descent_runs
+        side.covering_runs
     );
     assert_eq!((r.rank_lower(), r.rank_upper()), (0, 0));
     let v = verify_report(&r, 50_000_000).unwrap();

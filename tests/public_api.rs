@@ -139,8 +139,13 @@ fn walk(file: &Path, path: &str, public: bool, out: &mut Collected) {
             }
         } else if in_use {
             // continuation lines of a multi-line `pub use`
-            out.items
-                .push(format!("use {path}::  {}", t.trim_end_matches(';')));
+            // (joined to the statement's first line, so one item per `pub use`)
+            if let Some(last) = out.items.last_mut() {
+                if !last.ends_with('{') {
+                    last.push(' ');
+                }
+                last.push_str(t.trim_end_matches(';'));
+            }
             out.reexported.extend(words(t));
             in_use = !t.trim_end().ends_with(';');
         } else if before == 1 && indent == 4 {

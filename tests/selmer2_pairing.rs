@@ -442,7 +442,11 @@ fn k_prime_curves_answer_with_consistent_two_selmer_data() {
                 d.selmer2_rank().unwrap(),
                 d.selmer2_rank_codomain().unwrap(),
             );
-            let t2 = if d.model.b.is_positive_square() { 2 } else { 1 };
+            let t2 = if d.model.b().is_positive_square() {
+                2
+            } else {
+                1
+            };
             assert_eq!((s - 2) % 2, (s2 - t2) % 2, "k={k}");
         }
         eprintln!(

@@ -21,8 +21,6 @@ pub(crate) mod small;
 pub(crate) mod squarefree;
 
 pub use factor::{factor, factor_u64, Factorization};
-pub use prime::{
-    is_prime, is_prime_u64, is_strong_lucas_probable_prime, is_strong_probable_prime, jacobi,
-};
+pub use prime::{is_prime, is_prime_u64, jacobi};
 pub use roots::{is_perfect_square, isqrt, rational_sqrt_exact, sqrt_exact};
 pub use squarefree::{is_squarefree, squarefree_kernel, squarefree_part, squarefree_part_rational};

@@ -212,10 +212,10 @@ fn strong_lucas_selfridge<R: Ring>(ring: &R, n: &BigUint) -> bool {
     false
 }
 
-/// Public entry to the strong Lucas test alone, for cross-checks in tests:
-/// true iff odd `n > 1` is a strong Lucas probable prime for Selfridge's
+/// The strong Lucas test alone, for cross-checks in the tests: true iff odd `n > 1` is a strong Lucas probable prime for Selfridge's
 /// parameters (a prime always is; `n` must be odd, else `false`).
-pub fn is_strong_lucas_probable_prime(n: &BigInt) -> bool {
+#[cfg(test)]
+pub(crate) fn is_strong_lucas_probable_prime(n: &BigInt) -> bool {
     if n <= &BigInt::one() || n.is_even() {
         return false;
     }
@@ -226,7 +226,8 @@ pub fn is_strong_lucas_probable_prime(n: &BigInt) -> bool {
 /// True iff odd `n > 2` is a strong probable prime to base `a`
 /// (Miller–Rabin round) \[Riesel94, ch. 4\]; `false` for even `n` or `n < 3`.
 /// A prime always passes; a base `≡ 0 mod n` counts as a pass.
-pub fn is_strong_probable_prime(n: &BigInt, a: &BigInt) -> bool {
+#[cfg(test)]
+pub(crate) fn is_strong_probable_prime(n: &BigInt, a: &BigInt) -> bool {
     if n < &BigInt::from(3) || n.is_even() {
         return false;
     }
@@ -353,5 +354,22 @@ mod tests {
         // pi(10^4) = 1229 \[Riesel94, Table 1\].
         let t = prime_table(10_000);
         assert_eq!(t.primes_in(1, 10_000).count(), 1229);
+    }
+
+    proptest::proptest! {
+        #[test]
+        fn the_word_size_test_agrees_with_baillie_psw(n in proptest::prelude::any::<u64>()) {
+            // Two different algorithms: Miller-Rabin with fixed bases versus
+            // the strong base-2 test plus the strong Lucas test
+            // (Baillie-PSW; common practice).
+            let n = n | 1;
+            let bn = BigInt::from(n);
+            let bpsw = n > 2
+                && is_strong_probable_prime(&bn, &BigInt::from(2))
+                && (n < 100 || is_strong_lucas_probable_prime(&bn) || bn == BigInt::from(5));
+            if n > 100 {
+                proptest::prop_assert_eq!(is_prime_u64(n), bpsw, "n = {}", n);
+            }
+        }
     }
 }

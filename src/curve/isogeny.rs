@@ -24,6 +24,7 @@ use num_rational::BigRational;
 use num_traits::Zero;
 
 use super::point::Point;
+use super::reduced::ReducedModel;
 use super::two_torsion::TwoTorsionModel;
 use super::weierstrass::Curve;
 use crate::error::Result;
@@ -31,20 +32,8 @@ use crate::error::Result;
 /// The 2-isogeny φ: E → E′ of the module docs, for E: y² = x³ + a x² + b x.
 #[derive(Clone, Debug, PartialEq, Eq)]
 pub struct TwoIsogeny {
-    a: BigInt,
-    b: BigInt,
-    domain: Curve,
-    codomain: Curve,
-}
-
-fn ab_curve(a: &BigInt, b: &BigInt) -> Result<Curve> {
-    Curve::new([
-        BigRational::zero(),
-        BigRational::from_integer(a.clone()),
-        BigRational::zero(),
-        BigRational::from_integer(b.clone()),
-        BigRational::zero(),
-    ])
+    domain: ReducedModel,
+    codomain: ReducedModel,
 }
 
 impl TwoIsogeny {
@@ -53,64 +42,71 @@ impl TwoIsogeny {
     /// # Errors
     /// [`crate::Error::SingularCurve`] if b = 0 or a² − 4b = 0.
     pub fn new(a: BigInt, b: BigInt) -> Result<TwoIsogeny> {
-        let domain = ab_curve(&a, &b)?;
-        let (a2, b2) = codomain_ab(&a, &b);
-        let codomain = ab_curve(&a2, &b2)?;
+        TwoIsogeny::from_reduced(&ReducedModel::new(a, b)?)
+    }
+
+    /// The isogeny from a checked model (its (0, 0) generates the kernel).
+    ///
+    /// # Errors
+    /// Only the size limit of [`Curve::new`] on the codomain.
+    pub fn from_reduced(m: &ReducedModel) -> Result<TwoIsogeny> {
         Ok(TwoIsogeny {
-            a,
-            b,
-            domain,
-            codomain,
+            domain: m.clone(),
+            codomain: m.isogenous()?,
         })
     }
 
     /// The isogeny from a reduced model (its T = (0, 0) is the kernel).
+    ///
+    /// # Errors
+    /// As [`TwoIsogeny::from_reduced`].
     pub fn from_model(m: &TwoTorsionModel) -> Result<TwoIsogeny> {
-        let (a2, b2) = codomain_ab(&m.a, &m.b);
-        let codomain = ab_curve(&a2, &b2)?;
-        Ok(TwoIsogeny {
-            a: m.a.clone(),
-            b: m.b.clone(),
-            domain: m.curve().clone(),
-            codomain,
-        })
+        TwoIsogeny::from_reduced(m.reduced())
     }
 
     /// (a, b) of the domain E.
     pub fn domain_coefficients(&self) -> (&BigInt, &BigInt) {
-        (&self.a, &self.b)
+        (self.domain.a(), self.domain.b())
     }
 
     /// (a′, b′) = (−2a, a² − 4b) of the codomain E′.
     pub fn codomain_coefficients(&self) -> (BigInt, BigInt) {
-        codomain_ab(&self.a, &self.b)
+        (self.codomain.a().clone(), self.codomain.b().clone())
+    }
+
+    /// The checked model of the domain E.
+    pub fn domain_model(&self) -> &ReducedModel {
+        &self.domain
+    }
+
+    /// The checked model of the codomain E′.
+    pub fn codomain_model(&self) -> &ReducedModel {
+        &self.codomain
     }
 
     /// The domain E.
     pub fn domain(&self) -> &Curve {
-        &self.domain
+        self.domain.curve()
     }
 
     /// The codomain E′.
     pub fn codomain(&self) -> &Curve {
-        &self.codomain
+        self.codomain.curve()
     }
 
     /// The isogeny E′ → E″ built the same way from E′ (E″ is E scaled by 2).
     pub fn next(&self) -> Result<TwoIsogeny> {
-        let (a2, b2) = self.codomain_coefficients();
-        TwoIsogeny::new(a2, b2)
+        TwoIsogeny::from_reduced(&self.codomain)
     }
 
     /// φ(P) for P on E.
     pub fn image(&self, p: &Point) -> Point {
-        phi(p, &self.b)
+        phi(p, self.domain.b())
     }
 
     /// φ̂(Q) for Q on E′.
     pub fn dual_image(&self, q: &Point) -> Point {
-        let (_, b2) = self.codomain_coefficients();
-        match phi(q, &b2) {
+        match phi(q, self.codomain.b()) {
             Point::Infinity => Point::Infinity,
             Point::Affine { x, y } => Point::Affine {
                 x: x / BigRational::from_integer(4.into()),
@@ -118,10 +114,6 @@ impl TwoIsogeny {
             },
         }
     }
-}
-
-fn codomain_ab(a: &BigInt, b: &BigInt) -> (BigInt, BigInt) {
-    (-(a * BigInt::from(2)), a * a - b * BigInt::from(4))
 }
 
 /// (x, y) ↦ (y²/x², y(b − x²)/x²), with O and (0, 0) going to O.

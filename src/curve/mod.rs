@@ -15,6 +15,8 @@
 //! * `two_torsion`: the rational points of order 2 and the reduced model
 //!   [`TwoTorsionModel`] y² = x³ + ax² + bx with T = (0, 0), a, b ∈ Z and no
 //!   prime p with p² | a, p⁴ | b.
+//! * `reduced`: [`ReducedModel`], the checked pair (a, b) with
+//!   b(a² − 4b) ≠ 0 that every layer below the descent takes.
 //! * `isogeny`: [`TwoIsogeny`] φ: E → E′, y² = x³ − 2ax² + (a² − 4b)x,
 //!   and its dual φ̂, with φ̂ ∘ φ = \[2\] [ST92, III.4].
 //! * `torsion`: [`torsion_subgroup`], exact, by point counts at good primes
@@ -35,6 +37,7 @@ pub(crate) mod isogeny;
 pub(crate) mod model;
 pub(crate) mod point;
 mod poly;
+pub(crate) mod reduced;
 pub(crate) mod tate;
 pub(crate) mod torsion;
 pub(crate) mod two_torsion;
@@ -43,6 +46,7 @@ pub(crate) mod weierstrass;
 pub use isogeny::TwoIsogeny;
 pub use model::{integral_model, ModelChange};
 pub use point::Point;
+pub use reduced::ReducedModel;
 pub use tate::{
     global_local_data, integral_invariants, local_reduction, local_reduction_rational,
     GlobalLocalData, IntegralInvariants, Kodaira, LocalReduction, ReductionKind,

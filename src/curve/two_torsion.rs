@@ -42,6 +42,7 @@ use std::sync::OnceLock;
 use super::model::{lcm_denominators, ModelChange};
 use super::point::Point;
 use super::poly::{integer_roots_with_budget, ZPoly};
+use super::reduced::ReducedModel;
 use super::weierstrass::Curve;
 use crate::budget::Budget;
 use crate::error::{Error, Result};
@@ -163,11 +164,7 @@ pub fn two_torsion_points_with_budget(e: &Curve, budget: &mut Budget) -> Result<
 /// of model from the input curve.
 #[derive(Clone, Debug, PartialEq, Eq)]
 pub struct TwoTorsionModel {
-    /// The coefficient a of y² = x³ + a x² + b x.
-    pub a: BigInt,
-    /// The coefficient b of y² = x³ + a x² + b x (nonzero, and a² − 4b ≠ 0).
-    pub b: BigInt,
-    curve: Curve,
+    reduced: ReducedModel,
     input: Curve,
     change: ModelChange,
     input_point: Point,
@@ -176,7 +173,19 @@ pub struct TwoTorsionModel {
 impl TwoTorsionModel {
     /// The reduced curve y² = x³ + a x² + b x.
     pub fn curve(&self) -> &Curve {
-        &self.curve
+        self.reduced.curve()
+    }
+    /// The checked pair (a, b) of the reduced curve.
+    pub fn reduced(&self) -> &ReducedModel {
+        &self.reduced
+    }
+    /// The coefficient a of y² = x³ + a x² + b x.
+    pub fn a(&self) -> &BigInt {
+        self.reduced.a()
+    }
+    /// The coefficient b of y² = x³ + a x² + b x (nonzero, and a² − 4b ≠ 0).
+    pub fn b(&self) -> &BigInt {
+        self.reduced.b()
     }
     /// The curve this model was computed from.
     pub fn input_curve(&self) -> &Curve {
@@ -283,17 +292,8 @@ pub fn two_torsion_model_with_budget(
     };
     // The composite of (1, x_T, s, t) and the scaling by D/d.
     let change = ModelChange::new(BigRational::new(big_d, d), xt.clone(), s, tt)?;
-    let curve = Curve::new([
-        BigRational::zero(),
-        BigRational::from_integer(a.clone()),
-        BigRational::zero(),
-        BigRational::from_integer(b.clone()),
-        BigRational::zero(),
-    ])?;
     Ok(TwoTorsionModel {
-        a,
-        b,
-        curve,
+        reduced: ReducedModel::new(a, b)?,
         input: e.clone(),
         change,
         input_point: t.clone(),
@@ -438,7 +438,7 @@ mod tests {
         let e = Curve::from_ints([0, -1, 0, -4, 4]).unwrap();
         let m = two_torsion_model(&e, &Point::from_ints(1, 0)).unwrap();
         assert_eq!(
-            (m.a.clone(), m.b.clone()),
+            (m.a().clone(), m.b().clone()),
             (BigInt::from(2), BigInt::from(-3))
         );
         assert_eq!(m.change().apply_to_curve(&e), *m.curve());

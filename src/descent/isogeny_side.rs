@@ -6,10 +6,10 @@
 //! C_d: N² = d M⁴ + a M² e² + (b/d) e⁴ has a rational point, and a point
 //! (M, e, N) with e ≠ 0 gives (d M²/e², d M N/e³) on E with α = d.
 //!
-//! The computation: (1) local images W_v at R, 2 and every prime of
-//! b(a² − 4b) from the quartic layer; (2) the Selmer group as the preimage
-//! of their product ([`crate::selmer::group`]); (3) K = span of α(torsion);
-//! (4) the lifting pairing and its kernel I ⊇ α(E(Q)) (the second descent
+//! The computation: (1)–(3) the local images W_v at R, 2 and every prime
+//! of b(a² − 4b), the Selmer group as the preimage of their product and
+//! K = span of α(torsion), assembled in the Selmer layer
+//! (`crate::selmer::assemble`); (4) the lifting pairing and its kernel I ⊇ α(E(Q)) (the second descent
 //! as linear algebra, [`crate::selmer::pairing`]); (5) for at most
 //! `max_classes_searched` cosets of I/K (Sel/K with the second descent
 //! off), in a fixed order, search a few representatives for a point,
@@ -19,27 +19,27 @@
 //! of Sel: torsion images, point images, proven classes, the rest of I,
 //! the rest of Sel (see docs/second_descent.md §10).
 
-use std::time::Instant;
-
 use num_bigint::BigInt;
 use num_integer::Integer;
 use num_rational::BigRational;
 use num_traits::{One, Signed, Zero};
 
-use super::options::DescentOptions;
+use super::options::DescentContext;
 use crate::budget::Budget;
-use crate::curve::{Curve, Point};
+use crate::curve::{Point, ReducedModel};
 use crate::error::{Error, Result};
 use crate::local::{Place, Prime};
-use crate::quartic::image::{local_image, LocalImage};
+use crate::quartic::image::LocalImage;
 use crate::quartic::search::{search, QuarticPoint, SearchOptions, SearchOutcome};
 use crate::quartic::second_descent::{
     second_descent, second_descent_on_twists, NoPointEvidence, SecondDescentOptions,
     SecondDescentOutcome,
 };
 use crate::quartic::Quartic;
+pub(crate) use crate::selmer::assemble::connecting_value;
+use crate::selmer::assemble::{assemble_selmer, AssembledSelmer};
 use crate::selmer::f2::{BitVec, Subspace};
-use crate::selmer::group::{selmer_from_local_images, LocalCondition};
+use crate::selmer::group::LocalCondition;
 use crate::selmer::pairing::{class_lift, lift_pairing, soluble_twists, LiftPairing};
 use crate::selmer::qs2::QS2;
 
@@ -148,17 +148,58 @@ pub struct SelmerSide {
     /// Points of infinite order found on this side, with classes
     /// independent modulo the torsion image.
     pub points: Vec<Point>,
-    /// Classes handed to the second descent, with the word for what it
-    /// concluded ("point_image", "proven_not_image", "undecided") — or the
-    /// error that stopped it.
-    pub second_descent_runs: Vec<(BigInt, String)>,
+    /// Classes handed to the 4-covering route, in order, with what it
+    /// concluded.
+    pub covering_runs: Vec<CoveringRun>,
     /// The lifting pairing on the Selmer group and its kernel I, the
     /// classes that lift to everywhere locally soluble 2-coverings of the
-    /// curve (`crate::selmer::pairing`); `None` if its budget ran out
-    /// (then `pairing_error` says why).
+    /// curve (`crate::selmer::pairing`); `None` if it was not asked for
+    /// (the first descent alone) or its budget ran out (then
+    /// `pairing_error` says why).
     pub pairing: Option<LiftPairing>,
-    /// Why the pairing is missing, if it is.
-    pub pairing_error: Option<String>,
+    /// Why the pairing is missing, if its budget ran out.
+    pub pairing_error: Option<Error>,
+}
+
+/// What the 4-covering route concluded for one class d.
+#[derive(Clone, Debug, PartialEq, Eq)]
+#[non_exhaustive]
+pub enum CoveringVerdict {
+    /// A 4-covering had a point: d is the image of a point found.
+    PointImage,
+    /// Every 4-covering is insoluble somewhere: C_d has no rational point.
+    ProvenNotImage,
+    /// Some 4-covering is everywhere locally soluble and its search found
+    /// nothing.
+    Undecided,
+    /// Not run: the side's 4-covering budget was already spent.
+    BudgetSpent,
+    /// Stopped by an error (a budget inside the route, say).
+    GaveUp(Error),
+}
+
+impl CoveringVerdict {
+    /// A short word for reports: "point_image", "proven_not_image",
+    /// "undecided", "budget_spent" or "gave_up".
+    pub fn word(&self) -> &'static str {
+        match self {
+            CoveringVerdict::PointImage => "point_image",
+            CoveringVerdict::ProvenNotImage => "proven_not_image",
+            CoveringVerdict::Undecided => "undecided",
+            CoveringVerdict::BudgetSpent => "budget_spent",
+            CoveringVerdict::GaveUp(_) => "gave_up",
+        }
+    }
+}
+
+/// One class handed to the 4-covering route and what came of it.
+#[derive(Clone, Debug, PartialEq, Eq)]
+#[non_exhaustive]
+pub struct CoveringRun {
+    /// The class d (a square-free integer).
+    pub class: BigInt,
+    /// What the route concluded.
+    pub verdict: CoveringVerdict,
 }
 
 impl SelmerSide {
@@ -189,16 +230,6 @@ impl SelmerSide {
     pub fn excluded_by_pairing(&self, d: &BigInt) -> Option<bool> {
         let v = self.qs2.vector(d).ok()?;
         Some(!self.liftable()?.contains(&v))
-    }
-}
-
-/// α(P) for P on y² = x³ + a x² + b x, as a nonzero rational; `None` for O.
-pub fn connecting_value(b: &BigInt, p: &Point) -> Option<BigRational> {
-    let x = p.x()?;
-    if x.is_zero() {
-        Some(BigRational::from_integer(b.clone()))
-    } else {
-        Some(x.clone())
     }
 }
 
@@ -241,85 +272,81 @@ pub const TWISTS_PER_CLASS: usize = 8;
 /// Runs the first descent on one side.
 ///
 /// `primes` must be the primes dividing 2·b·(a² − 4b); `torsion` the
-/// torsion points of `curve` (which must be y² = x³ + a x² + b x).
+/// torsion points of the model's curve.
 ///
 /// Steps, each polynomial in |S| and dim Sel: the local images and the
-/// Selmer group; the lifting pairing ([`crate::selmer::pairing`]) and its
-/// kernel I (the classes lifting to everywhere locally soluble
-/// 2-coverings); the point search on at most `max_classes_searched`
-/// cosets of (I or Sel)/K in a fixed order (basis first, then sums of two,
-/// …); with the second descent on, the 4-covering route on the complement
-/// basis of K in I (for points) and on at most [`EVIDENCE_CLASSES`]
-/// classes outside I (for evidence). The upper bound for dim α(E(Q)) is
-/// dim I when the pairing was computed and the second descent is on.
+/// Selmer group (`crate::selmer::assemble`); the lifting pairing
+/// ([`crate::selmer::pairing`]) and its kernel I (the classes lifting to
+/// everywhere locally soluble 2-coverings), unless the options ask for the
+/// local conditions only; the point search on at most
+/// `max_classes_searched` cosets of (I or Sel)/K in a fixed order (basis
+/// first, then sums of two, …); with the 4-coverings on, the 4-covering
+/// route on the complement basis of K in I (for points) and on at most
+/// [`EVIDENCE_CLASSES`] classes outside I (for evidence). The upper bound
+/// for dim α(E(Q)) is dim I when the pairing was computed and the
+/// 4-coverings are on.
 ///
 /// # Errors
-/// Budget exhaustion in the local tests ([`Error::BudgetExhausted`]) and
-/// inconsistent input ([`Error::InvalidArgument`]), including an internal
-/// contradiction between the pairing and the 4-covering route.
-pub fn compute_side(
-    a: &BigInt,
-    b: &BigInt,
-    curve: &Curve,
+/// Budget exhaustion in the local tests ([`Error::BudgetExhausted`]);
+/// [`Error::Internal`] when two independent computations disagree (the
+/// pairing and the 4-covering route, say).
+pub(crate) fn compute_side(
+    model: &ReducedModel,
     primes: &[Prime],
     torsion: &[Point],
-    options: &DescentOptions,
-    deadline: Option<Instant>,
+    ctx: &DescentContext<'_>,
 ) -> Result<SelmerSide> {
-    let qs2 = QS2::new(primes.to_vec());
-    let mut places = vec![Place::Real];
-    places.extend(qs2.primes().iter().cloned().map(Place::Finite));
-    let mut budget = options.budget(options.local_units, deadline);
-    let mut local_images = Vec::with_capacity(places.len());
-    let mut conditions = Vec::with_capacity(places.len());
-    for v in &places {
-        let w = local_image(a, b, v, &mut budget)?;
-        conditions.push(LocalCondition::from_masks(v.clone(), &w.members));
-        local_images.push(w);
-    }
-    // Independent check (debug builds): |W_v| from the Tamagawa numbers of
-    // E and E' must equal the size found by the local solvability tests.
-    debug_assert!(
-        crate::selmer::image_size::images_match_prediction(a, b, &local_images),
-        "local image sizes disagree with Tamagawa numbers for a={a} b={b}"
-    );
-    let group = selmer_from_local_images(&qs2, &conditions)?;
-
-    let mut known = Subspace::zero(qs2.dim());
-    let mut elements = Vec::new();
-    for t in torsion {
-        let Some(val) = connecting_value(b, t) else {
-            continue;
-        };
-        let v = qs2.vector_rational(&val)?;
-        if !group.contains(&v) {
-            return Err(Error::InvalidArgument {
-                reason: format!("torsion point {t:?} maps outside the Selmer group"),
-            });
-        }
-        if known.insert(v.clone()) {
-            elements.push(SelmerElement {
+    let options = ctx.options;
+    let mut budget = ctx.budget(options.local_units);
+    let AssembledSelmer {
+        qs2,
+        local_images,
+        conditions,
+        group,
+        torsion_span,
+        torsion_basis,
+    } = assemble_selmer(model, primes, torsion, &mut budget)?;
+    let mut progress = Progress {
+        elements: torsion_basis
+            .into_iter()
+            .map(|(v, t)| SelmerElement {
                 class: qs2.integer(&v),
-                status: ClassStatus::TorsionImage { point: t.clone() },
-            });
-        }
-    }
-    let torsion_dim = known.dim();
+                status: ClassStatus::TorsionImage { point: t },
+            })
+            .collect(),
+        known: torsion_span,
+        points: Vec::new(),
+        searches: Vec::new(),
+    };
+    let torsion_dim = progress.known.dim();
 
     // The lifting pairing: its own budget, so a failure leaves the first
     // descent intact.
-    let mut pairing_budget = options.budget(options.local_units, deadline);
-    let (pairing, pairing_error) =
-        match lift_pairing(a, b, &qs2, &group, &known, &mut pairing_budget) {
+    let (pairing, pairing_error) = if options.lifting_pairing {
+        let mut pairing_budget = ctx.budget(options.local_units);
+        match lift_pairing(
+            model.a(),
+            model.b(),
+            &qs2,
+            &group,
+            &progress.known,
+            &mut pairing_budget,
+        ) {
             Ok(p) => (Some(p), None),
-            Err(e) => (None, Some(e.to_string())),
-        };
+            Err(e) => (None, Some(e)),
+        }
+    } else {
+        (None, None)
+    };
     if let Some(p) = &pairing {
-        if !known.basis().iter().all(|v| p.liftable.contains(v)) {
-            return Err(Error::InvalidArgument {
-                reason: format!(
-                    "internal check failed: a torsion image lies outside the liftable subgroup (a = {a}, b = {b})"
-                ),
+        if !progress
+            .known
+            .basis()
+            .iter()
+            .all(|v| p.liftable.contains(v))
+        {
+            return Err(Error::Internal {
+                check: format!("a torsion image of {model} lies outside the liftable subgroup"),
             });
         }
     }
@@ -329,48 +356,31 @@ pub fn compute_side(
         _ => group.clone(),
     };
 
-    let mut searches = Vec::new();
-    let mut points = Vec::new();
-    let mut work = options.budget(u64::MAX, deadline);
-    search_cosets(
-        a,
-        b,
-        curve,
-        &qs2,
-        &space,
-        &mut known,
-        &mut elements,
-        &mut points,
-        &mut searches,
-        options,
-        deadline,
-        &mut work,
-    )?;
-    let mut second_descent_runs = Vec::new();
-    let mut proven: Vec<(BitVec, ClassStatus)> = Vec::new();
-    if options.four_coverings {
-        run_second_descent(
-            a,
-            b,
-            curve,
-            &qs2,
-            &group,
-            &space,
-            pairing.as_ref(),
-            &conditions,
-            &mut known,
-            &mut elements,
-            &mut points,
-            &mut proven,
-            &mut second_descent_runs,
-            options,
-            deadline,
-        )?;
-    }
+    let mut work = ctx.budget(u64::MAX);
+    search_cosets(model, &qs2, &space, &mut progress, ctx, &mut work)?;
+    let route = if options.four_coverings {
+        let side = SideSpaces {
+            model,
+            qs2: &qs2,
+            group: &group,
+            space: &space,
+            pairing: pairing.as_ref(),
+            conditions: &conditions,
+        };
+        run_second_descent(&side, &mut progress, ctx)?
+    } else {
+        CoveringRoute::default()
+    };
+    let Progress {
+        known,
+        mut elements,
+        points,
+        searches,
+    } = progress;
     // Adapted basis: known images, then proven classes (independent mod K),
     // then the rest of the search space, then the rest of Sel.
     let mut span = known.clone();
-    for (v, status) in &proven {
+    for (v, status) in &route.proven {
         if span
             .try_insert(v.clone(), &mut work)
             .map_err(|_| exhausted())?
@@ -397,7 +407,7 @@ pub fn compute_side(
     }
     let image_upper = if use_pairing {
         space.dim()
-    } else if options.four_coverings && !proven.is_empty() {
+    } else if options.four_coverings && !route.proven.is_empty() {
         // A proven class v ∉ K is outside the image with its whole coset
         // v + K, so the image mod K is a proper subspace of Sel/K.
         group.dim().saturating_sub(1)
@@ -405,8 +415,8 @@ pub fn compute_side(
         group.dim()
     };
     Ok(SelmerSide {
-        a: a.clone(),
-        b: b.clone(),
+        a: model.a().clone(),
+        b: model.b().clone(),
         qs2,
         local_images,
         group,
@@ -416,10 +426,54 @@ pub fn compute_side(
         elements,
         searches,
         points,
-        second_descent_runs,
+        covering_runs: route.runs,
         pairing,
         pairing_error,
     })
+}
+
+/// What one side has learnt so far: the span K of known images, the
+/// adapted basis being built, the points found and every search run.
+struct Progress {
+    known: Subspace,
+    elements: Vec<SelmerElement>,
+    points: Vec<Point>,
+    searches: Vec<SearchRecord>,
+}
+
+impl Progress {
+    /// Records a point found on the space of class `v`.
+    /// (One insertion into K: O(dim²) word operations, dim ≤ |S| + 1.)
+    fn add_point(&mut self, qs2: &QS2, v: BitVec, found: FoundPoint) {
+        self.known.insert(v.clone());
+        self.elements.push(SelmerElement {
+            class: qs2.integer(&v),
+            status: ClassStatus::PointImage {
+                point: found.point.clone(),
+                space: found.space,
+                on_space: found.on_space,
+            },
+        });
+        self.points.push(found.point);
+    }
+}
+
+/// The fixed data of one side that the 4-covering route reads.
+struct SideSpaces<'a> {
+    model: &'a ReducedModel,
+    qs2: &'a QS2,
+    group: &'a Subspace,
+    space: &'a Subspace,
+    pairing: Option<&'a LiftPairing>,
+    conditions: &'a [LocalCondition],
+}
+
+/// What the 4-covering route of one side returns: a run record per class,
+/// and the classes proven not to be images with their evidence.
+#[derive(Default)]
+struct CoveringRoute {
+    runs: Vec<CoveringRun>,
+    proven: Vec<(BitVec, ClassStatus)>,
 }
 
 fn exhausted() -> Error {
@@ -475,58 +529,43 @@ impl Iterator for Combinations {
 /// `max_classes_searched` cosets, in the order of [`Combinations`] on a
 /// complement basis; after each point found, K grows and the order
 /// restarts on the new complement (classes already searched are skipped).
-#[allow(clippy::too_many_arguments)]
 fn search_cosets(
-    a: &BigInt,
-    b: &BigInt,
-    curve: &Curve,
+    model: &ReducedModel,
     qs2: &QS2,
     space: &Subspace,
-    known: &mut Subspace,
-    elements: &mut Vec<SelmerElement>,
-    points: &mut Vec<Point>,
-    searches: &mut Vec<SearchRecord>,
-    options: &DescentOptions,
-    deadline: Option<Instant>,
+    progress: &mut Progress,
+    ctx: &DescentContext<'_>,
     work: &mut Budget,
 ) -> Result<()> {
     let mut tried = 0usize;
     let mut seen: Vec<BitVec> = Vec::new();
     'restart: loop {
-        let rest = known.complement_in(space);
+        let rest = progress.known.complement_in(space);
         if rest.is_empty() {
             return Ok(());
         }
         for combo in Combinations::new(rest.len()) {
-            if tried >= options.max_classes_searched {
+            if tried >= ctx.options.max_classes_searched {
                 return Ok(());
             }
             let mut x = BitVec::zeros(qs2.dim());
             for &i in &combo {
                 x.add_assign(&rest[i]);
             }
-            let key = known.try_reduce(&x, work).map_err(|_| exhausted())?;
+            let key = progress
+                .known
+                .try_reduce(&x, work)
+                .map_err(|_| exhausted())?;
             if key.is_zero() || seen.contains(&key) {
                 continue;
             }
             seen.push(key);
             tried += 1;
-            if let Some((v, point)) =
-                search_coset(a, b, curve, qs2, &x, known, options, deadline, searches)?
-            {
-                known.try_insert(v.clone(), work).map_err(|_| exhausted())?;
-                elements.push(SelmerElement {
-                    class: qs2.integer(&v),
-                    status: ClassStatus::PointImage {
-                        point: point.0.clone(),
-                        space: point.1.clone(),
-                        on_space: point.2.clone(),
-                    },
-                });
-                points.push(point.0);
+            if let Some((v, found)) = search_coset(model, qs2, &x, progress, ctx)? {
+                progress.add_point(qs2, v, found);
                 seen = seen
                     .iter()
-                    .map(|s| known.reduce(s))
+                    .map(|s| progress.known.reduce(s))
                     .filter(|s| !s.is_zero())
                     .collect();
                 continue 'restart;
@@ -541,40 +580,34 @@ fn search_cosets(
 /// (evidence that they are not images; by the theory each such run must
 /// end `NoPoint`, which is checked). Without a pairing, on the complement
 /// basis of K in Sel.
-#[allow(clippy::too_many_arguments)]
 fn run_second_descent(
-    a: &BigInt,
-    b: &BigInt,
-    curve: &Curve,
-    qs2: &QS2,
-    group: &Subspace,
-    space: &Subspace,
-    pairing: Option<&LiftPairing>,
-    conditions: &[LocalCondition],
-    known: &mut Subspace,
-    elements: &mut Vec<SelmerElement>,
-    points: &mut Vec<Point>,
-    proven: &mut Vec<(BitVec, ClassStatus)>,
-    runs: &mut Vec<(BigInt, String)>,
-    options: &DescentOptions,
-    deadline: Option<Instant>,
-) -> Result<()> {
+    side: &SideSpaces<'_>,
+    progress: &mut Progress,
+    ctx: &DescentContext<'_>,
+) -> Result<CoveringRoute> {
+    let (model, qs2) = (side.model, side.qs2);
+    let curve = model.curve();
+    let options = ctx.options;
     let mut sd_options =
         SecondDescentOptions::default().with_search_height(options.covering_search_height);
     sd_options.max_twists = sd_options.max_twists.min(DESCENT_MAX_TWISTS);
     // One budget for the whole side, so the cost cannot grow with the
     // number of classes.
-    let mut budget = options.budget(options.covering_units, deadline);
-    let liftable = pairing.map(|p| &p.liftable);
+    let mut budget = ctx.budget(options.covering_units);
+    let liftable = side.pairing.map(|p| &p.liftable);
+    let mut route = CoveringRoute::default();
     let mut tried = 0usize;
     let mut done: Vec<BigInt> = Vec::new();
     // Points: basis classes of space / K, restarting after each point.
     'restart: loop {
-        for x in known.complement_in(space) {
+        for x in progress.known.complement_in(side.space) {
             if tried >= options.max_classes_searched {
                 break 'restart;
             }
-            let Some((d, v)) = coset_representatives(qs2, &x, known).into_iter().next() else {
+            let Some((d, v)) = coset_representatives(qs2, &x, &progress.known)
+                .into_iter()
+                .next()
+            else {
                 continue;
             };
             if done.contains(&d) {
@@ -583,24 +616,14 @@ fn run_second_descent(
             done.push(d.clone());
             tried += 1;
             if budget.is_exhausted() {
-                runs.push((
-                    d,
-                    "gave up: second-descent budget of this side spent".into(),
-                ));
+                route.record(d, CoveringVerdict::BudgetSpent);
                 break 'restart;
             }
-            let outcome = if pairing.is_some() {
-                targeted(a, b, &d, qs2, conditions, &sd_options, &mut budget)
+            let outcome = if side.pairing.is_some() {
+                targeted(model, &d, qs2, side.conditions, &sd_options, &mut budget)
             } else {
-                second_descent(a, b, &d, &sd_options, &mut budget)
+                second_descent(model.a(), model.b(), &d, &sd_options, &mut budget)
             };
-            if let Err(Error::InvalidArgument { reason }) = &outcome {
-                if reason.starts_with("internal check failed") {
-                    return Err(Error::InvalidArgument {
-                        reason: reason.clone(),
-                    });
-                }
-            }
             match outcome {
                 Ok(SecondDescentOutcome::Point {
                     space_point,
@@ -610,106 +633,105 @@ fn run_second_descent(
                 }) => {
                     let p = Point::new(point_x, point_y);
                     if !curve.contains(&p) {
-                        return Err(Error::InvalidArgument {
-                            reason: format!(
-                                "internal check failed: second-descent point for C_{d} is not on the curve"
+                        return Err(Error::Internal {
+                            check: format!(
+                                "the 4-covering point for C_{d} of {model} is not on the curve"
                             ),
                         });
                     }
                     if liftable.is_some_and(|l| !l.contains(&v)) {
-                        return Err(Error::InvalidArgument {
-                            reason: format!(
-                                "internal check failed: class {d} has a point but pairs nontrivially (a = {a}, b = {b})"
+                        return Err(Error::Internal {
+                            check: format!(
+                                "class {d} of {model} has a point but pairs nontrivially"
                             ),
                         });
                     }
-                    runs.push((d.clone(), "point_image".into()));
-                    known.insert(v.clone());
-                    elements.push(SelmerElement {
-                        class: qs2.integer(&v),
-                        status: ClassStatus::PointImage {
-                            point: p.clone(),
-                            space: d,
-                            on_space: space_point,
-                        },
-                    });
-                    points.push(p);
+                    route.record(d.clone(), CoveringVerdict::PointImage);
+                    let found = FoundPoint {
+                        point: p,
+                        space: d,
+                        on_space: space_point,
+                    };
+                    progress.add_point(qs2, v, found);
                     continue 'restart;
                 }
                 Ok(SecondDescentOutcome::NoPoint(evidence)) => {
                     if liftable.is_some() {
-                        return Err(Error::InvalidArgument {
-                            reason: format!(
-                                "internal check failed: class {d} lies in the liftable subgroup but every 4-covering is insoluble (a = {a}, b = {b})"
+                        return Err(Error::Internal {
+                            check: format!(
+                                "class {d} of {model} lies in the liftable subgroup but every 4-covering is insoluble"
                             ),
                         });
                     }
-                    runs.push((d.clone(), "proven_not_image".into()));
-                    proven.push((v, not_image(d, evidence)));
+                    route.record(d.clone(), CoveringVerdict::ProvenNotImage);
+                    route.proven.push((v, not_image(d, evidence)));
                 }
                 Ok(SecondDescentOutcome::Undecided { .. }) => {
-                    runs.push((d, "undecided".into()));
+                    route.record(d, CoveringVerdict::Undecided);
                 }
-                Err(e) => {
-                    runs.push((d, format!("gave up: {e}")));
-                }
+                Err(e @ Error::Internal { .. }) => return Err(e),
+                Err(e) => route.record(d, CoveringVerdict::GaveUp(e)),
             }
         }
         break;
     }
     // Evidence: a few classes outside the liftable subgroup.
     let Some(liftable) = liftable else {
-        return Ok(());
+        return Ok(route);
     };
-    let outside = liftable.complement_in(group);
+    let outside = liftable.complement_in(side.group);
     for x in outside.into_iter().take(EVIDENCE_CLASSES) {
         let Some((d, v)) = coset_representatives(qs2, &x, liftable).into_iter().next() else {
             continue;
         };
         if budget.is_exhausted() {
-            runs.push((
-                d,
-                "gave up: second-descent budget of this side spent".into(),
-            ));
+            route.record(d, CoveringVerdict::BudgetSpent);
             break;
         }
-        match second_descent(a, b, &d, &sd_options, &mut budget) {
+        match second_descent(model.a(), model.b(), &d, &sd_options, &mut budget) {
             Ok(SecondDescentOutcome::NoPoint(evidence)) => {
-                runs.push((d.clone(), "proven_not_image".into()));
-                proven.push((v, not_image(d, evidence)));
+                route.record(d.clone(), CoveringVerdict::ProvenNotImage);
+                route.proven.push((v, not_image(d, evidence)));
             }
             Ok(other) => {
-                return Err(Error::InvalidArgument {
-                    reason: format!(
-                        "internal check failed: class {d} pairs nontrivially but the 4-covering route says {} (a = {a}, b = {b})",
+                return Err(Error::Internal {
+                    check: format!(
+                        "class {d} of {model} pairs nontrivially but the 4-covering route says {}",
                         other.word()
                     ),
                 });
             }
-            Err(e) => runs.push((d, format!("gave up: {e}"))),
+            Err(e @ Error::Internal { .. }) => return Err(e),
+            Err(e) => route.record(d, CoveringVerdict::GaveUp(e)),
         }
     }
-    Ok(())
+    Ok(route)
+}
+
+impl CoveringRoute {
+    fn record(&mut self, class: BigInt, verdict: CoveringVerdict) {
+        self.runs.push(CoveringRun { class, verdict });
+    }
 }
 
 /// The 4-covering route on the soluble twists of a class d in I only:
 /// the pairing data of d, the coset of twists by linear algebra, at most
 /// [`TWISTS_PER_CLASS`] of them searched.
 fn targeted(
-    a: &BigInt,
-    b: &BigInt,
+    model: &ReducedModel,
     d: &BigInt,
     qs2: &QS2,
     conditions: &[LocalCondition],
     sd_options: &SecondDescentOptions,
     budget: &mut Budget,
 ) -> Result<SecondDescentOutcome> {
+    let (a, b) = (model.a(), model.b());
     let lift = class_lift(a, b, d, qs2, budget)?;
     let twists = soluble_twists(&lift, qs2, conditions, TWISTS_PER_CLASS, budget)?;
     if twists.is_empty() {
-        return Err(Error::InvalidArgument {
-            reason: format!(
-                "internal check failed: class {d} lies in the liftable subgroup but has no soluble twist (a = {a}, b = {b})"
+        return Err(Error::Internal {
+            check: format!(
+                "class {d} of {model} lies in the liftable subgroup but has no soluble twist"
             ),
         });
     }
@@ -778,29 +800,32 @@ fn coset_representatives(qs2: &QS2, x: &BitVec, known: &Subspace) -> Vec<(BigInt
     reps
 }
 
-type Found = (BitVec, (Point, BigInt, QuarticPoint));
+/// A point found on a homogeneous space: the point of E, the class d of
+/// the space and the point (M, e, N) on it.
+struct FoundPoint {
+    point: Point,
+    space: BigInt,
+    on_space: QuarticPoint,
+}
 
-#[allow(clippy::too_many_arguments)]
+/// Searches a few representatives of the coset x + K, smallest |d| first.
 fn search_coset(
-    a: &BigInt,
-    b: &BigInt,
-    curve: &Curve,
+    model: &ReducedModel,
     qs2: &QS2,
     x: &BitVec,
-    known: &Subspace,
-    options: &DescentOptions,
-    deadline: Option<Instant>,
-    searches: &mut Vec<SearchRecord>,
-) -> Result<Option<Found>> {
-    for (d, v) in coset_representatives(qs2, x, known)
+    progress: &mut Progress,
+    ctx: &DescentContext<'_>,
+) -> Result<Option<(BitVec, FoundPoint)>> {
+    let options = ctx.options;
+    for (d, v) in coset_representatives(qs2, x, &progress.known)
         .into_iter()
         .take(options.representatives_per_class.max(1))
     {
         if d.is_one() {
             continue;
         }
-        let (coeffs, f) = space_for(&d, a, b)?;
-        let mut budget = options.budget(options.search_units, deadline);
+        let (coeffs, f) = space_for(&d, model.a(), model.b())?;
+        let mut budget = ctx.budget(options.search_units);
         let outcome = search(
             &coeffs,
             &SearchOptions::up_to(options.search_height),
@@ -810,17 +835,22 @@ fn search_coset(
             SearchOutcome::Found(qp) => point_from_space(&d, &f, qp).map(|p| (p, qp.clone())),
             _ => None,
         };
-        searches.push(SearchRecord {
+        progress.searches.push(SearchRecord {
             class: d.clone(),
             quartic: coeffs,
             outcome,
         });
-        if let Some((p, qp)) = found {
-            if curve.contains(&p) {
-                return Ok(Some((v, (p, d, qp))));
+        if let Some((point, on_space)) = found {
+            if model.curve().contains(&point) {
+                let found = FoundPoint {
+                    point,
+                    space: d,
+                    on_space,
+                };
+                return Ok(Some((v, found)));
             }
-            return Err(Error::InvalidArgument {
-                reason: format!("internal check failed: point from C_{d} is not on the curve"),
+            return Err(Error::Internal {
+                check: format!("the point from C_{d} is not on {model}"),
             });
         }
     }

@@ -41,7 +41,11 @@ use num_bigint::BigInt;
 
 pub use deep_search::{complete_report_points, search_missing_points, DeepSearchOptions};
 pub use global::{RankProof, ShaTwoPart};
-pub use isogeny_side::{ClassStatus, CoveringObstruction, SearchRecord, SelmerElement, SelmerSide};
+pub use isogeny_side::{
+    ClassStatus, CoveringObstruction, CoveringRun, CoveringVerdict, SearchRecord, SelmerElement,
+    SelmerSide,
+};
+use options::DescentContext;
 pub use options::DescentOptions;
 pub use report::{Completion, DescentReport, RankBounds};
 pub use verify::{verify_report, Verification};
@@ -97,7 +101,7 @@ impl IsogenyDescent {
     /// side) − t + dim I (the liftable subgroup on E's side). `None` when
     /// the pairing on E's side was not computed (budget).
     pub fn selmer2_rank(&self) -> Option<usize> {
-        let full = is_square(&(&self.model.a * &self.model.a - 4 * &self.model.b));
+        let full = is_square(&self.model.reduced().quadratic_discriminant());
         Some(bounds::selmer2_dimension(
             self.codomain.dimension(),
             self.domain.liftable_dim()?,
@@ -109,7 +113,7 @@ impl IsogenyDescent {
     /// (the same sequence for the dual isogeny; E'\[2\] is rational iff b is
     /// a square).
     pub fn selmer2_rank_codomain(&self) -> Option<usize> {
-        let full = is_square(&self.model.b);
+        let full = is_square(self.model.b());
         Some(bounds::selmer2_dimension(
             self.domain.dimension(),
             self.codomain.liftable_dim()?,
@@ -129,13 +133,8 @@ fn is_square(n: &BigInt) -> bool {
     !num_traits::Signed::is_negative(n) && crate::arith::is_perfect_square(n)
 }
 
-fn primes_of(
-    n: &BigInt,
-    options: &DescentOptions,
-    deadline: Option<Instant>,
-    into: &mut Vec<Prime>,
-) -> Result<()> {
-    let mut budget = options.factor_budget(n.bits(), deadline);
+fn primes_of(n: &BigInt, ctx: &DescentContext<'_>, into: &mut Vec<Prime>) -> Result<()> {
+    let mut budget = ctx.factor_budget(n.bits());
     let f = factor(n, &mut budget)?;
     for p in f.primes() {
         into.push(Prime::certified(p.clone()));
@@ -153,9 +152,9 @@ pub fn descend_isogeny(
     t: &Point,
     options: &DescentOptions,
 ) -> Result<IsogenyDescent> {
-    let deadline = options.time_limit.map(|d| Instant::now() + d);
+    let ctx = DescentContext::new(options, Instant::now());
     let torsion = torsion_subgroup(curve);
-    descend_isogeny_with_torsion(curve, t, &torsion, options, deadline)
+    descend_isogeny_with_torsion(curve, t, &torsion, &ctx)
 }
 
 /// [`descend_isogeny`] with the torsion subgroup of `curve` supplied.
@@ -163,8 +162,7 @@ fn descend_isogeny_with_torsion(
     curve: &Curve,
     t: &Point,
     torsion: &TorsionGroup,
-    options: &DescentOptions,
-    deadline: Option<Instant>,
+    ctx: &DescentContext<'_>,
 ) -> Result<IsogenyDescent> {
     let size = curve
         .coefficients()
@@ -172,14 +170,12 @@ fn descend_isogeny_with_torsion(
         .map(|c| c.numer().bits() + c.denom().bits())
         .max()
         .unwrap_or(0);
-    let mut reduction_budget = options.factor_budget(4 * size, deadline);
+    let mut reduction_budget = ctx.factor_budget(4 * size);
     let model = two_torsion_model_with_budget(curve, t, &mut reduction_budget)?;
     let isogeny = TwoIsogeny::from_model(&model)?;
-    let (a, b) = (model.a.clone(), model.b.clone());
-    let (a2, b2) = isogeny.codomain_coefficients();
     let mut primes = vec![Prime::two()];
-    primes_of(&b, options, deadline, &mut primes)?;
-    primes_of(&b2, options, deadline, &mut primes)?;
+    primes_of(model.b(), ctx, &mut primes)?;
+    primes_of(isogeny.codomain_model().b(), ctx, &mut primes)?;
     primes.sort();
     primes.dedup();
 
@@ -190,24 +186,8 @@ fn descend_isogeny_with_torsion(
         .collect();
     let torsion_e2 = torsion_subgroup(isogeny.codomain()).points().to_vec();
 
-    let domain = isogeny_side::compute_side(
-        &a,
-        &b,
-        model.curve(),
-        &primes,
-        &torsion_e,
-        options,
-        deadline,
-    )?;
-    let codomain = isogeny_side::compute_side(
-        &a2,
-        &b2,
-        isogeny.codomain(),
-        &primes,
-        &torsion_e2,
-        options,
-        deadline,
-    )?;
+    let domain = isogeny_side::compute_side(model.reduced(), &primes, &torsion_e, ctx)?;
+    let codomain = isogeny_side::compute_side(isogeny.codomain_model(), &primes, &torsion_e2, ctx)?;
     if domain.torsion_dim + codomain.torsion_dim != 2 {
         return Err(Error::Internal {
             check: format!(
@@ -251,21 +231,21 @@ fn descend_isogeny_with_torsion(
 /// [`Error::BudgetExhausted`]) when a budget in `options` runs out.
 pub fn descend(curve: &Curve, options: &DescentOptions) -> Result<DescentReport> {
     let started = Instant::now();
-    let deadline = options.time_limit.map(|d| started + d);
-    let mut root_budget = options.budget(options.factor_units, deadline);
+    let ctx = DescentContext::new(options, started);
+    let mut root_budget = ctx.budget(options.factor_units);
     let ts = two_torsion_points_with_budget(curve, &mut root_budget)?;
     if ts.is_empty() {
         return Err(Error::NoTwoTorsion);
     }
     let torsion = torsion_subgroup(curve);
     let disc = curve.discriminant();
-    let mut budget = options.factor_budget(disc.numer().bits() + disc.denom().bits(), deadline);
+    let mut budget = ctx.factor_budget(disc.numer().bits() + disc.denom().bits());
     let local_data = curve.local_data(&mut budget)?;
     let mut isogenies = Vec::with_capacity(ts.len());
     let mut completion = Completion::Complete;
     let mut first_error = None;
     for (i, t) in ts.iter().enumerate() {
-        match descend_isogeny_with_torsion(curve, t, &torsion, options, deadline) {
+        match descend_isogeny_with_torsion(curve, t, &torsion, &ctx) {
             Ok(d) => isogenies.push(d),
             Err(e) if is_budget_error(&e) => {
                 // Fall back to the first descent alone (no search, no
@@ -279,7 +259,8 @@ pub fn descend(curve: &Curve, options: &DescentOptions) -> Result<DescentReport>
                         reason: e.to_string(),
                     };
                 }
-                match descend_isogeny_with_torsion(curve, t, &torsion, &fallback, grace) {
+                let fallback_ctx = DescentContext::new(&fallback, started).with_deadline(grace);
+                match descend_isogeny_with_torsion(curve, t, &torsion, &fallback_ctx) {
                     Ok(d) => isogenies.push(d),
                     Err(e2) => {
                         first_error.get_or_insert(e2);
@@ -295,7 +276,7 @@ pub fn descend(curve: &Curve, options: &DescentOptions) -> Result<DescentReport>
         }));
     }
     let mut report = DescentReport::new(curve.clone(), torsion, local_data, isogenies, completion);
-    global::complete(&mut report, options, deadline);
+    global::complete(&mut report, options, ctx.deadline);
     Ok(report)
 }
 

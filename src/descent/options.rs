@@ -37,6 +37,12 @@ pub struct DescentOptions {
     /// the lifting pairing (the exact bound) and, for a few classes, the
     /// 4-coverings (points and re-checkable evidence).
     pub four_coverings: bool,
+    /// Compute the lifting pairing on each Selmer group (the second
+    /// descent as linear algebra): its kernel bounds the image of E(Q) and
+    /// gives dim Sel²(E/Q). Default true (also under
+    /// [`DescentOptions::local_conditions_only`], since Sel² is local data);
+    /// off, each side costs only its local images and linear algebra.
+    pub lifting_pairing: bool,
     /// Height bound for the searches on the 4-coverings of the second descent.
     pub covering_search_height: u64,
     /// Work units for the whole second descent of one side (all its classes).
@@ -72,6 +78,7 @@ impl Default for DescentOptions {
             max_classes_searched: 64,
             representatives_per_class: 4,
             four_coverings: true,
+            lifting_pairing: true,
             covering_search_height: 64,
             covering_units: 100_000_000,
             time_limit: None,
@@ -138,5 +145,41 @@ impl DescentOptions {
     pub fn with_four_coverings(mut self, on: bool) -> Self {
         self.four_coverings = on;
         self
+    }
+}
+
+/// The options of one descent and its wall-clock deadline (fixed when the
+/// descent starts), travelling together through the layers of the descent.
+#[derive(Clone, Copy, Debug)]
+pub(crate) struct DescentContext<'a> {
+    /// The caller's options.
+    pub(crate) options: &'a DescentOptions,
+    /// `started + time_limit`, if there is a time limit.
+    pub(crate) deadline: Option<Instant>,
+}
+
+impl<'a> DescentContext<'a> {
+    /// The context of a descent started at `started`.
+    pub(crate) fn new(options: &'a DescentOptions, started: Instant) -> Self {
+        DescentContext {
+            options,
+            deadline: options.time_limit.map(|d| started + d),
+        }
+    }
+
+    /// The same options with another deadline.
+    pub(crate) fn with_deadline(self, deadline: Option<Instant>) -> Self {
+        DescentContext { deadline, ..self }
+    }
+
+    /// A budget of `units` that also stops at the deadline.
+    pub(crate) fn budget(&self, units: u64) -> Budget {
+        self.options.budget(units, self.deadline)
+    }
+
+    /// The factoring budget for an `n_bits`-bit number (see
+    /// `DescentOptions::factor_budget`), stopping at the deadline.
+    pub(crate) fn factor_budget(&self, n_bits: u64) -> Budget {
+        self.options.factor_budget(n_bits, self.deadline)
     }
 }

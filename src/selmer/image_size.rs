@@ -92,6 +92,7 @@ use num_traits::{Signed, Zero};
 
 use crate::budget::Budget;
 use crate::curve::tate::local_reduction;
+use crate::curve::ReducedModel;
 use crate::error::{Error, Result};
 use crate::local::{valuation_rational, Place, Prime};
 use crate::quartic::{local_image, LocalImage};
@@ -191,16 +192,6 @@ impl RealCountTerms {
     }
 }
 
-fn check_nonsingular(a: &BigInt, b: &BigInt) -> Result<BigInt> {
-    let disc_part: BigInt = a * a - BigInt::from(4u32) * b;
-    if b.is_zero() || disc_part.is_zero() {
-        return Err(Error::SingularCurve {
-            reason: format!("y² = x³ + ({a})x² + ({b})x has b(a² − 4b) = 0"),
-        });
-    }
-    Ok(disc_part)
-}
-
 /// `(a′, b′) = (−2a, a² − 4b)`, the coefficients of `E′`.
 fn dual_coefficients(a: &BigInt, b: &BigInt) -> (BigInt, BigInt) {
     (-(a * BigInt::from(2u32)), a * a - BigInt::from(4u32) * b)
@@ -244,8 +235,8 @@ fn tamagawa_and_scaling(a: &BigInt, b: &BigInt, p: &Prime) -> Result<(u64, i64)>
 /// assert_eq!((t.tamagawa, t.tamagawa_dual, t.leading_valuation), (2, 4, 1));
 /// assert_eq!(t.size().unwrap(), 2);
 /// ```
-pub fn padic_count_terms(a: &BigInt, b: &BigInt, p: &Prime) -> Result<PadicCountTerms> {
-    check_nonsingular(a, b)?;
+pub fn padic_count_terms(model: &ReducedModel, p: &Prime) -> Result<PadicCountTerms> {
+    let (a, b) = (model.a(), model.b());
     let (a2, b2) = dual_coefficients(a, b);
     let (tamagawa, scaling) = tamagawa_and_scaling(a, b, p)?;
     let (tamagawa_dual, scaling_dual) = tamagawa_and_scaling(&a2, &b2, p)?;
@@ -276,13 +267,13 @@ pub fn padic_count_terms(a: &BigInt, b: &BigInt, p: &Prime) -> Result<PadicCount
 /// use isodescent::local::Prime;
 /// assert_eq!(odd_prime_count(&0.into(), &3.into(), &Prime::small(3).unwrap()).unwrap(), 2);
 /// ```
-pub fn odd_prime_count(a: &BigInt, b: &BigInt, p: &Prime) -> Result<u64> {
+pub fn odd_prime_count(model: &ReducedModel, p: &Prime) -> Result<u64> {
     if p.is_two() {
         return Err(Error::InvalidArgument {
             reason: "odd_prime_count needs an odd prime; use two_adic_count at 2".into(),
         });
     }
-    padic_count_terms(a, b, p)?.size()
+    padic_count_terms(model, p)?.size()
 }
 
 /// `|W_2(E)|`: `2 · c_2(E)/c_2(E′) · 2^{1 + k_E − k_E′}` (module docs).
@@ -297,8 +288,8 @@ pub fn odd_prime_count(a: &BigInt, b: &BigInt, p: &Prime) -> Result<u64> {
 /// use isodescent::selmer::image_size::two_adic_count;
 /// assert_eq!(two_adic_count(&0.into(), &(-25).into()).unwrap(), 4);
 /// ```
-pub fn two_adic_count(a: &BigInt, b: &BigInt) -> Result<u64> {
-    padic_count_terms(a, b, &Prime::two())?.size()
+pub fn two_adic_count(model: &ReducedModel) -> Result<u64> {
+    padic_count_terms(model, &Prime::two())?.size()
 }
 
 /// The terms of the real count (module docs): `c_∞(E)`, `c_∞(E′)` and
@@ -316,8 +307,9 @@ pub fn two_adic_count(a: &BigInt, b: &BigInt) -> Result<u64> {
 /// assert_eq!((t.components, t.components_dual, t.kernel_on_identity), (2, 1, 2));
 /// assert_eq!(t.size().unwrap(), 2);
 /// ```
-pub fn real_count_terms(a: &BigInt, b: &BigInt) -> Result<RealCountTerms> {
-    let disc_part = check_nonsingular(a, b)?;
+pub fn real_count_terms(model: &ReducedModel) -> Result<RealCountTerms> {
+    let (a, b) = (model.a(), model.b());
+    let disc_part = model.quadratic_discriminant();
     // sign Δ_E = sign(a² − 4b), sign Δ_E′ = sign(b).
     let components = if disc_part.is_positive() { 2 } else { 1 };
     let components_dual = if b.is_positive() { 2 } else { 1 };
@@ -349,8 +341,9 @@ pub fn real_count_terms(a: &BigInt, b: &BigInt) -> Result<RealCountTerms> {
 /// assert!(real_sign_rule(&3.into(), &1.into()).unwrap());
 /// assert!(!real_sign_rule(&(-3).into(), &1.into()).unwrap());
 /// ```
-pub fn real_sign_rule(a: &BigInt, b: &BigInt) -> Result<bool> {
-    let disc_part = check_nonsingular(a, b)?;
+pub fn real_sign_rule(model: &ReducedModel) -> Result<bool> {
+    let (a, b) = (model.a(), model.b());
+    let disc_part = model.quadratic_discriminant();
     Ok(b.is_negative() || (a.is_positive() && disc_part.is_positive()))
 }
 
@@ -375,10 +368,10 @@ pub fn real_sign_rule(a: &BigInt, b: &BigInt) -> Result<bool> {
 /// assert_eq!(s(Place::Finite(Prime::two())), 2);
 /// assert_eq!(s(Place::Finite(Prime::small(3).unwrap())), 2);
 /// ```
-pub fn predicted_local_image_size(a: &BigInt, b: &BigInt, place: &Place) -> Result<u64> {
+pub fn predicted_local_image_size(model: &ReducedModel, place: &Place) -> Result<u64> {
     match place {
-        Place::Real => real_count_terms(a, b)?.size(),
-        Place::Finite(p) => padic_count_terms(a, b, p)?.size(),
+        Place::Real => real_count_terms(model)?.size(),
+        Place::Finite(p) => padic_count_terms(model, p)?.size(),
     }
 }
 
@@ -386,8 +379,8 @@ pub fn predicted_local_image_size(a: &BigInt, b: &BigInt, place: &Place) -> Resu
 ///
 /// # Errors
 /// Those of [`predicted_local_image_size`].
-pub fn predicted_local_image_dimension(a: &BigInt, b: &BigInt, place: &Place) -> Result<u32> {
-    Ok(predicted_local_image_size(a, b, place)?.trailing_zeros())
+pub fn predicted_local_image_dimension(model: &ReducedModel, place: &Place) -> Result<u32> {
+    Ok(predicted_local_image_size(model, place)?.trailing_zeros())
 }
 
 /// The places `R` and each of `primes`, sorted, without repetitions.
@@ -427,15 +420,14 @@ fn places_for(primes: &[Prime]) -> Vec<Place> {
 /// assert!(rows.iter().all(|(_, p, c)| p == c));
 /// ```
 pub fn check_local_images(
-    a: &BigInt,
-    b: &BigInt,
+    model: &ReducedModel,
     primes: &[Prime],
     budget: &mut Budget,
 ) -> Result<Vec<(Place, u64, u64)>> {
-    check_nonsingular(a, b)?;
+    let (a, b) = (model.a(), model.b());
     let mut rows = Vec::new();
     for v in places_for(primes) {
-        let predicted = predicted_local_image_size(a, b, &v)?;
+        let predicted = predicted_local_image_size(model, &v)?;
         let w = local_image(a, b, &v, budget)?;
         rows.push((v, predicted, 1u64 << w.dimension));
     }
@@ -456,19 +448,18 @@ pub fn check_local_images(
 /// assert!(local_images_agree(&0.into(), &3.into(), &primes, &mut Budget::unlimited()).unwrap());
 /// ```
 pub fn local_images_agree(
-    a: &BigInt,
-    b: &BigInt,
+    model: &ReducedModel,
     primes: &[Prime],
     budget: &mut Budget,
 ) -> Result<bool> {
-    Ok(check_local_images(a, b, primes, budget)?
+    Ok(check_local_images(model, primes, budget)?
         .iter()
         .all(|(_, p, c)| p == c))
 }
 
 /// True when every already computed local image of
 /// `E: y² = x³ + ax² + bx` has the predicted size `2^dimension =
-/// predicted_local_image_size(a, b, place)`; false on a mismatch or when
+/// predicted_local_image_size(model, place)`; false on a mismatch or when
 /// a prediction fails (singular input). Needs no budget: meant for a
 /// debug assertion next to the computation of the images.
 ///
@@ -485,9 +476,9 @@ pub fn local_images_agree(
 ///     .collect();
 /// assert!(images_match_prediction(&a, &b, &w));
 /// ```
-pub fn images_match_prediction(a: &BigInt, b: &BigInt, images: &[LocalImage]) -> bool {
+pub fn images_match_prediction(model: &ReducedModel, images: &[LocalImage]) -> bool {
     images.iter().all(|w| {
-        matches!(predicted_local_image_size(a, b, &w.place),
+        matches!(predicted_local_image_size(model, &w.place),
                  Ok(s) if s == 1u64 << w.dimension)
     })
 }
@@ -535,12 +526,11 @@ pub fn selmer_difference_from_images(codomain_images: &[LocalImage]) -> i64 {
 /// use isodescent::local::Prime;
 /// assert_eq!(selmer_difference_from_tamagawa(&0.into(), &(-1).into(), &[Prime::two()]).unwrap(), 0);
 /// ```
-pub fn selmer_difference_from_tamagawa(a: &BigInt, b: &BigInt, primes: &[Prime]) -> Result<i64> {
-    check_nonsingular(a, b)?;
-    let (a2, b2) = dual_coefficients(a, b);
+pub fn selmer_difference_from_tamagawa(model: &ReducedModel, primes: &[Prime]) -> Result<i64> {
+    let dual = model.isogenous()?;
     let mut sum = 0i64;
     for v in places_for(primes) {
-        let d = predicted_local_image_dimension(&a2, &b2, &v)?;
+        let d = predicted_local_image_dimension(&dual, &v)?;
         sum += i64::from(d) - 1;
     }
     Ok(sum)

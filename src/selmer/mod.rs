@@ -2,11 +2,13 @@
 //!
 //! `f2` holds bit-packed linear algebra over F2; `qs2` the group
 //! Q(S, 2) of classes of Q*/Q*^2 unramified outside S, with basis {−1} ∪ S;
-//! `group` the Selmer group of one side of a 2-isogeny as the preimage of
+//! `assemble` the Selmer group of one side from its local images, with
+//! the torsion images inside it; `group` the Selmer group of one side of a 2-isogeny as the preimage of
 //! the product of local images under the localisation map; `pairing` the
 //! subgroup of classes that lift to everywhere locally soluble 2-coverings
 //! (the second descent as linear algebra).
 
+pub(crate) mod assemble;
 #[allow(dead_code)]
 pub(crate) mod f2;
 pub(crate) mod group;

@@ -6,6 +6,7 @@
 //! `src/selmer/checks/image_size_families.rs` (ignored by default).
 
 use crate::arith::factor_u64;
+use crate::curve::ReducedModel;
 use crate::curve::{Curve, Point, TwoIsogeny};
 use crate::descent::{descend_isogeny, DescentOptions};
 use crate::local::{valuation_rational, Place, Prime};
@@ -21,6 +22,15 @@ use num_rational::BigRational;
 
 fn b(n: i64) -> BigInt {
     BigInt::from(n)
+}
+
+/// The checked model y² = x³ + ax² + bx (the tests pass non-singular pairs).
+fn rm(a: i64, bb: i64) -> ReducedModel {
+    rmb(&b(a), &b(bb))
+}
+
+fn rmb(a: &BigInt, bb: &BigInt) -> ReducedModel {
+    ReducedModel::new(a.clone(), bb.clone()).unwrap()
 }
 
 /// The primes of 2·|n| for n ≠ 0 (factor_u64 is exact).
@@ -43,7 +53,7 @@ fn check_both_sides(a: i64, bb: i64) -> usize {
     let primes = primes_of_2n(&[bb, d]);
     let mut pairs = 0;
     for (ca, cb) in [(a, bb), (-2 * a, d)] {
-        let rows = check_local_images(&b(ca), &b(cb), &primes, &mut Budget::unlimited()).unwrap();
+        let rows = check_local_images(&rm(ca, cb), &primes, &mut Budget::unlimited()).unwrap();
         for (v, predicted, computed) in rows {
             assert_eq!(
                 predicted, computed,
@@ -131,7 +141,7 @@ fn the_change_to_minimal_models_matters_at_two_and_is_accounted_for() {
             if bb == 0 || a * a == 4 * bb {
                 continue;
             }
-            let t = padic_count_terms(&b(a), &b(bb), &Prime::two()).unwrap();
+            let t = padic_count_terms(&rm(a, bb), &Prime::two()).unwrap();
             if t.scaling != t.scaling_dual {
                 corrected += 1;
                 let w = local_image(
@@ -161,14 +171,14 @@ fn at_odd_primes_both_models_need_the_same_scaling() {
         (-50, 5 * 625),
     ] {
         for p in [3u64, 5] {
-            let t = padic_count_terms(&b(a), &b(bb), &Prime::small(p).unwrap()).unwrap();
+            let t = padic_count_terms(&rm(a, bb), &Prime::small(p).unwrap()).unwrap();
             assert_eq!(t.scaling, t.scaling_dual, "a={a} b={bb} p={p}");
             assert_eq!(t.leading_valuation, 0);
         }
     }
     // Non-minimal at 3 on both sides: y² = x³ + 9x² + 81x is
     // y² = x³ + x² + x scaled by u = 3.
-    let t = padic_count_terms(&b(9), &b(81), &Prime::small(3).unwrap()).unwrap();
+    let t = padic_count_terms(&rm(9, 81), &Prime::small(3).unwrap()).unwrap();
     assert_eq!((t.scaling, t.scaling_dual), (1, 1));
 }
 
@@ -181,8 +191,8 @@ fn the_real_count_from_components_is_the_sign_rule_and_the_real_image() {
             if bb == 0 || a * a == 4 * bb {
                 continue;
             }
-            let t = real_count_terms(&b(a), &b(bb)).unwrap();
-            let by_rule = if real_sign_rule(&b(a), &b(bb)).unwrap() {
+            let t = real_count_terms(&rm(a, bb)).unwrap();
+            let by_rule = if real_sign_rule(&rm(a, bb)).unwrap() {
                 2
             } else {
                 1
@@ -213,8 +223,8 @@ fn predicted_sizes_on_the_two_sides_multiply_to_two_four_or_eight() {
                 continue;
             }
             for v in &places {
-                let s1 = predicted_local_image_size(&b(a), &b(bb), v).unwrap();
-                let s2 = predicted_local_image_size(&b(-2 * a), &b(a * a - 4 * bb), v).unwrap();
+                let s1 = predicted_local_image_size(&rm(a, bb), v).unwrap();
+                let s2 = predicted_local_image_size(&rm(-2 * a, a * a - 4 * bb), v).unwrap();
                 let want = match v {
                     Place::Real => 2,
                     Place::Finite(p) if p.is_two() => 8,
@@ -233,7 +243,7 @@ fn good_odd_primes_predict_two() {
     for (a, bb) in [(0i64, -1i64), (3, 1), (-5, 7), (1, 2)] {
         for p in [101u64, 103, 1009] {
             let v = Place::Finite(Prime::small(p).unwrap());
-            assert_eq!(predicted_local_image_size(&b(a), &b(bb), &v).unwrap(), 2);
+            assert_eq!(predicted_local_image_size(&rm(a, bb), &v).unwrap(), 2);
         }
     }
 }
@@ -281,24 +291,22 @@ fn a_local_image_of_the_wrong_size_is_caught() {
     .iter()
     .map(|v| local_image(&a, &bb, v, &mut Budget::unlimited()).unwrap())
     .collect();
-    assert!(images_match_prediction(&a, &bb, &images));
+    assert!(images_match_prediction(&rmb(&a, &bb), &images));
+    let primes = primes_of_2n(&[25]);
+    assert!(local_images_agree(&rmb(&a, &bb), &primes, &mut Budget::unlimited()).unwrap());
     images[1].dimension -= 1;
-    assert!(!images_match_prediction(&a, &bb, &images));
-    // Singular input: no prediction, so no match.
-    assert!(!images_match_prediction(&b(2), &b(1), &images));
+    assert!(!images_match_prediction(&rmb(&a, &bb), &images));
 }
 
 #[test]
 fn singular_models_are_typed_errors() {
+    // Singular pairs cannot reach these functions: the checked model
+    // refuses them with a typed error.
     for (a, bb) in [(0i64, 0i64), (2, 1), (-4, 4), (5, 0)] {
-        let e = predicted_local_image_size(&b(a), &b(bb), &Place::Real).unwrap_err();
+        let e = ReducedModel::new(b(a), b(bb)).unwrap_err();
         assert!(matches!(e, Error::SingularCurve { .. }), "{e:?}");
-        let e = padic_count_terms(&b(a), &b(bb), &Prime::two()).unwrap_err();
-        assert!(matches!(e, Error::SingularCurve { .. }));
-        assert!(local_images_agree(&b(a), &b(bb), &[], &mut Budget::unlimited()).is_err());
-        assert!(selmer_difference_from_tamagawa(&b(a), &b(bb), &[]).is_err());
     }
-    let e = crate::selmer::image_size::odd_prime_count(&b(0), &b(-1), &Prime::two()).unwrap_err();
+    let e = crate::selmer::image_size::odd_prime_count(&rm(0, -1), &Prime::two()).unwrap_err();
     assert!(matches!(e, Error::InvalidArgument { .. }));
 }
 
@@ -334,7 +342,7 @@ fn check_cassels(a: i64, bb: i64) {
         })
         .collect();
     assert_eq!(
-        selmer_difference_from_tamagawa(&d.domain.a, &d.domain.b, &primes).unwrap(),
+        selmer_difference_from_tamagawa(&rmb(&d.domain.a, &d.domain.b), &primes).unwrap(),
         diff,
         "a={a} b={bb}"
     );
@@ -368,18 +376,18 @@ fn cassels_formula_holds_for_congruent_number_curves_up_to_100() {
 /// dimension, and the descent must agree.
 #[test]
 fn cassels_formula_on_y2_equals_x3_minus_x() {
-    let t = padic_count_terms(&b(0), &b(4), &Prime::two()).unwrap();
+    let t = padic_count_terms(&rm(0, 4), &Prime::two()).unwrap();
     assert_eq!(
         (t.tamagawa, t.tamagawa_dual, t.scaling, t.scaling_dual),
         (4, 2, 0, 1)
     );
     assert_eq!(t.size().unwrap(), 4);
     assert_eq!(
-        predicted_local_image_size(&b(0), &b(4), &Place::Real).unwrap(),
+        predicted_local_image_size(&rm(0, 4), &Place::Real).unwrap(),
         1
     );
     assert_eq!(
-        selmer_difference_from_tamagawa(&b(0), &b(-1), &[Prime::two()]).unwrap(),
+        selmer_difference_from_tamagawa(&rm(0, -1), &[Prime::two()]).unwrap(),
         0
     );
     let d = descend_isogeny(
@@ -406,8 +414,7 @@ fn predicted_sizes_match_for_scaled_models_and_quadratic_twists() {
             }
             for p in [3i64, 5] {
                 let (sa, sb) = (a * p * p, bb * p.pow(4));
-                let t =
-                    padic_count_terms(&b(sa), &b(sb), &Prime::small(p as u64).unwrap()).unwrap();
+                let t = padic_count_terms(&rm(sa, sb), &Prime::small(p as u64).unwrap()).unwrap();
                 if t.scaling >= 1 {
                     scaled += 1;
                 }
