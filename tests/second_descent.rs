@@ -16,14 +16,19 @@ use num_bigint::BigInt;
 use num_rational::BigRational;
 use num_traits::{One, Zero};
 
+/// The checked model y² = x³ + ax² + bx of a test curve (non-singular by choice).
+fn rm(a: &num_bigint::BigInt, b: &num_bigint::BigInt) -> isodescent::curve::ReducedModel {
+    isodescent::curve::ReducedModel::new(a.clone(), b.clone()).expect("a non-singular test curve")
+}
+
 fn big(n: i64) -> BigInt {
     BigInt::from(n)
 }
 
 fn run(a: i64, b: i64, d: i64) -> isodescent::Result<SecondDescentOutcome> {
+    let model = isodescent::curve::ReducedModel::new(big(a), big(b))?;
     second_descent(
-        &big(a),
-        &big(b),
+        &model,
         &big(d),
         &SecondDescentOptions::default(),
         &mut Budget::unlimited(),
@@ -101,8 +106,7 @@ fn the_lind_reichardt_class_is_locally_soluble_everywhere_and_left_undecided_by_
 fn the_second_descent_proves_the_lind_reichardt_class_is_not_an_image() {
     let ev = lind_evidence();
     assert!(verify_obstruction(
-        &big(0),
-        &big(-68),
+        &rm(&big(0), &big(-68)),
         &big(2),
         &ev,
         &mut Budget::unlimited()
@@ -111,8 +115,7 @@ fn the_second_descent_proves_the_lind_reichardt_class_is_not_an_image() {
     match run(0, -68, -34).unwrap() {
         SecondDescentOutcome::NoPoint(ev2) => {
             assert!(verify_obstruction(
-                &big(0),
-                &big(-68),
+                &rm(&big(0), &big(-68)),
                 &big(-34),
                 &ev2,
                 &mut Budget::unlimited()
@@ -147,7 +150,12 @@ fn every_quartic_obstruction_of_the_lind_reichardt_class_rechecks_with_the_local
 fn tampered_evidence_does_not_verify() {
     let ev = lind_evidence();
     let ok = |e: &NoPointEvidence| {
-        verify_obstruction(&big(0), &big(-68), &big(2), e, &mut Budget::unlimited())
+        verify_obstruction(
+            &rm(&big(0), &big(-68)),
+            &big(2),
+            e,
+            &mut Budget::unlimited(),
+        )
     };
     assert!(ok(&ev));
     // Drop one twist's obstruction.
@@ -171,15 +179,13 @@ fn tampered_evidence_does_not_verify() {
     assert!(!ok(&e4));
     // The evidence belongs to d = 2, not to another class or curve.
     assert!(!verify_obstruction(
-        &big(0),
-        &big(-68),
+        &rm(&big(0), &big(-68)),
         &big(17),
         &ev,
         &mut Budget::unlimited()
     ));
     assert!(!verify_obstruction(
-        &big(1),
-        &big(-68),
+        &rm(&big(1), &big(-68)),
         &big(2),
         &ev,
         &mut Budget::unlimited()
@@ -200,8 +206,7 @@ fn check_large_point(b: i64, d: i64, n: i64, min_height: i64) {
     .unwrap();
     assert_eq!(out, SearchOutcome::NoneUpTo { height: 128 }, "n = {n}");
     match second_descent(
-        &a,
-        &b,
+        &rm(&a, &b),
         &d,
         &SecondDescentOptions::default(),
         &mut Budget::unlimited(),
@@ -317,7 +322,8 @@ fn a_class_not_dividing_b_is_an_error() {
 
 #[test]
 fn a_singular_curve_is_an_error() {
-    // y² = x³ + 2x² + x = x(x + 1)²: a² − 4b = 0.
+    // y² = x³ + 2x² + x = x(x + 1)²: a² − 4b = 0 (the checked model
+    // refuses it before the second descent runs).
     assert!(matches!(run(2, 1, -1), Err(Error::SingularCurve { .. })));
     assert!(matches!(run(2, 0, 1), Err(Error::SingularCurve { .. })));
 }
@@ -340,8 +346,7 @@ fn a_class_insoluble_over_the_reals_is_an_error() {
 #[test]
 fn a_tiny_budget_runs_out_with_a_typed_error() {
     let r = second_descent(
-        &big(0),
-        &big(-68),
+        &rm(&big(0), &big(-68)),
         &big(2),
         &SecondDescentOptions::default(),
         &mut Budget::with_units(5),
@@ -365,8 +370,7 @@ fn the_undecided_classes_of_17_are_proven_not_images_on_a_rank_zero_curve() {
     for d in [2i64, 17, 34] {
         match run(0, 4 * 17 * 17, d).unwrap() {
             SecondDescentOutcome::NoPoint(ev) => assert!(verify_obstruction(
-                &big(0),
-                &big(4 * 17 * 17),
+                &rm(&big(0), &big(4 * 17 * 17)),
                 &big(d),
                 &ev,
                 &mut Budget::unlimited()

@@ -26,6 +26,11 @@ use num_rational::BigRational;
 mod common;
 use common::{squarefree, tunnell_equality};
 
+/// The checked model y² = x³ + ax² + bx of a test curve (non-singular by choice).
+fn rm(a: &num_bigint::BigInt, b: &num_bigint::BigInt) -> isodescent::curve::ReducedModel {
+    isodescent::curve::ReducedModel::new(a.clone(), b.clone()).expect("a non-singular test curve")
+}
+
 /// x·y modulo squares, for square-free x and y.
 fn times(x: &BigInt, y: &BigInt) -> BigInt {
     let g = x.gcd(y);
@@ -77,8 +82,7 @@ fn examine_side(n: i64, side: &SelmerSide) -> SideResult {
             ClassStatus::PointImage { space, .. } => {
                 // Soundness: a class with a known point is never "no point".
                 let out = second_descent(
-                    &side.a,
-                    &side.b,
+                    &rm(&side.a, &side.b),
                     space,
                     &SecondDescentOptions::default(),
                     &mut Budget::unlimited(),
@@ -107,8 +111,7 @@ fn examine_side(n: i64, side: &SelmerSide) -> SideResult {
             }
         }
         let out = second_descent(
-            &side.a,
-            &side.b,
+            &rm(&side.a, &side.b),
             &d,
             &SecondDescentOptions::default(),
             &mut Budget::unlimited(),
@@ -129,7 +132,7 @@ fn examine_side(n: i64, side: &SelmerSide) -> SideResult {
             }
             SecondDescentOutcome::NoPoint(ev) => {
                 assert!(
-                    verify_obstruction(&side.a, &side.b, &d, &ev, &mut Budget::unlimited()),
+                    verify_obstruction(&rm(&side.a, &side.b), &d, &ev, &mut Budget::unlimited()),
                     "n = {n}, d = {d}: evidence does not verify"
                 );
                 excluded.push(mask);

@@ -287,13 +287,13 @@ fn search_coverings(
         if budget.remaining().is_some_and(|r| r < needed) {
             return Err(exhausted());
         }
-        second_descent_on_twists(a, b, d, &lift.conic_point, &twists, &sd, budget)?
+        second_descent_on_twists(&hunt.side.model, d, &lift.conic_point, &twists, &sd, budget)?
     } else {
         let needed = search_cost(h).saturating_mul(options.max_twists as u64);
         if budget.remaining().is_some_and(|r| r < needed) {
             return Err(exhausted());
         }
-        second_descent(a, b, d, &sd, budget)?
+        second_descent(&hunt.side.model, d, &sd, budget)?
     };
     match outcome {
         SecondDescentOutcome::Point {
@@ -392,12 +392,9 @@ impl<'a> IsogenyHunt<'a> {
                             Ok(p) => p,
                             Err(e) if is_budget(&e) => return Ok(false),
                             // A class the covering machinery cannot handle
-                            // (e.g. too many twists) is skipped.
-                            Err(Error::InvalidArgument { reason })
-                                if !reason.starts_with("internal check failed") =>
-                            {
-                                None
-                            }
+                            // (e.g. too many twists) is skipped; a failed
+                            // internal check (`Error::Internal`) is not.
+                            Err(Error::InvalidArgument { .. }) => None,
                             Err(e) => return Err(e),
                         };
                     }

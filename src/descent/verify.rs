@@ -239,8 +239,8 @@ fn verify_side(
             ClassStatus::ProvenNotImage {
                 space, evidence, ..
             } => {
-                let ok = space == &el.class
-                    && verify_obstruction(&side.a, &side.b, space, evidence, budget);
+                let ok =
+                    space == &el.class && verify_obstruction(&side.model, space, evidence, budget);
                 out.record(
                     format!(
                         "{tag}: class {}: every 4-covering of C_{} re-checks insoluble at its place",

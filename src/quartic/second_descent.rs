@@ -133,6 +133,7 @@ use super::solubility::{locally_soluble, LocalSolubility};
 use crate::arith::{factor, is_perfect_square};
 use crate::budget::Budget;
 use crate::conic::{parametrise, parametrise_diagonal, solve_diagonal_with_primes, TernaryForm};
+use crate::curve::ReducedModel;
 use crate::error::{Error, Result};
 use crate::local::{hilbert_symbol_int, Place, Prime};
 
@@ -556,10 +557,8 @@ fn parametrise_binary_conic(
             budget,
         )?;
         let Some([uu, vv, ss]) = sol.point().cloned() else {
-            return Err(Error::InvalidArgument {
-                reason: format!(
-                    "internal check failed: the conic {c}·s² = {f:?} was expected to be soluble"
-                ),
+            return Err(Error::Internal {
+                check: format!("the conic {c}·s² = {f:?} was expected to be soluble"),
             });
         };
         let x = &uu - b * &vv;
@@ -865,8 +864,8 @@ fn examine_twist(
             let (coeffs, par, k, frame) = quartic_for(ConicSide::G, lambda, d, s, g_ps, budget)?;
             let q = Quartic::new(coeffs.clone())?;
             if locally_soluble(&q, &v, budget)?.is_soluble() {
-                return Err(Error::InvalidArgument {
-                    reason: format!("internal check failed: the G-model of D_λ, λ = {lambda}, is soluble at {v} although the F-conic is not"),
+                return Err(Error::Internal {
+                    check: format!("the G-model of D_λ, λ = {lambda}, is soluble at {v} although the F-conic is not"),
                 });
             }
             Ok(TwistVerdict::Obstructed(TwistObstruction {
@@ -899,8 +898,8 @@ fn examine_twist(
             };
             if let Some(v) = g_bad {
                 if locally_soluble(&q, &v, budget)?.is_soluble() {
-                    return Err(Error::InvalidArgument {
-                        reason: format!("internal check failed: the F-model of D_λ, λ = {lambda}, is soluble at {v} although the G-conic is not"),
+                    return Err(Error::Internal {
+                    check: format!("the F-model of D_λ, λ = {lambda}, is soluble at {v} although the G-conic is not"),
                     });
                 }
                 return Ok(obstructed(v, coeffs, par, k, frame));
@@ -970,19 +969,21 @@ fn examine_twist(
 /// `(M, e) = (119, 143)`, i.e. `x = 53·119²/143² = 750533/20449`.
 /// ```
 /// use isodescent::quartic::{second_descent, SecondDescentOptions, SecondDescentOutcome};
+/// use isodescent::curve::ReducedModel;
 /// use isodescent::Budget;
 /// use num_bigint::BigInt;
-/// let out = second_descent(&BigInt::from(0), &BigInt::from(-68), &BigInt::from(2),
+/// let e = ReducedModel::new(BigInt::from(0), BigInt::from(-68)).unwrap();
+/// let out = second_descent(&e, &BigInt::from(2),
 ///     &SecondDescentOptions::default(), &mut Budget::unlimited()).unwrap();
 /// assert!(matches!(out, SecondDescentOutcome::NoPoint(_)));
 /// ```
 pub fn second_descent(
-    a: &BigInt,
-    b: &BigInt,
+    model: &ReducedModel,
     d: &BigInt,
     options: &SecondDescentOptions,
     budget: &mut Budget,
 ) -> Result<SecondDescentOutcome> {
+    let (a, b) = (model.a(), model.b());
     let s = setup(a, b, d, true, options.max_twists, None, budget)?;
     let f_ps = conic_primes(&s.f, budget)?;
     let g_ps = conic_primes(&s.g, budget)?;
@@ -1061,27 +1062,25 @@ pub fn second_descent(
 /// [`SecondDescentOutcome::Undecided`] (never `NoPoint`: not every twist is
 /// examined).
 ///
-/// **Errors.** As [`second_descent`]; [`Error::InvalidArgument`] with
-/// "internal check failed" if a named twist turns out locally insoluble
+/// **Errors.** As [`second_descent`]; [`Error::Internal`]
+/// if a named twist turns out locally insoluble
 /// (it contradicts the pairing).
 pub fn second_descent_on_twists(
-    a: &BigInt,
-    b: &BigInt,
+    model: &ReducedModel,
     d: &BigInt,
     conic_point: &[BigInt; 3],
     lambda_h: &[BigInt],
     options: &SecondDescentOptions,
     budget: &mut Budget,
 ) -> Result<SecondDescentOutcome> {
+    let (a, b) = (model.a(), model.b());
     let s = setup(a, b, d, false, 0, Some(conic_point), budget)?;
     let [x0, y0, z0] = &s.base;
     let phi: Form2 = [0, 1, 2]
         .map(|i| x0 * &s.forms[0][i] - d * y0 * &s.forms[1][i] - &s.delta * z0 * &s.forms[2][i]);
     if &phi[1] * &phi[1] != BigInt::from(4) * &phi[0] * &phi[2] {
-        return Err(Error::InvalidArgument {
-            reason: format!(
-                "internal check failed: the tangent form of C_{d} is not a constant times a square"
-            ),
+        return Err(Error::Internal {
+            check: format!("the tangent form of C_{d} is not a constant times a square"),
         });
     }
     let kappa = if phi[0].is_zero() {
@@ -1090,8 +1089,8 @@ pub fn second_descent_on_twists(
         phi[0].clone()
     };
     if kappa.is_zero() {
-        return Err(Error::InvalidArgument {
-            reason: format!("internal check failed: the tangent form of C_{d} vanishes"),
+        return Err(Error::Internal {
+            check: format!("the tangent form of C_{d} vanishes"),
         });
     }
     let f_ps = conic_primes(&s.f, budget)?;
@@ -1118,18 +1117,16 @@ pub fn second_descent_on_twists(
             }
         }
         if !is_perfect_square(&rest) {
-            return Err(Error::InvalidArgument {
-                reason: format!(
-                    "internal check failed: twist {raw} of C_{d} has a prime outside 2·d·Res(F, G)"
-                ),
+            return Err(Error::Internal {
+                check: format!("twist {raw} of C_{d} has a prime outside 2·d·Res(F, G)"),
             });
         }
         match examine_twist(&lambda, d, &s, &f_ps, &g_ps, budget)? {
             TwistVerdict::Obstructed(o) => {
                 obstructions.push(o);
-                return Err(Error::InvalidArgument {
-                    reason: format!(
-                        "internal check failed: twist {lambda} of C_{d} is locally insoluble, against the pairing"
+                return Err(Error::Internal {
+                    check: format!(
+                        "twist {lambda} of C_{d} is locally insoluble, against the pairing"
                     ),
                 });
             }
@@ -1218,10 +1215,8 @@ fn map_back(
         + a * &mi * &mi * &ei * &ei
         + (b / d) * num_traits::pow(ei.clone(), 4);
     if !ni.is_integer() || &ni.numer().clone() * ni.numer() != rhs {
-        return Err(Error::InvalidArgument {
-            reason: format!(
-                "internal check failed: the point from D_λ (λ = {lambda}) is not on C_d"
-            ),
+        return Err(Error::Internal {
+            check: format!("the point from D_λ (λ = {lambda}) is not on C_d"),
         });
     }
     let nint = ni.to_integer();
@@ -1231,8 +1226,8 @@ fn map_back(
     let y = &dq * &mq * q(nint.clone()) / (&eq * &eq * &eq);
     let (aq, bq) = (q(a.clone()), q(b.clone()));
     if &y * &y != &x * &x * &x + &aq * &x * &x + &bq * &x {
-        return Err(Error::InvalidArgument {
-            reason: format!("internal check failed: the point from D_λ (λ = {lambda}) is not on E"),
+        return Err(Error::Internal {
+            check: format!("the point from D_λ (λ = {lambda}) is not on E"),
         });
     }
     let _ = &s.delta;
@@ -1274,12 +1269,12 @@ fn map_back(
 /// Returns false (never an error) on anything that does not check out,
 /// including budget exhaustion inside `budget`.
 pub fn verify_obstruction(
-    a: &BigInt,
-    b: &BigInt,
+    model: &ReducedModel,
     d: &BigInt,
     evidence: &NoPointEvidence,
     budget: &mut Budget,
 ) -> bool {
+    let (a, b) = (model.a(), model.b());
     verify_inner(a, b, d, evidence, budget).unwrap_or(false)
 }
 
