@@ -137,7 +137,7 @@ impl DeepSearchOptions {
     /// always.
     pub fn guided(&self, predicted: f64, sha2_dim: usize) -> DeepSearchOptions {
         let mut o = self.clone();
-        if !self.bsd_guided || !(predicted.is_finite() && predicted > 0.0) {
+        if !(self.bsd_guided && predicted.is_finite() && predicted > 0.0) {
             return o;
         }
         let base = predicted / 2f64.powi(sha2_dim.min(60) as i32);

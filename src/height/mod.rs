@@ -37,9 +37,9 @@
 #![allow(clippy::needless_range_loop)]
 
 pub(crate) mod bounds;
-pub(crate) mod lower_bound;
 mod lll;
 mod local_terms;
+pub(crate) mod lower_bound;
 mod projective;
 pub(crate) mod saturate;
 
