@@ -131,7 +131,8 @@ impl DeepSearchOptions {
     /// for an integer `m` (odd when `sha2_dim = 0`: then `Ш[2] = 0`). The
     /// largest such value the largest covering height can reach (up to
     /// [`REACH_SLACK`]) is the target, and the search stops at the
-    /// covering height that target needs. Unchanged options when
+    /// covering height that target needs (at least `first_covering_height`).
+    /// Unchanged options when
     /// `bsd_guided` is off or the prediction is not a positive number.
     /// Only the amount of searching changes; what is found is proven as
     /// always.
@@ -152,9 +153,12 @@ impl DeepSearchOptions {
             }
             m += step;
         };
-        let h = height_for(target).clamp(1.0, max_h).ceil() as u64;
-        o.max_covering_height = h.max(1);
-        o.first_covering_height = o.first_covering_height.min(o.max_covering_height);
+        // Never below the first round: the calibration is for large
+        // curves, and a round at the first height is cheap (1/256 of the
+        // default last round).
+        let floor = self.first_covering_height as f64;
+        let h = height_for(target).max(floor).min(max_h).ceil() as u64;
+        o.max_covering_height = h.clamp(self.first_covering_height, self.max_covering_height);
         o
     }
 
