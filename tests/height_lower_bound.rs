@@ -110,3 +110,50 @@ fn saturation_uses_the_cremona_siksek_bound() {
         );
     }
 }
+
+/// The whole box |a|, |b| ≤ 30 and the congruent-number curves n ≤ 1000
+/// (ignored: about a minute): the bound exists on every curve and never
+/// exceeds the ĥ of a point the default descent (with the deep search)
+/// returns. Run with
+/// `cargo test --release --test height_lower_bound -- --ignored --nocapture`.
+#[test]
+#[ignore]
+fn the_bound_over_the_box_and_the_congruent_curves() {
+    let mut curves: Vec<[i64; 5]> = Vec::new();
+    for a in -30i64..=30 {
+        for b in -30i64..=30 {
+            if b != 0 && a * a != 4 * b {
+                curves.push([0, a, 0, b, 0]);
+            }
+        }
+    }
+    for n in 1i64..=1000 {
+        if (2..=n).take_while(|p| p * p <= n).all(|p| n % (p * p) != 0) {
+            curves.push([0, 0, 0, -n * n, 0]);
+        }
+    }
+    let mut opts = DescentOptions::default();
+    opts.saturation = None;
+    let (mut compared, mut none, mut worst) = (0, 0, f64::INFINITY);
+    for a in &curves {
+        let e = Curve::from_ints(*a).unwrap();
+        let ctx = context(*a);
+        let Some(cs) = cremona_siksek_bound(&ctx) else {
+            none += 1;
+            println!("{a:?}: no bound");
+            continue;
+        };
+        let report = descend(&e, &opts).unwrap();
+        for p in report.returned_points() {
+            let h = ctx.height(p).unwrap();
+            assert!(cs.bound <= h.upper(), "{a:?} {p:?}: {} > {h}", cs.bound);
+            worst = worst.min(h.value / cs.bound);
+            compared += 1;
+        }
+    }
+    println!(
+        "{} curves, {none} without a bound, {compared} points compared, least ĥ/bound {worst:.3}",
+        curves.len()
+    );
+    assert_eq!(none, 0);
+}

@@ -613,6 +613,29 @@ mod tests {
     }
 
     #[test]
+    fn the_bsd_prediction_sizes_the_rounds() {
+        // The calibration of the module: stop at e^{(ĥ − 3)/8}, within
+        // [first_covering_height, max_covering_height].
+        let o = DeepSearchOptions::default();
+        assert_eq!(o.guided(50.0, 0).rounds(), vec![256, 357]);
+        assert_eq!(o.guided(20.0, 0).rounds(), vec![256]);
+        assert_eq!(o.guided(80.0, 0).rounds(), vec![256, 1024, 4096]);
+        // Beyond reach: the next candidate is ĥ/9 (Ш odd), here 25.
+        assert_eq!(o.guided(225.0, 0).rounds(), vec![256]);
+        // With dim Ш[2] = 2 the prediction is divided by 4 first.
+        assert_eq!(
+            o.guided(200.0, 2).rounds(),
+            o.guided(50.0, 0).rounds()
+        );
+        let off = DeepSearchOptions {
+            bsd_guided: false,
+            ..DeepSearchOptions::default()
+        };
+        assert_eq!(off.guided(50.0, 0), off);
+        assert_eq!(o.guided(f64::NAN, 0), o);
+    }
+
+    #[test]
     fn bad_options_are_refused() {
         let o = DeepSearchOptions {
             growth: 1,
