@@ -130,7 +130,7 @@ impl DeepSearchOptions {
     /// descent allows). If `#Ш` is larger, the height is `predicted/m²`
     /// for an integer `m` (odd when `sha2_dim = 0`: then `Ш[2] = 0`). The
     /// largest such value the largest covering height can reach (up to
-    /// [`REACH_SLACK`]) is the target, and the search stops at the
+    /// a headroom of 14 in ĥ) is the target, and the search stops at the
     /// covering height that target needs (at least `first_covering_height`).
     /// Unchanged options when
     /// `bsd_guided` is off or the prediction is not a positive number.
@@ -623,10 +623,7 @@ mod tests {
         // Beyond reach: the next candidate is ĥ/9 (Ш odd), here 25.
         assert_eq!(o.guided(225.0, 0).rounds(), vec![256]);
         // With dim Ш[2] = 2 the prediction is divided by 4 first.
-        assert_eq!(
-            o.guided(200.0, 2).rounds(),
-            o.guided(50.0, 0).rounds()
-        );
+        assert_eq!(o.guided(200.0, 2).rounds(), o.guided(50.0, 0).rounds());
         let off = DeepSearchOptions {
             bsd_guided: false,
             ..DeepSearchOptions::default()

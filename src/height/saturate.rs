@@ -158,7 +158,7 @@ pub struct Saturation {
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
 #[non_exhaustive]
 pub enum LowerBoundSource {
-    /// The Cremona–Siksek argument ([`super::lower_bound`]).
+    /// The Cremona–Siksek argument ([`super::cremona_siksek_bound`]).
     CremonaSiksek,
     /// The exhaustive search of small points ([`super::bounds::height_lower_bound`]).
     Search,
