@@ -124,18 +124,18 @@ impl DeepSearchOptions {
         self
     }
 
-    /// The options for a rank-one hunt whose generator is predicted to
-    /// have canonical height at most `predicted` (the Birch–Swinnerton-Dyer
-    /// value of the regulator with `#Ш = 2^sha2_dim`, the least order the
-    /// descent allows). If `#Ш` is larger, the height is `predicted/m²`
-    /// for an integer `m` (odd when `sha2_dim = 0`: then `Ш[2] = 0`). The
-    /// largest such value the largest covering height can reach (up to
-    /// a headroom of 14 in ĥ) is the target, and the search stops at the
-    /// covering height that target needs (at least `first_covering_height`).
-    /// Unchanged options when
-    /// `bsd_guided` is off or the prediction is not a positive number.
-    /// Only the amount of searching changes; what is found is proven as
-    /// always.
+    /// The options for a rank-one hunt sized by the Birch–Swinnerton-Dyer
+    /// formula. `predicted` is the regulator that formula gives with
+    /// `#Ш = 1`; the descent proves `#Ш ≥ 2^sha2_dim`, and in general the
+    /// generator has height `predicted/(2^sha2_dim·m²)` for an integer `m`
+    /// (odd when `sha2_dim = 0`, for then `Ш[2] = 0`). The largest such
+    /// value within reach of `max_covering_height` (`ĥ ≤ 8·ln H + 17`, the
+    /// calibration in docs/deep_search.md) is the target, and the rounds
+    /// stop at `e^{(ĥ − 3)/8}`, a factor of about 6 above the calibrated
+    /// need, clamped to `[first_covering_height, max_covering_height]`.
+    /// Unchanged options when `bsd_guided` is off or the prediction is not
+    /// a positive number. Only the amount of searching changes; what is
+    /// found is proven as always.
     pub fn guided(&self, predicted: f64, sha2_dim: usize) -> DeepSearchOptions {
         let mut o = self.clone();
         if !(self.bsd_guided && predicted.is_finite() && predicted > 0.0) {
