@@ -79,6 +79,11 @@ pub struct DeepSearchOptions {
     /// Most twists examined by the untargeted 4-covering route (used when
     /// the lifting pairing is missing).
     pub max_twists: usize,
+    /// For rank one with the analytic side available: search only as high
+    /// as the height predicted by the Birch–Swinnerton-Dyer formula needs
+    /// (see [`DeepSearchOptions::guided`]). A heuristic for the budget,
+    /// never used in a proof. Default true.
+    pub bsd_guided: bool,
 }
 
 impl Default for DeepSearchOptions {
@@ -91,8 +96,25 @@ impl Default for DeepSearchOptions {
             max_classes_per_side: 8,
             twists_per_class: 2 * TWISTS_PER_CLASS,
             max_twists: 1 << 6,
+            bsd_guided: true,
         }
     }
+}
+
+/// Calibration of the reach of the 4-covering search: on the
+/// congruent-number curves n ≤ 1000 the points found by a search to
+/// covering height H have ĥ ≤ 8·ln H + c with c between 14 and 19
+/// (docs/deep_search.md, "Guided by the BSD prediction").
+const REACH_OFFSET: f64 = 17.0;
+
+/// Headroom of the search height over the calibrated need: a factor
+/// e^{SLACK/8} in H.
+const REACH_SLACK: f64 = 14.0;
+
+/// The covering height at which a point of height `h` is expected,
+/// with headroom: `exp((h − REACH_OFFSET + REACH_SLACK)/8)`.
+fn height_for(h: f64) -> f64 {
+    ((h - REACH_OFFSET + REACH_SLACK) / 8.0).exp()
 }
 
 impl DeepSearchOptions {
@@ -100,6 +122,44 @@ impl DeepSearchOptions {
     pub fn with_max_covering_height(mut self, h: u64) -> Self {
         self.max_covering_height = h;
         self
+    }
+
+    /// The options for a rank-one hunt sized by the Birch–Swinnerton-Dyer
+    /// formula. `predicted` is the regulator that formula gives with
+    /// `#Ш = 1`; the descent proves `#Ш ≥ 2^sha2_dim`, and in general the
+    /// generator has height `predicted/(2^sha2_dim·m²)` for an integer `m`
+    /// (odd when `sha2_dim = 0`, for then `Ш[2] = 0`). The largest such
+    /// value within reach of `max_covering_height` (`ĥ ≤ 8·ln H + 17`, the
+    /// calibration in docs/deep_search.md) is the target, and the rounds
+    /// stop at `e^{(ĥ − 3)/8}`, a factor of about 6 above the calibrated
+    /// need, clamped to `[first_covering_height, max_covering_height]`.
+    /// Unchanged options when `bsd_guided` is off or the prediction is not
+    /// a positive number. Only the amount of searching changes; what is
+    /// found is proven as always.
+    pub fn guided(&self, predicted: f64, sha2_dim: usize) -> DeepSearchOptions {
+        let mut o = self.clone();
+        if !(self.bsd_guided && predicted.is_finite() && predicted > 0.0) {
+            return o;
+        }
+        let base = predicted / 2f64.powi(sha2_dim.min(60) as i32);
+        let max_h = self.max_covering_height as f64;
+        let reach = 8.0 * max_h.ln() + REACH_OFFSET;
+        let step = if sha2_dim == 0 { 2 } else { 1 };
+        let mut m = 1u32;
+        let target = loop {
+            let c = base / f64::from(m * m);
+            if c <= reach || m > 1000 {
+                break c;
+            }
+            m += step;
+        };
+        // Never below the first round: the calibration is for large
+        // curves, and a round at the first height is cheap (1/256 of the
+        // default last round).
+        let floor = self.first_covering_height as f64;
+        let h = height_for(target).max(floor).min(max_h).ceil() as u64;
+        o.max_covering_height = h.clamp(self.first_covering_height, self.max_covering_height);
+        o
     }
 
     fn check(&self) -> Result<()> {
@@ -547,6 +607,26 @@ mod tests {
         assert_eq!(o.rounds(), vec![256, 1024, 4096]);
         let o = DeepSearchOptions::default().with_max_covering_height(300);
         assert_eq!(o.rounds(), vec![256, 300]);
+    }
+
+    #[test]
+    fn the_bsd_prediction_sizes_the_rounds() {
+        // The calibration of the module: stop at e^{(ĥ − 3)/8}, within
+        // [first_covering_height, max_covering_height].
+        let o = DeepSearchOptions::default();
+        assert_eq!(o.guided(50.0, 0).rounds(), vec![256, 357]);
+        assert_eq!(o.guided(20.0, 0).rounds(), vec![256]);
+        assert_eq!(o.guided(80.0, 0).rounds(), vec![256, 1024, 4096]);
+        // Beyond reach: the next candidate is ĥ/9 (Ш odd), here 25.
+        assert_eq!(o.guided(225.0, 0).rounds(), vec![256]);
+        // With dim Ш[2] = 2 the prediction is divided by 4 first.
+        assert_eq!(o.guided(200.0, 2).rounds(), o.guided(50.0, 0).rounds());
+        let off = DeepSearchOptions {
+            bsd_guided: false,
+            ..DeepSearchOptions::default()
+        };
+        assert_eq!(off.guided(50.0, 0), off);
+        assert_eq!(o.guided(f64::NAN, 0), o);
     }
 
     #[test]

@@ -121,7 +121,11 @@ pub(crate) fn complete(
         let rank = report.bounds.lower;
         if report.bounds.is_decided() && report.points.len() < rank {
             let mut budget = options.budget(options.global_units, deadline);
-            match super::deep_search::complete_report_points(report, rank, dopts, &mut budget) {
+            let guided = match predicted_generator_height(report) {
+                Some((h, sha2)) if rank == 1 => dopts.guided(h, sha2),
+                _ => dopts.clone(),
+            };
+            match super::deep_search::complete_report_points(report, rank, &guided, &mut budget) {
                 Ok(points) if points.len() > report.points.len() => {
                     // Independent points (certified by their classes):
                     // the descent's lower bound rises with them.
@@ -157,6 +161,34 @@ pub(crate) fn complete(
             .collect();
     }
     ledger(report);
+}
+
+/// For rank one: the canonical height of a generator predicted by the
+/// Birch–Swinnerton-Dyer formula with `#Ш = 1`,
+/// `L'(E,1)·|T|²/(Ω·∏c_p)`, and `dim Ш(E)[2]` as the descent proves it
+/// (so `#Ш ≥ 2^dim`). A conjecture, used only to size the deep search.
+fn predicted_generator_height(report: &DescentReport) -> Option<(f64, usize)> {
+    if report.bounds.lower != 1 || !report.bounds.is_decided() {
+        return None;
+    }
+    let a = report.global.analytic.as_ref()?;
+    let l = a.l_value(1)?.value();
+    let omega = a.real_period()?.value();
+    let cp: f64 = report
+        .local_data
+        .primes
+        .iter()
+        .map(|p| p.tamagawa as f64)
+        .product();
+    let t = f64::from(report.torsion.order());
+    let h = l * t * t / (omega * cp);
+    if !(h.is_finite() && h > 0.0) {
+        return None;
+    }
+    let (_, n2) = report.torsion.structure();
+    let t2 = if n2 <= 1 { 1 } else { 2 };
+    let sha2 = report.selmer2_rank.map_or(0, |s| s.saturating_sub(t2 + 1));
+    Some((h, sha2))
 }
 
 fn ledger(report: &mut DescentReport) {

@@ -323,6 +323,17 @@ impl Archimedean {
         })
     }
 
+    /// The integer shift `r` (every real point has `x > r`).
+    pub(crate) fn shift(&self) -> &BigInt {
+        &self.r
+    }
+
+    /// `b2, b4, b6, b8` of the shifted model, rounded to f64 (relative
+    /// error ≤ 2⁻⁵²; [`z_bounds`] allows for far more).
+    pub(crate) fn shifted_b(&self) -> [f64; 4] {
+        self.b.map(|v| v.hi + v.lo)
+    }
+
     /// Number of series terms for an absolute truncation error ≤ `tol`.
     fn terms_for(&self, tol: f64) -> usize {
         let lz = self.log_z_lo.abs().max(self.log_z_hi.abs()).max(1e-300);
@@ -504,7 +515,7 @@ impl Dd {
 /// `|z(t) − z(m)| ≤ |z'(m)|·h + M₂h²/2` with `M₂ = 2|b4| + 12|b6|e + 12|b8|e²
 /// ≥ max|z''|` (`e` the right end); an allowance of `1e−13·(1 + Σ|terms|)`
 /// covers the f64 evaluation.
-fn z_bounds(b: &[f64; 4], ranges: &[(f64, f64)]) -> Option<(f64, f64)> {
+pub(crate) fn z_bounds(b: &[f64; 4], ranges: &[(f64, f64)]) -> Option<(f64, f64)> {
     let [_, b4, b6, b8] = *b;
     let z = |t: f64| 1.0 - b4 * t * t - 2.0 * b6 * t * t * t - b8 * t * t * t * t;
     let dz = |t: f64| -2.0 * b4 * t - 6.0 * b6 * t * t - 4.0 * b8 * t * t * t;
@@ -559,6 +570,8 @@ pub(crate) struct BadPrime {
     pub n: u64,
     pub multiplicative: bool,
     pub kodaira: Kodaira,
+    /// The Tamagawa number `c_p` (0 when not known).
+    pub tamagawa: u64,
 }
 
 /// `v_p` of a rational with denominator prime to `p`; `None` for 0.
@@ -578,6 +591,7 @@ impl BadPrime {
                 ReductionKind::SplitMultiplicative | ReductionKind::NonSplitMultiplicative
             ),
             kodaira,
+            tamagawa: 0,
         }
     }
 

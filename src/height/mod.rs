@@ -39,6 +39,7 @@
 pub(crate) mod bounds;
 mod lll;
 mod local_terms;
+pub(crate) mod lower_bound;
 mod projective;
 pub(crate) mod saturate;
 
@@ -53,7 +54,8 @@ use crate::curve::{Curve, ModelChange, Point};
 use crate::error::{Error, Result};
 
 pub use bounds::{difference_bounds, height_lower_bound, DifferenceBounds, HeightLowerBound};
-pub use saturate::{saturate, Saturation, SaturationOptions};
+pub use lower_bound::{cremona_siksek_bound, CremonaSiksekBound};
+pub use saturate::{saturate, LowerBoundSource, Saturation, SaturationOptions};
 
 use local_terms::{Archimedean, BadPrime};
 use projective::{Jac, ShortModel};
@@ -164,12 +166,14 @@ impl HeightContext {
             if lr.reduction == ReductionKind::Good {
                 continue;
             }
-            bad.push(BadPrime::new(
+            let mut bp = BadPrime::new(
                 lr.prime.clone(),
                 lr.disc_valuation,
                 lr.reduction,
                 lr.kodaira,
-            ));
+            );
+            bp.tamagawa = lr.tamagawa;
+            bad.push(bp);
         }
         Ok(HeightContext {
             input: curve.clone(),
@@ -222,6 +226,10 @@ impl HeightContext {
 
     pub(crate) fn bad(&self) -> &[BadPrime] {
         &self.bad
+    }
+
+    pub(crate) fn b_invariants(&self) -> &[BigInt; 4] {
+        &self.b
     }
 
     pub(crate) fn a_invariants(&self) -> &[BigInt; 5] {

@@ -86,6 +86,11 @@ pub struct SaturationOptions {
     pub search_margin: f64,
     /// Largest prime `p` for which `p`-saturation is attempted. Default 200.
     pub max_prime: u64,
+    /// The search behind the lower bound runs only when the
+    /// Cremona–Siksek bound alone gives an index bound above this (or
+    /// above `max_prime`). Default 50: checking the primes up to 50 costs
+    /// less than a search of naive height 10.
+    pub search_skip_index: u64,
     /// Primes `p` tried when no index bound could be proven (default 7:
     /// such a run proves nothing about generation, so it only looks for
     /// the common small divisibilities).
@@ -106,6 +111,7 @@ impl Default for SaturationOptions {
             max_search_height: 10.0,
             search_margin: 0.5,
             max_prime: 200,
+            search_skip_index: 50,
             primes_without_bound: 7,
             max_aux_prime: 20_000,
             max_aux_primes_per_p: 400,
@@ -128,6 +134,8 @@ pub struct Saturation {
     pub regulator: Certified,
     /// Proven lower bound for `ĥ` on non-torsion points, if one was found.
     pub height_lower_bound: Option<f64>,
+    /// Where [`Self::height_lower_bound`] comes from.
+    pub height_lower_bound_source: Option<LowerBoundSource>,
     /// Proven bound on the index of the span of the input points in its
     /// saturation (`None` without a height lower bound).
     pub index_bound: Option<u64>,
@@ -144,6 +152,16 @@ pub struct Saturation {
     /// proven index bound: then `generators` span the saturation of the
     /// input (all of `E(Q)/E(Q)_tors` when the input has rank-many points).
     pub proven_saturated: bool,
+}
+
+/// The proof behind a lower bound for `ĥ`.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+#[non_exhaustive]
+pub enum LowerBoundSource {
+    /// The Cremona–Siksek argument ([`super::cremona_siksek_bound`]).
+    CremonaSiksek,
+    /// The exhaustive search of small points ([`super::bounds::height_lower_bound`]).
+    Search,
 }
 
 /// Hermite's constant to the power r, `γ_rʳ` (module docs).
@@ -223,6 +241,7 @@ pub fn saturate(
             heights: Vec::new(),
             regulator: Certified::exact(1.0),
             height_lower_bound: None,
+            height_lower_bound_source: None,
             index_bound: Some(1),
             index_found: 1,
             primes_checked: Vec::new(),
@@ -239,19 +258,34 @@ pub fn saturate(
     }
     pts = reduce(&ctx, &pts)?;
 
-    // Index bound.
-    let b = difference_bounds(&ctx).naive_minus_canonical;
-    let h = options.max_search_height.min(b + options.search_margin);
-    let lb = height_lower_bound(&ctx, h, budget)?;
-    let lambda = lb.as_ref().map(|l| l.bound);
-    let mut index_bound: Option<u64> = lambda.map(|l| {
+    // Index bound: the Cremona–Siksek bound (cheap); the search bound
+    // only when that leaves primes beyond `max_prime` to check (the
+    // search costs about 2e^{1.5H} candidates), and the better of the two.
+    let index_for = |l: f64| -> u64 {
         let v = (reg0.upper() * hermite_power(r) / l.powi(r as i32)).sqrt();
         if v >= 1e18 {
             u64::MAX
         } else {
             v.floor().max(1.0) as u64
         }
-    });
+    };
+    let mut best: Option<(f64, LowerBoundSource)> = super::lower_bound::cremona_siksek_bound(&ctx)
+        .map(|c| (c.bound, LowerBoundSource::CremonaSiksek))
+        .filter(|(l, _)| *l > 0.0);
+    let enough = |b: &Option<(f64, LowerBoundSource)>| {
+        b.is_some_and(|(l, _)| index_for(l) <= options.max_prime.min(options.search_skip_index))
+    };
+    if !enough(&best) {
+        let b = difference_bounds(&ctx).naive_minus_canonical;
+        let h = options.max_search_height.min(b + options.search_margin);
+        if let Some(lb) = height_lower_bound(&ctx, h, budget)? {
+            if best.map_or(true, |(l, _)| lb.bound > l) {
+                best = Some((lb.bound, LowerBoundSource::Search));
+            }
+        }
+    }
+    let lambda = best.map(|(l, _)| l);
+    let mut index_bound: Option<u64> = lambda.map(index_for);
     let proven_index_bound = index_bound;
 
     let tors = torsion_subgroup(ctx.minimal_model());
@@ -300,6 +334,7 @@ pub fn saturate(
         heights,
         regulator,
         height_lower_bound: lambda,
+        height_lower_bound_source: best.map(|(_, s)| s),
         index_bound: proven_index_bound,
         index_found,
         primes_checked,
