@@ -58,21 +58,21 @@ fn bench(c: &mut Criterion) {
 
     let mut g = c.benchmark_group("lifting_pairing");
     let lind = Curve::from_ints([0, 0, 0, -68, 0]).unwrap();
-    let side = descend_isogeny(
+    let descent = descend_isogeny(
         &lind,
         &Point::from_ints(0, 0),
         &DescentOptions::default().local_conditions_only(),
     )
-    .unwrap()
-    .domain;
+    .unwrap();
+    let side = descent.domain();
     g.bench_function("lind_reichardt", |bch| {
         bch.iter(|| {
             lift_pairing(
-                &side.a,
-                &side.b,
-                &side.qs2,
-                &side.group,
-                &side.known,
+                side.a(),
+                side.b(),
+                side.qs2(),
+                side.group(),
+                side.known(),
                 &mut Budget::unlimited(),
             )
             .unwrap()

@@ -65,15 +65,15 @@ fn main() -> ExitCode {
             Ok(r) => {
                 if std::env::var_os("STRESS_DETAIL").is_some() {
                     for d in r.isogenies() {
-                        for side in [&d.domain, &d.codomain] {
+                        for side in [&d.domain(), &d.codomain()] {
                             println!(
                                 "  side b={}: dim Sel {}, dim I {:?}, dim K {}, searches {}, 4-covering runs {:?}, pairing error {:?}",
-                                side.b,
+                                side.b(),
                                 side.dimension(),
                                 side.liftable_dim(),
                                 side.image_lower(),
-                                side.searches.len(),
-                                side.covering_runs
+                                side.searches().len(),
+                                side.covering_runs()
                                     .iter()
                                     .map(|r| format!("{}: {}", r.class, r.verdict.word()))
                                     .collect::<Vec<_>>(),

@@ -117,7 +117,7 @@ fn nothing_missing_small_budget_and_bad_targets() {
     assert!(got.is_empty());
     assert_eq!(b.spent(), 0);
     // A target above the proven upper bound is refused with a typed error.
-    let too_many = iso.rank_upper + 1;
+    let too_many = iso.rank_upper() + 1;
     assert!(matches!(
         search_missing_points(&e, iso, too_many, &DeepSearchOptions::default(), &mut b),
         Err(Error::InvalidArgument { .. })

@@ -26,11 +26,6 @@ use num_rational::BigRational;
 mod common;
 use common::{squarefree, tunnell_equality};
 
-/// The checked model y² = x³ + ax² + bx of a test curve (non-singular by choice).
-fn rm(a: &num_bigint::BigInt, b: &num_bigint::BigInt) -> isodescent::curve::ReducedModel {
-    isodescent::curve::ReducedModel::new(a.clone(), b.clone()).expect("a non-singular test curve")
-}
-
 /// x·y modulo squares, for square-free x and y.
 fn times(x: &BigInt, y: &BigInt) -> BigInt {
     let g = x.gcd(y);
@@ -76,13 +71,13 @@ struct SideResult {
 fn examine_side(n: i64, side: &SelmerSide) -> SideResult {
     let known = side.image_lower();
     let mut undecided = Vec::new();
-    for el in &side.elements {
+    for el in side.elements() {
         match &el.status {
             ClassStatus::Undecided => undecided.push(el.class.clone()),
             ClassStatus::PointImage { space, .. } => {
                 // Soundness: a class with a known point is never "no point".
                 let out = second_descent(
-                    &rm(&side.a, &side.b),
+                    side.model(),
                     space,
                     &SecondDescentOptions::default(),
                     &mut Budget::unlimited(),
@@ -111,7 +106,7 @@ fn examine_side(n: i64, side: &SelmerSide) -> SideResult {
             }
         }
         let out = second_descent(
-            &rm(&side.a, &side.b),
+            side.model(),
             &d,
             &SecondDescentOptions::default(),
             &mut Budget::unlimited(),
@@ -121,8 +116,8 @@ fn examine_side(n: i64, side: &SelmerSide) -> SideResult {
             SecondDescentOutcome::Point {
                 point_x, point_y, ..
             } => {
-                let b = BigRational::from_integer(side.b.clone());
-                let a = BigRational::from_integer(side.a.clone());
+                let b = BigRational::from_integer(side.b().clone());
+                let a = BigRational::from_integer(side.a().clone());
                 assert_eq!(
                     &point_y * &point_y,
                     &point_x * &point_x * &point_x + a * &point_x * &point_x + b * &point_x,
@@ -132,7 +127,7 @@ fn examine_side(n: i64, side: &SelmerSide) -> SideResult {
             }
             SecondDescentOutcome::NoPoint(ev) => {
                 assert!(
-                    verify_obstruction(&rm(&side.a, &side.b), &d, &ev, &mut Budget::unlimited()),
+                    verify_obstruction(side.model(), &d, &ev, &mut Budget::unlimited()),
                     "n = {n}, d = {d}: evidence does not verify"
                 );
                 excluded.push(mask);
@@ -186,17 +181,20 @@ fn congruent_number_curves_stay_consistent_with_tunnell_after_the_second_descent
     for n in (lo.max(1)..=hi).filter(|&n| squarefree(n)) {
         let c = Curve::from_ints([0, 0, 0, -n * n, 0]).unwrap();
         let desc = descend_isogeny(&c, &Point::from_ints(0, 0), &opts).unwrap();
-        let s1 = examine_side(n, &desc.domain);
-        let s2 = examine_side(n, &desc.codomain);
+        let s1 = examine_side(n, desc.domain());
+        let s2 = examine_side(n, desc.codomain());
         let lower = s1.lower + s2.lower - 2;
         let upper = s1.upper + s2.upper - 2;
         let first_upper = s1.first_upper + s2.first_upper - 2;
-        assert!(lower >= desc.rank_lower && upper <= first_upper, "n = {n}");
+        assert!(
+            lower >= desc.rank_lower() && upper <= first_upper,
+            "n = {n}"
+        );
         assert!(lower <= upper, "n = {n}: bounds {lower} > {upper}");
         pts += s1.points + s2.points;
         nos += s1.no_points + s2.no_points;
         total += 1;
-        decided_first += usize::from(desc.rank_lower == desc.rank_upper);
+        decided_first += usize::from(desc.rank_lower() == desc.rank_upper());
         decided_second += usize::from(lower == upper);
         let eq = tunnell_equality(n);
         // Tunnell (1983) with Coates–Wiles (Invent. Math. 39, 1977): if the

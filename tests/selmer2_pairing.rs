@@ -17,11 +17,6 @@ use num_bigint::BigInt;
 mod common;
 use common::squarefree;
 
-/// The checked model y² = x³ + ax² + bx of a test curve (non-singular by choice).
-fn rm(a: &num_bigint::BigInt, b: &num_bigint::BigInt) -> isodescent::curve::ReducedModel {
-    isodescent::curve::ReducedModel::new(a.clone(), b.clone()).expect("a non-singular test curve")
-}
-
 /// Every nonsingular y² = x³ + a x² + b x with |a|, |b| ≤ r (invented box).
 fn box_curves(r: i64) -> Vec<(i64, i64)> {
     let mut out = Vec::new();
@@ -41,7 +36,7 @@ fn isogeny_of(a: i64, b: i64, options: &DescentOptions) -> IsogenyDescent {
 }
 
 fn elements(side: &SelmerSide) -> Vec<BitVec> {
-    side.group.elements().expect("small Selmer group")
+    side.group().elements().expect("small Selmer group")
 }
 
 /// Local duality for the two Kummer images (Cassels, "Lectures on Elliptic
@@ -55,7 +50,12 @@ fn the_local_images_of_the_two_sides_annihilate_each_other_under_the_hilbert_sym
     let mut places_checked = 0;
     for (a, b) in box_curves(8) {
         let d = isogeny_of(a, b, &DescentOptions::default().local_conditions_only());
-        for (w, w2) in d.domain.local_images.iter().zip(&d.codomain.local_images) {
+        for (w, w2) in d
+            .domain()
+            .local_images()
+            .iter()
+            .zip(d.codomain().local_images())
+        {
             assert_eq!(w.place, w2.place);
             let reps = class_representatives(&w.place);
             let dim_v = reps.len().trailing_zeros() as usize;
@@ -89,21 +89,21 @@ fn every_class_lift_rechecks_from_its_evidence() {
     }
     for (a, b) in curves {
         let d = isogeny_of(a, b, &DescentOptions::default().local_conditions_only());
-        for side in [&d.domain, &d.codomain] {
-            let p = side.pairing.as_ref().expect("pairing computed");
+        for side in [d.domain(), d.codomain()] {
+            let p = side.pairing().expect("pairing computed");
             for lift in &p.lifts {
                 let mut budget = Budget::unlimited();
                 assert!(
-                    verify_class_lift(&side.a, &side.b, &side.qs2, lift, &mut budget),
+                    verify_class_lift(side.a(), side.b(), side.qs2(), lift, &mut budget),
                     "a={a} b={b} class {}",
                     lift.class
                 );
                 let mut bad = lift.clone();
                 bad.functional.set(0, !bad.functional.get(0));
                 assert!(!verify_class_lift(
-                    &side.a,
-                    &side.b,
-                    &side.qs2,
+                    side.a(),
+                    side.b(),
+                    side.qs2(),
                     &bad,
                     &mut budget
                 ));
@@ -127,22 +127,27 @@ fn the_pairing_is_additive_in_the_first_class() {
     }
     for (a, b) in curves {
         let d = isogeny_of(a, b, &DescentOptions::default().local_conditions_only());
-        for side in [&d.domain, &d.codomain] {
-            let p = side.pairing.as_ref().expect("pairing computed");
+        for side in [d.domain(), d.codomain()] {
+            let p = side.pairing().expect("pairing computed");
             let (n, k0) = (p.lifts.len(), p.known_count);
             for i in 0..n {
                 for j in (i + 1)..n {
                     let v = p.basis[k0 + i].add(&p.basis[k0 + j]);
-                    let dd = side.qs2.integer(&v);
-                    let lift =
-                        class_lift(&side.a, &side.b, &dd, &side.qs2, &mut Budget::unlimited())
-                            .unwrap();
+                    let dd = side.qs2().integer(&v);
+                    let lift = class_lift(
+                        side.a(),
+                        side.b(),
+                        &dd,
+                        side.qs2(),
+                        &mut Budget::unlimited(),
+                    )
+                    .unwrap();
                     for w in &p.basis {
                         assert_eq!(
                             lift.pair(w),
                             p.lifts[i].pair(w) ^ p.lifts[j].pair(w),
                             "a={a} b={b}: class {dd} against {}",
-                            side.qs2.integer(w)
+                            side.qs2().integer(w)
                         );
                     }
                     checked += 1;
@@ -169,24 +174,24 @@ fn the_liftable_subgroup_agrees_with_the_four_covering_route_class_by_class() {
     let (mut agree_out, mut agree_in, mut unfinished) = (0, 0, 0);
     for (a, b) in curves {
         let d = isogeny_of(a, b, &DescentOptions::default().local_conditions_only());
-        for side in [&d.domain, &d.codomain] {
+        for side in [d.domain(), d.codomain()] {
             let liftable = side.liftable().expect("pairing computed");
-            if side.group.dim() > 6 {
+            if side.group().dim() > 6 {
                 continue;
             }
             for v in elements(side) {
-                let dd = side.qs2.integer(&v);
+                let dd = side.qs2().integer(&v);
                 if v.is_zero() || (dd > BigInt::from(0) && is_square(&dd)) {
                     continue;
                 }
                 let mut budget = Budget::with_units(50_000_000);
-                match second_descent(&rm(&side.a, &side.b), &dd, &opts, &mut budget) {
+                match second_descent(side.model(), &dd, &opts, &mut budget) {
                     Ok(SecondDescentOutcome::NoPoint(_)) => {
                         assert!(
                             !liftable.contains(&v),
                             "a={} b={}: class {dd} has no soluble 4-covering but lies in I",
-                            side.a,
-                            side.b
+                            side.a(),
+                            side.b()
                         );
                         agree_out += 1;
                     }
@@ -194,8 +199,8 @@ fn the_liftable_subgroup_agrees_with_the_four_covering_route_class_by_class() {
                         assert!(
                             liftable.contains(&v),
                             "a={} b={}: class {dd} has a soluble 4-covering but lies outside I",
-                            side.a,
-                            side.b
+                            side.a(),
+                            side.b()
                         );
                         agree_in += 1;
                     }
@@ -378,9 +383,9 @@ fn isogenous_curves_have_two_selmer_ranks_of_the_same_parity_modulo_torsion() {
         assert!(s >= t && s2 >= t2, "a={a} b={b}: {s}, {s2}");
         assert_eq!((s - t) % 2, (s2 - t2) % 2, "a={a} b={b}: Sel² {s} and {s2}");
         assert!(
-            d.rank_upper <= s - t,
+            d.rank_upper() <= s - t,
             "a={a} b={b}: bound {} > {}",
-            d.rank_upper,
+            d.rank_upper(),
             s - t
         );
     }
@@ -447,7 +452,7 @@ fn k_prime_curves_answer_with_consistent_two_selmer_data() {
                 d.selmer2_rank().unwrap(),
                 d.selmer2_rank_codomain().unwrap(),
             );
-            let t2 = if d.model.b().is_positive_square() {
+            let t2 = if d.model().b().is_positive_square() {
                 2
             } else {
                 1
@@ -481,8 +486,8 @@ impl PositiveSquare for BigInt {
 fn the_pairing_matrix_is_symmetric() {
     for (a, b) in box_curves(10) {
         let d = isogeny_of(a, b, &DescentOptions::default().local_conditions_only());
-        for side in [&d.domain, &d.codomain] {
-            let p = side.pairing.as_ref().unwrap();
+        for side in [d.domain(), d.codomain()] {
+            let p = side.pairing().unwrap();
             assert!(p.is_symmetric(), "a={a} b={b}: {:?}", p.matrix);
         }
     }
@@ -532,12 +537,12 @@ fn the_soluble_twists_exist_exactly_for_the_kernel_of_the_pairing() {
     let (mut with, mut without) = (0, 0);
     for (a, b) in box_curves(9) {
         let d = isogeny_of(a, b, &DescentOptions::default().local_conditions_only());
-        for side in [&d.domain, &d.codomain] {
-            if side.group.dim() > 5 {
+        for side in [d.domain(), d.codomain()] {
+            if side.group().dim() > 5 {
                 continue;
             }
             let conditions: Vec<LocalCondition> = side
-                .local_images
+                .local_images()
                 .iter()
                 .map(|w| LocalCondition::from_masks(w.place.clone(), &w.members))
                 .collect();
@@ -546,10 +551,11 @@ fn the_soluble_twists_exist_exactly_for_the_kernel_of_the_pairing() {
                 if v.is_zero() {
                     continue;
                 }
-                let dd = side.qs2.integer(&v);
+                let dd = side.qs2().integer(&v);
                 let mut budget = Budget::unlimited();
-                let lift = class_lift(&side.a, &side.b, &dd, &side.qs2, &mut budget).unwrap();
-                let twists = soluble_twists(&lift, &side.qs2, &conditions, 4, &mut budget).unwrap();
+                let lift = class_lift(side.a(), side.b(), &dd, side.qs2(), &mut budget).unwrap();
+                let twists =
+                    soluble_twists(&lift, side.qs2(), &conditions, 4, &mut budget).unwrap();
                 assert_eq!(
                     !twists.is_empty(),
                     liftable.contains(&v),

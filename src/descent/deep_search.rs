@@ -296,7 +296,7 @@ fn search_space(
     h: u64,
     budget: &mut Budget,
 ) -> Result<Option<Point>> {
-    let (a, b) = (&hunt.side.a, &hunt.side.b);
+    let (a, b) = (&hunt.side.a(), &hunt.side.b());
     let q = Quartic::two_isogeny_space(d, a, b)?;
     let outcome = search(q.coeffs(), &SearchOptions::up_to(h), budget)?;
     let SearchOutcome::Found(qp) = outcome else {
@@ -327,7 +327,7 @@ fn search_coverings(
     options: &DeepSearchOptions,
     budget: &mut Budget,
 ) -> Result<Option<Point>> {
-    let (a, b) = (&hunt.side.a, &hunt.side.b);
+    let (a, b) = (&hunt.side.a(), &hunt.side.b());
     let mut sd = SecondDescentOptions::default().with_search_height(h);
     sd.search_units = sd.search_units.max(search_cost(h));
     sd.max_twists = options.max_twists;
@@ -376,7 +376,7 @@ fn accept(hunt: &SideHunt<'_>, d: &BigInt, p: Point) -> Result<Option<Catch>> {
             check: format!("deep search: point from C_{d} is not on the curve"),
         });
     }
-    let Some(val) = connecting_value(&hunt.side.b, &p) else {
+    let Some(val) = connecting_value(hunt.side.b(), &p) else {
         return Ok(None);
     };
     let class = hunt.side.qs2.vector_rational(&val)?;

@@ -61,27 +61,63 @@ use crate::local::Prime;
 /// The descent for one 2-isogeny φ: E → E' (E the reduced model of the
 /// input curve with the chosen 2-torsion point at (0, 0)).
 #[derive(Clone, Debug, PartialEq, Eq)]
+#[non_exhaustive]
 pub struct IsogenyDescent {
     /// The point of order 2 on the input model generating ker φ.
-    pub kernel_point: Point,
+    kernel_point: Point,
     /// The reduced model y² = x³ + a x² + b x and its change of model.
-    pub model: TwoTorsionModel,
+    model: TwoTorsionModel,
     /// The isogeny φ and its codomain.
-    pub isogeny: TwoIsogeny,
+    isogeny: TwoIsogeny,
     /// The Selmer group on E's side (classes d of C_d over E).
-    pub domain: SelmerSide,
+    domain: SelmerSide,
     /// The Selmer group on E''s side.
-    pub codomain: SelmerSide,
+    codomain: SelmerSide,
     /// Proven lower bound for the rank from this isogeny.
-    pub rank_lower: usize,
+    rank_lower: usize,
     /// Proven upper bound for the rank from this isogeny.
-    pub rank_upper: usize,
+    rank_upper: usize,
     /// Independent points of infinite order on the input model, as many
     /// as `rank_lower`.
     pub points: Vec<Point>,
 }
 
 impl IsogenyDescent {
+    /// The point of order 2 on the input model generating ker φ.
+    pub fn kernel_point(&self) -> &Point {
+        &self.kernel_point
+    }
+
+    /// The reduced model y² = x³ + a x² + b x and its change of model.
+    pub fn model(&self) -> &TwoTorsionModel {
+        &self.model
+    }
+
+    /// The isogeny φ and its codomain.
+    pub fn isogeny(&self) -> &TwoIsogeny {
+        &self.isogeny
+    }
+
+    /// The Selmer group on E's side (classes d of C_d over E).
+    pub fn domain(&self) -> &SelmerSide {
+        &self.domain
+    }
+
+    /// The Selmer group on E''s side.
+    pub fn codomain(&self) -> &SelmerSide {
+        &self.codomain
+    }
+
+    /// Proven lower bound for the rank from this isogeny.
+    pub fn rank_lower(&self) -> usize {
+        self.rank_lower
+    }
+
+    /// Proven upper bound for the rank from this isogeny.
+    pub fn rank_upper(&self) -> usize {
+        self.rank_upper
+    }
+
     /// Bounds (lower, upper) for the F2-dimension of the part of the
     /// Tate–Shafarevich group seen on E's side, Sel / α(E(Q)), and on E''s
     /// side.

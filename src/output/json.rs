@@ -245,7 +245,7 @@ fn space_point(p: &crate::quartic::search::QuarticPoint) -> SpacePointView {
 fn side_view(s: &SelmerSide, domain: bool, detail: Detail) -> SideView {
     let (sel, sha) = side_names(domain);
     let elements = s
-        .elements
+        .elements()
         .iter()
         .map(|e| {
             let (point, space, sp) = match &e.status {
@@ -273,7 +273,7 @@ fn side_view(s: &SelmerSide, domain: bool, detail: Detail) -> SideView {
         .collect();
     let evidence = (detail == Detail::Full).then(|| EvidenceView {
         local_images: s
-            .local_images
+            .local_images()
             .iter()
             .map(|w| {
                 let reps = class_representatives(&w.place);
@@ -288,7 +288,7 @@ fn side_view(s: &SelmerSide, domain: bool, detail: Detail) -> SideView {
             })
             .collect(),
         spaces: s
-            .searches
+            .searches()
             .iter()
             .map(|r| {
                 let (outcome, height, point) = match &r.outcome {
@@ -309,7 +309,7 @@ fn side_view(s: &SelmerSide, domain: bool, detail: Detail) -> SideView {
             })
             .collect(),
         four_coverings: s
-            .elements
+            .elements()
             .iter()
             .filter_map(|e| match &e.status {
                 ClassStatus::ProvenNotImage {
@@ -332,14 +332,14 @@ fn side_view(s: &SelmerSide, domain: bool, detail: Detail) -> SideView {
     });
     let dim = s.dimension();
     SideView {
-        equation: reduced_equation_text(&s.a, &s.b),
+        equation: reduced_equation_text(s.a(), s.b()),
         selmer_group: sel,
         sha_group: sha,
         dimension: dim,
         image_lower: s.image_lower(),
-        image_upper: s.image_upper,
-        torsion_image_dimension: s.torsion_dim,
-        sha_dimension_lower: dim - s.image_upper.min(dim),
+        image_upper: s.image_upper(),
+        torsion_image_dimension: s.torsion_dim(),
+        sha_dimension_lower: dim - s.image_upper().min(dim),
         sha_dimension_upper: dim - s.image_lower(),
         elements,
         evidence_summary: evidence_summary(s),
@@ -437,13 +437,13 @@ fn report_view<'a>(input: &'a str, r: &DescentReport, detail: Detail) -> LineVie
             .iter()
             .enumerate()
             .map(|(i, d)| IsogenyView {
-                kernel_point: point_view(&d.kernel_point),
+                kernel_point: point_view(d.kernel_point()),
                 decides_rank: r.deciding_isogeny() == Some(i),
-                rank_lower: d.rank_lower,
-                rank_upper: d.rank_upper,
-                reduced_model: reduced_equation_text(&d.domain.a, &d.domain.b),
-                curve: side_view(&d.domain, true, detail),
-                isogenous: side_view(&d.codomain, false, detail),
+                rank_lower: d.rank_lower(),
+                rank_upper: d.rank_upper(),
+                reduced_model: reduced_equation_text(d.domain().a(), d.domain().b()),
+                curve: side_view(d.domain(), true, detail),
+                isogenous: side_view(d.codomain(), false, detail),
             })
             .collect(),
         error: None,

@@ -151,11 +151,11 @@ fn cassels_holds(a: i64, bb: i64) -> Result<(), String> {
         &DescentOptions::default().local_conditions_only(),
     )
     .unwrap();
-    let diff = d.codomain.dimension() as i64 - d.domain.dimension() as i64;
-    let from_images = selmer_difference_from_images(&d.codomain.local_images);
+    let diff = d.codomain().dimension() as i64 - d.domain().dimension() as i64;
+    let from_images = selmer_difference_from_images(d.codomain().local_images());
     let primes: Vec<Prime> = d
-        .codomain
-        .local_images
+        .codomain()
+        .local_images()
         .iter()
         .filter_map(|w| match &w.place {
             Place::Finite(p) => Some(p.clone()),
@@ -163,14 +163,14 @@ fn cassels_holds(a: i64, bb: i64) -> Result<(), String> {
         })
         .collect();
     let from_tamagawa =
-        selmer_difference_from_tamagawa(&rmb(&d.domain.a, &d.domain.b), &primes).unwrap();
+        selmer_difference_from_tamagawa(&rmb(d.domain().a(), d.domain().b()), &primes).unwrap();
     if from_images == diff && from_tamagawa == diff {
         Ok(())
     } else {
         Err(format!(
             "a={a} b={bb}: dims {} (domain) {} (codomain), images {from_images}, tamagawa {from_tamagawa}",
-            d.domain.dimension(),
-            d.codomain.dimension()
+            d.domain().dimension(),
+            d.codomain().dimension()
         ))
     }
 }
