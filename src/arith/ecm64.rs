@@ -325,16 +325,6 @@ pub(crate) fn ecm_u64(n: u64, b1: u64, curves: u32, sigma0: u64) -> Option<u64> 
     None
 }
 
-/// Multiplications per curve of [`ecm_u64`] with bound `b1` (the cost
-/// model in its documentation), for charging work.
-#[allow(dead_code)]
-pub(crate) fn curve_cost(b1: u64) -> u64 {
-    let p = plan(b1, b1 * B2_FACTOR_64);
-    let bits: u64 = p.stage1.iter().map(|w| 64 - w.leading_zeros() as u64).sum();
-    let pairs: u64 = p.pairs.iter().map(|r| r.len() as u64).sum();
-    11 * bits + 6 * p.pairs.len() as u64 + 2 * pairs + 7 * p.d / 2 + 60
-}
-
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -375,100 +365,5 @@ mod tests {
         assert_eq!(inverse_mod(3, n), Err(3));
         let x = inverse_mod(10, n).unwrap();
         assert_eq!((x as u128 * 10 % n as u128) as u64, 1);
-    }
-}
-
-#[cfg(test)]
-mod tuning {
-    use super::*;
-    use crate::arith::prime::is_prime_u64;
-
-    fn semiprimes(bits: u32, count: usize, seed: u64) -> Vec<(u64, u64, u64)> {
-        let mut s = seed;
-        let mut next = move || {
-            s ^= s << 13;
-            s ^= s >> 7;
-            s ^= s << 17;
-            s
-        };
-        let mut out = Vec::new();
-        let hb = bits / 2;
-        while out.len() < count {
-            let mut p = (next() >> (64 - hb)) | (1 << (hb - 1)) | 1;
-            while !is_prime_u64(p) {
-                p += 2;
-            }
-            let qb = bits - hb;
-            let mut q = (next() >> (64 - qb)) | (1 << (qb - 1)) | 1;
-            while !is_prime_u64(q) {
-                q += 2;
-            }
-            if p != q && (p as u128 * q as u128) < (1u128 << 64) {
-                out.push((p * q, p, q));
-            }
-        }
-        out
-    }
-
-    pub(crate) fn cpu_ns() -> u64 {
-        let s = std::fs::read_to_string("/proc/thread-self/schedstat").unwrap();
-        s.split_whitespace().next().unwrap().parse().unwrap()
-    }
-
-    fn time<F: FnMut(u64)>(ns: &[(u64, u64, u64)], mut f: F) -> f64 {
-        let mut best = u128::MAX;
-        for _ in 0..5 {
-            let t = std::time::Instant::now();
-            for &(n, _, _) in ns {
-                f(n);
-            }
-            best = best.min(t.elapsed().as_nanos());
-        }
-        best as f64 / 1e3 / ns.len() as f64
-    }
-
-    fn b1_for(bits: u32) -> u64 {
-        match bits {
-            0..=44 => 47,
-            45..=50 => 70,
-            51..=54 => 85,
-            55..=58 => 105,
-            59..=61 => 125,
-            _ => 165,
-        }
-    }
-
-    #[test]
-    #[ignore]
-    fn tune_b1() {
-        for bits in [40u32, 44, 48, 52, 56, 60, 64] {
-            let ns = semiprimes(bits, 400, 0x1234_5678 + bits as u64);
-            let mut line = format!("{bits:3} bits:");
-            for b1 in [27u64, 35, 47, 60, 70, 85, 105, 125, 165, 205] {
-                let mut fails = 0;
-                let mut best = u64::MAX;
-                for _ in 0..5 {
-                    let t = std::time::Instant::now();
-                    for &(n, _, _) in &ns {
-                        if ecm_u64(n, b1, 2000, 11).is_none() {
-                            fails += 1;
-                        }
-                    }
-                    best = best.min(t.elapsed().as_nanos() as u64);
-                }
-                let us = best as f64 / 1e3 / ns.len() as f64;
-                line += &format!("  B1={b1}: {us:.1}us({fails})");
-            }
-            let t = std::time::Instant::now();
-            for &(n, _, _) in &ns {
-                let mut c = 1;
-                while crate::arith::small::rho_brent_u64(n, c, 1 << 26).is_none() {
-                    c += 1;
-                }
-            }
-            let us = t.elapsed().as_secs_f64() * 1e6 / ns.len() as f64;
-            line += &format!("  rho: {us:.1}us");
-            println!("{line}");
-        }
     }
 }

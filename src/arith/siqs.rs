@@ -367,7 +367,11 @@ pub(crate) fn siqs(n: &BigUint, budget: &mut impl Meter) -> Split {
         let (Some(a128), Some(b128)) = (a.to_u128(), b.to_u128()) else {
             return Split::Failed;
         };
-        let Some(bl128) = bl.iter().map(|x| x.to_u128()).collect::<Option<Vec<u128>>>() else {
+        let Some(bl128) = bl
+            .iter()
+            .map(|x| x.to_u128())
+            .collect::<Option<Vec<u128>>>()
+        else {
             return Split::Failed;
         };
         for (i, f) in fb.iter().enumerate().skip(1) {

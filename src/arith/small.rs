@@ -1,5 +1,7 @@
 //! Word-size factoring: 64-bit Montgomery arithmetic, Miller–Rabin,
-//! Hart's one-line method and Pollard–Brent rho with batched gcds.
+//! Hart's one-line method, the order of methods for word-size composites
+//! (ECM itself is in `super::ecm64`) and Pollard–Brent rho with batched
+//! gcds.
 //!
 //! Everything here works on `u64` without allocation; it backs
 //! [`super::factor::factor_u64`] and the word-size cofactors of
