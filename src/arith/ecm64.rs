@@ -35,8 +35,11 @@ struct Plan {
     pairs: Vec<Vec<u8>>,
 }
 
+/// Plans by `(B1, B2)`, shared by all threads.
+type Plans = Mutex<HashMap<(u64, u64), Arc<Plan>>>;
+
 fn plan(b1: u64, b2: u64) -> Arc<Plan> {
-    static PLANS: OnceLock<Mutex<HashMap<(u64, u64), Arc<Plan>>>> = OnceLock::new();
+    static PLANS: OnceLock<Plans> = OnceLock::new();
     let map = PLANS.get_or_init(|| Mutex::new(HashMap::new()));
     if let Ok(m) = map.lock() {
         if let Some(p) = m.get(&(b1, b2)) {
