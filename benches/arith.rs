@@ -12,8 +12,15 @@
 //! numbers are in scripts/factor_side_by_side.py.
 //!
 //! Run: `cargo bench --bench arith`.
+//!
+//! CPU-time mode (less sensitive than wall-clock medians to other jobs on a shared
+//! machine): `FACTOR_CPU_SECS=1.5 cargo bench --bench arith` calls `factor` on each number
+//! of group `factor_sizes` repeatedly for that many seconds of process CPU time (user +
+//! system, from /proc/self/stat, Linux only) and prints the mean CPU time per call instead
+//! of running criterion; `scripts/factor_side_by_side.py --cpu` reads that output and
+//! times python-flint the same way.
 
-use criterion::{black_box, criterion_group, criterion_main, Criterion};
+use criterion::{black_box, criterion_group, Criterion};
 use isodescent::arith::factor;
 use isodescent::Budget;
 use num_bigint::BigInt;
@@ -93,5 +100,49 @@ fn bench_factor(c: &mut Criterion) {
     group.finish();
 }
 
+/// Process CPU time (user + system) in seconds, from /proc/self/stat.
+fn cpu_seconds() -> Option<f64> {
+    let stat = std::fs::read_to_string("/proc/self/stat").ok()?;
+    let rest = &stat[stat.rfind(')')? + 2..];
+    let fields: Vec<&str> = rest.split_whitespace().collect();
+    let ticks: f64 = fields.get(11)?.parse::<f64>().ok()? + fields.get(12)?.parse::<f64>().ok()?;
+    Some(ticks / 100.0) // USER_HZ = 100 on Linux
+}
+
+/// The CPU-time mode described in the module documentation.
+fn cpu_table(secs: f64) {
+    println!("digits n cpu_ms_per_call calls");
+    for (digits, s) in SIZES {
+        let n: BigInt = s.parse().expect("decimal literal");
+        let (Some(start), mut calls) = (cpu_seconds(), 0u64) else {
+            println!("no /proc/self/stat: CPU-time mode needs Linux");
+            return;
+        };
+        let mut now = start;
+        while now - start < secs {
+            for _ in 0..4 {
+                black_box(factor(black_box(&n), &mut Budget::unlimited()).expect("factors"));
+            }
+            calls += 4;
+            now = cpu_seconds().unwrap_or(f64::INFINITY);
+        }
+        println!(
+            "{digits:02} {s} {:.4} {calls}",
+            (now - start) * 1e3 / calls as f64
+        );
+    }
+}
+
 criterion_group!(benches, bench_sizes, bench_factor);
-criterion_main!(benches);
+
+fn main() {
+    if let Some(secs) = std::env::var("FACTOR_CPU_SECS")
+        .ok()
+        .and_then(|s| s.parse::<f64>().ok())
+    {
+        cpu_table(secs);
+        return;
+    }
+    benches();
+    Criterion::default().configure_from_args().final_summary();
+}

@@ -8,6 +8,13 @@ Usage:
   cargo bench --bench arith               # writes target/criterion/factor/*/new/estimates.json
   python3 scripts/factor_side_by_side.py [CRITERION_DIR]
 
+CPU-time mode (the figures of docs/performance.md):
+  FACTOR_CPU_SECS=1.5 cargo bench --bench arith > ours.txt    # mean CPU time per call
+  python3 scripts/factor_side_by_side.py --cpu ours.txt [before.txt]
+times flint.fmpz(n).factor() on each number of group factor_sizes for 1.5 s of process CPU
+time (time.process_time), right after reading the files, and prints both means and the
+ratios ours/flint (and before/flint when a second file is given).
+
 CRITERION_DIR defaults to $CARGO_TARGET_DIR/criterion or target/criterion. Numbers whose
 criterion result is missing are timed for flint only. Flint is timed both by wall clock (the
 ratio column, comparable with criterion's wall-clock medians) and by process CPU time (less
@@ -70,7 +77,48 @@ def ours(crit_dir, digits, i, group="factor"):
     return None
 
 
+def flint_cpu(n, secs=1.5):
+    """Mean process CPU time of fmpz(n).factor() over at least `secs` seconds."""
+    x = flint.fmpz(n)
+    start, calls = time.process_time(), 0
+    while time.process_time() - start < secs:
+        for _ in range(4):
+            x.factor()
+        calls += 4
+    return (time.process_time() - start) / calls
+
+
+def read_cpu(path):
+    """{digits: ms per call} from the output of FACTOR_CPU_SECS=... cargo bench --bench arith."""
+    out = {}
+    with open(path) as fh:
+        for line in fh:
+            parts = line.split()
+            if len(parts) == 4 and parts[0].isdigit():
+                out[int(parts[0])] = float(parts[2])
+    return out
+
+
+def cpu_main(paths):
+    runs = [read_cpu(p) for p in paths]
+    print("python-flint", flint.__version__, "(CPU time per call, ms)")
+    head = "%-6s %-46s %10s" % ("digits", "n", "flint")
+    for p in paths:
+        head += " %12s %8s" % (os.path.basename(p)[:12], "/flint")
+    print(head)
+    for digits, n in SIZES.items():
+        f = flint_cpu(n) * 1e3
+        line = "%-6d %-46d %10.4f" % (digits, n, f)
+        for run in runs:
+            o = run.get(digits)
+            line += " %12s %8s" % (("%.4f" % o, "%.2f" % (o / f)) if o else ("-", "-"))
+        print(line)
+
+
 def main():
+    if len(sys.argv) > 1 and sys.argv[1] == "--cpu":
+        cpu_main(sys.argv[2:])
+        return
     default = os.path.join(os.environ.get("CARGO_TARGET_DIR", "target"), "criterion")
     crit_dir = sys.argv[1] if len(sys.argv) > 1 else default
     print("python-flint", flint.__version__)

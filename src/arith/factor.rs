@@ -249,7 +249,7 @@ fn trial_divide(m: &mut BigUint, found: &mut BTreeMap<BigInt, u32>) {
 ///    (a gcd with their product, see `trial_divide`);
 /// 2. a cofactor below `2^64` is factored completely and exactly by
 ///    [`factor_u64`]'s method (its work has a fixed bound of about
-///    `2^17` word multiplications);
+///    `2·10^6` word multiplications);
 /// 3. every larger cofactor is tested with Baillie–PSW [`is_prime`] and
 ///    for being a perfect power `r^k` (only `k ≤ bits/16` can occur after
 ///    step 1); cofactors above `CHEAP_TEST_BITS` are charged for these
@@ -524,26 +524,60 @@ fn split_in<R: Ring>(ring: &R, budget: &mut impl Meter) -> Split {
 }
 
 /// Odd primes below this bound are tried by trial division in
-/// [`factor_u64`] (everything larger is caught by Hart's method or rho).
+/// [`factor_u64`] (everything larger is caught by Hart's method, ECM or rho).
 const U64_TRIAL_BOUND: u64 = 256;
+
+/// The odd primes below [`U64_TRIAL_BOUND`] with their inverses modulo
+/// `2^64` and `⌊(2^64 − 1)/p⌋`: an exact-division test by one
+/// multiplication (T. Granlund and P. L. Montgomery, "Division by
+/// invariant integers using multiplication", PLDI 1994, §9).
+const SMALL_ODD: [(u64, u64, u64); 53] = {
+    let mut t = [(0u64, 0u64, 0u64); 53];
+    let mut p = 3u64;
+    let mut i = 0;
+    while p < U64_TRIAL_BOUND {
+        let mut d = 3;
+        let mut prime = true;
+        while d * d <= p {
+            if p % d == 0 {
+                prime = false;
+            }
+            d += 2;
+        }
+        if prime {
+            let mut inv = p;
+            let mut k = 0;
+            while k < 5 {
+                inv = inv.wrapping_mul(2u64.wrapping_sub(p.wrapping_mul(inv)));
+                k += 1;
+            }
+            t[i] = (p, inv, u64::MAX / p);
+            i += 1;
+        }
+        p += 2;
+    }
+    t
+};
 
 /// The factorisation of `n < 2^64` as `(p, e)` pairs, `p` ascending;
 /// empty for `n ≤ 1` (so `factor_u64(0)` is empty too: callers that need
 /// an error for 0 use [`factor`]).
 ///
-/// Method: trial division by the primes below 256, then recursive
-/// splitting of the cofactor: exact Miller–Rabin [`is_prime_u64`], a
-/// perfect-square test, Hart's one-line method for cofactors below
-/// `2^42` (W. B. Hart, J. Aust. Math. Soc. 92 (2012)), 48 ECM curves with
-/// B1 = 60, 150, 400 \[Lenstra87\] for larger ones, and Pollard–Brent
-/// rho \[Brent80\] in 64-bit Montgomery arithmetic with batched gcds.
-/// Exact: no probable primes.
+/// Method: trial division by the primes below 256 (one multiplication
+/// each, see `SMALL_ODD`), then recursive splitting of the cofactor:
+/// exact Miller–Rabin [`is_prime_u64`], a perfect-square test, Hart's
+/// one-line method for cofactors below `2^34` (W. B. Hart, J. Aust.
+/// Math. Soc. 92 (2012)), ECM curves \[Lenstra87\] in 64-bit Montgomery
+/// arithmetic with `B1` from 47 to 165 by the size of the cofactor, and
+/// Pollard–Brent rho \[Brent80\] in 64-bit Montgomery arithmetic with
+/// batched gcds as the last resort. Exact: no probable primes.
 ///
-/// Cost: the ECM curves cost at most about 10^6 one-word multiplications;
-/// rho then needs about `√p` iterations for the least prime `p` of a
-/// composite cofactor, so at most about `2^17` Montgomery multiplications;
-/// products of two 8- to 10-digit primes take 0.1–0.2 ms
-/// (docs/performance.md).
+/// Cost: the ECM curves cost at most about `2·10^6` one-word
+/// multiplications and find the factor after a few to a few tens of
+/// curves (mean 20–100 µs for products of two primes of 26 to 32 bits,
+/// docs/performance.md); rho then needs about `√p` iterations for the
+/// least prime `p` of a composite cofactor, so at most about `2^17`
+/// Montgomery multiplications.
 ///
 /// Example: `factor_u64(600851475143) = [(71,1), (839,1), (1471,1), (6857,1)]`.
 pub fn factor_u64(mut n: u64) -> Vec<(u64, u32)> {
@@ -556,17 +590,19 @@ pub fn factor_u64(mut n: u64) -> Vec<(u64, u32)> {
         out.push((2, tz));
         n >>= tz;
     }
-    let mut p = 3u64;
-    while p < U64_TRIAL_BOUND && p * p <= n {
-        if n % p == 0 {
+    for &(p, inv, lim) in SMALL_ODD.iter() {
+        if p * p > n {
+            break;
+        }
+        // p | n iff n·p⁻¹ mod 2^64 ≤ ⌊(2^64 − 1)/p⌋ (n·p⁻¹ is then n/p).
+        if n.wrapping_mul(inv) <= lim {
             let mut e = 0;
-            while n % p == 0 {
-                n /= p;
+            while n.wrapping_mul(inv) <= lim {
+                n = n.wrapping_mul(inv);
                 e += 1;
             }
             out.push((p, e));
         }
-        p += 2;
     }
     if n > 1 && n < U64_TRIAL_BOUND * U64_TRIAL_BOUND {
         out.push((n, 1));

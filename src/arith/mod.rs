@@ -10,6 +10,7 @@
 //! * `squarefree`: square-free parts and kernels.
 
 pub(crate) mod ecm;
+pub(crate) mod ecm64;
 pub(crate) mod factor;
 pub(crate) mod meter;
 pub(crate) mod mont;

@@ -1,5 +1,7 @@
 //! Word-size factoring: 64-bit Montgomery arithmetic, Miller–Rabin,
-//! Hart's one-line method and Pollard–Brent rho with batched gcds.
+//! Hart's one-line method, the order of methods for word-size composites
+//! (ECM itself is in `super::ecm64`) and Pollard–Brent rho with batched
+//! gcds.
 //!
 //! Everything here works on `u64` without allocation; it backs
 //! [`super::factor::factor_u64`] and the word-size cofactors of
@@ -75,6 +77,18 @@ impl M64 {
         } else {
             a.wrapping_sub(b).wrapping_add(self.n)
         }
+    }
+
+    /// The residue of 1 in Montgomery form.
+    #[inline]
+    pub(crate) fn one(&self) -> u64 {
+        self.redc(self.r2 as u128)
+    }
+
+    /// The plain residue in `[0, n)` of an element in Montgomery form.
+    #[inline]
+    pub(crate) fn plain(&self, a: u64) -> u64 {
+        self.redc(a as u128)
     }
 
     /// `x` (any `u64`) in Montgomery form.
@@ -274,19 +288,26 @@ pub(crate) fn rho_brent_u64(n: u64, c: u64, max_iter: u64) -> Option<u64> {
     (g != n).then_some(g)
 }
 
+/// Below this bound a composite is split by Hart's method first.
+const HART_BELOW: u64 = 1 << 34;
+
 /// A proper divisor of the odd composite `n < 2^64` that is not a
-/// perfect square: Hart's method for `n < 2^42` (256 iterations), a few
-/// small ECM curves for larger `n`, then Pollard–Brent rho with
-/// `c = 1, 2, …`.
+/// perfect square and has no prime factor below 7: Hart's method for
+/// `n < 2^34` (256 iterations), then ECM curves in 64-bit arithmetic
+/// with `B1` chosen by the size of `n` ([`ecm_bound_u64`]), then
+/// Pollard–Brent rho with `c = 1, 2, …`.
 ///
-/// Cost: rho needs about `√p` iterations for the least prime `p | n`, so
-/// at most about `2^17` Montgomery multiplications.
+/// Cost: the ECM curves cost at most about `2·10^6` Montgomery
+/// multiplications (`ECM_U64_CURVES` curves); rho then needs about `√p`
+/// iterations for the least prime `p | n`, so at most about `2^17`
+/// Montgomery multiplications.
 pub(crate) fn split_u64(n: u64) -> u64 {
-    if n < 1 << 42 {
+    if n < HART_BELOW {
         if let Some(d) = hart_olf(n, 256) {
             return d;
         }
-    } else if let Some(d) = ecm_u64(n) {
+    }
+    if let Some(d) = super::ecm64::ecm_u64(n, ecm_bound_u64(n), ECM_U64_CURVES, 11) {
         return d;
     }
     for c in 1..u64::MAX {
@@ -297,19 +318,21 @@ pub(crate) fn split_u64(n: u64) -> u64 {
     n
 }
 
-/// ECM tiers `(B1, curves)` for word-size composites of at least 42
-/// bits, whose least prime factor has 6–10 digits here.
-const ECM_U64_TIERS: [(u64, u32); 3] = [(60, 8), (150, 16), (400, 24)];
+/// Curves tried by [`split_u64`] before rho.
+const ECM_U64_CURVES: u32 = 600;
 
-/// A few ECM curves \[Lenstra87\] with small bounds on the odd composite
-/// `n < 2^64` (the generic one-word Montgomery ring of
-/// `super::mont`); `None` when they all fail.
-fn ecm_u64(n: u64) -> Option<u64> {
-    let ring = super::mont::Mont::<1>::from_limbs([n]);
-    let mut budget = crate::budget::Budget::unlimited();
-    match super::ecm::ecm_tiers(&ring, &ECM_U64_TIERS, &mut budget) {
-        super::rho::Split::Found(d) => num_traits::ToPrimitive::to_u64(&d),
-        _ => None,
+/// Stage-1 bound of the word-size ECM curves by the size of `n`: the
+/// least prime factor of a composite `n < 2^64` without prime factors
+/// below 7 has at most `bits/2` bits. Measured on random products of
+/// two primes of `bits/2` bits (docs/performance.md).
+pub(crate) fn ecm_bound_u64(n: u64) -> u64 {
+    match 64 - n.leading_zeros() {
+        0..=44 => 47,
+        45..=50 => 70,
+        51..=54 => 85,
+        55..=58 => 105,
+        59..=61 => 125,
+        _ => 165,
     }
 }
 
