@@ -6,6 +6,7 @@
 //! `src/selmer/checks/image_size_families.rs` (ignored by default).
 
 use crate::arith::factor_u64;
+use super::{b, primes_of_2n, rm, rmb};
 use crate::curve::ReducedModel;
 use crate::curve::{Curve, Point, TwoIsogeny};
 use crate::descent::{descend_isogeny, DescentOptions};
@@ -17,34 +18,9 @@ use crate::selmer::image_size::{
     selmer_difference_from_tamagawa, DUAL_LEADING_COEFFICIENT, ISOGENY_LEADING_COEFFICIENT,
 };
 use crate::{Budget, Error};
-use num_bigint::BigInt;
 use num_rational::BigRational;
 
-fn b(n: i64) -> BigInt {
-    BigInt::from(n)
-}
 
-/// The checked model y² = x³ + ax² + bx (the tests pass non-singular pairs).
-fn rm(a: i64, bb: i64) -> ReducedModel {
-    rmb(&b(a), &b(bb))
-}
-
-fn rmb(a: &BigInt, bb: &BigInt) -> ReducedModel {
-    ReducedModel::new(a.clone(), bb.clone()).unwrap()
-}
-
-/// The primes of 2·|n| for n ≠ 0 (factor_u64 is exact).
-fn primes_of_2n(ns: &[i64]) -> Vec<Prime> {
-    let mut v = vec![Prime::two()];
-    for &n in ns {
-        for (p, _) in factor_u64(n.unsigned_abs()) {
-            v.push(Prime::small(p).unwrap());
-        }
-    }
-    v.sort();
-    v.dedup();
-    v
-}
 
 /// Checks E = (a, b) and E′ = (−2a, a² − 4b) at R and every prime of
 /// 2b(a² − 4b); returns the number of (curve, place) pairs compared.

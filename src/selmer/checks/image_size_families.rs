@@ -8,7 +8,7 @@
 use std::time::Instant;
 
 use crate::arith::factor_u64;
-use crate::curve::ReducedModel;
+use super::{primes_of_2n, rm, rmb};
 use crate::curve::{Curve, Point};
 use crate::descent::{descend_isogeny, DescentOptions};
 use crate::local::{Place, Prime};
@@ -17,32 +17,8 @@ use crate::selmer::image_size::{
     selmer_difference_from_tamagawa,
 };
 use crate::Budget;
-use num_bigint::BigInt;
 
-fn b(n: i64) -> BigInt {
-    BigInt::from(n)
-}
 
-/// The checked model y² = x³ + ax² + bx (the tests pass non-singular pairs).
-fn rm(a: i64, bb: i64) -> ReducedModel {
-    rmb(&b(a), &b(bb))
-}
-
-fn rmb(a: &BigInt, bb: &BigInt) -> ReducedModel {
-    ReducedModel::new(a.clone(), bb.clone()).unwrap()
-}
-
-fn primes_of_2n(ns: &[i64]) -> Vec<Prime> {
-    let mut v = vec![Prime::two()];
-    for &n in ns {
-        for (p, _) in factor_u64(n.unsigned_abs()) {
-            v.push(Prime::small(p).unwrap());
-        }
-    }
-    v.sort();
-    v.dedup();
-    v
-}
 
 #[derive(Default, Debug)]
 struct Tally {
