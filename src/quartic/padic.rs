@@ -549,7 +549,9 @@ pub(crate) fn two_adic_witness(
     let two = BigInt::from(2);
     let mut queue = initial_classes(q, &two);
     while let Some(class) = queue.pop_front() {
-        two_adic_big_step(class, &mut queue, budget)?;
+        if let Some(w) = two_adic_big_step(class, &mut queue, budget)? {
+            return Ok(Some(w));
+        }
     }
     Ok(None)
 }

@@ -145,7 +145,44 @@ fn initial(q: &Quartic, p: u64) -> VecDeque<AnyClass> {
 /// Content valuation `m` and `φ = (F/p^m) mod p` of a non-zero word
 /// polynomial (the twin of `padic::content_residues_word`).
 fn content_residues(poly: &[i128], f: WordField) -> (u64, WordPoly) {
-    let q = i128::from(f.p());
+    let p = f.p();
+    // Magnitudes below 2^64 (the common case) use u64 division; the
+    // residue of a negative c is p − (|c| mod p) (or 0).
+    let mut mags = [0u64; 5];
+    let small = poly.iter().zip(mags.iter_mut()).all(|(&c, m)| match u64::try_from(c.unsigned_abs()) {
+        Ok(v) => {
+            *m = v;
+            true
+        }
+        Err(_) => false,
+    });
+    if small {
+        let val = |mut x: u64| {
+            let mut v = 0u64;
+            while x % p == 0 {
+                x /= p;
+                v += 1;
+            }
+            v
+        };
+        let m = mags[..poly.len()]
+            .iter()
+            .filter(|&&c| c != 0)
+            .map(|&c| val(c))
+            .min()
+            .unwrap_or(0);
+        let mut res = [0u64; 5];
+        for ((slot, &c), &mag) in res.iter_mut().zip(poly).zip(&mags) {
+            let mut x = mag;
+            for _ in 0..m {
+                x /= p;
+            }
+            let r = x % p;
+            *slot = if c < 0 && r != 0 { p - r } else { r };
+        }
+        return (m, WordPoly::from_slice(&res[..poly.len().min(5)]));
+    }
+    let q = i128::from(p);
     let val = |mut x: i128| {
         let mut v = 0u64;
         while x % q == 0 {
@@ -350,4 +387,99 @@ pub(crate) fn two_adic_witness_words(
         }
     }
     Ok(None)
+}
+
+#[cfg(test)]
+#[allow(clippy::unwrap_used)]
+mod tests {
+    use super::super::padic::{odd_prime_witness, two_adic_witness};
+    use super::*;
+    use crate::arith::word::set_word_paths;
+    use proptest::prelude::*;
+
+    /// Odd primes small (enumeration) and large (Weil's bound and root
+    /// finding), one near 2^61 (primality: sympy 1.14 `isprime`).
+    const PRIMES: [u64; 8] = [3, 5, 7, 17, 61, 101, 1_000_003, (1 << 61) - 1];
+
+    /// Runs both routines with a budget of `units` and returns
+    /// (answer, units spent) for the word path and the BigInt path.
+    type Answer = (Result<Option<(BigInt, BigInt)>>, u64);
+    fn both(q: &Quartic, p: Option<u64>, units: u64) -> (Answer, Answer) {
+        let run = |q: &Quartic| {
+            let mut budget = Budget::with_units(units);
+            let w = match p {
+                Some(p) => odd_prime_witness(q, &Prime::new(BigInt::from(p)).unwrap(), &mut budget),
+                None => two_adic_witness(q, &mut budget),
+            };
+            (w, budget.spent())
+        };
+        let word = run(q);
+        let old = set_word_paths(false);
+        let big = run(q);
+        set_word_paths(old);
+        (word, big)
+    }
+
+    /// Coefficients `c·p^e`, `c` of `bits` bits: small ones give deep
+    /// class trees, large ones cross the i128 boundary inside the tree.
+    fn quartic(raw: [i64; 5], bits: u32, p: u64, exps: [u32; 5]) -> Option<Quartic> {
+        let pb = BigInt::from(p);
+        let coeffs: [BigInt; 5] = std::array::from_fn(|i| {
+            let c = raw[i] >> (64 - bits.clamp(1, 63));
+            BigInt::from(c) * num_traits::pow(pb.clone(), exps[i] as usize)
+        });
+        Quartic::new(coeffs).ok()
+    }
+
+    proptest! {
+        #![proptest_config(ProptestConfig { cases: 2000, ..ProptestConfig::default() })]
+
+        /// Same witness (or none) and the same budget spent, at odd p.
+        #[test]
+        fn odd_prime_word_and_bigint_trees_agree(
+            raw in any::<[i64; 5]>(),
+            bits in 1u32..64,
+            pi in 0usize..PRIMES.len(),
+            exps in proptest::array::uniform5(0u32..6),
+            units in prop_oneof![Just(u64::MAX), 1u64..40],
+        ) {
+            let p = PRIMES[pi];
+            let Some(q) = quartic(raw, bits, p, exps) else { return Ok(()) };
+            let (w, b) = both(&q, Some(p), units);
+            prop_assert_eq!(w.0.is_ok(), b.0.is_ok());
+            prop_assert_eq!(w.0.ok(), b.0.ok());
+            prop_assert_eq!(w.1, b.1);
+        }
+
+        /// Same witness (or none) and the same budget spent, at 2.
+        #[test]
+        fn two_adic_word_and_bigint_trees_agree(
+            raw in any::<[i64; 5]>(),
+            bits in 1u32..64,
+            exps in proptest::array::uniform5(0u32..12),
+            units in prop_oneof![Just(u64::MAX), 1u64..40],
+        ) {
+            let Some(q) = quartic(raw, bits, 2, exps) else { return Ok(()) };
+            let (w, b) = both(&q, None, units);
+            prop_assert_eq!(w.0.is_ok(), b.0.is_ok());
+            prop_assert_eq!(w.0.ok(), b.0.ok());
+            prop_assert_eq!(w.1, b.1);
+        }
+    }
+
+    /// A tree that starts in words and crosses into BigInt: the infinity
+    /// chart of a quartic with 62-bit coefficients at p = 2^61 − 1
+    /// overflows i128 at once; both routes agree (and the word classes of
+    /// the affine chart were used: its coefficients fit).
+    #[test]
+    fn crossing_the_boundary_inside_one_tree() {
+        let p = (1u64 << 61) - 1;
+        let c = (1i64 << 62) - 57;
+        let q = Quartic::new([c, 0, 0, 0, c - 2].map(BigInt::from)).unwrap();
+        assert!(matches!(initial(&q, p).back(), Some(AnyClass::Big(_))));
+        assert!(matches!(initial(&q, p).front(), Some(AnyClass::Word(_))));
+        let (w, b) = both(&q, Some(p), u64::MAX);
+        assert_eq!(w.0.unwrap(), b.0.unwrap());
+        assert_eq!(w.1, b.1);
+    }
 }
