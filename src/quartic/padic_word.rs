@@ -467,6 +467,33 @@ mod tests {
         }
     }
 
+    proptest! {
+        #![proptest_config(ProptestConfig { cases: 1500, ..ProptestConfig::default() })]
+
+        /// The whole local answer (witness, y and its precision) is the
+        /// same with the word paths on and off, at 2 and at odd p.
+        #[test]
+        fn local_solubility_same_with_and_without_words(
+            raw in any::<[i64; 5]>(),
+            bits in 1u32..64,
+            pi in 0usize..=PRIMES.len(),
+            exps in proptest::array::uniform5(0u32..6),
+        ) {
+            let p = if pi == PRIMES.len() { 2 } else { PRIMES[pi] };
+            let Some(q) = quartic(raw, bits, p, exps) else { return Ok(()) };
+            let place = crate::local::Place::Finite(Prime::new(BigInt::from(p)).unwrap());
+            let run = || super::super::solubility::locally_soluble(&q, &place, &mut Budget::unlimited()).unwrap();
+            let on = run();
+            let old = set_word_paths(false);
+            let off = run();
+            set_word_paths(old);
+            if let Some(pt) = on.point() {
+                prop_assert!(pt.verify(&q));
+            }
+            prop_assert_eq!(on, off);
+        }
+    }
+
     /// A tree that starts in words and crosses into BigInt: the infinity
     /// chart of a quartic with 62-bit coefficients at p = 2^61 − 1
     /// overflows i128 at once; both routes agree (and the word classes of
