@@ -54,13 +54,16 @@ fn bench_tate(c: &mut Criterion) {
             .into_iter()
             .map(|n| [0, 0, 0, -n * n, 0].map(|x| BigRational::from_integer(BigInt::from(x))))
             .collect();
-        group.bench_function(format!("global minimal model, 200 congruent n from {from}"), |b| {
-            b.iter(|| {
-                for a in &curves {
-                    black_box(global_local_data(a, &mut Budget::unlimited()).unwrap());
-                }
-            })
-        });
+        group.bench_function(
+            format!("global minimal model, 200 congruent n from {from}"),
+            |b| {
+                b.iter(|| {
+                    for a in &curves {
+                        black_box(global_local_data(a, &mut Budget::unlimited()).unwrap());
+                    }
+                })
+            },
+        );
     }
     group.finish();
 }
@@ -81,7 +84,10 @@ fn bench_images(c: &mut Criterion) {
                 }
             }
         }
-        let label = format!("local images, 100 congruent n from {from}, {} images", jobs.len());
+        let label = format!(
+            "local images, 100 congruent n from {from}, {} images",
+            jobs.len()
+        );
         group.bench_function(label, |bch| {
             bch.iter(|| {
                 for (a, b, v) in &jobs {

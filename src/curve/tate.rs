@@ -41,10 +41,10 @@ use num_integer::Integer;
 use num_rational::BigRational;
 use num_traits::{One, Signed, ToPrimitive, Zero};
 
-use crate::arith::factor;
-use crate::budget::Budget;
 use super::tate_word::{self, Stop, WordReduction};
+use crate::arith::factor;
 use crate::arith::word::word_paths_enabled;
+use crate::budget::Budget;
 use crate::curve::{Curve, ModelChange};
 use crate::error::{Error, Result};
 use crate::local::{legendre, valuation, Prime};
@@ -1099,7 +1099,8 @@ pub fn global_local_data(
                     let to_here = next.total;
                     (*a, *disc, *total) = (next.a, next.disc, to_here);
                     if w.reduction != ReductionKind::Good {
-                        conductor *= num_traits::pow(p.get().clone(), w.conductor_exponent as usize);
+                        conductor *=
+                            num_traits::pow(p.get().clone(), w.conductor_exponent as usize);
                         let lr = from_word(&p, w);
                         let to_here = to_here.map(|x| BigRational::from_integer(BigInt::from(x)));
                         records.push(relative_to_input(lr, coeffs, to_here));
@@ -1165,7 +1166,9 @@ pub fn global_local_data(
 }
 
 /// The running state of [`global_local_data`]: the current integral model
-/// and the change from the input to it, in words or in big numbers.
+/// and the change from the input to it, in words or in big numbers (one
+/// value per call, so the size difference of the variants is immaterial).
+#[allow(clippy::large_enum_variant)]
 enum Global {
     Word {
         a: [i128; 5],

@@ -139,7 +139,8 @@ fn quadratic_roots(qa: i128, qb: i128, qc: i128, p: u64) -> W<Quad> {
     let ac4 = mul_mod(mul_mod(4 % p, ra, p), rc, p);
     let d = (bb + p - ac4) % p;
     if d == 0 {
-        let den = inv_mod(mul_mod(2, ra, p), p).ok_or(Stop::Internal("inverting a multiple of p"))?;
+        let den =
+            inv_mod(mul_mod(2, ra, p), p).ok_or(Stop::Internal("inverting a multiple of p"))?;
         Ok(Quad::Double(mul_mod((p - rb) % p, den, p)))
     } else {
         Ok(Quad::Distinct {
@@ -218,7 +219,9 @@ fn cubic_by_search(a: u64, b: u64, c: u64, q: u64) -> W<Cubic> {
         return Ok(Cubic::Double(*r));
     }
     if total == 2 {
-        return Err(Stop::Internal("cubic with exactly two simple rational roots"));
+        return Err(Stop::Internal(
+            "cubic with exactly two simple rational roots",
+        ));
     }
     Ok(Cubic::Distinct {
         count: u64::from(total),
@@ -441,7 +444,7 @@ fn tate_pass(run: &mut Run, n: u64) -> W<Pass> {
             2 * i128::from(residue(run.part(4, 2)?, 2)),
         )
     } else {
-        let half = (p + 1) / 2;
+        let half = p.div_ceil(2);
         let s = mul_mod((p - residue(run.a[0], p)) % p, half, p);
         let t = mul_mod((p - residue(run.part(2, 1)?, p)) % p, half, p);
         (i128::from(s), ok(Ck::new(q) * i128::from(t))?)
@@ -489,7 +492,12 @@ fn subprocedure_in_star(run: &mut Run, disc_val: u64) -> W<(u64, u64)> {
         let qr = if k % 2 == 1 {
             quadratic_roots(1, run.part(2, m)?, -run.part(4, 2 * m)?, p)?
         } else {
-            quadratic_roots(run.part(1, 1)?, run.part(3, m + 1)?, run.part(4, 2 * m + 1)?, p)?
+            quadratic_roots(
+                run.part(1, 1)?,
+                run.part(3, m + 1)?,
+                run.part(4, 2 * m + 1)?,
+                p,
+            )?
         };
         match qr {
             Quad::Distinct { rational } => return Ok((k, if rational { 4 } else { 2 })),
@@ -510,7 +518,7 @@ fn subprocedure_in_star(run: &mut Run, disc_val: u64) -> W<(u64, u64)> {
 /// Tate's algorithm at `p < WORD_PRIME_LIMIT` on the integral model `a`
 /// with discriminant `disc ≠ 0` (the twin of `tate::local_reduction`).
 pub(crate) fn local_reduction_word(a: &[i128; 5], disc: i128, p: u64) -> W<WordReduction> {
-    if p >= WORD_PRIME_LIMIT || p < 2 || disc == 0 {
+    if !(2..WORD_PRIME_LIMIT).contains(&p) || disc == 0 {
         return Err(Stop::Overflow);
     }
     let mut run = Run {
@@ -678,6 +686,9 @@ mod tests {
             assert_eq!((w.kodaira, w.tamagawa), (b.kodaira, b.tamagawa));
         }
         let m: i128 = 1 << 21;
-        assert_eq!(discriminant_word(&[0, 0, 0, -m * m, 0]), Err(Stop::Overflow));
+        assert_eq!(
+            discriminant_word(&[0, 0, 0, -m * m, 0]),
+            Err(Stop::Overflow)
+        );
     }
 }

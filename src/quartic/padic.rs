@@ -85,9 +85,9 @@
 
 use super::form::Quartic;
 use super::fp;
+use crate::arith::word::word_paths_enabled;
 use crate::budget::Budget;
 use crate::error::Result;
-use crate::arith::word::word_paths_enabled;
 use crate::local::{legendre, split_valuation, Prime};
 use num_bigint::BigInt;
 use num_integer::Integer;
@@ -392,7 +392,9 @@ pub(crate) fn class_verdict_word(
 ) -> Result<Verdict> {
     Ok(match class_verdict_u64(phi, even, f, budget)? {
         WordVerdict::Witness(r) => Verdict::Witness(BigInt::from(r)),
-        WordVerdict::Refine(roots) => Verdict::Refine(roots.into_iter().map(BigInt::from).collect()),
+        WordVerdict::Refine(roots) => {
+            Verdict::Refine(roots.into_iter().map(BigInt::from).collect())
+        }
     })
 }
 

@@ -51,7 +51,10 @@ impl WordClass {
             chart: self.chart,
             base: BigInt::from(self.base),
             scale: BigInt::from(self.scale),
-            poly: self.poly[..self.len].iter().map(|&c| BigInt::from(c)).collect(),
+            poly: self.poly[..self.len]
+                .iter()
+                .map(|&c| BigInt::from(c))
+                .collect(),
         }
     }
 
@@ -149,13 +152,16 @@ fn content_residues(poly: &[i128], f: WordField) -> (u64, WordPoly) {
     // Magnitudes below 2^64 (the common case) use u64 division; the
     // residue of a negative c is p − (|c| mod p) (or 0).
     let mut mags = [0u64; 5];
-    let small = poly.iter().zip(mags.iter_mut()).all(|(&c, m)| match u64::try_from(c.unsigned_abs()) {
-        Ok(v) => {
-            *m = v;
-            true
-        }
-        Err(_) => false,
-    });
+    let small =
+        poly.iter()
+            .zip(mags.iter_mut())
+            .all(|(&c, m)| match u64::try_from(c.unsigned_abs()) {
+                Ok(v) => {
+                    *m = v;
+                    true
+                }
+                Err(_) => false,
+            });
     if small {
         let val = |mut x: u64| {
             let mut v = 0u64;
