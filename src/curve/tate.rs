@@ -19,6 +19,14 @@
 //! number one, so a global minimal model exists [Sil86, VIII.8.3]), the
 //! conductor `N = ∏ p^f_p` and the local data at the bad primes.
 //!
+//! # Machine words
+//! When the integral model and every intermediate fit in `i128` and
+//! `p < 2^62`, the same steps run in checked machine words (module
+//! `tate_word`, with the same choices of `r, s, t`); on overflow the
+//! computation continues in `BigInt` from the same state. Both routes give
+//! the same records; the tests in `tate_word` compare them. Changes of
+//! model are composed with [`ModelChange::then`].
+//!
 //! # Conventions
 //! A change of model `[u, r, s, t]` is the substitution
 //! `x = u²x' + r`, `y = u³y' + s·u²x' + t`; its effect on the coefficients
