@@ -20,6 +20,7 @@ pub(crate) mod roots;
 pub(crate) mod siqs;
 pub(crate) mod small;
 pub(crate) mod squarefree;
+pub(crate) mod word;
 
 pub use factor::{factor, factor_u64, Factorization};
 pub use prime::{is_prime, is_prime_u64, jacobi};

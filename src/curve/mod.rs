@@ -39,6 +39,7 @@ pub(crate) mod point;
 mod poly;
 pub(crate) mod reduced;
 pub(crate) mod tate;
+mod tate_word;
 pub(crate) mod torsion;
 pub(crate) mod two_torsion;
 pub(crate) mod weierstrass;

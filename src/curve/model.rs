@@ -240,6 +240,35 @@ impl ModelChange {
     }
 }
 
+impl ModelChange {
+    /// The new coefficients for integral old coefficients `a` and integral
+    /// `r, s, t`: the integers of Table 3.1 divided by `u^i` (module docs).
+    /// `None` when `r, s, t` are not integers or a new coefficient is not
+    /// an integer.
+    pub(crate) fn apply_to_integral(&self, a: &[BigInt; 5]) -> Option<[BigInt; 5]> {
+        if !(self.r.is_integer() && self.s.is_integer() && self.t.is_integer()) {
+            return None;
+        }
+        let nums = table_3_1(
+            [&a[0], &a[1], &a[2], &a[3], &a[4]],
+            [self.r.numer(), self.s.numer(), self.t.numer()],
+        );
+        if self.u.is_one() {
+            return Some(nums);
+        }
+        let (un, ud) = (self.u.numer(), self.u.denom());
+        let mut out: [BigInt; 5] = Default::default();
+        for ((o, n), w) in out.iter_mut().zip(nums).zip([1u32, 2, 3, 4, 6]) {
+            let (q, rem) = (n * ud.pow(w)).div_rem(&un.pow(w));
+            if !rem.is_zero() {
+                return None;
+            }
+            *o = q;
+        }
+        Some(out)
+    }
+}
+
 /// The right-hand sides u^i a_i′ of Table 3.1 (module docs), in integers.
 fn table_3_1(a: [&BigInt; 5], rst: [&BigInt; 3]) -> [BigInt; 5] {
     let [a1, a2, a3, a4, a6] = a;

@@ -19,6 +19,14 @@
 //! number one, so a global minimal model exists [Sil86, VIII.8.3]), the
 //! conductor `N = ∏ p^f_p` and the local data at the bad primes.
 //!
+//! # Machine words
+//! When the integral model and every intermediate fit in `i128` and
+//! `p < 2^62`, the same steps run in checked machine words (module
+//! `tate_word`, with the same choices of `r, s, t`); on overflow the
+//! computation continues in `BigInt` from the same state. Both routes give
+//! the same records; the tests in `tate_word` compare them. Changes of
+//! model are composed with [`ModelChange::then`].
+//!
 //! # Conventions
 //! A change of model `[u, r, s, t]` is the substitution
 //! `x = u²x' + r`, `y = u³y' + s·u²x' + t`; its effect on the coefficients
@@ -39,9 +47,11 @@ use std::fmt;
 use num_bigint::BigInt;
 use num_integer::Integer;
 use num_rational::BigRational;
-use num_traits::{One, Signed, Zero};
+use num_traits::{One, Signed, ToPrimitive, Zero};
 
+use super::tate_word::{self, Stop, WordReduction};
 use crate::arith::factor;
+use crate::arith::word::word_paths_enabled;
 use crate::budget::Budget;
 use crate::curve::{Curve, ModelChange};
 use crate::error::{Error, Result};
@@ -251,8 +261,8 @@ fn b_and_c_invariants(a: &[BigInt; 5]) -> BcInvariants {
 /// A failure of an invariant the algorithm guarantees; reaching it means a
 /// defect in this module, never bad input.
 fn internal(what: &str) -> Error {
-    Error::InvalidArgument {
-        reason: format!("internal error in Tate's algorithm ({what}); please report the input"),
+    Error::Internal {
+        check: format!("Tate's algorithm: {what}"),
     }
 }
 
@@ -503,42 +513,6 @@ fn shift(a: &[BigInt; 5], r: &BigInt, s: &BigInt, t: &BigInt) -> [BigInt; 5] {
     let n4 = a4 - s * a3 + 2 * r * a2 - (t + r * s) * a1 + 3 * r * r - 2 * s * t;
     let n6 = a6 + r * a4 + r * r * a2 + r * r * r - t * a3 - t * t - r * t * a1;
     [n1, n2, n3, n4, n6]
-}
-
-/// Applies `[u, r, s, t]` to rational coefficients [Sil86, III.1, Table 3.1].
-fn change_rational(a: &[BigRational; 5], ch: &[BigRational; 4]) -> Result<[BigRational; 5]> {
-    let [u, r, s, t] = ch;
-    if u.is_zero() {
-        return Err(Error::Zero {
-            what: "the scale u of a change of model".into(),
-        });
-    }
-    let [a1, a2, a3, a4, a6] = a;
-    let two = BigRational::from_integer(2.into());
-    let three = BigRational::from_integer(3.into());
-    let n1 = a1 + &two * s;
-    let n2 = a2 - s * a1 + &three * r - s * s;
-    let n3 = a3 + r * a1 + &two * t;
-    let n4 = a4 - s * a3 + &two * r * a2 - (t + r * s) * a1 + &three * r * r - &two * s * t;
-    let n6 = a6 + r * a4 + r * r * a2 + r * r * r - t * a3 - t * t - r * t * a1;
-    let u2 = u * u;
-    let u3 = &u2 * u;
-    let u4 = &u2 * &u2;
-    let u6 = &u3 * &u3;
-    Ok([n1 / u, n2 / u2, n3 / u3, n4 / u4, n6 / u6])
-}
-
-/// `first ∘ second`: the change doing `first`, then `second`.
-fn compose(first: &[BigRational; 4], second: &[BigRational; 4]) -> [BigRational; 4] {
-    let [u1, r1, s1, t1] = first;
-    let [u2, r2, s2, t2] = second;
-    let u1sq = u1 * u1;
-    [
-        u1 * u2,
-        r1 + &u1sq * r2,
-        s1 + u1 * s2,
-        t1 + &u1sq * u1 * t2 + s1 * &u1sq * r2,
-    ]
 }
 
 fn rat(x: &BigInt) -> BigRational {
@@ -888,6 +862,62 @@ fn subprocedure_in_star(run: &mut Run<'_>, disc_val: u64) -> Result<(u64, u64)> 
 /// assert_eq!((lr.conductor_exponent, lr.tamagawa), (1, 5));
 /// ```
 pub fn local_reduction(coeffs: &[BigInt; 5], p: &Prime) -> Result<LocalReduction> {
+    if let Some(lr) = local_reduction_by_words(coeffs, p)? {
+        return Ok(lr);
+    }
+    local_reduction_big(coeffs, p)
+}
+
+/// The machine-word route of [`local_reduction`] (module `tate_word`):
+/// `Ok(None)` when the word paths are off, a coefficient or an
+/// intermediate leaves `i128`, or `p ≥ 2^62`.
+fn local_reduction_by_words(coeffs: &[BigInt; 5], p: &Prime) -> Result<Option<LocalReduction>> {
+    if !word_paths_enabled() {
+        return Ok(None);
+    }
+    let (Some(pw), Some(a)) = (p.to_u64(), ints_i128(coeffs)) else {
+        return Ok(None);
+    };
+    let Ok(disc) = tate_word::discriminant_word(&a) else {
+        return Ok(None);
+    };
+    if disc == 0 {
+        return Err(Error::SingularCurve {
+            reason: "discriminant is 0".into(),
+        });
+    }
+    match tate_word::local_reduction_word(&a, disc, pw) {
+        Ok(w) => Ok(Some(from_word(p, w))),
+        Err(Stop::Overflow) => Ok(None),
+        Err(Stop::Internal(what)) => Err(internal(what)),
+    }
+}
+
+/// The `i128` coefficients of an integral model, when all fit.
+fn ints_i128(coeffs: &[BigInt; 5]) -> Option<[i128; 5]> {
+    let mut out = [0i128; 5];
+    for (o, c) in out.iter_mut().zip(coeffs) {
+        *o = c.to_i128()?;
+    }
+    Some(out)
+}
+
+/// A word answer as a [`LocalReduction`].
+fn from_word(p: &Prime, w: WordReduction) -> LocalReduction {
+    LocalReduction {
+        prime: p.clone(),
+        kodaira: w.kodaira,
+        conductor_exponent: w.conductor_exponent,
+        tamagawa: w.tamagawa,
+        disc_valuation: w.disc_valuation,
+        minimal_at_input: w.minimal_at_input,
+        reduction: w.reduction,
+        change: w.change.map(|x| BigRational::from_integer(BigInt::from(x))),
+    }
+}
+
+/// [`local_reduction`] in `BigInt` arithmetic throughout.
+pub(crate) fn local_reduction_big(coeffs: &[BigInt; 5], p: &Prime) -> Result<LocalReduction> {
     let inv = integral_invariants(coeffs);
     if inv.discriminant.is_zero() {
         return Err(Error::SingularCurve {
@@ -1020,20 +1050,24 @@ pub fn global_local_data(
     coeffs: &[BigRational; 5],
     budget: &mut Budget,
 ) -> Result<GlobalLocalData> {
-    // Step 1: an integral model.
+    // Step 1: an integral model; in machine words when it is the input
+    // itself and its discriminant fits in i128 (module `tate_word`).
     let (d, integral) = integral_scaling(coeffs);
-    let disc = integral_invariants(&integral).discriminant;
+    let word_start = if word_paths_enabled() && d.is_one() {
+        ints_i128(&integral)
+            .and_then(|a| tate_word::discriminant_word(&a).ok().map(|disc| (a, disc)))
+    } else {
+        None
+    };
+    let disc = match &word_start {
+        Some((_, disc)) => BigInt::from(*disc),
+        None => integral_invariants(&integral).discriminant,
+    };
     if disc.is_zero() {
         return Err(Error::SingularCurve {
             reason: "discriminant is 0".into(),
         });
     }
-    let mut total = [
-        BigRational::new(BigInt::one(), d.clone()),
-        BigRational::zero(),
-        BigRational::zero(),
-        BigRational::zero(),
-    ];
 
     // Step 2: the primes.
     // Δ(integral) = d¹² Δ(input), so its primes are those of d and of the
@@ -1050,39 +1084,174 @@ pub fn global_local_data(
     primes.sort();
     primes.dedup();
 
-    // Step 3: minimal at each prime in turn.
-    let mut current = integral;
+    // Step 3: minimal at each prime in turn; the model and the change so
+    // far stay in words until something leaves i128.
+    let mut state = match word_start {
+        Some((a, disc)) => Global::Word {
+            a,
+            disc,
+            total: [1, 0, 0, 0],
+        },
+        None => Global::Big {
+            a: integral,
+            total: ModelChange::scaling(BigRational::new(BigInt::one(), d))?,
+        },
+    };
     let mut records = Vec::new();
     let mut conductor = BigInt::one();
     for q in primes {
         let p = Prime::new(q)?;
-        let lr = local_reduction(&current, &p)?;
-        let [u, r, s, t] = &lr.change;
-        let moved = !(u.is_one() && r.is_zero() && s.is_zero() && t.is_zero());
-        let to_here = compose(&total, &lr.change);
-        if moved {
-            current = integral_model(&change_rational(
-                &current.clone().map(|x| rat(&x)),
-                &lr.change,
-            )?)?;
-            total = to_here.clone();
+        if let Global::Word { a, disc, total } = &mut state {
+            match p.to_u64().map(|pw| word_step(a, *disc, total, pw)) {
+                Some(Ok((w, next))) => {
+                    let to_here = next.total;
+                    (*a, *disc, *total) = (next.a, next.disc, to_here);
+                    if w.reduction != ReductionKind::Good {
+                        conductor *=
+                            num_traits::pow(p.get().clone(), w.conductor_exponent as usize);
+                        let lr = from_word(&p, w);
+                        let to_here = to_here.map(|x| BigRational::from_integer(BigInt::from(x)));
+                        records.push(relative_to_input(lr, coeffs, to_here));
+                    }
+                    continue;
+                }
+                Some(Err(Stop::Internal(what))) => return Err(internal(what)),
+                Some(Err(Stop::Overflow)) | None => state = state.to_big()?,
+            }
+        }
+        let Global::Big { a, total } = &mut state else {
+            return Err(internal("model state"));
+        };
+        let lr = local_reduction(a, &p)?;
+        let [u, r, s, t] = lr.change.clone();
+        let change = ModelChange::new(u, r, s, t)?;
+        let to_here = total.then(&change);
+        if !change.is_identity() {
+            *a = change
+                .apply_to_integral(a)
+                .ok_or_else(|| internal("model after a local change is not integral"))?;
+            *total = to_here.clone();
         }
         if lr.reduction != ReductionKind::Good {
             conductor *= num_traits::pow(p.get().clone(), lr.conductor_exponent as usize);
-            records.push(relative_to_input(lr, coeffs, to_here));
+            records.push(relative_to_input(lr, coeffs, change_array(&to_here)));
         }
     }
 
     // Step 4: normalise.
-    let (r, s, t) = normalising_shift(&current);
-    let minimal_model = shift(&current, &r, &s, &t);
-    let total = compose(&total, &[BigRational::one(), rat(&r), rat(&s), rat(&t)]);
+    if let Global::Word { a, total, .. } = &state {
+        let normalised = tate_word::normalising_shift_word(a).and_then(|(r, s, t)| {
+            Ok((
+                tate_word::shift_word(a, r, s, t)?,
+                tate_word::compose_word(total, &[1, r, s, t])?,
+            ))
+        });
+        match normalised {
+            Ok((m, ch)) => {
+                return Ok(GlobalLocalData {
+                    minimal_model: m.map(BigInt::from),
+                    change: ch.map(|x| BigRational::from_integer(BigInt::from(x))),
+                    conductor,
+                    primes: records,
+                })
+            }
+            Err(Stop::Internal(what)) => return Err(internal(what)),
+            Err(Stop::Overflow) => state = state.to_big()?,
+        }
+    }
+    let Global::Big { a, total } = state else {
+        return Err(internal("model state"));
+    };
+    let (r, s, t) = normalising_shift(&a);
+    let minimal_model = shift(&a, &r, &s, &t);
+    let total = total.then(&ModelChange::translation(rat(&r), rat(&s), rat(&t)));
     Ok(GlobalLocalData {
         minimal_model,
-        change: total,
+        change: change_array(&total),
         conductor,
         primes: records,
     })
+}
+
+/// The running state of [`global_local_data`]: the current integral model
+/// and the change from the input to it, in words or in big numbers (one
+/// value per call, so the size difference of the variants is immaterial).
+#[allow(clippy::large_enum_variant)]
+enum Global {
+    Word {
+        a: [i128; 5],
+        disc: i128,
+        total: [i128; 4],
+    },
+    Big {
+        a: [BigInt; 5],
+        total: ModelChange,
+    },
+}
+
+impl Global {
+    fn to_big(&self) -> Result<Global> {
+        Ok(match self {
+            Global::Word { a, total, .. } => {
+                let [u, r, s, t] = total.map(|x| BigRational::from_integer(BigInt::from(x)));
+                Global::Big {
+                    a: a.map(BigInt::from),
+                    total: ModelChange::new(u, r, s, t)?,
+                }
+            }
+            Global::Big { a, total } => Global::Big {
+                a: a.clone(),
+                total: total.clone(),
+            },
+        })
+    }
+}
+
+/// The word state after one prime.
+struct WordNext {
+    a: [i128; 5],
+    disc: i128,
+    total: [i128; 4],
+}
+
+/// One prime of step 3 in words, without touching the state (so that an
+/// overflow leaves it for the `BigInt` route).
+fn word_step(
+    a: &[i128; 5],
+    disc: i128,
+    total: &[i128; 4],
+    p: u64,
+) -> std::result::Result<(WordReduction, WordNext), Stop> {
+    let w = tate_word::local_reduction_word(a, disc, p)?;
+    let to_here = tate_word::compose_word(total, &w.change)?;
+    if w.change == [1, 0, 0, 0] {
+        return Ok((
+            w,
+            WordNext {
+                a: *a,
+                disc,
+                total: to_here,
+            },
+        ));
+    }
+    let next = tate_word::apply_change_word(a, &w.change)?;
+    let u12 = w.change[0].checked_pow(12).ok_or(Stop::Overflow)?;
+    let disc = crate::arith::word::Ck::new(disc)
+        .exact_div(u12)
+        .ok_or(Stop::Internal("Δ not divisible by u¹²"))?;
+    Ok((
+        w,
+        WordNext {
+            a: next,
+            disc,
+            total: to_here,
+        },
+    ))
+}
+
+/// `[u, r, s, t]` of a change.
+fn change_array(c: &ModelChange) -> [BigRational; 4] {
+    [c.u().clone(), c.r().clone(), c.s().clone(), c.t().clone()]
 }
 
 /// `d` = the lcm of the denominators, and `[d·a1, d²·a2, d³·a3, d⁴·a4,
@@ -1144,14 +1313,10 @@ fn relative_to_input(
 pub fn local_reduction_rational(coeffs: &[BigRational; 5], p: &Prime) -> Result<LocalReduction> {
     let (d, integral) = integral_scaling(coeffs);
     let lr = local_reduction(&integral, p)?;
-    let scale = [
-        BigRational::new(BigInt::one(), d),
-        BigRational::zero(),
-        BigRational::zero(),
-        BigRational::zero(),
-    ];
-    let change = compose(&scale, &lr.change);
-    Ok(relative_to_input(lr, coeffs, change))
+    let [u, r, s, t] = lr.change.clone();
+    let change = ModelChange::scaling(BigRational::new(BigInt::one(), d))?
+        .then(&ModelChange::new(u, r, s, t)?);
+    Ok(relative_to_input(lr, coeffs, change_array(&change)))
 }
 
 impl Curve {
@@ -1205,18 +1370,6 @@ impl Curve {
             ModelChange::new(u, r, s, t)?,
         ))
     }
-}
-
-/// The integers of a model known to be integral.
-fn integral_model(a: &[BigRational; 5]) -> Result<[BigInt; 5]> {
-    let mut out: [BigInt; 5] = Default::default();
-    for (o, x) in out.iter_mut().zip(a) {
-        if !x.is_integer() {
-            return Err(internal("model after a local change is not integral"));
-        }
-        *o = x.to_integer();
-    }
-    Ok(out)
 }
 
 #[cfg(test)]

@@ -37,6 +37,7 @@
 pub(crate) mod members;
 pub(crate) mod records;
 pub(crate) mod scan;
+mod word_sweep;
 
 pub use members::{is_squarefree_u64, quadratic_twist, Family, Member, Members, Parameter};
 pub use records::{

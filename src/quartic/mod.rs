@@ -21,6 +21,7 @@ pub(crate) mod form;
 mod fp;
 pub(crate) mod image;
 pub(crate) mod padic;
+mod padic_word;
 pub(crate) mod real;
 pub(crate) mod search;
 pub(crate) mod second_descent;

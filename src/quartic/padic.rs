@@ -85,6 +85,7 @@
 
 use super::form::Quartic;
 use super::fp;
+use crate::arith::word::word_paths_enabled;
 use crate::budget::Budget;
 use crate::error::Result;
 use crate::local::{legendre, split_valuation, Prime};
@@ -100,7 +101,7 @@ pub const ENUMERATION_LIMIT: u64 = 64;
 
 /// Which chart a class lives in.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
-enum Chart {
+pub(super) enum Chart {
     /// `(t : 1)`, `t ∈ Z_p`.
     Affine,
     /// `(1 : t)`, `t ∈ pZ_p`.
@@ -110,15 +111,15 @@ enum Chart {
 /// The class `t ∈ base + scale·Z_p` of a chart, with class polynomial
 /// `poly(s) = f(base + scale·s) / p^(2j)` (lowest degree first).
 #[derive(Debug, Clone)]
-struct Class {
-    chart: Chart,
-    base: BigInt,
-    scale: BigInt,
-    poly: Vec<BigInt>,
+pub(super) struct Class {
+    pub(super) chart: Chart,
+    pub(super) base: BigInt,
+    pub(super) scale: BigInt,
+    pub(super) poly: Vec<BigInt>,
 }
 
 impl Class {
-    fn witness(&self, r: &BigInt) -> (BigInt, BigInt) {
+    pub(super) fn witness(&self, r: &BigInt) -> (BigInt, BigInt) {
         let t = &self.base + &self.scale * r;
         match self.chart {
             Chart::Affine => (t, BigInt::one()),
@@ -127,7 +128,7 @@ impl Class {
     }
 
     /// The class `base + scale·(r + p·Z_p)`, polynomial `F(r + p s)`.
-    fn child(&self, r: &BigInt, p: &BigInt) -> Class {
+    pub(super) fn child(&self, r: &BigInt, p: &BigInt) -> Class {
         Class {
             chart: self.chart,
             base: &self.base + &self.scale * r,
@@ -157,7 +158,7 @@ fn shift_scale(f: &[BigInt], r: &BigInt, p: &BigInt) -> Vec<BigInt> {
 }
 
 /// The two starting classes: `g(t, 1)` on `Z_p` and `g(1, p t)` on `Z_p`.
-fn initial_classes(q: &Quartic, p: &BigInt) -> VecDeque<Class> {
+pub(super) fn initial_classes(q: &Quartic, p: &BigInt) -> VecDeque<Class> {
     let c = q.coeffs();
     let affine: Vec<BigInt> = c.iter().rev().cloned().collect();
     let mut pw = BigInt::one();
@@ -186,7 +187,7 @@ fn initial_classes(q: &Quartic, p: &BigInt) -> VecDeque<Class> {
 }
 
 /// Content valuation `m` of a non-zero polynomial and the quotient `F/p^m`.
-fn content_split(f: &[BigInt], p: &Prime) -> (u64, Vec<BigInt>) {
+pub(super) fn content_split(f: &[BigInt], p: &Prime) -> (u64, Vec<BigInt>) {
     let m = f
         .iter()
         .filter_map(|c| split_valuation(c, p).map(|(v, _)| v))
@@ -198,7 +199,7 @@ fn content_split(f: &[BigInt], p: &Prime) -> (u64, Vec<BigInt>) {
 
 /// Divides `F` by `p^(2⌊m/2⌋)` (keeps numbers small; the parity of the
 /// content and `F₁` are unchanged).
-fn strip_even_power(f: &[BigInt], m: u64, p: &BigInt) -> Vec<BigInt> {
+pub(super) fn strip_even_power(f: &[BigInt], m: u64, p: &BigInt) -> Vec<BigInt> {
     let e = (m / 2) * 2;
     if e == 0 {
         return f.to_vec();
@@ -250,37 +251,56 @@ pub(crate) fn odd_prime_witness(
         .to_u64()
         .filter(|&v| v < fp::WORD_LIMIT)
         .map(fp::WordField::new);
+    if let Some(f) = word.filter(|_| word_paths_enabled()) {
+        return super::padic_word::odd_prime_witness_words(q, p, f, budget);
+    }
     let mut queue = initial_classes(q, pb);
     while let Some(class) = queue.pop_front() {
-        fp::charge(budget, 1, ODD_STAGE)?;
-        let (verdict, m) = match word {
-            Some(f) => {
-                let (m, phi) = content_residues_word(&class.poly, p, f);
-                (class_verdict_word(&phi, m % 2 == 0, f, budget)?, m)
-            }
-            None => {
-                let (m, f1) = content_split(&class.poly, p);
-                (class_verdict_big(&f1, m % 2 == 0, p, budget)?, m)
-            }
-        };
-        match verdict {
-            Verdict::Witness(r) => return Ok(Some(class.witness(&r))),
-            Verdict::Refine(roots) if roots.is_empty() => {}
-            Verdict::Refine(roots) => {
-                let class = Class {
-                    poly: strip_even_power(&class.poly, m, pb),
-                    ..class
-                };
-                for r in roots {
-                    queue.push_back(class.child(&r, pb));
-                }
+        if let Some(w) = odd_big_step(class, p, word, &mut queue, budget)? {
+            return Ok(Some(w));
+        }
+    }
+    Ok(None)
+}
+
+/// One class of Lemma P in `BigInt` arithmetic (the residues in words when
+/// `word` is given): the witness, or the subclasses pushed onto `queue`.
+pub(super) fn odd_big_step(
+    class: Class,
+    p: &Prime,
+    word: Option<fp::WordField>,
+    queue: &mut VecDeque<Class>,
+    budget: &mut Budget,
+) -> Result<Option<(BigInt, BigInt)>> {
+    let pb = p.get();
+    fp::charge(budget, 1, ODD_STAGE)?;
+    let (verdict, m) = match word {
+        Some(f) => {
+            let (m, phi) = content_residues_word(&class.poly, p, f);
+            (class_verdict_word(&phi, m % 2 == 0, f, budget)?, m)
+        }
+        None => {
+            let (m, f1) = content_split(&class.poly, p);
+            (class_verdict_big(&f1, m % 2 == 0, p, budget)?, m)
+        }
+    };
+    match verdict {
+        Verdict::Witness(r) => return Ok(Some(class.witness(&r))),
+        Verdict::Refine(roots) if roots.is_empty() => {}
+        Verdict::Refine(roots) => {
+            let class = Class {
+                poly: strip_even_power(&class.poly, m, pb),
+                ..class
+            };
+            for r in roots {
+                queue.push_back(class.child(&r, pb));
             }
         }
     }
     Ok(None)
 }
 
-const ODD_STAGE: &str = "local solubility at an odd prime";
+pub(super) const ODD_STAGE: &str = "local solubility at an odd prime";
 
 /// What Lemma P says about one class: a witness residue `r`, or the
 /// residues (roots of `φ`, ascending) whose subclasses must be examined.
@@ -370,6 +390,28 @@ pub(crate) fn class_verdict_word(
     f: fp::WordField,
     budget: &mut Budget,
 ) -> Result<Verdict> {
+    Ok(match class_verdict_u64(phi, even, f, budget)? {
+        WordVerdict::Witness(r) => Verdict::Witness(BigInt::from(r)),
+        WordVerdict::Refine(roots) => {
+            Verdict::Refine(roots.into_iter().map(BigInt::from).collect())
+        }
+    })
+}
+
+/// [`Verdict`] with residues as words.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub(crate) enum WordVerdict {
+    Witness(u64),
+    Refine(Vec<u64>),
+}
+
+/// The body of [`class_verdict_word`], answering in words.
+pub(crate) fn class_verdict_u64(
+    phi: &fp::WordPoly,
+    even: bool,
+    f: fp::WordField,
+    budget: &mut Budget,
+) -> Result<WordVerdict> {
     let p = f.p();
     if p < ENUMERATION_LIMIT {
         let squares = SMALL_SQUARES[p as usize];
@@ -380,7 +422,7 @@ pub(crate) fn class_verdict_word(
             tested += 1;
             let val = f.eval(phi, r);
             if val == 0 {
-                children.push(BigInt::from(r));
+                children.push(r);
             } else if even && squares >> val & 1 == 1 {
                 witness = Some(r);
                 break;
@@ -388,8 +430,8 @@ pub(crate) fn class_verdict_word(
         }
         fp::charge(budget, tested, ODD_STAGE)?;
         return Ok(match witness {
-            Some(r) => Verdict::Witness(BigInt::from(r)),
-            None => Verdict::Refine(children),
+            Some(r) => WordVerdict::Witness(r),
+            None => WordVerdict::Refine(children),
         });
     }
     if even {
@@ -401,7 +443,7 @@ pub(crate) fn class_verdict_word(
                 loop {
                     fp::charge(budget, per_try, ODD_STAGE)?;
                     if f.is_nonzero_square(f.eval(phi, r)) {
-                        return Ok(Verdict::Witness(BigInt::from(r)));
+                        return Ok(WordVerdict::Witness(r));
                     }
                     r += 1;
                 }
@@ -411,7 +453,7 @@ pub(crate) fn class_verdict_word(
                 loop {
                     fp::charge(budget, 1, ODD_STAGE)?;
                     if f.eval(phi, r) != 0 {
-                        return Ok(Verdict::Witness(BigInt::from(r)));
+                        return Ok(WordVerdict::Witness(r));
                     }
                     r += 1;
                 }
@@ -419,10 +461,7 @@ pub(crate) fn class_verdict_word(
             Some(_) => {}
         }
     }
-    let roots = fp::roots_word(phi, f, budget)?;
-    Ok(Verdict::Refine(
-        roots.into_iter().map(BigInt::from).collect(),
-    ))
+    Ok(WordVerdict::Refine(fp::roots_word(phi, f, budget)?))
 }
 
 /// `v_p(c)` for `c ≠ 0` (machine-word fast path), `None` for `c = 0`.
@@ -506,11 +545,30 @@ pub(crate) fn two_adic_witness(
     q: &Quartic,
     budget: &mut Budget,
 ) -> Result<Option<(BigInt, BigInt)>> {
-    const STAGE: &str = "local solubility at 2";
+    if word_paths_enabled() {
+        return super::padic_word::two_adic_witness_words(q, budget);
+    }
     let two = BigInt::from(2);
     let mut queue = initial_classes(q, &two);
     while let Some(class) = queue.pop_front() {
-        fp::charge(budget, 1, STAGE)?;
+        if let Some(w) = two_adic_big_step(class, &mut queue, budget)? {
+            return Ok(Some(w));
+        }
+    }
+    Ok(None)
+}
+
+pub(super) const TWO_STAGE: &str = "local solubility at 2";
+
+/// One class of Lemma T in `BigInt` arithmetic: the witness, or the
+/// subclasses pushed onto `queue` (none when the class dies).
+pub(super) fn two_adic_big_step(
+    class: Class,
+    queue: &mut VecDeque<Class>,
+    budget: &mut Budget,
+) -> Result<Option<(BigInt, BigInt)>> {
+    {
+        fp::charge(budget, 1, TWO_STAGE)?;
         let vals: Vec<Option<u64>> = class.poly.iter().map(|c| c.trailing_zeros()).collect();
         let m = vals.iter().flatten().copied().min().unwrap_or(0);
         // F(0) / 2^(2⌊m/2⌋) ≠ 0 a square in Q_2: v₂ even, unit ≡ 1 mod 8.
@@ -526,7 +584,7 @@ pub(crate) fn two_adic_witness(
             let mu = mu.unwrap_or(u64::MAX);
             let a0_mod4 = unit_mod8(&class.poly[0], m) % 4;
             if m % 2 == 1 || mu >= 3 || (mu == 2 && a0_mod4 == 3) {
-                continue;
+                return Ok(None);
             }
         }
         let e = (m / 2) * 2;
@@ -549,7 +607,7 @@ pub(crate) fn two_adic_witness(
 
 /// `(c / 2^v) mod 8` for `c ≠ 0` with `2^v | c`, read from the binary
 /// digits of `|c|` (two's complement of the digits for `c < 0`).
-fn unit_mod8(c: &BigInt, v: u64) -> u8 {
+pub(super) fn unit_mod8(c: &BigInt, v: u64) -> u8 {
     let mag = c.magnitude();
     let word = (v / 64) as usize;
     let bit = v % 64;
@@ -570,7 +628,7 @@ fn unit_mod8(c: &BigInt, v: u64) -> u8 {
 
 /// `G(s) = F(r + 2s)` for `r ∈ {0, 1}`: Taylor shift by `r` (additions
 /// only), then coefficient `i` shifted left by `i` bits.
-fn shift_scale_two(f: &[BigInt], r: bool) -> Vec<BigInt> {
+pub(super) fn shift_scale_two(f: &[BigInt], r: bool) -> Vec<BigInt> {
     let mut c = f.to_vec();
     let n = c.len();
     if r {

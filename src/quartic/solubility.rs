@@ -11,6 +11,7 @@ use super::form::Quartic;
 use super::fp;
 use super::padic;
 use super::real;
+use crate::arith::word::{word_paths_enabled, Ck};
 use crate::budget::Budget;
 use crate::error::{Error, Result};
 use crate::local::{split_valuation, sqrt_mod_prime_power, Place, Prime};
@@ -254,6 +255,13 @@ fn finish(q: &Quartic, p: &Prime, w: Option<(BigInt, BigInt)>) -> Result<LocalSo
     let Some((x, z)) = w else {
         return Ok(LocalSolubility::Insoluble { place });
     };
+    if word_paths_enabled() {
+        if let Some((y, precision)) = finish_word(q, p, &x, &z) {
+            return Ok(LocalSolubility::Soluble(LocalPoint::new(
+                place, x, z, y, precision,
+            )));
+        }
+    }
     let g = q.eval(&x, &z);
     debug_assert!(padic::is_padic_square(&g, p));
     let precision = padic::val_u32(&g, p).saturating_add(EXTRA_PRECISION);
@@ -263,6 +271,81 @@ fn finish(q: &Quartic, p: &Prime, w: Option<(BigInt, BigInt)>) -> Result<LocalSo
     Ok(LocalSolubility::Soluble(LocalPoint::new(
         place, x, z, y, precision,
     )))
+}
+
+/// [`finish`] in machine words: `y` and the precision when `g(x, z)`
+/// fits in `i128` and the root can be lifted in words (`p = 2` with at
+/// most 62 digits; odd `p` with `p^(EXTRA_PRECISION) < 2^63`); `None`
+/// otherwise, and the caller runs the `BigInt` route. The root is the
+/// unique lift of the Tonelli–Shanks root `y₀` of the unit part modulo
+/// `p^k` reduced to `[0, p^k)`, exactly as [`padic_sqrt`] returns it.
+fn finish_word(q: &Quartic, p: &Prime, x: &BigInt, z: &BigInt) -> Option<(BigInt, u32)> {
+    let pw = p.to_u64()?;
+    let (x, z) = (Ck::new(x.to_i128()?), Ck::new(z.to_i128()?));
+    let mut g = Ck::new(0);
+    let mut zp = Ck::new(1);
+    let mut xp = [Ck::new(1); 5];
+    for i in 1..5 {
+        xp[i] = xp[i - 1] * x;
+    }
+    // g = Σ c_i x^(4−i) z^i.
+    for (i, c) in q.coeffs().iter().enumerate() {
+        g = g + Ck::new(c.to_i128()?) * xp[4 - i] * zp;
+        zp = zp * z;
+    }
+    let g = g.get().filter(|&g| g != 0)?;
+    let q128 = i128::from(pw);
+    let (mut v, mut u) = (0u32, g);
+    while u % q128 == 0 {
+        u /= q128;
+        v += 1;
+    }
+    if v % 2 == 1 {
+        return None;
+    }
+    let precision = v.checked_add(EXTRA_PRECISION)?;
+    let k = EXTRA_PRECISION;
+    let scale = q128.checked_pow(v / 2)?;
+    let y = if pw == 2 {
+        if k > 62 {
+            return None;
+        }
+        let mask = (1i128 << k) - 1;
+        let uu = (u & mask) as u64;
+        let need = if k >= 3 { 7 } else { (1 << k) - 1 };
+        if uu & need != 1 & need {
+            return None;
+        }
+        let mut y: u64 = 1;
+        for j in 3..k {
+            let diff = (u128::from(y) * u128::from(y)).wrapping_sub(u128::from(uu));
+            if diff & ((1u128 << (j + 1)) - 1) != 0 {
+                y += 1 << (j - 1);
+            }
+        }
+        i128::from(y)
+    } else {
+        let m = pw.checked_pow(k).filter(|&m| m < fp::WORD_LIMIT)?;
+        let f = fp::WordField::new(pw);
+        let y0 = fp::sqrt_word(u.rem_euclid(q128) as u64, f)?;
+        if y0 == 0 {
+            return None;
+        }
+        let mm = u128::from(m);
+        let um = u.rem_euclid(i128::from(m)) as u128;
+        let (mut y, mut w) = (u128::from(y0), u128::from(f.inv(f.mul(2, y0))));
+        let mut j = 1u32;
+        while j < k {
+            j = (2 * j).min(k);
+            let mj = u128::from(pw.pow(j));
+            let e = (y * y + mm * mm - um) % mj;
+            y = (y + mj - e * w % mj) % mj;
+            let t = 2 * y % mj * w % mj;
+            w = w * ((2 + mj - t) % mj) % mj;
+        }
+        y as i128
+    };
+    Some((BigInt::from(y.checked_mul(scale)?), precision))
 }
 
 /// A square root of `g` modulo `p^precision` for `g ≠ 0` with `v = v_p(g)`

@@ -1,0 +1,185 @@
+//! Checked machine-word integers for the word-size paths of the Selmer
+//! stage (Tate's algorithm, local images), and the crate-private switch
+//! that turns those paths off for comparison tests.
+//!
+//! [`Ck`] is an `i128` that remembers overflow: every operation on it is
+//! checked, and once one overflows the value is poisoned and stays so.
+//! A word-size routine writes its formulas with `Ck` exactly as the
+//! `BigInt` routine writes them, and reads the result with [`Ck::get`];
+//! `None` means "some intermediate left i128", and the caller falls back
+//! to the `BigInt` path. Nothing is ever truncated or wrapped.
+
+use std::cell::Cell;
+use std::ops::{Add, Mul, Neg, Sub};
+
+/// An `i128` with overflow tracking (`None` after any overflow).
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub(crate) struct Ck(pub(crate) Option<i128>);
+
+impl Ck {
+    /// The value `x`.
+    #[inline]
+    pub(crate) fn new(x: i128) -> Ck {
+        Ck(Some(x))
+    }
+
+    /// The value, or `None` if an operation overflowed.
+    #[inline]
+    pub(crate) fn get(self) -> Option<i128> {
+        self.0
+    }
+
+    /// The exact quotient `self / d`; `None` (poisoned) when `d = 0`, the
+    /// division is inexact, or it overflows.
+    #[inline]
+    pub(crate) fn exact_div(self, d: i128) -> Option<i128> {
+        let x = self.0?;
+        if d == 0 || x.checked_rem(d)? != 0 {
+            return None;
+        }
+        x.checked_div(d)
+    }
+}
+
+impl From<i128> for Ck {
+    #[inline]
+    fn from(x: i128) -> Ck {
+        Ck(Some(x))
+    }
+}
+
+macro_rules! ck_binop {
+    ($tr:ident, $f:ident, $checked:ident) => {
+        impl $tr for Ck {
+            type Output = Ck;
+            #[inline]
+            fn $f(self, o: Ck) -> Ck {
+                Ck(match (self.0, o.0) {
+                    (Some(a), Some(b)) => a.$checked(b),
+                    _ => None,
+                })
+            }
+        }
+        impl $tr<i128> for Ck {
+            type Output = Ck;
+            #[inline]
+            fn $f(self, o: i128) -> Ck {
+                Ck(self.0.and_then(|a| a.$checked(o)))
+            }
+        }
+        impl $tr<Ck> for i128 {
+            type Output = Ck;
+            #[inline]
+            fn $f(self, o: Ck) -> Ck {
+                Ck(o.0.and_then(|b| self.$checked(b)))
+            }
+        }
+    };
+}
+
+ck_binop!(Add, add, checked_add);
+ck_binop!(Sub, sub, checked_sub);
+ck_binop!(Mul, mul, checked_mul);
+
+impl Neg for Ck {
+    type Output = Ck;
+    #[inline]
+    fn neg(self) -> Ck {
+        Ck(self.0.and_then(i128::checked_neg))
+    }
+}
+
+/// `p^k` in `i128`, `None` when it does not fit.
+#[inline]
+pub(crate) fn pow_i128(p: i128, k: u32) -> Option<i128> {
+    p.checked_pow(k)
+}
+
+/// `p^k | x`, exactly (true for `x = 0`; when `p^k` does not fit in
+/// `i128` only `x = 0` is divisible, since `|x| < 2^127 ≤ p^k`).
+#[inline]
+pub(crate) fn divisible_pow(x: i128, p: i128, k: u32) -> bool {
+    match pow_i128(p, k) {
+        Some(pk) => x % pk == 0,
+        None => x == 0,
+    }
+}
+
+/// `x mod p` in `[0, p)` for `p > 0`.
+#[inline]
+pub(crate) fn residue(x: i128, p: u64) -> u64 {
+    x.rem_euclid(i128::from(p)) as u64
+}
+
+/// `a·b mod p` for residues `a, b < p < 2^64`.
+#[inline]
+pub(crate) fn mul_mod(a: u64, b: u64, p: u64) -> u64 {
+    (u128::from(a) * u128::from(b) % u128::from(p)) as u64
+}
+
+/// `a⁻¹ mod p` for `gcd(a, p) = 1`, `None` otherwise.
+pub(crate) fn inv_mod(a: u64, p: u64) -> Option<u64> {
+    let (mut r0, mut r1) = (i128::from(p), i128::from(a % p));
+    let (mut s0, mut s1) = (0i128, 1i128);
+    while r1 != 0 {
+        let q = r0 / r1;
+        (r0, r1) = (r1, r0 - q * r1);
+        (s0, s1) = (s1, s0 - q * s1);
+    }
+    (r0 == 1).then(|| s0.rem_euclid(i128::from(p)) as u64)
+}
+
+thread_local! {
+    static WORD_PATHS: Cell<bool> = const { Cell::new(true) };
+}
+
+/// True unless a test on this thread has turned the word-size paths off.
+#[inline]
+pub(crate) fn word_paths_enabled() -> bool {
+    WORD_PATHS.with(Cell::get)
+}
+
+/// Turns the word-size paths on or off for the current thread (tests
+/// compare the outputs of both paths with it). Returns the old setting.
+#[cfg(test)]
+pub(crate) fn set_word_paths(on: bool) -> bool {
+    WORD_PATHS.with(|c| c.replace(on))
+}
+
+#[cfg(test)]
+#[allow(clippy::unwrap_used)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn overflow_poisons_and_exact_values_pass() {
+        let big = Ck::new(i128::MAX);
+        assert_eq!((big + 1).get(), None);
+        assert_eq!((big + 1 - 5).get(), None);
+        assert_eq!((Ck::new(3) * 4 - 2).get(), Some(10));
+        assert_eq!((-Ck::new(i128::MIN)).get(), None);
+        assert_eq!(Ck::new(12).exact_div(4), Some(3));
+        assert_eq!(Ck::new(13).exact_div(4), None);
+    }
+
+    #[test]
+    fn divisibility_by_huge_powers_is_exact() {
+        assert!(divisible_pow(0, 3, 200));
+        assert!(!divisible_pow(i128::MAX, 3, 200));
+        assert!(divisible_pow(81, 3, 4));
+        assert!(!divisible_pow(81, 3, 5));
+    }
+
+    #[test]
+    fn inverses_modulo_primes() {
+        for p in [3u64, 5, 7, 101, (1 << 61) - 1] {
+            for a in [1u64, 2, 3, 4, 100, p - 1] {
+                if a % p != 0 {
+                    let i = inv_mod(a, p).unwrap();
+                    assert_eq!(mul_mod(a % p, i, p), 1, "{a} mod {p}");
+                }
+            }
+            assert_eq!(inv_mod(0, p), None);
+        }
+    }
+}
