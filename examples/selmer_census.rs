@@ -5,9 +5,11 @@
 //! docs/performance.md.
 //!
 //! ```text
-//! cargo run --release --example selmer_census -- N|box:B [local-only|first|descent|analytic|points|full]
+//! cargo run --release --example selmer_census -- N|box:B [local-only|isogeny-selmer|first|descent|analytic|points|full]
 //! ```
-//! `local-only`: Selmer groups and torsion images, no search;
+//! `local-only`: Selmer groups (with the lifting pairing, hence Sel²) and
+//! torsion images, no search; `isogeny-selmer`: the two isogeny Selmer
+//! groups and torsion images only (no lifting pairing);
 //! `first`: default search, no second descent, no analytic side;
 //! `descent`: the whole descent, no analytic side or saturation;
 //! `analytic`: the descent and the analytic side; `points`: also the deep
@@ -100,7 +102,7 @@ fn main() -> ExitCode {
         None => (false, family.parse::<i64>().ok()),
     };
     let Some(n_max) = n_max.filter(|&n| (1..=1_000_000).contains(&n)) else {
-        eprintln!("usage: selmer_census N|box:B [local-only|first|descent|analytic|points|full]");
+        eprintln!("usage: selmer_census N|box:B [local-only|isogeny-selmer|first|descent|analytic|points|full]");
         return ExitCode::from(2);
     };
     let members: Vec<[i64; 5]> = if boxed {
@@ -118,6 +120,11 @@ fn main() -> ExitCode {
     let mode = args.next().unwrap_or_else(|| "local-only".to_string());
     let opts = match mode.as_str() {
         "local-only" => DescentOptions::default().local_conditions_only(),
+        "isogeny-selmer" => {
+            let mut o = DescentOptions::default().local_conditions_only();
+            o.lifting_pairing = false;
+            o
+        }
         "first" => DescentOptions::default()
             .descent_only()
             .with_four_coverings(false),
