@@ -159,16 +159,9 @@ fn sqrt_mod(a: u64, p: u64) -> u64 {
     r
 }
 
-/// `a^{-1} mod p` for `gcd(a, p) = 1`, `p < 2^32`.
+/// `a^{-1} mod p` for `gcd(a, p) = 1` (0 otherwise; callers ensure it).
 fn inv_mod(a: u64, p: u64) -> u64 {
-    let (mut r0, mut r1) = (p as i64, (a % p) as i64);
-    let (mut s0, mut s1) = (0i64, 1i64);
-    while r1 != 0 {
-        let q = r0 / r1;
-        (r0, r1) = (r1, r0 - q * r1);
-        (s0, s1) = (s1, s0 - q * s1);
-    }
-    s0.rem_euclid(p as i64) as u64
+    super::word::inv_mod(a, p).unwrap_or(0)
 }
 
 /// Legendre symbol `(a/p)` for an odd prime `p`, as `a^((p−1)/2)`.

@@ -118,7 +118,21 @@ pub(crate) fn mul_mod(a: u64, b: u64, p: u64) -> u64 {
 }
 
 /// `a⁻¹ mod p` for `gcd(a, p) = 1`, `None` otherwise.
+///
+/// The one word-size modular inverse of the crate (extended Euclid; the
+/// Bézout coefficients stay below `p` in absolute value, so `i64` suffices
+/// for `p < 2^63`).
 pub(crate) fn inv_mod(a: u64, p: u64) -> Option<u64> {
+    if let Ok(pi) = i64::try_from(p) {
+        let (mut r0, mut r1) = (pi, (a % p) as i64);
+        let (mut s0, mut s1) = (0i64, 1i64);
+        while r1 != 0 {
+            let q = r0 / r1;
+            (r0, r1) = (r1, r0 - q * r1);
+            (s0, s1) = (s1, s0 - q * s1);
+        }
+        return (r0 == 1).then(|| s0.rem_euclid(pi) as u64);
+    }
     let (mut r0, mut r1) = (i128::from(p), i128::from(a % p));
     let (mut s0, mut s1) = (0i128, 1i128);
     while r1 != 0 {

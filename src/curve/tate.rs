@@ -268,12 +268,7 @@ fn internal(what: &str) -> Error {
 
 /// `a⁻¹ mod p` for `p ∤ a`.
 fn inv_mod(a: &BigInt, p: &BigInt) -> Result<BigInt> {
-    let e = a.mod_floor(p).extended_gcd(p);
-    if e.gcd.is_one() {
-        Ok(e.x.mod_floor(p))
-    } else {
-        Err(internal("inverting a multiple of p"))
-    }
+    crate::local::sqrt::mod_inverse(a, p).ok_or_else(|| internal("inverting a multiple of p"))
 }
 
 /// `p^k | x` (true for x = 0).

@@ -631,8 +631,9 @@ fn pow_mod(mut a: u64, mut e: u64, q: u64) -> u64 {
     r
 }
 
+/// `a⁻¹ mod q` (0 for `q | a`, as Fermat's `a^(q−2)` gives).
 fn mod_inv(a: u64, q: u64) -> u64 {
-    pow_mod(a, q - 2, q)
+    crate::arith::word::inv_mod(a, q).unwrap_or(0)
 }
 
 fn big_mod(n: &BigInt, q: u64) -> u64 {

@@ -60,9 +60,9 @@ pub(crate) fn reduce(a: &[BigInt], p: &BigInt) -> FpPoly {
     trim(a.iter().map(|c| c.mod_floor(p)).collect())
 }
 
-/// `a⁻¹ mod p` for `a ≢ 0` (Fermat).
+/// `a⁻¹ mod p` (0 for `p | a`, as Fermat's `a^(p−2)` gives).
 fn inv(a: &BigInt, p: &BigInt) -> BigInt {
-    a.modpow(&(p - BigInt::from(2)), p)
+    crate::local::sqrt::mod_inverse(a, p).unwrap_or_default()
 }
 
 /// Makes `a` monic (no-op on the zero polynomial).
