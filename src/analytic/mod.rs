@@ -39,6 +39,7 @@
 
 mod bsgs;
 pub(crate) mod certified;
+mod cm;
 pub(crate) mod coefficients;
 pub(crate) mod ledger;
 pub(crate) mod period;
