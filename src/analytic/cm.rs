@@ -26,9 +26,14 @@
 //!   remainders below `√p` [Cohen93, §1.5.2] (common practice); the
 //!   result is checked (`a² + b² = p`) and the general path is used
 //!   otherwise. In F_p ≅ Z[i]/π, `i ↦ −a·b⁻¹`, so `χ` is read off from
-//!   which of `1, −1, i, −i` the power `D^{(p−1)/4}` equals.
+//!   which of `1, −1, i, −i` the power `D^{(p−1)/4}` equals (a value
+//!   outside those four, impossible for a prime, sends the caller to the
+//!   general path).
 //!
 //! `j = 0` with `p ≡ 1 (mod 3)` is left to the general path.
+
+use super::bsgs::Mont;
+use crate::local::legendre_u64;
 
 /// The CM family of a curve, from its short model `y² = x³ + Ax + B`.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
@@ -61,23 +66,55 @@ pub(crate) fn ap_closed_form(family: Family, a: u64, p: u64) -> Option<i64> {
 }
 
 fn mulmod(a: u64, b: u64, p: u64) -> u64 {
-    if p < (1 << 32) {
-        return (a * b) % p;
-    }
     ((u128::from(a) * u128::from(b)) % u128::from(p)) as u64
 }
 
-fn powmod(mut b: u64, mut e: u64, p: u64) -> u64 {
-    let mut r = 1 % p;
-    b %= p;
-    while e > 0 {
-        if e & 1 == 1 {
-            r = mulmod(r, b, p);
+/// Powers modulo an odd prime `p`: Montgomery form for `p < 2³¹`
+/// ([`super::bsgs`]), 128-bit products above.
+enum Field {
+    Small(Mont, u64),
+    Large(u64),
+}
+
+impl Field {
+    fn new(p: u64) -> Field {
+        if p < (1 << 31) {
+            let m = Mont::new(p);
+            Field::Small(m, m.to(1))
+        } else {
+            Field::Large(p)
         }
-        b = mulmod(b, b, p);
-        e >>= 1;
     }
-    r
+
+    /// `b^e mod p` for `b < p`.
+    fn pow(&self, b: u64, mut e: u64) -> u64 {
+        match *self {
+            Field::Small(m, one) => {
+                let mut r = one;
+                let mut b = m.to(b);
+                while e > 0 {
+                    if e & 1 == 1 {
+                        r = m.mul(r, b);
+                    }
+                    b = m.mul(b, b);
+                    e >>= 1;
+                }
+                m.from(r)
+            }
+            Field::Large(p) => {
+                let mut r = 1;
+                let mut b = b;
+                while e > 0 {
+                    if e & 1 == 1 {
+                        r = mulmod(r, b, p);
+                    }
+                    b = mulmod(b, b, p);
+                    e >>= 1;
+                }
+                r
+            }
+        }
+    }
 }
 
 /// `⌊√n⌋` exactly.
@@ -95,28 +132,21 @@ fn isqrt(n: u64) -> u64 {
 
 /// A square root of −1 modulo a prime `p ≡ 1 (mod 4)`: `c^{(p−1)/4}` for
 /// the first quadratic non-residue `c` (Euler's criterion; common
-/// practice).
-fn sqrt_minus_one(p: u64) -> Option<u64> {
-    let e = (p - 1) / 4;
-    for c in 2..p.min(1000) {
-        let r = powmod(c, e, p);
-        // r² = c^{(p−1)/2} = −1 exactly when c is a non-residue.
-        if mulmod(r, r, p) == p - 1 {
-            return Some(r);
-        }
-    }
-    None
+/// practice), checked.
+fn sqrt_minus_one(f: &Field, p: u64) -> Option<u64> {
+    let c = (2..p.min(1000)).find(|&c| legendre_u64(c, p) == -1)?;
+    let r = f.pow(c, (p - 1) / 4);
+    (mulmod(r, r, p) == p - 1).then_some(r)
 }
 
 /// `p = a² + b²` with `a` odd, `b` even, both positive (`p ≡ 1 mod 4`).
-fn two_squares(p: u64) -> Option<(u64, u64)> {
-    let r = sqrt_minus_one(p)?;
+fn two_squares(f: &Field, p: u64) -> Option<(u64, u64)> {
+    let r = sqrt_minus_one(f, p)?;
     let root = isqrt(p);
     let (mut x, mut y) = (p, r.min(p - r));
     while y > root {
         (x, y) = (y, x % y);
     }
-    let _ = x;
     let a = y;
     let rest = p - a * a;
     let b = isqrt(rest);
@@ -131,41 +161,28 @@ fn ap_j1728(d: u64, p: u64) -> Option<i64> {
     if d == 0 {
         return None;
     }
-    let (a, b) = two_squares(p)?;
+    let f = Field::new(p);
+    let (a, b) = two_squares(&f, p)?;
     // π = a + bi primary: a + b ≡ 1 (mod 4), b even.
     let (a, b) = (a as i64, b as i64);
     let a = if (a + b).rem_euclid(4) == 1 { a } else { -a };
-    // i ≡ −a/b (mod π).
-    let pi = p as i128;
-    let am = (i128::from(a)).rem_euclid(pi) as u64;
-    let binv = invmod(b as u64 % p, p)?;
-    let i_mod = mulmod((p - am) % p, binv, p);
-    let t = powmod(d, (p - 1) / 4, p);
+    let t = f.pow(d, (p - 1) / 4);
     if t == 1 {
-        Some(2 * a)
-    } else if t == p - 1 {
-        Some(-2 * a)
-    } else if t == i_mod {
+        return Some(2 * a);
+    }
+    if t == p - 1 {
+        return Some(-2 * a);
+    }
+    // i ≡ −a/b (mod π): t = i exactly when t·b ≡ −a, t = −i when t·b ≡ a.
+    let tb = mulmod(t, b as u64, p);
+    let am = i128::from(a).rem_euclid(i128::from(p)) as u64;
+    if tb == (p - am) % p {
         Some(2 * b)
-    } else if t == p - i_mod {
+    } else if tb == am {
         Some(-2 * b)
     } else {
         None
     }
-}
-
-fn invmod(a: u64, p: u64) -> Option<u64> {
-    if a == 0 {
-        return None;
-    }
-    let (mut r0, mut r1) = (i128::from(p), i128::from(a));
-    let (mut t0, mut t1) = (0i128, 1i128);
-    while r1 != 0 {
-        let q = r0 / r1;
-        (r0, r1) = (r1, r0 - q * r1);
-        (t0, t1) = (t1, t0 - q * t1);
-    }
-    (r0 == 1).then(|| t0.rem_euclid(i128::from(p)) as u64)
 }
 
 #[cfg(test)]
@@ -178,7 +195,7 @@ mod tests {
             if p % 4 != 1 {
                 continue;
             }
-            let (a, b) = two_squares(p).expect("p ≡ 1 mod 4");
+            let (a, b) = two_squares(&Field::new(p), p).expect("p ≡ 1 mod 4");
             assert_eq!(u128::from(a) * u128::from(a) + u128::from(b) * u128::from(b), u128::from(p));
             assert!(a % 2 == 1 && b % 2 == 0);
         }
