@@ -242,7 +242,9 @@ fn cm_curves() -> Vec<[i64; 5]> {
             v.push([0, 0, 0, a, 0]); // j = 1728
         }
     }
-    for n in [1i64, 2, 3, 5, 6, 7, 10, 14, 15, 21, 30, 34, 41, 101, 210, 997] {
+    for n in [
+        1i64, 2, 3, 5, 6, 7, 10, 14, 15, 21, 30, 34, 41, 101, 210, 997,
+    ] {
         v.push([0, 0, 0, -n * n, 0]); // congruent-number curves
         v.push([0, 0, 0, n * n, 0]);
         v.push([0, 0, 0, 4 * n, 0]); // quartic twists
@@ -304,11 +306,20 @@ fn closed_form_for_j_1728_equals_point_counts_at_larger_primes() {
         .filter(|&p| (2..p).take_while(|d| d * d <= p).all(|d| p % d != 0))
         .take(12)
         .collect();
-    for a in [[0, 0, 0, -1, 0], [0, 0, 0, -25, 0], [0, 0, 0, 3, 0], [0, 0, 0, 0, 17]] {
+    for a in [
+        [0, 0, 0, -1, 0],
+        [0, 0, 0, -25, 0],
+        [0, 0, 0, 3, 0],
+        [0, 0, 0, 0, 17],
+    ] {
         let l = local(a);
         let t = ApTable::new(&l);
         for &p in &ps {
-            assert_eq!(t.ap(p).unwrap(), brute_ap(&l.minimal_model, p), "{a:?}, p = {p}");
+            assert_eq!(
+                t.ap(p).unwrap(),
+                brute_ap(&l.minimal_model, p),
+                "{a:?}, p = {p}"
+            );
         }
     }
 }

@@ -196,7 +196,10 @@ mod tests {
                 continue;
             }
             let (a, b) = two_squares(&Field::new(p), p).expect("p ≡ 1 mod 4");
-            assert_eq!(u128::from(a) * u128::from(a) + u128::from(b) * u128::from(b), u128::from(p));
+            assert_eq!(
+                u128::from(a) * u128::from(a) + u128::from(b) * u128::from(b),
+                u128::from(p)
+            );
             assert!(a % 2 == 1 && b % 2 == 0);
         }
     }

@@ -15,6 +15,11 @@
 //! shrink to one value within a fixed number of points, the direct count
 //! decides.
 //!
+//! Curves with `j = 1728` or `j = 0` take closed forms first (see
+//! `super::cm`): `a_p = 0` at the supersingular primes, and for `j = 1728`
+//! at `p ≡ 1 (mod 4)` the quartic-character formula; the family is read off
+//! the exact `c4`, `c6`.
+//!
 //! At bad primes `a_p` is `+1` (split multiplicative), `−1` (non-split)
 //! or `0` (additive) [Sil09, VII.5 and C.16]; `a_{p^k}` follows from
 //! `a_{p^{k+1}} = a_p·a_{p^k} − p·a_{p^{k−1}}` (good) and `a_{p^k} = a_p^k`
