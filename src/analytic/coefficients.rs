@@ -502,24 +502,18 @@ pub fn an_list(local: &GlobalLocalData, n: u64, budget: &mut Budget) -> Result<V
                 })?;
             continue;
         }
-        // i = p^k · rest with p ∤ rest.
-        let mut pk = p;
-        let mut rest = i / p;
-        while rest % p == 0 {
-            rest /= p;
-            pk *= p;
-        }
-        if rest > 1 {
-            a[i] = a[pk] * a[rest];
+        // i = p·j with p the smallest prime factor of i, so spf(j) = p
+        // exactly when p | j.
+        let j = i / p;
+        if spf[j] as usize != p {
+            a[i] = a[p] * a[j]; // gcd(p, j) = 1
+        } else if table.bad_ap(p as u64).is_some() {
+            // i = p^k·rest, k ≥ 2: a_{p^k} = a_p·a_{p^{k−1}}, times a_rest.
+            a[i] = a[p] * a[j];
         } else {
-            // i = p^k, k ≥ 2.
-            let ap = a[p];
-            let prev = a[pk / p];
-            a[i] = if table.bad_ap(p as u64).is_some() {
-                ap * prev
-            } else {
-                ap * prev - (p as i64) * a[pk / p / p]
-            };
+            // a_{p^k} = a_p·a_{p^{k−1}} − p·a_{p^{k−2}}, times a_rest
+            // (p ∤ rest): the same relation holds for p^k·rest.
+            a[i] = a[p] * a[j] - (p as i64) * a[j / p];
         }
     }
     Ok(a)
