@@ -1,11 +1,12 @@
-//! Criterion benchmarks for the analytic layer: every `a_p` up to 10⁶, and
+//! Criterion benchmarks for the analytic layer: every `a_p` up to 10⁶,
+//! `a_1..a_30000` with and without the closed form of `j = 1728`, and
 //! the whole analysis (root number, period, certified L-values, analytic
 //! rank) plus the BSD ledger for curves of conductor near 10⁸.
 //!
 //! Run: `cargo bench --bench analytic`.
 
 use criterion::{black_box, criterion_group, criterion_main, Criterion};
-use isodescent::analytic::{analyse, sha_analytic, AnalyticOptions, ApTable};
+use isodescent::analytic::{an_list, analyse, sha_analytic, AnalyticOptions, ApTable};
 use isodescent::curve::{torsion_subgroup, Curve};
 use isodescent::Budget;
 use num_bigint::BigInt;
@@ -95,5 +96,33 @@ fn bench_analyse(c: &mut Criterion) {
     g.finish();
 }
 
-criterion_group!(benches, bench_ap, bench_analyse);
+fn bench_an_list(c: &mut Criterion) {
+    // The coefficients a_1..a_M with M = 30 000, about what the default
+    // options use at the congruent-number conductors N = 32n² near n = 1000:
+    // y² = x³ − 997²x takes the closed form of j = 1728 at every good
+    // p ≥ 5; 37a1 (no complex multiplication) takes direct counts and
+    // baby-step giant-step. docs/performance.md has both trees side by side.
+    let mut g = c.benchmark_group("analytic");
+    g.sample_size(20);
+    for (name, a) in [
+        ("y^2=x^3-997^2x, closed form", [0, 0, 0, -997 * 997, 0]),
+        ("37a1, counts", [0, 0, 1, -1, 0]),
+    ] {
+        let e = Curve::from_ints(a).unwrap_or_else(|_| unreachable!());
+        let local = e
+            .local_data(&mut Budget::unlimited())
+            .unwrap_or_else(|_| unreachable!());
+        g.bench_function(format!("a_n for n <= 30000 ({name})"), |b| {
+            b.iter(|| {
+                black_box(
+                    an_list(&local, 30_000, &mut Budget::unlimited())
+                        .unwrap_or_else(|_| unreachable!()),
+                )
+            })
+        });
+    }
+    g.finish();
+}
+
+criterion_group!(benches, bench_ap, bench_an_list, bench_analyse);
 criterion_main!(benches);

@@ -230,3 +230,96 @@ fn bad_input_is_a_typed_error() {
         Err(Error::BudgetExhausted { .. })
     ));
 }
+
+/// Curves with `j = 1728` and `j = 0` in several models (short models
+/// y² = x³ + Ax and y² = x³ + B, non-minimal ones among them, and models
+/// with a1, a3 ≠ 0 such as y² + y = x³ and y² + xy = x³ − … shapes with
+/// c6 = 0 or c4 = 0). Invented data.
+fn cm_curves() -> Vec<[i64; 5]> {
+    let mut v = Vec::new();
+    for a in -45i64..=45 {
+        if a != 0 {
+            v.push([0, 0, 0, a, 0]); // j = 1728
+        }
+    }
+    for n in [
+        1i64, 2, 3, 5, 6, 7, 10, 14, 15, 21, 30, 34, 41, 101, 210, 997,
+    ] {
+        v.push([0, 0, 0, -n * n, 0]); // congruent-number curves
+        v.push([0, 0, 0, n * n, 0]);
+        v.push([0, 0, 0, 4 * n, 0]); // quartic twists
+    }
+    for b in -40i64..=40 {
+        if b != 0 {
+            v.push([0, 0, 0, 0, b]); // j = 0
+        }
+    }
+    // j = 0 and j = 1728 in models with a1 or a3 ≠ 0: y² + y = x³ (27a),
+    // y² + y = x³ − 7, y² = x³ + x² + … reached by x ↦ x + r from the short
+    // models (c4, c6 unchanged).
+    v.push([0, 0, 1, 0, 0]);
+    v.push([0, 0, 1, 0, -7]);
+    v.push([0, 3, 0, 3 + 2, 1 + 2]); // (x+1)³ + 2(x+1) = x³ + 3x² + 5x + 3
+    v.push([0, -3, 0, 3, 4]); // (x−1)³ + 5 = x³ − 3x² + 3x + 4
+    v
+}
+
+#[test]
+fn closed_forms_for_j_0_and_j_1728_equal_point_counts() {
+    // The closed forms used for j = 1728 (a_p = 0 for p ≡ 3 mod 4; the
+    // quartic-character formula of Ireland–Rosen, A Classical Introduction
+    // to Modern Number Theory, 2nd ed., Ch. 18 §4, Thm. 5, for p ≡ 1 mod 4)
+    // and j = 0 (a_p = 0 for p ≡ 2 mod 3, ibid. Ch. 18 §3) against the
+    // definition a_p = p + 1 − #Ẽ(F_p) counted point by point, at every
+    // prime below 1500 (tens of thousands of (curve, p) pairs).
+    let ps = primes_below(1500);
+    let curves = cm_curves();
+    let mut pairs = 0usize;
+    let mut nonzero_1728 = 0usize;
+    for a in &curves {
+        let e = Curve::from_ints(*a).unwrap();
+        let j = e.j_invariant();
+        assert!(
+            *j.numer() == BigInt::from(1728) * j.denom() || *j.numer() == BigInt::from(0),
+            "{a:?} is not a j = 0 or j = 1728 curve"
+        );
+        let l = local(*a);
+        let t = ApTable::new(&l);
+        for &p in &ps {
+            let want = brute_ap(&l.minimal_model, p);
+            assert_eq!(t.ap(p).unwrap(), want, "curve {a:?}, p = {p}");
+            pairs += 1;
+            if p % 4 == 1 && want != 0 {
+                nonzero_1728 += 1;
+            }
+        }
+    }
+    assert!(pairs > 40_000, "{pairs}");
+    assert!(nonzero_1728 > 10_000, "{nonzero_1728}");
+}
+
+#[test]
+fn closed_form_for_j_1728_equals_point_counts_at_larger_primes() {
+    // As above at primes near 10^6, where the general path would use
+    // baby-step giant-step: the count is still the definition.
+    let ps: Vec<u64> = (1_000_000u64..)
+        .filter(|&p| (2..p).take_while(|d| d * d <= p).all(|d| p % d != 0))
+        .take(12)
+        .collect();
+    for a in [
+        [0, 0, 0, -1, 0],
+        [0, 0, 0, -25, 0],
+        [0, 0, 0, 3, 0],
+        [0, 0, 0, 0, 17],
+    ] {
+        let l = local(a);
+        let t = ApTable::new(&l);
+        for &p in &ps {
+            assert_eq!(
+                t.ap(p).unwrap(),
+                brute_ap(&l.minimal_model, p),
+                "{a:?}, p = {p}"
+            );
+        }
+    }
+}

@@ -15,7 +15,7 @@ use crate::local::legendre_u64;
 
 /// Arithmetic modulo an odd `p < 2³¹` in Montgomery form, `R = 2³²`.
 #[derive(Clone, Copy)]
-struct Mont {
+pub(super) struct Mont {
     p: u64,
     /// `−p⁻¹ mod 2³²`.
     pinv: u32,
@@ -24,7 +24,7 @@ struct Mont {
 }
 
 impl Mont {
-    fn new(p: u64) -> Mont {
+    pub(super) fn new(p: u64) -> Mont {
         // Newton iteration for p⁻¹ mod 2³² (p odd).
         let mut inv: u32 = 1;
         for _ in 0..5 {
@@ -51,7 +51,7 @@ impl Mont {
     }
 
     #[inline]
-    fn mul(&self, a: u64, b: u64) -> u64 {
+    pub(super) fn mul(&self, a: u64, b: u64) -> u64 {
         self.redc(a * b)
     }
 
@@ -74,11 +74,11 @@ impl Mont {
         }
     }
 
-    fn to(&self, a: u64) -> u64 {
+    pub(super) fn to(&self, a: u64) -> u64 {
         self.mul(a % self.p, self.r2)
     }
 
-    fn from(&self, a: u64) -> u64 {
+    pub(super) fn from(&self, a: u64) -> u64 {
         self.redc(a)
     }
 

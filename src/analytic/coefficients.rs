@@ -15,6 +15,11 @@
 //! shrink to one value within a fixed number of points, the direct count
 //! decides.
 //!
+//! Curves with `j = 1728` or `j = 0` take closed forms first (see
+//! `super::cm`): `a_p = 0` at the supersingular primes, and for `j = 1728`
+//! at `p ≡ 1 (mod 4)` the quartic-character formula; the family is read off
+//! the exact `c4`, `c6`.
+//!
 //! At bad primes `a_p` is `+1` (split multiplicative), `−1` (non-split)
 //! or `0` (additive) [Sil09, VII.5 and C.16]; `a_{p^k}` follows from
 //! `a_{p^{k+1}} = a_p·a_{p^k} − p·a_{p^{k−1}}` (good) and `a_{p^k} = a_p^k`
@@ -23,8 +28,9 @@
 
 use num_bigint::BigInt;
 use num_integer::Integer;
-use num_traits::ToPrimitive;
+use num_traits::{ToPrimitive, Zero};
 
+use super::cm::{ap_closed_form, Family};
 use crate::budget::Budget;
 use crate::curve::tate::{integral_invariants, GlobalLocalData, ReductionKind};
 use crate::curve::{torsion_subgroup, Curve};
@@ -56,6 +62,8 @@ pub struct ApTable {
     /// 2 when `E` has a rational point of order 2 (so do its quadratic
     /// twists, whose group orders are then even), else 1.
     torsion_twist: u64,
+    /// `j = 1728`, `j = 0` or neither, from the exact `c4`, `c6`.
+    family: Family,
 }
 
 impl ApTable {
@@ -89,6 +97,13 @@ impl ApTable {
             huge_bad,
             torsion,
             torsion_twist: if torsion % 2 == 0 { 2 } else { 1 },
+            family: if inv.c6.is_zero() {
+                Family::J1728
+            } else if inv.c4.is_zero() {
+                Family::J0
+            } else {
+                Family::General
+            },
         }
     }
 
@@ -127,13 +142,16 @@ impl ApTable {
         if p < 5 {
             return Some(count_small(&self.model, p));
         }
+        // y² = x³ − 27c4·x − 54c6 is isomorphic to E over F_p, p ≥ 5
+        // [Sil09, III.1].
+        let a = (p - self.c4x27.rem(p)) % p;
+        if let Some(v) = ap_closed_form(self.family, a, p) {
+            return Some(v);
+        }
         let bm: [u64; 3] = [self.b[0].rem(p), self.b[1].rem(p), self.b[2].rem(p)];
         if p < DIRECT_COUNT_BELOW {
             return Some(direct(bm, p));
         }
-        // y² = x³ − 27c4·x − 54c6 is isomorphic to E over F_p, p ≥ 5
-        // [Sil09, III.1].
-        let a = (p - self.c4x27.rem(p)) % p;
         let b = (p - self.c6x54.rem(p)) % p;
         let fast = if p < (1 << 31) {
             super::bsgs::ap_fast(a, b, p, POINTS_TRIED, self.torsion, self.torsion_twist)
@@ -484,24 +502,18 @@ pub fn an_list(local: &GlobalLocalData, n: u64, budget: &mut Budget) -> Result<V
                 })?;
             continue;
         }
-        // i = p^k · rest with p ∤ rest.
-        let mut pk = p;
-        let mut rest = i / p;
-        while rest % p == 0 {
-            rest /= p;
-            pk *= p;
-        }
-        if rest > 1 {
-            a[i] = a[pk] * a[rest];
+        // i = p·j with p the smallest prime factor of i, so spf(j) = p
+        // exactly when p | j.
+        let j = i / p;
+        if spf[j] as usize != p {
+            a[i] = a[p] * a[j]; // gcd(p, j) = 1
+        } else if table.bad_ap(p as u64).is_some() {
+            // i = p^k·rest, k ≥ 2: a_{p^k} = a_p·a_{p^{k−1}}, times a_rest.
+            a[i] = a[p] * a[j];
         } else {
-            // i = p^k, k ≥ 2.
-            let ap = a[p];
-            let prev = a[pk / p];
-            a[i] = if table.bad_ap(p as u64).is_some() {
-                ap * prev
-            } else {
-                ap * prev - (p as i64) * a[pk / p / p]
-            };
+            // a_{p^k} = a_p·a_{p^{k−1}} − p·a_{p^{k−2}}, times a_rest
+            // (p ∤ rest): the same relation holds for p^k·rest.
+            a[i] = a[p] * a[j] - (p as i64) * a[j / p];
         }
     }
     Ok(a)
@@ -541,5 +553,64 @@ mod tests {
             let f = crate::analytic::bsgs::ap_fast(aa, 0, p, 40, 4, 2).unwrap_or(i64::MAX);
             assert_eq!(f, d, "p = {p}");
         }
+    }
+
+    #[test]
+    fn closed_forms_apply_and_equal_the_direct_count() {
+        // The closed forms of `super::super::cm` must answer (not fall back)
+        // at every good p ≥ 5 of the shapes they cover, with the value of
+        // the direct count (the definition of a_p).
+        let primes: Vec<u64> = (5u64..3000)
+            .filter(|&p| (2..p).take_while(|d| d * d <= p).all(|d| p % d != 0))
+            .collect();
+        let mut answered = 0;
+        for c in [-30i64, -25, -9, -4, -3, -2, -1, 1, 2, 3, 5, 7, 12, 36, 1000] {
+            for &p in &primes {
+                let cm = c.rem_euclid(p as i64) as u64;
+                if cm == 0 {
+                    continue;
+                }
+                // y² = x³ + cx: b2 = 0, b4 = 2c, b6 = 0.
+                let got = ap_closed_form(Family::J1728, cm, p);
+                assert_eq!(got, Some(direct([0, 2 * cm % p, 0], p)), "A = {c}, p = {p}");
+                answered += 1;
+                // y² = x³ + c: b6 = 4c; a closed form only for p ≡ 2 (mod 3).
+                let got = ap_closed_form(Family::J0, 0, p);
+                if p % 3 == 2 {
+                    assert_eq!(got, Some(direct([0, 0, 4 * cm % p], p)), "B = {c}, p = {p}");
+                } else {
+                    assert_eq!(got, None);
+                }
+            }
+        }
+        assert!(answered > 6000);
+        assert_eq!(ap_closed_form(Family::General, 1, 101), None);
+    }
+
+    #[test]
+    fn closed_form_agrees_with_baby_step_giant_step_at_large_primes() {
+        // Primes near 2^40 and 2^61 (no direct count possible): the closed
+        // form for y² = x³ + Ax against the affine baby-step giant-step,
+        // which returns only a proven value.
+        let mut checked = 0;
+        for start in [(1u64 << 40) + 1, (1u64 << 61) - 1003] {
+            let mut p = start;
+            let mut found = 0;
+            while found < 4 {
+                p += 4;
+                if p % 4 != 1 || !crate::arith::is_prime_u64(p) {
+                    continue;
+                }
+                found += 1;
+                for c in [1u64, 2, 3, 5, p - 1, p - 4, p - 25] {
+                    let v = ap_closed_form(Family::J1728, c, p).expect("closed form");
+                    if let Some(w) = bsgs(c, 0, p, 200) {
+                        assert_eq!(v, w, "A = {c}, p = {p}");
+                        checked += 1;
+                    }
+                }
+            }
+        }
+        assert!(checked >= 40, "{checked}");
     }
 }

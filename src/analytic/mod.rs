@@ -4,8 +4,9 @@
 //! theorem, and the Birch–Swinnerton-Dyer ledger.
 //!
 //! # Overview
-//! * `coefficients`: `a_p` (direct counts, baby-step giant-step on the
-//!   curve and its twist), `a_n` by multiplicativity.
+//! * `coefficients`: `a_p` (closed forms for `j = 1728` and `j = 0` in
+//!   `cm`, else direct counts, baby-step giant-step on the curve and its
+//!   twist), `a_n` by multiplicativity.
 //! * `root_number`: `w(E) = −∏ w_p` where every `w_p` has a closed
 //!   formula (all primes unless additive at 2 or 3).
 //! * `period`: the real period by the AGM, with the number of real
@@ -39,6 +40,7 @@
 
 mod bsgs;
 pub(crate) mod certified;
+mod cm;
 pub(crate) mod coefficients;
 pub(crate) mod ledger;
 pub(crate) mod period;
