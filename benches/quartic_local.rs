@@ -18,6 +18,7 @@
 //! Run: `cargo bench --bench quartic_local`.
 
 use criterion::{black_box, criterion_group, criterion_main, Criterion};
+use isodescent::curve::ReducedModel;
 use isodescent::local::{Place, Prime};
 use isodescent::quartic::{local_image, locally_soluble, Quartic};
 use isodescent::Budget;
@@ -107,8 +108,8 @@ fn bench(c: &mut Criterion) {
 
 /// `(a, b, place)` for every place a congruent-number descent visits,
 /// sorted into real, 2, odd `p < 64`, odd `p ≥ 64`.
-fn congruent_places(n_max: i64) -> [Vec<(BigInt, BigInt, Place)>; 4] {
-    let mut out: [Vec<(BigInt, BigInt, Place)>; 4] = Default::default();
+fn congruent_places(n_max: i64) -> [Vec<(ReducedModel, Place)>; 4] {
+    let mut out: [Vec<(ReducedModel, Place)>; 4] = Default::default();
     for n in 1..=n_max {
         if (2..).take_while(|p| p * p <= n).any(|p| n % (p * p) == 0) {
             continue;
@@ -124,12 +125,12 @@ fn congruent_places(n_max: i64) -> [Vec<(BigInt, BigInt, Place)>; 4] {
             }
         }
         for b in [-n * n, 4 * n * n] {
-            let (a, b) = (BigInt::from(0), BigInt::from(b));
-            out[0].push((a.clone(), b.clone(), Place::Real));
-            out[1].push((a.clone(), b.clone(), Place::Finite(Prime::two())));
+            let m = ReducedModel::new(BigInt::from(0), BigInt::from(b)).unwrap();
+            out[0].push((m.clone(), Place::Real));
+            out[1].push((m.clone(), Place::Finite(Prime::two())));
             for &p in &odd {
                 let v = Place::Finite(Prime::small(p).unwrap());
-                out[if p < 64 { 2 } else { 3 }].push((a.clone(), b.clone(), v));
+                out[if p < 64 { 2 } else { 3 }].push((m.clone(), v));
             }
         }
     }
@@ -144,8 +145,8 @@ fn bench_images(c: &mut Criterion) {
         let label = format!("congruent n <= 300, {name}, {} images", list.len());
         group.bench_function(label, |bch| {
             bch.iter(|| {
-                for (a, b, v) in list {
-                    black_box(local_image(a, b, v, &mut Budget::unlimited()).unwrap());
+                for (m, v) in list {
+                    black_box(local_image(m, v, &mut Budget::unlimited()).unwrap());
                 }
             })
         });

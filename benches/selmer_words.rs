@@ -9,6 +9,7 @@
 //! by side comparison.
 
 use criterion::{black_box, criterion_group, criterion_main, Criterion};
+use isodescent::curve::ReducedModel;
 use isodescent::curve::{global_local_data, Curve};
 use isodescent::descent::{descend, DescentOptions};
 use isodescent::local::{Place, Prime};
@@ -80,7 +81,10 @@ fn bench_images(c: &mut Criterion) {
             }
             for b in [-n * n, 4 * n * n] {
                 for v in &places {
-                    jobs.push((BigInt::from(0), BigInt::from(b), v.clone()));
+                    jobs.push((
+                        ReducedModel::new(BigInt::from(0), BigInt::from(b)).unwrap(),
+                        v.clone(),
+                    ));
                 }
             }
         }
@@ -90,8 +94,8 @@ fn bench_images(c: &mut Criterion) {
         );
         group.bench_function(label, |bch| {
             bch.iter(|| {
-                for (a, b, v) in &jobs {
-                    black_box(local_image(a, b, v, &mut Budget::unlimited()).unwrap());
+                for (m, v) in &jobs {
+                    black_box(local_image(m, v, &mut Budget::unlimited()).unwrap());
                 }
             })
         });

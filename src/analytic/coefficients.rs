@@ -235,15 +235,8 @@ fn submod(a: u64, b: u64, p: u64) -> u64 {
 }
 
 fn invmod(a: u64, p: u64) -> u64 {
-    // Extended Euclid on signed 128-bit values (a ≠ 0 mod p).
-    let (mut r0, mut r1) = (i128::from(p), i128::from(a));
-    let (mut t0, mut t1) = (0i128, 1i128);
-    while r1 != 0 {
-        let q = r0 / r1;
-        (r0, r1) = (r1, r0 - q * r1);
-        (t0, t1) = (t1, t0 - q * t1);
-    }
-    t0.rem_euclid(i128::from(p)) as u64
+    // a ≠ 0 mod p at every call (the group law divides by a nonzero difference).
+    crate::arith::word::inv_mod(a, p).unwrap_or(0)
 }
 
 /// `a_p = −Σ_x (f(x)/p)` with `f = 4x³ + b2x² + 2b4x + b6` (odd `p`).

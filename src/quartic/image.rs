@@ -36,6 +36,7 @@
 use super::form::Quartic;
 use super::solubility::{locally_soluble, LocalSolubility};
 use crate::budget::Budget;
+use crate::curve::ReducedModel;
 use crate::error::{Error, Result};
 use crate::local::{class_dimension, class_representatives, Place, Prime};
 use num_bigint::BigInt;
@@ -172,12 +173,8 @@ fn f2_basis(masks: &[u8]) -> Vec<u8> {
 ///
 /// Example: for `y² = x³ − x` (`a = 0, b = −1`) at `R`: `C_{−1}` is
 /// `N² = −M⁴ + e⁴`, soluble, so `W_R = {1, −1}`, masks `[0, 1]`.
-pub fn local_image(
-    a: &BigInt,
-    b: &BigInt,
-    place: &Place,
-    budget: &mut Budget,
-) -> Result<LocalImage> {
+pub fn local_image(model: &ReducedModel, place: &Place, budget: &mut Budget) -> Result<LocalImage> {
+    let (a, b) = (model.a(), model.b());
     let reps = class_representatives(place);
     debug_assert_eq!(reps.len(), 1 << class_dimension(place));
     let mut members = Vec::new();

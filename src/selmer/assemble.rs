@@ -73,7 +73,7 @@ pub(crate) fn assemble_selmer(
     let mut local_images = Vec::with_capacity(places.len());
     let mut conditions = Vec::with_capacity(places.len());
     for v in &places {
-        let w = local_image(model.a(), model.b(), v, budget)?;
+        let w = local_image(model, v, budget)?;
         conditions.push(LocalCondition::from_masks(v.clone(), &w.members));
         local_images.push(w);
     }

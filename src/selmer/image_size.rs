@@ -424,11 +424,10 @@ pub fn check_local_images(
     primes: &[Prime],
     budget: &mut Budget,
 ) -> Result<Vec<(Place, u64, u64)>> {
-    let (a, b) = (model.a(), model.b());
     let mut rows = Vec::new();
     for v in places_for(primes) {
         let predicted = predicted_local_image_size(model, &v)?;
-        let w = local_image(a, b, &v, budget)?;
+        let w = local_image(model, &v, budget)?;
         rows.push((v, predicted, 1u64 << w.dimension));
     }
     Ok(rows)

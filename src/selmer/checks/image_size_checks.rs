@@ -5,8 +5,8 @@
 //! computed Selmer groups. Bounded families here; the full families are in
 //! `src/selmer/checks/image_size_families.rs` (ignored by default).
 
-use crate::arith::factor_u64;
 use super::{b, primes_of_2n, rm, rmb};
+use crate::arith::factor_u64;
 use crate::curve::ReducedModel;
 use crate::curve::{Curve, Point, TwoIsogeny};
 use crate::descent::{descend_isogeny, DescentOptions};
@@ -19,8 +19,6 @@ use crate::selmer::image_size::{
 };
 use crate::{Budget, Error};
 use num_rational::BigRational;
-
-
 
 /// Checks E = (a, b) and E′ = (−2a, a² − 4b) at R and every prime of
 /// 2b(a² − 4b); returns the number of (curve, place) pairs compared.
@@ -121,8 +119,7 @@ fn the_change_to_minimal_models_matters_at_two_and_is_accounted_for() {
             if t.scaling != t.scaling_dual {
                 corrected += 1;
                 let w = local_image(
-                    &b(a),
-                    &b(bb),
+                    &rm(a, bb),
                     &Place::Finite(Prime::two()),
                     &mut Budget::unlimited(),
                 )
@@ -174,7 +171,7 @@ fn the_real_count_from_components_is_the_sign_rule_and_the_real_image() {
                 1
             };
             assert_eq!(t.size().unwrap(), by_rule, "a={a} b={bb}: {t:?}");
-            let w = local_image(&b(a), &b(bb), &Place::Real, &mut Budget::unlimited()).unwrap();
+            let w = local_image(&rm(a, bb), &Place::Real, &mut Budget::unlimited()).unwrap();
             assert_eq!(1u64 << w.dimension, by_rule, "a={a} b={bb}");
         }
     }
@@ -265,7 +262,7 @@ fn a_local_image_of_the_wrong_size_is_caught() {
         Place::Finite(Prime::small(5).unwrap()),
     ]
     .iter()
-    .map(|v| local_image(&a, &bb, v, &mut Budget::unlimited()).unwrap())
+    .map(|v| local_image(&rmb(&a, &bb), v, &mut Budget::unlimited()).unwrap())
     .collect();
     assert!(images_match_prediction(&rmb(&a, &bb), &images));
     let primes = primes_of_2n(&[25]);

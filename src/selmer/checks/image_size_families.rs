@@ -7,8 +7,8 @@
 
 use std::time::Instant;
 
-use crate::arith::factor_u64;
 use super::{primes_of_2n, rm, rmb};
+use crate::arith::factor_u64;
 use crate::curve::{Curve, Point};
 use crate::descent::{descend_isogeny, DescentOptions};
 use crate::local::{Place, Prime};
@@ -17,8 +17,6 @@ use crate::selmer::image_size::{
     selmer_difference_from_tamagawa,
 };
 use crate::Budget;
-
-
 
 #[derive(Default, Debug)]
 struct Tally {
