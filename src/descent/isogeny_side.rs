@@ -30,7 +30,7 @@ use crate::curve::{Point, ReducedModel};
 use crate::error::{Error, Result};
 use crate::local::{Place, Prime};
 use crate::quartic::image::LocalImage;
-use crate::quartic::search::{search, QuarticPoint, SearchOptions, SearchOutcome};
+use crate::quartic::search::{search_quartic, QuarticPoint, SearchOptions, SearchOutcome};
 use crate::quartic::second_descent::{
     second_descent, second_descent_on_twists, NoPointEvidence, SecondDescentOptions,
     SecondDescentOutcome,
@@ -310,12 +310,12 @@ impl SelmerSide {
 }
 
 /// The search quartic for class d and the factor f with y = f·N.
-fn space_for(d: &BigInt, a: &BigInt, b: &BigInt) -> Result<([BigInt; 5], BigInt)> {
-    let q = Quartic::two_isogeny_space(d, a, b)?;
-    let h = d.gcd(b);
+fn space_for(d: &BigInt, model: &ReducedModel) -> Result<(Quartic, BigInt)> {
+    let q = Quartic::two_isogeny_space(d, model.a(), model.b())?;
+    let h = d.gcd(model.b());
     let d1 = d / &h;
     let f = if d1.is_negative() { -d1 } else { d1 };
-    Ok((q.coeffs().clone(), f))
+    Ok((q, f))
 }
 
 /// The point of E from a point (M, e, y) of the search quartic for d.
@@ -899,10 +899,10 @@ fn search_coset(
         if d.is_one() {
             continue;
         }
-        let (coeffs, f) = space_for(&d, model.a(), model.b())?;
+        let (space, f) = space_for(&d, model)?;
         let mut budget = ctx.budget(options.search_units);
-        let outcome = search(
-            &coeffs,
+        let outcome = search_quartic(
+            &space,
             &SearchOptions::up_to(options.search_height),
             &mut budget,
         )?;
@@ -912,7 +912,7 @@ fn search_coset(
         };
         progress.searches.push(SearchRecord {
             class: d.clone(),
-            quartic: coeffs,
+            quartic: space.coeffs().clone(),
             outcome,
         });
         if let Some((point, on_space)) = found {
