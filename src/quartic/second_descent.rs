@@ -1009,35 +1009,17 @@ pub fn second_descent(
     }
     let mut survivors = Vec::new();
     for (lambda, coeffs, par, k, frame) in soluble {
-        let mut sub = Budget::with_units(options.search_units);
-        let outcome = search(
-            &coeffs,
-            &SearchOptions::up_to(options.search_height),
-            &mut sub,
-        )?;
-        spend(
-            budget,
-            sub.spent().min(options.search_units),
-            "second descent: covering searches",
-        )?;
-        if let SearchOutcome::Found(cp) = &outcome {
-            if let Some(found) = map_back(a, b, d, &s, &lambda, &par, &k, &frame, cp)? {
-                let (space_point, x, y) = found;
-                return Ok(SecondDescentOutcome::Point {
-                    space_point,
-                    point_x: x,
-                    point_y: y,
-                    lambda,
-                    covering: coeffs,
-                    covering_point: cp.clone(),
-                });
-            }
-        }
-        survivors.push(SurvivingCovering {
+        let covering = SolubleCovering {
             lambda,
-            covering: coeffs,
-            search: outcome,
-        });
+            coeffs,
+            par,
+            k,
+            frame,
+        };
+        match search_covering(a, b, d, &s, covering, options, budget)? {
+            Ok(point) => return Ok(point),
+            Err(survivor) => survivors.push(survivor),
+        }
     }
     Ok(SecondDescentOutcome::Undecided {
         survivors,
@@ -1136,36 +1118,17 @@ pub fn second_descent_on_twists(
                 k,
                 frame,
             } => {
-                let mut sub = Budget::with_units(options.search_units);
-                let outcome = search(
-                    &coeffs,
-                    &SearchOptions::up_to(options.search_height),
-                    &mut sub,
-                )?;
-                spend(
-                    budget,
-                    sub.spent().min(options.search_units),
-                    "second descent: covering searches",
-                )?;
-                if let SearchOutcome::Found(cp) = &outcome {
-                    if let Some((space_point, x, y)) =
-                        map_back(a, b, d, &s, &lambda, &par, &k, &frame, cp)?
-                    {
-                        return Ok(SecondDescentOutcome::Point {
-                            space_point,
-                            point_x: x,
-                            point_y: y,
-                            lambda,
-                            covering: coeffs,
-                            covering_point: cp.clone(),
-                        });
-                    }
-                }
-                survivors.push(SurvivingCovering {
+                let covering = SolubleCovering {
                     lambda,
-                    covering: coeffs,
-                    search: outcome,
-                });
+                    coeffs,
+                    par,
+                    k,
+                    frame,
+                };
+                match search_covering(a, b, d, &s, covering, options, budget)? {
+                    Ok(point) => return Ok(point),
+                    Err(survivor) => survivors.push(survivor),
+                }
             }
         }
     }
@@ -1173,6 +1136,60 @@ pub fn second_descent_on_twists(
         survivors,
         obstructions,
     })
+}
+
+/// A locally soluble 4-covering D_λ with what maps its points back to C_d.
+struct SolubleCovering {
+    lambda: BigInt,
+    coeffs: [BigInt; 5],
+    par: [[BigInt; 3]; 3],
+    k: BigInt,
+    frame: [[BigInt; 2]; 2],
+}
+
+/// Searches one soluble covering (its own search budget, charged to
+/// `budget`): the point of C_d and E if one is found and maps back, else
+/// the covering as a survivor with its search.
+#[allow(clippy::too_many_arguments)]
+fn search_covering(
+    a: &BigInt,
+    b: &BigInt,
+    d: &BigInt,
+    s: &Setup,
+    c: SolubleCovering,
+    options: &SecondDescentOptions,
+    budget: &mut Budget,
+) -> Result<std::result::Result<SecondDescentOutcome, SurvivingCovering>> {
+    let mut sub = Budget::with_units(options.search_units);
+    let outcome = search(
+        &c.coeffs,
+        &SearchOptions::up_to(options.search_height),
+        &mut sub,
+    )?;
+    spend(
+        budget,
+        sub.spent().min(options.search_units),
+        "second descent: covering searches",
+    )?;
+    if let SearchOutcome::Found(cp) = &outcome {
+        if let Some((space_point, x, y)) =
+            map_back(a, b, d, s, &c.lambda, &c.par, &c.k, &c.frame, cp)?
+        {
+            return Ok(Ok(SecondDescentOutcome::Point {
+                space_point,
+                point_x: x,
+                point_y: y,
+                lambda: c.lambda,
+                covering: c.coeffs,
+                covering_point: cp.clone(),
+            }));
+        }
+    }
+    Ok(Err(SurvivingCovering {
+        lambda: c.lambda,
+        covering: c.coeffs,
+        search: outcome,
+    }))
 }
 
 /// Maps a point of the covering `g_λ` back to `C_d` and `E`, and verifies
