@@ -343,18 +343,39 @@ pub(crate) fn ap_fast(
         let k = if chi == 1 { k_curve } else { k_twist };
         let c = candidates(&e, f.to(xx * d % p), f.to(d2), bound, k.max(1));
         let Some(c) = c else { continue };
-        let c: Vec<i64> = c.into_iter().map(|v| v * chi).collect();
-        let next: Vec<i64> = match live.take() {
-            None => c,
-            Some(prev) => prev.into_iter().filter(|v| c.contains(v)).collect(),
-        };
-        if next.len() == 1 {
-            return next.first().copied();
+        match narrow_candidates(&mut live, c, chi) {
+            Narrowed::One(ap) => return Some(ap),
+            Narrowed::None => return None,
+            Narrowed::Several => {}
         }
-        if next.is_empty() {
-            return None;
-        }
-        live = Some(next);
     }
     None
+}
+
+/// What is left of the candidates for `a_p` after one more point.
+pub(crate) enum Narrowed {
+    /// Exactly one candidate: `a_p`.
+    One(i64),
+    /// None left (impossible for a nonsingular curve; the caller falls back).
+    None,
+    /// Still several; `live` holds them.
+    Several,
+}
+
+/// Intersects the candidates `c` for `χ·a_p` (translated to `a_p`) with
+/// those still `live` from earlier points.
+pub(crate) fn narrow_candidates(live: &mut Option<Vec<i64>>, c: Vec<i64>, chi: i64) -> Narrowed {
+    let c: Vec<i64> = c.into_iter().map(|v| v * chi).collect();
+    let next: Vec<i64> = match live.take() {
+        None => c,
+        Some(prev) => prev.into_iter().filter(|v| c.contains(v)).collect(),
+    };
+    match next.as_slice() {
+        [] => Narrowed::None,
+        [ap] => Narrowed::One(*ap),
+        _ => {
+            *live = Some(next);
+            Narrowed::Several
+        }
+    }
 }

@@ -410,19 +410,12 @@ fn bsgs(a: u64, b: u64, p: u64, tries: u64) -> Option<i64> {
         let Some(c) = candidates(&f, pt, bound) else {
             continue;
         };
-        // Candidates for χ·a_p; translate to a_p.
-        let c: Vec<i64> = c.into_iter().map(|v| v * chi).collect();
-        let next: Vec<i64> = match live.take() {
-            None => c,
-            Some(prev) => prev.into_iter().filter(|v| c.contains(v)).collect(),
-        };
-        if next.len() == 1 {
-            return next.first().copied();
+        // Candidates for χ·a_p; translated to a_p.
+        match super::bsgs::narrow_candidates(&mut live, c, chi) {
+            super::bsgs::Narrowed::One(ap) => return Some(ap),
+            super::bsgs::Narrowed::None => return None,
+            super::bsgs::Narrowed::Several => {}
         }
-        if next.is_empty() {
-            return None; // impossible for a nonsingular curve; be safe
-        }
-        live = Some(next);
     }
     None
 }
