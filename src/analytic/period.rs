@@ -25,8 +25,7 @@
 use std::cmp::Ordering;
 
 use num_bigint::BigInt;
-use num_rational::BigRational;
-use num_traits::{Signed, ToPrimitive, Zero};
+use num_traits::{Signed, ToPrimitive};
 
 use super::certified::{pi, Certified};
 use crate::curve::tate::integral_invariants;
@@ -43,24 +42,11 @@ pub struct RealPeriod {
     pub omega: Certified,
 }
 
-/// Sign of `4x³ + b2x² + 2b4x + b6` at a binary64 `x`, exactly.
+/// Sign of `4x³ + b2x² + 2b4x + b6` at a binary64 `x`, exactly
+/// ([`crate::arith::sign_at_f64`]); `Equal` for a non-finite `x`.
 fn sign_at(b: &[BigInt; 3], x: f64) -> Ordering {
-    let Some(q) = BigRational::from_float(x) else {
-        return Ordering::Equal;
-    };
-    let (n, d) = (q.numer().clone(), q.denom().clone());
-    // d³·f(n/d) = 4n³ + b2n²d + 2b4nd² + b6d³; d > 0.
-    let v: BigInt = BigInt::from(4) * &n * &n * &n
-        + &b[0] * &n * &n * &d
-        + BigInt::from(2) * &b[1] * &n * &d * &d
-        + &b[2] * &d * &d * &d;
-    if v.is_zero() {
-        Ordering::Equal
-    } else if v.is_positive() {
-        Ordering::Greater
-    } else {
-        Ordering::Less
-    }
+    let c = [b[2].clone(), &b[1] * 2, b[0].clone(), BigInt::from(4)];
+    crate::arith::sign_at_f64(&c, x).unwrap_or(Ordering::Equal)
 }
 
 fn big_f64(x: &BigInt) -> Option<Certified> {

@@ -9,6 +9,7 @@
 //! * `roots`: integer and rational square roots, perfect squares;
 //! * `squarefree`: square-free parts and kernels.
 
+pub(crate) mod dyadic;
 pub(crate) mod ecm;
 pub(crate) mod ecm64;
 pub(crate) mod factor;
@@ -22,6 +23,7 @@ pub(crate) mod small;
 pub(crate) mod squarefree;
 pub(crate) mod word;
 
+pub use dyadic::sign_at_f64;
 pub use factor::{factor, factor_u64, Factorization};
 pub use prime::{is_prime, is_prime_u64, jacobi};
 pub use roots::{is_perfect_square, isqrt, rational_sqrt_exact, sqrt_exact};

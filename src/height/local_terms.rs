@@ -75,14 +75,6 @@ pub(crate) fn ratio_f64(num: &BigInt, den: &BigInt) -> f64 {
 
 /// Horner evaluation of an exact integer polynomial (ascending
 /// coefficients) at a rational point.
-fn eval_exact(c: &[BigInt], x: &BigRational) -> BigRational {
-    let mut acc = BigRational::zero();
-    for a in c.iter().rev() {
-        acc = acc * x + BigRational::from_integer(a.clone());
-    }
-    acc
-}
-
 fn eval_f64(c: &[f64], x: f64) -> f64 {
     c.iter().rev().fold(0.0, |acc, a| acc * x + a)
 }
@@ -207,10 +199,7 @@ impl Archimedean {
         ]
         .into_iter()
         .fold(1.0, f64::max);
-        let sign = |x: f64| -> Option<std::cmp::Ordering> {
-            let q = BigRational::from_float(x)?;
-            Some(eval_exact(&fc, &q).cmp(&BigRational::zero()))
-        };
+        let sign = |x: f64| crate::arith::sign_at_f64(&fc, x);
         use std::cmp::Ordering::{Greater, Less};
         // Certified brackets: E(R) ⊂ [p0, qa] ∪ [qb, ∞) (Δ > 0) or [p0, ∞).
         let mut cert: Option<(f64, Option<(f64, f64)>)> = None;
