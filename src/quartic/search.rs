@@ -681,13 +681,31 @@ impl Modulus {
     }
 
     /// Copies bits `0..m` of row `r` periodically over the rest of the row.
+    /// Copies in chunks of `min(m, 64)` bits, each read from bits already
+    /// final (`t − m ≥ 0` and below `t`).
     fn extend_row(&mut self, r: usize) {
         let m = self.m as usize;
         let row = &mut self.rows[r * self.wpr..(r + 1) * self.wpr];
-        for t in m..64 * row.len() {
+        let total = 64 * row.len();
+        let mut t = m;
+        while t < total {
+            let len = m.min(64).min(total - t);
             let u = t - m;
-            let bit = (row[u / 64] >> (u % 64)) & 1;
-            row[t / 64] |= bit << (t % 64);
+            // bits u .. u+len of the row
+            let (q, sh) = (u / 64, u % 64);
+            let mut bits = row[q] >> sh;
+            if sh != 0 && q + 1 < row.len() {
+                bits |= row[q + 1] << (64 - sh);
+            }
+            if len < 64 {
+                bits &= (1u64 << len) - 1;
+            }
+            let (q, sh) = (t / 64, t % 64);
+            row[q] |= bits << sh;
+            if sh != 0 && q + 1 < row.len() {
+                row[q + 1] |= bits >> (64 - sh);
+            }
+            t += len;
         }
     }
 
@@ -712,6 +730,28 @@ impl Modulus {
             let p = *p as u64;
             let p_divides_z = zr % p == 0;
             let row = &mut self.rows[ri * self.wpr..(ri + 1) * self.wpr];
+            // g(xr) mod m for xr = 0, 1, 2, … by forward differences: the
+            // value and its first three differences step by additions mod m,
+            // the fourth difference is the constant 24·d0 (common practice;
+            // the same values as Horner's rule, checked by a test).
+            let g = |x: u64| ((((d[0] * x + d[1]) * x + d[2]) * x + d[3]) * x + d[4]) % m;
+            let add = |u: u64, v: u64| if u + v >= m { u + v - m } else { u + v };
+            let sub = |u: u64, v: u64| if u >= v { u - v } else { u + m - v };
+            let g0 = g(0);
+            let g1 = g(1);
+            let g2 = g(2);
+            let g3 = g(3);
+            let g4 = g(4);
+            let mut v = g0;
+            let mut d1 = sub(g1, g0);
+            let e1 = sub(g2, g1);
+            let e2 = sub(g3, g2);
+            let e3 = sub(g4, g3);
+            let mut d2 = sub(e1, d1);
+            let f2 = sub(e2, e1);
+            let f3 = sub(e3, e2);
+            let mut d3 = sub(f2, d2);
+            let d4 = sub(sub(f3, f2), d3);
             let mut xp = 0u64; // xr mod p
             for xr in 0..m {
                 let coprime_ok = !(p_divides_z && xp == 0);
@@ -719,14 +759,14 @@ impl Modulus {
                 if xp == p {
                     xp = 0;
                 }
-                if !coprime_ok {
-                    continue;
-                }
-                let v = (((d[0] * xr + d[1]) * xr + d[2]) * xr + d[3]) * xr + d[4];
-                if is_square[(v % m) as usize] {
+                if coprime_ok && is_square[v as usize] {
                     row[(xr / 64) as usize] |= 1 << (xr % 64);
                     count += 1;
                 }
+                v = add(v, d1);
+                d1 = add(d1, d2);
+                d2 = add(d2, d3);
+                d3 = add(d3, d4);
             }
             self.extend_row(ri);
         }
@@ -968,6 +1008,56 @@ impl Sieve {
 #[cfg(test)]
 #[allow(clippy::unwrap_used)] // tests may unwrap
 mod tests {
+    #[test]
+    fn stepped_rows_agree_with_horner() {
+        // Each computed row against the defining condition evaluated
+        // directly: g(x, r) a square mod m and p ∤ gcd(x, r).
+        let coeffs = [
+            BigInt::from(-7),
+            BigInt::from(123_456_789),
+            BigInt::from(-3),
+            BigInt::from(10).pow(25) + 1,
+            BigInt::from(5),
+        ];
+        for &(m, p) in &SIEVE_MODULI {
+            let mut md = Modulus::square(m, p, &coeffs);
+            let mm = i128::from(m);
+            let c: Vec<i128> = coeffs
+                .iter()
+                .map(|ci| (ci % BigInt::from(m)).to_i128().unwrap().rem_euclid(mm))
+                .collect();
+            let squares: Vec<i128> = (0..mm).map(|t| t * t % mm).collect();
+            for r in 0..m {
+                let pop = md.ensure_row(r);
+                let mut count = 0;
+                let mut wants = Vec::new();
+                for x in 0..m {
+                    let (xi, zi) = (i128::from(x), i128::from(r));
+                    let v = (c[0] * xi.pow(4) % mm
+                        + c[1] * xi.pow(3) % mm * zi % mm
+                        + c[2] * xi * xi % mm * (zi * zi % mm) % mm
+                        + c[3] * xi % mm * (zi.pow(3) % mm) % mm
+                        + c[4] * (zi.pow(4) % mm))
+                        % mm;
+                    let want = squares.contains(&v) && !(x % p == 0 && r % p == 0);
+                    let got = md.window(r as usize, x as usize) & 1 == 1;
+                    assert_eq!(got, want, "m = {m}, r = {r}, x = {x}");
+                    count += u32::from(want);
+                    wants.push(want);
+                }
+                assert_eq!(pop, count, "m = {m}, r = {r}");
+                // The periodic extension: 64 bits from every offset.
+                for o in 0..m as usize {
+                    let w = md.window(r as usize, o);
+                    for k in 0..64 {
+                        let want = wants[(o + k) % m as usize];
+                        assert_eq!(w >> k & 1 == 1, want, "m = {m}, r = {r}, o = {o}, k = {k}");
+                    }
+                }
+            }
+        }
+    }
+
     use super::*;
 
     #[test]
