@@ -39,6 +39,31 @@ fn bench_local_only(c: &mut Criterion) {
     g.finish();
 }
 
+/// The figures of issue 16, one curve family each: the isogeny Selmer
+/// groups alone (census mode `isogeny-selmer`) on congruent n ≤ 2000, and
+/// the full defaults on congruent n ≤ 150.
+fn bench_issue16(c: &mut Criterion) {
+    let mut g = c.benchmark_group("descent/congruent");
+    g.sample_size(10);
+    let mut selmer_only = DescentOptions::default().local_conditions_only();
+    selmer_only.lifting_pairing = false;
+    for (label, to, opts) in [
+        ("isogeny_selmer_n_1_to_2000", 2000, selmer_only),
+        ("full_default_n_1_to_150", 150, DescentOptions::default()),
+    ] {
+        let curves = congruent_curves(1, to);
+        g.throughput(Throughput::Elements(curves.len() as u64));
+        g.bench_function(label, |bch| {
+            bch.iter(|| {
+                for e in &curves {
+                    black_box(descend(e, &opts).ok());
+                }
+            })
+        });
+    }
+    g.finish();
+}
+
 fn bench_full(c: &mut Criterion) {
     let mut g = c.benchmark_group("descent/full_default");
     g.sample_size(10);
@@ -60,5 +85,5 @@ fn bench_full(c: &mut Criterion) {
     g.finish();
 }
 
-criterion_group!(benches, bench_local_only, bench_full);
+criterion_group!(benches, bench_local_only, bench_issue16, bench_full);
 criterion_main!(benches);
