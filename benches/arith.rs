@@ -18,7 +18,9 @@
 //! of group `factor_sizes` repeatedly for that many seconds of process CPU time (user +
 //! system, from /proc/self/stat, Linux only) and prints the mean CPU time per call instead
 //! of running criterion; `scripts/factor_side_by_side.py --cpu` reads that output and
-//! times python-flint the same way.
+//! times python-flint the same way. `FACTOR_ONLY=8,9` restricts that table to some sizes;
+//! `FACTOR_RANDOM_SECS=0.3` adds the sixty products of `RANDOM_SMALL` (8, 9, 10 digits),
+//! each timed for that many CPU seconds.
 
 use criterion::{black_box, criterion_group, Criterion};
 use isodescent::arith::factor;
@@ -72,6 +74,89 @@ const SIZES: [(u32, &str); 15] = [
     (22, "17778604110573035003702769146759503953219199"),
 ];
 
+/// Twenty products `p·q` of two random primes of `d` digits for d = 8, 9, 10 (sympy 1.14.0:
+/// `rng = random.Random(99)`, then for d = 8, 9, 10 in turn, twenty times,
+/// `p = sympy.nextprime(rng.randrange(10**(d-1), 10**d))` and the same for q). The same
+/// numbers are in scripts/factor_side_by_side.py; the first four of each size, with their
+/// factors, are in tests/factor_sizes.rs.
+const RANDOM_SMALL: [(u32, [&str; 20]); 3] = [
+    (
+        8,
+        [
+            "3924146792516243",
+            "3333612690708403",
+            "1390717972380949",
+            "1208591874089917",
+            "945003346537753",
+            "4989587991669037",
+            "1815202498752761",
+            "7093334036969441",
+            "2448715862826427",
+            "8212760321591093",
+            "2352649843093573",
+            "2392600744862203",
+            "2189703335150021",
+            "3356915797691041",
+            "4775748161661937",
+            "1711192252943513",
+            "1589266333577641",
+            "3359726082167149",
+            "725818674774881",
+            "935688169246379",
+        ],
+    ),
+    (
+        9,
+        [
+            "177426454207736369",
+            "329623373649364229",
+            "111348715947414199",
+            "205404362599075421",
+            "447711410589554327",
+            "75052263430052429",
+            "79173621877086313",
+            "236645458872292583",
+            "857707692808824941",
+            "424584911464823267",
+            "186151069355298139",
+            "233801089328447603",
+            "30459808557936943",
+            "35482698338340481",
+            "507801812636096201",
+            "538985725215428663",
+            "104200779802504031",
+            "149777100076381529",
+            "109655869132926811",
+            "80934909190192391",
+        ],
+    ),
+    (
+        10,
+        [
+            "18998725169633558989",
+            "19437965655894854933",
+            "54972844699175988323",
+            "7237127992559856883",
+            "14325130763627602159",
+            "3429227387587624507",
+            "14510955564747208051",
+            "10466854515272725781",
+            "9992824970830911617",
+            "71780013635657658349",
+            "11207355425534828849",
+            "60733640652294213139",
+            "61111208799570603599",
+            "29577943796146494169",
+            "54075234115210907857",
+            "19695927943473611471",
+            "28160606081358382757",
+            "46510457332941745499",
+            "90914578340181512911",
+            "59836576158114804011",
+        ],
+    ),
+];
+
 fn bench_sizes(c: &mut Criterion) {
     let mut group = c.benchmark_group("factor_sizes");
     group.sample_size(10);
@@ -109,27 +194,54 @@ fn cpu_seconds() -> Option<f64> {
     Some(ticks / 100.0) // USER_HZ = 100 on Linux
 }
 
-/// The CPU-time mode described in the module documentation.
+/// Mean CPU milliseconds per `factor(n)` call over at least `secs` seconds of process CPU
+/// time, and the number of calls; `None` without /proc/self/stat.
+fn cpu_per_call(n: &BigInt, secs: f64) -> Option<(f64, u64)> {
+    let start = cpu_seconds()?;
+    let mut calls = 0u64;
+    let mut now = start;
+    while now - start < secs {
+        for _ in 0..4 {
+            black_box(factor(black_box(n), &mut Budget::unlimited()).expect("factors"));
+        }
+        calls += 4;
+        now = cpu_seconds().unwrap_or(f64::INFINITY);
+    }
+    Some(((now - start) * 1e3 / calls as f64, calls))
+}
+
+/// The CPU-time mode described in the module documentation. `FACTOR_ONLY=d1,d2,…` keeps
+/// only those sizes of group `factor_sizes`; `FACTOR_RANDOM_SECS=s` then times each number
+/// of [`RANDOM_SMALL`] for `s` seconds (lines `rDD n ms calls`).
 fn cpu_table(secs: f64) {
+    let only: Option<Vec<u32>> = std::env::var("FACTOR_ONLY")
+        .ok()
+        .map(|s| s.split(',').filter_map(|t| t.trim().parse().ok()).collect());
     println!("digits n cpu_ms_per_call calls");
     for (digits, s) in SIZES {
+        if only.as_ref().is_some_and(|o| !o.contains(&digits)) {
+            continue;
+        }
         let n: BigInt = s.parse().expect("decimal literal");
-        let (Some(start), mut calls) = (cpu_seconds(), 0u64) else {
+        let Some((ms, calls)) = cpu_per_call(&n, secs) else {
             println!("no /proc/self/stat: CPU-time mode needs Linux");
             return;
         };
-        let mut now = start;
-        while now - start < secs {
-            for _ in 0..4 {
-                black_box(factor(black_box(&n), &mut Budget::unlimited()).expect("factors"));
+        println!("{digits:02} {s} {ms:.4} {calls}");
+    }
+    let Some(rsecs) = std::env::var("FACTOR_RANDOM_SECS")
+        .ok()
+        .and_then(|s| s.parse::<f64>().ok())
+    else {
+        return;
+    };
+    for (digits, list) in RANDOM_SMALL {
+        for s in list {
+            let n: BigInt = s.parse().expect("decimal literal");
+            if let Some((ms, calls)) = cpu_per_call(&n, rsecs) {
+                println!("r{digits:02} {s} {ms:.4} {calls}");
             }
-            calls += 4;
-            now = cpu_seconds().unwrap_or(f64::INFINITY);
         }
-        println!(
-            "{digits:02} {s} {:.4} {calls}",
-            (now - start) * 1e3 / calls as f64
-        );
     }
 }
 

@@ -13,7 +13,9 @@ CPU-time mode (the figures of docs/performance.md):
   python3 scripts/factor_side_by_side.py --cpu ours.txt [before.txt]
 times flint.fmpz(n).factor() on each number of group factor_sizes for 1.5 s of process CPU
 time (time.process_time), right after reading the files, and prints both means and the
-ratios ours/flint (and before/flint when a second file is given).
+ratios ours/flint (and before/flint when a second file is given). With FACTOR_RANDOM_SECS=0.3
+also set for the bench, the files hold the sixty products of RANDOM_SMALL; flint is then timed
+on each for $FACTOR_RANDOM_SECS seconds (default 0.3) and the means per size are compared.
 
 CRITERION_DIR defaults to $CARGO_TARGET_DIR/criterion or target/criterion. Numbers whose
 criterion result is missing are timed for flint only. Flint is timed both by wall clock (the
@@ -34,6 +36,23 @@ NUMBERS = {  # same list, same order, as benches/arith.rs
          612697093380257235542637128011],
     20: [1470739766636828256728566343556768576353, 623422361556630915541682356015766385943,
          3109898323645415535574981604728249868779],
+}
+
+RANDOM_SMALL = {  # RANDOM_SMALL of benches/arith.rs: sympy 1.14.0, random.Random(99)
+    8: [3924146792516243, 3333612690708403, 1390717972380949, 1208591874089917, 945003346537753,
+        4989587991669037, 1815202498752761, 7093334036969441, 2448715862826427, 8212760321591093,
+        2352649843093573, 2392600744862203, 2189703335150021, 3356915797691041, 4775748161661937,
+        1711192252943513, 1589266333577641, 3359726082167149, 725818674774881, 935688169246379],
+    9: [177426454207736369, 329623373649364229, 111348715947414199, 205404362599075421,
+        447711410589554327, 75052263430052429, 79173621877086313, 236645458872292583,
+        857707692808824941, 424584911464823267, 186151069355298139, 233801089328447603,
+        30459808557936943, 35482698338340481, 507801812636096201, 538985725215428663,
+        104200779802504031, 149777100076381529, 109655869132926811, 80934909190192391],
+    10: [18998725169633558989, 19437965655894854933, 54972844699175988323, 7237127992559856883,
+         14325130763627602159, 3429227387587624507, 14510955564747208051, 10466854515272725781,
+         9992824970830911617, 71780013635657658349, 11207355425534828849, 60733640652294213139,
+         61111208799570603599, 29577943796146494169, 54075234115210907857, 19695927943473611471,
+         28160606081358382757, 46510457332941745499, 90914578340181512911, 59836576158114804011],
 }
 
 SIZES = {  # group factor_sizes of benches/arith.rs: p, q random primes of d digits
@@ -89,18 +108,23 @@ def flint_cpu(n, secs=1.5):
 
 
 def read_cpu(path):
-    """{digits: ms per call} from the output of FACTOR_CPU_SECS=... cargo bench --bench arith."""
-    out = {}
+    """{digits: ms per call} from the output of FACTOR_CPU_SECS=... cargo bench --bench arith,
+    and {n: ms per call} from its lines `rDD n ms calls` (FACTOR_RANDOM_SECS)."""
+    out, rand = {}, {}
     with open(path) as fh:
         for line in fh:
             parts = line.split()
             if len(parts) == 4 and parts[0].isdigit():
                 out[int(parts[0])] = float(parts[2])
-    return out
+            elif len(parts) == 4 and parts[0].startswith("r") and parts[0][1:].isdigit():
+                rand[int(parts[1])] = float(parts[2])
+    return out, rand
 
 
 def cpu_main(paths):
-    runs = [read_cpu(p) for p in paths]
+    both = [read_cpu(p) for p in paths]
+    runs = [b[0] for b in both]
+    rands = [b[1] for b in both]
     print("python-flint", flint.__version__, "(CPU time per call, ms)")
     head = "%-6s %-46s %10s" % ("digits", "n", "flint")
     for p in paths:
@@ -112,6 +136,22 @@ def cpu_main(paths):
         for run in runs:
             o = run.get(digits)
             line += " %12s %8s" % (("%.4f" % o, "%.2f" % (o / f)) if o else ("-", "-"))
+        print(line)
+    if not any(rands):
+        return
+    secs = float(os.environ.get("FACTOR_RANDOM_SECS", "0.3"))
+    print("-- RANDOM_SMALL: mean CPU ms per number, and numbers above 1.2x flint --")
+    for digits, ns in RANDOM_SMALL.items():
+        fl = {n: flint_cpu(n, secs) * 1e3 for n in ns}
+        line = "%-6d flint mean %8.4f" % (digits, statistics.mean(fl.values()))
+        for p, rand in zip(paths, rands):
+            got = [rand.get(n) for n in ns]
+            if None in got:
+                continue
+            over = sum(1 for n in ns if rand[n] > 1.2 * fl[n])
+            m = statistics.mean(got)
+            line += " | %s mean %8.4f (/flint %.2f, %d of %d above 1.2x)" % (
+                os.path.basename(p)[:12], m, m / statistics.mean(fl.values()), over, len(ns))
         print(line)
 
 

@@ -179,3 +179,88 @@ proptest! {
         }
     }
 }
+
+/// Word-size edge cases of the ECM and Montgomery paths, with their
+/// factorisations from sympy 1.14.0 `factorint` (primes from `prevprime`).
+#[test]
+fn word_size_edge_cases_factor_as_sympy_says() {
+    let cases: [(u64, &[(u64, u32)]); 9] = [
+        (0, &[]),
+        (1, &[]),
+        (2, &[(2, 1)]),
+        // 2^64 − 59 = prevprime(2^64).
+        (18446744073709551557, &[(18446744073709551557, 1)]),
+        // (2^32 − 5)·(2^32 − 17): the two largest primes below 2^32.
+        (18446743979220271189, &[(4294967279, 1), (4294967291, 1)]),
+        // (2^32 − 5)²: a square just below 2^64.
+        (18446744030759878681, &[(4294967291, 2)]),
+        // prevprime(2^21)³.
+        (9223253290108583207, &[(2097143, 3)]),
+        (
+            u64::MAX,
+            &[
+                (3, 1),
+                (5, 1),
+                (17, 1),
+                (257, 1),
+                (641, 1),
+                (65537, 1),
+                (6700417, 1),
+            ],
+        ),
+        // 2^63 + 1.
+        (
+            9223372036854775809,
+            &[(3, 3), (19, 1), (43, 1), (5419, 1), (77158673929, 1)],
+        ),
+    ];
+    for (n, want) in cases {
+        assert_eq!(factor_u64(n), want.to_vec(), "factor_u64({n})");
+        if n > 0 {
+            let f = factor(&BigInt::from(n), &mut Budget::unlimited()).unwrap();
+            let got: Vec<(u64, u32)> = f
+                .factors()
+                .iter()
+                .map(|(p, e)| (p.to_u64().unwrap(), *e))
+                .collect();
+            assert_eq!(got, want.to_vec(), "factor({n})");
+        }
+    }
+}
+
+proptest! {
+    #![proptest_config(ProptestConfig { cases: 256, ..ProptestConfig::default() })]
+
+    /// Any word: the factors multiply back to it, are prime and ascending
+    /// (the definition of a factorisation; common practice).
+    #[test]
+    fn every_word_factors_into_ascending_primes(n in 1u64..) {
+        let f = factor_u64(n);
+        let mut back = 1u128;
+        for w in f.windows(2) {
+            prop_assert!(w[0].0 < w[1].0);
+        }
+        for &(p, e) in &f {
+            prop_assert!(is_prime(&BigInt::from(p)), "{} in factor_u64({})", p, n);
+            back *= (p as u128).pow(e);
+        }
+        prop_assert_eq!(back, n as u128);
+    }
+
+    /// Products of two primes of 20 to 32 bits (the ECM range of
+    /// `factor_u64`), from random words.
+    #[test]
+    fn products_of_two_word_primes_split(a in 1u64 << 19..1 << 32, b in 1u64 << 19..1 << 32) {
+        let p = next_prime(BigInt::from(a)).to_u64().unwrap();
+        let q = next_prime(BigInt::from(b)).to_u64().unwrap();
+        let n = p.checked_mul(q);
+        prop_assume!(n.is_some());
+        let n = n.unwrap();
+        let want = match p.cmp(&q) {
+            std::cmp::Ordering::Less => vec![(p, 1), (q, 1)],
+            std::cmp::Ordering::Equal => vec![(p, 2)],
+            std::cmp::Ordering::Greater => vec![(q, 1), (p, 1)],
+        };
+        prop_assert_eq!(factor_u64(n), want);
+    }
+}

@@ -4,13 +4,18 @@
 //! Same curves as [`super::ecm`] (Montgomery curves `B·y² = x³ + A·x² + x`
 //! \[Montgomery87\] with Suyama's parametrisation, order divisible by 12),
 //! but every step stays in machine words: the curve is set up with one
-//! word-size inversion, stage 1 runs the Montgomery ladder over the
-//! product of the prime powers up to `B1` packed into 64-bit words, and
-//! stage 2 is the standard baby-step/giant-step continuation whose pairs
-//! `(k, j)` (`kD ± j` prime) are listed once per `(B1, B2, D)`.
+//! word-size inversion, which also puts the starting point in the form
+//! `x : 1`; stage 1 is one Montgomery ladder over the whole product of
+//! the prime powers up to `B1` (a multi-word scalar), whose differential
+//! additions then save the multiplication by the difference's `Z`; stage 2
+//! is the standard baby-step/giant-step continuation whose pairs `(k, j)`
+//! (`kD ± j` prime) are listed once per `(B1, B2, D)`, with baby and giant
+//! steps both brought to `x : 1` by one batched inversion, so that each
+//! pair costs one multiplication.
 //!
-//! Nothing allocates per curve except the list of baby steps (at most 24
-//! words); a curve with `B1 = 85` costs about 2000 multiplications.
+//! Nothing allocates per curve (the giant steps live in a buffer made once
+//! per call of [`ecm_u64`]); a curve with `B1 = 85` costs about 1900
+//! multiplications and two word-size inversions.
 
 use super::prime::prime_table;
 use super::small::{gcd_u64, M64};
@@ -21,8 +26,8 @@ use std::sync::{Arc, Mutex, OnceLock};
 /// multiplier packed into words, and the stage-2 giant steps with their
 /// baby steps.
 struct Plan {
-    /// Words whose product is `∏ p^⌊log_p B1⌋` over the primes `p ≤ B1`
-    /// (each word below `2^64`).
+    /// `∏ p^⌊log_p B1⌋` over the primes `p ≤ B1` (that is, `lcm(1, …, B1)`)
+    /// as little-endian 64-bit limbs, the top limb nonzero.
     stage1: Vec<u64>,
     /// Giant-step width `D` (a multiple of 6).
     d: u64,
@@ -60,23 +65,22 @@ fn make_plan(b1: u64, b2: u64) -> Plan {
     // D = 60 for short stage-2 ranges (8 baby steps), 210 beyond (24).
     let d: u64 = if b2 < 6000 { 60 } else { 210 };
     let table = prime_table(b2 + d + 2);
-    let mut stage1 = Vec::new();
-    let mut word = 1u64;
+    let mut stage1 = vec![1u64];
     for p in table.primes_in(2, b1) {
         let mut pk = p;
         while pk <= b1 / p {
             pk *= p;
         }
-        match word.checked_mul(pk) {
-            Some(w) => word = w,
-            None => {
-                stage1.push(word);
-                word = pk;
-            }
+        // stage1 *= pk, limb by limb.
+        let mut carry = 0u128;
+        for limb in stage1.iter_mut() {
+            let t = *limb as u128 * pk as u128 + carry;
+            *limb = t as u64;
+            carry = t >> 64;
         }
-    }
-    if word > 1 {
-        stage1.push(word);
+        if carry > 0 {
+            stage1.push(carry as u64);
+        }
     }
     let babies: Vec<u64> = (1..d / 2)
         .step_by(2)
@@ -114,7 +118,23 @@ fn make_plan(b1: u64, b2: u64) -> Plan {
 
 /// `x⁻¹ mod n` for a plain residue `x` (not in Montgomery form), or
 /// `Err(g)` with `g = gcd(x, n) > 1`.
+///
+/// Extended Euclid; the Bézout coefficients stay below `n` in absolute
+/// value, so `i64` suffices for `n < 2^63` (`i128` above).
 fn inverse_mod(x: u64, n: u64) -> Result<u64, u64> {
+    if let Ok(ni) = i64::try_from(n) {
+        let (mut r0, mut r1) = (ni, (x % n) as i64);
+        let (mut s0, mut s1) = (0i64, 1i64);
+        while r1 != 0 {
+            let q = r0 / r1;
+            (r0, r1) = (r1, r0 - q * r1);
+            (s0, s1) = (s1, s0 - q * s1);
+        }
+        if r0 != 1 {
+            return Err(r0 as u64);
+        }
+        return Ok(s0.rem_euclid(ni) as u64);
+    }
     let (mut r0, mut r1) = (n as i128, (x % n) as i128);
     let (mut s0, mut s1) = (0i128, 1i128);
     while r1 != 0 {
@@ -168,6 +188,52 @@ impl Curve {
         }
     }
 
+    /// `P + Q` from `P − Q = x : 1` (one multiplication fewer than
+    /// [`Curve::add`]).
+    #[inline(always)]
+    fn add_unit(&self, p: Pt, q: Pt, diff_x: u64) -> Pt {
+        let r = &self.ring;
+        let u = r.mul(r.sub(p.x, p.z), r.add(q.x, q.z));
+        let v = r.mul(r.add(p.x, p.z), r.sub(q.x, q.z));
+        let s = r.add(u, v);
+        let t = r.sub(u, v);
+        Pt {
+            x: r.mul(s, s),
+            z: r.mul(diff_x, r.mul(t, t)),
+        }
+    }
+
+    /// `k·P` for `P = x : 1` by the Montgomery ladder over the limbs of
+    /// `k` (little-endian, top limb nonzero; `k ≥ 1`).
+    fn mul_limbs(&self, k: &[u64], x: u64) -> Pt {
+        let p = Pt {
+            x,
+            z: self.ring.one(),
+        };
+        let Some((&top, _)) = k.split_last() else {
+            return p;
+        };
+        if k.len() == 1 && top <= 1 {
+            return p;
+        }
+        let mut r0 = p;
+        let mut r1 = self.dbl(p);
+        let top_bit = 63 - top.leading_zeros();
+        for (w, &limb) in k.iter().enumerate().rev() {
+            let start = if w + 1 == k.len() { top_bit } else { 64 };
+            for i in (0..start).rev() {
+                if (limb >> i) & 1 == 1 {
+                    r0 = self.add_unit(r1, r0, x);
+                    r1 = self.dbl(r1);
+                } else {
+                    r1 = self.add_unit(r1, r0, x);
+                    r0 = self.dbl(r0);
+                }
+            }
+        }
+        r0
+    }
+
     /// `k·P` by the Montgomery ladder, `k ≥ 1`.
     fn mul(&self, k: u64, p: Pt) -> Pt {
         if k <= 1 {
@@ -205,12 +271,30 @@ fn check(x: u64, n: u64) -> Option<Curve64> {
     }
 }
 
+/// Giant-step buffers of one [`ecm_u64`] call (`X`, `Z`, prefix products).
+struct Giants {
+    x: Vec<u64>,
+    z: Vec<u64>,
+    prefix: Vec<u64>,
+}
+
+/// `Curve64` for a gcd `g > 1` found by a failed inversion.
+fn from_gcd(g: u64, n: u64) -> Curve64 {
+    if g == n {
+        Curve64::Failed
+    } else {
+        Curve64::Found(g)
+    }
+}
+
 /// One curve with Suyama parameter `sigma ≥ 6` on the odd composite `n`
 /// (no prime factor 2 or 3), along `plan`.
-fn curve(ring: M64, n: u64, sigma: u64, plan: &Plan) -> Curve64 {
+fn curve(ring: M64, n: u64, sigma: u64, plan: &Plan, giants: &mut Giants) -> Curve64 {
     let r = &ring;
     // u = σ² − 5, v = 4σ, x₀ : z₀ = u³ : v³,
     // (A + 2)/4 = (v − u)³(3u + v) / (16u³v)  [Zimmermann-Dodson06, §2].
+    // One inversion of w = 16u³v · v³ gives both (A + 2)/4 and x₀ = u³/v³;
+    // gcd(w, n) > 1 iff gcd(16u³v, n) > 1, since v³ has the primes of v.
     let s = r.elem(sigma);
     let u = r.sub(r.mul(s, s), r.elem(5));
     let v = r.add(r.add(s, s), r.add(s, s));
@@ -219,26 +303,19 @@ fn curve(ring: M64, n: u64, sigma: u64, plan: &Plan) -> Curve64 {
     let vmu = r.sub(v, u);
     let num = r.mul(r.mul(r.mul(vmu, vmu), vmu), r.add(r.add(r.add(u, u), u), v));
     let den = r.mul(r.mul(u3, v), r.elem(16));
-    let inv = match inverse_mod(r.plain(den), n) {
+    let inv = match inverse_mod(r.plain(r.mul(den, v3)), n) {
         Ok(i) => r.elem(i),
-        Err(g) => {
-            return if g == n {
-                Curve64::Failed
-            } else {
-                Curve64::Found(g)
-            }
-        }
+        Err(g) => return from_gcd(g, n),
     };
     let c = Curve {
         ring,
-        a24: r.mul(num, inv),
+        a24: r.mul(num, r.mul(inv, v3)),
     };
-    let mut q = Pt { x: u3, z: v3 };
-    for &k in &plan.stage1 {
-        q = c.mul(k, q);
-    }
-    // Baby steps jQ (odd j < D/2), normalised to x-coordinates by one
-    // batched inversion; a non-invertible Z gives the gcd.
+    let x0 = r.mul(u3, r.mul(inv, den));
+    let q = c.mul_limbs(&plan.stage1, x0);
+    // Baby steps jQ (odd j < D/2) and giant steps kD·Q (k = k0, k0 + 1,
+    // …), brought to x : 1 by one batched inversion; a non-invertible Z
+    // gives the gcd.
     let q2 = c.dbl(q);
     let nb = plan.babies.len();
     let mut bx = [0u64; 24];
@@ -262,29 +339,6 @@ fn curve(ring: M64, n: u64, sigma: u64, plan: &Plan) -> Curve64 {
         cur = next;
         j += 2;
     }
-    let mut prefix = [0u64; 24];
-    let mut acc = r.one();
-    for i in 0..nb {
-        prefix[i] = acc;
-        acc = r.mul(acc, bz[i]);
-    }
-    let total_inv = match inverse_mod(r.plain(acc), n) {
-        Ok(i) => r.elem(i),
-        Err(g) => {
-            return if g == n {
-                Curve64::Failed
-            } else {
-                Curve64::Found(g)
-            }
-        }
-    };
-    let mut run = total_inv;
-    for i in (0..nb).rev() {
-        let zi = r.mul(run, prefix[i]);
-        run = r.mul(run, bz[i]);
-        bx[i] = r.mul(bx[i], zi);
-    }
-    // Giant steps R_k = kD·Q from k0 on.
     let dq = c.mul(plan.d, q);
     let mut rk = c.mul(plan.k0 * plan.d, q);
     let mut rprev = if plan.k0 == 1 {
@@ -292,11 +346,10 @@ fn curve(ring: M64, n: u64, sigma: u64, plan: &Plan) -> Curve64 {
     } else {
         c.mul((plan.k0 - 1) * plan.d, q)
     };
-    let mut acc = r.one();
-    for (step, row) in plan.pairs.iter().enumerate() {
-        for &i in row {
-            acc = r.mul(acc, r.sub(rk.x, r.mul(bx[i as usize], rk.z)));
-        }
+    let ng = plan.pairs.len();
+    for step in 0..ng {
+        giants.x[step] = rk.x;
+        giants.z[step] = rk.z;
         let next = if plan.k0 == 1 && step == 0 {
             c.dbl(rk)
         } else {
@@ -304,6 +357,38 @@ fn curve(ring: M64, n: u64, sigma: u64, plan: &Plan) -> Curve64 {
         };
         rprev = rk;
         rk = next;
+    }
+    let mut prefix = [0u64; 24];
+    let mut acc = r.one();
+    for i in 0..nb {
+        prefix[i] = acc;
+        acc = r.mul(acc, bz[i]);
+    }
+    for i in 0..ng {
+        giants.prefix[i] = acc;
+        acc = r.mul(acc, giants.z[i]);
+    }
+    let total_inv = match inverse_mod(r.plain(acc), n) {
+        Ok(i) => r.elem(i),
+        Err(g) => return from_gcd(g, n),
+    };
+    let mut run = total_inv;
+    for i in (0..ng).rev() {
+        let zi = r.mul(run, giants.prefix[i]);
+        run = r.mul(run, giants.z[i]);
+        giants.x[i] = r.mul(giants.x[i], zi);
+    }
+    for i in (0..nb).rev() {
+        let zi = r.mul(run, prefix[i]);
+        run = r.mul(run, bz[i]);
+        bx[i] = r.mul(bx[i], zi);
+    }
+    // (kD ± j)·Q = O mod p iff x(kD·Q) ≡ x(jQ) mod p.
+    let mut acc = r.one();
+    for (gx, row) in giants.x.iter().zip(&plan.pairs) {
+        for &i in row {
+            acc = r.mul(acc, r.sub(*gx, bx[i as usize]));
+        }
     }
     check(acc, n).unwrap_or(Curve64::Failed)
 }
@@ -316,12 +401,19 @@ pub(crate) const B2_FACTOR_64: u64 = 25;
 /// without prime factors 2 and 3; returns a proper divisor or `None`.
 ///
 /// Cost: the number of Montgomery multiplications per curve is about
-/// `11·log₂(∏ prime powers ≤ B1) + 6·B2/D + 2·(primes in (B1, B2])`.
+/// `10·log₂(∏ prime powers ≤ B1) + 9·B2/D + (primes in (B1, B2])`, and two
+/// word-size inversions.
 pub(crate) fn ecm_u64(n: u64, b1: u64, curves: u32, sigma0: u64) -> Option<u64> {
     let ring = M64::new(n)?;
     let plan = plan(b1, b1 * B2_FACTOR_64);
+    let ng = plan.pairs.len();
+    let mut giants = Giants {
+        x: vec![0; ng],
+        z: vec![0; ng],
+        prefix: vec![0; ng],
+    };
     for s in 0..curves as u64 {
-        if let Curve64::Found(d) = curve(ring, n, sigma0 + s, &plan) {
+        if let Curve64::Found(d) = curve(ring, n, sigma0 + s, &plan, &mut giants) {
             return Some(d);
         }
     }
@@ -363,10 +455,81 @@ mod tests {
     }
 
     #[test]
+    fn stage_one_scalar_is_lcm_of_one_to_b1() {
+        // lcm(1, …, B1) = ∏ p^⌊log_p B1⌋ (common practice); lcm(1..=47) =
+        // 442720643463713815200 (sympy 1.14.0: sympy.ilcm(*range(1, 48))).
+        let p = make_plan(47, 47 * B2_FACTOR_64);
+        let v = p
+            .stage1
+            .iter()
+            .rev()
+            .fold(0u128, |a, &l| (a << 64) | l as u128);
+        assert_eq!(p.stage1.len(), 2);
+        assert_eq!(v, 442720643463713815200);
+        for b1 in [70u64, 85, 165] {
+            let p = make_plan(b1, b1 * B2_FACTOR_64);
+            let mut lcm = num_bigint::BigUint::from(1u32);
+            for k in 1..=b1 {
+                lcm = num_integer::Integer::lcm(&lcm, &num_bigint::BigUint::from(k));
+            }
+            assert_eq!(
+                num_bigint::BigUint::new(
+                    p.stage1
+                        .iter()
+                        .flat_map(|&l| [l as u32, (l >> 32) as u32])
+                        .collect()
+                ),
+                lcm,
+                "B1 = {b1}"
+            );
+            assert_ne!(p.stage1.last(), Some(&0));
+        }
+    }
+
+    #[test]
+    fn ladder_over_limbs_agrees_with_word_ladders() {
+        // [k1·k2]P by one ladder over the two-limb product against [k1]([k2]P):
+        // equal as projective points X : Z (common practice).
+        let n = 1_000_000_007u64 * 998_244_353; // two primes (sympy 1.14.0 isprime)
+        let ring = M64::new(n).unwrap();
+        let c = Curve {
+            ring,
+            a24: ring.elem(123_456_789),
+        };
+        let x = ring.elem(987_654_321);
+        let p = Pt { x, z: ring.one() };
+        for (k1, k2) in [
+            (3u64, 5u64),
+            (u64::MAX, 0xdead_beef_1234_5677),
+            (1 << 63, 7),
+        ] {
+            let k = k1 as u128 * k2 as u128;
+            let limbs: Vec<u64> = if k >> 64 == 0 {
+                vec![k as u64]
+            } else {
+                vec![k as u64, (k >> 64) as u64]
+            };
+            let a = c.mul_limbs(&limbs, x);
+            let b = c.mul(k1, c.mul(k2, p));
+            assert_eq!(ring.mul(a.x, b.z), ring.mul(b.x, a.z), "k = {k}");
+            assert_ne!(ring.plain(a.z), 0);
+        }
+        let one = c.mul_limbs(&[1], x);
+        assert_eq!((one.x, one.z), (x, ring.one()));
+    }
+
+    #[test]
     fn inverses_modulo_a_word() {
         let n = 1_000_000_007u64 * 3;
         assert_eq!(inverse_mod(3, n), Err(3));
         let x = inverse_mod(10, n).unwrap();
         assert_eq!((x as u128 * 10 % n as u128) as u64, 1);
+        // Above 2^63 (the i128 branch): 2^64 − 59 is prime (sympy 1.14.0
+        // prevprime(2**64)).
+        let n = u64::MAX - 58;
+        let x = inverse_mod(1 << 40, n).unwrap();
+        assert_eq!((x as u128 * (1u128 << 40) % n as u128) as u64, 1);
+        let n = (1u64 << 62) + 1; // = 5 · 5581 · 8681 · 49477 · 384773 (sympy 1.14.0 factorint)
+        assert_eq!(inverse_mod(10, n), Err(5));
     }
 }

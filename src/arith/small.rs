@@ -12,8 +12,8 @@
 #[derive(Clone, Copy, Debug)]
 pub(crate) struct M64 {
     n: u64,
-    /// `−n⁻¹ mod 2^64`.
-    neg_inv: u64,
+    /// `n⁻¹ mod 2^64`.
+    inv: u64,
     /// `R² mod n`.
     r2: u64,
 }
@@ -32,23 +32,24 @@ impl M64 {
         }
         let r1 = ((1u128 << 64) % n as u128) as u64;
         let r2 = ((r1 as u128 * r1 as u128) % n as u128) as u64;
-        Some(M64 {
-            n,
-            neg_inv: inv.wrapping_neg(),
-            r2,
-        })
+        Some(M64 { n, inv, r2 })
     }
 
     /// `t·R⁻¹ mod n` for `t < n·2^64`.
+    ///
+    /// With `m = t·n⁻¹ mod 2^64`, `m·n` and `t` agree in their low words,
+    /// so `(t − m·n)/2^64` is the difference of the high words, which lies
+    /// in `(−n, n)`: one correction by `+n` at most, and no carry out of
+    /// a 128-bit sum to track.
     #[inline]
     fn redc(&self, t: u128) -> u64 {
-        let m = (t as u64).wrapping_mul(self.neg_inv);
-        let (s, carry) = t.overflowing_add(m as u128 * self.n as u128);
-        let hi = (s >> 64) as u64;
-        if carry || hi >= self.n {
-            hi.wrapping_sub(self.n)
+        let m = (t as u64).wrapping_mul(self.inv);
+        let mn_hi = ((m as u128 * self.n as u128) >> 64) as u64;
+        let (r, borrow) = ((t >> 64) as u64).overflowing_sub(mn_hi);
+        if borrow {
+            r.wrapping_add(self.n)
         } else {
-            hi
+            r
         }
     }
 
