@@ -56,6 +56,11 @@ impl BitVec {
         v
     }
 
+    /// Coordinates 0..64 as a word (bit i is coordinate i).
+    pub(crate) fn low_word(&self) -> u64 {
+        self.words.first().copied().unwrap_or(0)
+    }
+
     /// Length n.
     pub fn len(&self) -> usize {
         self.len
@@ -358,6 +363,79 @@ impl Subspace {
     }
 }
 
+/// Inserts `v` into `basis`, a reduced row-echelon basis of vectors of
+/// F2^n with n ≤ 64 held as single words (lowest set bit leading, sorted by
+/// it): the word form of [`Subspace::insert`], with the same canonical
+/// result. Returns true iff the dimension grew.
+pub(crate) fn insert_word(basis: &mut Vec<u64>, v: u64) -> bool {
+    let mut r = v;
+    for &b in basis.iter() {
+        if r & (b & b.wrapping_neg()) != 0 {
+            r ^= b;
+        }
+    }
+    if r == 0 {
+        return false;
+    }
+    let lead = r & r.wrapping_neg();
+    for b in basis.iter_mut() {
+        if *b & lead != 0 {
+            *b ^= r;
+        }
+    }
+    let pos = basis.partition_point(|&b| (b & b.wrapping_neg()) < lead);
+    basis.insert(pos, r);
+    true
+}
+
+impl Subspace {
+    /// The subspace of F2^n (n ≤ 64) with the given reduced echelon basis
+    /// in words (bit i is coordinate i).
+    fn from_echelon_words(ambient: usize, basis: &[u64]) -> Subspace {
+        Subspace {
+            ambient,
+            basis: basis
+                .iter()
+                .map(|&w| BitVec::from_u64(ambient, w))
+                .collect(),
+        }
+    }
+
+    /// The kernel {x ∈ F2^n : r · x = 0 for every row r} for n ≤ 64 with
+    /// the rows as words (bits at or above n are ignored): the same
+    /// subspace, with the same canonical basis, as
+    /// `LinearMap::from_rows(n, rows).kernel()`, without a heap vector per
+    /// row. `None` when n > 64.
+    pub(crate) fn kernel_of_word_rows(ambient: usize, rows: &[u64]) -> Option<Subspace> {
+        if ambient > 64 {
+            return None;
+        }
+        let mask = if ambient == 64 {
+            u64::MAX
+        } else {
+            (1u64 << ambient) - 1
+        };
+        let mut echelon = Vec::with_capacity(ambient);
+        for &r in rows {
+            insert_word(&mut echelon, r & mask);
+        }
+        let pivots = echelon
+            .iter()
+            .fold(0u64, |acc, &b| acc | (b & b.wrapping_neg()));
+        let mut kernel = Vec::with_capacity(ambient - echelon.len());
+        for free in (0..ambient).filter(|&c| pivots >> c & 1 == 0) {
+            let mut v = 1u64 << free;
+            for &b in &echelon {
+                if b >> free & 1 == 1 {
+                    v |= b & b.wrapping_neg();
+                }
+            }
+            insert_word(&mut kernel, v);
+        }
+        Some(Subspace::from_echelon_words(ambient, &kernel))
+    }
+}
+
 /// A linear map F2^n → F2^m given by its m rows (each of length n): the
 /// image of x has coordinate i equal to row_i · x.
 #[derive(Clone, Debug, PartialEq, Eq)]
@@ -492,6 +570,40 @@ mod tests {
             1,
             "a refused insertion leaves the subspace unchanged"
         );
+    }
+
+    /// The word kernel equals `LinearMap::kernel` (same canonical basis)
+    /// on random matrices with 1 to 64 columns, including full and empty
+    /// row sets.
+    #[test]
+    fn word_kernel_matches_the_bitvec_kernel() {
+        let mut x = 0x2545_F491_4F6C_DD1Du64;
+        let mut next = || {
+            x ^= x << 13;
+            x ^= x >> 7;
+            x ^= x << 17;
+            x
+        };
+        for n in 1..=64usize {
+            for _ in 0..20 {
+                let m = (next() % 70) as usize;
+                let sparse = next() % 2 == 0;
+                let rows: Vec<u64> = (0..m)
+                    .map(|_| {
+                        if sparse {
+                            next() & next() & next()
+                        } else {
+                            next()
+                        }
+                    })
+                    .collect();
+                let bit_rows: Vec<BitVec> = rows.iter().map(|&r| BitVec::from_u64(n, r)).collect();
+                let want = LinearMap::from_rows(n, bit_rows).kernel();
+                let got = Subspace::kernel_of_word_rows(n, &rows).unwrap();
+                assert_eq!(got, want, "n = {n}, rows {rows:x?}");
+            }
+        }
+        assert!(Subspace::kernel_of_word_rows(65, &[]).is_none());
     }
 
     #[test]
