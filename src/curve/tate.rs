@@ -55,6 +55,7 @@ use crate::arith::word::word_paths_enabled;
 use crate::budget::Budget;
 use crate::curve::{Curve, ModelChange};
 use crate::error::{Error, Result};
+use crate::local::known_primes::KnownPrimes;
 use crate::local::{legendre, valuation, Prime};
 
 /// The Kodaira symbol of the special fibre of the Néron model at a prime
@@ -1045,6 +1046,19 @@ pub fn global_local_data(
     coeffs: &[BigRational; 5],
     budget: &mut Budget,
 ) -> Result<GlobalLocalData> {
+    global_local_data_with(coeffs, budget, &mut KnownPrimes::default())
+}
+
+/// [`global_local_data`], reading the primes of the discriminant (and of
+/// the scaling `d`) off `known` when it holds them all and factoring would
+/// have spent no budget ([`KnownPrimes::primes_of`]), else factoring under
+/// `budget` as there and adding the primes found to `known`. The result is
+/// the same either way.
+pub(crate) fn global_local_data_with(
+    coeffs: &[BigRational; 5],
+    budget: &mut Budget,
+    known: &mut KnownPrimes,
+) -> Result<GlobalLocalData> {
     // Step 1: an integral model; in machine words when it is the input
     // itself and its discriminant fits in i128 (module `tate_word`).
     let (d, integral) = integral_scaling(coeffs);
@@ -1071,8 +1085,13 @@ pub fn global_local_data(
     let disc_input = BigRational::new(disc.abs(), num_traits::pow(d.clone(), 12));
     for m in [d.clone(), disc_input.numer().abs()] {
         if m > BigInt::one() {
-            for (q, _) in factor(&m, budget)?.factors() {
-                primes.push(q.clone());
+            match known.primes_of(&m) {
+                Some(ps) => primes.extend(ps),
+                None => {
+                    let f = factor(&m, budget)?;
+                    known.add(f.primes());
+                    primes.extend(f.primes().cloned());
+                }
             }
         }
     }
