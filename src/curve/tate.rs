@@ -1271,6 +1271,10 @@ fn change_array(c: &ModelChange) -> [BigRational; 4] {
 /// `d` = the lcm of the denominators, and `[d·a1, d²·a2, d³·a3, d⁴·a4,
 /// d⁶·a6]` (the change `u = 1/d`), an integral model.
 fn integral_scaling(coeffs: &[BigRational; 5]) -> (BigInt, [BigInt; 5]) {
+    if coeffs.iter().all(|c| c.denom().is_one()) {
+        // d = 1: the model is its own integral scaling.
+        return (BigInt::one(), coeffs.clone().map(|c| c.numer().clone()));
+    }
     let mut d = BigInt::one();
     for c in coeffs {
         d = d.lcm(c.denom());

@@ -270,11 +270,8 @@ fn two_primary(work: &WorkModel, roots: &[BigInt], e_max: u32) -> Primary {
     let mut level = level2;
     let mut parents = parents2;
     let mut k = 2;
-    let b4: BigInt = &f4 * 2u32;
-    let b6: BigInt = &f6 * 4u32;
-    let b8: BigInt = &f2 * &f6 * 4u32 - &f4 * &f4;
-    let num = ZPoly::new(vec![-b8, -(&b6 * 2u32), -b4, BigInt::zero(), BigInt::one()]);
-    let four_f = work.cubic.scale(&BigInt::from(4));
+    // The halving polynomials, built only when a level 3 is sought.
+    let mut halving: Option<(ZPoly, ZPoly)> = None;
     loop {
         if level.is_empty() {
             break;
@@ -284,6 +281,15 @@ fn two_primary(work: &WorkModel, roots: &[BigInt], e_max: u32) -> Primary {
         if k >= e_max {
             break;
         }
+        let (num, four_f) = halving.get_or_insert_with(|| {
+            let b4: BigInt = &f4 * 2u32;
+            let b6: BigInt = &f6 * 4u32;
+            let b8: BigInt = &f2 * &f6 * 4u32 - &f4 * &f4;
+            (
+                ZPoly::new(vec![-b8, -(&b6 * 2u32), -b4, BigInt::zero(), BigInt::one()]),
+                work.cubic.scale(&BigInt::from(4)),
+            )
+        });
         let prev = &part.levels[k as usize - 1];
         for (i, q) in prev.iter().enumerate() {
             let Some(xq) = q.x() else { continue };
@@ -564,15 +570,20 @@ fn reduction_bound(work: &WorkModel, found: u32) -> (u32, bool) {
         work.coefficient(2),
     ];
     let disc = work.curve.discriminant().numer();
-    // Residues in machine words when the numbers fit.
-    let small: Option<[i64; 4]> = match (f[0].to_i64(), f[1].to_i64(), f[2].to_i64(), disc.to_i64())
-    {
+    // Residues in machine words when the numbers fit (the same values as
+    // `mod_floor` below: both are the least non-negative residue).
+    let small: Option<[i128; 4]> = match (
+        f[0].to_i128(),
+        f[1].to_i128(),
+        f[2].to_i128(),
+        disc.to_i128(),
+    ) {
         (Some(a), Some(b), Some(c), Some(d)) => Some([a, b, c, d]),
         _ => None,
     };
     let residues = |p: u64| -> [u64; 4] {
         match small {
-            Some(v) => v.map(|c| c.rem_euclid(p as i64) as u64),
+            Some(v) => v.map(|c| c.rem_euclid(i128::from(p)) as u64),
             None => {
                 let pb = BigInt::from(p);
                 let r = |c: &BigInt| c.mod_floor(&pb).to_u64().unwrap_or(0);

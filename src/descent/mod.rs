@@ -139,10 +139,11 @@ impl IsogenyDescent {
     /// side) − t + dim I (the liftable subgroup on E's side). `None` when
     /// the pairing on E's side was not computed (budget).
     pub fn selmer2_rank(&self) -> Option<usize> {
+        let liftable = self.domain.liftable_dim()?;
         let full = is_square(&self.model.reduced().quadratic_discriminant());
         Some(bounds::selmer2_dimension(
             self.codomain.dimension(),
-            self.domain.liftable_dim()?,
+            liftable,
             full,
         ))
     }
@@ -151,10 +152,11 @@ impl IsogenyDescent {
     /// (the same sequence for the dual isogeny; E'\[2\] is rational iff b is
     /// a square).
     pub fn selmer2_rank_codomain(&self) -> Option<usize> {
+        let liftable = self.codomain.liftable_dim()?;
         let full = is_square(self.model.b());
         Some(bounds::selmer2_dimension(
             self.domain.dimension(),
-            self.codomain.liftable_dim()?,
+            liftable,
             full,
         ))
     }
