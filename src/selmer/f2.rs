@@ -457,7 +457,7 @@ pub(crate) fn insert_word(basis: &mut Vec<u64>, v: u64) -> bool {
 impl Subspace {
     /// The subspace of F2^n (n ≤ 64) with the given reduced echelon basis
     /// in words (bit i is coordinate i).
-    fn from_echelon_words(ambient: usize, basis: &[u64]) -> Subspace {
+    pub(crate) fn from_echelon_words(ambient: usize, basis: &[u64]) -> Subspace {
         Subspace {
             ambient,
             basis: basis

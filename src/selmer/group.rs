@@ -39,7 +39,13 @@ impl LocalCondition {
     /// W_v from the list of its member classes (bit masks).
     pub fn from_masks(place: Place, masks: &[u8]) -> Self {
         let n = class_dimension(&place);
-        let image = Subspace::span(n, masks.iter().map(|&m| BitVec::from_u64(n, m as u64)));
+        // The echelon basis in words (n ≤ 3): the same canonical basis as
+        // `Subspace::span` of the masks.
+        let mut basis = Vec::with_capacity(n);
+        for &m in masks {
+            insert_word(&mut basis, u64::from(m) & ((1u64 << n) - 1));
+        }
+        let image = Subspace::from_echelon_words(n, &basis);
         LocalCondition { place, image }
     }
 
@@ -223,6 +229,31 @@ mod tests {
             assert_eq!(selmer_from_local_images(&q, &conditions).unwrap(), general);
         }
         assert!(compared > 300, "only {compared} rounds on the word route");
+    }
+
+    /// `from_masks` gives the subspace (and echelon basis) of
+    /// `Subspace::span` for every set of masks at R, 2 and an odd prime,
+    /// including masks with stray high bits.
+    #[test]
+    fn conditions_from_masks_match_the_span() {
+        for place in [
+            Place::Real,
+            Place::Finite(Prime::two()),
+            Place::Finite(Prime::small(7).unwrap()),
+        ] {
+            let n = class_dimension(&place);
+            let classes = 1u32 << n;
+            for set in 0u32..(1 << classes) {
+                let masks: Vec<u8> = (0..classes)
+                    .filter(|m| set >> m & 1 == 1)
+                    .map(|m| (m as u8) | 0b1000_0000)
+                    .collect();
+                let want =
+                    Subspace::span(n, masks.iter().map(|&m| BitVec::from_u64(n, u64::from(m))));
+                let got = LocalCondition::from_masks(place.clone(), &masks);
+                assert_eq!(got.image, want, "{place} {masks:?}");
+            }
+        }
     }
 
     /// Above 64 coordinates the general route runs (and still answers).
