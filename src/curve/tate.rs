@@ -1082,8 +1082,14 @@ pub(crate) fn global_local_data_with(
     // Δ(integral) = d¹² Δ(input), so its primes are those of d and of the
     // numerator of Δ(input).
     let mut primes: Vec<BigInt> = Vec::new();
-    let disc_input = BigRational::new(disc.abs(), num_traits::pow(d.clone(), 12));
-    for m in [d.clone(), disc_input.numer().abs()] {
+    let disc_numer = if d.is_one() {
+        disc.abs()
+    } else {
+        BigRational::new(disc.abs(), num_traits::pow(d.clone(), 12))
+            .numer()
+            .abs()
+    };
+    for m in [d.clone(), disc_numer] {
         if m > BigInt::one() {
             match known.primes_of(&m) {
                 Some(ps) => primes.extend(ps),
