@@ -1081,7 +1081,7 @@ pub(crate) fn global_local_data_with(
     // Step 2: the primes.
     // Δ(integral) = d¹² Δ(input), so its primes are those of d and of the
     // numerator of Δ(input).
-    let mut primes: Vec<BigInt> = Vec::new();
+    let mut primes: Vec<BigInt> = Vec::with_capacity(16);
     let disc_numer = if d.is_one() {
         disc.abs()
     } else {
@@ -1117,7 +1117,7 @@ pub(crate) fn global_local_data_with(
             total: ModelChange::scaling(BigRational::new(BigInt::one(), d))?,
         },
     };
-    let mut records = Vec::new();
+    let mut records = Vec::with_capacity(primes.len());
     let mut conductor = BigInt::one();
     for q in primes {
         let p = Prime::new(q)?;

@@ -120,6 +120,9 @@ fn selmer_in_words(qs2: &QS2, conditions: &[LocalCondition]) -> Option<Subspace>
         return None;
     }
     let mut rows: Vec<u64> = Vec::with_capacity(2 * conditions.len());
+    // Scratch space reused across the places (dim_v ≤ 3).
+    let mut w: Vec<u64> = Vec::with_capacity(3);
+    let mut ann: Vec<u64> = Vec::with_capacity(3);
     for c in conditions {
         let d = class_dimension(&c.place);
         if c.image.ambient() != d || d > 8 {
@@ -127,8 +130,9 @@ fn selmer_in_words(qs2: &QS2, conditions: &[LocalCondition]) -> Option<Subspace>
         }
         // W_v as masks; the annihilator: every f with f · w = 0 for all w
         // (dim_v ≤ 3, so at most 7 candidates), kept as an echelon basis.
-        let w: Vec<u64> = c.image.basis().iter().map(BitVec::low_word).collect();
-        let mut ann: Vec<u64> = Vec::with_capacity(d);
+        w.clear();
+        w.extend(c.image.basis().iter().map(BitVec::low_word));
+        ann.clear();
         for f in 1u64..(1 << d) {
             if w.iter().all(|&x| (f & x).count_ones() % 2 == 0) {
                 insert_word(&mut ann, f);
@@ -137,15 +141,15 @@ fn selmer_in_words(qs2: &QS2, conditions: &[LocalCondition]) -> Option<Subspace>
         if ann.is_empty() {
             continue;
         }
-        let mut fs = vec![0u64; ann.len()];
+        let first = rows.len();
+        rows.resize(first + ann.len(), 0);
         let classes = std::iter::once(None).chain(qs2.primes().iter().map(Some));
         for (i, q) in classes.enumerate() {
             let col = u64::from(basis_class(q, &c.place));
-            for (row, &f) in fs.iter_mut().zip(&ann) {
+            for (row, &f) in rows[first..].iter_mut().zip(&ann) {
                 *row |= u64::from((f & col).count_ones() % 2) << i;
             }
         }
-        rows.extend(fs);
     }
     Subspace::kernel_of_word_rows(n, &rows)
 }
