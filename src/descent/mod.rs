@@ -7,7 +7,9 @@
 //!    ([`crate::curve::two_torsion_model`]) and forms the 2-isogenous
 //!    E': y² = x³ − 2a x² + (a² − 4b) x;
 //! 2. factors b and a² − 4b (the bad primes of both sides, since
-//!    a'² − 4b' = 16 b);
+//!    a'² − 4b' = 16 b); a number whose primes are all among those already
+//!    found for the curve, and which factoring would have split without
+//!    spending budget, is not factored again (`KnownPrimes`);
 //! 3. computes both Selmer groups from local images at R, 2 and every bad
 //!    prime (`isogeny_side::compute_side`) and searches their homogeneous spaces;
 //! 4. combines both sides by the exact sequence (`bounds`).
