@@ -55,6 +55,7 @@ use crate::arith::word::word_paths_enabled;
 use crate::budget::Budget;
 use crate::curve::{Curve, ModelChange};
 use crate::error::{Error, Result};
+use crate::local::known_primes::KnownPrimes;
 use crate::local::{legendre, valuation, Prime};
 
 /// The Kodaira symbol of the special fibre of the Néron model at a prime
@@ -1045,6 +1046,19 @@ pub fn global_local_data(
     coeffs: &[BigRational; 5],
     budget: &mut Budget,
 ) -> Result<GlobalLocalData> {
+    global_local_data_with(coeffs, budget, &mut KnownPrimes::default())
+}
+
+/// [`global_local_data`], reading the primes of the discriminant (and of
+/// the scaling `d`) off `known` when it holds them all and factoring would
+/// have spent no budget ([`KnownPrimes::primes_of`]), else factoring under
+/// `budget` as there and adding the primes found to `known`. The result is
+/// the same either way.
+pub(crate) fn global_local_data_with(
+    coeffs: &[BigRational; 5],
+    budget: &mut Budget,
+    known: &mut KnownPrimes,
+) -> Result<GlobalLocalData> {
     // Step 1: an integral model; in machine words when it is the input
     // itself and its discriminant fits in i128 (module `tate_word`).
     let (d, integral) = integral_scaling(coeffs);
@@ -1067,12 +1081,23 @@ pub fn global_local_data(
     // Step 2: the primes.
     // Δ(integral) = d¹² Δ(input), so its primes are those of d and of the
     // numerator of Δ(input).
-    let mut primes: Vec<BigInt> = Vec::new();
-    let disc_input = BigRational::new(disc.abs(), num_traits::pow(d.clone(), 12));
-    for m in [d.clone(), disc_input.numer().abs()] {
+    let mut primes: Vec<BigInt> = Vec::with_capacity(16);
+    let disc_numer = if d.is_one() {
+        disc.abs()
+    } else {
+        BigRational::new(disc.abs(), num_traits::pow(d.clone(), 12))
+            .numer()
+            .abs()
+    };
+    for m in [d.clone(), disc_numer] {
         if m > BigInt::one() {
-            for (q, _) in factor(&m, budget)?.factors() {
-                primes.push(q.clone());
+            match known.primes_of(&m) {
+                Some(ps) => primes.extend(ps),
+                None => {
+                    let f = factor(&m, budget)?;
+                    known.add(f.primes());
+                    primes.extend(f.primes().cloned());
+                }
             }
         }
     }
@@ -1092,7 +1117,7 @@ pub fn global_local_data(
             total: ModelChange::scaling(BigRational::new(BigInt::one(), d))?,
         },
     };
-    let mut records = Vec::new();
+    let mut records = Vec::with_capacity(primes.len());
     let mut conductor = BigInt::one();
     for q in primes {
         let p = Prime::new(q)?;
@@ -1252,6 +1277,10 @@ fn change_array(c: &ModelChange) -> [BigRational; 4] {
 /// `d` = the lcm of the denominators, and `[d·a1, d²·a2, d³·a3, d⁴·a4,
 /// d⁶·a6]` (the change `u = 1/d`), an integral model.
 fn integral_scaling(coeffs: &[BigRational; 5]) -> (BigInt, [BigInt; 5]) {
+    if coeffs.iter().all(|c| c.denom().is_one()) {
+        // d = 1: the model is its own integral scaling.
+        return (BigInt::one(), coeffs.clone().map(|c| c.numer().clone()));
+    }
     let mut d = BigInt::one();
     for c in coeffs {
         d = d.lcm(c.denom());

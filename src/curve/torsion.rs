@@ -159,21 +159,22 @@ pub fn torsion_subgroup(e: &Curve) -> TorsionGroup {
 /// The working model M: y² = x³ + f2x² + f4x + f6 with f_i ∈ Z (the input
 /// itself when it already has that shape, else its integral short model),
 /// with the change of model from the input to M.
-struct WorkModel {
-    curve: Curve,
+struct WorkModel<'e> {
+    /// M itself: borrowed when it is the input.
+    curve: std::borrow::Cow<'e, Curve>,
     /// [f6, f4, f2, 1]: the cubic F with M: y² = F(x).
     cubic: ZPoly,
     /// `None` when M is the input model.
     change: Option<ModelChange>,
 }
 
-impl WorkModel {
-    fn of(e: &Curve) -> WorkModel {
+impl<'e> WorkModel<'e> {
+    fn of(e: &'e Curve) -> WorkModel<'e> {
         if let Some([a1, a2, a3, a4, a6]) = e.integer_coefficients() {
             if a1.is_zero() && a3.is_zero() {
                 return WorkModel {
                     cubic: ZPoly::new(vec![a6.clone(), a4.clone(), a2.clone(), BigInt::one()]),
-                    curve: e.clone(),
+                    curve: std::borrow::Cow::Borrowed(e),
                     change: None,
                 };
             }
@@ -181,7 +182,7 @@ impl WorkModel {
         let (a, b, short, change) = short_integral_model(e);
         WorkModel {
             cubic: ZPoly::new(vec![b, a, BigInt::zero(), BigInt::one()]),
-            curve: short,
+            curve: std::borrow::Cow::Owned(short),
             change: Some(change),
         }
     }
@@ -221,7 +222,7 @@ struct Primary {
 ///   x⁴ − b4x² − 2b6x − b8 − x_Q(4x³ + b2x² + 2b4x + b6) [Sil09, III.2.3(d)]
 ///   with four distinct roots over Q̄; each candidate is confirmed by
 ///   doubling.
-fn two_primary(work: &WorkModel, roots: &[BigInt], e_max: u32) -> Primary {
+fn two_primary(work: &WorkModel<'_>, roots: &[BigInt], e_max: u32) -> Primary {
     let level1: Vec<Point> = roots
         .iter()
         .map(|x| Point::new(BigRational::from_integer(x.clone()), BigRational::zero()))
@@ -270,11 +271,8 @@ fn two_primary(work: &WorkModel, roots: &[BigInt], e_max: u32) -> Primary {
     let mut level = level2;
     let mut parents = parents2;
     let mut k = 2;
-    let b4: BigInt = &f4 * 2u32;
-    let b6: BigInt = &f6 * 4u32;
-    let b8: BigInt = &f2 * &f6 * 4u32 - &f4 * &f4;
-    let num = ZPoly::new(vec![-b8, -(&b6 * 2u32), -b4, BigInt::zero(), BigInt::one()]);
-    let four_f = work.cubic.scale(&BigInt::from(4));
+    // The halving polynomials, built only when a level 3 is sought.
+    let mut halving: Option<(ZPoly, ZPoly)> = None;
     loop {
         if level.is_empty() {
             break;
@@ -284,6 +282,15 @@ fn two_primary(work: &WorkModel, roots: &[BigInt], e_max: u32) -> Primary {
         if k >= e_max {
             break;
         }
+        let (num, four_f) = halving.get_or_insert_with(|| {
+            let b4: BigInt = &f4 * 2u32;
+            let b6: BigInt = &f6 * 4u32;
+            let b8: BigInt = &f2 * &f6 * 4u32 - &f4 * &f4;
+            (
+                ZPoly::new(vec![-b8, -(&b6 * 2u32), -b4, BigInt::zero(), BigInt::one()]),
+                work.cubic.scale(&BigInt::from(4)),
+            )
+        });
         let prev = &part.levels[k as usize - 1];
         for (i, q) in prev.iter().enumerate() {
             let Some(xq) = q.x() else { continue };
@@ -302,7 +309,7 @@ fn two_primary(work: &WorkModel, roots: &[BigInt], e_max: u32) -> Primary {
 
 /// The ℓ-primary part of M(Q) for an odd prime ℓ, ℓ^e_max ∥ N, computed on
 /// the integral short model of M (module docs, step 3).
-fn odd_primary(work: &WorkModel, l: u32, e_max: u32) -> Primary {
+fn odd_primary(work: &WorkModel<'_>, l: u32, e_max: u32) -> Primary {
     let (a, b, short, change) = short_integral_model(&work.curve);
     let cubic = ZPoly::new(vec![b.clone(), a.clone(), BigInt::zero(), BigInt::one()]);
     let levels = primary_part(&short, &a, &b, &cubic, l, e_max)
@@ -317,7 +324,7 @@ fn odd_primary(work: &WorkModel, l: u32, e_max: u32) -> Primary {
 }
 
 /// The group from its primary parts, on the input model.
-fn assemble(work: &WorkModel, parts: &[Primary], bound: u32) -> TorsionGroup {
+fn assemble(work: &WorkModel<'_>, parts: &[Primary], bound: u32) -> TorsionGroup {
     // Points of M with their orders.
     let mut group: Vec<(Point, u32)> = vec![(Point::Infinity, 1)];
     for part in parts {
@@ -557,22 +564,27 @@ fn multiplication_numerator(
 /// is a power of 2 that has not changed over [`STABLE_PRIMES`] primes: the
 /// 2-primary search that follows settles the group as exactly as with more
 /// primes, and costs only a few square-root tests at each level.
-fn reduction_bound(work: &WorkModel, found: u32) -> (u32, bool) {
+fn reduction_bound(work: &WorkModel<'_>, found: u32) -> (u32, bool) {
     let f = [
         work.coefficient(0),
         work.coefficient(1),
         work.coefficient(2),
     ];
     let disc = work.curve.discriminant().numer();
-    // Residues in machine words when the numbers fit.
-    let small: Option<[i64; 4]> = match (f[0].to_i64(), f[1].to_i64(), f[2].to_i64(), disc.to_i64())
-    {
+    // Residues in machine words when the numbers fit (the same values as
+    // `mod_floor` below: both are the least non-negative residue).
+    let small: Option<[i128; 4]> = match (
+        f[0].to_i128(),
+        f[1].to_i128(),
+        f[2].to_i128(),
+        disc.to_i128(),
+    ) {
         (Some(a), Some(b), Some(c), Some(d)) => Some([a, b, c, d]),
         _ => None,
     };
     let residues = |p: u64| -> [u64; 4] {
         match small {
-            Some(v) => v.map(|c| c.rem_euclid(p as i64) as u64),
+            Some(v) => v.map(|c| c.rem_euclid(i128::from(p)) as u64),
             None => {
                 let pb = BigInt::from(p);
                 let r = |c: &BigInt| c.mod_floor(&pb).to_u64().unwrap_or(0);

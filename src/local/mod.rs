@@ -19,6 +19,7 @@
 //! positive non-residue, and at R it is {−1} ([Serre73, II.3.3]).
 
 pub(crate) mod hilbert;
+pub(crate) mod known_primes;
 pub(crate) mod place;
 pub(crate) mod sqrt;
 pub(crate) mod square_class;

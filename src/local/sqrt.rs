@@ -27,6 +27,15 @@ use crate::error::{Error, Result};
 /// assert_eq!((&x * &x) % 7, 2.into());
 /// ```
 pub fn sqrt_mod_prime(a: &BigInt, p: &Prime) -> Option<BigInt> {
+    if let Some(pw) = p.to_u64() {
+        let r = residue_u64(a, pw);
+        return sqrt_mod_prime_word(r, pw).map(BigInt::from);
+    }
+    sqrt_mod_prime_big(a, p)
+}
+
+/// [`sqrt_mod_prime`] on `BigInt`s (any p).
+fn sqrt_mod_prime_big(a: &BigInt, p: &Prime) -> Option<BigInt> {
     let p = p.get();
     let a = a.mod_floor(p);
     if p == &BigInt::from(2) || a.is_zero() {
@@ -87,6 +96,15 @@ pub fn sqrt_mod_prime_power(a: &BigInt, p: &Prime, k: u32) -> Option<BigInt> {
     if k == 0 {
         return Some(BigInt::zero());
     }
+    if let Some(pk) = p.to_u64().and_then(|pw| pw.checked_pow(k)) {
+        let r = residue_u64(a, pk);
+        return sqrt_mod_prime_power_word(r, p.to_u64()?, k, pk).map(BigInt::from);
+    }
+    sqrt_mod_prime_power_big(a, p, k)
+}
+
+/// [`sqrt_mod_prime_power`] on `BigInt`s (any p^k).
+fn sqrt_mod_prime_power_big(a: &BigInt, p: &Prime, k: u32) -> Option<BigInt> {
     let pk = p.get().pow(k);
     let a = a.mod_floor(&pk);
     if a.is_zero() {
@@ -115,6 +133,150 @@ pub fn sqrt_mod_prime_power(a: &BigInt, p: &Prime, k: u32) -> Option<BigInt> {
     };
     let x = (y * p.get().pow((v / 2) as u32)).mod_floor(&pk);
     Some(x)
+}
+
+// ---------------------------------------------------------------------
+// The same algorithms in machine words, for p^k < 2^64: every step below
+// mirrors the `BigInt` code step for step (Tonelli–Shanks with the same
+// non-residue, the same Hensel lifts), so the root returned is the same
+// number, not merely another root. Products are taken in u128.
+// ---------------------------------------------------------------------
+
+/// a mod m (m > 0) as a word: the least non-negative residue.
+fn residue_u64(a: &BigInt, m: u64) -> u64 {
+    use num_traits::ToPrimitive;
+    match a.to_i128() {
+        Some(x) => x.rem_euclid(i128::from(m)) as u64,
+        None => a.mod_floor(&BigInt::from(m)).to_u64().unwrap_or(0),
+    }
+}
+
+fn mul_mod(a: u64, b: u64, m: u64) -> u64 {
+    ((u128::from(a) * u128::from(b)) % u128::from(m)) as u64
+}
+
+fn pow_mod(mut b: u64, mut e: u64, m: u64) -> u64 {
+    let mut r = 1 % m;
+    b %= m;
+    while e > 0 {
+        if e & 1 == 1 {
+            r = mul_mod(r, b, m);
+        }
+        b = mul_mod(b, b, m);
+        e >>= 1;
+    }
+    r
+}
+
+/// [`mod_inverse`] in words: a⁻¹ mod m (m ≥ 2), `None` unless gcd = 1.
+fn mod_inverse_word(a: u64, m: u64) -> Option<u64> {
+    let (mut r0, mut r1) = (i128::from(m), i128::from(a % m));
+    let (mut t0, mut t1) = (0i128, 1i128);
+    while r1 != 0 {
+        let q = r0 / r1;
+        (r0, r1) = (r1, r0 - q * r1);
+        (t0, t1) = (t1, t0 - q * t1);
+    }
+    (r0 == 1).then(|| t0.rem_euclid(i128::from(m)) as u64)
+}
+
+/// [`sqrt_mod_prime_big`] in words; `a` already reduced mod p.
+fn sqrt_mod_prime_word(a: u64, p: u64) -> Option<u64> {
+    if p == 2 || a == 0 {
+        return Some(a);
+    }
+    if super::symbols::legendre_u64(a, p) != 1 {
+        return None;
+    }
+    let pm1 = p - 1;
+    let s = u64::from(pm1.trailing_zeros());
+    let q = pm1 >> s;
+    if s == 1 {
+        return Some(pow_mod(a, (p + 1) >> 2, p));
+    }
+    let mut z = 2u64;
+    while super::symbols::legendre_u64(z % p, p) != -1 {
+        z += 1;
+    }
+    let mut m = s;
+    let mut c = pow_mod(z, q, p);
+    let mut t = pow_mod(a, q, p);
+    let mut r = pow_mod(a, (q + 1) >> 1, p);
+    while t != 1 {
+        let mut i = 0u64;
+        let mut t2 = t;
+        while t2 != 1 {
+            t2 = mul_mod(t2, t2, p);
+            i += 1;
+            if i >= m {
+                return None;
+            }
+        }
+        let mut b = c;
+        for _ in 0..(m - i - 1) {
+            b = mul_mod(b, b, p);
+        }
+        m = i;
+        c = mul_mod(b, b, p);
+        t = mul_mod(t, c, p);
+        r = mul_mod(r, b, p);
+    }
+    Some(r)
+}
+
+/// [`sqrt_mod_prime_power_big`] in words: `a` reduced mod `pk` = p^k.
+fn sqrt_mod_prime_power_word(a: u64, p: u64, k: u32, pk: u64) -> Option<u64> {
+    if a == 0 {
+        return Some(0);
+    }
+    let mut u = a;
+    let mut v = 0u32;
+    while u % p == 0 {
+        u /= p;
+        v += 1;
+    }
+    if v % 2 == 1 {
+        return None;
+    }
+    let m = k - v;
+    let y = if p == 2 {
+        sqrt_unit_mod_two_power_word(u, m)?
+    } else {
+        let mut y = sqrt_mod_prime_word(u % p, p)?;
+        let mut j = 1u32;
+        while j < m {
+            j = (2 * j).min(m);
+            let pj = p.pow(j);
+            let inv = mod_inverse_word(mul_mod(y, 2, pj), pj)?;
+            let w = u128::from(pj);
+            let diff = ((u128::from(mul_mod(y, y, pj)) + w - u128::from(u % pj)) % w) as u64;
+            let corr = mul_mod(diff, inv, pj);
+            y = ((u128::from(y) % w + w - u128::from(corr)) % w) as u64;
+        }
+        y
+    };
+    Some(mul_mod(y, p.pow(v / 2), pk))
+}
+
+/// [`sqrt_unit_mod_two_power`] in words (m ≤ 63 since 2^m ≤ p^k < 2^64).
+fn sqrt_unit_mod_two_power_word(u: u64, m: u32) -> Option<u64> {
+    match m {
+        0 | 1 => return Some(1),
+        2 => return (u % 4 == 1).then_some(1),
+        _ => {}
+    }
+    if u % 8 != 1 {
+        return None;
+    }
+    let mut y: u64 = 1;
+    for j in 3..m {
+        let modulus = 1u128 << (j + 1);
+        let y2 = u128::from(y) * u128::from(y);
+        if (y2 % modulus + modulus - u128::from(u) % modulus) % modulus != 0 {
+            y += 1u64 << (j - 1);
+        }
+    }
+    Some(y % (1u64 << m))
 }
 
 /// Root of an odd u modulo 2^m.
@@ -202,6 +364,90 @@ mod tests {
             mod_inverse_with_budget(&BigInt::from(3), &huge, &mut tiny),
             Err(Error::BudgetExhausted { .. })
         ));
+    }
+
+    /// The word routes return the very same roots as the `BigInt` routes
+    /// (not merely roots): all residues for small p^k, and random residues
+    /// for p^k near 2^32, 2^63 and just below 2^64, p = 2 included.
+    #[test]
+    fn word_roots_are_the_big_integer_roots() {
+        let mut x = 0x9E37_79B9_7F4A_7C15u64;
+        let mut next = || {
+            x ^= x << 13;
+            x ^= x >> 7;
+            x ^= x << 17;
+            x
+        };
+        let mut compared = 0;
+        for (p, k) in [
+            (2u64, 1u32),
+            (2, 3),
+            (2, 6),
+            (3, 4),
+            (5, 3),
+            (7, 2),
+            (13, 2),
+            (17, 1),
+            (41, 2),
+        ] {
+            let pr = Prime::small(p).unwrap();
+            let pk = p.pow(k);
+            for a in 0..pk {
+                let big_a = BigInt::from(a);
+                assert_eq!(
+                    sqrt_mod_prime_power(&big_a, &pr, k),
+                    sqrt_mod_prime_power_big(&big_a, &pr, k),
+                    "{a} mod {p}^{k}"
+                );
+                assert_eq!(sqrt_mod_prime(&big_a, &pr), sqrt_mod_prime_big(&big_a, &pr));
+                compared += 1;
+            }
+        }
+        // (p, k) with p^k just below a word boundary: 2^63, 2^32 + 15 (prime),
+        // 3^40 < 2^64, 65521^4 < 2^64 (65521 prime), (2^32 − 5)² (2^32 − 5 prime),
+        // 2^64 − 59 (prime); primality from sympy 1.14.
+        for (p, k) in [
+            (2u64, 63u32),
+            (4_294_967_311, 1),
+            (3, 40),
+            (65521, 4),
+            (4_294_967_291, 2),
+            (18_446_744_073_709_551_557, 1),
+        ] {
+            let pr = Prime::small(p).unwrap();
+            let pk = BigInt::from(p).pow(k);
+            for i in 0..300 {
+                // Random residues, random squares (so that roots exist), and
+                // multiples of p² (valuation part), some negative or > p^k.
+                let r = BigInt::from(next()) * BigInt::from(next());
+                let a = match i % 4 {
+                    0 => r.clone(),
+                    1 => &r * &r,
+                    2 => &r * &r * p * p,
+                    _ => -(&r * &r) - &pk * 3,
+                };
+                let word = sqrt_mod_prime_power(&a, &pr, k);
+                assert_eq!(
+                    word,
+                    sqrt_mod_prime_power_big(&a, &pr, k),
+                    "{a} mod {p}^{k}"
+                );
+                if let Some(y) = &word {
+                    assert_eq!((y * y - &a).mod_floor(&pk), BigInt::zero());
+                }
+                assert_eq!(sqrt_mod_prime(&a, &pr), sqrt_mod_prime_big(&a, &pr));
+                compared += 1;
+            }
+        }
+        // Above 2^64 the BigInt route runs (2^64 + 13 is prime, sympy 1.14).
+        let big_p = Prime::new("18446744073709551629".parse().unwrap()).unwrap();
+        let nine = BigInt::from(9);
+        let y = sqrt_mod_prime_power(&nine, &big_p, 2).unwrap();
+        assert_eq!(
+            (&y * &y - &nine).mod_floor(&big_p.get().pow(2)),
+            BigInt::zero()
+        );
+        assert!(compared > 2000);
     }
 
     #[test]

@@ -15,7 +15,7 @@ use num_rational::BigRational;
 use num_traits::{Signed, ToPrimitive, Zero};
 
 use super::place::{Place, Prime};
-use super::symbols::legendre;
+use super::symbols::{legendre, legendre_u64};
 use super::valuation::split_valuation;
 use crate::error::{Error, Result};
 
@@ -31,10 +31,7 @@ pub fn class_dimension(place: &Place) -> usize {
 /// Bits of a p-adic unit given as an integer prime to p.
 fn unit_bits(u: &BigInt, p: &Prime) -> u8 {
     if p.is_two() {
-        let r = u.mod_floor(&BigInt::from(8)).to_u8().unwrap_or(1);
-        let minus = u8::from(r % 4 == 3);
-        let five = u8::from(r == 3 || r == 5);
-        (minus << 1) | (five << 2)
+        unit_bits_mod8(u.mod_floor(&BigInt::from(8)).to_u64().unwrap_or(1))
     } else {
         // p ∤ u, so the symbol is ±1 and p is odd.
         let nonres = legendre(u, p).map(|s| s == -1).unwrap_or(false);
@@ -68,6 +65,45 @@ pub fn square_class_int(x: &BigInt, place: &Place) -> Result<u8> {
             u8::from(v % 2 == 1) | unit_bits(&u, p)
         }
     })
+}
+
+/// The class in Q_v*/Q_v*^2 of a basis element of Q(S, 2): −1 (`q = None`)
+/// or a prime `q`, as a bit mask; the same value as [`square_class_int`]
+/// on that integer.
+///
+/// At R: −1 ↦ 1, q ↦ 0. At p = q: v = 1 with unit 1, so bit 0 alone. At
+/// q ≠ p the element is a unit: at 2 its residue mod 8 gives the bits, at
+/// odd p the Legendre symbol (q | p), or (−1 | p), gives bit 1
+/// ([Serre73, II.3.3]). When p and q fit in a `u64` this runs in words
+/// (the Jacobi routine of [`legendre_u64`]); otherwise on `BigInt`.
+pub(crate) fn basis_class(q: Option<&Prime>, place: &Place) -> u8 {
+    let p = match place {
+        Place::Real => return u8::from(q.is_none()),
+        Place::Finite(p) => p,
+    };
+    if q == Some(p) {
+        return 1;
+    }
+    let word = match q {
+        None => p.to_u64().map(|pw| (pw, pw - 1)),
+        Some(q) => p.to_u64().zip(q.to_u64()),
+    };
+    match word {
+        // The unit is −1 or q, given by its residue mod 8 (p = 2) or mod p.
+        Some((2, u)) => unit_bits_mod8(if q.is_none() { 7 } else { u % 8 }),
+        Some((pw, u)) => u8::from(legendre_u64(u % pw, pw) == -1) << 1,
+        None => {
+            let x = q.map_or_else(|| BigInt::from(-1), |q| q.get().clone());
+            unit_bits(&x, p)
+        }
+    }
+}
+
+/// The bits of a 2-adic unit from its residue r mod 8 (r odd).
+fn unit_bits_mod8(r: u64) -> u8 {
+    let minus = u8::from(r % 4 == 3);
+    let five = u8::from(r == 3 || r == 5);
+    (minus << 1) | (five << 2)
 }
 
 /// The class of a nonzero rational in Q_v*/Q_v*^2 as a bit mask.
@@ -144,6 +180,51 @@ mod tests {
             assert_eq!(reps.len(), 1 << class_dimension(v));
             for (i, r) in reps.iter().enumerate() {
                 assert_eq!(square_class_int(r, v).unwrap() as usize, i, "{v} {r}");
+            }
+        }
+    }
+
+    /// The word route of `basis_class` against `square_class_int` on the
+    /// integers −1 and q, at R, at 2, at small odd primes, at primes just
+    /// below 2^63 and 2^64, and at primes above 2^64 (the `BigInt` route).
+    #[test]
+    fn basis_classes_agree_with_the_integer_classes() {
+        let mut primes: Vec<Prime> = Vec::new();
+        let push_from = |start: u64, count: usize, out: &mut Vec<Prime>| {
+            let mut q = start;
+            let mut got = 0;
+            while got < count {
+                if crate::arith::is_prime_u64(q) {
+                    out.push(Prime::small(q).unwrap());
+                    got += 1;
+                }
+                q = q.wrapping_add(1);
+            }
+        };
+        push_from(2, 60, &mut primes);
+        push_from((1 << 63) - 300, 5, &mut primes);
+        push_from(u64::MAX - 400, 5, &mut primes);
+        // 2^64 + 13 and 2^128 + 51, prime (sympy 1.14 isprime).
+        for s in [
+            "18446744073709551629",
+            "340282366920938463463374607431768211507",
+        ] {
+            primes.push(Prime::new(s.parse().unwrap()).unwrap());
+        }
+        let mut places = vec![Place::Real];
+        places.extend(primes.iter().cloned().map(Place::Finite));
+        for v in &places {
+            assert_eq!(
+                basis_class(None, v),
+                square_class_int(&BigInt::from(-1), v).unwrap(),
+                "-1 at {v}"
+            );
+            for q in &primes {
+                assert_eq!(
+                    basis_class(Some(q), v),
+                    square_class_int(q.get(), v).unwrap(),
+                    "{q} at {v}"
+                );
             }
         }
     }

@@ -10,19 +10,80 @@ use std::fmt;
 
 use crate::budget::{Budget, Exhausted};
 
-/// A vector in F2^n, bit-packed.
-#[derive(Clone, PartialEq, Eq, Hash, PartialOrd, Ord)]
+/// A vector in F2^n, bit-packed: one machine word held inline when
+/// n ≤ 64 (the common case: dim Q(S, 2) = 1 + |S|), a heap vector of
+/// ⌈n/64⌉ words beyond.
+#[derive(Clone)]
 pub struct BitVec {
     len: usize,
-    words: Vec<u64>,
+    words: Words,
+}
+
+/// The words of a [`BitVec`]: `One` iff the length is at most 64 (its
+/// word is unused, and zero, at length 0).
+#[derive(Clone)]
+enum Words {
+    One(u64),
+    Many(Vec<u64>),
+}
+
+// Equality, order and hashing as on (length, word slice): the same as the
+// derived ones of a (usize, Vec<u64>) pair.
+impl PartialEq for BitVec {
+    fn eq(&self, other: &Self) -> bool {
+        self.len == other.len && self.words() == other.words()
+    }
+}
+
+impl Eq for BitVec {}
+
+impl std::hash::Hash for BitVec {
+    fn hash<H: std::hash::Hasher>(&self, state: &mut H) {
+        self.len.hash(state);
+        self.words().hash(state);
+    }
+}
+
+impl PartialOrd for BitVec {
+    fn partial_cmp(&self, other: &Self) -> Option<std::cmp::Ordering> {
+        Some(self.cmp(other))
+    }
+}
+
+impl Ord for BitVec {
+    fn cmp(&self, other: &Self) -> std::cmp::Ordering {
+        self.len
+            .cmp(&other.len)
+            .then_with(|| self.words().cmp(other.words()))
+    }
 }
 
 impl BitVec {
     /// The zero vector of length `len`.
     pub fn zeros(len: usize) -> Self {
-        BitVec {
-            len,
-            words: vec![0; len.div_ceil(64)],
+        let words = if len <= 64 {
+            Words::One(0)
+        } else {
+            Words::Many(vec![0; len.div_ceil(64)])
+        };
+        BitVec { len, words }
+    }
+
+    /// The ⌈n/64⌉ words (bit i of word k is coordinate 64k + i).
+    fn words(&self) -> &[u64] {
+        match &self.words {
+            Words::One(_) if self.len == 0 => &[],
+            Words::One(w) => std::slice::from_ref(w),
+            Words::Many(v) => v,
+        }
+    }
+
+    /// The words, mutably.
+    fn words_mut(&mut self) -> &mut [u64] {
+        match &mut self.words {
+            Words::One(_) if self.len == 0 => &mut [],
+            Words::One(w) => std::slice::from_mut(w),
+            Words::Many(v) => v,
         }
     }
 
@@ -36,7 +97,7 @@ impl BitVec {
     /// `len` must be at most 64.
     pub fn from_u64(len: usize, bits: u64) -> Self {
         let mut v = Self::zeros(len);
-        if let Some(w) = v.words.first_mut() {
+        if let Some(w) = v.words_mut().first_mut() {
             let mask = if len >= 64 {
                 u64::MAX
             } else {
@@ -56,6 +117,11 @@ impl BitVec {
         v
     }
 
+    /// Coordinates 0..64 as a word (bit i is coordinate i).
+    pub(crate) fn low_word(&self) -> u64 {
+        self.words().first().copied().unwrap_or(0)
+    }
+
     /// Length n.
     pub fn len(&self) -> usize {
         self.len
@@ -68,7 +134,7 @@ impl BitVec {
 
     /// Coordinate i (false outside the range).
     pub fn get(&self, i: usize) -> bool {
-        i < self.len && (self.words[i / 64] >> (i % 64)) & 1 == 1
+        i < self.len && (self.words()[i / 64] >> (i % 64)) & 1 == 1
     }
 
     /// Sets coordinate i; returns false (and does nothing) if i ≥ len.
@@ -78,17 +144,21 @@ impl BitVec {
         }
         let m = 1u64 << (i % 64);
         if bit {
-            self.words[i / 64] |= m;
+            self.words_mut()[i / 64] |= m;
         } else {
-            self.words[i / 64] &= !m;
+            self.words_mut()[i / 64] &= !m;
         }
         true
     }
 
     /// self += other (lengths must agree; extra bits of a longer `other` are ignored).
     pub fn add_assign(&mut self, other: &BitVec) {
-        for (a, b) in self.words.iter_mut().zip(&other.words) {
+        if let (Words::One(a), Words::One(b)) = (&mut self.words, &other.words) {
             *a ^= b;
+        } else {
+            for (a, b) in self.words_mut().iter_mut().zip(other.words()) {
+                *a ^= b;
+            }
         }
         self.trim();
     }
@@ -102,13 +172,13 @@ impl BitVec {
 
     /// True for the zero vector.
     pub fn is_zero(&self) -> bool {
-        self.words.iter().all(|&w| w == 0)
+        self.words().iter().all(|&w| w == 0)
     }
 
     /// The standard dot product Σ x_i y_i in F2.
     pub fn dot(&self, other: &BitVec) -> bool {
         let mut acc = 0u64;
-        for (a, b) in self.words.iter().zip(&other.words) {
+        for (a, b) in self.words().iter().zip(other.words()) {
             acc ^= a & b;
         }
         acc.count_ones() % 2 == 1
@@ -116,7 +186,7 @@ impl BitVec {
 
     /// Index of the lowest set coordinate.
     pub fn leading(&self) -> Option<usize> {
-        for (k, &w) in self.words.iter().enumerate() {
+        for (k, &w) in self.words().iter().enumerate() {
             if w != 0 {
                 return Some(64 * k + w.trailing_zeros() as usize);
             }
@@ -126,7 +196,7 @@ impl BitVec {
 
     /// Number of set coordinates.
     pub fn weight(&self) -> usize {
-        self.words.iter().map(|w| w.count_ones() as usize).sum()
+        self.words().iter().map(|w| w.count_ones() as usize).sum()
     }
 
     /// Indices of the set coordinates, ascending.
@@ -159,8 +229,9 @@ impl BitVec {
 
     fn trim(&mut self) {
         if self.len % 64 != 0 {
-            if let Some(w) = self.words.last_mut() {
-                *w &= (1u64 << (self.len % 64)) - 1;
+            let len = self.len;
+            if let Some(w) = self.words_mut().last_mut() {
+                *w &= (1u64 << (len % 64)) - 1;
             }
         }
     }
@@ -358,6 +429,79 @@ impl Subspace {
     }
 }
 
+/// Inserts `v` into `basis`, a reduced row-echelon basis of vectors of
+/// F2^n with n ≤ 64 held as single words (lowest set bit leading, sorted by
+/// it): the word form of [`Subspace::insert`], with the same canonical
+/// result. Returns true iff the dimension grew.
+pub(crate) fn insert_word(basis: &mut Vec<u64>, v: u64) -> bool {
+    let mut r = v;
+    for &b in basis.iter() {
+        if r & (b & b.wrapping_neg()) != 0 {
+            r ^= b;
+        }
+    }
+    if r == 0 {
+        return false;
+    }
+    let lead = r & r.wrapping_neg();
+    for b in basis.iter_mut() {
+        if *b & lead != 0 {
+            *b ^= r;
+        }
+    }
+    let pos = basis.partition_point(|&b| (b & b.wrapping_neg()) < lead);
+    basis.insert(pos, r);
+    true
+}
+
+impl Subspace {
+    /// The subspace of F2^n (n ≤ 64) with the given reduced echelon basis
+    /// in words (bit i is coordinate i).
+    pub(crate) fn from_echelon_words(ambient: usize, basis: &[u64]) -> Subspace {
+        Subspace {
+            ambient,
+            basis: basis
+                .iter()
+                .map(|&w| BitVec::from_u64(ambient, w))
+                .collect(),
+        }
+    }
+
+    /// The kernel {x ∈ F2^n : r · x = 0 for every row r} for n ≤ 64 with
+    /// the rows as words (bits at or above n are ignored): the same
+    /// subspace, with the same canonical basis, as
+    /// `LinearMap::from_rows(n, rows).kernel()`, without a heap vector per
+    /// row. `None` when n > 64.
+    pub(crate) fn kernel_of_word_rows(ambient: usize, rows: &[u64]) -> Option<Subspace> {
+        if ambient > 64 {
+            return None;
+        }
+        let mask = if ambient == 64 {
+            u64::MAX
+        } else {
+            (1u64 << ambient) - 1
+        };
+        let mut echelon = Vec::with_capacity(ambient);
+        for &r in rows {
+            insert_word(&mut echelon, r & mask);
+        }
+        let pivots = echelon
+            .iter()
+            .fold(0u64, |acc, &b| acc | (b & b.wrapping_neg()));
+        let mut kernel = Vec::with_capacity(ambient - echelon.len());
+        for free in (0..ambient).filter(|&c| pivots >> c & 1 == 0) {
+            let mut v = 1u64 << free;
+            for &b in &echelon {
+                if b >> free & 1 == 1 {
+                    v |= b & b.wrapping_neg();
+                }
+            }
+            insert_word(&mut kernel, v);
+        }
+        Some(Subspace::from_echelon_words(ambient, &kernel))
+    }
+}
+
 /// A linear map F2^n → F2^m given by its m rows (each of length n): the
 /// image of x has coordinate i equal to row_i · x.
 #[derive(Clone, Debug, PartialEq, Eq)]
@@ -492,6 +636,95 @@ mod tests {
             1,
             "a refused insertion leaves the subspace unchanged"
         );
+    }
+
+    /// The word kernel equals `LinearMap::kernel` (same canonical basis)
+    /// on random matrices with 1 to 64 columns, including full and empty
+    /// row sets.
+    #[test]
+    fn word_kernel_matches_the_bitvec_kernel() {
+        let mut x = 0x2545_F491_4F6C_DD1Du64;
+        let mut next = || {
+            x ^= x << 13;
+            x ^= x >> 7;
+            x ^= x << 17;
+            x
+        };
+        for n in 1..=64usize {
+            for _ in 0..20 {
+                let m = (next() % 70) as usize;
+                let sparse = next() % 2 == 0;
+                let rows: Vec<u64> = (0..m)
+                    .map(|_| {
+                        if sparse {
+                            next() & next() & next()
+                        } else {
+                            next()
+                        }
+                    })
+                    .collect();
+                let bit_rows: Vec<BitVec> = rows.iter().map(|&r| BitVec::from_u64(n, r)).collect();
+                let want = LinearMap::from_rows(n, bit_rows).kernel();
+                let got = Subspace::kernel_of_word_rows(n, &rows).unwrap();
+                assert_eq!(got, want, "n = {n}, rows {rows:x?}");
+            }
+        }
+        assert!(Subspace::kernel_of_word_rows(65, &[]).is_none());
+    }
+
+    /// BitVec against a plain `Vec<bool>` model on both sides of the
+    /// inline/heap boundary (lengths 0, 1, 63, 64, 65, 128, 130): set,
+    /// get, add, dot, leading, weight, concat, slice, order and equality.
+    #[test]
+    fn bit_vectors_match_a_boolean_model_across_the_word_boundary() {
+        let mut x = 0x9E37_79B9_7F4A_7C15u64;
+        let mut next = || {
+            x ^= x << 13;
+            x ^= x >> 7;
+            x ^= x << 17;
+            x
+        };
+        let lens = [0usize, 1, 63, 64, 65, 128, 130];
+        for &n in &lens {
+            for _ in 0..30 {
+                let a: Vec<bool> = (0..n).map(|_| next() % 3 == 0).collect();
+                let b: Vec<bool> = (0..n).map(|_| next() % 2 == 0).collect();
+                let va = BitVec::from_bools(&a);
+                let vb = BitVec::from_bools(&b);
+                assert_eq!(va.len(), n);
+                assert!((0..n + 2).all(|i| va.get(i) == a.get(i).copied().unwrap_or(false)));
+                let sum: Vec<bool> = a.iter().zip(&b).map(|(p, q)| p ^ q).collect();
+                assert_eq!(va.add(&vb), BitVec::from_bools(&sum));
+                let dot = a.iter().zip(&b).filter(|(p, q)| **p && **q).count() % 2 == 1;
+                assert_eq!(va.dot(&vb), dot);
+                assert_eq!(va.leading(), a.iter().position(|&p| p));
+                assert_eq!(va.weight(), a.iter().filter(|&&p| p).count());
+                assert_eq!(va.is_zero(), a.iter().all(|&p| !p));
+                let cat: Vec<bool> = a.iter().chain(&b).copied().collect();
+                assert_eq!(va.concat(&vb), BitVec::from_bools(&cat));
+                if n >= 2 {
+                    assert_eq!(va.slice(1, n - 1), BitVec::from_bools(&a[1..]));
+                }
+                // Same length: the order is that of the words, i.e. of the
+                // bit patterns read as little-endian numbers word by word.
+                let words = |v: &[bool]| -> Vec<u64> {
+                    v.chunks(64)
+                        .map(|c| {
+                            c.iter()
+                                .rev()
+                                .fold(0u64, |w, &bit| (w << 1) | u64::from(bit))
+                        })
+                        .collect()
+                };
+                assert_eq!(va.cmp(&vb), words(&a).cmp(&words(&b)));
+                assert_eq!(va == vb, a == b);
+            }
+        }
+        // Different lengths: the shorter is smaller, whatever the bits.
+        let long = BitVec::zeros(65);
+        let short = BitVec::from_u64(64, u64::MAX);
+        assert!(short < long);
+        assert_ne!(BitVec::zeros(64), BitVec::zeros(65));
     }
 
     #[test]
