@@ -34,14 +34,16 @@
 //!   `b < 0`, or `a > 0` and `a² > 4b` (elementary).
 
 use super::form::Quartic;
+use super::image_word;
 use super::solubility::{locally_soluble, LocalSolubility};
+use crate::arith::word::word_paths_enabled;
 use crate::budget::Budget;
 use crate::curve::ReducedModel;
 use crate::error::{Error, Result};
 use crate::local::{class_dimension, class_representatives, Place, Prime};
 use num_bigint::BigInt;
 use num_integer::Integer;
-use num_traits::{One, Signed, Zero};
+use num_traits::{One, Signed, ToPrimitive, Zero};
 
 /// The places where `C_d` can fail to have points: `R`, `2`, and those of
 /// the caller's primes that divide `d·b·(a² − 4b)` (see the module docs for
@@ -179,10 +181,25 @@ pub fn local_image(model: &ReducedModel, place: &Place, budget: &mut Budget) -> 
     debug_assert_eq!(reps.len(), 1 << class_dimension(place));
     let mut members = Vec::new();
     let mut evidence = Vec::with_capacity(reps.len());
+    // The word route (module `image_word`) when a and b fit in i128; per
+    // class, the BigInt route whenever the words do not cover the case.
+    let words = if word_paths_enabled() {
+        a.to_i128().zip(b.to_i128())
+    } else {
+        None
+    };
     for (mask, d) in reps.into_iter().enumerate() {
         let mask = mask as u8;
-        let q = Quartic::two_isogeny_space(&d, a, b)?;
-        let solubility = locally_soluble(&q, place, budget)?;
+        let fast = words
+            .and_then(|(aw, bw)| image_word::space_coeffs(&d, aw, bw))
+            .and_then(|c| image_word::soluble_words(&c, place, budget));
+        let solubility = match fast {
+            Some(s) => s?,
+            None => {
+                let q = Quartic::two_isogeny_space(&d, a, b)?;
+                locally_soluble(&q, place, budget)?
+            }
+        };
         if solubility.is_soluble() {
             members.push(mask);
         }
