@@ -176,6 +176,22 @@ fn f2_basis(masks: &[u8]) -> Vec<u8> {
 /// Example: for `y² = x³ − x` (`a = 0, b = −1`) at `R`: `C_{−1}` is
 /// `N² = −M⁴ + e⁴`, soluble, so `W_R = {1, −1}`, masks `[0, 1]`.
 pub fn local_image(model: &ReducedModel, place: &Place, budget: &mut Budget) -> Result<LocalImage> {
+    local_image_with(model, place, budget, true)
+}
+
+/// [`local_image`]; with `by_closure` false every class is tested, with
+/// `by_closure` true a class `c` is reported insoluble without its test
+/// when some class `m` already found in `W_v` has `c ⊕ m` already found
+/// outside `W_v` (then `c ∈ W_v` would put `c ⊕ m` in the subgroup `W_v`).
+/// Both give the same image and evidence (the test
+/// `closure_skips_change_no_image` compares them over families); the
+/// skipped tests are not charged to the budget.
+pub(crate) fn local_image_with(
+    model: &ReducedModel,
+    place: &Place,
+    budget: &mut Budget,
+    by_closure: bool,
+) -> Result<LocalImage> {
     let (a, b) = (model.a(), model.b());
     let reps = class_representatives(place);
     debug_assert_eq!(reps.len(), 1 << class_dimension(place));
@@ -188,8 +204,24 @@ pub fn local_image(model: &ReducedModel, place: &Place, budget: &mut Budget) -> 
     } else {
         None
     };
+    // Bit m of `inside` / `outside`: class m tested and found in / not in
+    // W_v (masks are below 8).
+    let (mut inside, mut outside) = (0u8, 0u8);
     for (mask, d) in reps.into_iter().enumerate() {
         let mask = mask as u8;
+        let known_outside =
+            by_closure && (0..8u8).any(|m| inside >> m & 1 == 1 && outside >> (m ^ mask) & 1 == 1);
+        if known_outside {
+            outside |= 1 << mask;
+            evidence.push(ClassEvidence {
+                mask,
+                representative: d,
+                solubility: LocalSolubility::Insoluble {
+                    place: place.clone(),
+                },
+            });
+            continue;
+        }
         let fast = words
             .and_then(|(aw, bw)| image_word::space_coeffs(&d, aw, bw))
             .and_then(|c| image_word::soluble_words(&c, place, budget));
@@ -202,6 +234,9 @@ pub fn local_image(model: &ReducedModel, place: &Place, budget: &mut Budget) -> 
         };
         if solubility.is_soluble() {
             members.push(mask);
+            inside |= 1 << mask;
+        } else {
+            outside |= 1 << mask;
         }
         evidence.push(ClassEvidence {
             mask,

@@ -338,6 +338,57 @@ mod tests {
         );
     }
 
+    /// The closure rule of `local_image` (a class `c` is outside `W_v`
+    /// when `c ⊕ m` is outside for a member `m`; `W_v` is a subgroup, the
+    /// image of a homomorphism [SilvermanTate92, III.5]) against testing
+    /// every class, over whole families: the congruent-number curves
+    /// `y² = x³ − n²x` and their isogenous `y² = x³ + 4n²x` for square-free
+    /// `n ≤ 400`, and the box `|a|, |b| ≤ 12`, at `R`, 2 and every odd
+    /// prime of `b(a² − 4b)` (and 3, 5, 7 always).
+    #[test]
+    fn closure_skips_change_no_image() {
+        use crate::quartic::image::local_image_with;
+        let mut models = Vec::new();
+        for n in 1i64..=400 {
+            if (2..=20).any(|q| n % (q * q) == 0) {
+                continue;
+            }
+            models.push((0, -n * n));
+            models.push((0, 4 * n * n));
+        }
+        for a in -12i64..=12 {
+            for b in -12i64..=12 {
+                models.push((a, b));
+            }
+        }
+        let mut compared = 0;
+        let mut skipped_any = false;
+        for (a, b) in models {
+            let Ok(model) = ReducedModel::new(BigInt::from(a), BigInt::from(b)) else {
+                continue;
+            };
+            let disc = (b * (a * a - 4 * b)).unsigned_abs();
+            let mut places = vec![Place::Real, Place::Finite(Prime::two())];
+            for p in (3u64..).step_by(2).take_while(|&p| p <= 401) {
+                if (2..p).take_while(|q| q * q <= p).all(|q| p % q != 0)
+                    && (disc % p == 0 || p <= 7)
+                {
+                    places.push(Place::Finite(Prime::new(BigInt::from(p)).unwrap()));
+                }
+            }
+            for v in &places {
+                let (mut b1, mut b2) = (Budget::unlimited(), Budget::unlimited());
+                let fast = local_image_with(&model, v, &mut b1, true).unwrap();
+                let full = local_image_with(&model, v, &mut b2, false).unwrap();
+                skipped_any |= b1.spent() < b2.spent();
+                assert_eq!(fast, full, "a = {a}, b = {b} at {v}");
+                compared += 1;
+            }
+        }
+        assert!(compared > 2000);
+        assert!(skipped_any);
+    }
+
     #[test]
     fn integer_square_roots_are_floors() {
         for n in (0u128..2000).chain([u128::MAX, u128::MAX - 1, 1 << 126, (1 << 64) - 1]) {
