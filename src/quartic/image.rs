@@ -200,7 +200,9 @@ pub(crate) fn local_image_with(
     // The word route (module `image_word`) when a and b fit in i128; per
     // class, the BigInt route whenever the words do not cover the case.
     let words = if word_paths_enabled() {
-        a.to_i128().zip(b.to_i128())
+        a.to_i128()
+            .zip(b.to_i128())
+            .and_then(|(aw, bw)| image_word::SpaceWords::new(aw, bw))
     } else {
         None
     };
@@ -223,7 +225,7 @@ pub(crate) fn local_image_with(
             continue;
         }
         let fast = words
-            .and_then(|(aw, bw)| image_word::space_coeffs(&d, aw, bw))
+            .and_then(|w| w.coeffs(&d))
             .and_then(|c| image_word::soluble_words(&c, place, budget));
         let solubility = match fast {
             Some(s) => s?,

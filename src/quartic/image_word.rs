@@ -28,30 +28,65 @@ use crate::local::{Place, Prime};
 /// The coefficients `[c4, c3, c2, c1, c0]` of `C_d` in words, or `None`
 /// when `d = 0`, `b(a² − 4b) = 0` (the `BigInt` route reports those), or
 /// something leaves `i128`.
+#[cfg(test)]
 pub(crate) fn space_coeffs(d: &BigInt, a: i128, b: i128) -> Option<[i128; 5]> {
-    let d = d.to_i128()?;
-    if d == 0 || b == 0 {
-        return None;
+    SpaceWords::new(a, b)?.coeffs(d)
+}
+
+/// `a` and `b` of a non-singular `y² = x³ + ax² + bx` in words, for the
+/// spaces `C_d` of one local image.
+#[derive(Debug, Clone, Copy)]
+pub(crate) struct SpaceWords {
+    a: i128,
+    b: i128,
+}
+
+impl SpaceWords {
+    /// `None` when `b(a² − 4b) = 0` (the `BigInt` route reports it) or
+    /// `a² − 4b` leaves `i128`.
+    pub(crate) fn new(a: i128, b: i128) -> Option<SpaceWords> {
+        let disc = Ck::new(a) * a - Ck::new(4) * b;
+        (b != 0 && disc.get()? != 0).then_some(SpaceWords { a, b })
     }
-    let disc = Ck::new(a) * a - Ck::new(4) * b;
-    if disc.get()? == 0 {
-        return None;
+
+    /// The coefficients of `C_d`; `None` for `d = 0` or when something
+    /// leaves `i128`.
+    pub(crate) fn coeffs(&self, d: &BigInt) -> Option<[i128; 5]> {
+        let (a, b) = (self.a, self.b);
+        if let (Some(d), Ok(a64), Ok(b64)) = (d.to_i64(), i64::try_from(a), i64::try_from(b)) {
+            // Everything but two products fits without checks:
+            // |d₁|, |b/h| < 2^63, so d₁² and (b/h)·d₁ fit in i128.
+            if d == 0 {
+                return None;
+            }
+            let h = d.unsigned_abs().gcd(&b64.unsigned_abs());
+            let h = i64::try_from(h).ok()?;
+            let d1 = i128::from(d / h);
+            let d1sq = d1 * d1;
+            return Some([
+                i128::from(d).checked_mul(d1sq)?,
+                0,
+                i128::from(a64).checked_mul(d1sq)?,
+                0,
+                i128::from(b64 / h) * d1,
+            ]);
+        }
+        let d = d.to_i128()?;
+        if d == 0 {
+            return None;
+        }
+        let h = d.unsigned_abs().gcd(&b.unsigned_abs());
+        let h = i128::try_from(h).ok()?;
+        let d1 = Ck::new(d / h);
+        let d1sq = d1 * d1;
+        Some([
+            (Ck::new(d) * d1sq).get()?,
+            0,
+            (Ck::new(a) * d1sq).get()?,
+            0,
+            (Ck::new(b / h) * d1).get()?,
+        ])
     }
-    let (du, bu) = (d.unsigned_abs(), b.unsigned_abs());
-    let h = match (u64::try_from(du), u64::try_from(bu)) {
-        (Ok(x), Ok(y)) => u128::from(x.gcd(&y)),
-        _ => du.gcd(&bu),
-    };
-    let h = i128::try_from(h).ok()?;
-    let d1 = Ck::new(d / h);
-    let d1sq = d1 * d1;
-    Some([
-        (Ck::new(d) * d1sq).get()?,
-        0,
-        (Ck::new(a) * d1sq).get()?,
-        0,
-        (Ck::new(b / h) * d1).get()?,
-    ])
 }
 
 /// Local solubility of `y² = g(x, z)` for `g` with coefficients `coeffs`

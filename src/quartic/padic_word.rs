@@ -75,6 +75,33 @@ impl WordClass {
         let r = i128::from(r);
         let mut c = self.poly;
         let n = self.len;
+        // With |cᵢ| < 2^B and 0 ≤ r < p < 2^P, every partial sum of the
+        // Taylor shift is at most Σᵢ C(i, j)·2^B·r^(i−j) ≤ 2^(B+4+4P)
+        // (n ≤ 5), and so are the scaled coefficients F(r + ps)ᵢ·pⁱ: below
+        // 2^126 nothing can overflow, and the products need no checks.
+        let bits = |x: i128| 128 - x.unsigned_abs().leading_zeros();
+        let b = c[..n].iter().map(|&x| bits(x)).max().unwrap_or(0);
+        if b + 5 + 4 * bits(p) <= 126 && r < p {
+            for i in 0..n {
+                for j in (i..n.saturating_sub(1)).rev() {
+                    c[j] += c[j + 1] * r;
+                }
+            }
+            let mut pw = 1i128;
+            for (i, ci) in c[..n].iter_mut().enumerate() {
+                if i > 0 {
+                    pw *= p;
+                }
+                *ci *= pw;
+            }
+            return Some(WordClass {
+                chart: self.chart,
+                base: (Ck::new(self.base) + Ck::new(self.scale) * r).get()?,
+                scale: (Ck::new(self.scale) * p).get()?,
+                poly: c,
+                len: n,
+            });
+        }
         for i in 0..n {
             for j in (i..n.saturating_sub(1)).rev() {
                 c[j] = (Ck::new(c[j]) + Ck::new(c[j + 1]) * r).get()?;
@@ -349,7 +376,12 @@ fn shift_scale_two(f: &[i128], r: bool) -> Option<[i128; 5]> {
         }
     }
     for (i, ci) in c[..n].iter_mut().enumerate() {
-        *ci = ci.checked_mul(1i128.checked_shl(i as u32)?)?;
+        // x·2^i without overflow iff shifting back gives x (i ≤ 4).
+        let shifted = *ci << i;
+        if shifted >> i != *ci {
+            return None;
+        }
+        *ci = shifted;
     }
     Some(c)
 }
