@@ -149,7 +149,15 @@ fn initial_words(w: &[i128; 5], p: u64) -> VecDeque<AnyClass> {
     let mut affine = *w;
     affine.reverse();
     let pi = i128::from(p);
+    let bits = |v: i128| 128 - v.unsigned_abs().leading_zeros();
+    let cb = w.iter().map(|&c| bits(c)).max().unwrap_or(0);
     let infinity: Option<[i128; 5]> = (|| {
+        if cb + 4 * bits(pi) <= 126 {
+            // |cᵢ·pⁱ| < 2^(C+4P): no check needed.
+            let p2 = pi * pi;
+            let pows = [1, pi, p2, p2 * pi, p2 * p2];
+            return Some(std::array::from_fn(|i| w[i] * pows[i]));
+        }
         let mut out = [0i128; 5];
         let mut pw = Ck::new(1);
         for (o, &x) in out.iter_mut().zip(w) {
