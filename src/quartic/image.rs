@@ -173,7 +173,7 @@ fn f2_basis(masks: &[u8]) -> Vec<u8> {
 ///
 /// Cost: at most 2, 4 or 8 local solubility tests (a class is skipped
 /// when the subgroup property already rules it out, see
-/// [`local_image_with`]); under the word paths they run on the
+/// `local_image_with`); under the word paths they run on the
 /// coefficients of `C_d` in machine words (module `image_word`).
 ///
 /// Example: for `y² = x³ − x` (`a = 0, b = −1`) at `R`: `C_{−1}` is
