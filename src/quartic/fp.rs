@@ -324,9 +324,11 @@ impl WordField {
         acc
     }
 
-    /// `a⁻¹` for `a ≢ 0` (Fermat, as in the `BigInt` path).
+    /// `a⁻¹` for `a ≢ 0`, and `0` for `a ≡ 0` (as Fermat's `a^(p−2)`
+    /// gives), by the extended Euclidean algorithm (the inverse is unique,
+    /// so this is the value Fermat's little theorem gives).
     pub(crate) fn inv(self, a: u64) -> u64 {
-        self.pow(a, self.p - 2)
+        crate::arith::word::inv_mod(a, self.p).unwrap_or(0)
     }
 
     /// `c mod p` for an integer `c`.
@@ -513,7 +515,139 @@ fn wpowmod(
 
 /// The distinct roots of `φ` (non-zero, `deg ≤ 4`) in `F_p`, ascending:
 /// the machine-word twin of [`roots`].
+///
+/// Linear and quadratic `φ`, and even quartics `c₄x⁴ + c₂x² + c₀` (the
+/// shape of every class polynomial at the top of the tree of a 2-isogeny
+/// space), are solved by formula: `−c₀/c₁`; `(−c₁ ± √D)/(2c₂)` with
+/// `D = c₁² − 4c₂c₀`; and `x = ±√w` for the roots `w` of `c₄w² + c₂w + c₀`
+/// (square roots by Tonelli–Shanks, [`sqrt_word`]). The set of distinct roots in
+/// `F_p` does not depend on how it is found, so these give the same list
+/// as the general route. The budget is charged exactly as the general
+/// route charges it (see [`charge_like_general_route`]), so a budget runs
+/// out at the same point on both.
 pub(crate) fn roots_word(phi: &WordPoly, f: WordField, budget: &mut Budget) -> Result<Vec<u64>> {
+    if phi.len <= 1 {
+        return Ok(Vec::new());
+    }
+    if let Some(found) = roots_by_formula(phi, f) {
+        charge_like_general_route(found.as_slice(), f, budget)?;
+        return Ok(found.as_slice().to_vec());
+    }
+    roots_word_general(phi, f, budget)
+}
+
+/// At most four residues, ascending and distinct.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub(crate) struct RootSet {
+    r: [u64; 4],
+    len: usize,
+}
+
+impl RootSet {
+    const EMPTY: RootSet = RootSet { r: [0; 4], len: 0 };
+
+    fn insert(&mut self, x: u64) {
+        if self.len < 4 && !self.as_slice().contains(&x) {
+            self.r[self.len] = x;
+            self.len += 1;
+        }
+    }
+
+    fn as_slice(&self) -> &[u64] {
+        &self.r[..self.len]
+    }
+
+    fn sort(&mut self) {
+        self.r[..self.len].sort_unstable();
+    }
+}
+
+/// The roots of `c₂x² + c₁x + c₀` (`c₂ ≠ 0`) in `F_p`, added to `out`.
+fn quadratic_roots(c0: u64, c1: u64, c2: u64, f: WordField, out: &mut RootSet) {
+    let four = 4 % f.p();
+    let disc = f.sub(f.mul(c1, c1), f.mul(four, f.mul(c2, c0)));
+    let Some(s) = sqrt_word(disc, f) else {
+        return;
+    };
+    let inv2a = f.inv(f.add(c2, c2));
+    out.insert(f.mul(f.sub(s, c1), inv2a));
+    out.insert(f.mul(f.sub(f.sub(0, c1), s), inv2a));
+}
+
+/// The distinct roots of `φ` in `F_p` when `φ` is linear, quadratic or an
+/// even quartic (`c₃ = c₁ = 0`), ascending; `None` for other shapes.
+fn roots_by_formula(phi: &WordPoly, f: WordField) -> Option<RootSet> {
+    let c = &phi.c;
+    let mut out = RootSet::EMPTY;
+    match phi.len {
+        2 => out.insert(f.mul(f.sub(0, c[0]), f.inv(c[1]))),
+        3 => quadratic_roots(c[0], c[1], c[2], f, &mut out),
+        5 if c[1] == 0 && c[3] == 0 => {
+            let mut squares = RootSet::EMPTY;
+            quadratic_roots(c[0], c[2], c[4], f, &mut squares);
+            for &w in squares.as_slice() {
+                if let Some(s) = sqrt_word(w, f) {
+                    out.insert(s);
+                    out.insert(f.sub(0, s));
+                }
+            }
+        }
+        _ => return None,
+    }
+    out.sort();
+    Some(out)
+}
+
+/// Charges `budget` as [`roots_word_general`] does for a polynomial whose
+/// distinct roots in `F_p` are `found`: `16·bits(p)` for `x^p mod φ`, then,
+/// in the recursion of [`wsplit`], `16·bits((p − 1)/2)` for every shift
+/// `δ = 0, 1, 2, …` tried on a set `R` of at least two roots, until
+/// `H = {ρ ∈ R : ρ + δ a non-zero square}` is neither empty nor all of `R`
+/// (this is exactly when `gcd(∏(x − ρ), (x + δ)^((p−1)/2) − 1)` is a
+/// proper factor); then `H` and `R \ H` are split in that order.
+fn charge_like_general_route(found: &[u64], f: WordField, budget: &mut Budget) -> Result<()> {
+    charge_power(f.p(), budget)?;
+    charge_split(found, f, budget)
+}
+
+fn charge_power(e: u64, budget: &mut Budget) -> Result<()> {
+    let bits = u64::from(64 - e.leading_zeros());
+    charge(
+        budget,
+        16 * bits.max(1),
+        "local solubility (polynomial powering mod p)",
+    )
+}
+
+fn charge_split(set: &[u64], f: WordField, budget: &mut Budget) -> Result<()> {
+    if set.len() < 2 {
+        return Ok(());
+    }
+    let half = (f.p() - 1) / 2;
+    let mut delta = 0u64;
+    loop {
+        charge_power(half, budget)?;
+        let shift = delta % f.p();
+        let mut inside = RootSet::EMPTY;
+        let mut outside = RootSet::EMPTY;
+        for &rho in set {
+            if f.is_nonzero_square(f.add(rho, shift)) {
+                inside.insert(rho);
+            } else {
+                outside.insert(rho);
+            }
+        }
+        if inside.len > 0 && inside.len < set.len() {
+            charge_split(inside.as_slice(), f, budget)?;
+            return charge_split(outside.as_slice(), f, budget);
+        }
+        delta += 1;
+    }
+}
+
+/// [`roots_word`] by the general route for every shape: `gcd(φ, x^p − x)`
+/// and equal-degree splitting.
+fn roots_word_general(phi: &WordPoly, f: WordField, budget: &mut Budget) -> Result<Vec<u64>> {
     if phi.len <= 1 {
         return Ok(Vec::new());
     }
@@ -797,6 +931,64 @@ mod tests {
                     prop_assert!(big_symbol >= 0);
                 }
                 None => prop_assert_eq!(big_symbol, -1),
+            }
+        }
+    }
+
+    proptest! {
+        #![proptest_config(ProptestConfig { cases: 600, ..ProptestConfig::default() })]
+
+        /// The formulas of `roots_by_formula` (linear, quadratic, even
+        /// quartic) against the general route `gcd(φ, x^p − x)` with
+        /// splitting: the same roots, the same units charged, and the same
+        /// outcome when the budget runs out part way.
+        #[test]
+        fn root_formulas_match_the_general_route_with_equal_charges(
+            pi in 0usize..PRIMES.len() + 3,
+            shape in 0usize..3,
+            lc in 1u64..u64::MAX,
+            rho in proptest::collection::vec(any::<u64>(), 0..=2),
+            tail in any::<[u64; 2]>(),
+            units in prop_oneof![Just(u64::MAX), 1u64..3000],
+        ) {
+            // Small primes as well, where the formulas must still agree.
+            let p = [3u64, 5, 7].get(pi).copied().unwrap_or_else(|| PRIMES[pi - 3]);
+            prop_assume!(lc % p != 0);
+            let f = WordField::new(p);
+            // shape 0: linear; 1: quadratic; 2: even quartic ψ(x²) with
+            // ψ = lc·∏(w − ρ)·(tail) of degree 2.
+            let k = rho.len().min(2);
+            let t = [tail[0] % p, tail[1] % p, 1];
+            let poly = match shape {
+                0 => vec![t[0], lc % p],
+                1 => planted(p, lc, &rho[..k], &t[..3 - k]),
+                _ => {
+                    let psi = planted(p, lc, &rho[..k], &t[..3 - k]);
+                    let mut q = [0u64; 5];
+                    for (i, &c) in psi.iter().enumerate() {
+                        q[2 * i] = c;
+                    }
+                    q.to_vec()
+                }
+            };
+            let w = WordPoly::from_slice(&poly);
+            prop_assume!(w.len > 1);
+            prop_assert!(roots_by_formula(&w, f).is_some());
+            let (mut b1, mut b2) = (Budget::with_units(units), Budget::with_units(units));
+            let fast = roots_word(&w, f, &mut b1);
+            let general = roots_word_general(&w, f, &mut b2);
+            prop_assert_eq!(b1.spent(), b2.spent());
+            match (fast, general) {
+                (Ok(x), Ok(y)) => {
+                    for &r in &x {
+                        prop_assert_eq!(f.eval(&w, r), 0);
+                    }
+                    prop_assert_eq!(x, y);
+                }
+                (Err(Error::BudgetExhausted { stage: s1 }), Err(Error::BudgetExhausted { stage: s2 })) => {
+                    prop_assert_eq!(s1, s2);
+                }
+                (x, y) => prop_assert!(false, "{:?} vs {:?}", x, y),
             }
         }
     }

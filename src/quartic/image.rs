@@ -34,14 +34,16 @@
 //!   `b < 0`, or `a > 0` and `a² > 4b` (elementary).
 
 use super::form::Quartic;
+use super::image_word;
 use super::solubility::{locally_soluble, LocalSolubility};
+use crate::arith::word::word_paths_enabled;
 use crate::budget::Budget;
 use crate::curve::ReducedModel;
 use crate::error::{Error, Result};
 use crate::local::{class_dimension, class_representatives, Place, Prime};
 use num_bigint::BigInt;
 use num_integer::Integer;
-use num_traits::{One, Signed, Zero};
+use num_traits::{One, Signed, ToPrimitive, Zero};
 
 /// The places where `C_d` can fail to have points: `R`, `2`, and those of
 /// the caller's primes that divide `d·b·(a² − 4b)` (see the module docs for
@@ -169,22 +171,77 @@ fn f2_basis(masks: &[u8]) -> Vec<u8> {
 /// Errors: [`Error::Degenerate`] when `b(a² − 4b) = 0`;
 /// [`Error::BudgetExhausted`].
 ///
-/// Cost: 2, 4 or 8 local solubility tests.
+/// Cost: at most 2, 4 or 8 local solubility tests (a class is skipped
+/// when the subgroup property already rules it out, see
+/// `local_image_with`); under the word paths they run on the
+/// coefficients of `C_d` in machine words (module `image_word`).
 ///
 /// Example: for `y² = x³ − x` (`a = 0, b = −1`) at `R`: `C_{−1}` is
 /// `N² = −M⁴ + e⁴`, soluble, so `W_R = {1, −1}`, masks `[0, 1]`.
 pub fn local_image(model: &ReducedModel, place: &Place, budget: &mut Budget) -> Result<LocalImage> {
+    local_image_with(model, place, budget, true)
+}
+
+/// [`local_image`]; with `by_closure` false every class is tested, with
+/// `by_closure` true a class `c` is reported insoluble without its test
+/// when some class `m` already found in `W_v` has `c ⊕ m` already found
+/// outside `W_v` (then `c ∈ W_v` would put `c ⊕ m` in the subgroup `W_v`).
+/// Both give the same image and evidence (the test
+/// `closure_skips_change_no_image` compares them over families); the
+/// skipped tests are not charged to the budget.
+pub(crate) fn local_image_with(
+    model: &ReducedModel,
+    place: &Place,
+    budget: &mut Budget,
+    by_closure: bool,
+) -> Result<LocalImage> {
     let (a, b) = (model.a(), model.b());
     let reps = class_representatives(place);
     debug_assert_eq!(reps.len(), 1 << class_dimension(place));
     let mut members = Vec::new();
     let mut evidence = Vec::with_capacity(reps.len());
+    // The word route (module `image_word`) when a and b fit in i128; per
+    // class, the BigInt route whenever the words do not cover the case.
+    let words = if word_paths_enabled() {
+        a.to_i128()
+            .zip(b.to_i128())
+            .and_then(|(aw, bw)| image_word::SpaceWords::new(aw, bw))
+    } else {
+        None
+    };
+    // Bit m of `inside` / `outside`: class m tested and found in / not in
+    // W_v (masks are below 8).
+    let (mut inside, mut outside) = (0u8, 0u8);
     for (mask, d) in reps.into_iter().enumerate() {
         let mask = mask as u8;
-        let q = Quartic::two_isogeny_space(&d, a, b)?;
-        let solubility = locally_soluble(&q, place, budget)?;
+        let known_outside =
+            by_closure && (0..8u8).any(|m| inside >> m & 1 == 1 && outside >> (m ^ mask) & 1 == 1);
+        if known_outside {
+            outside |= 1 << mask;
+            evidence.push(ClassEvidence {
+                mask,
+                representative: d,
+                solubility: LocalSolubility::Insoluble {
+                    place: place.clone(),
+                },
+            });
+            continue;
+        }
+        let fast = words
+            .and_then(|w| w.coeffs(&d))
+            .and_then(|c| image_word::soluble_words(&c, place, budget));
+        let solubility = match fast {
+            Some(s) => s?,
+            None => {
+                let q = Quartic::two_isogeny_space(&d, a, b)?;
+                locally_soluble(&q, place, budget)?
+            }
+        };
         if solubility.is_soluble() {
             members.push(mask);
+            inside |= 1 << mask;
+        } else {
+            outside |= 1 << mask;
         }
         evidence.push(ClassEvidence {
             mask,

@@ -20,6 +20,7 @@
 pub(crate) mod form;
 mod fp;
 pub(crate) mod image;
+mod image_word;
 pub(crate) mod padic;
 mod padic_word;
 pub(crate) mod real;

@@ -159,7 +159,11 @@ fn shift_scale(f: &[BigInt], r: &BigInt, p: &BigInt) -> Vec<BigInt> {
 
 /// The two starting classes: `g(t, 1)` on `Z_p` and `g(1, p t)` on `Z_p`.
 pub(super) fn initial_classes(q: &Quartic, p: &BigInt) -> VecDeque<Class> {
-    let c = q.coeffs();
+    initial_classes_of(q.coeffs(), p)
+}
+
+/// [`initial_classes`] for the coefficients `[c4, c3, c2, c1, c0]`.
+pub(super) fn initial_classes_of(c: &[BigInt; 5], p: &BigInt) -> VecDeque<Class> {
     let affine: Vec<BigInt> = c.iter().rev().cloned().collect();
     let mut pw = BigInt::one();
     let infinity: Vec<BigInt> = c
@@ -418,9 +422,25 @@ pub(crate) fn class_verdict_u64(
         let mut children = Vec::new();
         let mut tested = 0;
         let mut witness = None;
+        // φ(r) for r = 0, 1, 2, … by forward differences: diff[k] holds
+        // Δ^k φ(r) (mod p), and Δ^(deg φ) φ is constant [common practice].
+        let deg = phi.coeffs().len().saturating_sub(1);
+        let mut diff = [0u64; 5];
+        for (j, slot) in diff.iter_mut().enumerate().take(deg + 1) {
+            *slot = f.eval(phi, j as u64);
+        }
+        for k in 1..=deg {
+            for j in (k..=deg).rev() {
+                diff[j] = f.sub(diff[j], diff[j - 1]);
+            }
+        }
         for r in 0..p {
             tested += 1;
-            let val = f.eval(phi, r);
+            let val = diff[0];
+            for k in 0..deg {
+                diff[k] = f.add(diff[k], diff[k + 1]);
+            }
+            debug_assert_eq!(val, f.eval(phi, r));
             if val == 0 {
                 children.push(r);
             } else if even && squares >> val & 1 == 1 {

@@ -75,6 +75,33 @@ impl WordClass {
         let r = i128::from(r);
         let mut c = self.poly;
         let n = self.len;
+        // With |cᵢ| < 2^B and 0 ≤ r < p < 2^P, every partial sum of the
+        // Taylor shift is at most Σᵢ C(i, j)·2^B·r^(i−j) ≤ 2^(B+4+4P)
+        // (n ≤ 5), and so are the scaled coefficients F(r + ps)ᵢ·pⁱ: below
+        // 2^126 nothing can overflow, and the products need no checks.
+        let bits = |x: i128| 128 - x.unsigned_abs().leading_zeros();
+        let b = c[..n].iter().map(|&x| bits(x)).max().unwrap_or(0);
+        if b + 5 + 4 * bits(p) <= 126 && r < p {
+            for i in 0..n {
+                for j in (i..n.saturating_sub(1)).rev() {
+                    c[j] += c[j + 1] * r;
+                }
+            }
+            let mut pw = 1i128;
+            for (i, ci) in c[..n].iter_mut().enumerate() {
+                if i > 0 {
+                    pw *= p;
+                }
+                *ci *= pw;
+            }
+            return Some(WordClass {
+                chart: self.chart,
+                base: (Ck::new(self.base) + Ck::new(self.scale) * r).get()?,
+                scale: (Ck::new(self.scale) * p).get()?,
+                poly: c,
+                len: n,
+            });
+        }
         for i in 0..n {
             for j in (i..n.saturating_sub(1)).rev() {
                 c[j] = (Ck::new(c[j]) + Ck::new(c[j + 1]) * r).get()?;
@@ -106,17 +133,34 @@ fn initial(q: &Quartic, p: u64) -> VecDeque<AnyClass> {
         }
         Some(w)
     })();
-    let big = || super::padic::initial_classes(q, &BigInt::from(p));
-    let Some(w) = words else {
-        return big().into_iter().map(AnyClass::Big).collect();
-    };
-    let mut affine = w;
+    match words {
+        Some(w) => initial_words(&w, p),
+        None => super::padic::initial_classes(q, &BigInt::from(p))
+            .into_iter()
+            .map(AnyClass::Big)
+            .collect(),
+    }
+}
+
+/// The two starting classes for the quartic with coefficients
+/// `[c4, c3, c2, c1, c0]` in words; the chart at infinity (coefficients
+/// `cᵢ·pⁱ`) in `BigInt` when it leaves `i128`.
+fn initial_words(w: &[i128; 5], p: u64) -> VecDeque<AnyClass> {
+    let mut affine = *w;
     affine.reverse();
     let pi = i128::from(p);
+    let bits = |v: i128| 128 - v.unsigned_abs().leading_zeros();
+    let cb = w.iter().map(|&c| bits(c)).max().unwrap_or(0);
     let infinity: Option<[i128; 5]> = (|| {
+        if cb + 4 * bits(pi) <= 126 {
+            // |cᵢ·pⁱ| < 2^(C+4P): no check needed.
+            let p2 = pi * pi;
+            let pows = [1, pi, p2, p2 * pi, p2 * p2];
+            return Some(std::array::from_fn(|i| w[i] * pows[i]));
+        }
         let mut out = [0i128; 5];
         let mut pw = Ck::new(1);
-        for (o, &x) in out.iter_mut().zip(&w) {
+        for (o, &x) in out.iter_mut().zip(w) {
             *o = (Ck::new(x) * pw).get()?;
             pw = pw * pi;
         }
@@ -137,12 +181,23 @@ fn initial(q: &Quartic, p: u64) -> VecDeque<AnyClass> {
             poly,
             len: 5,
         }),
-        None => match big().pop_back() {
-            Some(b) => AnyClass::Big(b),
-            None => return big().into_iter().map(AnyClass::Big).collect(),
-        },
+        None => {
+            let big = w.map(BigInt::from);
+            match super::padic::initial_classes_of(&big, &BigInt::from(p)).pop_back() {
+                Some(b) => AnyClass::Big(b),
+                None => {
+                    return super::padic::initial_classes_of(&big, &BigInt::from(p))
+                        .into_iter()
+                        .map(AnyClass::Big)
+                        .collect()
+                }
+            }
+        }
     };
-    VecDeque::from(vec![first, second])
+    let mut queue = VecDeque::with_capacity(8);
+    queue.push_back(first);
+    queue.push_back(second);
+    queue
 }
 
 /// Content valuation `m` and `φ = (F/p^m) mod p` of a non-zero word
@@ -221,10 +276,31 @@ pub(crate) fn odd_prime_witness_words(
     f: WordField,
     budget: &mut Budget,
 ) -> Result<Option<(BigInt, BigInt)>> {
+    odd_tree(initial(q, f.p()), p, f, budget)
+}
+
+/// [`odd_prime_witness_words`] for the quartic with coefficients
+/// `[c4, c3, c2, c1, c0]` given in words (no `Quartic` needed; the caller
+/// guarantees a non-zero discriminant).
+pub(crate) fn odd_prime_witness_coeffs(
+    coeffs: &[i128; 5],
+    p: &Prime,
+    f: WordField,
+    budget: &mut Budget,
+) -> Result<Option<(BigInt, BigInt)>> {
+    odd_tree(initial_words(coeffs, f.p()), p, f, budget)
+}
+
+/// The breadth-first search of Lemma P from the starting classes `queue`.
+fn odd_tree(
+    mut queue: VecDeque<AnyClass>,
+    p: &Prime,
+    f: WordField,
+    budget: &mut Budget,
+) -> Result<Option<(BigInt, BigInt)>> {
     let pw = f.p();
     let pi = i128::from(pw);
     let pb = p.get();
-    let mut queue = initial(q, pw);
     let mut spill = VecDeque::new();
     while let Some(class) = queue.pop_front() {
         let c = match class {
@@ -308,7 +384,12 @@ fn shift_scale_two(f: &[i128], r: bool) -> Option<[i128; 5]> {
         }
     }
     for (i, ci) in c[..n].iter_mut().enumerate() {
-        *ci = ci.checked_mul(1i128.checked_shl(i as u32)?)?;
+        // x·2^i without overflow iff shifting back gives x (i ≤ 4).
+        let shifted = *ci << i;
+        if shifted >> i != *ci {
+            return None;
+        }
+        *ci = shifted;
     }
     Some(c)
 }
@@ -318,7 +399,23 @@ pub(crate) fn two_adic_witness_words(
     q: &Quartic,
     budget: &mut Budget,
 ) -> Result<Option<(BigInt, BigInt)>> {
-    let mut queue = initial(q, 2);
+    two_adic_tree(initial(q, 2), budget)
+}
+
+/// [`two_adic_witness_words`] for the quartic with coefficients
+/// `[c4, c3, c2, c1, c0]` given in words.
+pub(crate) fn two_adic_witness_coeffs(
+    coeffs: &[i128; 5],
+    budget: &mut Budget,
+) -> Result<Option<(BigInt, BigInt)>> {
+    two_adic_tree(initial_words(coeffs, 2), budget)
+}
+
+/// The breadth-first search of Lemma T from the starting classes `queue`.
+fn two_adic_tree(
+    mut queue: VecDeque<AnyClass>,
+    budget: &mut Budget,
+) -> Result<Option<(BigInt, BigInt)>> {
     let mut spill = VecDeque::new();
     while let Some(class) = queue.pop_front() {
         let c = match class {

@@ -264,41 +264,79 @@ fn finish(q: &Quartic, p: &Prime, w: Option<(BigInt, BigInt)>) -> Result<LocalSo
     }
     let g = q.eval(&x, &z);
     debug_assert!(padic::is_padic_square(&g, p));
-    let precision = padic::val_u32(&g, p).saturating_add(EXTRA_PRECISION);
-    let y = padic_sqrt(&g, p, precision).ok_or_else(|| Error::Internal {
-        check: format!("g({x}, {z}) = {g} has no square root mod {p}^{precision}"),
-    })?;
+    let (y, precision) = padic_sqrt_of(&g, p, &x, &z)?;
     Ok(LocalSolubility::Soluble(LocalPoint::new(
         place, x, z, y, precision,
     )))
 }
 
+/// The `y` of a witness `(x, z)` with `g = g(x, z)` a non-zero square in
+/// `Q_p`: a square root modulo `p^precision`, `precision = v_p(g) +
+/// EXTRA_PRECISION`, in `BigInt` arithmetic.
+pub(crate) fn padic_sqrt_of(
+    g: &BigInt,
+    p: &Prime,
+    x: &BigInt,
+    z: &BigInt,
+) -> Result<(BigInt, u32)> {
+    let precision = padic::val_u32(g, p).saturating_add(EXTRA_PRECISION);
+    let y = padic_sqrt(g, p, precision).ok_or_else(|| Error::Internal {
+        check: format!("g({x}, {z}) = {g} has no square root mod {p}^{precision}"),
+    })?;
+    Ok((y, precision))
+}
+
 /// [`finish`] in machine words: `y` and the precision when `g(x, z)`
 /// fits in `i128` and the root can be lifted in words (`p = 2` with at
-/// most 62 digits; odd `p` with `p^(EXTRA_PRECISION) < 2^63`); `None`
-/// otherwise, and the caller runs the `BigInt` route. The root is the
-/// unique lift of the Tonelli–Shanks root `y₀` of the unit part modulo
-/// `p^k` reduced to `[0, p^k)`, exactly as [`padic_sqrt`] returns it.
+/// most 62 digits; odd `p` with `p^(EXTRA_PRECISION) < 2^127` and
+/// `p^⌈EXTRA_PRECISION/2⌉ < 2^63`); `None` otherwise, and the caller runs
+/// the `BigInt` route. The root is the unique lift of the Tonelli–Shanks
+/// root `y₀` of the unit part modulo `p^k` reduced to `[0, p^k)`, exactly
+/// as [`padic_sqrt`] returns it.
 fn finish_word(q: &Quartic, p: &Prime, x: &BigInt, z: &BigInt) -> Option<(BigInt, u32)> {
+    let c = q.coeffs();
+    let words = [
+        c[0].to_i128()?,
+        c[1].to_i128()?,
+        c[2].to_i128()?,
+        c[3].to_i128()?,
+        c[4].to_i128()?,
+    ];
+    finish_word_coeffs(&words, p, x, z)
+}
+
+/// [`finish_word`] for a quartic given by its coefficients in words.
+pub(crate) fn finish_word_coeffs(
+    coeffs: &[i128; 5],
+    p: &Prime,
+    x: &BigInt,
+    z: &BigInt,
+) -> Option<(BigInt, u32)> {
     let pw = p.to_u64()?;
-    let (x, z) = (Ck::new(x.to_i128()?), Ck::new(z.to_i128()?));
-    let mut g = Ck::new(0);
-    let mut zp = Ck::new(1);
-    let mut xp = [Ck::new(1); 5];
-    for i in 1..5 {
-        xp[i] = xp[i - 1] * x;
+    let (xw, zw) = (x.to_i128()?, z.to_i128()?);
+    let g = eval_words(coeffs, xw, zw)?;
+    if g == 0 {
+        return None;
     }
-    // g = Σ c_i x^(4−i) z^i.
-    for (i, c) in q.coeffs().iter().enumerate() {
-        g = g + Ck::new(c.to_i128()?) * xp[4 - i] * zp;
-        zp = zp * z;
-    }
-    let g = g.get().filter(|&g| g != 0)?;
     let q128 = i128::from(pw);
     let (mut v, mut u) = (0u32, g);
-    while u % q128 == 0 {
-        u /= q128;
-        v += 1;
+    if let Ok(g64) = i64::try_from(g) {
+        // The valuation in u64 division (same quotient, cheaper).
+        let mut mag = g64.unsigned_abs();
+        while mag % pw == 0 {
+            mag /= pw;
+            v += 1;
+        }
+        u = if g64 < 0 {
+            -i128::from(mag)
+        } else {
+            i128::from(mag)
+        };
+    } else {
+        while u % q128 == 0 {
+            u /= q128;
+            v += 1;
+        }
     }
     if v % 2 == 1 {
         return None;
@@ -325,27 +363,90 @@ fn finish_word(q: &Quartic, p: &Prime, x: &BigInt, z: &BigInt) -> Option<(BigInt
         }
         i128::from(y)
     } else {
-        let m = pw.checked_pow(k).filter(|&m| m < fp::WORD_LIMIT)?;
         let f = fp::WordField::new(pw);
         let y0 = fp::sqrt_word(u.rem_euclid(q128) as u64, f)?;
         if y0 == 0 {
             return None;
         }
-        let mm = u128::from(m);
-        let um = u.rem_euclid(i128::from(m)) as u128;
-        let (mut y, mut w) = (u128::from(y0), u128::from(f.inv(f.mul(2, y0))));
-        let mut j = 1u32;
-        while j < k {
-            j = (2 * j).min(k);
-            let mj = u128::from(pw.pow(j));
-            let e = (y * y + mm * mm - um) % mj;
-            y = (y + mj - e * w % mj) % mj;
-            let t = 2 * y % mj * w % mj;
-            w = w * ((2 + mj - t) % mj) % mj;
-        }
-        y as i128
+        lift_unit_root(u, y0, pw, k, f)?
     };
-    Some((BigInt::from(y.checked_mul(scale)?), precision))
+    let y = match y.checked_mul(scale) {
+        Some(ys) => BigInt::from(ys),
+        None => BigInt::from(y) * BigInt::from(scale),
+    };
+    Some((y, precision))
+}
+
+/// `g(x, z) = Σ cᵢ x^(4−i) zⁱ` in words, `None` when it leaves `i128`.
+/// With `|cᵢ| < 2^C` and `|x|, |z| < 2^X`, each term is below `2^(C+4X)`
+/// and the sum below `2^(C+4X+3)`: under `2^127` no check is needed.
+fn eval_words(coeffs: &[i128; 5], x: i128, z: i128) -> Option<i128> {
+    let bits = |v: i128| 128 - v.unsigned_abs().leading_zeros();
+    let cb = coeffs.iter().map(|&c| bits(c)).max().unwrap_or(0);
+    let xb = bits(x).max(bits(z));
+    if cb + 4 * xb + 3 <= 126 {
+        let (x2, z2) = (x * x, z * z);
+        let xp = [x2 * x2, x2 * x, x2, x, 1];
+        let zp = [1, z, z2, z2 * z, z2 * z2];
+        let mut g = 0i128;
+        for i in 0..5 {
+            g += coeffs[i] * (xp[i] * zp[i]);
+        }
+        return Some(g);
+    }
+    let (x, z) = (Ck::new(x), Ck::new(z));
+    let mut g = Ck::new(0);
+    let mut zp = Ck::new(1);
+    let mut xp = [Ck::new(1); 5];
+    for i in 1..5 {
+        xp[i] = xp[i - 1] * x;
+    }
+    for (i, &c) in coeffs.iter().enumerate() {
+        g = g + Ck::new(c) * xp[4 - i] * zp;
+        zp = zp * z;
+    }
+    g.get()
+}
+
+/// The root `y ∈ [0, p^k)` of `y² ≡ u (mod p^k)` with `y ≡ y₀ (mod p)`
+/// (odd `p`, `u` a unit, `y₀² ≡ u mod p`, `y₀ ≠ 0`), in words; `None` when
+/// `p^k ≥ 2^127` or `p^⌈k/2⌉ ≥ 2^63`.
+///
+/// First Newton–Hensel doubling [Cohen93, §1.5] modulo `P = p^⌈k/2⌉`
+/// (`y ← y − (y² − u)·w`, `w ≡ (2y)⁻¹` kept by `w ← w(2 − 2y·w)`), all
+/// products below `2^127`. If `⌈k/2⌉ < k`, one more step to `p^k`: with
+/// `y₁` the root modulo `P`, `(y₁ + P·t)² ≡ y₁² + 2y₁·P·t (mod p^k)`
+/// because `P² ≡ 0`, so `t ≡ ((u − y₁²)/P)·w (mod p^(k − ⌈k/2⌉))`.
+/// The root is unique (Hensel), so this is the value of [`padic_sqrt`].
+fn lift_unit_root(u: i128, y0: u64, pw: u64, k: u32, f: fp::WordField) -> Option<i128> {
+    let k1 = k.div_ceil(2);
+    let m1 = pw.checked_pow(k1).filter(|&m| m < fp::WORD_LIMIT)?;
+    let full = u128::from(pw)
+        .checked_pow(k)
+        .filter(|&m| m < 1u128 << 127)?;
+    let mm = u128::from(m1);
+    let um = u.rem_euclid(i128::from(m1)) as u128;
+    let (mut y, mut w) = (u128::from(y0), u128::from(f.inv(f.mul(2, y0))));
+    let mut j = 1u32;
+    while j < k1 {
+        j = (2 * j).min(k1);
+        let mj = u128::from(pw.pow(j));
+        let e = (y * y + mm * mm - um) % mj;
+        y = (y + mj - e * w % mj) % mj;
+        let t = 2 * y % mj * w % mj;
+        w = w * ((2 + mj - t) % mj) % mj;
+    }
+    if k1 == k {
+        return i128::try_from(y).ok();
+    }
+    // w ≡ (2y₁)⁻¹ mod p^k1 and p^(k − k1) | p^k1.
+    let m2 = u128::from(pw.pow(k - k1));
+    let u_full = u.rem_euclid(i128::try_from(full).ok()?) as u128;
+    let y_sq = y * y % full;
+    let e = (u_full + full - y_sq) % full;
+    debug_assert_eq!(e % mm, 0);
+    let t = (e / mm) % m2 * (w % m2) % m2;
+    i128::try_from(y + mm * t).ok()
 }
 
 /// A square root of `g` modulo `p^precision` for `g ≠ 0` with `v = v_p(g)`
