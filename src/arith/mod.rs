@@ -23,7 +23,7 @@ pub(crate) mod small;
 pub(crate) mod squarefree;
 pub(crate) mod word;
 
-pub use dyadic::sign_at_f64;
+pub(crate) use dyadic::sign_at_f64;
 pub use factor::{factor, factor_u64, Factorization};
 pub use prime::{is_prime, is_prime_u64, jacobi};
 pub use roots::{is_perfect_square, isqrt, rational_sqrt_exact, sqrt_exact};
