@@ -24,7 +24,9 @@ pub struct DescentOptions {
     /// units: out-of-reach factorisations of huge inputs then end in about
     /// the same time as on small ones.
     pub factor_units: u64,
-    /// Work units for all local-solvability tests of one side.
+    /// Work units for all local-solvability tests of one side. A class
+    /// that the subgroup property of a local image already places outside
+    /// it is not tested and costs nothing.
     pub local_units: u64,
     /// Work units for the point search on one homogeneous space.
     pub search_units: u64,
