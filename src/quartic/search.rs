@@ -715,6 +715,16 @@ impl Modulus {
         if self.pop[ri] != u32::MAX {
             return self.pop[ri];
         }
+        if let ModKind::Square { p, .. } = self.kind {
+            if r > 1 && r % p != 0 {
+                let pop = self.ensure_row(1);
+                if self.permute_unit_row(r) {
+                    self.pop[ri] = pop;
+                    self.density[ri] = self.density[1];
+                    return pop;
+                }
+            }
+        }
         let mut count = 0u32;
         if let ModKind::Square { p, c, is_square } = &self.kind {
             let m = self.m as u64;
@@ -773,6 +783,34 @@ impl Modulus {
         self.pop[ri] = count;
         self.density[ri] = ((count as u64) << 32) / self.m as u64;
         count
+    }
+
+    /// Row `r` for a unit `r` mod `p` (`r > 1`, row 1 computed) from row 1:
+    /// `g(x, r) = r⁴·g(x/r, 1)` and `r⁴ = (r²)²` is a unit square mod `m`, so
+    /// `g(x, r)` is a square mod `m` iff `g(x·r⁻¹, 1)` is, and `p ∤ r` makes
+    /// the coprimality condition hold in both rows (common practice).
+    /// Bit `x` of row `r` is bit `x·r⁻¹ mod m` of row 1. False (nothing
+    /// written) if `r` has no inverse mod `m`, which a unit always has.
+    fn permute_unit_row(&mut self, r: u32) -> bool {
+        let m = u64::from(self.m);
+        let Some(rinv) = crate::arith::word::inv_mod(u64::from(r), m) else {
+            return false;
+        };
+        let (w, ri) = (self.wpr, r as usize);
+        let (head, tail) = self.rows.split_at_mut(ri * w);
+        let (one, row) = (&head[w..2 * w], &mut tail[..w]);
+        let mut y = 0u64; // x·r⁻¹ mod m
+        for x in 0..m {
+            if one[(y / 64) as usize] >> (y % 64) & 1 == 1 {
+                row[(x / 64) as usize] |= 1 << (x % 64);
+            }
+            y += rinv;
+            if y >= m {
+                y -= m;
+            }
+        }
+        self.extend_row(ri);
+        true
     }
 
     /// Bits `o, o+1, …, o+63` of the periodic row mask `r` (`o < m`).
