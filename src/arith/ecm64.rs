@@ -116,38 +116,6 @@ fn make_plan(b1: u64, b2: u64) -> Plan {
     }
 }
 
-/// `x⁻¹ mod n` for a plain residue `x` (not in Montgomery form), or
-/// `Err(g)` with `g = gcd(x, n) > 1`.
-///
-/// Extended Euclid; the Bézout coefficients stay below `n` in absolute
-/// value, so `i64` suffices for `n < 2^63` (`i128` above).
-fn inverse_mod(x: u64, n: u64) -> Result<u64, u64> {
-    if let Ok(ni) = i64::try_from(n) {
-        let (mut r0, mut r1) = (ni, (x % n) as i64);
-        let (mut s0, mut s1) = (0i64, 1i64);
-        while r1 != 0 {
-            let q = r0 / r1;
-            (r0, r1) = (r1, r0 - q * r1);
-            (s0, s1) = (s1, s0 - q * s1);
-        }
-        if r0 != 1 {
-            return Err(r0 as u64);
-        }
-        return Ok(s0.rem_euclid(ni) as u64);
-    }
-    let (mut r0, mut r1) = (n as i128, (x % n) as i128);
-    let (mut s0, mut s1) = (0i128, 1i128);
-    while r1 != 0 {
-        let q = r0 / r1;
-        (r0, r1) = (r1, r0 - q * r1);
-        (s0, s1) = (s1, s0 - q * s1);
-    }
-    if r0 != 1 {
-        return Err(r0 as u64);
-    }
-    Ok(s0.rem_euclid(n as i128) as u64)
-}
-
 /// A point `X : Z` in Montgomery form.
 #[derive(Clone, Copy)]
 struct Pt {
@@ -303,7 +271,7 @@ fn curve(ring: M64, n: u64, sigma: u64, plan: &Plan, giants: &mut Giants) -> Cur
     let vmu = r.sub(v, u);
     let num = r.mul(r.mul(r.mul(vmu, vmu), vmu), r.add(r.add(r.add(u, u), u), v));
     let den = r.mul(r.mul(u3, v), r.elem(16));
-    let inv = match inverse_mod(r.plain(r.mul(den, v3)), n) {
+    let inv = match crate::arith::word::inv_mod_or_gcd(r.plain(r.mul(den, v3)), n) {
         Ok(i) => r.elem(i),
         Err(g) => return from_gcd(g, n),
     };
@@ -368,7 +336,7 @@ fn curve(ring: M64, n: u64, sigma: u64, plan: &Plan, giants: &mut Giants) -> Cur
         giants.prefix[i] = acc;
         acc = r.mul(acc, giants.z[i]);
     }
-    let total_inv = match inverse_mod(r.plain(acc), n) {
+    let total_inv = match crate::arith::word::inv_mod_or_gcd(r.plain(acc), n) {
         Ok(i) => r.elem(i),
         Err(g) => return from_gcd(g, n),
     };
@@ -521,15 +489,15 @@ mod tests {
     #[test]
     fn inverses_modulo_a_word() {
         let n = 1_000_000_007u64 * 3;
-        assert_eq!(inverse_mod(3, n), Err(3));
-        let x = inverse_mod(10, n).unwrap();
+        assert_eq!(crate::arith::word::inv_mod_or_gcd(3, n), Err(3));
+        let x = crate::arith::word::inv_mod_or_gcd(10, n).unwrap();
         assert_eq!((x as u128 * 10 % n as u128) as u64, 1);
         // Above 2^63 (the i128 branch): 2^64 − 59 is prime (sympy 1.14.0
         // prevprime(2**64)).
         let n = u64::MAX - 58;
-        let x = inverse_mod(1 << 40, n).unwrap();
+        let x = crate::arith::word::inv_mod_or_gcd(1 << 40, n).unwrap();
         assert_eq!((x as u128 * (1u128 << 40) % n as u128) as u64, 1);
         let n = (1u64 << 62) + 1; // = 5 · 5581 · 8681 · 49477 · 384773 (sympy 1.14.0 factorint)
-        assert_eq!(inverse_mod(10, n), Err(5));
+        assert_eq!(crate::arith::word::inv_mod_or_gcd(10, n), Err(5));
     }
 }

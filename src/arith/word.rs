@@ -117,12 +117,32 @@ pub(crate) fn mul_mod(a: u64, b: u64, p: u64) -> u64 {
     (u128::from(a) * u128::from(b) % u128::from(p)) as u64
 }
 
+/// `a^e mod p` by square-and-multiply (`p ≥ 1`).
+pub(crate) fn pow_mod(mut a: u64, mut e: u64, p: u64) -> u64 {
+    let mut r = 1 % p;
+    a %= p;
+    while e > 0 {
+        if e & 1 == 1 {
+            r = mul_mod(r, a, p);
+        }
+        a = mul_mod(a, a, p);
+        e >>= 1;
+    }
+    r
+}
+
 /// `a⁻¹ mod p` for `gcd(a, p) = 1`, `None` otherwise.
 ///
 /// The one word-size modular inverse of the crate (extended Euclid; the
 /// Bézout coefficients stay below `p` in absolute value, so `i64` suffices
 /// for `p < 2^63`).
 pub(crate) fn inv_mod(a: u64, p: u64) -> Option<u64> {
+    inv_mod_or_gcd(a, p).ok()
+}
+
+/// [`inv_mod`], with `Err(g)`, `g = gcd(a, p) > 1`, when there is no
+/// inverse (the factor the elliptic-curve method is after).
+pub(crate) fn inv_mod_or_gcd(a: u64, p: u64) -> Result<u64, u64> {
     if let Ok(pi) = i64::try_from(p) {
         let (mut r0, mut r1) = (pi, (a % p) as i64);
         let (mut s0, mut s1) = (0i64, 1i64);
@@ -131,7 +151,11 @@ pub(crate) fn inv_mod(a: u64, p: u64) -> Option<u64> {
             (r0, r1) = (r1, r0 - q * r1);
             (s0, s1) = (s1, s0 - q * s1);
         }
-        return (r0 == 1).then(|| s0.rem_euclid(pi) as u64);
+        return if r0 == 1 {
+            Ok(s0.rem_euclid(pi) as u64)
+        } else {
+            Err(r0 as u64)
+        };
     }
     let (mut r0, mut r1) = (i128::from(p), i128::from(a % p));
     let (mut s0, mut s1) = (0i128, 1i128);
@@ -140,7 +164,11 @@ pub(crate) fn inv_mod(a: u64, p: u64) -> Option<u64> {
         (r0, r1) = (r1, r0 - q * r1);
         (s0, s1) = (s1, s0 - q * s1);
     }
-    (r0 == 1).then(|| s0.rem_euclid(i128::from(p)) as u64)
+    if r0 == 1 {
+        Ok(s0.rem_euclid(i128::from(p)) as u64)
+    } else {
+        Err(r0 as u64)
+    }
 }
 
 thread_local! {

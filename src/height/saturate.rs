@@ -60,6 +60,7 @@ use super::local_terms::real_roots_f64;
 use super::projective::Jac;
 use super::{determinant, Certified, HeightContext, DEFAULT_PRECISION};
 use crate::arith::is_prime_u64;
+use crate::arith::word::{mul_mod, pow_mod};
 use crate::budget::Budget;
 use crate::curve::{torsion_subgroup, Point};
 use crate::error::{Error, Result};
@@ -613,23 +614,6 @@ fn convergents(x: f64, max_den: f64) -> Vec<(i128, i128)> {
 }
 
 // ----- arithmetic modulo an auxiliary prime q -----------------------------
-
-fn mul_mod(a: u64, b: u64, q: u64) -> u64 {
-    ((a as u128 * b as u128) % q as u128) as u64
-}
-
-fn pow_mod(mut a: u64, mut e: u64, q: u64) -> u64 {
-    let mut r = 1 % q;
-    a %= q;
-    while e > 0 {
-        if e & 1 == 1 {
-            r = mul_mod(r, a, q);
-        }
-        a = mul_mod(a, a, q);
-        e >>= 1;
-    }
-    r
-}
 
 /// `a⁻¹ mod q` (0 for `q | a`, as Fermat's `a^(q−2)` gives).
 fn mod_inv(a: u64, q: u64) -> u64 {

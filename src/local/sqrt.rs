@@ -13,6 +13,7 @@ use num_traits::{One, Zero};
 use super::place::Prime;
 use super::symbols::jacobi;
 use super::valuation::split_valuation;
+use crate::arith::word::{inv_mod, mul_mod, pow_mod};
 use crate::budget::Budget;
 use crate::error::{Error, Result};
 
@@ -151,35 +152,6 @@ fn residue_u64(a: &BigInt, m: u64) -> u64 {
     }
 }
 
-fn mul_mod(a: u64, b: u64, m: u64) -> u64 {
-    ((u128::from(a) * u128::from(b)) % u128::from(m)) as u64
-}
-
-fn pow_mod(mut b: u64, mut e: u64, m: u64) -> u64 {
-    let mut r = 1 % m;
-    b %= m;
-    while e > 0 {
-        if e & 1 == 1 {
-            r = mul_mod(r, b, m);
-        }
-        b = mul_mod(b, b, m);
-        e >>= 1;
-    }
-    r
-}
-
-/// [`mod_inverse`] in words: a⁻¹ mod m (m ≥ 2), `None` unless gcd = 1.
-fn mod_inverse_word(a: u64, m: u64) -> Option<u64> {
-    let (mut r0, mut r1) = (i128::from(m), i128::from(a % m));
-    let (mut t0, mut t1) = (0i128, 1i128);
-    while r1 != 0 {
-        let q = r0 / r1;
-        (r0, r1) = (r1, r0 - q * r1);
-        (t0, t1) = (t1, t0 - q * t1);
-    }
-    (r0 == 1).then(|| t0.rem_euclid(i128::from(m)) as u64)
-}
-
 /// [`sqrt_mod_prime_big`] in words; `a` already reduced mod p.
 fn sqrt_mod_prime_word(a: u64, p: u64) -> Option<u64> {
     if p == 2 || a == 0 {
@@ -247,7 +219,7 @@ fn sqrt_mod_prime_power_word(a: u64, p: u64, k: u32, pk: u64) -> Option<u64> {
         while j < m {
             j = (2 * j).min(m);
             let pj = p.pow(j);
-            let inv = mod_inverse_word(mul_mod(y, 2, pj), pj)?;
+            let inv = inv_mod(mul_mod(y, 2, pj), pj)?;
             let w = u128::from(pj);
             let diff = ((u128::from(mul_mod(y, y, pj)) + w - u128::from(u % pj)) % w) as u64;
             let corr = mul_mod(diff, inv, pj);
