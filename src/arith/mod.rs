@@ -16,6 +16,7 @@ pub(crate) mod factor;
 pub(crate) mod meter;
 pub(crate) mod mont;
 pub(crate) mod prime;
+pub(crate) mod real_roots;
 pub(crate) mod rho;
 pub(crate) mod roots;
 pub(crate) mod siqs;
