@@ -300,7 +300,11 @@ fn saturation_certifies_the_real_roots_exactly() {
         let ctx = HeightContext::new(&e, &mut Budget::with_units(1 << 30));
         assert!(ctx.is_ok(), "{label}: {:?}", ctx.err());
         let r = descend(&e, &DescentOptions::default()).unwrap();
-        assert!(r.completion().is_complete(), "{label}: {:?}", r.completion());
+        assert!(
+            r.completion().is_complete(),
+            "{label}: {:?}",
+            r.completion()
+        );
         assert_eq!(r.rank_bounds().lower, rank, "{label}");
         // Saturation ran to its end (generation is proven where the index
         // bound is within the primes tried; not asserted here).

@@ -9,6 +9,7 @@
 //! * `roots`: integer and rational square roots, perfect squares;
 //! * `squarefree`: square-free parts and kernels.
 
+pub(crate) mod decimal;
 pub(crate) mod dyadic;
 pub(crate) mod ecm;
 pub(crate) mod ecm64;

@@ -144,10 +144,8 @@ struct CertifiedView {
 }
 
 fn certified(value: f64, error: f64) -> CertifiedView {
-    CertifiedView {
-        value: decimal(value, error),
-        error: format!("{error:.1e}"),
-    }
+    let (value, error) = value_and_error(value, error);
+    CertifiedView { value, error }
 }
 
 #[derive(Serialize)]
@@ -209,7 +207,9 @@ struct LineView<'a> {
     selmer2_rank: Option<usize>,
     rank_settled_by: Option<&'static str>,
     heights: Vec<String>,
+    height_errors: Vec<String>,
     regulator: Option<String>,
+    regulator_error: Option<String>,
     points_generate: bool,
     generators: Option<SaturationView>,
     root_number: Option<i8>,
@@ -382,16 +382,24 @@ fn report_view<'a>(input: &'a str, r: &DescentReport, detail: Detail) -> LineVie
         heights: r
             .returned_heights()
             .iter()
-            .map(|h| decimal(h.value, h.error))
+            .map(|h| value_and_error(h.value, h.error).0)
             .collect(),
-        regulator: r.regulator().map(|g| decimal(g.value, g.error)),
+        height_errors: r
+            .returned_heights()
+            .iter()
+            .map(|h| value_and_error(h.value, h.error).1)
+            .collect(),
+        regulator: r.regulator().map(|g| value_and_error(g.value, g.error).0),
+        regulator_error: r.regulator().map(|g| value_and_error(g.value, g.error).1),
         points_generate: r.points_generate(),
         generators: r.saturation().map(|s| SaturationView {
             index_bound: s.index_bound,
             index_found: s.index_found,
             primes_checked: s.primes_checked.clone(),
             unresolved: s.unresolved.clone(),
-            height_lower_bound: s.height_lower_bound.map(|h| format!("{h:.6}")),
+            height_lower_bound: s
+                .height_lower_bound
+                .map(|h| crate::arith::decimal::decimal_floor(h, 6)),
         }),
         root_number: r.analytic().and_then(|a| a.root_number()),
         analytic_rank: r.analytic().and_then(|a| a.analytic_rank()),
@@ -450,15 +458,18 @@ fn report_view<'a>(input: &'a str, r: &DescentReport, detail: Detail) -> LineVie
     }
 }
 
-/// `value` with as many decimals as its error bound justifies (at least
-/// one, at most 16): the digits shown are all correct up to the bound.
+/// The decimal string of `value` printed beside the error of
+/// [`value_and_error`] (one decimal beyond the error's leading digit).
 pub fn decimal(value: f64, error: f64) -> String {
-    let decimals = if error > 0.0 && error.is_finite() {
-        (-error.log10()).floor().clamp(1.0, 16.0) as usize
-    } else {
-        16
-    };
-    format!("{value:.decimals$}")
+    crate::arith::decimal::enclose(value, error).0
+}
+
+/// `(value, error)` strings of a certified number such that the printed
+/// interval `value ± error` contains the certified one exactly: the error
+/// is widened by the rounding of the value and rounded up
+/// (`crate::arith::decimal`).
+pub fn value_and_error(value: f64, error: f64) -> (String, String) {
+    crate::arith::decimal::enclose(value, error)
 }
 
 fn analytic_view(a: &crate::analytic::AnalyticData) -> AnalyticView {
@@ -477,10 +488,13 @@ fn analytic_view(a: &crate::analytic::AnalyticData) -> AnalyticView {
         l_values: a
             .l_values()
             .iter()
-            .map(|(k, c)| LValueView {
-                order: *k,
-                value: decimal(c.value(), c.error()),
-                error: format!("{:.1e}", c.error()),
+            .map(|(k, c)| {
+                let (value, error) = value_and_error(c.value(), c.error());
+                LValueView {
+                    order: *k,
+                    value,
+                    error,
+                }
             })
             .collect(),
         terms: a.terms_used(),
@@ -525,7 +539,9 @@ pub fn error_line(input: &str, message: &str) -> String {
         selmer2_rank: None,
         rank_settled_by: None,
         heights: Vec::new(),
+        height_errors: Vec::new(),
         regulator: None,
+        regulator_error: None,
         points_generate: false,
         generators: None,
         root_number: None,

@@ -17,7 +17,6 @@ use crate::descent::report::{Completion, DescentReport};
 use crate::descent::IsogenyDescent;
 use crate::descent::RankProof;
 use crate::local::class_representatives;
-use crate::output::json::decimal;
 use crate::quartic::search::SearchOutcome;
 
 /// A rational as "p/q" in lowest terms, or "p".
@@ -380,7 +379,7 @@ pub(crate) fn write_report(
             let (w, k) = (a.root_number().unwrap_or(0), b.lower);
             let value = a
                 .l_value(k)
-                .map(|c| format!("{} ± {:.1e}", decimal(c.value(), c.error()), c.error()))
+                .map(|c| plus_minus(c.value(), c.error()))
                 .unwrap_or_default();
             writeln!(
                 f,
@@ -408,12 +407,7 @@ pub(crate) fn write_report(
         .iter()
         .enumerate()
         .map(|(i, p)| match heights.get(i) {
-            Some(h) => format!(
-                "{} (ĥ = {} ± {:.1e})",
-                point_text(p),
-                decimal(h.value, h.error),
-                h.error
-            ),
+            Some(h) => format!("{} (ĥ = {})", point_text(p), plus_minus(h.value, h.error)),
             None => point_text(p),
         })
         .collect();
@@ -449,12 +443,7 @@ pub(crate) fn write_report(
         )?;
     }
     if let Some(reg) = r.regulator() {
-        writeln!(
-            f,
-            "regulator: {} ± {:.1e}",
-            decimal(reg.value, reg.error),
-            reg.error
-        )?;
+        writeln!(f, "regulator: {}", plus_minus(reg.value, reg.error))?;
     }
     if returned.len() < b.lower {
         writeln!(
@@ -549,7 +538,7 @@ fn write_analytic(f: &mut fmt::Formatter<'_>, r: &DescentReport, a: &AnalyticDat
         .unwrap_or_else(|| "undecided".into());
     let period = a
         .real_period()
-        .map(|c| format!("{} ± {:.1e}", decimal(c.value(), c.error()), c.error()))
+        .map(|c| plus_minus(c.value(), c.error()))
         .unwrap_or_else(|| "-".into());
     writeln!(
         f,
@@ -567,10 +556,9 @@ fn write_analytic(f: &mut fmt::Formatter<'_>, r: &DescentReport, a: &AnalyticDat
         .iter()
         .map(|(k, c)| {
             format!(
-                "L{}(E,1) = {} ± {:.1e}",
+                "L{}(E,1) = {}",
                 "'".repeat(*k),
-                decimal(c.value(), c.error()),
-                c.error()
+                plus_minus(c.value(), c.error())
             )
         })
         .collect();
@@ -593,9 +581,8 @@ fn write_analytic(f: &mut fmt::Formatter<'_>, r: &DescentReport, a: &AnalyticDat
             };
             writeln!(
                 f,
-                "  Birch–Swinnerton-Dyer: analytic order of Sha = {} ± {:.1e}, {square}",
-                decimal(l.value.value(), l.value.error()),
-                l.value.error()
+                "  Birch–Swinnerton-Dyer: analytic order of Sha = {}, {square}",
+                plus_minus(l.value.value(), l.value.error())
             )?;
             if let Some(t) = r.sha_two_part() {
                 writeln!(
@@ -615,4 +602,11 @@ fn write_analytic(f: &mut fmt::Formatter<'_>, r: &DescentReport, a: &AnalyticDat
         )?,
     }
     Ok(())
+}
+
+/// `value ± error` with the printed interval containing the certified one
+/// (see [`super::json::value_and_error`]).
+fn plus_minus(value: f64, error: f64) -> String {
+    let (v, e) = super::json::value_and_error(value, error);
+    format!("{v} ± {e}")
 }
