@@ -11,7 +11,7 @@ use super::Detail;
 use crate::curve::equation::{equation_text, quartic_text, reduced_equation_text};
 use crate::curve::tate::ReductionKind;
 use crate::curve::Point;
-use crate::descent::isogeny_side::{ClassStatus, SelmerSide};
+use crate::descent::isogeny_side::{ClassStatus, CoveringObstruction, SelmerSide};
 use crate::descent::report::{Completion, DescentReport};
 use crate::local::class_representatives;
 use crate::quartic::search::SearchOutcome;
@@ -90,10 +90,22 @@ struct SpaceView {
     point: Option<SpacePointView>,
 }
 
+/// One twist's obstruction: a 4-covering `{quartic, insoluble_at}`, or,
+/// when no quartic model exists, `{conic, hilbert_symbol, insoluble_at}`.
 #[derive(Serialize)]
-struct CoveringView {
-    quartic: Vec<String>,
-    insoluble_at: String,
+#[serde(untagged)]
+enum CoveringView {
+    Quartic {
+        quartic: Vec<String>,
+        insoluble_at: String,
+    },
+    Conic {
+        /// `[c, A, B, C]` for `c·s² = A u² + B uv + C v²`.
+        conic: Vec<String>,
+        /// `[x, D]` with Hilbert symbol `(x, D)` = −1 at the place.
+        hilbert_symbol: Vec<String>,
+        insoluble_at: String,
+    },
 }
 
 #[derive(Serialize)]
@@ -320,9 +332,26 @@ fn side_view(s: &SelmerSide, domain: bool, detail: Detail) -> SideView {
                     class: space.to_string(),
                     coverings: obstructions
                         .iter()
-                        .map(|o| CoveringView {
-                            quartic: o.covering.iter().map(|c| c.to_string()).collect(),
-                            insoluble_at: o.place.to_string(),
+                        .map(|o| match o {
+                            CoveringObstruction::Quartic { covering, place } => {
+                                CoveringView::Quartic {
+                                    quartic: covering.iter().map(|c| c.to_string()).collect(),
+                                    insoluble_at: place.to_string(),
+                                }
+                            }
+                            CoveringObstruction::Conic {
+                                scale,
+                                form,
+                                hilbert,
+                                place,
+                            } => CoveringView::Conic {
+                                conic: std::iter::once(scale)
+                                    .chain(form.iter())
+                                    .map(|c| c.to_string())
+                                    .collect(),
+                                hilbert_symbol: hilbert.iter().map(|c| c.to_string()).collect(),
+                                insoluble_at: place.to_string(),
+                            },
                         })
                         .collect(),
                 }),

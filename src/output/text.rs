@@ -12,7 +12,7 @@ use crate::analytic::AnalyticData;
 use crate::curve::equation::{equation_text, quartic_text, reduced_equation_text};
 use crate::curve::tate::ReductionKind;
 use crate::curve::{ModelChange, Point};
-use crate::descent::isogeny_side::{ClassStatus, SelmerSide};
+use crate::descent::isogeny_side::{ClassStatus, CoveringObstruction, SelmerSide};
 use crate::descent::report::{Completion, DescentReport};
 use crate::descent::IsogenyDescent;
 use crate::descent::RankProof;
@@ -108,10 +108,24 @@ fn class_line(status: &ClassStatus) -> String {
             obstructions,
             space,
             ..
-        } => format!(
-            "not an image: each of the {} 4-coverings of C_{space} is locally insoluble",
-            obstructions.len()
-        ),
+        } => {
+            let conics = obstructions
+                .iter()
+                .filter(|o| matches!(o, CoveringObstruction::Conic { .. }))
+                .count();
+            if conics == 0 {
+                format!(
+                    "not an image: each of the {} 4-coverings of C_{space} is locally insoluble",
+                    obstructions.len()
+                )
+            } else {
+                format!(
+                    "not an image: each of the {} twists of C_{space} is locally insoluble ({} by a 4-covering, {conics} by a conic with no quartic model)",
+                    obstructions.len(),
+                    obstructions.len() - conics
+                )
+            }
+        }
     }
 }
 
@@ -172,7 +186,7 @@ pub(crate) fn evidence_summary(s: &SelmerSide) -> String {
         let mut count = 0;
         let places = proven.iter().flat_map(|st| match st {
             ClassStatus::ProvenNotImage { obstructions, .. } => {
-                obstructions.iter().map(|o| &o.place).collect::<Vec<_>>()
+                obstructions.iter().map(|o| o.place()).collect::<Vec<_>>()
             }
             _ => Vec::new(),
         });
@@ -254,15 +268,29 @@ fn write_side(
             {
                 writeln!(f, "  4-coverings of C_{space}:")?;
                 for o in obstructions {
-                    writeln!(
-                        f,
-                        "    y^2 = {}   insoluble at {}",
-                        quartic_text(&o.covering)
-                            .trim_start_matches("N^2 = ")
-                            .replace('M', "u")
-                            .replace('e', "v"),
-                        o.place
-                    )?;
+                    match o {
+                        CoveringObstruction::Quartic { covering, place } => writeln!(
+                            f,
+                            "    y^2 = {}   insoluble at {place}",
+                            quartic_text(covering)
+                                .trim_start_matches("N^2 = ")
+                                .replace('M', "u")
+                                .replace('e', "v"),
+                        )?,
+                        CoveringObstruction::Conic {
+                            scale,
+                            form,
+                            hilbert,
+                            place,
+                        } => writeln!(
+                            f,
+                            "    no quartic model (neither conic of the twist has a rational point); its conic {} = {} has no point at {place}: Hilbert symbol ({}, {})_{place} = -1",
+                            form_text(std::slice::from_ref(scale), &["s^2"]),
+                            form_text(form, &["u^2", "uv", "v^2"]),
+                            hilbert[0],
+                            hilbert[1],
+                        )?,
+                    }
                 }
             }
         }
@@ -609,4 +637,30 @@ fn write_analytic(f: &mut fmt::Formatter<'_>, r: &DescentReport, a: &AnalyticDat
 fn plus_minus(value: f64, error: f64) -> String {
     let (v, e) = super::json::value_and_error(value, error);
     format!("{v} ± {e}")
+}
+
+/// `c₀·m₀ + c₁·m₁ + …` with the monomials `m_i`, zero terms left out.
+fn form_text(coeffs: &[BigInt], monomials: &[&str]) -> String {
+    use num_traits::{Signed, Zero};
+    let mut out = String::new();
+    for (c, m) in coeffs.iter().zip(monomials) {
+        if c.is_zero() {
+            continue;
+        }
+        if out.is_empty() {
+            if c.is_negative() {
+                out.push('-');
+            }
+        } else {
+            out.push_str(if c.is_negative() { " - " } else { " + " });
+        }
+        if !c.abs().is_one() {
+            out.push_str(&c.abs().to_string());
+        }
+        out.push_str(m);
+    }
+    if out.is_empty() {
+        out.push('0');
+    }
+    out
 }
