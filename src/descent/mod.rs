@@ -1,4 +1,4 @@
-//! Layer 7: the descent end to end — exact-sequence bookkeeping, rank
+//! Layer 8: the descent end to end — exact-sequence bookkeeping, rank
 //! bounds, points on the input model, and reports.
 //!
 //! [`descend`] takes any Weierstrass model over Q with a rational point of
@@ -30,6 +30,8 @@
 //! by heights.
 
 pub(crate) mod bounds;
+#[cfg(test)]
+mod checks;
 pub(crate) mod deep_search;
 pub(crate) mod global;
 pub(crate) mod isogeny_side;

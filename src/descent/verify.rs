@@ -29,8 +29,8 @@ use super::report::DescentReport;
 use crate::budget::Budget;
 use crate::curve::Curve;
 use crate::error::Result;
-use crate::quartic::second_descent::verify_obstruction;
 use crate::quartic::{locally_soluble, LocalSolubility, Quartic};
+use crate::second::covering::verify_obstruction;
 use crate::selmer::f2::Subspace;
 use crate::selmer::group::{selmer_from_local_images, LocalCondition};
 
