@@ -12,7 +12,7 @@
 //!    spending budget, is not factored again (`KnownPrimes`);
 //! 3. computes both Selmer groups from local images at R, 2 and every bad
 //!    prime (`isogeny_side::compute_side`) and searches their homogeneous spaces;
-//! 4. combines both sides by the exact sequence (`bounds`).
+//! 4. combines both sides by the exact sequence (`exact_sequence`).
 //!
 //! With three rational 2-torsion points it does this for each of the three
 //! isogenies and reports the sharpest bounds: max of the lower bounds, min
@@ -29,10 +29,10 @@
 //! lower bound k + k' − 2. Independence is certified by the F2 images, not
 //! by heights.
 
-pub(crate) mod bounds;
 #[cfg(test)]
 mod checks;
 pub(crate) mod deep_search;
+pub(crate) mod exact_sequence;
 pub(crate) mod global;
 pub(crate) mod isogeny_side;
 pub(crate) mod options;
@@ -139,13 +139,13 @@ impl IsogenyDescent {
 
     /// dim_F2 Sel²(E/Q) of the reduced model E (isomorphic to the input
     /// curve), torsion included, from the exact sequence of
-    /// `bounds::selmer2_dimension`: dim Sel^φ(E) (this descent's E'
+    /// `exact_sequence::selmer2_dimension`: dim Sel^φ(E) (this descent's E'
     /// side) − t + dim I (the liftable subgroup on E's side). `None` when
     /// the pairing on E's side was not computed (budget).
     pub fn selmer2_rank(&self) -> Option<usize> {
         let liftable = self.domain.liftable_dim()?;
         let full = is_square(&self.model.reduced().quadratic_discriminant());
-        Some(bounds::selmer2_dimension(
+        Some(exact_sequence::selmer2_dimension(
             self.codomain.dimension(),
             liftable,
             full,
@@ -158,7 +158,7 @@ impl IsogenyDescent {
     pub fn selmer2_rank_codomain(&self) -> Option<usize> {
         let liftable = self.codomain.liftable_dim()?;
         let full = is_square(self.model.b());
-        Some(bounds::selmer2_dimension(
+        Some(exact_sequence::selmer2_dimension(
             self.domain.dimension(),
             liftable,
             full,
@@ -297,7 +297,7 @@ fn descend_isogeny_with_torsion(
             ),
         });
     }
-    let (rank_lower, rank_upper) = bounds::rank_bounds(
+    let (rank_lower, rank_upper) = exact_sequence::rank_bounds(
         (domain.image_lower(), codomain.image_lower()),
         (domain.image_upper, codomain.image_upper),
     );

@@ -23,7 +23,7 @@
 //! The result lists every check with its outcome, so a reader sees what
 //! was checked, not only a yes/no.
 
-use super::bounds::rank_bounds;
+use super::exact_sequence::rank_bounds;
 use super::isogeny_side::{connecting_value, ClassStatus, SelmerSide};
 use super::report::DescentReport;
 use crate::budget::Budget;

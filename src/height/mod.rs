@@ -28,7 +28,7 @@
 //!   points with hundreds of digits, behind [`HeightContext::multiple`] and
 //!   [`HeightContext::combination`];
 //! - `local`: the archimedean and non-archimedean local heights;
-//! - `bounds`: naive/canonical height difference bounds and a proven
+//! - `naive_vs_canonical`: naive/canonical height difference bounds and a proven
 //!   lower bound for `ĥ` on non-torsion points;
 //! - `lll`: LLL reduction for the height pairing;
 //! - `saturate`: index bounds and p-saturation.
@@ -36,10 +36,10 @@
 // Matrix code reads best with explicit indices.
 #![allow(clippy::needless_range_loop)]
 
-pub(crate) mod bounds;
 mod lll;
 mod local_terms;
 pub(crate) mod lower_bound;
+pub(crate) mod naive_vs_canonical;
 mod projective;
 pub(crate) mod saturate;
 
@@ -53,8 +53,10 @@ use crate::curve::tate::ReductionKind;
 use crate::curve::{Curve, ModelChange, Point};
 use crate::error::{Error, Result};
 
-pub use bounds::{difference_bounds, height_lower_bound, DifferenceBounds, HeightLowerBound};
 pub use lower_bound::{cremona_siksek_bound, CremonaSiksekBound};
+pub use naive_vs_canonical::{
+    difference_bounds, height_lower_bound, DifferenceBounds, HeightLowerBound,
+};
 pub use saturate::{saturate, LowerBoundSource, Saturation, SaturationOptions};
 
 use local_terms::{Archimedean, BadPrime};

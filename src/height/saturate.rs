@@ -5,7 +5,7 @@
 //! Let `L` be the span of `r` independent points and `Λ = E(Q)/E(Q)_tors`
 //! (rank `r` assumed: `L` has finite index `n` in its saturation, which is
 //! `Λ` when `r` is the rank). Then `Reg(L) = n²·Reg(sat L)`. If every
-//! non-torsion point has `ĥ ≥ λ` ([`super::bounds::height_lower_bound`]),
+//! non-torsion point has `ĥ ≥ λ` ([`super::naive_vs_canonical::height_lower_bound`]),
 //! Hermite's inequality for the positive definite form `ĥ` on `sat L`
 //! (`min ≤ γ_r·det^{1/r}`) gives `Reg(sat L) ≥ λʳ/γ_rʳ`, hence
 //!
@@ -54,9 +54,9 @@ use num_bigint::BigInt;
 use num_integer::Integer;
 use num_traits::{ToPrimitive, Zero};
 
-use super::bounds::{difference_bounds, height_lower_bound};
 use super::lll::lll_gram;
 use super::local_terms::real_roots_f64;
+use super::naive_vs_canonical::{difference_bounds, height_lower_bound};
 use super::projective::Jac;
 use super::{determinant, Certified, HeightContext, DEFAULT_PRECISION};
 use crate::arith::is_prime_u64;
@@ -161,7 +161,7 @@ pub struct Saturation {
 pub enum LowerBoundSource {
     /// The Cremona–Siksek argument ([`super::cremona_siksek_bound`]).
     CremonaSiksek,
-    /// The exhaustive search of small points ([`super::bounds::height_lower_bound`]).
+    /// The exhaustive search of small points ([`super::naive_vs_canonical::height_lower_bound`]).
     Search,
 }
 
@@ -208,7 +208,7 @@ pub fn saturate(
     budget: &mut Budget,
 ) -> Result<Saturation> {
     if !(options.max_search_height.is_finite()
-        && options.max_search_height <= super::bounds::MAX_SEARCH_HEIGHT
+        && options.max_search_height <= super::naive_vs_canonical::MAX_SEARCH_HEIGHT
         && options.search_margin.is_finite()
         && options.search_margin > 0.0)
     {
@@ -550,7 +550,7 @@ fn try_divide(
             let (Some(ni), Some(di)) = (num.to_i128(), d.to_i128()) else {
                 continue;
             };
-            for cand in super::bounds::lifts_exact(a, ni, di) {
+            for cand in super::naive_vs_canonical::lifts_exact(a, ni, di) {
                 let m = short.to_point(&short.mul(&short.to_jac(&cand), &pj));
                 let r_pt = if m == target {
                     cand
