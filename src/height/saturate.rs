@@ -60,7 +60,7 @@ use super::naive_vs_canonical::{difference_bounds, height_lower_bound};
 use super::projective::Jac;
 use super::{determinant, Certified, HeightContext, DEFAULT_PRECISION};
 use crate::arith::is_prime_u64;
-use crate::arith::word::{mul_mod, pow_mod};
+use crate::arith::word::{mul_mod, pow_mod, sqrt_mod};
 use crate::budget::Budget;
 use crate::curve::{torsion_subgroup, Point};
 use crate::error::{Error, Result};
@@ -622,47 +622,6 @@ fn mod_inv(a: u64, q: u64) -> u64 {
 
 fn big_mod(n: &BigInt, q: u64) -> u64 {
     n.mod_floor(&BigInt::from(q)).to_u64().unwrap_or(0)
-}
-
-/// Square root mod an odd prime (Tonelli–Shanks, common practice).
-fn sqrt_mod(n: u64, q: u64) -> Option<u64> {
-    let n = n % q;
-    if n == 0 {
-        return Some(0);
-    }
-    if pow_mod(n, (q - 1) / 2, q) != 1 {
-        return None;
-    }
-    let (mut s, mut e) = (q - 1, 0u32);
-    while s % 2 == 0 {
-        s /= 2;
-        e += 1;
-    }
-    let mut z = 2;
-    while pow_mod(z, (q - 1) / 2, q) != q - 1 {
-        z += 1;
-    }
-    let mut c = pow_mod(z, s, q);
-    let mut x = pow_mod(n, s.div_ceil(2), q);
-    let mut t = pow_mod(n, s, q);
-    let mut m = e;
-    while t != 1 {
-        let mut i = 0;
-        let mut tt = t;
-        while tt != 1 {
-            tt = mul_mod(tt, tt, q);
-            i += 1;
-            if i == m {
-                return None;
-            }
-        }
-        let b = pow_mod(c, 1 << (m - i - 1), q);
-        x = mul_mod(x, b, q);
-        c = mul_mod(b, b, q);
-        t = mul_mod(t, c, q);
-        m = i;
-    }
-    Some(x)
 }
 
 /// Affine arithmetic on `Y² = X³ + AX + B` over F_q (`None` is O).
