@@ -125,20 +125,28 @@ pub(crate) fn complete(
                 Some((h, sha2)) if rank == 1 => dopts.guided(h, sha2),
                 _ => dopts.clone(),
             };
-            match super::deep_search::complete_report_points(report, rank, &guided, &mut budget) {
-                Ok(points) if points.len() > report.points.len() => {
-                    // Independent points (certified by their classes):
-                    // the descent's lower bound rises with them.
-                    report.descent_bounds.lower = report.descent_bounds.lower.max(points.len());
-                    report.points = points;
-                    // The points and the Selmer bounds now prove the rank
-                    // without the analytic theorem (which only guided the
-                    // search).
-                    if report.descent_bounds.is_decided() {
-                        report.global.settled_by = Some(RankProof::Descent);
+            match super::deep_search::complete_report_points_cut(report, rank, &guided, &mut budget)
+            {
+                Ok((points, cut)) => {
+                    if cut {
+                        let e = Error::BudgetExhausted {
+                            stage: "deep point search".into(),
+                        };
+                        note_stop(report, "deep search for points", &e);
+                    }
+                    if points.len() > report.points.len() {
+                        // Independent points (certified by their classes):
+                        // the descent's lower bound rises with them.
+                        report.descent_bounds.lower = report.descent_bounds.lower.max(points.len());
+                        report.points = points;
+                        // The points and the Selmer bounds now prove the rank
+                        // without the analytic theorem (which only guided the
+                        // search).
+                        if report.descent_bounds.is_decided() {
+                            report.global.settled_by = Some(RankProof::Descent);
+                        }
                     }
                 }
-                Ok(_) => {}
                 Err(e) => note_stop(report, "deep search for points", &e),
             }
         }

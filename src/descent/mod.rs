@@ -150,6 +150,35 @@ impl IsogenyDescent {
         ))
     }
 
+    /// The upper bounds for the rank that the 2-Selmer data of this
+    /// isogeny prove on their own, whichever steps ran: the smallest of
+    /// * dim Sel²(E) − dim E(Q)\[2\] and dim Sel²(E') − dim E'(Q)\[2\]
+    ///   (E(Q)/2E(Q), of dimension r + dim E(Q)\[2\], embeds in Sel²(E);
+    ///   [Sil86, X.4]; E and E' are isogenous, so have the same rank), and
+    /// * dim I + dim I' − 2, I and I' the liftable subgroups of both sides,
+    ///   which contain the images α(E(Q)) and α'(E'(Q)) (the exact sequence
+    ///   of `bounds`).
+    ///
+    /// Here `selmer2_rank` counts the torsion (see
+    /// `bounds::selmer2_dimension`), and dim E(Q)\[2\] is 2 when
+    /// a² − 4b is a square, else 1 (for E', 2 when b is a square). `None`
+    /// when neither pairing was computed.
+    pub(crate) fn selmer_rank_bound(&self) -> Option<usize> {
+        let two_e = if is_square(&self.model.reduced().quadratic_discriminant()) {
+            2
+        } else {
+            1
+        };
+        let two_e2 = if is_square(self.model.b()) { 2 } else { 1 };
+        let from_e = self.selmer2_rank().map(|s| s.saturating_sub(two_e));
+        let from_e2 = self.selmer2_rank_codomain().map(|s| s.saturating_sub(two_e2));
+        let from_i = match (self.domain.liftable_dim(), self.codomain.liftable_dim()) {
+            (Some(i), Some(j)) => Some((i + j).saturating_sub(2)),
+            _ => None,
+        };
+        [from_e, from_e2, from_i].into_iter().flatten().min()
+    }
+
     /// dim_F2 Sel²(E'/Q) of the isogenous curve E', torsion included
     /// (the same sequence for the dual isogeny; E'\[2\] is rational iff b is
     /// a square).
@@ -391,6 +420,22 @@ pub fn descend(curve: &Curve, options: &DescentOptions) -> Result<DescentReport>
             stage: "every isogeny of the descent".to_string(),
         }));
     }
+    // A step inside an isogeny's descent that a budget cut short (a search
+    // that gave up, a class of the 4-covering route not run) also makes
+    // the report partial: its classes lost evidence.
+    if completion.is_complete() {
+        'cut: for (i, d) in isogenies.iter().enumerate() {
+            for side in [&d.domain, &d.codomain] {
+                if let Some((step, reason)) = side.cut_short() {
+                    completion = Completion::Partial {
+                        step: format!("isogeny {}: {step}", i + 1),
+                        reason,
+                    };
+                    break 'cut;
+                }
+            }
+        }
+    }
     let mut report = DescentReport::new(curve.clone(), torsion, local_data, isogenies, completion);
     global::complete(&mut report, options, ctx.deadline);
     Ok(report)
@@ -408,8 +453,8 @@ fn is_budget_error(e: &Error) -> bool {
 /// The deadline of the first-descent fallback: a quarter of the time
 /// limit (at least 1 s) after the limit itself, or none without a limit.
 fn fallback_deadline(options: &DescentOptions, started: Instant) -> Option<Instant> {
-    options.time_limit.map(|d| {
+    options.time_limit.and_then(|d| {
         let grace = (d / 4).max(std::time::Duration::from_secs(1));
-        started + d + grace
+        started.checked_add(d.saturating_add(grace))
     })
 }

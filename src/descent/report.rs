@@ -90,7 +90,7 @@ impl DescentReport {
         let lower = isogenies.iter().map(|d| d.rank_lower).max().unwrap_or(0);
         let upper = isogenies
             .iter()
-            .map(|d| d.rank_upper)
+            .map(|d| d.rank_upper.min(d.selmer_rank_bound().unwrap_or(usize::MAX)))
             .min()
             .unwrap_or(usize::MAX)
             .max(lower);
@@ -99,7 +99,12 @@ impl DescentReport {
         let deciding = isogenies
             .iter()
             .position(|d| d.rank_lower == lower && d.rank_upper == upper)
-            .or_else(|| isogenies.iter().position(|d| d.rank_upper == upper));
+            .or_else(|| isogenies.iter().position(|d| d.rank_upper == upper))
+            .or_else(|| {
+                isogenies
+                    .iter()
+                    .position(|d| d.selmer_rank_bound() == Some(upper))
+            });
         let points = best
             .and_then(|i| isogenies.get(i))
             .map(|d| d.points.clone())
