@@ -171,7 +171,9 @@ impl IsogenyDescent {
         };
         let two_e2 = if is_square(self.model.b()) { 2 } else { 1 };
         let from_e = self.selmer2_rank().map(|s| s.saturating_sub(two_e));
-        let from_e2 = self.selmer2_rank_codomain().map(|s| s.saturating_sub(two_e2));
+        let from_e2 = self
+            .selmer2_rank_codomain()
+            .map(|s| s.saturating_sub(two_e2));
         let from_i = match (self.domain.liftable_dim(), self.codomain.liftable_dim()) {
             (Some(i), Some(j)) => Some((i + j).saturating_sub(2)),
             _ => None,

@@ -90,7 +90,10 @@ impl DescentReport {
         let lower = isogenies.iter().map(|d| d.rank_lower).max().unwrap_or(0);
         let upper = isogenies
             .iter()
-            .map(|d| d.rank_upper.min(d.selmer_rank_bound().unwrap_or(usize::MAX)))
+            .map(|d| {
+                d.rank_upper
+                    .min(d.selmer_rank_bound().unwrap_or(usize::MAX))
+            })
             .min()
             .unwrap_or(usize::MAX)
             .max(lower);

@@ -136,7 +136,10 @@ pub fn verify_report(report: &DescentReport, units: u64) -> Result<Verification>
     let hi = report
         .isogenies()
         .iter()
-        .map(|d| d.rank_upper.min(d.selmer_rank_bound().unwrap_or(usize::MAX)))
+        .map(|d| {
+            d.rank_upper
+                .min(d.selmer_rank_bound().unwrap_or(usize::MAX))
+        })
         .min()
         .unwrap_or(lo)
         .max(lo);
