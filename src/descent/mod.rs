@@ -379,9 +379,22 @@ pub fn descend(curve: &Curve, options: &DescentOptions) -> Result<DescentReport>
         .and_then(|t| first_model_and_primes(curve, t, &ctx, &mut known));
     let disc = curve.discriminant();
     let mut budget = ctx.factor_budget(disc.numer().bits() + disc.denom().bits());
-    let local_data = global_local_data_with(curve.coefficients(), &mut budget, &mut known)?;
-    let mut isogenies = Vec::with_capacity(ts.len());
     let mut completion = Completion::Complete;
+    // Tate's algorithm reads the clock: on a huge model it may be cut, and
+    // the descent still runs (the report is then partial, without local
+    // data).
+    let local_data = match global_local_data_with(curve.coefficients(), &mut budget, &mut known) {
+        Ok(l) => Some(l),
+        Err(e) if is_budget_error(&e) => {
+            completion = Completion::Partial {
+                step: "local data (Tate's algorithm)".into(),
+                reason: e.to_string(),
+            };
+            None
+        }
+        Err(e) => return Err(e),
+    };
+    let mut isogenies = Vec::with_capacity(ts.len());
     let mut first_error = None;
     for (i, t) in ts.iter().enumerate() {
         let cached = if i == 0 { first_model.as_ref() } else { None };

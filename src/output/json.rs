@@ -410,14 +410,17 @@ fn report_view<'a>(input: &'a str, r: &DescentReport, detail: Detail) -> LineVie
             }
         }),
         conflict: r.conflict().map(str::to_string),
-        conductor: Some(ld.conductor.to_string()),
-        minimal_model: Some(equation_text(
-            &ld.minimal_model
-                .clone()
-                .map(num_rational::BigRational::from_integer),
-        )),
+        conductor: ld.map(|ld| ld.conductor.to_string()),
+        minimal_model: ld.map(|ld| {
+            equation_text(
+                &ld.minimal_model
+                    .clone()
+                    .map(num_rational::BigRational::from_integer),
+            )
+        }),
         reduction: ld
-            .primes
+            .map(|ld| ld.primes.as_slice())
+            .unwrap_or_default()
             .iter()
             .map(|p| {
                 (
