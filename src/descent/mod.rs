@@ -159,10 +159,10 @@ impl IsogenyDescent {
     ///   [Sil86, X.4]; E and E' are isogenous, so have the same rank), and
     /// * dim I + dim I' − 2, I and I' the liftable subgroups of both sides,
     ///   which contain the images α(E(Q)) and α'(E'(Q)) (the exact sequence
-    ///   of `bounds`).
+    ///   of `exact_sequence`).
     ///
     /// Here `selmer2_rank` counts the torsion (see
-    /// `bounds::selmer2_dimension`), and dim E(Q)\[2\] is 2 when
+    /// `exact_sequence::selmer2_dimension`), and dim E(Q)\[2\] is 2 when
     /// a² − 4b is a square, else 1 (for E', 2 when b is a square). `None`
     /// when neither pairing was computed.
     pub(crate) fn selmer_rank_bound(&self) -> Option<usize> {
