@@ -254,7 +254,7 @@ fn cm_curves() -> Vec<[i64; 5]> {
             v.push([0, 0, 0, 0, b]); // j = 0
         }
     }
-    // j = 0 and j = 1728 in models with a1 or a3 ≠ 0: y² + y = x³ (27a),
+    // j = 0 and j = 1728 in models with a1 or a3 ≠ 0: y² + y = x³,
     // y² + y = x³ − 7, y² = x³ + x² + … reached by x ↦ x + r from the short
     // models (c4, c6 unchanged).
     v.push([0, 0, 1, 0, 0]);

@@ -29,8 +29,8 @@ fn close(x: Certified, expected: f64, expected_accuracy: f64, slack: f64) {
 
 #[test]
 fn classical_rank_zero_and_one_values() {
-    // 11a1 = [0,-1,1,-10,-20]: L(E,1) = 0.253841860855911, Ω = 1.26920930427955;
-    // 37a1 = [0,0,1,-1,0]: L'(E,1) = 0.305999773834052, Ω = 5.98691729246392
+    // y² + y = x³ − x² − 10x − 20 = [0,-1,1,-10,-20]: L(E,1) = 0.253841860855911, Ω = 1.26920930427955;
+    // y² + y = x³ − x = [0,0,1,-1,0]: L'(E,1) = 0.305999773834052, Ω = 5.98691729246392
     // (Cremona, Algorithms for Modular Elliptic Curves, 2nd ed., Table 4;
     // values from memory).
     let d = run([0, -1, 1, -10, -20]);
@@ -63,7 +63,7 @@ fn classical_rank_zero_and_one_values() {
 
 #[test]
 fn rank_two_and_three_derivatives() {
-    // 389a1 = [0,1,1,-2,0]: L''(E,1)/2 = 0.759316500288427; 5077a1 =
+    // y² + y = x³ + x² − 2x = [0,1,1,-2,0]: L''(E,1)/2 = 0.759316500288427; y² + y = x³ − 7x + 6 =
     // [0,0,1,-7,6]: L'''(E,1)/6 = 1.73184990011930 (Buhler, Gross, Zagier,
     // Math. Comp. 44 (1985), and Cremona's Table 4; from memory).
     let d = run([0, 1, 1, -2, 0]);
@@ -161,7 +161,7 @@ fn naive_canonical_height(e: &Curve, p: &Point, n: u32) -> f64 {
 
 #[test]
 fn rank_one_ledgers_are_squares_with_the_stated_regulator_normalisation() {
-    // Generators (from memory): 37a1 (0, 0); y² = x³ − 36x (−3, 9);
+    // Generators (from memory): y² + y = x³ − x (0, 0); y² = x³ − 36x (−3, 9);
     // y² = x³ − 25x (−4, 6); y² = x³ − 2 (3, 5). With
     // Reg = lim h(x(2^nP))/4^n, the BSD quotient must be a square
     // (Birch–Swinnerton-Dyer conjecture, proven-to-be-consistent

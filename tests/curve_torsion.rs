@@ -218,7 +218,7 @@ fn torsion_of_curves_with_thirty_digit_coefficients_is_found_quickly_and_exactly
     check_group_is_consistent(&e, &g);
 }
 
-/// The model y² = x³ + b2x² + 8b4x + 16b6 of E (the scaling u = 1/2 after
+/// The model y² = x³ + b2x² + 8·b4·x + 16·b6 of E (the scaling u = 1/2 after
 /// completing the square, [Sil09, III.1]): integral with a1 = a3 = 0 when E
 /// is integral, and with a2 ≠ 0 in general.
 fn completed_square_model(e: &Curve) -> Curve {
@@ -235,7 +235,7 @@ fn completed_square_model(e: &Curve) -> Curve {
 #[test]
 fn kubert_families_keep_their_structure_on_the_completed_square_model() {
     // The torsion structure is an invariant of the curve, so the general
-    // model E(b, c) and its model y² = x³ + b2x² + 8b4x + 16b6 must agree;
+    // model E(b, c) and its model y² = x³ + b2x² + 8·b4·x + 16·b6 must agree;
     // the second is integral with a2 ≠ 0, the shape the descent uses.
     let ts = small_rationals();
     for n in [4u32, 5, 6, 7, 8, 9, 10, 12] {

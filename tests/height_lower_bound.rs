@@ -58,11 +58,11 @@ fn the_bound_never_exceeds_the_height_of_a_point_found() {
     assert!(compared > 150, "{compared}");
 }
 
-/// Published minimal heights (BSD normalisation): the generator of 37a1
-/// has ĥ = 0.0511114082399688 and that of 32a2 (y² = x³ − x) is
-/// torsion-only (rank 0), the generator of y² = x³ − 25x (n = 5, curve
-/// 200b?) is (−4, 6) with ĥ ≈ 1.8995 (Cremona's tables and the regulator
-/// of 37a1; from memory). The bound lies below them, and on the
+/// Published minimal heights (BSD normalisation): the generator of y² + y = x³ − x
+/// has ĥ = 0.0511114082399688 and y² = x³ − x is
+/// torsion-only (rank 0), the generator of y² = x³ − 25x (n = 5)
+/// is (−4, 6) with ĥ ≈ 1.8995 (Cremona's tables and the regulator
+/// of y² + y = x³ − x; from memory). The bound lies below them, and on the
 /// congruent-number curves it grows like log n (the archimedean height on
 /// E⁰(R) scales by log n): at n = 997 it exceeds 1.7, where the search
 /// bound of height 10 proves nothing.

@@ -11,7 +11,7 @@ use std::sync::OnceLock;
 
 /// Curves with independent points (generators where known). Rank and
 /// points of y² + y = x³ − x (37a), y² + y = x³ + x² − 2x (389a),
-/// y² + y = x³ − 7x + 6 (5077a): Cremona, *Algorithms for Modular
+/// y² + y = x³ − 7x + 6 : Cremona, *Algorithms for Modular
 /// Elliptic Curves*, Table 1 (from memory). The others are checked here by
 /// `contains` (the points are on the curves) — independence is not
 /// needed for the identities below.
@@ -166,7 +166,7 @@ proptest! {
 }
 
 /// ĥ(T) = 0 for every torsion point (Silverman, AEC 2nd ed., Theorem
-/// VIII.9.3(e)), on curves with torsion Z/5 (11a), Z/2 × Z/2, Z/4, Z/2.
+/// VIII.9.3(e)), on curves with torsion Z/5 (y² + y = x³ − x² − 10x − 20), Z/2 × Z/2, Z/4, Z/2.
 #[test]
 fn torsion_points_have_height_zero() {
     let mut seen = 0;

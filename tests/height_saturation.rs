@@ -17,9 +17,9 @@ fn within(c: &Certified, published: f64, digits_err: f64) -> bool {
 }
 
 /// Published regulators (BSD normalisation, ⟨P, P⟩ = ĥ(P) ≈ h(x(P))):
-/// 37a1 y² + y = x³ − x, generator (0, 0): 0.0511114082399688;
-/// 389a1 y² + y = x³ + x² − 2x, generators (−1, 1), (0, 0):
-/// 0.152460177943144; 5077a1 y² + y = x³ − 7x + 6, generators (0, 2),
+/// y² + y = x³ − x y² + y = x³ − x, generator (0, 0): 0.0511114082399688;
+/// y² + y = x³ + x² − 2x y² + y = x³ + x² − 2x, generators (−1, 1), (0, 0):
+/// 0.152460177943144; y² + y = x³ − 7x + 6 y² + y = x³ − 7x + 6, generators (0, 2),
 /// (1, 0), (2, 0): 0.417143558758384. Curves and values as in Cremona's
 /// tables (*Algorithms for Modular Elliptic Curves*, 2nd ed., and their
 /// extension); values from memory, 15 digits.

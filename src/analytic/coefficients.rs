@@ -142,7 +142,7 @@ impl ApTable {
         if p < 5 {
             return Some(count_small(&self.model, p));
         }
-        // y² = x³ − 27c4·x − 54c6 is isomorphic to E over F_p, p ≥ 5
+        // y² = x³ − 27·c4·x − 54·c6 is isomorphic to E over F_p, p ≥ 5
         // [Sil09, III.1].
         let a = (p - self.c4x27.rem(p)) % p;
         if let Some(v) = ap_closed_form(self.family, a, p) {

@@ -188,8 +188,8 @@ pub struct GlobalLocalData {
 /// [Sil86, III.1]:
 /// `b2 = a1² + 4a2`, `b4 = a1a3 + 2a4`, `b6 = a3² + 4a6`,
 /// `b8 = a1²a6 + 4a2a6 − a1a3a4 + a2a3² − a4²`,
-/// `c4 = b2² − 24b4`, `c6 = −b2³ + 36b2b4 − 216b6`,
-/// `Δ = −b2²b8 − 8b4³ − 27b6² + 9b2b4b6`.
+/// `c4 = b2² − 24·b4`, `c6 = −b2³ + 36·b2·b4 − 216·b6`,
+/// `Δ = −b2²b8 − 8b4³ − 27b6² + 9·b2·b4·b6`.
 #[derive(Debug, Clone, PartialEq, Eq)]
 pub struct IntegralInvariants {
     /// b2.
@@ -588,9 +588,9 @@ enum Pass {
 /// * p = 3: completing the square, `y² = x³ + b2x² − b4x + b6` mod 3; if
 ///   `3 | b2` the cusp is the triple root `x = −b6`, otherwise the double
 ///   root `x = −b4/b2 = −b2b4`; `y = −(a1x + a3)/2 = a1x + a3`.
-/// * p ≥ 5: in the model `Y² = X³ − 27c4X − 54c6` with
+/// * p ≥ 5: in the model `Y² = X³ − 27·c4X − 54·c6` with
 ///   `X = 36x + 3b2`, the double root is `X = −3c6/c4` (or 0 when
-///   `p | c4`), so `x = −(c6 + b2c4)/(12c4)` (or `−b2/12`);
+///   `p | c4`), so `x = −(c6 + b2c4)/(12·c4)` (or `−b2/12`);
 ///   `y = −(a1x + a3)/2`.
 fn singular_point(a: &[BigInt; 5], inv: &BcInvariants, p: &Prime) -> Result<(BigInt, BigInt)> {
     let pp = p.get();

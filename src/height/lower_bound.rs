@@ -451,9 +451,9 @@ mod tests {
     }
 
     /// The least real period: y² = x³ − x gives the lemniscate constant
-    /// 2.62205755429211981…; 37a1 (y² + y = x³ − x) gives
+    /// 2.62205755429211981…; y² + y = x³ − x gives
     /// 2.99345864623195962… (half of its Ω_E = 5.98691729246392, two real
-    /// components); 11a1 (y² + y = x³ − x² − 10x − 20) gives
+    /// components); y² + y = x³ − x² − 10x − 20 gives
     /// 1.26920930427955 (Cremona's tables; values from memory). The upper
     /// bound must lie above and within 1e-9 relative.
     #[test]
