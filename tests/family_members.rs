@@ -90,8 +90,9 @@ fn twists_scale_c4_and_c6_by_d_squared_and_d_cubed_and_keep_j() {
 
 #[test]
 fn twist_family_of_a_curve_without_two_torsion_is_refused() {
-    // y² + y = x³ − x² − 10x − 20 has torsion Z/5 [Cre97, Table 1, curve y² + y = x³ − x² − 10x − 20],
-    // so no point of order 2.
+    // y² + y = x³ − x² − 10x − 20 has 2-division polynomial
+    // 4x³ − 4x² − 40x − 79 with no rational root (rational root test:
+    // ±1, ±79 over 1, 2, 4; common practice), so no point of order 2.
     let e = Curve::from_ints([0, -1, 1, -10, -20]).unwrap();
     assert_eq!(
         Family::quadratic_twists(&e, 1, 10),

@@ -15,7 +15,7 @@
 //!
 //! # Text form
 //! [`Display`](std::fmt::Display) writes a curve as its equation, zero
-//! terms dropped and signs folded (`y^2 + xy + y = x^3 - x^2 - 10x - 20`;
+//! terms dropped and signs folded (`y^2 + xy + 3y = x^3 - 2x^2 + 5x - 7`;
 //! see [`super::equation`]). [`FromStr`] reads that equation (with `^` or
 //! `**`, any spacing, rational coefficients) and, as an alternative, the
 //! five coefficients a1 a2 a3 a4 a6 in that order, each an integer or a
