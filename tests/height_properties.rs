@@ -9,12 +9,11 @@ use num_bigint::BigInt;
 use proptest::prelude::*;
 use std::sync::OnceLock;
 
-/// Curves with independent points (generators where known). Rank and
-/// points of y² + y = x³ − x (37a), y² + y = x³ + x² − 2x (389a),
-/// y² + y = x³ − 7x + 6 : Cremona, *Algorithms for Modular
-/// Elliptic Curves*, Table 1 (from memory). The others are checked here by
-/// `contains` (the points are on the curves) — independence is not
-/// needed for the identities below.
+/// Curves with points on them (checked here by `contains`): among them
+/// y² + y = x³ − x, y² + y = x³ + x² − 2x and y² + y = x³ − 7x + 6 with
+/// the points whose regulator `tests/data/curve_values.txt` computes
+/// (non-zero, so they are independent). Independence is not needed for
+/// the identities below.
 /// Coefficients `[a1, a2, a3, a4, a6]` and integral points.
 type CurveWithPoints = ([i64; 5], &'static [(i64, i64)]);
 

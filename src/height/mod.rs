@@ -449,11 +449,15 @@ pub fn determinant(m: &[Vec<Certified>]) -> Certified {
 /// ```
 /// use isodescent::curve::{Curve, Point};
 /// use isodescent::height::canonical_height;
-/// // y² + y = x³ − x, P = (0, 0): ĥ(P) ≈ 0.0511114082 (x-normalisation;
-/// // the regulator of this rank-one curve, from memory).
+/// // y² + y = x³ − x, P = (0, 0): ĥ(P) = 0.05111140823996884… in the
+/// // x-normalisation (computed independently with mpmath by
+/// // tests/data/gen_curve_values.py), and ĥ(2P) = 4ĥ(P).
 /// let e = Curve::from_ints([0, 0, 1, -1, 0]).unwrap();
-/// let h = canonical_height(&e, &Point::from_ints(0, 0)).unwrap();
-/// assert!((h.value - 0.0511114082).abs() < 1e-9 && h.error < 1e-12);
+/// let p = Point::from_ints(0, 0);
+/// let h = canonical_height(&e, &p).unwrap();
+/// assert!((h.value - 0.05111140823996884).abs() <= h.error + 1e-16 && h.error < 1e-12);
+/// let h2 = canonical_height(&e, &e.double(&p)).unwrap();
+/// assert!((h2.value - 4.0 * h.value).abs() <= h2.error + 4.0 * h.error);
 /// ```
 ///
 /// # Errors
