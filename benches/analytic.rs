@@ -6,8 +6,10 @@
 //! Run: `cargo bench --bench analytic`.
 
 use criterion::{black_box, criterion_group, criterion_main, Criterion};
-use isodescent::analytic::{an_list, analyse, sha_analytic, AnalyticOptions, ApTable};
-use isodescent::curve::{torsion_subgroup, Curve};
+use isodescent::analytic::{
+    analyse, dirichlet_coefficients, sha_analytic, AnalyticOptions, ApTable,
+};
+use isodescent::curve::{torsion, Curve};
 use isodescent::Budget;
 use num_bigint::BigInt;
 
@@ -40,14 +42,14 @@ fn bench_ap(c: &mut Criterion) {
     ] {
         let e = Curve::from_ints(a).unwrap_or_else(|_| unreachable!());
         let local = e
-            .local_data(&mut Budget::unlimited())
+            .tate_data(&mut Budget::unlimited())
             .unwrap_or_else(|_| unreachable!());
         let table = ApTable::new(&local);
         g.bench_function(format!("a_p for all p below 10^6 ({name})"), |b| {
             b.iter(|| {
                 let mut s = 0i64;
                 for &p in &ps {
-                    s += table.ap(p).unwrap_or(0);
+                    s += table.frobenius_trace(p).unwrap_or(0);
                 }
                 black_box(s)
             })
@@ -68,9 +70,9 @@ fn bench_analyse(c: &mut Criterion) {
     for (name, a) in curves {
         let e = Curve::from_ints(a).unwrap_or_else(|_| unreachable!());
         let local = e
-            .local_data(&mut Budget::unlimited())
+            .tate_data(&mut Budget::unlimited())
             .unwrap_or_else(|_| unreachable!());
-        let tors = torsion_subgroup(&e).order();
+        let tors = torsion(&e).order();
         let cp: BigInt = local
             .primes
             .iter()
@@ -110,12 +112,12 @@ fn bench_an_list(c: &mut Criterion) {
     ] {
         let e = Curve::from_ints(a).unwrap_or_else(|_| unreachable!());
         let local = e
-            .local_data(&mut Budget::unlimited())
+            .tate_data(&mut Budget::unlimited())
             .unwrap_or_else(|_| unreachable!());
         g.bench_function(format!("a_n for n <= 30000 ({name})"), |b| {
             b.iter(|| {
                 black_box(
-                    an_list(&local, 30_000, &mut Budget::unlimited())
+                    dirichlet_coefficients(&local, 30_000, &mut Budget::unlimited())
                         .unwrap_or_else(|_| unreachable!()),
                 )
             })

@@ -73,7 +73,7 @@ fn main() {
         } else {
             let t = Instant::now();
             let mut b = Budget::unlimited();
-            let r = analyse(&e, report.local_data(), &AnalyticOptions::default(), &mut b)
+            let r = analyse(&e, report.tate_data(), &AnalyticOptions::default(), &mut b)
                 .ok()
                 .and_then(|d| d.rank_proven())
                 .map(|(r, _)| r);

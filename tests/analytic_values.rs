@@ -5,7 +5,7 @@ use isodescent::analytic::{
     analyse, sha_analytic, AnalyticData, AnalyticOptions, Certified, RankTheorem, RootNumberRoute,
     Series, Skip,
 };
-use isodescent::curve::{torsion_subgroup, Curve, Point};
+use isodescent::curve::{torsion, Curve, Point};
 use isodescent::{Budget, Error};
 use num_bigint::BigInt;
 use num_rational::BigRational;
@@ -16,7 +16,7 @@ mod values;
 fn run(a: [i64; 5]) -> AnalyticData {
     let e = Curve::from_ints(a).unwrap();
     let mut b = Budget::unlimited();
-    let local = e.local_data(&mut b).unwrap();
+    let local = e.tate_data(&mut b).unwrap();
     analyse(&e, &local, &AnalyticOptions::default(), &mut b).unwrap()
 }
 
@@ -41,7 +41,7 @@ fn check_against_reference(tag: &str, d: &AnalyticData, order: usize, slack: f64
     let w = values::integer("root_number", &[tag]);
     assert_eq!(d.root_number().map(i64::from), Some(w), "{tag}");
     assert_eq!(
-        d.real_components().map(i64::from),
+        d.real_component_count().map(i64::from),
         Some(values::integer("components", &[tag])),
         "{tag}"
     );
@@ -118,9 +118,9 @@ fn lemniscate_period_of_y2_x3_minus_x() {
     assert_eq!(d.rank_proven(), Some((0, RankTheorem::CoatesWiles)));
     // Ledger: |tors| = 4, c_2 = 2 (Tate's algorithm), Sha_an = 1.
     let e = Curve::from_ints([0, 0, 0, -1, 0]).unwrap();
-    let l = e.local_data(&mut Budget::unlimited()).unwrap();
+    let l = e.tate_data(&mut Budget::unlimited()).unwrap();
     let cp: BigInt = l.primes.iter().map(|p| BigInt::from(p.tamagawa)).product();
-    let s = sha_analytic(&d, 0, torsion_subgroup(&e).order(), &cp, None).unwrap();
+    let s = sha_analytic(&d, 0, torsion(&e).order(), &cp, None).unwrap();
     assert_eq!(s.nearest_square, Some(1));
     assert!(s.is_square_within_error && s.value.error() < 1e-12);
 }
@@ -130,8 +130,9 @@ fn a_wrong_conductor_or_root_number_fails_the_split_check() {
     // Λ(1) does not depend on the splitting parameter exactly when N and w
     // are right (the functional equation; Cremona, Algorithms, §2.11).
     let e = Curve::from_ints([0, -1, 1, -10, -20]).unwrap();
-    let l = e.local_data(&mut Budget::unlimited()).unwrap();
-    let an = isodescent::analytic::an_list(&l, 400, &mut Budget::unlimited()).unwrap();
+    let l = e.tate_data(&mut Budget::unlimited()).unwrap();
+    let an =
+        isodescent::analytic::dirichlet_coefficients(&l, 400, &mut Budget::unlimited()).unwrap();
     let mut b = Budget::unlimited();
     for (n, w, ok) in [
         (11u64, 1i8, true),
@@ -185,7 +186,7 @@ fn rank_one_ledgers_are_squares_with_the_stated_regulator_normalisation() {
         let e = Curve::from_ints(a).unwrap();
         let p = Point::from_ints(x, y);
         assert!(e.contains(&p));
-        let l = e.local_data(&mut Budget::unlimited()).unwrap();
+        let l = e.tate_data(&mut Budget::unlimited()).unwrap();
         let d = analyse(
             &e,
             &l,
@@ -197,14 +198,14 @@ fn rank_one_ledgers_are_squares_with_the_stated_regulator_normalisation() {
         let h = naive_canonical_height(&e, &p, 7);
         let reg = Certified::new(h, 2e-3 * h).unwrap();
         let cp: BigInt = l.primes.iter().map(|p| BigInt::from(p.tamagawa)).product();
-        let s = sha_analytic(&d, 1, torsion_subgroup(&e).order(), &cp, Some(reg)).unwrap();
+        let s = sha_analytic(&d, 1, torsion(&e).order(), &cp, Some(reg)).unwrap();
         assert_eq!(s.nearest_square, Some(1), "{a:?}: {}", s.value);
         assert!(s.is_square_within_error, "{a:?}: {}", s.value);
         // The other conventions are off by a factor 2.
         let twice = sha_analytic(
             &d,
             1,
-            torsion_subgroup(&e).order(),
+            torsion(&e).order(),
             &cp,
             Some(Certified::new(2.0 * h, 4e-3 * h).unwrap()),
         )
@@ -221,7 +222,7 @@ fn rank_one_ledgers_are_squares_with_the_stated_regulator_normalisation() {
 #[test]
 fn limits_and_budgets_give_no_value_rather_than_a_guess() {
     let e = Curve::from_ints([0, 0, 1, -7, 6]).unwrap();
-    let l = e.local_data(&mut Budget::unlimited()).unwrap();
+    let l = e.tate_data(&mut Budget::unlimited()).unwrap();
     // Conductor above the limit: skipped, nothing computed.
     let o = AnalyticOptions::default().with_conductor_limit(1000);
     let d = analyse(&e, &l, &o, &mut Budget::unlimited()).unwrap();

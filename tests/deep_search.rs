@@ -27,7 +27,7 @@ fn premise(e: &Curve, r: &DescentReport) {
     assert!(r.rank_upper() >= 1);
     let d = analyse(
         e,
-        r.local_data(),
+        r.tate_data(),
         &AnalyticOptions::default(),
         &mut Budget::unlimited(),
     )

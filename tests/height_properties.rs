@@ -2,7 +2,7 @@
 //! thousands of random points (multiples and sums of known points on
 //! curves with small coefficients).
 
-use isodescent::curve::{torsion_subgroup, Curve, Point};
+use isodescent::curve::{torsion, Curve, Point};
 use isodescent::height::{difference_bounds, naive_height, Certified, HeightContext};
 use isodescent::Budget;
 use num_bigint::BigInt;
@@ -47,7 +47,7 @@ fn data() -> &'static Vec<Data> {
                     assert!(curve.contains(p), "{a:?} {p}");
                 }
                 let ctx = HeightContext::new(&curve, &mut Budget::unlimited()).unwrap();
-                let torsion = torsion_subgroup(&curve).points().to_vec();
+                let torsion = torsion(&curve).points().to_vec();
                 Data {
                     curve,
                     ctx,

@@ -254,7 +254,7 @@ fn coarse_and_fine_enclosures_overlap() {
 /// 3R − P is a torsion point.
 #[test]
 fn a_descent_point_that_is_a_triple_is_divided() {
-    use isodescent::curve::torsion_subgroup;
+    use isodescent::curve::torsion;
     use isodescent::descent::{descend, DescentOptions};
     let e = Curve::from_ints([0, -5, 0, 13, 0]).unwrap();
     let report = descend(&e, &DescentOptions::default()).unwrap();
@@ -270,7 +270,7 @@ fn a_descent_point_that_is_a_triple_is_divided() {
     assert!(s.proven_saturated);
     assert_eq!(s.index_found, 3);
     let r = &s.generators[0];
-    let tors = torsion_subgroup(&e);
+    let tors = torsion(&e);
     let three_r = e.mul_i64(r, 3);
     assert!(
         tors.points().contains(&e.sub(&three_r, p)) || tors.points().contains(&e.add(&three_r, p)),

@@ -63,7 +63,12 @@ fn conductors_agree_with_the_functional_equation_and_ogg_s_formula() {
         let mut ogg = BigInt::one();
         for lr in &g.primes {
             let f = lr.disc_valuation + 1 - components(lr.kodaira);
-            assert_eq!(u64::from(lr.conductor_exponent), f, "{tag} at {:?}", lr.prime);
+            assert_eq!(
+                u64::from(lr.conductor_exponent),
+                f,
+                "{tag} at {:?}",
+                lr.prime
+            );
             ogg *= lr.prime.get().pow(lr.conductor_exponent);
         }
         assert_eq!(ogg, g.conductor, "{tag}");
@@ -94,7 +99,10 @@ fn y2_plus_y_equals_x3_minus_x2_minus_10x_minus_20_is_split_i5_at_11() {
     // (counted here; [Sil09, Exercise 3.5]); split I_n has c = n
     // [Sil94, IV.9, Table 4.1].
     let a = [0, -1, 1, -10, -20];
-    assert_eq!(integral_invariants(&ints(a)).discriminant, BigInt::from(-161051));
+    assert_eq!(
+        integral_invariants(&ints(a)).discriminant,
+        BigInt::from(-161051)
+    );
     assert_eq!(12 - count_points(a, 11), 1);
     let lr = local_reduction(&ints(a), &prime(11)).unwrap();
     assert_eq!(lr.kodaira, Kodaira::In(5));
@@ -114,7 +122,10 @@ fn multiplicative_primes_have_type_i_n_with_n_the_valuation_of_the_discriminant(
     let a = values::curve("own_a");
     assert_eq!(a, [1, 0, 1, -3, 2]);
     assert_eq!(values::integer("conductor", &["own_a"]), 794);
-    assert_eq!(integral_invariants(&ints(a)).discriminant, BigInt::from(-1588));
+    assert_eq!(
+        integral_invariants(&ints(a)).discriminant,
+        BigInt::from(-1588)
+    );
     for (p, n) in [(2u64, 2u64), (397, 1)] {
         let lr = local_reduction(&ints(a), &prime(p)).unwrap();
         assert_eq!(lr.kodaira, Kodaira::In(n), "at {p}");
@@ -287,11 +298,11 @@ fn the_curve_wrappers_give_the_same_data_as_the_coefficient_functions() {
     // y² = x³ − 16x: y² = x³ − x scaled by u = 1/2, whose conductor 32 is
     // in tests/data/curve_values.txt (the functional equation).
     let e = Curve::from_ints([0, 0, 0, -16, 0]).unwrap();
-    let g = e.local_data(&mut Budget::unlimited()).unwrap();
+    let g = e.tate_data(&mut Budget::unlimited()).unwrap();
     assert_eq!(g.conductor, BigInt::from(32));
-    let at2 = e.local_data_at(&prime(2)).unwrap();
+    let at2 = e.reduction_at(&prime(2)).unwrap();
     assert_eq!(at2, g.primes[0]);
-    let (m, ch) = e.global_minimal_model(&mut Budget::unlimited()).unwrap();
+    let (m, ch) = e.to_minimal(&mut Budget::unlimited()).unwrap();
     assert_eq!(m, Curve::from_ints([0, 0, 0, -1, 0]).unwrap());
     // The other layer's change of model agrees with ours.
     assert_eq!(ch.apply_to_curve(&e), m);

@@ -51,7 +51,7 @@ use num_bigint::BigInt;
 use num_traits::{One, ToPrimitive};
 
 pub use certified::Certified;
-pub use coefficients::{an_list, ap, ApTable};
+pub use coefficients::{dirichlet_coefficients, frobenius_trace, ApTable};
 pub use ledger::{sha_analytic, ShaLedger};
 pub use period::{real_period, RealPeriod};
 pub use root_number::{local_root_number, root_number_by_formula};
@@ -251,7 +251,7 @@ impl AnalyticData {
     }
 
     /// The number of connected components of `E(R)`.
-    pub fn real_components(&self) -> Option<u8> {
+    pub fn real_component_count(&self) -> Option<u8> {
         self.period.map(|p| p.components)
     }
 
@@ -346,7 +346,7 @@ fn root_number_by_theta(s: &Series<'_>, budget: &mut Budget) -> Result<Option<i8
 /// with certified bounds, the analytic rank bound and, where a theorem
 /// applies, the proven rank.
 ///
-/// `local` must be the curve's own local data ([`Curve::local_data`]).
+/// `local` must be the curve's own local data ([`Curve::tate_data`]).
 ///
 /// # Example
 /// ```
@@ -356,7 +356,7 @@ fn root_number_by_theta(s: &Series<'_>, budget: &mut Budget) -> Result<Option<i8
 ///
 /// let e: Curve = "0 0 1 -1 0".parse().unwrap(); // conductor 37
 /// let mut budget = Budget::unlimited();
-/// let local = e.local_data(&mut budget).unwrap();
+/// let local = e.tate_data(&mut budget).unwrap();
 /// let data = analyse(&e, &local, &AnalyticOptions::default(), &mut budget).unwrap();
 /// assert_eq!(data.root_number(), Some(-1));
 /// let d1 = data.l_value(1).unwrap(); // L'(E,1) = 0.3059997738…
@@ -429,7 +429,7 @@ pub fn analyse(
         (options.tolerance * 1e7).min(1e-6),
     );
     let m = m_l.max(m_t).min(options.max_terms);
-    let an = an_list(local, m, budget)?;
+    let an = dirichlet_coefficients(local, m, budget)?;
     data.terms_used = m;
     let s = Series::new(&an, n)?;
 

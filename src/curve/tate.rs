@@ -1355,9 +1355,9 @@ impl Curve {
     /// use isodescent::curve::Curve;
     /// use isodescent::Budget;
     /// let e = Curve::from_ints([0, 0, 1, -1, 0]).unwrap();
-    /// assert_eq!(e.local_data(&mut Budget::unlimited()).unwrap().conductor, 37.into());
+    /// assert_eq!(e.tate_data(&mut Budget::unlimited()).unwrap().conductor, 37.into());
     /// ```
-    pub fn local_data(&self, budget: &mut Budget) -> Result<GlobalLocalData> {
+    pub fn tate_data(&self, budget: &mut Budget) -> Result<GlobalLocalData> {
         global_local_data(self.coefficients(), budget)
     }
 
@@ -1366,7 +1366,7 @@ impl Curve {
     ///
     /// # Errors
     /// None in practice (a [`Curve`] is nonsingular).
-    pub fn local_data_at(&self, p: &Prime) -> Result<LocalReduction> {
+    pub fn reduction_at(&self, p: &Prime) -> Result<LocalReduction> {
         local_reduction_rational(self.coefficients(), p)
     }
 
@@ -1382,12 +1382,12 @@ impl Curve {
     /// use isodescent::curve::Curve;
     /// use isodescent::Budget;
     /// let e = Curve::from_ints([0, 0, 0, -16, 0]).unwrap();
-    /// let (m, ch) = e.global_minimal_model(&mut Budget::unlimited()).unwrap();
+    /// let (m, ch) = e.to_minimal(&mut Budget::unlimited()).unwrap();
     /// assert_eq!(m, Curve::from_ints([0, 0, 0, -1, 0]).unwrap());
     /// assert_eq!(ch.u().to_string(), "2");
     /// ```
-    pub fn global_minimal_model(&self, budget: &mut Budget) -> Result<(Curve, ModelChange)> {
-        let g = self.local_data(budget)?;
+    pub fn to_minimal(&self, budget: &mut Budget) -> Result<(Curve, ModelChange)> {
+        let g = self.tate_data(budget)?;
         let [u, r, s, t] = g.change;
         Ok((
             Curve::from_bigints(g.minimal_model)?,

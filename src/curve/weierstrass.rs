@@ -319,7 +319,7 @@ impl Curve {
     }
 
     /// True iff all five coefficients are integers.
-    pub fn is_integral(&self) -> bool {
+    pub fn has_integral_coefficients(&self) -> bool {
         self.integral
     }
 

@@ -132,7 +132,7 @@ impl DescentReport {
 
     /// Global minimal model, conductor and Tate's algorithm at every bad
     /// prime.
-    pub fn local_data(&self) -> &GlobalLocalData {
+    pub fn tate_data(&self) -> &GlobalLocalData {
         &self.local_data
     }
 

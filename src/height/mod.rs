@@ -148,7 +148,7 @@ impl HeightContext {
     /// invariants of the minimal model exceed the f64 range (about 10^70
     /// for the coefficients).
     pub fn new(curve: &Curve, budget: &mut Budget) -> Result<HeightContext> {
-        let data = curve.local_data(budget)?;
+        let data = curve.tate_data(budget)?;
         let [u, r, s, t] = data.change.clone();
         let to_min = ModelChange::new(u, r, s, t)?;
         let a: [BigInt; 5] = data.minimal_model.clone();
@@ -483,7 +483,7 @@ pub fn canonical_height_to(curve: &Curve, p: &Point, precision: f64) -> Result<C
 ///
 /// # Errors
 /// Those of [`HeightContext::new`] and [`HeightContext::pairing_matrix`].
-pub fn height_pairing_matrix(curve: &Curve, points: &[Point]) -> Result<Vec<Vec<Certified>>> {
+pub fn height_gram_matrix(curve: &Curve, points: &[Point]) -> Result<Vec<Vec<Certified>>> {
     for p in points {
         curve.check_point(p)?;
     }
@@ -494,9 +494,9 @@ pub fn height_pairing_matrix(curve: &Curve, points: &[Point]) -> Result<Vec<Vec<
 /// The regulator of `points`: `det(⟨Pᵢ, Pⱼ⟩)`.
 ///
 /// # Errors
-/// Those of [`height_pairing_matrix`].
+/// Those of [`height_gram_matrix`].
 pub fn regulator(curve: &Curve, points: &[Point]) -> Result<Certified> {
-    Ok(determinant(&height_pairing_matrix(curve, points)?))
+    Ok(determinant(&height_gram_matrix(curve, points)?))
 }
 
 /// The naive height `h(x(P)) = log max(|a|, |b|)` of a point on any model,

@@ -351,7 +351,7 @@ fn report_view<'a>(input: &'a str, r: &DescentReport, detail: Detail) -> LineVie
     let t = r.torsion();
     let (n1, n2) = t.structure();
     let cyclic_factors = if n2 <= 1 { vec![n1] } else { vec![n2, n1] };
-    let ld = r.local_data();
+    let ld = r.tate_data();
     let (status, stopped) = match r.completion() {
         Completion::Partial { step, reason } => (
             "partial",
@@ -473,7 +473,7 @@ fn analytic_view(a: &crate::analytic::AnalyticData) -> AnalyticView {
             RootNumberRoute::Formula => "local_formulas",
         }),
         real_period: a.real_period().map(|c| certified(c.value(), c.error())),
-        real_components: a.real_components(),
+        real_components: a.real_component_count(),
         l_values: a
             .l_values()
             .iter()

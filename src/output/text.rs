@@ -504,7 +504,7 @@ pub(crate) fn write_report(
         write_analytic(f, r, a)?;
     }
     writeln!(f)?;
-    let ld = r.local_data();
+    let ld = r.tate_data();
     let mm = ld.minimal_model.clone().map(BigRational::from_integer);
     writeln!(
         f,
@@ -554,8 +554,8 @@ fn write_analytic(f: &mut fmt::Formatter<'_>, r: &DescentReport, a: &AnalyticDat
     writeln!(
         f,
         "analytic side: root number w = {w}, Ω = {period} ({} real component{}), {} terms",
-        a.real_components().unwrap_or(0),
-        if a.real_components() == Some(1) {
+        a.real_component_count().unwrap_or(0),
+        if a.real_component_count() == Some(1) {
             ""
         } else {
             "s"
