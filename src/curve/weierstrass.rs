@@ -7,7 +7,7 @@
 //! b2 = a1² + 4a2,          b4 = 2a4 + a1a3,          b6 = a3² + 4a6,
 //! b8 = a1²a6 + 4a2a6 − a1a3a4 + a2a3² − a4²,
 //! c4 = b2² − 24·b4,         c6 = −b2³ + 36·b2·b4 − 216·b6,
-//! Δ  = −b2²b8 − 8b4³ − 27b6² + 9·b2·b4·b6,      j = c4³/Δ,
+//! Δ  = −b2²b8 − 8·b4³ − 27·b6² + 9·b2·b4·b6,      j = c4³/Δ,
 //! ```
 //!
 //! related by 4b8 = b2b6 − b4² and 1728Δ = c4³ − c6². The model is an
@@ -306,7 +306,7 @@ impl Curve {
     pub fn c6(&self) -> &BigRational {
         &self.c6
     }
-    /// Δ = −b2²b8 − 8b4³ − 27b6² + 9·b2·b4·b6 (nonzero).
+    /// Δ = −b2²b8 − 8·b4³ − 27·b6² + 9·b2·b4·b6 (nonzero).
     pub fn discriminant(&self) -> &BigRational {
         &self.disc
     }
