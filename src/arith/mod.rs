@@ -7,7 +7,11 @@
 //! * `factor`: trial division, Pollard–Brent rho, ECM, the
 //!   self-initialising quadratic sieve;
 //! * `roots`: integer and rational square roots, perfect squares;
-//! * `squarefree`: square-free parts and kernels.
+//! * `squarefree`: square-free parts and kernels;
+//! * `real_roots`: certified isolation of the real roots of integer
+//!   polynomials (Sturm sequences, bisection at dyadic points);
+//! * `decimal`: decimal strings of certified numbers whose printed
+//!   interval contains the certified one.
 
 pub(crate) mod decimal;
 pub(crate) mod dyadic;
