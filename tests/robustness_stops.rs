@@ -105,7 +105,7 @@ fn each_stopped_step_is_named() {
     let mut o = d.clone();
     o.time_limit = Some(Duration::ZERO);
     let r = assert_stopped_at(line, &o, "local data (Tate's algorithm)");
-    assert!(r.local_data().is_none());
+    assert!(r.tate_data().is_none());
     assert_eq!((r.rank_lower(), r.rank_upper()), (2, 2));
     let json = isodescent::output::report_line(line, &r, isodescent::Detail::Summary);
     let v: serde_json::Value = serde_json::from_str(&json).unwrap();

@@ -642,3 +642,29 @@ fn two_squares_point(
         radius *= 4u32;
     }
 }
+
+/// A point of `X² − dY² = ΔZ²` read off when `Δ`, `−Δ/d` or `d + Δ` is a
+/// square (`(√Δ, 0, 1)`, `(0, s, 1)`, `(s, 1, 1)`); spares the general
+/// solver the easy cases, which include every class on the side of a
+/// curve with E[2] rational (`Δ` a square).
+pub(crate) fn obvious_conic_point(d: &BigInt, delta: &BigInt) -> Option<[BigInt; 3]> {
+    let root = |n: &BigInt| -> Option<BigInt> {
+        if n.is_negative() {
+            return None;
+        }
+        let r = n.sqrt();
+        (&r * &r == *n).then_some(r)
+    };
+    if let Some(r) = root(delta) {
+        return Some([r, BigInt::zero(), BigInt::one()]);
+    }
+    if (-delta).is_multiple_of(d) {
+        if let Some(s) = root(&(-delta / d)) {
+            return Some([BigInt::zero(), s, BigInt::one()]);
+        }
+    }
+    if let Some(s) = root(&(d + delta)) {
+        return Some([s, BigInt::one(), BigInt::one()]);
+    }
+    None
+}

@@ -51,13 +51,13 @@ use crate::budget::Budget;
 use crate::curve::{Curve, Point};
 use crate::error::{Error, Result};
 use crate::quartic::search::{search, SearchOptions, SearchOutcome, MAX_HEIGHT};
-use crate::quartic::second_descent::{
+use crate::quartic::Quartic;
+use crate::second::covering::{
     second_descent, second_descent_on_twists, SecondDescentOptions, SecondDescentOutcome,
 };
-use crate::quartic::Quartic;
+use crate::second::pairing::{class_lift, soluble_twists};
 use crate::selmer::f2::{BitVec, Subspace};
 use crate::selmer::group::LocalCondition;
-use crate::selmer::pairing::{class_lift, soluble_twists};
 
 /// Knobs of [`search_missing_points`].
 #[derive(Clone, Debug, PartialEq, Eq)]
@@ -327,12 +327,11 @@ fn search_coverings(
     options: &DeepSearchOptions,
     budget: &mut Budget,
 ) -> Result<Option<Point>> {
-    let (a, b) = (&hunt.side.a(), &hunt.side.b());
     let mut sd = SecondDescentOptions::default().with_search_height(h);
     sd.search_units = sd.search_units.max(search_cost(h));
     sd.max_twists = options.max_twists;
     let outcome = if hunt.side.pairing.is_some() {
-        let lift = class_lift(a, b, d, &hunt.side.qs2, budget)?;
+        let lift = class_lift(&hunt.side.model, d, &hunt.side.qs2, budget)?;
         let twists = soluble_twists(
             &lift,
             &hunt.side.qs2,

@@ -1,4 +1,4 @@
-//! Layer 7: the descent end to end — exact-sequence bookkeeping, rank
+//! Layer 8: the descent end to end — exact-sequence bookkeeping, rank
 //! bounds, points on the input model, and reports.
 //!
 //! [`descend`] takes any Weierstrass model over Q with a rational point of
@@ -12,7 +12,7 @@
 //!    spending budget, is not factored again (`KnownPrimes`);
 //! 3. computes both Selmer groups from local images at R, 2 and every bad
 //!    prime (`isogeny_side::compute_side`) and searches their homogeneous spaces;
-//! 4. combines both sides by the exact sequence (`bounds`).
+//! 4. combines both sides by the exact sequence (`exact_sequence`).
 //!
 //! With three rational 2-torsion points it does this for each of the three
 //! isogenies and reports the sharpest bounds: max of the lower bounds, min
@@ -29,8 +29,10 @@
 //! lower bound k + k' − 2. Independence is certified by the F2 images, not
 //! by heights.
 
-pub(crate) mod bounds;
+#[cfg(test)]
+mod checks;
 pub(crate) mod deep_search;
+pub(crate) mod exact_sequence;
 pub(crate) mod global;
 pub(crate) mod isogeny_side;
 pub(crate) mod options;
@@ -55,7 +57,7 @@ pub use verify::{verify_report, Verification};
 use crate::arith::factor;
 use crate::curve::tate::global_local_data_with;
 use crate::curve::{
-    torsion_subgroup, two_torsion_model_with_budget, two_torsion_points_with_budget, Curve, Point,
+    torsion, two_torsion_model_with_budget, two_torsion_points_with_budget, Curve, Point,
     TorsionGroup, TwoIsogeny, TwoTorsionModel,
 };
 use crate::error::{Error, Result};
@@ -137,13 +139,13 @@ impl IsogenyDescent {
 
     /// dim_F2 Sel²(E/Q) of the reduced model E (isomorphic to the input
     /// curve), torsion included, from the exact sequence of
-    /// `bounds::selmer2_dimension`: dim Sel^φ(E) (this descent's E'
+    /// `exact_sequence::selmer2_dimension`: dim Sel^φ(E) (this descent's E'
     /// side) − t + dim I (the liftable subgroup on E's side). `None` when
     /// the pairing on E's side was not computed (budget).
     pub fn selmer2_rank(&self) -> Option<usize> {
         let liftable = self.domain.liftable_dim()?;
         let full = is_square(&self.model.reduced().quadratic_discriminant());
-        Some(bounds::selmer2_dimension(
+        Some(exact_sequence::selmer2_dimension(
             self.codomain.dimension(),
             liftable,
             full,
@@ -157,10 +159,10 @@ impl IsogenyDescent {
     ///   [Sil86, X.4]; E and E' are isogenous, so have the same rank), and
     /// * dim I + dim I' − 2, I and I' the liftable subgroups of both sides,
     ///   which contain the images α(E(Q)) and α'(E'(Q)) (the exact sequence
-    ///   of `bounds`).
+    ///   of `exact_sequence`).
     ///
     /// Here `selmer2_rank` counts the torsion (see
-    /// `bounds::selmer2_dimension`), and dim E(Q)\[2\] is 2 when
+    /// `exact_sequence::selmer2_dimension`), and dim E(Q)\[2\] is 2 when
     /// a² − 4b is a square, else 1 (for E', 2 when b is a square). `None`
     /// when neither pairing was computed.
     pub(crate) fn selmer_rank_bound(&self) -> Option<usize> {
@@ -187,7 +189,7 @@ impl IsogenyDescent {
     pub fn selmer2_rank_codomain(&self) -> Option<usize> {
         let liftable = self.codomain.liftable_dim()?;
         let full = is_square(self.model.b());
-        Some(bounds::selmer2_dimension(
+        Some(exact_sequence::selmer2_dimension(
             self.domain.dimension(),
             liftable,
             full,
@@ -283,7 +285,7 @@ pub fn descend_isogeny(
     options: &DescentOptions,
 ) -> Result<IsogenyDescent> {
     let ctx = DescentContext::new(options, Instant::now());
-    let torsion = torsion_subgroup(curve);
+    let torsion = torsion(curve);
     descend_isogeny_with_torsion(curve, t, &torsion, &ctx, None, &mut KnownPrimes::default())
 }
 
@@ -314,7 +316,7 @@ fn descend_isogeny_with_torsion(
         .iter()
         .map(|p| model.from_input(p))
         .collect();
-    let torsion_e2 = torsion_subgroup(isogeny.codomain()).points().to_vec();
+    let torsion_e2 = crate::curve::torsion(isogeny.codomain()).points().to_vec();
 
     let domain = isogeny_side::compute_side(model.reduced(), &primes, &torsion_e, ctx)?;
     let codomain = isogeny_side::compute_side(isogeny.codomain_model(), &primes, &torsion_e2, ctx)?;
@@ -326,7 +328,7 @@ fn descend_isogeny_with_torsion(
             ),
         });
     }
-    let (rank_lower, rank_upper) = bounds::rank_bounds(
+    let (rank_lower, rank_upper) = exact_sequence::rank_bounds(
         (domain.image_lower(), codomain.image_lower()),
         (domain.image_upper, codomain.image_upper),
     );
@@ -367,7 +369,7 @@ pub fn descend(curve: &Curve, options: &DescentOptions) -> Result<DescentReport>
     if ts.is_empty() {
         return Err(Error::NoTwoTorsion);
     }
-    let torsion = torsion_subgroup(curve);
+    let torsion = torsion(curve);
     // Primes shared by the numbers factored below (the discriminant, b and
     // a² − 4b of each reduced model): each is factored at most once, and
     // only where factoring would have been free is a number's list read

@@ -1,4 +1,4 @@
-//! Layer 8: the edge where reports become text and JSON, and where input
+//! Layer 9: the edge where reports become text and JSON, and where input
 //! lines become curves. Nothing below this layer writes or reads text
 //! other than a curve's equation.
 //!
