@@ -215,7 +215,7 @@ fn exact_multiples_are_budgeted() {
     assert_eq!(small, sum);
     let c = ctx
         .combination_with_budget(
-            &[p.clone()],
+            std::slice::from_ref(&p),
             &[BigInt::from(5)],
             &mut Budget::with_units(10),
         )
@@ -238,5 +238,11 @@ fn a_long_input_line_is_echoed_cut_with_its_length() {
     let v: serde_json::Value =
         serde_json::from_str(&json_for_line(ok, &DescentOptions::default())).unwrap();
     assert_eq!(v["input"], ok);
-    assert!(MAX_ECHOED_INPUT_BYTES >= 5 * (2 * isodescent::curve::MAX_COEFFICIENT_DIGITS + 2));
+    // The longest line the parser accepts (padded with spaces) is echoed
+    // whole too.
+    let longest = format!("{ok:<width$}", width = MAX_ECHOED_INPUT_BYTES);
+    let v: serde_json::Value =
+        serde_json::from_str(&json_for_line(&longest, &DescentOptions::default())).unwrap();
+    assert!(v["error"].is_null(), "{}", v["error"]);
+    assert_eq!(v["input"].as_str().unwrap().len(), MAX_ECHOED_INPUT_BYTES);
 }
