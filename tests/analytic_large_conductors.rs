@@ -108,3 +108,29 @@ fn curves_with_n_near_10_to_the_5_are_decided_by_default() {
     assert_eq!(d.skipped(), Some(Skip::ConductorAboveLimit));
     assert!(options.conductor_limit_for(false) < options.conductor_limit_for(true));
 }
+
+#[test]
+fn l_prime_agrees_with_an_independent_mpmath_sum() {
+    // tests/data/congruent_lprime.txt: L'(E_n, 1) from the script
+    // gen_congruent_lprime.py beside it (own point counts, mpmath 1.3.0 at
+    // 40 digits, 25 digits printed). Both routes must enclose it.
+    let data = include_str!("data/congruent_lprime.txt");
+    let mut seen = 0;
+    for line in data.lines() {
+        let mut it = line.split_whitespace();
+        let n: i64 = it.next().unwrap().parse().unwrap();
+        let v: f64 = it.next().unwrap().parse().unwrap();
+        for above in [0, u64::MAX] {
+            let d = congruent(n, &AnalyticOptions::default().with_streamed_above(above));
+            let l = d.l_value(1).unwrap();
+            // 4·10⁻¹⁶·|v| covers the rounding of the printed value to binary64.
+            assert!(
+                (l.value() - v).abs() <= l.error() + 4e-16 * v.abs(),
+                "n = {n}: {l} vs {v}"
+            );
+            assert!(l.error() < 1e-11);
+        }
+        seen += 1;
+    }
+    assert_eq!(seen, 2);
+}
