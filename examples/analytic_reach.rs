@@ -57,7 +57,7 @@ fn run(n: u64, options: &AnalyticOptions) -> Row {
     let n_i = n as i64;
     let e = Curve::from_ints([0, 0, 0, -n_i * n_i, 0]).expect("n > 0");
     let mut budget = Budget::unlimited();
-    let local = e.local_data(&mut budget).expect("local data");
+    let local = e.tate_data(&mut budget).expect("local data");
     let cpu0 = thread_cpu_ns();
     let t0 = Instant::now();
     let d = analyse(&e, &local, options, &mut budget).expect("analyse");
@@ -189,7 +189,7 @@ fn main() {
                     let e = Curve::from_ints([0, 0, 0, -1296 * d * d, 11664 * d * d * d])
                         .expect("curve");
                     let mut budget = Budget::unlimited();
-                    let local = e.local_data(&mut budget).expect("local data");
+                    let local = e.tate_data(&mut budget).expect("local data");
                     let cpu0 = thread_cpu_ns().unwrap_or(0);
                     let r = analyse(&e, &local, &options, &mut budget).expect("analyse");
                     let cpu = (thread_cpu_ns().unwrap_or(0) - cpu0) as f64 * 1e-9;
@@ -248,7 +248,7 @@ fn main() {
             let n: i64 = args.get(1).and_then(|s| s.parse().ok()).unwrap_or(1);
             let e = Curve::from_ints([0, 0, 0, -n * n, 0]).expect("n > 0");
             let mut budget = Budget::unlimited();
-            let local = e.local_data(&mut budget).expect("local data");
+            let local = e.tate_data(&mut budget).expect("local data");
             for above in [u64::MAX, 0] {
                 let o = options.clone().with_streamed_above(above);
                 let cpu0 = thread_cpu_ns().unwrap_or(0);

@@ -50,19 +50,22 @@ pub mod height;
 // Layer 4: rational conics — Legendre's equation, parametrisation.
 pub mod conic;
 
-// Layer 5: quartic homogeneous spaces — local solvability, point search, 4-coverings.
+// Layer 5: quartic homogeneous spaces — local solvability, local images, point search.
 pub mod quartic;
 
 // Layer 6: F2 vector spaces, Q(S,2), Selmer groups, local-image counts.
 pub mod selmer;
 
-// Layer 7: the descent — both sides of each 2-isogeny, rank bounds, reports.
+// Layer 7: the second descent — 4-coverings, the lifting pairing, twist obstructions.
+pub mod second;
+
+// Layer 8: the descent — both sides of each 2-isogeny, rank bounds, reports.
 pub mod descent;
 
-// Layer 8: the edge — reports as text and JSON, input lines as curves.
+// Layer 9: the edge — reports as text and JSON, input lines as curves.
 pub mod output;
 
-// Layer 9: families of curves — twists, congruent numbers, boxes; streaming, parallel, sharded scans.
+// Layer 10: families of curves — twists, congruent numbers, boxes; streaming, parallel, sharded scans.
 pub mod family;
 
 pub use budget::Budget;

@@ -14,7 +14,7 @@ use isodescent::Budget;
 fn congruent(n: i64, options: &AnalyticOptions) -> AnalyticData {
     let e = Curve::from_ints([0, 0, 0, -n * n, 0]).unwrap();
     let mut b = Budget::unlimited();
-    let l = e.local_data(&mut b).unwrap();
+    let l = e.tate_data(&mut b).unwrap();
     analyse(&e, &l, options, &mut b).unwrap()
 }
 
@@ -46,7 +46,7 @@ fn both_routes_agree_within_their_bounds() {
     // a_p prime by prime: y² + y = x³ − x (conductor 37).
     let e = Curve::from_ints([0, 0, 1, -1, 0]).unwrap();
     let mut b = Budget::unlimited();
-    let l = e.local_data(&mut b).unwrap();
+    let l = e.tate_data(&mut b).unwrap();
     let x = analyse(&e, &l, &stored, &mut b).unwrap();
     let y = analyse(&e, &l, &streamed, &mut b).unwrap();
     assert_eq!(y.series_route(), Some(SeriesRoute::Streamed));

@@ -29,11 +29,12 @@
 //! * `w = +1` and `L(E,1) ≠ 0` (certified) imply rank 0, and `w = −1` and
 //!   `L'(E,1) ≠ 0` imply rank 1 (Gross–Zagier 1986 and Kolyvagin 1990; for
 //!   rank 0 and CM curves also Coates–Wiles 1977) — see [`RankTheorem`];
-//! * [`AnalyticData::analytic_rank`] is the smallest `r ≤ 3` of the
-//!   parity of `w` with `L^{(r)}(E,1)` certified non-zero. For 0 and 1 it
-//!   is the order of vanishing; for 2 and 3 it is only an upper bound for
-//!   the order of vanishing (the lower derivatives of that parity are
-//!   small but not proven to vanish).
+//! * [`AnalyticData::analytic_order`] comes from the smallest `r ≤ 3` of
+//!   the parity of `w` with `L^{(r)}(E,1)` certified non-zero. For 0 and 1
+//!   it is the order of vanishing ([`AnalyticOrder::Exact`], also given by
+//!   [`AnalyticData::analytic_rank`]); for 2 and 3 it is only an upper
+//!   bound ([`AnalyticOrder::AtMost`]: the lower derivatives of that
+//!   parity are small but not proven to vanish).
 //!
 //! The default options skip curves with conductor above
 //! [`DEFAULT_CONDUCTOR_LIMIT`]; see `docs/analytic.md`.
@@ -52,7 +53,7 @@ use num_bigint::BigInt;
 use num_traits::{One, ToPrimitive};
 
 pub use certified::Certified;
-pub use coefficients::{an_list, ap, ApTable};
+pub use coefficients::{dirichlet_coefficients, frobenius_trace, ApTable};
 pub use ledger::{sha_analytic, ShaLedger};
 pub use period::{real_period, RealPeriod};
 pub use root_number::{local_root_number, root_number_by_formula};
@@ -263,6 +264,34 @@ pub struct SplitCheck {
     pub passed: bool,
 }
 
+/// The order of vanishing of `L(E, s)` at `s = 1`, as far as it is proven.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash)]
+#[non_exhaustive]
+pub enum AnalyticOrder {
+    /// Proven: `L^{(r)}(E,1)` is certified non-zero and the lower
+    /// derivatives vanish (`r ≤ 1`; for `r = 1` the functional equation
+    /// with `w = −1` gives `L(E,1) = 0`).
+    Exact(usize),
+    /// `L^{(r)}(E,1)` is certified non-zero, so the order is at most `r`
+    /// (and of the parity of `w`); the lower derivatives of that parity
+    /// are small but not proven to vanish.
+    AtMost(usize),
+}
+
+impl AnalyticOrder {
+    /// The order, or its upper bound.
+    pub fn order(self) -> usize {
+        match self {
+            AnalyticOrder::Exact(r) | AnalyticOrder::AtMost(r) => r,
+        }
+    }
+
+    /// True when the order is proven exactly.
+    pub fn is_exact(self) -> bool {
+        matches!(self, AnalyticOrder::Exact(_))
+    }
+}
+
 /// Everything [`analyse`] finds.
 #[derive(Debug, Clone, PartialEq)]
 pub struct AnalyticData {
@@ -273,7 +302,7 @@ pub struct AnalyticData {
     by_test: Option<i8>,
     period: Option<RealPeriod>,
     l_values: Vec<(usize, Certified)>,
-    analytic_rank: Option<usize>,
+    analytic_order: Option<AnalyticOrder>,
     rank_proven: Option<(usize, RankTheorem)>,
     terms_used: u64,
     series_route: Option<SeriesRoute>,
@@ -321,7 +350,7 @@ impl AnalyticData {
     }
 
     /// The number of connected components of `E(R)`.
-    pub fn real_components(&self) -> Option<u8> {
+    pub fn real_component_count(&self) -> Option<u8> {
         self.period.map(|p| p.components)
     }
 
@@ -336,10 +365,21 @@ impl AnalyticData {
         self.l_values.iter().find(|(k, _)| *k == r).map(|(_, v)| *v)
     }
 
-    /// The smallest `r ≤ 3` of the parity of `w` with `L^{(r)}(E,1)`
-    /// certified non-zero (see the module docs for its meaning above 1).
+    /// The order of vanishing at `s = 1` when it is proven exactly (0 or
+    /// 1); `None` otherwise, in particular when only an upper bound is
+    /// known (see [`AnalyticData::analytic_order`]).
     pub fn analytic_rank(&self) -> Option<usize> {
-        self.analytic_rank
+        match self.analytic_order {
+            Some(AnalyticOrder::Exact(r)) => Some(r),
+            _ => None,
+        }
+    }
+
+    /// The order of vanishing at `s = 1`: exact, or an upper bound, from
+    /// the smallest `r ≤ 3` of the parity of `w` with `L^{(r)}(E,1)`
+    /// certified non-zero; `None` when no such `r` was found.
+    pub fn analytic_order(&self) -> Option<AnalyticOrder> {
+        self.analytic_order
     }
 
     /// The rank, when a theorem settles it, with the theorem.
@@ -431,7 +471,7 @@ fn root_number_by_theta(
 /// with certified bounds, the analytic rank bound and, where a theorem
 /// applies, the proven rank.
 ///
-/// `local` must be the curve's own local data ([`Curve::local_data`]).
+/// `local` must be the curve's own local data ([`Curve::tate_data`]).
 ///
 /// # Example
 /// ```
@@ -441,7 +481,7 @@ fn root_number_by_theta(
 ///
 /// let e: Curve = "0 0 1 -1 0".parse().unwrap(); // conductor 37
 /// let mut budget = Budget::unlimited();
-/// let local = e.local_data(&mut budget).unwrap();
+/// let local = e.tate_data(&mut budget).unwrap();
 /// let data = analyse(&e, &local, &AnalyticOptions::default(), &mut budget).unwrap();
 /// assert_eq!(data.root_number(), Some(-1));
 /// let d1 = data.l_value(1).unwrap(); // L'(E,1) = 0.3059997738…
@@ -478,7 +518,7 @@ pub fn analyse(
         by_test: None,
         period: real_period(&local.minimal_model),
         l_values: Vec::new(),
-        analytic_rank: None,
+        analytic_order: None,
         rank_proven: None,
         terms_used: 0,
         series_route: None,
@@ -520,7 +560,7 @@ pub fn analyse(
     if n > options.streamed_above {
         return analyse_streamed(curve, local, data, n, m, twist, budget);
     }
-    let an = an_list(local, m, budget)?;
+    let an = dirichlet_coefficients(local, m, budget)?;
     data.terms_used = m;
     data.series_route = Some(SeriesRoute::Stored);
     let s = Series::new(&an, n)?;
@@ -613,7 +653,7 @@ fn finish(
     let v = series::l_derivative(first, &h, &lambda);
     data.l_values.push((first, v));
     if !v.may_be_zero() {
-        data.analytic_rank = Some(first);
+        data.analytic_order = Some(AnalyticOrder::Exact(first));
         let theorem = if first == 0 && has_cm_by_maximal_order(curve) {
             RankTheorem::CoatesWiles
         } else {
@@ -630,7 +670,7 @@ fn finish(
     let v2 = series::l_derivative(second, &h, &lambda);
     data.l_values.push((second, v2));
     if !v2.may_be_zero() {
-        data.analytic_rank = Some(second);
+        data.analytic_order = Some(AnalyticOrder::AtMost(second));
     }
     Ok(data)
 }

@@ -65,7 +65,7 @@ impl<'a> Series<'a> {
     /// `an[n]` for `1 ≤ n < an.len()` (index 0 ignored) and the conductor.
     ///
     /// The truncation bounds assume `|a_n| ≤ d(n)√n`, true for the
-    /// coefficients of an elliptic curve ([`super::an_list`]); for other
+    /// coefficients of an elliptic curve ([`super::dirichlet_coefficients`]); for other
     /// sequences the bounds are not proven.
     ///
     /// # Errors

@@ -242,7 +242,7 @@ pub(crate) fn coefficients(
 }
 
 /// `a_p` by the per-prime route of `coefficients` (closed forms, counts,
-/// baby-step giant-step), charged like `an_list`.
+/// baby-step giant-step), charged like `dirichlet_coefficients`.
 fn per_prime(table: &ApTable, p: u64, budget: &mut Budget) -> Result<i64> {
     let cost = if p < 230 {
         p
@@ -582,7 +582,7 @@ mod coefficient_tests {
 
     fn local_of(a: [i64; 5]) -> GlobalLocalData {
         let e = Curve::from_ints(a).expect("curve");
-        e.local_data(&mut Budget::unlimited()).expect("local data")
+        e.tate_data(&mut Budget::unlimited()).expect("local data")
     }
 
     /// `a_p = p + 1 − #E(F_p)` for `y² = x³ + Ax` by counting: for each `x`
@@ -625,7 +625,7 @@ mod coefficient_tests {
 
     #[test]
     fn sieved_coefficients_equal_the_stored_route() {
-        // a_n for all n ≤ 30000 against `an_list` (the per-prime route with
+        // a_n for all n ≤ 30000 against `dirichlet_coefficients` (the per-prime route with
         // the Hecke recursion), on twists and on curves without CM.
         for a in [
             [0, 0, 0, -1, 0],
@@ -639,7 +639,8 @@ mod coefficient_tests {
             let twist = twist_of_x3_minus_x(&local);
             let m = 30_000;
             let streamed = coefficients(&local, m, twist, &mut Budget::unlimited()).unwrap();
-            let stored = super::super::an_list(&local, m, &mut Budget::unlimited()).unwrap();
+            let stored =
+                super::super::dirichlet_coefficients(&local, m, &mut Budget::unlimited()).unwrap();
             assert_eq!(streamed.len(), stored.len());
             for (k, (x, y)) in streamed.iter().zip(&stored).enumerate() {
                 assert_eq!(i64::from(*x), *y, "{a:?}: a_{k}");

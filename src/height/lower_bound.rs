@@ -442,7 +442,7 @@ mod tests {
     use super::*;
     use crate::budget::Budget;
     use crate::curve::{Curve, Point};
-    use crate::height::bounds::height_lower_bound;
+    use crate::height::naive_vs_canonical::height_lower_bound;
     use crate::height::DEFAULT_PRECISION;
     use num_bigint::BigInt;
 
@@ -450,19 +450,23 @@ mod tests {
         HeightContext::new(&Curve::from_ints(a).unwrap(), &mut Budget::unlimited()).unwrap()
     }
 
-    /// The least real period: y² = x³ − x gives the lemniscate constant
-    /// 2.62205755429211981…; 37a1 (y² + y = x³ − x) gives
-    /// 2.99345864623195962… (half of its Ω_E = 5.98691729246392, two real
-    /// components); 11a1 (y² + y = x³ − x² − 10x − 20) gives
-    /// 1.26920930427955 (Cremona's tables; values from memory). The upper
-    /// bound must lie above and within 1e-9 relative.
+    /// The least real periods of y² = x³ − x, y² + y = x³ − x and
+    /// y² + y = x³ − x² − 10x − 20 (Δ < 0), computed independently by the
+    /// AGM and checked by quadrature in `tests/data/gen_curve_values.py`
+    /// (mpmath). The upper bound must lie above and within 1e-9 relative.
     #[test]
     fn period_bound_encloses_known_periods() {
-        for (a, omega) in [
-            ([0, 0, 0, -1, 0], 2.622_057_554_292_12),
-            ([0, 0, 1, -1, 0], 2.993_458_646_231_96),
-            ([0, -1, 1, -10, -20], 1.269_209_304_279_55),
-        ] {
+        let text = include_str!("../../tests/data/curve_values.txt");
+        let find = |kind: &str, tag: &str| -> Vec<&str> {
+            text.lines()
+                .map(|l| l.split_whitespace().collect::<Vec<_>>())
+                .find(|f| f.len() > 2 && f[0] == kind && f[1] == tag)
+                .unwrap()
+        };
+        for tag in ["lemniscatic", "rank1_small_conductor", "five_torsion"] {
+            let f = find("curve", tag);
+            let a: [i64; 5] = std::array::from_fn(|i| f[2 + i].parse().unwrap());
+            let omega: f64 = find("least_period", tag)[2].parse().unwrap();
             let c = ctx(a);
             let rc = real_component(c.b_invariants(), c.discriminant().is_positive()).unwrap();
             assert!(

@@ -17,7 +17,7 @@ use crate::local::class_representatives;
 use crate::quartic::search::SearchOutcome;
 
 /// The schema version written in every line as `format_version`.
-pub const FORMAT_VERSION: u32 = 2;
+pub const FORMAT_VERSION: u32 = 3;
 
 #[derive(Serialize)]
 struct PointView {
@@ -34,6 +34,33 @@ fn point_view(p: &Point) -> Option<PointView> {
 
 fn points_view(ps: &[Point]) -> Vec<PointView> {
     ps.iter().filter_map(point_view).collect()
+}
+
+/// A returned point with its canonical height (when computed).
+#[derive(Serialize)]
+struct HeightPointView {
+    x: String,
+    y: String,
+    height: Option<String>,
+}
+
+fn height_points_view(ps: &[Point], heights: &[crate::height::Certified]) -> Vec<HeightPointView> {
+    ps.iter()
+        .enumerate()
+        .filter_map(|(i, p)| {
+            Some(HeightPointView {
+                x: rational_text(p.x()?),
+                y: rational_text(p.y()?),
+                height: heights.get(i).map(|h| decimal(h.value, h.error)),
+            })
+        })
+        .collect()
+}
+
+#[derive(Serialize)]
+struct OrderView {
+    bound: &'static str,
+    order: usize,
 }
 
 #[derive(Serialize)]
@@ -197,24 +224,21 @@ struct StopView {
 #[derive(Serialize)]
 struct LineView<'a> {
     format_version: u32,
-    input: &'a str,
+    input: std::borrow::Cow<'a, str>,
     curve: Option<String>,
     status: &'static str,
     stopped: Option<StopView>,
     rank_lower: Option<usize>,
     rank_upper: Option<usize>,
-    points: Vec<PointView>,
-    torsion_order: Option<u32>,
+    points: Vec<HeightPointView>,
     torsion: Option<TorsionView>,
     selmer2_rank: Option<usize>,
     rank_settled_by: Option<&'static str>,
-    heights: Vec<String>,
     regulator: Option<String>,
     points_generate: bool,
-    generators: Option<SaturationView>,
+    saturation: Option<SaturationView>,
     root_number: Option<i8>,
-    analytic_rank: Option<usize>,
-    sha_analytic: Option<String>,
+    analytic_order: Option<OrderView>,
     analytic: Option<AnalyticView>,
     ledger: Option<LedgerView>,
     conflict: Option<String>,
@@ -351,7 +375,7 @@ fn report_view<'a>(input: &'a str, r: &DescentReport, detail: Detail) -> LineVie
     let t = r.torsion();
     let (n1, n2) = t.structure();
     let cyclic_factors = if n2 <= 1 { vec![n1] } else { vec![n2, n1] };
-    let ld = r.local_data();
+    let ld = r.tate_data();
     let (status, stopped) = match r.completion() {
         Completion::Partial { step, reason } => (
             "partial",
@@ -364,14 +388,13 @@ fn report_view<'a>(input: &'a str, r: &DescentReport, detail: Detail) -> LineVie
     };
     LineView {
         format_version: FORMAT_VERSION,
-        input,
+        input: echoed_input(input),
         curve: Some(r.curve().to_string()),
         status,
         stopped,
         rank_lower: Some(r.rank_lower()),
         rank_upper: Some(r.rank_upper()),
-        points: points_view(r.returned_points()),
-        torsion_order: Some(t.order()),
+        points: height_points_view(r.returned_points(), r.returned_heights()),
         torsion: Some(TorsionView {
             order: t.order(),
             cyclic_factors,
@@ -379,14 +402,9 @@ fn report_view<'a>(input: &'a str, r: &DescentReport, detail: Detail) -> LineVie
         }),
         selmer2_rank: r.selmer2_rank(),
         rank_settled_by: r.rank_settled_by().map(|p| p.word()),
-        heights: r
-            .returned_heights()
-            .iter()
-            .map(|h| decimal(h.value, h.error))
-            .collect(),
         regulator: r.regulator().map(|g| decimal(g.value, g.error)),
         points_generate: r.points_generate(),
-        generators: r.saturation().map(|s| SaturationView {
+        saturation: r.saturation().map(|s| SaturationView {
             index_bound: s.index_bound,
             index_found: s.index_found,
             primes_checked: s.primes_checked.clone(),
@@ -394,10 +412,13 @@ fn report_view<'a>(input: &'a str, r: &DescentReport, detail: Detail) -> LineVie
             height_lower_bound: s.height_lower_bound.map(|h| format!("{h:.6}")),
         }),
         root_number: r.analytic().and_then(|a| a.root_number()),
-        analytic_rank: r.analytic().and_then(|a| a.analytic_rank()),
-        sha_analytic: r
-            .sha_ledger()
-            .map(|l| decimal(l.value.value(), l.value.error())),
+        analytic_order: r
+            .analytic()
+            .and_then(|a| a.analytic_order())
+            .map(|o| OrderView {
+                bound: if o.is_exact() { "exact" } else { "at_most" },
+                order: o.order(),
+            }),
         analytic: r.analytic().map(analytic_view),
         ledger: r.sha_ledger().map(|l| {
             let two = r.sha_two_part();
@@ -410,14 +431,17 @@ fn report_view<'a>(input: &'a str, r: &DescentReport, detail: Detail) -> LineVie
             }
         }),
         conflict: r.conflict().map(str::to_string),
-        conductor: Some(ld.conductor.to_string()),
-        minimal_model: Some(equation_text(
-            &ld.minimal_model
-                .clone()
-                .map(num_rational::BigRational::from_integer),
-        )),
+        conductor: ld.map(|ld| ld.conductor.to_string()),
+        minimal_model: ld.map(|ld| {
+            equation_text(
+                &ld.minimal_model
+                    .clone()
+                    .map(num_rational::BigRational::from_integer),
+            )
+        }),
         reduction: ld
-            .primes
+            .map(|ld| ld.primes.as_slice())
+            .unwrap_or_default()
             .iter()
             .map(|p| {
                 (
@@ -473,7 +497,7 @@ fn analytic_view(a: &crate::analytic::AnalyticData) -> AnalyticView {
             RootNumberRoute::Formula => "local_formulas",
         }),
         real_period: a.real_period().map(|c| certified(c.value(), c.error())),
-        real_components: a.real_components(),
+        real_components: a.real_component_count(),
         l_values: a
             .l_values()
             .iter()
@@ -504,33 +528,55 @@ fn to_line<T: Serialize>(v: &T) -> String {
     })
 }
 
-/// The one-line JSON object of a report, with `input` echoed.
+/// Longest input echoed whole in `input`: the longest text the curve
+/// parser accepts (`5·(2·MAX_COEFFICIENT_DIGITS + 2) + 4096` bytes), so
+/// every curve is echoed exactly.
+pub const MAX_ECHOED_INPUT_BYTES: usize = 5 * (2 * crate::curve::MAX_COEFFICIENT_DIGITS + 2) + 4096;
+
+/// Bytes kept of a longer input (cut at a character boundary).
+const ECHO_HEAD_BYTES: usize = 256;
+
+/// The input as echoed: whole up to [`MAX_ECHOED_INPUT_BYTES`], else its
+/// first 256 bytes (at most), `…` and its length, as in
+/// `"0 123… (104857600 bytes in all)"`.
+pub(crate) fn echoed_input(input: &str) -> std::borrow::Cow<'_, str> {
+    if input.len() <= MAX_ECHOED_INPUT_BYTES {
+        return std::borrow::Cow::Borrowed(input);
+    }
+    let mut cut = ECHO_HEAD_BYTES;
+    while !input.is_char_boundary(cut) {
+        cut -= 1;
+    }
+    std::borrow::Cow::Owned(format!("{}… ({} bytes in all)", &input[..cut], input.len()))
+}
+
+/// The one-line JSON object of a report, with `input` echoed (whole up
+/// to [`MAX_ECHOED_INPUT_BYTES`], else cut with its length stated).
 pub fn report_line(input: &str, r: &DescentReport, detail: Detail) -> String {
     to_line(&report_view(input, r, detail))
 }
 
-/// The JSON object for an input that gave no report.
+/// The JSON object for an input that gave no report (the input is
+/// echoed whole up to [`MAX_ECHOED_INPUT_BYTES`], else cut with its length
+/// stated).
 pub fn error_line(input: &str, message: &str) -> String {
     to_line(&LineView {
         format_version: FORMAT_VERSION,
-        input,
+        input: echoed_input(input),
         curve: None,
         status: "error",
         stopped: None,
         rank_lower: None,
         rank_upper: None,
         points: Vec::new(),
-        torsion_order: None,
         torsion: None,
         selmer2_rank: None,
         rank_settled_by: None,
-        heights: Vec::new(),
         regulator: None,
         points_generate: false,
-        generators: None,
+        saturation: None,
         root_number: None,
-        analytic_rank: None,
-        sha_analytic: None,
+        analytic_order: None,
         analytic: None,
         ledger: None,
         conflict: None,
@@ -543,9 +589,11 @@ pub fn error_line(input: &str, message: &str) -> String {
 }
 
 impl Serialize for DescentReport {
-    /// The JSON schema of [`report_line`] with an empty `input` and the
-    /// summary evidence.
+    /// The JSON schema of [`report_line`] with the summary evidence; a
+    /// report does not keep the caller's text, so `input` is the curve's
+    /// equation (which parses back to the same curve).
     fn serialize<S: serde::Serializer>(&self, serializer: S) -> Result<S::Ok, S::Error> {
-        report_view("", self, Detail::Summary).serialize(serializer)
+        let input = self.curve().to_string();
+        report_view(&input, self, Detail::Summary).serialize(serializer)
     }
 }

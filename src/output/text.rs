@@ -8,7 +8,7 @@ use num_rational::BigRational;
 use num_traits::One;
 
 use super::Detail;
-use crate::analytic::AnalyticData;
+use crate::analytic::{AnalyticData, AnalyticOrder};
 use crate::curve::equation::{equation_text, quartic_text, reduced_equation_text};
 use crate::curve::tate::ReductionKind;
 use crate::curve::{ModelChange, Point};
@@ -504,25 +504,32 @@ pub(crate) fn write_report(
         write_analytic(f, r, a)?;
     }
     writeln!(f)?;
-    let ld = r.local_data();
-    let mm = ld.minimal_model.clone().map(BigRational::from_integer);
-    writeln!(
-        f,
-        "minimal model {}, conductor {}",
-        equation_text(&mm),
-        ld.conductor
-    )?;
-    for p in &ld.primes {
-        writeln!(
+    match r.tate_data() {
+        Some(ld) => {
+            let mm = ld.minimal_model.clone().map(BigRational::from_integer);
+            writeln!(
+                f,
+                "minimal model {}, conductor {}",
+                equation_text(&mm),
+                ld.conductor
+            )?;
+            for p in &ld.primes {
+                writeln!(
+                    f,
+                    "  p = {}: {} reduction, Kodaira type {}, f_p = {}, c_p = {}, v_p(Δ) = {}",
+                    p.prime,
+                    reduction_words(p.reduction),
+                    p.kodaira,
+                    p.conductor_exponent,
+                    p.tamagawa,
+                    p.disc_valuation
+                )?;
+            }
+        }
+        None => writeln!(
             f,
-            "  p = {}: {} reduction, Kodaira type {}, f_p = {}, c_p = {}, v_p(Δ) = {}",
-            p.prime,
-            reduction_words(p.reduction),
-            p.kodaira,
-            p.conductor_exponent,
-            p.tamagawa,
-            p.disc_valuation
-        )?;
+            "minimal model and conductor not computed (Tate's algorithm was stopped)"
+        )?,
     }
     writeln!(f)?;
     let mut ev = String::new();
@@ -554,8 +561,8 @@ fn write_analytic(f: &mut fmt::Formatter<'_>, r: &DescentReport, a: &AnalyticDat
     writeln!(
         f,
         "analytic side: root number w = {w}, Ω = {period} ({} real component{}), {} terms",
-        a.real_components().unwrap_or(0),
-        if a.real_components() == Some(1) {
+        a.real_component_count().unwrap_or(0),
+        if a.real_component_count() == Some(1) {
             ""
         } else {
             "s"
@@ -577,11 +584,14 @@ fn write_analytic(f: &mut fmt::Formatter<'_>, r: &DescentReport, a: &AnalyticDat
     if !values.is_empty() {
         writeln!(f, "  {}", values.join(", "))?;
     }
-    match a.analytic_rank() {
-        Some(k) if k <= 1 => writeln!(f, "  analytic rank {k} (order of vanishing at s = 1, proven)")?,
-        Some(k) => writeln!(
+    match a.analytic_order() {
+        Some(AnalyticOrder::Exact(k)) => {
+            writeln!(f, "  analytic rank {k} (order of vanishing at s = 1, proven)")?
+        }
+        Some(o) => writeln!(
             f,
-            "  analytic rank at most {k} (smallest order with a certified non-zero value; lower orders not proven to vanish)"
+            "  analytic rank at most {} (smallest order with a certified non-zero value; lower orders not proven to vanish)",
+            o.order()
         )?,
         None => writeln!(f, "  no L^(r)(E,1) with r ≤ 3 certified non-zero")?,
     }
