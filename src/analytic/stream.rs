@@ -448,7 +448,7 @@ impl TaylorBlock {
             let mut ck = deriv.scale(1.0 / fact);
             // A priori: (−1)^k c_k ∈ [0, 1/x₀^{k+1}].
             let cap = 1.0 / (xk.lower() * x0) * (1.0 + 8.0 * U);
-            if !(ck.error() <= 0.5 * cap) {
+            if ck.error().is_nan() || ck.error() > 0.5 * cap {
                 ck = Certified::with_radius(sign * 0.5 * cap, 0.5 * cap * (1.0 + 4.0 * U));
             }
             coef[k] = ck.value();
@@ -505,8 +505,7 @@ pub(crate) fn g1_sum(a: &[i32], c: &Certified, budget: &mut Budget) -> Result<Ce
         }
         powers.set_anchor(n0);
         let end = (n0 + BLOCK).min(m + 1);
-        for n in n0..end {
-            let an = a[n];
+        for (n, &an) in a.iter().enumerate().take(end).skip(n0) {
             if an == 0 {
                 continue;
             }
