@@ -89,7 +89,7 @@ fn main() {
             continue;
         }
         positive += 1;
-        let mut points = report.points().to_vec();
+        let mut points = report.descent_points().to_vec();
         if points.len() < rank {
             needed_deep += 1;
             let t = Instant::now();

@@ -68,7 +68,7 @@ fn one(m: &[i64; 5], opts: &DescentOptions) -> Tally {
             t.decided = u64::from(r.is_decided());
             if r.is_decided() && r.rank_lower() > 0 {
                 t.positive = 1;
-                t.with_points = u64::from(r.returned_points().len() == r.rank_lower());
+                t.with_points = u64::from(r.points().len() == r.rank_lower());
                 t.generated = u64::from(r.points_generate());
             }
         }

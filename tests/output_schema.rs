@@ -200,11 +200,8 @@ fn the_serde_view_of_a_report_is_the_line_of_its_equation() {
     let r = descend(&c, &DescentOptions::default()).unwrap();
     let v = serde_json::to_value(&r).unwrap();
     assert_eq!(v["input"], "y^2 = x^3 - 36x");
-    let mut line: Value = serde_json::from_str(&json_for_line(
-        "0 0 0 -36 0",
-        &DescentOptions::default(),
-    ))
-    .unwrap();
+    let mut line: Value =
+        serde_json::from_str(&json_for_line("0 0 0 -36 0", &DescentOptions::default())).unwrap();
     line["input"] = Value::String("y^2 = x^3 - 36x".into());
     assert_eq!(v, line);
     // the keys test harnesses read
@@ -296,7 +293,10 @@ fn the_documented_keys_are_exactly_the_emitted_keys() {
     let mut emitted = std::collections::BTreeSet::new();
     let opts = DescentOptions::default();
     let mut lines: Vec<String> = Vec::new();
-    for line in LINES.iter().chain(["y^2 = x^3 - 36x", "y^2 = x^3 - 25x", "0 0 0 0 1"].iter()) {
+    for line in LINES
+        .iter()
+        .chain(["y^2 = x^3 - 36x", "y^2 = x^3 - 25x", "0 0 0 0 1"].iter())
+    {
         lines.push(json_for_line(line, &opts));
         lines.push(json_for_bytes(line.as_bytes(), &opts, Detail::Full).unwrap());
     }

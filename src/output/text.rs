@@ -341,7 +341,7 @@ pub(crate) fn write_report(
 ) -> fmt::Result {
     writeln!(f, "{}", r.curve())?;
     let b = r.rank_bounds();
-    let n = r.points().len();
+    let n = r.descent_points().len();
     let lower_proof = if b.lower == 0 {
         "trivial".to_string()
     } else {
@@ -402,8 +402,8 @@ pub(crate) fn write_report(
             "CONFLICT (a bug in the descent or the analytic side; nothing was settled by it): {c}"
         )?;
     }
-    let returned = r.returned_points();
-    let heights = r.returned_heights();
+    let returned = r.points();
+    let heights = r.point_heights();
     let with_heights: Vec<String> = returned
         .iter()
         .enumerate()
