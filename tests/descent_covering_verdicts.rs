@@ -24,11 +24,7 @@ fn lind_reichardt_class_is_proven_not_an_image() {
     // locally soluble but has no rational point. With N = 2Y·e², M = X·e
     // it is N² = 2M⁴ − 34e⁴, the space C_2 of y² = x³ − 68x.
     let c = Curve::from_ints([0, 0, 0, -68, 0]).unwrap();
-    let first = descend(
-        &c,
-        &first_descent_only(),
-    )
-    .unwrap();
+    let first = descend(&c, &first_descent_only()).unwrap();
     let r = descend(&c, &DescentOptions::default().descent_only()).unwrap();
     assert!(
         first.rank_upper() > r.rank_upper(),
@@ -65,11 +61,7 @@ fn a_point_beyond_the_first_search_is_found_through_a_covering() {
     // generator of y² = x³ − 53²x is too large for the first search at the
     // default height, and a 4-covering finds it.
     let c = Curve::from_ints([0, 0, 0, -53 * 53, 0]).unwrap();
-    let first = descend(
-        &c,
-        &first_descent_only(),
-    )
-    .unwrap();
+    let first = descend(&c, &first_descent_only()).unwrap();
     let r = descend(&c, &DescentOptions::default().descent_only()).unwrap();
     assert_eq!(first.rank_lower(), 0);
     assert_eq!((r.rank_lower(), r.rank_upper()), (1, 1));
