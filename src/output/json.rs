@@ -482,7 +482,13 @@ pub fn decimal(value: f64, error: f64) -> String {
     } else {
         16
     };
-    format!("{value:.decimals$}")
+    let s = format!("{value:.decimals$}");
+    // A value that rounds to zero is printed without a sign: "-0.000"
+    // would claim a sign the bound does not prove.
+    match s.strip_prefix('-') {
+        Some(rest) if rest.bytes().all(|b| b == b'0' || b == b'.') => rest.to_string(),
+        _ => s,
+    }
 }
 
 fn analytic_view(a: &crate::analytic::AnalyticData) -> AnalyticView {
@@ -595,5 +601,18 @@ impl Serialize for DescentReport {
     fn serialize<S: serde::Serializer>(&self, serializer: S) -> Result<S::Ok, S::Error> {
         let input = self.curve().to_string();
         report_view(&input, self, Detail::Summary).serialize(serializer)
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::decimal;
+
+    #[test]
+    fn a_value_that_rounds_to_zero_has_no_sign() {
+        assert_eq!(decimal(-1e-15, 2e-12), "0.00000000000");
+        assert_eq!(decimal(-0.0, 0.5), "0.0");
+        assert_eq!(decimal(-0.25, 0.01), "-0.25");
+        assert_eq!(decimal(1.5, 0.01), "1.50");
     }
 }

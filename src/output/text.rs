@@ -422,13 +422,19 @@ pub(crate) fn write_report(
         let certificate = s
             .map(|s| {
                 let primes: Vec<String> = s.primes_checked.iter().map(u64::to_string).collect();
-                format!(
-                    "index bound {}, p-saturated for p in {{{}}}",
-                    s.index_bound
-                        .map(|b| b.to_string())
-                        .unwrap_or_else(|| "-".into()),
-                    primes.join(", ")
-                )
+                let bound = s
+                    .index_bound
+                    .map(|b| b.to_string())
+                    .unwrap_or_else(|| "-".into());
+                if primes.is_empty() {
+                    // An index bound below 2 leaves no prime to check.
+                    format!("index bound {bound}, so no prime can divide the index")
+                } else {
+                    format!(
+                        "index bound {bound}, p-saturated for p in {{{}}}",
+                        primes.join(", ")
+                    )
+                }
             })
             .unwrap_or_default();
         writeln!(
