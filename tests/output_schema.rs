@@ -140,6 +140,20 @@ fn every_batch_line_validates_in_both_details() {
     }
 }
 
+/// A twist with no quartic model is printed as its conic with the Hilbert
+/// symbol pair, and that variant validates too (y² = x³ − 289x has such
+/// twists; the curve of issue 27's example).
+#[test]
+fn conic_obstructions_validate() {
+    let line = json_for_bytes(b"0 0 0 -289 0", &DescentOptions::default(), Detail::Full).unwrap();
+    assert_valid(&line);
+    assert!(
+        line.contains("\"conic\":[") && line.contains("\"hilbert_symbol\":["),
+        "{line}"
+    );
+    assert!(line.contains("\"quartic\":["), "{line}");
+}
+
 #[test]
 fn full_evidence_carries_the_four_covering_quartics() {
     // y^2 = x^3 - 29x^2 - 30x has classes proven not images (demo data).

@@ -109,6 +109,11 @@ impl ApTable {
     }
 
     /// `a_p` if `p` is a bad prime, else `None`.
+    pub(crate) fn bad_ap_of(&self, p: u64) -> Option<i64> {
+        self.bad_ap(p)
+    }
+
+    /// `a_p` if `p` is a bad prime, else `None`.
     fn bad_ap(&self, p: u64) -> Option<i64> {
         self.bad.iter().find(|&&(q, _)| q == p).map(|&(_, a)| a)
     }

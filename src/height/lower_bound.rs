@@ -183,10 +183,39 @@ fn real_component(b: &[BigInt; 4], disc_positive: bool) -> Option<RealComponent>
     if ff.iter().any(|v| !v.is_finite() || v.abs() > 1e280) {
         return None;
     }
+    // The largest real root: the f64 estimate first (as before), then, if
+    // the brackets around it cannot be certified, the root isolated exactly
+    // and narrowed far below the tolerances tried.
     let e = real_roots_f64(&ff).into_iter().fold(f64::NAN, f64::max);
+    if e.is_finite() {
+        if let Some(rc) = real_component_near(&fc, &d1, &d2, &ff, e, disc_positive) {
+            return Some(rc);
+        }
+    }
+    let mut top = crate::arith::real_roots::isolate_real_roots(&fc)?.pop()?;
+    let mid = |iv: &crate::arith::real_roots::RootInterval| {
+        (&iv.lo + &iv.hi) / BigRational::from_integer(BigInt::from(2))
+    };
+    let w = BigRational::from_float(1e-15 * (1.0 + mid(&top).to_f64()?.abs()))?;
+    crate::arith::real_roots::refine(&fc, &mut top, &w);
+    let e = mid(&top).to_f64()?;
     if !e.is_finite() {
         return None;
     }
+    real_component_near(&fc, &d1, &d2, &ff, e, disc_positive)
+}
+
+/// [`real_component`] with the estimate `e` of the largest root of `f`
+/// (`fc`, derivatives `d1`, `d2`, f64 coefficients `ff`).
+fn real_component_near(
+    fc: &[BigInt],
+    d1: &[BigInt],
+    d2: &[BigInt],
+    ff: &[f64],
+    e: f64,
+    disc_positive: bool,
+) -> Option<RealComponent> {
+    let b2 = &fc[2];
     let scale = ff[..3]
         .iter()
         .map(|v| v.abs())
@@ -204,19 +233,19 @@ fn real_component(b: &[BigInt; 4], disc_positive: bool) -> Option<RealComponent>
             return None;
         };
         let zero = BigRational::zero();
-        if !(eval(&fc, &lq) < zero && eval(&fc, &hq) > zero) {
+        if !(eval(fc, &lq) < zero && eval(fc, &hq) > zero) {
             continue;
         }
         // Δ < 0: the only real root lies in (lo, hi). Δ > 0: f convex and
         // increasing on [lo, ∞), so the root in (lo, hi) is the largest.
-        if disc_positive && !(eval(&d2, &lq) > zero && eval(&d1, &lq) > zero) {
+        if disc_positive && !(eval(d2, &lq) > zero && eval(d1, &lq) > zero) {
             continue;
         }
-        let (fl, fh) = (eval(&d1, &lq), eval(&d1, &hq));
+        let (fl, fh) = (eval(d1, &lq), eval(d1, &hq));
         let fmax = if fl > fh { fl.clone() } else { fh.clone() };
         let mut fmin = if fl < fh { fl } else { fh };
         if vertex > lq && vertex < hq {
-            fmin = eval(&d1, &vertex);
+            fmin = eval(d1, &vertex);
         }
         let beta2_lo = round_down(&(fmin / &four))?;
         let beta2_hi = round_up(&(fmax / &four))?;

@@ -110,9 +110,12 @@ impl Certified {
 }
 
 impl fmt::Display for Certified {
-    /// `0.0511114082400 ± 2.1e-13`.
+    /// `0.05111140824000 ± 2.2e-13`: the printed interval contains the
+    /// certified one (the error widened by the rounding and rounded up).
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
-        write!(f, "{:.13} ± {:.1e}", self.value, self.error)
+        // The printed interval contains the certified one (arith::decimal).
+        let (v, e) = crate::arith::decimal::enclose(self.value, self.error);
+        write!(f, "{v} ± {e}")
     }
 }
 

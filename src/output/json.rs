@@ -11,7 +11,7 @@ use super::Detail;
 use crate::curve::equation::{equation_text, quartic_text, reduced_equation_text};
 use crate::curve::tate::ReductionKind;
 use crate::curve::Point;
-use crate::descent::isogeny_side::{ClassStatus, SelmerSide};
+use crate::descent::isogeny_side::{ClassStatus, CoveringObstruction, SelmerSide};
 use crate::descent::report::{Completion, DescentReport};
 use crate::local::class_representatives;
 use crate::quartic::search::SearchOutcome;
@@ -42,6 +42,7 @@ struct HeightPointView {
     x: String,
     y: String,
     height: Option<String>,
+    height_error: Option<String>,
 }
 
 fn height_points_view(ps: &[Point], heights: &[crate::height::Certified]) -> Vec<HeightPointView> {
@@ -51,7 +52,8 @@ fn height_points_view(ps: &[Point], heights: &[crate::height::Certified]) -> Vec
             Some(HeightPointView {
                 x: rational_text(p.x()?),
                 y: rational_text(p.y()?),
-                height: heights.get(i).map(|h| decimal(h.value, h.error)),
+                height: heights.get(i).map(|h| value_and_error(h.value, h.error).0),
+                height_error: heights.get(i).map(|h| value_and_error(h.value, h.error).1),
             })
         })
         .collect()
@@ -117,10 +119,22 @@ struct SpaceView {
     point: Option<SpacePointView>,
 }
 
+/// One twist's obstruction: a 4-covering `{quartic, insoluble_at}`, or,
+/// when no quartic model exists, `{conic, hilbert_symbol, insoluble_at}`.
 #[derive(Serialize)]
-struct CoveringView {
-    quartic: Vec<String>,
-    insoluble_at: String,
+#[serde(untagged)]
+enum CoveringView {
+    Quartic {
+        quartic: Vec<String>,
+        insoluble_at: String,
+    },
+    Conic {
+        /// `[c, A, B, C]` for `c·s² = A u² + B uv + C v²`.
+        conic: Vec<String>,
+        /// `[x, D]` with Hilbert symbol `(x, D)` = −1 at the place.
+        hilbert_symbol: Vec<String>,
+        insoluble_at: String,
+    },
 }
 
 #[derive(Serialize)]
@@ -171,10 +185,8 @@ struct CertifiedView {
 }
 
 fn certified(value: f64, error: f64) -> CertifiedView {
-    CertifiedView {
-        value: decimal(value, error),
-        error: format!("{error:.1e}"),
-    }
+    let (value, error) = value_and_error(value, error);
+    CertifiedView { value, error }
 }
 
 #[derive(Serialize)]
@@ -235,6 +247,7 @@ struct LineView<'a> {
     selmer2_rank: Option<usize>,
     rank_settled_by: Option<&'static str>,
     regulator: Option<String>,
+    regulator_error: Option<String>,
     points_generate: bool,
     saturation: Option<SaturationView>,
     root_number: Option<i8>,
@@ -344,9 +357,26 @@ fn side_view(s: &SelmerSide, domain: bool, detail: Detail) -> SideView {
                     class: space.to_string(),
                     coverings: obstructions
                         .iter()
-                        .map(|o| CoveringView {
-                            quartic: o.covering.iter().map(|c| c.to_string()).collect(),
-                            insoluble_at: o.place.to_string(),
+                        .map(|o| match o {
+                            CoveringObstruction::Quartic { covering, place } => {
+                                CoveringView::Quartic {
+                                    quartic: covering.iter().map(|c| c.to_string()).collect(),
+                                    insoluble_at: place.to_string(),
+                                }
+                            }
+                            CoveringObstruction::Conic {
+                                scale,
+                                form,
+                                hilbert,
+                                place,
+                            } => CoveringView::Conic {
+                                conic: std::iter::once(scale)
+                                    .chain(form.iter())
+                                    .map(|c| c.to_string())
+                                    .collect(),
+                                hilbert_symbol: hilbert.iter().map(|c| c.to_string()).collect(),
+                                insoluble_at: place.to_string(),
+                            },
                         })
                         .collect(),
                 }),
@@ -402,14 +432,17 @@ fn report_view<'a>(input: &'a str, r: &DescentReport, detail: Detail) -> LineVie
         }),
         selmer2_rank: r.selmer2_rank(),
         rank_settled_by: r.rank_settled_by().map(|p| p.word()),
-        regulator: r.regulator().map(|g| decimal(g.value, g.error)),
+        regulator: r.regulator().map(|g| value_and_error(g.value, g.error).0),
+        regulator_error: r.regulator().map(|g| value_and_error(g.value, g.error).1),
         points_generate: r.points_generate(),
         saturation: r.saturation().map(|s| SaturationView {
             index_bound: s.index_bound,
             index_found: s.index_found,
             primes_checked: s.primes_checked.clone(),
             unresolved: s.unresolved.clone(),
-            height_lower_bound: s.height_lower_bound.map(|h| format!("{h:.6}")),
+            height_lower_bound: s
+                .height_lower_bound
+                .map(|h| crate::arith::decimal::decimal_floor(h, 6)),
         }),
         root_number: r.analytic().and_then(|a| a.root_number()),
         analytic_order: r
@@ -474,21 +507,12 @@ fn report_view<'a>(input: &'a str, r: &DescentReport, detail: Detail) -> LineVie
     }
 }
 
-/// `value` with as many decimals as its error bound justifies (at least
-/// one, at most 16): the digits shown are all correct up to the bound.
-pub fn decimal(value: f64, error: f64) -> String {
-    let decimals = if error > 0.0 && error.is_finite() {
-        (-error.log10()).floor().clamp(1.0, 16.0) as usize
-    } else {
-        16
-    };
-    let s = format!("{value:.decimals$}");
-    // A value that rounds to zero is printed without a sign: "-0.000"
-    // would claim a sign the bound does not prove.
-    match s.strip_prefix('-') {
-        Some(rest) if rest.bytes().all(|b| b == b'0' || b == b'.') => rest.to_string(),
-        _ => s,
-    }
+/// `(value, error)` strings of a certified number such that the printed
+/// interval `value ± error` contains the certified one exactly: the error
+/// is widened by the rounding of the value and rounded up
+/// (`crate::arith::decimal`).
+pub fn value_and_error(value: f64, error: f64) -> (String, String) {
+    crate::arith::decimal::enclose(value, error)
 }
 
 fn analytic_view(a: &crate::analytic::AnalyticData) -> AnalyticView {
@@ -507,10 +531,13 @@ fn analytic_view(a: &crate::analytic::AnalyticData) -> AnalyticView {
         l_values: a
             .l_values()
             .iter()
-            .map(|(k, c)| LValueView {
-                order: *k,
-                value: decimal(c.value(), c.error()),
-                error: format!("{:.1e}", c.error()),
+            .map(|(k, c)| {
+                let (value, error) = value_and_error(c.value(), c.error());
+                LValueView {
+                    order: *k,
+                    value,
+                    error,
+                }
             })
             .collect(),
         terms: a.terms_used(),
@@ -579,6 +606,7 @@ pub fn error_line(input: &str, message: &str) -> String {
         selmer2_rank: None,
         rank_settled_by: None,
         regulator: None,
+        regulator_error: None,
         points_generate: false,
         saturation: None,
         root_number: None,
@@ -601,18 +629,5 @@ impl Serialize for DescentReport {
     fn serialize<S: serde::Serializer>(&self, serializer: S) -> Result<S::Ok, S::Error> {
         let input = self.curve().to_string();
         report_view(&input, self, Detail::Summary).serialize(serializer)
-    }
-}
-
-#[cfg(test)]
-mod tests {
-    use super::decimal;
-
-    #[test]
-    fn a_value_that_rounds_to_zero_has_no_sign() {
-        assert_eq!(decimal(-1e-15, 2e-12), "0.00000000000");
-        assert_eq!(decimal(-0.0, 0.5), "0.0");
-        assert_eq!(decimal(-0.25, 0.01), "-0.25");
-        assert_eq!(decimal(1.5, 0.01), "1.50");
     }
 }

@@ -22,6 +22,10 @@ pub struct RecordPoint {
     /// only; `None` when not computed or not written).
     #[serde(default, skip_serializing_if = "Option::is_none")]
     pub height: Option<String>,
+    /// Every other key of the point (such as the height's error bound), as
+    /// JSON.
+    #[serde(flatten)]
+    pub rest: Map<String, Value>,
 }
 
 impl RecordPoint {
