@@ -70,7 +70,9 @@ pub mod family;
 
 pub use budget::Budget;
 pub use curve::{Curve, Point};
-pub use descent::{descend, Completion, DescentOptions, DescentReport, RankBounds, RankProof};
+pub use descent::{
+    descend, Completion, DescentOptions, DescentReport, Generators, RankBounds, RankProof,
+};
 pub use error::{Error, Result};
 pub use local::{Place, Prime};
 pub use output::Detail;

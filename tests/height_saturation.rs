@@ -258,11 +258,11 @@ fn a_descent_point_that_is_a_triple_is_divided() {
     use isodescent::descent::{descend, DescentOptions};
     let e = Curve::from_ints([0, -5, 0, 13, 0]).unwrap();
     let report = descend(&e, &DescentOptions::default()).unwrap();
-    assert_eq!(report.points().len(), 1);
-    let p = &report.points()[0];
+    assert_eq!(report.descent_points().len(), 1);
+    let p = &report.descent_points()[0];
     let s = saturate(
         &e,
-        report.points(),
+        report.descent_points(),
         &SaturationOptions::default(),
         &mut Budget::unlimited(),
     )
@@ -319,7 +319,7 @@ fn saturation_certifies_the_real_roots_exactly() {
         assert!(sat.is_some(), "{label}");
         assert_eq!(sat.unwrap().generators.len(), rank, "{label}");
         let ctx = ctx.unwrap();
-        for p in r.returned_points() {
+        for p in r.points() {
             let h = ctx.height(p).unwrap();
             let h2 = ctx
                 .height(&ctx.multiple(p, &BigInt::from(2)).unwrap())

@@ -474,6 +474,20 @@ impl FromStr for Curve {
         if s.contains('=') {
             return Curve::new(super::equation::parse_equation(s)?);
         }
+        // Five coefficients: a leading byte-order mark dropped, the minus
+        // sign U+2212 read as '-', and `[a1, a2, a3, a4, a6]` accepted.
+        let s = s.strip_prefix('\u{feff}').unwrap_or(s).trim();
+        let s = match s.strip_prefix('[').and_then(|t| t.strip_suffix(']')) {
+            Some(inner) => inner,
+            None => s,
+        };
+        let owned;
+        let s = if s.contains('\u{2212}') {
+            owned = s.replace('\u{2212}', "-");
+            owned.as_str()
+        } else {
+            s
+        };
         let tokens = split_tokens(s)?;
         if tokens.len() != 5 {
             return Err(Error::Parse {

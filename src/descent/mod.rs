@@ -51,8 +51,8 @@ pub use isogeny_side::{
 };
 use options::DescentContext;
 pub use options::DescentOptions;
-pub use report::{Completion, DescentReport, RankBounds};
-pub use verify::{verify_report, Verification};
+pub use report::{Completion, DescentReport, Generators, RankBounds};
+pub use verify::{verify_report, verify_report_default, Check, Verification, DEFAULT_VERIFY_UNITS};
 
 use crate::arith::factor;
 use crate::curve::tate::global_local_data_with;

@@ -115,6 +115,16 @@ pub struct ScanRecord {
 }
 
 impl ScanRecord {
+    /// The member's report as typed values (the line of
+    /// [`ScanRecord::to_line`] read back).
+    ///
+    /// # Errors
+    /// [`Error::Parse`] if the stored object is not a report line (it
+    /// always is when made by [`scan`] or [`scan_member`]).
+    pub fn record(&self) -> Result<crate::output::ReportRecord> {
+        self.to_line().parse()
+    }
+
     /// The output line (without newline): the [`crate::output::json_for_line`] object with
     /// two keys put in front, `"family_index"` and `"family_parameter"`;
     /// the keys of the descent contract are unchanged.

@@ -424,7 +424,7 @@ fn report_view<'a>(input: &'a str, r: &DescentReport, detail: Detail) -> LineVie
         stopped,
         rank_lower: Some(r.rank_lower()),
         rank_upper: Some(r.rank_upper()),
-        points: height_points_view(r.returned_points(), r.returned_heights()),
+        points: height_points_view(r.points(), r.point_heights()),
         torsion: Some(TorsionView {
             order: t.order(),
             cyclic_factors,

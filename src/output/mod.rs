@@ -12,6 +12,7 @@
 
 pub(crate) mod batch;
 pub(crate) mod json;
+pub(crate) mod record;
 pub(crate) mod text;
 
 use std::fmt;
@@ -22,6 +23,7 @@ pub use batch::{
     classify_line, is_skipped_line, json_for_bytes, json_for_line, json_for_line_with, LineKind,
 };
 pub use json::{error_line, report_line, FORMAT_VERSION, MAX_ECHOED_INPUT_BYTES};
+pub use record::{RecordPoint, RecordTorsion, ReportRecord};
 
 /// How much evidence a report shows.
 #[derive(Clone, Copy, Debug, Default, PartialEq, Eq, Hash)]

@@ -368,7 +368,7 @@ pub(crate) fn write_report(
 ) -> fmt::Result {
     writeln!(f, "{}", r.curve())?;
     let b = r.rank_bounds();
-    let n = r.points().len();
+    let n = r.descent_points().len();
     let lower_proof = if b.lower == 0 {
         "trivial".to_string()
     } else {
@@ -429,8 +429,8 @@ pub(crate) fn write_report(
             "CONFLICT (a bug in the descent or the analytic side; nothing was settled by it): {c}"
         )?;
     }
-    let returned = r.returned_points();
-    let heights = r.returned_heights();
+    let returned = r.points();
+    let heights = r.point_heights();
     let with_heights: Vec<String> = returned
         .iter()
         .enumerate()
@@ -444,13 +444,19 @@ pub(crate) fn write_report(
         let certificate = s
             .map(|s| {
                 let primes: Vec<String> = s.primes_checked.iter().map(u64::to_string).collect();
-                format!(
-                    "index bound {}, p-saturated for p in {{{}}}",
-                    s.index_bound
-                        .map(|b| b.to_string())
-                        .unwrap_or_else(|| "-".into()),
-                    primes.join(", ")
-                )
+                let bound = s
+                    .index_bound
+                    .map(|b| b.to_string())
+                    .unwrap_or_else(|| "-".into());
+                if primes.is_empty() {
+                    // An index bound below 2 leaves no prime to check.
+                    format!("index bound {bound}, so no prime can divide the index")
+                } else {
+                    format!(
+                        "index bound {bound}, p-saturated for p in {{{}}}",
+                        primes.join(", ")
+                    )
+                }
             })
             .unwrap_or_default();
         writeln!(
