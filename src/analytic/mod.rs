@@ -39,7 +39,6 @@
 //! [`DEFAULT_CONDUCTOR_LIMIT`]; see `docs/analytic.md`.
 
 mod bsgs;
-pub(crate) mod certified;
 mod cm;
 pub(crate) mod coefficients;
 pub(crate) mod ledger;
@@ -50,7 +49,7 @@ pub(crate) mod series;
 use num_bigint::BigInt;
 use num_traits::{One, ToPrimitive};
 
-pub use certified::Certified;
+use crate::arith::Certified;
 pub use coefficients::{an_list, ap, ApTable};
 pub use ledger::{sha_analytic, ShaLedger};
 pub use period::{real_period, RealPeriod};

@@ -27,7 +27,7 @@ use std::cmp::Ordering;
 use num_bigint::BigInt;
 use num_traits::{Signed, ToPrimitive};
 
-use super::certified::{pi, Certified};
+use crate::arith::certified::{pi, Certified};
 use crate::curve::tate::integral_invariants;
 
 /// The real period of a model and its number of real components.

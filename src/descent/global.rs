@@ -73,7 +73,7 @@ pub(crate) struct GlobalFacts {
     pub(crate) settled_by: Option<RankProof>,
     pub(crate) conflict: Option<String>,
     /// ĥ of the descent's points when saturation did not run.
-    pub(crate) point_heights: Vec<crate::height::Certified>,
+    pub(crate) point_heights: Vec<crate::arith::Certified>,
 }
 
 fn note_stop(report: &mut DescentReport, step: &str, e: &Error) {
@@ -204,7 +204,7 @@ fn ledger(report: &mut DescentReport) {
     } else {
         match &report.global.saturation {
             Some(s) if s.proven_saturated && s.generators.len() == rank => {
-                match analytic::Certified::new(s.regulator.value, s.regulator.error) {
+                match crate::arith::Certified::new(s.regulator.value(), s.regulator.error()) {
                     Ok(c) => Some(c),
                     Err(_) => return,
                 }

@@ -201,7 +201,7 @@ impl DescentReport {
     /// ĥ of each of [`DescentReport::returned_points`], in the same order,
     /// certified (normalisation of [`crate::height`]); empty when a height
     /// could not be computed.
-    pub fn returned_heights(&self) -> &[crate::height::Certified] {
+    pub fn returned_heights(&self) -> &[crate::arith::Certified] {
         match &self.global.saturation {
             Some(s) => &s.heights,
             None => &self.global.point_heights,
@@ -210,7 +210,7 @@ impl DescentReport {
 
     /// The regulator of the returned points, when saturation ran (1 for
     /// rank 0 is not reported here).
-    pub fn regulator(&self) -> Option<crate::height::Certified> {
+    pub fn regulator(&self) -> Option<crate::arith::Certified> {
         self.global.saturation.as_ref().map(|s| s.regulator)
     }
 

@@ -132,7 +132,7 @@ pub fn height_lower_bound(
                     continue;
                 }
                 let h = ctx.height_minimal(&p, DEFAULT_PRECISION);
-                if best.as_ref().map_or(true, |(_, bh)| h.value < bh.value) {
+                if best.as_ref().map_or(true, |(_, bh)| h.value() < bh.value()) {
                     best = Some((p, h));
                 }
             }

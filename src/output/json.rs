@@ -382,9 +382,9 @@ fn report_view<'a>(input: &'a str, r: &DescentReport, detail: Detail) -> LineVie
         heights: r
             .returned_heights()
             .iter()
-            .map(|h| decimal(h.value, h.error))
+            .map(|h| decimal(h.value(), h.error()))
             .collect(),
-        regulator: r.regulator().map(|g| decimal(g.value, g.error)),
+        regulator: r.regulator().map(|g| decimal(g.value(), g.error())),
         points_generate: r.points_generate(),
         generators: r.saturation().map(|s| SaturationView {
             index_bound: s.index_bound,

@@ -411,8 +411,8 @@ pub(crate) fn write_report(
             Some(h) => format!(
                 "{} (ĥ = {} ± {:.1e})",
                 point_text(p),
-                decimal(h.value, h.error),
-                h.error
+                decimal(h.value(), h.error()),
+                h.error()
             ),
             None => point_text(p),
         })
@@ -452,8 +452,8 @@ pub(crate) fn write_report(
         writeln!(
             f,
             "regulator: {} ± {:.1e}",
-            decimal(reg.value, reg.error),
-            reg.error
+            decimal(reg.value(), reg.error()),
+            reg.error()
         )?;
     }
     if returned.len() < b.lower {
