@@ -307,6 +307,54 @@ impl SelmerSide {
         let v = self.qs2.vector(d).ok()?;
         Some(!self.liftable()?.contains(&v))
     }
+
+    /// The first step of this side that a budget or the clock cut short,
+    /// as (step, reason): the lifting pairing, a point search that gave
+    /// up, or a class of the 4-covering route that was not run or stopped
+    /// (and so lost its evidence). `None` when every step ran to its end.
+    pub(crate) fn cut_short(&self) -> Option<(String, String)> {
+        if let Some(e) = self.pairing_error.as_ref().filter(|e| is_budget_error(e)) {
+            return Some(("lifting pairing".into(), e.to_string()));
+        }
+        if let Some(r) = self
+            .searches
+            .iter()
+            .find(|r| matches!(r.outcome, SearchOutcome::GaveUp { .. }))
+        {
+            return Some((
+                "point search".into(),
+                format!("search budget ran out on the space of class {}", r.class),
+            ));
+        }
+        for run in &self.covering_runs {
+            match &run.verdict {
+                CoveringVerdict::BudgetSpent => {
+                    return Some((
+                        "4-covering route".into(),
+                        format!(
+                            "the 4-covering budget was spent before class {} was examined",
+                            run.class
+                        ),
+                    ))
+                }
+                CoveringVerdict::GaveUp(e) if is_budget_error(e) => {
+                    return Some((
+                        "4-covering route".into(),
+                        format!("class {}: {e}", run.class),
+                    ))
+                }
+                _ => {}
+            }
+        }
+        None
+    }
+}
+
+fn is_budget_error(e: &Error) -> bool {
+    matches!(
+        e,
+        Error::BudgetExhausted { .. } | Error::FactorBudgetExhausted { .. }
+    )
 }
 
 /// The search quartic for class d and the factor f with y = f·N.

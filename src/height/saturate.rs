@@ -207,6 +207,33 @@ pub fn saturate(
     options: &SaturationOptions,
     budget: &mut Budget,
 ) -> Result<Saturation> {
+    for p in points {
+        curve.check_point(p)?;
+    }
+    check_options(options)?;
+    let ctx = HeightContext::new(curve, budget)?;
+    saturate_in(&ctx, points, options, budget)
+}
+
+/// [`saturate`] on a height context already built (for the curve of the
+/// points), so that Tate's algorithm is not run again.
+///
+/// # Errors
+/// As [`saturate`], without those of building the context.
+pub fn saturate_with_context(
+    ctx: &HeightContext,
+    points: &[Point],
+    options: &SaturationOptions,
+    budget: &mut Budget,
+) -> Result<Saturation> {
+    for p in points {
+        ctx.curve().check_point(p)?;
+    }
+    check_options(options)?;
+    saturate_in(ctx, points, options, budget)
+}
+
+fn check_options(options: &SaturationOptions) -> Result<()> {
     if !(options.max_search_height.is_finite()
         && options.max_search_height <= super::naive_vs_canonical::MAX_SEARCH_HEIGHT
         && options.search_margin.is_finite()
@@ -227,10 +254,15 @@ pub fn saturate(
             ),
         });
     }
-    for p in points {
-        curve.check_point(p)?;
-    }
-    let ctx = HeightContext::new(curve, budget)?;
+    Ok(())
+}
+
+fn saturate_in(
+    ctx: &HeightContext,
+    points: &[Point],
+    options: &SaturationOptions,
+    budget: &mut Budget,
+) -> Result<Saturation> {
     let mut pts: Vec<Point> = points
         .iter()
         .map(|p| ctx.to_min_point(p))

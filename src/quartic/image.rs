@@ -230,6 +230,13 @@ pub(crate) fn local_image_with(
         let solubility = match fast {
             Some(s) => s?,
             None => {
+                // Building the quartic is not charged (O(1) products), but
+                // on huge models it is slow: read the clock first.
+                budget
+                    .check_deadline()
+                    .map_err(|_| Error::BudgetExhausted {
+                        stage: "local image".into(),
+                    })?;
                 let q = Quartic::two_isogeny_space(&d, a, b)?;
                 locally_soluble(&q, place, budget)?
             }
