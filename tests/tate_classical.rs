@@ -2,7 +2,7 @@
 //! known, on non-minimal and non-integral input, and on bad input.
 
 use isodescent::curve::{
-    global_local_data, integral_invariants, local_reduction, Kodaira, ReductionKind,
+    global_local_data, local_reduction, weierstrass_invariants, Kodaira, ReductionKind,
 };
 use isodescent::local::Prime;
 use isodescent::{Budget, Error};
@@ -77,7 +77,10 @@ fn y2_plus_y_equals_x3_minus_x2_minus_10x_minus_20_is_split_i5_at_11() {
 fn the_curve_of_conductor_14_has_types_i6_and_i3() {
     // From memory: y² + xy + y = x³ + 4x − 6 has Δ = −21952 = −2⁶·7³.
     let a = ints([1, 0, 1, 4, -6]);
-    assert_eq!(integral_invariants(&a).discriminant, BigInt::from(-21952));
+    assert_eq!(
+        weierstrass_invariants(&a).discriminant,
+        BigInt::from(-21952)
+    );
     assert_eq!(
         local_reduction(&a, &prime(2)).unwrap().kodaira,
         Kodaira::In(6)
@@ -158,7 +161,7 @@ fn a_huge_multiplicative_valuation_is_read_exactly() {
         BigInt::zero(),
         big,
     ];
-    let disc = integral_invariants(&a).discriminant;
+    let disc = weierstrass_invariants(&a).discriminant;
     let v = isodescent::local::valuation(&disc, &prime(2)).unwrap();
     assert_eq!(v, 200);
     let lr = local_reduction(&a, &prime(2)).unwrap();
@@ -179,7 +182,7 @@ fn a_non_integral_model_gets_an_integral_minimal_model_and_the_right_conductor()
     // The minimal model has Δ = 64 (that of y² = x³ − x), and the bad
     // prime 2 records that the input was not minimal (it is not 2-integral).
     assert_eq!(
-        integral_invariants(&g.minimal_model).discriminant,
+        weierstrass_invariants(&g.minimal_model).discriminant,
         BigInt::from(64)
     );
     assert_eq!(g.primes.len(), 1);
