@@ -101,3 +101,43 @@ fn the_scanner_finds_a_planted_missing_path() {
     assert!(!root.join(&got[0]).exists());
     assert!(root.join(&got[1]).exists());
 }
+
+/// Every guide in `docs/` is part of the rustdoc: included into a module's
+/// docs (`#![doc = include_str!(…)]`) or cited by path in a module's `//!`
+/// docs (a citation the test above checks).
+#[test]
+fn every_guide_in_docs_is_reachable_from_the_rustdoc() {
+    let root = Path::new(env!("CARGO_MANIFEST_DIR"));
+    let mut sources = Vec::new();
+    text_files(&root.join("src"), &mut sources);
+    let module_docs: String = sources
+        .iter()
+        .filter_map(|f| fs::read_to_string(f).ok())
+        .flat_map(|text| {
+            text.lines()
+                .filter(|l| {
+                    let l = l.trim_start();
+                    l.starts_with("//!") || l.starts_with("#![doc")
+                })
+                .map(str::to_string)
+                .collect::<Vec<_>>()
+        })
+        .collect::<Vec<_>>()
+        .join("\n");
+    let mut guides = Vec::new();
+    for e in fs::read_dir(root.join("docs")).expect("docs/").flatten() {
+        let name = e.file_name().to_string_lossy().into_owned();
+        if name.ends_with(".md") {
+            guides.push(name);
+        }
+    }
+    assert!(guides.len() >= 5, "docs/ holds only {guides:?}");
+    let unreachable: Vec<&String> = guides
+        .iter()
+        .filter(|g| !module_docs.contains(&format!("docs/{g}")))
+        .collect();
+    assert!(
+        unreachable.is_empty(),
+        "not in any module's rustdoc: {unreachable:?}"
+    );
+}

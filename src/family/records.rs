@@ -341,7 +341,8 @@ pub struct ResumeState {
 /// indices increase strictly. The caller truncates the file to
 /// `keep_bytes` and appends the records of the members after `last`.
 ///
-/// Errors: [`Error::Io`] on a read failure; [`Error::Parse`] for a
+/// # Errors
+/// [`Error::Io`] on a read failure; [`Error::Parse`] for a
 /// complete line that is not a record (the file is then left alone);
 /// [`Error::InvalidArgument`] for a record outside `shard` or out of
 /// order (a file of another shard, or a merged file).
@@ -541,7 +542,8 @@ impl<R: BufRead> Head<R> {
 /// the family's end are counted and left out. `names` label the inputs in
 /// error messages.
 ///
-/// Errors: [`Error::Io`] when an input cannot be read or the output
+/// # Errors
+/// [`Error::Io`] when an input cannot be read or the output
 /// cannot be written; [`Error::InvalidArgument`] if `names` and `inputs`
 /// differ in length.
 pub fn merge_shards<R: BufRead, W: Write>(

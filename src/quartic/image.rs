@@ -165,7 +165,8 @@ fn f2_basis(masks: &[u8]) -> Vec<u8> {
 /// square-class basis of the `local` layer (R: sign; odd p: `{p, n}`;
 /// 2: `{2, −1, 5}`), with a basis, the dimension, and the evidence.
 ///
-/// Errors: [`Error::Degenerate`] when `b(a² − 4b) = 0`;
+/// # Errors
+/// [`Error::Degenerate`] when `b(a² − 4b) = 0`;
 /// [`Error::BudgetExhausted`].
 ///
 /// Cost: at most 2, 4 or 8 local solubility tests (a class is skipped

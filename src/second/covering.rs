@@ -947,7 +947,8 @@ fn examine_twist(
 /// twist; re-check with [`verify_obstruction`]), or
 /// [`SecondDescentOutcome::Undecided`].
 ///
-/// **Errors.** [`Error::Zero`] for `d = 0`; [`Error::SingularCurve`] when
+/// # Errors
+/// [`Error::Zero`] for `d = 0`; [`Error::SingularCurve`] when
 /// `b(a² − 4b) = 0`; [`Error::InvalidArgument`] when `d ∤ b`, when `d` is a
 /// square (the identity's class), or when `C_d` has no point over some
 /// `Q_v` (the caller should pass only classes of the Selmer group);
@@ -1043,7 +1044,8 @@ pub fn second_descent(
 /// [`SecondDescentOutcome::Undecided`] (never `NoPoint`: not every twist is
 /// examined).
 ///
-/// **Errors.** As [`second_descent`]; [`Error::Internal`]
+/// # Errors
+/// As [`second_descent`]; [`Error::Internal`]
 /// if a named twist turns out locally insoluble
 /// (it contradicts the pairing).
 pub fn second_descent_on_twists(
