@@ -791,7 +791,6 @@ enum TwistVerdict {
 type Model = ([BigInt; 5], [[BigInt; 3]; 3], BigInt, [[BigInt; 2]; 2]);
 
 /// Builds the quartic of `D_λ` by parametrising `side`'s conic.
-#[allow(clippy::too_many_arguments)]
 fn quartic_for(
     side: ConicSide,
     lambda: &BigInt,
@@ -818,7 +817,6 @@ fn quartic_for(
     Ok((coeffs, par, k, frame))
 }
 
-#[allow(clippy::too_many_arguments)]
 fn examine_twist(
     lambda: &BigInt,
     d: &BigInt,
@@ -1151,7 +1149,6 @@ struct SolubleCovering {
 /// Searches one soluble covering (its own search budget, charged to
 /// `budget`): the point of C_d and E if one is found and maps back, else
 /// the covering as a survivor with its search.
-#[allow(clippy::too_many_arguments)]
 fn search_covering(
     a: &BigInt,
     b: &BigInt,
@@ -1173,9 +1170,7 @@ fn search_covering(
         "second descent: covering searches",
     )?;
     if let SearchOutcome::Found(cp) = &outcome {
-        if let Some((space_point, x, y)) =
-            map_back(a, b, d, s, &c.lambda, &c.par, &c.k, &c.frame, cp)?
-        {
+        if let Some((space_point, x, y)) = map_back(a, b, d, s, &c, cp)? {
             return Ok(Ok(SecondDescentOutcome::Point {
                 space_point,
                 point_x: x,
@@ -1196,18 +1191,16 @@ fn search_covering(
 /// Maps a point of the covering `g_λ` back to `C_d` and `E`, and verifies
 /// it on both. `None` if it is a point with `e = 0` (impossible for
 /// non-square `d`, kept for safety).
-#[allow(clippy::too_many_arguments)]
 fn map_back(
     a: &BigInt,
     b: &BigInt,
     d: &BigInt,
     s: &Setup,
-    lambda: &BigInt,
-    par: &[[BigInt; 3]; 3],
-    k: &BigInt,
-    frame: &[[BigInt; 2]; 2],
+    covering: &SolubleCovering,
     cp: &QuarticPoint,
 ) -> Result<Option<(QuarticPoint, BigRational, BigRational)>> {
+    let (lambda, par) = (&covering.lambda, &covering.par);
+    let (k, frame) = (&covering.k, &covering.frame);
     let m = &frame[0][0] * &cp.x + &frame[0][1] * &cp.z;
     let n = &frame[1][0] * &cp.x + &frame[1][1] * &cp.z;
     let u = eval2(&par[0], &m, &n);
