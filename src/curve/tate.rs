@@ -146,6 +146,7 @@ pub enum ReductionKind {
 /// The local data of an elliptic curve at one prime, as found by Tate's
 /// algorithm.
 #[derive(Debug, Clone, PartialEq, Eq)]
+#[non_exhaustive]
 pub struct LocalReduction {
     /// The prime `p`.
     pub prime: Prime,
@@ -170,6 +171,7 @@ pub struct LocalReduction {
 
 /// The local data at every prime together with the global minimal model.
 #[derive(Debug, Clone, PartialEq, Eq)]
+#[non_exhaustive]
 pub struct GlobalLocalData {
     /// The reduced global minimal model `[a1, a2, a3, a4, a6]`:
     /// integral, minimal at every prime, with `a1, a3 ∈ {0, 1}` and

@@ -52,6 +52,7 @@ impl RankProof {
 
 /// The ledger's comparison with the 2-part of Sha proven by the descent.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
+#[non_exhaustive]
 pub struct ShaTwoPart {
     /// dim Ш(E)\[2\] = dim Sel²(E) − dim E(Q)\[2\] − rank (proven).
     pub descent_dimension: usize,

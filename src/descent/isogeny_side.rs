@@ -46,6 +46,7 @@ use crate::selmer::qs2::QS2;
 /// Why a 4-covering of a homogeneous space has no point: the covering
 /// y² = g(u, v) (coefficients of u⁴, u³v, …, v⁴) is insoluble at `place`.
 #[derive(Clone, Debug, PartialEq, Eq)]
+#[non_exhaustive]
 pub struct CoveringObstruction {
     /// The covering quartic's coefficients [g4, g3, g2, g1, g0].
     pub covering: [BigInt; 5],
@@ -101,6 +102,7 @@ impl ClassStatus {
 
 /// A basis element of a Selmer group with its status.
 #[derive(Clone, Debug, PartialEq, Eq)]
+#[non_exhaustive]
 pub struct SelmerElement {
     /// The square-free integer representing the class.
     pub class: BigInt,
@@ -110,6 +112,7 @@ pub struct SelmerElement {
 
 /// One search of a homogeneous space C_d, kept as evidence.
 #[derive(Clone, Debug, PartialEq, Eq)]
+#[non_exhaustive]
 pub struct SearchRecord {
     /// The class d.
     pub class: BigInt,

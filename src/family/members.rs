@@ -116,6 +116,7 @@ impl fmt::Display for Parameter {
 /// One member of a family: its place in the enumeration, its parameter and
 /// its curve.
 #[derive(Clone, Debug, PartialEq, Eq)]
+#[non_exhaustive]
 pub struct Member {
     /// Position in the family's enumeration, from 0.
     pub index: u64,

@@ -22,6 +22,7 @@ use crate::error::{Error, Result};
 
 /// The fields of an output record that summaries, resumes and merges use.
 #[derive(Clone, Debug, PartialEq, Eq)]
+#[non_exhaustive]
 pub struct RecordLine {
     /// `family_index`.
     pub index: u64,
@@ -110,6 +111,7 @@ const MAX_TRACE: usize = 512;
 /// Counts over the records of a scan, in O(1) memory in the number of
 /// records (the maps are keyed by small dimensions).
 #[derive(Clone, Debug, Default, PartialEq)]
+#[non_exhaustive]
 pub struct Tally {
     /// Records counted.
     pub curves: u64,
@@ -319,6 +321,7 @@ fn io_err(action: &str, target: &str, e: &std::io::Error) -> Error {
 
 /// What an existing output file holds, for resuming a scan.
 #[derive(Clone, Debug, PartialEq)]
+#[non_exhaustive]
 pub struct ResumeState {
     /// Bytes of complete lines at the start of the file: the file is to be
     /// truncated to this length before appending.
@@ -404,6 +407,7 @@ pub fn read_for_resume<R: BufRead>(mut input: R, name: &str, shard: &Shard) -> R
 
 /// Up to [`IndexList::KEEP`] example indices and the total count.
 #[derive(Clone, Debug, Default, PartialEq, Eq)]
+#[non_exhaustive]
 pub struct IndexList {
     /// How many.
     pub count: u64,
@@ -440,6 +444,7 @@ impl fmt::Display for IndexList {
 
 /// The outcome of [`merge_shards`].
 #[derive(Clone, Debug, Default, PartialEq)]
+#[non_exhaustive]
 pub struct MergeReport {
     /// Records written (one per member found).
     pub written: u64,

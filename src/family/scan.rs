@@ -105,6 +105,7 @@ impl FromStr for Shard {
 
 /// One member's result.
 #[derive(Clone, Debug, PartialEq)]
+#[non_exhaustive]
 pub struct ScanRecord {
     /// The member's index in the family.
     pub index: u64,

@@ -126,6 +126,7 @@ const CHUNK_WORDS: usize = 4096;
 /// A point `(x, z, y)` of `y² = g(x, z)`, normalised: `gcd(x, z) = 1`,
 /// `z > 0` or `(x, z) = (1, 0)`, and `y ≥ 0`.
 #[derive(Debug, Clone, PartialEq, Eq, Hash)]
+#[non_exhaustive]
 pub struct QuarticPoint {
     /// The first coordinate.
     pub x: BigInt,
@@ -183,6 +184,7 @@ pub enum SearchOutcome {
 
 /// All points found by a search that may have been cut short by its budget.
 #[derive(Debug, Clone, PartialEq, Eq)]
+#[non_exhaustive]
 pub struct SearchReport {
     /// Every point of height `≤ completed_height`, in search order, followed
     /// (only when `finished` is false) by points of larger height that were

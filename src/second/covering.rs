@@ -217,6 +217,7 @@ pub enum ObstructedCurve {
 
 /// One twist `λ` whose covering `D_λ` has no point over `Q_v`.
 #[derive(Clone, Debug, PartialEq, Eq)]
+#[non_exhaustive]
 pub struct TwistObstruction {
     /// The square-free twist `λ`.
     pub lambda: BigInt,
@@ -252,6 +253,7 @@ impl TwistObstruction {
 /// A 4-covering that is locally soluble everywhere, with what the search
 /// on it found (nothing, or it ran out of budget).
 #[derive(Clone, Debug, PartialEq, Eq)]
+#[non_exhaustive]
 pub struct SurvivingCovering {
     /// The twist `λ`.
     pub lambda: BigInt,
@@ -264,6 +266,7 @@ pub struct SurvivingCovering {
 /// The evidence of [`SecondDescentOutcome::NoPoint`]: the parametrisation
 /// of `(Q)`, the complete list of twists and one obstruction per twist.
 #[derive(Clone, Debug, PartialEq, Eq)]
+#[non_exhaustive]
 pub struct NoPointEvidence {
     /// `[q₁, q₂, q₃]` parametrising `X² − dY² = (a² − 4b)Z²`.
     pub conic_forms: [[BigInt; 3]; 3],

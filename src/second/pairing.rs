@@ -63,6 +63,7 @@ use crate::selmer::QS2;
 
 /// The value of the tangent form at one local point of `C_d`.
 #[derive(Clone, Debug, PartialEq, Eq)]
+#[non_exhaustive]
 pub struct LocalLiftValue {
     /// The place `v`.
     pub place: Place,
@@ -85,6 +86,7 @@ pub struct LocalLiftValue {
 /// Everything used to evaluate `⟨d, ·⟩` for one class `d`, re-checkable by
 /// [`verify_class_lift`].
 #[derive(Clone, Debug, PartialEq, Eq)]
+#[non_exhaustive]
 pub struct ClassLift {
     /// The square-free class `d` (a divisor of `b`).
     pub class: BigInt,
@@ -107,6 +109,7 @@ impl ClassLift {
 
 /// The pairing on one Selmer group and its kernel.
 #[derive(Clone, Debug, PartialEq, Eq)]
+#[non_exhaustive]
 pub struct LiftPairing {
     /// The basis `d₁, …, dₙ` of the Selmer group used (coordinate vectors):
     /// first `known_count` classes known to be images of rational points
