@@ -237,7 +237,7 @@ impl SelmerSide {
 
     /// An upper bound for dim α(E(Q)) (dim Sel minus what the second
     /// descent proved).
-    pub fn image_upper(&self) -> usize {
+    pub(crate) fn image_upper(&self) -> usize {
         self.image_upper
     }
 

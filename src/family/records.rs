@@ -178,7 +178,7 @@ impl Tally {
 
     /// Decided records over all records (error lines count as undecided);
     /// 0 for an empty tally.
-    pub fn decided_share(&self) -> f64 {
+    pub(crate) fn decided_share(&self) -> f64 {
         if self.curves == 0 {
             0.0
         } else {

@@ -122,7 +122,7 @@ impl HeightContext {
     ///
     /// # Errors
     /// As [`HeightContext::new`], without the factoring errors.
-    pub fn from_local_data(curve: &Curve, data: &GlobalLocalData) -> Result<HeightContext> {
+    pub(crate) fn from_local_data(curve: &Curve, data: &GlobalLocalData) -> Result<HeightContext> {
         let [u, r, s, t] = data.change.clone();
         let to_min = ModelChange::new(u, r, s, t)?;
         let a: [BigInt; 5] = data.minimal_model.clone();
@@ -317,7 +317,7 @@ impl HeightContext {
     /// # Errors
     /// As [`HeightContext::combination`]; [`Error::BudgetExhausted`] when
     /// the budget or its deadline runs out.
-    pub fn combination_with_budget(
+    pub(crate) fn combination_with_budget(
         &self,
         points: &[Point],
         coefficients: &[BigInt],
