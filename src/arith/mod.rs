@@ -12,6 +12,7 @@
 //!   radius, shared by the analytic side and the heights.
 
 pub(crate) mod certified;
+pub(crate) mod decimal;
 pub(crate) mod dyadic;
 pub(crate) mod ecm;
 pub(crate) mod ecm64;
@@ -19,6 +20,7 @@ pub(crate) mod factor;
 pub(crate) mod meter;
 pub(crate) mod mont;
 pub(crate) mod prime;
+pub(crate) mod real_roots;
 pub(crate) mod rho;
 pub(crate) mod roots;
 pub(crate) mod siqs;
