@@ -19,7 +19,7 @@ fn check_consistent(label: &str, r: &isodescent::DescentReport) {
     assert!(r.conflict().is_none(), "{label}: {:?}", r.conflict());
     let d = r.descent_bounds();
     let b = r.rank_bounds();
-    assert!(d.lower <= b.lower && b.upper <= d.upper, "{label}");
+    assert!(d.lower() <= b.lower() && b.upper() <= d.upper(), "{label}");
     // Monsky's 2-parity theorem.
     if let (Some(s2), Some(w)) = (r.selmer2_rank(), r.analytic().and_then(|a| a.root_number())) {
         let (_, n2) = r.torsion().structure();
@@ -33,7 +33,7 @@ fn check_consistent(label: &str, r: &isodescent::DescentReport) {
     }
     // Generators, when claimed, are as many as the rank and lie on the curve.
     if r.points_generate() {
-        assert_eq!(r.points().len(), b.lower, "{label}");
+        assert_eq!(r.points().len(), b.lower(), "{label}");
     }
     for p in r.points() {
         assert!(r.curve().contains(p), "{label}");

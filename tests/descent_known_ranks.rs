@@ -57,7 +57,7 @@ fn congruent_number_curves_up_to_300_are_consistent_with_tunnell() {
         for p in r.descent_points() {
             assert!(c.contains(p), "n = {n}: point not on the curve");
         }
-        assert_eq!(r.descent_points().len(), r.descent_bounds().lower);
+        assert_eq!(r.descent_points().len(), r.descent_bounds().lower());
     }
     // Not an assertion about exact numbers: the first descent must decide
     // most of this range.

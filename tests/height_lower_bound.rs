@@ -146,7 +146,7 @@ fn the_bound_over_the_box_and_the_congruent_curves() {
         for p in report.points() {
             let h = ctx.height(p).unwrap();
             assert!(cs.bound <= h.upper(), "{a:?} {p:?}: {} > {h}", cs.bound);
-            worst = worst.min(h.value / cs.bound);
+            worst = worst.min(h.value() / cs.bound);
             compared += 1;
         }
     }

@@ -31,16 +31,42 @@ impl Completion {
     }
 }
 
-/// Proven bounds `lower ≤ rank E(Q) ≤ upper`.
+/// Proven bounds `lower ≤ rank E(Q) ≤ upper` (the fields are private so
+/// that `lower ≤ upper` always holds; read them with
+/// [`RankBounds::lower`] and [`RankBounds::upper`]).
 #[derive(Clone, Copy, Debug, PartialEq, Eq, Hash)]
 pub struct RankBounds {
     /// Proven lower bound.
-    pub lower: usize,
+    pub(crate) lower: usize,
     /// Proven upper bound.
-    pub upper: usize,
+    pub(crate) upper: usize,
 }
 
 impl RankBounds {
+    /// The bounds `lower ≤ rank ≤ upper`.
+    ///
+    /// # Errors
+    /// [`Error::InvalidArgument`](crate::Error::InvalidArgument) when
+    /// `lower > upper`.
+    pub fn new(lower: usize, upper: usize) -> crate::Result<RankBounds> {
+        if lower > upper {
+            return Err(crate::Error::InvalidArgument {
+                reason: format!("rank bounds need lower ≤ upper, got [{lower}, {upper}]"),
+            });
+        }
+        Ok(RankBounds { lower, upper })
+    }
+
+    /// The proven lower bound.
+    pub fn lower(&self) -> usize {
+        self.lower
+    }
+
+    /// The proven upper bound.
+    pub fn upper(&self) -> usize {
+        self.upper
+    }
+
     /// True when the bounds meet.
     pub fn is_decided(&self) -> bool {
         self.lower == self.upper
@@ -50,7 +76,7 @@ impl RankBounds {
 /// Everything a descent found about one curve.
 ///
 /// Invariants: `rank_lower() ≤ rank_upper()`; `points()` holds
-/// `descent_bounds().lower` points of the input curve, independent modulo
+/// `descent_bounds().lower()` points of the input curve, independent modulo
 /// torsion (fewer than `rank_lower()` when an analytic theorem raised the
 /// lower bound and the search has not found the points);
 /// `isogenies()` holds one descent per rational 2-torsion point that ran
@@ -227,7 +253,7 @@ impl DescentReport {
     /// ĥ of each of [`DescentReport::points`], in the same order,
     /// certified (normalisation of [`crate::height`]); empty when a height
     /// could not be computed.
-    pub fn point_heights(&self) -> &[crate::height::Certified] {
+    pub fn point_heights(&self) -> &[crate::arith::Certified] {
         match &self.global.saturation {
             Some(s) => &s.heights,
             None => &self.global.point_heights,
@@ -236,7 +262,7 @@ impl DescentReport {
 
     /// The regulator of the returned points, when saturation ran (1 for
     /// rank 0 is not reported here).
-    pub fn regulator(&self) -> Option<crate::height::Certified> {
+    pub fn regulator(&self) -> Option<crate::arith::Certified> {
         self.global.saturation.as_ref().map(|s| s.regulator)
     }
 

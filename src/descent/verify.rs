@@ -39,6 +39,7 @@ use crate::selmer::group::{selmer_from_local_images, LocalCondition};
 
 /// One check and whether it passed.
 #[derive(Clone, Debug, PartialEq, Eq)]
+#[non_exhaustive]
 pub struct Check {
     /// What was checked.
     pub what: String,
@@ -48,6 +49,7 @@ pub struct Check {
 
 /// The outcome of [`verify_report`].
 #[derive(Clone, Debug, Default, PartialEq, Eq)]
+#[non_exhaustive]
 pub struct Verification {
     /// Every check made, in order.
     pub checks: Vec<Check>,

@@ -9,6 +9,11 @@
 //!   serde; every line carries `format_version`.
 //! * `batch`: one curve per input line, one JSON line out; invalid bytes
 //!   and panics become that line's error and the batch goes on.
+//!
+//! ---
+//!
+//! The guide below is `docs/report_format.md`, included verbatim.
+#![doc = include_str!("../../docs/report_format.md")]
 
 pub(crate) mod batch;
 pub(crate) mod json;
