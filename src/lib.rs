@@ -50,6 +50,9 @@ pub mod height;
 // Layer 4: rational conics — Legendre's equation, parametrisation.
 pub mod conic;
 
+// Layer 4b: plane cubics F(u, v) = c·w³ over Q_p, Eisenstein integers.
+pub mod cubic;
+
 // Layer 5: quartic homogeneous spaces — local solvability, point search, 4-coverings.
 pub mod quartic;
 
