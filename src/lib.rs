@@ -62,6 +62,9 @@ pub mod selmer;
 // Layer 7: the descent — both sides of each 2-isogeny, rank bounds, reports.
 pub mod descent;
 
+// Layer 7b: descent via 3-isogeny on y^2 = x^3 + k (Selmer groups over F3, rank bounds).
+pub mod descent3;
+
 // Layer 8: the edge — reports as text and JSON, input lines as curves.
 pub mod output;
 

@@ -5,8 +5,7 @@
 //! ramifies (3 = −ω²(1 − ω)²), a prime p ≡ 2 mod 3 stays inert.
 
 use num_bigint::BigInt;
-use num_integer::{Integer, Roots};
-#[allow(unused_imports)]
+use num_integer::Integer;
 use num_traits::{One, Signed, Zero};
 
 use crate::error::{Error, Result};
