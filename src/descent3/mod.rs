@@ -56,10 +56,11 @@ use num_bigint::BigInt;
 use num_rational::BigRational;
 use num_traits::{One, Signed, Zero};
 
+use crate::analytic::{analyse, AnalyticOptions, RankTheorem};
 use crate::arith::factor;
 use crate::budget::Budget;
 use crate::cubic::{CubicPoint, CubicWitness};
-use crate::curve::{short_integral_model, Curve, ModelChange, Point};
+use crate::curve::{short_integral_model, Curve, GlobalLocalData, ModelChange, Point};
 use crate::error::{Error, Result};
 use crate::local::Prime;
 use f3::Span;
@@ -68,7 +69,7 @@ use side::{intersect_local, point_on, search_side, SideSetup};
 pub use side::{Generator3, SideField};
 
 /// Options of [`descend_3isogeny`].
-#[derive(Debug, Clone, PartialEq, Eq)]
+#[derive(Debug, Clone, PartialEq)]
 #[non_exhaustive]
 pub struct Isogeny3Options {
     /// Height bound for the point search on each plane cubic: coprime
@@ -84,6 +85,9 @@ pub struct Isogeny3Options {
     pub tamagawa_check: bool,
     /// Optional wall-clock limit for one curve.
     pub time_limit: Option<Duration>,
+    /// The analytic side, run only when the descent leaves a gap between
+    /// its bounds (`None`: off).
+    pub analytic: Option<AnalyticOptions>,
 }
 
 impl Default for Isogeny3Options {
@@ -95,6 +99,7 @@ impl Default for Isogeny3Options {
             search_units: 2_000_000,
             tamagawa_check: true,
             time_limit: None,
+            analytic: Some(AnalyticOptions::default()),
         }
     }
 }
@@ -165,6 +170,16 @@ impl TamagawaRatio {
     }
 }
 
+/// What settled the rank.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+#[non_exhaustive]
+pub enum Rank3Proof {
+    /// The two bounds of the descent meet.
+    Descent,
+    /// A certified L-value within the descent's bounds, by the theorem named.
+    Analytic(RankTheorem),
+}
+
 /// The outcome of [`descend_3isogeny`].
 #[derive(Debug, Clone, PartialEq, Eq)]
 #[non_exhaustive]
@@ -187,6 +202,12 @@ pub struct Isogeny3Report {
     pub points: Vec<Point>,
     /// Cassels' check, when asked for.
     pub tamagawa: Option<TamagawaRatio>,
+    /// The rank, when proven, and what proved it.
+    pub rank: Option<(usize, Rank3Proof)>,
+    /// When the rank r is proven: rank_upper − r, the F3-dimension that
+    /// Sha(E)\[φ\] and Sha(E′)\[φ̂\] contribute to the Selmer groups
+    /// (nonzero means nontrivial elements of the Tate–Shafarevich groups).
+    pub sha_dim: Option<usize>,
     /// False when a budget or the clock cut the point search short (the
     /// bounds are still proven).
     pub search_complete: bool,
@@ -391,12 +412,41 @@ pub fn descend_3isogeny(e: &Curve, opts: &Isogeny3Options) -> Result<Isogeny3Rep
             check: "the images of points lie in the Selmer groups".into(),
         });
     }
-    let tamagawa = if opts.tamagawa_check {
-        let mut tb = budget_for(opts.factor_units, start, opts.time_limit);
-        Some(tamagawa_ratio(&k, s1.selmer_dim(), s0.selmer_dim(), &mut tb)?)
+    let mut tb = budget_for(opts.factor_units, start, opts.time_limit);
+    let needs_analytic = opts.analytic.is_some() && rank_lower < rank_upper;
+    let local = if opts.tamagawa_check || needs_analytic {
+        let z = BigInt::zero;
+        let ek = Curve::from_bigints([z(), z(), z(), z(), k.clone()])?;
+        Some((ek.local_data(&mut tb)?, ek))
     } else {
         None
     };
+    let tamagawa = match (&local, opts.tamagawa_check) {
+        (Some((l1, _)), true) => Some(tamagawa_ratio(
+            &k,
+            l1,
+            s1.selmer_dim(),
+            s0.selmer_dim(),
+            &mut tb,
+        )?),
+        _ => None,
+    };
+    let mut rank = (rank_lower == rank_upper).then_some((rank_lower, Rank3Proof::Descent));
+    if let (Some(ao), Some((l1, ek)), true) = (&opts.analytic, &local, needs_analytic) {
+        let mut ab = budget_for(u64::MAX, start, opts.time_limit);
+        let data = analyse(ek, l1, ao, &mut ab)?;
+        if let Some((r, theorem)) = data.rank_proven() {
+            if r < rank_lower || r > rank_upper {
+                return Err(Error::Internal {
+                    check: format!(
+                        "the analytic rank {r} lies in the descent's bounds [{rank_lower}, {rank_upper}]"
+                    ),
+                });
+            }
+            rank = Some((r, Rank3Proof::Analytic(theorem)));
+        }
+    }
+    let sha_dim = rank.map(|(r, _)| rank_upper - r);
     Ok(Isogeny3Report {
         curve: e.clone(),
         k,
@@ -406,6 +456,8 @@ pub fn descend_3isogeny(e: &Curve, opts: &Isogeny3Options) -> Result<Isogeny3Rep
         rank_upper,
         points: user_points,
         tamagawa,
+        rank,
+        sha_dim,
         search_complete,
     })
 }
@@ -420,23 +472,22 @@ fn sqrt_int(n: &BigInt) -> Result<BigInt> {
 /// 3^(sel_phi − sel_phihat).
 pub(crate) fn tamagawa_ratio(
     k: &BigInt,
+    l1: &GlobalLocalData,
     sel_phi: usize,
     sel_phihat: usize,
     budget: &mut Budget,
 ) -> Result<TamagawaRatio> {
     let z = BigInt::zero;
-    let e = Curve::from_bigints([z(), z(), z(), z(), k.clone()])?;
     let k2 = BigInt::from(-27) * k;
     let e2 = Curve::from_bigints([z(), z(), z(), z(), k2.clone()])?;
-    let l1 = e.local_data(budget)?;
     let l2 = e2.local_data(budget)?;
-    let tam = |l: &crate::curve::GlobalLocalData| -> Vec<(BigInt, u64)> {
+    let tam = |l: &GlobalLocalData| -> Vec<(BigInt, u64)> {
         l.primes
             .iter()
             .map(|r| (r.prime.get().clone(), r.tamagawa))
             .collect()
     };
-    let t1 = tam(&l1);
+    let t1 = tam(l1);
     let t2 = tam(&l2);
     let prod = |t: &[(BigInt, u64)]| t.iter().map(|(_, c)| BigInt::from(*c)).product::<BigInt>();
     let alpha = &l2.change[0] / &l1.change[0];
@@ -460,4 +511,144 @@ pub(crate) fn tamagawa_ratio(
         tamagawa_isogenous: t2,
         alpha,
     })
+}
+
+impl std::fmt::Display for SideField {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        match self {
+            SideField::Rational => write!(f, "Q (kernel point rational)"),
+            SideField::Eisenstein => write!(f, "Q(√−3)"),
+        }
+    }
+}
+
+fn class_text(gens: &[Generator3], v: &[u8]) -> String {
+    let parts: Vec<String> = gens
+        .iter()
+        .zip(v)
+        .filter(|(_, &e)| e != 0)
+        .map(|(g, &e)| if e == 1 { format!("{g}") } else { format!("({g})^{e}") })
+        .collect();
+    if parts.is_empty() {
+        "1".into()
+    } else {
+        parts.join("·")
+    }
+}
+
+impl std::fmt::Display for Isogeny3Report {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        writeln!(f, "Descent via 3-isogeny for {}", self.curve)?;
+        writeln!(
+            f,
+            "  working model: y^2 = x^3 + {}   (u, r, s, t) = ({}, {}, {}, {})",
+            self.k,
+            self.change.u(),
+            self.change.r(),
+            self.change.s(),
+            self.change.t()
+        )?;
+        let names = ["φ̂ side, image of E(Q)", "φ side, image of E'(Q)"];
+        for (side, name) in self.sides.iter().zip(names) {
+            writeln!(f, "  curve y^2 = x^3 + {}  [{name}]", side.k)?;
+            writeln!(f, "    field of y − √k: {}", side.field)?;
+            let gens: Vec<String> = side.generators.iter().map(|g| g.to_string()).collect();
+            writeln!(f, "    group generators: {}", gens.join(", "))?;
+            let sel: Vec<String> = side
+                .selmer_basis
+                .iter()
+                .map(|v| class_text(&side.generators, v))
+                .collect();
+            writeln!(
+                f,
+                "    Selmer group: dimension {} over F3, basis {{{}}}",
+                side.selmer_dim(),
+                sel.join(", ")
+            )?;
+            writeln!(f, "    images of known points: dimension {}", side.image_dim)?;
+            for fd in &side.finds {
+                writeln!(
+                    f,
+                    "    class {}: (u : v : w) = ({} : {} : {}) gives {}",
+                    class_text(&side.generators, &fd.class),
+                    fd.on_cubic.u,
+                    fd.on_cubic.v,
+                    fd.on_cubic.w,
+                    fd.point
+                )?;
+            }
+        }
+        writeln!(
+            f,
+            "  rank bounds: {} ≤ rank ≤ {} (exact sequence of the 3-isogeny{})",
+            self.rank_lower,
+            self.rank_upper,
+            if self.search_complete { "" } else { "; point search cut by a budget" }
+        )?;
+        match &self.rank {
+            Some((r, Rank3Proof::Descent)) => writeln!(f, "  rank = {r}: the bounds meet")?,
+            Some((r, Rank3Proof::Analytic(t))) => {
+                writeln!(f, "  rank = {r}: certified L-value, {}", t.name())?
+            }
+            None => writeln!(f, "  rank: not settled")?,
+        }
+        if let Some(d) = self.sha_dim {
+            if d > 0 {
+                writeln!(
+                    f,
+                    "  Tate–Shafarevich: the φ- and φ̂-parts add {d} to the Selmer dimensions"
+                )?;
+            }
+        }
+        if let Some(t) = &self.tamagawa {
+            writeln!(
+                f,
+                "  Cassels' ratio: |Sel^φ|/|Sel^φ̂| = {}, Tamagawa side = {} ({})",
+                t.selmer_ratio,
+                t.formula,
+                if t.holds() { "equal" } else { "DIFFERENT" }
+            )?;
+        }
+        for p in &self.points {
+            writeln!(f, "  point on the given curve: {p}")?;
+        }
+        Ok(())
+    }
+}
+
+/// The outcome of [`descend_by_isogeny`]: the descent that applied.
+#[derive(Debug, Clone)]
+#[non_exhaustive]
+#[allow(clippy::large_enum_variant)]
+pub enum IsogenyDescent {
+    /// Descent via 2-isogeny ([`crate::descend`]).
+    Two(crate::descent::DescentReport),
+    /// Descent via 3-isogeny ([`descend_3isogeny`]).
+    Three(Isogeny3Report),
+}
+
+/// Descent via 2-isogeny when the curve has a rational point of order 2,
+/// else via 3-isogeny when it has j = 0 and a kernel over Q or Q(√−3).
+///
+/// # Errors
+/// Those of [`crate::descend`] for curves with a point of order 2;
+/// otherwise those of [`descend_3isogeny`] ([`Error::NoSupportedIsogeny`]
+/// when neither descent applies).
+pub fn descend_by_isogeny(
+    e: &Curve,
+    two: &crate::descent::DescentOptions,
+    three: &Isogeny3Options,
+) -> Result<IsogenyDescent> {
+    match crate::descent::descend(e, two) {
+        Ok(r) => Ok(IsogenyDescent::Two(r)),
+        Err(Error::NoTwoTorsion) => descend_3isogeny(e, three)
+            .map(IsogenyDescent::Three)
+            .map_err(|err| match err {
+                Error::NoSupportedIsogeny { reason } => Error::NoSupportedIsogeny {
+                    reason: format!("no rational point of order 2, and {reason}"),
+                },
+                other => other,
+            }),
+        Err(other) => Err(other),
+    }
 }
