@@ -207,17 +207,16 @@ impl SideSetup {
         let (Some(x), Some(y)) = (pt.x(), pt.y()) else {
             return Ok(zero);
         };
-        let _ = x;
+        let _ = x; // only y enters the class
         match self.field {
             SideField::Rational => {
                 // y − m, or (2m)⁻¹ at the kernel point y = m.
                 let z = y - BigRational::from_integer(self.m.clone());
-                let (num, den, neg) = if z.is_zero() {
-                    (BigInt::one(), BigInt::from(2) * &self.m, false)
+                let (num, den) = if z.is_zero() {
+                    (BigInt::one(), BigInt::from(2) * &self.m)
                 } else {
-                    (z.numer().clone(), z.denom().clone(), false)
+                    (z.numer().clone(), z.denom().clone())
                 };
-                let _ = neg;
                 let mut out = zero;
                 let (mut rn, mut rd) = (num.abs(), den.abs());
                 for (i, p) in self.primes.iter().enumerate() {
@@ -239,8 +238,6 @@ impl SideSetup {
                 let den = y.denom().clone();
                 let alpha = Eisenstein::from_parts(y.numer().clone(), -(&self.m * &den));
                 let mut out = zero;
-                let mut known = BigInt::one(); // χ contributions of the split primes, tracked below
-                let _ = &mut known;
                 for (i, g) in self.basis.iter().enumerate() {
                     if let Generator3::SplitPrime { pi, .. } = g {
                         out[i] = (alpha.valuation_at(pi) % 3) as u8;
