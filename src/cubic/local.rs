@@ -227,6 +227,19 @@ pub fn is_padic_cube(z: &BigInt, p: &BigInt) -> bool {
     u.mod_floor(p).modpow(&ex, p).is_one()
 }
 
+fn pow_mod_u64(mut b: u64, mut e: u64, m: u64) -> u64 {
+    let mut r = 1 % m;
+    b %= m;
+    while e > 0 {
+        if e & 1 == 1 {
+            r = r * b % m;
+        }
+        b = b * b % m;
+        e >>= 1;
+    }
+    r
+}
+
 /// The polynomial g(t) = g₀ + g₁t + g₂t² + g₃t³ at t.
 fn eval_poly(g: &[BigInt; 4], t: &BigInt) -> BigInt {
     ((&g[3] * t + &g[2]) * t + &g[1]) * t + &g[0]
@@ -274,6 +287,39 @@ fn chart_search(g: &[BigInt; 4], p: &BigInt, budget: &mut Budget) -> Result<Char
             return Ok(Some((t0, true)));
         }
         budget.spend(children).map_err(|_| exhausted())?;
+        if n == 0 && need == 1 {
+            // The p classes mod p on machine words: a class where g is a
+            // unit is decided by the cube class of g mod p (B ≥ 1 there);
+            // only zeros of g mod p go on to the exact tree.
+            if let Some(pw) = p.to_u64().filter(|&q| q < 1 << 31) {
+                let gm: Vec<u64> = g
+                    .iter()
+                    .map(|x| x.mod_floor(p).to_u64().unwrap_or(0))
+                    .collect();
+                let cube_exp = if pw % 3 == 1 { Some((pw - 1) / 3) } else { None };
+                let mut zeros = Vec::new();
+                for t in 0..pw {
+                    let v = (((gm[3] * t % pw + gm[2]) % pw * t % pw + gm[1]) % pw * t % pw
+                        + gm[0])
+                        % pw;
+                    if v == 0 {
+                        zeros.push(t);
+                        continue;
+                    }
+                    let is_cube = match cube_exp {
+                        None => true,
+                        Some(ex) => pow_mod_u64(v, ex, pw) == 1,
+                    };
+                    if is_cube {
+                        return Ok(Some((BigInt::from(t), false)));
+                    }
+                }
+                for &t in zeros.iter().rev() {
+                    stack.push((BigInt::from(t), 1));
+                }
+                continue;
+            }
+        }
         let step = p.pow(n);
         let mut j = p - 1u32;
         loop {
