@@ -183,6 +183,20 @@ pub(crate) fn val(z: &BigInt, p: &BigInt) -> u64 {
     if z.is_zero() {
         return u64::MAX;
     }
+    if let Some(pw) = p.to_u64() {
+        if pw == 2 {
+            return z.trailing_zeros().unwrap_or(0);
+        }
+        if let Some(x) = z.to_i128() {
+            let (mut x, pw) = (x.unsigned_abs(), u128::from(pw));
+            let mut e = 0;
+            while x % pw == 0 {
+                x /= pw;
+                e += 1;
+            }
+            return e;
+        }
+    }
     let mut e = 0;
     let mut x = z.clone();
     loop {
@@ -249,8 +263,159 @@ fn eval_poly(g: &[BigInt; 4], t: &BigInt) -> BigInt {
 /// Hensel zero (true) or a cube value (false).
 type ChartHit = Option<(BigInt, bool)>;
 
-/// The p-adic tree on one chart.
+/// The p-adic tree on one chart: in i128 (checked) when the coefficients
+/// and p allow it, else (or on an overflow) in BigInt. Both visit the same
+/// classes and give the same answer.
 fn chart_search(g: &[BigInt; 4], p: &BigInt, budget: &mut Budget) -> Result<ChartHit> {
+    if let (Some(pw), Some(g0), Some(g1), Some(g2), Some(g3)) = (
+        p.to_u64().filter(|&q| q < 1 << 31),
+        g[0].to_i128(),
+        g[1].to_i128(),
+        g[2].to_i128(),
+        g[3].to_i128(),
+    ) {
+        let mut trial = budget.clone();
+        if let Some(hit) = chart_search_word(&[g0, g1, g2, g3], pw, &mut trial)? {
+            *budget = trial;
+            return Ok(hit.map(|(t, zero)| (BigInt::from(t), zero)));
+        }
+    }
+    chart_search_big(g, p, budget)
+}
+
+fn val_i128(z: i128, p: u64) -> u64 {
+    if z == 0 {
+        return u64::MAX;
+    }
+    let (mut x, pw) = (z.unsigned_abs(), u128::from(p));
+    let mut e = 0;
+    while x % pw == 0 {
+        x /= pw;
+        e += 1;
+    }
+    e
+}
+
+fn is_cube_i128(z: i128, p: u64) -> bool {
+    let e = val_i128(z, p);
+    if e % 3 != 0 {
+        return false;
+    }
+    let pw = u128::from(p);
+    let mut u = z.unsigned_abs();
+    for _ in 0..e {
+        u /= pw;
+    }
+    let neg = z < 0;
+    if p == 3 {
+        let r = (u % 9) as u64;
+        let r = if neg { (9 - r) % 9 } else { r };
+        return r == 1 || r == 8;
+    }
+    if p % 3 != 1 {
+        return true;
+    }
+    let r = (u % pw) as u64;
+    let r = if neg { (p - r) % p } else { r };
+    pow_mod_u64(r, (p - 1) / 3, p) == 1
+}
+
+/// The tree in checked i128 arithmetic: `Ok(None)` on an overflow (the
+/// caller then redoes the chart in BigInt), `Ok(Some(hit))` otherwise.
+fn chart_search_word(g: &[i128; 4], p: u64, budget: &mut Budget) -> Result<Option<ChartHit1>> {
+    let need: u64 = if p == 3 { 2 } else { 1 };
+    let pi = i128::from(p);
+    let exhausted = || Error::BudgetExhausted {
+        stage: format!("local solubility of a plane cubic at {p}"),
+    };
+    let mut stack: Vec<(i128, u32)> = vec![(0, 0)];
+    while let Some((t0, n)) = stack.pop() {
+        budget.spend(1).map_err(|_| exhausted())?;
+        let eval = || -> Option<(i128, i128, i128)> {
+            let value = g[3]
+                .checked_mul(t0)?
+                .checked_add(g[2])?
+                .checked_mul(t0)?
+                .checked_add(g[1])?
+                .checked_mul(t0)?
+                .checked_add(g[0])?;
+            let d2 = g[3].checked_mul(3)?.checked_mul(t0)?.checked_add(g[2])?;
+            let d1 = g[3]
+                .checked_mul(3)?
+                .checked_mul(t0)?
+                .checked_add(g[2].checked_mul(2)?)?
+                .checked_mul(t0)?
+                .checked_add(g[1])?;
+            Some((value, d1, d2))
+        };
+        let Some((value, d1v, d2v)) = eval() else {
+            return Ok(None);
+        };
+        if value == 0 {
+            return Ok(Some(Some((t0, true))));
+        }
+        let e = val_i128(value, p);
+        let n64 = u64::from(n);
+        let d1 = val_i128(d1v, p);
+        let bound = [
+            d1.saturating_add(n64),
+            val_i128(d2v, p).saturating_add(2 * n64),
+            val_i128(g[3], p).saturating_add(3 * n64),
+        ]
+        .into_iter()
+        .min()
+        .unwrap_or(u64::MAX);
+        if e.saturating_add(need) <= bound {
+            if is_cube_i128(value, p) {
+                return Ok(Some(Some((t0, false))));
+            }
+            continue;
+        }
+        if d1 != u64::MAX && e > 2 * d1 {
+            return Ok(Some(Some((t0, true))));
+        }
+        budget.spend(p).map_err(|_| exhausted())?;
+        let Some(step) = pi.checked_pow(n) else {
+            return Ok(None);
+        };
+        if n == 0 && need == 1 {
+            let gm: Vec<u64> = g.iter().map(|x| x.rem_euclid(pi) as u64).collect();
+            let cube_exp = if p % 3 == 1 { Some((p - 1) / 3) } else { None };
+            let mut zeros = Vec::new();
+            for t in 0..p {
+                let v = (((gm[3] * t % p + gm[2]) % p * t % p + gm[1]) % p * t % p + gm[0]) % p;
+                if v == 0 {
+                    zeros.push(t);
+                    continue;
+                }
+                let is_cube = match cube_exp {
+                    None => true,
+                    Some(ex) => pow_mod_u64(v, ex, p) == 1,
+                };
+                if is_cube {
+                    return Ok(Some(Some((i128::from(t), false))));
+                }
+            }
+            for &t in zeros.iter().rev() {
+                stack.push((i128::from(t), 1));
+            }
+            continue;
+        }
+        for j in (0..pi).rev() {
+            let Some(child) = j.checked_mul(step).and_then(|x| x.checked_add(t0)) else {
+                return Ok(None);
+            };
+            stack.push((child, n + 1));
+        }
+    }
+    Ok(Some(None))
+}
+
+/// A hit of the word-size tree: the parameter and whether it is a zero.
+type ChartHit1 = Option<(i128, bool)>;
+
+/// The p-adic tree on one chart, in BigInt.
+fn chart_search_big(g: &[BigInt; 4], p: &BigInt, budget: &mut Budget) -> Result<ChartHit> {
     let need: u64 = if p == &BigInt::from(3) { 2 } else { 1 };
     let children = p.to_u64().unwrap_or(u64::MAX);
     let exhausted = || Error::BudgetExhausted {
@@ -405,6 +570,30 @@ mod tests {
         assert!(!is_padic_cube(&BigInt::from(2), &p7));
         assert!(is_padic_cube(&BigInt::from(5), &BigInt::from(5)) == false);
         assert!(is_padic_cube(&BigInt::from(2), &BigInt::from(5)));
+    }
+
+    // The word-size tree and the BigInt tree agree (same classes visited).
+    #[test]
+    fn word_and_big_trees_agree() {
+        let mut checked = 0;
+        for p in [2u64, 3, 5, 7, 13] {
+            let pb = BigInt::from(p);
+            for a in [-4i64, 1, 3, 12] {
+                for b in [0i64, 2, 9] {
+                    for d in [1i64, 5, 24, -54, 200] {
+                        let g = [d, b, 0, a];
+                        let gb = g.map(BigInt::from);
+                        let big = chart_search_big(&gb, &pb, &mut Budget::unlimited()).unwrap();
+                        let word = chart_search_word(&g.map(i128::from), p, &mut Budget::unlimited())
+                            .unwrap()
+                            .unwrap();
+                        assert_eq!(big.map(|(t, z)| (t, z)), word.map(|(t, z)| (BigInt::from(t), z)));
+                        checked += 1;
+                    }
+                }
+            }
+        }
+        assert_eq!(checked, 300);
     }
 
     #[test]
