@@ -73,8 +73,9 @@ fn main() {
         } else {
             let t = Instant::now();
             let mut b = Budget::unlimited();
-            let r = analyse(&e, report.local_data(), &AnalyticOptions::default(), &mut b)
-                .ok()
+            let r = report
+                .local_data()
+                .and_then(|l| analyse(&e, l, &AnalyticOptions::default(), &mut b).ok())
                 .and_then(|d| d.rank_proven())
                 .map(|(r, _)| r);
             t_analytic += t.elapsed();

@@ -23,12 +23,12 @@
 //! gets an object with its `error` and the batch goes on. The exit status
 //! is non-zero only for usage or I/O errors.
 
-use std::io::{self, BufRead, Write};
+use std::io::{self, BufRead, Read, Write};
 use std::process::ExitCode;
 
 use isodescent::curve::Curve;
 use isodescent::descent::{descend, DescentOptions};
-use isodescent::output::{json_for_bytes, Detail};
+use isodescent::output::{error_line, json_for_bytes, Detail, MAX_ECHOED_INPUT_BYTES};
 
 /// Demo scenario: a handful of curves a researcher might be checking while
 /// studying y² = x³ + a x² + b x with small coefficients, given in assorted
@@ -144,10 +144,29 @@ fn run(mode: Mode, options: &DescentOptions, detail: Detail) -> io::Result<()> {
             let stdin = io::stdin();
             let mut input = stdin.lock();
             let mut line = Vec::new();
+            // A line longer than any curve text is not kept in memory: its
+            // first bytes and its length are enough for the error object.
+            let cap = MAX_ECHOED_INPUT_BYTES + 2;
             loop {
                 line.clear();
-                if input.read_until(b'\n', &mut line)? == 0 {
+                if input
+                    .by_ref()
+                    .take(cap as u64)
+                    .read_until(b'\n', &mut line)?
+                    == 0
+                {
                     break;
+                }
+                if line.len() == cap && line.last() != Some(&b'\n') {
+                    let total = line.len() + skip_line(&mut input)?;
+                    let head = String::from_utf8_lossy(&line[..256]);
+                    let echo = format!("{head}… ({total} bytes in all)");
+                    let msg = format!(
+                        "line of {total} bytes; at most {MAX_ECHOED_INPUT_BYTES} are accepted"
+                    );
+                    writeln!(out, "{}", error_line(&echo, &msg))?;
+                    out.flush()?;
+                    continue;
                 }
                 if let Some(json) = json_for_bytes(&line, options, detail) {
                     writeln!(out, "{json}")?;
@@ -157,6 +176,29 @@ fn run(mode: Mode, options: &DescentOptions, detail: Detail) -> io::Result<()> {
         }
     }
     out.flush()
+}
+
+/// Consumes the rest of the current line (through its newline, if any)
+/// without keeping it; returns the number of bytes consumed.
+fn skip_line(input: &mut impl BufRead) -> io::Result<usize> {
+    let mut total = 0;
+    loop {
+        let buf = input.fill_buf()?;
+        if buf.is_empty() {
+            return Ok(total);
+        }
+        match buf.iter().position(|&b| b == b'\n') {
+            Some(i) => {
+                input.consume(i + 1);
+                return Ok(total + i + 1);
+            }
+            None => {
+                let n = buf.len();
+                input.consume(n);
+                total += n;
+            }
+        }
+    }
 }
 
 fn main() -> ExitCode {

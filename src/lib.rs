@@ -53,22 +53,25 @@ pub mod conic;
 // Layer 4b: plane cubics F(u, v) = c·w³ over Q_p, Eisenstein integers.
 pub mod cubic;
 
-// Layer 5: quartic homogeneous spaces — local solvability, point search, 4-coverings.
+// Layer 5: quartic homogeneous spaces — local solvability, local images, point search.
 pub mod quartic;
 
 // Layer 6: F2 vector spaces, Q(S,2), Selmer groups, local-image counts.
 pub mod selmer;
 
-// Layer 7: the descent — both sides of each 2-isogeny, rank bounds, reports.
+// Layer 7: the second descent — 4-coverings, the lifting pairing, twist obstructions.
+pub mod second;
+
+// Layer 8: the descent — both sides of each 2-isogeny, rank bounds, reports.
 pub mod descent;
 
-// Layer 7b: descent via 3-isogeny on y^2 = x^3 + k (Selmer groups over F3, rank bounds).
+// Layer 8b: descent via 3-isogeny on y^2 = x^3 + k (Selmer groups over F3, rank bounds).
 pub mod descent3;
 
-// Layer 8: the edge — reports as text and JSON, input lines as curves.
+// Layer 9: the edge — reports as text and JSON, input lines as curves.
 pub mod output;
 
-// Layer 9: families of curves — twists, congruent numbers, boxes; streaming, parallel, sharded scans.
+// Layer 10: families of curves — twists, congruent numbers, boxes; streaming, parallel, sharded scans.
 pub mod family;
 
 pub use budget::Budget;

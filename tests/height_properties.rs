@@ -150,7 +150,7 @@ proptest! {
     }
 
     // The naive and canonical heights differ by at most the proven bounds
-    // of bounds::difference_bounds (on the minimal model).
+    // of naive_vs_canonical::difference_bounds (on the minimal model).
     #[test]
     fn naive_and_canonical_heights_differ_by_at_most_the_bounds(
         k in 0usize..CURVES.len(), c in coeffs(), t in 0usize..8

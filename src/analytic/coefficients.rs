@@ -31,6 +31,7 @@ use num_integer::Integer;
 use num_traits::{ToPrimitive, Zero};
 
 use super::cm::{ap_closed_form, Family};
+use crate::arith::word::mul_mod;
 use crate::budget::Budget;
 use crate::curve::tate::{integral_invariants, GlobalLocalData, ReductionKind};
 use crate::curve::{torsion_subgroup, Curve};
@@ -209,14 +210,6 @@ fn residue(x: &BigInt, p: u64) -> u64 {
     x.mod_floor(&BigInt::from(p)).to_u64().unwrap_or(0)
 }
 
-fn mulmod(a: u64, b: u64, p: u64) -> u64 {
-    if p < (1 << 32) {
-        (a * b) % p
-    } else {
-        ((u128::from(a) * u128::from(b)) % u128::from(p)) as u64
-    }
-}
-
 fn addmod(a: u64, b: u64, p: u64) -> u64 {
     let s = a + b; // a, b < p < 2^63
     if s >= p {
@@ -289,12 +282,12 @@ fn direct(b: [u64; 3], p: u64) -> i64 {
 fn direct_jacobi(b: [u64; 3], p: u64) -> i64 {
     let [b2, b4, b6] = b;
     let c3 = 4 % p;
-    let c1 = mulmod(2, b4, p);
+    let c1 = mul_mod(2, b4, p);
     let mut s: i64 = 0;
     for x in 0..p {
         let v = addmod(
-            mulmod(
-                addmod(mulmod(addmod(mulmod(c3, x, p), b2, p), x, p), c1, p),
+            mul_mod(
+                addmod(mul_mod(addmod(mul_mod(c3, x, p), b2, p), x, p), c1, p),
                 x,
                 p,
             ),
@@ -344,13 +337,13 @@ impl Fp {
                     if addmod(y1, y2, p) == 0 {
                         return Pt::Inf;
                     }
-                    let num = addmod(mulmod(3, mulmod(x1, x1, p), p), self.a, p);
-                    mulmod(num, invmod(addmod(y1, y1, p), p), p)
+                    let num = addmod(mul_mod(3, mul_mod(x1, x1, p), p), self.a, p);
+                    mul_mod(num, invmod(addmod(y1, y1, p), p), p)
                 } else {
-                    mulmod(submod(y2, y1, p), invmod(submod(x2, x1, p), p), p)
+                    mul_mod(submod(y2, y1, p), invmod(submod(x2, x1, p), p), p)
                 };
-                let x3 = submod(submod(mulmod(lambda, lambda, p), x1, p), x2, p);
-                let y3 = submod(mulmod(lambda, submod(x1, x3, p), p), y1, p);
+                let x3 = submod(submod(mul_mod(lambda, lambda, p), x1, p), x2, p);
+                let y3 = submod(mul_mod(lambda, submod(x1, x3, p), p), y1, p);
                 Pt::A(x3, y3)
             }
         }
@@ -440,19 +433,19 @@ fn bsgs(a: u64, b: u64, p: u64, tries: u64) -> Option<i64> {
     let mut tried = 0;
     let mut x0 = 0u64;
     while tried < tries && x0 < p {
-        let d = addmod(mulmod(addmod(mulmod(x0, x0, p), a, p), x0, p), b, p);
+        let d = addmod(mul_mod(addmod(mul_mod(x0, x0, p), a, p), x0, p), b, p);
         x0 += 1;
         if d == 0 {
             continue;
         }
         tried += 1;
         let chi = i64::from(legendre_u64(d, p));
-        let d2 = mulmod(d, d, p);
+        let d2 = mul_mod(d, d, p);
         let f = Fp {
             p,
-            a: mulmod(a, d2, p),
+            a: mul_mod(a, d2, p),
         };
-        let pt = Pt::A(mulmod(x0 - 1, d, p), d2);
+        let pt = Pt::A(mul_mod(x0 - 1, d, p), d2);
         let Some(c) = candidates(&f, pt, bound) else {
             continue;
         };

@@ -25,6 +25,7 @@ pub(crate) mod word;
 
 pub(crate) use dyadic::sign_at_f64;
 pub use factor::{factor, factor_u64, Factorization};
-pub use prime::{is_prime, is_prime_u64, jacobi};
+pub(crate) use prime::jacobi_big;
+pub use prime::{is_prime, is_prime_u64};
 pub use roots::{is_perfect_square, isqrt, rational_sqrt_exact, sqrt_exact};
 pub use squarefree::{is_squarefree, squarefree_kernel, squarefree_part, squarefree_part_rational};

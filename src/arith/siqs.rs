@@ -23,6 +23,7 @@
 
 use super::meter::Meter;
 use super::rho::Split;
+use super::word::{pow_mod, sqrt_mod};
 use num_bigint::{BigInt, BigUint};
 use num_integer::Integer;
 use num_traits::{One, Signed, ToPrimitive, Zero};
@@ -103,60 +104,6 @@ impl FbPrime {
         let low = self.recip.wrapping_mul(x as u64);
         ((low as u128 * self.p as u128) >> 64) as u32
     }
-}
-
-/// `a^e mod m` for `m < 2^32`.
-fn pow_mod(mut a: u64, mut e: u64, m: u64) -> u64 {
-    let mut r = 1 % m;
-    a %= m;
-    while e > 0 {
-        if e & 1 == 1 {
-            r = r * a % m;
-        }
-        a = a * a % m;
-        e >>= 1;
-    }
-    r
-}
-
-/// A square root of the quadratic residue `a` modulo the odd prime
-/// `p < 2^32` (Tonelli–Shanks \[Cohen93, Alg. 1.5.1\]).
-fn sqrt_mod(a: u64, p: u64) -> u64 {
-    let a = a % p;
-    if a == 0 {
-        return 0;
-    }
-    let mut q = p - 1;
-    let mut s = 0;
-    while q % 2 == 0 {
-        q /= 2;
-        s += 1;
-    }
-    let mut z = 2;
-    while pow_mod(z, (p - 1) / 2, p) != p - 1 {
-        z += 1;
-    }
-    let mut m = s;
-    let mut c = pow_mod(z, q, p);
-    let mut t = pow_mod(a, q, p);
-    let mut r = pow_mod(a, q.div_ceil(2), p);
-    while t != 1 {
-        let mut i = 0;
-        let mut tt = t;
-        while tt != 1 {
-            tt = tt * tt % p;
-            i += 1;
-            if i == m {
-                return 0; // not a residue: cannot happen for callers
-            }
-        }
-        let b = pow_mod(c, 1 << (m - i - 1), p);
-        m = i;
-        c = b * b % p;
-        t = t * c % p;
-        r = r * b % p;
-    }
-    r
 }
 
 /// `a^{-1} mod p` for `gcd(a, p) = 1` (0 otherwise; callers ensure it).
@@ -248,7 +195,7 @@ pub(crate) fn siqs(n: &BigUint, budget: &mut impl Meter) -> Split {
             if is_residue(knm, p) {
                 fb.push(FbPrime::new(
                     p as u32,
-                    sqrt_mod(knm, p) as u32,
+                    sqrt_mod(knm, p).unwrap_or(0) as u32,
                     (p as f64).log2().round() as u8,
                 ));
             }
@@ -691,7 +638,7 @@ mod tests {
         for p in [3u64, 5, 13, 17, 97, 65537, 4294967291] {
             for a in 1..40u64 {
                 if is_residue(a, p) {
-                    let r = sqrt_mod(a, p);
+                    let r = sqrt_mod(a, p).unwrap();
                     assert_eq!(r * r % p, a % p, "sqrt({a}) mod {p}");
                 }
             }

@@ -858,10 +858,32 @@ fn subprocedure_in_star(run: &mut Run<'_>, disc_val: u64) -> Result<(u64, u64)> 
 /// assert_eq!((lr.conductor_exponent, lr.tamagawa), (1, 5));
 /// ```
 pub fn local_reduction(coeffs: &[BigInt; 5], p: &Prime) -> Result<LocalReduction> {
+    local_reduction_with_budget(coeffs, p, &mut Budget::unlimited())
+}
+
+/// [`local_reduction`] under a budget: one unit per pass of Tate's
+/// algorithm (a pass is O(1) products of numbers of the model's size) and
+/// a read of the budget's deadline before each pass, so that the clock
+/// stops the algorithm on huge models (where one pass takes milliseconds).
+///
+/// # Errors
+/// Those of [`local_reduction`]; [`Error::BudgetExhausted`] when the
+/// budget or its deadline runs out.
+pub(crate) fn local_reduction_with_budget(
+    coeffs: &[BigInt; 5],
+    p: &Prime,
+    budget: &mut Budget,
+) -> Result<LocalReduction> {
     if let Some(lr) = local_reduction_by_words(coeffs, p)? {
         return Ok(lr);
     }
-    local_reduction_big(coeffs, p)
+    local_reduction_budgeted(coeffs, p, budget)
+}
+
+fn tate_stopped() -> Error {
+    Error::BudgetExhausted {
+        stage: "Tate's algorithm".into(),
+    }
 }
 
 /// The machine-word route of [`local_reduction`] (module `tate_word`):
@@ -913,7 +935,19 @@ fn from_word(p: &Prime, w: WordReduction) -> LocalReduction {
 }
 
 /// [`local_reduction`] in `BigInt` arithmetic throughout.
+#[cfg(test)]
 pub(crate) fn local_reduction_big(coeffs: &[BigInt; 5], p: &Prime) -> Result<LocalReduction> {
+    local_reduction_budgeted(coeffs, p, &mut Budget::unlimited())
+}
+
+/// [`local_reduction`] in `BigInt` arithmetic throughout, under `budget`
+/// (see [`local_reduction_with_budget`]).
+fn local_reduction_budgeted(
+    coeffs: &[BigInt; 5],
+    p: &Prime,
+    budget: &mut Budget,
+) -> Result<LocalReduction> {
+    budget.check_deadline().map_err(|_| tate_stopped())?;
     let inv = integral_invariants(coeffs);
     if inv.discriminant.is_zero() {
         return Err(Error::SingularCurve {
@@ -936,6 +970,8 @@ pub(crate) fn local_reduction_big(coeffs: &[BigInt; 5], p: &Prime) -> Result<Loc
     // by p¹².
     let mut n = valuation(&inv.discriminant, p).ok_or_else(|| internal("zero discriminant"))?;
     loop {
+        budget.spend(1).map_err(|_| tate_stopped())?;
+        budget.check_deadline().map_err(|_| tate_stopped())?;
         let found = if n == 0 {
             Pass::Found {
                 kodaira: Kodaira::I0,
@@ -1120,6 +1156,7 @@ pub(crate) fn global_local_data_with(
     let mut records = Vec::with_capacity(primes.len());
     let mut conductor = BigInt::one();
     for q in primes {
+        budget.check_deadline().map_err(|_| tate_stopped())?;
         let p = Prime::new(q)?;
         if let Global::Word { a, disc, total } = &mut state {
             match p.to_u64().map(|pw| word_step(a, *disc, total, pw)) {
@@ -1142,7 +1179,7 @@ pub(crate) fn global_local_data_with(
         let Global::Big { a, total } = &mut state else {
             return Err(internal("model state"));
         };
-        let lr = local_reduction(a, &p)?;
+        let lr = local_reduction_with_budget(a, &p, budget)?;
         let [u, r, s, t] = lr.change.clone();
         let change = ModelChange::new(u, r, s, t)?;
         let to_here = total.then(&change);

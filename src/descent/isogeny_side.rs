@@ -10,7 +10,7 @@
 //! of b(a² − 4b), the Selmer group as the preimage of their product and
 //! K = span of α(torsion), assembled in the Selmer layer
 //! (`crate::selmer::assemble`); (4) the lifting pairing and its kernel I ⊇ α(E(Q)) (the second descent
-//! as linear algebra, [`crate::selmer::pairing`]); (5) for at most
+//! as linear algebra, [`crate::second::pairing`]); (5) for at most
 //! `max_classes_searched` cosets of I/K (Sel/K with the second descent
 //! off), in a fixed order, search a few representatives for a point,
 //! adding its class to K when found; (6) with the second descent on, the
@@ -31,16 +31,16 @@ use crate::error::{Error, Result};
 use crate::local::{Place, Prime};
 use crate::quartic::image::LocalImage;
 use crate::quartic::search::{search_quartic, QuarticPoint, SearchOptions, SearchOutcome};
-use crate::quartic::second_descent::{
+use crate::quartic::Quartic;
+use crate::second::covering::{
     second_descent, second_descent_on_twists, NoPointEvidence, SecondDescentOptions,
     SecondDescentOutcome,
 };
-use crate::quartic::Quartic;
+use crate::second::pairing::{class_lift, lift_pairing, soluble_twists, LiftPairing};
 pub(crate) use crate::selmer::assemble::connecting_value;
 use crate::selmer::assemble::{assemble_selmer, AssembledSelmer};
 use crate::selmer::f2::{BitVec, Subspace};
 use crate::selmer::group::LocalCondition;
-use crate::selmer::pairing::{class_lift, lift_pairing, soluble_twists, LiftPairing};
 use crate::selmer::qs2::QS2;
 
 /// Why a 4-covering of a homogeneous space has no point: the covering
@@ -81,7 +81,7 @@ pub enum ClassStatus {
         /// a conic y² = g2 u² + g1 uv + g0 v²).
         obstructions: Vec<CoveringObstruction>,
         /// The complete evidence, re-checkable with
-        /// [`crate::quartic::second_descent::verify_obstruction`].
+        /// [`crate::second::covering::verify_obstruction`].
         evidence: Box<NoPointEvidence>,
     },
 }
@@ -152,7 +152,7 @@ pub struct SelmerSide {
     pub(super) covering_runs: Vec<CoveringRun>,
     /// The lifting pairing on the Selmer group and its kernel I, the
     /// classes that lift to everywhere locally soluble 2-coverings of the
-    /// curve (`crate::selmer::pairing`); `None` if it was not asked for
+    /// curve (`crate::second::pairing`); `None` if it was not asked for
     /// (the first descent alone) or its budget ran out (then
     /// `pairing_error` says why).
     pub(super) pairing: Option<LiftPairing>,
@@ -263,7 +263,7 @@ impl SelmerSide {
 
     /// The lifting pairing on the Selmer group and its kernel I, the
     /// classes that lift to everywhere locally soluble 2-coverings of the
-    /// curve (`crate::selmer::pairing`); `None` if it was not asked for
+    /// curve (`crate::second::pairing`); `None` if it was not asked for
     /// (the first descent alone) or its budget ran out (then
     /// `pairing_error` says why).
     pub fn pairing(&self) -> Option<&LiftPairing> {
@@ -307,6 +307,54 @@ impl SelmerSide {
         let v = self.qs2.vector(d).ok()?;
         Some(!self.liftable()?.contains(&v))
     }
+
+    /// The first step of this side that a budget or the clock cut short,
+    /// as (step, reason): the lifting pairing, a point search that gave
+    /// up, or a class of the 4-covering route that was not run or stopped
+    /// (and so lost its evidence). `None` when every step ran to its end.
+    pub(crate) fn cut_short(&self) -> Option<(String, String)> {
+        if let Some(e) = self.pairing_error.as_ref().filter(|e| is_budget_error(e)) {
+            return Some(("lifting pairing".into(), e.to_string()));
+        }
+        if let Some(r) = self
+            .searches
+            .iter()
+            .find(|r| matches!(r.outcome, SearchOutcome::GaveUp { .. }))
+        {
+            return Some((
+                "point search".into(),
+                format!("search budget ran out on the space of class {}", r.class),
+            ));
+        }
+        for run in &self.covering_runs {
+            match &run.verdict {
+                CoveringVerdict::BudgetSpent => {
+                    return Some((
+                        "4-covering route".into(),
+                        format!(
+                            "the 4-covering budget was spent before class {} was examined",
+                            run.class
+                        ),
+                    ))
+                }
+                CoveringVerdict::GaveUp(e) if is_budget_error(e) => {
+                    return Some((
+                        "4-covering route".into(),
+                        format!("class {}: {e}", run.class),
+                    ))
+                }
+                _ => {}
+            }
+        }
+        None
+    }
+}
+
+fn is_budget_error(e: &Error) -> bool {
+    matches!(
+        e,
+        Error::BudgetExhausted { .. } | Error::FactorBudgetExhausted { .. }
+    )
 }
 
 /// The search quartic for class d and the factor f with y = f·N.
@@ -352,7 +400,7 @@ pub const TWISTS_PER_CLASS: usize = 8;
 ///
 /// Steps, each polynomial in |S| and dim Sel: the local images and the
 /// Selmer group (`crate::selmer::assemble`); the lifting pairing
-/// ([`crate::selmer::pairing`]) and its kernel I (the classes lifting to
+/// ([`crate::second::pairing`]) and its kernel I (the classes lifting to
 /// everywhere locally soluble 2-coverings), unless the options ask for the
 /// local conditions only; the point search on at most
 /// `max_classes_searched` cosets of (I or Sel)/K in a fixed order (basis
@@ -400,14 +448,7 @@ pub(crate) fn compute_side(
     // descent intact.
     let (pairing, pairing_error) = if options.lifting_pairing {
         let mut pairing_budget = ctx.budget(options.local_units);
-        match lift_pairing(
-            model.a(),
-            model.b(),
-            &qs2,
-            &group,
-            &progress.known,
-            &mut pairing_budget,
-        ) {
+        match lift_pairing(model, &qs2, &group, &progress.known, &mut pairing_budget) {
             Ok(p) => (Some(p), None),
             Err(e) => (None, Some(e)),
         }
@@ -800,8 +841,7 @@ fn targeted(
     sd_options: &SecondDescentOptions,
     budget: &mut Budget,
 ) -> Result<SecondDescentOutcome> {
-    let (a, b) = (model.a(), model.b());
-    let lift = class_lift(a, b, d, qs2, budget)?;
+    let lift = class_lift(model, d, qs2, budget)?;
     let twists = soluble_twists(&lift, qs2, conditions, TWISTS_PER_CLASS, budget)?;
     if twists.is_empty() {
         return Err(Error::Internal {

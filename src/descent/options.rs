@@ -165,7 +165,9 @@ impl<'a> DescentContext<'a> {
     pub(crate) fn new(options: &'a DescentOptions, started: Instant) -> Self {
         DescentContext {
             options,
-            deadline: options.time_limit.map(|d| started + d),
+            // A limit too far away to represent (`Duration::MAX`, say) is
+            // no limit at all.
+            deadline: options.time_limit.and_then(|d| started.checked_add(d)),
         }
     }
 

@@ -60,7 +60,7 @@ impl RankBounds {
 pub struct DescentReport {
     pub(crate) curve: Curve,
     pub(crate) torsion: TorsionGroup,
-    pub(crate) local_data: GlobalLocalData,
+    pub(crate) local_data: Option<GlobalLocalData>,
     pub(crate) isogenies: Vec<IsogenyDescent>,
     pub(crate) deciding: Option<usize>,
     pub(crate) bounds: RankBounds,
@@ -78,7 +78,7 @@ impl DescentReport {
     pub(crate) fn new(
         curve: Curve,
         torsion: TorsionGroup,
-        local_data: GlobalLocalData,
+        local_data: Option<GlobalLocalData>,
         isogenies: Vec<IsogenyDescent>,
         completion: Completion,
     ) -> Self {
@@ -90,7 +90,10 @@ impl DescentReport {
         let lower = isogenies.iter().map(|d| d.rank_lower).max().unwrap_or(0);
         let upper = isogenies
             .iter()
-            .map(|d| d.rank_upper)
+            .map(|d| {
+                d.rank_upper
+                    .min(d.selmer_rank_bound().unwrap_or(usize::MAX))
+            })
             .min()
             .unwrap_or(usize::MAX)
             .max(lower);
@@ -99,7 +102,12 @@ impl DescentReport {
         let deciding = isogenies
             .iter()
             .position(|d| d.rank_lower == lower && d.rank_upper == upper)
-            .or_else(|| isogenies.iter().position(|d| d.rank_upper == upper));
+            .or_else(|| isogenies.iter().position(|d| d.rank_upper == upper))
+            .or_else(|| {
+                isogenies
+                    .iter()
+                    .position(|d| d.selmer_rank_bound() == Some(upper))
+            });
         let points = best
             .and_then(|i| isogenies.get(i))
             .map(|d| d.points.clone())
@@ -131,9 +139,10 @@ impl DescentReport {
     }
 
     /// Global minimal model, conductor and Tate's algorithm at every bad
-    /// prime.
-    pub fn local_data(&self) -> &GlobalLocalData {
-        &self.local_data
+    /// prime; `None` when a budget or the clock stopped Tate's algorithm
+    /// (the report is then partial).
+    pub fn local_data(&self) -> Option<&GlobalLocalData> {
+        self.local_data.as_ref()
     }
 
     /// One descent per rational 2-torsion point (in the order of

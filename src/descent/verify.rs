@@ -23,14 +23,14 @@
 //! The result lists every check with its outcome, so a reader sees what
 //! was checked, not only a yes/no.
 
-use super::bounds::rank_bounds;
+use super::exact_sequence::rank_bounds;
 use super::isogeny_side::{connecting_value, ClassStatus, SelmerSide};
 use super::report::DescentReport;
 use crate::budget::Budget;
 use crate::curve::Curve;
 use crate::error::Result;
-use crate::quartic::second_descent::verify_obstruction;
 use crate::quartic::{locally_soluble, LocalSolubility, Quartic};
+use crate::second::covering::verify_obstruction;
 use crate::selmer::f2::Subspace;
 use crate::selmer::group::{selmer_from_local_images, LocalCondition};
 
@@ -136,17 +136,47 @@ pub fn verify_report(report: &DescentReport, units: u64) -> Result<Verification>
     let hi = report
         .isogenies()
         .iter()
-        .map(|d| d.rank_upper)
+        .map(|d| {
+            d.rank_upper
+                .min(d.selmer_rank_bound().unwrap_or(usize::MAX))
+        })
         .min()
-        .unwrap_or(lo);
+        .unwrap_or(lo)
+        .max(lo);
     // Points found by the deep search (independent by their classes) may
     // raise the lower bound above every single isogeny's.
     let lo = lo.max(report.points().len());
+    // With no isogeny (every first descent stopped), the bound from the
+    // supports of the classes, recomputed here.
+    let hi = if report.isogenies().is_empty() {
+        divisor_bound_again(report, units)?.unwrap_or(hi)
+    } else {
+        hi
+    };
     out.record(
-        "overall bounds are the sharpest of the isogenies and the points found",
+        "overall bounds are the sharpest of the isogenies, their 2-Selmer ranks and the points found",
         (lo, hi) == (report.descent_bounds().lower, report.descent_bounds().upper),
     );
     Ok(out)
+}
+
+/// The smallest `super::divisor_rank_bound` over the rational 2-torsion
+/// points of the report's curve, recomputed under `units` of factoring.
+fn divisor_bound_again(report: &DescentReport, units: u64) -> Result<Option<usize>> {
+    let options = super::DescentOptions {
+        factor_units: units,
+        ..super::DescentOptions::default()
+    };
+    let ctx = super::DescentContext::new(&options, std::time::Instant::now()).with_deadline(None);
+    let mut known = crate::local::known_primes::KnownPrimes::default();
+    let mut best: Option<usize> = None;
+    let mut budget = Budget::with_units(units);
+    for t in crate::curve::two_torsion_points_with_budget(report.curve(), &mut budget)? {
+        let model = super::reduced_model_for(report.curve(), &t, &ctx)?;
+        let u = super::divisor_rank_bound(&model, &ctx, &mut known)?;
+        best = Some(best.map_or(u, |b| b.min(u)));
+    }
+    Ok(best)
 }
 
 fn verify_side(

@@ -1,4 +1,4 @@
-//! Layer 9: families of curves — quadratic twists, the congruent-number
+//! Layer 10: families of curves — quadratic twists, the congruent-number
 //! curves, boxes of y² = x³ + a x² + b x — and scans of the descent over
 //! them that stream, run on all cores, split into shards and resume.
 //!

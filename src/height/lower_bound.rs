@@ -442,7 +442,7 @@ mod tests {
     use super::*;
     use crate::budget::Budget;
     use crate::curve::{Curve, Point};
-    use crate::height::bounds::height_lower_bound;
+    use crate::height::naive_vs_canonical::height_lower_bound;
     use crate::height::DEFAULT_PRECISION;
     use num_bigint::BigInt;
 

@@ -28,7 +28,7 @@
 //!   points with hundreds of digits, behind [`HeightContext::multiple`] and
 //!   [`HeightContext::combination`];
 //! - `local`: the archimedean and non-archimedean local heights;
-//! - `bounds`: naive/canonical height difference bounds and a proven
+//! - `naive_vs_canonical`: naive/canonical height difference bounds and a proven
 //!   lower bound for `ĥ` on non-torsion points;
 //! - `lll`: LLL reduction for the height pairing;
 //! - `saturate`: index bounds and p-saturation.
@@ -36,10 +36,10 @@
 // Matrix code reads best with explicit indices.
 #![allow(clippy::needless_range_loop)]
 
-pub(crate) mod bounds;
 mod lll;
 mod local_terms;
 pub(crate) mod lower_bound;
+pub(crate) mod naive_vs_canonical;
 mod projective;
 pub(crate) mod saturate;
 
@@ -49,13 +49,17 @@ use num_bigint::BigInt;
 use num_traits::Signed;
 
 use crate::budget::Budget;
-use crate::curve::tate::ReductionKind;
+use crate::curve::tate::{GlobalLocalData, ReductionKind};
 use crate::curve::{Curve, ModelChange, Point};
 use crate::error::{Error, Result};
 
-pub use bounds::{difference_bounds, height_lower_bound, DifferenceBounds, HeightLowerBound};
 pub use lower_bound::{cremona_siksek_bound, CremonaSiksekBound};
-pub use saturate::{saturate, LowerBoundSource, Saturation, SaturationOptions};
+pub use naive_vs_canonical::{
+    difference_bounds, height_lower_bound, DifferenceBounds, HeightLowerBound,
+};
+pub use saturate::{
+    saturate, saturate_with_context, LowerBoundSource, Saturation, SaturationOptions,
+};
 
 use local_terms::{Archimedean, BadPrime};
 use projective::{Jac, ShortModel};
@@ -149,6 +153,18 @@ impl HeightContext {
     /// for the coefficients).
     pub fn new(curve: &Curve, budget: &mut Budget) -> Result<HeightContext> {
         let data = curve.local_data(budget)?;
+        Self::from_local_data(curve, &data)
+    }
+
+    /// The context from the curve's local data computed elsewhere (a
+    /// descent report's, say), so that Tate's algorithm runs once per
+    /// curve. `data` must be `curve`'s own ([`Curve::local_data`]); its
+    /// minimal model is checked to be integral and its change of model
+    /// to be invertible.
+    ///
+    /// # Errors
+    /// As [`HeightContext::new`], without the factoring errors.
+    pub fn from_local_data(curve: &Curve, data: &GlobalLocalData) -> Result<HeightContext> {
         let [u, r, s, t] = data.change.clone();
         let to_min = ModelChange::new(u, r, s, t)?;
         let a: [BigInt; 5] = data.minimal_model.clone();
@@ -289,27 +305,71 @@ impl HeightContext {
         Certified { value, error: err }
     }
 
-    /// `[n]P` on the input model, by exact Jacobian arithmetic.
+    /// `[n]P` on the input model, by exact Jacobian arithmetic, under a
+    /// budget of [`DEFAULT_HEIGHT_UNITS`] (see
+    /// [`HeightContext::multiple_with_budget`]).
     ///
     /// # Errors
-    /// [`Error::PointNotOnCurve`].
+    /// [`Error::PointNotOnCurve`]; [`Error::BudgetExhausted`] when the
+    /// result would be too large for the budget.
     pub fn multiple(&self, p: &Point, n: &BigInt) -> Result<Point> {
+        self.multiple_with_budget(p, n, &mut Budget::with_units(DEFAULT_HEIGHT_UNITS))
+    }
+
+    /// [`HeightContext::multiple`] under `budget`: each doubling or
+    /// addition costs `(w + 1)²` units, `w` the size in 64-bit words of the
+    /// coordinates so far, so the budget bounds the size of the result as
+    /// well as the work (`[n]P` has about n² times the digits of P).
+    /// [`HeightContext::multiple`] uses [`DEFAULT_HEIGHT_UNITS`] (results
+    /// of up to about 10⁴ words per coordinate).
+    ///
+    /// # Errors
+    /// [`Error::PointNotOnCurve`]; [`Error::BudgetExhausted`] when the
+    /// budget or its deadline runs out.
+    pub fn multiple_with_budget(
+        &self,
+        p: &Point,
+        n: &BigInt,
+        budget: &mut Budget,
+    ) -> Result<Point> {
         let q = self.to_min_point(p)?;
-        let j = self.short.mul(&self.short.to_jac(&q), n);
+        let j = self.short.mul_budgeted(&self.short.to_jac(&q), n, budget)?;
         Ok(self.point_on_input(&self.short.to_point(&j)))
     }
 
-    /// `Σ nᵢPᵢ` on the input model, by exact Jacobian arithmetic.
+    /// `Σ nᵢPᵢ` on the input model, by exact Jacobian arithmetic, under a
+    /// budget of [`DEFAULT_HEIGHT_UNITS`].
     ///
     /// # Errors
     /// [`Error::PointNotOnCurve`]; [`Error::InvalidArgument`] when the
-    /// lengths differ.
+    /// lengths differ; [`Error::BudgetExhausted`] when the result would be
+    /// too large for the budget.
     pub fn combination(&self, points: &[Point], coefficients: &[BigInt]) -> Result<Point> {
+        self.combination_with_budget(
+            points,
+            coefficients,
+            &mut Budget::with_units(DEFAULT_HEIGHT_UNITS),
+        )
+    }
+
+    /// [`HeightContext::combination`] under `budget`, charged as
+    /// [`HeightContext::multiple_with_budget`] (the default form uses
+    /// [`DEFAULT_HEIGHT_UNITS`]).
+    ///
+    /// # Errors
+    /// As [`HeightContext::combination`]; [`Error::BudgetExhausted`] when
+    /// the budget or its deadline runs out.
+    pub fn combination_with_budget(
+        &self,
+        points: &[Point],
+        coefficients: &[BigInt],
+        budget: &mut Budget,
+    ) -> Result<Point> {
         let js = points
             .iter()
             .map(|p| Ok(self.short.to_jac(&self.to_min_point(p)?)))
             .collect::<Result<Vec<Jac>>>()?;
-        let j = self.short.combination(&js, coefficients)?;
+        let j = self.short.combination_budgeted(&js, coefficients, budget)?;
         Ok(self.point_on_input(&self.short.to_point(&j)))
     }
 

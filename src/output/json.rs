@@ -197,7 +197,7 @@ struct StopView {
 #[derive(Serialize)]
 struct LineView<'a> {
     format_version: u32,
-    input: &'a str,
+    input: std::borrow::Cow<'a, str>,
     curve: Option<String>,
     status: &'static str,
     stopped: Option<StopView>,
@@ -364,7 +364,7 @@ fn report_view<'a>(input: &'a str, r: &DescentReport, detail: Detail) -> LineVie
     };
     LineView {
         format_version: FORMAT_VERSION,
-        input,
+        input: echoed_input(input),
         curve: Some(r.curve().to_string()),
         status,
         stopped,
@@ -410,14 +410,17 @@ fn report_view<'a>(input: &'a str, r: &DescentReport, detail: Detail) -> LineVie
             }
         }),
         conflict: r.conflict().map(str::to_string),
-        conductor: Some(ld.conductor.to_string()),
-        minimal_model: Some(equation_text(
-            &ld.minimal_model
-                .clone()
-                .map(num_rational::BigRational::from_integer),
-        )),
+        conductor: ld.map(|ld| ld.conductor.to_string()),
+        minimal_model: ld.map(|ld| {
+            equation_text(
+                &ld.minimal_model
+                    .clone()
+                    .map(num_rational::BigRational::from_integer),
+            )
+        }),
         reduction: ld
-            .primes
+            .map(|ld| ld.primes.as_slice())
+            .unwrap_or_default()
             .iter()
             .map(|p| {
                 (
@@ -504,16 +507,41 @@ fn to_line<T: Serialize>(v: &T) -> String {
     })
 }
 
-/// The one-line JSON object of a report, with `input` echoed.
+/// Longest input echoed whole in `input`: the longest text the curve
+/// parser accepts (`5·(2·MAX_COEFFICIENT_DIGITS + 2) + 4096` bytes), so
+/// every curve is echoed exactly.
+pub const MAX_ECHOED_INPUT_BYTES: usize = 5 * (2 * crate::curve::MAX_COEFFICIENT_DIGITS + 2) + 4096;
+
+/// Bytes kept of a longer input (cut at a character boundary).
+const ECHO_HEAD_BYTES: usize = 256;
+
+/// The input as echoed: whole up to [`MAX_ECHOED_INPUT_BYTES`], else its
+/// first 256 bytes (at most), `…` and its length, as in
+/// `"0 123… (104857600 bytes in all)"`.
+pub(crate) fn echoed_input(input: &str) -> std::borrow::Cow<'_, str> {
+    if input.len() <= MAX_ECHOED_INPUT_BYTES {
+        return std::borrow::Cow::Borrowed(input);
+    }
+    let mut cut = ECHO_HEAD_BYTES;
+    while !input.is_char_boundary(cut) {
+        cut -= 1;
+    }
+    std::borrow::Cow::Owned(format!("{}… ({} bytes in all)", &input[..cut], input.len()))
+}
+
+/// The one-line JSON object of a report, with `input` echoed (whole up
+/// to [`MAX_ECHOED_INPUT_BYTES`], else cut with its length stated).
 pub fn report_line(input: &str, r: &DescentReport, detail: Detail) -> String {
     to_line(&report_view(input, r, detail))
 }
 
-/// The JSON object for an input that gave no report.
+/// The JSON object for an input that gave no report (the input is
+/// echoed whole up to [`MAX_ECHOED_INPUT_BYTES`], else cut with its length
+/// stated).
 pub fn error_line(input: &str, message: &str) -> String {
     to_line(&LineView {
         format_version: FORMAT_VERSION,
-        input,
+        input: echoed_input(input),
         curve: None,
         status: "error",
         stopped: None,

@@ -1,4 +1,4 @@
-//! Layer 8: the edge where reports become text and JSON, and where input
+//! Layer 9: the edge where reports become text and JSON, and where input
 //! lines become curves. Nothing below this layer writes or reads text
 //! other than a curve's equation.
 //!
@@ -21,7 +21,7 @@ use crate::descent::DescentReport;
 pub use batch::{
     classify_line, is_skipped_line, json_for_bytes, json_for_line, json_for_line_with, LineKind,
 };
-pub use json::{error_line, report_line, FORMAT_VERSION};
+pub use json::{error_line, report_line, FORMAT_VERSION, MAX_ECHOED_INPUT_BYTES};
 
 /// How much evidence a report shows.
 #[derive(Clone, Copy, Debug, Default, PartialEq, Eq, Hash)]

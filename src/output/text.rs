@@ -504,25 +504,32 @@ pub(crate) fn write_report(
         write_analytic(f, r, a)?;
     }
     writeln!(f)?;
-    let ld = r.local_data();
-    let mm = ld.minimal_model.clone().map(BigRational::from_integer);
-    writeln!(
-        f,
-        "minimal model {}, conductor {}",
-        equation_text(&mm),
-        ld.conductor
-    )?;
-    for p in &ld.primes {
-        writeln!(
+    match r.local_data() {
+        Some(ld) => {
+            let mm = ld.minimal_model.clone().map(BigRational::from_integer);
+            writeln!(
+                f,
+                "minimal model {}, conductor {}",
+                equation_text(&mm),
+                ld.conductor
+            )?;
+            for p in &ld.primes {
+                writeln!(
+                    f,
+                    "  p = {}: {} reduction, Kodaira type {}, f_p = {}, c_p = {}, v_p(Δ) = {}",
+                    p.prime,
+                    reduction_words(p.reduction),
+                    p.kodaira,
+                    p.conductor_exponent,
+                    p.tamagawa,
+                    p.disc_valuation
+                )?;
+            }
+        }
+        None => writeln!(
             f,
-            "  p = {}: {} reduction, Kodaira type {}, f_p = {}, c_p = {}, v_p(Δ) = {}",
-            p.prime,
-            reduction_words(p.reduction),
-            p.kodaira,
-            p.conductor_exponent,
-            p.tamagawa,
-            p.disc_valuation
-        )?;
+            "minimal model and conductor not computed (Tate's algorithm was stopped)"
+        )?,
     }
     writeln!(f)?;
     let mut ev = String::new();

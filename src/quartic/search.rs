@@ -67,6 +67,7 @@
 //! always stops at the same place.
 
 use super::form::Quartic;
+use crate::arith::word::isqrt_u128;
 use crate::budget::Budget;
 use crate::error::{Error, Result};
 use num_bigint::BigInt;
@@ -573,23 +574,6 @@ fn eval_i128(c: &[i128; 5], x: i64, z: i64) -> Option<i128> {
         v = v.checked_mul(x)?.checked_add(ci.checked_mul(zp)?)?;
     }
     Some(v)
-}
-
-/// `⌊√n⌋` for `n: u128`, by Newton's iteration from above.
-fn isqrt_u128(n: u128) -> u128 {
-    if n < 2 {
-        return n;
-    }
-    let est = (n as f64).sqrt() as u128;
-    // The f64 estimate has relative error below 2^-50; start safely above.
-    let mut x = est + (est >> 40) + 2;
-    loop {
-        let y = (x + n / x) / 2;
-        if y >= x {
-            return x;
-        }
-        x = y;
-    }
 }
 
 // ---------------------------------------------------------------------------

@@ -7,7 +7,7 @@ use isodescent::descent::{descend_isogeny, ClassStatus, DescentOptions};
 use isodescent::local::{Place, Prime};
 use isodescent::quartic::{locally_soluble, Quartic};
 use isodescent::quartic::{search, SearchOptions, SearchOutcome};
-use isodescent::quartic::{
+use isodescent::second::{
     second_descent, verify_obstruction, NoPointEvidence, ObstructedCurve, SecondDescentOptions,
     SecondDescentOutcome,
 };
@@ -250,7 +250,7 @@ fn a_covering_finds_the_point_of_53_that_the_first_search_misses() {
 #[test]
 fn a_covering_finds_the_point_of_142_whose_space_point_has_height_above_8000() {
     // 142 ≡ 6 mod 8: root number −1, Tunnell's equality holds (checked in
-    // tests/second_descent_congruent.rs); the covering gives the point
+    // tests/second_coverings_congruent.rs); the covering gives the point
     // (M, e) = (71291, 8183) on C_2 (found in a recorded run).
     check_large_point(-142 * 142, 2, 142, 8000);
 }

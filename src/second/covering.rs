@@ -127,15 +127,17 @@ use num_integer::Integer;
 use num_rational::BigRational;
 use num_traits::{One, Signed, Zero};
 
-use super::form::Quartic;
-use super::search::{search, QuarticPoint, SearchOptions, SearchOutcome};
-use super::solubility::{locally_soluble, LocalSolubility};
 use crate::arith::{factor, is_perfect_square};
 use crate::budget::Budget;
-use crate::conic::{parametrise, parametrise_diagonal, solve_diagonal_with_primes, TernaryForm};
+use crate::conic::{
+    obvious_conic_point, parametrise, parametrise_diagonal, solve_diagonal_with_primes, TernaryForm,
+};
 use crate::curve::ReducedModel;
 use crate::error::{Error, Result};
 use crate::local::{hilbert_symbol_int, Place, Prime};
+use crate::quartic::{
+    locally_soluble, search, LocalSolubility, Quartic, QuarticPoint, SearchOptions, SearchOutcome,
+};
 
 /// Knobs for [`second_descent`].
 #[derive(Clone, Debug, PartialEq, Eq)]
@@ -714,10 +716,7 @@ fn setup(
             });
         }
     }
-    let pt = match given
-        .cloned()
-        .or_else(|| crate::selmer::pairing::obvious_conic_point(d, &delta))
-    {
+    let pt = match given.cloned().or_else(|| obvious_conic_point(d, &delta)) {
         Some(pt) => pt,
         None => {
             let ps: Vec<BigInt> = known.iter().cloned().collect();
@@ -968,7 +967,7 @@ fn examine_twist(
 /// no point of height ≤ 128 on `C_53`, but a 4-covering yields
 /// `(M, e) = (119, 143)`, i.e. `x = 53·119²/143² = 750533/20449`.
 /// ```
-/// use isodescent::quartic::{second_descent, SecondDescentOptions, SecondDescentOutcome};
+/// use isodescent::second::{second_descent, SecondDescentOptions, SecondDescentOutcome};
 /// use isodescent::curve::ReducedModel;
 /// use isodescent::Budget;
 /// use num_bigint::BigInt;
@@ -1029,15 +1028,15 @@ pub fn second_descent(
 
 /// The second descent on the class `d` restricted to chosen twists: for
 /// each square-free `λ_h` in the normalisation of
-/// [`crate::selmer::pairing`] (the class of the tangent form `h` at a
+/// [`super::pairing`] (the class of the tangent form `h` at a
 /// point of `C_d`), the twist of Lemma Λ is `λ = κ·λ_h` with `κ` the square
 /// class of the binary form `X₀q₁ − dY₀q₂ − ΔZ₀q₃` (the tangent form at the
 /// base point `(X₀, Y₀, Z₀)` = `conic_point` of the parametrisation, a
 /// constant times a square: docs/second_descent.md §9). `conic_point` must
 /// be the point the classes `λ_h` were computed with
-/// ([`crate::selmer::pairing::ClassLift::conic_point`]). The twists that lift `d` to
+/// ([`super::pairing::ClassLift::conic_point`]). The twists that lift `d` to
 /// everywhere locally soluble 2-coverings are a coset computed by linear
-/// algebra ([`crate::selmer::pairing::soluble_twists`]), so the caller hands
+/// algebra ([`super::pairing::soluble_twists`]), so the caller hands
 /// in a few of them instead of all `2^(k+1)`.
 ///
 /// **Answer.** [`SecondDescentOutcome::Point`] or

@@ -51,14 +51,15 @@ use num_bigint::BigInt;
 use num_integer::Integer;
 use num_traits::{One, Signed, Zero};
 
-use super::f2::{BitVec, LinearMap, Subspace};
-use super::qs2::QS2;
 use crate::budget::Budget;
-use crate::conic::solve_diagonal_with_primes;
+use crate::conic::{obvious_conic_point, solve_diagonal_with_primes};
+use crate::curve::ReducedModel;
 use crate::error::{Error, Result};
 use crate::local::hilbert::hilbert_on_classes;
 use crate::local::{sqrt_mod_prime_power, square_class_int, valuation, Place, Prime};
 use crate::quartic::{locally_soluble, Quartic};
+use crate::selmer::f2::{BitVec, LinearMap, Subspace};
+use crate::selmer::QS2;
 
 /// The value of the tangent form at one local point of `C_d`.
 #[derive(Clone, Debug, PartialEq, Eq)]
@@ -345,32 +346,6 @@ fn padic_value(
     })
 }
 
-/// A point of `X² − dY² = ΔZ²` read off when `Δ`, `−Δ/d` or `d + Δ` is a
-/// square (`(√Δ, 0, 1)`, `(0, s, 1)`, `(s, 1, 1)`); spares the general
-/// solver the easy cases, which include every class on the side of a
-/// curve with E[2] rational (`Δ` a square).
-pub(crate) fn obvious_conic_point(d: &BigInt, delta: &BigInt) -> Option<[BigInt; 3]> {
-    let root = |n: &BigInt| -> Option<BigInt> {
-        if n.is_negative() {
-            return None;
-        }
-        let r = n.sqrt();
-        (&r * &r == *n).then_some(r)
-    };
-    if let Some(r) = root(delta) {
-        return Some([r, BigInt::zero(), BigInt::one()]);
-    }
-    if (-delta).is_multiple_of(d) {
-        if let Some(s) = root(&(-delta / d)) {
-            return Some([BigInt::zero(), s, BigInt::one()]);
-        }
-    }
-    if let Some(s) = root(&(d + delta)) {
-        return Some([s, BigInt::one(), BigInt::one()]);
-    }
-    None
-}
-
 /// The square classes of the basis `−1, p₁, …` of `Q(S, 2)` at every place.
 fn basis_classes(qs2: &QS2, budget: &mut Budget) -> Result<Vec<Vec<u8>>> {
     let mut out = Vec::new();
@@ -407,14 +382,13 @@ fn functional_from(values: &[LocalLiftValue], table: &[Vec<u8>], dim: usize) -> 
 /// place of `S ∪ {∞}` (so `d` is not in the Selmer group);
 /// [`Error::SingularCurve`]; [`Error::BudgetExhausted`].
 pub fn class_lift(
-    a: &BigInt,
-    b: &BigInt,
+    model: &ReducedModel,
     d: &BigInt,
     qs2: &QS2,
     budget: &mut Budget,
 ) -> Result<ClassLift> {
     let table = basis_classes(qs2, budget)?;
-    class_lift_with(a, b, d, qs2, &table, budget)
+    class_lift_with(model.a(), model.b(), d, qs2, &table, budget)
 }
 
 fn class_lift_with(
@@ -486,8 +460,7 @@ fn class_lift_with(
 /// (torsion images, say): they lie in the kernel, their rows are zero and
 /// no conic is solved for them.
 pub fn lift_pairing(
-    a: &BigInt,
-    b: &BigInt,
+    model: &ReducedModel,
     qs2: &QS2,
     group: &Subspace,
     known: &Subspace,
@@ -500,7 +473,14 @@ pub fn lift_pairing(
     let mut lifts = Vec::with_capacity(basis.len() - known_count);
     for v in &basis[known_count..] {
         let d = qs2.integer(v);
-        lifts.push(class_lift_with(a, b, &d, qs2, &table, budget)?);
+        lifts.push(class_lift_with(
+            model.a(),
+            model.b(),
+            &d,
+            qs2,
+            &table,
+            budget,
+        )?);
     }
     let n = basis.len();
     let mut matrix = vec![BitVec::zeros(n); known_count];
@@ -556,7 +536,7 @@ pub fn lift_pairing(
 pub fn soluble_twists(
     lift: &ClassLift,
     qs2: &QS2,
-    conditions: &[super::group::LocalCondition],
+    conditions: &[crate::selmer::LocalCondition],
     max: usize,
     budget: &mut Budget,
 ) -> Result<Vec<BigInt>> {
@@ -632,13 +612,12 @@ pub fn soluble_twists(
 /// recomputed from the classes with Hilbert symbols. Returns false on any
 /// mismatch (never an error); budget exhaustion also gives false.
 pub fn verify_class_lift(
-    a: &BigInt,
-    b: &BigInt,
+    model: &ReducedModel,
     qs2: &QS2,
     lift: &ClassLift,
     budget: &mut Budget,
 ) -> bool {
-    verify_inner(a, b, qs2, lift, budget).unwrap_or(false)
+    verify_inner(model.a(), model.b(), qs2, lift, budget).unwrap_or(false)
 }
 
 fn verify_inner(
@@ -733,13 +712,13 @@ mod tests {
         // y² = x³ − 68x, d = 2: C_2 is 2Y² = 1 − 17X⁴ up to scaling,
         // everywhere locally soluble with no rational point [Lind40,
         // Reichardt42]; the class 2 cannot lie in the kernel.
-        let (a, b) = (BigInt::from(0), BigInt::from(-68));
+        let model = ReducedModel::new(BigInt::from(0), BigInt::from(-68)).unwrap();
         let qs2 = qs2_of(&[2, 17]);
         let mut budget = Budget::unlimited();
-        let lift = class_lift(&a, &b, &BigInt::from(2), &qs2, &mut budget).unwrap();
-        assert!(verify_class_lift(&a, &b, &qs2, &lift, &mut budget));
+        let lift = class_lift(&model, &BigInt::from(2), &qs2, &mut budget).unwrap();
+        assert!(verify_class_lift(&model, &qs2, &lift, &mut budget));
         let mut bad = lift.clone();
         bad.values[0].class ^= 1;
-        assert!(!verify_class_lift(&a, &b, &qs2, &bad, &mut budget));
+        assert!(!verify_class_lift(&model, &qs2, &bad, &mut budget));
     }
 }
