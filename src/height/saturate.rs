@@ -289,7 +289,7 @@ fn saturate_in(
             reason: format!("points are not independent: regulator {reg0}"),
         });
     }
-    pts = reduce(&ctx, &pts)?;
+    pts = reduce(ctx, &pts)?;
 
     // Index bound: the Cremona–Siksek bound (cheap); the search bound
     // only when that leaves primes beyond `max_prime` to check (the
@@ -302,16 +302,16 @@ fn saturate_in(
             v.floor().max(1.0) as u64
         }
     };
-    let mut best: Option<(f64, LowerBoundSource)> = super::lower_bound::cremona_siksek_bound(&ctx)
+    let mut best: Option<(f64, LowerBoundSource)> = super::lower_bound::cremona_siksek_bound(ctx)
         .map(|c| (c.bound, LowerBoundSource::CremonaSiksek))
         .filter(|(l, _)| *l > 0.0);
     let enough = |b: &Option<(f64, LowerBoundSource)>| {
         b.is_some_and(|(l, _)| index_for(l) <= options.max_prime.min(options.search_skip_index))
     };
     if !enough(&best) {
-        let b = difference_bounds(&ctx).naive_minus_canonical;
+        let b = difference_bounds(ctx).naive_minus_canonical;
         let h = options.max_search_height.min(b + options.search_margin);
-        if let Some(lb) = height_lower_bound(&ctx, h, budget)? {
+        if let Some(lb) = height_lower_bound(ctx, h, budget)? {
             if best.map_or(true, |(l, _)| lb.bound > l) {
                 best = Some((lb.bound, LowerBoundSource::Search));
             }
@@ -339,14 +339,14 @@ fn saturate_in(
             p += 1;
             continue;
         }
-        let outcome = p_saturate(&ctx, &pts, &tors_gens, p, options, budget)?;
+        let outcome = p_saturate(ctx, &pts, &tors_gens, p, options, budget)?;
         match outcome {
             Outcome::Saturated => {
                 primes_checked.push(p);
                 p += 1;
             }
             Outcome::Divided(new_pts) => {
-                pts = reduce(&ctx, &new_pts)?;
+                pts = reduce(ctx, &new_pts)?;
                 index_found = index_found.saturating_mul(p);
                 index_bound = index_bound.map(|n| n / p);
             }
