@@ -14,7 +14,9 @@ use isodescent::descent3::{descend_3isogeny, Isogeny3Options};
 use isodescent::Curve;
 
 fn cube_free(n: i64) -> bool {
-    (2..).take_while(|d| d * d * d <= n).all(|d| n % (d * d * d) != 0)
+    (2..)
+        .take_while(|d| d * d * d <= n)
+        .all(|d| n % (d * d * d) != 0)
 }
 
 fn curves(limit: i64) -> Vec<Curve> {

@@ -71,7 +71,9 @@ fn verdicts_agree_with_brute_force_modulo_p_squared() {
 }
 
 fn verdict_is_soluble(cu: &BinaryCubicCurve, p: &Prime) -> bool {
-    solubility_at(cu, p, &mut Budget::unlimited()).unwrap().is_soluble()
+    solubility_at(cu, p, &mut Budget::unlimited())
+        .unwrap()
+        .is_soluble()
 }
 
 // Selmer, "The Diophantine equation ax³ + by³ + cz³ = 0", Acta Math. 85

@@ -30,7 +30,9 @@ fn is_prime(n: i64) -> bool {
 }
 
 fn cube_free(n: i64) -> bool {
-    (2..).take_while(|d| d * d * d <= n).all(|d| n % (d * d * d) != 0)
+    (2..)
+        .take_while(|d| d * d * d <= n)
+        .all(|d| n % (d * d * d) != 0)
 }
 
 /// Every witness re-checks, every point lies on its curve.
@@ -91,7 +93,15 @@ fn primes_4_7_8_mod_9_have_root_number_minus_1() {
 // from memory), and 19 and 37 have rank 2 (from memory).
 #[test]
 fn points_give_sums_of_two_cubes() {
-    for (n, rank) in [(6i64, 1usize), (7, 1), (9, 1), (13, 1), (17, 1), (19, 2), (37, 2)] {
+    for (n, rank) in [
+        (6i64, 1usize),
+        (7, 1),
+        (9, 1),
+        (13, 1),
+        (17, 1),
+        (19, 2),
+        (37, 2),
+    ] {
         let r = run(&cube_sum_curve(n), &quick());
         assert_eq!(r.rank_lower, rank, "n = {n}");
         assert_eq!(r.rank_upper, rank, "n = {n}");
@@ -101,7 +111,10 @@ fn points_give_sums_of_two_cubes() {
             let n36 = BigRational::from_integer(BigInt::from(36 * n));
             let a = (&n36 + y) / (BigRational::from_integer(6.into()) * x);
             let b = (&n36 - y) / (BigRational::from_integer(6.into()) * x);
-            assert_eq!(&a * &a * &a + &b * &b * &b, BigRational::from_integer(n.into()));
+            assert_eq!(
+                &a * &a * &a + &b * &b * &b,
+                BigRational::from_integer(n.into())
+            );
         }
         check_evidence(&r);
     }
@@ -179,7 +192,10 @@ fn changes_of_model_give_the_same_answer() {
     for n in [5i64, 6, 19, 60] {
         let e = cube_sum_curve(n);
         let base = run(&e, &quick());
-        for (u, r, s, t) in [(q(1, 2), q(3, 1), q(1, 1), q(-2, 1)), (q(3, 1), q(-1, 3), q(0, 1), q(5, 7))] {
+        for (u, r, s, t) in [
+            (q(1, 2), q(3, 1), q(1, 1), q(-2, 1)),
+            (q(3, 1), q(-1, 3), q(0, 1), q(5, 7)),
+        ] {
             let ch = ModelChange::new(u, r, s, t).unwrap();
             let e2 = ch.apply_to_curve(&e);
             let other = run(&e2, &quick());
@@ -202,7 +218,16 @@ fn the_dual_isogeny_composes_to_multiplication_by_3() {
     for n in [6i64, 7, 19] {
         let r = run(&cube_sum_curve(n), &quick());
         let k = r.k.clone();
-        let ek = Curve::from_bigints([0, 0, 0, 0].map(BigInt::from).into_iter().chain([k.clone()]).collect::<Vec<_>>().try_into().unwrap()).unwrap();
+        let ek = Curve::from_bigints(
+            [0, 0, 0, 0]
+                .map(BigInt::from)
+                .into_iter()
+                .chain([k.clone()])
+                .collect::<Vec<_>>()
+                .try_into()
+                .unwrap(),
+        )
+        .unwrap();
         let k2 = BigInt::from(-27) * &k;
         for f in &r.sides[0].finds {
             let p: &Point = &f.point;
@@ -219,9 +244,15 @@ fn the_dual_isogeny_composes_to_multiplication_by_3() {
 #[test]
 fn errors_and_dispatch() {
     let not_j0: Curve = "0 0 1 -1 0".parse().unwrap();
-    assert!(matches!(descend_3isogeny(&not_j0, &quick()), Err(Error::NoSupportedIsogeny { .. })));
+    assert!(matches!(
+        descend_3isogeny(&not_j0, &quick()),
+        Err(Error::NoSupportedIsogeny { .. })
+    ));
     let k2: Curve = "0 0 0 0 2".parse().unwrap();
-    assert!(matches!(descend_3isogeny(&k2, &quick()), Err(Error::NoSupportedIsogeny { .. })));
+    assert!(matches!(
+        descend_3isogeny(&k2, &quick()),
+        Err(Error::NoSupportedIsogeny { .. })
+    ));
     let two: Curve = "y^2 = x^3 - 36x".parse().unwrap();
     assert!(matches!(
         descend_by_isogeny(&two, &DescentOptions::default(), &quick()),
@@ -263,7 +294,11 @@ fn recheck_catches_tampering() {
     f.on_cubic.w += 1;
     assert!(bad.recheck().is_err());
     let mut bad = r.clone();
-    let side = bad.sides.iter_mut().find(|s| !s.witnesses.is_empty()).unwrap();
+    let side = bad
+        .sides
+        .iter_mut()
+        .find(|s| !s.witnesses.is_empty())
+        .unwrap();
     side.witnesses.clear();
     assert!(bad.recheck().is_err());
     let mut bad = r;

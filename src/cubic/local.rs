@@ -80,7 +80,9 @@ impl BinaryCubicCurve {
     /// disc F = f₁²f₂² − 4f₀f₂³ − 4f₁³f₃ − 27f₀²f₃² + 18f₀f₁f₂f₃.
     pub fn form_discriminant(&self) -> BigInt {
         let [a, b, c, d] = &self.f;
-        b * b * c * c - BigInt::from(4) * a * c * c * c - BigInt::from(4) * b * b * b * d
+        b * b * c * c
+            - BigInt::from(4) * a * c * c * c
+            - BigInt::from(4) * b * b * b * d
             - BigInt::from(27) * a * a * d * d
             + BigInt::from(18) * a * b * c * d
     }
@@ -101,8 +103,7 @@ impl BinaryCubicCurve {
 
     /// True when F(u, v) = c·w³.
     pub fn contains(&self, u: &BigInt, v: &BigInt, w: &BigInt) -> bool {
-        !(u.is_zero() && v.is_zero() && w.is_zero())
-            && self.eval_form(u, v) == &self.c * w * w * w
+        !(u.is_zero() && v.is_zero() && w.is_zero()) && self.eval_form(u, v) == &self.c * w * w * w
     }
 
     fn form_to_string(&self) -> String {
@@ -154,9 +155,7 @@ impl CubicWitness {
                 }
                 let vz = val(&z, p);
                 let (du, dv) = curve.gradient(u, v);
-                [du, dv]
-                    .iter()
-                    .any(|d| !d.is_zero() && vz > 2 * val(d, p))
+                [du, dv].iter().any(|d| !d.is_zero() && vz > 2 * val(d, p))
             }
         }
     }
@@ -461,7 +460,11 @@ fn chart_search_big(g: &[BigInt; 4], p: &BigInt, budget: &mut Budget) -> Result<
                     .iter()
                     .map(|x| x.mod_floor(p).to_u64().unwrap_or(0))
                     .collect();
-                let cube_exp = if pw % 3 == 1 { Some((pw - 1) / 3) } else { None };
+                let cube_exp = if pw % 3 == 1 {
+                    Some((pw - 1) / 3)
+                } else {
+                    None
+                };
                 let mut zeros = Vec::new();
                 for t in 0..pw {
                     let v = (((gm[3] * t % pw + gm[2]) % pw * t % pw + gm[1]) % pw * t % pw
@@ -568,7 +571,7 @@ mod tests {
         let p7 = BigInt::from(7);
         assert!(is_padic_cube(&BigInt::from(6), &p7));
         assert!(!is_padic_cube(&BigInt::from(2), &p7));
-        assert!(is_padic_cube(&BigInt::from(5), &BigInt::from(5)) == false);
+        assert!(!is_padic_cube(&BigInt::from(5), &BigInt::from(5)));
         assert!(is_padic_cube(&BigInt::from(2), &BigInt::from(5)));
     }
 
@@ -584,10 +587,11 @@ mod tests {
                         let g = [d, b, 0, a];
                         let gb = g.map(BigInt::from);
                         let big = chart_search_big(&gb, &pb, &mut Budget::unlimited()).unwrap();
-                        let word = chart_search_word(&g.map(i128::from), p, &mut Budget::unlimited())
-                            .unwrap()
-                            .unwrap();
-                        assert_eq!(big.map(|(t, z)| (t, z)), word.map(|(t, z)| (BigInt::from(t), z)));
+                        let word =
+                            chart_search_word(&g.map(i128::from), p, &mut Budget::unlimited())
+                                .unwrap()
+                                .unwrap();
+                        assert_eq!(big, word.map(|(t, z)| (BigInt::from(t), z)));
                         checked += 1;
                     }
                 }

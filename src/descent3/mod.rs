@@ -340,10 +340,15 @@ pub fn descend_3isogeny(e: &Curve, opts: &Isogeny3Options) -> Result<Isogeny3Rep
             for p in &primes {
                 let pr = Prime::new(p.clone())?;
                 match st.local(v, &pr, &mut lb)? {
-                    crate::cubic::CubicLocal::Soluble(w) => witnesses.push((v.clone(), p.clone(), w)),
+                    crate::cubic::CubicLocal::Soluble(w) => {
+                        witnesses.push((v.clone(), p.clone(), w))
+                    }
                     crate::cubic::CubicLocal::Insoluble => {
                         return Err(Error::Internal {
-                            check: format!("a Selmer basis vector of y^2 = x^3 + {} is soluble at {p}", st.k),
+                            check: format!(
+                                "a Selmer basis vector of y^2 = x^3 + {} is soluble at {p}",
+                                st.k
+                            ),
                         })
                     }
                 }
@@ -352,10 +357,7 @@ pub fn descend_3isogeny(e: &Curve, opts: &Isogeny3Options) -> Result<Isogeny3Rep
         let mut images = Span::default();
         let rational_kernel = st.field == SideField::Rational;
         if rational_kernel {
-            let t = Point::new(
-                BigRational::zero(),
-                BigRational::from_integer(st.m.clone()),
-            );
+            let t = Point::new(BigRational::zero(), BigRational::from_integer(st.m.clone()));
             images.insert(&st.image(&t)?);
         }
         let mut found = Vec::new();
@@ -496,11 +498,21 @@ pub(crate) fn tamagawa_ratio(
     let prod = |t: &[(BigInt, u64)]| t.iter().map(|(_, c)| BigInt::from(*c)).product::<BigInt>();
     let alpha = &l2.change[0] / &l1.change[0];
     let three = BigInt::from(3);
-    let tors_e = if crate::arith::is_perfect_square(k) { 3 } else { 1 };
-    let tors_e2 = if crate::arith::is_perfect_square(&k2) { 3 } else { 1 };
+    let tors_e = if crate::arith::is_perfect_square(k) {
+        3
+    } else {
+        1
+    };
+    let tors_e2 = if crate::arith::is_perfect_square(&k2) {
+        3
+    } else {
+        1
+    };
     let real_e = if k.is_positive() { 3 } else { 1 };
-    let formula = BigRational::new(BigInt::from(tors_e) * prod(&t2), BigInt::from(tors_e2) * prod(&t1))
-        * alpha.abs()
+    let formula = BigRational::new(
+        BigInt::from(tors_e) * prod(&t2),
+        BigInt::from(tors_e2) * prod(&t1),
+    ) * alpha.abs()
         / BigRational::from_integer(BigInt::from(real_e));
     let d = sel_phi as i64 - sel_phihat as i64;
     let selmer_ratio = if d >= 0 {
@@ -539,7 +551,13 @@ fn class_text(gens: &[Generator3], v: &[u8]) -> String {
         .iter()
         .zip(v)
         .filter(|(_, &e)| e != 0)
-        .map(|(g, &e)| if e == 1 { format!("{g}") } else { format!("({g})^{e}") })
+        .map(|(g, &e)| {
+            if e == 1 {
+                format!("{g}")
+            } else {
+                format!("({g})^{e}")
+            }
+        })
         .collect();
     if parts.is_empty() {
         "1".into()
@@ -577,7 +595,11 @@ impl std::fmt::Display for Isogeny3Report {
                 side.selmer_dim(),
                 sel.join(", ")
             )?;
-            writeln!(f, "    images of known points: dimension {}", side.image_dim)?;
+            writeln!(
+                f,
+                "    images of known points: dimension {}",
+                side.image_dim
+            )?;
             for fd in &side.finds {
                 writeln!(
                     f,
@@ -595,7 +617,11 @@ impl std::fmt::Display for Isogeny3Report {
             "  rank bounds: {} ≤ rank ≤ {} (exact sequence of the 3-isogeny{})",
             self.rank_lower,
             self.rank_upper,
-            if self.search_complete { "" } else { "; point search cut by a budget" }
+            if self.search_complete {
+                ""
+            } else {
+                "; point search cut by a budget"
+            }
         )?;
         match &self.rank {
             Some((r, Rank3Proof::Descent)) => writeln!(f, "  rank = {r}: the bounds meet")?,
@@ -717,10 +743,16 @@ impl Isogeny3Report {
                 let cc = st.class_cubic(&fd.class)?;
                 let c = &fd.on_cubic;
                 if !cc.cubic.contains(&c.u, &c.v, &c.w) {
-                    return fail(format!("({} : {} : {}) lies on {}", c.u, c.v, c.w, cc.cubic));
+                    return fail(format!(
+                        "({} : {} : {}) lies on {}",
+                        c.u, c.v, c.w, cc.cubic
+                    ));
                 }
                 if st.point_from_cubic(&cc, c) != fd.point || !point_on(&side.k, &fd.point) {
-                    return fail(format!("the point of {} on y^2 = x^3 + {}", cc.cubic, side.k));
+                    return fail(format!(
+                        "the point of {} on y^2 = x^3 + {}",
+                        cc.cubic, side.k
+                    ));
                 }
                 if st.image(&fd.point)? != fd.class {
                     return fail(format!("the class of {}", fd.point));

@@ -154,7 +154,9 @@ impl SideSetup {
                 let mut n = BigInt::one();
                 for (g, &x) in self.basis.iter().zip(e) {
                     match g {
-                        Generator3::Omega => delta = delta.mul(&Eisenstein::omega().pow(u32::from(x))),
+                        Generator3::Omega => {
+                            delta = delta.mul(&Eisenstein::omega().pow(u32::from(x)))
+                        }
                         Generator3::SplitPrime { p, pi } => {
                             let beta = pi.conj().mul(&Eisenstein::from_int(p.clone()));
                             delta = delta.mul(&beta.pow(u32::from(x)));
@@ -228,7 +230,10 @@ impl SideSetup {
                 }
                 if !is_cube(&rn) || !is_cube(&rd) {
                     return Err(Error::Internal {
-                        check: format!("y − {} is a cube outside S at a point of y^2 = x^3 + {}", self.m, self.k),
+                        check: format!(
+                            "y − {} is a cube outside S at a point of y^2 = x^3 + {}",
+                            self.m, self.k
+                        ),
                     });
                 }
                 Ok(out)
@@ -299,7 +304,10 @@ impl SideSetup {
                             acc = (acc * &cw).mod_floor(&qb);
                         }
                         let e0 = found.ok_or_else(|| Error::Internal {
-                            check: format!("y − m√−3 has norm a cube at a point of y^2 = x^3 + {}", self.k),
+                            check: format!(
+                                "y − m√−3 has norm a cube at a point of y^2 = x^3 + {}",
+                                self.k
+                            ),
                         })?;
                         out[omega_idx] = e0;
                         return Ok(out);
@@ -338,6 +346,9 @@ fn is_cube(n: &BigInt) -> bool {
     &r * &r * &r == *n
 }
 
+/// A class with the witness of its local solubility.
+pub(crate) type ClassWitness = (Vec<u8>, CubicWitness);
+
 /// The subgroup L ∩ L_p of `l` (a basis of vectors), where L_p is the
 /// subgroup of classes whose cubic is soluble at p, found with only
 /// membership tests: coset representatives of L/(L ∩ L_p) are kept (at
@@ -350,7 +361,7 @@ pub(crate) fn intersect_local(
     l: &[Vec<u8>],
     p: &Prime,
     budget: &mut Budget,
-) -> Result<(Vec<Vec<u8>>, Vec<(Vec<u8>, CubicWitness)>)> {
+) -> Result<(Vec<Vec<u8>>, Vec<ClassWitness>)> {
     let n = side.dim();
     let mut reps: Vec<Vec<u8>> = vec![vec![0u8; n]];
     let mut kept: Vec<Vec<u8>> = Vec::new();
