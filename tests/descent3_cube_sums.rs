@@ -305,3 +305,23 @@ fn recheck_catches_tampering() {
     bad.points.push(Point::from_ints(1, 1));
     assert!(bad.recheck().is_err());
 }
+
+// Budgets: an exhausted local budget is a typed error; an exhausted search
+// budget leaves a partial report whose bounds stay proven (common practice).
+#[test]
+fn budgets_hold() {
+    let e = cube_sum_curve(19);
+    let mut o = quick();
+    o.local_units = 10;
+    assert!(matches!(
+        descend_3isogeny(&e, &o),
+        Err(Error::BudgetExhausted { .. })
+    ));
+    let mut o = quick();
+    o.search_units = 5;
+    let r = run(&e, &o);
+    assert!(!r.search_complete);
+    assert_eq!(r.cut, ["point search"]);
+    assert!(r.rank_lower <= 2 && r.rank_upper == 2);
+    r.recheck().unwrap();
+}

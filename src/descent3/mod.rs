@@ -214,6 +214,10 @@ pub struct Isogeny3Report {
     /// False when a budget or the clock cut the point search short (the
     /// bounds are still proven).
     pub search_complete: bool,
+    /// The optional steps that a budget or the clock cut short (point
+    /// search, local data, Tamagawa check, analytic side); the report is
+    /// then partial, though every number in it stays proven.
+    pub cut: Vec<String>,
 }
 
 /// φ: E_k → E_{−27k}, (x, y) ↦ ((x³ + 4k)/x², y(x³ − 8k)/x³).
@@ -420,37 +424,56 @@ pub fn descend_3isogeny(e: &Curve, opts: &Isogeny3Options) -> Result<Isogeny3Rep
     }
     let mut tb = budget_for(opts.factor_units, start, opts.time_limit);
     let needs_analytic = opts.analytic.is_some() && rank_lower < rank_upper;
+    let mut cut = Vec::new();
     let local = if opts.tamagawa_check || needs_analytic {
         let z = BigInt::zero;
         let ek = Curve::from_bigints([z(), z(), z(), z(), k.clone()])?;
-        Some((ek.local_data(&mut tb)?, ek))
+        match ek.local_data(&mut tb) {
+            Ok(l) => Some((l, ek)),
+            Err(Error::BudgetExhausted { .. }) | Err(Error::FactorBudgetExhausted { .. }) => {
+                cut.push("local data (Tate's algorithm)".to_string());
+                None
+            }
+            Err(err) => return Err(err),
+        }
     } else {
         None
     };
     let tamagawa = match (&local, opts.tamagawa_check) {
-        (Some((l1, _)), true) => Some(tamagawa_ratio(
-            &k,
-            l1,
-            s1.selmer_dim(),
-            s0.selmer_dim(),
-            &mut tb,
-        )?),
+        (Some((l1, _)), true) => {
+            match tamagawa_ratio(&k, l1, s1.selmer_dim(), s0.selmer_dim(), &mut tb) {
+                Ok(t) => Some(t),
+                Err(Error::BudgetExhausted { .. }) | Err(Error::FactorBudgetExhausted { .. }) => {
+                    cut.push("Tamagawa check".to_string());
+                    None
+                }
+                Err(err) => return Err(err),
+            }
+        }
         _ => None,
     };
     let mut rank = (rank_lower == rank_upper).then_some((rank_lower, Rank3Proof::Descent));
     if let (Some(ao), Some((l1, ek)), true) = (&opts.analytic, &local, needs_analytic) {
         let mut ab = budget_for(u64::MAX, start, opts.time_limit);
-        let data = analyse(ek, l1, ao, &mut ab)?;
-        if let Some((r, theorem)) = data.rank_proven() {
-            if r < rank_lower || r > rank_upper {
-                return Err(Error::Internal {
-                    check: format!(
-                        "the analytic rank {r} lies in the descent's bounds [{rank_lower}, {rank_upper}]"
-                    ),
-                });
+        match analyse(ek, l1, ao, &mut ab) {
+            Ok(data) => {
+                if let Some((r, theorem)) = data.rank_proven() {
+                    if r < rank_lower || r > rank_upper {
+                        return Err(Error::Internal {
+                            check: format!(
+                                "the analytic rank {r} lies in the descent's bounds [{rank_lower}, {rank_upper}]"
+                            ),
+                        });
+                    }
+                    rank = Some((r, Rank3Proof::Analytic(theorem)));
+                }
             }
-            rank = Some((r, Rank3Proof::Analytic(theorem)));
+            Err(Error::BudgetExhausted { .. }) => cut.push("analytic side".to_string()),
+            Err(err) => return Err(err),
         }
+    }
+    if !search_complete {
+        cut.insert(0, "point search".to_string());
     }
     let sha_dim = rank.map(|(r, _)| rank_upper - r);
     Ok(Isogeny3Report {
@@ -465,6 +488,7 @@ pub fn descend_3isogeny(e: &Curve, opts: &Isogeny3Options) -> Result<Isogeny3Rep
         rank,
         sha_dim,
         search_complete,
+        cut,
     })
 }
 
@@ -649,6 +673,13 @@ impl std::fmt::Display for Isogeny3Report {
         }
         for p in &self.points {
             writeln!(f, "  point on the given curve: {p}")?;
+        }
+        if !self.cut.is_empty() {
+            writeln!(
+                f,
+                "  partial: cut short by a budget or the clock: {}",
+                self.cut.join(", ")
+            )?;
         }
         Ok(())
     }
