@@ -34,6 +34,32 @@ pub fn search_points(
 ) -> Result<Option<CubicPoint>> {
     let c = curve.c();
     let c2 = c * c;
+    // Sieve: F(u, v)·c² must be a cube (or 0) modulo each prime q ≡ 1 mod 3
+    // below (a third of the units are cubes there).
+    let sieve: Vec<(i64, [i64; 4], Vec<bool>)> = [7i64, 13, 19, 31, 37, 43, 61, 67]
+        .iter()
+        .map(|&q| {
+            let qb = BigInt::from(q);
+            let coeffs = curve.form().clone().map(|f| {
+                let r = (f * &c2).mod_floor(&qb);
+                i64::try_from(r).unwrap_or(0)
+            });
+            let mut cube = vec![false; q as usize];
+            for x in 0..q {
+                cube[(x * x % q * x % q) as usize] = true;
+            }
+            (q, coeffs, cube)
+        })
+        .collect();
+    let passes = |u: i64, v: i64| -> bool {
+        sieve.iter().all(|(q, f, cube)| {
+            let (a, b) = (u.rem_euclid(*q), v.rem_euclid(*q));
+            let val = (((f[0] * a % q + f[1] * b) % q * a % q + f[2] * b % q * b) % q * a % q
+                + f[3] * b % q * b % q * b)
+                % q;
+            cube[val as usize]
+        })
+    };
     let try_pair = |u: i64, v: i64| -> Option<CubicPoint> {
         let (bu, bv) = (BigInt::from(u), BigInt::from(v));
         let z = curve.eval_form(&bu, &bv) * &c2;
@@ -78,6 +104,9 @@ pub fn search_points(
             budget.spend(1).map_err(|_| Error::BudgetExhausted {
                 stage: "point search on a plane cubic".into(),
             })?;
+            if !passes(u, v) {
+                continue;
+            }
             if let Some(pt) = try_pair(u, v) {
                 debug_assert!(curve.contains(&pt.u, &pt.v, &pt.w));
                 return Ok(Some(pt));

@@ -81,6 +81,11 @@ pub struct Isogeny3Options {
     pub local_units: u64,
     /// Work units for the point search of one curve (both sides).
     pub search_units: u64,
+    /// Height bound of the second search, run only when the analytic side
+    /// proves a rank above the points found.
+    pub deep_search_height: u64,
+    /// Work units for that second search (both sides).
+    pub deep_search_units: u64,
     /// Compute the Tamagawa-ratio check (Tate's algorithm on both curves).
     pub tamagawa_check: bool,
     /// Optional wall-clock limit for one curve.
@@ -97,6 +102,8 @@ impl Default for Isogeny3Options {
             factor_units: 200_000_000,
             local_units: 20_000_000,
             search_units: 2_000_000,
+            deep_search_height: 400,
+            deep_search_units: 2_000_000,
             tamagawa_check: true,
             time_limit: None,
             analytic: Some(AnalyticOptions::default()),
@@ -323,6 +330,7 @@ pub fn descend_3isogeny(e: &Curve, opts: &Isogeny3Options) -> Result<Isogeny3Rep
     let mut sb = budget_for(opts.search_units, start, opts.time_limit);
     let mut search_complete = true;
     let mut sides = Vec::with_capacity(2);
+    let mut spans: Vec<Span> = Vec::with_capacity(2);
     let mut user_points = Vec::new();
     let inverse_change = &change;
     for (idx, st) in setups.iter().enumerate() {
@@ -370,35 +378,7 @@ pub fn descend_3isogeny(e: &Curve, opts: &Isogeny3Options) -> Result<Isogeny3Rep
             Err(Error::BudgetExhausted { .. }) => search_complete = false,
             Err(err) => return Err(err),
         }
-        let finds: Vec<CubicFind> = found
-            .into_iter()
-            .map(|(class, on_cubic, point)| CubicFind {
-                class,
-                on_cubic,
-                point,
-            })
-            .collect();
-        for f in &finds {
-            let on_e = if idx == 0 {
-                f.point.clone()
-            } else {
-                dual_three_isogeny(&k, &f.point)
-            };
-            if !point_on(&k, &on_e) {
-                return Err(Error::Internal {
-                    check: "φ̂ maps to y^2 = x^3 + k".into(),
-                });
-            }
-            let q = inverse_change.to_old(&on_e);
-            if !q.is_infinity() {
-                if !e.contains(&q) {
-                    return Err(Error::Internal {
-                        check: "a point found lies on the given curve".into(),
-                    });
-                }
-                user_points.push(q);
-            }
-        }
+        let finds = register_finds(found, idx, &k, e, inverse_change, &mut user_points)?;
         sides.push(Isogeny3Side {
             k: st.k.clone(),
             field: st.field,
@@ -410,13 +390,14 @@ pub fn descend_3isogeny(e: &Curve, opts: &Isogeny3Options) -> Result<Isogeny3Rep
             rational_kernel,
             primes: primes.clone(),
         });
+        spans.push(images);
     }
-    let [s0, s1]: [Isogeny3Side; 2] = sides.try_into().map_err(|_| Error::Internal {
+    let [mut s0, mut s1]: [Isogeny3Side; 2] = sides.try_into().map_err(|_| Error::Internal {
         check: "two sides".into(),
     })?;
     let torsion = usize::from(s0.rational_kernel) + usize::from(s1.rational_kernel);
     let rank_upper = (s0.selmer_dim() + s1.selmer_dim()).saturating_sub(torsion);
-    let rank_lower = (s0.image_dim + s1.image_dim).saturating_sub(torsion);
+    let mut rank_lower = (s0.image_dim + s1.image_dim).saturating_sub(torsion);
     if rank_lower > rank_upper {
         return Err(Error::Internal {
             check: "the images of points lie in the Selmer groups".into(),
@@ -472,6 +453,36 @@ pub fn descend_3isogeny(e: &Curve, opts: &Isogeny3Options) -> Result<Isogeny3Rep
             Err(err) => return Err(err),
         }
     }
+    // A proven rank above the points found: search the cubics again, higher.
+    if let Some((r, _)) = rank {
+        if r > rank_lower && opts.deep_search_height > opts.search_height {
+            let mut db = budget_for(opts.deep_search_units, start, opts.time_limit);
+            for (idx, side) in [&mut s0, &mut s1].into_iter().enumerate() {
+                let mut found = Vec::new();
+                match search_side(
+                    &setups[idx],
+                    &side.selmer_basis,
+                    &mut spans[idx],
+                    &mut found,
+                    opts.deep_search_height,
+                    &mut db,
+                ) {
+                    Ok(c) => search_complete &= c,
+                    Err(Error::BudgetExhausted { .. }) => search_complete = false,
+                    Err(err) => return Err(err),
+                }
+                let more = register_finds(found, idx, &k, e, &change, &mut user_points)?;
+                side.finds.extend(more);
+                side.image_dim = spans[idx].dim();
+            }
+            rank_lower = (s0.image_dim + s1.image_dim).saturating_sub(torsion);
+            if rank_lower > r {
+                return Err(Error::Internal {
+                    check: "the points found lie within the proven rank".into(),
+                });
+            }
+        }
+    }
     if !search_complete {
         cut.insert(0, "point search".to_string());
     }
@@ -490,6 +501,49 @@ pub fn descend_3isogeny(e: &Curve, opts: &Isogeny3Options) -> Result<Isogeny3Rep
         search_complete,
         cut,
     })
+}
+
+/// The points found on one side as [`CubicFind`]s; each is mapped to the
+/// given curve (through φ̂ for the second side), checked, and added to
+/// `user_points`.
+fn register_finds(
+    found: Vec<(Vec<u8>, CubicPoint, Point)>,
+    idx: usize,
+    k: &BigInt,
+    e: &Curve,
+    change: &ModelChange,
+    user_points: &mut Vec<Point>,
+) -> Result<Vec<CubicFind>> {
+    let finds: Vec<CubicFind> = found
+        .into_iter()
+        .map(|(class, on_cubic, point)| CubicFind {
+            class,
+            on_cubic,
+            point,
+        })
+        .collect();
+    for f in &finds {
+        let on_e = if idx == 0 {
+            f.point.clone()
+        } else {
+            dual_three_isogeny(k, &f.point)
+        };
+        if !point_on(k, &on_e) {
+            return Err(Error::Internal {
+                check: "φ̂ maps to y^2 = x^3 + k".into(),
+            });
+        }
+        let q = change.to_old(&on_e);
+        if !q.is_infinity() {
+            if !e.contains(&q) {
+                return Err(Error::Internal {
+                    check: "a point found lies on the given curve".into(),
+                });
+            }
+            user_points.push(q);
+        }
+    }
+    Ok(finds)
 }
 
 fn sqrt_int(n: &BigInt) -> Result<BigInt> {

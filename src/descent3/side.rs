@@ -399,7 +399,47 @@ pub(crate) fn intersect_local(
     Ok((kept, witnesses))
 }
 
-/// The image span and points found on the cubics of a Selmer basis.
+/// Most Selmer classes whose cubics are searched on one side.
+const MAX_CLASSES_SEARCHED: usize = 40;
+
+/// The classes searched: every nonzero combination of the basis up to sign
+/// (v and 2v have the same cubic up to P ↦ −P) when there are at most
+/// [`MAX_CLASSES_SEARCHED`] of them, else the basis vectors alone.
+fn classes_to_search(selmer: &[Vec<u8>]) -> Vec<Vec<u8>> {
+    let d = selmer.len();
+    let lines = (3usize.saturating_pow(d as u32) - 1) / 2;
+    if d == 0 || lines > MAX_CLASSES_SEARCHED {
+        return selmer.to_vec();
+    }
+    let n = selmer[0].len();
+    let mut out = Vec::with_capacity(lines);
+    for code in 1..3usize.pow(d as u32) {
+        let mut c = code;
+        let mut coeffs = Vec::with_capacity(d);
+        for _ in 0..d {
+            coeffs.push((c % 3) as u8);
+            c /= 3;
+        }
+        // One per line: the first nonzero coefficient is 1.
+        if coeffs.iter().find(|&&x| x != 0) != Some(&1) {
+            continue;
+        }
+        let mut v = vec![0u8; n];
+        for (b, &a) in selmer.iter().zip(&coeffs) {
+            v = f3::add(&v, &f3::scale(b, a));
+        }
+        out.push(v);
+    }
+    // Classes with fewer generators first (smaller cubics).
+    out.sort_by_key(|v| coeffs_weight(v));
+    out
+}
+
+fn coeffs_weight(v: &[u8]) -> usize {
+    v.iter().filter(|&&x| x != 0).count()
+}
+
+/// The image span and points found on the cubics of the Selmer classes.
 pub(crate) fn search_side(
     side: &SideSetup,
     selmer: &[Vec<u8>],
@@ -409,7 +449,7 @@ pub(crate) fn search_side(
     budget: &mut Budget,
 ) -> Result<bool> {
     let mut complete = true;
-    for s in selmer {
+    for s in &classes_to_search(selmer) {
         if images.contains(s) {
             continue;
         }
