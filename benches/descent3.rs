@@ -5,6 +5,9 @@
 //!   tests at every prime of S, factoring of k included), no point search,
 //!   no Tamagawa check, no analytic side; one iteration runs all cube-free
 //!   n in 2..=300 (253 curves).
+//! * `descent3/selmer_stage/cube_free_n_9701_to_10000`: the same stage on
+//!   the cube-free n in 9701..=10000 (250 curves), the top of the issue's
+//!   range.
 //! * `descent3/with_search/cube_free_n_le_100`: the same plus the point
 //!   search at the default height and the Tamagawa check (Tate's algorithm
 //!   on both curves); one iteration runs all cube-free n in 2..=100.
@@ -20,7 +23,11 @@ fn cube_free(n: i64) -> bool {
 }
 
 fn curves(limit: i64) -> Vec<Curve> {
-    (2..=limit)
+    curves_in(2, limit)
+}
+
+fn curves_in(from: i64, limit: i64) -> Vec<Curve> {
+    (from..=limit)
         .filter(|&n| cube_free(n))
         .map(|n| {
             format!("0 0 0 0 {}", -432 * n * n)
@@ -44,6 +51,15 @@ fn bench(c: &mut Criterion) {
     g.bench_function("selmer_stage/cube_free_n_le_300", |b| {
         b.iter(|| {
             for e in &set {
+                let r = descend_3isogeny(e, &selmer_only).expect("descent");
+                criterion::black_box(r.rank_upper);
+            }
+        })
+    });
+    let high = curves_in(9701, 10_000);
+    g.bench_function("selmer_stage/cube_free_n_9701_to_10000", |b| {
+        b.iter(|| {
+            for e in &high {
                 let r = descend_3isogeny(e, &selmer_only).expect("descent");
                 criterion::black_box(r.rank_upper);
             }
