@@ -385,24 +385,37 @@ fn chart_search_word(g: &[i128; 4], p: u64, budget: &mut Budget) -> Result<Optio
             let pb = pi.checked_pow(b as u32).unwrap_or(1);
             let gm: Vec<u64> = g.iter().map(|x| (x / pb).rem_euclid(pi) as u64).collect();
             let units_count = b % 3 == 0;
-            let cube_exp = if p % 3 == 1 { Some((p - 1) / 3) } else { None };
+            // The cubes mod p, when only a third of the units are cubes.
+            let cubes: Option<Vec<bool>> = (units_count && p % 3 == 1).then(|| {
+                let mut c = vec![false; p as usize];
+                for x in 1..p {
+                    c[(x * x % p * x % p) as usize] = true;
+                }
+                c
+            });
+            // g mod p at t = 0, 1, 2, … by forward differences:
+            // Δ¹(0) = g1 + g2 + g3, Δ²(0) = 2g2 + 6g3, Δ³ = 6g3.
+            let add = |a: u64, b: u64| if a + b >= p { a + b - p } else { a + b };
+            let mut v = gm[0];
+            let mut d1 = (gm[1] + gm[2] + gm[3]) % p;
+            let mut d2 = (2 * gm[2] + 6 * gm[3]) % p;
+            let d3 = (6 * gm[3]) % p;
             let mut zeros = Vec::new();
             for t in 0..p {
-                let v = (((gm[3] * t % p + gm[2]) % p * t % p + gm[1]) % p * t % p + gm[0]) % p;
                 if v == 0 {
                     zeros.push(t);
-                    continue;
+                } else if units_count {
+                    let is_cube = match &cubes {
+                        None => true,
+                        Some(c) => c[v as usize],
+                    };
+                    if is_cube {
+                        return Ok(Some(Some((i128::from(t), false))));
+                    }
                 }
-                if !units_count {
-                    continue;
-                }
-                let is_cube = match cube_exp {
-                    None => true,
-                    Some(ex) => pow_mod_u64(v, ex, p) == 1,
-                };
-                if is_cube {
-                    return Ok(Some(Some((i128::from(t), false))));
-                }
+                v = add(v, d1);
+                d1 = add(d1, d2);
+                d2 = add(d2, d3);
             }
             for &t in zeros.iter().rev() {
                 stack.push((i128::from(t), 1));
