@@ -74,7 +74,7 @@ fn main() {
             let t = Instant::now();
             let mut b = Budget::unlimited();
             let r = report
-                .local_data()
+                .tate_data()
                 .and_then(|l| analyse(&e, l, &AnalyticOptions::default(), &mut b).ok())
                 .and_then(|d| d.rank_proven())
                 .map(|(r, _)| r);

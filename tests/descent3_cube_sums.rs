@@ -2,7 +2,7 @@
 //! Mordell curves y² = x³ + k with k a square or −3 times a square.
 
 use isodescent::analytic::{analyse, root_number_by_formula, AnalyticOptions};
-use isodescent::curve::ModelChange;
+use isodescent::curve::{global_local_data, ModelChange};
 use isodescent::descent3::{
     descend_3isogeny, descend_by_isogeny, dual_three_isogeny, three_isogeny, Isogeny3Options,
     Isogeny3Report, IsogenyDescent, Rank3Proof,
@@ -76,7 +76,7 @@ fn primes_4_7_8_mod_9_have_root_number_minus_1() {
     for p in (2..200).filter(|&p| is_prime(p) && [4, 7, 8].contains(&(p % 9))) {
         let e = cube_sum_curve(p);
         let mut budget = Budget::unlimited();
-        let local = e.local_data(&mut budget).unwrap();
+        let local = global_local_data(e.coefficients(), &mut budget).unwrap();
         let data = analyse(&e, &local, &AnalyticOptions::default(), &mut budget).unwrap();
         assert_eq!(data.root_number(), Some(-1), "p = {p}");
         if let Some(formula) = root_number_by_formula(&local) {

@@ -1,7 +1,7 @@
 //! The canonical height does not depend on the model, and doubles across
 //! a 2-isogeny.
 
-use isodescent::curve::{torsion_subgroup, Curve, ModelChange, Point, TwoIsogeny};
+use isodescent::curve::{torsion, Curve, ModelChange, Point, TwoIsogeny};
 use isodescent::height::HeightContext;
 use isodescent::Budget;
 use num_bigint::BigInt;
@@ -14,7 +14,7 @@ fn q(n: i64, d: i64) -> BigRational {
 
 /// Non-torsion points with small integral x on y² = x³ + ax² + bx, for
 /// (a, b) in a small box (found by direct search; torsion removed with
-/// the curve layer's torsion_subgroup).
+/// the curve layer's torsion).
 fn box_points() -> Vec<(BigInt, BigInt, Point)> {
     let mut out = Vec::new();
     for a in -6i64..=6 {
@@ -23,7 +23,7 @@ fn box_points() -> Vec<(BigInt, BigInt, Point)> {
                 continue;
             }
             let e = Curve::from_ints([0, a, 0, b, 0]).unwrap();
-            let tors = torsion_subgroup(&e);
+            let tors = torsion(&e);
             for x in -20i64..=60 {
                 let rhs = x * x * x + a * x * x + b * x;
                 if rhs < 0 {

@@ -2,19 +2,18 @@
 //! thousands of random points (multiples and sums of known points on
 //! curves with small coefficients).
 
-use isodescent::curve::{torsion_subgroup, Curve, Point};
+use isodescent::curve::{torsion, Curve, Point};
 use isodescent::height::{difference_bounds, naive_height, Certified, HeightContext};
 use isodescent::Budget;
 use num_bigint::BigInt;
 use proptest::prelude::*;
 use std::sync::OnceLock;
 
-/// Curves with independent points (generators where known). Rank and
-/// points of y² + y = x³ − x (37a), y² + y = x³ + x² − 2x (389a),
-/// y² + y = x³ − 7x + 6 (5077a): Cremona, *Algorithms for Modular
-/// Elliptic Curves*, Table 1 (from memory). The others are checked here by
-/// `contains` (the points are on the curves) — independence is not
-/// needed for the identities below.
+/// Curves with points on them (checked here by `contains`): among them
+/// y² + y = x³ − x, y² + y = x³ + x² − 2x and y² + y = x³ − 7x + 6 with
+/// the points whose regulator `tests/data/curve_values.txt` computes
+/// (non-zero, so they are independent). Independence is not needed for
+/// the identities below.
 /// Coefficients `[a1, a2, a3, a4, a6]` and integral points.
 type CurveWithPoints = ([i64; 5], &'static [(i64, i64)]);
 
@@ -48,7 +47,7 @@ fn data() -> &'static Vec<Data> {
                     assert!(curve.contains(p), "{a:?} {p}");
                 }
                 let ctx = HeightContext::new(&curve, &mut Budget::unlimited()).unwrap();
-                let torsion = torsion_subgroup(&curve).points().to_vec();
+                let torsion = torsion(&curve).points().to_vec();
                 Data {
                     curve,
                     ctx,
@@ -166,7 +165,7 @@ proptest! {
 }
 
 /// ĥ(T) = 0 for every torsion point (Silverman, AEC 2nd ed., Theorem
-/// VIII.9.3(e)), on curves with torsion Z/5 (11a), Z/2 × Z/2, Z/4, Z/2.
+/// VIII.9.3(e)), on curves with torsion Z/5 (y² + y = x³ − x² − 10x − 20), Z/2 × Z/2, Z/4, Z/2.
 #[test]
 fn torsion_points_have_height_zero() {
     let mut seen = 0;

@@ -217,9 +217,13 @@ impl Certified {
 }
 
 impl std::fmt::Display for Certified {
-    /// `value ± error`, both in shortest round-trip form.
+    /// `value ± error`, the value to one decimal beyond the error's leading
+    /// digit, the error widened by that rounding and rounded up: the printed
+    /// interval contains the certified one.
     fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
-        write!(f, "{} ± {:.1e}", self.value, self.error)
+        // The printed interval contains the certified one (arith::decimal).
+        let (v, e) = crate::arith::decimal::enclose(self.value, self.error);
+        write!(f, "{v} ± {e}")
     }
 }
 

@@ -1,7 +1,7 @@
 //! Closed forms for `a_p` on the curves with `j = 1728` and `j = 0`.
 //!
 //! Over F_p, `p ≥ 5`, every curve is isomorphic to its short model
-//! `y² = x³ + Ax + B` with `A = −27c4`, `B = −54c6` [Sil09, III.1]; over Q
+//! `y² = x³ + Ax + B` with `A = −27·c4`, `B = −54·c6` [Sil09, III.1]; over Q
 //! too, so `a_p` of the short model is `a_p` of `E` at every good
 //! `p ≥ 5`. `j = 1728` is `c6 = 0` (`B = 0`) and `j = 0` is `c4 = 0`
 //! (`A = 0`): the family is read off the exact invariants, never guessed.

@@ -34,7 +34,7 @@ use super::cm::{ap_closed_form, Family};
 use crate::arith::word::mul_mod;
 use crate::budget::Budget;
 use crate::curve::tate::{integral_invariants, GlobalLocalData, ReductionKind};
-use crate::curve::{torsion_subgroup, Curve};
+use crate::curve::{torsion, Curve};
 use crate::error::{Error, Result};
 use crate::local::legendre_u64;
 
@@ -88,7 +88,7 @@ impl ApTable {
         }
         let b = [Int::new(&inv.b2), Int::new(&inv.b4), Int::new(&inv.b6)];
         let torsion = Curve::from_bigints(local.minimal_model.clone())
-            .map_or(1, |e| u64::from(torsion_subgroup(&e).order()));
+            .map_or(1, |e| u64::from(torsion(&e).order()));
         ApTable {
             b,
             c4x27: Int::new(&(&inv.c4 * 27)),
@@ -109,6 +109,11 @@ impl ApTable {
     }
 
     /// `a_p` if `p` is a bad prime, else `None`.
+    pub(crate) fn bad_ap_of(&self, p: u64) -> Option<i64> {
+        self.bad_ap(p)
+    }
+
+    /// `a_p` if `p` is a bad prime, else `None`.
     fn bad_ap(&self, p: u64) -> Option<i64> {
         self.bad.iter().find(|&&(q, _)| q == p).map(|&(_, a)| a)
     }
@@ -120,7 +125,7 @@ impl ApTable {
     /// when `p ≥ 2⁶²`; [`Error::BudgetExhausted`] in the (never observed)
     /// case that baby-step giant-step stays ambiguous for `p ≥ 2²⁴` after
     /// 2000 points.
-    pub fn ap(&self, p: u64) -> Result<i64> {
+    pub fn frobenius_trace(&self, p: u64) -> Result<i64> {
         if p >= 1 << 62 {
             return Err(Error::InvalidArgument {
                 reason: format!("a_p is computed for p < 2^62, got {p}"),
@@ -135,7 +140,7 @@ impl ApTable {
     }
 
     /// `a_p` for a prime `p < 2⁶²` (not checked); `None` only in the case
-    /// described at [`ApTable::ap`].
+    /// described at [`ApTable::frobenius_trace`].
     pub(crate) fn ap_unchecked(&self, p: u64) -> Option<i64> {
         if let Some(a) = self.bad_ap(p) {
             return Some(a);
@@ -143,7 +148,7 @@ impl ApTable {
         if p < 5 {
             return Some(count_small(&self.model, p));
         }
-        // y² = x³ − 27c4·x − 54c6 is isomorphic to E over F_p, p ≥ 5
+        // y² = x³ − 27·c4·x − 54·c6 is isomorphic to E over F_p, p ≥ 5
         // [Sil09, III.1].
         let a = (p - self.c4x27.rem(p)) % p;
         if let Some(v) = ap_closed_form(self.family, a, p) {
@@ -463,11 +468,11 @@ fn bsgs(a: u64, b: u64, p: u64, tries: u64) -> Option<i64> {
 ///
 /// # Errors
 /// [`Error::NotPrime`] when `p` is not a prime.
-pub fn ap(local: &GlobalLocalData, p: u64) -> Result<i64> {
+pub fn frobenius_trace(local: &GlobalLocalData, p: u64) -> Result<i64> {
     if !crate::arith::is_prime_u64(p) {
         return Err(Error::NotPrime { value: p.into() });
     }
-    ApTable::new(local).ap(p)
+    ApTable::new(local).frobenius_trace(p)
 }
 
 /// The coefficients `a_1, …, a_n` of the L-series (index 0 holds 0).
@@ -478,7 +483,11 @@ pub fn ap(local: &GlobalLocalData, p: u64) -> Result<i64> {
 /// # Errors
 /// [`Error::InvalidArgument`] when `n` exceeds 2³²; [`Error::BudgetExhausted`]
 /// when the budget runs out.
-pub fn an_list(local: &GlobalLocalData, n: u64, budget: &mut Budget) -> Result<Vec<i64>> {
+pub fn dirichlet_coefficients(
+    local: &GlobalLocalData,
+    n: u64,
+    budget: &mut Budget,
+) -> Result<Vec<i64>> {
     if n > u64::from(u32::MAX) {
         return Err(Error::InvalidArgument {
             reason: format!("at most 2^32 coefficients, asked for {n}"),

@@ -9,6 +9,7 @@
 //! * `roots`: integer and rational square roots, perfect squares;
 //! * `squarefree`: square-free parts and kernels.
 
+pub(crate) mod decimal;
 pub(crate) mod dyadic;
 pub(crate) mod ecm;
 pub(crate) mod ecm64;
@@ -16,6 +17,7 @@ pub(crate) mod factor;
 pub(crate) mod meter;
 pub(crate) mod mont;
 pub(crate) mod prime;
+pub(crate) mod real_roots;
 pub(crate) mod rho;
 pub(crate) mod roots;
 pub(crate) mod siqs;

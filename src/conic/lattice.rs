@@ -364,6 +364,30 @@ mod tests {
     }
 
     #[test]
+    fn streaming_visits_the_same_vectors_and_stops_when_asked() {
+        // The stream and the collected list agree; a visitor that stops at
+        // the first vector sees exactly one (common practice).
+        let w = v(&[1, 1]);
+        let mut basis = vec![v(&[1, 0]), v(&[7, 1])];
+        let mut budget = Budget::unlimited();
+        lll(&w, &mut basis, &mut budget).unwrap();
+        let all = short_vectors(&w, &basis, &BigInt::from(5), &mut budget).unwrap();
+        let mut seen = Vec::new();
+        let stopped = visit_short_vectors(&w, &basis, &BigInt::from(5), &mut budget, &mut |x| {
+            seen.push(x.to_vec());
+            true
+        })
+        .unwrap();
+        assert!(stopped);
+        assert_eq!(seen.len(), 1);
+        assert_eq!(seen[0], all[0]);
+        // a unit budget stops the enumeration with a budget error
+        let mut tiny = Budget::with_units(2);
+        let r = visit_short_vectors(&w, &basis, &BigInt::from(50), &mut tiny, &mut |_| false);
+        assert!(matches!(r, Err(Error::BudgetExhausted { .. })));
+    }
+
+    #[test]
     fn echelon_basis_has_the_right_index() {
         // lattice {x ≡ 2y mod 5} in Z^2 has index 5
         let gens = vec![v(&[2, 1]), v(&[5, 0]), v(&[0, 5])];

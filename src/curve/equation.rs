@@ -4,7 +4,7 @@
 //! equation with the zero terms dropped and the signs folded,
 //!
 //! ```text
-//! y^2 + xy + y = x^3 - x^2 - 10x - 20        (a1 a2 a3 a4 a6 = 1 -1 1 -10 -20)
+//! y^2 + xy + 3y = x^3 - 2x^2 + 5x - 7        (a1 a2 a3 a4 a6 = 1 -2 3 5 -7)
 //! y^2 = x^3 - 30x^2 + 3x                     (0 -30 0 3 0)
 //! y^2 = x^3 + (1/2)x^2 - 7/4                 (0 1/2 0 0 -7/4)
 //! ```
@@ -61,7 +61,7 @@ fn side_text(leading: &str, terms: &[(&BigRational, &str)]) -> String {
 }
 
 /// The equation of the model with coefficients `[a1, a2, a3, a4, a6]`
-/// (module docs), e.g. `y^2 + xy + y = x^3 - x^2 - 10x - 20`.
+/// (module docs), e.g. `y^2 + xy + 3y = x^3 - 2x^2 + 5x - 7`.
 pub fn equation_text(a: &[BigRational; 5]) -> String {
     let left = side_text("y^2", &[(&a[0], "xy"), (&a[2], "y")]);
     let right = side_text("x^3", &[(&a[1], "x^2"), (&a[3], "x"), (&a[4], "")]);
@@ -333,8 +333,8 @@ mod tests {
 
     #[test]
     fn zero_terms_are_dropped_and_signs_folded() {
-        let a = [q(1), q(-1), q(1), q(-10), q(-20)];
-        assert_eq!(equation_text(&a), "y^2 + xy + y = x^3 - x^2 - 10x - 20");
+        let a = [q(1), q(-2), q(3), q(5), q(-7)];
+        assert_eq!(equation_text(&a), "y^2 + xy + 3y = x^3 - 2x^2 + 5x - 7");
         let a = [q(0), q(-30), q(0), q(3), q(0)];
         assert_eq!(equation_text(&a), "y^2 = x^3 - 30x^2 + 3x");
         let half = BigRational::new(1.into(), 2.into());

@@ -188,8 +188,8 @@ pub struct GlobalLocalData {
 /// [Sil86, III.1]:
 /// `b2 = a1² + 4a2`, `b4 = a1a3 + 2a4`, `b6 = a3² + 4a6`,
 /// `b8 = a1²a6 + 4a2a6 − a1a3a4 + a2a3² − a4²`,
-/// `c4 = b2² − 24b4`, `c6 = −b2³ + 36b2b4 − 216b6`,
-/// `Δ = −b2²b8 − 8b4³ − 27b6² + 9b2b4b6`.
+/// `c4 = b2² − 24·b4`, `c6 = −b2³ + 36·b2·b4 − 216·b6`,
+/// `Δ = −b2²b8 − 8·b4³ − 27·b6² + 9·b2·b4·b6`.
 #[derive(Debug, Clone, PartialEq, Eq)]
 pub struct IntegralInvariants {
     /// b2.
@@ -588,9 +588,9 @@ enum Pass {
 /// * p = 3: completing the square, `y² = x³ + b2x² − b4x + b6` mod 3; if
 ///   `3 | b2` the cusp is the triple root `x = −b6`, otherwise the double
 ///   root `x = −b4/b2 = −b2b4`; `y = −(a1x + a3)/2 = a1x + a3`.
-/// * p ≥ 5: in the model `Y² = X³ − 27c4X − 54c6` with
+/// * p ≥ 5: in the model `Y² = X³ − 27·c4X − 54·c6` with
 ///   `X = 36x + 3b2`, the double root is `X = −3c6/c4` (or 0 when
-///   `p | c4`), so `x = −(c6 + b2c4)/(12c4)` (or `−b2/12`);
+///   `p | c4`), so `x = −(c6 + b2c4)/(12·c4)` (or `−b2/12`);
 ///   `y = −(a1x + a3)/2`.
 fn singular_point(a: &[BigInt; 5], inv: &BcInvariants, p: &Prime) -> Result<(BigInt, BigInt)> {
     let pp = p.get();
@@ -861,10 +861,10 @@ pub fn local_reduction(coeffs: &[BigInt; 5], p: &Prime) -> Result<LocalReduction
     local_reduction_with_budget(coeffs, p, &mut Budget::unlimited())
 }
 
-/// [`local_reduction`] under a budget: one unit per pass of Tate's
-/// algorithm (a pass is O(1) products of numbers of the model's size) and
-/// a read of the budget's deadline before each pass, so that the clock
-/// stops the algorithm on huge models (where one pass takes milliseconds).
+/// [`local_reduction`] under a budget's deadline, read before each pass
+/// of Tate's algorithm (a pass is O(1) products of numbers of the model's
+/// size, and takes milliseconds on huge models). No units are charged:
+/// the number of passes is at most v_p(Δ)/12 + 1, bounded by the input.
 ///
 /// # Errors
 /// Those of [`local_reduction`]; [`Error::BudgetExhausted`] when the
@@ -970,7 +970,6 @@ fn local_reduction_budgeted(
     // by p¹².
     let mut n = valuation(&inv.discriminant, p).ok_or_else(|| internal("zero discriminant"))?;
     loop {
-        budget.spend(1).map_err(|_| tate_stopped())?;
         budget.check_deadline().map_err(|_| tate_stopped())?;
         let found = if n == 0 {
             Pass::Found {
@@ -1392,9 +1391,9 @@ impl Curve {
     /// use isodescent::curve::Curve;
     /// use isodescent::Budget;
     /// let e = Curve::from_ints([0, 0, 1, -1, 0]).unwrap();
-    /// assert_eq!(e.local_data(&mut Budget::unlimited()).unwrap().conductor, 37.into());
+    /// assert_eq!(e.tate_data(&mut Budget::unlimited()).unwrap().conductor, 37.into());
     /// ```
-    pub fn local_data(&self, budget: &mut Budget) -> Result<GlobalLocalData> {
+    pub fn tate_data(&self, budget: &mut Budget) -> Result<GlobalLocalData> {
         global_local_data(self.coefficients(), budget)
     }
 
@@ -1403,7 +1402,7 @@ impl Curve {
     ///
     /// # Errors
     /// None in practice (a [`Curve`] is nonsingular).
-    pub fn local_data_at(&self, p: &Prime) -> Result<LocalReduction> {
+    pub fn reduction_at(&self, p: &Prime) -> Result<LocalReduction> {
         local_reduction_rational(self.coefficients(), p)
     }
 
@@ -1419,12 +1418,12 @@ impl Curve {
     /// use isodescent::curve::Curve;
     /// use isodescent::Budget;
     /// let e = Curve::from_ints([0, 0, 0, -16, 0]).unwrap();
-    /// let (m, ch) = e.global_minimal_model(&mut Budget::unlimited()).unwrap();
+    /// let (m, ch) = e.to_minimal(&mut Budget::unlimited()).unwrap();
     /// assert_eq!(m, Curve::from_ints([0, 0, 0, -1, 0]).unwrap());
     /// assert_eq!(ch.u().to_string(), "2");
     /// ```
-    pub fn global_minimal_model(&self, budget: &mut Budget) -> Result<(Curve, ModelChange)> {
-        let g = self.local_data(budget)?;
+    pub fn to_minimal(&self, budget: &mut Budget) -> Result<(Curve, ModelChange)> {
+        let g = self.tate_data(budget)?;
         let [u, r, s, t] = g.change;
         Ok((
             Curve::from_bigints(g.minimal_model)?,
@@ -1437,6 +1436,17 @@ impl Curve {
 #[allow(clippy::unwrap_used)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn a_passed_deadline_stops_tates_algorithm() {
+        // The clock is read before each prime, on the word path too.
+        let a = [0, -30, 0, 3, 0].map(|c: i64| BigRational::from_integer(c.into()));
+        let mut b = Budget::unlimited().with_deadline(std::time::Instant::now());
+        let r = global_local_data_with(&a, &mut b, &mut KnownPrimes::default());
+        assert!(matches!(r, Err(Error::BudgetExhausted { .. })));
+        let mut free = Budget::unlimited();
+        assert!(global_local_data_with(&a, &mut free, &mut KnownPrimes::default()).is_ok());
+    }
 
     fn p(q: u64) -> Prime {
         Prime::small(q).unwrap()

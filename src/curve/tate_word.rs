@@ -61,7 +61,7 @@ pub(crate) fn bc_word(a: &[i128; 5]) -> W<[i128; 6]> {
     Ok([ok(b2)?, ok(b4)?, ok(b6)?, ok(b8)?, ok(c4)?, ok(c6)?])
 }
 
-/// The discriminant `Δ = −b2²b8 − 8b4³ − 27b6² + 9b2b4b6`.
+/// The discriminant `Δ = −b2²b8 − 8·b4³ − 27·b6² + 9·b2·b4·b6`.
 pub(crate) fn discriminant_word(a: &[i128; 5]) -> W<i128> {
     let [b2, b4, b6, b8, _, _] = bc_word(a)?.map(Ck::new);
     ok(-(b2 * b2 * b8) - 8 * b4 * b4 * b4 - 27 * b6 * b6 + 9 * b2 * b4 * b6)

@@ -6,8 +6,8 @@
 //! ```text
 //! b2 = a1² + 4a2,          b4 = 2a4 + a1a3,          b6 = a3² + 4a6,
 //! b8 = a1²a6 + 4a2a6 − a1a3a4 + a2a3² − a4²,
-//! c4 = b2² − 24b4,         c6 = −b2³ + 36b2b4 − 216b6,
-//! Δ  = −b2²b8 − 8b4³ − 27b6² + 9b2b4b6,      j = c4³/Δ,
+//! c4 = b2² − 24·b4,         c6 = −b2³ + 36·b2·b4 − 216·b6,
+//! Δ  = −b2²b8 − 8·b4³ − 27·b6² + 9·b2·b4·b6,      j = c4³/Δ,
 //! ```
 //!
 //! related by 4b8 = b2b6 − b4² and 1728Δ = c4³ − c6². The model is an
@@ -15,7 +15,7 @@
 //!
 //! # Text form
 //! [`Display`](std::fmt::Display) writes a curve as its equation, zero
-//! terms dropped and signs folded (`y^2 + xy + y = x^3 - x^2 - 10x - 20`;
+//! terms dropped and signs folded (`y^2 + xy + 3y = x^3 - 2x^2 + 5x - 7`;
 //! see [`super::equation`]). [`FromStr`] reads that equation (with `^` or
 //! `**`, any spacing, rational coefficients) and, as an alternative, the
 //! five coefficients a1 a2 a3 a4 a6 in that order, each an integer or a
@@ -298,15 +298,15 @@ impl Curve {
     pub fn b8(&self) -> &BigRational {
         &self.b8
     }
-    /// c4 = b2² − 24b4.
+    /// c4 = b2² − 24·b4.
     pub fn c4(&self) -> &BigRational {
         &self.c4
     }
-    /// c6 = −b2³ + 36b2b4 − 216b6.
+    /// c6 = −b2³ + 36·b2·b4 − 216·b6.
     pub fn c6(&self) -> &BigRational {
         &self.c6
     }
-    /// Δ = −b2²b8 − 8b4³ − 27b6² + 9b2b4b6 (nonzero).
+    /// Δ = −b2²b8 − 8·b4³ − 27·b6² + 9·b2·b4·b6 (nonzero).
     pub fn discriminant(&self) -> &BigRational {
         &self.disc
     }
@@ -319,7 +319,7 @@ impl Curve {
     }
 
     /// True iff all five coefficients are integers.
-    pub fn is_integral(&self) -> bool {
+    pub fn has_integral_coefficients(&self) -> bool {
         self.integral
     }
 

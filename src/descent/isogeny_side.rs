@@ -33,8 +33,8 @@ use crate::quartic::image::LocalImage;
 use crate::quartic::search::{search_quartic, QuarticPoint, SearchOptions, SearchOutcome};
 use crate::quartic::Quartic;
 use crate::second::covering::{
-    second_descent, second_descent_on_twists, NoPointEvidence, SecondDescentOptions,
-    SecondDescentOutcome,
+    second_descent, second_descent_on_twists, NoPointEvidence, ObstructedCurve,
+    SecondDescentOptions, SecondDescentOutcome, TwistObstruction,
 };
 use crate::second::pairing::{class_lift, lift_pairing, soluble_twists, LiftPairing};
 pub(crate) use crate::selmer::assemble::connecting_value;
@@ -43,14 +43,94 @@ use crate::selmer::f2::{BitVec, Subspace};
 use crate::selmer::group::LocalCondition;
 use crate::selmer::qs2::QS2;
 
-/// Why a 4-covering of a homogeneous space has no point: the covering
-/// y² = g(u, v) (coefficients of u⁴, u³v, …, v⁴) is insoluble at `place`.
+/// Why one twist `D_λ` of a homogeneous space has no point: a genuine
+/// 4-covering insoluble at a place, or, when neither conic of `D_λ` has a
+/// rational point (so no quartic model was built), the conic it maps onto
+/// with no point at a place.
 #[derive(Clone, Debug, PartialEq, Eq)]
-pub struct CoveringObstruction {
-    /// The covering quartic's coefficients [g4, g3, g2, g1, g0].
-    pub covering: [BigInt; 5],
-    /// A place where it has no point.
-    pub place: Place,
+pub enum CoveringObstruction {
+    /// The 4-covering y² = g(u, v) (coefficients of u⁴, u³v, …, v⁴, with
+    /// non-zero discriminant) has no point over `place`.
+    Quartic {
+        /// The covering quartic's coefficients [g4, g3, g2, g1, g0].
+        covering: [BigInt; 5],
+        /// A place where it has no point.
+        place: Place,
+    },
+    /// The conic `scale·s² = A u² + B uv + C v²` (`form = [A, B, C]`), onto
+    /// which `D_λ` maps, has no point over `place`: the Hilbert symbol
+    /// `(hilbert[0], hilbert[1])` at `place` is −1.
+    Conic {
+        /// The coefficient `λ` of `s²`.
+        scale: BigInt,
+        /// `[A, B, C]`.
+        form: [BigInt; 3],
+        /// Two integers whose Hilbert symbol at `place` is −1 exactly when
+        /// the conic has no point there: `(x, D)` with `x = A·λ` (or `C·λ`
+        /// when `A = 0`) and `D = B² − 4AC`.
+        hilbert: [BigInt; 2],
+        /// The place where the conic has no point.
+        place: Place,
+    },
+}
+
+impl CoveringObstruction {
+    /// The place where the curve has no point.
+    pub fn place(&self) -> &Place {
+        match self {
+            CoveringObstruction::Quartic { place, .. }
+            | CoveringObstruction::Conic { place, .. } => place,
+        }
+    }
+
+    /// Re-checks this obstruction from its own data: a quartic has non-zero
+    /// discriminant and [`crate::quartic::locally_soluble`] finds no point
+    /// at the place; a conic has `hilbert` as stated (from its
+    /// coefficients) and the Hilbert symbol −1 at the place. False on
+    /// anything that does not check out (budget exhaustion included).
+    pub fn recheck(&self, budget: &mut Budget) -> bool {
+        match self {
+            CoveringObstruction::Quartic { covering, place } => {
+                let Ok(q) = Quartic::new(covering.clone()) else {
+                    return false;
+                };
+                !q.discriminant().is_zero()
+                    && matches!(
+                        crate::quartic::locally_soluble(&q, place, budget),
+                        Ok(s) if !s.is_soluble()
+                    )
+            }
+            CoveringObstruction::Conic {
+                scale,
+                form,
+                hilbert,
+                place,
+            } => {
+                conic_hilbert_pair(scale, form).as_ref() == Some(hilbert)
+                    && crate::local::hilbert_symbol_int(&hilbert[0], &hilbert[1], place).ok()
+                        == Some(-1)
+            }
+        }
+    }
+}
+
+/// `(x, D)` for the conic `c·s² = A u² + B uv + C v²`: `x = A·c` (or `C·c`
+/// when `A = 0`), `D = B² − 4AC`. From `4A·(Au² + Buv + Cv²) = (2Au + Bv)² −
+/// D v²` the conic is `X² − D Y² = 4Ac S²`, which has a point over `Q_v`
+/// exactly when `(D, Ac)_v = 1` [Serre73, III.1.1 and IV.2.2]. `None` when
+/// `A = C = 0` or `c·D = 0` (then the conic is not an obstruction).
+pub(crate) fn conic_hilbert_pair(c: &BigInt, form: &[BigInt; 3]) -> Option<[BigInt; 2]> {
+    let [a, b, cc] = form;
+    let lead = if !a.is_zero() {
+        a
+    } else if !cc.is_zero() {
+        cc
+    } else {
+        return None;
+    };
+    let d = b * b - BigInt::from(4) * a * cc;
+    let x = lead * c;
+    (!x.is_zero() && !d.is_zero()).then_some([x, d])
 }
 
 /// What is known about one basis element of a Selmer group.
@@ -77,8 +157,8 @@ pub enum ClassStatus {
     ProvenNotImage {
         /// The class d whose homogeneous space was proven to have no point.
         space: BigInt,
-        /// One obstruction per 4-covering (a covering with c4 = c3 = 0 is
-        /// a conic y² = g2 u² + g1 uv + g0 v²).
+        /// One obstruction per twist D_λ: a 4-covering, or the conic D_λ
+        /// maps onto when no quartic model was built.
         obstructions: Vec<CoveringObstruction>,
         /// The complete evidence, re-checkable with
         /// [`crate::second::covering::verify_obstruction`].
@@ -780,7 +860,7 @@ fn run_second_descent(
                         });
                     }
                     route.record(d.clone(), CoveringVerdict::ProvenNotImage);
-                    route.proven.push((v, not_image(d, evidence)));
+                    route.proven.push((v, not_image(d, evidence)?));
                 }
                 Ok(SecondDescentOutcome::Undecided { .. }) => {
                     route.record(d, CoveringVerdict::Undecided);
@@ -807,7 +887,7 @@ fn run_second_descent(
         match second_descent(model, &d, &sd_options, &mut budget) {
             Ok(SecondDescentOutcome::NoPoint(evidence)) => {
                 route.record(d.clone(), CoveringVerdict::ProvenNotImage);
-                route.proven.push((v, not_image(d, evidence)));
+                route.proven.push((v, not_image(d, evidence)?));
             }
             Ok(other) => {
                 return Err(Error::Internal {
@@ -853,20 +933,36 @@ fn targeted(
     second_descent_on_twists(model, d, &lift.conic_point, &twists, sd_options, budget)
 }
 
-fn not_image(d: BigInt, evidence: NoPointEvidence) -> ClassStatus {
+fn not_image(d: BigInt, evidence: NoPointEvidence) -> Result<ClassStatus> {
     let obstructions = evidence
         .obstructions
         .iter()
-        .map(|o| CoveringObstruction {
-            covering: o.covering_coefficients(),
-            place: o.place.clone(),
-        })
-        .collect();
-    ClassStatus::ProvenNotImage {
+        .map(covering_obstruction)
+        .collect::<Result<Vec<_>>>()?;
+    Ok(ClassStatus::ProvenNotImage {
         space: d,
         obstructions,
         evidence: Box::new(evidence),
-    }
+    })
+}
+
+/// The printed form of one twist's obstruction: the quartic model, or the
+/// conic with its Hilbert symbol pair when no quartic model was built.
+pub(crate) fn covering_obstruction(o: &TwistObstruction) -> Result<CoveringObstruction> {
+    Ok(match &o.curve {
+        ObstructedCurve::Quartic { coeffs, .. } => CoveringObstruction::Quartic {
+            covering: coeffs.clone(),
+            place: o.place.clone(),
+        },
+        ObstructedCurve::Conic { scale, form } => CoveringObstruction::Conic {
+            scale: scale.clone(),
+            form: form.clone(),
+            hilbert: conic_hilbert_pair(scale, form).ok_or_else(|| Error::Internal {
+                check: format!("the obstructing conic {scale}·s² = {form:?} is non-degenerate"),
+            })?,
+            place: o.place.clone(),
+        },
+    })
 }
 
 /// x moved greedily inside x + K towards a class of small |d|: add a basis

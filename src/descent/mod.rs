@@ -57,7 +57,7 @@ pub use verify::{verify_report, Verification};
 use crate::arith::factor;
 use crate::curve::tate::global_local_data_with;
 use crate::curve::{
-    torsion_subgroup, two_torsion_model_with_budget, two_torsion_points_with_budget, Curve, Point,
+    torsion, two_torsion_model_with_budget, two_torsion_points_with_budget, Curve, Point,
     TorsionGroup, TwoIsogeny, TwoTorsionModel,
 };
 use crate::error::{Error, Result};
@@ -285,7 +285,7 @@ pub fn descend_isogeny(
     options: &DescentOptions,
 ) -> Result<IsogenyDescent> {
     let ctx = DescentContext::new(options, Instant::now());
-    let torsion = torsion_subgroup(curve);
+    let torsion = torsion(curve);
     descend_isogeny_with_torsion(curve, t, &torsion, &ctx, None, &mut KnownPrimes::default())
 }
 
@@ -316,7 +316,7 @@ fn descend_isogeny_with_torsion(
         .iter()
         .map(|p| model.from_input(p))
         .collect();
-    let torsion_e2 = torsion_subgroup(isogeny.codomain()).points().to_vec();
+    let torsion_e2 = crate::curve::torsion(isogeny.codomain()).points().to_vec();
 
     let domain = isogeny_side::compute_side(model.reduced(), &primes, &torsion_e, ctx)?;
     let codomain = isogeny_side::compute_side(isogeny.codomain_model(), &primes, &torsion_e2, ctx)?;
@@ -369,7 +369,7 @@ pub fn descend(curve: &Curve, options: &DescentOptions) -> Result<DescentReport>
     if ts.is_empty() {
         return Err(Error::NoTwoTorsion);
     }
-    let torsion = torsion_subgroup(curve);
+    let torsion = torsion(curve);
     // Primes shared by the numbers factored below (the discriminant, b and
     // a² − 4b of each reduced model): each is factored at most once, and
     // only where factoring would have been free is a number's list read

@@ -55,7 +55,9 @@ pub struct DescentOptions {
     pub time_limit: Option<Duration>,
     /// The analytic side (`None`: off): root number, certified L-values,
     /// ranks settled by theorem and the Birch–Swinnerton-Dyer ledger, for
-    /// curves with conductor up to the options' limit (default 10¹⁰).
+    /// curves with conductor up to the options' limit (default 10¹⁰, and
+    /// 10¹³ for quadratic twists of y² = x³ − x such as the congruent-number
+    /// curves; see `AnalyticOptions::conductor_limit_for`).
     pub analytic: Option<AnalyticOptions>,
     /// Saturation of the points into generators with heights and the
     /// regulator, when the rank is decided (`None`: off).

@@ -141,7 +141,7 @@ impl DescentReport {
     /// Global minimal model, conductor and Tate's algorithm at every bad
     /// prime; `None` when a budget or the clock stopped Tate's algorithm
     /// (the report is then partial).
-    pub fn local_data(&self) -> Option<&GlobalLocalData> {
+    pub fn tate_data(&self) -> Option<&GlobalLocalData> {
         self.local_data.as_ref()
     }
 

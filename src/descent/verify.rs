@@ -18,13 +18,16 @@
 //!    follow from the dimensions by the exact sequence;
 //! 5. each "proven not an image" class has its second-descent evidence
 //!    re-checked by [`verify_obstruction`]: the twists λ are the complete
-//!    list, and each covering is insoluble at the place named.
+//!    list, and each covering is insoluble at the place named; the printed
+//!    obstructions are those of the evidence, each quartic has non-zero
+//!    discriminant and no point at its place, and each conic (a twist with
+//!    no quartic model) has Hilbert symbol −1 at its place.
 //!
 //! The result lists every check with its outcome, so a reader sees what
 //! was checked, not only a yes/no.
 
 use super::exact_sequence::rank_bounds;
-use super::isogeny_side::{connecting_value, ClassStatus, SelmerSide};
+use super::isogeny_side::{connecting_value, covering_obstruction, ClassStatus, SelmerSide};
 use super::report::DescentReport;
 use crate::budget::Budget;
 use crate::curve::Curve;
@@ -270,7 +273,9 @@ fn verify_side(
                 );
             }
             ClassStatus::ProvenNotImage {
-                space, evidence, ..
+                space,
+                obstructions,
+                evidence,
             } => {
                 let ok =
                     space == &el.class && verify_obstruction(&side.model, space, evidence, budget);
@@ -280,6 +285,24 @@ fn verify_side(
                         el.class, space
                     ),
                     ok,
+                );
+                // The printed list is the evidence's, entry by entry, and
+                // each entry re-checks from its own data: a quartic with
+                // non-zero discriminant insoluble at its place, or a conic
+                // whose Hilbert symbol at its place is −1.
+                let derived: Option<Vec<_>> = evidence
+                    .obstructions
+                    .iter()
+                    .map(|o| covering_obstruction(o).ok())
+                    .collect();
+                let same = derived.as_ref() == Some(obstructions);
+                let each = obstructions.iter().all(|o| o.recheck(budget));
+                out.record(
+                    format!(
+                        "{tag}: class {}: the printed obstructions of C_{} are the evidence's; each quartic is a genuine 4-covering insoluble at its place, each conic has Hilbert symbol -1 there",
+                        el.class, space
+                    ),
+                    same && each,
                 );
             }
             ClassStatus::Undecided => {}

@@ -60,7 +60,9 @@ use crate::analytic::{analyse, AnalyticOptions, RankTheorem};
 use crate::arith::factor;
 use crate::budget::Budget;
 use crate::cubic::{CubicPoint, CubicWitness};
-use crate::curve::{short_integral_model, Curve, GlobalLocalData, ModelChange, Point};
+use crate::curve::{
+    global_local_data, short_integral_model, Curve, GlobalLocalData, ModelChange, Point,
+};
 use crate::error::{Error, Result};
 use crate::local::Prime;
 use f3::Span;
@@ -409,7 +411,7 @@ pub fn descend_3isogeny(e: &Curve, opts: &Isogeny3Options) -> Result<Isogeny3Rep
     let local = if opts.tamagawa_check || needs_analytic {
         let z = BigInt::zero;
         let ek = Curve::from_bigints([z(), z(), z(), z(), k.clone()])?;
-        match ek.local_data(&mut tb) {
+        match global_local_data(ek.coefficients(), &mut tb) {
             Ok(l) => Some((l, ek)),
             Err(Error::BudgetExhausted { .. }) | Err(Error::FactorBudgetExhausted { .. }) => {
                 cut.push("local data (Tate's algorithm)".to_string());
@@ -564,7 +566,7 @@ pub(crate) fn tamagawa_ratio(
     let z = BigInt::zero;
     let k2 = BigInt::from(-27) * k;
     let e2 = Curve::from_bigints([z(), z(), z(), z(), k2.clone()])?;
-    let l2 = e2.local_data(budget)?;
+    let l2 = global_local_data(e2.coefficients(), budget)?;
     let tam = |l: &GlobalLocalData| -> Vec<(BigInt, u64)> {
         l.primes
             .iter()

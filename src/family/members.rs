@@ -69,7 +69,7 @@ pub fn is_squarefree_u64(n: u64) -> bool {
 ///
 /// Example: the twist of y² = x³ − x by d = 5 is y² = x³ − 25x, the
 /// congruent-number curve for n = 5.
-pub fn quadratic_twist(e: &Curve, d: i64) -> Result<Curve> {
+pub fn twist_by(e: &Curve, d: i64) -> Result<Curve> {
     if d == 0 {
         return Err(Error::Zero {
             what: "twisting parameter d".into(),
@@ -184,7 +184,7 @@ fn check_range(from: i128, to: i128) -> Result<()> {
 }
 
 impl Family {
-    /// The quadratic twists E^(d) of `base` (see [`quadratic_twist`]) for
+    /// The quadratic twists E^(d) of `base` (see [`twist_by`]) for
     /// square-free d ≠ 0 (negative d allowed; d = 1 is `base` itself) with
     /// `from ≤ d ≤ to`.
     ///
@@ -294,7 +294,7 @@ impl Family {
     /// this kind of family).
     fn curve_for(&self, p: Parameter) -> Result<Curve> {
         match (&self.kind, p) {
-            (Kind::Twists { base, .. }, Parameter::Twist(d)) => quadratic_twist(base, d),
+            (Kind::Twists { base, .. }, Parameter::Twist(d)) => twist_by(base, d),
             (Kind::Congruent { .. }, Parameter::Congruent(n)) => {
                 let n = BigInt::from(n);
                 Curve::from_bigints([

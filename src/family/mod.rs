@@ -39,7 +39,7 @@ pub(crate) mod records;
 pub(crate) mod scan;
 mod word_sweep;
 
-pub use members::{is_squarefree_u64, quadratic_twist, Family, Member, Members, Parameter};
+pub use members::{is_squarefree_u64, twist_by, Family, Member, Members, Parameter};
 pub use records::{
     congruent_selmer_limit_law, merge_shards, read_for_resume, IndexList, LawComparison,
     MergeReport, RecordLine, ResumeState, Tally,

@@ -198,10 +198,11 @@ impl Tally {
 
 /// Heath-Brown's limit law for the congruent-number curves: the share of
 /// square-free n with s(n) = dim Sel²(E_n) − 2 equal to r is
-/// d_r = α · 2^r / ∏_{j=1}^{r} (2^j − 1), α = ∏_{j≥0} (1 + 2^{−j})^{−1}
+/// `d_r = α · 2^r / ∏_{j=1..r} (2^j − 1)`, with
+/// `α = ∏_{j≥0} (1 + 2^(−j))^(−1)`
 /// (Heath-Brown, "The size of Selmer groups for the congruent number
 /// problem II", Invent. Math. 118 (1994), Theorem 1; from memory). Returns
-/// d_0, …, d_{r_max}.
+/// `d_0, …, d_{r_max}`.
 pub fn congruent_selmer_limit_law(r_max: usize) -> Vec<f64> {
     let alpha: f64 = (0..64).map(|j| 1.0 / (1.0 + 0.5f64.powi(j))).product();
     let mut out = Vec::with_capacity(r_max + 1);

@@ -119,8 +119,21 @@ impl ScanRecord {
     /// two keys put in front, `"family_index"` and `"family_parameter"`;
     /// the keys of the descent contract are unchanged.
     ///
-    /// Example: for n = 5 of the congruent family (index 3) the line starts
-    /// `{"family_index":3,"family_parameter":"n=5","input":"0 0 0 -25 0",`.
+    /// Example: for n = 5 of the congruent family the line starts
+    /// `{"family_index":3,"family_parameter":"n=5","format_version":3,"input":"y^2 = x^3 - 25x",`:
+    ///
+    /// ```
+    /// use isodescent::descent::DescentOptions;
+    /// use isodescent::family::{scan_member, Family};
+    ///
+    /// let fam = Family::congruent_numbers(1, 5).unwrap();
+    /// let n5 = fam.members().find(|m| m.line() == "y^2 = x^3 - 25x").unwrap();
+    /// let line = scan_member(&n5, &DescentOptions::default()).to_line();
+    /// assert!(line.starts_with(
+    ///     r#"{"family_index":3,"family_parameter":"n=5","format_version":3,"input":"y^2 = x^3 - 25x","#
+    /// ));
+    /// assert!(line.contains(r#""rank_lower":1,"rank_upper":1"#));
+    /// ```
     pub fn to_line(&self) -> String {
         let head = format!(
             "{{\"family_index\":{},\"family_parameter\":{}",

@@ -110,9 +110,12 @@ impl Certified {
 }
 
 impl fmt::Display for Certified {
-    /// `0.0511114082400 ± 2.1e-13`.
+    /// `0.05111140824000 ± 2.2e-13`: the printed interval contains the
+    /// certified one (the error widened by the rounding and rounded up).
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
-        write!(f, "{:.13} ± {:.1e}", self.value, self.error)
+        // The printed interval contains the certified one (arith::decimal).
+        let (v, e) = crate::arith::decimal::enclose(self.value, self.error);
+        write!(f, "{v} ± {e}")
     }
 }
 
@@ -152,13 +155,13 @@ impl HeightContext {
     /// invariants of the minimal model exceed the f64 range (about 10^70
     /// for the coefficients).
     pub fn new(curve: &Curve, budget: &mut Budget) -> Result<HeightContext> {
-        let data = curve.local_data(budget)?;
+        let data = curve.tate_data(budget)?;
         Self::from_local_data(curve, &data)
     }
 
     /// The context from the curve's local data computed elsewhere (a
     /// descent report's, say), so that Tate's algorithm runs once per
-    /// curve. `data` must be `curve`'s own ([`Curve::local_data`]); its
+    /// curve. `data` must be `curve`'s own ([`Curve::tate_data`]); its
     /// minimal model is checked to be integral and its change of model
     /// to be invertible.
     ///
@@ -509,11 +512,15 @@ pub fn determinant(m: &[Vec<Certified>]) -> Certified {
 /// ```
 /// use isodescent::curve::{Curve, Point};
 /// use isodescent::height::canonical_height;
-/// // y² + y = x³ − x, P = (0, 0): ĥ(P) ≈ 0.0511114082 (x-normalisation;
-/// // the regulator of this rank-one curve, from memory).
+/// // y² + y = x³ − x, P = (0, 0): ĥ(P) = 0.05111140823996884… in the
+/// // x-normalisation (computed independently with mpmath by
+/// // tests/data/gen_curve_values.py), and ĥ(2P) = 4ĥ(P).
 /// let e = Curve::from_ints([0, 0, 1, -1, 0]).unwrap();
-/// let h = canonical_height(&e, &Point::from_ints(0, 0)).unwrap();
-/// assert!((h.value - 0.0511114082).abs() < 1e-9 && h.error < 1e-12);
+/// let p = Point::from_ints(0, 0);
+/// let h = canonical_height(&e, &p).unwrap();
+/// assert!((h.value - 0.05111140823996884).abs() <= h.error + 1e-16 && h.error < 1e-12);
+/// let h2 = canonical_height(&e, &e.double(&p)).unwrap();
+/// assert!((h2.value - 4.0 * h.value).abs() <= h2.error + 4.0 * h.error);
 /// ```
 ///
 /// # Errors
@@ -539,7 +546,7 @@ pub fn canonical_height_to(curve: &Curve, p: &Point, precision: f64) -> Result<C
 ///
 /// # Errors
 /// Those of [`HeightContext::new`] and [`HeightContext::pairing_matrix`].
-pub fn height_pairing_matrix(curve: &Curve, points: &[Point]) -> Result<Vec<Vec<Certified>>> {
+pub fn height_gram_matrix(curve: &Curve, points: &[Point]) -> Result<Vec<Vec<Certified>>> {
     for p in points {
         curve.check_point(p)?;
     }
@@ -550,9 +557,9 @@ pub fn height_pairing_matrix(curve: &Curve, points: &[Point]) -> Result<Vec<Vec<
 /// The regulator of `points`: `det(⟨Pᵢ, Pⱼ⟩)`.
 ///
 /// # Errors
-/// Those of [`height_pairing_matrix`].
+/// Those of [`height_gram_matrix`].
 pub fn regulator(curve: &Curve, points: &[Point]) -> Result<Certified> {
-    Ok(determinant(&height_pairing_matrix(curve, points)?))
+    Ok(determinant(&height_gram_matrix(curve, points)?))
 }
 
 /// The naive height `h(x(P)) = log max(|a|, |b|)` of a point on any model,

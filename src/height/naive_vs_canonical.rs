@@ -42,7 +42,7 @@ use num_traits::{ToPrimitive, Zero};
 
 use super::{Certified, HeightContext, DEFAULT_PRECISION};
 use crate::budget::Budget;
-use crate::curve::{torsion_subgroup, Point};
+use crate::curve::{torsion, Point};
 use crate::error::{Error, Result};
 
 /// Bounds valid for every point of `E(Q)` on the minimal model:
@@ -107,7 +107,7 @@ pub fn height_lower_bound(
     if search_height - b <= 1e-6 {
         return Ok(None);
     }
-    let tors = torsion_subgroup(ctx.minimal_model());
+    let tors = torsion(ctx.minimal_model());
     let m = search_height.exp().floor() as i128;
     let x0 = ctx.arch().x_floor;
     let a = ctx.a_invariants();

@@ -2,7 +2,7 @@
 //! coordinates run to hundreds of digits.
 //!
 //! An integral model `y² + a1xy + a3y = x³ + a2x² + a4x + a6` is carried to
-//! the short model `Y² = X³ − 27c4·X − 54c6` by `X = 36x + 3b2`,
+//! the short model `Y² = X³ − 27·c4·X − 54·c6` by `X = 36x + 3b2`,
 //! `Y = 108(2y + a1x + a3)` [Sil09, III.1]. There a point is a triple
 //! `(X : Y : Z)` of integers with `X/Z² = x`, `Y/Z³ = y`; the point at
 //! infinity has `Z = 0`. Doubling and addition use the textbook Jacobian
@@ -50,7 +50,7 @@ pub(crate) struct ShortModel {
     /// `[a1, a2, a3, a4, a6]` of the integral model.
     a: [BigInt; 5],
     b2: BigInt,
-    /// `A = −27c4`, `B = −54c6`.
+    /// `A = −27·c4`, `B = −54·c6`.
     pub big_a: BigInt,
     pub big_b: BigInt,
 }

@@ -62,7 +62,7 @@ use super::{determinant, Certified, HeightContext, DEFAULT_PRECISION};
 use crate::arith::is_prime_u64;
 use crate::arith::word::{mul_mod, pow_mod, sqrt_mod};
 use crate::budget::Budget;
-use crate::curve::{torsion_subgroup, Point};
+use crate::curve::{torsion, Point};
 use crate::error::{Error, Result};
 
 /// Largest accepted [`SaturationOptions::max_prime`] (arithmetic mod `p`
@@ -321,7 +321,7 @@ fn saturate_in(
     let mut index_bound: Option<u64> = lambda.map(index_for);
     let proven_index_bound = index_bound;
 
-    let tors = torsion_subgroup(ctx.minimal_model());
+    let tors = torsion(ctx.minimal_model());
     let tors_gens: Vec<Point> = tors.generators().to_vec();
 
     let mut primes_checked = Vec::new();

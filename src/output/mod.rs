@@ -33,7 +33,8 @@ pub enum Detail {
     #[default]
     Summary,
     /// Everything: local images at every place, every space searched with
-    /// its equation, every 4-covering with the place where it is insoluble.
+    /// its equation, every 4-covering with the place where it is insoluble
+    /// (or, for a twist with no quartic model, its conic and the place).
     Full,
 }
 

@@ -8,16 +8,15 @@ use num_rational::BigRational;
 use num_traits::One;
 
 use super::Detail;
-use crate::analytic::AnalyticData;
+use crate::analytic::{AnalyticData, AnalyticOrder};
 use crate::curve::equation::{equation_text, quartic_text, reduced_equation_text};
 use crate::curve::tate::ReductionKind;
 use crate::curve::{ModelChange, Point};
-use crate::descent::isogeny_side::{ClassStatus, SelmerSide};
+use crate::descent::isogeny_side::{ClassStatus, CoveringObstruction, SelmerSide};
 use crate::descent::report::{Completion, DescentReport};
 use crate::descent::IsogenyDescent;
 use crate::descent::RankProof;
 use crate::local::class_representatives;
-use crate::output::json::decimal;
 use crate::quartic::search::SearchOutcome;
 
 /// A rational as "p/q" in lowest terms, or "p".
@@ -109,10 +108,24 @@ fn class_line(status: &ClassStatus) -> String {
             obstructions,
             space,
             ..
-        } => format!(
-            "not an image: each of the {} 4-coverings of C_{space} is locally insoluble",
-            obstructions.len()
-        ),
+        } => {
+            let conics = obstructions
+                .iter()
+                .filter(|o| matches!(o, CoveringObstruction::Conic { .. }))
+                .count();
+            if conics == 0 {
+                format!(
+                    "not an image: each of the {} 4-coverings of C_{space} is locally insoluble",
+                    obstructions.len()
+                )
+            } else {
+                format!(
+                    "not an image: each of the {} twists of C_{space} is locally insoluble ({} by a 4-covering, {conics} by a conic with no quartic model)",
+                    obstructions.len(),
+                    obstructions.len() - conics
+                )
+            }
+        }
     }
 }
 
@@ -173,7 +186,7 @@ pub(crate) fn evidence_summary(s: &SelmerSide) -> String {
         let mut count = 0;
         let places = proven.iter().flat_map(|st| match st {
             ClassStatus::ProvenNotImage { obstructions, .. } => {
-                obstructions.iter().map(|o| &o.place).collect::<Vec<_>>()
+                obstructions.iter().map(|o| o.place()).collect::<Vec<_>>()
             }
             _ => Vec::new(),
         });
@@ -255,15 +268,29 @@ fn write_side(
             {
                 writeln!(f, "  4-coverings of C_{space}:")?;
                 for o in obstructions {
-                    writeln!(
-                        f,
-                        "    y^2 = {}   insoluble at {}",
-                        quartic_text(&o.covering)
-                            .trim_start_matches("N^2 = ")
-                            .replace('M', "u")
-                            .replace('e', "v"),
-                        o.place
-                    )?;
+                    match o {
+                        CoveringObstruction::Quartic { covering, place } => writeln!(
+                            f,
+                            "    y^2 = {}   insoluble at {place}",
+                            quartic_text(covering)
+                                .trim_start_matches("N^2 = ")
+                                .replace('M', "u")
+                                .replace('e', "v"),
+                        )?,
+                        CoveringObstruction::Conic {
+                            scale,
+                            form,
+                            hilbert,
+                            place,
+                        } => writeln!(
+                            f,
+                            "    no quartic model (neither conic of the twist has a rational point); its conic {} = {} has no point at {place}: Hilbert symbol ({}, {})_{place} = -1",
+                            form_text(std::slice::from_ref(scale), &["s^2"]),
+                            form_text(form, &["u^2", "uv", "v^2"]),
+                            hilbert[0],
+                            hilbert[1],
+                        )?,
+                    }
                 }
             }
         }
@@ -380,7 +407,7 @@ pub(crate) fn write_report(
             let (w, k) = (a.root_number().unwrap_or(0), b.lower);
             let value = a
                 .l_value(k)
-                .map(|c| format!("{} ± {:.1e}", decimal(c.value(), c.error()), c.error()))
+                .map(|c| plus_minus(c.value(), c.error()))
                 .unwrap_or_default();
             writeln!(
                 f,
@@ -408,12 +435,7 @@ pub(crate) fn write_report(
         .iter()
         .enumerate()
         .map(|(i, p)| match heights.get(i) {
-            Some(h) => format!(
-                "{} (ĥ = {} ± {:.1e})",
-                point_text(p),
-                decimal(h.value, h.error),
-                h.error
-            ),
+            Some(h) => format!("{} (ĥ = {})", point_text(p), plus_minus(h.value, h.error)),
             None => point_text(p),
         })
         .collect();
@@ -449,12 +471,7 @@ pub(crate) fn write_report(
         )?;
     }
     if let Some(reg) = r.regulator() {
-        writeln!(
-            f,
-            "regulator: {} ± {:.1e}",
-            decimal(reg.value, reg.error),
-            reg.error
-        )?;
+        writeln!(f, "regulator: {}", plus_minus(reg.value, reg.error))?;
     }
     if returned.len() < b.lower {
         writeln!(
@@ -504,7 +521,7 @@ pub(crate) fn write_report(
         write_analytic(f, r, a)?;
     }
     writeln!(f)?;
-    match r.local_data() {
+    match r.tate_data() {
         Some(ld) => {
             let mm = ld.minimal_model.clone().map(BigRational::from_integer);
             writeln!(
@@ -556,13 +573,13 @@ fn write_analytic(f: &mut fmt::Formatter<'_>, r: &DescentReport, a: &AnalyticDat
         .unwrap_or_else(|| "undecided".into());
     let period = a
         .real_period()
-        .map(|c| format!("{} ± {:.1e}", decimal(c.value(), c.error()), c.error()))
+        .map(|c| plus_minus(c.value(), c.error()))
         .unwrap_or_else(|| "-".into());
     writeln!(
         f,
         "analytic side: root number w = {w}, Ω = {period} ({} real component{}), {} terms",
-        a.real_components().unwrap_or(0),
-        if a.real_components() == Some(1) {
+        a.real_component_count().unwrap_or(0),
+        if a.real_component_count() == Some(1) {
             ""
         } else {
             "s"
@@ -574,21 +591,23 @@ fn write_analytic(f: &mut fmt::Formatter<'_>, r: &DescentReport, a: &AnalyticDat
         .iter()
         .map(|(k, c)| {
             format!(
-                "L{}(E,1) = {} ± {:.1e}",
+                "L{}(E,1) = {}",
                 "'".repeat(*k),
-                decimal(c.value(), c.error()),
-                c.error()
+                plus_minus(c.value(), c.error())
             )
         })
         .collect();
     if !values.is_empty() {
         writeln!(f, "  {}", values.join(", "))?;
     }
-    match a.analytic_rank() {
-        Some(k) if k <= 1 => writeln!(f, "  analytic rank {k} (order of vanishing at s = 1, proven)")?,
-        Some(k) => writeln!(
+    match a.analytic_order() {
+        Some(AnalyticOrder::Exact(k)) => {
+            writeln!(f, "  analytic rank {k} (order of vanishing at s = 1, proven)")?
+        }
+        Some(o) => writeln!(
             f,
-            "  analytic rank at most {k} (smallest order with a certified non-zero value; lower orders not proven to vanish)"
+            "  analytic rank at most {} (smallest order with a certified non-zero value; lower orders not proven to vanish)",
+            o.order()
         )?,
         None => writeln!(f, "  no L^(r)(E,1) with r ≤ 3 certified non-zero")?,
     }
@@ -600,9 +619,8 @@ fn write_analytic(f: &mut fmt::Formatter<'_>, r: &DescentReport, a: &AnalyticDat
             };
             writeln!(
                 f,
-                "  Birch–Swinnerton-Dyer: analytic order of Sha = {} ± {:.1e}, {square}",
-                decimal(l.value.value(), l.value.error()),
-                l.value.error()
+                "  Birch–Swinnerton-Dyer: analytic order of Sha = {}, {square}",
+                plus_minus(l.value.value(), l.value.error())
             )?;
             if let Some(t) = r.sha_two_part() {
                 writeln!(
@@ -622,4 +640,37 @@ fn write_analytic(f: &mut fmt::Formatter<'_>, r: &DescentReport, a: &AnalyticDat
         )?,
     }
     Ok(())
+}
+
+/// `value ± error` with the printed interval containing the certified one
+/// (see [`super::json::value_and_error`]).
+fn plus_minus(value: f64, error: f64) -> String {
+    let (v, e) = super::json::value_and_error(value, error);
+    format!("{v} ± {e}")
+}
+
+/// `c₀·m₀ + c₁·m₁ + …` with the monomials `m_i`, zero terms left out.
+fn form_text(coeffs: &[BigInt], monomials: &[&str]) -> String {
+    use num_traits::{Signed, Zero};
+    let mut out = String::new();
+    for (c, m) in coeffs.iter().zip(monomials) {
+        if c.is_zero() {
+            continue;
+        }
+        if out.is_empty() {
+            if c.is_negative() {
+                out.push('-');
+            }
+        } else {
+            out.push_str(if c.is_negative() { " - " } else { " + " });
+        }
+        if !c.abs().is_one() {
+            out.push_str(&c.abs().to_string());
+        }
+        out.push_str(m);
+    }
+    if out.is_empty() {
+        out.push('0');
+    }
+    out
 }

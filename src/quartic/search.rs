@@ -991,6 +991,11 @@ impl Sieve {
                         continue;
                     }
                     budget.spend(1).map_err(|_| OutOfBudget)?;
+                    if self.small.is_none() {
+                        // A square-root test on big values is slow next
+                        // to a unit: read the clock at each one.
+                        budget.check_deadline().map_err(|_| OutOfBudget)?;
+                    }
                     if let Some(y) = self.exact_square(x, z) {
                         out.push(Found {
                             height: x.unsigned_abs().max(z as u64),

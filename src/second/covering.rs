@@ -228,23 +228,12 @@ pub struct TwistObstruction {
 
 impl TwistObstruction {
     /// The covering as five coefficients `[c4, c3, c2, c1, c0]` of
-    /// `y² = c4 m⁴ + … + c0 n⁴`, for callers that store quartics only.
-    ///
-    /// A conic obstruction `λ s² = A u² + B uv + C v²` is written
-    /// `[0, 0, λA, λB, λC]`: **when `c4 = c3 = 0` the last three entries are
-    /// the binary quadratic `λF`, and the curve meant is the conic
-    /// `y² = λA u² + λB uv + λC v²`** (`y = λs`), not a quartic (as a quartic
-    /// it would be degenerate). [`verify_obstruction`] knows both readings.
-    pub fn covering_coefficients(&self) -> [BigInt; 5] {
+    /// `y² = c4 m⁴ + … + c0 n⁴` when it is a quartic model of `D_λ`;
+    /// `None` for a conic obstruction (no quartic model was built).
+    pub fn quartic_coefficients(&self) -> Option<&[BigInt; 5]> {
         match &self.curve {
-            ObstructedCurve::Quartic { coeffs, .. } => coeffs.clone(),
-            ObstructedCurve::Conic { scale, form } => [
-                BigInt::zero(),
-                BigInt::zero(),
-                scale * &form[0],
-                scale * &form[1],
-                scale * &form[2],
-            ],
+            ObstructedCurve::Quartic { coeffs, .. } => Some(coeffs),
+            ObstructedCurve::Conic { .. } => None,
         }
     }
 }
