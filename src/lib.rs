@@ -78,6 +78,9 @@ pub mod height;
 // Layer 4: rational conics — Legendre's equation, parametrisation.
 pub mod conic;
 
+// Layer 4b: plane cubics F(u, v) = c·w³ over Q_p, Eisenstein integers.
+pub mod cubic;
+
 // Layer 5: quartic homogeneous spaces — local solvability, local images, point search.
 pub mod quartic;
 
@@ -89,6 +92,9 @@ pub mod second;
 
 // Layer 8: the descent — both sides of each 2-isogeny, rank bounds, reports.
 pub mod descent;
+
+// Layer 8b: descent via 3-isogeny on y^2 = x^3 + k (Selmer groups over F3, rank bounds).
+pub mod descent3;
 
 // Layer 9: the edge — reports as text and JSON, input lines as curves.
 pub mod output;
