@@ -227,7 +227,7 @@ fn main() {
                     decided += 1;
                     if r.rank_lower() == 1 {
                         rank_one += 1;
-                        if r.points_generate() && !r.returned_points().is_empty() {
+                        if r.points_generate() && !r.points().is_empty() {
                             rank_one_points += 1;
                         }
                     }

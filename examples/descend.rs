@@ -20,8 +20,11 @@
 //! In `--json` mode input is read as bytes, line by line: blank lines
 //! (Unicode white space only, including U+2028/U+2029) and lines starting
 //! with `#` are skipped; a bad line, including one that is not valid UTF-8,
-//! gets an object with its `error` and the batch goes on. The exit status
-//! is non-zero only for usage or I/O errors.
+//! gets an object with its `error` and the batch goes on. Exit status: 0
+//! on success (also for `--json` batches with error lines, and for the
+//! demo, one of whose curves is an error on purpose); 1 when the curve
+//! given as an argument does not parse or its descent fails, or on an I/O
+//! error; 2 on a usage error. `-h`/`--help` prints this help.
 
 use std::io::{self, BufRead, Read, Write};
 use std::process::ExitCode;
@@ -51,7 +54,7 @@ const DEMO: &[(&str, &str)] = &[
     ("y^2 = x^3 - 1154x", "a curve of higher rank"),
     (
         "y^2 = x^3 - 30x^2 - 8x",
-        "the bounds stay apart: reported honestly as an interval",
+        "the descent leaves [0, 2]; the analytic side proves rank 0 and names the theorem",
     ),
     (
         "0 1 1 -2 0",
@@ -59,12 +62,13 @@ const DEMO: &[(&str, &str)] = &[
     ),
 ];
 
-const USAGE: &str = "usage: descend [--json | \"EQUATION\" | \"A1 A2 A3 A4 A6\"] [--space-height H] [--covering-height H] [--skip-coverings] [--search-work N] [--local-work N] [--factor-work N] [--seconds S] [--all-evidence]";
+const USAGE: &str = "usage: descend [-h | --help] [--json | \"EQUATION\" | \"A1 A2 A3 A4 A6\"] [--space-height H] [--covering-height H] [--skip-coverings] [--search-work N] [--local-work N] [--factor-work N] [--seconds S] [--all-evidence]";
 
 enum Mode {
     Demo,
     One(String),
     Json,
+    Help,
 }
 
 fn parse_args() -> Result<(Mode, DescentOptions, Detail), String> {
@@ -96,7 +100,7 @@ fn parse_args() -> Result<(Mode, DescentOptions, Detail), String> {
                     .ok_or(format!("--seconds needs a positive number, got {v:?}"))?;
                 options.time_limit = Some(std::time::Duration::from_secs_f64(secs));
             }
-            "-h" | "--help" => return Err(String::new()),
+            "-h" | "--help" => return Ok((Mode::Help, options, detail)),
             s if s.starts_with("--") => return Err(format!("unknown option {s}")),
             s => {
                 if matches!(mode, Mode::One(_)) {
@@ -112,32 +116,59 @@ fn parse_args() -> Result<(Mode, DescentOptions, Detail), String> {
     Ok((mode, options, detail))
 }
 
+/// Writes the report of one curve; `Ok(false)` when the curve did not
+/// parse or its descent failed (the error is written instead).
 fn report_one(
     text: &str,
     options: &DescentOptions,
     detail: Detail,
     out: &mut impl Write,
-) -> io::Result<()> {
+) -> io::Result<bool> {
     match text.parse::<Curve>() {
-        Err(e) => writeln!(out, "{text}: {e}"),
+        Err(e) => writeln!(out, "{text}: {e}").map(|()| false),
         Ok(curve) => match descend(&curve, options) {
-            Ok(r) => writeln!(out, "{}", r.text(detail)),
-            Err(e) => writeln!(out, "{text}: {e}"),
+            Ok(r) => writeln!(out, "{}", r.text(detail)).map(|()| true),
+            Err(e) => writeln!(out, "{text}: {e}").map(|()| false),
         },
     }
 }
 
-fn run(mode: Mode, options: &DescentOptions, detail: Detail) -> io::Result<()> {
+const HELP: &str = "descend: 2-isogeny descent on elliptic curves over Q
+
+  descend                          descent on the built-in demo curves, readable reports
+  descend \"y^2 = x^3 - 30x^2 + 3x\" readable report for one curve
+  descend \"0 0 0 -36 0\"            the same with the five coefficients a1 a2 a3 a4 a6
+  descend --json                   one curve per stdin line -> one JSON object per line
+
+options (before or after the curve):
+  --space-height H     search height on each homogeneous space   (default 128)
+  --covering-height H  search height on the 4-coverings          (default 64)
+  --skip-coverings     no 4-coverings (first descent and search only)
+  --search-work N      work units per homogeneous-space search
+  --local-work N       work units for the local tests of one side
+  --factor-work N      work units for factoring per isogeny
+  --seconds S          wall-clock limit per curve (results then depend on timing)
+  --all-evidence       every local image, space searched and 4-covering, in text and JSON
+  -h, --help           this help
+
+Exit status: 0 on success (a --json batch with error lines included), 1 when
+the curve given as an argument fails or on an I/O error, 2 on a usage error.
+JSON lines follow docs/report.schema.json (format 3, docs/report_format.md).";
+
+/// Runs `mode`; `Ok(false)` when the one curve given failed.
+fn run(mode: Mode, options: &DescentOptions, detail: Detail) -> io::Result<bool> {
     let stdout = io::stdout();
     let mut out = stdout.lock();
+    let mut ok = true;
     match mode {
+        Mode::Help => writeln!(out, "{HELP}")?,
         Mode::Demo => {
             for (curve, note) in DEMO {
                 writeln!(out, "── {note}")?;
                 report_one(curve, options, detail, &mut out)?;
             }
         }
-        Mode::One(text) => report_one(&text, options, detail, &mut out)?,
+        Mode::One(text) => ok = report_one(&text, options, detail, &mut out)?,
         Mode::Json => {
             // Caught panics are reported in the JSON; keep stderr quiet.
             std::panic::set_hook(Box::new(|_| {}));
@@ -175,7 +206,8 @@ fn run(mode: Mode, options: &DescentOptions, detail: Detail) -> io::Result<()> {
             }
         }
     }
-    out.flush()
+    out.flush()?;
+    Ok(ok)
 }
 
 /// Consumes the rest of the current line (through its newline, if any)
@@ -213,7 +245,8 @@ fn main() -> ExitCode {
         }
     };
     match run(mode, &options, detail) {
-        Ok(()) => ExitCode::SUCCESS,
+        Ok(true) => ExitCode::SUCCESS,
+        Ok(false) => ExitCode::from(1),
         Err(e) if e.kind() == io::ErrorKind::BrokenPipe => ExitCode::SUCCESS,
         Err(e) => {
             eprintln!("descend: I/O error: {e}");

@@ -8,6 +8,11 @@
 //! same budget always stop at the same place: results are reproducible.
 //! An optional wall-clock deadline can be added on top; a run that hits the
 //! deadline is, by nature, not reproducible.
+//!
+//! ---
+//!
+//! The guide below is `docs/robustness.md`, included verbatim.
+#![doc = include_str!("../docs/robustness.md")]
 
 use std::time::Instant;
 

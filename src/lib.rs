@@ -6,7 +6,35 @@
 //! certified lower and upper bounds for the rank, with evidence a reader can
 //! re-check.
 //!
-//! The modules are layers; each uses only the ones above it in this list.
+//! # Layers
+//!
+//! The modules are layers, lowest first; each uses only the ones in the
+//! rows above its own (rustdoc lists the modules alphabetically below,
+//! this table is the order that matters).
+//!
+//! | layer | module | holds |
+//! |---|---|---|
+//! | — | [`error`], [`budget`] | the one error enum; deterministic effort budgets |
+//! | 1 | [`arith`] | primality, factoring, square-free parts, integer roots, certified reals |
+//! | 2 | [`local`] | places, valuations, symbols, modular square roots, square classes, Hilbert symbols |
+//! | 3 | [`curve`] | Weierstrass models, points, 2-torsion, the checked `ReducedModel`, 2-isogenies, torsion, Tate's algorithm |
+//! | 3a | [`analytic`] | a_p and a_n, root number, real period, certified L-values, the BSD ledger |
+//! | 3b | [`height`] | canonical heights, the height pairing, regulators, LLL, lower bounds, saturation |
+//! | 4 | [`conic`] | Legendre's equation, zeros and parametrisations of conics |
+//! | 5 | [`quartic`] | binary quartics, local solubility at every place, local images, point search |
+//! | 6 | [`selmer`] | F2 linear algebra, Q(S,2), Selmer groups from local images, local-image sizes |
+//! | 7 | [`second`] | the second descent: lifting pairing, class lifts, 4-coverings, twist obstructions |
+//! | 8 | [`descent`] | both sides of each 2-isogeny, rank bounds, the typed report, its verification |
+//! | 9 | [`output`] | reports as text and JSON, input lines as curves, batches |
+//! | 10 | [`family`] | twists, congruent numbers, boxes; ordered, parallel, sharded scans |
+//!
+//! Layers 3a and 3b sit side by side: neither uses the other. The guides
+//! in `docs/` are included in, or cited from, the rustdoc of the module
+//! they explain; docs/references.md lists the literature cited as
+//! `[Author00]`, and docs/performance.md the measured figures with the
+//! commands that produced them.
+//!
+//! # Example
 //!
 //! ```
 //! use isodescent::{descend, Curve, DescentOptions};
@@ -76,7 +104,9 @@ pub mod family;
 
 pub use budget::Budget;
 pub use curve::{Curve, Point};
-pub use descent::{descend, Completion, DescentOptions, DescentReport, RankBounds, RankProof};
+pub use descent::{
+    descend, Completion, DescentOptions, DescentReport, Generators, RankBounds, RankProof,
+};
 pub use error::{Error, Result};
 pub use local::{Place, Prime};
 pub use output::Detail;

@@ -2,9 +2,10 @@
 //! curves, and the behaviour on bad input and small budgets.
 
 use isodescent::analytic::{
-    analyse, sha_analytic, AnalyticData, AnalyticOptions, AnalyticOrder, Certified, RankTheorem,
+    analyse, sha_analytic, AnalyticData, AnalyticOptions, AnalyticOrder, RankTheorem,
     RootNumberRoute, Series, Skip,
 };
+use isodescent::arith::Certified;
 use isodescent::curve::{torsion, Curve, Point};
 use isodescent::{Budget, Error};
 use num_bigint::BigInt;

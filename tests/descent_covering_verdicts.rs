@@ -65,7 +65,7 @@ fn a_point_beyond_the_first_search_is_found_through_a_covering() {
     let r = descend(&c, &DescentOptions::default().descent_only()).unwrap();
     assert_eq!(first.rank_lower(), 0);
     assert_eq!((r.rank_lower(), r.rank_upper()), (1, 1));
-    assert!(c.contains(&r.points()[0]));
+    assert!(c.contains(&r.descent_points()[0]));
     let v = verify_report(&r, 50_000_000).unwrap();
     assert!(v.all_passed(), "{:?}", v.failures());
 }

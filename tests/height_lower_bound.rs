@@ -46,7 +46,7 @@ fn the_bound_never_exceeds_the_height_of_a_point_found() {
             cs.bound > 0.0 && cs.bound * (cs.exponent * cs.exponent) as f64 <= cs.mu * 1.000001
         );
         let report = descend(&e, &opts).unwrap();
-        for p in report.returned_points() {
+        for p in report.points() {
             let h = ctx.height(p).unwrap();
             assert!(cs.bound <= h.upper(), "{a:?} {p:?}: {} > {h}", cs.bound);
             compared += 1;
@@ -143,10 +143,10 @@ fn the_bound_over_the_box_and_the_congruent_curves() {
             continue;
         };
         let report = descend(&e, &opts).unwrap();
-        for p in report.returned_points() {
+        for p in report.points() {
             let h = ctx.height(p).unwrap();
             assert!(cs.bound <= h.upper(), "{a:?} {p:?}: {} > {h}", cs.bound);
-            worst = worst.min(h.value / cs.bound);
+            worst = worst.min(h.value() / cs.bound);
             compared += 1;
         }
     }

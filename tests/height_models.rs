@@ -62,14 +62,14 @@ fn heights_double_across_each_two_isogeny() {
             let img = phi.image(&pk);
             let (h1, h2) = (c1.height(&pk).unwrap(), c2.height(&img).unwrap());
             assert!(
-                (h2.value - 2.0 * h1.value).abs() <= h2.error + 2.0 * h1.error,
+                (h2.value() - 2.0 * h1.value()).abs() <= h2.error() + 2.0 * h1.error(),
                 "y² = x³ + {a}x² + {b}x, P = {pk}: ĥ(φP) = {h2}, 2ĥ(P) = {}",
-                2.0 * h1.value
+                2.0 * h1.value()
             );
             let back = phi.dual_image(&img);
             let h3 = c1.height(&back).unwrap();
             assert!(
-                (h3.value - 2.0 * h2.value).abs() <= h3.error + 2.0 * h2.error,
+                (h3.value() - 2.0 * h2.value()).abs() <= h3.error() + 2.0 * h2.error(),
                 "dual: {h3} vs 2·{h2}"
             );
         }

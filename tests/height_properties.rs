@@ -2,8 +2,9 @@
 //! thousands of random points (multiples and sums of known points on
 //! curves with small coefficients).
 
+use isodescent::arith::Certified;
 use isodescent::curve::{torsion, Curve, Point};
-use isodescent::height::{difference_bounds, naive_height, Certified, HeightContext};
+use isodescent::height::{difference_bounds, naive_height, HeightContext};
 use isodescent::Budget;
 use num_bigint::BigInt;
 use proptest::prelude::*;
@@ -74,7 +75,7 @@ fn h(d: &Data, p: &Point) -> Certified {
     // The default target 1e-12, relaxed by the f64 resolution of the
     // value itself for the huge multiples (ĥ up to ~2000).
     assert!(
-        v.error <= 1e-12 + 4e-15 * v.value.abs(),
+        v.error() <= 1e-12 + 4e-15 * v.value().abs(),
         "error bound {v} too loose for {p}"
     );
     v
@@ -102,8 +103,8 @@ proptest! {
         prop_assert_eq!(&np, &d.curve.mul_i64(&p, n));
         let (hp, hn) = (h(d, &p), h(d, &np));
         let n2 = (n * n) as f64;
-        prop_assert!(close(hn.value, n2 * hp.value, hn.error + n2 * hp.error),
-            "ĥ({n}P) = {hn}, n²ĥ(P) = {}", n2 * hp.value);
+        prop_assert!(close(hn.value(), n2 * hp.value(), hn.error() + n2 * hp.error()),
+            "ĥ({n}P) = {hn}, n²ĥ(P) = {}", n2 * hp.value());
     }
 
     // Parallelogram law ĥ(P+Q) + ĥ(P−Q) = 2ĥ(P) + 2ĥ(Q): Silverman, AEC 2nd
@@ -118,9 +119,9 @@ proptest! {
         let s = h(d, &d.curve.add(&p, &q));
         let m = h(d, &d.curve.sub(&p, &q));
         let (hp, hq) = (h(d, &p), h(d, &q));
-        let lhs = s.value + m.value;
-        let rhs = 2.0 * hp.value + 2.0 * hq.value;
-        prop_assert!(close(lhs, rhs, s.error + m.error + 2.0 * (hp.error + hq.error)),
+        let lhs = s.value() + m.value();
+        let rhs = 2.0 * hp.value() + 2.0 * hq.value();
+        prop_assert!(close(lhs, rhs, s.error() + m.error() + 2.0 * (hp.error() + hq.error())),
             "{lhs} vs {rhs}");
     }
 
@@ -137,15 +138,15 @@ proptest! {
         let p = point(d, &c, t);
         let hp = h(d, &p);
         let mut q = 0.0;
-        let mut err = hp.error;
+        let mut err = hp.error();
         for i in 0..r {
             for j in 0..r {
                 let cij = (c[i] * c[j]) as f64;
-                q += cij * m[i][j].value;
-                err += cij.abs() * m[i][j].error;
+                q += cij * m[i][j].value();
+                err += cij.abs() * m[i][j].error();
             }
         }
-        prop_assert!(close(hp.value, q, err), "ĥ = {hp}, cᵀMc = {q}");
+        prop_assert!(close(hp.value(), q, err), "ĥ = {hp}, cᵀMc = {q}");
     }
 
     // The naive and canonical heights differ by at most the proven bounds
@@ -159,8 +160,8 @@ proptest! {
         let p = point(d, &c, t);
         let hp = h(d, &p);
         let nh = naive_height(&d.ctx.to_minimal().to_new(&p));
-        prop_assert!(nh.value - hp.value <= b.naive_minus_canonical + hp.error + nh.error);
-        prop_assert!(hp.value - nh.value <= b.canonical_minus_naive + hp.error + nh.error);
+        prop_assert!(nh.value() - hp.value() <= b.naive_minus_canonical + hp.error() + nh.error());
+        prop_assert!(hp.value() - nh.value() <= b.canonical_minus_naive + hp.error() + nh.error());
     }
 }
 
@@ -195,10 +196,10 @@ fn the_limit_definition_agrees_with_the_local_height_sum() {
                 let q = d.ctx.multiple(&p, &BigInt::from(1u64 << n)).unwrap();
                 let nh = naive_height(&d.ctx.to_minimal().to_new(&q));
                 let scale = 4f64.powi(n as i32);
-                let approx = nh.value / scale;
-                let tol = bmax / scale + hp.error + nh.error / scale;
+                let approx = nh.value() / scale;
+                let tol = bmax / scale + hp.error() + nh.error() / scale;
                 assert!(
-                    close(approx, hp.value, tol),
+                    close(approx, hp.value(), tol),
                     "{} P={p} n={n}: {approx} vs {hp} (tol {tol})",
                     d.curve
                 );

@@ -131,7 +131,7 @@ proptest! {
         prop_assert!(got.is_ok(), "descend panicked on the curve {}", e);
         match got.unwrap() {
             Ok(rep) => {
-                for p in rep.points() {
+                for p in rep.descent_points() {
                     prop_assert!(e.contains(p), "point {:?} not on {}", p, e);
                 }
                 prop_assert!(rep.rank_lower() <= rep.rank_upper());
@@ -155,7 +155,7 @@ proptest! {
         prop_assert!(got.is_ok(), "descend panicked on the curve {}", e);
         match got.unwrap() {
             Ok(rep) => {
-                for p in rep.points() {
+                for p in rep.descent_points() {
                     prop_assert!(e.contains(p), "point {:?} not on {}", p, e);
                 }
             }

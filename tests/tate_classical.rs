@@ -3,7 +3,7 @@
 //! non-minimal and non-integral input, and on bad input.
 
 use isodescent::curve::{
-    global_local_data, integral_invariants, local_reduction, Kodaira, ReductionKind,
+    global_local_data, local_reduction, weierstrass_invariants, Kodaira, ReductionKind,
 };
 use isodescent::local::Prime;
 use isodescent::{Budget, Error};
@@ -100,7 +100,7 @@ fn y2_plus_y_equals_x3_minus_x2_minus_10x_minus_20_is_split_i5_at_11() {
     // [Sil94, IV.9, Table 4.1].
     let a = [0, -1, 1, -10, -20];
     assert_eq!(
-        integral_invariants(&ints(a)).discriminant,
+        weierstrass_invariants(&ints(a)).discriminant,
         BigInt::from(-161051)
     );
     assert_eq!(12 - count_points(a, 11), 1);
@@ -123,7 +123,7 @@ fn multiplicative_primes_have_type_i_n_with_n_the_valuation_of_the_discriminant(
     assert_eq!(a, [1, 0, 1, -3, 2]);
     assert_eq!(values::integer("conductor", &["own_a"]), 794);
     assert_eq!(
-        integral_invariants(&ints(a)).discriminant,
+        weierstrass_invariants(&ints(a)).discriminant,
         BigInt::from(-1588)
     );
     for (p, n) in [(2u64, 2u64), (397, 1)] {
@@ -212,7 +212,7 @@ fn a_huge_multiplicative_valuation_is_read_exactly() {
         BigInt::zero(),
         big,
     ];
-    let disc = integral_invariants(&a).discriminant;
+    let disc = weierstrass_invariants(&a).discriminant;
     let v = isodescent::local::valuation(&disc, &prime(2)).unwrap();
     assert_eq!(v, 200);
     let lr = local_reduction(&a, &prime(2)).unwrap();
@@ -233,7 +233,7 @@ fn a_non_integral_model_gets_an_integral_minimal_model_and_the_right_conductor()
     // The minimal model has Δ = 64 (that of y² = x³ − x), and the bad
     // prime 2 records that the input was not minimal (it is not 2-integral).
     assert_eq!(
-        integral_invariants(&g.minimal_model).discriminant,
+        weierstrass_invariants(&g.minimal_model).discriminant,
         BigInt::from(64)
     );
     assert_eq!(g.primes.len(), 1);

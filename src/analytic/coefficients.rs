@@ -33,7 +33,8 @@ use num_traits::{ToPrimitive, Zero};
 use super::cm::{ap_closed_form, Family};
 use crate::arith::word::mul_mod;
 use crate::budget::Budget;
-use crate::curve::tate::{integral_invariants, GlobalLocalData, ReductionKind};
+use crate::curve::tate::{GlobalLocalData, ReductionKind};
+use crate::curve::weierstrass_invariants;
 use crate::curve::{torsion, Curve};
 use crate::error::{Error, Result};
 use crate::local::legendre_u64;
@@ -71,7 +72,7 @@ impl ApTable {
     /// Prepares the table from the local data of a curve (minimal model,
     /// reduction types at the bad primes).
     pub fn new(local: &GlobalLocalData) -> ApTable {
-        let inv = integral_invariants(&local.minimal_model);
+        let inv = weierstrass_invariants(&local.minimal_model);
         let mut bad = Vec::new();
         let mut huge_bad = false;
         for lr in &local.primes {

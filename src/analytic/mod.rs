@@ -40,7 +40,6 @@
 //! [`DEFAULT_CONDUCTOR_LIMIT`]; see `docs/analytic.md`.
 
 mod bsgs;
-pub(crate) mod certified;
 mod cm;
 pub(crate) mod coefficients;
 pub(crate) mod ledger;
@@ -52,7 +51,7 @@ mod stream;
 use num_bigint::BigInt;
 use num_traits::{One, ToPrimitive};
 
-pub use certified::Certified;
+pub use crate::arith::Certified;
 pub use coefficients::{dirichlet_coefficients, frobenius_trace, ApTable};
 pub use ledger::{sha_analytic, ShaLedger};
 pub use period::{real_period, RealPeriod};

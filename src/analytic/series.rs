@@ -37,7 +37,7 @@
 //! midpoint, half the bound as error), so values for `r ≥ 2` carry errors
 //! around `10⁻⁸ … 10⁻⁶`.
 
-use super::certified::{euler_gamma, pi, zeta2, zeta3, Certified};
+use crate::arith::certified::{euler_gamma, pi, zeta2, zeta3, Certified};
 use crate::budget::Budget;
 use crate::error::{Error, Result};
 
@@ -140,7 +140,7 @@ impl<'a> Series<'a> {
         split: f64,
         budget: &mut Budget,
     ) -> Result<Certified> {
-        if !super::certified::is_pos(split) || !split.is_finite() {
+        if !crate::arith::certified::is_pos(split) || !split.is_finite() {
             return Err(Error::InvalidArgument {
                 reason: format!("splitting parameter must be positive, got {split}"),
             });
@@ -261,7 +261,7 @@ fn g_derivative_bound(r: usize, lo: f64) -> f64 {
 /// `G_r(x)` for `1 ≤ r ≤ 3` and an enclosure `x` of a positive argument.
 pub(crate) fn g_value(r: usize, x: &Certified) -> Certified {
     let lo = x.lower();
-    if !super::certified::is_pos(lo) {
+    if !crate::arith::certified::is_pos(lo) {
         return Certified::unknown();
     }
     if r == 1 && x.value() > 2.0 {

@@ -59,9 +59,9 @@
 //!   `≤ γ₁₂Σ|m_k|Δ^k` [Higham02, (5.3)] at the exact offsets `x̂_n − x₀`
 //!   (Sterbenz); below 2048 terms `G_1` is the certified value of `series`.
 
-use super::certified::{exp_with_error, Certified};
 use super::coefficients::ApTable;
 use super::series::{e1_scaled_cf, g_series, g_value};
+use crate::arith::certified::{exp_with_error, Certified};
 use crate::budget::Budget;
 use crate::curve::tate::GlobalLocalData;
 use crate::error::{Error, Result};
@@ -103,7 +103,7 @@ fn spend(budget: &mut Budget, units: u64, stage: &str) -> Result<()> {
 /// `s > 0` when the short model of the minimal model is `y² = x³ − s²x`
 /// (a quadratic twist of `y² = x³ − x`) and `s` fits a machine word.
 pub(crate) fn twist_of_x3_minus_x(local: &GlobalLocalData) -> Option<u64> {
-    let inv = crate::curve::tate::integral_invariants(&local.minimal_model);
+    let inv = crate::curve::weierstrass_invariants(&local.minimal_model);
     if !inv.c6.is_zero() || !inv.c4.is_positive() {
         return None;
     }

@@ -93,6 +93,12 @@ pub(crate) fn enclose(value: f64, error: f64) -> (String, String) {
     }
     let d = places(error);
     let v = format!("{value:.d$}");
+    // A value that rounds to zero is printed without a sign: "-0.000"
+    // would claim a sign the bound does not prove.
+    let v = match v.strip_prefix('-') {
+        Some(rest) if rest.bytes().all(|b| b == b'0' || b == b'.') => rest.to_string(),
+        _ => v,
+    };
     let (Some(vq), Some(exact), Some(eq)) = (
         parse_decimal(&v),
         BigRational::from_float(value),
@@ -192,5 +198,18 @@ mod tests {
             prop_assert!(q <= xq);
             prop_assert!(xq - q < BigRational::new(BigInt::one(), num_traits::pow(BigInt::from(10), p)));
         }
+    }
+
+    #[test]
+    fn a_value_that_rounds_to_zero_has_no_sign() {
+        let (v, e) = enclose(-1e-15, 2e-12);
+        assert!(
+            !v.starts_with('-') && v.bytes().all(|b| b == b'0' || b == b'.'),
+            "{v}"
+        );
+        let (ve, ee) = (parse_decimal(&v).unwrap(), parse_error(&e).unwrap());
+        let exact = BigRational::from_float(-1e-15).unwrap();
+        assert!((ve - exact).abs() <= ee);
+        assert_eq!(enclose(-0.25, 0.001).0, "-0.2500");
     }
 }

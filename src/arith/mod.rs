@@ -7,8 +7,15 @@
 //! * `factor`: trial division, Pollard–Brent rho, ECM, the
 //!   self-initialising quadratic sieve;
 //! * `roots`: integer and rational square roots, perfect squares;
-//! * `squarefree`: square-free parts and kernels.
+//! * `squarefree`: square-free parts and kernels;
+//! * `real_roots`: certified isolation of the real roots of integer
+//!   polynomials (Sturm sequences, bisection at dyadic points);
+//! * `decimal`: decimal strings of certified numbers whose printed
+//!   interval contains the certified one.
+//! * `certified`: [`Certified`] reals, a midpoint with a proven error
+//!   radius, shared by the analytic side and the heights.
 
+pub(crate) mod certified;
 pub(crate) mod decimal;
 pub(crate) mod dyadic;
 pub(crate) mod ecm;
@@ -25,6 +32,7 @@ pub(crate) mod small;
 pub(crate) mod squarefree;
 pub(crate) mod word;
 
+pub use certified::Certified;
 pub(crate) use dyadic::sign_at_f64;
 pub use factor::{factor, factor_u64, Factorization};
 pub(crate) use prime::jacobi_big;

@@ -19,9 +19,9 @@ const SMALL_PRIMES: [u64; 25] = [
 ];
 
 /// Miller–Rabin bases with no strong pseudoprime below `2^64`
-/// (J. Sinclair's set, from memory; checked in `tests/arith_prime.rs`
-/// against sympy 1.14 on all listed strong pseudoprimes and on the
-/// Feitsma–Galway-style base-2 pseudoprimes in `tests/data`).
+/// (J. Sinclair's set, from memory; checked in `tests/arith_vectors.rs`
+/// against sympy 1.14 on the pseudoprimes and random numbers of
+/// `tests/data/prime_tricky.txt`).
 const U64_BASES: [u64; 7] = [2, 325, 9375, 28178, 450775, 9780504, 1795265022];
 
 /// True iff `n` is prime, for `n < 2^64`; the answer is exact.

@@ -12,7 +12,8 @@ use num_traits::{One, Signed, Zero};
 /// `num-integer`'s `Roots`), which converges to `⌊√n⌋` from above
 /// \[Cohen93, Alg. 1.7.1\].
 ///
-/// Errors: [`Error::NotPositive`] for `n < 0` (the message names the value).
+/// # Errors
+/// [`Error::NotPositive`] for `n < 0` (the message names the value).
 ///
 /// Cost: `O(log log n)` big-integer divisions.
 ///

@@ -8,6 +8,28 @@
 //! `BigInt` routine writes them, and reads the result with [`Ck::get`];
 //! `None` means "some intermediate left i128", and the caller falls back
 //! to the `BigInt` path. Nothing is ever truncated or wrapped.
+//!
+//! # The one word-size helper per job
+//! `mul_mod`, `pow_mod`, `inv_mod`, `isqrt_u128`, `jacobi_u64` and the
+//! Tonelli–Shanks square root `sqrt_mod` (with `sqrt_mod_with` for a field
+//! that brings its own product) live here and nowhere else.
+//!
+//! # Deliberate twins: word-size paths beside the `BigInt` ones
+//! These pairs compute the same thing twice on purpose, the word-size one
+//! for speed, each checked against the other by a two-way test:
+//! * Tate's algorithm: `curve::tate_word` beside `curve::tate`;
+//! * the Weierstrass invariants in `i128` beside `BigInt`
+//!   (`curve::weierstrass::integer_invariants`);
+//! * p-adic solubility trees: `quartic::padic_word` beside `quartic::padic`;
+//! * local images: `quartic::image_word` beside `quartic::image`;
+//! * polynomials over `F_p`: the `WordField` paths of `quartic::fp`;
+//! * modular square roots: the word paths of `local::sqrt` beside its
+//!   `BigInt` ones;
+//! * the Jacobi symbol: `jacobi_u64` beside `arith::prime::jacobi_big`;
+//! * the elliptic-curve method: `arith::ecm64` beside `arith::ecm`.
+//!
+//! `family::word_sweep` compares whole families with these paths on and
+//! off.
 
 use std::cell::Cell;
 use std::ops::{Add, Mul, Neg, Sub};

@@ -88,7 +88,8 @@ fn primes_of(coeffs: &[&BigInt], budget: &mut Budget) -> Result<Vec<Prime>> {
 /// conic insoluble at 2 is insoluble at R or at an odd prime too. Use
 /// [`insoluble_places`] for the full list.
 ///
-/// **Errors.** [`Error::Zero`] if a coefficient is 0 (the conic is then a
+/// # Errors
+/// [`Error::Zero`] if a coefficient is 0 (the conic is then a
 /// pair of lines or degenerate; (1,0,0) or (0,1,0) would be a trivial
 /// answer, which we refuse to guess); [`Error::FactorBudgetExhausted`] or
 /// [`Error::BudgetExhausted`] when `budget` runs out.
@@ -131,7 +132,8 @@ pub fn solve_diagonal(
 /// `primes` must contain every prime dividing a·b·c (extra primes are
 /// harmless; order and repetitions do not matter).
 ///
-/// **Errors.** [`Error::Zero`] for a zero coefficient;
+/// # Errors
+/// [`Error::Zero`] for a zero coefficient;
 /// [`Error::NotPrime`] if an entry of `primes` is not prime;
 /// [`Error::InvalidArgument`] if a coefficient has a prime factor missing
 /// from `primes`; [`Error::BudgetExhausted`] when `budget` runs out.
@@ -198,7 +200,8 @@ pub fn solve_diagonal_rational(
 /// reciprocity) and is empty iff the conic has a rational point
 /// (Hasse–Minkowski).
 ///
-/// **Errors.** [`Error::Zero`] for a zero coefficient; factoring errors as
+/// # Errors
+/// [`Error::Zero`] for a zero coefficient; factoring errors as
 /// in [`solve_diagonal`].
 ///
 /// ```

@@ -49,8 +49,8 @@ pub use model::{clear_denominators, ModelChange};
 pub use point::Point;
 pub use reduced::ReducedModel;
 pub use tate::{
-    global_local_data, integral_invariants, local_reduction, local_reduction_rational,
-    GlobalLocalData, IntegralInvariants, Kodaira, LocalReduction, ReductionKind,
+    global_local_data, local_reduction, local_reduction_rational, GlobalLocalData, Kodaira,
+    LocalReduction, ReductionKind,
 };
 pub use torsion::{torsion, TorsionGroup};
 pub use two_torsion::{
@@ -58,4 +58,6 @@ pub use two_torsion::{
     two_torsion_model_with_budget, two_torsion_points, two_torsion_points_with_budget,
     TwoTorsionModel,
 };
-pub use weierstrass::{Curve, MAX_COEFFICIENT_DIGITS};
+pub use weierstrass::{
+    weierstrass_invariants, Curve, WeierstrassInvariants, MAX_COEFFICIENT_DIGITS,
+};

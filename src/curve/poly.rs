@@ -318,7 +318,8 @@ pub(crate) fn integer_roots(f: &ZPoly) -> Vec<BigInt> {
 /// with `r` (`v ← v·(2 − f′(r)·v) mod m²`), so no extended gcd is
 /// computed on the huge moduli: each step is a few multiplications.
 ///
-/// Errors: [`Exhausted`] when the budget runs out.
+/// # Errors
+/// [`Exhausted`] when the budget runs out.
 pub(crate) fn integer_roots_with_budget(
     f: &ZPoly,
     budget: &mut Budget,

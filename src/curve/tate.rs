@@ -53,7 +53,7 @@ use super::tate_word::{self, Stop, WordReduction};
 use crate::arith::factor;
 use crate::arith::word::word_paths_enabled;
 use crate::budget::Budget;
-use crate::curve::{Curve, ModelChange};
+use crate::curve::{weierstrass_invariants, Curve, ModelChange, WeierstrassInvariants};
 use crate::error::{Error, Result};
 use crate::local::known_primes::KnownPrimes;
 use crate::local::{legendre, valuation, Prime};
@@ -146,6 +146,7 @@ pub enum ReductionKind {
 /// The local data of an elliptic curve at one prime, as found by Tate's
 /// algorithm.
 #[derive(Debug, Clone, PartialEq, Eq)]
+#[non_exhaustive]
 pub struct LocalReduction {
     /// The prime `p`.
     pub prime: Prime,
@@ -170,6 +171,7 @@ pub struct LocalReduction {
 
 /// The local data at every prime together with the global minimal model.
 #[derive(Debug, Clone, PartialEq, Eq)]
+#[non_exhaustive]
 pub struct GlobalLocalData {
     /// The reduced global minimal model `[a1, a2, a3, a4, a6]`:
     /// integral, minimal at every prime, with `a1, a3 ∈ {0, 1}` and
@@ -182,77 +184,6 @@ pub struct GlobalLocalData {
     /// The local data at the primes of bad reduction, ascending; each
     /// record's `change` starts from the model given.
     pub primes: Vec<LocalReduction>,
-}
-
-/// The standard invariants of an integral Weierstrass model
-/// [Sil86, III.1]:
-/// `b2 = a1² + 4a2`, `b4 = a1a3 + 2a4`, `b6 = a3² + 4a6`,
-/// `b8 = a1²a6 + 4a2a6 − a1a3a4 + a2a3² − a4²`,
-/// `c4 = b2² − 24·b4`, `c6 = −b2³ + 36·b2·b4 − 216·b6`,
-/// `Δ = −b2²b8 − 8·b4³ − 27·b6² + 9·b2·b4·b6`.
-#[derive(Debug, Clone, PartialEq, Eq)]
-pub struct IntegralInvariants {
-    /// b2.
-    pub b2: BigInt,
-    /// b4.
-    pub b4: BigInt,
-    /// b6.
-    pub b6: BigInt,
-    /// b8.
-    pub b8: BigInt,
-    /// c4.
-    pub c4: BigInt,
-    /// c6.
-    pub c6: BigInt,
-    /// The discriminant Δ.
-    pub discriminant: BigInt,
-}
-
-/// The invariants b2, b4, b6, b8, c4, c6, Δ of `[a1, a2, a3, a4, a6]`
-/// ([Sil86, III.1]; formulas in [`IntegralInvariants`]).
-///
-/// Example: `y² + y = x³ − x` has `Δ = 37`, `c4 = 48`, `c6 = −216`.
-/// ```
-/// use isodescent::curve::integral_invariants;
-/// let i = integral_invariants(&[0, 0, 1, -1, 0].map(Into::into));
-/// assert_eq!(i.discriminant, 37.into());
-/// assert_eq!(i.c4, 48.into());
-/// assert_eq!(i.c6, (-216).into());
-/// ```
-pub fn integral_invariants(a: &[BigInt; 5]) -> IntegralInvariants {
-    let [b2, b4, b6, b8, c4, c6, discriminant] =
-        super::weierstrass::integer_invariants([&a[0], &a[1], &a[2], &a[3], &a[4]]);
-    IntegralInvariants {
-        b2,
-        b4,
-        b6,
-        b8,
-        c4,
-        c6,
-        discriminant,
-    }
-}
-
-/// b2, b4, b6, b8, c4, c6 without Δ (the cheap part, needed once per pass).
-struct BcInvariants {
-    b2: BigInt,
-    b4: BigInt,
-    b6: BigInt,
-    b8: BigInt,
-    c4: BigInt,
-    c6: BigInt,
-}
-
-fn b_and_c_invariants(a: &[BigInt; 5]) -> BcInvariants {
-    let i = integral_invariants(a);
-    BcInvariants {
-        b2: i.b2,
-        b4: i.b4,
-        b6: i.b6,
-        b8: i.b8,
-        c4: i.c4,
-        c6: i.c6,
-    }
 }
 
 // ---------------------------------------------------------------------
@@ -592,7 +523,11 @@ enum Pass {
 ///   `X = 36x + 3b2`, the double root is `X = −3c6/c4` (or 0 when
 ///   `p | c4`), so `x = −(c6 + b2c4)/(12·c4)` (or `−b2/12`);
 ///   `y = −(a1x + a3)/2`.
-fn singular_point(a: &[BigInt; 5], inv: &BcInvariants, p: &Prime) -> Result<(BigInt, BigInt)> {
+fn singular_point(
+    a: &[BigInt; 5],
+    inv: &WeierstrassInvariants,
+    p: &Prime,
+) -> Result<(BigInt, BigInt)> {
     let pp = p.get();
     let [a1, a2, a3, a4, a6] = a;
     match p.to_u64() {
@@ -634,7 +569,7 @@ fn singular_point(a: &[BigInt; 5], inv: &BcInvariants, p: &Prime) -> Result<(Big
 fn tate_pass(run: &mut Run<'_>, n: u64) -> Result<Pass> {
     let p = run.p;
     let pp = p.get().clone();
-    let inv0 = b_and_c_invariants(&run.a);
+    let inv0 = weierstrass_invariants(&run.a);
 
     // Step 2: singular point to (0, 0).
     let (r, t) = singular_point(&run.a, &inv0, p)?;
@@ -642,7 +577,7 @@ fn tate_pass(run: &mut Run<'_>, n: u64) -> Result<Pass> {
     if !(divisible(&run.a[2], &pp) && divisible(&run.a[3], &pp) && divisible(&run.a[4], &pp)) {
         return Err(internal("singular point not moved to (0, 0)"));
     }
-    let inv = b_and_c_invariants(&run.a);
+    let inv = weierstrass_invariants(&run.a);
     if !divisible(&inv.b2, &pp) {
         // Multiplicative: tangent slopes are the roots of T² + a1T − a2.
         let split = matches!(
@@ -948,7 +883,7 @@ fn local_reduction_budgeted(
     budget: &mut Budget,
 ) -> Result<LocalReduction> {
     budget.check_deadline().map_err(|_| tate_stopped())?;
-    let inv = integral_invariants(coeffs);
+    let inv = weierstrass_invariants(coeffs);
     if inv.discriminant.is_zero() {
         return Err(Error::SingularCurve {
             reason: "discriminant is 0".into(),
@@ -1105,7 +1040,7 @@ pub(crate) fn global_local_data_with(
     };
     let disc = match &word_start {
         Some((_, disc)) => BigInt::from(*disc),
-        None => integral_invariants(&integral).discriminant,
+        None => weierstrass_invariants(&integral).discriminant,
     };
     if disc.is_zero() {
         return Err(Error::SingularCurve {

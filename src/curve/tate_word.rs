@@ -10,8 +10,9 @@
 //! the coefficients is checked ([`Ck`]); on overflow the routine answers
 //! [`Stop::Overflow`] and the caller runs the `BigInt` routine instead.
 //! Residue arithmetic (products of two residues below `p < 2^62`) runs in
-//! `u128`. The tests in `tests` and `tests/tate_word_paths.rs` compare the
-//! two routines on random models near the word-size boundary.
+//! `u128`. The tests in `tests` compare the two routines on random models
+//! near the word-size boundary, and `src/family/word_sweep.rs` compares
+//! whole families with the word paths on and off.
 
 use super::tate::{Kodaira, ReductionKind};
 use crate::arith::word::{divisible_pow, inv_mod, mul_mod, pow_i128, residue, Ck};

@@ -114,7 +114,8 @@ pub fn two_torsion_points(e: &Curve) -> Vec<Point> {
 /// operand size (one unit per 64-bit word product, see
 /// `poly::integer_roots_with_budget`) and honouring its deadline.
 ///
-/// Errors: [`Error::BudgetExhausted`] (stage "2-torsion root finding")
+/// # Errors
+/// [`Error::BudgetExhausted`] (stage "2-torsion root finding")
 /// when the budget runs out.
 pub fn two_torsion_points_with_budget(e: &Curve, budget: &mut Budget) -> Result<Vec<Point>> {
     let exhausted = |_| Error::BudgetExhausted {

@@ -582,8 +582,8 @@ pub(crate) fn complete_report_points_cut(
             ),
         });
     }
-    if report.points().len() >= target_rank {
-        return Ok((report.points().to_vec(), false));
+    if report.descent_points().len() >= target_rank {
+        return Ok((report.descent_points().to_vec(), false));
     }
     let mut hunts: Vec<IsogenyHunt<'_>> = report
         .isogenies()
@@ -609,12 +609,12 @@ pub(crate) fn complete_report_points_cut(
     let reached = best.is_some_and(|h| h.total() >= target_rank);
     let cut = !reached && (budget.is_exhausted() || hunts.iter().any(|h| h.cut));
     match best {
-        Some(h) if h.total() > report.points().len() => {
+        Some(h) if h.total() > report.descent_points().len() => {
             let mut all = h.descent.points.clone();
             all.extend(h.found.iter().cloned());
             Ok((all, cut))
         }
-        _ => Ok((report.points().to_vec(), cut)),
+        _ => Ok((report.descent_points().to_vec(), cut)),
     }
 }
 

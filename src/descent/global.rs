@@ -52,6 +52,7 @@ impl RankProof {
 
 /// The ledger's comparison with the 2-part of Sha proven by the descent.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
+#[non_exhaustive]
 pub struct ShaTwoPart {
     /// dim Ш(E)\[2\] = dim Sel²(E) − dim E(Q)\[2\] − rank (proven).
     pub descent_dimension: usize,
@@ -73,7 +74,7 @@ pub(crate) struct GlobalFacts {
     pub(crate) settled_by: Option<RankProof>,
     pub(crate) conflict: Option<String>,
     /// ĥ of the descent's points when saturation did not run.
-    pub(crate) point_heights: Vec<crate::height::Certified>,
+    pub(crate) point_heights: Vec<crate::arith::Certified>,
 }
 
 fn note_stop(report: &mut DescentReport, step: &str, e: &Error) {
@@ -232,7 +233,7 @@ fn ledger(report: &mut DescentReport) {
     } else {
         match &report.global.saturation {
             Some(s) if s.proven_saturated && s.generators.len() == rank => {
-                match analytic::Certified::new(s.regulator.value, s.regulator.error) {
+                match crate::arith::Certified::new(s.regulator.value(), s.regulator.error()) {
                     Ok(c) => Some(c),
                     Err(_) => return,
                 }

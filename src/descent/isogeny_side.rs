@@ -181,6 +181,7 @@ impl ClassStatus {
 
 /// A basis element of a Selmer group with its status.
 #[derive(Clone, Debug, PartialEq, Eq)]
+#[non_exhaustive]
 pub struct SelmerElement {
     /// The square-free integer representing the class.
     pub class: BigInt,
@@ -190,6 +191,7 @@ pub struct SelmerElement {
 
 /// One search of a homogeneous space C_d, kept as evidence.
 #[derive(Clone, Debug, PartialEq, Eq)]
+#[non_exhaustive]
 pub struct SearchRecord {
     /// The class d.
     pub class: BigInt,
@@ -314,7 +316,7 @@ impl SelmerSide {
 
     /// An upper bound for dim α(E(Q)) (dim Sel minus what the second
     /// descent proved).
-    pub fn image_upper(&self) -> usize {
+    pub(crate) fn image_upper(&self) -> usize {
         self.image_upper
     }
 

@@ -28,6 +28,11 @@
 //! dim α(E(Q)_tors) + dim α'(E'(Q)_tors) = 2, their number is exactly the
 //! lower bound k + k' − 2. Independence is certified by the F2 images, not
 //! by heights.
+//!
+//! # Missing points
+//! When the bounds stay apart, [`search_missing_points`] hunts further on
+//! the undecided classes (deeper searches, 4-coverings of the second
+//! descent); its design and measured yield are in docs/deep_search.md.
 
 #[cfg(test)]
 mod checks;
@@ -51,8 +56,8 @@ pub use isogeny_side::{
 };
 use options::DescentContext;
 pub use options::DescentOptions;
-pub use report::{Completion, DescentReport, RankBounds};
-pub use verify::{verify_report, Verification};
+pub use report::{Completion, DescentReport, Generators, RankBounds};
+pub use verify::{verify_report, verify_report_default, Check, Verification, DEFAULT_VERIFY_UNITS};
 
 use crate::arith::factor;
 use crate::curve::tate::global_local_data_with;

@@ -31,7 +31,7 @@ use super::isogeny_side::{connecting_value, covering_obstruction, ClassStatus, S
 use super::report::DescentReport;
 use crate::budget::Budget;
 use crate::curve::Curve;
-use crate::error::Result;
+use crate::error::{Error, Result};
 use crate::quartic::{locally_soluble, LocalSolubility, Quartic};
 use crate::second::covering::verify_obstruction;
 use crate::selmer::f2::Subspace;
@@ -39,6 +39,7 @@ use crate::selmer::group::{selmer_from_local_images, LocalCondition};
 
 /// One check and whether it passed.
 #[derive(Clone, Debug, PartialEq, Eq)]
+#[non_exhaustive]
 pub struct Check {
     /// What was checked.
     pub what: String,
@@ -48,6 +49,7 @@ pub struct Check {
 
 /// The outcome of [`verify_report`].
 #[derive(Clone, Debug, Default, PartialEq, Eq)]
+#[non_exhaustive]
 pub struct Verification {
     /// Every check made, in order.
     pub checks: Vec<Check>,
@@ -72,15 +74,33 @@ impl Verification {
     }
 }
 
-/// Re-checks the evidence in `report`; see the module docs for the list.
+/// Work units that [`verify_report_default`] allows: enough to re-check
+/// the reports of the default descent options on curves with coefficients
+/// of a few dozen digits (the tests re-check every report they make with
+/// at most this; common practice: about ten times the largest they need).
+pub const DEFAULT_VERIFY_UNITS: u64 = 100_000_000;
+
+/// [`verify_report`] with [`DEFAULT_VERIFY_UNITS`].
 ///
 /// # Errors
-/// Only budget exhaustion while re-deciding insoluble classes (the budget
-/// `units` bounds that work).
+/// As [`verify_report`].
+pub fn verify_report_default(report: &DescentReport) -> Result<Verification> {
+    verify_report(report, DEFAULT_VERIFY_UNITS)
+}
+
+/// Re-checks the evidence in `report`; see the module docs for the list.
+/// `units` bounds the work of re-deciding insoluble classes, re-checking
+/// 4-coverings and refactoring (each of those steps gets at most `units`);
+/// [`verify_report_default`] passes [`DEFAULT_VERIFY_UNITS`].
+///
+/// # Errors
+/// [`Error::BudgetExhausted`] (or [`Error::FactorBudgetExhausted`]) when
+/// `units` run out before every check is made: a check cut short is an
+/// error, never a failed check.
 pub fn verify_report(report: &DescentReport, units: u64) -> Result<Verification> {
     let mut out = Verification::default();
     let mut budget = Budget::with_units(units);
-    for p in report.points() {
+    for p in report.descent_points() {
         out.record(
             format!("returned point {p:?} lies on the input curve"),
             report.curve().contains(p),
@@ -88,8 +108,8 @@ pub fn verify_report(report: &DescentReport, units: u64) -> Result<Verification>
     }
     out.record(
         "number of returned points equals the descent's lower bound",
-        report.points().len() == report.descent_bounds().lower
-            && report.points().len()
+        report.descent_points().len() == report.descent_bounds().lower
+            && report.descent_points().len()
                 >= report
                     .isogenies()
                     .iter()
@@ -148,7 +168,7 @@ pub fn verify_report(report: &DescentReport, units: u64) -> Result<Verification>
         .max(lo);
     // Points found by the deep search (independent by their classes) may
     // raise the lower bound above every single isogeny's.
-    let lo = lo.max(report.points().len());
+    let lo = lo.max(report.descent_points().len());
     // With no isogeny (every first descent stopped), the bound from the
     // supports of the classes, recomputed here.
     let hi = if report.isogenies().is_empty() {
@@ -279,6 +299,14 @@ fn verify_side(
             } => {
                 let ok =
                     space == &el.class && verify_obstruction(&side.model, space, evidence, budget);
+                if !ok && budget.is_exhausted() {
+                    return Err(Error::BudgetExhausted {
+                        stage: format!(
+                            "verify_report: re-checking the 4-coverings of class {}",
+                            el.class
+                        ),
+                    });
+                }
                 out.record(
                     format!(
                         "{tag}: class {}: every 4-covering of C_{} re-checks insoluble at its place",
@@ -339,7 +367,7 @@ mod tampering {
     #[test]
     fn a_moved_point_is_caught() {
         let mut r = report("0 0 0 -36 0");
-        assert!(!r.points().is_empty());
+        assert!(!r.descent_points().is_empty());
         let q = |n: i64| BigRational::from_integer(BigInt::from(n));
         r.points[0] = Point::new(q(1), q(1));
         let v = verify_report(&r, 10_000_000).unwrap();

@@ -33,6 +33,11 @@
 //! assert_eq!(ranks[3], ("n=5".to_string(), Some(1)));
 //! assert_eq!(ranks[0], ("n=1".to_string(), Some(0)));
 //! ```
+//!
+//! ---
+//!
+//! The guide below is `docs/families.md`, included verbatim.
+#![doc = include_str!("../../docs/families.md")]
 
 pub(crate) mod members;
 pub(crate) mod records;

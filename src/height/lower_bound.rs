@@ -88,6 +88,7 @@ use crate::curve::tate::Kodaira;
 
 /// The Cremona–Siksek lower bound and how it was obtained.
 #[derive(Clone, Debug, PartialEq)]
+#[non_exhaustive]
 pub struct CremonaSiksekBound {
     /// Every non-torsion `P ∈ E(Q)` has `ĥ(P) ≥ bound` (`= μ/c²`).
     pub bound: f64,

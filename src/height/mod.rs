@@ -43,11 +43,10 @@ pub(crate) mod naive_vs_canonical;
 mod projective;
 pub(crate) mod saturate;
 
-use std::fmt;
-
 use num_bigint::BigInt;
 use num_traits::Signed;
 
+pub use crate::arith::Certified;
 use crate::budget::Budget;
 use crate::curve::tate::{GlobalLocalData, ReductionKind};
 use crate::curve::{Curve, ModelChange, Point};
@@ -74,50 +73,6 @@ pub const FINEST_PRECISION: f64 = 1e-14;
 /// Work units for factoring the discriminant when the caller gives no
 /// budget (the same scale as the curve layer's default for reductions).
 pub const DEFAULT_HEIGHT_UNITS: u64 = 200_000_000;
-
-/// A real number known to lie in `[value − error, value + error]`.
-///
-/// See the module docs for what the error accounts for.
-#[derive(Clone, Copy, Debug, PartialEq)]
-pub struct Certified {
-    /// The approximation.
-    pub value: f64,
-    /// The bound on `|true − value|`.
-    pub error: f64,
-}
-
-impl Certified {
-    /// An exactly known number.
-    pub fn exact(value: f64) -> Certified {
-        Certified { value, error: 0.0 }
-    }
-    /// `value − error`.
-    pub fn lower(&self) -> f64 {
-        self.value - self.error
-    }
-    /// `value + error`.
-    pub fn upper(&self) -> f64 {
-        self.value + self.error
-    }
-    /// True when `x` lies in the enclosure.
-    pub fn contains(&self, x: f64) -> bool {
-        (x - self.value).abs() <= self.error
-    }
-    /// True when the two enclosures intersect.
-    pub fn overlaps(&self, other: &Certified) -> bool {
-        (self.value - other.value).abs() <= self.error + other.error
-    }
-}
-
-impl fmt::Display for Certified {
-    /// `0.05111140824000 ± 2.2e-13`: the printed interval contains the
-    /// certified one (the error widened by the rounding and rounded up).
-    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
-        // The printed interval contains the certified one (arith::decimal).
-        let (v, e) = crate::arith::decimal::enclose(self.value, self.error);
-        write!(f, "{v} ± {e}")
-    }
-}
 
 /// Everything about one curve that the heights of its points share: the
 /// minimal model, its bad primes, the archimedean series data and the
@@ -167,7 +122,7 @@ impl HeightContext {
     ///
     /// # Errors
     /// As [`HeightContext::new`], without the factoring errors.
-    pub fn from_local_data(curve: &Curve, data: &GlobalLocalData) -> Result<HeightContext> {
+    pub(crate) fn from_local_data(curve: &Curve, data: &GlobalLocalData) -> Result<HeightContext> {
         let [u, r, s, t] = data.change.clone();
         let to_min = ModelChange::new(u, r, s, t)?;
         let a: [BigInt; 5] = data.minimal_model.clone();
@@ -305,7 +260,7 @@ impl HeightContext {
                 err += 4.0 * local_terms::EPS * (c.abs() + value.abs());
             }
         }
-        Certified { value, error: err }
+        Certified::with_radius(value, err)
     }
 
     /// `[n]P` on the input model, by exact Jacobian arithmetic, under a
@@ -410,12 +365,12 @@ impl HeightContext {
             m[i][i] = h[i];
             for j in i + 1..r {
                 let s = self.height_minimal(&self.add_minimal(&pts[i], &pts[j]), precision);
-                let v = 0.5 * (s.value - h[i].value - h[j].value);
-                let e = 0.5 * (s.error + h[i].error + h[j].error)
+                let v = 0.5 * (s.value() - h[i].value() - h[j].value());
+                let e = 0.5 * (s.error() + h[i].error() + h[j].error())
                     + 2.0
                         * local_terms::EPS
-                        * (s.value.abs() + h[i].value.abs() + h[j].value.abs());
-                m[i][j] = Certified { value: v, error: e };
+                        * (s.value().abs() + h[i].value().abs() + h[j].value().abs());
+                m[i][j] = Certified::with_radius(v, e);
                 m[j][i] = m[i][j];
             }
         }
@@ -456,7 +411,7 @@ pub fn determinant(m: &[Vec<Certified>]) -> Certified {
     }
     let mut a: Vec<Vec<f64>> = m
         .iter()
-        .map(|r| r.iter().map(|c| c.value).collect())
+        .map(|r| r.iter().map(|c| c.value()).collect())
         .collect();
     let norms: Vec<f64> = a
         .iter()
@@ -464,7 +419,7 @@ pub fn determinant(m: &[Vec<Certified>]) -> Certified {
         .collect();
     let enorms: Vec<f64> = m
         .iter()
-        .map(|r| r.iter().map(|c| c.error * c.error).sum::<f64>().sqrt())
+        .map(|r| r.iter().map(|c| c.error() * c.error()).sum::<f64>().sqrt())
         .collect();
     let mut det = 1.0;
     for c in 0..n {
@@ -499,10 +454,7 @@ pub fn determinant(m: &[Vec<Certified>]) -> Certified {
     }
     let prod_norms: f64 = norms.iter().product();
     err += 4.0 * (n * n * n) as f64 * local_terms::EPS * prod_norms;
-    Certified {
-        value: det,
-        error: err,
-    }
+    Certified::with_radius(det, err)
 }
 
 /// `ĥ(P)` to [`DEFAULT_PRECISION`] for a point `p` of `curve` (any
@@ -518,9 +470,9 @@ pub fn determinant(m: &[Vec<Certified>]) -> Certified {
 /// let e = Curve::from_ints([0, 0, 1, -1, 0]).unwrap();
 /// let p = Point::from_ints(0, 0);
 /// let h = canonical_height(&e, &p).unwrap();
-/// assert!((h.value - 0.05111140823996884).abs() <= h.error + 1e-16 && h.error < 1e-12);
+/// assert!((h.value() - 0.05111140823996884).abs() <= h.error() + 1e-16 && h.error() < 1e-12);
 /// let h2 = canonical_height(&e, &e.double(&p)).unwrap();
-/// assert!((h2.value - 4.0 * h.value).abs() <= h2.error + 4.0 * h.error);
+/// assert!((h2.value() - 4.0 * h.value()).abs() <= h2.error() + 4.0 * h.error());
 /// ```
 ///
 /// # Errors
@@ -572,10 +524,7 @@ pub fn naive_height(p: &Point) -> Certified {
             let d = x.denom().abs();
             let m = if n > d { n } else { d };
             let v = local_terms::ln_abs(&m);
-            Certified {
-                value: v,
-                error: 8.0 * local_terms::EPS * v.abs().max(1.0),
-            }
+            Certified::with_radius(v, 8.0 * local_terms::EPS * v.abs().max(1.0))
         }
     }
 }

@@ -386,7 +386,7 @@ fn reduce(ctx: &HeightContext, pts: &[Point]) -> Result<Vec<Point>> {
     let gram = ctx.pairing_matrix_minimal(pts, DEFAULT_PRECISION);
     let g: Vec<Vec<f64>> = gram
         .iter()
-        .map(|row| row.iter().map(|c| c.value).collect())
+        .map(|row| row.iter().map(|c| c.value()).collect())
         .collect();
     let u = lll_gram(&g);
     let short = ctx.short();

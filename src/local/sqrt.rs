@@ -243,7 +243,8 @@ fn sqrt_unit_mod_two_power(u: &BigInt, m: u32) -> Option<BigInt> {
 ///
 /// `Ok(None)` when `gcd(a, m) ≠ 1` (or `m ≤ 1`).
 ///
-/// Errors: [`Error::BudgetExhausted`] (stage "modular inverse") when the
+/// # Errors
+/// [`Error::BudgetExhausted`] (stage "modular inverse") when the
 /// budget has run out.
 ///
 /// Example: `mod_inverse_with_budget(3, 7, …) = Ok(Some(5))`.

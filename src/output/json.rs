@@ -52,8 +52,12 @@ fn height_points_view(ps: &[Point], heights: &[crate::height::Certified]) -> Vec
             Some(HeightPointView {
                 x: rational_text(p.x()?),
                 y: rational_text(p.y()?),
-                height: heights.get(i).map(|h| value_and_error(h.value, h.error).0),
-                height_error: heights.get(i).map(|h| value_and_error(h.value, h.error).1),
+                height: heights
+                    .get(i)
+                    .map(|h| value_and_error(h.value(), h.error()).0),
+                height_error: heights
+                    .get(i)
+                    .map(|h| value_and_error(h.value(), h.error()).1),
             })
         })
         .collect()
@@ -424,7 +428,7 @@ fn report_view<'a>(input: &'a str, r: &DescentReport, detail: Detail) -> LineVie
         stopped,
         rank_lower: Some(r.rank_lower()),
         rank_upper: Some(r.rank_upper()),
-        points: height_points_view(r.returned_points(), r.returned_heights()),
+        points: height_points_view(r.points(), r.point_heights()),
         torsion: Some(TorsionView {
             order: t.order(),
             cyclic_factors,
@@ -432,8 +436,12 @@ fn report_view<'a>(input: &'a str, r: &DescentReport, detail: Detail) -> LineVie
         }),
         selmer2_rank: r.selmer2_rank(),
         rank_settled_by: r.rank_settled_by().map(|p| p.word()),
-        regulator: r.regulator().map(|g| value_and_error(g.value, g.error).0),
-        regulator_error: r.regulator().map(|g| value_and_error(g.value, g.error).1),
+        regulator: r
+            .regulator()
+            .map(|g| value_and_error(g.value(), g.error()).0),
+        regulator_error: r
+            .regulator()
+            .map(|g| value_and_error(g.value(), g.error()).1),
         points_generate: r.points_generate(),
         saturation: r.saturation().map(|s| SaturationView {
             index_bound: s.index_bound,

@@ -9,9 +9,15 @@
 //!   serde; every line carries `format_version`.
 //! * `batch`: one curve per input line, one JSON line out; invalid bytes
 //!   and panics become that line's error and the batch goes on.
+//!
+//! ---
+//!
+//! The guide below is `docs/report_format.md`, included verbatim.
+#![doc = include_str!("../../docs/report_format.md")]
 
 pub(crate) mod batch;
 pub(crate) mod json;
+pub(crate) mod record;
 pub(crate) mod text;
 
 use std::fmt;
@@ -22,6 +28,7 @@ pub use batch::{
     classify_line, is_skipped_line, json_for_bytes, json_for_line, json_for_line_with, LineKind,
 };
 pub use json::{error_line, report_line, FORMAT_VERSION, MAX_ECHOED_INPUT_BYTES};
+pub use record::{RecordPoint, RecordTorsion, ReportRecord};
 
 /// How much evidence a report shows.
 #[derive(Clone, Copy, Debug, Default, PartialEq, Eq, Hash)]

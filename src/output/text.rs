@@ -360,15 +360,59 @@ fn write_isogeny(
     write_side(f, d.codomain(), false, detail)
 }
 
-/// Writes `report` with the given detail.
+/// Writes `report` with the given detail: the headline with the rank and
+/// its proof, the points, torsion and 2-Selmer rank, then each isogeny, the
+/// analytic side, the local data and the evidence summary.
 pub(crate) fn write_report(
     f: &mut fmt::Formatter<'_>,
     r: &DescentReport,
     detail: Detail,
 ) -> fmt::Result {
     writeln!(f, "{}", r.curve())?;
+    write_rank_line(f, r)?;
+    if let Some(c) = r.conflict() {
+        writeln!(
+            f,
+            "CONFLICT (a bug in the descent or the analytic side; nothing was settled by it): {c}"
+        )?;
+    }
+    write_points(f, r)?;
+    write_torsion_and_selmer(f, r)?;
+    if let Completion::Partial { step, reason } = r.completion() {
+        writeln!(
+            f,
+            "partial: {step} stopped ({reason}); the bounds above are proven by the steps that ran"
+        )?;
+    }
+    writeln!(f)?;
+    let count = r.isogenies().len();
+    for (i, d) in r.isogenies().iter().enumerate() {
+        write_isogeny(f, i, count, d, r.deciding_isogeny() == Some(i), detail)?;
+    }
+    if let Some(a) = r.analytic() {
+        write_analytic(f, r, a)?;
+    }
+    writeln!(f)?;
+    write_local_data(f, r)?;
+    writeln!(f)?;
+    let mut ev = String::new();
+    for (i, d) in r.isogenies().iter().enumerate() {
+        let _ = writeln!(
+            ev,
+            "evidence, isogeny {}: on E {}; on E' {}",
+            i + 1,
+            evidence_summary(d.domain()),
+            evidence_summary(d.codomain())
+        );
+    }
+    f.write_str(&ev)
+}
+
+/// The headline: the rank or its interval, and which theorem or which
+/// descent proves it.
+fn write_rank_line(f: &mut fmt::Formatter<'_>, r: &DescentReport) -> fmt::Result {
     let b = r.rank_bounds();
-    let n = r.points().len();
+    let n = r.descent_points().len();
     let lower_proof = if b.lower == 0 {
         "trivial".to_string()
     } else {
@@ -423,19 +467,24 @@ pub(crate) fn write_report(
             "{head} (lower bound: {lower_proof}; upper bound: {upper_proof})"
         )?,
     }
-    if let Some(c) = r.conflict() {
-        writeln!(
-            f,
-            "CONFLICT (a bug in the descent or the analytic side; nothing was settled by it): {c}"
-        )?;
-    }
-    let returned = r.returned_points();
-    let heights = r.returned_heights();
+    Ok(())
+}
+
+/// The points found, with their heights and what is proven about them
+/// (generators by saturation, or independent only), and the regulator.
+fn write_points(f: &mut fmt::Formatter<'_>, r: &DescentReport) -> fmt::Result {
+    let b = r.rank_bounds();
+    let returned = r.points();
+    let heights = r.point_heights();
     let with_heights: Vec<String> = returned
         .iter()
         .enumerate()
         .map(|(i, p)| match heights.get(i) {
-            Some(h) => format!("{} (ĥ = {})", point_text(p), plus_minus(h.value, h.error)),
+            Some(h) => format!(
+                "{} (ĥ = {})",
+                point_text(p),
+                plus_minus(h.value(), h.error())
+            ),
             None => point_text(p),
         })
         .collect();
@@ -444,13 +493,19 @@ pub(crate) fn write_report(
         let certificate = s
             .map(|s| {
                 let primes: Vec<String> = s.primes_checked.iter().map(u64::to_string).collect();
-                format!(
-                    "index bound {}, p-saturated for p in {{{}}}",
-                    s.index_bound
-                        .map(|b| b.to_string())
-                        .unwrap_or_else(|| "-".into()),
-                    primes.join(", ")
-                )
+                let bound = s
+                    .index_bound
+                    .map(|b| b.to_string())
+                    .unwrap_or_else(|| "-".into());
+                if primes.is_empty() {
+                    // An index bound below 2 leaves no prime to check.
+                    format!("index bound {bound}, so no prime can divide the index")
+                } else {
+                    format!(
+                        "index bound {bound}, p-saturated for p in {{{}}}",
+                        primes.join(", ")
+                    )
+                }
             })
             .unwrap_or_default();
         writeln!(
@@ -471,7 +526,7 @@ pub(crate) fn write_report(
         )?;
     }
     if let Some(reg) = r.regulator() {
-        writeln!(f, "regulator: {}", plus_minus(reg.value, reg.error))?;
+        writeln!(f, "regulator: {}", plus_minus(reg.value(), reg.error()))?;
     }
     if returned.len() < b.lower {
         writeln!(
@@ -481,6 +536,11 @@ pub(crate) fn write_report(
             b.lower
         )?;
     }
+    Ok(())
+}
+
+/// The torsion subgroup with its generators, and the 2-Selmer rank.
+fn write_torsion_and_selmer(f: &mut fmt::Formatter<'_>, r: &DescentReport) -> fmt::Result {
     let t = r.torsion();
     let (n1, n2) = t.structure();
     let structure = if n2 <= 1 {
@@ -506,21 +566,11 @@ pub(crate) fn write_report(
             s2.saturating_sub(t2)
         )?;
     }
-    if let Completion::Partial { step, reason } = r.completion() {
-        writeln!(
-            f,
-            "partial: {step} stopped ({reason}); the bounds above are proven by the steps that ran"
-        )?;
-    }
-    writeln!(f)?;
-    let count = r.isogenies().len();
-    for (i, d) in r.isogenies().iter().enumerate() {
-        write_isogeny(f, i, count, d, r.deciding_isogeny() == Some(i), detail)?;
-    }
-    if let Some(a) = r.analytic() {
-        write_analytic(f, r, a)?;
-    }
-    writeln!(f)?;
+    Ok(())
+}
+
+/// The minimal model, the conductor and each bad prime's reduction data.
+fn write_local_data(f: &mut fmt::Formatter<'_>, r: &DescentReport) -> fmt::Result {
     match r.tate_data() {
         Some(ld) => {
             let mm = ld.minimal_model.clone().map(BigRational::from_integer);
@@ -548,18 +598,7 @@ pub(crate) fn write_report(
             "minimal model and conductor not computed (Tate's algorithm was stopped)"
         )?,
     }
-    writeln!(f)?;
-    let mut ev = String::new();
-    for (i, d) in r.isogenies().iter().enumerate() {
-        let _ = writeln!(
-            ev,
-            "evidence, isogeny {}: on E {}; on E' {}",
-            i + 1,
-            evidence_summary(d.domain()),
-            evidence_summary(d.codomain())
-        );
-    }
-    f.write_str(&ev)
+    Ok(())
 }
 
 fn write_analytic(f: &mut fmt::Formatter<'_>, r: &DescentReport, a: &AnalyticData) -> fmt::Result {

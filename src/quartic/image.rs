@@ -89,6 +89,7 @@ pub fn relevant_places(model: &ReducedModel, d: &BigInt, primes: &[Prime]) -> Re
 
 /// The evidence for one square class in a [`LocalImage`].
 #[derive(Debug, Clone, PartialEq, Eq)]
+#[non_exhaustive]
 pub struct ClassEvidence {
     /// The class, as a bit mask in the basis of `crate::local::square_class`.
     pub mask: u8,
@@ -101,6 +102,7 @@ pub struct ClassEvidence {
 /// The local image `W_v ⊆ Q_v*/Q_v*²` of the 2-isogeny descent on
 /// `y² = x³ + ax² + bx` at one place, with evidence per class.
 #[derive(Debug, Clone, PartialEq, Eq)]
+#[non_exhaustive]
 pub struct LocalImage {
     /// The place `v`.
     pub place: Place,
@@ -165,7 +167,8 @@ fn f2_basis(masks: &[u8]) -> Vec<u8> {
 /// square-class basis of the `local` layer (R: sign; odd p: `{p, n}`;
 /// 2: `{2, −1, 5}`), with a basis, the dimension, and the evidence.
 ///
-/// Errors: [`Error::Degenerate`] when `b(a² − 4b) = 0`;
+/// # Errors
+/// [`Error::Degenerate`] when `b(a² − 4b) = 0`;
 /// [`Error::BudgetExhausted`].
 ///
 /// Cost: at most 2, 4 or 8 local solubility tests (a class is skipped

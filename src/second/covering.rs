@@ -217,6 +217,7 @@ pub enum ObstructedCurve {
 
 /// One twist `λ` whose covering `D_λ` has no point over `Q_v`.
 #[derive(Clone, Debug, PartialEq, Eq)]
+#[non_exhaustive]
 pub struct TwistObstruction {
     /// The square-free twist `λ`.
     pub lambda: BigInt,
@@ -241,6 +242,7 @@ impl TwistObstruction {
 /// A 4-covering that is locally soluble everywhere, with what the search
 /// on it found (nothing, or it ran out of budget).
 #[derive(Clone, Debug, PartialEq, Eq)]
+#[non_exhaustive]
 pub struct SurvivingCovering {
     /// The twist `λ`.
     pub lambda: BigInt,
@@ -253,6 +255,7 @@ pub struct SurvivingCovering {
 /// The evidence of [`SecondDescentOutcome::NoPoint`]: the parametrisation
 /// of `(Q)`, the complete list of twists and one obstruction per twist.
 #[derive(Clone, Debug, PartialEq, Eq)]
+#[non_exhaustive]
 pub struct NoPointEvidence {
     /// `[q₁, q₂, q₃]` parametrising `X² − dY² = (a² − 4b)Z²`.
     pub conic_forms: [[BigInt; 3]; 3],
@@ -780,7 +783,6 @@ enum TwistVerdict {
 type Model = ([BigInt; 5], [[BigInt; 3]; 3], BigInt, [[BigInt; 2]; 2]);
 
 /// Builds the quartic of `D_λ` by parametrising `side`'s conic.
-#[allow(clippy::too_many_arguments)]
 fn quartic_for(
     side: ConicSide,
     lambda: &BigInt,
@@ -807,7 +809,6 @@ fn quartic_for(
     Ok((coeffs, par, k, frame))
 }
 
-#[allow(clippy::too_many_arguments)]
 fn examine_twist(
     lambda: &BigInt,
     d: &BigInt,
@@ -936,7 +937,8 @@ fn examine_twist(
 /// twist; re-check with [`verify_obstruction`]), or
 /// [`SecondDescentOutcome::Undecided`].
 ///
-/// **Errors.** [`Error::Zero`] for `d = 0`; [`Error::SingularCurve`] when
+/// # Errors
+/// [`Error::Zero`] for `d = 0`; [`Error::SingularCurve`] when
 /// `b(a² − 4b) = 0`; [`Error::InvalidArgument`] when `d ∤ b`, when `d` is a
 /// square (the identity's class), or when `C_d` has no point over some
 /// `Q_v` (the caller should pass only classes of the Selmer group);
@@ -1032,7 +1034,8 @@ pub fn second_descent(
 /// [`SecondDescentOutcome::Undecided`] (never `NoPoint`: not every twist is
 /// examined).
 ///
-/// **Errors.** As [`second_descent`]; [`Error::Internal`]
+/// # Errors
+/// As [`second_descent`]; [`Error::Internal`]
 /// if a named twist turns out locally insoluble
 /// (it contradicts the pairing).
 pub fn second_descent_on_twists(
@@ -1138,7 +1141,6 @@ struct SolubleCovering {
 /// Searches one soluble covering (its own search budget, charged to
 /// `budget`): the point of C_d and E if one is found and maps back, else
 /// the covering as a survivor with its search.
-#[allow(clippy::too_many_arguments)]
 fn search_covering(
     a: &BigInt,
     b: &BigInt,
@@ -1160,9 +1162,7 @@ fn search_covering(
         "second descent: covering searches",
     )?;
     if let SearchOutcome::Found(cp) = &outcome {
-        if let Some((space_point, x, y)) =
-            map_back(a, b, d, s, &c.lambda, &c.par, &c.k, &c.frame, cp)?
-        {
+        if let Some((space_point, x, y)) = map_back(a, b, d, s, &c, cp)? {
             return Ok(Ok(SecondDescentOutcome::Point {
                 space_point,
                 point_x: x,
@@ -1183,18 +1183,16 @@ fn search_covering(
 /// Maps a point of the covering `g_λ` back to `C_d` and `E`, and verifies
 /// it on both. `None` if it is a point with `e = 0` (impossible for
 /// non-square `d`, kept for safety).
-#[allow(clippy::too_many_arguments)]
 fn map_back(
     a: &BigInt,
     b: &BigInt,
     d: &BigInt,
     s: &Setup,
-    lambda: &BigInt,
-    par: &[[BigInt; 3]; 3],
-    k: &BigInt,
-    frame: &[[BigInt; 2]; 2],
+    covering: &SolubleCovering,
     cp: &QuarticPoint,
 ) -> Result<Option<(QuarticPoint, BigRational, BigRational)>> {
+    let (lambda, par) = (&covering.lambda, &covering.par);
+    let (k, frame) = (&covering.k, &covering.frame);
     let m = &frame[0][0] * &cp.x + &frame[0][1] * &cp.z;
     let n = &frame[1][0] * &cp.x + &frame[1][1] * &cp.z;
     let u = eval2(&par[0], &m, &n);

@@ -22,8 +22,8 @@ pub(crate) mod covering;
 pub(crate) mod pairing;
 
 pub use covering::{
-    second_descent, verify_obstruction, NoPointEvidence, ObstructedCurve, SecondDescentOptions,
-    SecondDescentOutcome, TwistObstruction,
+    second_descent, verify_obstruction, ConicSide, NoPointEvidence, ObstructedCurve,
+    SecondDescentOptions, SecondDescentOutcome, SurvivingCovering, TwistObstruction,
 };
 pub use pairing::{
     class_lift, lift_pairing, soluble_twists, verify_class_lift, ClassLift, LiftPairing,

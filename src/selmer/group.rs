@@ -29,6 +29,7 @@ use crate::local::{class_dimension, square_class_int, Place};
 /// The local image W_v at one place, as a subspace of Q_v*/Q_v*² in the
 /// square-class basis of [`crate::local`].
 #[derive(Clone, Debug, PartialEq, Eq)]
+#[non_exhaustive]
 pub struct LocalCondition {
     /// The place v.
     pub place: Place,

@@ -8,6 +8,11 @@
 //! localisation map; `image_size` the sizes of the local images predicted
 //! from Tamagawa numbers (a cross-check). Which Selmer classes lift further
 //! is the question of the layer above (module `second`).
+//!
+//! ---
+//!
+//! The guide below is `docs/image_size.md`, included verbatim.
+#![doc = include_str!("../../docs/image_size.md")]
 
 pub(crate) mod assemble;
 #[allow(dead_code)]
