@@ -21,14 +21,16 @@
 //! | 3a | [`analytic`] | a_p and a_n, root number, real period, certified L-values, the BSD ledger |
 //! | 3b | [`height`] | canonical heights, the height pairing, regulators, LLL, lower bounds, saturation |
 //! | 4 | [`conic`] | Legendre's equation, zeros and parametrisations of conics |
+//! | 4b | [`cubic`] | plane cubics `F(u, v) = c·w³` over Q_p, Eisenstein integers |
 //! | 5 | [`quartic`] | binary quartics, local solubility at every place, local images, point search |
 //! | 6 | [`selmer`] | F2 linear algebra, Q(S,2), Selmer groups from local images, local-image sizes |
 //! | 7 | [`second`] | the second descent: lifting pairing, class lifts, 4-coverings, twist obstructions |
 //! | 8 | [`descent`] | both sides of each 2-isogeny, rank bounds, the typed report, its verification |
+//! | 8b | [`descent3`] | descent via 3-isogeny on y² = x³ + k: Selmer groups over F3, rank bounds |
 //! | 9 | [`output`] | reports as text and JSON, input lines as curves, batches |
 //! | 10 | [`family`] | twists, congruent numbers, boxes; ordered, parallel, sharded scans |
 //!
-//! Layers 3a and 3b sit side by side: neither uses the other. The guides
+//! Layers 3a and 3b sit side by side: neither uses the other; so do 8 and 8b. The guides
 //! in `docs/` are included in, or cited from, the rustdoc of the module
 //! they explain; docs/references.md lists the literature cited as
 //! `[Author00]`, and docs/performance.md the measured figures with the

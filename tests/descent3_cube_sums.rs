@@ -325,3 +325,49 @@ fn budgets_hold() {
     assert!(r.rank_lower <= 2 && r.rank_upper == 2);
     r.recheck().unwrap();
 }
+
+// The sweep of fuzz/fuzz_targets/descend_3isogeny.rs as a proptest: small
+// j = 0 curves moved by random changes of model, and raw small models. No
+// panic; only the documented errors; the report re-checks (common practice).
+mod sweep {
+    use super::*;
+    use proptest::prelude::*;
+
+    proptest! {
+        #![proptest_config(ProptestConfig { cases: 40, ..ProptestConfig::default() })]
+        #[test]
+        fn no_panic_and_reports_recheck(
+            moved in any::<bool>(), s in 1i64..60, minus3 in any::<bool>(),
+            u in 1i64..5, r in -20i64..20, s2 in -5i64..5, t in -20i64..20,
+            raw in proptest::collection::vec(-30i64..30, 5),
+        ) {
+            let mut opts = quick();
+            opts.local_units = 2_000_000;
+            opts.search_units = 200_000;
+            let curve = if moved {
+                let k = if minus3 { -3 * s * s } else { s * s };
+                let base = Curve::from_ints([0, 0, 0, 0, k]).unwrap();
+                let q = |n: i64| BigRational::from_integer(n.into());
+                ModelChange::new(q(u), q(r), q(s2), q(t)).unwrap().apply_to_curve(&base)
+            } else {
+                match Curve::from_ints([raw[0], raw[1], raw[2], raw[3], raw[4]]) {
+                    Ok(e) => e,
+                    Err(_) => return Ok(()),
+                }
+            };
+            let out = std::panic::catch_unwind(|| descend_3isogeny(&curve, &opts));
+            prop_assert!(out.is_ok(), "panic on {}", curve);
+            match out.unwrap() {
+                Ok(rep) => {
+                    prop_assert!(rep.rank_lower <= rep.rank_upper);
+                    prop_assert!(rep.recheck().is_ok());
+                    prop_assert!(!moved || rep.tamagawa.as_ref().unwrap().holds());
+                }
+                Err(Error::NoSupportedIsogeny { .. })
+                | Err(Error::BudgetExhausted { .. })
+                | Err(Error::FactorBudgetExhausted { .. }) => prop_assert!(!moved),
+                Err(other) => prop_assert!(false, "{other} on {curve}"),
+            }
+        }
+    }
+}

@@ -536,11 +536,13 @@ fn is_budget_error(e: &Error) -> bool {
     )
 }
 
-/// The deadline of the first-descent fallback: a quarter of the time
-/// limit (at least 1 s) after the limit itself, or none without a limit.
+/// The deadline of the first-descent fallback: nine tenths of the grace
+/// period max(limit/4, 1 s) after the limit itself (the last tenth is kept
+/// for what follows: the bound from the classes' supports, the report),
+/// or none without a limit.
 fn fallback_deadline(options: &DescentOptions, started: Instant) -> Option<Instant> {
     options.time_limit.and_then(|d| {
-        let grace = (d / 4).max(std::time::Duration::from_secs(1));
+        let grace = (d / 4).max(std::time::Duration::from_secs(1)) * 9 / 10;
         started.checked_add(d.saturating_add(grace))
     })
 }
