@@ -182,9 +182,16 @@ pub(crate) fn terms_for(qabs: f64, p: u32) -> u64 {
 }
 
 /// The continued-fraction convergents `h/k` of `x·2^{−p}` with `k` a
-/// perfect square of at most `max_bits` bits and `(h/k)³ − n²(h/k)` a
-/// rational square: the first such point of `E_n`, checked exactly.
-pub(crate) fn recognise(f: &Fixed, x: &BigInt, n: &BigInt, max_bits: u64) -> Option<Point> {
+/// perfect square of at most `max_bits` bits, within `2^{tol−p}` of
+/// `x·2^{−p}`, and `(h/k)³ − n²(h/k)` a non-zero rational square: the
+/// first such point of `E_n` (not a 2-torsion point), checked exactly.
+pub(crate) fn recognise(
+    f: &Fixed,
+    x: &BigInt,
+    n: &BigInt,
+    max_bits: u64,
+    tol: u32,
+) -> Option<Point> {
     let (mut num, mut den) = (x.clone(), f.one());
     let (mut h1, mut h2) = (BigInt::one(), BigInt::zero());
     let (mut k1, mut k2) = (BigInt::zero(), BigInt::one());
@@ -196,11 +203,15 @@ pub(crate) fn recognise(f: &Fixed, x: &BigInt, n: &BigInt, max_bits: u64) -> Opt
         if k.bits() > max_bits {
             return None;
         }
-        if let Some(d) = sqrt_exact(&k) {
+        // Only convergents within the approximation's own accuracy
+        // (|x·2^{−p} − h/k| ≤ 2^{tol−p}) are candidates; the first
+        // convergents (like ⌊x⌋) may happen to be points of the curve.
+        let close = (x * &k - (&h << f.p)).abs() <= (&k << tol);
+        if let (true, Some(d)) = (close, sqrt_exact(&k)) {
             // Y² = (h³ − n²h·d⁴)/d⁶.
             let d4 = &k * &k;
             let top = &h * &h * &h - &n2 * &h * &d4;
-            if let Some(s) = sqrt_exact(&top) {
+            if let Some(s) = sqrt_exact(&top).filter(|s| !s.is_zero()) {
                 let x = BigRational::new(h.clone(), k.clone());
                 let y = BigRational::new(s, &k * &d);
                 return Some(Point::new(x, y));
@@ -225,7 +236,7 @@ pub(crate) fn point_at(
     let x = c.wp(s, y)?;
     let big_x = -(x * n);
     let max_bits = u64::from(c.f.p.saturating_sub(guard)) / 2;
-    recognise(&c.f, &big_x, n, max_bits)
+    recognise(&c.f, &big_x, n, max_bits, guard)
 }
 
 /// The torsion points of `E_n`: `O, (0, 0), (±n, 0)`.

@@ -114,8 +114,10 @@ pub(crate) fn heegner_beta(d: i64, n: i64) -> Option<i64> {
 /// # Errors
 /// [`Error::BudgetExhausted`] when the budget runs out;
 /// [`Error::Internal`] if some class has no Heegner form with
-/// `A ≤ N·(2√|D| + 2)` (impossible for fundamental `D` satisfying the
-/// Heegner hypothesis: every class holds an ideal of norm ≤ √(|D|/3)).
+/// `A ≤ N·|D|`. (The least `A/N` of a class is the least norm of an ideal
+/// `𝔞` in a given class with `𝔞𝔫` primitive, `𝔫` of norm `N`; it can
+/// exceed `√(|D|/3)` — `D = −367`, `N = 32` needs `A/N = 46` — but an
+/// ideal of norm below `|D|` coprime to `N` exists in every class.)
 pub(crate) fn heegner_forms(
     d: i64,
     n: i64,
@@ -125,7 +127,7 @@ pub(crate) fn heegner_forms(
     let h = reduced_forms(d).len();
     let mut seen: HashMap<Form, Form> = HashMap::with_capacity(h);
     let mut order = Vec::with_capacity(h);
-    let limit = 2 * ((-d) as f64).sqrt() as i64 + 2;
+    let limit = -d + 1;
     let mut a1 = 1;
     while seen.len() < h {
         if a1 > limit {

@@ -29,7 +29,7 @@ pub(crate) mod forms;
 
 use num_bigint::BigInt;
 use num_rational::BigRational;
-use num_traits::{One, Signed, ToPrimitive, Zero};
+use num_traits::{Signed, ToPrimitive, Zero};
 
 use crate::arith::{rational_sqrt_exact, squarefree_part};
 use crate::budget::Budget;
@@ -258,12 +258,13 @@ fn point_on_twist(
     // Precision: recognising X = a/d² from an approximation needs an error
     // below 1/(2d⁴) (Legendre's theorem on continued fractions), and ℘
     // near its pole loses a further 1.5·log|X|; with log max(|a|, d²) ≤ H
-    // that is 3.5·H/ln 2 bits. H starts at 16× the predicted height (an
-    // index up to 4 between the trace and a generator) plus a margin for
-    // the naive–canonical difference, and doubles on failure.
+    // that is 3.5·H/ln 2 bits. H starts at the predicted height (index 1
+    // between the trace and a generator, #Ш = 1) plus a margin for the
+    // naive–canonical difference; the precision doubles on failure, so a
+    // larger index or Ш costs at most twice the final attempt.
     let start_h = predicted_height
         .filter(|h| h.is_finite() && *h > 0.0)
-        .map_or(40.0, |h| 16.0 * h + 2.0 * (n as f64).ln() + 10.0);
+        .map_or(40.0, |h| 1.1 * h + 2.0 * (n as f64).ln() + 10.0);
     let amax = hforms.iter().map(|f| f.0).max().unwrap_or(LEVEL);
     let qmax = (-std::f64::consts::PI * (n as f64).sqrt() / amax as f64).exp();
     let mut bits = ((3.5 * start_h / std::f64::consts::LN_2) as u32 + 64)
@@ -323,8 +324,13 @@ fn point_on_twist(
             let mut param = (false, y.clone());
             let mut index = 1u64;
             let mut tried_small = [false; 8];
+            let mut divisions = 0;
             for p in primes {
                 loop {
+                    divisions += 1;
+                    if divisions > 64 {
+                        break;
+                    }
                     let small = p < 8 && tried_small[p as usize];
                     if small {
                         break;
@@ -376,7 +382,6 @@ fn point_on_twist(
             });
         }
         bits = bits.saturating_mul(2).min(options.max_bits);
-        let _ = BigInt::one();
     }
 }
 
