@@ -233,9 +233,9 @@ fn heegner_step(
     let predicted = predicted_generator_height(report).map(|(h, _)| h);
     match heegner_point(&report.curve, predicted, hopts, &mut budget) {
         Ok(HeegnerOutcome::Found(h)) => {
-            // Infinite order, exactly: no torsion point of a curve over Q
-            // has order above 12 (Mazur 1977).
-            if report.curve.order_up_to(&h.point, 12).is_some() {
+            // Infinite order, exactly: the point is not in the torsion
+            // subgroup, which the report holds in full.
+            if report.torsion.points().contains(&h.point) {
                 report.global.conflict = Some(format!(
                     "the Heegner point {:?} has finite order although L'(E,1) is certified non-zero",
                     h.point
