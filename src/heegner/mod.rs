@@ -122,6 +122,41 @@ pub enum HeegnerOutcome {
     NotApplicable(String),
 }
 
+/// The class number `h(D)` of a negative discriminant `D ≡ 0, 1 (mod 4)`
+/// (the number of primitive reduced forms; see the `forms` sources).
+///
+/// # Errors
+/// [`Error::InvalidArgument`] unless `−10¹² ≤ D < 0`, `D ≡ 0, 1 (mod 4)`.
+pub fn class_number(d: i64) -> Result<usize> {
+    if !(-1_000_000_000_000..0).contains(&d) || !matches!(d.rem_euclid(4), 0 | 1) {
+        return Err(Error::InvalidArgument {
+            reason: format!("{d} is not a negative discriminant of at most 12 digits"),
+        });
+    }
+    Ok(forms::reduced_forms(d).len())
+}
+
+/// The Heegner forms `[A, B, C]` of level `level` for the fundamental
+/// discriminant `d` (`N | A`, `B ≡ β (mod 2N)` for the least `β ≥ 0` with
+/// `β² ≡ D (mod 4N)`, `B² − 4AC = D`), one per ideal class, each with the
+/// least `A` of its class; empty when `D` is not a square modulo `4N`.
+///
+/// # Errors
+/// [`Error::InvalidArgument`] for a `d` that is not a fundamental
+/// discriminant in `[−10⁷, 0)` or a level outside `1..=10⁴`; budget errors.
+pub fn heegner_forms(d: i64, level: i64, budget: &mut Budget) -> Result<Vec<(i64, i64, i64)>> {
+    if !(-10_000_000..0).contains(&d) || !forms::is_fundamental(d) || !(1..=10_000).contains(&level)
+    {
+        return Err(Error::InvalidArgument {
+            reason: format!("Heegner forms need a fundamental D in [-10^7, 0) and a level in 1..=10^4, got D = {d}, N = {level}"),
+        });
+    }
+    let Some(beta) = forms::heegner_beta(d, level) else {
+        return Ok(Vec::new());
+    };
+    Ok(forms::heegner_forms(d, level, beta, budget)?.1)
+}
+
 /// For a curve isomorphic over Q to `y² = x³ − n²x` (`n` square-free,
 /// positive): `n` and the change of model from the curve to that model.
 /// `None` for every other curve (checked exactly on the coefficients).
