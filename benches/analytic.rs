@@ -6,8 +6,10 @@
 //! Run: `cargo bench --bench analytic`.
 
 use criterion::{black_box, criterion_group, criterion_main, Criterion};
-use isodescent::analytic::{an_list, analyse, sha_analytic, AnalyticOptions, ApTable};
-use isodescent::curve::{torsion_subgroup, Curve};
+use isodescent::analytic::{
+    analyse, dirichlet_coefficients, sha_analytic, AnalyticOptions, ApTable,
+};
+use isodescent::curve::{torsion, Curve};
 use isodescent::Budget;
 use num_bigint::BigInt;
 
@@ -29,25 +31,25 @@ fn primes(n: usize) -> Vec<u64> {
 }
 
 fn bench_ap(c: &mut Criterion) {
-    // 37a1: y² + y = x³ − x (trivial torsion), and y² = x³ − 1767²x
+    // y² + y = x³ − x (trivial torsion), and y² = x³ − 1767²x
     // (torsion Z/2 × Z/2, the family this crate is about).
     let ps = primes(1_000_000);
     let mut g = c.benchmark_group("analytic");
     g.sample_size(10);
     for (name, a) in [
-        ("37a1", [0, 0, 1, -1, 0]),
+        ("y^2+y=x^3-x", [0, 0, 1, -1, 0]),
         ("y^2=x^3-1767^2x", [0, 0, 0, -1767 * 1767, 0]),
     ] {
         let e = Curve::from_ints(a).unwrap_or_else(|_| unreachable!());
         let local = e
-            .local_data(&mut Budget::unlimited())
+            .tate_data(&mut Budget::unlimited())
             .unwrap_or_else(|_| unreachable!());
         let table = ApTable::new(&local);
         g.bench_function(format!("a_p for all p below 10^6 ({name})"), |b| {
             b.iter(|| {
                 let mut s = 0i64;
                 for &p in &ps {
-                    s += table.ap(p).unwrap_or(0);
+                    s += table.frobenius_trace(p).unwrap_or(0);
                 }
                 black_box(s)
             })
@@ -68,9 +70,9 @@ fn bench_analyse(c: &mut Criterion) {
     for (name, a) in curves {
         let e = Curve::from_ints(a).unwrap_or_else(|_| unreachable!());
         let local = e
-            .local_data(&mut Budget::unlimited())
+            .tate_data(&mut Budget::unlimited())
             .unwrap_or_else(|_| unreachable!());
-        let tors = torsion_subgroup(&e).order();
+        let tors = torsion(&e).order();
         let cp: BigInt = local
             .primes
             .iter()
@@ -100,22 +102,22 @@ fn bench_an_list(c: &mut Criterion) {
     // The coefficients a_1..a_M with M = 30 000, about what the default
     // options use at the congruent-number conductors N = 32n² near n = 1000:
     // y² = x³ − 997²x takes the closed form of j = 1728 at every good
-    // p ≥ 5; 37a1 (no complex multiplication) takes direct counts and
+    // p ≥ 5; y² + y = x³ − x (no complex multiplication) takes direct counts and
     // baby-step giant-step. docs/performance.md has both trees side by side.
     let mut g = c.benchmark_group("analytic");
     g.sample_size(20);
     for (name, a) in [
         ("y^2=x^3-997^2x, closed form", [0, 0, 0, -997 * 997, 0]),
-        ("37a1, counts", [0, 0, 1, -1, 0]),
+        ("y^2+y=x^3-x, counts", [0, 0, 1, -1, 0]),
     ] {
         let e = Curve::from_ints(a).unwrap_or_else(|_| unreachable!());
         let local = e
-            .local_data(&mut Budget::unlimited())
+            .tate_data(&mut Budget::unlimited())
             .unwrap_or_else(|_| unreachable!());
         g.bench_function(format!("a_n for n <= 30000 ({name})"), |b| {
             b.iter(|| {
                 black_box(
-                    an_list(&local, 30_000, &mut Budget::unlimited())
+                    dirichlet_coefficients(&local, 30_000, &mut Budget::unlimited())
                         .unwrap_or_else(|_| unreachable!()),
                 )
             })

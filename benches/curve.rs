@@ -13,7 +13,7 @@
 
 use criterion::{black_box, criterion_group, criterion_main, Criterion};
 use isodescent::curve::{
-    first_two_torsion_model, torsion_subgroup, two_torsion_model, two_torsion_points, Curve, Point,
+    first_two_torsion_model, torsion, two_torsion_model, two_torsion_points, Curve, Point,
     TwoIsogeny, TwoTorsionModel,
 };
 use isodescent::descent::{descend, DescentOptions};
@@ -93,8 +93,8 @@ fn bench(c: &mut Criterion) {
         c.bench_function(&format!("curve/reduced_model/{d}-digit"), |b| {
             b.iter(|| first_two_torsion_model(black_box(&g)))
         });
-        c.bench_function(&format!("curve/torsion_subgroup/{d}-digit"), |b| {
-            b.iter(|| torsion_subgroup(black_box(&g)))
+        c.bench_function(&format!("curve/torsion/{d}-digit"), |b| {
+            b.iter(|| torsion(black_box(&g)))
         });
     }
 }
@@ -134,7 +134,7 @@ fn bench_families(c: &mut Criterion) {
             .flatten()
             .filter_map(|m| TwoIsogeny::from_model(m).ok())
             .collect();
-        let tors: Vec<_> = curves.iter().map(torsion_subgroup).collect();
+        let tors: Vec<_> = curves.iter().map(torsion).collect();
         let mut g = c.benchmark_group(format!("curve/family/{name}"));
         g.sample_size(10);
         g.bench_function("curve_new", |b| {
@@ -154,7 +154,7 @@ fn bench_families(c: &mut Criterion) {
         g.bench_function("torsion_subgroup_of_e", |b| {
             b.iter(|| {
                 for e in &curves {
-                    black_box(torsion_subgroup(e));
+                    black_box(torsion(e));
                 }
             })
         });
@@ -177,7 +177,7 @@ fn bench_families(c: &mut Criterion) {
         g.bench_function("torsion_subgroup_of_codomains", |b| {
             b.iter(|| {
                 for i in &isogenies {
-                    black_box(torsion_subgroup(i.codomain()));
+                    black_box(torsion(i.codomain()));
                 }
             })
         });
@@ -203,7 +203,7 @@ fn bench_families(c: &mut Criterion) {
         });
         let codomain_torsion: Vec<Vec<Point>> = isogenies
             .iter()
-            .map(|i| torsion_subgroup(i.codomain()).points().to_vec())
+            .map(|i| torsion(i.codomain()).points().to_vec())
             .collect();
         g.bench_function("dual_image_of_codomain_torsion", |b| {
             b.iter(|| {
@@ -214,10 +214,10 @@ fn bench_families(c: &mut Criterion) {
                 }
             })
         });
-        g.bench_function("local_data", |b| {
+        g.bench_function("tate_data", |b| {
             b.iter(|| {
                 for e in &curves {
-                    black_box(e.local_data(&mut Budget::unlimited()).ok());
+                    black_box(e.tate_data(&mut Budget::unlimited()).ok());
                 }
             })
         });

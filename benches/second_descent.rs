@@ -1,4 +1,4 @@
-//! Criterion benchmarks for the second descent (src/quartic/second_descent.rs).
+//! Criterion benchmarks for the second descent (src/second/covering.rs).
 //!
 //! * `second_descent/lind_reichardt`: y² = x³ − 68x, class d = 2, whose
 //!   space is 2Y² = 1 − 17X⁴; every twist is obstructed (`NoPoint`).
@@ -9,7 +9,7 @@
 //! * `second_descent/verify_lind_reichardt`: re-checking the `NoPoint`
 //!   evidence of the first case.
 //! * `lifting_pairing/lind_reichardt`: the pairing and its kernel on the
-//!   Selmer group of y² = x³ − 68x (src/selmer/pairing.rs).
+//!   Selmer group of y² = x³ − 68x (src/second/pairing.rs).
 //! * `stress/k_prime/k`: the whole descent under the defaults on
 //!   y² = x(x − n)(x − 2n), n the product of the first k odd primes,
 //!   k = 8 … 30 (target: each under 2 s, docs/performance.md).
@@ -20,10 +20,10 @@
 use criterion::{criterion_group, criterion_main, Criterion};
 use isodescent::curve::{Curve, Point};
 use isodescent::descent::{descend, descend_isogeny, DescentOptions};
-use isodescent::quartic::{
+use isodescent::second::lift_pairing;
+use isodescent::second::{
     second_descent, verify_obstruction, SecondDescentOptions, SecondDescentOutcome,
 };
-use isodescent::selmer::lift_pairing;
 use isodescent::Budget;
 use num_bigint::BigInt;
 
@@ -68,8 +68,7 @@ fn bench(c: &mut Criterion) {
     g.bench_function("lind_reichardt", |bch| {
         bch.iter(|| {
             lift_pairing(
-                side.a(),
-                side.b(),
+                side.model(),
                 side.qs2(),
                 side.group(),
                 side.known(),

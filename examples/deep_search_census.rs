@@ -34,15 +34,57 @@ fn squarefree(n: i64) -> bool {
 /// Work units of saturation per curve.
 const SATURATION_UNITS: u64 = 2_000_000_000;
 
-fn main() {
-    let args: Vec<u64> = std::env::args()
-        .skip(1)
-        .map(|a| a.parse().expect("arguments are integers"))
-        .collect();
-    let from = *args.first().unwrap_or(&1) as i64;
-    let to = *args.get(1).unwrap_or(&1000) as i64;
-    let height = *args.get(2).unwrap_or(&4096);
-    let deep_units = args.get(3).unwrap_or(&400).saturating_mul(1_000_000);
+const USAGE: &str = "usage: deep_search_census [FROM] [TO] [MAX_COVERING_HEIGHT] [DEEP_MEGA_UNITS]
+  census of the deep point search on y^2 = x^3 - n^2 x, n square-free, FROM <= n <= TO
+  defaults: 1 1000 4096 400; 1 <= FROM <= TO <= 10^9, 1 <= MAX_COVERING_HEIGHT <= 10^6,
+  DEEP_MEGA_UNITS >= 1 (the deep search's budget per curve, in 10^6 work units)";
+
+/// The four numbers, or a message saying what is wrong.
+fn parse_args(args: &[String]) -> Result<(i64, i64, u64, u64), String> {
+    if args.len() > 4 {
+        return Err(format!("at most 4 arguments, got {}", args.len()));
+    }
+    let mut v = [1u64, 1000, 4096, 400];
+    let names = ["FROM", "TO", "MAX_COVERING_HEIGHT", "DEEP_MEGA_UNITS"];
+    for (i, a) in args.iter().enumerate() {
+        v[i] = a
+            .parse()
+            .map_err(|_| format!("{} must be a positive integer, got {a:?}", names[i]))?;
+    }
+    let [from, to, height, mega] = v;
+    if from < 1 || to < from || to > 1_000_000_000 {
+        return Err(format!("need 1 <= FROM <= TO <= 10^9, got {from} and {to}"));
+    }
+    if !(1..=1_000_000).contains(&height) {
+        return Err(format!(
+            "MAX_COVERING_HEIGHT must lie in 1..=10^6, got {height}"
+        ));
+    }
+    if mega < 1 {
+        return Err("DEEP_MEGA_UNITS must be at least 1".into());
+    }
+    // from, to <= 10^9 fit in i64, and n^2 <= 10^18 does too.
+    Ok((
+        from as i64,
+        to as i64,
+        height,
+        mega.saturating_mul(1_000_000),
+    ))
+}
+
+fn main() -> std::process::ExitCode {
+    let argv: Vec<String> = std::env::args().skip(1).collect();
+    if argv.iter().any(|a| a == "-h" || a == "--help") {
+        println!("{USAGE}");
+        return std::process::ExitCode::SUCCESS;
+    }
+    let (from, to, height, deep_units) = match parse_args(&argv) {
+        Ok(v) => v,
+        Err(msg) => {
+            eprintln!("deep_search_census: {msg}\n{USAGE}");
+            return std::process::ExitCode::from(2);
+        }
+    };
     let deep_options = DeepSearchOptions::default().with_max_covering_height(height);
 
     let (mut positive, mut full_rank, mut generated) = (0usize, 0usize, 0usize);
@@ -73,8 +115,9 @@ fn main() {
         } else {
             let t = Instant::now();
             let mut b = Budget::unlimited();
-            let r = analyse(&e, report.local_data(), &AnalyticOptions::default(), &mut b)
-                .ok()
+            let r = report
+                .tate_data()
+                .and_then(|l| analyse(&e, l, &AnalyticOptions::default(), &mut b).ok())
                 .and_then(|d| d.rank_proven())
                 .map(|(r, _)| r);
             t_analytic += t.elapsed();
@@ -88,7 +131,7 @@ fn main() {
             continue;
         }
         positive += 1;
-        let mut points = report.points().to_vec();
+        let mut points = report.descent_points().to_vec();
         if points.len() < rank {
             needed_deep += 1;
             let t = Instant::now();
@@ -161,4 +204,5 @@ fn main() {
         t_deep.as_secs_f64(),
         t_sat.as_secs_f64()
     );
+    std::process::ExitCode::SUCCESS
 }

@@ -20,15 +20,18 @@
 //! In `--json` mode input is read as bytes, line by line: blank lines
 //! (Unicode white space only, including U+2028/U+2029) and lines starting
 //! with `#` are skipped; a bad line, including one that is not valid UTF-8,
-//! gets an object with its `error` and the batch goes on. The exit status
-//! is non-zero only for usage or I/O errors.
+//! gets an object with its `error` and the batch goes on. Exit status: 0
+//! on success (also for `--json` batches with error lines, and for the
+//! demo, one of whose curves is an error on purpose); 1 when the curve
+//! given as an argument does not parse or its descent fails, or on an I/O
+//! error; 2 on a usage error. `-h`/`--help` prints this help.
 
-use std::io::{self, BufRead, Write};
+use std::io::{self, BufRead, Read, Write};
 use std::process::ExitCode;
 
 use isodescent::curve::Curve;
 use isodescent::descent::{descend, DescentOptions};
-use isodescent::output::{json_for_bytes, Detail};
+use isodescent::output::{error_line, json_for_bytes, Detail, MAX_ECHOED_INPUT_BYTES};
 
 /// Demo scenario: a handful of curves a researcher might be checking while
 /// studying y² = x³ + a x² + b x with small coefficients, given in assorted
@@ -51,7 +54,7 @@ const DEMO: &[(&str, &str)] = &[
     ("y^2 = x^3 - 1154x", "a curve of higher rank"),
     (
         "y^2 = x^3 - 30x^2 - 8x",
-        "the bounds stay apart: reported honestly as an interval",
+        "the descent leaves [0, 2]; the analytic side proves rank 0 and names the theorem",
     ),
     (
         "0 1 1 -2 0",
@@ -59,12 +62,13 @@ const DEMO: &[(&str, &str)] = &[
     ),
 ];
 
-const USAGE: &str = "usage: descend [--json | \"EQUATION\" | \"A1 A2 A3 A4 A6\"] [--space-height H] [--covering-height H] [--skip-coverings] [--search-work N] [--local-work N] [--factor-work N] [--seconds S] [--all-evidence]";
+const USAGE: &str = "usage: descend [-h | --help] [--json | \"EQUATION\" | \"A1 A2 A3 A4 A6\"] [--space-height H] [--covering-height H] [--skip-coverings] [--search-work N] [--local-work N] [--factor-work N] [--seconds S] [--all-evidence]";
 
 enum Mode {
     Demo,
     One(String),
     Json,
+    Help,
 }
 
 fn parse_args() -> Result<(Mode, DescentOptions, Detail), String> {
@@ -96,7 +100,7 @@ fn parse_args() -> Result<(Mode, DescentOptions, Detail), String> {
                     .ok_or(format!("--seconds needs a positive number, got {v:?}"))?;
                 options.time_limit = Some(std::time::Duration::from_secs_f64(secs));
             }
-            "-h" | "--help" => return Err(String::new()),
+            "-h" | "--help" => return Ok((Mode::Help, options, detail)),
             s if s.starts_with("--") => return Err(format!("unknown option {s}")),
             s => {
                 if matches!(mode, Mode::One(_)) {
@@ -112,42 +116,88 @@ fn parse_args() -> Result<(Mode, DescentOptions, Detail), String> {
     Ok((mode, options, detail))
 }
 
+/// Writes the report of one curve; `Ok(false)` when the curve did not
+/// parse or its descent failed (the error is written instead).
 fn report_one(
     text: &str,
     options: &DescentOptions,
     detail: Detail,
     out: &mut impl Write,
-) -> io::Result<()> {
+) -> io::Result<bool> {
     match text.parse::<Curve>() {
-        Err(e) => writeln!(out, "{text}: {e}"),
+        Err(e) => writeln!(out, "{text}: {e}").map(|()| false),
         Ok(curve) => match descend(&curve, options) {
-            Ok(r) => writeln!(out, "{}", r.text(detail)),
-            Err(e) => writeln!(out, "{text}: {e}"),
+            Ok(r) => writeln!(out, "{}", r.text(detail)).map(|()| true),
+            Err(e) => writeln!(out, "{text}: {e}").map(|()| false),
         },
     }
 }
 
-fn run(mode: Mode, options: &DescentOptions, detail: Detail) -> io::Result<()> {
+const HELP: &str = "descend: 2-isogeny descent on elliptic curves over Q
+
+  descend                          descent on the built-in demo curves, readable reports
+  descend \"y^2 = x^3 - 30x^2 + 3x\" readable report for one curve
+  descend \"0 0 0 -36 0\"            the same with the five coefficients a1 a2 a3 a4 a6
+  descend --json                   one curve per stdin line -> one JSON object per line
+
+options (before or after the curve):
+  --space-height H     search height on each homogeneous space   (default 128)
+  --covering-height H  search height on the 4-coverings          (default 64)
+  --skip-coverings     no 4-coverings (first descent and search only)
+  --search-work N      work units per homogeneous-space search
+  --local-work N       work units for the local tests of one side
+  --factor-work N      work units for factoring per isogeny
+  --seconds S          wall-clock limit per curve (results then depend on timing)
+  --all-evidence       every local image, space searched and 4-covering, in text and JSON
+  -h, --help           this help
+
+Exit status: 0 on success (a --json batch with error lines included), 1 when
+the curve given as an argument fails or on an I/O error, 2 on a usage error.
+JSON lines follow docs/report.schema.json (format 3, docs/report_format.md).";
+
+/// Runs `mode`; `Ok(false)` when the one curve given failed.
+fn run(mode: Mode, options: &DescentOptions, detail: Detail) -> io::Result<bool> {
     let stdout = io::stdout();
     let mut out = stdout.lock();
+    let mut ok = true;
     match mode {
+        Mode::Help => writeln!(out, "{HELP}")?,
         Mode::Demo => {
             for (curve, note) in DEMO {
                 writeln!(out, "── {note}")?;
                 report_one(curve, options, detail, &mut out)?;
             }
         }
-        Mode::One(text) => report_one(&text, options, detail, &mut out)?,
+        Mode::One(text) => ok = report_one(&text, options, detail, &mut out)?,
         Mode::Json => {
             // Caught panics are reported in the JSON; keep stderr quiet.
             std::panic::set_hook(Box::new(|_| {}));
             let stdin = io::stdin();
             let mut input = stdin.lock();
             let mut line = Vec::new();
+            // A line longer than any curve text is not kept in memory: its
+            // first bytes and its length are enough for the error object.
+            let cap = MAX_ECHOED_INPUT_BYTES + 2;
             loop {
                 line.clear();
-                if input.read_until(b'\n', &mut line)? == 0 {
+                if input
+                    .by_ref()
+                    .take(cap as u64)
+                    .read_until(b'\n', &mut line)?
+                    == 0
+                {
                     break;
+                }
+                if line.len() == cap && line.last() != Some(&b'\n') {
+                    let total = line.len() + skip_line(&mut input)?;
+                    let head = String::from_utf8_lossy(&line[..256]);
+                    let echo = format!("{head}… ({total} bytes in all)");
+                    let msg = format!(
+                        "line of {total} bytes; at most {MAX_ECHOED_INPUT_BYTES} are accepted"
+                    );
+                    writeln!(out, "{}", error_line(&echo, &msg))?;
+                    out.flush()?;
+                    continue;
                 }
                 if let Some(json) = json_for_bytes(&line, options, detail) {
                     writeln!(out, "{json}")?;
@@ -156,7 +206,31 @@ fn run(mode: Mode, options: &DescentOptions, detail: Detail) -> io::Result<()> {
             }
         }
     }
-    out.flush()
+    out.flush()?;
+    Ok(ok)
+}
+
+/// Consumes the rest of the current line (through its newline, if any)
+/// without keeping it; returns the number of bytes consumed.
+fn skip_line(input: &mut impl BufRead) -> io::Result<usize> {
+    let mut total = 0;
+    loop {
+        let buf = input.fill_buf()?;
+        if buf.is_empty() {
+            return Ok(total);
+        }
+        match buf.iter().position(|&b| b == b'\n') {
+            Some(i) => {
+                input.consume(i + 1);
+                return Ok(total + i + 1);
+            }
+            None => {
+                let n = buf.len();
+                input.consume(n);
+                total += n;
+            }
+        }
+    }
 }
 
 fn main() -> ExitCode {
@@ -171,7 +245,8 @@ fn main() -> ExitCode {
         }
     };
     match run(mode, &options, detail) {
-        Ok(()) => ExitCode::SUCCESS,
+        Ok(true) => ExitCode::SUCCESS,
+        Ok(false) => ExitCode::from(1),
         Err(e) if e.kind() == io::ErrorKind::BrokenPipe => ExitCode::SUCCESS,
         Err(e) => {
             eprintln!("descend: I/O error: {e}");

@@ -13,8 +13,14 @@ use isodescent::descent::PointOrigin;
 use isodescent::{descend, DescentOptions};
 
 fn main() {
-    let args: Vec<u64> = std::env::args().skip(1).filter_map(|a| a.parse().ok()).collect();
-    let (from, to) = (args.first().copied().unwrap_or(7), args.get(1).copied().unwrap_or(1000));
+    let args: Vec<u64> = std::env::args()
+        .skip(1)
+        .filter_map(|a| a.parse().ok())
+        .collect();
+    let (from, to) = (
+        args.first().copied().unwrap_or(7),
+        args.get(1).copied().unwrap_or(1000),
+    );
     let (mut curves, mut no_point, mut proven, mut other) = (0, 0, 0, 0);
     let mut costs = Vec::new();
     for n in from..=to {
@@ -27,21 +33,29 @@ fn main() {
         let mut off = DescentOptions::default();
         off.heegner = None;
         let t0 = Instant::now();
-        let Ok(before) = descend(&e, &off) else { continue };
+        let Ok(before) = descend(&e, &off) else {
+            continue;
+        };
         let t_off = t0.elapsed().as_secs_f64();
         if !(before.is_decided() && before.rank_lower() == 1 && before.points().is_empty()) {
             continue;
         }
         no_point += 1;
         let t1 = Instant::now();
-        let Ok(after) = descend(&e, &DescentOptions::default()) else { continue };
+        let Ok(after) = descend(&e, &DescentOptions::default()) else {
+            continue;
+        };
         let t_on = t1.elapsed().as_secs_f64();
         costs.push(t_on);
         if matches!(after.points_origin(), PointOrigin::Heegner(_)) && after.points_generate() {
             proven += 1;
         } else {
             other += 1;
-            println!("n = {n}: {:?} completion {:?}", after.heegner(), after.completion());
+            println!(
+                "n = {n}: {:?} completion {:?}",
+                after.heegner(),
+                after.completion()
+            );
         }
         let _ = t_off;
     }

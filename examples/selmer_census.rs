@@ -68,7 +68,7 @@ fn one(m: &[i64; 5], opts: &DescentOptions) -> Tally {
             t.decided = u64::from(r.is_decided());
             if r.is_decided() && r.rank_lower() > 0 {
                 t.positive = 1;
-                t.with_points = u64::from(r.returned_points().len() == r.rank_lower());
+                t.with_points = u64::from(r.points().len() == r.rank_lower());
                 t.generated = u64::from(r.points_generate());
             }
         }
@@ -94,15 +94,25 @@ fn tally(members: &[[i64; 5]], opts: &DescentOptions) -> Tally {
         .fold(Tally::default(), |t, m| t.add(one(m, opts)))
 }
 
+const USAGE: &str =
+    "usage: selmer_census N|box:B [local-only|isogeny-selmer|first|descent|analytic|points|full]
+  N: the congruent-number curves y^2 = x^3 - n^2 x, n square-free, n <= N (1 <= N <= 10^6)
+  box:B: y^2 = x^3 + ax^2 + bx, |a|, |b| <= B (1 <= B <= 1000)
+  the second argument chooses how much of the descent runs (default local-only)";
+
 fn main() -> ExitCode {
+    if std::env::args().any(|a| a == "-h" || a == "--help") {
+        println!("{USAGE}");
+        return ExitCode::SUCCESS;
+    }
     let mut args = std::env::args().skip(1);
     let family = args.next().unwrap_or_default();
     let (boxed, n_max) = match family.strip_prefix("box:") {
-        Some(b) => (true, b.parse::<i64>().ok()),
+        Some(b) => (true, b.parse::<i64>().ok().filter(|&b| b <= 1000)),
         None => (false, family.parse::<i64>().ok()),
     };
     let Some(n_max) = n_max.filter(|&n| (1..=1_000_000).contains(&n)) else {
-        eprintln!("usage: selmer_census N|box:B [local-only|isogeny-selmer|first|descent|analytic|points|full]");
+        eprintln!("{USAGE}");
         return ExitCode::from(2);
     };
     let members: Vec<[i64; 5]> = if boxed {

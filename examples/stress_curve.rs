@@ -18,6 +18,16 @@ use isodescent::descent::{descend, DescentOptions};
 use num_bigint::BigInt;
 
 fn main() -> ExitCode {
+    if std::env::args().any(|a| a == "-h" || a == "--help") {
+        println!(
+            "usage: stress_curve < FILE\n  one curve per stdin line as five integers a1 a2 a3 a4 a6;\n  prints the rank bounds, the 2-Selmer rank and the wall time of each\n  (exit status 1 if a line is bad or a descent fails)"
+        );
+        return ExitCode::SUCCESS;
+    }
+    if std::env::args().len() > 1 {
+        eprintln!("stress_curve takes no arguments (curves come on stdin); see --help");
+        return ExitCode::from(2);
+    }
     let stdin = io::stdin();
     let mut status = ExitCode::SUCCESS;
     for line in stdin.lock().lines() {

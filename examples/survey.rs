@@ -41,10 +41,17 @@ const USAGE: &str = "usage:
   survey scan  FAMILY --out FILE [--shard k/N] [--threads T] [--height H] [--svg FILE] [--quiet]
   survey merge FAMILY --out FILE [--svg FILE] SHARD-FILE...
   survey count FAMILY [--shard k/N]
+  survey help | --help | -h
 FAMILY:
   --family congruent --from N1 --to N2
   --family twists --curve \"a1 a2 a3 a4 a6\" --from D1 --to D2
-  --family box --bound B";
+  --family box --bound B
+Resume: running the same scan again on an existing --out file goes on where
+it stopped (a partial last line is cut away first; a file of another shard
+or family is left alone). Shards: --shard k/N takes the members with index
+= k - 1 (mod N); scan each shard into its own file, then merge them with
+survey merge (exit status 1 unless every member is present exactly once).
+See docs/families.md.";
 
 #[derive(Default)]
 struct Args {
@@ -409,6 +416,12 @@ fn main() -> ExitCode {
         eprintln!("{USAGE}");
         return ExitCode::from(2);
     };
+    if matches!(cmd.as_str(), "help" | "--help" | "-h")
+        || rest.iter().any(|a| a == "--help" || a == "-h")
+    {
+        println!("{USAGE}");
+        return ExitCode::SUCCESS;
+    }
     let run = || -> Res<()> {
         let a = parse_args(rest)?;
         match cmd.as_str() {

@@ -8,6 +8,11 @@
 //! same budget always stop at the same place: results are reproducible.
 //! An optional wall-clock deadline can be added on top; a run that hits the
 //! deadline is, by nature, not reproducible.
+//!
+//! ---
+//!
+//! The guide below is `docs/robustness.md`, included verbatim.
+#![doc = include_str!("../docs/robustness.md")]
 
 use std::time::Instant;
 
@@ -23,6 +28,8 @@ pub struct Budget {
     deadline: Option<Instant>,
     /// Deadline checks are done only every `DEADLINE_STRIDE` units.
     next_clock_check: u64,
+    /// Set once a charge or a clock check failed (units or deadline).
+    tripped: bool,
 }
 
 /// Units between two reads of the clock when a deadline is set.
@@ -42,6 +49,7 @@ impl Budget {
             spent: 0,
             deadline: None,
             next_clock_check: DEADLINE_STRIDE,
+            tripped: false,
         }
     }
 
@@ -69,9 +77,31 @@ impl Budget {
         self.limit.map(|l| l.saturating_sub(self.spent))
     }
 
-    /// True once the budget has run out.
+    /// True once the budget has run out: its units are spent, or a charge
+    /// or a clock check found the deadline passed.
     pub fn is_exhausted(&self) -> bool {
-        matches!(self.limit, Some(l) if self.spent > l)
+        self.tripped || matches!(self.limit, Some(l) if self.spent > l)
+    }
+
+    /// The deadline, if any.
+    pub fn deadline(&self) -> Option<Instant> {
+        self.deadline
+    }
+
+    /// Reads the clock now (not only every few thousand units) and fails
+    /// if the deadline has passed; for steps whose single units are slow
+    /// (big-number arithmetic on huge models).
+    pub fn check_deadline(&mut self) -> Result<(), Exhausted> {
+        if let Some(d) = self.deadline {
+            if Instant::now() >= d {
+                self.tripped = true;
+                return Err(Exhausted);
+            }
+        }
+        if self.is_exhausted() {
+            return Err(Exhausted);
+        }
+        Ok(())
     }
 
     /// Charges `units`; fails once the total exceeds the limit or the
@@ -80,6 +110,7 @@ impl Budget {
         self.spent = self.spent.saturating_add(units);
         if let Some(l) = self.limit {
             if self.spent > l {
+                self.tripped = true;
                 return Err(Exhausted);
             }
         }
@@ -87,6 +118,7 @@ impl Budget {
             if self.spent >= self.next_clock_check {
                 self.next_clock_check = self.spent.saturating_add(DEADLINE_STRIDE);
                 if Instant::now() >= d {
+                    self.tripped = true;
                     return Err(Exhausted);
                 }
             }
@@ -120,5 +152,17 @@ mod tests {
     fn a_past_deadline_stops_the_work() {
         let mut b = Budget::unlimited().with_deadline(Instant::now());
         assert_eq!(b.spend(DEADLINE_STRIDE), Err(Exhausted));
+        // and the budget remembers it (common practice)
+        assert!(b.is_exhausted());
+    }
+
+    #[test]
+    fn a_clock_check_reads_the_clock_at_once() {
+        let mut b = Budget::unlimited().with_deadline(Instant::now());
+        assert!(!b.is_exhausted());
+        assert_eq!(b.check_deadline(), Err(Exhausted));
+        assert!(b.is_exhausted());
+        let mut free = Budget::with_units(5);
+        assert_eq!(free.check_deadline(), Ok(()));
     }
 }

@@ -55,6 +55,13 @@ pub enum Error {
     /// 2-isogeny does not apply.
     #[error("the curve has no rational point of order 2")]
     NoTwoTorsion,
+    /// No rational isogeny that this crate's descents handle: descent via
+    /// 3-isogeny needs j = 0 and a kernel defined over Q or Q(√−3).
+    #[error("no supported isogeny: {reason}")]
+    NoSupportedIsogeny {
+        /// What the curve lacks.
+        reason: String,
+    },
     /// A point passed in does not lie on the curve it was given with.
     #[error("point {point} is not on the curve {curve}")]
     PointNotOnCurve {

@@ -6,7 +6,35 @@
 //! certified lower and upper bounds for the rank, with evidence a reader can
 //! re-check.
 //!
-//! The modules are layers; each uses only the ones above it in this list.
+//! # Layers
+//!
+//! The modules are layers, lowest first; each uses only the ones in the
+//! rows above its own (rustdoc lists the modules alphabetically below,
+//! this table is the order that matters).
+//!
+//! | layer | module | holds |
+//! |---|---|---|
+//! | — | [`error`], [`budget`] | the one error enum; deterministic effort budgets |
+//! | 1 | [`arith`] | primality, factoring, square-free parts, integer roots, certified reals |
+//! | 2 | [`local`] | places, valuations, symbols, modular square roots, square classes, Hilbert symbols |
+//! | 3 | [`curve`] | Weierstrass models, points, 2-torsion, the checked `ReducedModel`, 2-isogenies, torsion, Tate's algorithm |
+//! | 3a | [`analytic`] | a_p and a_n, root number, real period, certified L-values, the BSD ledger |
+//! | 3b | [`height`] | canonical heights, the height pairing, regulators, LLL, lower bounds, saturation |
+//! | 4 | [`conic`] | Legendre's equation, zeros and parametrisations of conics |
+//! | 5 | [`quartic`] | binary quartics, local solubility at every place, local images, point search |
+//! | 6 | [`selmer`] | F2 linear algebra, Q(S,2), Selmer groups from local images, local-image sizes |
+//! | 7 | [`second`] | the second descent: lifting pairing, class lifts, 4-coverings, twist obstructions |
+//! | 8 | [`descent`] | both sides of each 2-isogeny, rank bounds, the typed report, its verification |
+//! | 9 | [`output`] | reports as text and JSON, input lines as curves, batches |
+//! | 10 | [`family`] | twists, congruent numbers, boxes; ordered, parallel, sharded scans |
+//!
+//! Layers 3a and 3b sit side by side: neither uses the other. The guides
+//! in `docs/` are included in, or cited from, the rustdoc of the module
+//! they explain; docs/references.md lists the literature cited as
+//! `[Author00]`, and docs/performance.md the measured figures with the
+//! commands that produced them.
+//!
+//! # Example
 //!
 //! ```
 //! use isodescent::{descend, Curve, DescentOptions};
@@ -53,24 +81,35 @@ pub mod heegner;
 // Layer 4: rational conics — Legendre's equation, parametrisation.
 pub mod conic;
 
-// Layer 5: quartic homogeneous spaces — local solvability, point search, 4-coverings.
+// Layer 4b: plane cubics F(u, v) = c·w³ over Q_p, Eisenstein integers.
+pub mod cubic;
+
+// Layer 5: quartic homogeneous spaces — local solvability, local images, point search.
 pub mod quartic;
 
 // Layer 6: F2 vector spaces, Q(S,2), Selmer groups, local-image counts.
 pub mod selmer;
 
-// Layer 7: the descent — both sides of each 2-isogeny, rank bounds, reports.
+// Layer 7: the second descent — 4-coverings, the lifting pairing, twist obstructions.
+pub mod second;
+
+// Layer 8: the descent — both sides of each 2-isogeny, rank bounds, reports.
 pub mod descent;
 
-// Layer 8: the edge — reports as text and JSON, input lines as curves.
+// Layer 8b: descent via 3-isogeny on y^2 = x^3 + k (Selmer groups over F3, rank bounds).
+pub mod descent3;
+
+// Layer 9: the edge — reports as text and JSON, input lines as curves.
 pub mod output;
 
-// Layer 9: families of curves — twists, congruent numbers, boxes; streaming, parallel, sharded scans.
+// Layer 10: families of curves — twists, congruent numbers, boxes; streaming, parallel, sharded scans.
 pub mod family;
 
 pub use budget::Budget;
 pub use curve::{Curve, Point};
-pub use descent::{descend, Completion, DescentOptions, DescentReport, RankBounds, RankProof};
+pub use descent::{
+    descend, Completion, DescentOptions, DescentReport, Generators, RankBounds, RankProof,
+};
 pub use error::{Error, Result};
 pub use local::{Place, Prime};
 pub use output::Detail;

@@ -1,7 +1,7 @@
 //! The coefficients a_p of the L-series against independent counts and
 //! known identities.
 
-use isodescent::analytic::{an_list, ap, ApTable};
+use isodescent::analytic::{dirichlet_coefficients, frobenius_trace, ApTable};
 use isodescent::curve::GlobalLocalData;
 use isodescent::curve::{Curve, TwoIsogeny};
 use isodescent::{Budget, Error};
@@ -12,7 +12,7 @@ use num_traits::ToPrimitive;
 fn local(a: [i64; 5]) -> GlobalLocalData {
     Curve::from_ints(a)
         .unwrap()
-        .local_data(&mut Budget::unlimited())
+        .tate_data(&mut Budget::unlimited())
         .unwrap()
 }
 
@@ -95,7 +95,7 @@ fn a_p_equals_point_counts_for_every_prime_below_2000() {
         let t = ApTable::new(&l);
         for &p in &ps {
             assert_eq!(
-                t.ap(p).unwrap(),
+                t.frobenius_trace(p).unwrap(),
                 brute_ap(&l.minimal_model, p),
                 "curve {a:?}, p = {p}"
             );
@@ -115,7 +115,7 @@ fn a_p_satisfies_the_hasse_bound() {
     ] {
         let t = ApTable::new(&local(a));
         for &p in &ps {
-            let v = t.ap(p).unwrap();
+            let v = t.frobenius_trace(p).unwrap();
             assert!(v * v <= 4 * p as i64, "curve {a:?}, p = {p}, a_p = {v}");
         }
     }
@@ -129,15 +129,19 @@ fn two_isogenous_curves_have_the_same_a_p() {
     let ps = primes_below(30_000);
     for (a, b) in [(0i64, -1i64), (1, 3), (-3, 5), (7, -11), (2, -48), (0, -36)] {
         let iso = TwoIsogeny::new(a.into(), b.into()).unwrap();
-        let l1 = iso.domain().local_data(&mut Budget::unlimited()).unwrap();
-        let l2 = iso.codomain().local_data(&mut Budget::unlimited()).unwrap();
+        let l1 = iso.domain().tate_data(&mut Budget::unlimited()).unwrap();
+        let l2 = iso.codomain().tate_data(&mut Budget::unlimited()).unwrap();
         assert_eq!(
             l1.conductor, l2.conductor,
             "conductors differ for ({a}, {b})"
         );
         let (t1, t2) = (ApTable::new(&l1), ApTable::new(&l2));
         for &p in &ps {
-            assert_eq!(t1.ap(p).unwrap(), t2.ap(p).unwrap(), "({a}, {b}), p = {p}");
+            assert_eq!(
+                t1.frobenius_trace(p).unwrap(),
+                t2.frobenius_trace(p).unwrap(),
+                "({a}, {b}), p = {p}"
+            );
         }
     }
 }
@@ -159,8 +163,8 @@ fn quadratic_twists_multiply_a_p_by_the_character() {
                 }
                 let chi = jacobi(d, p);
                 assert_eq!(
-                    tw.ap(p).unwrap(),
-                    chi * base.ap(p).unwrap(),
+                    tw.frobenius_trace(p).unwrap(),
+                    chi * base.frobenius_trace(p).unwrap(),
                     "({a}, {b}) by {d}, p = {p}"
                 );
             }
@@ -196,9 +200,9 @@ fn a_n_is_multiplicative_with_the_hecke_relation_at_prime_powers() {
     // a_p² at bad p (Silverman, AEC, C.16; Cremona, Algorithms, §2.8).
     // Checked against the values of a_p computed one prime at a time.
     let l = local([0, 0, 1, -1, 0]); // conductor 37
-    let an = an_list(&l, 5000, &mut Budget::unlimited()).unwrap();
+    let an = dirichlet_coefficients(&l, 5000, &mut Budget::unlimited()).unwrap();
     for p in [2u64, 3, 5, 7, 37, 41, 67] {
-        let v = ap(&l, p).unwrap();
+        let v = frobenius_trace(&l, p).unwrap();
         assert_eq!(an[p as usize], v);
         let eps = if p == 37 { 0 } else { p as i64 };
         assert_eq!(an[(p * p) as usize], v * v - eps, "p = {p}");
@@ -211,22 +215,28 @@ fn a_n_is_multiplicative_with_the_hecke_relation_at_prime_powers() {
 #[test]
 fn bad_input_is_a_typed_error() {
     let l = local([0, 0, 1, -1, 0]);
-    assert!(matches!(ap(&l, 91), Err(Error::NotPrime { .. })));
-    assert!(matches!(ap(&l, 1), Err(Error::NotPrime { .. })));
     assert!(matches!(
-        ApTable::new(&l).ap(1 << 62),
+        frobenius_trace(&l, 91),
+        Err(Error::NotPrime { .. })
+    ));
+    assert!(matches!(
+        frobenius_trace(&l, 1),
+        Err(Error::NotPrime { .. })
+    ));
+    assert!(matches!(
+        ApTable::new(&l).frobenius_trace(1 << 62),
         Err(Error::InvalidArgument { .. })
     ));
     // A prime above 2^32 (2^61 − 1, a Mersenne prime; common practice):
     // a value within the Hasse bound comes back, promptly.
-    let v = ApTable::new(&l).ap((1 << 61) - 1).unwrap();
+    let v = ApTable::new(&l).frobenius_trace((1 << 61) - 1).unwrap();
     assert!((v as f64).abs() <= 2.0 * 2f64.powf(30.5) + 1.0);
     assert!(matches!(
-        an_list(&l, 1 << 40, &mut Budget::unlimited()),
+        dirichlet_coefficients(&l, 1 << 40, &mut Budget::unlimited()),
         Err(Error::InvalidArgument { .. })
     ));
     assert!(matches!(
-        an_list(&l, 100_000, &mut Budget::with_units(1000)),
+        dirichlet_coefficients(&l, 100_000, &mut Budget::with_units(1000)),
         Err(Error::BudgetExhausted { .. })
     ));
 }
@@ -254,7 +264,7 @@ fn cm_curves() -> Vec<[i64; 5]> {
             v.push([0, 0, 0, 0, b]); // j = 0
         }
     }
-    // j = 0 and j = 1728 in models with a1 or a3 ≠ 0: y² + y = x³ (27a),
+    // j = 0 and j = 1728 in models with a1 or a3 ≠ 0: y² + y = x³,
     // y² + y = x³ − 7, y² = x³ + x² + … reached by x ↦ x + r from the short
     // models (c4, c6 unchanged).
     v.push([0, 0, 1, 0, 0]);
@@ -287,7 +297,7 @@ fn closed_forms_for_j_0_and_j_1728_equal_point_counts() {
         let t = ApTable::new(&l);
         for &p in &ps {
             let want = brute_ap(&l.minimal_model, p);
-            assert_eq!(t.ap(p).unwrap(), want, "curve {a:?}, p = {p}");
+            assert_eq!(t.frobenius_trace(p).unwrap(), want, "curve {a:?}, p = {p}");
             pairs += 1;
             if p % 4 == 1 && want != 0 {
                 nonzero_1728 += 1;
@@ -316,7 +326,7 @@ fn closed_form_for_j_1728_equals_point_counts_at_larger_primes() {
         let t = ApTable::new(&l);
         for &p in &ps {
             assert_eq!(
-                t.ap(p).unwrap(),
+                t.frobenius_trace(p).unwrap(),
                 brute_ap(&l.minimal_model, p),
                 "{a:?}, p = {p}"
             );

@@ -6,7 +6,7 @@
 mod common;
 
 use isodescent::analytic::{analyse, sha_analytic, AnalyticData, AnalyticOptions};
-use isodescent::curve::{torsion_subgroup, Curve};
+use isodescent::curve::{torsion, Curve};
 use isodescent::descent::{descend, DescentOptions};
 use isodescent::Budget;
 use num_bigint::BigInt;
@@ -16,7 +16,7 @@ fn analysed(
     options: &AnalyticOptions,
 ) -> (AnalyticData, isodescent::curve::GlobalLocalData) {
     let mut b = Budget::unlimited();
-    let l = e.local_data(&mut b).unwrap();
+    let l = e.tate_data(&mut b).unwrap();
     let d = analyse(e, &l, options, &mut b).unwrap();
     // Functional equation: w decided, Λ(1) independent of the splitting
     // parameter (Cremona, Algorithms for Modular Elliptic Curves, §2.11),
@@ -87,7 +87,7 @@ fn rank_zero_ledgers_of_the_box_are_squares() {
             Some(0) => {
                 rank0 += 1;
                 let cp: BigInt = l.primes.iter().map(|p| BigInt::from(p.tamagawa)).product();
-                let s = sha_analytic(&d, 0, torsion_subgroup(&e).order(), &cp, None).unwrap();
+                let s = sha_analytic(&d, 0, torsion(&e).order(), &cp, None).unwrap();
                 assert!(s.is_square_within_error, "({a}, {b}): {}", s.value);
                 let dev = s.deviation().unwrap();
                 if dev > worst {

@@ -1,7 +1,7 @@
 //! Curves layer: property tests (proptest) of the group law, changes of
 //! model, the 2-isogeny and its dual, the parser, and Mazur's theorem.
 
-use isodescent::curve::{torsion_subgroup, Curve, ModelChange, Point, TwoIsogeny};
+use isodescent::curve::{torsion, Curve, ModelChange, Point, TwoIsogeny};
 use num_bigint::BigInt;
 use num_rational::BigRational;
 use proptest::prelude::*;
@@ -118,7 +118,7 @@ proptest! {
     ) {
         // Mazur, Modular curves and the Eisenstein ideal, Publ. IHES 47 (1977).
         let Ok(e) = Curve::from_ints([a1, a2, a3, a4, a6]) else { return Ok(()) };
-        let g = torsion_subgroup(&e);
+        let g = torsion(&e);
         prop_assert!(g.is_in_mazur_list(), "{}: {:?}", e, g.structure());
         prop_assert_eq!(g.points().len() as u32, g.order());
         for p in g.points() {

@@ -27,7 +27,7 @@ fn premise(e: &Curve, r: &DescentReport) {
     assert!(r.rank_upper() >= 1);
     let d = analyse(
         e,
-        r.local_data(),
+        r.tate_data().expect("local data under the default options"),
         &AnalyticOptions::default(),
         &mut Budget::unlimited(),
     )

@@ -115,7 +115,7 @@ fn heegner_points_agree_with_the_searched_generators() {
         opts.heegner = None;
         let r = descend(&e, &opts).unwrap();
         assert!(r.points_generate(), "n = {n}");
-        let p = r.returned_points()[0].clone();
+        let p = r.points()[0].clone();
         let HeegnerOutcome::Found(h) = heegner_point(
             &e,
             None,
@@ -126,7 +126,7 @@ fn heegner_points_agree_with_the_searched_generators() {
             panic!("n = {n}");
         };
         let ctx = HeightContext::new(&e, &mut Budget::unlimited()).unwrap();
-        let ratio = ctx.height(&h.trace_point).unwrap().value / ctx.height(&p).unwrap().value;
+        let ratio = ctx.height(&h.trace_point).unwrap().value() / ctx.height(&p).unwrap().value();
         let m = ratio.sqrt().round();
         assert!(
             (ratio - m * m).abs() < 1e-6 * ratio.max(1.0),
@@ -164,7 +164,7 @@ fn the_descent_proves_a_heegner_generator_and_the_ledger_gives_a_square() {
             "n = {n}"
         );
         assert!(r.points_generate(), "n = {n}");
-        assert!(e.contains(&r.returned_points()[0]));
+        assert!(e.contains(&r.points()[0]));
         let l = r.sha_ledger().expect("ledger");
         assert!(
             l.is_square_within_error && l.nearest_square.is_some(),

@@ -34,7 +34,7 @@ fn saturation_over_the_box() {
             }
             let e = Curve::from_ints([0, a, 0, b, 0]).unwrap();
             let report = descend(&e, &DescentOptions::default()).unwrap();
-            let r = report.points().len();
+            let r = report.descent_points().len();
             if r == 0 {
                 continue;
             }
@@ -42,7 +42,7 @@ fn saturation_over_the_box() {
             let t = Instant::now();
             let s = saturate(
                 &e,
-                report.points(),
+                report.descent_points(),
                 &SaturationOptions::default(),
                 &mut Budget::unlimited(),
             );

@@ -140,6 +140,20 @@ fn every_batch_line_validates_in_both_details() {
     }
 }
 
+/// A twist with no quartic model is printed as its conic with the Hilbert
+/// symbol pair, and that variant validates too (y² = x³ − 289x has such
+/// twists; the curve of issue 27's example).
+#[test]
+fn conic_obstructions_validate() {
+    let line = json_for_bytes(b"0 0 0 -289 0", &DescentOptions::default(), Detail::Full).unwrap();
+    assert_valid(&line);
+    assert!(
+        line.contains("\"conic\":[") && line.contains("\"hilbert_symbol\":["),
+        "{line}"
+    );
+    assert!(line.contains("\"quartic\":["), "{line}");
+}
+
 #[test]
 fn full_evidence_carries_the_four_covering_quartics() {
     // y^2 = x^3 - 29x^2 - 30x has classes proven not images (demo data).
@@ -195,35 +209,130 @@ fn family_scan_lines_validate() {
 }
 
 #[test]
-fn the_serde_view_of_a_report_is_the_line_without_input() {
-    let c: Curve = "y^2 = x^3 - 36x".parse().unwrap();
+fn the_serde_view_of_a_report_is_the_line_of_its_equation() {
+    let c: Curve = "0 0 0 -36 0".parse().unwrap();
     let r = descend(&c, &DescentOptions::default()).unwrap();
-    let mut v = serde_json::to_value(&r).unwrap();
-    let mut line: Value = serde_json::from_str(&json_for_line(
-        "y^2 = x^3 - 36x",
-        &DescentOptions::default(),
-    ))
-    .unwrap();
-    v["input"] = Value::Null;
-    line["input"] = Value::Null;
+    let v = serde_json::to_value(&r).unwrap();
+    assert_eq!(v["input"], "y^2 = x^3 - 36x");
+    let mut line: Value =
+        serde_json::from_str(&json_for_line("0 0 0 -36 0", &DescentOptions::default())).unwrap();
+    line["input"] = Value::String("y^2 = x^3 - 36x".into());
     assert_eq!(v, line);
     // the keys test harnesses read
-    for k in [
-        "input",
-        "rank_lower",
-        "rank_upper",
-        "points",
-        "torsion_order",
-        "selmer",
-        "error",
-    ] {
-        assert!(line.get(k).is_some(), "{k}");
+    for k in HARNESS_KEYS {
+        let mut at = &line;
+        for part in k.split('.') {
+            at = at.get(part).unwrap_or_else(|| panic!("{k}"));
+        }
     }
+    assert!(line["points"][0]["height"].is_string(), "{line}");
     assert_eq!(line["rank_lower"], 1);
     assert_eq!(
         line["points"][0]["x"]
             .as_str()
             .map(|s| s.contains('/') || s.parse::<i64>().is_ok()),
         Some(true)
+    );
+}
+
+/// The keys external harnesses read; format 3 keeps them as they were.
+const HARNESS_KEYS: &[&str] = &[
+    "input",
+    "rank_lower",
+    "rank_upper",
+    "points",
+    "error",
+    "status",
+    "stopped",
+    "format_version",
+    "torsion.order",
+    "points_generate",
+    "root_number",
+    "rank_settled_by",
+    "selmer2_rank",
+    "conductor",
+    "reduction",
+    "analytic.conductor",
+    "analytic.real_period",
+    "analytic.real_components",
+    "analytic.l_values",
+    "selmer",
+];
+
+/// Every key path of a JSON value: `a.b` for object keys, `a[]` for array
+/// items; the bad primes keying `reduction` become `<p>`, and the two sides
+/// of an isogeny (`curve`, `isogenous`) share the paths `selmer[].<side>`.
+fn key_paths(v: &Value, at: &str, out: &mut std::collections::BTreeSet<String>) {
+    match v {
+        Value::Object(m) => {
+            for (k, x) in m {
+                let k = if at == "reduction" { "<p>" } else { k.as_str() };
+                let mut p = if at.is_empty() {
+                    k.to_string()
+                } else {
+                    format!("{at}.{k}")
+                };
+                out.insert(p.clone());
+                if p == "selmer[].curve" || p == "selmer[].isogenous" {
+                    p = "selmer[].<side>".to_string();
+                }
+                key_paths(x, &p, out);
+            }
+        }
+        Value::Array(a) => {
+            for x in a {
+                key_paths(x, &format!("{at}[]"), out);
+            }
+        }
+        _ => {}
+    }
+}
+
+/// The key paths listed in docs/report_format.md: the first cell of each
+/// table row between `<!-- keys -->` and `<!-- /keys -->`.
+fn documented_paths() -> std::collections::BTreeSet<String> {
+    let doc = include_str!("../docs/report_format.md");
+    let start = doc.find("<!-- keys -->").expect("key table start marker");
+    let end = doc.find("<!-- /keys -->").expect("key table end marker");
+    doc[start..end]
+        .lines()
+        .filter_map(|l| l.strip_prefix("| `"))
+        .filter_map(|l| l.split('`').next())
+        .map(str::to_string)
+        .collect()
+}
+
+#[test]
+fn the_documented_keys_are_exactly_the_emitted_keys() {
+    let mut emitted = std::collections::BTreeSet::new();
+    let opts = DescentOptions::default();
+    let mut lines: Vec<String> = Vec::new();
+    for line in LINES
+        .iter()
+        .chain(["y^2 = x^3 - 36x", "y^2 = x^3 - 25x", "0 0 0 0 1"].iter())
+    {
+        lines.push(json_for_line(line, &opts));
+        lines.push(json_for_bytes(line.as_bytes(), &opts, Detail::Full).unwrap());
+    }
+    // A partial report: a budget too small for the search.
+    let mut tiny = DescentOptions::default();
+    tiny.search_units = 1;
+    lines.push(json_for_line("y^2 = x^3 - 30x^2 + 3x", &tiny));
+    // Family lines carry two keys in front.
+    let fam = Family::congruent_numbers(5, 6).unwrap();
+    for m in fam.members() {
+        lines.push(scan_member(&m, &opts).to_line());
+    }
+    for l in &lines {
+        assert_valid(l);
+        let v: Value = serde_json::from_str(l).unwrap();
+        key_paths(&v, "", &mut emitted);
+    }
+    let documented = documented_paths();
+    let missing: Vec<_> = emitted.difference(&documented).collect();
+    let extra: Vec<_> = documented.difference(&emitted).collect();
+    assert!(
+        missing.is_empty() && extra.is_empty(),
+        "emitted but not documented: {missing:?}\ndocumented but not emitted: {extra:?}"
     );
 }

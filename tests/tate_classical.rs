@@ -1,14 +1,17 @@
-//! Tate's algorithm on classical curves whose conductors and local data are
-//! known, on non-minimal and non-integral input, and on bad input.
+//! Tate's algorithm against conductors found independently by the
+//! functional equation (tests/data/curve_values.txt) and Ogg's formula, on
+//! non-minimal and non-integral input, and on bad input.
 
 use isodescent::curve::{
-    global_local_data, integral_invariants, local_reduction, Kodaira, ReductionKind,
+    global_local_data, local_reduction, weierstrass_invariants, Kodaira, ReductionKind,
 };
 use isodescent::local::Prime;
 use isodescent::{Budget, Error};
 use num_bigint::BigInt;
 use num_rational::BigRational;
 use num_traits::{One, Zero};
+
+mod values;
 
 fn ints(a: [i64; 5]) -> [BigInt; 5] {
     a.map(BigInt::from)
@@ -18,54 +21,90 @@ fn rats(a: [i64; 5]) -> [BigRational; 5] {
     a.map(|c| BigRational::from_integer(c.into()))
 }
 
-fn conductor(a: [i64; 5]) -> BigInt {
-    global_local_data(&rats(a), &mut Budget::unlimited())
-        .unwrap()
-        .conductor
-}
-
 fn prime(p: u64) -> Prime {
     Prime::small(p).unwrap()
 }
 
-#[test]
-fn the_four_classical_curves_have_their_known_conductors() {
-    // From memory: y² = x³ − x has N = 32; y² = x³ + 1 has N = 36;
-    // y² + y = x³ − x has N = 37; y² + y = x³ − x² has N = 11.
-    assert_eq!(conductor([0, 0, 0, -1, 0]), BigInt::from(32));
-    assert_eq!(conductor([0, 0, 0, 0, 1]), BigInt::from(36));
-    assert_eq!(conductor([0, 0, 1, -1, 0]), BigInt::from(37));
-    assert_eq!(conductor([0, -1, 1, 0, 0]), BigInt::from(11));
-}
-
-#[test]
-fn further_curves_of_small_conductor_have_their_known_conductors() {
-    // From memory (the first curves of small conductor, as usually listed):
-    let table: [([i64; 5], i64); 14] = [
-        ([0, -1, 1, -10, -20], 11),
-        ([1, 0, 1, 4, -6], 14),
-        ([1, 1, 1, -10, -10], 15),
-        ([1, -1, 1, -1, -14], 17),
-        ([0, 1, 1, -9, -15], 19),
-        ([0, 1, 0, 4, 4], 20),
-        ([0, -1, 0, -4, 4], 24),
-        ([1, 0, 1, -5, -8], 26),
-        ([0, 0, 1, 0, -7], 27),
-        ([0, 0, 1, 0, 0], 27),
-        ([0, 1, 1, 0, 0], 43),
-        ([1, -1, 1, 0, 0], 53),
-        ([0, 1, 1, -2, 0], 389),
-        ([0, 0, 1, -7, 6], 5077),
-    ];
-    for (a, n) in table {
-        assert_eq!(conductor(a), BigInt::from(n), "curve {a:?}");
+/// The number of irreducible components of the special fibre of a
+/// Kodaira type [Sil94, IV.9, Table 4.1].
+fn components(k: Kodaira) -> u64 {
+    match k {
+        Kodaira::I0 | Kodaira::II => 1,
+        Kodaira::In(n) => n,
+        Kodaira::III => 2,
+        Kodaira::IV => 3,
+        Kodaira::I0Star => 5,
+        Kodaira::InStar(n) => n + 5,
+        Kodaira::IVStar => 7,
+        Kodaira::IIIStar => 8,
+        Kodaira::IIStar => 9,
     }
 }
 
 #[test]
+fn conductors_agree_with_the_functional_equation_and_ogg_s_formula() {
+    // The conductor of each curve in tests/data/curve_values.txt was found
+    // by tests/data/gen_curve_values.py (mpmath) as the unique N for which
+    // the theta relation of the functional equation holds, from a_n by
+    // point counting. Here it must equal Tate's algorithm's conductor, and
+    // each exponent must satisfy Ogg's formula f_p = v_p(Δ) + 1 − m_p
+    // (Ogg, Amer. J. Math. 89 (1967); [Sil94, IV.11.1]) with m_p the
+    // component count of the Kodaira type found.
+    let tags = values::conductor_tags();
+    assert!(tags.len() >= 15, "{tags:?}");
+    for tag in tags {
+        let a = values::curve(tag);
+        let g = global_local_data(&rats(a), &mut Budget::unlimited()).unwrap();
+        assert_eq!(
+            g.conductor,
+            BigInt::from(values::integer("conductor", &[tag])),
+            "{tag} {a:?}"
+        );
+        let mut ogg = BigInt::one();
+        for lr in &g.primes {
+            let f = lr.disc_valuation + 1 - components(lr.kodaira);
+            assert_eq!(
+                u64::from(lr.conductor_exponent),
+                f,
+                "{tag} at {:?}",
+                lr.prime
+            );
+            ogg *= lr.prime.get().pow(lr.conductor_exponent);
+        }
+        assert_eq!(ogg, g.conductor, "{tag}");
+    }
+}
+
+/// #E(F_p) for y² + a1xy + a3y = x³ + a2x² + a4x + a6 by counting
+/// (including the point at infinity; common practice).
+fn count_points(a: [i64; 5], p: i64) -> i64 {
+    let [a1, a2, a3, a4, a6] = a;
+    let mut n = 1;
+    for x in 0..p {
+        for y in 0..p {
+            let f = y * y + a1 * x * y + a3 * y - x * x * x - a2 * x * x - a4 * x - a6;
+            if f.rem_euclid(p) == 0 {
+                n += 1;
+            }
+        }
+    }
+    n
+}
+
+#[test]
 fn y2_plus_y_equals_x3_minus_x2_minus_10x_minus_20_is_split_i5_at_11() {
-    // From memory: Δ = −11⁵, split multiplicative, c_11 = 5.
-    let lr = local_reduction(&ints([0, -1, 1, -10, -20]), &prime(11)).unwrap();
+    // Δ = −161051 = −11⁵ (from the invariants of [Sil09, III.1]); c4 = 496
+    // is prime to 11, so the reduction is multiplicative, of type I5 on
+    // this minimal model, and split because a_11 = 12 − #E(F_11) = +1
+    // (counted here; [Sil09, Exercise 3.5]); split I_n has c = n
+    // [Sil94, IV.9, Table 4.1].
+    let a = [0, -1, 1, -10, -20];
+    assert_eq!(
+        weierstrass_invariants(&ints(a)).discriminant,
+        BigInt::from(-161051)
+    );
+    assert_eq!(12 - count_points(a, 11), 1);
+    let lr = local_reduction(&ints(a), &prime(11)).unwrap();
     assert_eq!(lr.kodaira, Kodaira::In(5));
     assert_eq!(lr.reduction, ReductionKind::SplitMultiplicative);
     assert_eq!(lr.tamagawa, 5);
@@ -74,23 +113,37 @@ fn y2_plus_y_equals_x3_minus_x2_minus_10x_minus_20_is_split_i5_at_11() {
 }
 
 #[test]
-fn the_curve_of_conductor_14_has_types_i6_and_i3() {
-    // From memory: y² + xy + y = x³ + 4x − 6 has Δ = −21952 = −2⁶·7³.
-    let a = ints([1, 0, 1, 4, -6]);
-    assert_eq!(integral_invariants(&a).discriminant, BigInt::from(-21952));
+fn multiplicative_primes_have_type_i_n_with_n_the_valuation_of_the_discriminant() {
+    // y² + xy + y = x³ − 3x + 2 (a curve of our own): Δ = −1588 = −2²·397
+    // and the conductor 794 = 2·397 found by the functional equation
+    // (tests/data/curve_values.txt) make both primes multiplicative, so
+    // the types are I2 and I1 (Tate; [Sil94, IV.9, Table 4.1]), split or not
+    // as a_p = p + 1 − #E(F_p) is +1 or −1 (counted here).
+    let a = values::curve("own_a");
+    assert_eq!(a, [1, 0, 1, -3, 2]);
+    assert_eq!(values::integer("conductor", &["own_a"]), 794);
     assert_eq!(
-        local_reduction(&a, &prime(2)).unwrap().kodaira,
-        Kodaira::In(6)
+        weierstrass_invariants(&ints(a)).discriminant,
+        BigInt::from(-1588)
     );
-    assert_eq!(
-        local_reduction(&a, &prime(7)).unwrap().kodaira,
-        Kodaira::In(3)
-    );
+    for (p, n) in [(2u64, 2u64), (397, 1)] {
+        let lr = local_reduction(&ints(a), &prime(p)).unwrap();
+        assert_eq!(lr.kodaira, Kodaira::In(n), "at {p}");
+        let ap = p as i64 + 1 - count_points(a, p as i64);
+        let want = if ap == 1 {
+            ReductionKind::SplitMultiplicative
+        } else {
+            assert_eq!(ap, -1);
+            ReductionKind::NonSplitMultiplicative
+        };
+        assert_eq!(lr.reduction, want, "at {p}");
+    }
 }
 
 #[test]
 fn y2_equals_x3_minus_x_at_2_is_type_iii_with_two_components_in_the_group() {
-    // Δ = 64, N = 32 (from memory), so Ogg's formula gives m = 6 − 5 + 1 = 2:
+    // Δ = 64, N = 32 (tests/data/curve_values.txt, the functional
+    // equation), so Ogg's formula gives m = 6 − 5 + 1 = 2:
     // type III, whose component group has order 2 [Sil94, IV.9 Table 4.1].
     let lr = local_reduction(&ints([0, 0, 0, -1, 0]), &prime(2)).unwrap();
     assert_eq!(lr.kodaira, Kodaira::III);
@@ -101,7 +154,8 @@ fn y2_equals_x3_minus_x_at_2_is_type_iii_with_two_components_in_the_group() {
 
 #[test]
 fn y2_equals_x3_plus_1_is_type_iv_at_2_and_iii_at_3() {
-    // Δ = −432 = −2⁴·3³ and N = 36 (from memory): Ogg's formula gives
+    // Δ = −432 = −2⁴·3³ and N = 36 (tests/data/curve_values.txt, the
+    // functional equation): Ogg's formula gives
     // m_2 = 4 − 2 + 1 = 3 (IV) and m_3 = 3 − 2 + 1 = 2 (III).
     let a = ints([0, 0, 0, 0, 1]);
     let at2 = local_reduction(&a, &prime(2)).unwrap();
@@ -158,7 +212,7 @@ fn a_huge_multiplicative_valuation_is_read_exactly() {
         BigInt::zero(),
         big,
     ];
-    let disc = integral_invariants(&a).discriminant;
+    let disc = weierstrass_invariants(&a).discriminant;
     let v = isodescent::local::valuation(&disc, &prime(2)).unwrap();
     assert_eq!(v, 200);
     let lr = local_reduction(&a, &prime(2)).unwrap();
@@ -179,7 +233,7 @@ fn a_non_integral_model_gets_an_integral_minimal_model_and_the_right_conductor()
     // The minimal model has Δ = 64 (that of y² = x³ − x), and the bad
     // prime 2 records that the input was not minimal (it is not 2-integral).
     assert_eq!(
-        integral_invariants(&g.minimal_model).discriminant,
+        weierstrass_invariants(&g.minimal_model).discriminant,
         BigInt::from(64)
     );
     assert_eq!(g.primes.len(), 1);
@@ -241,13 +295,14 @@ fn an_exhausted_budget_is_reported_not_a_panic() {
 #[test]
 fn the_curve_wrappers_give_the_same_data_as_the_coefficient_functions() {
     use isodescent::curve::Curve;
-    // y² = x³ − 16x (from memory: conductor 32 after minimalisation).
+    // y² = x³ − 16x: y² = x³ − x scaled by u = 1/2, whose conductor 32 is
+    // in tests/data/curve_values.txt (the functional equation).
     let e = Curve::from_ints([0, 0, 0, -16, 0]).unwrap();
-    let g = e.local_data(&mut Budget::unlimited()).unwrap();
+    let g = e.tate_data(&mut Budget::unlimited()).unwrap();
     assert_eq!(g.conductor, BigInt::from(32));
-    let at2 = e.local_data_at(&prime(2)).unwrap();
+    let at2 = e.reduction_at(&prime(2)).unwrap();
     assert_eq!(at2, g.primes[0]);
-    let (m, ch) = e.global_minimal_model(&mut Budget::unlimited()).unwrap();
+    let (m, ch) = e.to_minimal(&mut Budget::unlimited()).unwrap();
     assert_eq!(m, Curve::from_ints([0, 0, 0, -1, 0]).unwrap());
     // The other layer's change of model agrees with ours.
     assert_eq!(ch.apply_to_curve(&e), m);

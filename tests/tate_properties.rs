@@ -475,7 +475,7 @@ fn count_cubic_roots(a: &BigInt, b: &BigInt, p: u64) -> u64 {
 
 #[test]
 fn tamagawa_numbers_at_p_at_least_5_match_the_short_model_criteria() {
-    // In the short model Y² = X³ + AX + B, A = −27c4, B = −54c6 (p-adically
+    // In the short model Y² = X³ + AX + B, A = −27·c4, B = −54·c6 (p-adically
     // isomorphic to the minimal model for p ≥ 5), Tate's algorithm reads
     // [Silverman, Advanced Topics, IV.9.4, steps 5, 6, 8]:
     // IV: c = 3 iff B/p² is a square mod p; IV*: c = 3 iff B/p⁴ is a square;

@@ -104,13 +104,15 @@ struct Jac {
     z: u64,
 }
 
-struct Curve {
+/// A short Weierstrass curve `y² = x³ + ax + b` over F_p, `a` in the
+/// Montgomery form of `f` (Jacobian doubling needs only `a`).
+struct ShortCurveFp {
     f: Mont,
     a: u64,
     one: u64,
 }
 
-impl Curve {
+impl ShortCurveFp {
     fn double(&self, p: Jac) -> Jac {
         let f = &self.f;
         if p.z == 0 || p.y == 0 {
@@ -230,7 +232,7 @@ impl Curve {
 /// All `N ∈ [lo, hi]` (`lo ≥ 1`) with `N·P = O` for the affine point
 /// `(x, y)` (Montgomery form), or `None` if `P` has order ≤ 2m + 1 (then
 /// it says little and is skipped).
-fn multiples_in(e: &Curve, x: u64, y: u64, lo: u64, hi: u64) -> Option<Vec<u64>> {
+fn multiples_in(e: &ShortCurveFp, x: u64, y: u64, lo: u64, hi: u64) -> Option<Vec<u64>> {
     let width = hi - lo + 1;
     let m = ((width as f64 / 2.0).sqrt().ceil() as u64).max(1);
     let mut chain = Vec::with_capacity(m as usize);
@@ -288,7 +290,7 @@ fn multiples_in(e: &Curve, x: u64, y: u64, lo: u64, hi: u64) -> Option<Vec<u64>>
 /// All `b`, `|b| ≤ bound`, `b ≡ p + 1 (mod k)`, with `(p + 1 − b)·P = O`,
 /// where `k` divides the group order: searched as `N·(kP) = O` with
 /// `p + 1 − b = kN` (the same condition). `None` for points of small order.
-fn candidates(e: &Curve, x: u64, y: u64, bound: u64, k: u64) -> Option<Vec<i64>> {
+fn candidates(e: &ShortCurveFp, x: u64, y: u64, bound: u64, k: u64) -> Option<Vec<i64>> {
     let p = e.f.p;
     let (kx, ky) = if k == 1 {
         (x, y)
@@ -335,7 +337,7 @@ pub(crate) fn ap_fast(
         tried += 1;
         let chi = i64::from(legendre_u64(d, p));
         let d2 = d * d % p;
-        let e = Curve {
+        let e = ShortCurveFp {
             f,
             a: f.to(a * d2 % p),
             one: f.to(1),

@@ -1,7 +1,7 @@
 //! Closed forms for `a_p` on the curves with `j = 1728` and `j = 0`.
 //!
 //! Over F_p, `p ≥ 5`, every curve is isomorphic to its short model
-//! `y² = x³ + Ax + B` with `A = −27c4`, `B = −54c6` [Sil09, III.1]; over Q
+//! `y² = x³ + Ax + B` with `A = −27·c4`, `B = −54·c6` [Sil09, III.1]; over Q
 //! too, so `a_p` of the short model is `a_p` of `E` at every good
 //! `p ≥ 5`. `j = 1728` is `c6 = 0` (`B = 0`) and `j = 0` is `c4 = 0`
 //! (`A = 0`): the family is read off the exact invariants, never guessed.
@@ -33,6 +33,7 @@
 //! `j = 0` with `p ≡ 1 (mod 3)` is left to the general path.
 
 use super::bsgs::Mont;
+use crate::arith::word::{isqrt_u128, mul_mod, pow_mod};
 use crate::local::legendre_u64;
 
 /// The CM family of a curve, from its short model `y² = x³ + Ax + B`.
@@ -63,10 +64,6 @@ pub(crate) fn ap_closed_form(family: Family, a: u64, p: u64) -> Option<i64> {
             }
         }
     }
-}
-
-fn mulmod(a: u64, b: u64, p: u64) -> u64 {
-    ((u128::from(a) * u128::from(b)) % u128::from(p)) as u64
 }
 
 /// Powers modulo an odd prime `p`: Montgomery form for `p < 2³¹`
@@ -101,33 +98,9 @@ impl Field {
                 }
                 m.from(r)
             }
-            Field::Large(p) => {
-                let mut r = 1;
-                let mut b = b;
-                while e > 0 {
-                    if e & 1 == 1 {
-                        r = mulmod(r, b, p);
-                    }
-                    b = mulmod(b, b, p);
-                    e >>= 1;
-                }
-                r
-            }
+            Field::Large(p) => pow_mod(b, e, p),
         }
     }
-}
-
-/// `⌊√n⌋` exactly.
-fn isqrt(n: u64) -> u64 {
-    let n = u128::from(n);
-    let mut r = (n as f64).sqrt() as u128;
-    while r * r > n {
-        r -= 1;
-    }
-    while (r + 1) * (r + 1) <= n {
-        r += 1;
-    }
-    r as u64
 }
 
 /// A square root of −1 modulo a prime `p ≡ 1 (mod 4)`: `c^{(p−1)/4}` for
@@ -136,20 +109,20 @@ fn isqrt(n: u64) -> u64 {
 fn sqrt_minus_one(f: &Field, p: u64) -> Option<u64> {
     let c = (2..p.min(1000)).find(|&c| legendre_u64(c, p) == -1)?;
     let r = f.pow(c, (p - 1) / 4);
-    (mulmod(r, r, p) == p - 1).then_some(r)
+    (mul_mod(r, r, p) == p - 1).then_some(r)
 }
 
 /// `p = a² + b²` with `a` odd, `b` even, both positive (`p ≡ 1 mod 4`).
 fn two_squares(f: &Field, p: u64) -> Option<(u64, u64)> {
     let r = sqrt_minus_one(f, p)?;
-    let root = isqrt(p);
+    let root = isqrt_u128(u128::from(p)) as u64;
     let (mut x, mut y) = (p, r.min(p - r));
     while y > root {
         (x, y) = (y, x % y);
     }
     let a = y;
     let rest = p - a * a;
-    let b = isqrt(rest);
+    let b = isqrt_u128(u128::from(rest)) as u64;
     if b * b != rest {
         return None;
     }
@@ -174,7 +147,7 @@ fn ap_j1728(d: u64, p: u64) -> Option<i64> {
         return Some(-2 * a);
     }
     // i ≡ −a/b (mod π): t = i exactly when t·b ≡ −a, t = −i when t·b ≡ a.
-    let tb = mulmod(t, b as u64, p);
+    let tb = mul_mod(t, b as u64, p);
     let am = i128::from(a).rem_euclid(i128::from(p)) as u64;
     if tb == (p - am) % p {
         Some(2 * b)

@@ -31,9 +31,11 @@ use num_integer::Integer;
 use num_traits::{ToPrimitive, Zero};
 
 use super::cm::{ap_closed_form, Family};
+use crate::arith::word::mul_mod;
 use crate::budget::Budget;
-use crate::curve::tate::{integral_invariants, GlobalLocalData, ReductionKind};
-use crate::curve::{torsion_subgroup, Curve};
+use crate::curve::tate::{GlobalLocalData, ReductionKind};
+use crate::curve::weierstrass_invariants;
+use crate::curve::{torsion, Curve};
 use crate::error::{Error, Result};
 use crate::local::legendre_u64;
 
@@ -70,7 +72,7 @@ impl ApTable {
     /// Prepares the table from the local data of a curve (minimal model,
     /// reduction types at the bad primes).
     pub fn new(local: &GlobalLocalData) -> ApTable {
-        let inv = integral_invariants(&local.minimal_model);
+        let inv = weierstrass_invariants(&local.minimal_model);
         let mut bad = Vec::new();
         let mut huge_bad = false;
         for lr in &local.primes {
@@ -87,7 +89,7 @@ impl ApTable {
         }
         let b = [Int::new(&inv.b2), Int::new(&inv.b4), Int::new(&inv.b6)];
         let torsion = Curve::from_bigints(local.minimal_model.clone())
-            .map_or(1, |e| u64::from(torsion_subgroup(&e).order()));
+            .map_or(1, |e| u64::from(torsion(&e).order()));
         ApTable {
             b,
             c4x27: Int::new(&(&inv.c4 * 27)),
@@ -108,6 +110,11 @@ impl ApTable {
     }
 
     /// `a_p` if `p` is a bad prime, else `None`.
+    pub(crate) fn bad_ap_of(&self, p: u64) -> Option<i64> {
+        self.bad_ap(p)
+    }
+
+    /// `a_p` if `p` is a bad prime, else `None`.
     fn bad_ap(&self, p: u64) -> Option<i64> {
         self.bad.iter().find(|&&(q, _)| q == p).map(|&(_, a)| a)
     }
@@ -119,7 +126,7 @@ impl ApTable {
     /// when `p ≥ 2⁶²`; [`Error::BudgetExhausted`] in the (never observed)
     /// case that baby-step giant-step stays ambiguous for `p ≥ 2²⁴` after
     /// 2000 points.
-    pub fn ap(&self, p: u64) -> Result<i64> {
+    pub fn frobenius_trace(&self, p: u64) -> Result<i64> {
         if p >= 1 << 62 {
             return Err(Error::InvalidArgument {
                 reason: format!("a_p is computed for p < 2^62, got {p}"),
@@ -134,7 +141,7 @@ impl ApTable {
     }
 
     /// `a_p` for a prime `p < 2⁶²` (not checked); `None` only in the case
-    /// described at [`ApTable::ap`].
+    /// described at [`ApTable::frobenius_trace`].
     pub(crate) fn ap_unchecked(&self, p: u64) -> Option<i64> {
         if let Some(a) = self.bad_ap(p) {
             return Some(a);
@@ -142,7 +149,7 @@ impl ApTable {
         if p < 5 {
             return Some(count_small(&self.model, p));
         }
-        // y² = x³ − 27c4·x − 54c6 is isomorphic to E over F_p, p ≥ 5
+        // y² = x³ − 27·c4·x − 54·c6 is isomorphic to E over F_p, p ≥ 5
         // [Sil09, III.1].
         let a = (p - self.c4x27.rem(p)) % p;
         if let Some(v) = ap_closed_form(self.family, a, p) {
@@ -207,14 +214,6 @@ impl Int {
 /// `x mod p` in `[0, p)`.
 fn residue(x: &BigInt, p: u64) -> u64 {
     x.mod_floor(&BigInt::from(p)).to_u64().unwrap_or(0)
-}
-
-fn mulmod(a: u64, b: u64, p: u64) -> u64 {
-    if p < (1 << 32) {
-        (a * b) % p
-    } else {
-        ((u128::from(a) * u128::from(b)) % u128::from(p)) as u64
-    }
 }
 
 fn addmod(a: u64, b: u64, p: u64) -> u64 {
@@ -289,12 +288,12 @@ fn direct(b: [u64; 3], p: u64) -> i64 {
 fn direct_jacobi(b: [u64; 3], p: u64) -> i64 {
     let [b2, b4, b6] = b;
     let c3 = 4 % p;
-    let c1 = mulmod(2, b4, p);
+    let c1 = mul_mod(2, b4, p);
     let mut s: i64 = 0;
     for x in 0..p {
         let v = addmod(
-            mulmod(
-                addmod(mulmod(addmod(mulmod(c3, x, p), b2, p), x, p), c1, p),
+            mul_mod(
+                addmod(mul_mod(addmod(mul_mod(c3, x, p), b2, p), x, p), c1, p),
                 x,
                 p,
             ),
@@ -344,13 +343,13 @@ impl Fp {
                     if addmod(y1, y2, p) == 0 {
                         return Pt::Inf;
                     }
-                    let num = addmod(mulmod(3, mulmod(x1, x1, p), p), self.a, p);
-                    mulmod(num, invmod(addmod(y1, y1, p), p), p)
+                    let num = addmod(mul_mod(3, mul_mod(x1, x1, p), p), self.a, p);
+                    mul_mod(num, invmod(addmod(y1, y1, p), p), p)
                 } else {
-                    mulmod(submod(y2, y1, p), invmod(submod(x2, x1, p), p), p)
+                    mul_mod(submod(y2, y1, p), invmod(submod(x2, x1, p), p), p)
                 };
-                let x3 = submod(submod(mulmod(lambda, lambda, p), x1, p), x2, p);
-                let y3 = submod(mulmod(lambda, submod(x1, x3, p), p), y1, p);
+                let x3 = submod(submod(mul_mod(lambda, lambda, p), x1, p), x2, p);
+                let y3 = submod(mul_mod(lambda, submod(x1, x3, p), p), y1, p);
                 Pt::A(x3, y3)
             }
         }
@@ -440,19 +439,19 @@ fn bsgs(a: u64, b: u64, p: u64, tries: u64) -> Option<i64> {
     let mut tried = 0;
     let mut x0 = 0u64;
     while tried < tries && x0 < p {
-        let d = addmod(mulmod(addmod(mulmod(x0, x0, p), a, p), x0, p), b, p);
+        let d = addmod(mul_mod(addmod(mul_mod(x0, x0, p), a, p), x0, p), b, p);
         x0 += 1;
         if d == 0 {
             continue;
         }
         tried += 1;
         let chi = i64::from(legendre_u64(d, p));
-        let d2 = mulmod(d, d, p);
+        let d2 = mul_mod(d, d, p);
         let f = Fp {
             p,
-            a: mulmod(a, d2, p),
+            a: mul_mod(a, d2, p),
         };
-        let pt = Pt::A(mulmod(x0 - 1, d, p), d2);
+        let pt = Pt::A(mul_mod(x0 - 1, d, p), d2);
         let Some(c) = candidates(&f, pt, bound) else {
             continue;
         };
@@ -470,11 +469,11 @@ fn bsgs(a: u64, b: u64, p: u64, tries: u64) -> Option<i64> {
 ///
 /// # Errors
 /// [`Error::NotPrime`] when `p` is not a prime.
-pub fn ap(local: &GlobalLocalData, p: u64) -> Result<i64> {
+pub fn frobenius_trace(local: &GlobalLocalData, p: u64) -> Result<i64> {
     if !crate::arith::is_prime_u64(p) {
         return Err(Error::NotPrime { value: p.into() });
     }
-    ApTable::new(local).ap(p)
+    ApTable::new(local).frobenius_trace(p)
 }
 
 /// The coefficients `a_1, …, a_n` of the L-series (index 0 holds 0).
@@ -485,7 +484,11 @@ pub fn ap(local: &GlobalLocalData, p: u64) -> Result<i64> {
 /// # Errors
 /// [`Error::InvalidArgument`] when `n` exceeds 2³²; [`Error::BudgetExhausted`]
 /// when the budget runs out.
-pub fn an_list(local: &GlobalLocalData, n: u64, budget: &mut Budget) -> Result<Vec<i64>> {
+pub fn dirichlet_coefficients(
+    local: &GlobalLocalData,
+    n: u64,
+    budget: &mut Budget,
+) -> Result<Vec<i64>> {
     if n > u64::from(u32::MAX) {
         return Err(Error::InvalidArgument {
             reason: format!("at most 2^32 coefficients, asked for {n}"),

@@ -20,8 +20,8 @@
 use num_bigint::BigInt;
 use num_traits::ToPrimitive;
 
-use super::certified::Certified;
 use super::AnalyticData;
+use crate::arith::certified::Certified;
 
 /// The analytic order of Sha with its error bound, and how close it is to
 /// a square.

@@ -29,29 +29,30 @@
 //! * `w = +1` and `L(E,1) ≠ 0` (certified) imply rank 0, and `w = −1` and
 //!   `L'(E,1) ≠ 0` imply rank 1 (Gross–Zagier 1986 and Kolyvagin 1990; for
 //!   rank 0 and CM curves also Coates–Wiles 1977) — see [`RankTheorem`];
-//! * [`AnalyticData::analytic_rank`] is the smallest `r ≤ 3` of the
-//!   parity of `w` with `L^{(r)}(E,1)` certified non-zero. For 0 and 1 it
-//!   is the order of vanishing; for 2 and 3 it is only an upper bound for
-//!   the order of vanishing (the lower derivatives of that parity are
-//!   small but not proven to vanish).
+//! * [`AnalyticData::analytic_order`] comes from the smallest `r ≤ 3` of
+//!   the parity of `w` with `L^{(r)}(E,1)` certified non-zero. For 0 and 1
+//!   it is the order of vanishing ([`AnalyticOrder::Exact`], also given by
+//!   [`AnalyticData::analytic_rank`]); for 2 and 3 it is only an upper
+//!   bound ([`AnalyticOrder::AtMost`]: the lower derivatives of that
+//!   parity are small but not proven to vanish).
 //!
 //! The default options skip curves with conductor above
 //! [`DEFAULT_CONDUCTOR_LIMIT`]; see `docs/analytic.md`.
 
 mod bsgs;
-pub(crate) mod certified;
 mod cm;
 pub(crate) mod coefficients;
 pub(crate) mod ledger;
 pub(crate) mod period;
 pub(crate) mod root_number;
 pub(crate) mod series;
+mod stream;
 
 use num_bigint::BigInt;
 use num_traits::{One, ToPrimitive};
 
-pub use certified::Certified;
-pub use coefficients::{an_list, ap, ApTable};
+pub use crate::arith::Certified;
+pub use coefficients::{dirichlet_coefficients, frobenius_trace, ApTable};
 pub use ledger::{sha_analytic, ShaLedger};
 pub use period::{real_period, RealPeriod};
 pub use root_number::{local_root_number, root_number_by_formula};
@@ -62,11 +63,23 @@ use crate::curve::tate::GlobalLocalData;
 use crate::curve::Curve;
 use crate::error::Result;
 
-/// Conductors above this are skipped under the default options.
+/// Conductors above this are skipped under the default options, except
+/// for quadratic twists of `y² = x³ − x` (see
+/// [`DEFAULT_TWIST_CONDUCTOR_LIMIT`]). Up to it the stored route is used.
 pub const DEFAULT_CONDUCTOR_LIMIT: u64 = 10_000_000_000;
 
-/// At most this many series terms under the default options.
-pub const DEFAULT_MAX_TERMS: u64 = 4_000_000;
+/// The conductor limit under the default options for quadratic twists of
+/// `y² = x³ − x` (among them every congruent-number curve `y² = x³ − n²x`),
+/// whose coefficients come from a sieve ([`SeriesRoute::StreamedTwist`]).
+pub const DEFAULT_TWIST_CONDUCTOR_LIMIT: u64 = 10_000_000_000_000;
+
+/// At most this many series terms under the default options (the stored
+/// route needs about 12 bytes per term, the streamed route about 4).
+pub const DEFAULT_MAX_TERMS: u64 = 30_000_000;
+
+/// `L^{(r)}(E,1)` for `r ≥ 2` is computed only with at most this many terms
+/// (by the stored route, about 12 bytes per term).
+const HIGHER_DERIVATIVE_TERMS: u64 = 4_000_000;
 
 /// Target for the truncation error of `L^{(r)}(E,1)`, `r ≤ 1`.
 const TRUNCATION_TARGET: f64 = 1e-13;
@@ -83,11 +96,24 @@ const SPLIT: f64 = 1.1;
 #[non_exhaustive]
 pub struct AnalyticOptions {
     /// Curves whose conductor exceeds this are skipped (default
-    /// [`DEFAULT_CONDUCTOR_LIMIT`] = 10¹⁰).
+    /// [`DEFAULT_CONDUCTOR_LIMIT`] = 10¹⁰), unless they are quadratic twists
+    /// of `y² = x³ − x` below [`AnalyticOptions::twist_conductor_limit`].
     pub conductor_limit: u64,
+    /// The conductor limit for quadratic twists of `y² = x³ − x`, whose
+    /// `a_p` come from a sieve rather than prime by prime (default
+    /// [`DEFAULT_TWIST_CONDUCTOR_LIMIT`] = 10¹³). The larger of the two
+    /// limits applies to them.
+    pub twist_conductor_limit: u64,
+    /// Conductors above this use the streamed route (coefficients in
+    /// machine words, sums in binary64 with one error bound per sum; see
+    /// [`SeriesRoute`]); up to it the stored route (default
+    /// [`DEFAULT_CONDUCTOR_LIMIT`], so that values below it are printed
+    /// exactly as before).
+    pub streamed_above: u64,
     /// At most this many terms `a_n` (default [`DEFAULT_MAX_TERMS`];
-    /// memory is about 12 bytes per term). With too few terms the error
-    /// bounds grow and fewer values are certified; nothing is guessed.
+    /// memory is about 12 bytes per term on the stored route and 4 on the
+    /// streamed one). With too few terms the error bounds grow and fewer
+    /// values are certified; nothing is guessed.
     pub max_terms: u64,
     /// The truncation error aimed at for `L(E,1)` and `L'(E,1)` (default
     /// 10⁻¹³); the functional-equation test aims at 10⁷ times this, at most
@@ -101,6 +127,8 @@ impl Default for AnalyticOptions {
     fn default() -> Self {
         AnalyticOptions {
             conductor_limit: DEFAULT_CONDUCTOR_LIMIT,
+            twist_conductor_limit: DEFAULT_TWIST_CONDUCTOR_LIMIT,
+            streamed_above: DEFAULT_CONDUCTOR_LIMIT,
             max_terms: DEFAULT_MAX_TERMS,
             tolerance: TRUNCATION_TARGET,
         }
@@ -112,6 +140,31 @@ impl AnalyticOptions {
     pub fn with_conductor_limit(mut self, limit: u64) -> Self {
         self.conductor_limit = limit;
         self
+    }
+
+    /// The options with another conductor limit for quadratic twists of
+    /// `y² = x³ − x`.
+    pub fn with_twist_conductor_limit(mut self, limit: u64) -> Self {
+        self.twist_conductor_limit = limit;
+        self
+    }
+
+    /// The options with the streamed route above another conductor (0:
+    /// always streamed; `u64::MAX`: never).
+    pub fn with_streamed_above(mut self, conductor: u64) -> Self {
+        self.streamed_above = conductor;
+        self
+    }
+
+    /// The conductor limit that applies to a curve: the larger of the two
+    /// limits for quadratic twists of `y² = x³ − x`, else
+    /// [`AnalyticOptions::conductor_limit`].
+    pub fn conductor_limit_for(&self, twist_of_x3_minus_x: bool) -> u64 {
+        if twist_of_x3_minus_x {
+            self.conductor_limit.max(self.twist_conductor_limit)
+        } else {
+            self.conductor_limit
+        }
     }
 
     /// The options with another truncation target (see
@@ -141,6 +194,22 @@ pub enum RootNumberRoute {
     /// By the local formulas alone (the test was inconclusive at every
     /// `t` tried, for example with too few terms).
     Formula,
+}
+
+/// How the series were summed.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+#[non_exhaustive]
+pub enum SeriesRoute {
+    /// `a_n` stored as 64-bit integers, every sum in midpoint–radius
+    /// arithmetic term by term.
+    Stored,
+    /// `a_n` prime by prime into 32-bit words, the sums in binary64 with
+    /// compensated accumulation and one proven error bound per sum.
+    Streamed,
+    /// As `Streamed`, for a quadratic twist of `y² = x³ − x`: `a_p` from
+    /// the sums of two squares `p = a² + b²` (one sieve) times the quadratic
+    /// character of the twist.
+    StreamedTwist,
 }
 
 /// The theorem that settles a rank.
@@ -194,6 +263,34 @@ pub struct SplitCheck {
     pub passed: bool,
 }
 
+/// The order of vanishing of `L(E, s)` at `s = 1`, as far as it is proven.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash)]
+#[non_exhaustive]
+pub enum AnalyticOrder {
+    /// Proven: `L^{(r)}(E,1)` is certified non-zero and the lower
+    /// derivatives vanish (`r ≤ 1`; for `r = 1` the functional equation
+    /// with `w = −1` gives `L(E,1) = 0`).
+    Exact(usize),
+    /// `L^{(r)}(E,1)` is certified non-zero, so the order is at most `r`
+    /// (and of the parity of `w`); the lower derivatives of that parity
+    /// are small but not proven to vanish.
+    AtMost(usize),
+}
+
+impl AnalyticOrder {
+    /// The order, or its upper bound.
+    pub fn order(self) -> usize {
+        match self {
+            AnalyticOrder::Exact(r) | AnalyticOrder::AtMost(r) => r,
+        }
+    }
+
+    /// True when the order is proven exactly.
+    pub fn is_exact(self) -> bool {
+        matches!(self, AnalyticOrder::Exact(_))
+    }
+}
+
 /// Everything [`analyse`] finds.
 #[derive(Debug, Clone, PartialEq)]
 pub struct AnalyticData {
@@ -204,9 +301,10 @@ pub struct AnalyticData {
     by_test: Option<i8>,
     period: Option<RealPeriod>,
     l_values: Vec<(usize, Certified)>,
-    analytic_rank: Option<usize>,
+    analytic_order: Option<AnalyticOrder>,
     rank_proven: Option<(usize, RankTheorem)>,
     terms_used: u64,
+    series_route: Option<SeriesRoute>,
     split_check: Option<SplitCheck>,
     skipped: Option<Skip>,
 }
@@ -251,7 +349,7 @@ impl AnalyticData {
     }
 
     /// The number of connected components of `E(R)`.
-    pub fn real_components(&self) -> Option<u8> {
+    pub fn real_component_count(&self) -> Option<u8> {
         self.period.map(|p| p.components)
     }
 
@@ -266,10 +364,21 @@ impl AnalyticData {
         self.l_values.iter().find(|(k, _)| *k == r).map(|(_, v)| *v)
     }
 
-    /// The smallest `r ≤ 3` of the parity of `w` with `L^{(r)}(E,1)`
-    /// certified non-zero (see the module docs for its meaning above 1).
+    /// The order of vanishing at `s = 1` when it is proven exactly (0 or
+    /// 1); `None` otherwise, in particular when only an upper bound is
+    /// known (see [`AnalyticData::analytic_order`]).
     pub fn analytic_rank(&self) -> Option<usize> {
-        self.analytic_rank
+        match self.analytic_order {
+            Some(AnalyticOrder::Exact(r)) => Some(r),
+            _ => None,
+        }
+    }
+
+    /// The order of vanishing at `s = 1`: exact, or an upper bound, from
+    /// the smallest `r ≤ 3` of the parity of `w` with `L^{(r)}(E,1)`
+    /// certified non-zero; `None` when no such `r` was found.
+    pub fn analytic_order(&self) -> Option<AnalyticOrder> {
+        self.analytic_order
     }
 
     /// The rank, when a theorem settles it, with the theorem.
@@ -280,6 +389,11 @@ impl AnalyticData {
     /// The number of terms `a_n` used.
     pub fn terms_used(&self) -> u64 {
         self.terms_used
+    }
+
+    /// How the series were summed (`None` when no terms were used).
+    pub fn series_route(&self) -> Option<SeriesRoute> {
+        self.series_route
     }
 
     /// The check of `Λ(1)` with two splitting parameters.
@@ -321,22 +435,32 @@ fn has_cm_by_maximal_order(curve: &Curve) -> bool {
     *n == d163 || CM_MAXIMAL_J.iter().any(|&v| *n == BigInt::from(v))
 }
 
-/// The root number by the test `F(1/t) = w·t²·F(t)`: `Ok(Some(w))` when
-/// one sign is excluded and the other is not, `Ok(None)` when
-/// inconclusive at every `t` tried, `Err(())`-like `Some(0)` when both
-/// signs are excluded (inconsistent data).
-fn root_number_by_theta(s: &Series<'_>, budget: &mut Budget) -> Result<Option<i8>> {
+/// The sign decided by `F(1/t) = w·t²·F(t)` from enclosures of `F(t)` and
+/// `F(1/t)`: `Some(w)` when one sign is excluded and the other is not,
+/// `Some(0)` when both are excluded (inconsistent data), `None` when
+/// neither is.
+fn theta_sign(f: &Certified, g: &Certified, t: f64) -> Option<i8> {
+    let tf = f.scale(t * t);
+    let plus = g.minus(&tf).may_be_zero();
+    let minus = g.add(&tf).may_be_zero();
+    match (plus, minus) {
+        (true, false) => Some(1),
+        (false, true) => Some(-1),
+        (false, false) => Some(0),
+        (true, true) => None,
+    }
+}
+
+/// The root number by the test at every `t` of [`THETA_POINTS`] in turn;
+/// `pair(t)` returns `(F(t), F(1/t))`. `Some(0)` when both signs are
+/// excluded (inconsistent data), `None` when inconclusive at every `t`.
+fn root_number_by_theta(
+    mut pair: impl FnMut(f64) -> Result<(Certified, Certified)>,
+) -> Result<Option<i8>> {
     for t in THETA_POINTS {
-        let f = s.theta(t, budget)?;
-        let g = s.theta(1.0 / t, budget)?;
-        let tf = f.scale(t * t);
-        let plus = g.minus(&tf).may_be_zero();
-        let minus = g.add(&tf).may_be_zero();
-        match (plus, minus) {
-            (true, false) => return Ok(Some(1)),
-            (false, true) => return Ok(Some(-1)),
-            (false, false) => return Ok(Some(0)),
-            (true, true) => {}
+        let (f, g) = pair(t)?;
+        if let Some(w) = theta_sign(&f, &g, t) {
+            return Ok(Some(w));
         }
     }
     Ok(None)
@@ -346,7 +470,7 @@ fn root_number_by_theta(s: &Series<'_>, budget: &mut Budget) -> Result<Option<i8
 /// with certified bounds, the analytic rank bound and, where a theorem
 /// applies, the proven rank.
 ///
-/// `local` must be the curve's own local data ([`Curve::local_data`]).
+/// `local` must be the curve's own local data ([`Curve::tate_data`]).
 ///
 /// # Example
 /// ```
@@ -356,7 +480,7 @@ fn root_number_by_theta(s: &Series<'_>, budget: &mut Budget) -> Result<Option<i8
 ///
 /// let e: Curve = "0 0 1 -1 0".parse().unwrap(); // conductor 37
 /// let mut budget = Budget::unlimited();
-/// let local = e.local_data(&mut budget).unwrap();
+/// let local = e.tate_data(&mut budget).unwrap();
 /// let data = analyse(&e, &local, &AnalyticOptions::default(), &mut budget).unwrap();
 /// assert_eq!(data.root_number(), Some(-1));
 /// let d1 = data.l_value(1).unwrap(); // L'(E,1) = 0.3059997738…
@@ -393,14 +517,17 @@ pub fn analyse(
         by_test: None,
         period: real_period(&local.minimal_model),
         l_values: Vec::new(),
-        analytic_rank: None,
+        analytic_order: None,
         rank_proven: None,
         terms_used: 0,
+        series_route: None,
         split_check: None,
         skipped: None,
     };
+    let twist = stream::twist_of_x3_minus_x(local);
+    let limit = options.conductor_limit_for(twist.is_some());
     let n = match local.conductor.to_u64() {
-        Some(n) if n <= options.conductor_limit && n <= 1 << 53 => n,
+        Some(n) if n <= limit && n <= 1 << 53 => n,
         _ => {
             data.skipped = Some(Skip::ConductorAboveLimit);
             return Ok(data);
@@ -429,44 +556,84 @@ pub fn analyse(
         (options.tolerance * 1e7).min(1e-6),
     );
     let m = m_l.max(m_t).min(options.max_terms);
-    let an = an_list(local, m, budget)?;
+    if n > options.streamed_above {
+        return analyse_streamed(curve, local, data, n, m, twist, budget);
+    }
+    let an = dirichlet_coefficients(local, m, budget)?;
     data.terms_used = m;
+    data.series_route = Some(SeriesRoute::Stored);
     let s = Series::new(&an, n)?;
 
     // Root number.
-    let by_test = match root_number_by_theta(&s, budget)? {
-        Some(0) => {
-            data.skipped = Some(Skip::Inconsistent);
-            return Ok(data);
-        }
-        other => other,
+    let by_test = root_number_by_theta(|t| Ok((s.theta(t, budget)?, s.theta(1.0 / t, budget)?)))?;
+    let Some(w) = settle_root_number(&mut data, by_test) else {
+        return Ok(data);
     };
+
+    // Λ^{(k)}(1), k ≤ 3: the parity opposite to w vanishes exactly.
+    let first = if w == 1 { 0 } else { 1 };
+    let lambda_first = s.g_sum(first, budget)?.scale(2.0);
+    let split = s.completed_value_split(w, SPLIT, budget)?;
+    let higher = |r: usize, budget: &mut Budget| s.g_sum(r, budget);
+    finish(
+        curve,
+        data,
+        &c,
+        w,
+        lambda_first,
+        split,
+        Some(higher),
+        budget,
+    )
+}
+
+/// Records the root number from the test and the formula; `None` (with
+/// the reason recorded) when it is undecided or the two disagree.
+fn settle_root_number(data: &mut AnalyticData, by_test: Option<i8>) -> Option<i8> {
+    if by_test == Some(0) {
+        data.skipped = Some(Skip::Inconsistent);
+        return None;
+    }
     data.by_test = by_test;
-    let (w, route) = match (by_test, by_formula) {
+    let (w, route) = match (by_test, data.by_formula) {
         (Some(a), Some(b)) if a != b => {
             data.skipped = Some(Skip::Inconsistent);
-            return Ok(data);
+            return None;
         }
         (Some(a), Some(_)) => (a, RootNumberRoute::FunctionalEquationAndFormula),
         (Some(a), None) => (a, RootNumberRoute::FunctionalEquation),
         (None, Some(b)) => (b, RootNumberRoute::Formula),
         (None, None) => {
             data.skipped = Some(Skip::RootNumberUndecided);
-            return Ok(data);
+            return None;
         }
     };
     data.root_number = Some(w);
     data.route = Some(route);
+    Some(w)
+}
 
-    // Λ^{(k)}(1), k ≤ 3: the parity opposite to w vanishes exactly.
-    let h = series::h_derivatives(&c);
+/// The split check, `L^{(first)}(E,1)`, the proven rank and, when the
+/// first value may vanish, the next derivative of the same parity (by
+/// `higher(r)` = `Σ a_n G_r(x_n)` with its bounds, when given).
+#[allow(clippy::too_many_arguments)]
+fn finish(
+    curve: &Curve,
+    mut data: AnalyticData,
+    c: &Certified,
+    w: i8,
+    lambda_first: Certified,
+    split: Certified,
+    higher: Option<impl Fn(usize, &mut Budget) -> Result<Certified>>,
+    budget: &mut Budget,
+) -> Result<AnalyticData> {
+    let h = series::h_derivatives(c);
     let zero = Certified::exact(0.0);
     let mut lambda = [zero; 4];
     let first = if w == 1 { 0 } else { 1 };
-    lambda[first] = s.g_sum(first, budget)?.scale(2.0);
+    lambda[first] = lambda_first;
 
     // The split check of Λ(1).
-    let split = s.completed_value_split(w, SPLIT, budget)?;
     let difference = split.minus(&lambda[0]);
     let passed = difference.may_be_zero();
     data.split_check = Some(SplitCheck {
@@ -485,7 +652,7 @@ pub fn analyse(
     let v = series::l_derivative(first, &h, &lambda);
     data.l_values.push((first, v));
     if !v.may_be_zero() {
-        data.analytic_rank = Some(first);
+        data.analytic_order = Some(AnalyticOrder::Exact(first));
         let theorem = if first == 0 && has_cm_by_maximal_order(curve) {
             RankTheorem::CoatesWiles
         } else {
@@ -494,12 +661,92 @@ pub fn analyse(
         data.rank_proven = Some((first, theorem));
         return Ok(data);
     }
+    let Some(higher) = higher else {
+        return Ok(data);
+    };
     let second = first + 2;
-    lambda[second] = s.g_sum(second, budget)?.scale(2.0);
+    lambda[second] = higher(second, budget)?.scale(2.0);
     let v2 = series::l_derivative(second, &h, &lambda);
     data.l_values.push((second, v2));
     if !v2.may_be_zero() {
-        data.analytic_rank = Some(second);
+        data.analytic_order = Some(AnalyticOrder::AtMost(second));
     }
     Ok(data)
+}
+
+/// The streamed route (see [`SeriesRoute`] and `stream`): one pass for the
+/// theta test at the first `t`, `Λ(1)` and the split check; a second for
+/// `Λ'(1)` when `w = −1`.
+fn analyse_streamed(
+    curve: &Curve,
+    local: &GlobalLocalData,
+    mut data: AnalyticData,
+    n: u64,
+    m: u64,
+    twist: Option<u64>,
+    budget: &mut Budget,
+) -> Result<AnalyticData> {
+    use stream::PowerSum;
+    let m = m.min(stream::MAX_STREAMED_TERMS);
+    let an = stream::coefficients(local, m, twist, budget)?;
+    data.terms_used = m;
+    data.series_route = Some(if twist.is_some() {
+        SeriesRoute::StreamedTwist
+    } else {
+        SeriesRoute::Streamed
+    });
+    let c = Series::new(&[0, 1], n)?.step();
+    let mu = m as usize;
+    let t0 = THETA_POINTS[0];
+    let power = |t: f64, over_n: bool| PowerSum { t, over_n };
+    let first_pass = stream::power_sums(
+        &an,
+        &c,
+        &[
+            power(t0, false),
+            power(1.0 / t0, false),
+            power(1.0, true),
+            power(SPLIT, true),
+            power(1.0 / SPLIT, true),
+        ],
+        budget,
+    )?;
+    let theta = |s: Certified, t: f64| series::widen(s, series::theta_tail(&c, t, mu));
+    let mut pending = Some((theta(first_pass[0], t0), theta(first_pass[1], 1.0 / t0)));
+    let by_test = root_number_by_theta(|t| {
+        if let Some(p) = pending.take() {
+            return Ok(p);
+        }
+        let s = stream::power_sums(&an, &c, &[power(t, false), power(1.0 / t, false)], budget)?;
+        Ok((theta(s[0], t), theta(s[1], 1.0 / t)))
+    })?;
+    let Some(w) = settle_root_number(&mut data, by_test) else {
+        return Ok(data);
+    };
+    let lambda_first = if w == 1 {
+        series::widen(first_pass[2].div(&c), series::tail_bound(&c, 0, mu))
+    } else {
+        series::widen(
+            stream::g1_sum(&an, &c, budget)?,
+            series::tail_bound(&c, 1, mu),
+        )
+    }
+    .scale(2.0);
+    let split = series::widen(
+        first_pass[3].add(&first_pass[4].scale(f64::from(w))),
+        series::split_tail(&c, SPLIT, mu),
+    )
+    .div(&c);
+    // L^{(r)}, r ≥ 2, by the stored route on a copy, when small enough.
+    let wide: Option<Vec<i64>> =
+        (m <= HIGHER_DERIVATIVE_TERMS).then(|| an.iter().map(|&v| i64::from(v)).collect());
+    drop(an);
+    let stored = match &wide {
+        Some(v) => Some(Series::new(v, n)?),
+        None => None,
+    };
+    let higher = stored
+        .as_ref()
+        .map(|s| move |r: usize, b: &mut Budget| s.g_sum(r, b));
+    finish(curve, data, &c, w, lambda_first, split, higher, budget)
 }

@@ -27,8 +27,8 @@ use std::cmp::Ordering;
 use num_bigint::BigInt;
 use num_traits::{Signed, ToPrimitive};
 
-use super::certified::{pi, Certified};
-use crate::curve::tate::integral_invariants;
+use crate::arith::certified::{pi, Certified};
+use crate::curve::weierstrass_invariants;
 
 /// The real period of a model and its number of real components.
 #[derive(Debug, Clone, Copy, PartialEq)]
@@ -135,7 +135,7 @@ fn approximate_roots(b: [f64; 3], three: bool) -> Vec<f64> {
 /// when the coefficients are too large for binary64 or a root could not
 /// be enclosed (never for models of moderate size).
 pub fn real_period(model: &[BigInt; 5]) -> Option<RealPeriod> {
-    let inv = integral_invariants(model);
+    let inv = weierstrass_invariants(model);
     let b = [inv.b2.clone(), inv.b4.clone(), inv.b6.clone()];
     let bc = [big_f64(&b[0])?, big_f64(&b[1])?, big_f64(&b[2])?];
     let three = inv.discriminant.is_positive();

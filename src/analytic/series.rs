@@ -37,7 +37,7 @@
 //! midpoint, half the bound as error), so values for `r ≥ 2` carry errors
 //! around `10⁻⁸ … 10⁻⁶`.
 
-use super::certified::{euler_gamma, pi, zeta2, zeta3, Certified};
+use crate::arith::certified::{euler_gamma, pi, zeta2, zeta3, Certified};
 use crate::budget::Budget;
 use crate::error::{Error, Result};
 
@@ -65,7 +65,7 @@ impl<'a> Series<'a> {
     /// `an[n]` for `1 ≤ n < an.len()` (index 0 ignored) and the conductor.
     ///
     /// The truncation bounds assume `|a_n| ≤ d(n)√n`, true for the
-    /// coefficients of an elliptic curve ([`super::an_list`]); for other
+    /// coefficients of an elliptic curve ([`super::dirichlet_coefficients`]); for other
     /// sequences the bounds are not proven.
     ///
     /// # Errors
@@ -128,16 +128,7 @@ impl<'a> Series<'a> {
     /// `Σ_{n>M} 2n·q^n`, `q = e^{−ct}`.
     pub fn theta(&self, t: f64, budget: &mut Budget) -> Result<Certified> {
         let s = self.power_sum(t, |_| 1.0, budget)?;
-        let m = self.terms() as f64;
-        let q = self.c.scale(t).neg().exp();
-        let qm = self.c.scale(t * (m + 1.0)).neg().exp();
-        let one_q = Certified::exact(1.0).minus(&q);
-        // Σ_{n>M} n q^n = q^{M+1}((M+1)(1 − q) + q)/(1 − q)².
-        let tail = qm
-            .scale(2.0)
-            .mul(&one_q.scale(m + 1.0).add(&q))
-            .div(&one_q.mul(&one_q));
-        Ok(widen(s, tail.upper()))
+        Ok(widen(s, theta_tail(&self.c, t, self.terms())))
     }
 
     /// `Λ(1)` computed with the splitting parameter `A`:
@@ -149,7 +140,7 @@ impl<'a> Series<'a> {
         split: f64,
         budget: &mut Budget,
     ) -> Result<Certified> {
-        if !super::certified::is_pos(split) || !split.is_finite() {
+        if !crate::arith::certified::is_pos(split) || !split.is_finite() {
             return Err(Error::InvalidArgument {
                 reason: format!("splitting parameter must be positive, got {split}"),
             });
@@ -157,13 +148,7 @@ impl<'a> Series<'a> {
         let a = self.power_sum(split, |n| 1.0 / n as f64, budget)?;
         let b = self.power_sum(1.0 / split, |n| 1.0 / n as f64, budget)?;
         let s = a.add(&b.scale(f64::from(w)));
-        let m = self.terms() as f64;
-        let mut tail = 0.0;
-        for t in [split, 1.0 / split] {
-            let q = self.c.scale(t).neg().exp();
-            let qm = self.c.scale(t * (m + 1.0)).neg().exp();
-            tail += qm.scale(2.0).div(&Certified::exact(1.0).minus(&q)).upper();
-        }
+        let tail = split_tail(&self.c, split, self.terms());
         // Σ a_n q^n/n divided by c gives Σ a_n e^{−x}/x.
         Ok(widen(s, tail).div(&self.c))
     }
@@ -208,8 +193,35 @@ impl<'a> Series<'a> {
     }
 }
 
+/// The truncation bound of `F(t)` after `m` terms: `Σ_{n>M} 2n·q^n =
+/// 2q^{M+1}((M+1)(1 − q) + q)/(1 − q)²`, `q = e^{−ct}`.
+pub(crate) fn theta_tail(c: &Certified, t: f64, m: usize) -> f64 {
+    let m = m as f64;
+    let q = c.scale(t).neg().exp();
+    let qm = c.scale(t * (m + 1.0)).neg().exp();
+    let one_q = Certified::exact(1.0).minus(&q);
+    qm.scale(2.0)
+        .mul(&one_q.scale(m + 1.0).add(&q))
+        .div(&one_q.mul(&one_q))
+        .upper()
+}
+
+/// The truncation bound of the two sums `Σ a_n q^n/n` of
+/// [`Series::completed_value_split`] after `m` terms (before the division
+/// by `c`): `Σ_{t ∈ {A, 1/A}} 2q_t^{M+1}/(1 − q_t)`.
+pub(crate) fn split_tail(c: &Certified, split: f64, m: usize) -> f64 {
+    let m = m as f64;
+    let mut tail = 0.0;
+    for t in [split, 1.0 / split] {
+        let q = c.scale(t).neg().exp();
+        let qm = c.scale(t * (m + 1.0)).neg().exp();
+        tail += qm.scale(2.0).div(&Certified::exact(1.0).minus(&q)).upper();
+    }
+    tail
+}
+
 /// Adds `extra ≥ 0` to the radius.
-fn widen(x: Certified, extra: f64) -> Certified {
+pub(crate) fn widen(x: Certified, extra: f64) -> Certified {
     if extra.is_finite() && extra >= 0.0 {
         Certified::with_radius(x.value(), x.error() + extra).add(&Certified::exact(0.0))
     } else {
@@ -249,7 +261,7 @@ fn g_derivative_bound(r: usize, lo: f64) -> f64 {
 /// `G_r(x)` for `1 ≤ r ≤ 3` and an enclosure `x` of a positive argument.
 pub(crate) fn g_value(r: usize, x: &Certified) -> Certified {
     let lo = x.lower();
-    if !super::certified::is_pos(lo) {
+    if !crate::arith::certified::is_pos(lo) {
         return Certified::unknown();
     }
     if r == 1 && x.value() > 2.0 {

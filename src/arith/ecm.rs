@@ -31,13 +31,13 @@ fn giant_width(b2: u64) -> u64 {
     }
 }
 
-/// One curve's parameters: the ring and `(A + 2)/4`.
-struct Curve<'a, R: Ring> {
+/// One Montgomery curve `By² = x³ + Ax² + x`: the ring and `(A + 2)/4`.
+struct MontgomeryCurve<'a, R: Ring> {
     ring: &'a R,
     a24: R::E,
 }
 
-impl<R: Ring> Curve<'_, R> {
+impl<R: Ring> MontgomeryCurve<'_, R> {
     /// `2P` (2 squarings, 3 multiplications).
     fn dbl(&self, p: &Pt<R::E>) -> Pt<R::E> {
         let r = self.ring;
@@ -112,7 +112,7 @@ pub(crate) fn ecm_curve<R: Ring>(
     budget: &mut impl Meter,
 ) -> Split {
     let n = ring.modulus();
-    // Curve and point, set up with big integers (once per curve).
+    // MontgomeryCurve and point, set up with big integers (once per curve).
     let s = BigInt::from(sigma);
     let u = (&s * &s - 5u32).mod_floor(&n);
     let v = (&s * 4u32).mod_floor(&n);
@@ -129,7 +129,7 @@ pub(crate) fn ecm_curve<R: Ring>(
     let vmu = (&v - &u).mod_floor(&n);
     let num = (vmu.modpow(&BigInt::from(3u32), &n) * (&u * 3u32 + &v)).mod_floor(&n);
     let a24 = (num * inv).mod_floor(&n);
-    let curve = Curve {
+    let curve = MontgomeryCurve {
         ring,
         a24: ring.elem_big(&a24),
     };

@@ -123,12 +123,13 @@ struct Pt {
     z: u64,
 }
 
-struct Curve {
+/// One Montgomery curve `By² = x³ + Ax² + x` modulo a word: `(A + 2)/4`.
+struct MontgomeryCurve {
     ring: M64,
     a24: u64,
 }
 
-impl Curve {
+impl MontgomeryCurve {
     #[inline(always)]
     fn dbl(&self, p: Pt) -> Pt {
         let r = &self.ring;
@@ -157,7 +158,7 @@ impl Curve {
     }
 
     /// `P + Q` from `P − Q = x : 1` (one multiplication fewer than
-    /// [`Curve::add`]).
+    /// [`MontgomeryCurve::add`]).
     #[inline(always)]
     fn add_unit(&self, p: Pt, q: Pt, diff_x: u64) -> Pt {
         let r = &self.ring;
@@ -275,7 +276,7 @@ fn curve(ring: M64, n: u64, sigma: u64, plan: &Plan, giants: &mut Giants) -> Cur
         Ok(i) => r.elem(i),
         Err(g) => return from_gcd(g, n),
     };
-    let c = Curve {
+    let c = MontgomeryCurve {
         ring,
         a24: r.mul(num, r.mul(inv, v3)),
     };
@@ -460,7 +461,7 @@ mod tests {
         // equal as projective points X : Z (common practice).
         let n = 1_000_000_007u64 * 998_244_353; // two primes (sympy 1.14.0 isprime)
         let ring = M64::new(n).unwrap();
-        let c = Curve {
+        let c = MontgomeryCurve {
             ring,
             a24: ring.elem(123_456_789),
         };

@@ -29,7 +29,8 @@ impl Factorization {
     /// pairs are sorted and equal primes merged. The caller vouches that
     /// the `pᵢ` are primes; nothing is checked but the sign.
     ///
-    /// Errors: [`Error::InvalidArgument`] for a sign other than `±1`, a
+    /// # Errors
+    /// [`Error::InvalidArgument`] for a sign other than `±1`, a
     /// "prime" `< 2`, or an exponent 0.
     pub fn from_parts(sign: i8, factors: Vec<(BigInt, u32)>) -> Result<Self> {
         if sign != 1 && sign != -1 {
@@ -277,7 +278,8 @@ fn trial_divide(m: &mut BigUint, found: &mut BTreeMap<BigInt, u32>) {
 /// Input cases: `n = ±1` gives an empty factor list with sign `±1`; the
 /// sign of a negative `n` is kept in [`Factorization::sign`].
 ///
-/// Errors: [`Error::Zero`] for `n = 0`;
+/// # Errors
+/// [`Error::Zero`] for `n = 0`;
 /// [`Error::FactorBudgetExhausted`] when `budget` runs out, carrying the
 /// prime powers found so far and the unfactored cofactor (their product
 /// times the sign is `n`).

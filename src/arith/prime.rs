@@ -19,9 +19,9 @@ const SMALL_PRIMES: [u64; 25] = [
 ];
 
 /// Miller–Rabin bases with no strong pseudoprime below `2^64`
-/// (J. Sinclair's set, from memory; checked in `tests/arith_prime.rs`
-/// against sympy 1.14 on all listed strong pseudoprimes and on the
-/// Feitsma–Galway-style base-2 pseudoprimes in `tests/data`).
+/// (J. Sinclair's set, from memory; checked in `tests/arith_vectors.rs`
+/// against sympy 1.14 on the pseudoprimes and random numbers of
+/// `tests/data/prime_tricky.txt`).
 const U64_BASES: [u64; 7] = [2, 325, 9375, 28178, 450775, 9780504, 1795265022];
 
 /// True iff `n` is prime, for `n < 2^64`; the answer is exact.
@@ -126,11 +126,18 @@ pub(crate) fn strong_probable_prime_ring<R: Ring>(ring: &R, a: &R::E, d: &BigUin
     false
 }
 
-/// The Jacobi symbol `(a/n)` for odd `n > 0` \[Cohen93, Alg. 1.4.10\].
-pub fn jacobi(a: &BigInt, n: &BigInt) -> i32 {
+/// The Jacobi symbol `(a/n)` for odd `n > 0` \[Cohen93, Alg. 1.4.10\],
+/// unchecked: the word-size [`super::word::jacobi_u64`] when both fit,
+/// else on `BigInt`. The checked public symbol is `local::jacobi`.
+pub(crate) fn jacobi_big(a: &BigInt, n: &BigInt) -> i8 {
+    if let Some(m) = n.to_u64() {
+        if let Some(x) = a.mod_floor(n).to_u64() {
+            return super::word::jacobi_u64(x, m);
+        }
+    }
     let mut a = a.mod_floor(n);
     let mut n = n.clone();
-    let mut t = 1i32;
+    let mut t = 1i8;
     while !a.is_zero() {
         let z = a.trailing_zeros().unwrap_or(0);
         a >>= z;
@@ -162,7 +169,7 @@ fn strong_lucas_selfridge<R: Ring>(ring: &R, n: &BigUint) -> bool {
     }
     let mut dd: i64 = 5;
     loop {
-        let j = jacobi(&BigInt::from(dd), &nb);
+        let j = jacobi_big(&BigInt::from(dd), &nb);
         if j == -1 {
             break;
         }
@@ -341,7 +348,7 @@ mod tests {
                     -1
                 };
                 assert_eq!(
-                    jacobi(&BigInt::from(a), &BigInt::from(p)),
+                    jacobi_big(&BigInt::from(a), &BigInt::from(p)),
                     expected,
                     "({a}/{p})"
                 );

@@ -12,7 +12,8 @@ use num_traits::{One, Signed, Zero};
 /// `num-integer`'s `Roots`), which converges to `⌊√n⌋` from above
 /// \[Cohen93, Alg. 1.7.1\].
 ///
-/// Errors: [`Error::NotPositive`] for `n < 0` (the message names the value).
+/// # Errors
+/// [`Error::NotPositive`] for `n < 0` (the message names the value).
 ///
 /// Cost: `O(log log n)` big-integer divisions.
 ///
@@ -181,16 +182,9 @@ fn is_small_prime(k: u32) -> bool {
     k >= 2 && (2..k).take_while(|d| d * d <= k).all(|d| k % d != 0)
 }
 
-/// `⌊√n⌋` for a `u64`.
+/// `⌊√n⌋` for a `u64` (through [`super::word::isqrt_u128`]).
 pub(crate) fn isqrt_u64(n: u64) -> u64 {
-    let mut r = (n as f64).sqrt() as u64;
-    while r.checked_mul(r).map_or(true, |s| s > n) {
-        r -= 1;
-    }
-    while (r + 1).checked_mul(r + 1).is_some_and(|s| s <= n) {
-        r += 1;
-    }
-    r
+    super::word::isqrt_u128(u128::from(n)) as u64
 }
 
 #[cfg(test)]

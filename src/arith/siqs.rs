@@ -23,6 +23,7 @@
 
 use super::meter::Meter;
 use super::rho::Split;
+use super::word::{pow_mod, sqrt_mod};
 use num_bigint::{BigInt, BigUint};
 use num_integer::Integer;
 use num_traits::{One, Signed, ToPrimitive, Zero};
@@ -105,60 +106,6 @@ impl FbPrime {
     }
 }
 
-/// `a^e mod m` for `m < 2^32`.
-fn pow_mod(mut a: u64, mut e: u64, m: u64) -> u64 {
-    let mut r = 1 % m;
-    a %= m;
-    while e > 0 {
-        if e & 1 == 1 {
-            r = r * a % m;
-        }
-        a = a * a % m;
-        e >>= 1;
-    }
-    r
-}
-
-/// A square root of the quadratic residue `a` modulo the odd prime
-/// `p < 2^32` (Tonelli–Shanks \[Cohen93, Alg. 1.5.1\]).
-fn sqrt_mod(a: u64, p: u64) -> u64 {
-    let a = a % p;
-    if a == 0 {
-        return 0;
-    }
-    let mut q = p - 1;
-    let mut s = 0;
-    while q % 2 == 0 {
-        q /= 2;
-        s += 1;
-    }
-    let mut z = 2;
-    while pow_mod(z, (p - 1) / 2, p) != p - 1 {
-        z += 1;
-    }
-    let mut m = s;
-    let mut c = pow_mod(z, q, p);
-    let mut t = pow_mod(a, q, p);
-    let mut r = pow_mod(a, q.div_ceil(2), p);
-    while t != 1 {
-        let mut i = 0;
-        let mut tt = t;
-        while tt != 1 {
-            tt = tt * tt % p;
-            i += 1;
-            if i == m {
-                return 0; // not a residue: cannot happen for callers
-            }
-        }
-        let b = pow_mod(c, 1 << (m - i - 1), p);
-        m = i;
-        c = b * b % p;
-        t = t * c % p;
-        r = r * b % p;
-    }
-    r
-}
-
 /// `a^{-1} mod p` for `gcd(a, p) = 1` (0 otherwise; callers ensure it).
 fn inv_mod(a: u64, p: u64) -> u64 {
     super::word::inv_mod(a, p).unwrap_or(0)
@@ -234,109 +181,228 @@ pub(crate) fn siqs(n: &BigUint, budget: &mut impl Meter) -> Split {
         .iter()
         .find(|&&(b, _, _)| kbits <= b)
         .unwrap_or(&PARAMS[PARAMS.len() - 1]);
+    let fb = match factor_base(n, k, fb_size) {
+        Ok(fb) => fb,
+        Err(p) => return Split::Found(BigInt::from(p)),
+    };
+    let shape = SieveShape::new(&fb, kbits, m);
+    let need = fb.len() + 1 + 24;
+    let mut found = Relations::default();
+    let mut rng = Lcg(0x9E37_79B9_7F4A_7C15 ^ kbits);
+    let mut used_a: std::collections::HashSet<Vec<usize>> = Default::default();
+    let mut state = PolyState {
+        sieve: vec![0u8; 2 * m],
+        root1: vec![0u32; fb.len()],
+        root2: vec![0u32; fb.len()],
+        in_a: vec![false; fb.len()],
+    };
+    let mut tries = 0usize;
 
-    // Factor base: 2, then the odd primes p with (kN/p) ≠ −1.
+    while found.fulls.len() < need {
+        tries += 1;
+        if tries > 100_000 {
+            return Split::Failed;
+        }
+        let Some(qs) = choose_a(&fb, &shape, &mut rng) else {
+            return Split::Failed;
+        };
+        if !used_a.insert(qs.clone()) {
+            continue;
+        }
+        let Some(mut family) = PolyFamily::first(&fb, &qs, &shape, &mut state) else {
+            return Split::Failed;
+        };
+        let polys = 1usize << (shape.s - 1);
+        for g in 0..polys {
+            if g > 0 {
+                family.next(g, &fb, &mut state);
+            }
+            if budget
+                .spend(shape.sieve_units + (fb.len() as u64) * (shape.s as u64 + 1))
+                .is_err()
+            {
+                return Split::Exhausted;
+            }
+            let c_big = (&family.b * &family.b - &knb) / &family.a;
+            let (Some(ai), Some(bi), Some(ci)) =
+                (family.a.to_i128(), family.b.to_i128(), c_big.to_i128())
+            else {
+                return Split::Failed;
+            };
+            state.sieve_polynomial(&fb, &shape);
+            let candidates = state.scan(&fb, &shape, &qs, [ai, bi, ci], &mut found);
+            if budget.spend(candidates * fb.len() as u64).is_err() {
+                return Split::Exhausted;
+            }
+            if found.fulls.len() >= need {
+                break;
+            }
+        }
+    }
+    combine(&found.fulls, &fb, &nb)
+}
+
+/// The factor base of `kN`: 2, then the first odd primes `p` with
+/// `(kN/p) ≠ −1`, until `size` of them; `Err(p)` when a prime `p` of the
+/// base divides `n`.
+fn factor_base(n: &BigUint, k: u64, size: usize) -> std::result::Result<Vec<FbPrime>, u64> {
     let mut fb: Vec<FbPrime> = vec![FbPrime::new(2, 1, 1)];
     let mut p = 3u64;
-    while fb.len() < fb_size {
+    while fb.len() < size {
         if (2..).take_while(|d| d * d <= p).all(|d| p % d != 0) {
             let nm = super::prime::rem_u64(n, p);
             if nm == 0 {
-                return Split::Found(BigInt::from(p));
+                return Err(p);
             }
             let knm = nm * (k % p) % p;
             if is_residue(knm, p) {
                 fb.push(FbPrime::new(
                     p as u32,
-                    sqrt_mod(knm, p) as u32,
+                    sqrt_mod(knm, p).unwrap_or(0) as u32,
                     (p as f64).log2().round() as u8,
                 ));
             }
         }
         p += 2;
     }
-    let pmax = fb[fb.len() - 1].p as u64;
-    let large_bound = pmax * LARGE_PRIME_FACTOR;
-    let first_sieved = fb
-        .iter()
-        .position(|f| f.p >= SIEVE_MIN_PRIME)
-        .unwrap_or(fb.len());
+    Ok(fb)
+}
 
-    // Threshold: log₂ of the typical |Q(x)| ≈ M·√(kN/2), less the allowance
-    // for one large prime and the unsieved small primes.
-    let log_q = (m as f64).log2() + 0.5 * (kbits as f64 - 1.0);
-    let thresh = (log_q - THRESHOLD_SLACK * (pmax as f64).log2() - 3.0).max(8.0);
-    let init = (128.0 - thresh).clamp(0.0, 127.0) as u8;
-    let sieve_units: u64 = fb[first_sieved..]
-        .iter()
-        .map(|f| 2 * (2 * m as u64 / f.p as u64 + 1))
-        .sum();
+/// The sizes one run of the sieve works with, fixed by `kN` and its
+/// factor base.
+struct SieveShape {
+    /// Half the sieve interval: `x ∈ [−M, M)`.
+    m: usize,
+    /// The largest prime of the base.
+    pmax: u64,
+    /// Cofactors below this (and above `pmax`) are kept as large primes.
+    large_bound: u64,
+    /// The first index of the base that is sieved.
+    first_sieved: usize,
+    /// The initial byte of the sieve (the threshold is the top bit).
+    init: u8,
+    /// Units charged per polynomial for the sieve itself.
+    sieve_units: u64,
+    /// `log₂` of the target `A ≈ √(2kN)/M`.
+    log_target: f64,
+    /// The number of primes in `A`.
+    s: usize,
+    /// The range of base indices the primes of `A` are drawn from.
+    lo: usize,
+    hi: usize,
+}
 
-    // Sizes of the primes of A.
-    let log_target = 0.5 * ((kbits as f64) + 1.0) - (m as f64).log2();
-    // s primes of about 2^(log_target/s) each, s chosen so that they lie
-    // well inside the factor base.
-    let top_log = (pmax as f64).log2() - 1.5;
-    let s = ((log_target / top_log).ceil() as usize).max(1);
-    let each = log_target / s as f64;
-    let lo = fb
-        .iter()
-        .position(|f| (f.p as f64).log2() >= each - 0.5)
-        .unwrap_or(1)
-        .max(first_sieved)
-        .max(1);
-    let hi = fb
-        .iter()
-        .position(|f| (f.p as f64).log2() > each + 0.5)
-        .unwrap_or(fb.len())
-        .max(lo + 2 * s + 2)
-        .min(fb.len());
-    let need = fb.len() + 1 + 24;
-    let mut fulls: Vec<Relation> = Vec::new();
-    let mut partials: HashMap<u64, Relation> = HashMap::new();
-    let mut rng = Lcg(0x9E37_79B9_7F4A_7C15 ^ kbits);
-    let mut used_a: std::collections::HashSet<Vec<usize>> = Default::default();
-    let mut sieve = vec![0u8; 2 * m];
-    let mut root1 = vec![0u32; fb.len()];
-    let mut root2 = vec![0u32; fb.len()];
-    let mut in_a = vec![false; fb.len()];
-    let mut tries = 0usize;
+impl SieveShape {
+    fn new(fb: &[FbPrime], kbits: u64, m: usize) -> SieveShape {
+        let pmax = fb[fb.len() - 1].p as u64;
+        let first_sieved = fb
+            .iter()
+            .position(|f| f.p >= SIEVE_MIN_PRIME)
+            .unwrap_or(fb.len());
+        // Threshold: log₂ of the typical |Q(x)| ≈ M·√(kN/2), less the allowance
+        // for one large prime and the unsieved small primes.
+        let log_q = (m as f64).log2() + 0.5 * (kbits as f64 - 1.0);
+        let thresh = (log_q - THRESHOLD_SLACK * (pmax as f64).log2() - 3.0).max(8.0);
+        let init = (128.0 - thresh).clamp(0.0, 127.0) as u8;
+        let sieve_units: u64 = fb[first_sieved..]
+            .iter()
+            .map(|f| 2 * (2 * m as u64 / f.p as u64 + 1))
+            .sum();
+        // Sizes of the primes of A.
+        let log_target = 0.5 * ((kbits as f64) + 1.0) - (m as f64).log2();
+        // s primes of about 2^(log_target/s) each, s chosen so that they lie
+        // well inside the factor base.
+        let top_log = (pmax as f64).log2() - 1.5;
+        let s = ((log_target / top_log).ceil() as usize).max(1);
+        let each = log_target / s as f64;
+        let lo = fb
+            .iter()
+            .position(|f| (f.p as f64).log2() >= each - 0.5)
+            .unwrap_or(1)
+            .max(first_sieved)
+            .max(1);
+        let hi = fb
+            .iter()
+            .position(|f| (f.p as f64).log2() > each + 0.5)
+            .unwrap_or(fb.len())
+            .max(lo + 2 * s + 2)
+            .min(fb.len());
+        SieveShape {
+            m,
+            pmax,
+            large_bound: pmax * LARGE_PRIME_FACTOR,
+            first_sieved,
+            init,
+            sieve_units,
+            log_target,
+            s,
+            lo,
+            hi,
+        }
+    }
+}
 
-    while fulls.len() < need {
-        // Choose A = q₁⋯q_s near √(2kN)/M.
-        tries += 1;
-        if tries > 100_000 {
-            return Split::Failed;
+/// The base indices of the primes `q₁ < … < q_s` of the next `A`, near
+/// `√(2kN)/M` in product: `s − 1` drawn at random, the last one chosen to
+/// bring the product closest to the target. `None` if no last prime fits.
+fn choose_a(fb: &[FbPrime], shape: &SieveShape, rng: &mut Lcg) -> Option<Vec<usize>> {
+    let (s, lo, hi) = (shape.s, shape.lo, shape.hi);
+    let mut qs: Vec<usize> = Vec::with_capacity(s);
+    let mut log_a = 0.0;
+    while qs.len() + 1 < s {
+        let i = lo + rng.next(hi - lo);
+        if !qs.contains(&i) && fb[i].t != 0 {
+            log_a += (fb[i].p as f64).log2();
+            qs.push(i);
         }
-        let mut qs: Vec<usize> = Vec::with_capacity(s);
-        let mut log_a = 0.0;
-        while qs.len() + 1 < s {
-            let i = lo + rng.next(hi - lo);
-            if !qs.contains(&i) && fb[i].t != 0 {
-                log_a += (fb[i].p as f64).log2();
-                qs.push(i);
-            }
-        }
-        let rest = log_target - log_a;
-        let last = (first_sieved.max(1)..fb.len())
-            .filter(|i| !qs.contains(i) && fb[*i].t != 0)
-            .min_by(|&a, &b| {
-                let da = ((fb[a].p as f64).log2() - rest).abs();
-                let db = ((fb[b].p as f64).log2() - rest).abs();
-                da.total_cmp(&db)
-            });
-        match last {
-            Some(i) => qs.push(i),
-            None => return Split::Failed,
-        }
-        qs.sort_unstable();
-        if !used_a.insert(qs.clone()) {
-            continue;
-        }
+    }
+    let rest = shape.log_target - log_a;
+    let last = (shape.first_sieved.max(1)..fb.len())
+        .filter(|i| !qs.contains(i) && fb[*i].t != 0)
+        .min_by(|&a, &b| {
+            let da = ((fb[a].p as f64).log2() - rest).abs();
+            let db = ((fb[b].p as f64).log2() - rest).abs();
+            da.total_cmp(&db)
+        })?;
+    qs.push(last);
+    qs.sort_unstable();
+    Some(qs)
+}
+
+/// The buffers reused from one polynomial to the next: the sieve array,
+/// the two roots of `Q(x)` modulo each prime of the base (shifted by `M`),
+/// and which primes divide `A`.
+struct PolyState {
+    sieve: Vec<u8>,
+    root1: Vec<u32>,
+    root2: Vec<u32>,
+    in_a: Vec<bool>,
+}
+
+/// The `2^(s−1)` polynomials `Q(x) = ((Ax + B)² − kN)/A` sharing one `A`:
+/// `B = Σ ±B_j`, with `2·B_j·A⁻¹ mod p` for the root updates.
+struct PolyFamily {
+    a: BigInt,
+    b: BigInt,
+    bl: Vec<BigInt>,
+    bainv: Vec<Vec<u32>>,
+}
+
+impl PolyFamily {
+    /// The first polynomial of the family of `A = ∏ q`, with the roots of
+    /// every prime of the base written into `state`. `None` when `A` or
+    /// `B` leave 128 bits.
+    fn first(
+        fb: &[FbPrime],
+        qs: &[usize],
+        shape: &SieveShape,
+        state: &mut PolyState,
+    ) -> Option<PolyFamily> {
+        let (s, m) = (shape.s, shape.m);
         let a: BigInt = qs.iter().map(|&i| BigInt::from(fb[i].p)).product();
         // B_j ≡ t_j (mod q_j), ≡ 0 (mod q_i) for i ≠ j.
         let mut bl: Vec<BigInt> = Vec::with_capacity(s);
-        for &i in &qs {
+        for &i in qs {
             let q = fb[i].p as u64;
             let a_over = &a / q;
             let ao = (&a_over % q).to_u64().unwrap_or(0);
@@ -346,29 +412,24 @@ pub(crate) fn siqs(n: &BigUint, budget: &mut impl Meter) -> Split {
             }
             bl.push(a_over * g);
         }
-        let mut b: BigInt = bl.iter().sum();
-        for f in in_a.iter_mut() {
+        let b: BigInt = bl.iter().sum();
+        for f in state.in_a.iter_mut() {
             *f = false;
         }
-        for &i in &qs {
-            in_a[i] = true;
+        for &i in qs {
+            state.in_a[i] = true;
         }
         // Per prime: A⁻¹ and 2·B_j·A⁻¹ mod p.
         let mut bainv: Vec<Vec<u32>> = vec![vec![0; fb.len()]; s];
         // A, the B_j and B are below 2^128 here (A ≈ √(2kN)/M, B < A·s);
         // residues by word arithmetic instead of big-integer division.
-        let (Some(a128), Some(b128)) = (a.to_u128(), b.to_u128()) else {
-            return Split::Failed;
-        };
-        let Some(bl128) = bl
+        let (a128, b128) = (a.to_u128()?, b.to_u128()?);
+        let bl128 = bl
             .iter()
             .map(|x| x.to_u128())
-            .collect::<Option<Vec<u128>>>()
-        else {
-            return Split::Failed;
-        };
+            .collect::<Option<Vec<u128>>>()?;
         for (i, f) in fb.iter().enumerate().skip(1) {
-            if in_a[i] {
+            if state.in_a[i] {
                 continue;
             }
             let p = f.p as u64;
@@ -381,154 +442,184 @@ pub(crate) fn siqs(n: &BigUint, budget: &mut impl Meter) -> Split {
             let bm = (b128 % p as u128) as u64;
             let t = f.t as u64;
             let mo = m as u64 % p;
-            root1[i] = (((t + p - bm) % p * ainv + mo) % p) as u32;
-            root2[i] = (((2 * p - t - bm) % p * ainv + mo) % p) as u32;
+            state.root1[i] = (((t + p - bm) % p * ainv + mo) % p) as u32;
+            state.root2[i] = (((2 * p - t - bm) % p * ainv + mo) % p) as u32;
         }
-        let polys = 1usize << (s - 1);
-        for g in 0..polys {
-            if g > 0 {
-                let v = g.trailing_zeros() as usize; // B_{v+1} changes sign
-                let neg = ((g ^ (g >> 1)) >> v) & 1 == 1;
-                let d = &bl[v + 1] * 2u32;
-                if neg {
-                    b -= d;
-                } else {
-                    b += d;
-                }
-                let row = &bainv[v + 1];
-                for i in 1..fb.len() {
-                    if in_a[i] {
-                        continue;
-                    }
-                    let p = fb[i].p;
-                    let delta = row[i];
-                    // r = A⁻¹(±t − B): B ↓ 2B_l ⇒ r ↑ 2B_l·A⁻¹.
-                    let (r1, r2) = if neg {
-                        (add_mod(root1[i], delta, p), add_mod(root2[i], delta, p))
-                    } else {
-                        (sub_mod(root1[i], delta, p), sub_mod(root2[i], delta, p))
-                    };
-                    root1[i] = r1;
-                    root2[i] = r2;
-                }
+        Some(PolyFamily { a, b, bl, bainv })
+    }
+
+    /// Moves to polynomial `g > 0` of the family (Gray code: one `B_j`
+    /// changes sign) and updates the roots in `state`.
+    fn next(&mut self, g: usize, fb: &[FbPrime], state: &mut PolyState) {
+        let v = g.trailing_zeros() as usize; // B_{v+1} changes sign
+        let neg = ((g ^ (g >> 1)) >> v) & 1 == 1;
+        let d = &self.bl[v + 1] * 2u32;
+        if neg {
+            self.b -= d;
+        } else {
+            self.b += d;
+        }
+        let row = &self.bainv[v + 1];
+        for i in 1..fb.len() {
+            if state.in_a[i] {
+                continue;
             }
-            if budget
-                .spend(sieve_units + (fb.len() as u64) * (s as u64 + 1))
-                .is_err()
-            {
-                return Split::Exhausted;
-            }
-            let c_big = (&b * &b - &knb) / &a;
-            let (Some(ai), Some(bi), Some(ci)) = (a.to_i128(), b.to_i128(), c_big.to_i128()) else {
-                return Split::Failed;
+            let p = fb[i].p;
+            let delta = row[i];
+            // r = A⁻¹(±t − B): B ↓ 2B_l ⇒ r ↑ 2B_l·A⁻¹.
+            let (r1, r2) = if neg {
+                (
+                    add_mod(state.root1[i], delta, p),
+                    add_mod(state.root2[i], delta, p),
+                )
+            } else {
+                (
+                    sub_mod(state.root1[i], delta, p),
+                    sub_mod(state.root2[i], delta, p),
+                )
             };
-            // Sieve.
-            sieve.fill(init);
-            for i in first_sieved..fb.len() {
-                if in_a[i] {
-                    continue;
-                }
-                let p = fb[i].p as usize;
-                let lg = fb[i].logp;
-                let mut j = root1[i] as usize;
+            state.root1[i] = r1;
+            state.root2[i] = r2;
+        }
+    }
+}
+
+impl PolyState {
+    /// Adds `log p` at every root position of every sieved prime.
+    // One index ties the base to its roots and to `in_a`.
+    #[allow(clippy::needless_range_loop)]
+    fn sieve_polynomial(&mut self, fb: &[FbPrime], shape: &SieveShape) {
+        let m = shape.m;
+        self.sieve.fill(shape.init);
+        for i in shape.first_sieved..fb.len() {
+            if self.in_a[i] {
+                continue;
+            }
+            let p = fb[i].p as usize;
+            let lg = fb[i].logp;
+            let mut j = self.root1[i] as usize;
+            while j < 2 * m {
+                self.sieve[j] = self.sieve[j].wrapping_add(lg);
+                j += p;
+            }
+            if self.root2[i] != self.root1[i] {
+                let mut j = self.root2[i] as usize;
                 while j < 2 * m {
-                    sieve[j] = sieve[j].wrapping_add(lg);
+                    self.sieve[j] = self.sieve[j].wrapping_add(lg);
                     j += p;
                 }
-                if root2[i] != root1[i] {
-                    let mut j = root2[i] as usize;
-                    while j < 2 * m {
-                        sieve[j] = sieve[j].wrapping_add(lg);
-                        j += p;
-                    }
-                }
-            }
-            // Scan and trial-divide.
-            let mut candidates = 0u64;
-            for (w, chunk) in sieve.chunks_exact(8).enumerate() {
-                let word = u64::from_le_bytes([
-                    chunk[0], chunk[1], chunk[2], chunk[3], chunk[4], chunk[5], chunk[6], chunk[7],
-                ]);
-                if word & 0x8080_8080_8080_8080 == 0 {
-                    continue;
-                }
-                for (o, &byte) in chunk.iter().enumerate() {
-                    if byte < 128 {
-                        continue;
-                    }
-                    candidates += 1;
-                    let pos = w * 8 + o;
-                    let x = pos as i128 - m as i128;
-                    let Some(val) = ai
-                        .checked_mul(x * x)
-                        .and_then(|t| t.checked_add(2 * bi * x))
-                        .and_then(|t| t.checked_add(ci))
-                    else {
-                        continue;
-                    };
-                    if val == 0 {
-                        continue;
-                    }
-                    let mut primes: Vec<u32> = qs.iter().map(|&i| i as u32).collect();
-                    let neg = val < 0;
-                    let mut v = val.unsigned_abs();
-                    let tz = v.trailing_zeros();
-                    v >>= tz;
-                    primes.extend(std::iter::repeat(0).take(tz as usize));
-                    for (i, f) in fb.iter().enumerate().skip(1) {
-                        let r = f.rem(pos as u32);
-                        if in_a[i] || r == root1[i] || r == root2[i] {
-                            let pp = f.p as u128;
-                            while v % pp == 0 {
-                                v /= pp;
-                                primes.push(i as u32);
-                            }
-                        }
-                    }
-                    let y = BigInt::from(ai * x + bi);
-                    if v == 1 {
-                        fulls.push(Relation {
-                            ys: vec![y],
-                            primes,
-                            neg,
-                            large: Vec::new(),
-                        });
-                    } else if v < large_bound as u128 && v > pmax as u128 {
-                        let l = v as u64;
-                        if let Some(other) = partials.remove(&l) {
-                            let mut ys = other.ys;
-                            ys.push(y);
-                            let mut ps = other.primes;
-                            ps.extend(primes);
-                            fulls.push(Relation {
-                                ys,
-                                primes: ps,
-                                neg: neg ^ other.neg,
-                                large: vec![l, l],
-                            });
-                        } else {
-                            partials.insert(
-                                l,
-                                Relation {
-                                    ys: vec![y],
-                                    primes,
-                                    neg,
-                                    large: Vec::new(),
-                                },
-                            );
-                        }
-                    }
-                }
-            }
-            if budget.spend(candidates * fb.len() as u64).is_err() {
-                return Split::Exhausted;
-            }
-            if fulls.len() >= need {
-                break;
             }
         }
     }
-    combine(&fulls, &fb, &nb)
+
+    /// Trial-divides `Q(x) = A x² + 2B x + C` (`abc = [A, B, C]`) at every
+    /// position over the threshold and records the relations; returns the
+    /// number of candidates tried.
+    fn scan(
+        &self,
+        fb: &[FbPrime],
+        shape: &SieveShape,
+        qs: &[usize],
+        abc: [i128; 3],
+        found: &mut Relations,
+    ) -> u64 {
+        let [ai, bi, ci] = abc;
+        let m = shape.m;
+        let mut candidates = 0u64;
+        for (w, chunk) in self.sieve.chunks_exact(8).enumerate() {
+            let word = u64::from_le_bytes([
+                chunk[0], chunk[1], chunk[2], chunk[3], chunk[4], chunk[5], chunk[6], chunk[7],
+            ]);
+            if word & 0x8080_8080_8080_8080 == 0 {
+                continue;
+            }
+            for (o, &byte) in chunk.iter().enumerate() {
+                if byte < 128 {
+                    continue;
+                }
+                candidates += 1;
+                let pos = w * 8 + o;
+                let x = pos as i128 - m as i128;
+                let Some(val) = ai
+                    .checked_mul(x * x)
+                    .and_then(|t| t.checked_add(2 * bi * x))
+                    .and_then(|t| t.checked_add(ci))
+                else {
+                    continue;
+                };
+                if val == 0 {
+                    continue;
+                }
+                let mut primes: Vec<u32> = qs.iter().map(|&i| i as u32).collect();
+                let neg = val < 0;
+                let mut v = val.unsigned_abs();
+                let tz = v.trailing_zeros();
+                v >>= tz;
+                primes.extend(std::iter::repeat(0).take(tz as usize));
+                for (i, f) in fb.iter().enumerate().skip(1) {
+                    let r = f.rem(pos as u32);
+                    if self.in_a[i] || r == self.root1[i] || r == self.root2[i] {
+                        let pp = f.p as u128;
+                        while v % pp == 0 {
+                            v /= pp;
+                            primes.push(i as u32);
+                        }
+                    }
+                }
+                let y = BigInt::from(ai * x + bi);
+                found.record(y, primes, neg, v, shape);
+            }
+        }
+        candidates
+    }
+}
+
+/// The relations found so far: full ones, and partial ones with one large
+/// prime waiting for a partner.
+#[derive(Default)]
+struct Relations {
+    fulls: Vec<Relation>,
+    partials: HashMap<u64, Relation>,
+}
+
+impl Relations {
+    /// Records `y² ≡ ±∏ primes · v (mod kN)`: a full relation when the
+    /// cofactor `v` is 1, a partial one (or a full pair) when `v` is a
+    /// large prime, nothing otherwise.
+    fn record(&mut self, y: BigInt, primes: Vec<u32>, neg: bool, v: u128, shape: &SieveShape) {
+        if v == 1 {
+            self.fulls.push(Relation {
+                ys: vec![y],
+                primes,
+                neg,
+                large: Vec::new(),
+            });
+        } else if v < shape.large_bound as u128 && v > shape.pmax as u128 {
+            let l = v as u64;
+            if let Some(other) = self.partials.remove(&l) {
+                let mut ys = other.ys;
+                ys.push(y);
+                let mut ps = other.primes;
+                ps.extend(primes);
+                self.fulls.push(Relation {
+                    ys,
+                    primes: ps,
+                    neg: neg ^ other.neg,
+                    large: vec![l, l],
+                });
+            } else {
+                self.partials.insert(
+                    l,
+                    Relation {
+                        ys: vec![y],
+                        primes,
+                        neg,
+                        large: Vec::new(),
+                    },
+                );
+            }
+        }
+    }
 }
 
 #[inline(always)]
@@ -691,7 +782,7 @@ mod tests {
         for p in [3u64, 5, 13, 17, 97, 65537, 4294967291] {
             for a in 1..40u64 {
                 if is_residue(a, p) {
-                    let r = sqrt_mod(a, p);
+                    let r = sqrt_mod(a, p).unwrap();
                     assert_eq!(r * r % p, a % p, "sqrt({a}) mod {p}");
                 }
             }

@@ -7,6 +7,8 @@
 //! [`super::factor::factor_u64`] and the word-size cofactors of
 //! [`super::factor::factor`].
 
+use super::word::isqrt_u128;
+
 /// Arithmetic modulo an odd `n` in Montgomery form (`R = 2^64`)
 /// \[Montgomery85\].
 #[derive(Clone, Copy, Debug)]
@@ -163,19 +165,6 @@ pub(crate) fn miller_rabin_u64(n: u64, bases: &[u64]) -> bool {
         return false;
     }
     true
-}
-
-/// `⌊√x⌋` for a `u128` below `2^106` (so that the `f64` estimate is off
-/// by at most a few units), corrected exactly.
-fn isqrt_u128(x: u128) -> u128 {
-    let mut r = (x as f64).sqrt() as u128;
-    while r * r > x {
-        r -= 1;
-    }
-    while (r + 1) * (r + 1) <= x {
-        r += 1;
-    }
-    r
 }
 
 /// `Some(√x)` iff `x` is a perfect square (filter by the squares mod 64,

@@ -16,7 +16,8 @@ use num_traits::{One, Signed, Zero};
 /// primes with odd exponent in `n`. So `s` represents the class of `n` in
 /// `Q*/Q*²`.
 ///
-/// Errors: [`Error::Zero`] for `n = 0`; [`Error::FactorBudgetExhausted`]
+/// # Errors
+/// [`Error::Zero`] for `n = 0`; [`Error::FactorBudgetExhausted`]
 /// when factoring `n` runs out of budget (see [`factor`] for the units).
 ///
 /// Example: `squarefree_part(−72) = −2` (`−72 = −2·6²`),
@@ -45,7 +46,8 @@ pub fn squarefree_part(n: &BigInt, budget: &mut Budget) -> Result<BigInt> {
 /// of `a` and `b` are found separately, so the cost is that of factoring
 /// `a` and `b`, not their product.)
 ///
-/// Errors: [`Error::Zero`] for `x = 0`; [`Error::ZeroDenominator`] for a
+/// # Errors
+/// [`Error::Zero`] for `x = 0`; [`Error::ZeroDenominator`] for a
 /// zero denominator (only possible through `BigRational::new_raw`);
 /// [`Error::FactorBudgetExhausted`] as in [`squarefree_part`].
 ///
@@ -73,7 +75,8 @@ pub fn squarefree_part_rational(x: &BigRational, budget: &mut Budget) -> Result<
 /// The square-free kernel (radical) `rad(n) = ∏_{p | n} p > 0` of a
 /// nonzero integer.
 ///
-/// Errors: [`Error::Zero`] for `n = 0`; [`Error::FactorBudgetExhausted`]
+/// # Errors
+/// [`Error::Zero`] for `n = 0`; [`Error::FactorBudgetExhausted`]
 /// as in [`squarefree_part`].
 ///
 /// Example: `squarefree_kernel(−72) = 6`, `squarefree_kernel(±1) = 1`.
@@ -89,7 +92,8 @@ pub fn squarefree_kernel(n: &BigInt, budget: &mut Budget) -> Result<BigInt> {
 
 /// True iff the nonzero integer `n` is square-free (`±1` are).
 ///
-/// Errors: as in [`squarefree_part`].
+/// # Errors
+/// as in [`squarefree_part`].
 ///
 /// Example: `is_squarefree(30)` is true, `is_squarefree(−12)` false.
 pub fn is_squarefree(n: &BigInt, budget: &mut Budget) -> Result<bool> {

@@ -8,6 +8,28 @@
 //! `BigInt` routine writes them, and reads the result with [`Ck::get`];
 //! `None` means "some intermediate left i128", and the caller falls back
 //! to the `BigInt` path. Nothing is ever truncated or wrapped.
+//!
+//! # The one word-size helper per job
+//! `mul_mod`, `pow_mod`, `inv_mod`, `isqrt_u128`, `jacobi_u64` and the
+//! Tonelli–Shanks square root `sqrt_mod` (with `sqrt_mod_with` for a field
+//! that brings its own product) live here and nowhere else.
+//!
+//! # Deliberate twins: word-size paths beside the `BigInt` ones
+//! These pairs compute the same thing twice on purpose, the word-size one
+//! for speed, each checked against the other by a two-way test:
+//! * Tate's algorithm: `curve::tate_word` beside `curve::tate`;
+//! * the Weierstrass invariants in `i128` beside `BigInt`
+//!   (`curve::weierstrass::integer_invariants`);
+//! * p-adic solubility trees: `quartic::padic_word` beside `quartic::padic`;
+//! * local images: `quartic::image_word` beside `quartic::image`;
+//! * polynomials over `F_p`: the `WordField` paths of `quartic::fp`;
+//! * modular square roots: the word paths of `local::sqrt` beside its
+//!   `BigInt` ones;
+//! * the Jacobi symbol: `jacobi_u64` beside `arith::prime::jacobi_big`;
+//! * the elliptic-curve method: `arith::ecm64` beside `arith::ecm`.
+//!
+//! `family::word_sweep` compares whole families with these paths on and
+//! off.
 
 use std::cell::Cell;
 use std::ops::{Add, Mul, Neg, Sub};
@@ -111,10 +133,114 @@ pub(crate) fn residue(x: i128, p: u64) -> u64 {
     x.rem_euclid(i128::from(p)) as u64
 }
 
-/// `a·b mod p` for residues `a, b < p < 2^64`.
+/// `a·b mod p` (`p ≥ 1`): one 64-bit product when both factors are below
+/// `2^32`, a 128-bit one otherwise. The one word-size modular product of
+/// the crate.
 #[inline]
 pub(crate) fn mul_mod(a: u64, b: u64, p: u64) -> u64 {
-    (u128::from(a) * u128::from(b) % u128::from(p)) as u64
+    if (a | b) < (1 << 32) {
+        a * b % p
+    } else {
+        (u128::from(a) * u128::from(b) % u128::from(p)) as u64
+    }
+}
+
+/// `⌊√x⌋`, exactly, for any `u128` (a floating-point estimate, corrected
+/// with checked squares). The one word-size integer square root.
+pub(crate) fn isqrt_u128(x: u128) -> u128 {
+    let mut r = (x as f64).sqrt() as u128;
+    while r.checked_mul(r).map_or(true, |sq| sq > x) {
+        r -= 1;
+    }
+    while (r + 1).checked_mul(r + 1).is_some_and(|sq| sq <= x) {
+        r += 1;
+    }
+    r
+}
+
+/// The Jacobi symbol `(a/n)` for machine words, `n` odd and positive
+/// (binary reciprocity, \[Cohen93, Alg. 1.4.10\]).
+pub(crate) fn jacobi_u64(mut a: u64, mut n: u64) -> i8 {
+    debug_assert!(n % 2 == 1);
+    a %= n;
+    let mut t = 1i8;
+    while a != 0 {
+        let z = a.trailing_zeros();
+        a >>= z;
+        if z % 2 == 1 && (n % 8 == 3 || n % 8 == 5) {
+            t = -t;
+        }
+        if a % 4 == 3 && n % 4 == 3 {
+            t = -t;
+        }
+        std::mem::swap(&mut a, &mut n);
+        a %= n;
+    }
+    if n == 1 {
+        t
+    } else {
+        0
+    }
+}
+
+/// A square root of `a` modulo the prime `p < 2^64`, `None` for a
+/// non-residue; `√0 = 0` and, for `p = 2`, `√a = a`.
+///
+/// The one Tonelli–Shanks of the crate (\[Cohen93, Alg. 1.5.1\]), with the
+/// smallest non-residue as generator, so every caller gets the same root.
+pub(crate) fn sqrt_mod(a: u64, p: u64) -> Option<u64> {
+    sqrt_mod_with(a, p, |x, y| mul_mod(x, y, p), |x, e| pow_mod(x, e, p))
+}
+
+/// [`sqrt_mod`] with the field's own product and power (a Montgomery or
+/// Barrett field passes its faster ones; both must work on plain residues).
+#[inline]
+pub(crate) fn sqrt_mod_with(
+    a: u64,
+    p: u64,
+    mul: impl Fn(u64, u64) -> u64,
+    pow: impl Fn(u64, u64) -> u64,
+) -> Option<u64> {
+    let a = a % p;
+    if p == 2 || a == 0 {
+        return Some(a);
+    }
+    if jacobi_u64(a, p) != 1 {
+        return None;
+    }
+    let s = (p - 1).trailing_zeros();
+    let q = (p - 1) >> s;
+    if s == 1 {
+        return Some(pow(a, (p + 1) / 4));
+    }
+    let mut z = 2u64;
+    while jacobi_u64(z % p, p) != -1 {
+        z += 1;
+    }
+    let mut m = s;
+    let mut c = pow(z, q);
+    let mut t = pow(a, q);
+    let mut r = pow(a, q.div_ceil(2));
+    while t != 1 {
+        let mut i = 0u32;
+        let mut t2 = t;
+        while t2 != 1 {
+            t2 = mul(t2, t2);
+            i += 1;
+            if i >= m {
+                return None;
+            }
+        }
+        let mut b = c;
+        for _ in 0..(m - i - 1) {
+            b = mul(b, b);
+        }
+        m = i;
+        c = mul(b, b);
+        t = mul(t, c);
+        r = mul(r, b);
+    }
+    Some(r)
 }
 
 /// `a^e mod p` by square-and-multiply (`p ≥ 1`).

@@ -170,36 +170,51 @@ fn integral_gs(w: &[BigInt], basis: &Basis) -> Result<(Vec<BigInt>, Vec<Vec<BigI
 
 /// Every nonzero vector v of the lattice spanned by `basis` with
 /// N(v) ≤ `radius`, up to sign (exactly one of ±v is listed), by
-/// Fincke–Pohst enumeration \[FinckePohst85\] in exact integer arithmetic.
-///
-/// With yᵢ = d_{i+1} xᵢ + Σ_{j>i} λ_{ji} xⱼ one has
-/// N(Σ xᵢ bᵢ) = Σᵢ yᵢ² / (dᵢ d_{i+1}), so each level is an integer range.
-/// `basis` should be LLL-reduced so that the search tree is small. One
-/// budget unit per tree node.
+/// Fincke–Pohst enumeration \[FinckePohst85\] in exact integer arithmetic,
+/// collected into a vector (for tests; the solver streams them with
+/// [`visit_short_vectors`] and stores none).
+#[cfg(test)]
 pub(crate) fn short_vectors(
     w: &[BigInt],
     basis: &Basis,
     radius: &BigInt,
     budget: &mut Budget,
 ) -> Result<Vec<Vec<BigInt>>> {
+    let mut out: Vec<Vec<BigInt>> = Vec::new();
+    visit_short_vectors(w, basis, radius, budget, &mut |v| {
+        out.push(v.to_vec());
+        false
+    })?;
+    Ok(out)
+}
+
+/// Hands every nonzero vector v of the lattice spanned by `basis` with
+/// N(v) ≤ `radius`, up to sign (exactly one of ±v), to `visit`, in a fixed
+/// order, by Fincke–Pohst enumeration \[FinckePohst85\] in exact integer
+/// arithmetic. Nothing is stored: memory is that of one vector and the
+/// recursion (depth = dimension). `visit` returns true to stop; the result
+/// is then `Ok(true)`.
+///
+/// With yᵢ = d_{i+1} xᵢ + Σ_{j>i} λ_{ji} xⱼ one has
+/// N(Σ xᵢ bᵢ) = Σᵢ yᵢ² / (dᵢ d_{i+1}), so each level is an integer range.
+/// `basis` should be LLL-reduced so that the search tree is small. One
+/// budget unit per tree node and per candidate.
+pub(crate) fn visit_short_vectors(
+    w: &[BigInt],
+    basis: &Basis,
+    radius: &BigInt,
+    budget: &mut Budget,
+    visit: &mut dyn FnMut(&[BigInt]) -> bool,
+) -> Result<bool> {
     let n = basis.len();
     let (d, lam) = integral_gs(w, basis)?;
-    let mut out: Vec<Vec<BigInt>> = Vec::new();
     let mut coords = vec![BigInt::zero(); n];
     let level = Level {
         d: &d,
         lam: &lam,
         basis,
     };
-    level.enumerate(
-        n,
-        radius.clone(),
-        BigInt::one(),
-        &mut coords,
-        &mut out,
-        budget,
-    )?;
-    Ok(out)
+    level.enumerate(n, radius.clone(), BigInt::one(), &mut coords, visit, budget)
 }
 
 struct Level<'a> {
@@ -210,25 +225,25 @@ struct Level<'a> {
 
 impl Level<'_> {
     /// Coordinates x_{level..n} are fixed in `coords`; the radius left for
-    /// the levels below is num/den.
+    /// the levels below is num/den. `Ok(true)` when `visit` asked to stop.
     fn enumerate(
         &self,
         level: usize,
         num: BigInt,
         den: BigInt,
         coords: &mut Vec<BigInt>,
-        out: &mut Vec<Vec<BigInt>>,
+        visit: &mut dyn FnMut(&[BigInt]) -> bool,
         budget: &mut Budget,
-    ) -> Result<()> {
+    ) -> Result<bool> {
         let n = self.basis.len();
         if level == 0 {
             if coords.iter().all(|c| c.is_zero()) {
-                return Ok(());
+                return Ok(false);
             }
             // keep one of ±v: the last nonzero coordinate positive
             if let Some(last) = coords.iter().rev().find(|c| !c.is_zero()) {
                 if last.is_negative() {
-                    return Ok(());
+                    return Ok(false);
                 }
             }
             let dim = self.basis[0].len();
@@ -238,8 +253,7 @@ impl Level<'_> {
                     *vi += c * bi;
                 }
             }
-            out.push(v);
-            return Ok(());
+            return Ok(visit(&v));
         }
         let i = level - 1;
         budget
@@ -250,7 +264,7 @@ impl Level<'_> {
         // |y| ≤ Y with Y² ≤ num·dᵢd_{i+1}/den
         let bound = (&num * &dd).div_floor(&den);
         if bound.is_negative() {
-            return Ok(());
+            return Ok(false);
         }
         let y_max = isqrt(&bound).unwrap_or_else(|_| BigInt::zero());
         let di1 = &self.d[i + 1];
@@ -268,11 +282,14 @@ impl Level<'_> {
             coords[i] = x.clone();
             let num2 = &num * &dd - &y * &y * &den;
             let den2 = &den * &dd;
-            self.enumerate(i, num2, den2, coords, out, budget)?;
+            if self.enumerate(i, num2, den2, coords, visit, budget)? {
+                coords[i] = BigInt::zero();
+                return Ok(true);
+            }
             x += 1u32;
         }
         coords[i] = BigInt::zero();
-        Ok(())
+        Ok(false)
     }
 }
 
@@ -344,6 +361,30 @@ mod tests {
         lll(&w, &mut basis, &mut budget).unwrap();
         let out = short_vectors(&w, &basis, &BigInt::from(2), &mut budget).unwrap();
         assert_eq!(out.len(), 4);
+    }
+
+    #[test]
+    fn streaming_visits_the_same_vectors_and_stops_when_asked() {
+        // The stream and the collected list agree; a visitor that stops at
+        // the first vector sees exactly one (common practice).
+        let w = v(&[1, 1]);
+        let mut basis = vec![v(&[1, 0]), v(&[7, 1])];
+        let mut budget = Budget::unlimited();
+        lll(&w, &mut basis, &mut budget).unwrap();
+        let all = short_vectors(&w, &basis, &BigInt::from(5), &mut budget).unwrap();
+        let mut seen = Vec::new();
+        let stopped = visit_short_vectors(&w, &basis, &BigInt::from(5), &mut budget, &mut |x| {
+            seen.push(x.to_vec());
+            true
+        })
+        .unwrap();
+        assert!(stopped);
+        assert_eq!(seen.len(), 1);
+        assert_eq!(seen[0], all[0]);
+        // a unit budget stops the enumeration with a budget error
+        let mut tiny = Budget::with_units(2);
+        let r = visit_short_vectors(&w, &basis, &BigInt::from(50), &mut tiny, &mut |_| false);
+        assert!(matches!(r, Err(Error::BudgetExhausted { .. })));
     }
 
     #[test]

@@ -11,7 +11,7 @@ use num_integer::Integer;
 use num_rational::BigRational;
 use num_traits::{One, Signed, Zero};
 
-use super::lattice::{echelon_basis, lll, short_vectors};
+use super::lattice::{echelon_basis, lll, visit_short_vectors};
 use crate::arith::factor;
 use crate::budget::Budget;
 use crate::error::{Error, Result};
@@ -88,7 +88,8 @@ fn primes_of(coeffs: &[&BigInt], budget: &mut Budget) -> Result<Vec<Prime>> {
 /// conic insoluble at 2 is insoluble at R or at an odd prime too. Use
 /// [`insoluble_places`] for the full list.
 ///
-/// **Errors.** [`Error::Zero`] if a coefficient is 0 (the conic is then a
+/// # Errors
+/// [`Error::Zero`] if a coefficient is 0 (the conic is then a
 /// pair of lines or degenerate; (1,0,0) or (0,1,0) would be a trivial
 /// answer, which we refuse to guess); [`Error::FactorBudgetExhausted`] or
 /// [`Error::BudgetExhausted`] when `budget` runs out.
@@ -131,7 +132,8 @@ pub fn solve_diagonal(
 /// `primes` must contain every prime dividing a·b·c (extra primes are
 /// harmless; order and repetitions do not matter).
 ///
-/// **Errors.** [`Error::Zero`] for a zero coefficient;
+/// # Errors
+/// [`Error::Zero`] for a zero coefficient;
 /// [`Error::NotPrime`] if an entry of `primes` is not prime;
 /// [`Error::InvalidArgument`] if a coefficient has a prime factor missing
 /// from `primes`; [`Error::BudgetExhausted`] when `budget` runs out.
@@ -198,7 +200,8 @@ pub fn solve_diagonal_rational(
 /// reciprocity) and is empty iff the conic has a rational point
 /// (Hasse–Minkowski).
 ///
-/// **Errors.** [`Error::Zero`] for a zero coefficient; factoring errors as
+/// # Errors
+/// [`Error::Zero`] for a zero coefficient; factoring errors as
 /// in [`solve_diagonal`].
 ///
 /// ```
@@ -494,37 +497,105 @@ fn find_point(
     lll(&w, &mut basis, budget)?;
     let target = -(&vals[0] * &vals[1] * &vals[2]);
     let mut radius = &m * 3u32;
+    let mut nodes = ConicNodes::new(budget);
     loop {
-        let cands = short_vectors(&w, &basis, &radius, budget)?;
-        // prefer a zero of the form; the shortest one
+        // Streamed: at most two vectors are kept (the shortest zero of the
+        // form so far, and the first vector with Q(v) = −abc), never the
+        // list of candidates.
         let mut best: Option<(BigInt, Vec<BigInt>)> = None;
-        for v in &cands {
-            if eval(vals, v).is_zero() {
+        let mut via_identity: Option<Vec<BigInt>> = None;
+        let mut seen: u64 = 0;
+        let r = visit_short_vectors(&w, &basis, &radius, nodes.budget(), &mut |v| {
+            seen += 1;
+            let q = eval(vals, v);
+            if q.is_zero() {
                 let n = eval(&w, v);
                 if best.as_ref().map_or(true, |(bn, _)| &n < bn) {
-                    best = Some((n, v.clone()));
+                    best = Some((n, v.to_vec()));
                 }
+            } else if via_identity.is_none() && q == target {
+                via_identity = Some(v.to_vec());
             }
-        }
+            // Once a usable vector is in hand, a skewed lattice with a
+            // very short vector (many candidates in the ellipsoid) is not
+            // listed to its end.
+            seen >= USABLE_AFTER && (best.is_some() || via_identity.is_some())
+        });
+        nodes.settle(r)?;
         if let Some((_, v)) = best {
             return Ok(v);
         }
-        for v in &cands {
-            if eval(vals, v) == target {
-                // a_i(x_i x_k + a_j x_j)² + a_j(x_j x_k − a_i x_i)² + a_k(x_k² + a_i a_j)²
-                //   = (x_k² + a_i a_j)(Q(x) + a_i a_j a_k) = 0
-                let mut out = vec![BigInt::zero(); 3];
-                out[i] = &v[i] * &v[k] + &vals[j] * &v[j];
-                out[j] = &v[j] * &v[k] - &vals[i] * &v[i];
-                out[k] = &v[k] * &v[k] + &vals[i] * &vals[j];
-                return Ok(out);
-            }
+        if let Some(v) = via_identity {
+            // a_i(x_i x_k + a_j x_j)² + a_j(x_j x_k − a_i x_i)² + a_k(x_k² + a_i a_j)²
+            //   = (x_k² + a_i a_j)(Q(x) + a_i a_j a_k) = 0
+            let mut out = vec![BigInt::zero(); 3];
+            out[i] = &v[i] * &v[k] + &vals[j] * &v[j];
+            out[j] = &v[j] * &v[k] - &vals[i] * &v[i];
+            out[k] = &v[k] * &v[k] + &vals[i] * &vals[j];
+            return Ok(out);
         }
         // Not reached (see the module docs); widen the search all the same.
-        budget
-            .spend(cands.len() as u64 + 1)
+        nodes
+            .budget()
+            .spend(seen + 1)
             .map_err(|_| exhausted("conic point search"))?;
         radius *= 4u32;
+    }
+}
+
+/// Candidates listed before the enumeration may stop at a usable vector
+/// (module docs, §5: about 22 are expected, so ordinary conics are listed
+/// to the end and keep their shortest zero).
+const USABLE_AFTER: u64 = 4096;
+
+/// Most enumeration nodes of one conic solution (a deterministic cap on
+/// top of the caller's budget, which is shared by many conics): a conic
+/// whose lattice needs more is given up as a budget stop, never listed for
+/// minutes. With the module's lemma a usable vector exists within the
+/// first radius; the nodes grow only on very skewed lattices.
+pub(crate) const MAX_CONIC_NODES: u64 = 1 << 21;
+
+/// The caller's budget with the per-conic node cap of [`MAX_CONIC_NODES`].
+struct ConicNodes<'a> {
+    outer: &'a mut Budget,
+    local: Budget,
+}
+
+impl<'a> ConicNodes<'a> {
+    fn new(outer: &'a mut Budget) -> Self {
+        let units = outer
+            .remaining()
+            .map_or(MAX_CONIC_NODES, |r| r.min(MAX_CONIC_NODES));
+        let local = Self::fresh(units, outer.deadline());
+        ConicNodes { outer, local }
+    }
+
+    fn fresh(units: u64, deadline: Option<std::time::Instant>) -> Budget {
+        let b = Budget::with_units(units);
+        match deadline {
+            Some(d) => b.with_deadline(d),
+            None => b,
+        }
+    }
+
+    fn budget(&mut self) -> &mut Budget {
+        &mut self.local
+    }
+
+    /// Charges the nodes spent so far to the caller's budget; passes the
+    /// result of an enumeration on.
+    fn settle<T>(&mut self, r: Result<T>) -> Result<T> {
+        let spent = self.local.spent();
+        let left = if self.local.is_exhausted() {
+            0
+        } else {
+            self.local.remaining().unwrap_or(0)
+        };
+        self.local = Self::fresh(left, self.outer.deadline());
+        self.outer
+            .spend(spent)
+            .map_err(|_| exhausted("conic point search"))?;
+        r.map_err(|_| exhausted("conic point search (node cap or budget)"))
     }
 }
 
@@ -547,20 +618,56 @@ fn two_squares_point(
     ];
     lll(&w, &mut basis, budget)?;
     let mut radius = n * 2u32 - 1u32;
+    let mut nodes = ConicNodes::new(budget);
     loop {
-        let cands = short_vectors(&w, &basis, &radius, budget)?;
-        for v in &cands {
+        let mut found: Option<Vec<BigInt>> = None;
+        let mut seen: u64 = 0;
+        let r = visit_short_vectors(&w, &basis, &radius, nodes.budget(), &mut |v| {
+            seen += 1;
             if &(&v[0] * &v[0] + &v[1] * &v[1]) == n {
-                let mut out = vec![BigInt::zero(); 3];
-                out[i] = v[0].clone();
-                out[j] = v[1].clone();
-                out[k] = BigInt::one();
-                return Ok(out);
+                found = Some(v.to_vec());
+                return true;
             }
+            false
+        });
+        nodes.settle(r)?;
+        if let Some(v) = found {
+            let mut out = vec![BigInt::zero(); 3];
+            out[i] = v[0].clone();
+            out[j] = v[1].clone();
+            out[k] = BigInt::one();
+            return Ok(out);
         }
-        budget
-            .spend(cands.len() as u64 + 1)
+        nodes
+            .budget()
+            .spend(seen + 1)
             .map_err(|_| exhausted("conic point search"))?;
         radius *= 4u32;
     }
+}
+
+/// A point of `X² − dY² = ΔZ²` read off when `Δ`, `−Δ/d` or `d + Δ` is a
+/// square (`(√Δ, 0, 1)`, `(0, s, 1)`, `(s, 1, 1)`); spares the general
+/// solver the easy cases, which include every class on the side of a
+/// curve with E[2] rational (`Δ` a square).
+pub(crate) fn obvious_conic_point(d: &BigInt, delta: &BigInt) -> Option<[BigInt; 3]> {
+    let root = |n: &BigInt| -> Option<BigInt> {
+        if n.is_negative() {
+            return None;
+        }
+        let r = n.sqrt();
+        (&r * &r == *n).then_some(r)
+    };
+    if let Some(r) = root(delta) {
+        return Some([r, BigInt::zero(), BigInt::one()]);
+    }
+    if (-delta).is_multiple_of(d) {
+        if let Some(s) = root(&(-delta / d)) {
+            return Some([BigInt::zero(), s, BigInt::one()]);
+        }
+    }
+    if let Some(s) = root(&(d + delta)) {
+        return Some([s, BigInt::one(), BigInt::one()]);
+    }
+    None
 }

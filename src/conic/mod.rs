@@ -101,6 +101,7 @@ pub(crate) mod lattice;
 pub(crate) mod legendre;
 pub(crate) mod param;
 pub(crate) mod ternary;
+pub(crate) use legendre::obvious_conic_point;
 pub use legendre::{
     insoluble_places, solve_diagonal, solve_diagonal_rational, solve_diagonal_with_primes,
     ConicSolution,

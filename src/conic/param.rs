@@ -32,6 +32,7 @@ use crate::error::{Error, Result};
 /// are divided by their common content. (The rational parametrisation of
 /// a conic with a point: [Cassels91, Ch. 1]; common practice.)
 #[derive(Debug, Clone, PartialEq, Eq)]
+#[non_exhaustive]
 pub struct ConicParametrisation {
     /// `forms[i] = [A, B, C]`: the i-th coordinate is A u² + B uv + C v².
     pub forms: [[BigInt; 3]; 3],

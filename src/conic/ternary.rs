@@ -169,7 +169,8 @@ fn check_nondegenerate(q: &TernaryForm) -> Result<BigInt> {
 /// or a place of local insolubility, chosen as in
 /// [`super::solve_diagonal`] for the diagonal form.
 ///
-/// **Errors.** [`Error::Degenerate`] if det H = 0;
+/// # Errors
+/// [`Error::Degenerate`] if det H = 0;
 /// [`Error::FactorBudgetExhausted`] / [`Error::BudgetExhausted`] when the
 /// budget runs out.
 ///

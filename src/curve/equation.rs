@@ -4,7 +4,7 @@
 //! equation with the zero terms dropped and the signs folded,
 //!
 //! ```text
-//! y^2 + xy + y = x^3 - x^2 - 10x - 20        (a1 a2 a3 a4 a6 = 1 -1 1 -10 -20)
+//! y^2 + xy + 3y = x^3 - 2x^2 + 5x - 7        (a1 a2 a3 a4 a6 = 1 -2 3 5 -7)
 //! y^2 = x^3 - 30x^2 + 3x                     (0 -30 0 3 0)
 //! y^2 = x^3 + (1/2)x^2 - 7/4                 (0 1/2 0 0 -7/4)
 //! ```
@@ -17,7 +17,11 @@
 //! order on either side of `=`, and repeated monomials (they add up). The
 //! monomials of a Weierstrass model are the only ones allowed, and after
 //! moving every term to the left the coefficient of y² must be 1 and that
-//! of x³ must be −1 (common practice: the model is monic in y² and x³).
+//! of x³ must be −1, or the other way round (`x^3 - 36x = y^2`; common
+//! practice: the model is monic in y² and x³). Typographic forms are read
+//! too: the minus sign `−` (U+2212), the superscripts `²` and `³`, upper
+//! case, and a leading byte-order mark. Error messages give positions in
+//! characters of the caller's own line, counted from 1.
 
 use std::collections::BTreeMap;
 
@@ -61,7 +65,7 @@ fn side_text(leading: &str, terms: &[(&BigRational, &str)]) -> String {
 }
 
 /// The equation of the model with coefficients `[a1, a2, a3, a4, a6]`
-/// (module docs), e.g. `y^2 + xy + y = x^3 - x^2 - 10x - 20`.
+/// (module docs), e.g. `y^2 + xy + 3y = x^3 - 2x^2 + 5x - 7`.
 pub fn equation_text(a: &[BigRational; 5]) -> String {
     let left = side_text("y^2", &[(&a[0], "xy"), (&a[2], "y")]);
     let right = side_text("x^3", &[(&a[1], "x^2"), (&a[3], "x"), (&a[4], "")]);
@@ -120,51 +124,77 @@ fn bad(input: &str, reason: impl Into<String>) -> Error {
     }
 }
 
+/// One side of an equation after normalisation: ASCII bytes (whitespace
+/// removed, lower case) with, for each, the position of the character it
+/// came from in the caller's line (1-based, counted in characters).
+struct Side<'a> {
+    s: &'a [u8],
+    pos: &'a [usize],
+    input: &'a str,
+}
+
+impl Side<'_> {
+    /// The caller's character position of byte `i` (one past the last
+    /// character at the end).
+    fn at(&self, i: usize) -> usize {
+        match self.pos.get(i) {
+            Some(&p) => p,
+            None => self.pos.last().map_or(1, |p| p + 1),
+        }
+    }
+
+    fn bad(&self, reason: impl Into<String>) -> Error {
+        bad(self.input, reason)
+    }
+}
+
 /// Parses the digits of an unsigned integer starting at `i`; returns the
 /// value and the index after it.
-fn digits_at(s: &[u8], mut i: usize, input: &str) -> Result<(BigInt, usize)> {
+fn digits_at(t: &Side<'_>, mut i: usize) -> Result<(BigInt, usize)> {
+    let s = t.s;
     let start = i;
     while i < s.len() && s[i].is_ascii_digit() {
         i += 1;
     }
     let len = i - start;
     if len == 0 {
-        return Err(bad(input, format!("expected a number at position {start}")));
+        return Err(t.bad(format!("expected a number at character {}", t.at(start))));
     }
     if len > super::weierstrass::MAX_COEFFICIENT_DIGITS {
-        return Err(bad(
-            input,
-            format!(
-                "a number has {len} digits; at most {} are accepted",
-                super::weierstrass::MAX_COEFFICIENT_DIGITS
-            ),
-        ));
+        return Err(t.bad(format!(
+            "a number has {len} digits; at most {} are accepted",
+            super::weierstrass::MAX_COEFFICIENT_DIGITS
+        )));
     }
-    let v = BigInt::parse_bytes(&s[start..i], 10).ok_or_else(|| bad(input, "malformed number"))?;
+    let v = BigInt::parse_bytes(&s[start..i], 10).ok_or_else(|| t.bad("malformed number"))?;
     Ok((v, i))
 }
 
 /// Parses an unsigned rational `p`, `p/q` or `(p/q)` at `i`, if one starts
 /// there.
-fn rational_at(s: &[u8], i: usize, input: &str) -> Result<Option<(BigRational, usize)>> {
+fn rational_at(t: &Side<'_>, i: usize) -> Result<Option<(BigRational, usize)>> {
+    let s = t.s;
     let paren = s.get(i) == Some(&b'(');
     let j = if paren { i + 1 } else { i };
     if !s.get(j).is_some_and(u8::is_ascii_digit) {
         if paren {
-            return Err(bad(input, format!("expected a number after '(' at {i}")));
+            return Err(t.bad(format!(
+                "expected a number after '(' at character {}",
+                t.at(i)
+            )));
         }
         return Ok(None);
     }
-    let (num, mut j) = digits_at(s, j, input)?;
+    let (num, mut j) = digits_at(t, j)?;
     let mut den = BigInt::one();
     if s.get(j) == Some(&b'/') {
-        let (d, k) = digits_at(s, j + 1, input)?;
+        let (d, k) = digits_at(t, j + 1)?;
         den = d;
         j = k;
     }
     if paren {
         if s.get(j) != Some(&b')') {
-            return Err(bad(input, format!("expected ')' at position {j}")));
+            return Err(t.bad(format!("expected ')' at character {}", t.at(j))));
         }
         j += 1;
     }
@@ -177,7 +207,8 @@ fn rational_at(s: &[u8], i: usize, input: &str) -> Result<Option<(BigRational, u
 }
 
 /// Parses an optional power `^n` or `**n` at `i` (n a small integer).
-fn power_at(s: &[u8], i: usize, input: &str) -> Result<(u32, usize)> {
+fn power_at(t: &Side<'_>, i: usize) -> Result<(u32, usize)> {
+    let s = t.s;
     let j = if s.get(i) == Some(&b'^') {
         i + 1
     } else if s.get(i) == Some(&b'*') && s.get(i + 1) == Some(&b'*') {
@@ -193,20 +224,15 @@ fn power_at(s: &[u8], i: usize, input: &str) -> Result<(u32, usize)> {
     let text = std::str::from_utf8(&s[start..k]).unwrap_or("");
     let n: u32 = text
         .parse()
-        .map_err(|_| bad(input, format!("expected an exponent at position {start}")))?;
+        .map_err(|_| t.bad(format!("expected an exponent at character {}", t.at(start))))?;
     Ok((n, k))
 }
 
-/// Adds the terms of one side (whitespace already removed) into `poly`,
-/// each multiplied by `sign`.
-fn parse_side(
-    s: &[u8],
-    input: &str,
-    sign: i32,
-    poly: &mut BTreeMap<Monomial, BigRational>,
-) -> Result<()> {
+/// Adds the terms of one side into `poly`, each multiplied by `sign`.
+fn parse_side(t: &Side<'_>, sign: i32, poly: &mut BTreeMap<Monomial, BigRational>) -> Result<()> {
+    let s = t.s;
     if s.is_empty() {
-        return Err(bad(input, "one side of the equation is empty"));
+        return Err(t.bad("one side of the equation is empty"));
     }
     let mut i = 0;
     let mut first = true;
@@ -220,16 +246,17 @@ fn parse_side(
             }
             _ if first => {}
             c => {
-                return Err(bad(
-                    input,
-                    format!("expected '+' or '-' before a term, found {:?}", c as char),
-                ))
+                return Err(t.bad(format!(
+                    "expected '+' or '-' before a term at character {}, found '{}'",
+                    t.at(i),
+                    c as char
+                )))
             }
         }
         first = false;
         let mut coeff = BigRational::one();
         let mut saw_factor = false;
-        if let Some((c, j)) = rational_at(s, i, input)? {
+        if let Some((c, j)) = rational_at(t, i)? {
             coeff = c;
             i = j;
             saw_factor = true;
@@ -243,7 +270,7 @@ fn parse_side(
             }
             match s.get(j) {
                 Some(&c @ (b'x' | b'y')) => {
-                    let (n, k) = power_at(s, j + 1, input)?;
+                    let (n, k) = power_at(t, j + 1)?;
                     if c == b'x' {
                         ex = ex.saturating_add(n);
                     } else {
@@ -256,7 +283,7 @@ fn parse_side(
             }
         }
         if !saw_factor {
-            return Err(bad(input, format!("expected a term at position {i}")));
+            return Err(t.bad(format!("expected a term at character {}", t.at(i))));
         }
         if negative {
             coeff = -coeff;
@@ -270,6 +297,46 @@ fn parse_side(
     Ok(())
 }
 
+/// The equation text as ASCII bytes, each with the 1-based character
+/// position it came from: whitespace and a leading byte-order mark
+/// dropped, upper case lowered, the minus sign U+2212 read as `-` and the
+/// superscripts `²`, `³` as `^2`, `^3`.
+///
+/// # Errors
+/// [`Error::Parse`] naming any other non-ASCII character and its position.
+fn normalise(input: &str) -> Result<(Vec<u8>, Vec<usize>)> {
+    let mut bytes = Vec::with_capacity(input.len());
+    let mut pos = Vec::with_capacity(input.len());
+    for (n, ch) in input.chars().enumerate() {
+        let col = n + 1;
+        let mut push = |b: u8| {
+            bytes.push(b);
+            pos.push(col);
+        };
+        match ch {
+            '\u{feff}' if n == 0 => {}
+            c if c.is_whitespace() => {}
+            '\u{2212}' => push(b'-'),
+            '\u{b2}' => {
+                push(b'^');
+                push(b'2');
+            }
+            '\u{b3}' => {
+                push(b'^');
+                push(b'3');
+            }
+            c if c.is_ascii() => push(c.to_ascii_lowercase() as u8),
+            c => {
+                return Err(bad(
+                    input,
+                    format!("unexpected character '{c}' at character {col}"),
+                ))
+            }
+        }
+    }
+    Ok((bytes, pos))
+}
+
 /// Parses a Weierstrass equation (module docs) into `[a1, a2, a3, a4, a6]`.
 ///
 /// # Errors
@@ -279,19 +346,32 @@ fn parse_side(
 /// have coefficient 1 and x³ coefficient −1); [`Error::ZeroDenominator`]
 /// for a fraction p/0.
 pub fn parse_equation(input: &str) -> Result<[BigRational; 5]> {
-    let compact: Vec<u8> = input
-        .bytes()
-        .filter(|b| !b.is_ascii_whitespace())
-        .map(|b| b.to_ascii_lowercase())
-        .collect();
-    let mut parts = compact.split(|&b| b == b'=');
-    let (left, right) = match (parts.next(), parts.next(), parts.next()) {
-        (Some(l), Some(r), None) => (l, r),
+    let (compact, pos) = normalise(input)?;
+    let eq = match compact.iter().filter(|&&b| b == b'=').count() {
+        1 => compact.iter().position(|&b| b == b'=').unwrap_or(0),
         _ => return Err(bad(input, "an equation needs exactly one '='")),
     };
+    let left = Side {
+        s: &compact[..eq],
+        pos: &pos[..eq],
+        input,
+    };
+    let right = Side {
+        s: &compact[eq + 1..],
+        pos: &pos[eq + 1..],
+        input,
+    };
     let mut poly = BTreeMap::new();
-    parse_side(left, input, 1, &mut poly)?;
-    parse_side(right, input, -1, &mut poly)?;
+    parse_side(&left, 1, &mut poly)?;
+    parse_side(&right, -1, &mut poly)?;
+    // `x^3 + … = y^2` is the same equation with the sides swapped.
+    if poly.get(&(0, 2)).is_some_and(|c| *c == -BigRational::one())
+        && poly.get(&(3, 0)).is_some_and(BigRational::is_one)
+    {
+        for c in poly.values_mut() {
+            *c = -c.clone();
+        }
+    }
     let take = |poly: &mut BTreeMap<Monomial, BigRational>, m: Monomial| {
         poly.remove(&m).unwrap_or_else(BigRational::zero)
     };
@@ -333,8 +413,8 @@ mod tests {
 
     #[test]
     fn zero_terms_are_dropped_and_signs_folded() {
-        let a = [q(1), q(-1), q(1), q(-10), q(-20)];
-        assert_eq!(equation_text(&a), "y^2 + xy + y = x^3 - x^2 - 10x - 20");
+        let a = [q(1), q(-2), q(3), q(5), q(-7)];
+        assert_eq!(equation_text(&a), "y^2 + xy + 3y = x^3 - 2x^2 + 5x - 7");
         let a = [q(0), q(-30), q(0), q(3), q(0)];
         assert_eq!(equation_text(&a), "y^2 = x^3 - 30x^2 + 3x");
         let half = BigRational::new(1.into(), 2.into());

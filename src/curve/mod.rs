@@ -11,7 +11,7 @@
 //! * `point`: [`Point`] and the exact chord-and-tangent group law
 //!   [Sil09, III.2.3], scalar multiplication, naive height.
 //! * `model`: [`ModelChange`] (u, r, s, t) acting on curves and points,
-//!   composition, inverse [Sil09, III.1, Table 3.1]; [`integral_model`].
+//!   composition, inverse [Sil09, III.1, Table 3.1]; [`clear_denominators`].
 //! * `two_torsion`: the rational points of order 2 and the reduced model
 //!   [`TwoTorsionModel`] y² = x³ + ax² + bx with T = (0, 0), a, b ∈ Z and no
 //!   prime p with p² | a, p⁴ | b.
@@ -19,7 +19,7 @@
 //!   b(a² − 4b) ≠ 0 that every layer below the descent takes.
 //! * `isogeny`: [`TwoIsogeny`] φ: E → E′, y² = x³ − 2ax² + (a² − 4b)x,
 //!   and its dual φ̂, with φ̂ ∘ φ = \[2\] [ST92, III.4].
-//! * `torsion`: [`torsion_subgroup`], exact, by point counts at good primes
+//! * `torsion`: [`torsion`], exact, by point counts at good primes
 //!   (reduction is injective on torsion [Sil09, VII.3.1]), with an early
 //!   exit when the points of order 2 already account for the bound,
 //!   Nagell–Lutz integrality [Sil09, VIII.7.2], halving for the 2-primary
@@ -45,17 +45,19 @@ pub(crate) mod two_torsion;
 pub(crate) mod weierstrass;
 
 pub use isogeny::TwoIsogeny;
-pub use model::{integral_model, ModelChange};
+pub use model::{clear_denominators, ModelChange};
 pub use point::Point;
 pub use reduced::ReducedModel;
 pub use tate::{
-    global_local_data, integral_invariants, local_reduction, local_reduction_rational,
-    GlobalLocalData, IntegralInvariants, Kodaira, LocalReduction, ReductionKind,
+    global_local_data, local_reduction, local_reduction_rational, GlobalLocalData, Kodaira,
+    LocalReduction, ReductionKind,
 };
-pub use torsion::{torsion_subgroup, TorsionGroup};
+pub use torsion::{torsion, TorsionGroup};
 pub use two_torsion::{
     first_two_torsion_model, short_integral_model, two_torsion_model,
     two_torsion_model_with_budget, two_torsion_points, two_torsion_points_with_budget,
     TwoTorsionModel,
 };
-pub use weierstrass::{Curve, MAX_COEFFICIENT_DIGITS};
+pub use weierstrass::{
+    weierstrass_invariants, Curve, WeierstrassInvariants, MAX_COEFFICIENT_DIGITS,
+};

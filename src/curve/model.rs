@@ -302,7 +302,7 @@ pub(crate) fn lcm_denominators<'a>(xs: impl IntoIterator<Item = &'a BigRational>
 ///
 /// Example: `1/2 0 0 3 -7/4` has d = 4 and integral model
 /// `2 0 0 768 -7168`.
-pub fn integral_model(e: &Curve) -> (Curve, ModelChange) {
+pub fn clear_denominators(e: &Curve) -> (Curve, ModelChange) {
     let d = lcm_denominators(e.coefficients());
     if d.is_one() {
         return (e.clone(), ModelChange::identity());

@@ -27,6 +27,7 @@
 //! replaced by its squarefree part f / gcd(f, f′) after a few dozen primes
 //! fail, which restores the hypothesis.
 
+use crate::arith::word::pow_mod;
 use crate::budget::{Budget, Exhausted};
 use num_bigint::BigInt;
 use num_integer::Integer;
@@ -242,19 +243,6 @@ impl ZPoly {
     }
 }
 
-fn pow_mod_u64(mut b: u64, mut e: u64, p: u64) -> u64 {
-    let mut r = 1u64 % p;
-    b %= p;
-    while e > 0 {
-        if e & 1 == 1 {
-            r = ((r as u128 * b as u128) % p as u128) as u64;
-        }
-        b = ((b as u128 * b as u128) % p as u128) as u64;
-        e >>= 1;
-    }
-    r
-}
-
 /// Degree of gcd(a, b) in F_p[x] (a, b reduced, leading zeros stripped);
 /// `None` if both are zero.
 fn gcd_degree_mod_p(a: &[u64], b: &[u64], p: u64) -> Option<usize> {
@@ -270,7 +258,7 @@ fn gcd_degree_mod_p(a: &[u64], b: &[u64], p: u64) -> Option<usize> {
         }
         // a <- a mod b
         let lb = *b.last().unwrap_or(&1);
-        let inv = pow_mod_u64(lb, p - 2, p);
+        let inv = pow_mod(lb, p - 2, p);
         while a.len() >= b.len() {
             let Some(&la) = a.last() else { break };
             let coef = (la as u128 * inv as u128 % p as u128) as u64;
@@ -330,7 +318,8 @@ pub(crate) fn integer_roots(f: &ZPoly) -> Vec<BigInt> {
 /// with `r` (`v ← v·(2 − f′(r)·v) mod m²`), so no extended gcd is
 /// computed on the huge moduli: each step is a few multiplications.
 ///
-/// Errors: [`Exhausted`] when the budget runs out.
+/// # Errors
+/// [`Exhausted`] when the budget runs out.
 pub(crate) fn integer_roots_with_budget(
     f: &ZPoly,
     budget: &mut Budget,
@@ -408,7 +397,7 @@ pub(crate) fn integer_roots_with_budget(
         if d0 == 0 {
             continue;
         }
-        let mut v = BigInt::from(pow_mod_u64(d0, p - 2, p)); // f′(r)⁻¹ mod m
+        let mut v = BigInt::from(pow_mod(d0, p - 2, p)); // f′(r)⁻¹ mod m
         let mut r = BigInt::from(r0);
         let mut m = pb.clone();
         while m <= two_b {

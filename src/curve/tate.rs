@@ -53,7 +53,7 @@ use super::tate_word::{self, Stop, WordReduction};
 use crate::arith::factor;
 use crate::arith::word::word_paths_enabled;
 use crate::budget::Budget;
-use crate::curve::{Curve, ModelChange};
+use crate::curve::{weierstrass_invariants, Curve, ModelChange, WeierstrassInvariants};
 use crate::error::{Error, Result};
 use crate::local::known_primes::KnownPrimes;
 use crate::local::{legendre, valuation, Prime};
@@ -146,6 +146,7 @@ pub enum ReductionKind {
 /// The local data of an elliptic curve at one prime, as found by Tate's
 /// algorithm.
 #[derive(Debug, Clone, PartialEq, Eq)]
+#[non_exhaustive]
 pub struct LocalReduction {
     /// The prime `p`.
     pub prime: Prime,
@@ -170,6 +171,7 @@ pub struct LocalReduction {
 
 /// The local data at every prime together with the global minimal model.
 #[derive(Debug, Clone, PartialEq, Eq)]
+#[non_exhaustive]
 pub struct GlobalLocalData {
     /// The reduced global minimal model `[a1, a2, a3, a4, a6]`:
     /// integral, minimal at every prime, with `a1, a3 ∈ {0, 1}` and
@@ -182,77 +184,6 @@ pub struct GlobalLocalData {
     /// The local data at the primes of bad reduction, ascending; each
     /// record's `change` starts from the model given.
     pub primes: Vec<LocalReduction>,
-}
-
-/// The standard invariants of an integral Weierstrass model
-/// [Sil86, III.1]:
-/// `b2 = a1² + 4a2`, `b4 = a1a3 + 2a4`, `b6 = a3² + 4a6`,
-/// `b8 = a1²a6 + 4a2a6 − a1a3a4 + a2a3² − a4²`,
-/// `c4 = b2² − 24b4`, `c6 = −b2³ + 36b2b4 − 216b6`,
-/// `Δ = −b2²b8 − 8b4³ − 27b6² + 9b2b4b6`.
-#[derive(Debug, Clone, PartialEq, Eq)]
-pub struct IntegralInvariants {
-    /// b2.
-    pub b2: BigInt,
-    /// b4.
-    pub b4: BigInt,
-    /// b6.
-    pub b6: BigInt,
-    /// b8.
-    pub b8: BigInt,
-    /// c4.
-    pub c4: BigInt,
-    /// c6.
-    pub c6: BigInt,
-    /// The discriminant Δ.
-    pub discriminant: BigInt,
-}
-
-/// The invariants b2, b4, b6, b8, c4, c6, Δ of `[a1, a2, a3, a4, a6]`
-/// ([Sil86, III.1]; formulas in [`IntegralInvariants`]).
-///
-/// Example: `y² + y = x³ − x` has `Δ = 37`, `c4 = 48`, `c6 = −216`.
-/// ```
-/// use isodescent::curve::integral_invariants;
-/// let i = integral_invariants(&[0, 0, 1, -1, 0].map(Into::into));
-/// assert_eq!(i.discriminant, 37.into());
-/// assert_eq!(i.c4, 48.into());
-/// assert_eq!(i.c6, (-216).into());
-/// ```
-pub fn integral_invariants(a: &[BigInt; 5]) -> IntegralInvariants {
-    let [b2, b4, b6, b8, c4, c6, discriminant] =
-        super::weierstrass::integer_invariants([&a[0], &a[1], &a[2], &a[3], &a[4]]);
-    IntegralInvariants {
-        b2,
-        b4,
-        b6,
-        b8,
-        c4,
-        c6,
-        discriminant,
-    }
-}
-
-/// b2, b4, b6, b8, c4, c6 without Δ (the cheap part, needed once per pass).
-struct BcInvariants {
-    b2: BigInt,
-    b4: BigInt,
-    b6: BigInt,
-    b8: BigInt,
-    c4: BigInt,
-    c6: BigInt,
-}
-
-fn b_and_c_invariants(a: &[BigInt; 5]) -> BcInvariants {
-    let i = integral_invariants(a);
-    BcInvariants {
-        b2: i.b2,
-        b4: i.b4,
-        b6: i.b6,
-        b8: i.b8,
-        c4: i.c4,
-        c6: i.c6,
-    }
 }
 
 // ---------------------------------------------------------------------
@@ -588,11 +519,15 @@ enum Pass {
 /// * p = 3: completing the square, `y² = x³ + b2x² − b4x + b6` mod 3; if
 ///   `3 | b2` the cusp is the triple root `x = −b6`, otherwise the double
 ///   root `x = −b4/b2 = −b2b4`; `y = −(a1x + a3)/2 = a1x + a3`.
-/// * p ≥ 5: in the model `Y² = X³ − 27c4X − 54c6` with
+/// * p ≥ 5: in the model `Y² = X³ − 27·c4X − 54·c6` with
 ///   `X = 36x + 3b2`, the double root is `X = −3c6/c4` (or 0 when
-///   `p | c4`), so `x = −(c6 + b2c4)/(12c4)` (or `−b2/12`);
+///   `p | c4`), so `x = −(c6 + b2c4)/(12·c4)` (or `−b2/12`);
 ///   `y = −(a1x + a3)/2`.
-fn singular_point(a: &[BigInt; 5], inv: &BcInvariants, p: &Prime) -> Result<(BigInt, BigInt)> {
+fn singular_point(
+    a: &[BigInt; 5],
+    inv: &WeierstrassInvariants,
+    p: &Prime,
+) -> Result<(BigInt, BigInt)> {
     let pp = p.get();
     let [a1, a2, a3, a4, a6] = a;
     match p.to_u64() {
@@ -634,7 +569,7 @@ fn singular_point(a: &[BigInt; 5], inv: &BcInvariants, p: &Prime) -> Result<(Big
 fn tate_pass(run: &mut Run<'_>, n: u64) -> Result<Pass> {
     let p = run.p;
     let pp = p.get().clone();
-    let inv0 = b_and_c_invariants(&run.a);
+    let inv0 = weierstrass_invariants(&run.a);
 
     // Step 2: singular point to (0, 0).
     let (r, t) = singular_point(&run.a, &inv0, p)?;
@@ -642,7 +577,7 @@ fn tate_pass(run: &mut Run<'_>, n: u64) -> Result<Pass> {
     if !(divisible(&run.a[2], &pp) && divisible(&run.a[3], &pp) && divisible(&run.a[4], &pp)) {
         return Err(internal("singular point not moved to (0, 0)"));
     }
-    let inv = b_and_c_invariants(&run.a);
+    let inv = weierstrass_invariants(&run.a);
     if !divisible(&inv.b2, &pp) {
         // Multiplicative: tangent slopes are the roots of T² + a1T − a2.
         let split = matches!(
@@ -858,10 +793,32 @@ fn subprocedure_in_star(run: &mut Run<'_>, disc_val: u64) -> Result<(u64, u64)> 
 /// assert_eq!((lr.conductor_exponent, lr.tamagawa), (1, 5));
 /// ```
 pub fn local_reduction(coeffs: &[BigInt; 5], p: &Prime) -> Result<LocalReduction> {
+    local_reduction_with_budget(coeffs, p, &mut Budget::unlimited())
+}
+
+/// [`local_reduction`] under a budget's deadline, read before each pass
+/// of Tate's algorithm (a pass is O(1) products of numbers of the model's
+/// size, and takes milliseconds on huge models). No units are charged:
+/// the number of passes is at most v_p(Δ)/12 + 1, bounded by the input.
+///
+/// # Errors
+/// Those of [`local_reduction`]; [`Error::BudgetExhausted`] when the
+/// budget or its deadline runs out.
+pub(crate) fn local_reduction_with_budget(
+    coeffs: &[BigInt; 5],
+    p: &Prime,
+    budget: &mut Budget,
+) -> Result<LocalReduction> {
     if let Some(lr) = local_reduction_by_words(coeffs, p)? {
         return Ok(lr);
     }
-    local_reduction_big(coeffs, p)
+    local_reduction_budgeted(coeffs, p, budget)
+}
+
+fn tate_stopped() -> Error {
+    Error::BudgetExhausted {
+        stage: "Tate's algorithm".into(),
+    }
 }
 
 /// The machine-word route of [`local_reduction`] (module `tate_word`):
@@ -913,8 +870,20 @@ fn from_word(p: &Prime, w: WordReduction) -> LocalReduction {
 }
 
 /// [`local_reduction`] in `BigInt` arithmetic throughout.
+#[cfg(test)]
 pub(crate) fn local_reduction_big(coeffs: &[BigInt; 5], p: &Prime) -> Result<LocalReduction> {
-    let inv = integral_invariants(coeffs);
+    local_reduction_budgeted(coeffs, p, &mut Budget::unlimited())
+}
+
+/// [`local_reduction`] in `BigInt` arithmetic throughout, under `budget`
+/// (see [`local_reduction_with_budget`]).
+fn local_reduction_budgeted(
+    coeffs: &[BigInt; 5],
+    p: &Prime,
+    budget: &mut Budget,
+) -> Result<LocalReduction> {
+    budget.check_deadline().map_err(|_| tate_stopped())?;
+    let inv = weierstrass_invariants(coeffs);
     if inv.discriminant.is_zero() {
         return Err(Error::SingularCurve {
             reason: "discriminant is 0".into(),
@@ -936,6 +905,7 @@ pub(crate) fn local_reduction_big(coeffs: &[BigInt; 5], p: &Prime) -> Result<Loc
     // by p¹².
     let mut n = valuation(&inv.discriminant, p).ok_or_else(|| internal("zero discriminant"))?;
     loop {
+        budget.check_deadline().map_err(|_| tate_stopped())?;
         let found = if n == 0 {
             Pass::Found {
                 kodaira: Kodaira::I0,
@@ -1070,7 +1040,7 @@ pub(crate) fn global_local_data_with(
     };
     let disc = match &word_start {
         Some((_, disc)) => BigInt::from(*disc),
-        None => integral_invariants(&integral).discriminant,
+        None => weierstrass_invariants(&integral).discriminant,
     };
     if disc.is_zero() {
         return Err(Error::SingularCurve {
@@ -1120,6 +1090,7 @@ pub(crate) fn global_local_data_with(
     let mut records = Vec::with_capacity(primes.len());
     let mut conductor = BigInt::one();
     for q in primes {
+        budget.check_deadline().map_err(|_| tate_stopped())?;
         let p = Prime::new(q)?;
         if let Global::Word { a, disc, total } = &mut state {
             match p.to_u64().map(|pw| word_step(a, *disc, total, pw)) {
@@ -1142,7 +1113,7 @@ pub(crate) fn global_local_data_with(
         let Global::Big { a, total } = &mut state else {
             return Err(internal("model state"));
         };
-        let lr = local_reduction(a, &p)?;
+        let lr = local_reduction_with_budget(a, &p, budget)?;
         let [u, r, s, t] = lr.change.clone();
         let change = ModelChange::new(u, r, s, t)?;
         let to_here = total.then(&change);
@@ -1355,9 +1326,9 @@ impl Curve {
     /// use isodescent::curve::Curve;
     /// use isodescent::Budget;
     /// let e = Curve::from_ints([0, 0, 1, -1, 0]).unwrap();
-    /// assert_eq!(e.local_data(&mut Budget::unlimited()).unwrap().conductor, 37.into());
+    /// assert_eq!(e.tate_data(&mut Budget::unlimited()).unwrap().conductor, 37.into());
     /// ```
-    pub fn local_data(&self, budget: &mut Budget) -> Result<GlobalLocalData> {
+    pub fn tate_data(&self, budget: &mut Budget) -> Result<GlobalLocalData> {
         global_local_data(self.coefficients(), budget)
     }
 
@@ -1366,7 +1337,7 @@ impl Curve {
     ///
     /// # Errors
     /// None in practice (a [`Curve`] is nonsingular).
-    pub fn local_data_at(&self, p: &Prime) -> Result<LocalReduction> {
+    pub fn reduction_at(&self, p: &Prime) -> Result<LocalReduction> {
         local_reduction_rational(self.coefficients(), p)
     }
 
@@ -1382,12 +1353,12 @@ impl Curve {
     /// use isodescent::curve::Curve;
     /// use isodescent::Budget;
     /// let e = Curve::from_ints([0, 0, 0, -16, 0]).unwrap();
-    /// let (m, ch) = e.global_minimal_model(&mut Budget::unlimited()).unwrap();
+    /// let (m, ch) = e.to_minimal(&mut Budget::unlimited()).unwrap();
     /// assert_eq!(m, Curve::from_ints([0, 0, 0, -1, 0]).unwrap());
     /// assert_eq!(ch.u().to_string(), "2");
     /// ```
-    pub fn global_minimal_model(&self, budget: &mut Budget) -> Result<(Curve, ModelChange)> {
-        let g = self.local_data(budget)?;
+    pub fn to_minimal(&self, budget: &mut Budget) -> Result<(Curve, ModelChange)> {
+        let g = self.tate_data(budget)?;
         let [u, r, s, t] = g.change;
         Ok((
             Curve::from_bigints(g.minimal_model)?,
@@ -1400,6 +1371,17 @@ impl Curve {
 #[allow(clippy::unwrap_used)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn a_passed_deadline_stops_tates_algorithm() {
+        // The clock is read before each prime, on the word path too.
+        let a = [0, -30, 0, 3, 0].map(|c: i64| BigRational::from_integer(c.into()));
+        let mut b = Budget::unlimited().with_deadline(std::time::Instant::now());
+        let r = global_local_data_with(&a, &mut b, &mut KnownPrimes::default());
+        assert!(matches!(r, Err(Error::BudgetExhausted { .. })));
+        let mut free = Budget::unlimited();
+        assert!(global_local_data_with(&a, &mut free, &mut KnownPrimes::default()).is_ok());
+    }
 
     fn p(q: u64) -> Prime {
         Prime::small(q).unwrap()

@@ -10,8 +10,9 @@
 //! the coefficients is checked ([`Ck`]); on overflow the routine answers
 //! [`Stop::Overflow`] and the caller runs the `BigInt` routine instead.
 //! Residue arithmetic (products of two residues below `p < 2^62`) runs in
-//! `u128`. The tests in `tests` and `tests/tate_word_paths.rs` compare the
-//! two routines on random models near the word-size boundary.
+//! `u128`. The tests in `tests` compare the two routines on random models
+//! near the word-size boundary, and `src/family/word_sweep.rs` compares
+//! whole families with the word paths on and off.
 
 use super::tate::{Kodaira, ReductionKind};
 use crate::arith::word::{divisible_pow, inv_mod, mul_mod, pow_i128, residue, Ck};
@@ -61,7 +62,7 @@ pub(crate) fn bc_word(a: &[i128; 5]) -> W<[i128; 6]> {
     Ok([ok(b2)?, ok(b4)?, ok(b6)?, ok(b8)?, ok(c4)?, ok(c6)?])
 }
 
-/// The discriminant `Δ = −b2²b8 − 8b4³ − 27b6² + 9b2b4b6`.
+/// The discriminant `Δ = −b2²b8 − 8·b4³ − 27·b6² + 9·b2·b4·b6`.
 pub(crate) fn discriminant_word(a: &[i128; 5]) -> W<i128> {
     let [b2, b4, b6, b8, _, _] = bc_word(a)?.map(Ck::new);
     ok(-(b2 * b2 * b8) - 8 * b4 * b4 * b4 - 27 * b6 * b6 + 9 * b2 * b4 * b6)

@@ -132,7 +132,7 @@ impl TorsionGroup {
 ///
 /// Example: y² = x³ − x has E(Q)_tors = {O, (−1,0), (0,0), (1,0)} ≅
 /// Z/2 × Z/2.
-pub fn torsion_subgroup(e: &Curve) -> TorsionGroup {
+pub fn torsion(e: &Curve) -> TorsionGroup {
     let work = WorkModel::of(e);
     let roots = integer_roots(&work.cubic);
     let (bound, proven) = reduction_bound(&work, 1 + roots.len() as u32);

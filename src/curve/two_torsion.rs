@@ -59,13 +59,13 @@ fn rat(n: i64) -> BigRational {
 /// (A, B, the short curve, the change from E to it).
 ///
 /// The change (1/6, −b2/12, −a1/2, −(a1r + a3)/2) gives
-/// y² = x³ − 27c4 x − 54c6 [Sil09, III.1]; then the scaling 1/d with
+/// y² = x³ − 27·c4 x − 54·c6 [Sil09, III.1]; then the scaling 1/d with
 /// d = lcm(den A, den B) clears denominators (A ↦ d⁴A, B ↦ d⁶B).
 pub fn short_integral_model(e: &Curve) -> (BigInt, BigInt, Curve, ModelChange) {
     let r = -e.b2() / rat(12);
     let s = -e.a1() / rat(2);
     let t = -(e.a1() * &r + e.a3()) / rat(2);
-    // A = −27c4, B = −54c6 [Sil09, III.1]; then clear denominators.
+    // A = −27·c4, B = −54·c6 [Sil09, III.1]; then clear denominators.
     let a_q = e.c4() * rat(-27);
     let b_q = e.c6() * rat(-54);
     let d = lcm_denominators([&a_q, &b_q]);
@@ -96,7 +96,7 @@ pub fn short_integral_model(e: &Curve) -> (BigInt, BigInt, Curve, ModelChange) {
 /// Method: a point of order 2 has 2y + a1x + a3 = 0 and x a root of
 /// 4x³ + b2x² + 2b4x + b6 [Sil09, III.2, Exercise 3.7]. For an integral
 /// model X = 4x is then an integer root of the monic
-/// X³ + b2X² + 8b4X + 16b6 (and for a1 = a3 = 0 simply x is an integer
+/// X³ + b2X² + 8·b4·X + 16·b6 (and for a1 = a3 = 0 simply x is an integer
 /// root of x³ + a2x² + a4x + a6); other models go through the integral
 /// short model (module docs). Integer roots are found exactly by p-adic
 /// lifting, or directly when the cubic has the factor x. Cost: a few
@@ -114,7 +114,8 @@ pub fn two_torsion_points(e: &Curve) -> Vec<Point> {
 /// operand size (one unit per 64-bit word product, see
 /// `poly::integer_roots_with_budget`) and honouring its deadline.
 ///
-/// Errors: [`Error::BudgetExhausted`] (stage "2-torsion root finding")
+/// # Errors
+/// [`Error::BudgetExhausted`] (stage "2-torsion root finding")
 /// when the budget runs out.
 pub fn two_torsion_points_with_budget(e: &Curve, budget: &mut Budget) -> Result<Vec<Point>> {
     let exhausted = |_| Error::BudgetExhausted {

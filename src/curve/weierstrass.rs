@@ -6,8 +6,8 @@
 //! ```text
 //! b2 = a1² + 4a2,          b4 = 2a4 + a1a3,          b6 = a3² + 4a6,
 //! b8 = a1²a6 + 4a2a6 − a1a3a4 + a2a3² − a4²,
-//! c4 = b2² − 24b4,         c6 = −b2³ + 36b2b4 − 216b6,
-//! Δ  = −b2²b8 − 8b4³ − 27b6² + 9b2b4b6,      j = c4³/Δ,
+//! c4 = b2² − 24·b4,         c6 = −b2³ + 36·b2·b4 − 216·b6,
+//! Δ  = −b2²b8 − 8·b4³ − 27·b6² + 9·b2·b4·b6,      j = c4³/Δ,
 //! ```
 //!
 //! related by 4b8 = b2b6 − b4² and 1728Δ = c4³ − c6². The model is an
@@ -15,7 +15,7 @@
 //!
 //! # Text form
 //! [`Display`](std::fmt::Display) writes a curve as its equation, zero
-//! terms dropped and signs folded (`y^2 + xy + y = x^3 - x^2 - 10x - 20`;
+//! terms dropped and signs folded (`y^2 + xy + 3y = x^3 - 2x^2 + 5x - 7`;
 //! see [`super::equation`]). [`FromStr`] reads that equation (with `^` or
 //! `**`, any spacing, rational coefficients) and, as an alternative, the
 //! five coefficients a1 a2 a3 a4 a6 in that order, each an integer or a
@@ -118,7 +118,7 @@ impl Mul for Checked {
 
 /// [b2, b4, b6, b8, c4, c6, Δ] of an integral model (module docs), in any
 /// commutative ring with the needed operations.
-fn integral_invariants<T>(a: &[T; 5]) -> [T; 7]
+fn invariants_in_ring<T>(a: &[T; 5]) -> [T; 7]
 where
     T: Clone + Add<Output = T> + Sub<Output = T> + Mul<Output = T> + From<i64>,
 {
@@ -146,12 +146,62 @@ where
 pub(crate) fn integer_invariants(a: [&BigInt; 5]) -> [BigInt; 7] {
     let small = a.map(|c| Checked(c.to_i128()));
     if small.iter().all(|c| c.0.is_some()) {
-        let inv = integral_invariants(&small);
+        let inv = invariants_in_ring(&small);
         if inv.iter().all(|c| c.0.is_some()) {
             return inv.map(|c| BigInt::from(c.0.unwrap_or_default()));
         }
     }
-    integral_invariants(&a.map(|c| c.clone()))
+    invariants_in_ring(&a.map(|c| c.clone()))
+}
+
+/// The standard invariants of an integral Weierstrass model
+/// [Sil86, III.1]:
+/// `b2 = a1² + 4a2`, `b4 = a1a3 + 2a4`, `b6 = a3² + 4a6`,
+/// `b8 = a1²a6 + 4a2a6 − a1a3a4 + a2a3² − a4²`,
+/// `c4 = b2² − 24b4`, `c6 = −b2³ + 36b2b4 − 216b6`,
+/// `Δ = −b2²b8 − 8b4³ − 27b6² + 9b2b4b6`.
+#[derive(Debug, Clone, PartialEq, Eq)]
+#[non_exhaustive]
+pub struct WeierstrassInvariants {
+    /// b2.
+    pub b2: BigInt,
+    /// b4.
+    pub b4: BigInt,
+    /// b6.
+    pub b6: BigInt,
+    /// b8.
+    pub b8: BigInt,
+    /// c4.
+    pub c4: BigInt,
+    /// c6.
+    pub c6: BigInt,
+    /// The discriminant Δ.
+    pub discriminant: BigInt,
+}
+
+/// The invariants b2, b4, b6, b8, c4, c6, Δ of `[a1, a2, a3, a4, a6]`
+/// ([Sil86, III.1]; formulas in [`WeierstrassInvariants`]).
+///
+/// Example: `y² + y = x³ − x` has `Δ = 37`, `c4 = 48`, `c6 = −216`.
+/// ```
+/// use isodescent::curve::weierstrass_invariants;
+/// let i = weierstrass_invariants(&[0, 0, 1, -1, 0].map(Into::into));
+/// assert_eq!(i.discriminant, 37.into());
+/// assert_eq!(i.c4, 48.into());
+/// assert_eq!(i.c6, (-216).into());
+/// ```
+pub fn weierstrass_invariants(a: &[BigInt; 5]) -> WeierstrassInvariants {
+    let [b2, b4, b6, b8, c4, c6, discriminant] =
+        integer_invariants([&a[0], &a[1], &a[2], &a[3], &a[4]]);
+    WeierstrassInvariants {
+        b2,
+        b4,
+        b6,
+        b8,
+        c4,
+        c6,
+        discriminant,
+    }
 }
 
 impl Curve {
@@ -298,15 +348,15 @@ impl Curve {
     pub fn b8(&self) -> &BigRational {
         &self.b8
     }
-    /// c4 = b2² − 24b4.
+    /// c4 = b2² − 24·b4.
     pub fn c4(&self) -> &BigRational {
         &self.c4
     }
-    /// c6 = −b2³ + 36b2b4 − 216b6.
+    /// c6 = −b2³ + 36·b2·b4 − 216·b6.
     pub fn c6(&self) -> &BigRational {
         &self.c6
     }
-    /// Δ = −b2²b8 − 8b4³ − 27b6² + 9b2b4b6 (nonzero).
+    /// Δ = −b2²b8 − 8·b4³ − 27·b6² + 9·b2·b4·b6 (nonzero).
     pub fn discriminant(&self) -> &BigRational {
         &self.disc
     }
@@ -319,7 +369,7 @@ impl Curve {
     }
 
     /// True iff all five coefficients are integers.
-    pub fn is_integral(&self) -> bool {
+    pub fn has_integral_coefficients(&self) -> bool {
         self.integral
     }
 
@@ -474,6 +524,20 @@ impl FromStr for Curve {
         if s.contains('=') {
             return Curve::new(super::equation::parse_equation(s)?);
         }
+        // Five coefficients: a leading byte-order mark dropped, the minus
+        // sign U+2212 read as '-', and `[a1, a2, a3, a4, a6]` accepted.
+        let s = s.strip_prefix('\u{feff}').unwrap_or(s).trim();
+        let s = match s.strip_prefix('[').and_then(|t| t.strip_suffix(']')) {
+            Some(inner) => inner,
+            None => s,
+        };
+        let owned;
+        let s = if s.contains('\u{2212}') {
+            owned = s.replace('\u{2212}', "-");
+            owned.as_str()
+        } else {
+            s
+        };
         let tokens = split_tokens(s)?;
         if tokens.len() != 5 {
             return Err(Error::Parse {

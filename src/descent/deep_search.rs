@@ -51,13 +51,13 @@ use crate::budget::Budget;
 use crate::curve::{Curve, Point};
 use crate::error::{Error, Result};
 use crate::quartic::search::{search, SearchOptions, SearchOutcome, MAX_HEIGHT};
-use crate::quartic::second_descent::{
+use crate::quartic::Quartic;
+use crate::second::covering::{
     second_descent, second_descent_on_twists, SecondDescentOptions, SecondDescentOutcome,
 };
-use crate::quartic::Quartic;
+use crate::second::pairing::{class_lift, soluble_twists};
 use crate::selmer::f2::{BitVec, Subspace};
 use crate::selmer::group::LocalCondition;
-use crate::selmer::pairing::{class_lift, soluble_twists};
 
 /// Knobs of [`search_missing_points`].
 #[derive(Clone, Debug, PartialEq, Eq)]
@@ -327,12 +327,11 @@ fn search_coverings(
     options: &DeepSearchOptions,
     budget: &mut Budget,
 ) -> Result<Option<Point>> {
-    let (a, b) = (&hunt.side.a(), &hunt.side.b());
     let mut sd = SecondDescentOptions::default().with_search_height(h);
     sd.search_units = sd.search_units.max(search_cost(h));
     sd.max_twists = options.max_twists;
     let outcome = if hunt.side.pairing.is_some() {
-        let lift = class_lift(a, b, d, &hunt.side.qs2, budget)?;
+        let lift = class_lift(&hunt.side.model, d, &hunt.side.qs2, budget)?;
         let twists = soluble_twists(
             &lift,
             &hunt.side.qs2,
@@ -397,6 +396,8 @@ struct IsogenyHunt<'a> {
     descent: &'a IsogenyDescent,
     sides: [SideHunt<'a>; 2],
     found: Vec<Point>,
+    /// A budget (units or the clock) stopped a search of this hunt.
+    cut: bool,
 }
 
 impl<'a> IsogenyHunt<'a> {
@@ -408,6 +409,7 @@ impl<'a> IsogenyHunt<'a> {
                 SideHunt::new(&descent.codomain, descent.isogeny.codomain()),
             ],
             found: Vec::new(),
+            cut: false,
         }
     }
 
@@ -439,18 +441,25 @@ impl<'a> IsogenyHunt<'a> {
                     }
                     self.sides[s].done.push(d.clone());
                     if budget.is_exhausted() {
+                        self.cut = true;
                         return Ok(false);
                     }
                     let hunt = &self.sides[s];
                     let mut p = match search_space(hunt, &d, space_h, budget) {
                         Ok(p) => p,
-                        Err(e) if is_budget(&e) => return Ok(false),
+                        Err(e) if is_budget(&e) => {
+                            self.cut = true;
+                            return Ok(false);
+                        }
                         Err(e) => return Err(e),
                     };
                     if p.is_none() {
                         p = match search_coverings(hunt, &d, h, options, budget) {
                             Ok(p) => p,
-                            Err(e) if is_budget(&e) => return Ok(false),
+                            Err(e) if is_budget(&e) => {
+                                self.cut = true;
+                                return Ok(false);
+                            }
                             // A class the covering machinery cannot handle
                             // (e.g. too many twists) is skipped; a failed
                             // internal check (`Error::Internal`) is not.
@@ -553,6 +562,17 @@ pub fn complete_report_points(
     options: &DeepSearchOptions,
     budget: &mut Budget,
 ) -> Result<Vec<Point>> {
+    complete_report_points_cut(report, target_rank, options, budget).map(|(p, _)| p)
+}
+
+/// [`complete_report_points`], also saying whether a budget (units or the
+/// clock) cut the hunt short before `target_rank` points were known.
+pub(crate) fn complete_report_points_cut(
+    report: &DescentReport,
+    target_rank: usize,
+    options: &DeepSearchOptions,
+    budget: &mut Budget,
+) -> Result<(Vec<Point>, bool)> {
     options.check()?;
     if target_rank > report.rank_upper() {
         return Err(Error::InvalidArgument {
@@ -562,8 +582,8 @@ pub fn complete_report_points(
             ),
         });
     }
-    if report.points().len() >= target_rank {
-        return Ok(report.points().to_vec());
+    if report.descent_points().len() >= target_rank {
+        return Ok((report.descent_points().to_vec(), false));
     }
     let mut hunts: Vec<IsogenyHunt<'_>> = report
         .isogenies()
@@ -586,13 +606,15 @@ pub fn complete_report_points(
         .iter()
         .rev()
         .max_by_key(|h| (h.total() >= target_rank, h.total()));
+    let reached = best.is_some_and(|h| h.total() >= target_rank);
+    let cut = !reached && (budget.is_exhausted() || hunts.iter().any(|h| h.cut));
     match best {
-        Some(h) if h.total() > report.points().len() => {
+        Some(h) if h.total() > report.descent_points().len() => {
             let mut all = h.descent.points.clone();
             all.extend(h.found.iter().cloned());
-            Ok(all)
+            Ok((all, cut))
         }
-        _ => Ok(report.points().to_vec()),
+        _ => Ok((report.descent_points().to_vec(), cut)),
     }
 }
 

@@ -32,7 +32,7 @@ use super::report::{Completion, DescentReport, RankBounds};
 use crate::analytic::{self, AnalyticData, RankTheorem, ShaLedger};
 use crate::error::Error;
 use crate::heegner::{heegner_point, HeegnerOutcome, HeegnerPoint};
-use crate::height::{saturate, Saturation};
+use crate::height::{saturate, saturate_with_context, HeightContext, Saturation};
 
 /// How the points of a report were obtained. Every point is checked on
 /// the curve in exact arithmetic whatever its origin.
@@ -86,6 +86,7 @@ impl RankProof {
 
 /// The ledger's comparison with the 2-part of Sha proven by the descent.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
+#[non_exhaustive]
 pub struct ShaTwoPart {
     /// dim Ш(E)\[2\] = dim Sel²(E) − dim E(Q)\[2\] − rank (proven).
     pub descent_dimension: usize,
@@ -111,7 +112,7 @@ pub(crate) struct GlobalFacts {
     /// What the Heegner step found, when it ran.
     pub(crate) heegner: Option<HeegnerOutcome>,
     /// ĥ of the descent's points when saturation did not run.
-    pub(crate) point_heights: Vec<crate::height::Certified>,
+    pub(crate) point_heights: Vec<crate::arith::Certified>,
 }
 
 fn note_stop(report: &mut DescentReport, step: &str, e: &Error) {
@@ -132,9 +133,9 @@ pub(crate) fn complete(
     if report.bounds.is_decided() {
         report.global.settled_by = Some(RankProof::Descent);
     }
-    if let Some(aopts) = &options.analytic {
+    if let (Some(aopts), Some(local)) = (&options.analytic, &report.local_data) {
         let mut budget = options.budget(options.global_units, deadline);
-        match analytic::analyse(&report.curve, &report.local_data, aopts, &mut budget) {
+        match analytic::analyse(&report.curve, local, aopts, &mut budget) {
             Ok(a) => {
                 if let Some((r, theorem)) = a.rank_proven() {
                     let b = report.bounds;
@@ -168,41 +169,68 @@ pub(crate) fn complete(
                 Some((h, sha2)) if rank == 1 => dopts.guided(h, sha2),
                 _ => dopts.clone(),
             };
-            match super::deep_search::complete_report_points(report, rank, &guided, &mut budget) {
-                Ok(points) if points.len() > report.points.len() => {
-                    // Independent points (certified by their classes):
-                    // the descent's lower bound rises with them.
-                    report.descent_bounds.lower = report.descent_bounds.lower.max(points.len());
-                    report.points = points;
-                    report.global.origin = PointOrigin::DeepSearch;
-                    // The points and the Selmer bounds now prove the rank
-                    // without the analytic theorem (which only guided the
-                    // search).
-                    if report.descent_bounds.is_decided() {
-                        report.global.settled_by = Some(RankProof::Descent);
+            match super::deep_search::complete_report_points_cut(report, rank, &guided, &mut budget)
+            {
+                Ok((points, cut)) => {
+                    if cut {
+                        let e = Error::BudgetExhausted {
+                            stage: "deep point search".into(),
+                        };
+                        note_stop(report, "deep search for points", &e);
+                    }
+                    if points.len() > report.points.len() {
+                        // Independent points (certified by their classes):
+                        // the descent's lower bound rises with them.
+                        report.descent_bounds.lower = report.descent_bounds.lower.max(points.len());
+                        report.points = points;
+                        report.global.origin = PointOrigin::DeepSearch;
+                        // The points and the Selmer bounds now prove the rank
+                        // without the analytic theorem (which only guided the
+                        // search).
+                        if report.descent_bounds.is_decided() {
+                            report.global.settled_by = Some(RankProof::Descent);
+                        }
                     }
                 }
-                Ok(_) => {}
                 Err(e) => note_stop(report, "deep search for points", &e),
             }
         }
     }
     let rank = report.bounds.lower;
+    // One height context per curve, from the report's local data (Tate's
+    // algorithm is not run again).
+    let heights = match &report.local_data {
+        Some(l) if !report.points.is_empty() => {
+            HeightContext::from_local_data(&report.curve, l).ok()
+        }
+        _ => None,
+    };
     if let Some(sopts) = &options.saturation {
         if report.bounds.is_decided() && rank > 0 && report.points.len() == rank {
             let mut budget = options.budget(options.global_units, deadline);
-            match saturate(&report.curve, &report.points, sopts, &mut budget) {
+            let done = match &heights {
+                Some(ctx) => saturate_with_context(ctx, &report.points, sopts, &mut budget),
+                None => saturate(&report.curve, &report.points, sopts, &mut budget),
+            };
+            match done {
                 Ok(s) => report.global.saturation = Some(s),
                 Err(e) => note_stop(report, "saturation", &e),
             }
         }
     }
     if report.global.saturation.is_none() && !report.points.is_empty() {
-        report.global.point_heights = report
-            .points
-            .iter()
-            .map_while(|p| crate::height::canonical_height(&report.curve, p).ok())
-            .collect();
+        let mut budget = options.budget(options.global_units, deadline);
+        let ctx = match heights {
+            Some(c) => Some(c),
+            None => HeightContext::new(&report.curve, &mut budget).ok(),
+        };
+        if let Some(ctx) = ctx {
+            report.global.point_heights = report
+                .points
+                .iter()
+                .map_while(|p| ctx.height(p).ok())
+                .collect();
+        }
     }
     ledger(report);
 }
@@ -280,6 +308,7 @@ fn predicted_generator_height(report: &DescentReport) -> Option<(f64, usize)> {
     let omega = a.real_period()?.value();
     let cp: f64 = report
         .local_data
+        .as_ref()?
         .primes
         .iter()
         .map(|p| p.tamagawa as f64)
@@ -308,7 +337,7 @@ fn ledger(report: &mut DescentReport) {
     } else {
         match &report.global.saturation {
             Some(s) if s.proven_saturated && s.generators.len() == rank => {
-                match analytic::Certified::new(s.regulator.value, s.regulator.error) {
+                match crate::arith::Certified::new(s.regulator.value(), s.regulator.error()) {
                     Ok(c) => Some(c),
                     Err(_) => return,
                 }
@@ -316,8 +345,10 @@ fn ledger(report: &mut DescentReport) {
             _ => return,
         }
     };
-    let tamagawa: BigInt = report
-        .local_data
+    let Some(local) = &report.local_data else {
+        return;
+    };
+    let tamagawa: BigInt = local
         .primes
         .iter()
         .map(|p| BigInt::from(p.tamagawa))

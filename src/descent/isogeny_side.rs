@@ -10,7 +10,7 @@
 //! of b(a² − 4b), the Selmer group as the preimage of their product and
 //! K = span of α(torsion), assembled in the Selmer layer
 //! (`crate::selmer::assemble`); (4) the lifting pairing and its kernel I ⊇ α(E(Q)) (the second descent
-//! as linear algebra, [`crate::selmer::pairing`]); (5) for at most
+//! as linear algebra, [`crate::second::pairing`]); (5) for at most
 //! `max_classes_searched` cosets of I/K (Sel/K with the second descent
 //! off), in a fixed order, search a few representatives for a point,
 //! adding its class to K when found; (6) with the second descent on, the
@@ -31,26 +31,106 @@ use crate::error::{Error, Result};
 use crate::local::{Place, Prime};
 use crate::quartic::image::LocalImage;
 use crate::quartic::search::{search_quartic, QuarticPoint, SearchOptions, SearchOutcome};
-use crate::quartic::second_descent::{
-    second_descent, second_descent_on_twists, NoPointEvidence, SecondDescentOptions,
-    SecondDescentOutcome,
-};
 use crate::quartic::Quartic;
+use crate::second::covering::{
+    second_descent, second_descent_on_twists, NoPointEvidence, ObstructedCurve,
+    SecondDescentOptions, SecondDescentOutcome, TwistObstruction,
+};
+use crate::second::pairing::{class_lift, lift_pairing, soluble_twists, LiftPairing};
 pub(crate) use crate::selmer::assemble::connecting_value;
 use crate::selmer::assemble::{assemble_selmer, AssembledSelmer};
 use crate::selmer::f2::{BitVec, Subspace};
 use crate::selmer::group::LocalCondition;
-use crate::selmer::pairing::{class_lift, lift_pairing, soluble_twists, LiftPairing};
 use crate::selmer::qs2::QS2;
 
-/// Why a 4-covering of a homogeneous space has no point: the covering
-/// y² = g(u, v) (coefficients of u⁴, u³v, …, v⁴) is insoluble at `place`.
+/// Why one twist `D_λ` of a homogeneous space has no point: a genuine
+/// 4-covering insoluble at a place, or, when neither conic of `D_λ` has a
+/// rational point (so no quartic model was built), the conic it maps onto
+/// with no point at a place.
 #[derive(Clone, Debug, PartialEq, Eq)]
-pub struct CoveringObstruction {
-    /// The covering quartic's coefficients [g4, g3, g2, g1, g0].
-    pub covering: [BigInt; 5],
-    /// A place where it has no point.
-    pub place: Place,
+pub enum CoveringObstruction {
+    /// The 4-covering y² = g(u, v) (coefficients of u⁴, u³v, …, v⁴, with
+    /// non-zero discriminant) has no point over `place`.
+    Quartic {
+        /// The covering quartic's coefficients [g4, g3, g2, g1, g0].
+        covering: [BigInt; 5],
+        /// A place where it has no point.
+        place: Place,
+    },
+    /// The conic `scale·s² = A u² + B uv + C v²` (`form = [A, B, C]`), onto
+    /// which `D_λ` maps, has no point over `place`: the Hilbert symbol
+    /// `(hilbert[0], hilbert[1])` at `place` is −1.
+    Conic {
+        /// The coefficient `λ` of `s²`.
+        scale: BigInt,
+        /// `[A, B, C]`.
+        form: [BigInt; 3],
+        /// Two integers whose Hilbert symbol at `place` is −1 exactly when
+        /// the conic has no point there: `(x, D)` with `x = A·λ` (or `C·λ`
+        /// when `A = 0`) and `D = B² − 4AC`.
+        hilbert: [BigInt; 2],
+        /// The place where the conic has no point.
+        place: Place,
+    },
+}
+
+impl CoveringObstruction {
+    /// The place where the curve has no point.
+    pub fn place(&self) -> &Place {
+        match self {
+            CoveringObstruction::Quartic { place, .. }
+            | CoveringObstruction::Conic { place, .. } => place,
+        }
+    }
+
+    /// Re-checks this obstruction from its own data: a quartic has non-zero
+    /// discriminant and [`crate::quartic::locally_soluble`] finds no point
+    /// at the place; a conic has `hilbert` as stated (from its
+    /// coefficients) and the Hilbert symbol −1 at the place. False on
+    /// anything that does not check out (budget exhaustion included).
+    pub fn recheck(&self, budget: &mut Budget) -> bool {
+        match self {
+            CoveringObstruction::Quartic { covering, place } => {
+                let Ok(q) = Quartic::new(covering.clone()) else {
+                    return false;
+                };
+                !q.discriminant().is_zero()
+                    && matches!(
+                        crate::quartic::locally_soluble(&q, place, budget),
+                        Ok(s) if !s.is_soluble()
+                    )
+            }
+            CoveringObstruction::Conic {
+                scale,
+                form,
+                hilbert,
+                place,
+            } => {
+                conic_hilbert_pair(scale, form).as_ref() == Some(hilbert)
+                    && crate::local::hilbert_symbol_int(&hilbert[0], &hilbert[1], place).ok()
+                        == Some(-1)
+            }
+        }
+    }
+}
+
+/// `(x, D)` for the conic `c·s² = A u² + B uv + C v²`: `x = A·c` (or `C·c`
+/// when `A = 0`), `D = B² − 4AC`. From `4A·(Au² + Buv + Cv²) = (2Au + Bv)² −
+/// D v²` the conic is `X² − D Y² = 4Ac S²`, which has a point over `Q_v`
+/// exactly when `(D, Ac)_v = 1` [Serre73, III.1.1 and IV.2.2]. `None` when
+/// `A = C = 0` or `c·D = 0` (then the conic is not an obstruction).
+pub(crate) fn conic_hilbert_pair(c: &BigInt, form: &[BigInt; 3]) -> Option<[BigInt; 2]> {
+    let [a, b, cc] = form;
+    let lead = if !a.is_zero() {
+        a
+    } else if !cc.is_zero() {
+        cc
+    } else {
+        return None;
+    };
+    let d = b * b - BigInt::from(4) * a * cc;
+    let x = lead * c;
+    (!x.is_zero() && !d.is_zero()).then_some([x, d])
 }
 
 /// What is known about one basis element of a Selmer group.
@@ -77,11 +157,11 @@ pub enum ClassStatus {
     ProvenNotImage {
         /// The class d whose homogeneous space was proven to have no point.
         space: BigInt,
-        /// One obstruction per 4-covering (a covering with c4 = c3 = 0 is
-        /// a conic y² = g2 u² + g1 uv + g0 v²).
+        /// One obstruction per twist D_λ: a 4-covering, or the conic D_λ
+        /// maps onto when no quartic model was built.
         obstructions: Vec<CoveringObstruction>,
         /// The complete evidence, re-checkable with
-        /// [`crate::quartic::second_descent::verify_obstruction`].
+        /// [`crate::second::covering::verify_obstruction`].
         evidence: Box<NoPointEvidence>,
     },
 }
@@ -101,6 +181,7 @@ impl ClassStatus {
 
 /// A basis element of a Selmer group with its status.
 #[derive(Clone, Debug, PartialEq, Eq)]
+#[non_exhaustive]
 pub struct SelmerElement {
     /// The square-free integer representing the class.
     pub class: BigInt,
@@ -110,6 +191,7 @@ pub struct SelmerElement {
 
 /// One search of a homogeneous space C_d, kept as evidence.
 #[derive(Clone, Debug, PartialEq, Eq)]
+#[non_exhaustive]
 pub struct SearchRecord {
     /// The class d.
     pub class: BigInt,
@@ -152,7 +234,7 @@ pub struct SelmerSide {
     pub(super) covering_runs: Vec<CoveringRun>,
     /// The lifting pairing on the Selmer group and its kernel I, the
     /// classes that lift to everywhere locally soluble 2-coverings of the
-    /// curve (`crate::selmer::pairing`); `None` if it was not asked for
+    /// curve (`crate::second::pairing`); `None` if it was not asked for
     /// (the first descent alone) or its budget ran out (then
     /// `pairing_error` says why).
     pub(super) pairing: Option<LiftPairing>,
@@ -234,7 +316,7 @@ impl SelmerSide {
 
     /// An upper bound for dim α(E(Q)) (dim Sel minus what the second
     /// descent proved).
-    pub fn image_upper(&self) -> usize {
+    pub(crate) fn image_upper(&self) -> usize {
         self.image_upper
     }
 
@@ -263,7 +345,7 @@ impl SelmerSide {
 
     /// The lifting pairing on the Selmer group and its kernel I, the
     /// classes that lift to everywhere locally soluble 2-coverings of the
-    /// curve (`crate::selmer::pairing`); `None` if it was not asked for
+    /// curve (`crate::second::pairing`); `None` if it was not asked for
     /// (the first descent alone) or its budget ran out (then
     /// `pairing_error` says why).
     pub fn pairing(&self) -> Option<&LiftPairing> {
@@ -307,6 +389,54 @@ impl SelmerSide {
         let v = self.qs2.vector(d).ok()?;
         Some(!self.liftable()?.contains(&v))
     }
+
+    /// The first step of this side that a budget or the clock cut short,
+    /// as (step, reason): the lifting pairing, a point search that gave
+    /// up, or a class of the 4-covering route that was not run or stopped
+    /// (and so lost its evidence). `None` when every step ran to its end.
+    pub(crate) fn cut_short(&self) -> Option<(String, String)> {
+        if let Some(e) = self.pairing_error.as_ref().filter(|e| is_budget_error(e)) {
+            return Some(("lifting pairing".into(), e.to_string()));
+        }
+        if let Some(r) = self
+            .searches
+            .iter()
+            .find(|r| matches!(r.outcome, SearchOutcome::GaveUp { .. }))
+        {
+            return Some((
+                "point search".into(),
+                format!("search budget ran out on the space of class {}", r.class),
+            ));
+        }
+        for run in &self.covering_runs {
+            match &run.verdict {
+                CoveringVerdict::BudgetSpent => {
+                    return Some((
+                        "4-covering route".into(),
+                        format!(
+                            "the 4-covering budget was spent before class {} was examined",
+                            run.class
+                        ),
+                    ))
+                }
+                CoveringVerdict::GaveUp(e) if is_budget_error(e) => {
+                    return Some((
+                        "4-covering route".into(),
+                        format!("class {}: {e}", run.class),
+                    ))
+                }
+                _ => {}
+            }
+        }
+        None
+    }
+}
+
+fn is_budget_error(e: &Error) -> bool {
+    matches!(
+        e,
+        Error::BudgetExhausted { .. } | Error::FactorBudgetExhausted { .. }
+    )
 }
 
 /// The search quartic for class d and the factor f with y = f·N.
@@ -352,7 +482,7 @@ pub const TWISTS_PER_CLASS: usize = 8;
 ///
 /// Steps, each polynomial in |S| and dim Sel: the local images and the
 /// Selmer group (`crate::selmer::assemble`); the lifting pairing
-/// ([`crate::selmer::pairing`]) and its kernel I (the classes lifting to
+/// ([`crate::second::pairing`]) and its kernel I (the classes lifting to
 /// everywhere locally soluble 2-coverings), unless the options ask for the
 /// local conditions only; the point search on at most
 /// `max_classes_searched` cosets of (I or Sel)/K in a fixed order (basis
@@ -400,14 +530,7 @@ pub(crate) fn compute_side(
     // descent intact.
     let (pairing, pairing_error) = if options.lifting_pairing {
         let mut pairing_budget = ctx.budget(options.local_units);
-        match lift_pairing(
-            model.a(),
-            model.b(),
-            &qs2,
-            &group,
-            &progress.known,
-            &mut pairing_budget,
-        ) {
+        match lift_pairing(model, &qs2, &group, &progress.known, &mut pairing_budget) {
             Ok(p) => (Some(p), None),
             Err(e) => (None, Some(e)),
         }
@@ -739,7 +862,7 @@ fn run_second_descent(
                         });
                     }
                     route.record(d.clone(), CoveringVerdict::ProvenNotImage);
-                    route.proven.push((v, not_image(d, evidence)));
+                    route.proven.push((v, not_image(d, evidence)?));
                 }
                 Ok(SecondDescentOutcome::Undecided { .. }) => {
                     route.record(d, CoveringVerdict::Undecided);
@@ -766,7 +889,7 @@ fn run_second_descent(
         match second_descent(model, &d, &sd_options, &mut budget) {
             Ok(SecondDescentOutcome::NoPoint(evidence)) => {
                 route.record(d.clone(), CoveringVerdict::ProvenNotImage);
-                route.proven.push((v, not_image(d, evidence)));
+                route.proven.push((v, not_image(d, evidence)?));
             }
             Ok(other) => {
                 return Err(Error::Internal {
@@ -800,8 +923,7 @@ fn targeted(
     sd_options: &SecondDescentOptions,
     budget: &mut Budget,
 ) -> Result<SecondDescentOutcome> {
-    let (a, b) = (model.a(), model.b());
-    let lift = class_lift(a, b, d, qs2, budget)?;
+    let lift = class_lift(model, d, qs2, budget)?;
     let twists = soluble_twists(&lift, qs2, conditions, TWISTS_PER_CLASS, budget)?;
     if twists.is_empty() {
         return Err(Error::Internal {
@@ -813,20 +935,36 @@ fn targeted(
     second_descent_on_twists(model, d, &lift.conic_point, &twists, sd_options, budget)
 }
 
-fn not_image(d: BigInt, evidence: NoPointEvidence) -> ClassStatus {
+fn not_image(d: BigInt, evidence: NoPointEvidence) -> Result<ClassStatus> {
     let obstructions = evidence
         .obstructions
         .iter()
-        .map(|o| CoveringObstruction {
-            covering: o.covering_coefficients(),
-            place: o.place.clone(),
-        })
-        .collect();
-    ClassStatus::ProvenNotImage {
+        .map(covering_obstruction)
+        .collect::<Result<Vec<_>>>()?;
+    Ok(ClassStatus::ProvenNotImage {
         space: d,
         obstructions,
         evidence: Box::new(evidence),
-    }
+    })
+}
+
+/// The printed form of one twist's obstruction: the quartic model, or the
+/// conic with its Hilbert symbol pair when no quartic model was built.
+pub(crate) fn covering_obstruction(o: &TwistObstruction) -> Result<CoveringObstruction> {
+    Ok(match &o.curve {
+        ObstructedCurve::Quartic { coeffs, .. } => CoveringObstruction::Quartic {
+            covering: coeffs.clone(),
+            place: o.place.clone(),
+        },
+        ObstructedCurve::Conic { scale, form } => CoveringObstruction::Conic {
+            scale: scale.clone(),
+            form: form.clone(),
+            hilbert: conic_hilbert_pair(scale, form).ok_or_else(|| Error::Internal {
+                check: format!("the obstructing conic {scale}·s² = {form:?} is non-degenerate"),
+            })?,
+            place: o.place.clone(),
+        },
+    })
 }
 
 /// x moved greedily inside x + K towards a class of small |d|: add a basis

@@ -1,4 +1,4 @@
-//! Layer 7: the descent end to end — exact-sequence bookkeeping, rank
+//! Layer 8: the descent end to end — exact-sequence bookkeeping, rank
 //! bounds, points on the input model, and reports.
 //!
 //! [`descend`] takes any Weierstrass model over Q with a rational point of
@@ -12,7 +12,7 @@
 //!    spending budget, is not factored again (`KnownPrimes`);
 //! 3. computes both Selmer groups from local images at R, 2 and every bad
 //!    prime (`isogeny_side::compute_side`) and searches their homogeneous spaces;
-//! 4. combines both sides by the exact sequence (`bounds`).
+//! 4. combines both sides by the exact sequence (`exact_sequence`).
 //!
 //! With three rational 2-torsion points it does this for each of the three
 //! isogenies and reports the sharpest bounds: max of the lower bounds, min
@@ -28,9 +28,16 @@
 //! dim α(E(Q)_tors) + dim α'(E'(Q)_tors) = 2, their number is exactly the
 //! lower bound k + k' − 2. Independence is certified by the F2 images, not
 //! by heights.
+//!
+//! # Missing points
+//! When the bounds stay apart, [`search_missing_points`] hunts further on
+//! the undecided classes (deeper searches, 4-coverings of the second
+//! descent); its design and measured yield are in docs/deep_search.md.
 
-pub(crate) mod bounds;
+#[cfg(test)]
+mod checks;
 pub(crate) mod deep_search;
+pub(crate) mod exact_sequence;
 pub(crate) mod global;
 pub(crate) mod isogeny_side;
 pub(crate) mod options;
@@ -49,13 +56,13 @@ pub use isogeny_side::{
 };
 use options::DescentContext;
 pub use options::DescentOptions;
-pub use report::{Completion, DescentReport, RankBounds};
-pub use verify::{verify_report, Verification};
+pub use report::{Completion, DescentReport, Generators, RankBounds};
+pub use verify::{verify_report, verify_report_default, Check, Verification, DEFAULT_VERIFY_UNITS};
 
 use crate::arith::factor;
 use crate::curve::tate::global_local_data_with;
 use crate::curve::{
-    torsion_subgroup, two_torsion_model_with_budget, two_torsion_points_with_budget, Curve, Point,
+    torsion, two_torsion_model_with_budget, two_torsion_points_with_budget, Curve, Point,
     TorsionGroup, TwoIsogeny, TwoTorsionModel,
 };
 use crate::error::{Error, Result};
@@ -137,17 +144,48 @@ impl IsogenyDescent {
 
     /// dim_F2 Sel²(E/Q) of the reduced model E (isomorphic to the input
     /// curve), torsion included, from the exact sequence of
-    /// `bounds::selmer2_dimension`: dim Sel^φ(E) (this descent's E'
+    /// `exact_sequence::selmer2_dimension`: dim Sel^φ(E) (this descent's E'
     /// side) − t + dim I (the liftable subgroup on E's side). `None` when
     /// the pairing on E's side was not computed (budget).
     pub fn selmer2_rank(&self) -> Option<usize> {
         let liftable = self.domain.liftable_dim()?;
         let full = is_square(&self.model.reduced().quadratic_discriminant());
-        Some(bounds::selmer2_dimension(
+        Some(exact_sequence::selmer2_dimension(
             self.codomain.dimension(),
             liftable,
             full,
         ))
+    }
+
+    /// The upper bounds for the rank that the 2-Selmer data of this
+    /// isogeny prove on their own, whichever steps ran: the smallest of
+    /// * dim Sel²(E) − dim E(Q)\[2\] and dim Sel²(E') − dim E'(Q)\[2\]
+    ///   (E(Q)/2E(Q), of dimension r + dim E(Q)\[2\], embeds in Sel²(E);
+    ///   [Sil86, X.4]; E and E' are isogenous, so have the same rank), and
+    /// * dim I + dim I' − 2, I and I' the liftable subgroups of both sides,
+    ///   which contain the images α(E(Q)) and α'(E'(Q)) (the exact sequence
+    ///   of `exact_sequence`).
+    ///
+    /// Here `selmer2_rank` counts the torsion (see
+    /// `exact_sequence::selmer2_dimension`), and dim E(Q)\[2\] is 2 when
+    /// a² − 4b is a square, else 1 (for E', 2 when b is a square). `None`
+    /// when neither pairing was computed.
+    pub(crate) fn selmer_rank_bound(&self) -> Option<usize> {
+        let two_e = if is_square(&self.model.reduced().quadratic_discriminant()) {
+            2
+        } else {
+            1
+        };
+        let two_e2 = if is_square(self.model.b()) { 2 } else { 1 };
+        let from_e = self.selmer2_rank().map(|s| s.saturating_sub(two_e));
+        let from_e2 = self
+            .selmer2_rank_codomain()
+            .map(|s| s.saturating_sub(two_e2));
+        let from_i = match (self.domain.liftable_dim(), self.codomain.liftable_dim()) {
+            (Some(i), Some(j)) => Some((i + j).saturating_sub(2)),
+            _ => None,
+        };
+        [from_e, from_e2, from_i].into_iter().flatten().min()
     }
 
     /// dim_F2 Sel²(E'/Q) of the isogenous curve E', torsion included
@@ -156,7 +194,7 @@ impl IsogenyDescent {
     pub fn selmer2_rank_codomain(&self) -> Option<usize> {
         let liftable = self.codomain.liftable_dim()?;
         let full = is_square(self.model.b());
-        Some(bounds::selmer2_dimension(
+        Some(exact_sequence::selmer2_dimension(
             self.domain.dimension(),
             liftable,
             full,
@@ -252,7 +290,7 @@ pub fn descend_isogeny(
     options: &DescentOptions,
 ) -> Result<IsogenyDescent> {
     let ctx = DescentContext::new(options, Instant::now());
-    let torsion = torsion_subgroup(curve);
+    let torsion = torsion(curve);
     descend_isogeny_with_torsion(curve, t, &torsion, &ctx, None, &mut KnownPrimes::default())
 }
 
@@ -283,7 +321,7 @@ fn descend_isogeny_with_torsion(
         .iter()
         .map(|p| model.from_input(p))
         .collect();
-    let torsion_e2 = torsion_subgroup(isogeny.codomain()).points().to_vec();
+    let torsion_e2 = crate::curve::torsion(isogeny.codomain()).points().to_vec();
 
     let domain = isogeny_side::compute_side(model.reduced(), &primes, &torsion_e, ctx)?;
     let codomain = isogeny_side::compute_side(isogeny.codomain_model(), &primes, &torsion_e2, ctx)?;
@@ -295,7 +333,7 @@ fn descend_isogeny_with_torsion(
             ),
         });
     }
-    let (rank_lower, rank_upper) = bounds::rank_bounds(
+    let (rank_lower, rank_upper) = exact_sequence::rank_bounds(
         (domain.image_lower(), codomain.image_lower()),
         (domain.image_upper, codomain.image_upper),
     );
@@ -336,7 +374,7 @@ pub fn descend(curve: &Curve, options: &DescentOptions) -> Result<DescentReport>
     if ts.is_empty() {
         return Err(Error::NoTwoTorsion);
     }
-    let torsion = torsion_subgroup(curve);
+    let torsion = torsion(curve);
     // Primes shared by the numbers factored below (the discriminant, b and
     // a² − 4b of each reduced model): each is factored at most once, and
     // only where factoring would have been free is a number's list read
@@ -348,9 +386,22 @@ pub fn descend(curve: &Curve, options: &DescentOptions) -> Result<DescentReport>
         .and_then(|t| first_model_and_primes(curve, t, &ctx, &mut known));
     let disc = curve.discriminant();
     let mut budget = ctx.factor_budget(disc.numer().bits() + disc.denom().bits());
-    let local_data = global_local_data_with(curve.coefficients(), &mut budget, &mut known)?;
-    let mut isogenies = Vec::with_capacity(ts.len());
     let mut completion = Completion::Complete;
+    // Tate's algorithm reads the clock: on a huge model it may be cut, and
+    // the descent still runs (the report is then partial, without local
+    // data).
+    let local_data = match global_local_data_with(curve.coefficients(), &mut budget, &mut known) {
+        Ok(l) => Some(l),
+        Err(e) if is_budget_error(&e) => {
+            completion = Completion::Partial {
+                step: "local data (Tate's algorithm)".into(),
+                reason: e.to_string(),
+            };
+            None
+        }
+        Err(e) => return Err(e),
+    };
+    let mut isogenies = Vec::with_capacity(ts.len());
     let mut first_error = None;
     for (i, t) in ts.iter().enumerate() {
         let cached = if i == 0 { first_model.as_ref() } else { None };
@@ -387,13 +438,93 @@ pub fn descend(curve: &Curve, options: &DescentOptions) -> Result<DescentReport>
         }
     }
     if isogenies.is_empty() {
-        return Err(first_error.unwrap_or(Error::BudgetExhausted {
+        // Every first descent stopped (local tests on very many primes,
+        // say). If the primes of b and a² − 4b are known, the classes'
+        // supports still bound the rank (`divisor_rank_bound`).
+        let e = first_error.unwrap_or(Error::BudgetExhausted {
             stage: "every isogeny of the descent".to_string(),
-        }));
+        });
+        if !matches!(e, Error::BudgetExhausted { .. }) {
+            return Err(e);
+        }
+        let fallback = options.clone().local_conditions_only();
+        let grace = fallback_deadline(options, started);
+        let fallback_ctx = DescentContext::new(&fallback, started).with_deadline(grace);
+        let mut upper = usize::MAX;
+        for (i, t) in ts.iter().enumerate() {
+            let cached = if i == 0 { first_model.as_ref() } else { None };
+            let model = match cached {
+                Some(m) => m.clone(),
+                None => match reduced_model_for(curve, t, &fallback_ctx) {
+                    Ok(m) => m,
+                    Err(_) => continue,
+                },
+            };
+            if let Ok(u) = divisor_rank_bound(&model, &fallback_ctx, &mut known) {
+                upper = upper.min(u);
+            }
+        }
+        if upper == usize::MAX {
+            return Err(e);
+        }
+        if completion.is_complete() {
+            completion = Completion::Partial {
+                step: "isogeny 1".into(),
+                reason: e.to_string(),
+            };
+        }
+        let mut report =
+            DescentReport::new(curve.clone(), torsion, local_data, Vec::new(), completion);
+        report.bounds = RankBounds { lower: 0, upper };
+        report.descent_bounds = report.bounds;
+        global::complete(&mut report, options, ctx.deadline);
+        return Ok(report);
+    }
+    // A step inside an isogeny's descent that a budget cut short (a search
+    // that gave up, a class of the 4-covering route not run) also makes
+    // the report partial: its classes lost evidence.
+    if completion.is_complete() {
+        'cut: for (i, d) in isogenies.iter().enumerate() {
+            for side in [&d.domain, &d.codomain] {
+                if let Some((step, reason)) = side.cut_short() {
+                    completion = Completion::Partial {
+                        step: format!("isogeny {}: {step}", i + 1),
+                        reason,
+                    };
+                    break 'cut;
+                }
+            }
+        }
     }
     let mut report = DescentReport::new(curve.clone(), torsion, local_data, isogenies, completion);
     global::complete(&mut report, options, ctx.deadline);
     Ok(report)
+}
+
+/// The rank bound from the supports of the classes alone, for the
+/// isogeny of the reduced model y² = x³ + a x² + b x: α(E(Q)) lies in the
+/// group generated by −1 and the primes of b, of dimension 1 + ω(b), and
+/// α'(E'(Q)) in that of −1 and the primes of a² − 4b; with
+/// 2^r = |α(E(Q))|·|α'(E'(Q))|/4 ([SilvermanTate92, III.6]) this gives
+/// r ≤ ω(b) + ω(a² − 4b). Used when every first descent stopped; needs
+/// only the two factorisations (read off `known` when free).
+pub(crate) fn divisor_rank_bound(
+    model: &TwoTorsionModel,
+    ctx: &DescentContext<'_>,
+    known: &mut KnownPrimes,
+) -> Result<usize> {
+    let b = model.b();
+    let a = model.a();
+    let disc: BigInt = a * a - b * 4;
+    let mut pb = Vec::new();
+    primes_of(b, ctx, known, &mut pb)?;
+    let mut pd = Vec::new();
+    primes_of(&disc, ctx, known, &mut pd)?;
+    pb.sort();
+    pb.dedup();
+    pd.sort();
+    pd.dedup();
+    Ok(pb.len() + pd.len())
 }
 
 /// True for the errors that mean "a budget or the clock ran out", after
@@ -408,8 +539,8 @@ fn is_budget_error(e: &Error) -> bool {
 /// The deadline of the first-descent fallback: a quarter of the time
 /// limit (at least 1 s) after the limit itself, or none without a limit.
 fn fallback_deadline(options: &DescentOptions, started: Instant) -> Option<Instant> {
-    options.time_limit.map(|d| {
+    options.time_limit.and_then(|d| {
         let grace = (d / 4).max(std::time::Duration::from_secs(1));
-        started + d + grace
+        started.checked_add(d.saturating_add(grace))
     })
 }

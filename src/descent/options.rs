@@ -56,7 +56,9 @@ pub struct DescentOptions {
     pub time_limit: Option<Duration>,
     /// The analytic side (`None`: off): root number, certified L-values,
     /// ranks settled by theorem and the Birch–Swinnerton-Dyer ledger, for
-    /// curves with conductor up to the options' limit (default 10¹⁰).
+    /// curves with conductor up to the options' limit (default 10¹⁰, and
+    /// 10¹³ for quadratic twists of y² = x³ − x such as the congruent-number
+    /// curves; see `AnalyticOptions::conductor_limit_for`).
     pub analytic: Option<AnalyticOptions>,
     /// Saturation of the points into generators with heights and the
     /// regulator, when the rank is decided (`None`: off).
@@ -173,7 +175,9 @@ impl<'a> DescentContext<'a> {
     pub(crate) fn new(options: &'a DescentOptions, started: Instant) -> Self {
         DescentContext {
             options,
-            deadline: options.time_limit.map(|d| started + d),
+            // A limit too far away to represent (`Duration::MAX`, say) is
+            // no limit at all.
+            deadline: options.time_limit.and_then(|d| started.checked_add(d)),
         }
     }
 

@@ -31,16 +31,42 @@ impl Completion {
     }
 }
 
-/// Proven bounds `lower ≤ rank E(Q) ≤ upper`.
+/// Proven bounds `lower ≤ rank E(Q) ≤ upper` (the fields are private so
+/// that `lower ≤ upper` always holds; read them with
+/// [`RankBounds::lower`] and [`RankBounds::upper`]).
 #[derive(Clone, Copy, Debug, PartialEq, Eq, Hash)]
 pub struct RankBounds {
     /// Proven lower bound.
-    pub lower: usize,
+    pub(crate) lower: usize,
     /// Proven upper bound.
-    pub upper: usize,
+    pub(crate) upper: usize,
 }
 
 impl RankBounds {
+    /// The bounds `lower ≤ rank ≤ upper`.
+    ///
+    /// # Errors
+    /// [`Error::InvalidArgument`](crate::Error::InvalidArgument) when
+    /// `lower > upper`.
+    pub fn new(lower: usize, upper: usize) -> crate::Result<RankBounds> {
+        if lower > upper {
+            return Err(crate::Error::InvalidArgument {
+                reason: format!("rank bounds need lower ≤ upper, got [{lower}, {upper}]"),
+            });
+        }
+        Ok(RankBounds { lower, upper })
+    }
+
+    /// The proven lower bound.
+    pub fn lower(&self) -> usize {
+        self.lower
+    }
+
+    /// The proven upper bound.
+    pub fn upper(&self) -> usize {
+        self.upper
+    }
+
     /// True when the bounds meet.
     pub fn is_decided(&self) -> bool {
         self.lower == self.upper
@@ -50,7 +76,7 @@ impl RankBounds {
 /// Everything a descent found about one curve.
 ///
 /// Invariants: `rank_lower() ≤ rank_upper()`; `points()` holds
-/// `descent_bounds().lower` points of the input curve, independent modulo
+/// `descent_bounds().lower()` points of the input curve, independent modulo
 /// torsion (fewer than `rank_lower()` when an analytic theorem raised the
 /// lower bound and the search has not found the points);
 /// `isogenies()` holds one descent per rational 2-torsion point that ran
@@ -60,7 +86,7 @@ impl RankBounds {
 pub struct DescentReport {
     pub(crate) curve: Curve,
     pub(crate) torsion: TorsionGroup,
-    pub(crate) local_data: GlobalLocalData,
+    pub(crate) local_data: Option<GlobalLocalData>,
     pub(crate) isogenies: Vec<IsogenyDescent>,
     pub(crate) deciding: Option<usize>,
     pub(crate) bounds: RankBounds,
@@ -78,7 +104,7 @@ impl DescentReport {
     pub(crate) fn new(
         curve: Curve,
         torsion: TorsionGroup,
-        local_data: GlobalLocalData,
+        local_data: Option<GlobalLocalData>,
         isogenies: Vec<IsogenyDescent>,
         completion: Completion,
     ) -> Self {
@@ -90,7 +116,10 @@ impl DescentReport {
         let lower = isogenies.iter().map(|d| d.rank_lower).max().unwrap_or(0);
         let upper = isogenies
             .iter()
-            .map(|d| d.rank_upper)
+            .map(|d| {
+                d.rank_upper
+                    .min(d.selmer_rank_bound().unwrap_or(usize::MAX))
+            })
             .min()
             .unwrap_or(usize::MAX)
             .max(lower);
@@ -99,7 +128,12 @@ impl DescentReport {
         let deciding = isogenies
             .iter()
             .position(|d| d.rank_lower == lower && d.rank_upper == upper)
-            .or_else(|| isogenies.iter().position(|d| d.rank_upper == upper));
+            .or_else(|| isogenies.iter().position(|d| d.rank_upper == upper))
+            .or_else(|| {
+                isogenies
+                    .iter()
+                    .position(|d| d.selmer_rank_bound() == Some(upper))
+            });
         let points = best
             .and_then(|i| isogenies.get(i))
             .map(|d| d.points.clone())
@@ -131,9 +165,10 @@ impl DescentReport {
     }
 
     /// Global minimal model, conductor and Tate's algorithm at every bad
-    /// prime.
-    pub fn local_data(&self) -> &GlobalLocalData {
-        &self.local_data
+    /// prime; `None` when a budget or the clock stopped Tate's algorithm
+    /// (the report is then partial).
+    pub fn tate_data(&self) -> Option<&GlobalLocalData> {
+        self.local_data.as_ref()
     }
 
     /// One descent per rational 2-torsion point (in the order of
@@ -189,19 +224,36 @@ impl DescentReport {
             || (self.bounds.upper == 0 && self.global.conflict.is_none())
     }
 
+    /// A generator set of E(Q) modulo torsion with its certificate, when
+    /// one is proven ([`DescentReport::points_generate`]); `None` when the
+    /// points are only known to be independent.
+    pub fn generators(&self) -> Option<Generators> {
+        if !self.points_generate() {
+            return None;
+        }
+        Some(Generators {
+            points: self.points().to_vec(),
+            heights: self.point_heights().to_vec(),
+            regulator: self.regulator(),
+            certificate: self.global.saturation.clone(),
+        })
+    }
+
     /// The points a caller should use: the saturated, LLL-reduced basis
-    /// when saturation ran, else the descent's independent points.
-    pub fn returned_points(&self) -> &[Point] {
+    /// when saturation ran, else the descent's independent points. They
+    /// are independent modulo torsion; they generate E(Q) modulo torsion
+    /// only when [`DescentReport::generators`] is `Some`.
+    pub fn points(&self) -> &[Point] {
         match &self.global.saturation {
             Some(s) => &s.generators,
             None => &self.points,
         }
     }
 
-    /// ĥ of each of [`DescentReport::returned_points`], in the same order,
+    /// ĥ of each of [`DescentReport::points`], in the same order,
     /// certified (normalisation of [`crate::height`]); empty when a height
     /// could not be computed.
-    pub fn returned_heights(&self) -> &[crate::height::Certified] {
+    pub fn point_heights(&self) -> &[crate::arith::Certified] {
         match &self.global.saturation {
             Some(s) => &s.heights,
             None => &self.global.point_heights,
@@ -210,7 +262,7 @@ impl DescentReport {
 
     /// The regulator of the returned points, when saturation ran (1 for
     /// rank 0 is not reported here).
-    pub fn regulator(&self) -> Option<crate::height::Certified> {
+    pub fn regulator(&self) -> Option<crate::arith::Certified> {
         self.global.saturation.as_ref().map(|s| s.regulator)
     }
 
@@ -253,10 +305,10 @@ impl DescentReport {
         self.bounds.upper
     }
 
-    /// Points of infinite order on the input model found by the descent,
-    /// independent modulo torsion. They are not claimed to generate; see
-    /// [`DescentReport::saturation`] for generators.
-    pub fn points(&self) -> &[Point] {
+    /// Points of infinite order on the input model as the descent found
+    /// them, independent modulo torsion (before saturation and LLL
+    /// reduction; [`DescentReport::points`] gives the points to use).
+    pub fn descent_points(&self) -> &[Point] {
         &self.points
     }
 
@@ -275,5 +327,51 @@ impl DescentReport {
     /// Whether every step ran, or which one stopped.
     pub fn completion(&self) -> &Completion {
         &self.completion
+    }
+}
+
+/// Points proven to generate E(Q) modulo torsion, with the certificate
+/// that proves it ([`DescentReport::generators`]).
+#[derive(Clone, Debug, PartialEq)]
+pub struct Generators {
+    points: Vec<Point>,
+    heights: Vec<crate::height::Certified>,
+    regulator: Option<crate::height::Certified>,
+    certificate: Option<Saturation>,
+}
+
+impl Generators {
+    /// The generators, on the input model (empty when the rank is 0).
+    pub fn points(&self) -> &[Point] {
+        &self.points
+    }
+
+    /// Their canonical heights, in the same order (empty when not
+    /// computed).
+    pub fn heights(&self) -> &[crate::height::Certified] {
+        &self.heights
+    }
+
+    /// The regulator of the generators (`None` for rank 0, where it is 1
+    /// by convention, or when saturation did not run).
+    pub fn regulator(&self) -> Option<crate::height::Certified> {
+        self.regulator
+    }
+
+    /// The saturation that proved they generate: the index bound and the
+    /// primes p for which p-saturation was proven. `None` when the rank
+    /// is proven 0 and the empty set generates.
+    pub fn certificate(&self) -> Option<&Saturation> {
+        self.certificate.as_ref()
+    }
+
+    /// The number of generators (the rank).
+    pub fn len(&self) -> usize {
+        self.points.len()
+    }
+
+    /// True for rank 0.
+    pub fn is_empty(&self) -> bool {
+        self.points.is_empty()
     }
 }

@@ -18,24 +18,28 @@
 //!    follow from the dimensions by the exact sequence;
 //! 5. each "proven not an image" class has its second-descent evidence
 //!    re-checked by [`verify_obstruction`]: the twists λ are the complete
-//!    list, and each covering is insoluble at the place named.
+//!    list, and each covering is insoluble at the place named; the printed
+//!    obstructions are those of the evidence, each quartic has non-zero
+//!    discriminant and no point at its place, and each conic (a twist with
+//!    no quartic model) has Hilbert symbol −1 at its place.
 //!
 //! The result lists every check with its outcome, so a reader sees what
 //! was checked, not only a yes/no.
 
-use super::bounds::rank_bounds;
-use super::isogeny_side::{connecting_value, ClassStatus, SelmerSide};
+use super::exact_sequence::rank_bounds;
+use super::isogeny_side::{connecting_value, covering_obstruction, ClassStatus, SelmerSide};
 use super::report::DescentReport;
 use crate::budget::Budget;
 use crate::curve::Curve;
-use crate::error::Result;
-use crate::quartic::second_descent::verify_obstruction;
+use crate::error::{Error, Result};
 use crate::quartic::{locally_soluble, LocalSolubility, Quartic};
+use crate::second::covering::verify_obstruction;
 use crate::selmer::f2::Subspace;
 use crate::selmer::group::{selmer_from_local_images, LocalCondition};
 
 /// One check and whether it passed.
 #[derive(Clone, Debug, PartialEq, Eq)]
+#[non_exhaustive]
 pub struct Check {
     /// What was checked.
     pub what: String,
@@ -45,6 +49,7 @@ pub struct Check {
 
 /// The outcome of [`verify_report`].
 #[derive(Clone, Debug, Default, PartialEq, Eq)]
+#[non_exhaustive]
 pub struct Verification {
     /// Every check made, in order.
     pub checks: Vec<Check>,
@@ -69,15 +74,33 @@ impl Verification {
     }
 }
 
-/// Re-checks the evidence in `report`; see the module docs for the list.
+/// Work units that [`verify_report_default`] allows: enough to re-check
+/// the reports of the default descent options on curves with coefficients
+/// of a few dozen digits (the tests re-check every report they make with
+/// at most this; common practice: about ten times the largest they need).
+pub const DEFAULT_VERIFY_UNITS: u64 = 100_000_000;
+
+/// [`verify_report`] with [`DEFAULT_VERIFY_UNITS`].
 ///
 /// # Errors
-/// Only budget exhaustion while re-deciding insoluble classes (the budget
-/// `units` bounds that work).
+/// As [`verify_report`].
+pub fn verify_report_default(report: &DescentReport) -> Result<Verification> {
+    verify_report(report, DEFAULT_VERIFY_UNITS)
+}
+
+/// Re-checks the evidence in `report`; see the module docs for the list.
+/// `units` bounds the work of re-deciding insoluble classes, re-checking
+/// 4-coverings and refactoring (each of those steps gets at most `units`);
+/// [`verify_report_default`] passes [`DEFAULT_VERIFY_UNITS`].
+///
+/// # Errors
+/// [`Error::BudgetExhausted`] (or [`Error::FactorBudgetExhausted`]) when
+/// `units` run out before every check is made: a check cut short is an
+/// error, never a failed check.
 pub fn verify_report(report: &DescentReport, units: u64) -> Result<Verification> {
     let mut out = Verification::default();
     let mut budget = Budget::with_units(units);
-    for p in report.points() {
+    for p in report.descent_points() {
         out.record(
             format!("returned point {p:?} lies on the input curve"),
             report.curve().contains(p),
@@ -85,8 +108,8 @@ pub fn verify_report(report: &DescentReport, units: u64) -> Result<Verification>
     }
     out.record(
         "number of returned points equals the descent's lower bound",
-        report.points().len() == report.descent_bounds().lower
-            && report.points().len()
+        report.descent_points().len() == report.descent_bounds().lower
+            && report.descent_points().len()
                 >= report
                     .isogenies()
                     .iter()
@@ -136,17 +159,47 @@ pub fn verify_report(report: &DescentReport, units: u64) -> Result<Verification>
     let hi = report
         .isogenies()
         .iter()
-        .map(|d| d.rank_upper)
+        .map(|d| {
+            d.rank_upper
+                .min(d.selmer_rank_bound().unwrap_or(usize::MAX))
+        })
         .min()
-        .unwrap_or(lo);
+        .unwrap_or(lo)
+        .max(lo);
     // Points found by the deep search (independent by their classes) may
     // raise the lower bound above every single isogeny's.
-    let lo = lo.max(report.points().len());
+    let lo = lo.max(report.descent_points().len());
+    // With no isogeny (every first descent stopped), the bound from the
+    // supports of the classes, recomputed here.
+    let hi = if report.isogenies().is_empty() {
+        divisor_bound_again(report, units)?.unwrap_or(hi)
+    } else {
+        hi
+    };
     out.record(
-        "overall bounds are the sharpest of the isogenies and the points found",
+        "overall bounds are the sharpest of the isogenies, their 2-Selmer ranks and the points found",
         (lo, hi) == (report.descent_bounds().lower, report.descent_bounds().upper),
     );
     Ok(out)
+}
+
+/// The smallest `super::divisor_rank_bound` over the rational 2-torsion
+/// points of the report's curve, recomputed under `units` of factoring.
+fn divisor_bound_again(report: &DescentReport, units: u64) -> Result<Option<usize>> {
+    let options = super::DescentOptions {
+        factor_units: units,
+        ..super::DescentOptions::default()
+    };
+    let ctx = super::DescentContext::new(&options, std::time::Instant::now()).with_deadline(None);
+    let mut known = crate::local::known_primes::KnownPrimes::default();
+    let mut best: Option<usize> = None;
+    let mut budget = Budget::with_units(units);
+    for t in crate::curve::two_torsion_points_with_budget(report.curve(), &mut budget)? {
+        let model = super::reduced_model_for(report.curve(), &t, &ctx)?;
+        let u = super::divisor_rank_bound(&model, &ctx, &mut known)?;
+        best = Some(best.map_or(u, |b| b.min(u)));
+    }
+    Ok(best)
 }
 
 fn verify_side(
@@ -240,16 +293,44 @@ fn verify_side(
                 );
             }
             ClassStatus::ProvenNotImage {
-                space, evidence, ..
+                space,
+                obstructions,
+                evidence,
             } => {
                 let ok =
                     space == &el.class && verify_obstruction(&side.model, space, evidence, budget);
+                if !ok && budget.is_exhausted() {
+                    return Err(Error::BudgetExhausted {
+                        stage: format!(
+                            "verify_report: re-checking the 4-coverings of class {}",
+                            el.class
+                        ),
+                    });
+                }
                 out.record(
                     format!(
                         "{tag}: class {}: every 4-covering of C_{} re-checks insoluble at its place",
                         el.class, space
                     ),
                     ok,
+                );
+                // The printed list is the evidence's, entry by entry, and
+                // each entry re-checks from its own data: a quartic with
+                // non-zero discriminant insoluble at its place, or a conic
+                // whose Hilbert symbol at its place is −1.
+                let derived: Option<Vec<_>> = evidence
+                    .obstructions
+                    .iter()
+                    .map(|o| covering_obstruction(o).ok())
+                    .collect();
+                let same = derived.as_ref() == Some(obstructions);
+                let each = obstructions.iter().all(|o| o.recheck(budget));
+                out.record(
+                    format!(
+                        "{tag}: class {}: the printed obstructions of C_{} are the evidence's; each quartic is a genuine 4-covering insoluble at its place, each conic has Hilbert symbol -1 there",
+                        el.class, space
+                    ),
+                    same && each,
                 );
             }
             ClassStatus::Undecided => {}
@@ -286,7 +367,7 @@ mod tampering {
     #[test]
     fn a_moved_point_is_caught() {
         let mut r = report("0 0 0 -36 0");
-        assert!(!r.points().is_empty());
+        assert!(!r.descent_points().is_empty());
         let q = |n: i64| BigRational::from_integer(BigInt::from(n));
         r.points[0] = Point::new(q(1), q(1));
         let v = verify_report(&r, 10_000_000).unwrap();

@@ -61,7 +61,8 @@ pub fn is_squarefree_u64(n: u64) -> bool {
 /// twisted the same way. Models with a₁ = a₃ = 0 are twisted as given, so
 /// the twist of an integral model is integral.
 ///
-/// Errors: [`Error::Zero`] for d = 0. (A twist of a nonsingular curve is
+/// # Errors
+/// [`Error::Zero`] for d = 0. (A twist of a nonsingular curve is
 /// nonsingular: Δ(E^(d)) = d⁶Δ(E) for the first formula, 2¹²d⁶Δ(E) for the
 /// second.)
 ///
@@ -69,7 +70,7 @@ pub fn is_squarefree_u64(n: u64) -> bool {
 ///
 /// Example: the twist of y² = x³ − x by d = 5 is y² = x³ − 25x, the
 /// congruent-number curve for n = 5.
-pub fn quadratic_twist(e: &Curve, d: i64) -> Result<Curve> {
+pub fn twist_by(e: &Curve, d: i64) -> Result<Curve> {
     if d == 0 {
         return Err(Error::Zero {
             what: "twisting parameter d".into(),
@@ -115,6 +116,7 @@ impl fmt::Display for Parameter {
 /// One member of a family: its place in the enumeration, its parameter and
 /// its curve.
 #[derive(Clone, Debug, PartialEq, Eq)]
+#[non_exhaustive]
 pub struct Member {
     /// Position in the family's enumeration, from 0.
     pub index: u64,
@@ -184,11 +186,12 @@ fn check_range(from: i128, to: i128) -> Result<()> {
 }
 
 impl Family {
-    /// The quadratic twists E^(d) of `base` (see [`quadratic_twist`]) for
+    /// The quadratic twists E^(d) of `base` (see [`twist_by`]) for
     /// square-free d ≠ 0 (negative d allowed; d = 1 is `base` itself) with
     /// `from ≤ d ≤ to`.
     ///
-    /// Errors: [`Error::NoTwoTorsion`] if `base` has no rational point of
+    /// # Errors
+    /// [`Error::NoTwoTorsion`] if `base` has no rational point of
     /// order 2 (nor then has any twist); [`Error::InvalidArgument`] if
     /// `from > to` or a bound exceeds `MAX_PARAMETER` in absolute value.
     ///
@@ -211,7 +214,8 @@ impl Family {
     /// The congruent-number curves y² = x³ − n²x for square-free n with
     /// `from ≤ n ≤ to`.
     ///
-    /// Errors: [`Error::NotPositive`] if `from` is 0;
+    /// # Errors
+    /// [`Error::NotPositive`] if `from` is 0;
     /// [`Error::InvalidArgument`] if `from > to` or `to` exceeds
     /// `MAX_PARAMETER`.
     ///
@@ -233,7 +237,8 @@ impl Family {
     /// The curves y² = x³ + a x² + b x with |a| ≤ `bound` and |b| ≤ `bound`,
     /// singular pairs (b = 0 or a² = 4b) skipped.
     ///
-    /// Errors: [`Error::InvalidArgument`] if `bound` exceeds
+    /// # Errors
+    /// [`Error::InvalidArgument`] if `bound` exceeds
     /// `MAX_PARAMETER`.
     ///
     /// Example: `pair_box(1)` has the six members (a, b) = (−1, −1),
@@ -294,7 +299,7 @@ impl Family {
     /// this kind of family).
     fn curve_for(&self, p: Parameter) -> Result<Curve> {
         match (&self.kind, p) {
-            (Kind::Twists { base, .. }, Parameter::Twist(d)) => quadratic_twist(base, d),
+            (Kind::Twists { base, .. }, Parameter::Twist(d)) => twist_by(base, d),
             (Kind::Congruent { .. }, Parameter::Congruent(n)) => {
                 let n = BigInt::from(n);
                 Curve::from_bigints([

@@ -1,4 +1,4 @@
-//! Layer 9: families of curves — quadratic twists, the congruent-number
+//! Layer 10: families of curves — quadratic twists, the congruent-number
 //! curves, boxes of y² = x³ + a x² + b x — and scans of the descent over
 //! them that stream, run on all cores, split into shards and resume.
 //!
@@ -33,13 +33,18 @@
 //! assert_eq!(ranks[3], ("n=5".to_string(), Some(1)));
 //! assert_eq!(ranks[0], ("n=1".to_string(), Some(0)));
 //! ```
+//!
+//! ---
+//!
+//! The guide below is `docs/families.md`, included verbatim.
+#![doc = include_str!("../../docs/families.md")]
 
 pub(crate) mod members;
 pub(crate) mod records;
 pub(crate) mod scan;
 mod word_sweep;
 
-pub use members::{is_squarefree_u64, quadratic_twist, Family, Member, Members, Parameter};
+pub use members::{is_squarefree_u64, twist_by, Family, Member, Members, Parameter};
 pub use records::{
     congruent_selmer_limit_law, merge_shards, read_for_resume, IndexList, LawComparison,
     MergeReport, RecordLine, ResumeState, Tally,

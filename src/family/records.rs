@@ -22,6 +22,7 @@ use crate::error::{Error, Result};
 
 /// The fields of an output record that summaries, resumes and merges use.
 #[derive(Clone, Debug, PartialEq, Eq)]
+#[non_exhaustive]
 pub struct RecordLine {
     /// `family_index`.
     pub index: u64,
@@ -110,6 +111,7 @@ const MAX_TRACE: usize = 512;
 /// Counts over the records of a scan, in O(1) memory in the number of
 /// records (the maps are keyed by small dimensions).
 #[derive(Clone, Debug, Default, PartialEq)]
+#[non_exhaustive]
 pub struct Tally {
     /// Records counted.
     pub curves: u64,
@@ -176,7 +178,7 @@ impl Tally {
 
     /// Decided records over all records (error lines count as undecided);
     /// 0 for an empty tally.
-    pub fn decided_share(&self) -> f64 {
+    pub(crate) fn decided_share(&self) -> f64 {
         if self.curves == 0 {
             0.0
         } else {
@@ -198,10 +200,11 @@ impl Tally {
 
 /// Heath-Brown's limit law for the congruent-number curves: the share of
 /// square-free n with s(n) = dim Sel²(E_n) − 2 equal to r is
-/// d_r = α · 2^r / ∏_{j=1}^{r} (2^j − 1), α = ∏_{j≥0} (1 + 2^{−j})^{−1}
+/// `d_r = α · 2^r / ∏_{j=1..r} (2^j − 1)`, with
+/// `α = ∏_{j≥0} (1 + 2^(−j))^(−1)`
 /// (Heath-Brown, "The size of Selmer groups for the congruent number
 /// problem II", Invent. Math. 118 (1994), Theorem 1; from memory). Returns
-/// d_0, …, d_{r_max}.
+/// `d_0, …, d_{r_max}`.
 pub fn congruent_selmer_limit_law(r_max: usize) -> Vec<f64> {
     let alpha: f64 = (0..64).map(|j| 1.0 / (1.0 + 0.5f64.powi(j))).product();
     let mut out = Vec::with_capacity(r_max + 1);
@@ -319,6 +322,7 @@ fn io_err(action: &str, target: &str, e: &std::io::Error) -> Error {
 
 /// What an existing output file holds, for resuming a scan.
 #[derive(Clone, Debug, PartialEq)]
+#[non_exhaustive]
 pub struct ResumeState {
     /// Bytes of complete lines at the start of the file: the file is to be
     /// truncated to this length before appending.
@@ -341,7 +345,8 @@ pub struct ResumeState {
 /// indices increase strictly. The caller truncates the file to
 /// `keep_bytes` and appends the records of the members after `last`.
 ///
-/// Errors: [`Error::Io`] on a read failure; [`Error::Parse`] for a
+/// # Errors
+/// [`Error::Io`] on a read failure; [`Error::Parse`] for a
 /// complete line that is not a record (the file is then left alone);
 /// [`Error::InvalidArgument`] for a record outside `shard` or out of
 /// order (a file of another shard, or a merged file).
@@ -403,6 +408,7 @@ pub fn read_for_resume<R: BufRead>(mut input: R, name: &str, shard: &Shard) -> R
 
 /// Up to [`IndexList::KEEP`] example indices and the total count.
 #[derive(Clone, Debug, Default, PartialEq, Eq)]
+#[non_exhaustive]
 pub struct IndexList {
     /// How many.
     pub count: u64,
@@ -439,6 +445,7 @@ impl fmt::Display for IndexList {
 
 /// The outcome of [`merge_shards`].
 #[derive(Clone, Debug, Default, PartialEq)]
+#[non_exhaustive]
 pub struct MergeReport {
     /// Records written (one per member found).
     pub written: u64,
@@ -541,7 +548,8 @@ impl<R: BufRead> Head<R> {
 /// the family's end are counted and left out. `names` label the inputs in
 /// error messages.
 ///
-/// Errors: [`Error::Io`] when an input cannot be read or the output
+/// # Errors
+/// [`Error::Io`] when an input cannot be read or the output
 /// cannot be written; [`Error::InvalidArgument`] if `names` and `inputs`
 /// differ in length.
 pub fn merge_shards<R: BufRead, W: Write>(

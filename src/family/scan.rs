@@ -37,7 +37,8 @@ pub struct Shard {
 impl Shard {
     /// Shard `k` of `n` (1 ≤ k ≤ n).
     ///
-    /// Errors: [`Error::InvalidArgument`] unless 1 ≤ k ≤ n.
+    /// # Errors
+    /// [`Error::InvalidArgument`] unless 1 ≤ k ≤ n.
     ///
     /// Example: `Shard::new(2, 3)` holds the members 1, 4, 7, ….
     pub fn new(k: u64, n: u64) -> Result<Shard> {
@@ -87,7 +88,8 @@ impl FromStr for Shard {
 
     /// Parses `k/N`.
     ///
-    /// Errors: [`Error::Parse`] if the text is not two positive integers
+    /// # Errors
+    /// [`Error::Parse`] if the text is not two positive integers
     /// separated by `/`; [`Error::InvalidArgument`] unless 1 ≤ k ≤ N.
     fn from_str(s: &str) -> Result<Shard> {
         let bad = || Error::Parse {
@@ -103,6 +105,7 @@ impl FromStr for Shard {
 
 /// One member's result.
 #[derive(Clone, Debug, PartialEq)]
+#[non_exhaustive]
 pub struct ScanRecord {
     /// The member's index in the family.
     pub index: u64,
@@ -115,12 +118,35 @@ pub struct ScanRecord {
 }
 
 impl ScanRecord {
+    /// The member's report as typed values (the line of
+    /// [`ScanRecord::to_line`] read back).
+    ///
+    /// # Errors
+    /// [`Error::Parse`] if the stored object is not a report line (it
+    /// always is when made by [`scan`] or [`scan_member`]).
+    pub fn record(&self) -> Result<crate::output::ReportRecord> {
+        self.to_line().parse()
+    }
+
     /// The output line (without newline): the [`crate::output::json_for_line`] object with
     /// two keys put in front, `"family_index"` and `"family_parameter"`;
     /// the keys of the descent contract are unchanged.
     ///
-    /// Example: for n = 5 of the congruent family (index 3) the line starts
-    /// `{"family_index":3,"family_parameter":"n=5","input":"0 0 0 -25 0",`.
+    /// Example: for n = 5 of the congruent family the line starts
+    /// `{"family_index":3,"family_parameter":"n=5","format_version":3,"input":"y^2 = x^3 - 25x",`:
+    ///
+    /// ```
+    /// use isodescent::descent::DescentOptions;
+    /// use isodescent::family::{scan_member, Family};
+    ///
+    /// let fam = Family::congruent_numbers(1, 5).unwrap();
+    /// let n5 = fam.members().find(|m| m.line() == "y^2 = x^3 - 25x").unwrap();
+    /// let line = scan_member(&n5, &DescentOptions::default()).to_line();
+    /// assert!(line.starts_with(
+    ///     r#"{"family_index":3,"family_parameter":"n=5","format_version":3,"input":"y^2 = x^3 - 25x","#
+    /// ));
+    /// assert!(line.contains(r#""rank_lower":1,"rank_upper":1"#));
+    /// ```
     pub fn to_line(&self) -> String {
         let head = format!(
             "{{\"family_index\":{},\"family_parameter\":{}",
@@ -211,7 +237,8 @@ struct PoolEngine {
 /// same in both cases: each is [`crate::output::json_for_line`] of the member's curve,
 /// which depends only on the curve and `options` (deterministic budgets).
 ///
-/// Errors: [`Error::InvalidArgument`] if the thread pool cannot be
+/// # Errors
+/// [`Error::InvalidArgument`] if the thread pool cannot be
 /// started.
 ///
 /// Example: `scan(Family::congruent_numbers(1, 10)?.members(), &opts,

@@ -306,13 +306,13 @@ fn point_on_twist(
         .clamp(128, options.max_bits.max(128));
     // The coefficients of E0 for the largest precision that may be used.
     let e0 = Curve::from_ints([0, 0, 0, -1, 0])?;
-    let local = e0.local_data(budget)?;
+    let local = crate::curve::global_local_data(e0.coefficients(), budget)?;
     loop {
         let m = congruent::terms_for(
             qmax,
             bits + guard_bits(congruent::terms_for(qmax, bits) * 4),
         );
-        let an = crate::analytic::an_list(&local, m + 8, budget)?;
+        let an = crate::analytic::dirichlet_coefficients(&local, m + 8, budget)?;
         let step = an
             .iter()
             .enumerate()
@@ -336,7 +336,7 @@ fn point_on_twist(
             let mut primes: Vec<u64> = Vec::new();
             if let (Some(hp), Ok(hq)) = (predicted_height, crate::height::canonical_height(&e, &q))
             {
-                let t = (hq.value / hp).sqrt();
+                let t = (hq.value() / hp).sqrt();
                 let rt = t.round();
                 if rt >= 1.0 && (t - rt).abs() < 0.02 * rt.max(1.0) && rt < 1e12 {
                     let mut v = rt as u64;

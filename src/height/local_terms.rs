@@ -237,8 +237,56 @@ impl Archimedean {
                 }
             }
         }
+        if cert.is_none() {
+            // When the f64 roots are too inaccurate for the brackets above:
+            // certified isolation of the real roots of f (square-free: Δ ≠ 0),
+            // exact in Q.
+            let mut ivs = crate::arith::real_roots::isolate_real_roots(&fc).ok_or_else(|| {
+                Error::Internal {
+                    check: "4x³ + b2x² + 2b4x + b6 is square-free when Δ ≠ 0".into(),
+                }
+            })?;
+            let expected = if disc.is_positive() { 3 } else { 1 };
+            if ivs.len() != expected {
+                return Err(Error::Internal {
+                    check: "4x³ + b2x² + 2b4x + b6 has 3 real roots when Δ > 0 and 1 when Δ < 0"
+                        .into(),
+                });
+            }
+            use crate::arith::real_roots::{f64_above, f64_below, refine};
+            // Certified brackets: E(R) ⊂ [p0, qa] ∪ [qb, ∞) (Δ > 0) or [p0, ∞),
+            // with p0 < e3, e2 < qa ≤ qb < e1 taken from the isolating
+            // intervals narrowed to width ≤ k·(scale + |e|) (outward f64
+            // rounding checked exactly); the signs are re-checked exactly.
+            for k in [1e-9, 1e-11, 1e-13] {
+                for iv in ivs.iter_mut() {
+                    let e = iv.lo.to_f64().unwrap_or(f64::INFINITY).abs();
+                    let Some(w) = BigRational::from_float(k * (scale + e)) else {
+                        continue;
+                    };
+                    refine(&fc, iv, &w);
+                }
+                let Some(p0) = f64_below(&ivs[0].lo) else {
+                    break;
+                };
+                if sign(p0) != Some(Less) {
+                    continue;
+                }
+                if !disc.is_positive() {
+                    cert = Some((p0, None));
+                    break;
+                }
+                let (Some(qa), Some(qb)) = (f64_above(&ivs[1].hi), f64_below(&ivs[2].lo)) else {
+                    break;
+                };
+                if qa <= qb && sign(qa) == Some(Less) && sign(qb) == Some(Less) {
+                    cert = Some((p0, Some((qa, qb))));
+                    break;
+                }
+            }
+        }
         let (p0, gap) = cert.ok_or_else(|| Error::InvalidArgument {
-            reason: "could not certify the real roots of 4x³ + b2x² + 2b4x + b6".into(),
+            reason: "the real roots of 4x³ + b2x² + 2b4x + b6 lie closer together than the f64 height routine resolves".into(),
         })?;
         let delta = scale.ceil().max(1.0);
         let r_f = p0.floor() - delta;

@@ -28,7 +28,7 @@
 //!   points with hundreds of digits, behind [`HeightContext::multiple`] and
 //!   [`HeightContext::combination`];
 //! - `local`: the archimedean and non-archimedean local heights;
-//! - `bounds`: naive/canonical height difference bounds and a proven
+//! - `naive_vs_canonical`: naive/canonical height difference bounds and a proven
 //!   lower bound for `ĥ` on non-torsion points;
 //! - `lll`: LLL reduction for the height pairing;
 //! - `saturate`: index bounds and p-saturation.
@@ -36,26 +36,29 @@
 // Matrix code reads best with explicit indices.
 #![allow(clippy::needless_range_loop)]
 
-pub(crate) mod bounds;
 mod lll;
 mod local_terms;
 pub(crate) mod lower_bound;
+pub(crate) mod naive_vs_canonical;
 mod projective;
 pub(crate) mod saturate;
-
-use std::fmt;
 
 use num_bigint::BigInt;
 use num_traits::Signed;
 
+pub use crate::arith::Certified;
 use crate::budget::Budget;
-use crate::curve::tate::ReductionKind;
+use crate::curve::tate::{GlobalLocalData, ReductionKind};
 use crate::curve::{Curve, ModelChange, Point};
 use crate::error::{Error, Result};
 
-pub use bounds::{difference_bounds, height_lower_bound, DifferenceBounds, HeightLowerBound};
 pub use lower_bound::{cremona_siksek_bound, CremonaSiksekBound};
-pub use saturate::{saturate, LowerBoundSource, Saturation, SaturationOptions};
+pub use naive_vs_canonical::{
+    difference_bounds, height_lower_bound, DifferenceBounds, HeightLowerBound,
+};
+pub use saturate::{
+    saturate, saturate_with_context, LowerBoundSource, Saturation, SaturationOptions,
+};
 
 use local_terms::{Archimedean, BadPrime};
 use projective::{Jac, ShortModel};
@@ -70,47 +73,6 @@ pub const FINEST_PRECISION: f64 = 1e-14;
 /// Work units for factoring the discriminant when the caller gives no
 /// budget (the same scale as the curve layer's default for reductions).
 pub const DEFAULT_HEIGHT_UNITS: u64 = 200_000_000;
-
-/// A real number known to lie in `[value − error, value + error]`.
-///
-/// See the module docs for what the error accounts for.
-#[derive(Clone, Copy, Debug, PartialEq)]
-pub struct Certified {
-    /// The approximation.
-    pub value: f64,
-    /// The bound on `|true − value|`.
-    pub error: f64,
-}
-
-impl Certified {
-    /// An exactly known number.
-    pub fn exact(value: f64) -> Certified {
-        Certified { value, error: 0.0 }
-    }
-    /// `value − error`.
-    pub fn lower(&self) -> f64 {
-        self.value - self.error
-    }
-    /// `value + error`.
-    pub fn upper(&self) -> f64 {
-        self.value + self.error
-    }
-    /// True when `x` lies in the enclosure.
-    pub fn contains(&self, x: f64) -> bool {
-        (x - self.value).abs() <= self.error
-    }
-    /// True when the two enclosures intersect.
-    pub fn overlaps(&self, other: &Certified) -> bool {
-        (self.value - other.value).abs() <= self.error + other.error
-    }
-}
-
-impl fmt::Display for Certified {
-    /// `0.0511114082400 ± 2.1e-13`.
-    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
-        write!(f, "{:.13} ± {:.1e}", self.value, self.error)
-    }
-}
 
 /// Everything about one curve that the heights of its points share: the
 /// minimal model, its bad primes, the archimedean series data and the
@@ -148,7 +110,19 @@ impl HeightContext {
     /// invariants of the minimal model exceed the f64 range (about 10^70
     /// for the coefficients).
     pub fn new(curve: &Curve, budget: &mut Budget) -> Result<HeightContext> {
-        let data = curve.local_data(budget)?;
+        let data = curve.tate_data(budget)?;
+        Self::from_local_data(curve, &data)
+    }
+
+    /// The context from the curve's local data computed elsewhere (a
+    /// descent report's, say), so that Tate's algorithm runs once per
+    /// curve. `data` must be `curve`'s own ([`Curve::tate_data`]); its
+    /// minimal model is checked to be integral and its change of model
+    /// to be invertible.
+    ///
+    /// # Errors
+    /// As [`HeightContext::new`], without the factoring errors.
+    pub(crate) fn from_local_data(curve: &Curve, data: &GlobalLocalData) -> Result<HeightContext> {
         let [u, r, s, t] = data.change.clone();
         let to_min = ModelChange::new(u, r, s, t)?;
         let a: [BigInt; 5] = data.minimal_model.clone();
@@ -286,30 +260,74 @@ impl HeightContext {
                 err += 4.0 * local_terms::EPS * (c.abs() + value.abs());
             }
         }
-        Certified { value, error: err }
+        Certified::with_radius(value, err)
     }
 
-    /// `[n]P` on the input model, by exact Jacobian arithmetic.
+    /// `[n]P` on the input model, by exact Jacobian arithmetic, under a
+    /// budget of [`DEFAULT_HEIGHT_UNITS`] (see
+    /// [`HeightContext::multiple_with_budget`]).
     ///
     /// # Errors
-    /// [`Error::PointNotOnCurve`].
+    /// [`Error::PointNotOnCurve`]; [`Error::BudgetExhausted`] when the
+    /// result would be too large for the budget.
     pub fn multiple(&self, p: &Point, n: &BigInt) -> Result<Point> {
+        self.multiple_with_budget(p, n, &mut Budget::with_units(DEFAULT_HEIGHT_UNITS))
+    }
+
+    /// [`HeightContext::multiple`] under `budget`: each doubling or
+    /// addition costs `(w + 1)²` units, `w` the size in 64-bit words of the
+    /// coordinates so far, so the budget bounds the size of the result as
+    /// well as the work (`[n]P` has about n² times the digits of P).
+    /// [`HeightContext::multiple`] uses [`DEFAULT_HEIGHT_UNITS`] (results
+    /// of up to about 10⁴ words per coordinate).
+    ///
+    /// # Errors
+    /// [`Error::PointNotOnCurve`]; [`Error::BudgetExhausted`] when the
+    /// budget or its deadline runs out.
+    pub fn multiple_with_budget(
+        &self,
+        p: &Point,
+        n: &BigInt,
+        budget: &mut Budget,
+    ) -> Result<Point> {
         let q = self.to_min_point(p)?;
-        let j = self.short.mul(&self.short.to_jac(&q), n);
+        let j = self.short.mul_budgeted(&self.short.to_jac(&q), n, budget)?;
         Ok(self.point_on_input(&self.short.to_point(&j)))
     }
 
-    /// `Σ nᵢPᵢ` on the input model, by exact Jacobian arithmetic.
+    /// `Σ nᵢPᵢ` on the input model, by exact Jacobian arithmetic, under a
+    /// budget of [`DEFAULT_HEIGHT_UNITS`].
     ///
     /// # Errors
     /// [`Error::PointNotOnCurve`]; [`Error::InvalidArgument`] when the
-    /// lengths differ.
+    /// lengths differ; [`Error::BudgetExhausted`] when the result would be
+    /// too large for the budget.
     pub fn combination(&self, points: &[Point], coefficients: &[BigInt]) -> Result<Point> {
+        self.combination_with_budget(
+            points,
+            coefficients,
+            &mut Budget::with_units(DEFAULT_HEIGHT_UNITS),
+        )
+    }
+
+    /// [`HeightContext::combination`] under `budget`, charged as
+    /// [`HeightContext::multiple_with_budget`] (the default form uses
+    /// [`DEFAULT_HEIGHT_UNITS`]).
+    ///
+    /// # Errors
+    /// As [`HeightContext::combination`]; [`Error::BudgetExhausted`] when
+    /// the budget or its deadline runs out.
+    pub fn combination_with_budget(
+        &self,
+        points: &[Point],
+        coefficients: &[BigInt],
+        budget: &mut Budget,
+    ) -> Result<Point> {
         let js = points
             .iter()
             .map(|p| Ok(self.short.to_jac(&self.to_min_point(p)?)))
             .collect::<Result<Vec<Jac>>>()?;
-        let j = self.short.combination(&js, coefficients)?;
+        let j = self.short.combination_budgeted(&js, coefficients, budget)?;
         Ok(self.point_on_input(&self.short.to_point(&j)))
     }
 
@@ -347,12 +365,12 @@ impl HeightContext {
             m[i][i] = h[i];
             for j in i + 1..r {
                 let s = self.height_minimal(&self.add_minimal(&pts[i], &pts[j]), precision);
-                let v = 0.5 * (s.value - h[i].value - h[j].value);
-                let e = 0.5 * (s.error + h[i].error + h[j].error)
+                let v = 0.5 * (s.value() - h[i].value() - h[j].value());
+                let e = 0.5 * (s.error() + h[i].error() + h[j].error())
                     + 2.0
                         * local_terms::EPS
-                        * (s.value.abs() + h[i].value.abs() + h[j].value.abs());
-                m[i][j] = Certified { value: v, error: e };
+                        * (s.value().abs() + h[i].value().abs() + h[j].value().abs());
+                m[i][j] = Certified::with_radius(v, e);
                 m[j][i] = m[i][j];
             }
         }
@@ -393,7 +411,7 @@ pub fn determinant(m: &[Vec<Certified>]) -> Certified {
     }
     let mut a: Vec<Vec<f64>> = m
         .iter()
-        .map(|r| r.iter().map(|c| c.value).collect())
+        .map(|r| r.iter().map(|c| c.value()).collect())
         .collect();
     let norms: Vec<f64> = a
         .iter()
@@ -401,7 +419,7 @@ pub fn determinant(m: &[Vec<Certified>]) -> Certified {
         .collect();
     let enorms: Vec<f64> = m
         .iter()
-        .map(|r| r.iter().map(|c| c.error * c.error).sum::<f64>().sqrt())
+        .map(|r| r.iter().map(|c| c.error() * c.error()).sum::<f64>().sqrt())
         .collect();
     let mut det = 1.0;
     for c in 0..n {
@@ -436,10 +454,7 @@ pub fn determinant(m: &[Vec<Certified>]) -> Certified {
     }
     let prod_norms: f64 = norms.iter().product();
     err += 4.0 * (n * n * n) as f64 * local_terms::EPS * prod_norms;
-    Certified {
-        value: det,
-        error: err,
-    }
+    Certified::with_radius(det, err)
 }
 
 /// `ĥ(P)` to [`DEFAULT_PRECISION`] for a point `p` of `curve` (any
@@ -449,11 +464,15 @@ pub fn determinant(m: &[Vec<Certified>]) -> Certified {
 /// ```
 /// use isodescent::curve::{Curve, Point};
 /// use isodescent::height::canonical_height;
-/// // y² + y = x³ − x, P = (0, 0): ĥ(P) ≈ 0.0511114082 (x-normalisation;
-/// // the regulator of this rank-one curve, from memory).
+/// // y² + y = x³ − x, P = (0, 0): ĥ(P) = 0.05111140823996884… in the
+/// // x-normalisation (computed independently with mpmath by
+/// // tests/data/gen_curve_values.py), and ĥ(2P) = 4ĥ(P).
 /// let e = Curve::from_ints([0, 0, 1, -1, 0]).unwrap();
-/// let h = canonical_height(&e, &Point::from_ints(0, 0)).unwrap();
-/// assert!((h.value - 0.0511114082).abs() < 1e-9 && h.error < 1e-12);
+/// let p = Point::from_ints(0, 0);
+/// let h = canonical_height(&e, &p).unwrap();
+/// assert!((h.value() - 0.05111140823996884).abs() <= h.error() + 1e-16 && h.error() < 1e-12);
+/// let h2 = canonical_height(&e, &e.double(&p)).unwrap();
+/// assert!((h2.value() - 4.0 * h.value()).abs() <= h2.error() + 4.0 * h.error());
 /// ```
 ///
 /// # Errors
@@ -479,7 +498,7 @@ pub fn canonical_height_to(curve: &Curve, p: &Point, precision: f64) -> Result<C
 ///
 /// # Errors
 /// Those of [`HeightContext::new`] and [`HeightContext::pairing_matrix`].
-pub fn height_pairing_matrix(curve: &Curve, points: &[Point]) -> Result<Vec<Vec<Certified>>> {
+pub fn height_gram_matrix(curve: &Curve, points: &[Point]) -> Result<Vec<Vec<Certified>>> {
     for p in points {
         curve.check_point(p)?;
     }
@@ -490,9 +509,9 @@ pub fn height_pairing_matrix(curve: &Curve, points: &[Point]) -> Result<Vec<Vec<
 /// The regulator of `points`: `det(⟨Pᵢ, Pⱼ⟩)`.
 ///
 /// # Errors
-/// Those of [`height_pairing_matrix`].
+/// Those of [`height_gram_matrix`].
 pub fn regulator(curve: &Curve, points: &[Point]) -> Result<Certified> {
-    Ok(determinant(&height_pairing_matrix(curve, points)?))
+    Ok(determinant(&height_gram_matrix(curve, points)?))
 }
 
 /// The naive height `h(x(P)) = log max(|a|, |b|)` of a point on any model,
@@ -505,10 +524,7 @@ pub fn naive_height(p: &Point) -> Certified {
             let d = x.denom().abs();
             let m = if n > d { n } else { d };
             let v = local_terms::ln_abs(&m);
-            Certified {
-                value: v,
-                error: 8.0 * local_terms::EPS * v.abs().max(1.0),
-            }
+            Certified::with_radius(v, 8.0 * local_terms::EPS * v.abs().max(1.0))
         }
     }
 }

@@ -2,7 +2,7 @@
 //! coordinates run to hundreds of digits.
 //!
 //! An integral model `y² + a1xy + a3y = x³ + a2x² + a4x + a6` is carried to
-//! the short model `Y² = X³ − 27c4·X − 54c6` by `X = 36x + 3b2`,
+//! the short model `Y² = X³ − 27·c4·X − 54·c6` by `X = 36x + 3b2`,
 //! `Y = 108(2y + a1x + a3)` [Sil09, III.1]. There a point is a triple
 //! `(X : Y : Z)` of integers with `X/Z² = x`, `Y/Z³ = y`; the point at
 //! infinity has `Z = 0`. Doubling and addition use the textbook Jacobian
@@ -19,6 +19,7 @@ use num_rational::BigRational;
 use num_traits::{One, Signed, Zero};
 
 use crate::arith::sqrt_exact;
+use crate::budget::Budget;
 use crate::curve::Point;
 use crate::error::{Error, Result};
 
@@ -49,7 +50,7 @@ pub(crate) struct ShortModel {
     /// `[a1, a2, a3, a4, a6]` of the integral model.
     a: [BigInt; 5],
     b2: BigInt,
-    /// `A = −27c4`, `B = −54c6`.
+    /// `A = −27·c4`, `B = −54·c6`.
     pub big_a: BigInt,
     pub big_b: BigInt,
 }
@@ -218,8 +219,52 @@ impl ShortModel {
         }
     }
 
+    /// `[n]P` by double-and-add under `budget`: each doubling or addition
+    /// is charged `(w + 1)²` units, `w` the size in 64-bit words of the
+    /// largest coordinate so far (the cost of its products), and the
+    /// deadline is read at each step; so the size of what is computed,
+    /// not only the work, is bounded (`[n]P` has about n² times the
+    /// digits of P).
+    ///
+    /// # Errors
+    /// [`Error::BudgetExhausted`] when the budget or its deadline runs out.
+    pub fn mul_budgeted(&self, p: &Jac, n: &BigInt, budget: &mut Budget) -> Result<Jac> {
+        let mut acc = Jac::infinity();
+        let m = n.magnitude();
+        for i in (0..m.bits()).rev() {
+            charge(&acc, p, budget)?;
+            acc = self.double(&acc);
+            if m.bit(i) {
+                charge(&acc, p, budget)?;
+                acc = self.add(&acc, p);
+            }
+        }
+        charge(&acc, p, budget)?;
+        let acc = self.normalise(&acc);
+        Ok(if n.sign() == Sign::Minus {
+            self.neg(&acc)
+        } else {
+            acc
+        })
+    }
+
     /// `Σ nᵢ Pᵢ`, normalised at the end.
     pub fn combination(&self, points: &[Jac], coefficients: &[BigInt]) -> Result<Jac> {
+        self.combination_budgeted(points, coefficients, &mut Budget::unlimited())
+    }
+
+    /// [`ShortModel::combination`] under `budget`, charged as
+    /// [`ShortModel::mul_budgeted`].
+    ///
+    /// # Errors
+    /// As [`ShortModel::combination`]; [`Error::BudgetExhausted`] when the
+    /// budget or its deadline runs out.
+    pub fn combination_budgeted(
+        &self,
+        points: &[Jac],
+        coefficients: &[BigInt],
+        budget: &mut Budget,
+    ) -> Result<Jac> {
         if points.len() != coefficients.len() {
             return Err(Error::InvalidArgument {
                 reason: format!(
@@ -241,12 +286,30 @@ impl ShortModel {
                     p.clone()
                 }
             } else {
-                self.mul(p, n)
+                self.mul_budgeted(p, n, budget)?
             };
+            charge(&acc, &term, budget)?;
             acc = self.add(&acc, &term);
         }
+        charge(&acc, &acc, budget)?;
         Ok(self.normalise(&acc))
     }
+}
+
+/// Charges one group-law step on `a` and `b`: `(w + 1)²` units for the
+/// largest coordinate of `w` words, and a read of the deadline.
+fn charge(a: &Jac, b: &Jac, budget: &mut Budget) -> Result<()> {
+    let bits = [&a.x, &a.y, &a.z, &b.x, &b.y, &b.z]
+        .iter()
+        .map(|c| c.bits())
+        .max()
+        .unwrap_or(0);
+    let w = bits / 64 + 1;
+    let stop = |_| Error::BudgetExhausted {
+        stage: "exact point arithmetic".into(),
+    };
+    budget.spend(w.saturating_mul(w)).map_err(stop)?;
+    budget.check_deadline().map_err(stop)
 }
 
 #[cfg(test)]

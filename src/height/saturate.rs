@@ -5,7 +5,7 @@
 //! Let `L` be the span of `r` independent points and `Λ = E(Q)/E(Q)_tors`
 //! (rank `r` assumed: `L` has finite index `n` in its saturation, which is
 //! `Λ` when `r` is the rank). Then `Reg(L) = n²·Reg(sat L)`. If every
-//! non-torsion point has `ĥ ≥ λ` ([`super::bounds::height_lower_bound`]),
+//! non-torsion point has `ĥ ≥ λ` ([`super::naive_vs_canonical::height_lower_bound`]),
 //! Hermite's inequality for the positive definite form `ĥ` on `sat L`
 //! (`min ≤ γ_r·det^{1/r}`) gives `Reg(sat L) ≥ λʳ/γ_rʳ`, hence
 //!
@@ -54,15 +54,15 @@ use num_bigint::BigInt;
 use num_integer::Integer;
 use num_traits::{ToPrimitive, Zero};
 
-use super::bounds::{difference_bounds, height_lower_bound};
 use super::lll::lll_gram;
 use super::local_terms::real_roots_f64;
+use super::naive_vs_canonical::{difference_bounds, height_lower_bound};
 use super::projective::Jac;
 use super::{determinant, Certified, HeightContext, DEFAULT_PRECISION};
 use crate::arith::is_prime_u64;
-use crate::arith::word::{mul_mod, pow_mod};
+use crate::arith::word::{mul_mod, pow_mod, sqrt_mod};
 use crate::budget::Budget;
-use crate::curve::{torsion_subgroup, Point};
+use crate::curve::{torsion, Point};
 use crate::error::{Error, Result};
 
 /// Largest accepted [`SaturationOptions::max_prime`] (arithmetic mod `p`
@@ -161,7 +161,7 @@ pub struct Saturation {
 pub enum LowerBoundSource {
     /// The Cremona–Siksek argument ([`super::cremona_siksek_bound`]).
     CremonaSiksek,
-    /// The exhaustive search of small points ([`super::bounds::height_lower_bound`]).
+    /// The exhaustive search of small points ([`super::naive_vs_canonical::height_lower_bound`]).
     Search,
 }
 
@@ -207,8 +207,35 @@ pub fn saturate(
     options: &SaturationOptions,
     budget: &mut Budget,
 ) -> Result<Saturation> {
+    for p in points {
+        curve.check_point(p)?;
+    }
+    check_options(options)?;
+    let ctx = HeightContext::new(curve, budget)?;
+    saturate_in(&ctx, points, options, budget)
+}
+
+/// [`saturate`] on a height context already built (for the curve of the
+/// points), so that Tate's algorithm is not run again.
+///
+/// # Errors
+/// As [`saturate`], without those of building the context.
+pub fn saturate_with_context(
+    ctx: &HeightContext,
+    points: &[Point],
+    options: &SaturationOptions,
+    budget: &mut Budget,
+) -> Result<Saturation> {
+    for p in points {
+        ctx.curve().check_point(p)?;
+    }
+    check_options(options)?;
+    saturate_in(ctx, points, options, budget)
+}
+
+fn check_options(options: &SaturationOptions) -> Result<()> {
     if !(options.max_search_height.is_finite()
-        && options.max_search_height <= super::bounds::MAX_SEARCH_HEIGHT
+        && options.max_search_height <= super::naive_vs_canonical::MAX_SEARCH_HEIGHT
         && options.search_margin.is_finite()
         && options.search_margin > 0.0)
     {
@@ -227,10 +254,15 @@ pub fn saturate(
             ),
         });
     }
-    for p in points {
-        curve.check_point(p)?;
-    }
-    let ctx = HeightContext::new(curve, budget)?;
+    Ok(())
+}
+
+fn saturate_in(
+    ctx: &HeightContext,
+    points: &[Point],
+    options: &SaturationOptions,
+    budget: &mut Budget,
+) -> Result<Saturation> {
     let mut pts: Vec<Point> = points
         .iter()
         .map(|p| ctx.to_min_point(p))
@@ -257,7 +289,7 @@ pub fn saturate(
             reason: format!("points are not independent: regulator {reg0}"),
         });
     }
-    pts = reduce(&ctx, &pts)?;
+    pts = reduce(ctx, &pts)?;
 
     // Index bound: the Cremona–Siksek bound (cheap); the search bound
     // only when that leaves primes beyond `max_prime` to check (the
@@ -270,16 +302,16 @@ pub fn saturate(
             v.floor().max(1.0) as u64
         }
     };
-    let mut best: Option<(f64, LowerBoundSource)> = super::lower_bound::cremona_siksek_bound(&ctx)
+    let mut best: Option<(f64, LowerBoundSource)> = super::lower_bound::cremona_siksek_bound(ctx)
         .map(|c| (c.bound, LowerBoundSource::CremonaSiksek))
         .filter(|(l, _)| *l > 0.0);
     let enough = |b: &Option<(f64, LowerBoundSource)>| {
         b.is_some_and(|(l, _)| index_for(l) <= options.max_prime.min(options.search_skip_index))
     };
     if !enough(&best) {
-        let b = difference_bounds(&ctx).naive_minus_canonical;
+        let b = difference_bounds(ctx).naive_minus_canonical;
         let h = options.max_search_height.min(b + options.search_margin);
-        if let Some(lb) = height_lower_bound(&ctx, h, budget)? {
+        if let Some(lb) = height_lower_bound(ctx, h, budget)? {
             if best.map_or(true, |(l, _)| lb.bound > l) {
                 best = Some((lb.bound, LowerBoundSource::Search));
             }
@@ -289,7 +321,7 @@ pub fn saturate(
     let mut index_bound: Option<u64> = lambda.map(index_for);
     let proven_index_bound = index_bound;
 
-    let tors = torsion_subgroup(ctx.minimal_model());
+    let tors = torsion(ctx.minimal_model());
     let tors_gens: Vec<Point> = tors.generators().to_vec();
 
     let mut primes_checked = Vec::new();
@@ -307,14 +339,14 @@ pub fn saturate(
             p += 1;
             continue;
         }
-        let outcome = p_saturate(&ctx, &pts, &tors_gens, p, options, budget)?;
+        let outcome = p_saturate(ctx, &pts, &tors_gens, p, options, budget)?;
         match outcome {
             Outcome::Saturated => {
                 primes_checked.push(p);
                 p += 1;
             }
             Outcome::Divided(new_pts) => {
-                pts = reduce(&ctx, &new_pts)?;
+                pts = reduce(ctx, &new_pts)?;
                 index_found = index_found.saturating_mul(p);
                 index_bound = index_bound.map(|n| n / p);
             }
@@ -354,7 +386,7 @@ fn reduce(ctx: &HeightContext, pts: &[Point]) -> Result<Vec<Point>> {
     let gram = ctx.pairing_matrix_minimal(pts, DEFAULT_PRECISION);
     let g: Vec<Vec<f64>> = gram
         .iter()
-        .map(|row| row.iter().map(|c| c.value).collect())
+        .map(|row| row.iter().map(|c| c.value()).collect())
         .collect();
     let u = lll_gram(&g);
     let short = ctx.short();
@@ -550,7 +582,7 @@ fn try_divide(
             let (Some(ni), Some(di)) = (num.to_i128(), d.to_i128()) else {
                 continue;
             };
-            for cand in super::bounds::lifts_exact(a, ni, di) {
+            for cand in super::naive_vs_canonical::lifts_exact(a, ni, di) {
                 let m = short.to_point(&short.mul(&short.to_jac(&cand), &pj));
                 let r_pt = if m == target {
                     cand
@@ -622,47 +654,6 @@ fn mod_inv(a: u64, q: u64) -> u64 {
 
 fn big_mod(n: &BigInt, q: u64) -> u64 {
     n.mod_floor(&BigInt::from(q)).to_u64().unwrap_or(0)
-}
-
-/// Square root mod an odd prime (Tonelli–Shanks, common practice).
-fn sqrt_mod(n: u64, q: u64) -> Option<u64> {
-    let n = n % q;
-    if n == 0 {
-        return Some(0);
-    }
-    if pow_mod(n, (q - 1) / 2, q) != 1 {
-        return None;
-    }
-    let (mut s, mut e) = (q - 1, 0u32);
-    while s % 2 == 0 {
-        s /= 2;
-        e += 1;
-    }
-    let mut z = 2;
-    while pow_mod(z, (q - 1) / 2, q) != q - 1 {
-        z += 1;
-    }
-    let mut c = pow_mod(z, s, q);
-    let mut x = pow_mod(n, s.div_ceil(2), q);
-    let mut t = pow_mod(n, s, q);
-    let mut m = e;
-    while t != 1 {
-        let mut i = 0;
-        let mut tt = t;
-        while tt != 1 {
-            tt = mul_mod(tt, tt, q);
-            i += 1;
-            if i == m {
-                return None;
-            }
-        }
-        let b = pow_mod(c, 1 << (m - i - 1), q);
-        x = mul_mod(x, b, q);
-        c = mul_mod(b, b, q);
-        t = mul_mod(t, c, q);
-        m = i;
-    }
-    Some(x)
 }
 
 /// Affine arithmetic on `Y² = X³ + AX + B` over F_q (`None` is O).

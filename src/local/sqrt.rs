@@ -13,7 +13,7 @@ use num_traits::{One, Zero};
 use super::place::Prime;
 use super::symbols::jacobi;
 use super::valuation::split_valuation;
-use crate::arith::word::{inv_mod, mul_mod, pow_mod};
+use crate::arith::word::{inv_mod, mul_mod, sqrt_mod};
 use crate::budget::Budget;
 use crate::error::{Error, Result};
 
@@ -30,7 +30,7 @@ use crate::error::{Error, Result};
 pub fn sqrt_mod_prime(a: &BigInt, p: &Prime) -> Option<BigInt> {
     if let Some(pw) = p.to_u64() {
         let r = residue_u64(a, pw);
-        return sqrt_mod_prime_word(r, pw).map(BigInt::from);
+        return sqrt_mod(r, pw).map(BigInt::from);
     }
     sqrt_mod_prime_big(a, p)
 }
@@ -152,50 +152,6 @@ fn residue_u64(a: &BigInt, m: u64) -> u64 {
     }
 }
 
-/// [`sqrt_mod_prime_big`] in words; `a` already reduced mod p.
-fn sqrt_mod_prime_word(a: u64, p: u64) -> Option<u64> {
-    if p == 2 || a == 0 {
-        return Some(a);
-    }
-    if super::symbols::legendre_u64(a, p) != 1 {
-        return None;
-    }
-    let pm1 = p - 1;
-    let s = u64::from(pm1.trailing_zeros());
-    let q = pm1 >> s;
-    if s == 1 {
-        return Some(pow_mod(a, (p + 1) >> 2, p));
-    }
-    let mut z = 2u64;
-    while super::symbols::legendre_u64(z % p, p) != -1 {
-        z += 1;
-    }
-    let mut m = s;
-    let mut c = pow_mod(z, q, p);
-    let mut t = pow_mod(a, q, p);
-    let mut r = pow_mod(a, (q + 1) >> 1, p);
-    while t != 1 {
-        let mut i = 0u64;
-        let mut t2 = t;
-        while t2 != 1 {
-            t2 = mul_mod(t2, t2, p);
-            i += 1;
-            if i >= m {
-                return None;
-            }
-        }
-        let mut b = c;
-        for _ in 0..(m - i - 1) {
-            b = mul_mod(b, b, p);
-        }
-        m = i;
-        c = mul_mod(b, b, p);
-        t = mul_mod(t, c, p);
-        r = mul_mod(r, b, p);
-    }
-    Some(r)
-}
-
 /// [`sqrt_mod_prime_power_big`] in words: `a` reduced mod `pk` = p^k.
 fn sqrt_mod_prime_power_word(a: u64, p: u64, k: u32, pk: u64) -> Option<u64> {
     if a == 0 {
@@ -214,7 +170,7 @@ fn sqrt_mod_prime_power_word(a: u64, p: u64, k: u32, pk: u64) -> Option<u64> {
     let y = if p == 2 {
         sqrt_unit_mod_two_power_word(u, m)?
     } else {
-        let mut y = sqrt_mod_prime_word(u % p, p)?;
+        let mut y = sqrt_mod(u % p, p)?;
         let mut j = 1u32;
         while j < m {
             j = (2 * j).min(m);
@@ -287,7 +243,8 @@ fn sqrt_unit_mod_two_power(u: &BigInt, m: u32) -> Option<BigInt> {
 ///
 /// `Ok(None)` when `gcd(a, m) ≠ 1` (or `m ≤ 1`).
 ///
-/// Errors: [`Error::BudgetExhausted`] (stage "modular inverse") when the
+/// # Errors
+/// [`Error::BudgetExhausted`] (stage "modular inverse") when the
 /// budget has run out.
 ///
 /// Example: `mod_inverse_with_budget(3, 7, …) = Ok(Some(5))`.

@@ -10,42 +10,9 @@ use num_integer::Integer;
 use num_traits::{One, Signed, ToPrimitive, Zero};
 
 use super::place::Prime;
+use crate::arith::jacobi_big;
+use crate::arith::word::jacobi_u64;
 use crate::error::{Error, Result};
-
-/// Jacobi symbol (a/n) for machine words, n odd and positive.
-fn jacobi_u64(mut a: u64, mut n: u64) -> i8 {
-    debug_assert!(n % 2 == 1);
-    a %= n;
-    let mut t = 1i8;
-    while a != 0 {
-        let z = a.trailing_zeros();
-        a >>= z;
-        if z % 2 == 1 && (n % 8 == 3 || n % 8 == 5) {
-            t = -t;
-        }
-        if a % 4 == 3 && n % 4 == 3 {
-            t = -t;
-        }
-        std::mem::swap(&mut a, &mut n);
-        a %= n;
-    }
-    if n == 1 {
-        t
-    } else {
-        0
-    }
-}
-
-/// Jacobi symbol for big integers, n odd positive: the word fast path when
-/// both fit, else the arithmetic layer's [`crate::arith::jacobi`].
-fn jacobi_big(a: &BigInt, n: &BigInt) -> i8 {
-    if let Some(m) = n.to_u64() {
-        if let Some(x) = a.mod_floor(n).to_u64() {
-            return jacobi_u64(x, m);
-        }
-    }
-    crate::arith::jacobi(a, n) as i8
-}
 
 /// Legendre symbol (a/p) for an odd prime p: 0 if p | a, 1 if a is a
 /// nonzero square mod p, −1 otherwise.

@@ -11,13 +11,13 @@ use super::Detail;
 use crate::curve::equation::{equation_text, quartic_text, reduced_equation_text};
 use crate::curve::tate::ReductionKind;
 use crate::curve::Point;
-use crate::descent::isogeny_side::{ClassStatus, SelmerSide};
+use crate::descent::isogeny_side::{ClassStatus, CoveringObstruction, SelmerSide};
 use crate::descent::report::{Completion, DescentReport};
 use crate::local::class_representatives;
 use crate::quartic::search::SearchOutcome;
 
 /// The schema version written in every line as `format_version`.
-pub const FORMAT_VERSION: u32 = 2;
+pub const FORMAT_VERSION: u32 = 3;
 
 #[derive(Serialize)]
 struct PointView {
@@ -34,6 +34,39 @@ fn point_view(p: &Point) -> Option<PointView> {
 
 fn points_view(ps: &[Point]) -> Vec<PointView> {
     ps.iter().filter_map(point_view).collect()
+}
+
+/// A returned point with its canonical height (when computed).
+#[derive(Serialize)]
+struct HeightPointView {
+    x: String,
+    y: String,
+    height: Option<String>,
+    height_error: Option<String>,
+}
+
+fn height_points_view(ps: &[Point], heights: &[crate::height::Certified]) -> Vec<HeightPointView> {
+    ps.iter()
+        .enumerate()
+        .filter_map(|(i, p)| {
+            Some(HeightPointView {
+                x: rational_text(p.x()?),
+                y: rational_text(p.y()?),
+                height: heights
+                    .get(i)
+                    .map(|h| value_and_error(h.value(), h.error()).0),
+                height_error: heights
+                    .get(i)
+                    .map(|h| value_and_error(h.value(), h.error()).1),
+            })
+        })
+        .collect()
+}
+
+#[derive(Serialize)]
+struct OrderView {
+    bound: &'static str,
+    order: usize,
 }
 
 #[derive(Serialize)]
@@ -90,10 +123,22 @@ struct SpaceView {
     point: Option<SpacePointView>,
 }
 
+/// One twist's obstruction: a 4-covering `{quartic, insoluble_at}`, or,
+/// when no quartic model exists, `{conic, hilbert_symbol, insoluble_at}`.
 #[derive(Serialize)]
-struct CoveringView {
-    quartic: Vec<String>,
-    insoluble_at: String,
+#[serde(untagged)]
+enum CoveringView {
+    Quartic {
+        quartic: Vec<String>,
+        insoluble_at: String,
+    },
+    Conic {
+        /// `[c, A, B, C]` for `c·s² = A u² + B uv + C v²`.
+        conic: Vec<String>,
+        /// `[x, D]` with Hilbert symbol `(x, D)` = −1 at the place.
+        hilbert_symbol: Vec<String>,
+        insoluble_at: String,
+    },
 }
 
 #[derive(Serialize)]
@@ -144,10 +189,8 @@ struct CertifiedView {
 }
 
 fn certified(value: f64, error: f64) -> CertifiedView {
-    CertifiedView {
-        value: decimal(value, error),
-        error: format!("{error:.1e}"),
-    }
+    let (value, error) = value_and_error(value, error);
+    CertifiedView { value, error }
 }
 
 #[derive(Serialize)]
@@ -262,26 +305,24 @@ struct StopView {
 #[derive(Serialize)]
 struct LineView<'a> {
     format_version: u32,
-    input: &'a str,
+    input: std::borrow::Cow<'a, str>,
     curve: Option<String>,
     status: &'static str,
     stopped: Option<StopView>,
     rank_lower: Option<usize>,
     rank_upper: Option<usize>,
-    points: Vec<PointView>,
+    points: Vec<HeightPointView>,
     points_from: Option<&'static str>,
     heegner: Option<HeegnerView>,
-    torsion_order: Option<u32>,
     torsion: Option<TorsionView>,
     selmer2_rank: Option<usize>,
     rank_settled_by: Option<&'static str>,
-    heights: Vec<String>,
     regulator: Option<String>,
+    regulator_error: Option<String>,
     points_generate: bool,
-    generators: Option<SaturationView>,
+    saturation: Option<SaturationView>,
     root_number: Option<i8>,
-    analytic_rank: Option<usize>,
-    sha_analytic: Option<String>,
+    analytic_order: Option<OrderView>,
     analytic: Option<AnalyticView>,
     ledger: Option<LedgerView>,
     conflict: Option<String>,
@@ -387,9 +428,26 @@ fn side_view(s: &SelmerSide, domain: bool, detail: Detail) -> SideView {
                     class: space.to_string(),
                     coverings: obstructions
                         .iter()
-                        .map(|o| CoveringView {
-                            quartic: o.covering.iter().map(|c| c.to_string()).collect(),
-                            insoluble_at: o.place.to_string(),
+                        .map(|o| match o {
+                            CoveringObstruction::Quartic { covering, place } => {
+                                CoveringView::Quartic {
+                                    quartic: covering.iter().map(|c| c.to_string()).collect(),
+                                    insoluble_at: place.to_string(),
+                                }
+                            }
+                            CoveringObstruction::Conic {
+                                scale,
+                                form,
+                                hilbert,
+                                place,
+                            } => CoveringView::Conic {
+                                conic: std::iter::once(scale)
+                                    .chain(form.iter())
+                                    .map(|c| c.to_string())
+                                    .collect(),
+                                hilbert_symbol: hilbert.iter().map(|c| c.to_string()).collect(),
+                                insoluble_at: place.to_string(),
+                            },
                         })
                         .collect(),
                 }),
@@ -418,7 +476,7 @@ fn report_view<'a>(input: &'a str, r: &DescentReport, detail: Detail) -> LineVie
     let t = r.torsion();
     let (n1, n2) = t.structure();
     let cyclic_factors = if n2 <= 1 { vec![n1] } else { vec![n2, n1] };
-    let ld = r.local_data();
+    let ld = r.tate_data();
     let (status, stopped) = match r.completion() {
         Completion::Partial { step, reason } => (
             "partial",
@@ -431,16 +489,15 @@ fn report_view<'a>(input: &'a str, r: &DescentReport, detail: Detail) -> LineVie
     };
     LineView {
         format_version: FORMAT_VERSION,
-        input,
+        input: echoed_input(input),
         curve: Some(r.curve().to_string()),
         status,
         stopped,
         rank_lower: Some(r.rank_lower()),
         rank_upper: Some(r.rank_upper()),
-        points: points_view(r.returned_points()),
-        points_from: (!r.returned_points().is_empty()).then(|| r.points_origin().word()),
+        points: height_points_view(r.points(), r.point_heights()),
+        points_from: (!r.points().is_empty()).then(|| r.points_origin().word()),
         heegner: r.heegner().map(heegner_view),
-        torsion_order: Some(t.order()),
         torsion: Some(TorsionView {
             order: t.order(),
             cyclic_factors,
@@ -448,25 +505,30 @@ fn report_view<'a>(input: &'a str, r: &DescentReport, detail: Detail) -> LineVie
         }),
         selmer2_rank: r.selmer2_rank(),
         rank_settled_by: r.rank_settled_by().map(|p| p.word()),
-        heights: r
-            .returned_heights()
-            .iter()
-            .map(|h| decimal(h.value, h.error))
-            .collect(),
-        regulator: r.regulator().map(|g| decimal(g.value, g.error)),
+        regulator: r
+            .regulator()
+            .map(|g| value_and_error(g.value(), g.error()).0),
+        regulator_error: r
+            .regulator()
+            .map(|g| value_and_error(g.value(), g.error()).1),
         points_generate: r.points_generate(),
-        generators: r.saturation().map(|s| SaturationView {
+        saturation: r.saturation().map(|s| SaturationView {
             index_bound: s.index_bound,
             index_found: s.index_found,
             primes_checked: s.primes_checked.clone(),
             unresolved: s.unresolved.clone(),
-            height_lower_bound: s.height_lower_bound.map(|h| format!("{h:.6}")),
+            height_lower_bound: s
+                .height_lower_bound
+                .map(|h| crate::arith::decimal::decimal_floor(h, 6)),
         }),
         root_number: r.analytic().and_then(|a| a.root_number()),
-        analytic_rank: r.analytic().and_then(|a| a.analytic_rank()),
-        sha_analytic: r
-            .sha_ledger()
-            .map(|l| decimal(l.value.value(), l.value.error())),
+        analytic_order: r
+            .analytic()
+            .and_then(|a| a.analytic_order())
+            .map(|o| OrderView {
+                bound: if o.is_exact() { "exact" } else { "at_most" },
+                order: o.order(),
+            }),
         analytic: r.analytic().map(analytic_view),
         ledger: r.sha_ledger().map(|l| {
             let two = r.sha_two_part();
@@ -479,14 +541,17 @@ fn report_view<'a>(input: &'a str, r: &DescentReport, detail: Detail) -> LineVie
             }
         }),
         conflict: r.conflict().map(str::to_string),
-        conductor: Some(ld.conductor.to_string()),
-        minimal_model: Some(equation_text(
-            &ld.minimal_model
-                .clone()
-                .map(num_rational::BigRational::from_integer),
-        )),
+        conductor: ld.map(|ld| ld.conductor.to_string()),
+        minimal_model: ld.map(|ld| {
+            equation_text(
+                &ld.minimal_model
+                    .clone()
+                    .map(num_rational::BigRational::from_integer),
+            )
+        }),
         reduction: ld
-            .primes
+            .map(|ld| ld.primes.as_slice())
+            .unwrap_or_default()
             .iter()
             .map(|p| {
                 (
@@ -519,15 +584,12 @@ fn report_view<'a>(input: &'a str, r: &DescentReport, detail: Detail) -> LineVie
     }
 }
 
-/// `value` with as many decimals as its error bound justifies (at least
-/// one, at most 16): the digits shown are all correct up to the bound.
-pub fn decimal(value: f64, error: f64) -> String {
-    let decimals = if error > 0.0 && error.is_finite() {
-        (-error.log10()).floor().clamp(1.0, 16.0) as usize
-    } else {
-        16
-    };
-    format!("{value:.decimals$}")
+/// `(value, error)` strings of a certified number such that the printed
+/// interval `value ± error` contains the certified one exactly: the error
+/// is widened by the rounding of the value and rounded up
+/// (`crate::arith::decimal`).
+pub fn value_and_error(value: f64, error: f64) -> (String, String) {
+    crate::arith::decimal::enclose(value, error)
 }
 
 fn analytic_view(a: &crate::analytic::AnalyticData) -> AnalyticView {
@@ -542,14 +604,17 @@ fn analytic_view(a: &crate::analytic::AnalyticData) -> AnalyticView {
             RootNumberRoute::Formula => "local_formulas",
         }),
         real_period: a.real_period().map(|c| certified(c.value(), c.error())),
-        real_components: a.real_components(),
+        real_components: a.real_component_count(),
         l_values: a
             .l_values()
             .iter()
-            .map(|(k, c)| LValueView {
-                order: *k,
-                value: decimal(c.value(), c.error()),
-                error: format!("{:.1e}", c.error()),
+            .map(|(k, c)| {
+                let (value, error) = value_and_error(c.value(), c.error());
+                LValueView {
+                    order: *k,
+                    value,
+                    error,
+                }
             })
             .collect(),
         terms: a.terms_used(),
@@ -573,16 +638,41 @@ fn to_line<T: Serialize>(v: &T) -> String {
     })
 }
 
-/// The one-line JSON object of a report, with `input` echoed.
+/// Longest input echoed whole in `input`: the longest text the curve
+/// parser accepts (`5·(2·MAX_COEFFICIENT_DIGITS + 2) + 4096` bytes), so
+/// every curve is echoed exactly.
+pub const MAX_ECHOED_INPUT_BYTES: usize = 5 * (2 * crate::curve::MAX_COEFFICIENT_DIGITS + 2) + 4096;
+
+/// Bytes kept of a longer input (cut at a character boundary).
+const ECHO_HEAD_BYTES: usize = 256;
+
+/// The input as echoed: whole up to [`MAX_ECHOED_INPUT_BYTES`], else its
+/// first 256 bytes (at most), `…` and its length, as in
+/// `"0 123… (104857600 bytes in all)"`.
+pub(crate) fn echoed_input(input: &str) -> std::borrow::Cow<'_, str> {
+    if input.len() <= MAX_ECHOED_INPUT_BYTES {
+        return std::borrow::Cow::Borrowed(input);
+    }
+    let mut cut = ECHO_HEAD_BYTES;
+    while !input.is_char_boundary(cut) {
+        cut -= 1;
+    }
+    std::borrow::Cow::Owned(format!("{}… ({} bytes in all)", &input[..cut], input.len()))
+}
+
+/// The one-line JSON object of a report, with `input` echoed (whole up
+/// to [`MAX_ECHOED_INPUT_BYTES`], else cut with its length stated).
 pub fn report_line(input: &str, r: &DescentReport, detail: Detail) -> String {
     to_line(&report_view(input, r, detail))
 }
 
-/// The JSON object for an input that gave no report.
+/// The JSON object for an input that gave no report (the input is
+/// echoed whole up to [`MAX_ECHOED_INPUT_BYTES`], else cut with its length
+/// stated).
 pub fn error_line(input: &str, message: &str) -> String {
     to_line(&LineView {
         format_version: FORMAT_VERSION,
-        input,
+        input: echoed_input(input),
         curve: None,
         status: "error",
         stopped: None,
@@ -591,17 +681,15 @@ pub fn error_line(input: &str, message: &str) -> String {
         points: Vec::new(),
         points_from: None,
         heegner: None,
-        torsion_order: None,
         torsion: None,
         selmer2_rank: None,
         rank_settled_by: None,
-        heights: Vec::new(),
         regulator: None,
+        regulator_error: None,
         points_generate: false,
-        generators: None,
+        saturation: None,
         root_number: None,
-        analytic_rank: None,
-        sha_analytic: None,
+        analytic_order: None,
         analytic: None,
         ledger: None,
         conflict: None,
@@ -614,9 +702,11 @@ pub fn error_line(input: &str, message: &str) -> String {
 }
 
 impl Serialize for DescentReport {
-    /// The JSON schema of [`report_line`] with an empty `input` and the
-    /// summary evidence.
+    /// The JSON schema of [`report_line`] with the summary evidence; a
+    /// report does not keep the caller's text, so `input` is the curve's
+    /// equation (which parses back to the same curve).
     fn serialize<S: serde::Serializer>(&self, serializer: S) -> Result<S::Ok, S::Error> {
-        report_view("", self, Detail::Summary).serialize(serializer)
+        let input = self.curve().to_string();
+        report_view(&input, self, Detail::Summary).serialize(serializer)
     }
 }

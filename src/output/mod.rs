@@ -1,4 +1,4 @@
-//! Layer 8: the edge where reports become text and JSON, and where input
+//! Layer 9: the edge where reports become text and JSON, and where input
 //! lines become curves. Nothing below this layer writes or reads text
 //! other than a curve's equation.
 //!
@@ -9,9 +9,15 @@
 //!   serde; every line carries `format_version`.
 //! * `batch`: one curve per input line, one JSON line out; invalid bytes
 //!   and panics become that line's error and the batch goes on.
+//!
+//! ---
+//!
+//! The guide below is `docs/report_format.md`, included verbatim.
+#![doc = include_str!("../../docs/report_format.md")]
 
 pub(crate) mod batch;
 pub(crate) mod json;
+pub(crate) mod record;
 pub(crate) mod text;
 
 use std::fmt;
@@ -21,7 +27,8 @@ use crate::descent::DescentReport;
 pub use batch::{
     classify_line, is_skipped_line, json_for_bytes, json_for_line, json_for_line_with, LineKind,
 };
-pub use json::{error_line, report_line, FORMAT_VERSION};
+pub use json::{error_line, report_line, FORMAT_VERSION, MAX_ECHOED_INPUT_BYTES};
+pub use record::{RecordPoint, RecordTorsion, ReportRecord};
 
 /// How much evidence a report shows.
 #[derive(Clone, Copy, Debug, Default, PartialEq, Eq, Hash)]
@@ -33,7 +40,8 @@ pub enum Detail {
     #[default]
     Summary,
     /// Everything: local images at every place, every space searched with
-    /// its equation, every 4-covering with the place where it is insoluble.
+    /// its equation, every 4-covering with the place where it is insoluble
+    /// (or, for a twist with no quartic model, its conic and the place).
     Full,
 }
 

@@ -8,16 +8,15 @@ use num_rational::BigRational;
 use num_traits::One;
 
 use super::Detail;
-use crate::analytic::AnalyticData;
+use crate::analytic::{AnalyticData, AnalyticOrder};
 use crate::curve::equation::{equation_text, quartic_text, reduced_equation_text};
 use crate::curve::tate::ReductionKind;
 use crate::curve::{ModelChange, Point};
-use crate::descent::isogeny_side::{ClassStatus, SelmerSide};
+use crate::descent::isogeny_side::{ClassStatus, CoveringObstruction, SelmerSide};
 use crate::descent::report::{Completion, DescentReport};
 use crate::descent::IsogenyDescent;
 use crate::descent::RankProof;
 use crate::local::class_representatives;
-use crate::output::json::decimal;
 use crate::quartic::search::SearchOutcome;
 
 /// A rational as "p/q" in lowest terms, or "p".
@@ -109,10 +108,24 @@ fn class_line(status: &ClassStatus) -> String {
             obstructions,
             space,
             ..
-        } => format!(
-            "not an image: each of the {} 4-coverings of C_{space} is locally insoluble",
-            obstructions.len()
-        ),
+        } => {
+            let conics = obstructions
+                .iter()
+                .filter(|o| matches!(o, CoveringObstruction::Conic { .. }))
+                .count();
+            if conics == 0 {
+                format!(
+                    "not an image: each of the {} 4-coverings of C_{space} is locally insoluble",
+                    obstructions.len()
+                )
+            } else {
+                format!(
+                    "not an image: each of the {} twists of C_{space} is locally insoluble ({} by a 4-covering, {conics} by a conic with no quartic model)",
+                    obstructions.len(),
+                    obstructions.len() - conics
+                )
+            }
+        }
     }
 }
 
@@ -173,7 +186,7 @@ pub(crate) fn evidence_summary(s: &SelmerSide) -> String {
         let mut count = 0;
         let places = proven.iter().flat_map(|st| match st {
             ClassStatus::ProvenNotImage { obstructions, .. } => {
-                obstructions.iter().map(|o| &o.place).collect::<Vec<_>>()
+                obstructions.iter().map(|o| o.place()).collect::<Vec<_>>()
             }
             _ => Vec::new(),
         });
@@ -255,15 +268,29 @@ fn write_side(
             {
                 writeln!(f, "  4-coverings of C_{space}:")?;
                 for o in obstructions {
-                    writeln!(
-                        f,
-                        "    y^2 = {}   insoluble at {}",
-                        quartic_text(&o.covering)
-                            .trim_start_matches("N^2 = ")
-                            .replace('M', "u")
-                            .replace('e', "v"),
-                        o.place
-                    )?;
+                    match o {
+                        CoveringObstruction::Quartic { covering, place } => writeln!(
+                            f,
+                            "    y^2 = {}   insoluble at {place}",
+                            quartic_text(covering)
+                                .trim_start_matches("N^2 = ")
+                                .replace('M', "u")
+                                .replace('e', "v"),
+                        )?,
+                        CoveringObstruction::Conic {
+                            scale,
+                            form,
+                            hilbert,
+                            place,
+                        } => writeln!(
+                            f,
+                            "    no quartic model (neither conic of the twist has a rational point); its conic {} = {} has no point at {place}: Hilbert symbol ({}, {})_{place} = -1",
+                            form_text(std::slice::from_ref(scale), &["s^2"]),
+                            form_text(form, &["u^2", "uv", "v^2"]),
+                            hilbert[0],
+                            hilbert[1],
+                        )?,
+                    }
                 }
             }
         }
@@ -333,15 +360,59 @@ fn write_isogeny(
     write_side(f, d.codomain(), false, detail)
 }
 
-/// Writes `report` with the given detail.
+/// Writes `report` with the given detail: the headline with the rank and
+/// its proof, the points, torsion and 2-Selmer rank, then each isogeny, the
+/// analytic side, the local data and the evidence summary.
 pub(crate) fn write_report(
     f: &mut fmt::Formatter<'_>,
     r: &DescentReport,
     detail: Detail,
 ) -> fmt::Result {
     writeln!(f, "{}", r.curve())?;
+    write_rank_line(f, r)?;
+    if let Some(c) = r.conflict() {
+        writeln!(
+            f,
+            "CONFLICT (a bug in the descent or the analytic side; nothing was settled by it): {c}"
+        )?;
+    }
+    write_points(f, r)?;
+    write_torsion_and_selmer(f, r)?;
+    if let Completion::Partial { step, reason } = r.completion() {
+        writeln!(
+            f,
+            "partial: {step} stopped ({reason}); the bounds above are proven by the steps that ran"
+        )?;
+    }
+    writeln!(f)?;
+    let count = r.isogenies().len();
+    for (i, d) in r.isogenies().iter().enumerate() {
+        write_isogeny(f, i, count, d, r.deciding_isogeny() == Some(i), detail)?;
+    }
+    if let Some(a) = r.analytic() {
+        write_analytic(f, r, a)?;
+    }
+    writeln!(f)?;
+    write_local_data(f, r)?;
+    writeln!(f)?;
+    let mut ev = String::new();
+    for (i, d) in r.isogenies().iter().enumerate() {
+        let _ = writeln!(
+            ev,
+            "evidence, isogeny {}: on E {}; on E' {}",
+            i + 1,
+            evidence_summary(d.domain()),
+            evidence_summary(d.codomain())
+        );
+    }
+    f.write_str(&ev)
+}
+
+/// The headline: the rank or its interval, and which theorem or which
+/// descent proves it.
+fn write_rank_line(f: &mut fmt::Formatter<'_>, r: &DescentReport) -> fmt::Result {
     let b = r.rank_bounds();
-    let n = r.points().len();
+    let n = r.descent_points().len();
     let lower_proof = if b.lower == 0 {
         "trivial".to_string()
     } else {
@@ -380,7 +451,7 @@ pub(crate) fn write_report(
             let (w, k) = (a.root_number().unwrap_or(0), b.lower);
             let value = a
                 .l_value(k)
-                .map(|c| format!("{} ± {:.1e}", decimal(c.value(), c.error()), c.error()))
+                .map(|c| plus_minus(c.value(), c.error()))
                 .unwrap_or_default();
             writeln!(
                 f,
@@ -396,23 +467,23 @@ pub(crate) fn write_report(
             "{head} (lower bound: {lower_proof}; upper bound: {upper_proof})"
         )?,
     }
-    if let Some(c) = r.conflict() {
-        writeln!(
-            f,
-            "CONFLICT (a bug in the descent or the analytic side; nothing was settled by it): {c}"
-        )?;
-    }
-    let returned = r.returned_points();
-    let heights = r.returned_heights();
+    Ok(())
+}
+
+/// The points found, with their heights and what is proven about them
+/// (generators by saturation, or independent only), and the regulator.
+fn write_points(f: &mut fmt::Formatter<'_>, r: &DescentReport) -> fmt::Result {
+    let b = r.rank_bounds();
+    let returned = r.points();
+    let heights = r.point_heights();
     let with_heights: Vec<String> = returned
         .iter()
         .enumerate()
         .map(|(i, p)| match heights.get(i) {
             Some(h) => format!(
-                "{} (ĥ = {} ± {:.1e})",
+                "{} (ĥ = {})",
                 point_text(p),
-                decimal(h.value, h.error),
-                h.error
+                plus_minus(h.value(), h.error())
             ),
             None => point_text(p),
         })
@@ -422,13 +493,19 @@ pub(crate) fn write_report(
         let certificate = s
             .map(|s| {
                 let primes: Vec<String> = s.primes_checked.iter().map(u64::to_string).collect();
-                format!(
-                    "index bound {}, p-saturated for p in {{{}}}",
-                    s.index_bound
-                        .map(|b| b.to_string())
-                        .unwrap_or_else(|| "-".into()),
-                    primes.join(", ")
-                )
+                let bound = s
+                    .index_bound
+                    .map(|b| b.to_string())
+                    .unwrap_or_else(|| "-".into());
+                if primes.is_empty() {
+                    // An index bound below 2 leaves no prime to check.
+                    format!("index bound {bound}, so no prime can divide the index")
+                } else {
+                    format!(
+                        "index bound {bound}, p-saturated for p in {{{}}}",
+                        primes.join(", ")
+                    )
+                }
             })
             .unwrap_or_default();
         writeln!(
@@ -449,12 +526,7 @@ pub(crate) fn write_report(
         )?;
     }
     if let Some(reg) = r.regulator() {
-        writeln!(
-            f,
-            "regulator: {} ± {:.1e}",
-            decimal(reg.value, reg.error),
-            reg.error
-        )?;
+        writeln!(f, "regulator: {}", plus_minus(reg.value(), reg.error()))?;
     }
     if returned.len() < b.lower {
         writeln!(
@@ -465,6 +537,11 @@ pub(crate) fn write_report(
         )?;
     }
     heegner_text(f, r)?;
+    Ok(())
+}
+
+/// The torsion subgroup with its generators, and the 2-Selmer rank.
+fn write_torsion_and_selmer(f: &mut fmt::Formatter<'_>, r: &DescentReport) -> fmt::Result {
     let t = r.torsion();
     let (n1, n2) = t.structure();
     let structure = if n2 <= 1 {
@@ -490,53 +567,39 @@ pub(crate) fn write_report(
             s2.saturating_sub(t2)
         )?;
     }
-    if let Completion::Partial { step, reason } = r.completion() {
-        writeln!(
+    Ok(())
+}
+
+/// The minimal model, the conductor and each bad prime's reduction data.
+fn write_local_data(f: &mut fmt::Formatter<'_>, r: &DescentReport) -> fmt::Result {
+    match r.tate_data() {
+        Some(ld) => {
+            let mm = ld.minimal_model.clone().map(BigRational::from_integer);
+            writeln!(
+                f,
+                "minimal model {}, conductor {}",
+                equation_text(&mm),
+                ld.conductor
+            )?;
+            for p in &ld.primes {
+                writeln!(
+                    f,
+                    "  p = {}: {} reduction, Kodaira type {}, f_p = {}, c_p = {}, v_p(Δ) = {}",
+                    p.prime,
+                    reduction_words(p.reduction),
+                    p.kodaira,
+                    p.conductor_exponent,
+                    p.tamagawa,
+                    p.disc_valuation
+                )?;
+            }
+        }
+        None => writeln!(
             f,
-            "partial: {step} stopped ({reason}); the bounds above are proven by the steps that ran"
-        )?;
+            "minimal model and conductor not computed (Tate's algorithm was stopped)"
+        )?,
     }
-    writeln!(f)?;
-    let count = r.isogenies().len();
-    for (i, d) in r.isogenies().iter().enumerate() {
-        write_isogeny(f, i, count, d, r.deciding_isogeny() == Some(i), detail)?;
-    }
-    if let Some(a) = r.analytic() {
-        write_analytic(f, r, a)?;
-    }
-    writeln!(f)?;
-    let ld = r.local_data();
-    let mm = ld.minimal_model.clone().map(BigRational::from_integer);
-    writeln!(
-        f,
-        "minimal model {}, conductor {}",
-        equation_text(&mm),
-        ld.conductor
-    )?;
-    for p in &ld.primes {
-        writeln!(
-            f,
-            "  p = {}: {} reduction, Kodaira type {}, f_p = {}, c_p = {}, v_p(Δ) = {}",
-            p.prime,
-            reduction_words(p.reduction),
-            p.kodaira,
-            p.conductor_exponent,
-            p.tamagawa,
-            p.disc_valuation
-        )?;
-    }
-    writeln!(f)?;
-    let mut ev = String::new();
-    for (i, d) in r.isogenies().iter().enumerate() {
-        let _ = writeln!(
-            ev,
-            "evidence, isogeny {}: on E {}; on E' {}",
-            i + 1,
-            evidence_summary(d.domain()),
-            evidence_summary(d.codomain())
-        );
-    }
-    f.write_str(&ev)
+    Ok(())
 }
 
 fn write_analytic(f: &mut fmt::Formatter<'_>, r: &DescentReport, a: &AnalyticData) -> fmt::Result {
@@ -550,13 +613,13 @@ fn write_analytic(f: &mut fmt::Formatter<'_>, r: &DescentReport, a: &AnalyticDat
         .unwrap_or_else(|| "undecided".into());
     let period = a
         .real_period()
-        .map(|c| format!("{} ± {:.1e}", decimal(c.value(), c.error()), c.error()))
+        .map(|c| plus_minus(c.value(), c.error()))
         .unwrap_or_else(|| "-".into());
     writeln!(
         f,
         "analytic side: root number w = {w}, Ω = {period} ({} real component{}), {} terms",
-        a.real_components().unwrap_or(0),
-        if a.real_components() == Some(1) {
+        a.real_component_count().unwrap_or(0),
+        if a.real_component_count() == Some(1) {
             ""
         } else {
             "s"
@@ -568,21 +631,23 @@ fn write_analytic(f: &mut fmt::Formatter<'_>, r: &DescentReport, a: &AnalyticDat
         .iter()
         .map(|(k, c)| {
             format!(
-                "L{}(E,1) = {} ± {:.1e}",
+                "L{}(E,1) = {}",
                 "'".repeat(*k),
-                decimal(c.value(), c.error()),
-                c.error()
+                plus_minus(c.value(), c.error())
             )
         })
         .collect();
     if !values.is_empty() {
         writeln!(f, "  {}", values.join(", "))?;
     }
-    match a.analytic_rank() {
-        Some(k) if k <= 1 => writeln!(f, "  analytic rank {k} (order of vanishing at s = 1, proven)")?,
-        Some(k) => writeln!(
+    match a.analytic_order() {
+        Some(AnalyticOrder::Exact(k)) => {
+            writeln!(f, "  analytic rank {k} (order of vanishing at s = 1, proven)")?
+        }
+        Some(o) => writeln!(
             f,
-            "  analytic rank at most {k} (smallest order with a certified non-zero value; lower orders not proven to vanish)"
+            "  analytic rank at most {} (smallest order with a certified non-zero value; lower orders not proven to vanish)",
+            o.order()
         )?,
         None => writeln!(f, "  no L^(r)(E,1) with r ≤ 3 certified non-zero")?,
     }
@@ -594,9 +659,8 @@ fn write_analytic(f: &mut fmt::Formatter<'_>, r: &DescentReport, a: &AnalyticDat
             };
             writeln!(
                 f,
-                "  Birch–Swinnerton-Dyer: analytic order of Sha = {} ± {:.1e}, {square}",
-                decimal(l.value.value(), l.value.error()),
-                l.value.error()
+                "  Birch–Swinnerton-Dyer: analytic order of Sha = {}, {square}",
+                plus_minus(l.value.value(), l.value.error())
             )?;
             if let Some(t) = r.sha_two_part() {
                 writeln!(
@@ -651,4 +715,37 @@ fn heegner_text(f: &mut fmt::Formatter<'_>, r: &DescentReport) -> fmt::Result {
         Some(H::NotApplicable(why)) => writeln!(f, "Heegner point: not attempted ({why})"),
         None => Ok(()),
     }
+}
+
+/// `value ± error` with the printed interval containing the certified one
+/// (see [`super::json::value_and_error`]).
+fn plus_minus(value: f64, error: f64) -> String {
+    let (v, e) = super::json::value_and_error(value, error);
+    format!("{v} ± {e}")
+}
+
+/// `c₀·m₀ + c₁·m₁ + …` with the monomials `m_i`, zero terms left out.
+fn form_text(coeffs: &[BigInt], monomials: &[&str]) -> String {
+    use num_traits::{Signed, Zero};
+    let mut out = String::new();
+    for (c, m) in coeffs.iter().zip(monomials) {
+        if c.is_zero() {
+            continue;
+        }
+        if out.is_empty() {
+            if c.is_negative() {
+                out.push('-');
+            }
+        } else {
+            out.push_str(if c.is_negative() { " - " } else { " + " });
+        }
+        if !c.abs().is_one() {
+            out.push_str(&c.abs().to_string());
+        }
+        out.push_str(m);
+    }
+    if out.is_empty() {
+        out.push('0');
+    }
+    out
 }

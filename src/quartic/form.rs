@@ -56,7 +56,8 @@ impl Quartic {
     /// The quartic with coefficients `[c4, c3, c2, c1, c0]` (coefficient of
     /// `x^(4−i) z^i` at index `i`).
     ///
-    /// Errors: [`Error::Degenerate`] when the discriminant is `0` (this
+    /// # Errors
+    /// [`Error::Degenerate`] when the discriminant is `0` (this
     /// includes `g = 0`, a repeated factor such as `(x − z)²(x² + z²)`, and a
     /// double root at infinity `c4 = c3 = 0`).
     ///
@@ -89,7 +90,8 @@ impl Quartic {
     /// curve under `Y = s·y`. Here `s` is the least common multiple of the
     /// denominators (so `s·r_i`, hence `s²·r_i`, is integral).
     ///
-    /// Errors: [`Error::Degenerate`] as in [`Quartic::new`].
+    /// # Errors
+    /// [`Error::Degenerate`] as in [`Quartic::new`].
     ///
     /// Example: `[1/4, 0, 0, 0, −17/4]` gives `s = 4` and `16·g =
     /// 4x⁴ − 68z⁴`.
@@ -123,7 +125,8 @@ impl Quartic {
     /// `b(a² − 4b) ≠ 0`, i.e. iff `E` is non-singular; the constructor
     /// checks that condition instead of recomputing `I` and `J`.
     ///
-    /// Errors: [`Error::Zero`] for `d = 0`; [`Error::Degenerate`] when
+    /// # Errors
+    /// [`Error::Zero`] for `d = 0`; [`Error::Degenerate`] when
     /// `b(a² − 4b) = 0`.
     ///
     /// Example: for `E: y² = x³ − 17x` (`a = 0, b = −17`) and `d = −1` the

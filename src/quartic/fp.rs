@@ -31,6 +31,7 @@
 //! same roots; the property tests below compare them on random and on
 //! planted inputs at primes from 67 to `2^63 − 25`.
 
+use crate::arith::word::sqrt_mod_with;
 use crate::budget::Budget;
 use crate::error::{Error, Result};
 use crate::local::legendre_u64;
@@ -714,47 +715,7 @@ pub(crate) fn constant_times_square_word(phi: &WordPoly, f: WordField) -> Option
 /// A square root of `a` modulo `p` (Tonelli–Shanks [Cohen93, Alg. 1.5.1]),
 /// or `None` when `a` is a non-residue; `sqrt(0) = 0`.
 pub(crate) fn sqrt_word(a: u64, f: WordField) -> Option<u64> {
-    let p = f.p();
-    let a = a % p;
-    if a == 0 {
-        return Some(0);
-    }
-    if legendre_u64(a, p) != 1 {
-        return None;
-    }
-    let s = (p - 1).trailing_zeros();
-    let q = (p - 1) >> s;
-    if s == 1 {
-        return Some(f.pow(a, (p + 1) / 4));
-    }
-    let mut z = 2u64;
-    while legendre_u64(z, p) != -1 {
-        z += 1;
-    }
-    let mut m = s;
-    let mut c = f.pow(z, q);
-    let mut t = f.pow(a, q);
-    let mut r = f.pow(a, q.div_ceil(2));
-    while t != 1 {
-        let mut i = 0u32;
-        let mut t2 = t;
-        while t2 != 1 {
-            t2 = f.mul(t2, t2);
-            i += 1;
-            if i >= m {
-                return None;
-            }
-        }
-        let mut b = c;
-        for _ in 0..(m - i - 1) {
-            b = f.mul(b, b);
-        }
-        m = i;
-        c = f.mul(b, b);
-        t = f.mul(t, c);
-        r = f.mul(r, b);
-    }
-    Some(r)
+    sqrt_mod_with(a, f.p(), |x, y| f.mul(x, y), |x, e| f.pow(x, e))
 }
 
 #[cfg(test)]

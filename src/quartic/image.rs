@@ -54,22 +54,19 @@ use num_traits::{One, Signed, ToPrimitive, Zero};
 /// when `d ∤ b` — this function does not factor; it checks completeness
 /// by dividing them out of `|d·b·(a² − 4b)|` and requiring the cofactor `1`.
 ///
-/// Errors: [`Error::Zero`] for `d = 0`; [`Error::Degenerate`] when
-/// `b(a² − 4b) = 0`; [`Error::InvalidArgument`] when `primes` misses a
-/// prime factor (the cofactor is named).
+/// The model is checked ([`ReducedModel`]: `b(a² − 4b) ≠ 0`).
+///
+/// # Errors
+/// [`Error::Zero`] for `d = 0`; [`Error::InvalidArgument`] when `primes`
+/// misses a prime factor (the cofactor is named).
 ///
 /// Example: `a = 0, b = −17, d = −1` with primes `[2, 17]`
 /// (`b(a² − 4b) = −17·68`) gives `[R, 2, 17]`.
-pub fn relevant_places(a: &BigInt, b: &BigInt, d: &BigInt, primes: &[Prime]) -> Result<Vec<Place>> {
+pub fn relevant_places(model: &ReducedModel, d: &BigInt, primes: &[Prime]) -> Result<Vec<Place>> {
     if d.is_zero() {
         return Err(Error::Zero { what: "d".into() });
     }
-    let disc = b * (a * a - BigInt::from(4) * b);
-    if disc.is_zero() {
-        return Err(Error::Degenerate {
-            reason: format!("b(a² − 4b) = 0 for a = {a}, b = {b}"),
-        });
-    }
+    let disc = model.b() * model.quadratic_discriminant();
     let mut n = (&disc * d).abs();
     let mut places = vec![Place::Real, Place::Finite(Prime::two())];
     for p in primes {
@@ -92,6 +89,7 @@ pub fn relevant_places(a: &BigInt, b: &BigInt, d: &BigInt, primes: &[Prime]) -> 
 
 /// The evidence for one square class in a [`LocalImage`].
 #[derive(Debug, Clone, PartialEq, Eq)]
+#[non_exhaustive]
 pub struct ClassEvidence {
     /// The class, as a bit mask in the basis of `crate::local::square_class`.
     pub mask: u8,
@@ -104,6 +102,7 @@ pub struct ClassEvidence {
 /// The local image `W_v ⊆ Q_v*/Q_v*²` of the 2-isogeny descent on
 /// `y² = x³ + ax² + bx` at one place, with evidence per class.
 #[derive(Debug, Clone, PartialEq, Eq)]
+#[non_exhaustive]
 pub struct LocalImage {
     /// The place `v`.
     pub place: Place,
@@ -168,7 +167,8 @@ fn f2_basis(masks: &[u8]) -> Vec<u8> {
 /// square-class basis of the `local` layer (R: sign; odd p: `{p, n}`;
 /// 2: `{2, −1, 5}`), with a basis, the dimension, and the evidence.
 ///
-/// Errors: [`Error::Degenerate`] when `b(a² − 4b) = 0`;
+/// # Errors
+/// [`Error::Degenerate`] when `b(a² − 4b) = 0`;
 /// [`Error::BudgetExhausted`].
 ///
 /// Cost: at most 2, 4 or 8 local solubility tests (a class is skipped
@@ -233,6 +233,13 @@ pub(crate) fn local_image_with(
         let solubility = match fast {
             Some(s) => s?,
             None => {
+                // Building the quartic is not charged (O(1) products), but
+                // on huge models it is slow: read the clock first.
+                budget
+                    .check_deadline()
+                    .map_err(|_| Error::BudgetExhausted {
+                        stage: "local image".into(),
+                    })?;
                 let q = Quartic::two_isogeny_space(&d, a, b)?;
                 locally_soluble(&q, place, budget)?
             }

@@ -20,6 +20,7 @@ use num_traits::{ToPrimitive, Zero};
 use super::padic_word;
 use super::solubility::{finish_word_coeffs, padic_sqrt_of, LocalPoint, LocalSolubility};
 use super::{fp, padic};
+use crate::arith::word::isqrt_u128;
 use crate::arith::word::Ck;
 use crate::budget::Budget;
 use crate::error::Result;
@@ -177,18 +178,6 @@ fn finish_coeffs(
     Ok(LocalSolubility::Soluble(LocalPoint::new(
         place, x, z, y, precision,
     )))
-}
-
-/// `⌊√n⌋` for `n ≥ 0`, exactly (a floating-point estimate, corrected).
-fn isqrt_u128(n: u128) -> u128 {
-    let mut r = (n as f64).sqrt() as u128;
-    while r.checked_mul(r).map_or(true, |sq| sq > n) {
-        r -= 1;
-    }
-    while (r + 1).checked_mul(r + 1).is_some_and(|sq| sq <= n) {
-        r += 1;
-    }
-    r
 }
 
 /// The real search of `real::real_witness` for `c4 < 0`, `c0 < 0`,

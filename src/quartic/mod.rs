@@ -25,7 +25,6 @@ pub(crate) mod padic;
 mod padic_word;
 pub(crate) mod real;
 pub(crate) mod search;
-pub(crate) mod second_descent;
 pub(crate) mod solubility;
 
 pub use form::Quartic;
@@ -34,10 +33,6 @@ pub use real::real_root_count;
 pub use search::{
     search, search_all, search_all_quartic, search_quartic, search_report, Congruence,
     QuarticPoint, SearchOptions, SearchOutcome, SearchReport, MAX_CONGRUENCE_MODULUS, MAX_HEIGHT,
-};
-pub use second_descent::{
-    second_descent, verify_obstruction, NoPointEvidence, ObstructedCurve, SecondDescentOptions,
-    SecondDescentOutcome, TwistObstruction,
 };
 pub use solubility::{
     locally_soluble, odd_prime_soluble, real_soluble, two_adic_soluble, LocalPoint, LocalSolubility,

@@ -9,8 +9,9 @@
 //! class, from the same point of the tree. Classes are processed in the
 //! same breadth-first order, each with the same test, so both routines
 //! return the same witness and charge the budget the same units
-//! (the tests in `padic_word::tests` and `tests/quartic_word_paths.rs`
-//! compare them).
+//! (the tests in `padic_word::tests` and `padic::tests` compare them, and
+//! `src/family/word_sweep.rs` compares whole families with the word paths
+//! on and off).
 
 use std::collections::VecDeque;
 

@@ -199,7 +199,8 @@ pub fn real_root_count(q: &Quartic) -> usize {
 /// `(x, z)` of integers with `g(x, z) > 0`, or `None` when there is no real
 /// point.
 ///
-/// Errors: [`Error::BudgetExhausted`] when the budget runs out (one unit per
+/// # Errors
+/// [`Error::BudgetExhausted`] when the budget runs out (one unit per
 /// Sturm evaluation).
 pub(crate) fn real_witness(q: &Quartic, budget: &mut Budget) -> Result<Option<(BigInt, BigInt)>> {
     let c = q.coeffs();

@@ -67,6 +67,7 @@
 //! always stops at the same place.
 
 use super::form::Quartic;
+use crate::arith::word::isqrt_u128;
 use crate::budget::Budget;
 use crate::error::{Error, Result};
 use num_bigint::BigInt;
@@ -125,6 +126,7 @@ const CHUNK_WORDS: usize = 4096;
 /// A point `(x, z, y)` of `y² = g(x, z)`, normalised: `gcd(x, z) = 1`,
 /// `z > 0` or `(x, z) = (1, 0)`, and `y ≥ 0`.
 #[derive(Debug, Clone, PartialEq, Eq, Hash)]
+#[non_exhaustive]
 pub struct QuarticPoint {
     /// The first coordinate.
     pub x: BigInt,
@@ -182,6 +184,7 @@ pub enum SearchOutcome {
 
 /// All points found by a search that may have been cut short by its budget.
 #[derive(Debug, Clone, PartialEq, Eq)]
+#[non_exhaustive]
 pub struct SearchReport {
     /// Every point of height `≤ completed_height`, in search order, followed
     /// (only when `finished` is false) by points of larger height that were
@@ -209,7 +212,8 @@ pub struct Congruence {
 impl Congruence {
     /// The condition that `(x mod m, z mod m)` lies in `allowed`.
     ///
-    /// Errors: [`Error::InvalidArgument`] if `modulus` is 0 or larger than
+    /// # Errors
+    /// [`Error::InvalidArgument`] if `modulus` is 0 or larger than
     /// [`MAX_CONGRUENCE_MODULUS`], or if a residue is not in `0..modulus`.
     /// Duplicates are removed; an empty set admits no pair.
     ///
@@ -322,7 +326,8 @@ impl SearchOptions {
 /// `NoneUpTo { height }`, or `GaveUp { completed_height }` when the budget
 /// runs out first.
 ///
-/// Errors: [`Error::Degenerate`] if the discriminant of `g` is 0 (in
+/// # Errors
+/// [`Error::Degenerate`] if the discriminant of `g` is 0 (in
 /// particular if `g = 0`), since then the curve can have about `H²` points
 /// of height `≤ H`; [`Error::InvalidArgument`] if `height > MAX_HEIGHT` or
 /// there are more than `MAX_CONGRUENCES` congruences.
@@ -375,7 +380,8 @@ pub fn search(
 /// Same inputs, method and cost as [`search`] (always the full `≈ 1.2·H²`
 /// pairs).
 ///
-/// Errors: as [`search`], and [`Error::BudgetExhausted`] if the budget runs
+/// # Errors
+/// as [`search`], and [`Error::BudgetExhausted`] if the budget runs
 /// out (use [`search_report`] to keep the partial result).
 ///
 /// Example: `y² = x⁴ − z⁴` has exactly the points `(1, 0, 1)`, `(−1, 1, 0)`,
@@ -402,7 +408,8 @@ pub fn search_all(
 /// Like [`search_all`], but a budget that runs out ends the search with a
 /// partial [`SearchReport`] instead of an error.
 ///
-/// Errors: [`Error::Degenerate`] and [`Error::InvalidArgument`] as in
+/// # Errors
+/// [`Error::Degenerate`] and [`Error::InvalidArgument`] as in
 /// [`search`].
 ///
 /// Example: with `Budget::with_units(0)` the report has
@@ -573,23 +580,6 @@ fn eval_i128(c: &[i128; 5], x: i64, z: i64) -> Option<i128> {
         v = v.checked_mul(x)?.checked_add(ci.checked_mul(zp)?)?;
     }
     Some(v)
-}
-
-/// `⌊√n⌋` for `n: u128`, by Newton's iteration from above.
-fn isqrt_u128(n: u128) -> u128 {
-    if n < 2 {
-        return n;
-    }
-    let est = (n as f64).sqrt() as u128;
-    // The f64 estimate has relative error below 2^-50; start safely above.
-    let mut x = est + (est >> 40) + 2;
-    loop {
-        let y = (x + n / x) / 2;
-        if y >= x {
-            return x;
-        }
-        x = y;
-    }
 }
 
 // ---------------------------------------------------------------------------
@@ -1007,6 +997,11 @@ impl Sieve {
                         continue;
                     }
                     budget.spend(1).map_err(|_| OutOfBudget)?;
+                    if self.small.is_none() {
+                        // A square-root test on big values is slow next
+                        // to a unit: read the clock at each one.
+                        budget.check_deadline().map_err(|_| OutOfBudget)?;
+                    }
                     if let Some(y) = self.exact_square(x, z) {
                         out.push(Found {
                             height: x.unsigned_abs().max(z as u64),

@@ -185,7 +185,8 @@ impl LocalSolubility {
 /// ([`two_adic_soluble`]). All three terminate on every non-degenerate
 /// quartic (see the module docs of `padic` for the termination proof).
 ///
-/// Errors: [`Error::BudgetExhausted`] when `budget` runs out.
+/// # Errors
+/// [`Error::BudgetExhausted`] when `budget` runs out.
 ///
 /// Cost: real place, `O(log(coefficients))` Sturm evaluations; prime `p`,
 /// at most `4·(v_p(Δ) + 4)` classes, each costing `p` residue tests for
@@ -207,7 +208,8 @@ pub fn locally_soluble(q: &Quartic, place: &Place, budget: &mut Budget) -> Resul
 /// Real solubility by Lemma R (module `real`); the witness has
 /// `g(x, z) > 0`.
 ///
-/// Errors: [`Error::BudgetExhausted`].
+/// # Errors
+/// [`Error::BudgetExhausted`].
 ///
 /// Example: `x⁴ − 17z⁴` is soluble (witness `(1, 0)`); `−x⁴ − z⁴` is not.
 pub fn real_soluble(q: &Quartic, budget: &mut Budget) -> Result<LocalSolubility> {
@@ -222,7 +224,8 @@ pub fn real_soluble(q: &Quartic, budget: &mut Budget) -> Result<LocalSolubility>
 
 /// `Q_p`-solubility for an odd prime `p` by Lemma P (module `padic`).
 ///
-/// Errors: [`Error::InvalidArgument`] for `p = 2` (use
+/// # Errors
+/// [`Error::InvalidArgument`] for `p = 2` (use
 /// [`two_adic_soluble`]); [`Error::BudgetExhausted`].
 ///
 /// Example: `x⁴ − 3z⁴` at 3: `g(1, 0) = 1` is a square, soluble.
@@ -239,7 +242,8 @@ pub fn odd_prime_soluble(q: &Quartic, p: &Prime, budget: &mut Budget) -> Result<
 
 /// `Q_2`-solubility by Lemma T (module `padic`).
 ///
-/// Errors: [`Error::BudgetExhausted`].
+/// # Errors
+/// [`Error::BudgetExhausted`].
 ///
 /// Example: `x⁴ + z⁴` is soluble (`g(0, 1) = 1`). `3x⁴ + 3z⁴` is not:
 /// with one of `x, z` odd and one even, `x⁴ + z⁴ ≡ 1 (mod 16)` and

@@ -19,7 +19,7 @@ use num_rational::BigRational;
 use num_traits::Zero;
 
 use super::f2::{BitVec, Subspace};
-use super::group::{selmer_from_local_images, LocalCondition};
+use super::group::{selmer_from_local_images_budgeted, LocalCondition};
 use super::qs2::QS2;
 use crate::budget::Budget;
 use crate::curve::{Point, ReducedModel};
@@ -83,7 +83,7 @@ pub(crate) fn assemble_selmer(
         super::image_size::images_match_prediction(model, &local_images),
         "local image sizes disagree with Tamagawa numbers for {model}"
     );
-    let group = selmer_from_local_images(&qs2, &conditions)?;
+    let group = selmer_from_local_images_budgeted(&qs2, &conditions, budget)?;
     let mut torsion_span = Subspace::zero(qs2.dim());
     let mut torsion_basis = Vec::new();
     for t in torsion {

@@ -95,7 +95,7 @@ impl BitVec {
 
     /// The vector with the given bits (bit i of `bits` is coordinate i);
     /// `len` must be at most 64.
-    pub fn from_u64(len: usize, bits: u64) -> Self {
+    pub(crate) fn from_u64(len: usize, bits: u64) -> Self {
         let mut v = Self::zeros(len);
         if let Some(w) = v.words_mut().first_mut() {
             let mask = if len >= 64 {
@@ -109,7 +109,7 @@ impl BitVec {
     }
 
     /// The vector from a list of booleans.
-    pub fn from_bools(bits: &[bool]) -> Self {
+    pub(crate) fn from_bools(bits: &[bool]) -> Self {
         let mut v = Self::zeros(bits.len());
         for (i, &b) in bits.iter().enumerate() {
             v.set(i, b);
@@ -152,7 +152,7 @@ impl BitVec {
     }
 
     /// self += other (lengths must agree; extra bits of a longer `other` are ignored).
-    pub fn add_assign(&mut self, other: &BitVec) {
+    pub(crate) fn add_assign(&mut self, other: &BitVec) {
         if let (Words::One(a), Words::One(b)) = (&mut self.words, &other.words) {
             *a ^= b;
         } else {
@@ -333,7 +333,7 @@ impl Subspace {
     ///
     /// # Errors
     /// [`Exhausted`] when the budget runs out; nothing is computed then.
-    pub fn try_reduce(&self, v: &BitVec, budget: &mut Budget) -> Result<BitVec, Exhausted> {
+    pub(crate) fn try_reduce(&self, v: &BitVec, budget: &mut Budget) -> Result<BitVec, Exhausted> {
         budget.spend(self.reduce_cost())?;
         Ok(self.reduce(v))
     }
@@ -343,7 +343,7 @@ impl Subspace {
     ///
     /// # Errors
     /// [`Exhausted`] when the budget runs out; the subspace is unchanged.
-    pub fn try_insert(&mut self, v: BitVec, budget: &mut Budget) -> Result<bool, Exhausted> {
+    pub(crate) fn try_insert(&mut self, v: BitVec, budget: &mut Budget) -> Result<bool, Exhausted> {
         budget.spend(self.reduce_cost().saturating_mul(2))?;
         Ok(self.insert(v))
     }
@@ -417,7 +417,7 @@ impl Subspace {
 
     /// A basis of a complement of `self` inside `larger` (which must contain
     /// `self`): vectors whose classes form a basis of larger / self.
-    pub fn complement_in(&self, larger: &Subspace) -> Vec<BitVec> {
+    pub(crate) fn complement_in(&self, larger: &Subspace) -> Vec<BitVec> {
         let mut s = self.clone();
         let mut out = Vec::new();
         for b in &larger.basis {

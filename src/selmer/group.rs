@@ -21,13 +21,15 @@ use num_bigint::BigInt;
 
 use super::f2::{insert_word, BitVec, LinearMap, Subspace};
 use super::qs2::QS2;
-use crate::error::Result;
+use crate::budget::Budget;
+use crate::error::{Error, Result};
 use crate::local::square_class::basis_class;
 use crate::local::{class_dimension, square_class_int, Place};
 
 /// The local image W_v at one place, as a subspace of Q_v*/Q_v*² in the
 /// square-class basis of [`crate::local`].
 #[derive(Clone, Debug, PartialEq, Eq)]
+#[non_exhaustive]
 pub struct LocalCondition {
     /// The place v.
     pub place: Place,
@@ -83,23 +85,54 @@ pub fn localisation(qs2: &QS2, place: &Place) -> Result<LinearMap> {
 /// # Errors
 /// Propagates errors of `localisation`.
 pub fn selmer_from_local_images(qs2: &QS2, conditions: &[LocalCondition]) -> Result<Subspace> {
+    selmer_from_local_images_budgeted(qs2, conditions, &mut Budget::unlimited())
+}
+
+/// [`selmer_from_local_images`] under `budget`: on the general route
+/// (dim Q(S, 2) > 64) each place is charged `n²/64` units, n = dim Q(S, 2)
+/// (the word operations of its preimage and annihilator), the final
+/// kernel `n·r/64` for r rows, and the deadline is read before each
+/// place.
+///
+/// # Errors
+/// As [`selmer_from_local_images`]; [`Error::BudgetExhausted`] when the
+/// budget or its deadline runs out.
+pub(crate) fn selmer_from_local_images_budgeted(
+    qs2: &QS2,
+    conditions: &[LocalCondition],
+    budget: &mut Budget,
+) -> Result<Subspace> {
     match selmer_in_words(qs2, conditions) {
         Some(sel) => Ok(sel),
-        None => selmer_general(qs2, conditions),
+        None => selmer_general(qs2, conditions, budget),
     }
 }
 
 /// [`selmer_from_local_images`] on `BitVec`s of any length: each
 /// preimage loc_v^{-1}(W_v), its annihilator, and the kernel of their stack.
-fn selmer_general(qs2: &QS2, conditions: &[LocalCondition]) -> Result<Subspace> {
+fn selmer_general(
+    qs2: &QS2,
+    conditions: &[LocalCondition],
+    budget: &mut Budget,
+) -> Result<Subspace> {
     let n = qs2.dim();
+    let stop = |_| Error::BudgetExhausted {
+        stage: "Selmer group from local images".into(),
+    };
+    let per_place = (n as u64).saturating_mul(n as u64) / 64 + 1;
     let mut rows = Vec::new();
     for c in conditions {
+        budget.spend(per_place).map_err(stop)?;
+        budget.check_deadline().map_err(stop)?;
         let loc = localisation(qs2, &c.place)?;
         let pre = loc.preimage(&c.image);
         // rows cutting out `pre`: its annihilator
         rows.extend(pre.annihilator().basis().iter().cloned());
     }
+    budget
+        .spend((n as u64).saturating_mul(rows.len() as u64) / 64 + 1)
+        .map_err(stop)?;
+    budget.check_deadline().map_err(stop)?;
     Ok(LinearMap::from_rows(n, rows).kernel())
 }
 
@@ -222,7 +255,7 @@ mod tests {
                 let masks: Vec<u8> = (0..k).map(|_| (rng.next() % (1 << d)) as u8).collect();
                 conditions.push(LocalCondition::from_masks(v, &masks));
             }
-            let general = selmer_general(&q, &conditions).unwrap();
+            let general = selmer_general(&q, &conditions, &mut Budget::unlimited()).unwrap();
             match selmer_in_words(&q, &conditions) {
                 Some(words) => {
                     assert_eq!(words, general, "round {round}");

@@ -111,6 +111,7 @@ pub const DUAL_LEADING_COEFFICIENT: i64 = -2;
 
 /// The terms of the p-adic count of `|E(Q_p)/ψE′(Q_p)|` (module docs).
 #[derive(Clone, Debug, PartialEq, Eq)]
+#[non_exhaustive]
 pub struct PadicCountTerms {
     /// The prime `p`.
     pub prime: Prime,
@@ -165,6 +166,7 @@ impl PadicCountTerms {
 
 /// The terms of the real count of `|E(R)/ψE′(R)|` (module docs).
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
+#[non_exhaustive]
 pub struct RealCountTerms {
     /// `c_∞(E)`: connected components of `E(R)` (2 iff `a² − 4b > 0`).
     pub components: u64,

@@ -3,10 +3,16 @@
 //! `f2` holds bit-packed linear algebra over F2; `qs2` the group
 //! Q(S, 2) of classes of Q*/Q*^2 unramified outside S, with basis {−1} ∪ S;
 //! `assemble` the Selmer group of one side from its local images, with
-//! the torsion images inside it; `group` the Selmer group of one side of a 2-isogeny as the preimage of
-//! the product of local images under the localisation map; `pairing` the
-//! subgroup of classes that lift to everywhere locally soluble 2-coverings
-//! (the second descent as linear algebra).
+//! the torsion images inside it; `group` the Selmer group of one side of a
+//! 2-isogeny as the preimage of the product of local images under the
+//! localisation map; `image_size` the sizes of the local images predicted
+//! from Tamagawa numbers (a cross-check). Which Selmer classes lift further
+//! is the question of the layer above (module `second`).
+//!
+//! ---
+//!
+//! The guide below is `docs/image_size.md`, included verbatim.
+#![doc = include_str!("../../docs/image_size.md")]
 
 pub(crate) mod assemble;
 #[allow(dead_code)]
@@ -15,16 +21,8 @@ pub(crate) mod group;
 // Cross-check functions: used by debug assertions and the unit tests in `checks`.
 #[allow(dead_code)]
 pub(crate) mod image_size;
-pub(crate) mod pairing;
 pub(crate) mod qs2;
-
-#[cfg(test)]
-mod checks;
 
 pub use f2::{BitVec, Subspace};
 pub use group::{selmer_from_local_images, LocalCondition};
-pub use pairing::{
-    class_lift, lift_pairing, soluble_twists, verify_class_lift, ClassLift, LiftPairing,
-    LocalLiftValue,
-};
 pub use qs2::QS2;

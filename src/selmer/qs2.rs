@@ -39,7 +39,7 @@ impl QS2 {
     }
 
     /// The basis element for coordinate i: −1 for i = 0, p_i otherwise.
-    pub fn basis_element(&self, i: usize) -> Option<BigInt> {
+    pub(crate) fn basis_element(&self, i: usize) -> Option<BigInt> {
         if i == 0 {
             Some(-BigInt::one())
         } else {
@@ -120,7 +120,7 @@ impl QS2 {
     ///
     /// # Errors
     /// As [`QS2::vector`].
-    pub fn vector_rational(&self, x: &BigRational) -> Result<BitVec> {
+    pub(crate) fn vector_rational(&self, x: &BigRational) -> Result<BitVec> {
         self.vector(&(x.numer() * x.denom()))
     }
 

@@ -15,7 +15,7 @@
 
 use isodescent::curve::{Curve, Point};
 use isodescent::descent::{descend_isogeny, ClassStatus, DescentOptions, SelmerSide};
-use isodescent::quartic::{
+use isodescent::second::{
     second_descent, verify_obstruction, SecondDescentOptions, SecondDescentOutcome,
 };
 use isodescent::Budget;

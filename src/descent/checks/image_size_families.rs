@@ -3,7 +3,7 @@
 //! ([Cassels65]) against the computed Selmer groups. Ignored by default
 //! (a few minutes in release); run with
 //! `cargo test --release --lib image_size_families -- --ignored --nocapture`.
-//! The bounded versions run in `src/selmer/checks/image_size_checks.rs`.
+//! The bounded versions run in `src/descent/checks/image_size_checks.rs`.
 
 use std::time::Instant;
 

@@ -7,7 +7,7 @@ use isodescent::descent::{descend_isogeny, ClassStatus, DescentOptions};
 use isodescent::local::{Place, Prime};
 use isodescent::quartic::{locally_soluble, Quartic};
 use isodescent::quartic::{search, SearchOptions, SearchOutcome};
-use isodescent::quartic::{
+use isodescent::second::{
     second_descent, verify_obstruction, NoPointEvidence, ObstructedCurve, SecondDescentOptions,
     SecondDescentOutcome,
 };
@@ -132,16 +132,14 @@ fn every_quartic_obstruction_of_the_lind_reichardt_class_rechecks_with_the_local
     // primes of 2·d·Res, and each one has an obstruction.
     assert!(!ev.obstructions.is_empty());
     for o in &ev.obstructions {
-        let coeffs = o.covering_coefficients();
-        match &o.curve {
-            ObstructedCurve::Quartic { .. } => {
-                let q = Quartic::new(coeffs).unwrap();
+        match (&o.curve, o.quartic_coefficients()) {
+            (ObstructedCurve::Quartic { .. }, Some(coeffs)) => {
+                let q = Quartic::new(coeffs.clone()).unwrap();
                 let s = locally_soluble(&q, &o.place, &mut Budget::unlimited()).unwrap();
                 assert!(!s.is_soluble(), "λ = {}: soluble at {}", o.lambda, o.place);
             }
-            ObstructedCurve::Conic { .. } => {
-                assert!(coeffs[0].is_zero() && coeffs[1].is_zero());
-            }
+            (ObstructedCurve::Conic { .. }, None) => {}
+            other => panic!("λ = {}: {other:?}", o.lambda),
         }
     }
 }
@@ -250,7 +248,7 @@ fn a_covering_finds_the_point_of_53_that_the_first_search_misses() {
 #[test]
 fn a_covering_finds_the_point_of_142_whose_space_point_has_height_above_8000() {
     // 142 ≡ 6 mod 8: root number −1, Tunnell's equality holds (checked in
-    // tests/second_descent_congruent.rs); the covering gives the point
+    // tests/second_coverings_congruent.rs); the covering gives the point
     // (M, e) = (71291, 8183) on C_2 (found in a recorded run).
     check_large_point(-142 * 142, 2, 142, 8000);
 }

@@ -55,7 +55,7 @@ impl Certified {
     }
 
     /// An exactly known number (radius zero).
-    pub(crate) fn exact(value: f64) -> Certified {
+    pub fn exact(value: f64) -> Certified {
         Certified { value, error: 0.0 }
     }
 
@@ -96,6 +96,11 @@ impl Certified {
     pub fn upper(&self) -> f64 {
         let h = self.value + self.error;
         h + U2 * h.abs() + f64::MIN_POSITIVE
+    }
+
+    /// True when `x` lies in the enclosure `[lower(), upper()]`.
+    pub fn contains(&self, x: f64) -> bool {
+        self.lower() <= x && x <= self.upper()
     }
 
     /// True when the radius is finite.
@@ -217,9 +222,13 @@ impl Certified {
 }
 
 impl std::fmt::Display for Certified {
-    /// `value ± error`, both in shortest round-trip form.
+    /// `value ± error`, the value to one decimal beyond the error's leading
+    /// digit, the error widened by that rounding and rounded up: the printed
+    /// interval contains the certified one.
     fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
-        write!(f, "{} ± {:.1e}", self.value, self.error)
+        // The printed interval contains the certified one (arith::decimal).
+        let (v, e) = crate::arith::decimal::enclose(self.value, self.error);
+        write!(f, "{v} ± {e}")
     }
 }
 

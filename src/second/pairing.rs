@@ -51,17 +51,19 @@ use num_bigint::BigInt;
 use num_integer::Integer;
 use num_traits::{One, Signed, Zero};
 
-use super::f2::{BitVec, LinearMap, Subspace};
-use super::qs2::QS2;
 use crate::budget::Budget;
-use crate::conic::solve_diagonal_with_primes;
+use crate::conic::{obvious_conic_point, solve_diagonal_with_primes};
+use crate::curve::ReducedModel;
 use crate::error::{Error, Result};
 use crate::local::hilbert::hilbert_on_classes;
 use crate::local::{sqrt_mod_prime_power, square_class_int, valuation, Place, Prime};
 use crate::quartic::{locally_soluble, Quartic};
+use crate::selmer::f2::{BitVec, LinearMap, Subspace};
+use crate::selmer::QS2;
 
 /// The value of the tangent form at one local point of `C_d`.
 #[derive(Clone, Debug, PartialEq, Eq)]
+#[non_exhaustive]
 pub struct LocalLiftValue {
     /// The place `v`.
     pub place: Place,
@@ -84,6 +86,7 @@ pub struct LocalLiftValue {
 /// Everything used to evaluate `⟨d, ·⟩` for one class `d`, re-checkable by
 /// [`verify_class_lift`].
 #[derive(Clone, Debug, PartialEq, Eq)]
+#[non_exhaustive]
 pub struct ClassLift {
     /// The square-free class `d` (a divisor of `b`).
     pub class: BigInt,
@@ -106,6 +109,7 @@ impl ClassLift {
 
 /// The pairing on one Selmer group and its kernel.
 #[derive(Clone, Debug, PartialEq, Eq)]
+#[non_exhaustive]
 pub struct LiftPairing {
     /// The basis `d₁, …, dₙ` of the Selmer group used (coordinate vectors):
     /// first `known_count` classes known to be images of rational points
@@ -180,31 +184,40 @@ fn check(a: &BigInt, b: &BigInt, d: &BigInt) -> Result<(BigInt, BigInt)> {
     Ok((delta, b / d))
 }
 
-/// `g(M, e) = dM⁴ + aM²e² + (b/d)e⁴`.
-fn quartic_value(d: &BigInt, a: &BigInt, bd: &BigInt, m: &BigInt, e: &BigInt) -> BigInt {
-    let m2 = m * m;
-    let e2 = e * e;
-    d * &m2 * &m2 + a * &m2 * &e2 + bd * &e2 * &e2
+/// One class `d` on `y² = x³ + ax² + bx` with the point `P₀` of its conic:
+/// what the local values of the tangent form are computed from.
+struct TangentSetting<'a> {
+    /// `P₀ = (X₀, Y₀, Z₀)` on `X² − dY² = ΔZ²`.
+    p0: &'a [BigInt; 3],
+    a: &'a BigInt,
+    d: &'a BigInt,
+    /// `b/d`.
+    bd: &'a BigInt,
+    /// `Δ = a² − 4b`.
+    delta: &'a BigInt,
 }
 
-/// `A = X₀X − ΔZ₀Z`, `B = 2dY₀`, `C = Z₀X − X₀Z` at `(M, e)`:
-/// `h = A − B·N` and `h(P)·h(P') = Δ·C²` for the two points `P, P'` over
-/// `(M, e)` (N and −N), by `X₀² − dY₀² = ΔZ₀²` and `X² − dY² = ΔZ²`.
-fn tangent_parts(
-    p0: &[BigInt; 3],
-    a: &BigInt,
-    d: &BigInt,
-    delta: &BigInt,
-    m: &BigInt,
-    e: &BigInt,
-) -> (BigInt, BigInt, BigInt) {
-    let e2 = e * e;
-    let x = BigInt::from(2) * d * m * m + a * &e2;
-    let z = e2;
-    let big_a = &p0[0] * &x - delta * &p0[2] * &z;
-    let big_b = BigInt::from(2) * d * &p0[1];
-    let big_c = &p0[2] * &x - &p0[0] * &z;
-    (big_a, big_b, big_c)
+impl TangentSetting<'_> {
+    /// `g(M, e) = dM⁴ + aM²e² + (b/d)e⁴`.
+    fn quartic_value(&self, m: &BigInt, e: &BigInt) -> BigInt {
+        let m2 = m * m;
+        let e2 = e * e;
+        self.d * &m2 * &m2 + self.a * &m2 * &e2 + self.bd * &e2 * &e2
+    }
+
+    /// `A = X₀X − ΔZ₀Z`, `B = 2dY₀`, `C = Z₀X − X₀Z` at `(M, e)`:
+    /// `h = A − B·N` and `h(P)·h(P') = Δ·C²` for the two points `P, P'` over
+    /// `(M, e)` (N and −N), by `X₀² − dY₀² = ΔZ₀²` and `X² − dY² = ΔZ²`.
+    fn tangent_parts(&self, m: &BigInt, e: &BigInt) -> (BigInt, BigInt, BigInt) {
+        let (p0, d) = (self.p0, self.d);
+        let e2 = e * e;
+        let x = BigInt::from(2) * d * m * m + self.a * &e2;
+        let z = e2;
+        let big_a = &p0[0] * &x - self.delta * &p0[2] * &z;
+        let big_b = BigInt::from(2) * d * &p0[1];
+        let big_c = &p0[2] * &x - &p0[0] * &z;
+        (big_a, big_b, big_c)
+    }
 }
 
 /// The sign class of `A − B·√G` (`G > 0`, `A² ≠ B²G`): 1 if negative.
@@ -224,17 +237,13 @@ fn real_class(big_a: &BigInt, big_b: &BigInt, g: &BigInt) -> u8 {
 /// The value of the tangent form at a real point of `C_d` near the witness
 /// `(m, e)` (which has `g(m, e) > 0`), avoiding the two points where it
 /// vanishes.
-#[allow(clippy::too_many_arguments)]
 fn real_value(
-    p0: &[BigInt; 3],
-    a: &BigInt,
-    d: &BigInt,
-    bd: &BigInt,
-    delta: &BigInt,
+    setting: &TangentSetting<'_>,
     m: &BigInt,
     e: &BigInt,
     budget: &mut Budget,
 ) -> Result<LocalLiftValue> {
+    let (a, d, bd) = (setting.a, setting.d, setting.bd);
     // (K m + t, K e + s) → (m, e) projectively as K grows; g > 0 is open
     // and the tangent form vanishes at two points only.
     let limit = 16 + 2 * (m.bits() + e.bits() + d.bits() + bd.bits() + a.bits());
@@ -248,11 +257,11 @@ fn real_value(
         k <<= 1;
         for (mm, ee) in cands {
             spend(budget, size_units(mm.bits() + d.bits()))?;
-            let g = quartic_value(d, a, bd, &mm, &ee);
+            let g = setting.quartic_value(&mm, &ee);
             if !g.is_positive() {
                 continue;
             }
-            let (big_a, big_b, big_c) = tangent_parts(p0, a, d, delta, &mm, &ee);
+            let (big_a, big_b, big_c) = setting.tangent_parts(&mm, &ee);
             if big_c.is_zero() {
                 continue;
             }
@@ -273,20 +282,16 @@ fn real_value(
 
 /// The value of the tangent form at a `p`-adic point of `C_d` congruent to
 /// the witness `(m, e)` (with `g(m, e)` a nonzero square in `Q_p`).
-#[allow(clippy::too_many_arguments)]
 fn padic_value(
     p: &Prime,
-    p0: &[BigInt; 3],
-    a: &BigInt,
-    d: &BigInt,
-    bd: &BigInt,
-    delta: &BigInt,
+    setting: &TangentSetting<'_>,
     m: &BigInt,
     e: &BigInt,
     budget: &mut Budget,
 ) -> Result<LocalLiftValue> {
+    let (d, delta) = (setting.d, setting.delta);
     let place = Place::Finite(p.clone());
-    let g0 = quartic_value(d, a, bd, m, e);
+    let g0 = setting.quartic_value(m, e);
     let v0 = valuation(&g0, p).ok_or_else(|| Error::InvalidArgument {
         reason: format!("internal: the local witness ({m}, {e}) at {p} has g = 0"),
     })?;
@@ -303,11 +308,11 @@ fn padic_value(
             let mm = m + &step * t;
             let ee = e + &step * s;
             spend(budget, size_units(mm.bits() + ee.bits() + d.bits()))?;
-            let (big_a, big_b, big_c) = tangent_parts(p0, a, d, delta, &mm, &ee);
+            let (big_a, big_b, big_c) = setting.tangent_parts(&mm, &ee);
             if big_c.is_zero() {
                 continue;
             }
-            let g = quartic_value(d, a, bd, &mm, &ee);
+            let g = setting.quartic_value(&mm, &ee);
             if square_class_int(&g, &place)? != 0 {
                 return Err(Error::InvalidArgument {
                     reason: format!("internal: g({mm}, {ee}) is not a square in Q_{p}"),
@@ -343,32 +348,6 @@ fn padic_value(
     Err(Error::InvalidArgument {
         reason: format!("internal: every perturbed point at {p} lies over the base point"),
     })
-}
-
-/// A point of `X² − dY² = ΔZ²` read off when `Δ`, `−Δ/d` or `d + Δ` is a
-/// square (`(√Δ, 0, 1)`, `(0, s, 1)`, `(s, 1, 1)`); spares the general
-/// solver the easy cases, which include every class on the side of a
-/// curve with E[2] rational (`Δ` a square).
-pub(crate) fn obvious_conic_point(d: &BigInt, delta: &BigInt) -> Option<[BigInt; 3]> {
-    let root = |n: &BigInt| -> Option<BigInt> {
-        if n.is_negative() {
-            return None;
-        }
-        let r = n.sqrt();
-        (&r * &r == *n).then_some(r)
-    };
-    if let Some(r) = root(delta) {
-        return Some([r, BigInt::zero(), BigInt::one()]);
-    }
-    if (-delta).is_multiple_of(d) {
-        if let Some(s) = root(&(-delta / d)) {
-            return Some([BigInt::zero(), s, BigInt::one()]);
-        }
-    }
-    if let Some(s) = root(&(d + delta)) {
-        return Some([s, BigInt::one(), BigInt::one()]);
-    }
-    None
 }
 
 /// The square classes of the basis `−1, p₁, …` of `Q(S, 2)` at every place.
@@ -407,14 +386,13 @@ fn functional_from(values: &[LocalLiftValue], table: &[Vec<u8>], dim: usize) -> 
 /// place of `S ∪ {∞}` (so `d` is not in the Selmer group);
 /// [`Error::SingularCurve`]; [`Error::BudgetExhausted`].
 pub fn class_lift(
-    a: &BigInt,
-    b: &BigInt,
+    model: &ReducedModel,
     d: &BigInt,
     qs2: &QS2,
     budget: &mut Budget,
 ) -> Result<ClassLift> {
     let table = basis_classes(qs2, budget)?;
-    class_lift_with(a, b, d, qs2, &table, budget)
+    class_lift_with(model.a(), model.b(), d, qs2, &table, budget)
 }
 
 fn class_lift_with(
@@ -451,6 +429,13 @@ fn class_lift_with(
         }
     };
     let q = Quartic::two_isogeny_space(d, a, b)?;
+    let setting = TangentSetting {
+        p0: &p0,
+        a,
+        d,
+        bd: &bd,
+        delta: &delta,
+    };
     let mut values = Vec::new();
     for v in places(qs2) {
         let sol = locally_soluble(&q, &v, budget)?;
@@ -462,8 +447,8 @@ fn class_lift_with(
             });
         };
         let value = match &v {
-            Place::Real => real_value(&p0, a, d, &bd, &delta, w.x(), w.z(), budget)?,
-            Place::Finite(p) => padic_value(p, &p0, a, d, &bd, &delta, w.x(), w.z(), budget)?,
+            Place::Real => real_value(&setting, w.x(), w.z(), budget)?,
+            Place::Finite(p) => padic_value(p, &setting, w.x(), w.z(), budget)?,
         };
         values.push(value);
     }
@@ -486,8 +471,7 @@ fn class_lift_with(
 /// (torsion images, say): they lie in the kernel, their rows are zero and
 /// no conic is solved for them.
 pub fn lift_pairing(
-    a: &BigInt,
-    b: &BigInt,
+    model: &ReducedModel,
     qs2: &QS2,
     group: &Subspace,
     known: &Subspace,
@@ -500,7 +484,14 @@ pub fn lift_pairing(
     let mut lifts = Vec::with_capacity(basis.len() - known_count);
     for v in &basis[known_count..] {
         let d = qs2.integer(v);
-        lifts.push(class_lift_with(a, b, &d, qs2, &table, budget)?);
+        lifts.push(class_lift_with(
+            model.a(),
+            model.b(),
+            &d,
+            qs2,
+            &table,
+            budget,
+        )?);
     }
     let n = basis.len();
     let mut matrix = vec![BitVec::zeros(n); known_count];
@@ -556,7 +547,7 @@ pub fn lift_pairing(
 pub fn soluble_twists(
     lift: &ClassLift,
     qs2: &QS2,
-    conditions: &[super::group::LocalCondition],
+    conditions: &[crate::selmer::LocalCondition],
     max: usize,
     budget: &mut Budget,
 ) -> Result<Vec<BigInt>> {
@@ -632,13 +623,12 @@ pub fn soluble_twists(
 /// recomputed from the classes with Hilbert symbols. Returns false on any
 /// mismatch (never an error); budget exhaustion also gives false.
 pub fn verify_class_lift(
-    a: &BigInt,
-    b: &BigInt,
+    model: &ReducedModel,
     qs2: &QS2,
     lift: &ClassLift,
     budget: &mut Budget,
 ) -> bool {
-    verify_inner(a, b, qs2, lift, budget).unwrap_or(false)
+    verify_inner(model.a(), model.b(), qs2, lift, budget).unwrap_or(false)
 }
 
 fn verify_inner(
@@ -666,8 +656,15 @@ fn verify_inner(
         if &val.place != v {
             return Ok(false);
         }
-        let g = quartic_value(d, a, &bd, &val.m, &val.e);
-        let (big_a, big_b, big_c) = tangent_parts(&lift.conic_point, a, d, &delta, &val.m, &val.e);
+        let setting = TangentSetting {
+            p0: &lift.conic_point,
+            a,
+            d,
+            bd: &bd,
+            delta: &delta,
+        };
+        let g = setting.quartic_value(&val.m, &val.e);
+        let (big_a, big_b, big_c) = setting.tangent_parts(&val.m, &val.e);
         if big_c.is_zero() {
             return Ok(false);
         }
@@ -733,13 +730,13 @@ mod tests {
         // y² = x³ − 68x, d = 2: C_2 is 2Y² = 1 − 17X⁴ up to scaling,
         // everywhere locally soluble with no rational point [Lind40,
         // Reichardt42]; the class 2 cannot lie in the kernel.
-        let (a, b) = (BigInt::from(0), BigInt::from(-68));
+        let model = ReducedModel::new(BigInt::from(0), BigInt::from(-68)).unwrap();
         let qs2 = qs2_of(&[2, 17]);
         let mut budget = Budget::unlimited();
-        let lift = class_lift(&a, &b, &BigInt::from(2), &qs2, &mut budget).unwrap();
-        assert!(verify_class_lift(&a, &b, &qs2, &lift, &mut budget));
+        let lift = class_lift(&model, &BigInt::from(2), &qs2, &mut budget).unwrap();
+        assert!(verify_class_lift(&model, &qs2, &lift, &mut budget));
         let mut bad = lift.clone();
         bad.values[0].class ^= 1;
-        assert!(!verify_class_lift(&a, &b, &qs2, &bad, &mut budget));
+        assert!(!verify_class_lift(&model, &qs2, &bad, &mut budget));
     }
 }

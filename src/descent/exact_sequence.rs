@@ -9,7 +9,7 @@
 //! k + k' − 2 ≤ r ≤ u + u' − 2. Here k is the dimension of the span of
 //! the images of torsion and of the points found, and u is the dimension
 //! of the subgroup I ⊆ Sel of classes that lift to everywhere locally
-//! soluble 2-coverings (the second descent, [`crate::selmer::pairing`]),
+//! soluble 2-coverings (the second descent, [`crate::second::pairing`]),
 //! or dim Sel without it. The quotient Sel/α(E(Q)) is the φ'-part of the
 //! Tate–Shafarevich group's 2-torsion seen by this descent, so its
 //! dimension lies between dim Sel − u and dim Sel − k.
@@ -24,7 +24,7 @@
 ///
 /// gives dim Sel²(E) = dim Sel^φ(E) − t + dim I, where I is the image of
 /// the last map — the classes of Sel^φ̂(E') that lift to everywhere locally
-/// soluble 2-coverings of E, computed by [`crate::selmer::pairing`] — and
+/// soluble 2-coverings of E, computed by [`crate::second::pairing`] — and
 /// t = dim E'(Q)[φ̂]/φ(E(Q)[2]) is 0 when E[2] is rational (then φ maps
 /// E[2] onto E'[φ̂]) and 1 otherwise.
 ///

@@ -3,7 +3,7 @@
 //! [Schaefer96, Lemma 3.8], [SchaeferStoll04, Lemma 3.1], and Cassels'
 //! formula for the ratio of the two Selmer groups [Cassels65] against the
 //! computed Selmer groups. Bounded families here; the full families are in
-//! `src/selmer/checks/image_size_families.rs` (ignored by default).
+//! `src/descent/checks/image_size_families.rs` (ignored by default).
 
 use super::{b, primes_of_2n, rm, rmb};
 use crate::arith::factor_u64;

@@ -42,12 +42,13 @@ use num_traits::{ToPrimitive, Zero};
 
 use super::{Certified, HeightContext, DEFAULT_PRECISION};
 use crate::budget::Budget;
-use crate::curve::{torsion_subgroup, Point};
+use crate::curve::{torsion, Point};
 use crate::error::{Error, Result};
 
 /// Bounds valid for every point of `E(Q)` on the minimal model:
 /// `−canonical_minus_naive ≤ h(P) − ĥ(P) ≤ naive_minus_canonical`.
 #[derive(Clone, Copy, Debug, PartialEq)]
+#[non_exhaustive]
 pub struct DifferenceBounds {
     /// Upper bound for `h(P) − ĥ(P)`.
     pub naive_minus_canonical: f64,
@@ -71,6 +72,7 @@ pub fn difference_bounds(ctx: &HeightContext) -> DifferenceBounds {
 
 /// A proven lower bound for `ĥ` on the non-torsion points of `E(Q)`.
 #[derive(Clone, Debug, PartialEq)]
+#[non_exhaustive]
 pub struct HeightLowerBound {
     /// Every non-torsion `P` has `ĥ(P) ≥ bound`.
     pub bound: f64,
@@ -107,7 +109,7 @@ pub fn height_lower_bound(
     if search_height - b <= 1e-6 {
         return Ok(None);
     }
-    let tors = torsion_subgroup(ctx.minimal_model());
+    let tors = torsion(ctx.minimal_model());
     let m = search_height.exp().floor() as i128;
     let x0 = ctx.arch().x_floor;
     let a = ctx.a_invariants();
@@ -132,7 +134,7 @@ pub fn height_lower_bound(
                     continue;
                 }
                 let h = ctx.height_minimal(&p, DEFAULT_PRECISION);
-                if best.as_ref().map_or(true, |(_, bh)| h.value < bh.value) {
+                if best.as_ref().map_or(true, |(_, bh)| h.value() < bh.value()) {
                     best = Some((p, h));
                 }
             }

@@ -1,16 +1,16 @@
-//! The second descent as linear algebra (src/selmer/pairing.rs) and the
+//! The second descent as linear algebra (src/second/pairing.rs) and the
 //! exact 2-Selmer rank: checks against independent facts and against the
 //! 4-covering route.
 
-use isodescent::curve::{Curve, Point};
+use isodescent::curve::{Curve, Point, ReducedModel};
 use isodescent::descent::{
     descend, descend_isogeny, selmer2_rank, DescentOptions, IsogenyDescent, SelmerSide,
 };
 use isodescent::local::class_representatives;
 use isodescent::local::hilbert_symbol_int;
-use isodescent::quartic::{second_descent, SecondDescentOptions, SecondDescentOutcome};
+use isodescent::second::{class_lift, verify_class_lift};
+use isodescent::second::{second_descent, SecondDescentOptions, SecondDescentOutcome};
 use isodescent::selmer::BitVec;
-use isodescent::selmer::{class_lift, verify_class_lift};
 use isodescent::Budget;
 use num_bigint::BigInt;
 
@@ -94,15 +94,14 @@ fn every_class_lift_rechecks_from_its_evidence() {
             for lift in &p.lifts {
                 let mut budget = Budget::unlimited();
                 assert!(
-                    verify_class_lift(side.a(), side.b(), side.qs2(), lift, &mut budget),
+                    verify_class_lift(side.model(), side.qs2(), lift, &mut budget),
                     "a={a} b={b} class {}",
                     lift.class
                 );
                 let mut bad = lift.clone();
                 bad.functional.set(0, !bad.functional.get(0));
                 assert!(!verify_class_lift(
-                    side.a(),
-                    side.b(),
+                    side.model(),
                     side.qs2(),
                     &bad,
                     &mut budget
@@ -134,14 +133,8 @@ fn the_pairing_is_additive_in_the_first_class() {
                 for j in (i + 1)..n {
                     let v = p.basis[k0 + i].add(&p.basis[k0 + j]);
                     let dd = side.qs2().integer(&v);
-                    let lift = class_lift(
-                        side.a(),
-                        side.b(),
-                        &dd,
-                        side.qs2(),
-                        &mut Budget::unlimited(),
-                    )
-                    .unwrap();
+                    let lift = class_lift(side.model(), &dd, side.qs2(), &mut Budget::unlimited())
+                        .unwrap();
                     for w in &p.basis {
                         assert_eq!(
                             lift.pair(w),
@@ -498,30 +491,13 @@ fn a_class_outside_the_selmer_group_is_a_typed_error() {
     // y² = x³ − x: d = 3 does not divide b; d = −1 on y² = x³ + x is not
     // soluble over R (N² = −M⁴ − e⁴).
     let q = isodescent::selmer::QS2::new(vec![isodescent::local::Prime::two()]);
-    let r = class_lift(
-        &0.into(),
-        &(-1).into(),
-        &3.into(),
-        &q,
-        &mut Budget::unlimited(),
-    );
+    let m = |a: i64, b: i64| ReducedModel::new(a.into(), b.into()).unwrap();
+    let r = class_lift(&m(0, -1), &3.into(), &q, &mut Budget::unlimited());
     assert!(r.is_err());
-    let r = class_lift(
-        &0.into(),
-        &1.into(),
-        &(-1).into(),
-        &q,
-        &mut Budget::unlimited(),
-    );
+    let r = class_lift(&m(0, 1), &(-1).into(), &q, &mut Budget::unlimited());
     assert!(r.is_err());
-    let r = class_lift(
-        &0.into(),
-        &0.into(),
-        &1.into(),
-        &q,
-        &mut Budget::unlimited(),
-    );
-    assert!(r.is_err());
+    // A singular pair never reaches the pairing: the model refuses it.
+    assert!(ReducedModel::new(0.into(), 0.into()).is_err());
 }
 
 /// Two computations of "d lifts": the kernel of the pairing matrix, and
@@ -532,7 +508,7 @@ fn a_class_outside_the_selmer_group_is_a_typed_error() {
 /// small Selmer group of a box of curves.
 #[test]
 fn the_soluble_twists_exist_exactly_for_the_kernel_of_the_pairing() {
-    use isodescent::selmer::soluble_twists;
+    use isodescent::second::soluble_twists;
     use isodescent::selmer::LocalCondition;
     let (mut with, mut without) = (0, 0);
     for (a, b) in box_curves(9) {
@@ -553,7 +529,7 @@ fn the_soluble_twists_exist_exactly_for_the_kernel_of_the_pairing() {
                 }
                 let dd = side.qs2().integer(&v);
                 let mut budget = Budget::unlimited();
-                let lift = class_lift(side.a(), side.b(), &dd, side.qs2(), &mut budget).unwrap();
+                let lift = class_lift(side.model(), &dd, side.qs2(), &mut budget).unwrap();
                 let twists =
                     soluble_twists(&lift, side.qs2(), &conditions, 4, &mut budget).unwrap();
                 assert_eq!(

@@ -127,15 +127,17 @@ use num_integer::Integer;
 use num_rational::BigRational;
 use num_traits::{One, Signed, Zero};
 
-use super::form::Quartic;
-use super::search::{search, QuarticPoint, SearchOptions, SearchOutcome};
-use super::solubility::{locally_soluble, LocalSolubility};
 use crate::arith::{factor, is_perfect_square};
 use crate::budget::Budget;
-use crate::conic::{parametrise, parametrise_diagonal, solve_diagonal_with_primes, TernaryForm};
+use crate::conic::{
+    obvious_conic_point, parametrise, parametrise_diagonal, solve_diagonal_with_primes, TernaryForm,
+};
 use crate::curve::ReducedModel;
 use crate::error::{Error, Result};
 use crate::local::{hilbert_symbol_int, Place, Prime};
+use crate::quartic::{
+    locally_soluble, search, LocalSolubility, Quartic, QuarticPoint, SearchOptions, SearchOutcome,
+};
 
 /// Knobs for [`second_descent`].
 #[derive(Clone, Debug, PartialEq, Eq)]
@@ -215,6 +217,7 @@ pub enum ObstructedCurve {
 
 /// One twist `λ` whose covering `D_λ` has no point over `Q_v`.
 #[derive(Clone, Debug, PartialEq, Eq)]
+#[non_exhaustive]
 pub struct TwistObstruction {
     /// The square-free twist `λ`.
     pub lambda: BigInt,
@@ -226,23 +229,12 @@ pub struct TwistObstruction {
 
 impl TwistObstruction {
     /// The covering as five coefficients `[c4, c3, c2, c1, c0]` of
-    /// `y² = c4 m⁴ + … + c0 n⁴`, for callers that store quartics only.
-    ///
-    /// A conic obstruction `λ s² = A u² + B uv + C v²` is written
-    /// `[0, 0, λA, λB, λC]`: **when `c4 = c3 = 0` the last three entries are
-    /// the binary quadratic `λF`, and the curve meant is the conic
-    /// `y² = λA u² + λB uv + λC v²`** (`y = λs`), not a quartic (as a quartic
-    /// it would be degenerate). [`verify_obstruction`] knows both readings.
-    pub fn covering_coefficients(&self) -> [BigInt; 5] {
+    /// `y² = c4 m⁴ + … + c0 n⁴` when it is a quartic model of `D_λ`;
+    /// `None` for a conic obstruction (no quartic model was built).
+    pub fn quartic_coefficients(&self) -> Option<&[BigInt; 5]> {
         match &self.curve {
-            ObstructedCurve::Quartic { coeffs, .. } => coeffs.clone(),
-            ObstructedCurve::Conic { scale, form } => [
-                BigInt::zero(),
-                BigInt::zero(),
-                scale * &form[0],
-                scale * &form[1],
-                scale * &form[2],
-            ],
+            ObstructedCurve::Quartic { coeffs, .. } => Some(coeffs),
+            ObstructedCurve::Conic { .. } => None,
         }
     }
 }
@@ -250,6 +242,7 @@ impl TwistObstruction {
 /// A 4-covering that is locally soluble everywhere, with what the search
 /// on it found (nothing, or it ran out of budget).
 #[derive(Clone, Debug, PartialEq, Eq)]
+#[non_exhaustive]
 pub struct SurvivingCovering {
     /// The twist `λ`.
     pub lambda: BigInt,
@@ -262,6 +255,7 @@ pub struct SurvivingCovering {
 /// The evidence of [`SecondDescentOutcome::NoPoint`]: the parametrisation
 /// of `(Q)`, the complete list of twists and one obstruction per twist.
 #[derive(Clone, Debug, PartialEq, Eq)]
+#[non_exhaustive]
 pub struct NoPointEvidence {
     /// `[q₁, q₂, q₃]` parametrising `X² − dY² = (a² − 4b)Z²`.
     pub conic_forms: [[BigInt; 3]; 3],
@@ -714,10 +708,7 @@ fn setup(
             });
         }
     }
-    let pt = match given
-        .cloned()
-        .or_else(|| crate::selmer::pairing::obvious_conic_point(d, &delta))
-    {
+    let pt = match given.cloned().or_else(|| obvious_conic_point(d, &delta)) {
         Some(pt) => pt,
         None => {
             let ps: Vec<BigInt> = known.iter().cloned().collect();
@@ -792,7 +783,6 @@ enum TwistVerdict {
 type Model = ([BigInt; 5], [[BigInt; 3]; 3], BigInt, [[BigInt; 2]; 2]);
 
 /// Builds the quartic of `D_λ` by parametrising `side`'s conic.
-#[allow(clippy::too_many_arguments)]
 fn quartic_for(
     side: ConicSide,
     lambda: &BigInt,
@@ -819,7 +809,6 @@ fn quartic_for(
     Ok((coeffs, par, k, frame))
 }
 
-#[allow(clippy::too_many_arguments)]
 fn examine_twist(
     lambda: &BigInt,
     d: &BigInt,
@@ -948,7 +937,8 @@ fn examine_twist(
 /// twist; re-check with [`verify_obstruction`]), or
 /// [`SecondDescentOutcome::Undecided`].
 ///
-/// **Errors.** [`Error::Zero`] for `d = 0`; [`Error::SingularCurve`] when
+/// # Errors
+/// [`Error::Zero`] for `d = 0`; [`Error::SingularCurve`] when
 /// `b(a² − 4b) = 0`; [`Error::InvalidArgument`] when `d ∤ b`, when `d` is a
 /// square (the identity's class), or when `C_d` has no point over some
 /// `Q_v` (the caller should pass only classes of the Selmer group);
@@ -968,7 +958,7 @@ fn examine_twist(
 /// no point of height ≤ 128 on `C_53`, but a 4-covering yields
 /// `(M, e) = (119, 143)`, i.e. `x = 53·119²/143² = 750533/20449`.
 /// ```
-/// use isodescent::quartic::{second_descent, SecondDescentOptions, SecondDescentOutcome};
+/// use isodescent::second::{second_descent, SecondDescentOptions, SecondDescentOutcome};
 /// use isodescent::curve::ReducedModel;
 /// use isodescent::Budget;
 /// use num_bigint::BigInt;
@@ -1029,22 +1019,23 @@ pub fn second_descent(
 
 /// The second descent on the class `d` restricted to chosen twists: for
 /// each square-free `λ_h` in the normalisation of
-/// [`crate::selmer::pairing`] (the class of the tangent form `h` at a
+/// [`super::pairing`] (the class of the tangent form `h` at a
 /// point of `C_d`), the twist of Lemma Λ is `λ = κ·λ_h` with `κ` the square
 /// class of the binary form `X₀q₁ − dY₀q₂ − ΔZ₀q₃` (the tangent form at the
 /// base point `(X₀, Y₀, Z₀)` = `conic_point` of the parametrisation, a
 /// constant times a square: docs/second_descent.md §9). `conic_point` must
 /// be the point the classes `λ_h` were computed with
-/// ([`crate::selmer::pairing::ClassLift::conic_point`]). The twists that lift `d` to
+/// ([`super::pairing::ClassLift::conic_point`]). The twists that lift `d` to
 /// everywhere locally soluble 2-coverings are a coset computed by linear
-/// algebra ([`crate::selmer::pairing::soluble_twists`]), so the caller hands
+/// algebra ([`super::pairing::soluble_twists`]), so the caller hands
 /// in a few of them instead of all `2^(k+1)`.
 ///
 /// **Answer.** [`SecondDescentOutcome::Point`] or
 /// [`SecondDescentOutcome::Undecided`] (never `NoPoint`: not every twist is
 /// examined).
 ///
-/// **Errors.** As [`second_descent`]; [`Error::Internal`]
+/// # Errors
+/// As [`second_descent`]; [`Error::Internal`]
 /// if a named twist turns out locally insoluble
 /// (it contradicts the pairing).
 pub fn second_descent_on_twists(
@@ -1150,7 +1141,6 @@ struct SolubleCovering {
 /// Searches one soluble covering (its own search budget, charged to
 /// `budget`): the point of C_d and E if one is found and maps back, else
 /// the covering as a survivor with its search.
-#[allow(clippy::too_many_arguments)]
 fn search_covering(
     a: &BigInt,
     b: &BigInt,
@@ -1172,9 +1162,7 @@ fn search_covering(
         "second descent: covering searches",
     )?;
     if let SearchOutcome::Found(cp) = &outcome {
-        if let Some((space_point, x, y)) =
-            map_back(a, b, d, s, &c.lambda, &c.par, &c.k, &c.frame, cp)?
-        {
+        if let Some((space_point, x, y)) = map_back(a, b, d, s, &c, cp)? {
             return Ok(Ok(SecondDescentOutcome::Point {
                 space_point,
                 point_x: x,
@@ -1195,18 +1183,16 @@ fn search_covering(
 /// Maps a point of the covering `g_λ` back to `C_d` and `E`, and verifies
 /// it on both. `None` if it is a point with `e = 0` (impossible for
 /// non-square `d`, kept for safety).
-#[allow(clippy::too_many_arguments)]
 fn map_back(
     a: &BigInt,
     b: &BigInt,
     d: &BigInt,
     s: &Setup,
-    lambda: &BigInt,
-    par: &[[BigInt; 3]; 3],
-    k: &BigInt,
-    frame: &[[BigInt; 2]; 2],
+    covering: &SolubleCovering,
     cp: &QuarticPoint,
 ) -> Result<Option<(QuarticPoint, BigRational, BigRational)>> {
+    let (lambda, par) = (&covering.lambda, &covering.par);
+    let (k, frame) = (&covering.k, &covering.frame);
     let m = &frame[0][0] * &cp.x + &frame[0][1] * &cp.z;
     let n = &frame[1][0] * &cp.x + &frame[1][1] * &cp.z;
     let u = eval2(&par[0], &m, &n);

@@ -1,0 +1,86 @@
+//! Criterion benchmarks of the descent via 3-isogeny on the cube-sum
+//! curves Y² = X³ − 432n² (x³ + y³ = n).
+//!
+//! * `descent3/selmer_stage/cube_free_n_le_300`: both Selmer groups (local
+//!   tests at every prime of S, factoring of k included), no point search,
+//!   no Tamagawa check, no analytic side; one iteration runs all cube-free
+//!   n in 2..=300 (253 curves).
+//! * `descent3/selmer_stage/cube_free_n_9701_to_10000`: the same stage on
+//!   the cube-free n in 9701..=10000 (250 curves), the top of the issue's
+//!   range.
+//! * `descent3/with_search/cube_free_n_le_100`: the same plus the point
+//!   search at the default height and the Tamagawa check (Tate's algorithm
+//!   on both curves); one iteration runs all cube-free n in 2..=100.
+
+use criterion::{criterion_group, criterion_main, Criterion};
+use isodescent::descent3::{descend_3isogeny, Isogeny3Options};
+use isodescent::Curve;
+
+fn cube_free(n: i64) -> bool {
+    (2..)
+        .take_while(|d| d * d * d <= n)
+        .all(|d| n % (d * d * d) != 0)
+}
+
+fn curves(limit: i64) -> Vec<Curve> {
+    curves_in(2, limit)
+}
+
+fn curves_in(from: i64, limit: i64) -> Vec<Curve> {
+    (from..=limit)
+        .filter(|&n| cube_free(n))
+        .map(|n| {
+            format!("0 0 0 0 {}", -432 * n * n)
+                .parse()
+                .expect("a cube-sum curve")
+        })
+        .collect()
+}
+
+fn bench(c: &mut Criterion) {
+    let mut g = c.benchmark_group("descent3");
+    g.sample_size(10);
+    let selmer_only = {
+        let mut o = Isogeny3Options::default();
+        o.search_height = 0;
+        o.tamagawa_check = false;
+        o.analytic = None;
+        o
+    };
+    let set = curves(300);
+    g.bench_function("selmer_stage/cube_free_n_le_300", |b| {
+        b.iter(|| {
+            for e in &set {
+                let r = descend_3isogeny(e, &selmer_only).expect("descent");
+                criterion::black_box(r.rank_upper);
+            }
+        })
+    });
+    let high = curves_in(9701, 10_000);
+    g.bench_function("selmer_stage/cube_free_n_9701_to_10000", |b| {
+        b.iter(|| {
+            for e in &high {
+                let r = descend_3isogeny(e, &selmer_only).expect("descent");
+                criterion::black_box(r.rank_upper);
+            }
+        })
+    });
+    let full = {
+        let mut o = Isogeny3Options::default();
+        o.analytic = None;
+        o
+    };
+    let small = curves(100);
+    g.bench_function("with_search/cube_free_n_le_100", |b| {
+        b.iter(|| {
+            for e in &small {
+                let r = descend_3isogeny(e, &full).expect("descent");
+                criterion::black_box(r.rank_lower);
+            }
+        })
+    });
+    g.finish();
+}
+
+criterion_group!(benches, bench);
+criterion_main!(benches);

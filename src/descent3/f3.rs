@@ -1,0 +1,81 @@
+//! Vectors over F3 (entries 0, 1, 2) and their spans, in echelon form.
+
+/// A ⊕ b over F3.
+pub(crate) fn add(a: &[u8], b: &[u8]) -> Vec<u8> {
+    a.iter().zip(b).map(|(x, y)| (x + y) % 3).collect()
+}
+
+/// s·a over F3.
+pub(crate) fn scale(a: &[u8], s: u8) -> Vec<u8> {
+    a.iter().map(|x| (x * s) % 3).collect()
+}
+
+/// a − b over F3.
+pub(crate) fn sub(a: &[u8], b: &[u8]) -> Vec<u8> {
+    add(a, &scale(b, 2))
+}
+
+/// A subspace of F3^n kept in echelon form (each row's pivot is 1).
+#[derive(Debug, Clone, Default)]
+pub(crate) struct Span {
+    rows: Vec<(usize, Vec<u8>)>,
+}
+
+impl Span {
+    /// The reduction of `v` against the rows.
+    fn reduce(&self, v: &[u8]) -> Vec<u8> {
+        let mut v = v.to_vec();
+        for (piv, row) in &self.rows {
+            let c = v[*piv];
+            if c != 0 {
+                v = sub(&v, &scale(row, c));
+            }
+        }
+        v
+    }
+
+    /// True when `v` lies in the span.
+    pub(crate) fn contains(&self, v: &[u8]) -> bool {
+        self.reduce(v).iter().all(|&x| x == 0)
+    }
+
+    /// Adds `v`; true when it enlarged the span.
+    pub(crate) fn insert(&mut self, v: &[u8]) -> bool {
+        let r = self.reduce(v);
+        let Some(piv) = r.iter().position(|&x| x != 0) else {
+            return false;
+        };
+        // Normalise the pivot to 1 (2·2 = 1 in F3).
+        let r = if r[piv] == 2 { scale(&r, 2) } else { r };
+        // Keep the other rows reduced at the new pivot.
+        for (_, row) in self.rows.iter_mut() {
+            let c = row[piv];
+            if c != 0 {
+                *row = sub(row, &scale(&r, c));
+            }
+        }
+        self.rows.push((piv, r));
+        true
+    }
+
+    /// The dimension.
+    pub(crate) fn dim(&self) -> usize {
+        self.rows.len()
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn spans() {
+        let mut s = Span::default();
+        assert!(s.insert(&[1, 2, 0]));
+        assert!(s.insert(&[0, 1, 1]));
+        assert!(!s.insert(&[1, 0, 1])); // (1,2,0) + (0,1,1)
+        assert_eq!(s.dim(), 2);
+        assert!(s.contains(&[2, 1, 0]));
+        assert!(!s.contains(&[0, 0, 1]));
+    }
+}
