@@ -38,6 +38,7 @@ use crate::height::{saturate, saturate_with_context, HeightContext, Saturation};
 /// the curve in exact arithmetic whatever its origin.
 #[derive(Clone, Debug, Default, PartialEq)]
 #[non_exhaustive]
+#[allow(clippy::large_enum_variant)]
 pub enum PointOrigin {
     /// The sieved search on the homogeneous spaces of the 2-isogeny
     /// descent or on their 4-coverings (which ones: the search records of
@@ -251,10 +252,11 @@ fn heegner_step(
         .as_ref()
         .and_then(AnalyticData::rank_proven)
         .is_some_and(|(r, _)| r == 1);
-    if !(proven_one && report.bounds.is_decided() && report.bounds.lower == 1)
-        || !report.points.is_empty()
-        || report.global.conflict.is_some()
-    {
+    let wanted = proven_one
+        && report.bounds.is_decided()
+        && report.bounds.lower == 1
+        && report.points.is_empty();
+    if !wanted || report.global.conflict.is_some() {
         return;
     }
     let mut budget = options.budget(options.global_units, deadline);

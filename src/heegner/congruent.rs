@@ -53,7 +53,7 @@ impl Constants {
     pub(crate) fn new(p: u32) -> Constants {
         let f = Fixed::new(p);
         let pi = f.pi();
-        let r2 = f.sqrt(&f.from_int(&BigInt::from(2)));
+        let r2 = f.sqrt(&f.int(&BigInt::from(2)));
         let w1 = f.div(&pi, &f.agm(&r2, &f.one()));
         let two_pi = &pi * 2;
         let t = f.div(&two_pi, &w1);
@@ -75,8 +75,8 @@ impl Constants {
     /// below one ulp, and runs at 32 guard bits.
     pub(crate) fn wp(&self, s: bool, y: &BigInt) -> Option<BigInt> {
         let g = Fixed::new(self.f.p + 32);
-        let w1 = self.f.to_precision(&self.w1, g.p);
-        let mut r = self.f.to_precision(y, g.p);
+        let w1 = self.f.rescale(&self.w1, g.p);
+        let mut r = self.f.rescale(y, g.p);
         let k = r.div_floor(&w1);
         r -= &k * &w1;
         if &r * 2 > w1 {
@@ -85,7 +85,7 @@ impl Constants {
         if !s && r.bits() < u64::from(g.p / 2) {
             return None;
         }
-        let pi = self.f.to_precision(&self.pi, g.p);
+        let pi = self.f.rescale(&self.pi, g.p);
         let t = g.div(&g.mul(&(&pi * 2), &r), &w1);
         let mut u = g.exp(&-t);
         if s {
@@ -100,8 +100,8 @@ impl Constants {
             g.div(a, &g.mul(&d, &d))
         };
         let uinv = g.div(&one, &u);
-        let q = self.f.to_precision(&self.q0, g.p);
-        let mut sum = g.from_ratio(&BigInt::one(), &BigInt::from(12)) + frac(&u);
+        let q = self.f.rescale(&self.q0, g.p);
+        let mut sum = g.ratio(&BigInt::one(), &BigInt::from(12)) + frac(&u);
         let mut qm = q.clone();
         while !qm.is_zero() {
             let a = g.mul(&qm, &u);
@@ -109,8 +109,8 @@ impl Constants {
             sum += frac(&a) + frac(&b) - frac(&qm) * 2;
             qm = g.mul(&qm, &q);
         }
-        let k2 = self.f.to_precision(&self.k2, g.p);
-        Some(g.to_precision(&-g.mul(&k2, &sum), self.f.p))
+        let k2 = self.f.rescale(&self.k2, g.p);
+        Some(g.rescale(&-g.mul(&k2, &sum), self.f.p))
     }
 }
 
@@ -133,10 +133,10 @@ pub(crate) fn phi(
     let f = c.f;
     let (a, b, _) = form;
     // |q| = e^{−π√|D|/A}; angle −πB/A reduced modulo 2π.
-    let sqrt_d = f.sqrt(&f.from_int(&BigInt::from(-d)));
-    let modulus = f.exp(&-(f.div(&f.mul(&c.pi, &sqrt_d), &f.from_int(&BigInt::from(a)))));
+    let sqrt_d = f.sqrt(&f.int(&BigInt::from(-d)));
+    let modulus = f.exp(&-(f.div(&f.mul(&c.pi, &sqrt_d), &f.int(&BigInt::from(a)))));
     let bred = b.rem_euclid(2 * a);
-    let theta = -(f.div(&(&c.pi * BigInt::from(bred)), &f.from_int(&BigInt::from(a))));
+    let theta = -(f.div(&(&c.pi * BigInt::from(bred)), &f.int(&BigInt::from(a))));
     let e = f.expi(&theta);
     let q = Cx {
         re: f.mul(&modulus, &e.re),
@@ -263,6 +263,7 @@ pub(crate) fn is_multiple(e: &Curve, r: &Point, q: &Point, p: u64, n: &BigInt) -
 /// `p·R` (up to sign and torsion) with `R ∈ E_n(Q)`: the candidates of
 /// the module docs, each recognised and checked exactly. Returns `R` and
 /// its parameter.
+#[allow(clippy::too_many_arguments)]
 pub(crate) fn divide(
     c: &Constants,
     e: &Curve,
@@ -336,10 +337,13 @@ pub(crate) fn minus_part(c: &Constants, z: &Cx) -> Result<(BigInt, i64)> {
     let f = c.f;
     let kf = f.div(&(&z.re * 8), &c.w1);
     let k = f.round(&kf);
-    let off = (&kf - f.from_int(&k)).abs();
+    let off = (&kf - f.int(&k)).abs();
     if off.bits() + 20 > u64::from(f.p) {
         return Err(Error::Internal {
-            check: format!("8·Re(trace)/ω₁ = {:.6} is not an integer", f.to_f64(&kf)),
+            check: format!(
+                "8·Re(trace)/ω₁ = {:.6} is not an integer",
+                f.approx_f64(&kf)
+            ),
         });
     }
     let k = k.to_i64().unwrap_or(0);
@@ -368,22 +372,20 @@ mod tests {
         let c = Constants::new(200);
         for s in [false, true] {
             for num in [1i64, 3, 7] {
-                let y = c.f.mul(
-                    &c.w1,
-                    &c.f.from_ratio(&BigInt::from(num), &BigInt::from(17)),
-                );
-                let x = c.f.to_f64(&c.wp(s, &y).unwrap());
+                let y =
+                    c.f.mul(&c.w1, &c.f.ratio(&BigInt::from(num), &BigInt::from(17)));
+                let x = c.f.approx_f64(&c.wp(s, &y).unwrap());
                 assert!(x * x * x - x <= 1e-30, "s = {s}, x = {x}");
             }
         }
         // The 2-torsion: ℘(ω₁/2) = 1 and ℘(iω₁/2) = −1, ℘((1+i)ω₁/2) = 0
         // (the roots of x³ − x).
         let half = &c.w1 / 2;
-        let x = c.f.to_f64(&c.wp(true, &BigInt::zero()).unwrap());
+        let x = c.f.approx_f64(&c.wp(true, &BigInt::zero()).unwrap());
         assert!((x - 1.0).abs() < 1e-12, "{x}");
-        let x = c.f.to_f64(&c.wp(false, &half).unwrap());
+        let x = c.f.approx_f64(&c.wp(false, &half).unwrap());
         assert!((x + 1.0).abs() < 1e-12, "{x}");
-        let x = c.f.to_f64(&c.wp(true, &half).unwrap());
+        let x = c.f.approx_f64(&c.wp(true, &half).unwrap());
         assert!(x.abs() < 1e-12, "{x}");
     }
 }

@@ -67,12 +67,12 @@ impl Fixed {
     }
 
     /// The integer `k`, exactly.
-    pub(crate) fn from_int(&self, k: &BigInt) -> BigInt {
+    pub(crate) fn int(&self, k: &BigInt) -> BigInt {
         k << self.p
     }
 
     /// `a/b` (`b ≠ 0`), ≤ 1 ulp.
-    pub(crate) fn from_ratio(&self, a: &BigInt, b: &BigInt) -> BigInt {
+    pub(crate) fn ratio(&self, a: &BigInt, b: &BigInt) -> BigInt {
         (a << self.p) / b
     }
 
@@ -104,7 +104,7 @@ impl Fixed {
 
     /// A mantissa moved to precision `q` (truncated when `q < p`: ≤ 1 ulp
     /// of the new precision).
-    pub(crate) fn to_precision(&self, a: &BigInt, q: u32) -> BigInt {
+    pub(crate) fn rescale(&self, a: &BigInt, q: u32) -> BigInt {
         if q >= self.p {
             a << (q - self.p)
         } else {
@@ -113,7 +113,7 @@ impl Fixed {
     }
 
     /// An approximation in binary64 (for sizes and estimates only).
-    pub(crate) fn to_f64(&self, a: &BigInt) -> f64 {
+    pub(crate) fn approx_f64(&self, a: &BigInt) -> f64 {
         let bits = a.bits();
         if bits > 1000 {
             let shift = bits - 60;
@@ -148,7 +148,7 @@ impl Fixed {
             s
         };
         let v = atan_inv(5) * 16 - atan_inv(239) * 4;
-        g.to_precision(&v, self.p)
+        g.rescale(&v, self.p)
     }
 
     /// `e^x` for a real `x` with `|x| ≤ 2^{20}`: halving `s` times to
@@ -160,7 +160,7 @@ impl Fixed {
         let mag = (x.abs() >> self.p).bits() as u32;
         let s = mag + 8;
         let g = Fixed::new(self.p + s + 40 + mag);
-        let r = self.to_precision(x, g.p) >> s;
+        let r = self.rescale(x, g.p) >> s;
         let mut sum = g.one();
         let mut term = g.one();
         let mut k = 1u64;
@@ -175,7 +175,7 @@ impl Fixed {
         for _ in 0..s {
             sum = g.mul(&sum, &sum);
         }
-        g.to_precision(&sum, self.p)
+        g.rescale(&sum, self.p)
     }
 
     /// `e^{iθ} = cos θ + i sin θ` for a real `θ` with `|θ| ≤ 2^{20}`
@@ -185,7 +185,7 @@ impl Fixed {
         let mag = (theta.abs() >> self.p).bits() as u32;
         let s = mag + 8;
         let g = Fixed::new(self.p + s + 40 + mag);
-        let r = self.to_precision(theta, g.p) >> s;
+        let r = self.rescale(theta, g.p) >> s;
         // Σ (ir)^k/k!: real part from even k, imaginary from odd k.
         let mut re = g.one();
         let mut im = BigInt::zero();
@@ -209,8 +209,8 @@ impl Fixed {
             z = g.cmul(&z, &z);
         }
         Cx {
-            re: g.to_precision(&z.re, self.p),
-            im: g.to_precision(&z.im, self.p),
+            re: g.rescale(&z.re, self.p),
+            im: g.rescale(&z.im, self.p),
         }
     }
 
@@ -220,8 +220,8 @@ impl Fixed {
     /// adding ≤ 2 guard ulps).
     pub(crate) fn agm(&self, a: &BigInt, b: &BigInt) -> BigInt {
         let g = Fixed::new(self.p + 16);
-        let mut x = self.to_precision(a, g.p);
-        let mut y = self.to_precision(b, g.p);
+        let mut x = self.rescale(a, g.p);
+        let mut y = self.rescale(b, g.p);
         for _ in 0..200 {
             if (&x - &y).abs() <= BigInt::from(2) {
                 break;
@@ -231,7 +231,7 @@ impl Fixed {
             x = nx;
             y = ny;
         }
-        g.to_precision(&x, self.p)
+        g.rescale(&x, self.p)
     }
 
     /// `x` rounded to the nearest integer.
@@ -274,10 +274,10 @@ mod tests {
         assert!((m1.re + f.one()).abs() < BigInt::from(16) && m1.im.abs() < BigInt::from(16));
         let half = f.expi(&(&pi >> 1));
         assert!(half.re.abs() < BigInt::from(16) && (half.im - f.one()).abs() < BigInt::from(16));
-        let x = f.from_ratio(&BigInt::from(-37), &BigInt::from(7));
+        let x = f.ratio(&BigInt::from(-37), &BigInt::from(7));
         let p = f.mul(&f.exp(&x), &f.exp(&-&x));
         assert!((p - f.one()).abs() < BigInt::from(64));
-        let t = f.from_ratio(&BigInt::from(5), &BigInt::from(3));
+        let t = f.ratio(&BigInt::from(5), &BigInt::from(3));
         let a = f.expi(&t);
         let b = f.expi(&(&t * 2));
         let a2 = f.cmul(&a, &a);
@@ -291,7 +291,7 @@ mod tests {
         // the lemniscate constant 2.62205755429211981046483958989111941…
         // (from memory).
         let f = Fixed::new(200);
-        let r2 = f.sqrt(&f.from_int(&BigInt::from(2)));
+        let r2 = f.sqrt(&f.int(&BigInt::from(2)));
         let m = f.agm(&f.one(), &r2);
         assert_eq!(
             &digits(&f, &m, 40)[..40],

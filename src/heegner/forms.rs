@@ -35,8 +35,7 @@ pub(crate) fn reduce(mut a: i64, mut b: i64, mut c: i64) -> Form {
             // b ↦ b + 2ak into (−a, a]: [a, b, c] ~ [a, b + 2ak, …].
             let k = (a - b).div_euclid(2 * a);
             let nb = b + 2 * a * k;
-            c = (i128::from(nb) * i128::from(nb) - i128::from(b) * i128::from(b)) as i64 / (4 * a)
-                + c;
+            c += (i128::from(nb) * i128::from(nb) - i128::from(b) * i128::from(b)) as i64 / (4 * a);
             b = nb;
             continue;
         }

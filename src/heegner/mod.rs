@@ -97,6 +97,7 @@ pub struct HeegnerPoint {
 /// What [`heegner_point`] found.
 #[derive(Clone, Debug, PartialEq)]
 #[non_exhaustive]
+#[allow(clippy::large_enum_variant)]
 pub enum HeegnerOutcome {
     /// A point of infinite order, checked exactly.
     Found(HeegnerPoint),
@@ -224,7 +225,7 @@ pub fn heegner_point(
     let r8 = (&n % BigInt::from(8)).to_u64().unwrap_or(0);
     if r8 != 7 {
         let why = match r8 {
-            1 | 2 | 3 => "root number +1 (n = 1, 2, 3 mod 8)".to_string(),
+            1..=3 => "root number +1 (n = 1, 2, 3 mod 8)".to_string(),
             _ => format!(
                 "n = {r8} mod 8: 2 does not split in Q(sqrt(-n)), the Heegner hypothesis fails at level 32"
             ),
