@@ -77,6 +77,9 @@ pub mod analytic;
 // Layer 3b: canonical heights, the height pairing, regulators, saturation.
 pub mod height;
 
+// Layer 3c: Heegner points for curves of analytic rank one (above 3a and 3b).
+pub mod heegner;
+
 // Layer 4: rational conics — Legendre's equation, parametrisation.
 pub mod conic;
 

@@ -9,7 +9,10 @@
 //!    descent's proven bounds, one of the two computations is wrong: the
 //!    report carries the conflict, the descent's bounds stay, and nothing
 //!    is settled.
-//! 2. When the rank is decided but fewer independent points are known,
+//! 2. When the rank is proven 1 by the analytic side and no point is
+//!    known, a Heegner point ([`crate::heegner`]) where the curve is in a
+//!    family the layer covers; checked exactly, it becomes the point.
+//!    When the rank is decided but fewer independent points are known,
 //!    the deep search ([`super::deep_search`]) looks for the missing ones
 //!    on 4-coverings at larger heights, under its own budget.
 //!    When the rank is decided and as many independent points are known,
@@ -28,7 +31,39 @@ use super::options::DescentOptions;
 use super::report::{Completion, DescentReport, RankBounds};
 use crate::analytic::{self, AnalyticData, RankTheorem, ShaLedger};
 use crate::error::Error;
+use crate::heegner::{heegner_point, HeegnerOutcome, HeegnerPoint};
 use crate::height::{saturate, saturate_with_context, HeightContext, Saturation};
+
+/// How the points of a report were obtained. Every point is checked on
+/// the curve in exact arithmetic whatever its origin.
+#[derive(Clone, Debug, Default, PartialEq)]
+#[non_exhaustive]
+#[allow(clippy::large_enum_variant)]
+pub enum PointOrigin {
+    /// The sieved search on the homogeneous spaces of the 2-isogeny
+    /// descent or on their 4-coverings (which ones: the search records of
+    /// [`super::DescentReport::isogenies`]).
+    #[default]
+    Search,
+    /// The deep search on 4-coverings at larger heights, guided by the
+    /// proven rank.
+    DeepSearch,
+    /// A Heegner point ([`crate::heegner`]): the trace was recognised and
+    /// checked on the curve exactly, and the division by its index checked
+    /// by exact multiplication.
+    Heegner(HeegnerPoint),
+}
+
+impl PointOrigin {
+    /// The JSON word: "search", "deep_search" or "heegner".
+    pub fn word(&self) -> &'static str {
+        match self {
+            PointOrigin::Search => "search",
+            PointOrigin::DeepSearch => "deep_search",
+            PointOrigin::Heegner(_) => "heegner",
+        }
+    }
+}
 
 /// What settled the rank.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
@@ -73,6 +108,10 @@ pub(crate) struct GlobalFacts {
     pub(crate) sha_two_part: Option<ShaTwoPart>,
     pub(crate) settled_by: Option<RankProof>,
     pub(crate) conflict: Option<String>,
+    /// Where the points came from.
+    pub(crate) origin: PointOrigin,
+    /// What the Heegner step found, when it ran.
+    pub(crate) heegner: Option<HeegnerOutcome>,
     /// ĥ of the descent's points when saturation did not run.
     pub(crate) point_heights: Vec<crate::arith::Certified>,
 }
@@ -118,6 +157,11 @@ pub(crate) fn complete(
             Err(e) => note_stop(report, "analytic side", &e),
         }
     }
+    // The Heegner point first: where it applies it is far cheaper than the
+    // deep search, which then has nothing left to find.
+    if let Some(hopts) = &options.heegner {
+        heegner_step(report, hopts, options, deadline);
+    }
     if let Some(dopts) = &options.deep_search {
         let rank = report.bounds.lower;
         if report.bounds.is_decided() && report.points.len() < rank {
@@ -140,6 +184,7 @@ pub(crate) fn complete(
                         // the descent's lower bound rises with them.
                         report.descent_bounds.lower = report.descent_bounds.lower.max(points.len());
                         report.points = points;
+                        report.global.origin = PointOrigin::DeepSearch;
                         // The points and the Selmer bounds now prove the rank
                         // without the analytic theorem (which only guided the
                         // search).
@@ -189,6 +234,67 @@ pub(crate) fn complete(
         }
     }
     ledger(report);
+}
+
+/// Step 2b: rank proven 1 by the analytic side and no point known — a
+/// Heegner point, checked exactly, becomes the report's point (saturation
+/// then proves or disproves generation). A trace of finite order while
+/// `L'(E,1) ≠ 0` is certified contradicts Gross–Zagier: a conflict.
+fn heegner_step(
+    report: &mut DescentReport,
+    hopts: &crate::heegner::HeegnerOptions,
+    options: &DescentOptions,
+    deadline: Option<std::time::Instant>,
+) {
+    let proven_one = report
+        .global
+        .analytic
+        .as_ref()
+        .and_then(AnalyticData::rank_proven)
+        .is_some_and(|(r, _)| r == 1);
+    let wanted = proven_one
+        && report.bounds.is_decided()
+        && report.bounds.lower == 1
+        && report.points.is_empty();
+    if !wanted || report.global.conflict.is_some() {
+        return;
+    }
+    let mut budget = options.budget(options.global_units, deadline);
+    let predicted = predicted_generator_height(report).map(|(h, _)| h);
+    match heegner_point(&report.curve, predicted, hopts, &mut budget) {
+        Ok(HeegnerOutcome::Found(h)) => {
+            // Infinite order, exactly: the point is not in the torsion
+            // subgroup, which the report holds in full.
+            if report.torsion.points().contains(&h.point) {
+                report.global.conflict = Some(format!(
+                    "the Heegner point {:?} has finite order although L'(E,1) is certified non-zero",
+                    h.point
+                ));
+                return;
+            }
+            report.points = vec![h.point.clone()];
+            report.descent_bounds.lower = report.descent_bounds.lower.max(1);
+            if report.descent_bounds.is_decided() {
+                report.global.settled_by = Some(RankProof::Descent);
+            }
+            report.global.origin = PointOrigin::Heegner(h.clone());
+            report.global.heegner = Some(HeegnerOutcome::Found(h));
+        }
+        Ok(HeegnerOutcome::Torsion {
+            discriminant,
+            class_number,
+        }) => {
+            report.global.conflict = Some(format!(
+                "the Heegner trace for D = {discriminant} (h = {class_number}) is torsion although L'(E,1) is certified non-zero (Gross-Zagier)"
+            ));
+            report.global.heegner = Some(HeegnerOutcome::Torsion {
+                discriminant,
+                class_number,
+            });
+        }
+        Ok(other) => report.global.heegner = Some(other),
+        Err(e) => note_stop(report, "Heegner point", &e),
+    }
 }
 
 /// For rank one: the canonical height of a generator predicted by the

@@ -49,7 +49,7 @@ use std::time::Instant;
 use num_bigint::BigInt;
 
 pub use deep_search::{complete_report_points, search_missing_points, DeepSearchOptions};
-pub use global::{RankProof, ShaTwoPart};
+pub use global::{PointOrigin, RankProof, ShaTwoPart};
 pub use isogeny_side::{
     ClassStatus, CoveringObstruction, CoveringRun, CoveringVerdict, SearchRecord, SelmerElement,
     SelmerSide,

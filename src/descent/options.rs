@@ -6,6 +6,7 @@ use std::time::{Duration, Instant};
 use super::deep_search::DeepSearchOptions;
 use crate::analytic::AnalyticOptions;
 use crate::budget::Budget;
+use crate::heegner::HeegnerOptions;
 use crate::height::SaturationOptions;
 
 /// Knobs for [`crate::descent::descend`]. Every budget is counted in the
@@ -67,8 +68,12 @@ pub struct DescentOptions {
     /// 4-coverings of the classes that must hold points to a larger height
     /// (`None`: off).
     pub deep_search: Option<DeepSearchOptions>,
-    /// Work units for the analytic side, the deep search and saturation
-    /// (each).
+    /// When the rank is proven 1 by the analytic side and no point is
+    /// known, look for a Heegner point ([`crate::heegner`]; `None`: off).
+    /// Runs inside the time limit and `global_units`.
+    pub heegner: Option<HeegnerOptions>,
+    /// Work units for the analytic side, the deep search, the Heegner
+    /// point and saturation (each).
     pub global_units: u64,
 }
 
@@ -89,6 +94,7 @@ impl Default for DescentOptions {
             analytic: Some(AnalyticOptions::default()),
             saturation: Some(SaturationOptions::default()),
             deep_search: Some(DeepSearchOptions::default()),
+            heegner: Some(HeegnerOptions::default()),
             global_units: 2_000_000_000,
         }
     }
@@ -106,6 +112,7 @@ impl DescentOptions {
         self.analytic = None;
         self.saturation = None;
         self.deep_search = None;
+        self.heegner = None;
         self
     }
 
@@ -115,6 +122,7 @@ impl DescentOptions {
         self.analytic = None;
         self.saturation = None;
         self.deep_search = None;
+        self.heegner = None;
         self
     }
 

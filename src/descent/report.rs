@@ -1,7 +1,7 @@
 //! The typed report of a descent, read through accessors. Its text and JSON
 //! forms live in [`crate::output`].
 
-use super::global::{GlobalFacts, RankProof, ShaTwoPart};
+use super::global::{GlobalFacts, PointOrigin, RankProof, ShaTwoPart};
 use super::IsogenyDescent;
 use crate::analytic::{AnalyticData, ShaLedger};
 use crate::curve::tate::GlobalLocalData;
@@ -270,6 +270,18 @@ impl DescentReport {
     /// every ingredient is proven.
     pub fn sha_ledger(&self) -> Option<&ShaLedger> {
         self.global.ledger.as_ref()
+    }
+
+    /// How [`DescentReport::points`] were obtained (search, deep search or
+    /// a Heegner point with its discriminant and class number).
+    pub fn points_origin(&self) -> &PointOrigin {
+        &self.global.origin
+    }
+
+    /// What the Heegner step found, when it ran (also when it found no
+    /// point: the outcome says why).
+    pub fn heegner(&self) -> Option<&crate::heegner::HeegnerOutcome> {
+        self.global.heegner.as_ref()
     }
 
     /// The ledger's comparison with the 2-part of Sha the descent proves.

@@ -231,6 +231,71 @@ struct LedgerView {
 }
 
 #[derive(Serialize)]
+struct HeegnerView {
+    outcome: &'static str,
+    discriminant: Option<i64>,
+    class_number: Option<usize>,
+    level: Option<u32>,
+    index: Option<u64>,
+    trace_point: Option<PointView>,
+    precision_bits: Option<u32>,
+    terms: Option<u64>,
+    exact_check: Option<&'static str>,
+    reason: Option<String>,
+}
+
+fn heegner_view(o: &crate::heegner::HeegnerOutcome) -> HeegnerView {
+    use crate::heegner::HeegnerOutcome as H;
+    let mut v = HeegnerView {
+        outcome: "not_applicable",
+        discriminant: None,
+        class_number: None,
+        level: None,
+        index: None,
+        trace_point: None,
+        precision_bits: None,
+        terms: None,
+        exact_check: None,
+        reason: None,
+    };
+    match o {
+        H::Found(h) => {
+            v.outcome = "found";
+            v.discriminant = Some(h.discriminant);
+            v.class_number = Some(h.class_number);
+            v.level = Some(h.level);
+            v.index = Some(h.index);
+            v.trace_point = point_view(&h.trace_point);
+            v.precision_bits = Some(h.precision_bits);
+            v.terms = Some(h.terms);
+            v.exact_check = Some(
+                "trace point on the curve in exact rationals; trace = ±index·point + torsion by exact multiplication",
+            );
+        }
+        H::Torsion {
+            discriminant,
+            class_number,
+        } => {
+            v.outcome = "torsion";
+            v.discriminant = Some(*discriminant);
+            v.class_number = Some(*class_number);
+        }
+        H::NotRecognised {
+            discriminant,
+            class_number,
+            bits,
+        } => {
+            v.outcome = "not_recognised";
+            v.discriminant = Some(*discriminant);
+            v.class_number = Some(*class_number);
+            v.precision_bits = Some(*bits);
+        }
+        H::NotApplicable(why) => v.reason = Some(why.clone()),
+    }
+    v
+}
+
+#[derive(Serialize)]
 struct StopView {
     step: String,
     reason: String,
@@ -247,6 +312,8 @@ struct LineView<'a> {
     rank_lower: Option<usize>,
     rank_upper: Option<usize>,
     points: Vec<HeightPointView>,
+    points_from: Option<&'static str>,
+    heegner: Option<HeegnerView>,
     torsion: Option<TorsionView>,
     selmer2_rank: Option<usize>,
     rank_settled_by: Option<&'static str>,
@@ -429,6 +496,8 @@ fn report_view<'a>(input: &'a str, r: &DescentReport, detail: Detail) -> LineVie
         rank_lower: Some(r.rank_lower()),
         rank_upper: Some(r.rank_upper()),
         points: height_points_view(r.points(), r.point_heights()),
+        points_from: (!r.points().is_empty()).then(|| r.points_origin().word()),
+        heegner: r.heegner().map(heegner_view),
         torsion: Some(TorsionView {
             order: t.order(),
             cyclic_factors,
@@ -610,6 +679,8 @@ pub fn error_line(input: &str, message: &str) -> String {
         rank_lower: None,
         rank_upper: None,
         points: Vec::new(),
+        points_from: None,
+        heegner: None,
         torsion: None,
         selmer2_rank: None,
         rank_settled_by: None,

@@ -536,6 +536,7 @@ fn write_points(f: &mut fmt::Formatter<'_>, r: &DescentReport) -> fmt::Result {
             b.lower
         )?;
     }
+    heegner_text(f, r)?;
     Ok(())
 }
 
@@ -679,6 +680,41 @@ fn write_analytic(f: &mut fmt::Formatter<'_>, r: &DescentReport, a: &AnalyticDat
         )?,
     }
     Ok(())
+}
+
+/// The line of the Heegner step, when it ran.
+fn heegner_text(f: &mut fmt::Formatter<'_>, r: &DescentReport) -> fmt::Result {
+    use crate::heegner::HeegnerOutcome as H;
+    match r.heegner() {
+        Some(H::Found(h)) => writeln!(
+            f,
+            "point from a Heegner point: D = {}, h(D) = {}, level {}; trace point {} = ±{}·point + torsion (checked exactly; {} bits, {} series terms)",
+            h.discriminant,
+            h.class_number,
+            h.level,
+            point_text(&h.trace_point),
+            h.index,
+            h.precision_bits,
+            h.terms
+        ),
+        Some(H::Torsion {
+            discriminant,
+            class_number,
+        }) => writeln!(
+            f,
+            "Heegner point: the trace for D = {discriminant}, h(D) = {class_number} is torsion"
+        ),
+        Some(H::NotRecognised {
+            discriminant,
+            class_number,
+            bits,
+        }) => writeln!(
+            f,
+            "Heegner point: D = {discriminant}, h(D) = {class_number}; no rational point recognised up to {bits} bits"
+        ),
+        Some(H::NotApplicable(why)) => writeln!(f, "Heegner point: not attempted ({why})"),
+        None => Ok(()),
+    }
 }
 
 /// `value ± error` with the printed interval containing the certified one

@@ -1,0 +1,391 @@
+//! Heegner points of `E0: y² = x³ − x` (conductor 32) over `K = Q(√−n)`,
+//! landing on `E_n: y² = x³ − n²x` (the quadratic twist of `E0` by `−n`),
+//! for square-free `n ≡ 7 (mod 8)`. See `docs/heegner.md` for the method.
+//!
+//! Facts used, each checked by a test of this crate:
+//! * the a_k of `E0` vanish unless `k ≡ 1 (mod 4)` (the series steps by
+//!   the gcd of `k − 1` over the non-zero `a_k` of the list, found from the
+//!   list itself);
+//! * the periods of `2πi·f(τ)dτ` over `Γ₀(32)` form the lattice
+//!   `Λ_f = ((1 + i)/2)·ω₁·Z[i]`, `ω₁ = π/M(√2, 1)` the real period of
+//!   `E0`, whose own lattice is `Λ₀ = ω₁·Z[i]`; so `z ↦ 2z` maps
+//!   `C/Λ_f → C/Λ₀` (a real isogeny of degree 2, hence defined over Q);
+//! * for the trace `z = Σ φ(τ_i)`, `8·Re z/ω₁` is an integer `k` (the
+//!   point `z + z̄` is a rational torsion point of `C/Λ_f`); `z − Re z` is a
+//!   point of the minus part when `k` is even, `z − z̄` always; on `E0`
+//!   these are `2i·Im z` and `4i·Im z`.
+//! * a point `v = s·ω₁/2 + iy` (`s ∈ {0, 1}`, `y` real) of `C/Λ₀` has
+//!   real `x = ℘(v)`, and `(x, y₀) ∈ E0(K)` with `y₀ ∈ √−n·Q` maps to
+//!   `(X, Y) = (−n·x, n²·y₀/√−n)` on `E_n` (checked on the exact
+//!   equation: `Y² = n⁴y₀²/(−n) = −n³(x³ − x) = X³ − n²X`).
+
+use num_bigint::BigInt;
+use num_integer::Integer;
+use num_rational::BigRational;
+use num_traits::{One, Signed, ToPrimitive, Zero};
+
+use super::fixed::{Cx, Fixed};
+use super::forms::Form;
+use crate::arith::sqrt_exact;
+use crate::budget::Budget;
+use crate::curve::{Curve, Point};
+use crate::error::{Error, Result};
+
+/// The level of `E0`.
+pub(crate) const LEVEL: i64 = 32;
+
+fn spend(budget: &mut Budget, units: u64) -> Result<()> {
+    budget.spend(units).map_err(|_| Error::BudgetExhausted {
+        stage: "Heegner point".into(),
+    })
+}
+
+/// Constants of one precision: π, `ω₁`, `(2π/ω₁)²`, `e^{−2π}`.
+pub(crate) struct Constants {
+    pub(crate) f: Fixed,
+    pub(crate) pi: BigInt,
+    pub(crate) w1: BigInt,
+    k2: BigInt,
+    q0: BigInt,
+}
+
+impl Constants {
+    pub(crate) fn new(p: u32) -> Constants {
+        let f = Fixed::new(p);
+        let pi = f.pi();
+        let r2 = f.sqrt(&f.int(&BigInt::from(2)));
+        let w1 = f.div(&pi, &f.agm(&r2, &f.one()));
+        let two_pi = &pi * 2;
+        let t = f.div(&two_pi, &w1);
+        let k2 = f.mul(&t, &t);
+        let q0 = f.exp(&-&two_pi);
+        Constants { f, pi, w1, k2, q0 }
+    }
+
+    /// `℘(s·ω₁/2 + iy)` on `Λ₀ = ω₁Z[i]` (the lattice of `dx/(2y)` on
+    /// `y² = x³ − x`), real. `None` at the lattice points (`s = 0`,
+    /// `y ∈ ω₁Z` within `2^{−p/2}`).
+    ///
+    /// The q-expansion (Silverman, *Advanced Topics*, I.6.2; from memory)
+    /// with `τ = i`, `q = e^{−2π}`, `u = e^{2πiv/ω₁} = (−1)^s e^{−2πy/ω₁}`:
+    /// `℘ = (2πi/ω₁)²·[1/12 + u/(1−u)² + Σ_{m≥1} (q^m u/(1−q^m u)² +
+    /// q^m u⁻¹/(1−q^m u⁻¹)² − 2q^m/(1−q^m)²)]`. With `y` reduced to
+    /// `[0, ω₁/2]`, `|u| ≥ e^{−π}`, so the m-th term is at most
+    /// `4e^{−2πm+π}/(1 − e^{−π})²`; the sum stops when `q^m e^{π}` is
+    /// below one ulp, and runs at 32 guard bits.
+    pub(crate) fn wp(&self, s: bool, y: &BigInt) -> Option<BigInt> {
+        let g = Fixed::new(self.f.p + 32);
+        let w1 = self.f.rescale(&self.w1, g.p);
+        let mut r = self.f.rescale(y, g.p);
+        let k = r.div_floor(&w1);
+        r -= &k * &w1;
+        if &r * 2 > w1 {
+            r = &w1 - r;
+        }
+        if !s && r.bits() < u64::from(g.p / 2) {
+            return None;
+        }
+        let pi = self.f.rescale(&self.pi, g.p);
+        let t = g.div(&g.mul(&(&pi * 2), &r), &w1);
+        let mut u = g.exp(&-t);
+        if s {
+            u = -u;
+        }
+        if u.is_zero() {
+            return None;
+        }
+        let one = g.one();
+        let frac = |a: &BigInt| -> BigInt {
+            let d = &one - a;
+            g.div(a, &g.mul(&d, &d))
+        };
+        let uinv = g.div(&one, &u);
+        let q = self.f.rescale(&self.q0, g.p);
+        let mut sum = g.ratio(&BigInt::one(), &BigInt::from(12)) + frac(&u);
+        let mut qm = q.clone();
+        while !qm.is_zero() {
+            let a = g.mul(&qm, &u);
+            let b = g.mul(&qm, &uinv);
+            sum += frac(&a) + frac(&b) - frac(&qm) * 2;
+            qm = g.mul(&qm, &q);
+        }
+        let k2 = self.f.rescale(&self.k2, g.p);
+        Some(g.rescale(&-g.mul(&k2, &sum), self.f.p))
+    }
+}
+
+/// `φ(τ) = Σ_{k≥1} (a_k/k) q^k`, `q = e^{2πiτ}`, at `τ = (−B + √D)/(2A)`,
+/// to absolute error below `2^{−p+8}` plus the propagated rounding
+/// (≤ `4M²` ulp for `M` terms, covered by the caller's guard bits).
+///
+/// Tail: `|a_k| ≤ d(k)√k ≤ 2k` (Hasse–Deligne for the CM form of `E0`:
+/// `|a_p| ≤ 2√p`, multiplicativity, `d(k) ≤ 2√k`; common practice), so
+/// `|Σ_{k>M} (a_k/k)q^k| ≤ 2|q|^{M+1}/(1 − |q|)`; `M` is the least with
+/// that bound below `2^{−p}`.
+pub(crate) fn phi(
+    c: &Constants,
+    an: &[i64],
+    step: usize,
+    form: Form,
+    d: i64,
+    budget: &mut Budget,
+) -> Result<(Cx, u64)> {
+    let f = c.f;
+    let (a, b, _) = form;
+    // |q| = e^{−π√|D|/A}; angle −πB/A reduced modulo 2π.
+    let sqrt_d = f.sqrt(&f.int(&BigInt::from(-d)));
+    let modulus = f.exp(&-(f.div(&f.mul(&c.pi, &sqrt_d), &f.int(&BigInt::from(a)))));
+    let bred = b.rem_euclid(2 * a);
+    let theta = -(f.div(&(&c.pi * BigInt::from(bred)), &f.int(&BigInt::from(a))));
+    let e = f.expi(&theta);
+    let q = Cx {
+        re: f.mul(&modulus, &e.re),
+        im: f.mul(&modulus, &e.im),
+    };
+    let qabs = (-std::f64::consts::PI * ((-d) as f64).sqrt() / a as f64).exp();
+    let terms = terms_for(qabs, f.p);
+    if terms as usize >= an.len() {
+        return Err(Error::Internal {
+            check: format!("{} coefficients prepared, {terms} needed", an.len()),
+        });
+    }
+    // q^step by repeated multiplication.
+    let mut qs = q.clone();
+    for _ in 1..step {
+        qs = f.cmul(&qs, &q);
+    }
+    let limbs = u64::from(f.p / 64 + 1);
+    let mut sum = Cx::zero();
+    let mut qk = q;
+    let mut k = 1usize;
+    while k as u64 <= terms {
+        spend(budget, limbs)?;
+        let ak = an[k];
+        if ak != 0 {
+            let ak = BigInt::from(ak);
+            let kk = BigInt::from(k);
+            sum.re += &qk.re * &ak / &kk;
+            sum.im += &qk.im * &ak / &kk;
+        }
+        qk = f.cmul(&qk, &qs);
+        k += step;
+    }
+    Ok((sum, terms))
+}
+
+/// The least `M` with `2|q|^{M+1}/(1 − |q|) ≤ 2^{−p}`, with `|q|` inflated
+/// by `10⁻⁹` relative to cover its binary64 rounding.
+pub(crate) fn terms_for(qabs: f64, p: u32) -> u64 {
+    let q = (qabs * (1.0 + 1e-9)).min(1.0 - 1e-12);
+    let target = -(f64::from(p)) * std::f64::consts::LN_2 - (2.0 / (1.0 - q)).ln();
+    (target / q.ln()).ceil().max(1.0) as u64
+}
+
+/// The continued-fraction convergents `h/k` of `x·2^{−p}` with `k` a
+/// perfect square of at most `max_bits` bits, within `2^{tol−p}` of
+/// `x·2^{−p}`, and `(h/k)³ − n²(h/k)` a non-zero rational square: the
+/// first such point of `E_n` (not a 2-torsion point), checked exactly.
+pub(crate) fn recognise(
+    f: &Fixed,
+    x: &BigInt,
+    n: &BigInt,
+    max_bits: u64,
+    tol: u32,
+) -> Option<Point> {
+    let (mut num, mut den) = (x.clone(), f.one());
+    let (mut h1, mut h2) = (BigInt::one(), BigInt::zero());
+    let (mut k1, mut k2) = (BigInt::zero(), BigInt::one());
+    let n2 = n * n;
+    while !den.is_zero() {
+        let a = num.div_floor(&den);
+        let h = &a * &h1 + &h2;
+        let k = &a * &k1 + &k2;
+        if k.bits() > max_bits {
+            return None;
+        }
+        // Only convergents within the approximation's own accuracy
+        // (|x·2^{−p} − h/k| ≤ 2^{tol−p}) are candidates; the first
+        // convergents (like ⌊x⌋) may happen to be points of the curve.
+        let close = (x * &k - (&h << f.p)).abs() <= (&k << tol);
+        if let (true, Some(d)) = (close, sqrt_exact(&k)) {
+            // Y² = (h³ − n²h·d⁴)/d⁶.
+            let d4 = &k * &k;
+            let top = &h * &h * &h - &n2 * &h * &d4;
+            if let Some(s) = sqrt_exact(&top).filter(|s| !s.is_zero()) {
+                let x = BigRational::new(h.clone(), k.clone());
+                let y = BigRational::new(s, &k * &d);
+                return Some(Point::new(x, y));
+            }
+        }
+        let r = &num - &a * &den;
+        num = std::mem::replace(&mut den, r);
+        h2 = std::mem::replace(&mut h1, h);
+        k2 = std::mem::replace(&mut k1, k);
+    }
+    None
+}
+
+/// `X = −n·℘(v)` for `v = s·ω₁/2 + iy`, then [`recognise`].
+pub(crate) fn point_at(
+    c: &Constants,
+    s: bool,
+    y: &BigInt,
+    n: &BigInt,
+    guard: u32,
+) -> Option<Point> {
+    let x = c.wp(s, y)?;
+    let big_x = -(x * n);
+    let max_bits = u64::from(c.f.p.saturating_sub(guard)) / 2;
+    recognise(&c.f, &big_x, n, max_bits, guard)
+}
+
+/// The torsion points of `E_n`: `O, (0, 0), (±n, 0)`.
+pub(crate) fn torsion(n: &BigInt) -> Vec<Point> {
+    let z = BigRational::zero();
+    vec![
+        Point::Infinity,
+        Point::new(z.clone(), z.clone()),
+        Point::new(BigRational::from_integer(n.clone()), z.clone()),
+        Point::new(BigRational::from_integer(-n), z),
+    ]
+}
+
+/// True when `p·r ∓ q` is a torsion point of `E_n` (exact arithmetic).
+pub(crate) fn is_multiple(e: &Curve, r: &Point, q: &Point, p: u64, n: &BigInt) -> bool {
+    let pr = e.mul(r, &BigInt::from(p));
+    let tors = torsion(n);
+    [e.sub(&pr, q), e.add(&pr, q)]
+        .iter()
+        .any(|d| tors.contains(d))
+}
+
+/// Tries to write the point `Q` with elliptic parameter `(s, y)` as
+/// `p·R` (up to sign and torsion) with `R ∈ E_n(Q)`: the candidates of
+/// the module docs, each recognised and checked exactly. Returns `R` and
+/// its parameter.
+#[allow(clippy::too_many_arguments)]
+pub(crate) fn divide(
+    c: &Constants,
+    e: &Curve,
+    q: &Point,
+    (s, y): (bool, &BigInt),
+    p: u64,
+    n: &BigInt,
+    guard: u32,
+    budget: &mut Budget,
+) -> Result<Option<(Point, bool, BigInt)>> {
+    let w1 = &c.w1;
+    let half = w1 / 2;
+    let mut shifts: Vec<(bool, BigInt)> = vec![(s, y.clone())];
+    if p == 2 {
+        // Q + T for the 2-torsion T = (1, 0), (0, ω₁/2), (1, ω₁/2).
+        shifts.push((!s, y.clone()));
+        shifts.push((s, y + &half));
+        shifts.push((!s, y + &half));
+    }
+    for (ss, yy) in shifts {
+        let targets: Vec<bool> = if p == 2 {
+            if ss {
+                continue;
+            }
+            vec![false, true]
+        } else {
+            vec![ss]
+        };
+        for j in 0..p {
+            let num = &yy + w1 * BigInt::from(j);
+            let ny = num / BigInt::from(p);
+            for &ns in &targets {
+                spend(budget, 64 * u64::from(c.f.p / 64 + 1))?;
+                if let Some(r) = point_at(c, ns, &ny, n, guard) {
+                    if is_multiple(e, &r, q, p, n) {
+                        return Ok(Some((r, ns, ny)));
+                    }
+                }
+            }
+        }
+    }
+    Ok(None)
+}
+
+/// The sum `z = Σ φ(τ_i)` over the Heegner forms, and the number of terms.
+pub(crate) fn trace(
+    c: &Constants,
+    an: &[i64],
+    step: usize,
+    forms: &[Form],
+    d: i64,
+    budget: &mut Budget,
+) -> Result<(Cx, u64)> {
+    let mut z = Cx::zero();
+    let mut terms = 0;
+    for &form in forms {
+        let (v, t) = phi(c, an, step, form, d, budget)?;
+        z = z.add(&v);
+        terms += t;
+    }
+    Ok((z, terms))
+}
+
+/// From the trace `z` on `C/Λ_f` to the parameter `y` of the point
+/// `i·y` of the minus part on `C/Λ₀` (module docs), with `k = 8Re z/ω₁`.
+///
+/// # Errors
+/// [`Error::Internal`] when `8·Re z/ω₁` is not within `2^{−20}` of an
+/// integer (the trace is not where the theory puts it: a defect).
+pub(crate) fn minus_part(c: &Constants, z: &Cx) -> Result<(BigInt, i64)> {
+    let f = c.f;
+    let kf = f.div(&(&z.re * 8), &c.w1);
+    let k = f.round(&kf);
+    let off = (&kf - f.int(&k)).abs();
+    if off.bits() + 20 > u64::from(f.p) {
+        return Err(Error::Internal {
+            check: format!(
+                "8·Re(trace)/ω₁ = {:.6} is not an integer",
+                f.approx_f64(&kf)
+            ),
+        });
+    }
+    let k = k.to_i64().unwrap_or(0);
+    let factor = if k.is_even() { 2 } else { 4 };
+    Ok((&z.im * factor, k))
+}
+
+/// `y ≡ 0 (mod ω₁)` within `2^{−p/2}`: the point is O.
+pub(crate) fn is_zero_point(c: &Constants, y: &BigInt) -> bool {
+    let mut r = y.mod_floor(&c.w1);
+    if &r * 2 > c.w1 {
+        r = &c.w1 - r;
+    }
+    r.bits() < u64::from(c.f.p / 2)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn wp_satisfies_the_differential_equation_numerically() {
+        // ℘ on the two circles iy and ω₁/2 + iy is real with x³ − x ≤ 0
+        // (there ℘′ = 2y₀ is purely imaginary): x ≤ −1 on the first,
+        // 0 ≤ x ≤ 1 on the second (Silverman, AEC, VI.3; from memory).
+        let c = Constants::new(200);
+        for s in [false, true] {
+            for num in [1i64, 3, 7] {
+                let y =
+                    c.f.mul(&c.w1, &c.f.ratio(&BigInt::from(num), &BigInt::from(17)));
+                let x = c.f.approx_f64(&c.wp(s, &y).unwrap());
+                assert!(x * x * x - x <= 1e-30, "s = {s}, x = {x}");
+            }
+        }
+        // The 2-torsion: ℘(ω₁/2) = 1 and ℘(iω₁/2) = −1, ℘((1+i)ω₁/2) = 0
+        // (the roots of x³ − x).
+        let half = &c.w1 / 2;
+        let x = c.f.approx_f64(&c.wp(true, &BigInt::zero()).unwrap());
+        assert!((x - 1.0).abs() < 1e-12, "{x}");
+        let x = c.f.approx_f64(&c.wp(false, &half).unwrap());
+        assert!((x + 1.0).abs() < 1e-12, "{x}");
+        let x = c.f.approx_f64(&c.wp(true, &half).unwrap());
+        assert!(x.abs() < 1e-12, "{x}");
+    }
+}

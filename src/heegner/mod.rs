@@ -1,0 +1,447 @@
+//! Layer 3c: Heegner points — a point of infinite order on a curve of
+//! analytic rank one, from CM points on a modular curve.
+//!
+//! This layer sits above the analytic side and the heights and below the
+//! descent; nothing below imports it. The route implemented is that of
+//! the congruent-number curves `E_n: y² = x³ − n²x` with square-free
+//! `n ≡ 7 (mod 8)`: `E_n` is the quadratic twist of `E0: y² = x³ − x`
+//! (conductor 32) by `D = −n`, a fundamental discriminant `≡ 1 (mod 8)`,
+//! so 2 splits in `K = Q(√D)` and the Heegner hypothesis holds at level 32
+//! (Gross–Zagier, *Invent. Math.* 84 (1986); Gross, "Heegner points on
+//! X₀(N)", 1984; from memory). The trace of the Heegner points of `E0`
+//! over the Hilbert class field lies in `E0(K)`; its minus part is a point
+//! of `E0(K)^− ≅ E_n(Q)`. By Gross–Zagier its canonical height is a
+//! non-zero multiple of `L'(E_n, 1)·L(E0, 1)`, so it has infinite order
+//! exactly when `L'(E_n, 1) ≠ 0`.
+//!
+//! What is proven and what is numerics: the series, the periods and `℘`
+//! are evaluated in binary fixed point (`fixed`) only to *propose* the
+//! rational `x`-coordinate; the point is then checked on the curve in
+//! exact rational arithmetic, and divisions (`Q = p·R`) are checked by
+//! exact multiplication. Nothing here claims generation: the descent hands
+//! the point to saturation ([`crate::height::saturate`]), which proves
+//! the index. `docs/heegner.md` has the method, the precision choice and
+//! the sources.
+
+mod congruent;
+pub(crate) mod fixed;
+pub(crate) mod forms;
+
+use num_bigint::BigInt;
+use num_rational::BigRational;
+use num_traits::{Signed, ToPrimitive, Zero};
+
+use crate::arith::{rational_sqrt_exact, squarefree_part};
+use crate::budget::Budget;
+use crate::curve::{Curve, ModelChange, Point};
+use crate::error::{Error, Result};
+
+use congruent::{Constants, LEVEL};
+
+/// Default cap on the working precision, in bits.
+pub const DEFAULT_MAX_BITS: u32 = 16_384;
+
+/// Default cap on `|D|` (the class group is enumerated in `O(|D|)`).
+pub const DEFAULT_MAX_DISCRIMINANT: u64 = 10_000_000;
+
+/// Options of [`heegner_point`].
+#[derive(Clone, Debug, PartialEq)]
+#[non_exhaustive]
+pub struct HeegnerOptions {
+    /// Largest working precision in bits (default [`DEFAULT_MAX_BITS`]);
+    /// the precision starts from the predicted height and doubles while
+    /// the point is not recognised.
+    pub max_bits: u32,
+    /// Largest `|D|` attempted (default [`DEFAULT_MAX_DISCRIMINANT`]).
+    pub max_discriminant: u64,
+    /// Largest prime `p` for which `Q = p·R` is tried (default 1000): the
+    /// primes of the index predicted by the height ratio, and 2, 3, 5, 7.
+    pub max_division_prime: u64,
+}
+
+impl Default for HeegnerOptions {
+    fn default() -> Self {
+        HeegnerOptions {
+            max_bits: DEFAULT_MAX_BITS,
+            max_discriminant: DEFAULT_MAX_DISCRIMINANT,
+            max_division_prime: 1000,
+        }
+    }
+}
+
+/// A Heegner point found and checked.
+#[derive(Clone, Debug, PartialEq)]
+#[non_exhaustive]
+pub struct HeegnerPoint {
+    /// `n` of the model `y² = x³ − n²x` isomorphic to the curve.
+    pub n: BigInt,
+    /// The discriminant `D = −n` of `K`.
+    pub discriminant: i64,
+    /// The class number `h(D)` (the number of Heegner points summed).
+    pub class_number: usize,
+    /// The level of the modular curve (32).
+    pub level: u32,
+    /// The point of `E_n(Q)` from the trace (on the input model), checked
+    /// on the curve exactly.
+    pub trace_point: Point,
+    /// `trace_point = ±index·point + T` with `T` torsion, checked exactly.
+    pub point: Point,
+    /// The index divided out (1 when no division applied).
+    pub index: u64,
+    /// The working precision in bits at which the point was recognised.
+    pub precision_bits: u32,
+    /// Series terms summed (over all classes) at that precision.
+    pub terms: u64,
+}
+
+/// What [`heegner_point`] found.
+#[derive(Clone, Debug, PartialEq)]
+#[non_exhaustive]
+#[allow(clippy::large_enum_variant)]
+pub enum HeegnerOutcome {
+    /// A point of infinite order, checked exactly.
+    Found(HeegnerPoint),
+    /// The trace is a torsion point. By Gross–Zagier this means
+    /// `L'(E_n, 1) = 0`; when the caller has that value certified
+    /// non-zero, this outcome signals a defect.
+    Torsion {
+        /// `D`.
+        discriminant: i64,
+        /// `h(D)`.
+        class_number: usize,
+    },
+    /// No rational point was recognised up to the precision cap.
+    NotRecognised {
+        /// `D`.
+        discriminant: i64,
+        /// `h(D)`.
+        class_number: usize,
+        /// The last precision tried.
+        bits: u32,
+    },
+    /// The curve is outside the routes implemented; the reason says why.
+    NotApplicable(String),
+}
+
+/// The class number `h(D)` of a negative discriminant `D ≡ 0, 1 (mod 4)`
+/// (the number of primitive reduced forms; see the `forms` sources).
+///
+/// # Errors
+/// [`Error::InvalidArgument`] unless `−10¹² ≤ D < 0`, `D ≡ 0, 1 (mod 4)`.
+pub fn class_number(d: i64) -> Result<usize> {
+    if !(-1_000_000_000_000..0).contains(&d) || !matches!(d.rem_euclid(4), 0 | 1) {
+        return Err(Error::InvalidArgument {
+            reason: format!("{d} is not a negative discriminant of at most 12 digits"),
+        });
+    }
+    Ok(forms::reduced_forms(d).len())
+}
+
+/// The Heegner forms `[A, B, C]` of level `level` for the fundamental
+/// discriminant `d` (`N | A`, `B ≡ β (mod 2N)` for the least `β ≥ 0` with
+/// `β² ≡ D (mod 4N)`, `B² − 4AC = D`), one per ideal class, each with the
+/// least `A` of its class; empty when `D` is not a square modulo `4N`.
+///
+/// # Errors
+/// [`Error::InvalidArgument`] for a `d` that is not a fundamental
+/// discriminant in `[−10⁷, 0)` or a level outside `1..=10⁴`; budget errors.
+pub fn heegner_forms(d: i64, level: i64, budget: &mut Budget) -> Result<Vec<(i64, i64, i64)>> {
+    if !(-10_000_000..0).contains(&d) || !forms::is_fundamental(d) || !(1..=10_000).contains(&level)
+    {
+        return Err(Error::InvalidArgument {
+            reason: format!("Heegner forms need a fundamental D in [-10^7, 0) and a level in 1..=10^4, got D = {d}, N = {level}"),
+        });
+    }
+    let Some(beta) = forms::heegner_beta(d, level) else {
+        return Ok(Vec::new());
+    };
+    Ok(forms::heegner_forms(d, level, beta, budget)?.1)
+}
+
+/// For a curve isomorphic over Q to `y² = x³ − n²x` (`n` square-free,
+/// positive): `n` and the change of model from the curve to that model.
+/// `None` for every other curve (checked exactly on the coefficients).
+///
+/// # Errors
+/// Budget errors from the square-free part of the scaling.
+pub fn congruent_model(
+    curve: &Curve,
+    budget: &mut Budget,
+) -> Result<Option<(BigInt, ModelChange)>> {
+    if !curve.c6().is_zero() || curve.c4().is_zero() {
+        return Ok(None);
+    }
+    // y² = x³ + Ax with A = −c4/48 after completing the square and cube.
+    let m2 = curve.c4() / BigRational::from_integer(BigInt::from(48));
+    let Some(m) = rational_sqrt_exact(&m2) else {
+        return Ok(None);
+    };
+    let m = m.abs();
+    let n = squarefree_part(&(m.numer() * m.denom()), budget)?.abs();
+    let Some(w) = rational_sqrt_exact(&(&m / BigRational::from_integer(n.clone()))) else {
+        return Ok(None);
+    };
+    let [a1, _, a3, _, _] = curve.coefficients();
+    let two = BigRational::from_integer(BigInt::from(2));
+    let r = -curve.b2() / BigRational::from_integer(BigInt::from(12));
+    let s = -a1 / &two;
+    let t = -(a3 + &r * a1) / &two;
+    let change = ModelChange::translation(r, s, t).then(&ModelChange::scaling(w)?);
+    let target = Curve::from_bigints([
+        BigInt::zero(),
+        BigInt::zero(),
+        BigInt::zero(),
+        -(&n * &n),
+        BigInt::zero(),
+    ])?;
+    if change.apply_to_curve(curve) != target {
+        return Ok(None);
+    }
+    Ok(Some((n, change)))
+}
+
+/// A Heegner point on a curve isomorphic to `E_n: y² = x³ − n²x` with
+/// square-free `n ≡ 7 (mod 8)`, as a point of the input model.
+///
+/// `predicted_height` is `ĥ` of a generator by the Birch–Swinnerton-Dyer
+/// formula with `#Ш = 1` (x-normalisation of [`crate::height`]); it is a
+/// conjecture and is used only to choose the starting precision and the
+/// primes tried for division. Without it the precision starts at 256 bits.
+///
+/// # Errors
+/// [`Error::BudgetExhausted`] when the budget (units or deadline) runs
+/// out; [`Error::Internal`] when the trace is not where the theory puts it.
+pub fn heegner_point(
+    curve: &Curve,
+    predicted_height: Option<f64>,
+    options: &HeegnerOptions,
+    budget: &mut Budget,
+) -> Result<HeegnerOutcome> {
+    let Some((n, change)) = congruent_model(curve, budget)? else {
+        return Ok(HeegnerOutcome::NotApplicable(
+            "not a quadratic twist of y^2 = x^3 - x".into(),
+        ));
+    };
+    let r8 = (&n % BigInt::from(8)).to_u64().unwrap_or(0);
+    if r8 != 7 {
+        let why = match r8 {
+            1..=3 => "root number +1 (n = 1, 2, 3 mod 8)".to_string(),
+            _ => format!(
+                "n = {r8} mod 8: 2 does not split in Q(sqrt(-n)), the Heegner hypothesis fails at level 32"
+            ),
+        };
+        return Ok(HeegnerOutcome::NotApplicable(why));
+    }
+    let nn = match n.to_u64() {
+        Some(v) if v <= options.max_discriminant => v,
+        _ => {
+            return Ok(HeegnerOutcome::NotApplicable(format!(
+                "|D| = {n} above the limit {}",
+                options.max_discriminant
+            )))
+        }
+    };
+    let found = point_on_twist(nn, predicted_height, options, budget)?;
+    Ok(match found {
+        HeegnerOutcome::Found(mut h) => {
+            h.trace_point = change.to_old(&h.trace_point);
+            h.point = change.to_old(&h.point);
+            if !(curve.contains(&h.point) && curve.contains(&h.trace_point)) {
+                return Err(Error::Internal {
+                    check: "a Heegner point moved to the input model is off the curve".into(),
+                });
+            }
+            HeegnerOutcome::Found(h)
+        }
+        other => other,
+    })
+}
+
+/// Guard bits of the series: `2·log₂(terms) + 24` covers the ≤ `4M²` ulp
+/// of rounding of a sum of `M` terms.
+fn guard_bits(terms: u64) -> u32 {
+    2 * (64 - terms.leading_zeros()) + 24
+}
+
+/// The Heegner point on `E_n` itself (`n ≡ 7 mod 8`, square-free).
+fn point_on_twist(
+    n: u64,
+    predicted_height: Option<f64>,
+    options: &HeegnerOptions,
+    budget: &mut Budget,
+) -> Result<HeegnerOutcome> {
+    let d = -(n as i64);
+    if !forms::is_fundamental(d) {
+        return Ok(HeegnerOutcome::NotApplicable(format!(
+            "{d} is not a fundamental discriminant"
+        )));
+    }
+    let Some(beta) = forms::heegner_beta(d, LEVEL) else {
+        return Ok(HeegnerOutcome::NotApplicable(format!(
+            "{d} is not a square modulo {}",
+            4 * LEVEL
+        )));
+    };
+    let (h, hforms) = forms::heegner_forms(d, LEVEL, beta, budget)?;
+    let nb = BigInt::from(n);
+    let e = Curve::from_bigints([
+        BigInt::zero(),
+        BigInt::zero(),
+        BigInt::zero(),
+        -(&nb * &nb),
+        BigInt::zero(),
+    ])?;
+    // Precision: recognising X = a/d² from an approximation needs an error
+    // below 1/(2d⁴) (Legendre's theorem on continued fractions), and ℘
+    // near its pole loses a further 1.5·log|X|; with log max(|a|, d²) ≤ H
+    // that is 3.5·H/ln 2 bits. H starts at the predicted height (index 1
+    // between the trace and a generator, #Ш = 1) plus a margin for the
+    // naive–canonical difference; the precision doubles on failure, so a
+    // larger index or Ш costs at most twice the final attempt.
+    let start_h = predicted_height
+        .filter(|h| h.is_finite() && *h > 0.0)
+        .map_or(40.0, |h| 1.1 * h + 2.0 * (n as f64).ln() + 10.0);
+    let amax = hforms.iter().map(|f| f.0).max().unwrap_or(LEVEL);
+    let qmax = (-std::f64::consts::PI * (n as f64).sqrt() / amax as f64).exp();
+    let mut bits = ((3.5 * start_h / std::f64::consts::LN_2) as u32 + 64)
+        .clamp(128, options.max_bits.max(128));
+    // The coefficients of E0 for the largest precision that may be used.
+    let e0 = Curve::from_ints([0, 0, 0, -1, 0])?;
+    let local = crate::curve::global_local_data(e0.coefficients(), budget)?;
+    loop {
+        let m = congruent::terms_for(
+            qmax,
+            bits + guard_bits(congruent::terms_for(qmax, bits) * 4),
+        );
+        let an = crate::analytic::dirichlet_coefficients(&local, m + 8, budget)?;
+        let step = an
+            .iter()
+            .enumerate()
+            .skip(2)
+            .filter(|(_, a)| **a != 0)
+            .fold(0usize, |g, (k, _)| num_integer::Integer::gcd(&g, &(k - 1)))
+            .max(1);
+        let guard = guard_bits(m);
+        let c = Constants::new(bits + guard);
+        let (z, terms) = congruent::trace(&c, &an, step, &hforms, d, budget)?;
+        let (y, _) = congruent::minus_part(&c, &z)?;
+        if congruent::is_zero_point(&c, &y) {
+            return Ok(HeegnerOutcome::Torsion {
+                discriminant: d,
+                class_number: h,
+            });
+        }
+        if let Some(q) = congruent::point_at(&c, false, &y, &nb, guard + 16) {
+            // Divide by the primes of the index the height ratio suggests,
+            // then by 2, 3, 5, 7 while that works (each checked exactly).
+            let mut primes: Vec<u64> = Vec::new();
+            if let (Some(hp), Ok(hq)) = (predicted_height, crate::height::canonical_height(&e, &q))
+            {
+                let t = (hq.value() / hp).sqrt();
+                let rt = t.round();
+                if rt >= 1.0 && (t - rt).abs() < 0.02 * rt.max(1.0) && rt < 1e12 {
+                    let mut v = rt as u64;
+                    let mut p = 2;
+                    while p * p <= v {
+                        while v % p == 0 {
+                            primes.push(p);
+                            v /= p;
+                        }
+                        p += 1;
+                    }
+                    if v > 1 {
+                        primes.push(v);
+                    }
+                }
+            }
+            primes.retain(|&p| p <= options.max_division_prime);
+            primes.extend([2, 3, 5, 7]);
+            let mut point = q.clone();
+            let mut param = (false, y.clone());
+            let mut index = 1u64;
+            let mut tried_small = [false; 8];
+            let mut divisions = 0;
+            for p in primes {
+                loop {
+                    divisions += 1;
+                    if divisions > 64 {
+                        break;
+                    }
+                    let small = p < 8 && tried_small[p as usize];
+                    if small {
+                        break;
+                    }
+                    match congruent::divide(
+                        &c,
+                        &e,
+                        &point,
+                        (param.0, &param.1),
+                        p,
+                        &nb,
+                        guard + 16,
+                        budget,
+                    )? {
+                        Some((r, s, yy)) => {
+                            point = r;
+                            param = (s, yy);
+                            index = index.saturating_mul(p);
+                        }
+                        None => {
+                            if p < 8 {
+                                tried_small[p as usize] = true;
+                            }
+                            break;
+                        }
+                    }
+                    if p >= 8 {
+                        break;
+                    }
+                }
+            }
+            return Ok(HeegnerOutcome::Found(HeegnerPoint {
+                n: nb,
+                discriminant: d,
+                class_number: h,
+                level: LEVEL as u32,
+                trace_point: q,
+                point,
+                index,
+                precision_bits: bits,
+                terms,
+            }));
+        }
+        if bits >= options.max_bits {
+            return Ok(HeegnerOutcome::NotRecognised {
+                discriminant: d,
+                class_number: h,
+                bits,
+            });
+        }
+        bits = bits.saturating_mul(2).min(options.max_bits);
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn congruent_models_are_recognised_exactly() {
+        let mut b = Budget::unlimited();
+        // y² = x³ − 49x and a translated, scaled model of it.
+        let e: Curve = "0 0 0 -49 0".parse().unwrap();
+        let (n, _) = congruent_model(&e, &mut b).unwrap().unwrap();
+        assert_eq!(n, BigInt::from(7));
+        // x ↦ 4x: y² = x³ − 49·16x is E_7 again (scaling u = 2).
+        let e: Curve = "0 0 0 -784 0".parse().unwrap();
+        assert_eq!(
+            congruent_model(&e, &mut b).unwrap().unwrap().0,
+            BigInt::from(7)
+        );
+        // y² = x³ − 28²·x = x³ − 784x ≅ E_7; y² = x³ + 4x is not a twist of E0.
+        let e: Curve = "0 0 0 4 0".parse().unwrap();
+        assert!(congruent_model(&e, &mut b).unwrap().is_none());
+        let e: Curve = "0 0 0 -2 0".parse().unwrap();
+        assert!(congruent_model(&e, &mut b).unwrap().is_none());
+    }
+}
