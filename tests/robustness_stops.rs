@@ -71,7 +71,6 @@ fn a_huge_a_with_small_b_ends_and_says_which_step_was_cut() {
 fn a_deep_search_cut_by_its_budget_makes_the_report_partial() {
     let line = "0 0 0 -69169 0";
     let mut o = DescentOptions::default();
-    o.heegner = None;
     o.global_units = 1_000_000;
     // n = 263 ≡ 7 (mod 8): the Heegner step would find the point before
     // the deep search runs; this test is about the deep search.
