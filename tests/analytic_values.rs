@@ -261,30 +261,11 @@ fn limits_and_budgets_give_no_value_rather_than_a_guess() {
     assert!(Series::new(&[0, 1], 0).is_err());
 }
 
-/// Exact value of a printed decimal `[-]d.ddd` or error `d.de<k>`.
-fn parse_printed(s: &str) -> BigRational {
-    let (mant, exp) = s.split_once('e').unwrap_or((s, "0"));
-    let (neg, body) = match mant.strip_prefix('-') {
-        Some(b) => (true, b),
-        None => (false, mant),
-    };
-    let (int, frac) = body.split_once('.').unwrap_or((body, ""));
-    let digits: BigInt = format!("{int}{frac}").parse().unwrap();
-    let k: i32 = exp.parse::<i32>().unwrap() - frac.len() as i32;
-    let ten = BigRational::from_integer(BigInt::from(10));
-    let v = BigRational::from_integer(digits) * num_traits::Pow::pow(&ten, k);
-    if neg {
-        -v
-    } else {
-        v
-    }
-}
-
 /// `p ± e` from a `Display` string, as exact rationals.
 fn printed(c: &Certified) -> (BigRational, BigRational) {
     let s = c.to_string();
     let (p, e) = s.split_once(" ± ").unwrap();
-    (parse_printed(p), parse_printed(e))
+    (values::exact_decimal(p), values::exact_decimal(e))
 }
 
 /// The period of y² + xy = x³ + 29x to 40 digits, computed independently
@@ -295,7 +276,7 @@ fn printed(c: &Certified) -> (BigRational, BigRational) {
 fn printed_period_is_within_its_printed_error_of_the_true_value() {
     let d = run([1, 0, 0, 29, 0]);
     let omega = d.real_period().unwrap();
-    let truth = parse_printed("1.589561513112141427003747519363278507374");
+    let truth = values::exact_decimal("1.589561513112141427003747519363278507374");
     let (p, e) = printed(&omega);
     assert!((truth - p).abs() <= e, "{omega}");
 }

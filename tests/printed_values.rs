@@ -16,30 +16,15 @@ use num_traits::Signed;
 
 mod values;
 
-/// Exact value of a decimal `[-]d.ddd` or `d.de<k>`.
-fn exact(s: &str) -> BigRational {
-    let (mant, exp) = s.split_once('e').unwrap_or((s, "0"));
-    let (neg, body) = match mant.strip_prefix('-') {
-        Some(b) => (true, b),
-        None => (false, mant),
-    };
-    let (int, frac) = body.split_once('.').unwrap_or((body, ""));
-    let digits: BigInt = format!("{int}{frac}").parse().unwrap();
-    let k: i32 = exp.parse::<i32>().unwrap() - frac.len() as i32;
-    let ten = BigRational::from_integer(BigInt::from(10));
-    let v = BigRational::from_integer(digits) * num_traits::Pow::pow(&ten, k);
-    if neg {
-        -v
-    } else {
-        v
-    }
-}
-
 /// The reference (22 significant digits, so within 10⁻²¹·|ref| of the
 /// truth) lies within the printed error of the printed value.
 fn inside(label: &str, printed: &str, reference: &str) {
     let (p, e) = printed.split_once(" ± ").unwrap();
-    let (p, e, r) = (exact(p), exact(e), exact(reference));
+    let (p, e, r) = (
+        values::exact_decimal(p),
+        values::exact_decimal(e),
+        values::exact_decimal(reference),
+    );
     let slack = r.abs() * BigRational::new(1.into(), BigInt::from(10).pow(21));
     assert!(
         (&r - &p).abs() + slack <= e,

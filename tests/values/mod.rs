@@ -8,6 +8,9 @@
 //! gives the formulas and their sources.
 #![allow(dead_code)]
 
+use num_bigint::BigInt;
+use num_rational::BigRational;
+
 /// The committed output of the script.
 pub const TEXT: &str = include_str!("../data/curve_values.txt");
 
@@ -43,4 +46,24 @@ pub fn conductor_tags() -> Vec<&'static str> {
         .filter_map(|l| l.strip_prefix("conductor "))
         .filter_map(|l| l.split_whitespace().next())
         .collect()
+}
+
+/// Exact value of a printed decimal `[-]d.ddd` or error `d.de<k>`, as
+/// a rational (shared by the tests that compare printed digits).
+pub fn exact_decimal(s: &str) -> BigRational {
+    let (mant, exp) = s.split_once('e').unwrap_or((s, "0"));
+    let (neg, body) = match mant.strip_prefix('-') {
+        Some(b) => (true, b),
+        None => (false, mant),
+    };
+    let (int, frac) = body.split_once('.').unwrap_or((body, ""));
+    let digits: BigInt = format!("{int}{frac}").parse().unwrap();
+    let k: i32 = exp.parse::<i32>().unwrap() - frac.len() as i32;
+    let ten = BigRational::from_integer(BigInt::from(10));
+    let v = BigRational::from_integer(digits) * num_traits::Pow::pow(&ten, k);
+    if neg {
+        -v
+    } else {
+        v
+    }
 }
