@@ -14,7 +14,7 @@
 //! same way: no overflow.
 //!
 //! **Quadratic twists of `y² = x³ − x`.** When the short model of the
-//! global minimal model is `y² = x³ − s²x` (`c6 = 0` and `27c4 = s²`; the
+//! global minimal model is `y² = x³ − s²x` (`c6 = 0` and `27·c4 = s²`; the
 //! congruent-number curves `y² = x³ − n²x` have `s = 36n`), then at every
 //! prime `p ≥ 5` of good reduction `a_p(E) = (s/p)·a_p(E₁)`, `E₁: y² = x³ − x`.
 //! Proof: over F_p, `x = sX`, `y = s√s·Y` maps `E₁` onto `E`, so `E` is `E₁`

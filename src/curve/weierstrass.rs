@@ -158,8 +158,8 @@ pub(crate) fn integer_invariants(a: [&BigInt; 5]) -> [BigInt; 7] {
 /// [Sil86, III.1]:
 /// `b2 = a1² + 4a2`, `b4 = a1a3 + 2a4`, `b6 = a3² + 4a6`,
 /// `b8 = a1²a6 + 4a2a6 − a1a3a4 + a2a3² − a4²`,
-/// `c4 = b2² − 24b4`, `c6 = −b2³ + 36b2b4 − 216b6`,
-/// `Δ = −b2²b8 − 8b4³ − 27b6² + 9b2b4b6`.
+/// `c4 = b2² − 24·b4`, `c6 = −b2³ + 36·b2·b4 − 216·b6`,
+/// `Δ = −b2²·b8 − 8·b4³ − 27·b6² + 9·b2·b4·b6`.
 #[derive(Debug, Clone, PartialEq, Eq)]
 #[non_exhaustive]
 pub struct WeierstrassInvariants {
