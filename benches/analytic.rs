@@ -126,5 +126,43 @@ fn bench_an_list(c: &mut Criterion) {
     g.finish();
 }
 
-criterion_group!(benches, bench_ap, bench_an_list, bench_analyse);
+fn bench_twist_routes(c: &mut Criterion) {
+    // Issue 25: congruent-number curves y² = x³ − n²x at n = 1001 and
+    // n = 9997 (conductors 3.2·10⁷ and 3.2·10⁹), the stored route (the
+    // default before issue 25) against the default (the streamed twist
+    // route above 10⁶), side by side in one run.
+    let mut g = c.benchmark_group("analytic");
+    g.sample_size(10);
+    for n in [1001i64, 9997] {
+        let e = Curve::from_ints([0, 0, 0, -n * n, 0]).unwrap_or_else(|_| unreachable!());
+        let local = e
+            .tate_data(&mut Budget::unlimited())
+            .unwrap_or_else(|_| unreachable!());
+        for (route, options) in [
+            (
+                "stored",
+                AnalyticOptions::default().with_streamed_above(u64::MAX),
+            ),
+            ("default", AnalyticOptions::default()),
+        ] {
+            g.bench_function(format!("analyse y^2=x^3-{n}^2x, {route}"), |b| {
+                b.iter(|| {
+                    black_box(
+                        analyse(&e, &local, &options, &mut Budget::unlimited())
+                            .unwrap_or_else(|_| unreachable!()),
+                    )
+                })
+            });
+        }
+    }
+    g.finish();
+}
+
+criterion_group!(
+    benches,
+    bench_ap,
+    bench_an_list,
+    bench_analyse,
+    bench_twist_routes
+);
 criterion_main!(benches);

@@ -8,7 +8,8 @@
 //! analytic_reach sample K SEED LO HI K square-free n in [LO, HI] drawn with
 //!                                    a fixed xorshift seed
 //! analytic_reach one N               the single curve y^2 = x^3 - n^2 x
-//! analytic_reach compare N           both series routes on that curve
+//! analytic_reach compare N [REPS]    both series routes on that curve
+//!                                    (mean CPU time over REPS runs)
 //! analytic_reach descent K SEED LO HI  the full descent (default options)
 //!                                    on K square-free n in [LO, HI]
 //! ```
@@ -245,17 +246,23 @@ fn main() {
         }
         Some("compare") => {
             // Both routes on one curve, side by side.
+            // With REPS, each route runs REPS times and the CPU time is
+            // the mean per run.
             let n: i64 = args.get(1).and_then(|s| s.parse().ok()).unwrap_or(1);
+            let reps: u32 = args.get(2).and_then(|s| s.parse().ok()).unwrap_or(1).max(1);
             let e = Curve::from_ints([0, 0, 0, -n * n, 0]).expect("n > 0");
             let mut budget = Budget::unlimited();
             let local = e.tate_data(&mut budget).expect("local data");
             for above in [u64::MAX, 0] {
                 let o = options.clone().with_streamed_above(above);
                 let cpu0 = thread_cpu_ns().unwrap_or(0);
-                let d = analyse(&e, &local, &o, &mut budget).expect("analyse");
-                let cpu = thread_cpu_ns().unwrap_or(0) - cpu0;
+                let mut d = analyse(&e, &local, &o, &mut budget).expect("analyse");
+                for _ in 1..reps {
+                    d = analyse(&e, &local, &o, &mut budget).expect("analyse");
+                }
+                let cpu = (thread_cpu_ns().unwrap_or(0) - cpu0) / u64::from(reps);
                 println!(
-                    "{:?}: w = {:?}, values {:?}, split {:?}, cpu {:.4} s",
+                    "{:?}: w = {:?}, values {:?}, split {:?}, cpu {:.6} s",
                     d.series_route(),
                     d.root_number(),
                     d.l_values()

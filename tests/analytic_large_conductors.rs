@@ -6,7 +6,7 @@ mod common;
 
 use isodescent::analytic::{
     analyse, AnalyticData, AnalyticOptions, RankTheorem, SeriesRoute, Skip,
-    DEFAULT_TWIST_CONDUCTOR_LIMIT,
+    DEFAULT_TWIST_CONDUCTOR_LIMIT, DEFAULT_TWIST_STREAMED_ABOVE,
 };
 use isodescent::curve::Curve;
 use isodescent::Budget;
@@ -55,6 +55,47 @@ fn both_routes_agree_within_their_bounds() {
         y.rank_proven(),
         Some((1, RankTheorem::GrossZagierKolyvagin))
     );
+}
+
+#[test]
+fn twists_switch_to_the_streamed_route_above_their_own_threshold() {
+    // Under the default options the twists of y² = x³ − x take the
+    // streamed twist route above DEFAULT_TWIST_STREAMED_ABOVE (10⁶), and
+    // the stored route below; a curve without the twist route keeps the
+    // stored route up to streamed_above. The values of the two routes
+    // overlap on both sides of the threshold.
+    let options = AnalyticOptions::default();
+    assert_eq!(DEFAULT_TWIST_STREAMED_ABOVE, 1_000_000);
+    // n = 173 (odd): N = 32·173² = 957 728; n = 179: N = 1 025 312;
+    // n = 254 (even): N = 16·254² = 1 032 256.
+    for (n, route) in [
+        (173i64, SeriesRoute::Stored),
+        (179, SeriesRoute::StreamedTwist),
+        (254, SeriesRoute::StreamedTwist),
+        (9997, SeriesRoute::StreamedTwist),
+    ] {
+        let d = congruent(n, &options);
+        let conductor: u64 = d.conductor().to_string().parse().unwrap();
+        assert_eq!(
+            conductor > DEFAULT_TWIST_STREAMED_ABOVE,
+            route == SeriesRoute::StreamedTwist,
+            "n = {n}, N = {conductor}"
+        );
+        assert_eq!(d.series_route(), Some(route), "n = {n}");
+        let stored = congruent(n, &options.clone().with_streamed_above(u64::MAX));
+        assert_eq!(stored.series_route(), Some(SeriesRoute::Stored));
+        assert_eq!(d.rank_proven(), stored.rank_proven(), "n = {n}");
+        for ((r, x), (s, y)) in d.l_values().iter().zip(stored.l_values()) {
+            assert_eq!(r, s);
+            assert!(x.overlaps(y), "n = {n}, r = {r}: {x} vs {y}");
+        }
+    }
+    // y² + y = x³ − x: no twist route, stored under the defaults.
+    let e = Curve::from_ints([0, 0, 1, -1, 0]).unwrap();
+    let mut b = Budget::unlimited();
+    let l = e.tate_data(&mut b).unwrap();
+    let d = analyse(&e, &l, &options, &mut b).unwrap();
+    assert_eq!(d.series_route(), Some(SeriesRoute::Stored));
 }
 
 #[test]

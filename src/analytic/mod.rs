@@ -73,6 +73,12 @@ pub const DEFAULT_CONDUCTOR_LIMIT: u64 = 10_000_000_000;
 /// whose coefficients come from a sieve ([`SeriesRoute::StreamedTwist`]).
 pub const DEFAULT_TWIST_CONDUCTOR_LIMIT: u64 = 10_000_000_000_000;
 
+/// Quadratic twists of `y² = x³ − x` with conductor above this take the
+/// streamed twist route under the default options (measured in
+/// `docs/performance.md`, issue 25: below it the stored route is as fast
+/// or faster).
+pub const DEFAULT_TWIST_STREAMED_ABOVE: u64 = 1_000_000;
+
 /// At most this many series terms under the default options (the stored
 /// route needs about 12 bytes per term, the streamed route about 4).
 pub const DEFAULT_MAX_TERMS: u64 = 30_000_000;
@@ -110,6 +116,11 @@ pub struct AnalyticOptions {
     /// [`DEFAULT_CONDUCTOR_LIMIT`], so that values below it are printed
     /// exactly as before).
     pub streamed_above: u64,
+    /// Quadratic twists of `y² = x³ − x` with conductor above this take
+    /// the streamed twist route ([`SeriesRoute::StreamedTwist`]) even below
+    /// [`AnalyticOptions::streamed_above`] (default
+    /// [`DEFAULT_TWIST_STREAMED_ABOVE`], where that route is the faster one).
+    pub twist_streamed_above: u64,
     /// At most this many terms `a_n` (default [`DEFAULT_MAX_TERMS`];
     /// memory is about 12 bytes per term on the stored route and 4 on the
     /// streamed one). With too few terms the error bounds grow and fewer
@@ -129,6 +140,7 @@ impl Default for AnalyticOptions {
             conductor_limit: DEFAULT_CONDUCTOR_LIMIT,
             twist_conductor_limit: DEFAULT_TWIST_CONDUCTOR_LIMIT,
             streamed_above: DEFAULT_CONDUCTOR_LIMIT,
+            twist_streamed_above: DEFAULT_TWIST_STREAMED_ABOVE,
             max_terms: DEFAULT_MAX_TERMS,
             tolerance: TRUNCATION_TARGET,
         }
@@ -150,9 +162,18 @@ impl AnalyticOptions {
     }
 
     /// The options with the streamed route above another conductor (0:
-    /// always streamed; `u64::MAX`: never).
+    /// always streamed; `u64::MAX`: never), for every curve: this sets
+    /// [`AnalyticOptions::twist_streamed_above`] as well.
     pub fn with_streamed_above(mut self, conductor: u64) -> Self {
         self.streamed_above = conductor;
+        self.twist_streamed_above = conductor;
+        self
+    }
+
+    /// The options with the streamed twist route above another conductor
+    /// for quadratic twists of `y² = x³ − x` only.
+    pub fn with_twist_streamed_above(mut self, conductor: u64) -> Self {
+        self.twist_streamed_above = conductor;
         self
     }
 
@@ -556,7 +577,12 @@ pub fn analyse(
         (options.tolerance * 1e7).min(1e-6),
     );
     let m = m_l.max(m_t).min(options.max_terms);
-    if n > options.streamed_above {
+    let streamed_above = if twist.is_some() {
+        options.streamed_above.min(options.twist_streamed_above)
+    } else {
+        options.streamed_above
+    };
+    if n > streamed_above {
         return analyse_streamed(curve, local, data, n, m, twist, budget);
     }
     let an = dirichlet_coefficients(local, m, budget)?;
