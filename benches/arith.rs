@@ -11,6 +11,8 @@
 //! `p = sympy.nextprime(rng.randrange(10**(d-1), 10**d))` and the same for q). The same
 //! numbers are in scripts/factor_side_by_side.py.
 //!
+//! Group `printing`: decimal strings of certified numbers (issue 25).
+//!
 //! Run: `cargo bench --bench arith`.
 //!
 //! CPU-time mode (less sensitive than wall-clock medians to other jobs on a shared
@@ -23,7 +25,7 @@
 //! each timed for that many CPU seconds.
 
 use criterion::{black_box, criterion_group, Criterion};
-use isodescent::arith::factor;
+use isodescent::arith::{factor, Certified};
 use isodescent::Budget;
 use num_bigint::BigInt;
 
@@ -245,7 +247,40 @@ fn cpu_table(secs: f64) {
     }
 }
 
-criterion_group!(benches, bench_sizes, bench_factor);
+/// Issue 25: printing certified numbers (`Display for Certified`, the
+/// strings of `arith::decimal::enclose` that every report uses), 1 000
+/// values `m·10^s ± e` with errors from 10⁻¹⁶ to 10⁻⁴ (a fixed xorshift
+/// sequence), the shapes of L-values, periods, heights and regulators.
+fn bench_printing(c: &mut Criterion) {
+    let mut state = 0x9e37_79b9_7f4a_7c15u64;
+    let mut next = || {
+        state ^= state << 13;
+        state ^= state >> 7;
+        state ^= state << 17;
+        (state >> 11) as f64 / (1u64 << 53) as f64
+    };
+    let numbers: Vec<Certified> = (0..1000)
+        .map(|i| {
+            let value = (next() * 200.0 - 100.0) * 10f64.powi(i % 5 - 2);
+            let error = next() * 10f64.powi(-4 - (i % 13));
+            Certified::new(value, error).unwrap_or_else(|_| unreachable!())
+        })
+        .collect();
+    let mut g = c.benchmark_group("printing");
+    g.sample_size(20);
+    g.bench_function("1000 certified numbers to decimal strings", |b| {
+        b.iter(|| {
+            let mut len = 0;
+            for x in &numbers {
+                len += x.to_string().len();
+            }
+            black_box(len)
+        })
+    });
+    g.finish();
+}
+
+criterion_group!(benches, bench_sizes, bench_factor, bench_printing);
 
 fn main() {
     if let Some(secs) = std::env::var("FACTOR_CPU_SECS")
