@@ -135,6 +135,7 @@ pub(crate) fn conic_hilbert_pair(c: &BigInt, form: &[BigInt; 3]) -> Option<[BigI
 
 /// What is known about one basis element of a Selmer group.
 #[derive(Clone, Debug, PartialEq, Eq)]
+#[non_exhaustive]
 pub enum ClassStatus {
     /// α of a torsion point (the point is on this side's curve).
     TorsionImage {
@@ -169,7 +170,7 @@ pub enum ClassStatus {
 impl ClassStatus {
     /// The contract's status word: "torsion_image", "point_image",
     /// "undecided" or "proven_not_image".
-    pub fn word(&self) -> &'static str {
+    pub(crate) fn word(&self) -> &'static str {
         match self {
             ClassStatus::TorsionImage { .. } => "torsion_image",
             ClassStatus::PointImage { .. } => "point_image",

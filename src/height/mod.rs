@@ -56,9 +56,8 @@ pub use lower_bound::{cremona_siksek_bound, CremonaSiksekBound};
 pub use naive_vs_canonical::{
     difference_bounds, height_lower_bound, DifferenceBounds, HeightLowerBound,
 };
-pub use saturate::{
-    saturate, saturate_with_context, LowerBoundSource, Saturation, SaturationOptions,
-};
+pub(crate) use saturate::saturate_with_context;
+pub use saturate::{saturate, LowerBoundSource, Saturation, SaturationOptions};
 
 use local_terms::{Archimedean, BadPrime};
 use projective::{Jac, ShortModel};
