@@ -32,7 +32,9 @@
 //!   lower bound for `ĥ` on non-torsion points;
 //! - `lll`: LLL reduction for the height pairing;
 //! - `saturate`: index bounds and p-saturation.
-
+//!
+//! The guide below is `docs/heights.md`, included verbatim.
+#![doc = include_str!("../../docs/heights.md")]
 // Matrix code reads best with explicit indices.
 #![allow(clippy::needless_range_loop)]
 
