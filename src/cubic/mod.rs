@@ -17,6 +17,7 @@
 
 pub(crate) mod eisenstein;
 pub(crate) mod local;
+pub(crate) mod quadratic;
 pub(crate) mod search;
 
 pub use eisenstein::{prime_above, reduce_mod, Eisenstein};

@@ -54,11 +54,12 @@ use std::time::{Duration, Instant};
 
 use num_bigint::BigInt;
 use num_rational::BigRational;
-use num_traits::{One, Signed, Zero};
+use num_traits::{One, Signed, ToPrimitive, Zero};
 
 use crate::analytic::{analyse, AnalyticOptions, RankTheorem};
 use crate::arith::factor;
 use crate::budget::Budget;
+use crate::cubic::quadratic::FieldLimits;
 use crate::cubic::{CubicPoint, CubicWitness};
 use crate::curve::{
     global_local_data, short_integral_model, Curve, GlobalLocalData, ModelChange, Point,
@@ -68,7 +69,7 @@ use crate::local::Prime;
 use f3::Span;
 use side::{intersect_local, point_on, search_side, SideSetup};
 
-pub use side::{Generator3, SideField};
+pub use side::{ElementOrigin, Generator3, SideField};
 
 /// Options of [`descend_3isogeny`].
 #[derive(Debug, Clone, PartialEq)]
@@ -95,6 +96,14 @@ pub struct Isogeny3Options {
     /// The analytic side, run only when the descent leaves a gap between
     /// its bounds (`None`: off).
     pub analytic: Option<AnalyticOptions>,
+    /// Largest |discriminant| of a field Q(√D) whose class group is
+    /// computed (the reduced forms are enumerated, O(|disc|) work).
+    pub max_discriminant: u64,
+    /// Largest class number accepted.
+    pub max_class_number: u64,
+    /// Largest size in bits of the fundamental unit of a real field and of
+    /// the generators of principal ideals.
+    pub max_unit_bits: u64,
 }
 
 impl Default for Isogeny3Options {
@@ -109,6 +118,19 @@ impl Default for Isogeny3Options {
             tamagawa_check: true,
             time_limit: None,
             analytic: Some(AnalyticOptions::default()),
+            max_discriminant: 2_000_000,
+            max_class_number: 5_000,
+            max_unit_bits: 8_192,
+        }
+    }
+}
+
+impl Isogeny3Options {
+    fn limits(&self) -> FieldLimits {
+        FieldLimits {
+            max_discriminant: self.max_discriminant,
+            max_class_number: self.max_class_number,
+            max_unit_bits: self.max_unit_bits,
         }
     }
 }
@@ -308,25 +330,46 @@ pub fn descend_3isogeny(e: &Curve, opts: &Isogeny3Options) -> Result<Isogeny3Rep
     let u6 = u.pow(6);
     let k = &b / &u6;
     let change = ch.then(&ModelChange::scaling(BigRational::from_integer(u.clone()))?);
-    let (field, m) = if square_class == BigInt::one() {
-        (SideField::Rational, sqrt_int(&k)?)
-    } else if square_class == BigInt::from(-3) {
-        (SideField::Eisenstein, sqrt_int(&(-&k / 3))?)
-    } else {
-        return Err(Error::NoSupportedIsogeny {
-            reason: format!(
-                "the kernel of the 3-isogeny of y^2 = x^3 + {k} is defined over Q(√{square_class}); only Q and Q(√−3) (no class group needed) are implemented"
-            ),
-        });
-    };
     let k2 = BigInt::from(-27) * &k;
-    let (field2, m2) = match field {
-        SideField::Rational => (SideField::Eisenstein, BigInt::from(3) * &m),
-        SideField::Eisenstein => (SideField::Rational, BigInt::from(9) * &m),
+    // k = D·m² and −27k = D′·m′² with D, D′ square-free.
+    let side_of = |kk: &BigInt, dsq: &BigInt| -> Result<(SideField, BigInt)> {
+        let m = sqrt_int(&(kk / dsq))?;
+        let field = if dsq.is_one() {
+            SideField::Rational
+        } else if dsq == &BigInt::from(-3) {
+            SideField::Eisenstein
+        } else {
+            let d = dsq
+                .to_i64()
+                .filter(|d| d.unsigned_abs() <= opts.max_discriminant)
+                .ok_or_else(|| Error::BudgetExhausted {
+                    stage: format!(
+                        "the class group of Q(√{dsq}): above the discriminant limit {}",
+                        opts.max_discriminant
+                    ),
+                })?;
+            SideField::Quadratic { d }
+        };
+        Ok((field, m))
     };
+    let square_class2 = if (&square_class % 3u32).is_zero() {
+        -&square_class / 3
+    } else {
+        &square_class * -3
+    };
+    let (field, m) = side_of(&k, &square_class)?;
+    let (field2, m2) = side_of(&k2, &square_class2)?;
+    let mut qb = budget_for(opts.local_units, start, opts.time_limit);
     let setups = [
-        SideSetup::new(k.clone(), m, field, primes.clone())?,
-        SideSetup::new(k2.clone(), m2, field2, primes.clone())?,
+        SideSetup::new(k.clone(), m, field, primes.clone(), opts.limits(), &mut qb)?,
+        SideSetup::new(
+            k2.clone(),
+            m2,
+            field2,
+            primes.clone(),
+            opts.limits(),
+            &mut qb,
+        )?,
     ];
     let mut lb = budget_for(opts.local_units, start, opts.time_limit);
     let mut sb = budget_for(opts.search_units, start, opts.time_limit);
@@ -614,6 +657,7 @@ impl std::fmt::Display for SideField {
         match self {
             SideField::Rational => write!(f, "Q (kernel point rational)"),
             SideField::Eisenstein => write!(f, "Q(√−3)"),
+            SideField::Quadratic { d } => write!(f, "Q(√{d})"),
         }
     }
 }
@@ -783,8 +827,22 @@ impl Isogeny3Side {
         let m = match self.field {
             SideField::Rational => sqrt_int(&self.k)?,
             SideField::Eisenstein => sqrt_int(&(-&self.k / 3))?,
+            SideField::Quadratic { d } => sqrt_int(&(&self.k / d))?,
         };
-        let st = SideSetup::new(self.k.clone(), m, self.field, self.primes.clone())?;
+        let limits = FieldLimits {
+            max_discriminant: u64::MAX,
+            max_class_number: u64::MAX,
+            max_unit_bits: u64::MAX,
+        };
+        let mut budget = Budget::unlimited();
+        let st = SideSetup::new(
+            self.k.clone(),
+            m,
+            self.field,
+            self.primes.clone(),
+            limits,
+            &mut budget,
+        )?;
         if st.basis != self.generators {
             return Err(Error::Internal {
                 check: "the generators of a side follow from k and S".into(),
