@@ -1076,7 +1076,10 @@ mod tests {
         let data = include_str!("../../tests/data/quadratic_fields.txt");
         let mut n = 0;
         for line in data.lines().filter(|l| !l.starts_with('#')) {
-            let v: Vec<i64> = line.split_whitespace().map(|t| t.parse().unwrap()).collect();
+            let v: Vec<i64> = line
+                .split_whitespace()
+                .map(|t| t.parse().unwrap())
+                .collect();
             let (d, h, x, y) = (v[0], v[1], v[2], v[3]);
             if d == -3 {
                 continue;
