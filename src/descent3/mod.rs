@@ -84,8 +84,10 @@ pub struct Isogeny3Options {
     pub local_units: u64,
     /// Work units for the point search of one curve (both sides).
     pub search_units: u64,
-    /// Height bound of the second search, run only when the analytic side
-    /// proves a rank above the points found.
+    /// Height bound of the second search, run when the points found stay
+    /// below the rank the analytic side proves, or below the Selmer bound
+    /// when the analytic side leaves the rank open (the bound is then met
+    /// if enough points turn up).
     pub deep_search_height: u64,
     /// Work units for that second search (both sides).
     pub deep_search_units: u64,
@@ -498,8 +500,11 @@ pub fn descend_3isogeny(e: &Curve, opts: &Isogeny3Options) -> Result<Isogeny3Rep
             Err(err) => return Err(err),
         }
     }
-    // A proven rank above the points found: search the cubics again, higher.
-    if let Some((r, _)) = rank {
+    // A proven rank above the points found, or bounds that the analytic
+    // side left apart: search the cubics again, higher.
+    let target = rank.map_or(rank_upper, |(r, _)| r);
+    {
+        let r = target;
         if r > rank_lower && opts.deep_search_height > opts.search_height {
             let mut db = budget_for(opts.deep_search_units, start, opts.time_limit);
             for (idx, side) in [&mut s0, &mut s1].into_iter().enumerate() {
@@ -525,6 +530,9 @@ pub fn descend_3isogeny(e: &Curve, opts: &Isogeny3Options) -> Result<Isogeny3Rep
                 return Err(Error::Internal {
                     check: "the points found lie within the proven rank".into(),
                 });
+            }
+            if rank.is_none() && rank_lower == rank_upper {
+                rank = Some((rank_lower, Rank3Proof::Descent));
             }
         }
     }
