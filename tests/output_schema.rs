@@ -128,6 +128,9 @@ const LINES: &[&str] = &[
     "0 1 1 -2 0",
     "y^2 = x^3",
     "not a curve",
+    // No rational point of order 2: the descent via 3-isogeny.
+    "y^2 = x^3 + 17",
+    "0 0 0 0 -2",
 ];
 
 #[test]
