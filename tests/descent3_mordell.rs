@@ -175,3 +175,40 @@ fn field_limits_give_typed_errors() {
         Ok(IsogenyDescent::Three(_))
     ));
 }
+
+// The families: sixth-power-free k ≠ 0 and cube-free n ≥ 1 (common
+// practice: these are the classes of the curves up to isomorphism), and
+// their scan records carry the 3-isogeny Selmer dimensions.
+#[test]
+fn families_of_the_descent_via_3_isogeny() {
+    use isodescent::family::{scan_member, Family, RecordLine, Tally};
+    let m = Family::mordell(-70, 70).unwrap();
+    // 64 = 2⁶ is the only sixth power in range: 140 − 2 members.
+    assert_eq!(m.count(), 138);
+    let c = Family::cube_sums(1, 30).unwrap();
+    // 8, 16, 24, 27 are not cube-free.
+    assert_eq!(c.count(), 26);
+    assert!(Family::cube_sums(0, 3).is_err());
+    let mut tally = Tally::new();
+    for member in Family::mordell(-20, 20).unwrap().members() {
+        let line = scan_member(&member, &DescentOptions::default()).to_line();
+        let rec = RecordLine::parse(&line).unwrap();
+        assert!(rec.error.is_none(), "{line}");
+        // k a cube: a rational point of order 2, the 2-isogeny descent.
+        let k: i64 = rec.parameter.trim_start_matches("k=").parse().unwrap();
+        let cube = (-3i64..=3).any(|c| c * c * c == k);
+        assert_eq!(rec.selmer3.is_some(), !cube, "{line}");
+        tally.add(&rec);
+    }
+    assert_eq!(tally.selmer3_pairs.values().sum::<u64>(), 40 - 4);
+}
+
+// The dispatch re-checks either kind of report.
+#[test]
+fn recheck_of_either_descent() {
+    for curve in ["y^2 = x^3 - 36x", "y^2 = x^3 + 17", "y^2 = x^3 - 2"] {
+        let e: Curve = curve.parse().unwrap();
+        let r = descend_by_isogeny(&e, &DescentOptions::default(), &quick()).unwrap();
+        r.recheck().unwrap_or_else(|err| panic!("{curve}: {err}"));
+    }
+}

@@ -209,6 +209,15 @@ fn family_scan_lines_validate() {
     for m in fam.members() {
         assert_valid(&scan_member(&m, &DescentOptions::default()).to_line());
     }
+    // The families of the descent via 3-isogeny.
+    for fam in [
+        Family::mordell(-6, 6).unwrap(),
+        Family::cube_sums(1, 10).unwrap(),
+    ] {
+        for m in fam.members() {
+            assert_valid(&scan_member(&m, &DescentOptions::default()).to_line());
+        }
+    }
 }
 
 #[test]

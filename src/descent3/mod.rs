@@ -830,6 +830,30 @@ pub fn descend_by_isogeny(
     }
 }
 
+impl IsogenyDescent {
+    /// Re-checks the evidence of either descent: [`crate::descent::verify_report_default`]
+    /// for a 2-isogeny report, [`Isogeny3Report::recheck`] for a 3-isogeny
+    /// one.
+    ///
+    /// # Errors
+    /// [`Error::Internal`] naming the first check that fails; the budget
+    /// errors of [`crate::descent::verify_report`].
+    pub fn recheck(&self) -> Result<()> {
+        match self {
+            IsogenyDescent::Two(r) => {
+                let v = crate::descent::verify_report_default(r)?;
+                match v.failures().first() {
+                    None => Ok(()),
+                    Some(c) => Err(Error::Internal {
+                        check: format!("{c:?}"),
+                    }),
+                }
+            }
+            IsogenyDescent::Three(r) => r.recheck(),
+        }
+    }
+}
+
 impl Isogeny3Side {
     fn setup(&self) -> Result<SideSetup> {
         let m = match self.field {

@@ -123,10 +123,7 @@ pub(crate) fn line_for_curve(
         Err(crate::Error::NoTwoTorsion) => {
             match crate::descent3::descend_3isogeny(curve, &isogeny3_options(options)) {
                 Ok(r) => super::json::isogeny3_line(input, &r, detail),
-                Err(e) => error_line(
-                    input,
-                    &format!("no rational point of order 2, and {e}"),
-                ),
+                Err(e) => error_line(input, &format!("no rational point of order 2, and {e}")),
             }
         }
         Err(e) => error_line(input, &e.to_string()),
