@@ -21,10 +21,12 @@
 //! cubics have good reduction (Hasse's bound gives a point mod p and
 //! Hensel lifts it), and over R a cubic always has a point.
 //!
-//! Handled are the k for which both fields need no class group: k a
-//! square times a sixth power, or −3 times one (the curves of
-//! x³ + y³ = n, y² = x³ − 432n², and their isogenous partners). Other k
-//! give [`Error::NoSupportedIsogeny`].
+//! Every k is handled. When k is a square or −3 times a square (the
+//! curves of x³ + y³ = n, y² = x³ − 432n², and their isogenous partners)
+//! the fields need no class group; for any other k the field Q(√D) of a
+//! side comes with its class group, the 3-part of it and, for D > 0, its
+//! fundamental unit (`cubic::quadratic`, docs/descent3.md), within the
+//! limits of [`Isogeny3Options`] (beyond them: [`Error::BudgetExhausted`]).
 //!
 //! # Rank bounds
 //! From the exact sequence
@@ -35,8 +37,8 @@
 //! (the 3-isogeny analogue of Silverman–Tate, "Rational Points on
 //! Elliptic Curves", III.6; derivation in docs/descent3.md). The Selmer
 //! groups bound the two quotients above, the images of points found bound
-//! them below. Exactly one of k, −27k is a square here, so the torsion
-//! correction is 1.
+//! them below. The torsion correction is 1 when one of k, −27k is a
+//! square, else 0.
 //!
 //! # The Tamagawa check
 //! Cassels' formula for an isogeny φ: E → E′ of odd degree ("Arithmetic on
@@ -302,9 +304,10 @@ fn budget_for(units: u64, start: Instant, limit: Option<Duration>) -> Budget {
 /// sequence (module docs).
 ///
 /// # Errors
-/// [`Error::NoSupportedIsogeny`] when j ≠ 0, or when k is neither a square
-/// nor −3 times a square (up to sixth powers); [`Error::BudgetExhausted`]
-/// when the factorisation or the local tests run out of budget or time.
+/// [`Error::NoSupportedIsogeny`] when j ≠ 0; [`Error::BudgetExhausted`]
+/// when the factorisation or the local tests run out of budget or time, or
+/// when a field Q(√D) is beyond the discriminant, class-number or
+/// unit-size limits of the options.
 pub fn descend_3isogeny(e: &Curve, opts: &Isogeny3Options) -> Result<Isogeny3Report> {
     let start = Instant::now();
     let (a, b, _short, ch) = short_integral_model(e);
@@ -805,7 +808,7 @@ pub enum IsogenyDescent {
 }
 
 /// Descent via 2-isogeny when the curve has a rational point of order 2,
-/// else via 3-isogeny when it has j = 0 and a kernel over Q or Q(√−3).
+/// else via 3-isogeny when it has j = 0.
 ///
 /// # Errors
 /// Those of [`crate::descend`] for curves with a point of order 2;

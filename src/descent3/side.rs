@@ -3,8 +3,10 @@
 //! with K = Q(√k), whose image bounds E_k(Q) modulo the image of the
 //! isogenous curve.
 //!
-//! Two fields are handled, the ones without class groups or units of
-//! infinite order:
+//! Three kinds of field: the two below, without class groups or units of
+//! infinite order, and any other Q(√D) (`cubic::quadratic`: class group,
+//! fundamental unit, the cubic b·u³ + 3a·u²v + 3Db·uv² + Da·v³ = −m·w³ of
+//! δ = a + b√D):
 //! * k = m² (K = Q ⊕ Q): the group is Q*/Q*³ cut down to S, with basis the
 //!   primes of S (−1 is a cube). The class d has the homogeneous space
 //!   d²v³ − du³ = 2m·w³: from y − m = d(u/w)³ and y + m = d²(v/w)³, with
