@@ -110,7 +110,13 @@ impl std::fmt::Display for Generator3 {
             Generator3::Prime(p) => write!(f, "{p}"),
             Generator3::Omega => write!(f, "ω"),
             Generator3::SplitPrime { p, pi } => write!(f, "{p}·conj{pi}"),
-            Generator3::Element { a, b, d, .. } => write!(f, "({a} + {b}√{d})"),
+            Generator3::Element { a, b, d, .. } => {
+                if b.is_negative() {
+                    write!(f, "({a} - {}√{d})", -b)
+                } else {
+                    write!(f, "({a} + {b}√{d})")
+                }
+            }
         }
     }
 }
