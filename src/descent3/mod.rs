@@ -88,8 +88,9 @@ pub struct Isogeny3Options {
     pub search_units: u64,
     /// Height bound of the second search, run when the points found stay
     /// below the rank the analytic side proves, or below the Selmer bound
-    /// when the analytic side leaves the rank open (the bound is then met
-    /// if enough points turn up).
+    /// when the analytic side ran and left the rank open (the bound is
+    /// then met if enough points turn up). Not run when the analytic side
+    /// is off.
     pub deep_search_height: u64,
     /// Work units for that second search (both sides).
     pub deep_search_units: u64,
@@ -505,9 +506,12 @@ pub fn descend_3isogeny(e: &Curve, opts: &Isogeny3Options) -> Result<Isogeny3Rep
     }
     // A proven rank above the points found, or bounds that the analytic
     // side left apart: search the cubics again, higher.
-    let target = rank.map_or(rank_upper, |(r, _)| r);
-    {
-        let r = target;
+    let target = match rank {
+        Some((r, _)) => Some(r),
+        None if opts.analytic.is_some() => Some(rank_upper),
+        None => None,
+    };
+    if let Some(r) = target {
         if r > rank_lower && opts.deep_search_height > opts.search_height {
             let mut db = budget_for(opts.deep_search_units, start, opts.time_limit);
             for (idx, side) in [&mut s0, &mut s1].into_iter().enumerate() {
