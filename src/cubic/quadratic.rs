@@ -411,11 +411,11 @@ impl QuadField {
                 v.push(self.mul_coords(p, q));
             }
         }
-        self.from_lattice(&v)
+        self.lattice_ideal(&v)
     }
 
     /// The ideal spanned over Z by the given elements (coordinates on 1, ω).
-    fn from_lattice(&self, v: &[(BigInt, BigInt)]) -> Result<Ideal> {
+    fn lattice_ideal(&self, v: &[(BigInt, BigInt)]) -> Result<Ideal> {
         // Hermite normal form Z(A, 0) + Z(B, C).
         let mut first = (BigInt::zero(), BigInt::zero());
         let mut xs: Vec<BigInt> = Vec::new();
@@ -492,7 +492,7 @@ impl QuadField {
             }
             v.push((q.0 / &den, q.1 / &den));
         }
-        self.from_lattice(&v)
+        self.lattice_ideal(&v)
     }
 
     /// The classes: every reduced form (Δ < 0) or the name of every cycle

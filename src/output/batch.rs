@@ -102,11 +102,12 @@ pub fn json_for_bytes(bytes: &[u8], options: &DescentOptions, detail: Detail) ->
 /// 2-isogeny descent: the same analytic side, clock, factoring and local
 /// budgets; the rest at their defaults.
 pub(crate) fn isogeny3_options(options: &DescentOptions) -> crate::descent3::Isogeny3Options {
-    let mut o = crate::descent3::Isogeny3Options::default();
-    o.analytic = options.analytic.clone();
-    o.time_limit = options.time_limit;
-    o.factor_units = options.factor_units;
-    o
+    crate::descent3::Isogeny3Options {
+        analytic: options.analytic.clone(),
+        time_limit: options.time_limit,
+        factor_units: options.factor_units,
+        ..Default::default()
+    }
 }
 
 /// The output line of one parsed curve: the 2-isogeny descent, or, on a
