@@ -75,9 +75,14 @@ impl Default for HeegnerOptions {
 pub struct HeegnerPoint {
     /// `n` of the model `y² = x³ − n²x` isomorphic to the curve.
     pub n: BigInt,
-    /// The discriminant `D = −n` of `K`.
+    /// The discriminant `D = f²·D_K` of the order used: `−n` for
+    /// `n ≡ 7 (mod 8)` (`f = 1`), `−64n` for `n ≡ 5, 6 (mod 8)` (`f = 4`).
     pub discriminant: i64,
-    /// The class number `h(D)` (the number of Heegner points summed).
+    /// The conductor `f` of the order of discriminant `D` in
+    /// `K = Q(√−n)`.
+    pub conductor: u32,
+    /// The class number `h(D)` of the order (the number of Heegner points
+    /// summed).
     pub class_number: usize,
     /// The level of the modular curve (32).
     pub level: u32,
@@ -223,20 +228,17 @@ pub fn heegner_point(
         ));
     };
     let r8 = (&n % BigInt::from(8)).to_u64().unwrap_or(0);
-    if r8 != 7 {
-        let why = match r8 {
-            1..=3 => "root number +1 (n = 1, 2, 3 mod 8)".to_string(),
-            _ => format!(
-                "n = {r8} mod 8: 2 does not split in Q(sqrt(-n)), the Heegner hypothesis fails at level 32"
-            ),
-        };
-        return Ok(HeegnerOutcome::NotApplicable(why));
+    if !matches!(r8, 5..=7) {
+        return Ok(HeegnerOutcome::NotApplicable(
+            "root number +1 (n = 1, 2, 3 mod 8)".into(),
+        ));
     }
     let nn = match n.to_u64() {
-        Some(v) if v <= options.max_discriminant => v,
+        Some(v) if v.saturating_mul(if r8 == 7 { 1 } else { 64 }) <= options.max_discriminant => v,
         _ => {
             return Ok(HeegnerOutcome::NotApplicable(format!(
-                "|D| = {n} above the limit {}",
+                "|D| = {}·{n} above the limit {}",
+                if r8 == 7 { 1 } else { 64 },
                 options.max_discriminant
             )))
         }
@@ -270,19 +272,43 @@ fn point_on_twist(
     options: &HeegnerOptions,
     budget: &mut Budget,
 ) -> Result<HeegnerOutcome> {
-    let d = -(n as i64);
-    if !forms::is_fundamental(d) {
-        return Ok(HeegnerOutcome::NotApplicable(format!(
-            "{d} is not a fundamental discriminant"
-        )));
-    }
-    let Some(beta) = forms::heegner_beta(d, LEVEL) else {
-        return Ok(HeegnerOutcome::NotApplicable(format!(
-            "{d} is not a square modulo {}",
-            4 * LEVEL
-        )));
+    // The order: the maximal order of Q(√−n) for n ≡ 7 (mod 8), where 2
+    // splits; for n ≡ 5, 6 (mod 8), where 2 ramifies, the order of
+    // conductor 4, of discriminant D = 16·(−4n) = −64n, which is a square
+    // modulo 128: B = 8c with c odd (n ≡ 5), B = 16c with c odd (n ≡ 6).
+    // For n ≡ 6 the residues β ≡ 0 (mod 32) give a torsion trace (seen
+    // numerically), so β = 16 there.
+    let (d, conductor, beta) = match n % 8 {
+        7 => {
+            let d = -(n as i64);
+            if !forms::is_fundamental(d) {
+                return Ok(HeegnerOutcome::NotApplicable(format!(
+                    "{d} is not a fundamental discriminant"
+                )));
+            }
+            let Some(beta) = forms::heegner_beta(d, LEVEL) else {
+                return Ok(HeegnerOutcome::NotApplicable(format!(
+                    "{d} is not a square modulo {}",
+                    4 * LEVEL
+                )));
+            };
+            (d, 1u32, beta)
+        }
+        5 => (-64 * n as i64, 4, 8),
+        6 => (-64 * n as i64, 4, 16),
+        _ => {
+            return Ok(HeegnerOutcome::NotApplicable(format!(
+                "n = {} mod 8 is outside the routes",
+                n % 8
+            )))
+        }
     };
-    let (h, hforms) = forms::heegner_forms(d, LEVEL, beta, budget)?;
+    if (beta * beta - d) % (4 * LEVEL) != 0 {
+        return Err(Error::Internal {
+            check: format!("{beta}^2 is not {d} modulo {}", 4 * LEVEL),
+        });
+    }
+    let (h, hforms) = forms::heegner_cover(d, LEVEL, beta, budget)?;
     let nb = BigInt::from(n);
     let e = Curve::from_bigints([
         BigInt::zero(),
@@ -301,8 +327,8 @@ fn point_on_twist(
     let start_h = predicted_height
         .filter(|h| h.is_finite() && *h > 0.0)
         .map_or(40.0, |h| 1.1 * h + 2.0 * (n as f64).ln() + 10.0);
-    let amax = hforms.iter().map(|f| f.0).max().unwrap_or(LEVEL);
-    let qmax = (-std::f64::consts::PI * (n as f64).sqrt() / amax as f64).exp();
+    let amax = hforms.iter().map(|f| f.form().0).max().unwrap_or(LEVEL);
+    let qmax = (-std::f64::consts::PI * ((-d) as f64).sqrt() / amax as f64).exp();
     let mut bits = ((3.5 * start_h / std::f64::consts::LN_2) as u32 + 64)
         .clamp(128, options.max_bits.max(128));
     // The coefficients of E0 for the largest precision that may be used.
@@ -401,6 +427,7 @@ fn point_on_twist(
             return Ok(HeegnerOutcome::Found(HeegnerPoint {
                 n: nb,
                 discriminant: d,
+                conductor,
                 class_number: h,
                 level: LEVEL as u32,
                 trace_point: q,
