@@ -277,6 +277,47 @@ pub(crate) fn point_at(
     recognise(&c.f, &big_x, n, max_bits, guard)
 }
 
+/// The point of parameter `iy` on `E_n` if it is rational, else the first
+/// rational point among its halves, quarters, … down to `2^{−depth}`:
+/// returns `R`, its parameter and `j` with `2^j·R = ±Q + T`, `T ∈ E_n[2]`,
+/// `Q` the point of `iy`.
+///
+/// Halving: the real points of `E_n` are the parameters `s·ω₁/2 + iy'`
+/// (`s ∈ {0, 1}`, `y'` modulo `ω₁`, the two components), a group
+/// `R/ω₁Z × Z/2`; the doubles are the points with `s = 0`. The points `R`
+/// with `2R ∈ Q + E_n[2]` are therefore, up to adding `E_n[2]`, the
+/// parameters `i·y/2` and `i·(y/2 + ω₁/4)`; since `E_n[2] ⊂ E_n(Q)`, one
+/// representative of each coset is rational exactly when all are. Each
+/// candidate is recognised and checked on the curve exactly
+/// ([`point_at`]); the relation to `Q` is the numerical one above.
+pub(crate) fn point_or_halves(
+    c: &Constants,
+    y: &BigInt,
+    n: &BigInt,
+    guard: u32,
+    depth: u32,
+    budget: &mut Budget,
+) -> Result<Option<(Point, BigInt, u32)>> {
+    let mut level = vec![y.clone()];
+    let quarter = &c.w1 >> 2;
+    for j in 0..=depth {
+        for yy in &level {
+            spend(budget, 64 * u64::from(c.f.p / 64 + 1))?;
+            if let Some(p) = point_at(c, false, yy, n, guard) {
+                return Ok(Some((p, yy.clone(), j)));
+            }
+        }
+        level = level
+            .iter()
+            .flat_map(|yy| {
+                let h: BigInt = yy >> 1;
+                [h.clone(), h + &quarter]
+            })
+            .collect();
+    }
+    Ok(None)
+}
+
 /// The torsion points of `E_n`: `O, (0, 0), (±n, 0)`.
 pub(crate) fn torsion(n: &BigInt) -> Vec<Point> {
     let z = BigRational::zero();

@@ -87,7 +87,11 @@ pub struct HeegnerPoint {
     /// The level of the modular curve (32).
     pub level: u32,
     /// The point of `E_n(Q)` from the trace (on the input model), checked
-    /// on the curve exactly.
+    /// on the curve exactly. When the trace's parameter was halved before
+    /// recognition (index `2^j`, see `docs/heegner.md`) this is `2^j·R`
+    /// computed exactly from the recognised `R`; it equals the trace up to
+    /// sign and 2-torsion to the working precision (a numerical agreement,
+    /// not an exact check).
     pub trace_point: Point,
     /// `trace_point = ±index·point + T` with `T` torsion, checked exactly.
     pub point: Point,
@@ -357,11 +361,16 @@ fn point_on_twist(
                 class_number: h,
             });
         }
-        if let Some(q) = congruent::point_at(&c, false, &y, &nb, guard + 16) {
+        // The trace point itself, or a point R with 2^j·R = ±trace + T
+        // (j ≤ 3, T ∈ E_n[2]) found from the halved parameter: the order-4
+        // routes give traces of index 2, 4 or 8, and recognising R needs
+        // 4^j times fewer bits than recognising the trace.
+        if let Some((r0, y0, j)) = congruent::point_or_halves(&c, &y, &nb, guard + 16, 3, budget)? {
+            let q = e.mul(&r0, &(BigInt::from(1u8) << j));
             // Divide by the primes of the index the height ratio suggests,
             // then by 2, 3, 5, 7 while that works (each checked exactly).
             let mut primes: Vec<u64> = Vec::new();
-            if let (Some(hp), Ok(hq)) = (predicted_height, crate::height::canonical_height(&e, &q))
+            if let (Some(hp), Ok(hq)) = (predicted_height, crate::height::canonical_height(&e, &r0))
             {
                 let t = (hq.value() / hp).sqrt();
                 let rt = t.round();
@@ -382,9 +391,9 @@ fn point_on_twist(
             }
             primes.retain(|&p| p <= options.max_division_prime);
             primes.extend([2, 3, 5, 7]);
-            let mut point = q.clone();
-            let mut param = (false, y.clone());
-            let mut index = 1u64;
+            let mut point = r0;
+            let mut param = (false, y0);
+            let mut index = 1u64 << j;
             let mut tried_small = [false; 8];
             let mut divisions = 0;
             for p in primes {
