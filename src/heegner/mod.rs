@@ -323,8 +323,11 @@ fn point_on_twist(
     ])?;
     // Precision: recognising X = a/d² from an approximation needs an error
     // below 1/(2d⁴) (Legendre's theorem on continued fractions), and ℘
-    // near its pole loses a further 1.5·log|X|; with log max(|a|, d²) ≤ H
-    // that is 3.5·H/ln 2 bits. H starts at the predicted height (index 1
+    // near its pole multiplies the parameter's error by |dX/dy| ≈
+    // 2|X|^{3/2}/√n: p ≥ 2·log₂(d²) + 1.5·log₂|X| + 2 bits. With
+    // H = log max(|a|, d²): if |a| ≥ d², log|X| = H − log d² and the sum is
+    // 1.5H + 0.5·log d² ≤ 2H; otherwise log|X| < 0 and it is ≤ 2H. So
+    // 2·H/ln 2 bits (plus log₂ n and the guard bits). H starts at the predicted height (index 1
     // between the trace and a generator, #Ш = 1) plus a margin for the
     // naive–canonical difference; the precision doubles on failure, so a
     // larger index or Ш costs at most twice the final attempt.
@@ -333,7 +336,7 @@ fn point_on_twist(
         .map_or(40.0, |h| 1.1 * h + 2.0 * (n as f64).ln() + 10.0);
     let amax = hforms.iter().map(|f| f.form().0).max().unwrap_or(LEVEL);
     let qmax = (-std::f64::consts::PI * ((-d) as f64).sqrt() / amax as f64).exp();
-    let mut bits = ((3.5 * start_h / std::f64::consts::LN_2) as u32 + 64)
+    let mut bits = ((2.0 * start_h / std::f64::consts::LN_2 + (n as f64).log2()) as u32 + 64)
         .clamp(128, options.max_bits.max(128));
     // The coefficients of E0 for the largest precision that may be used.
     let e0 = Curve::from_ints([0, 0, 0, -1, 0])?;
