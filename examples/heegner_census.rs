@@ -24,7 +24,9 @@ fn main() {
     let (mut curves, mut no_point, mut proven, mut other) = (0, 0, 0, 0);
     let mut costs = Vec::new();
     for n in from..=to {
-        if !(5..=7).contains(&(n % 8)) || (2..n).take_while(|d| d * d <= n).any(|d| n % (d * d) == 0) {
+        if !(5..=7).contains(&(n % 8))
+            || (2..n).take_while(|d| d * d <= n).any(|d| n % (d * d) == 0)
+        {
             continue;
         }
         curves += 1;

@@ -14,6 +14,12 @@
 //! non-zero multiple of `L'(E_n, 1)·L(E0, 1)`, so it has infinite order
 //! exactly when `L'(E_n, 1) ≠ 0`.
 //!
+//! For square-free `n ≡ 5, 6 (mod 8)` 2 ramifies in `K`; the route uses
+//! Heegner points of conductor 4 (the order of discriminant `−64n`, the
+//! kind of points of Tian, *Cambridge J. Math.* 2 (2014), from memory).
+//! That their trace has infinite order is observed, not assumed: a torsion
+//! trace is reported as such, and every point is checked exactly.
+//!
 //! What is proven and what is numerics: the series, the periods and `℘`
 //! are evaluated in binary fixed point (`fixed`) only to *propose* the
 //! rational `x`-coordinate; the point is then checked on the curve in
@@ -110,9 +116,10 @@ pub struct HeegnerPoint {
 pub enum HeegnerOutcome {
     /// A point of infinite order, checked exactly.
     Found(HeegnerPoint),
-    /// The trace is a torsion point. By Gross–Zagier this means
-    /// `L'(E_n, 1) = 0`; when the caller has that value certified
-    /// non-zero, this outcome signals a defect.
+    /// The trace is a torsion point. For the maximal order (odd `D`) this
+    /// means `L'(E_n, 1) = 0` by Gross–Zagier; when the caller has that
+    /// value certified non-zero, this outcome signals a defect. For the
+    /// order of conductor 4 (`D = −64n`) no theorem used here excludes it.
     Torsion {
         /// `D`.
         discriminant: i64,
@@ -210,7 +217,8 @@ pub fn congruent_model(
 }
 
 /// A Heegner point on a curve isomorphic to `E_n: y² = x³ − n²x` with
-/// square-free `n ≡ 7 (mod 8)`, as a point of the input model.
+/// square-free `n ≡ 5, 6, 7 (mod 8)`, as a point of the input model
+/// (`docs/heegner.md` has the order used for each class of `n`).
 ///
 /// `predicted_height` is `ĥ` of a generator by the Birch–Swinnerton-Dyer
 /// formula with `#Ш = 1` (x-normalisation of [`crate::height`]); it is a
@@ -269,7 +277,7 @@ fn guard_bits(terms: u64) -> u32 {
     2 * (64 - terms.leading_zeros()) + 24
 }
 
-/// The Heegner point on `E_n` itself (`n ≡ 7 mod 8`, square-free).
+/// The Heegner point on `E_n` itself (`n ≡ 5, 6, 7 mod 8`, square-free).
 fn point_on_twist(
     n: u64,
     predicted_height: Option<f64>,
