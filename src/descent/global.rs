@@ -163,8 +163,12 @@ pub(crate) fn complete(
         heegner_step(report, hopts, options, deadline);
     }
     if let Some(dopts) = &options.deep_search {
-        let rank = report.bounds.lower;
-        if report.bounds.is_decided() && report.points.len() < rank {
+        let target = if report.bounds.is_decided() {
+            Some(report.bounds.lower)
+        } else {
+            parity_target(report)
+        };
+        if let Some(rank) = target.filter(|&r| report.points.len() < r) {
             let mut budget = options.budget(options.global_units, deadline);
             let guided = match predicted_generator_height(report) {
                 Some((h, sha2)) if rank == 1 => dopts.guided(h, sha2),
@@ -179,10 +183,19 @@ pub(crate) fn complete(
                         };
                         note_stop(report, "deep search for points", &e);
                     }
-                    if points.len() > report.points.len() {
+                    if points.len() > report.bounds.upper {
+                        // Independent points beyond a proven upper bound:
+                        // one of the two computations is wrong.
+                        report.global.conflict = Some(format!(
+                            "the deep search found {} independent points, above the proven upper bound {}",
+                            points.len(),
+                            report.bounds.upper
+                        ));
+                    } else if points.len() > report.points.len() {
                         // Independent points (certified by their classes):
                         // the descent's lower bound rises with them.
                         report.descent_bounds.lower = report.descent_bounds.lower.max(points.len());
+                        report.bounds.lower = report.bounds.lower.max(points.len());
                         report.points = points;
                         report.global.origin = PointOrigin::DeepSearch;
                         // The points and the Selmer bounds now prove the rank
@@ -295,6 +308,30 @@ fn heegner_step(
         Ok(other) => report.global.heegner = Some(other),
         Err(e) => note_stop(report, "Heegner point", &e),
     }
+}
+
+/// The rank the deep search aims at while the descent's bounds are open:
+/// the largest `r` in `(lower, upper]` with `(−1)^r` equal to the
+/// certified root number `w`, and not above the analytic order of
+/// vanishing when one is known. By the parity conjecture (which follows
+/// from the finiteness of Ш) this is the rank when `upper − lower ≤ 2`;
+/// it is only a target for the search, never a claim: the bounds move
+/// only when the points are found, and each found point is proven
+/// independent by its Selmer class. `None` without a root number (the
+/// search would have no reason to expect the points).
+fn parity_target(report: &DescentReport) -> Option<usize> {
+    let b = report.bounds;
+    let a = report.global.analytic.as_ref()?;
+    if report.global.conflict.is_some() {
+        return None;
+    }
+    let w = a.root_number()?;
+    let cap = a
+        .analytic_order()
+        .map_or(b.upper, |o| o.order().min(b.upper));
+    (b.lower + 1..=cap)
+        .rev()
+        .find(|r| (if r % 2 == 0 { 1 } else { -1 }) == w)
 }
 
 /// For rank one: the canonical height of a generator predicted by the
