@@ -172,7 +172,10 @@ pub(crate) fn complete(
             let mut budget = options.budget(options.global_units, deadline);
             let guided = match predicted_generator_height(report) {
                 Some((h, sha2)) if rank == 1 => dopts.guided(h, sha2),
-                _ => dopts.clone(),
+                _ => match predicted_last_generator_height(report, rank) {
+                    Some((h, sha2)) => dopts.guided_rank_two(h, sha2),
+                    None => dopts.clone(),
+                },
             };
             match super::deep_search::complete_report_points_cut(report, rank, &guided, &mut budget)
             {
@@ -360,6 +363,39 @@ fn predicted_generator_height(report: &DescentReport) -> Option<(f64, usize)> {
     let (_, n2) = report.torsion.structure();
     let t2 = if n2 <= 1 { 1 } else { 2 };
     let sha2 = report.selmer2_rank.map_or(0, |s| s.saturating_sub(t2 + 1));
+    Some((h, sha2))
+}
+
+/// For rank `r ≥ 2` with `r − 1` independent points known: the height of
+/// the missing generator that the Birch–Swinnerton-Dyer formula predicts
+/// with `#Ш = 1`, `L^(r)(E,1)/r!·|T|²/(Ω·∏c_p)` divided by the regulator
+/// of the known points, and `dim Ш(E)[2]` if the rank is `r` (from the
+/// 2-Selmer rank). A conjecture, used only to size the deep search.
+fn predicted_last_generator_height(report: &DescentReport, r: usize) -> Option<(f64, usize)> {
+    if r < 2 || report.points.len() + 1 != r {
+        return None;
+    }
+    let a = report.global.analytic.as_ref()?;
+    let l = a.l_value(r)?.value();
+    let omega = a.real_period()?.value();
+    let cp: f64 = report
+        .local_data
+        .as_ref()?
+        .primes
+        .iter()
+        .map(|p| p.tamagawa as f64)
+        .product();
+    let t = f64::from(report.torsion.order());
+    let factorial: f64 = (1..=r).map(|k| k as f64).product();
+    let reg = l / factorial * t * t / (omega * cp);
+    let known = crate::height::regulator(&report.curve, &report.points).ok()?;
+    let h = reg / known.value();
+    if !(h.is_finite() && h > 0.0 && known.lower() > 0.0) {
+        return None;
+    }
+    let (_, n2) = report.torsion.structure();
+    let t2 = if n2 <= 1 { 1 } else { 2 };
+    let sha2 = report.selmer2_rank.map_or(0, |s| s.saturating_sub(t2 + r));
     Some((h, sha2))
 }
 

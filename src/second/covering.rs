@@ -1109,6 +1109,22 @@ pub fn second_descent_on_twists(
                 k,
                 frame,
             } => {
+                // Two twists may give the same quartic up to x ↔ z and
+                // x ↦ −x; those substitutions keep the searched box, so
+                // the second search would see the same pairs.
+                let key = equivalence_key(&coeffs);
+                if let Some(seen) = survivors
+                    .iter()
+                    .find(|sv: &&SurvivingCovering| equivalence_key(&sv.covering) == key)
+                {
+                    let search = seen.search.clone();
+                    survivors.push(SurvivingCovering {
+                        lambda,
+                        covering: coeffs,
+                        search,
+                    });
+                    continue;
+                }
                 let covering = SolubleCovering {
                     lambda,
                     coeffs,
@@ -1127,6 +1143,18 @@ pub fn second_descent_on_twists(
         survivors,
         obstructions,
     })
+}
+
+/// The least of `g(x, z)`, `g(z, x)`, `g(−x, z)` and `g(−z, x)` as
+/// coefficient vectors: equal keys mean the quartics differ by one of the
+/// substitutions `x ↔ z`, `x ↦ −x`, which map the pairs of height ≤ H
+/// onto themselves and the points of one curve onto those of the other.
+fn equivalence_key(g: &[BigInt; 5]) -> [BigInt; 5] {
+    let rev = |c: &[BigInt; 5]| [0, 1, 2, 3, 4].map(|i| c[4 - i].clone());
+    let neg =
+        |c: &[BigInt; 5]| [0, 1, 2, 3, 4].map(|i| if i % 2 == 1 { -&c[i] } else { c[i].clone() });
+    let variants = [g.clone(), rev(g), neg(g), rev(&neg(g))];
+    variants.into_iter().min().unwrap_or_else(|| g.clone())
 }
 
 /// A locally soluble 4-covering D_λ with what maps its points back to C_d.
