@@ -159,9 +159,17 @@ impl DeepSearchOptions {
             }
             m += step;
         };
-        // Never below the first round: the calibration is for large
-        // curves, and a round at the first height is cheap (1/256 of the
-        // default last round).
+        if m == 1 {
+            // The prediction with #Ш = 1 is within reach: the full rounds
+            // (which stop at the first point). Stopping them earlier at
+            // the calibrated height lost generators: on the box
+            // |a|, |b| ≤ 100, 109 curves of predicted height 10–90 whose
+            // points need covering heights far above e^{(ĥ − 3)/8}
+            // (docs/deep_search.md).
+            return o;
+        }
+        // Never below the first round: a round at the first height is
+        // cheap (1/256 of the default last round).
         let floor = self.first_covering_height as f64;
         let h = height_for(target).max(floor).min(max_h).ceil() as u64;
         o.max_covering_height = h.clamp(self.first_covering_height, self.max_covering_height);
@@ -674,13 +682,18 @@ mod tests {
         // The calibration of the module: stop at e^{(ĥ − 3)/8}, within
         // [first_covering_height, max_covering_height].
         let o = DeepSearchOptions::default();
-        assert_eq!(o.guided(50.0, 0).rounds(), vec![256, 357]);
-        assert_eq!(o.guided(20.0, 0).rounds(), vec![256]);
+        // Within reach with #Ш = 1: the full rounds.
+        assert_eq!(o.guided(50.0, 0).rounds(), vec![256, 1024, 4096]);
+        assert_eq!(o.guided(20.0, 0).rounds(), vec![256, 1024, 4096]);
         assert_eq!(o.guided(80.0, 0).rounds(), vec![256, 1024, 4096]);
-        // Beyond reach: the next candidate is ĥ/9 (Ш odd), here 25.
+        // Beyond reach: the next candidate is ĥ/9 (Ш odd), here 25, and
+        // one cheap round aimed at it.
         assert_eq!(o.guided(225.0, 0).rounds(), vec![256]);
+        // Beyond reach, ĥ/9 = 80: rounds up to e^{(80 − 3)/8}.
+        assert_eq!(o.guided(720.0, 0).rounds(), vec![256, 1024, 4096]);
+        assert_eq!(o.guided(603.0, 0).rounds(), vec![256, 1024, 2981]);
         // With dim Ш[2] = 2 the prediction is divided by 4 first.
-        assert_eq!(o.guided(200.0, 2).rounds(), o.guided(50.0, 0).rounds());
+        assert_eq!(o.guided(900.0, 2).rounds(), o.guided(225.0, 0).rounds());
         let off = DeepSearchOptions {
             bsd_guided: false,
             ..DeepSearchOptions::default()
