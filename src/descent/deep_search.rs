@@ -165,7 +165,13 @@ impl DeepSearchOptions {
             // the calibrated height lost generators: on the box
             // |a|, |b| ≤ 100, 109 curves of predicted height 10–90 whose
             // points need covering heights far above e^{(ĥ − 3)/8}
-            // (docs/deep_search.md).
+            // (docs/deep_search.md). When even the calibration's headroom
+            // fits in the default rounds (e^{(ĥ − 3)/8} ≤ max), a point
+            // missed there lies on a covering far larger than its height
+            // suggests; one more round, to `reach_covering_height`.
+            if height_for(target) <= max_h {
+                o.max_covering_height = self.max_covering_height.max(self.reach_covering_height);
+            }
             return o;
         }
         // Never below the first round: a round at the first height is
@@ -376,6 +382,7 @@ fn search_coverings(
     let mut sd = SecondDescentOptions::default().with_search_height(h);
     sd.search_units = sd.search_units.max(search_cost(h));
     sd.max_twists = options.max_twists;
+    sd.covariant_reduction = true;
     let outcome = if hunt.side.pairing.is_some() {
         let lift = class_lift(&hunt.side.model, d, &hunt.side.qs2, budget)?;
         let twists = soluble_twists(
@@ -682,9 +689,10 @@ mod tests {
         // The calibration of the module: stop at e^{(ĥ − 3)/8}, within
         // [first_covering_height, max_covering_height].
         let o = DeepSearchOptions::default();
-        // Within reach with #Ш = 1: the full rounds.
-        assert_eq!(o.guided(50.0, 0).rounds(), vec![256, 1024, 4096]);
-        assert_eq!(o.guided(20.0, 0).rounds(), vec![256, 1024, 4096]);
+        // Within reach with #Ш = 1: the full rounds, and one more when
+        // e^{(ĥ − 3)/8} ≤ 4096 (ĥ ≤ 69.5).
+        assert_eq!(o.guided(50.0, 0).rounds(), vec![256, 1024, 4096, 16384]);
+        assert_eq!(o.guided(20.0, 0).rounds(), vec![256, 1024, 4096, 16384]);
         assert_eq!(o.guided(80.0, 0).rounds(), vec![256, 1024, 4096]);
         // Beyond reach: the next candidate is ĥ/9 (Ш odd), here 25, and
         // one cheap round aimed at it.
