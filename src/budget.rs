@@ -79,19 +79,19 @@ impl Budget {
 
     /// True once the budget has run out: its units are spent, or a charge
     /// or a clock check found the deadline passed.
-    pub fn is_exhausted(&self) -> bool {
+    pub(crate) fn is_exhausted(&self) -> bool {
         self.tripped || matches!(self.limit, Some(l) if self.spent > l)
     }
 
     /// The deadline, if any.
-    pub fn deadline(&self) -> Option<Instant> {
+    pub(crate) fn deadline(&self) -> Option<Instant> {
         self.deadline
     }
 
     /// Reads the clock now (not only every few thousand units) and fails
     /// if the deadline has passed; for steps whose single units are slow
     /// (big-number arithmetic on huge models).
-    pub fn check_deadline(&mut self) -> Result<(), Exhausted> {
+    pub(crate) fn check_deadline(&mut self) -> Result<(), Exhausted> {
         if let Some(d) = self.deadline {
             if Instant::now() >= d {
                 self.tripped = true;

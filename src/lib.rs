@@ -52,6 +52,9 @@
 //!     Ok(())
 //! }
 //! ```
+//!
+//! The list of references below is `docs/references.md`, included verbatim.
+#![doc = include_str!("../docs/references.md")]
 #![forbid(unsafe_code)]
 #![warn(missing_docs, clippy::unwrap_used)]
 #![cfg_attr(test, allow(clippy::unwrap_used))]

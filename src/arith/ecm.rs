@@ -8,7 +8,7 @@
 
 use super::meter::Meter;
 use super::mont::Ring;
-use super::prime::prime_table;
+use super::prime::{prime_table, PrimeTable};
 use super::rho::Split;
 use num_bigint::BigInt;
 use num_integer::Integer;
@@ -112,35 +112,72 @@ pub(crate) fn ecm_curve<R: Ring>(
     budget: &mut impl Meter,
 ) -> Split {
     let n = ring.modulus();
-    // MontgomeryCurve and point, set up with big integers (once per curve).
-    let s = BigInt::from(sigma);
-    let u = (&s * &s - 5u32).mod_floor(&n);
-    let v = (&s * 4u32).mod_floor(&n);
-    let u3 = u.modpow(&BigInt::from(3u32), &n);
-    let v3 = v.modpow(&BigInt::from(3u32), &n);
-    let den = (&u3 * &v * 16u32).mod_floor(&n);
-    if let Some(split) = classify(den.gcd(&n), &n) {
+    let (curve, q) = match suyama_start(ring, sigma, &n) {
+        Ok(start) => start,
+        Err(split) => return split,
+    };
+    let d_width = giant_width(b2);
+    let table = prime_table(b2 + d_width);
+    let q = match stage_one(&curve, q, &table, b1, budget) {
+        Ok(q) => q,
+        Err(split) => return split,
+    };
+    if let Some(split) = classify(ring.to_big(&q.z).gcd(&n), &n) {
         return split;
     }
-    let inv = match den.modinv(&n) {
-        Some(i) => i,
-        None => return Split::Failed,
+    if b2 <= b1 {
+        return Split::Failed;
+    }
+    let baby = match baby_steps(&curve, &q, d_width, &n, budget) {
+        Ok(baby) => baby,
+        Err(split) => return split,
     };
-    let vmu = (&v - &u).mod_floor(&n);
-    let num = (vmu.modpow(&BigInt::from(3u32), &n) * (&u * 3u32 + &v)).mod_floor(&n);
-    let a24 = (num * inv).mod_floor(&n);
+    giant_steps(&curve, &q, &table, &baby, [b1, b2, d_width], budget)
+}
+
+/// The Montgomery curve and starting point of Suyama's parametrisation for
+/// `sigma`, set up with big integers (once per curve); a split when the
+/// denominator is not invertible modulo `n`.
+fn suyama_start<'a, R: Ring>(
+    ring: &'a R,
+    sigma: u64,
+    n: &BigInt,
+) -> Result<(MontgomeryCurve<'a, R>, Pt<R::E>), Split> {
+    let s = BigInt::from(sigma);
+    let u = (&s * &s - 5u32).mod_floor(n);
+    let v = (&s * 4u32).mod_floor(n);
+    let u3 = u.modpow(&BigInt::from(3u32), n);
+    let v3 = v.modpow(&BigInt::from(3u32), n);
+    let den = (&u3 * &v * 16u32).mod_floor(n);
+    if let Some(split) = classify(den.gcd(n), n) {
+        return Err(split);
+    }
+    let inv = match den.modinv(n) {
+        Some(i) => i,
+        None => return Err(Split::Failed),
+    };
+    let vmu = (&v - &u).mod_floor(n);
+    let num = (vmu.modpow(&BigInt::from(3u32), n) * (&u * 3u32 + &v)).mod_floor(n);
+    let a24 = (num * inv).mod_floor(n);
     let curve = MontgomeryCurve {
         ring,
         a24: ring.elem_big(&a24),
     };
-    let mut q = Pt {
+    let q = Pt {
         x: ring.elem_big(&u3),
         z: ring.elem_big(&v3),
     };
+    Ok((curve, q))
+}
 
-    let d_width = giant_width(b2);
-    // Stage 1.
-    let table = prime_table(b2 + d_width);
+/// Stage 1: the point multiplied by every prime power `≤ b1`.
+fn stage_one<R: Ring>(
+    curve: &MontgomeryCurve<'_, R>,
+    mut q: Pt<R::E>,
+    table: &PrimeTable,
+    b1: u64,
+    budget: &mut impl Meter,
+) -> Result<Pt<R::E>, Split> {
     for p in table.primes_in(2, b1) {
         let mut pk = p;
         while pk <= b1 / p {
@@ -149,23 +186,34 @@ pub(crate) fn ecm_curve<R: Ring>(
         q = curve.mul(pk, &q);
         let bits = 64 - pk.leading_zeros() as u64;
         if budget.spend(11 * bits).is_err() {
-            return Split::Exhausted;
+            return Err(Split::Exhausted);
         }
     }
-    if let Some(split) = classify(ring.to_big(&q.z).gcd(&n), &n) {
-        return split;
-    }
-    if b2 <= b1 {
-        return Split::Failed;
-    }
+    Ok(q)
+}
 
-    // Stage 2, baby steps: jQ for odd j < d_width/2, normalised for gcd(j, D) = 1.
+/// The baby steps of stage 2: the odd `j < D/2` prime to `D` and the
+/// normalised x-coordinates of `jQ`.
+struct BabySteps<E> {
+    js: Vec<usize>,
+    xs: Vec<E>,
+}
+
+/// Stage 2, baby steps: jQ for odd j < d_width/2, normalised for gcd(j, D) = 1.
+fn baby_steps<R: Ring>(
+    curve: &MontgomeryCurve<'_, R>,
+    q: &Pt<R::E>,
+    d_width: u64,
+    n: &BigInt,
+    budget: &mut impl Meter,
+) -> Result<BabySteps<R::E>, Split> {
+    let ring = curve.ring;
     let half = (d_width / 2) as usize;
     let mut multiples: Vec<Option<Pt<R::E>>> = vec![None; half + 1];
-    let q2 = curve.dbl(&q);
+    let q2 = curve.dbl(q);
     multiples[1] = Some(q.clone());
     let mut prev = q.clone(); // (j-2)Q
-    let mut cur = curve.add(&q2, &q, &q); // 3Q
+    let mut cur = curve.add(&q2, q, q); // 3Q
     let mut j = 3usize;
     while j < half {
         if j.gcd(&(d_width as usize)) == 1 {
@@ -177,32 +225,44 @@ pub(crate) fn ecm_curve<R: Ring>(
         j += 2;
     }
     if budget.spend(6 * half as u64 / 2 + 5).is_err() {
-        return Split::Exhausted;
+        return Err(Split::Exhausted);
     }
     let js: Vec<usize> = (1..half).filter(|&j| multiples[j].is_some()).collect();
     let zs: Vec<R::E> = js
         .iter()
         .filter_map(|&j| multiples[j].as_ref().map(|p| p.z.clone()))
         .collect();
-    let zinv = match batch_invert(ring, &zs, &n) {
-        Ok(v) => v,
-        Err(split) => return split,
-    };
+    let zinv = batch_invert(ring, &zs, n)?;
     let xs: Vec<R::E> = js
         .iter()
         .zip(zinv.iter())
         .filter_map(|(&j, zi)| multiples[j].as_ref().map(|p| ring.mul(&p.x, zi)))
         .collect();
     if budget.spend(4 * js.len() as u64).is_err() {
-        return Split::Exhausted;
+        return Err(Split::Exhausted);
     }
+    Ok(BabySteps { js, xs })
+}
 
-    // Giant steps R_k = kD·Q for k = k0, k0+1, …
+/// Stage 2, giant steps `R_k = kD·Q` for `k = k0, k0+1, …`, pairing each
+/// prime `q = kD ± j` in `(b1, b2]` with its baby step; `bounds` is
+/// `[b1, b2, D]`.
+fn giant_steps<R: Ring>(
+    curve: &MontgomeryCurve<'_, R>,
+    q: &Pt<R::E>,
+    table: &PrimeTable,
+    baby: &BabySteps<R::E>,
+    bounds: [u64; 3],
+    budget: &mut impl Meter,
+) -> Split {
+    let [b1, b2, d_width] = bounds;
+    let ring = curve.ring;
+    let n = ring.modulus();
     let k0 = (b1 / d_width).max(1);
     let kmax = b2 / d_width + 1;
-    let dq = curve.mul(d_width, &q);
-    let mut r_prev = curve.mul((k0 - 1).max(1) * d_width, &q);
-    let mut r = curve.mul(k0 * d_width, &q);
+    let dq = curve.mul(d_width, q);
+    let mut r_prev = curve.mul((k0 - 1).max(1) * d_width, q);
+    let mut r = curve.mul(k0 * d_width, q);
     if k0 == 1 {
         // R_0 is the point at infinity; use the doubling for the first step.
         r_prev = Pt {
@@ -214,14 +274,14 @@ pub(crate) fn ecm_curve<R: Ring>(
     for k in k0..=kmax {
         let base = k * d_width;
         let mut pairs = 0u64;
-        for (idx, &j) in js.iter().enumerate() {
+        for (idx, &j) in baby.js.iter().enumerate() {
             let j = j as u64;
             let lo = base - j;
             let hi = base + j;
             let want = (lo > b1 && lo <= b2 && table.is_prime(lo))
                 || (hi > b1 && hi <= b2 && table.is_prime(hi));
             if want {
-                let t = ring.sub(&r.x, &ring.mul(&xs[idx], &r.z));
+                let t = ring.sub(&r.x, &ring.mul(&baby.xs[idx], &r.z));
                 acc = ring.mul(&acc, &t);
                 pairs += 1;
             }

@@ -285,9 +285,41 @@ pub(crate) fn solve_core(
     budget: &mut Budget,
 ) -> Result<ConicSolution> {
     // Step 1: square-free parts. coeff_i = sign · core_i · s_i².
+    let (mut red, mut mult) = squarefree_split(&coeffs, ps)?;
+    // Steps 2 and 3: no common factor, then pairwise coprime.
+    make_coprime(&mut red, &mut mult, ps, budget)?;
+    // Step 4: Legendre's conditions.
+    if red.iter().all(|r| r.negative) || red.iter().all(|r| !r.negative) {
+        return Ok(ConicSolution::Insoluble { place: Place::Real });
+    }
+    let vals: Vec<BigInt> = red.iter().map(|r| r.value(ps)).collect();
+    let lam = match square_roots_at_primes(&red, &vals, ps)? {
+        Roots::Found(lam) => lam,
+        Roots::Insoluble(place) => return Ok(ConicSolution::Insoluble { place }),
+    };
+    let mods: Vec<BigInt> = vals.iter().map(|v| v.abs()).collect();
+
+    // Step 5: find a point of the reduced equation.
+    let y = find_point(&vals, &mods, &lam, budget)?;
+
+    // Step 6: map back and normalise.
+    let mut x: Vec<BigInt> = y.iter().zip(mult.iter()).map(|(a, m)| a * m).collect();
+    primitive(&mut x);
+    Ok(ConicSolution::Point([
+        x[0].clone(),
+        x[1].clone(),
+        x[2].clone(),
+    ]))
+}
+
+/// Step 1 of [`solve_core`]: each coefficient as a sign and a square-free
+/// core over `ps` (`coeff_i = sign · core_i · s_i²`), and the multipliers:
+/// an original solution is `x_i = mult_i · y_i` for a solution `y` of the
+/// reduced equation.
+fn squarefree_split(coeffs: &[BigInt; 3], ps: &[Prime]) -> Result<(Vec<Reduced>, Vec<BigInt>)> {
     let mut red: Vec<Reduced> = Vec::with_capacity(3);
     let mut squares: Vec<BigInt> = Vec::with_capacity(3);
-    for c in &coeffs {
+    for c in coeffs {
         let mut rest = c.abs();
         let mut set = BTreeSet::new();
         let mut s = BigInt::one();
@@ -315,12 +347,21 @@ pub(crate) fn solve_core(
         });
         squares.push(s);
     }
-    // original x_i = mult_i · y_i for a solution y of the reduced equation
-    let mut mult: Vec<BigInt> = (0..3)
+    let mult: Vec<BigInt> = (0..3)
         .map(|i| &squares[(i + 1) % 3] * &squares[(i + 2) % 3])
         .collect();
+    Ok((red, mult))
+}
 
-    // Step 2: remove the common factor of all three.
+/// Steps 2 and 3 of [`solve_core`]: removes the common factor of all
+/// three, then makes the coefficients pairwise coprime: (a, b, c) with
+/// g = gcd(a, b) becomes (a/g, b/g, cg), and y ↦ (y_a, y_b, g y_c).
+fn make_coprime(
+    red: &mut [Reduced],
+    mult: &mut [BigInt],
+    ps: &[Prime],
+    budget: &mut Budget,
+) -> Result<()> {
     let common: BTreeSet<usize> = red[0]
         .primes
         .intersection(&red[1].primes)
@@ -330,9 +371,6 @@ pub(crate) fn solve_core(
     for r in red.iter_mut() {
         r.primes = r.primes.difference(&common).copied().collect();
     }
-
-    // Step 3: make the coefficients pairwise coprime: (a, b, c) with
-    // g = gcd(a, b) becomes (a/g, b/g, cg), and y ↦ (y_a, y_b, g y_c).
     loop {
         budget.spend(1).map_err(|_| Error::BudgetExhausted {
             stage: "conic reduction".into(),
@@ -355,15 +393,22 @@ pub(crate) fn solve_core(
             mult[k] *= product(ps, &g);
         }
         if !changed {
-            break;
+            return Ok(());
         }
     }
+}
 
-    // Step 4: Legendre's conditions.
-    if red.iter().all(|r| r.negative) || red.iter().all(|r| !r.negative) {
-        return Ok(ConicSolution::Insoluble { place: Place::Real });
-    }
-    let vals: Vec<BigInt> = red.iter().map(|r| r.value(ps)).collect();
+/// What Legendre's conditions at the primes give: for each coefficient
+/// the square root λ (by CRT over the primes dividing it), or a place
+/// where the conic is insoluble.
+enum Roots {
+    Found(Vec<BigInt>),
+    Insoluble(Place),
+}
+
+/// Step 4 of [`solve_core`] at the finite primes: for every prime p of the
+/// coefficient a_k, x_j ≡ λ x_l (mod p) with λ² ≡ −a_l / a_j.
+fn square_roots_at_primes(red: &[Reduced], vals: &[BigInt], ps: &[Prime]) -> Result<Roots> {
     // owner[p] = which coefficient p divides
     let mut lambdas: Vec<Vec<(BigInt, BigInt)>> = vec![Vec::new(), Vec::new(), Vec::new()];
     let mut all: Vec<(usize, usize)> = Vec::new();
@@ -382,9 +427,7 @@ pub(crate) fn solve_core(
         } else {
             let target = -(&vals[l] * &vals[j]);
             if legendre(&target, p)? != 1 {
-                return Ok(ConicSolution::Insoluble {
-                    place: Place::Finite(p.clone()),
-                });
+                return Ok(Roots::Insoluble(Place::Finite(p.clone())));
             }
             let inv_j = {
                 let e = vals[j].mod_floor(p.get()).extended_gcd(p.get());
@@ -393,29 +436,12 @@ pub(crate) fn solve_core(
             let rhs = (-(&vals[l]) * inv_j).mod_floor(p.get());
             match sqrt_mod_prime(&rhs, p) {
                 Some(r) => r,
-                None => {
-                    return Ok(ConicSolution::Insoluble {
-                        place: Place::Finite(p.clone()),
-                    })
-                }
+                None => return Ok(Roots::Insoluble(Place::Finite(p.clone()))),
             }
         };
         lambdas[k].push((lam, p.get().clone()));
     }
-    let lam: Vec<BigInt> = lambdas.iter().map(|l| crt(l)).collect();
-    let mods: Vec<BigInt> = vals.iter().map(|v| v.abs()).collect();
-
-    // Step 5: find a point of the reduced equation.
-    let y = find_point(&vals, &mods, &lam, budget)?;
-
-    // Step 6: map back and normalise.
-    let mut x: Vec<BigInt> = y.iter().zip(mult.iter()).map(|(a, m)| a * m).collect();
-    primitive(&mut x);
-    Ok(ConicSolution::Point([
-        x[0].clone(),
-        x[1].clone(),
-        x[2].clone(),
-    ]))
+    Ok(Roots::Found(lambdas.iter().map(|l| crt(l)).collect()))
 }
 
 /// Divides by the content and makes the first nonzero entry positive.

@@ -103,7 +103,7 @@ impl TernaryForm {
     }
 
     /// The polar form B(v, w) = q(v + w) − q(v) − q(w) = vᵀHw.
-    pub fn polar(&self, v: &[BigInt; 3], w: &[BigInt; 3]) -> BigInt {
+    pub(crate) fn polar(&self, v: &[BigInt; 3], w: &[BigInt; 3]) -> BigInt {
         let h = self.doubled_gram();
         let mut s = BigInt::zero();
         for i in 0..3 {

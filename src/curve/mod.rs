@@ -54,10 +54,10 @@ pub use tate::{
 };
 pub use torsion::{torsion, TorsionGroup};
 pub use two_torsion::{
-    first_two_torsion_model, short_integral_model, two_torsion_model,
-    two_torsion_model_with_budget, two_torsion_points, two_torsion_points_with_budget,
+    first_two_torsion_model, two_torsion_model, two_torsion_points, two_torsion_points_with_budget,
     TwoTorsionModel,
 };
+pub(crate) use two_torsion::{short_integral_model, two_torsion_model_with_budget};
 pub use weierstrass::{
     weierstrass_invariants, Curve, WeierstrassInvariants, MAX_COEFFICIENT_DIGITS,
 };

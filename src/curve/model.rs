@@ -72,7 +72,7 @@ impl ModelChange {
     ///
     /// # Errors
     /// [`Error::Zero`] if u = 0.
-    pub fn scaling(u: BigRational) -> Result<Self> {
+    pub(crate) fn scaling(u: BigRational) -> Result<Self> {
         ModelChange::new(
             u,
             BigRational::zero(),
@@ -82,7 +82,7 @@ impl ModelChange {
     }
 
     /// The pure translation (1, r, s, t).
-    pub fn translation(r: BigRational, s: BigRational, t: BigRational) -> Self {
+    pub(crate) fn translation(r: BigRational, s: BigRational, t: BigRational) -> Self {
         ModelChange {
             u: BigRational::one(),
             r,

@@ -166,7 +166,7 @@ impl Curve {
     ///
     /// # Errors
     /// [`Error::PointNotOnCurve`] otherwise.
-    pub fn check_point(&self, p: &Point) -> Result<()> {
+    pub(crate) fn check_point(&self, p: &Point) -> Result<()> {
         if self.contains(p) {
             Ok(())
         } else {

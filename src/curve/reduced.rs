@@ -60,7 +60,7 @@ impl ReducedModel {
     }
 
     /// a² − 4b (nonzero): the discriminant of x² + a x + b.
-    pub fn quadratic_discriminant(&self) -> BigInt {
+    pub(crate) fn quadratic_discriminant(&self) -> BigInt {
         &self.a * &self.a - 4 * &self.b
     }
 
@@ -68,7 +68,7 @@ impl ReducedModel {
     ///
     /// # Errors
     /// Only the size limit of [`Curve::new`] (the model is non-singular).
-    pub fn isogenous(&self) -> Result<ReducedModel> {
+    pub(crate) fn isogenous(&self) -> Result<ReducedModel> {
         ReducedModel::new(-2 * &self.a, self.quadratic_discriminant())
     }
 

@@ -1047,10 +1047,35 @@ pub(crate) fn global_local_data_with(
             reason: "discriminant is 0".into(),
         });
     }
-
     // Step 2: the primes.
-    // Δ(integral) = d¹² Δ(input), so its primes are those of d and of the
-    // numerator of Δ(input).
+    let primes = discriminant_primes(&d, &disc, budget, known)?;
+    // Step 3: minimal at each prime in turn; the model and the change so
+    // far stay in words until something leaves i128.
+    let state = match word_start {
+        Some((a, disc)) => Global::Word {
+            a,
+            disc,
+            total: [1, 0, 0, 0],
+        },
+        None => Global::Big {
+            a: integral,
+            total: ModelChange::scaling(BigRational::new(BigInt::one(), d))?,
+        },
+    };
+    let (state, records, conductor) = minimise_at_each(state, primes, coeffs, budget)?;
+    // Step 4: normalise.
+    normalise_global(state, records, conductor)
+}
+
+/// Step 2 of [`global_local_data_with`]: the sorted primes of the
+/// integral model's discriminant. Δ(integral) = d¹² Δ(input), so they are
+/// those of `d` and of the numerator of Δ(input).
+fn discriminant_primes(
+    d: &BigInt,
+    disc: &BigInt,
+    budget: &mut Budget,
+    known: &mut KnownPrimes,
+) -> Result<Vec<BigInt>> {
     let mut primes: Vec<BigInt> = Vec::with_capacity(16);
     let disc_numer = if d.is_one() {
         disc.abs()
@@ -1073,20 +1098,19 @@ pub(crate) fn global_local_data_with(
     }
     primes.sort();
     primes.dedup();
+    Ok(primes)
+}
 
-    // Step 3: minimal at each prime in turn; the model and the change so
-    // far stay in words until something leaves i128.
-    let mut state = match word_start {
-        Some((a, disc)) => Global::Word {
-            a,
-            disc,
-            total: [1, 0, 0, 0],
-        },
-        None => Global::Big {
-            a: integral,
-            total: ModelChange::scaling(BigRational::new(BigInt::one(), d))?,
-        },
-    };
+/// Step 3 of [`global_local_data_with`]: Tate's algorithm at each prime in
+/// turn, moving the model to one minimal there; returns the final state,
+/// the local data of the bad primes (relative to the input model) and the
+/// conductor.
+fn minimise_at_each(
+    mut state: Global,
+    primes: Vec<BigInt>,
+    coeffs: &[BigRational; 5],
+    budget: &mut Budget,
+) -> Result<(Global, Vec<LocalReduction>, BigInt)> {
     let mut records = Vec::with_capacity(primes.len());
     let mut conductor = BigInt::one();
     for q in primes {
@@ -1128,8 +1152,16 @@ pub(crate) fn global_local_data_with(
             records.push(relative_to_input(lr, coeffs, change_array(&to_here)));
         }
     }
+    Ok((state, records, conductor))
+}
 
-    // Step 4: normalise.
+/// Step 4 of [`global_local_data_with`]: the normalising shift of
+/// [Cre97, 3.2], in words while the model fits.
+fn normalise_global(
+    mut state: Global,
+    records: Vec<LocalReduction>,
+    conductor: BigInt,
+) -> Result<GlobalLocalData> {
     if let Global::Word { a, total, .. } = &state {
         let normalised = tate_word::normalising_shift_word(a).and_then(|(r, s, t)| {
             Ok((

@@ -177,7 +177,7 @@ impl TwoTorsionModel {
         self.reduced.curve()
     }
     /// The checked pair (a, b) of the reduced curve.
-    pub fn reduced(&self) -> &ReducedModel {
+    pub(crate) fn reduced(&self) -> &ReducedModel {
         &self.reduced
     }
     /// The coefficient a of y² = x³ + a x² + b x.

@@ -374,7 +374,7 @@ impl Curve {
     }
 
     /// The five coefficients as integers, if the model is integral.
-    pub fn integer_coefficients(&self) -> Option<[&BigInt; 5]> {
+    pub(crate) fn integer_coefficients(&self) -> Option<[&BigInt; 5]> {
         if self.integral {
             let a = &self.a;
             Some([

@@ -56,7 +56,7 @@ pub enum PointOrigin {
 
 impl PointOrigin {
     /// The JSON word: "search", "deep_search" or "heegner".
-    pub fn word(&self) -> &'static str {
+    pub(crate) fn word(&self) -> &'static str {
         match self {
             PointOrigin::Search => "search",
             PointOrigin::DeepSearch => "deep_search",
@@ -77,7 +77,7 @@ pub enum RankProof {
 
 impl RankProof {
     /// The JSON word: "descent" or "analytic".
-    pub fn word(&self) -> &'static str {
+    pub(crate) fn word(&self) -> &'static str {
         match self {
             RankProof::Descent => "descent",
             RankProof::Analytic(_) => "analytic",

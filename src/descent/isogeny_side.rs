@@ -135,6 +135,7 @@ pub(crate) fn conic_hilbert_pair(c: &BigInt, form: &[BigInt; 3]) -> Option<[BigI
 
 /// What is known about one basis element of a Selmer group.
 #[derive(Clone, Debug, PartialEq, Eq)]
+#[non_exhaustive]
 pub enum ClassStatus {
     /// α of a torsion point (the point is on this side's curve).
     TorsionImage {
@@ -169,7 +170,7 @@ pub enum ClassStatus {
 impl ClassStatus {
     /// The contract's status word: "torsion_image", "point_image",
     /// "undecided" or "proven_not_image".
-    pub fn word(&self) -> &'static str {
+    pub(crate) fn word(&self) -> &'static str {
         match self {
             ClassStatus::TorsionImage { .. } => "torsion_image",
             ClassStatus::PointImage { .. } => "point_image",
@@ -525,30 +526,7 @@ pub(crate) fn compute_side(
         searches: Vec::new(),
     };
     let torsion_dim = progress.known.dim();
-
-    // The lifting pairing: its own budget, so a failure leaves the first
-    // descent intact.
-    let (pairing, pairing_error) = if options.lifting_pairing {
-        let mut pairing_budget = ctx.budget(options.local_units);
-        match lift_pairing(model, &qs2, &group, &progress.known, &mut pairing_budget) {
-            Ok(p) => (Some(p), None),
-            Err(e) => (None, Some(e)),
-        }
-    } else {
-        (None, None)
-    };
-    if let Some(p) = &pairing {
-        if !progress
-            .known
-            .basis()
-            .iter()
-            .all(|v| p.liftable.contains(v))
-        {
-            return Err(Error::Internal {
-                check: format!("a torsion image of {model} lies outside the liftable subgroup"),
-            });
-        }
-    }
+    let (pairing, pairing_error) = side_pairing(model, &qs2, &group, &progress.known, ctx)?;
     let use_pairing = options.four_coverings && pairing.is_some();
     let space = match (&pairing, use_pairing) {
         (Some(p), true) => p.liftable.clone(),
@@ -576,34 +554,8 @@ pub(crate) fn compute_side(
         points,
         searches,
     } = progress;
-    // Adapted basis: known images, then proven classes (independent mod K),
-    // then the rest of the search space, then the rest of Sel.
-    let mut span = known.clone();
-    for (v, status) in &route.proven {
-        if span
-            .try_insert(v.clone(), &mut work)
-            .map_err(|_| exhausted())?
-        {
-            elements.push(SelmerElement {
-                class: qs2.integer(v),
-                status: status.clone(),
-            });
-        }
-    }
-    let inside = span.sum(&space);
-    for v in span.complement_in(&inside) {
-        span.insert(v.clone());
-        elements.push(SelmerElement {
-            class: qs2.integer(&v),
-            status: ClassStatus::Undecided,
-        });
-    }
-    for v in span.complement_in(&group) {
-        elements.push(SelmerElement {
-            class: qs2.integer(&v),
-            status: ClassStatus::Undecided,
-        });
-    }
+    let spaces = [&known, &space, &group];
+    complete_basis(&qs2, spaces, &route, &mut elements, &mut work)?;
     let image_upper = if use_pairing {
         space.dim()
     } else if options.four_coverings && !route.proven.is_empty() {
@@ -628,6 +580,73 @@ pub(crate) fn compute_side(
         pairing,
         pairing_error,
     })
+}
+
+/// The lifting pairing of one side, when the options ask for it: its own
+/// budget, so a failure (returned beside it) leaves the first descent
+/// intact. Every torsion image must lie in its kernel.
+fn side_pairing(
+    model: &ReducedModel,
+    qs2: &QS2,
+    group: &Subspace,
+    known: &Subspace,
+    ctx: &DescentContext<'_>,
+) -> Result<(Option<LiftPairing>, Option<Error>)> {
+    let options = ctx.options;
+    let (pairing, pairing_error) = if options.lifting_pairing {
+        let mut pairing_budget = ctx.budget(options.local_units);
+        match lift_pairing(model, qs2, group, known, &mut pairing_budget) {
+            Ok(p) => (Some(p), None),
+            Err(e) => (None, Some(e)),
+        }
+    } else {
+        (None, None)
+    };
+    if let Some(p) = &pairing {
+        if !known.basis().iter().all(|v| p.liftable.contains(v)) {
+            return Err(Error::Internal {
+                check: format!("a torsion image of {model} lies outside the liftable subgroup"),
+            });
+        }
+    }
+    Ok((pairing, pairing_error))
+}
+
+/// Completes the adapted basis: after the known images (already in
+/// `elements`), the proven classes (independent mod K), then the rest of
+/// the search space, then the rest of Sel. `spaces` is `[K, space, Sel]`.
+fn complete_basis(
+    qs2: &QS2,
+    spaces: [&Subspace; 3],
+    route: &CoveringRoute,
+    elements: &mut Vec<SelmerElement>,
+    work: &mut Budget,
+) -> Result<()> {
+    let [known, space, group] = spaces;
+    let mut span = known.clone();
+    for (v, status) in &route.proven {
+        if span.try_insert(v.clone(), work).map_err(|_| exhausted())? {
+            elements.push(SelmerElement {
+                class: qs2.integer(v),
+                status: status.clone(),
+            });
+        }
+    }
+    let inside = span.sum(space);
+    for v in span.complement_in(&inside) {
+        span.insert(v.clone());
+        elements.push(SelmerElement {
+            class: qs2.integer(&v),
+            status: ClassStatus::Undecided,
+        });
+    }
+    for v in span.complement_in(group) {
+        elements.push(SelmerElement {
+            class: qs2.integer(&v),
+            status: ClassStatus::Undecided,
+        });
+    }
+    Ok(())
 }
 
 /// What one side has learnt so far: the span K of known images, the
@@ -783,8 +802,6 @@ fn run_second_descent(
     progress: &mut Progress,
     ctx: &DescentContext<'_>,
 ) -> Result<CoveringRoute> {
-    let (model, qs2) = (side.model, side.qs2);
-    let curve = model.curve();
     let options = ctx.options;
     let mut sd_options =
         SecondDescentOptions::default().with_search_height(options.covering_search_height);
@@ -792,118 +809,156 @@ fn run_second_descent(
     // One budget for the whole side, so the cost cannot grow with the
     // number of classes.
     let mut budget = ctx.budget(options.covering_units);
-    let liftable = side.pairing.map(|p| &p.liftable);
     let mut route = CoveringRoute::default();
-    let mut tried = 0usize;
-    let mut done: Vec<BigInt> = Vec::new();
-    // Points: basis classes of space / K, restarting after each point.
-    'restart: loop {
-        for x in progress.known.complement_in(side.space) {
-            if tried >= options.max_classes_searched {
-                break 'restart;
+    let run = CoveringRunner {
+        side,
+        options: &sd_options,
+        max_classes: options.max_classes_searched,
+    };
+    run.points(progress, &mut budget, &mut route)?;
+    // Evidence: a few classes outside the liftable subgroup.
+    if let Some(pairing) = side.pairing {
+        run.evidence(&pairing.liftable, &mut budget, &mut route)?;
+    }
+    Ok(route)
+}
+
+/// The fixed inputs of the 4-covering route of one side.
+struct CoveringRunner<'a> {
+    side: &'a SideSpaces<'a>,
+    options: &'a SecondDescentOptions,
+    max_classes: usize,
+}
+
+impl CoveringRunner<'_> {
+    /// Points: basis classes of space / K, restarting after each point.
+    fn points(
+        &self,
+        progress: &mut Progress,
+        budget: &mut Budget,
+        route: &mut CoveringRoute,
+    ) -> Result<()> {
+        let side = self.side;
+        let (model, qs2) = (side.model, side.qs2);
+        let liftable = side.pairing.map(|p| &p.liftable);
+        let mut tried = 0usize;
+        let mut done: Vec<BigInt> = Vec::new();
+        'restart: loop {
+            for x in progress.known.complement_in(side.space) {
+                if tried >= self.max_classes {
+                    break 'restart;
+                }
+                let Some((d, v)) = coset_representatives(qs2, &x, &progress.known)
+                    .into_iter()
+                    .next()
+                else {
+                    continue;
+                };
+                if done.contains(&d) {
+                    continue;
+                }
+                done.push(d.clone());
+                tried += 1;
+                if budget.is_exhausted() {
+                    route.record(d, CoveringVerdict::BudgetSpent);
+                    break 'restart;
+                }
+                let outcome = if side.pairing.is_some() {
+                    targeted(model, &d, qs2, side.conditions, self.options, budget)
+                } else {
+                    second_descent(model, &d, self.options, budget)
+                };
+                match outcome {
+                    Ok(SecondDescentOutcome::Point {
+                        space_point,
+                        point_x,
+                        point_y,
+                        ..
+                    }) => {
+                        let p = Point::new(point_x, point_y);
+                        if !model.curve().contains(&p) {
+                            return Err(Error::Internal {
+                                check: format!(
+                                    "the 4-covering point for C_{d} of {model} is not on the curve"
+                                ),
+                            });
+                        }
+                        if liftable.is_some_and(|l| !l.contains(&v)) {
+                            return Err(Error::Internal {
+                                check: format!(
+                                    "class {d} of {model} has a point but pairs nontrivially"
+                                ),
+                            });
+                        }
+                        route.record(d.clone(), CoveringVerdict::PointImage);
+                        let found = FoundPoint {
+                            point: p,
+                            space: d,
+                            on_space: space_point,
+                        };
+                        progress.add_point(qs2, v, found);
+                        continue 'restart;
+                    }
+                    Ok(SecondDescentOutcome::NoPoint(evidence)) => {
+                        if liftable.is_some() {
+                            return Err(Error::Internal {
+                                check: format!(
+                                    "class {d} of {model} lies in the liftable subgroup but every 4-covering is insoluble"
+                                ),
+                            });
+                        }
+                        route.record(d.clone(), CoveringVerdict::ProvenNotImage);
+                        route.proven.push((v, not_image(d, evidence)?));
+                    }
+                    Ok(SecondDescentOutcome::Undecided { .. }) => {
+                        route.record(d, CoveringVerdict::Undecided);
+                    }
+                    Err(e @ Error::Internal { .. }) => return Err(e),
+                    Err(e) => route.record(d, CoveringVerdict::GaveUp(e)),
+                }
             }
-            let Some((d, v)) = coset_representatives(qs2, &x, &progress.known)
-                .into_iter()
-                .next()
-            else {
+            break;
+        }
+        Ok(())
+    }
+
+    /// Evidence: at most [`EVIDENCE_CLASSES`] basis classes outside
+    /// `liftable`; by the theory each run must end `NoPoint` (checked).
+    fn evidence(
+        &self,
+        liftable: &Subspace,
+        budget: &mut Budget,
+        route: &mut CoveringRoute,
+    ) -> Result<()> {
+        let (model, qs2) = (self.side.model, self.side.qs2);
+        let outside = liftable.complement_in(self.side.group);
+        for x in outside.into_iter().take(EVIDENCE_CLASSES) {
+            let Some((d, v)) = coset_representatives(qs2, &x, liftable).into_iter().next() else {
                 continue;
             };
-            if done.contains(&d) {
-                continue;
-            }
-            done.push(d.clone());
-            tried += 1;
             if budget.is_exhausted() {
                 route.record(d, CoveringVerdict::BudgetSpent);
-                break 'restart;
+                break;
             }
-            let outcome = if side.pairing.is_some() {
-                targeted(model, &d, qs2, side.conditions, &sd_options, &mut budget)
-            } else {
-                second_descent(model, &d, &sd_options, &mut budget)
-            };
-            match outcome {
-                Ok(SecondDescentOutcome::Point {
-                    space_point,
-                    point_x,
-                    point_y,
-                    ..
-                }) => {
-                    let p = Point::new(point_x, point_y);
-                    if !curve.contains(&p) {
-                        return Err(Error::Internal {
-                            check: format!(
-                                "the 4-covering point for C_{d} of {model} is not on the curve"
-                            ),
-                        });
-                    }
-                    if liftable.is_some_and(|l| !l.contains(&v)) {
-                        return Err(Error::Internal {
-                            check: format!(
-                                "class {d} of {model} has a point but pairs nontrivially"
-                            ),
-                        });
-                    }
-                    route.record(d.clone(), CoveringVerdict::PointImage);
-                    let found = FoundPoint {
-                        point: p,
-                        space: d,
-                        on_space: space_point,
-                    };
-                    progress.add_point(qs2, v, found);
-                    continue 'restart;
-                }
+            match second_descent(model, &d, self.options, budget) {
                 Ok(SecondDescentOutcome::NoPoint(evidence)) => {
-                    if liftable.is_some() {
-                        return Err(Error::Internal {
-                            check: format!(
-                                "class {d} of {model} lies in the liftable subgroup but every 4-covering is insoluble"
-                            ),
-                        });
-                    }
                     route.record(d.clone(), CoveringVerdict::ProvenNotImage);
                     route.proven.push((v, not_image(d, evidence)?));
                 }
-                Ok(SecondDescentOutcome::Undecided { .. }) => {
-                    route.record(d, CoveringVerdict::Undecided);
+                Ok(other) => {
+                    return Err(Error::Internal {
+                        check: format!(
+                            "class {d} of {model} pairs nontrivially but the 4-covering route says {}",
+                            other.word()
+                        ),
+                    });
                 }
                 Err(e @ Error::Internal { .. }) => return Err(e),
                 Err(e) => route.record(d, CoveringVerdict::GaveUp(e)),
             }
         }
-        break;
+        Ok(())
     }
-    // Evidence: a few classes outside the liftable subgroup.
-    let Some(liftable) = liftable else {
-        return Ok(route);
-    };
-    let outside = liftable.complement_in(side.group);
-    for x in outside.into_iter().take(EVIDENCE_CLASSES) {
-        let Some((d, v)) = coset_representatives(qs2, &x, liftable).into_iter().next() else {
-            continue;
-        };
-        if budget.is_exhausted() {
-            route.record(d, CoveringVerdict::BudgetSpent);
-            break;
-        }
-        match second_descent(model, &d, &sd_options, &mut budget) {
-            Ok(SecondDescentOutcome::NoPoint(evidence)) => {
-                route.record(d.clone(), CoveringVerdict::ProvenNotImage);
-                route.proven.push((v, not_image(d, evidence)?));
-            }
-            Ok(other) => {
-                return Err(Error::Internal {
-                    check: format!(
-                        "class {d} of {model} pairs nontrivially but the 4-covering route says {}",
-                        other.word()
-                    ),
-                });
-            }
-            Err(e @ Error::Internal { .. }) => return Err(e),
-            Err(e) => route.record(d, CoveringVerdict::GaveUp(e)),
-        }
-    }
-    Ok(route)
 }
 
 impl CoveringRoute {

@@ -32,7 +32,10 @@
 //! # Missing points
 //! When the bounds stay apart, [`search_missing_points`] hunts further on
 //! the undecided classes (deeper searches, 4-coverings of the second
-//! descent); its design and measured yield are in docs/deep_search.md.
+//! descent); its design and measured yield are in `docs/deep_search.md`,
+//! included below.
+//!
+#![doc = include_str!("../../docs/deep_search.md")]
 
 #[cfg(test)]
 mod checks;

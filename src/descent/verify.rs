@@ -27,7 +27,9 @@
 //! was checked, not only a yes/no.
 
 use super::exact_sequence::rank_bounds;
-use super::isogeny_side::{connecting_value, covering_obstruction, ClassStatus, SelmerSide};
+use super::isogeny_side::{
+    connecting_value, covering_obstruction, ClassStatus, SelmerElement, SelmerSide,
+};
 use super::report::DescentReport;
 use crate::budget::Budget;
 use crate::curve::Curve;
@@ -209,6 +211,44 @@ fn verify_side(
     curve: &Curve,
     budget: &mut Budget,
 ) -> Result<()> {
+    let conditions = verify_local_images(out, tag, side, budget)?;
+    let group = selmer_from_local_images(&side.qs2, &conditions)?;
+    out.record(
+        format!("{tag}: Selmer group recomputed from the local images agrees"),
+        group == side.group,
+    );
+    let mut spans = ImageSpans {
+        torsion: Subspace::zero(side.qs2.dim()),
+        all: Subspace::zero(side.qs2.dim()),
+    };
+    for el in &side.elements {
+        verify_element(out, tag, side, curve, el, &mut spans, budget)?;
+    }
+    out.record(
+        format!("{tag}: torsion image dimension as stated"),
+        spans.torsion.dim() == side.torsion_dim,
+    );
+    out.record(
+        format!("{tag}: known image dimension as stated"),
+        spans.all.dim() == side.image_lower(),
+    );
+    Ok(())
+}
+
+/// The spans of the classes met so far: images of torsion, and all images.
+struct ImageSpans {
+    torsion: Subspace,
+    all: Subspace,
+}
+
+/// Re-checks every local image of `side` (subgroup, witnesses, insoluble
+/// classes re-decided) and returns them as local conditions.
+fn verify_local_images(
+    out: &mut Verification,
+    tag: &str,
+    side: &SelmerSide,
+    budget: &mut Budget,
+) -> Result<Vec<LocalCondition>> {
     let mut conditions = Vec::new();
     for w in &side.local_images {
         out.record(
@@ -239,110 +279,121 @@ fn verify_side(
         }
         conditions.push(LocalCondition::from_masks(w.place.clone(), &w.members));
     }
-    let group = selmer_from_local_images(&side.qs2, &conditions)?;
+    Ok(conditions)
+}
+
+/// Re-checks one Selmer element: membership, and the evidence of its status.
+fn verify_element(
+    out: &mut Verification,
+    tag: &str,
+    side: &SelmerSide,
+    curve: &Curve,
+    el: &SelmerElement,
+    spans: &mut ImageSpans,
+    budget: &mut Budget,
+) -> Result<()> {
+    let v = side.qs2.vector(&el.class)?;
     out.record(
-        format!("{tag}: Selmer group recomputed from the local images agrees"),
-        group == side.group,
+        format!("{tag}: class {} lies in the Selmer group", el.class),
+        side.group.contains(&v),
     );
-    let mut torsion_span = Subspace::zero(side.qs2.dim());
-    let mut all_span = Subspace::zero(side.qs2.dim());
-    for el in &side.elements {
-        let v = side.qs2.vector(&el.class)?;
-        out.record(
-            format!("{tag}: class {} lies in the Selmer group", el.class),
-            side.group.contains(&v),
-        );
-        match &el.status {
-            ClassStatus::TorsionImage { point } => {
-                let ok = curve.contains(point)
-                    && connecting_value(side.b(), point)
-                        .map(|x| same_class(&side.qs2.vector_rational(&x).ok(), &v))
-                        .unwrap_or(false);
-                out.record(
-                    format!("{tag}: class {} is α of a torsion point", el.class),
-                    ok,
-                );
-                torsion_span.insert(v.clone());
-                all_span.insert(v);
-            }
-            ClassStatus::PointImage {
-                point,
-                space,
-                on_space,
-            } => {
-                let on_curve = curve.contains(point);
-                let alpha_ok = connecting_value(side.b(), point)
+    match &el.status {
+        ClassStatus::TorsionImage { point } => {
+            let ok = curve.contains(point)
+                && connecting_value(side.b(), point)
                     .map(|x| same_class(&side.qs2.vector_rational(&x).ok(), &v))
                     .unwrap_or(false);
-                let space_ok = Quartic::two_isogeny_space(space, side.a(), side.b())
-                    .map(|q| on_space.lies_on(q.coeffs()))
-                    .unwrap_or(false);
-                out.record(
-                    format!(
-                        "{tag}: class {} is α of a point on the curve found on C_{}",
-                        el.class, space
-                    ),
-                    on_curve && alpha_ok && space_ok,
-                );
-                out.record(
-                    format!(
-                        "{tag}: class {} is independent of the earlier images",
-                        el.class
-                    ),
-                    all_span.insert(v),
-                );
-            }
-            ClassStatus::ProvenNotImage {
-                space,
-                obstructions,
-                evidence,
-            } => {
-                let ok =
-                    space == &el.class && verify_obstruction(&side.model, space, evidence, budget);
-                if !ok && budget.is_exhausted() {
-                    return Err(Error::BudgetExhausted {
-                        stage: format!(
-                            "verify_report: re-checking the 4-coverings of class {}",
-                            el.class
-                        ),
-                    });
-                }
-                out.record(
-                    format!(
-                        "{tag}: class {}: every 4-covering of C_{} re-checks insoluble at its place",
-                        el.class, space
-                    ),
-                    ok,
-                );
-                // The printed list is the evidence's, entry by entry, and
-                // each entry re-checks from its own data: a quartic with
-                // non-zero discriminant insoluble at its place, or a conic
-                // whose Hilbert symbol at its place is −1.
-                let derived: Option<Vec<_>> = evidence
-                    .obstructions
-                    .iter()
-                    .map(|o| covering_obstruction(o).ok())
-                    .collect();
-                let same = derived.as_ref() == Some(obstructions);
-                let each = obstructions.iter().all(|o| o.recheck(budget));
-                out.record(
-                    format!(
-                        "{tag}: class {}: the printed obstructions of C_{} are the evidence's; each quartic is a genuine 4-covering insoluble at its place, each conic has Hilbert symbol -1 there",
-                        el.class, space
-                    ),
-                    same && each,
-                );
-            }
-            ClassStatus::Undecided => {}
+            out.record(
+                format!("{tag}: class {} is α of a torsion point", el.class),
+                ok,
+            );
+            spans.torsion.insert(v.clone());
+            spans.all.insert(v);
         }
+        ClassStatus::PointImage {
+            point,
+            space,
+            on_space,
+        } => {
+            let on_curve = curve.contains(point);
+            let alpha_ok = connecting_value(side.b(), point)
+                .map(|x| same_class(&side.qs2.vector_rational(&x).ok(), &v))
+                .unwrap_or(false);
+            let space_ok = Quartic::two_isogeny_space(space, side.a(), side.b())
+                .map(|q| on_space.lies_on(q.coeffs()))
+                .unwrap_or(false);
+            out.record(
+                format!(
+                    "{tag}: class {} is α of a point on the curve found on C_{}",
+                    el.class, space
+                ),
+                on_curve && alpha_ok && space_ok,
+            );
+            out.record(
+                format!(
+                    "{tag}: class {} is independent of the earlier images",
+                    el.class
+                ),
+                spans.all.insert(v),
+            );
+        }
+        ClassStatus::ProvenNotImage { .. } => verify_not_image(out, tag, side, el, budget)?,
+        ClassStatus::Undecided => {}
+    }
+    Ok(())
+}
+
+/// Re-checks the evidence of a class proven not to be an image: the
+/// 4-coverings re-check insoluble, and the printed obstructions are the
+/// evidence's, each re-checking from its own data.
+fn verify_not_image(
+    out: &mut Verification,
+    tag: &str,
+    side: &SelmerSide,
+    el: &SelmerElement,
+    budget: &mut Budget,
+) -> Result<()> {
+    let ClassStatus::ProvenNotImage {
+        space,
+        obstructions,
+        evidence,
+    } = &el.status
+    else {
+        return Ok(());
+    };
+    let ok = space == &el.class && verify_obstruction(&side.model, space, evidence, budget);
+    if !ok && budget.is_exhausted() {
+        return Err(Error::BudgetExhausted {
+            stage: format!(
+                "verify_report: re-checking the 4-coverings of class {}",
+                el.class
+            ),
+        });
     }
     out.record(
-        format!("{tag}: torsion image dimension as stated"),
-        torsion_span.dim() == side.torsion_dim,
+        format!(
+            "{tag}: class {}: every 4-covering of C_{} re-checks insoluble at its place",
+            el.class, space
+        ),
+        ok,
     );
+    // The printed list is the evidence's, entry by entry, and
+    // each entry re-checks from its own data: a quartic with
+    // non-zero discriminant insoluble at its place, or a conic
+    // whose Hilbert symbol at its place is −1.
+    let derived: Option<Vec<_>> = evidence
+        .obstructions
+        .iter()
+        .map(|o| covering_obstruction(o).ok())
+        .collect();
+    let same = derived.as_ref() == Some(obstructions);
+    let each = obstructions.iter().all(|o| o.recheck(budget));
     out.record(
-        format!("{tag}: known image dimension as stated"),
-        all_span.dim() == side.image_lower(),
+        format!(
+            "{tag}: class {}: the printed obstructions of C_{} are the evidence's; each quartic is a genuine 4-covering insoluble at its place, each conic has Hilbert symbol -1 there",
+            el.class, space
+        ),
+        same && each,
     );
     Ok(())
 }

@@ -93,6 +93,7 @@ pub fn twist_by(e: &Curve, d: i64) -> Result<Curve> {
 
 /// What distinguishes one member of a family from the others.
 #[derive(Clone, Copy, Debug, PartialEq, Eq, Hash)]
+#[non_exhaustive]
 pub enum Parameter {
     /// The twisting parameter d of E^(d).
     Twist(i64),

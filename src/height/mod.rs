@@ -32,7 +32,9 @@
 //!   lower bound for `ĥ` on non-torsion points;
 //! - `lll`: LLL reduction for the height pairing;
 //! - `saturate`: index bounds and p-saturation.
-
+//!
+//! The guide below is `docs/heights.md`, included verbatim.
+#![doc = include_str!("../../docs/heights.md")]
 // Matrix code reads best with explicit indices.
 #![allow(clippy::needless_range_loop)]
 
@@ -56,9 +58,8 @@ pub use lower_bound::{cremona_siksek_bound, CremonaSiksekBound};
 pub use naive_vs_canonical::{
     difference_bounds, height_lower_bound, DifferenceBounds, HeightLowerBound,
 };
-pub use saturate::{
-    saturate, saturate_with_context, LowerBoundSource, Saturation, SaturationOptions,
-};
+pub(crate) use saturate::saturate_with_context;
+pub use saturate::{saturate, LowerBoundSource, Saturation, SaturationOptions};
 
 use local_terms::{Archimedean, BadPrime};
 use projective::{Jac, ShortModel};

@@ -11,7 +11,9 @@ use super::Detail;
 use crate::curve::equation::{equation_text, quartic_text, reduced_equation_text};
 use crate::curve::tate::ReductionKind;
 use crate::curve::Point;
-use crate::descent::isogeny_side::{ClassStatus, CoveringObstruction, SelmerSide};
+use crate::descent::isogeny_side::{
+    ClassStatus, CoveringObstruction, SearchRecord, SelmerElement, SelmerSide,
+};
 use crate::descent::report::{Completion, DescentReport};
 use crate::local::class_representatives;
 use crate::quartic::search::SearchOutcome;
@@ -352,34 +354,53 @@ fn space_point(p: &crate::quartic::search::QuarticPoint) -> SpacePointView {
 
 fn side_view(s: &SelmerSide, domain: bool, detail: Detail) -> SideView {
     let (sel, sha) = side_names(domain);
-    let elements = s
-        .elements()
-        .iter()
-        .map(|e| {
-            let (point, space, sp) = match &e.status {
-                ClassStatus::TorsionImage { point } => (point_view(point), None, None),
-                ClassStatus::PointImage {
-                    point,
-                    space,
-                    on_space,
-                } => (
-                    point_view(point),
-                    Some(space.to_string()),
-                    Some(space_point(on_space)),
-                ),
-                ClassStatus::ProvenNotImage { space, .. } => (None, Some(space.to_string()), None),
-                ClassStatus::Undecided => (None, None, None),
-            };
-            ClassView {
-                class: e.class.to_string(),
-                status: e.status.word(),
-                point,
-                space,
-                space_point: sp,
-            }
-        })
-        .collect();
-    let evidence = (detail == Detail::Full).then(|| EvidenceView {
+    let elements = s.elements().iter().map(class_view).collect();
+    let evidence = (detail == Detail::Full).then(|| evidence_view(s));
+    let dim = s.dimension();
+    SideView {
+        equation: reduced_equation_text(s.a(), s.b()),
+        selmer_group: sel,
+        sha_group: sha,
+        dimension: dim,
+        image_lower: s.image_lower(),
+        image_upper: s.image_upper(),
+        torsion_image_dimension: s.torsion_dim(),
+        sha_dimension_lower: dim - s.image_upper().min(dim),
+        sha_dimension_upper: dim - s.image_lower(),
+        elements,
+        evidence_summary: evidence_summary(s),
+        evidence,
+    }
+}
+
+/// One element of the adapted basis with its status and what shows it.
+fn class_view(e: &SelmerElement) -> ClassView {
+    let (point, space, sp) = match &e.status {
+        ClassStatus::TorsionImage { point } => (point_view(point), None, None),
+        ClassStatus::PointImage {
+            point,
+            space,
+            on_space,
+        } => (
+            point_view(point),
+            Some(space.to_string()),
+            Some(space_point(on_space)),
+        ),
+        ClassStatus::ProvenNotImage { space, .. } => (None, Some(space.to_string()), None),
+        ClassStatus::Undecided => (None, None, None),
+    };
+    ClassView {
+        class: e.class.to_string(),
+        status: e.status.word(),
+        point,
+        space,
+        space_point: sp,
+    }
+}
+
+/// The full evidence of one side: local images, searches, 4-coverings.
+fn evidence_view(s: &SelmerSide) -> EvidenceView {
+    EvidenceView {
         local_images: s
             .local_images()
             .iter()
@@ -395,80 +416,66 @@ fn side_view(s: &SelmerSide, domain: bool, detail: Detail) -> SideView {
                 }
             })
             .collect(),
-        spaces: s
-            .searches()
-            .iter()
-            .map(|r| {
-                let (outcome, height, point) = match &r.outcome {
-                    SearchOutcome::Found(p) => ("point", None, Some(space_point(p))),
-                    SearchOutcome::NoneUpTo { height } => ("none_up_to", Some(*height), None),
-                    SearchOutcome::GaveUp { completed_height } => {
-                        ("budget_ran_out", Some(*completed_height), None)
-                    }
-                };
-                SpaceView {
-                    class: r.class.to_string(),
-                    equation: quartic_text(&r.quartic),
-                    coefficients: r.quartic.iter().map(|c| c.to_string()).collect(),
-                    outcome,
-                    height,
-                    point,
-                }
-            })
-            .collect(),
-        four_coverings: s
-            .elements()
-            .iter()
-            .filter_map(|e| match &e.status {
-                ClassStatus::ProvenNotImage {
-                    space,
-                    obstructions,
-                    ..
-                } => Some(CoveringsView {
-                    class: space.to_string(),
-                    coverings: obstructions
-                        .iter()
-                        .map(|o| match o {
-                            CoveringObstruction::Quartic { covering, place } => {
-                                CoveringView::Quartic {
-                                    quartic: covering.iter().map(|c| c.to_string()).collect(),
-                                    insoluble_at: place.to_string(),
-                                }
-                            }
-                            CoveringObstruction::Conic {
-                                scale,
-                                form,
-                                hilbert,
-                                place,
-                            } => CoveringView::Conic {
-                                conic: std::iter::once(scale)
-                                    .chain(form.iter())
-                                    .map(|c| c.to_string())
-                                    .collect(),
-                                hilbert_symbol: hilbert.iter().map(|c| c.to_string()).collect(),
-                                insoluble_at: place.to_string(),
-                            },
-                        })
-                        .collect(),
-                }),
-                _ => None,
-            })
-            .collect(),
-    });
-    let dim = s.dimension();
-    SideView {
-        equation: reduced_equation_text(s.a(), s.b()),
-        selmer_group: sel,
-        sha_group: sha,
-        dimension: dim,
-        image_lower: s.image_lower(),
-        image_upper: s.image_upper(),
-        torsion_image_dimension: s.torsion_dim(),
-        sha_dimension_lower: dim - s.image_upper().min(dim),
-        sha_dimension_upper: dim - s.image_lower(),
-        elements,
-        evidence_summary: evidence_summary(s),
-        evidence,
+        spaces: s.searches().iter().map(space_view).collect(),
+        four_coverings: s.elements().iter().filter_map(coverings_view).collect(),
+    }
+}
+
+/// One space searched, with the outcome of its search.
+fn space_view(r: &SearchRecord) -> SpaceView {
+    let (outcome, height, point) = match &r.outcome {
+        SearchOutcome::Found(p) => ("point", None, Some(space_point(p))),
+        SearchOutcome::NoneUpTo { height } => ("none_up_to", Some(*height), None),
+        SearchOutcome::GaveUp { completed_height } => {
+            ("budget_ran_out", Some(*completed_height), None)
+        }
+    };
+    SpaceView {
+        class: r.class.to_string(),
+        equation: quartic_text(&r.quartic),
+        coefficients: r.quartic.iter().map(|c| c.to_string()).collect(),
+        outcome,
+        height,
+        point,
+    }
+}
+
+/// The 4-coverings of a class proven not to be an image, each with its
+/// place of insolubility; `None` for the other classes.
+fn coverings_view(e: &SelmerElement) -> Option<CoveringsView> {
+    let ClassStatus::ProvenNotImage {
+        space,
+        obstructions,
+        ..
+    } = &e.status
+    else {
+        return None;
+    };
+    Some(CoveringsView {
+        class: space.to_string(),
+        coverings: obstructions.iter().map(covering_view).collect(),
+    })
+}
+
+fn covering_view(o: &CoveringObstruction) -> CoveringView {
+    match o {
+        CoveringObstruction::Quartic { covering, place } => CoveringView::Quartic {
+            quartic: covering.iter().map(|c| c.to_string()).collect(),
+            insoluble_at: place.to_string(),
+        },
+        CoveringObstruction::Conic {
+            scale,
+            form,
+            hilbert,
+            place,
+        } => CoveringView::Conic {
+            conic: std::iter::once(scale)
+                .chain(form.iter())
+                .map(|c| c.to_string())
+                .collect(),
+            hilbert_symbol: hilbert.iter().map(|c| c.to_string()).collect(),
+            insoluble_at: place.to_string(),
+        },
     }
 }
 

@@ -24,9 +24,7 @@ use std::fmt;
 
 use crate::descent::DescentReport;
 
-pub use batch::{
-    classify_line, is_skipped_line, json_for_bytes, json_for_line, json_for_line_with, LineKind,
-};
+pub use batch::{json_for_bytes, json_for_line, json_for_line_with};
 pub use json::{error_line, report_line, FORMAT_VERSION, MAX_ECHOED_INPUT_BYTES};
 pub use record::{RecordPoint, RecordTorsion, ReportRecord};
 

@@ -161,6 +161,7 @@ impl QuarticPoint {
 
 /// The result of a search for the first point.
 #[derive(Debug, Clone, PartialEq, Eq)]
+#[non_exhaustive]
 pub enum SearchOutcome {
     /// A point. When the budget did not run out it is the first point in the
     /// search order (so of least height). If the budget ran out after this

@@ -180,6 +180,7 @@ impl SecondDescentOptions {
 
 /// Which of the two conics of `D_λ` a piece of evidence is built on.
 #[derive(Clone, Copy, Debug, PartialEq, Eq, Hash)]
+#[non_exhaustive]
 pub enum ConicSide {
     /// `λ s² = F(u, v)`, `F = q₃`.
     F,
@@ -192,6 +193,7 @@ pub enum ConicSide {
 // re-checked; evidence is built once per twist, so its size does not matter.
 #[allow(clippy::large_enum_variant)]
 #[derive(Clone, Debug, PartialEq, Eq)]
+#[non_exhaustive]
 pub enum ObstructedCurve {
     /// A quartic model `y² = g(m, n)` of `D_λ`, `g = coeffs` (leading
     /// first). It was built by parametrising the conic on side `via` by
@@ -303,7 +305,7 @@ pub enum SecondDescentOutcome {
 
 impl SecondDescentOutcome {
     /// A short word: "point", "no_point" or "undecided".
-    pub fn word(&self) -> &'static str {
+    pub(crate) fn word(&self) -> &'static str {
         match self {
             SecondDescentOutcome::Point { .. } => "point",
             SecondDescentOutcome::NoPoint(_) => "no_point",

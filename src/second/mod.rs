@@ -16,7 +16,9 @@
 //!   obstructions that prove a class is not the image of a point
 //!   ([`TwistObstruction`], re-checked by [`verify_obstruction`]).
 //!
-//! The derivations are in docs/second_descent.md.
+//! The derivations are in `docs/second_descent.md`, included below.
+//!
+#![doc = include_str!("../../docs/second_descent.md")]
 
 pub(crate) mod covering;
 pub(crate) mod pairing;

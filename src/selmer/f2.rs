@@ -60,7 +60,7 @@ impl Ord for BitVec {
 
 impl BitVec {
     /// The zero vector of length `len`.
-    pub fn zeros(len: usize) -> Self {
+    pub(crate) fn zeros(len: usize) -> Self {
         let words = if len <= 64 {
             Words::One(0)
         } else {
@@ -88,7 +88,7 @@ impl BitVec {
     }
 
     /// The i-th unit vector of length `len` (`None` if i ≥ len).
-    pub fn unit(len: usize, i: usize) -> Option<Self> {
+    pub(crate) fn unit(len: usize, i: usize) -> Option<Self> {
         let mut v = Self::zeros(len);
         v.set(i, true).then_some(v)
     }
@@ -176,7 +176,7 @@ impl BitVec {
     }
 
     /// The standard dot product Σ x_i y_i in F2.
-    pub fn dot(&self, other: &BitVec) -> bool {
+    pub(crate) fn dot(&self, other: &BitVec) -> bool {
         let mut acc = 0u64;
         for (a, b) in self.words().iter().zip(other.words()) {
             acc ^= a & b;
@@ -185,7 +185,7 @@ impl BitVec {
     }
 
     /// Index of the lowest set coordinate.
-    pub fn leading(&self) -> Option<usize> {
+    pub(crate) fn leading(&self) -> Option<usize> {
         for (k, &w) in self.words().iter().enumerate() {
             if w != 0 {
                 return Some(64 * k + w.trailing_zeros() as usize);
@@ -195,17 +195,17 @@ impl BitVec {
     }
 
     /// Number of set coordinates.
-    pub fn weight(&self) -> usize {
+    pub(crate) fn weight(&self) -> usize {
         self.words().iter().map(|w| w.count_ones() as usize).sum()
     }
 
     /// Indices of the set coordinates, ascending.
-    pub fn ones(&self) -> impl Iterator<Item = usize> + '_ {
+    pub(crate) fn ones(&self) -> impl Iterator<Item = usize> + '_ {
         (0..self.len).filter(move |&i| self.get(i))
     }
 
     /// Concatenation (self, other).
-    pub fn concat(&self, other: &BitVec) -> BitVec {
+    pub(crate) fn concat(&self, other: &BitVec) -> BitVec {
         let mut r = BitVec::zeros(self.len + other.len);
         for i in self.ones() {
             r.set(i, true);
@@ -217,7 +217,7 @@ impl BitVec {
     }
 
     /// Coordinates [start, start + len) as a vector.
-    pub fn slice(&self, start: usize, len: usize) -> BitVec {
+    pub(crate) fn slice(&self, start: usize, len: usize) -> BitVec {
         let mut r = BitVec::zeros(len);
         for i in 0..len {
             if self.get(start + i) {
@@ -263,7 +263,7 @@ pub struct Subspace {
 
 impl Subspace {
     /// The zero subspace of F2^n.
-    pub fn zero(ambient: usize) -> Self {
+    pub(crate) fn zero(ambient: usize) -> Self {
         Subspace {
             ambient,
             basis: Vec::new(),
@@ -271,7 +271,7 @@ impl Subspace {
     }
 
     /// The whole space F2^n.
-    pub fn full(ambient: usize) -> Self {
+    pub(crate) fn full(ambient: usize) -> Self {
         Self::span(
             ambient,
             (0..ambient).filter_map(|i| BitVec::unit(ambient, i)),
@@ -279,7 +279,7 @@ impl Subspace {
     }
 
     /// The span of the given vectors (each of length `ambient`).
-    pub fn span<I: IntoIterator<Item = BitVec>>(ambient: usize, vectors: I) -> Self {
+    pub(crate) fn span<I: IntoIterator<Item = BitVec>>(ambient: usize, vectors: I) -> Self {
         let mut s = Self::zero(ambient);
         for v in vectors {
             s.insert(v);
@@ -304,7 +304,7 @@ impl Subspace {
 
     /// Reduces v modulo the subspace: the result is zero iff v lies in it,
     /// and is zero at every leading coordinate of the basis.
-    pub fn reduce(&self, v: &BitVec) -> BitVec {
+    pub(crate) fn reduce(&self, v: &BitVec) -> BitVec {
         let mut r = v.clone();
         for b in &self.basis {
             if let Some(l) = b.leading() {
@@ -323,7 +323,7 @@ impl Subspace {
 
     /// Work units of one [`Subspace::reduce`]: one per machine word of
     /// every basis vector touched (the operand size), at least one.
-    pub fn reduce_cost(&self) -> u64 {
+    pub(crate) fn reduce_cost(&self) -> u64 {
         let words = self.ambient.div_ceil(64).max(1) as u64;
         (self.basis.len() as u64 + 1).saturating_mul(words)
     }
@@ -349,7 +349,7 @@ impl Subspace {
     }
 
     /// Adds v to the spanning set; returns true iff the dimension grew.
-    pub fn insert(&mut self, v: BitVec) -> bool {
+    pub(crate) fn insert(&mut self, v: BitVec) -> bool {
         let r = self.reduce(&v);
         let Some(l) = r.leading() else {
             return false;
@@ -369,7 +369,7 @@ impl Subspace {
     }
 
     /// The sum U + V.
-    pub fn sum(&self, other: &Subspace) -> Subspace {
+    pub(crate) fn sum(&self, other: &Subspace) -> Subspace {
         let mut s = self.clone();
         for b in &other.basis {
             s.insert(b.clone());
@@ -379,7 +379,7 @@ impl Subspace {
 
     /// The intersection U ∩ V (Zassenhaus: reduce the rows (u, u) and
     /// (v, 0); rows of the form (0, w) span the intersection).
-    pub fn intersection(&self, other: &Subspace) -> Subspace {
+    pub(crate) fn intersection(&self, other: &Subspace) -> Subspace {
         let n = self.ambient;
         let rows = self
             .basis
@@ -410,7 +410,7 @@ impl Subspace {
 
     /// The annihilator {f : f · u = 0 for all u in U}, as a subspace of the
     /// dual F2^n (identified with F2^n by the dot product).
-    pub fn annihilator(&self) -> Subspace {
+    pub(crate) fn annihilator(&self) -> Subspace {
         let m = LinearMap::from_rows(self.ambient, self.basis.clone());
         m.kernel()
     }

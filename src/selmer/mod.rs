@@ -24,5 +24,5 @@ pub(crate) mod image_size;
 pub(crate) mod qs2;
 
 pub use f2::{BitVec, Subspace};
-pub use group::{selmer_from_local_images, LocalCondition};
+pub use group::LocalCondition;
 pub use qs2::QS2;
