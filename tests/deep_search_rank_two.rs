@@ -19,7 +19,6 @@ mod common;
 use isodescent::curve::{Curve, Point};
 use isodescent::descent::{descend, DescentOptions, PointOrigin, RankProof};
 use num_bigint::BigInt;
-use num_integer::Roots;
 use num_rational::BigRational;
 use num_traits::{Signed, Zero};
 

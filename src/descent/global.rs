@@ -14,7 +14,9 @@
 //!    family the layer covers; checked exactly, it becomes the point.
 //!    When the rank is decided but fewer independent points are known,
 //!    the deep search ([`super::deep_search`]) looks for the missing ones
-//!    on 4-coverings at larger heights, under its own budget.
+//!    on 4-coverings at larger heights, under its own budget; while the
+//!    bounds are open it aims at the rank the root number's parity gives
+//!    (a target only: the bounds move with the points it proves).
 //!    When the rank is decided and as many independent points are known,
 //!    [`crate::height::saturate`] turns them into generators of
 //!    E(Q)/E(Q)_tors, with heights, the regulator and the index

@@ -555,11 +555,11 @@ fn covariant_frame(g: &[BigInt; 5]) -> [[BigInt; 2]; 2] {
     for _ in 0..200 {
         if b.abs() > a {
             let k = (b / (2.0 * a)).round();
-            if !(k.abs() < 1e12) {
+            if k.is_nan() || k.abs() >= 1e12 {
                 return id;
             }
             // x = m − k n, z = n
-            cc = a * k * k - b * k + cc;
+            cc += a * k * k - b * k;
             b -= 2.0 * k * a;
             let k = k as i64;
             let (Some(t01), Some(t11)) = (
