@@ -700,8 +700,10 @@ mod tests {
         // Beyond reach, ĥ/9 = 80: rounds up to e^{(80 − 3)/8}.
         assert_eq!(o.guided(720.0, 0).rounds(), vec![256, 1024, 4096]);
         assert_eq!(o.guided(603.0, 0).rounds(), vec![256, 1024, 2981]);
-        // With dim Ш[2] = 2 the prediction is divided by 4 first.
-        assert_eq!(o.guided(900.0, 2).rounds(), o.guided(225.0, 0).rounds());
+        // With dim Ш[2] = 2 the prediction is divided by 4 first (225),
+        // and m need not be odd: 225/2² = 56.25 is in reach, and the
+        // rounds stop at e^{(56.25 − 3)/8} ≈ 778.
+        assert_eq!(o.guided(900.0, 2).rounds(), vec![256, 778]);
         let off = DeepSearchOptions {
             bsd_guided: false,
             ..DeepSearchOptions::default()
