@@ -11,6 +11,9 @@
 //! * `descent3/with_search/cube_free_n_le_100`: the same plus the point
 //!   search at the default height and the Tamagawa check (Tate's algorithm
 //!   on both curves); one iteration runs all cube-free n in 2..=100.
+//! * `descent3/selmer_stage/mordell_k_le_300`: the Selmer stage on the
+//!   Mordell curves y² = x³ + k, 0 < |k| ≤ 300 (600 curves, most over
+//!   quadratic fields with class groups and units).
 
 use criterion::{criterion_group, criterion_main, Criterion};
 use isodescent::descent3::{descend_3isogeny, Isogeny3Options};
@@ -60,6 +63,18 @@ fn bench(c: &mut Criterion) {
     g.bench_function("selmer_stage/cube_free_n_9701_to_10000", |b| {
         b.iter(|| {
             for e in &high {
+                let r = descend_3isogeny(e, &selmer_only).expect("descent");
+                criterion::black_box(r.rank_upper);
+            }
+        })
+    });
+    let mordell: Vec<Curve> = (-300i64..=300)
+        .filter(|&k| k != 0)
+        .map(|k| format!("0 0 0 0 {k}").parse().expect("curve"))
+        .collect();
+    g.bench_function("selmer_stage/mordell_k_le_300", |b| {
+        b.iter(|| {
+            for e in &mordell {
                 let r = descend_3isogeny(e, &selmer_only).expect("descent");
                 criterion::black_box(r.rank_upper);
             }

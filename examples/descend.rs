@@ -31,6 +31,7 @@ use std::process::ExitCode;
 
 use isodescent::curve::Curve;
 use isodescent::descent::{descend, DescentOptions};
+use isodescent::descent3::{descend_3isogeny, Isogeny3Options};
 use isodescent::output::{error_line, json_for_bytes, Detail, MAX_ECHOED_INPUT_BYTES};
 
 /// Demo scenario: a handful of curves a researcher might be checking while
@@ -128,12 +129,25 @@ fn report_one(
         Err(e) => writeln!(out, "{text}: {e}").map(|()| false),
         Ok(curve) => match descend(&curve, options) {
             Ok(r) => writeln!(out, "{}", r.text(detail)).map(|()| true),
+            // No rational point of order 2: the descent via 3-isogeny
+            // (y^2 = x^3 + k), with the same analytic side and clock.
+            Err(isodescent::Error::NoTwoTorsion) => {
+                let mut o = Isogeny3Options::default();
+                o.analytic = options.analytic.clone();
+                o.time_limit = options.time_limit;
+                match descend_3isogeny(&curve, &o) {
+                    Ok(r) => write!(out, "{r}").map(|()| true),
+                    Err(e) => writeln!(out, "{text}: no rational point of order 2, and {e}")
+                        .map(|()| false),
+                }
+            }
             Err(e) => writeln!(out, "{text}: {e}").map(|()| false),
         },
     }
 }
 
-const HELP: &str = "descend: 2-isogeny descent on elliptic curves over Q
+const HELP: &str =
+    "descend: descent via 2-isogeny (or 3-isogeny on y^2 = x^3 + k) on elliptic curves over Q
 
   descend                          descent on the built-in demo curves, readable reports
   descend \"y^2 = x^3 - 30x^2 + 3x\" readable report for one curve

@@ -14,6 +14,8 @@
 //!   --family twists --curve "a1 a2 a3 a4 a6" --from D1 --to D2
 //!                                             quadratic twists, d square-free, d != 0
 //!   --family box --bound B                    y^2 = x^3 + a x^2 + b x, |a|, |b| <= B
+//!   --family mordell --from K1 --to K2        y^2 = x^3 + k, k sixth-power free (3-isogeny)
+//!   --family cube-sums --from N1 --to N2      x^3 + y^3 = n, n cube-free (3-isogeny)
 //! ```
 //!
 //! `scan` on an existing output file goes on where it stopped (a partial
@@ -46,6 +48,8 @@ FAMILY:
   --family congruent --from N1 --to N2
   --family twists --curve \"a1 a2 a3 a4 a6\" --from D1 --to D2
   --family box --bound B
+  --family mordell --from K1 --to K2
+  --family cube-sums --from N1 --to N2
 Resume: running the same scan again on an existing --out file goes on where
 it stopped (a partial last line is cut away first; a file of another shard
 or family is left alone). Shards: --shard k/N takes the members with index
@@ -112,7 +116,10 @@ fn number<T: std::str::FromStr>(v: &Option<String>, what: &str) -> Res<T> {
 }
 
 fn family_of(a: &Args) -> Res<Family> {
-    let fam = match need(&a.family, "--family (congruent, twists or box)")? {
+    let fam = match need(
+        &a.family,
+        "--family (congruent, twists, box, mordell or cube-sums)",
+    )? {
         "congruent" => {
             Family::congruent_numbers(number(&a.from, "--from")?, number(&a.to, "--to")?)?
         }
@@ -121,7 +128,14 @@ fn family_of(a: &Args) -> Res<Family> {
             Family::quadratic_twists(&curve, number(&a.from, "--from")?, number(&a.to, "--to")?)?
         }
         "box" => Family::pair_box(number(&a.bound, "--bound")?)?,
-        other => return Err(format!("unknown family {other:?} (congruent, twists or box)").into()),
+        "mordell" => Family::mordell(number(&a.from, "--from")?, number(&a.to, "--to")?)?,
+        "cube-sums" => Family::cube_sums(number(&a.from, "--from")?, number(&a.to, "--to")?)?,
+        other => {
+            return Err(format!(
+                "unknown family {other:?} (congruent, twists, box, mordell or cube-sums)"
+            )
+            .into())
+        }
     };
     Ok(fam)
 }
@@ -338,11 +352,22 @@ fn plot(t: &Tally, path: &str, title: &str) -> Res<()> {
     // E[2] with Heath-Brown's limit law as points (expected counts);
     // otherwise the Selmer rank bound.
     let congruent = title.contains("congruent") && !t.selmer2.is_empty();
+    // Families of the descent via 3-isogeny: dim Sel^φ + dim Sel^φ̂.
+    let mut three: std::collections::BTreeMap<u64, u64> = std::collections::BTreeMap::new();
+    for (&(a, b), &n) in &t.selmer3_pairs {
+        *three.entry(a + b).or_insert(0) += n;
+    }
     let (counts, caption, x_desc) = if congruent {
         (
             &t.selmer2,
             "2-Selmer rank beyond E[2]; dots: Heath-Brown's limit law",
             "dim Sel^2(E) - 2",
+        )
+    } else if t.selmer_rank.is_empty() && !three.is_empty() {
+        (
+            &three,
+            "3-isogeny Selmer dimensions",
+            "dim Sel^phi(E) + dim Sel^phihat(E') over F3",
         )
     } else {
         (

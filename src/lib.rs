@@ -21,7 +21,7 @@
 //! | 3a | [`analytic`] | a_p and a_n, root number, real period, certified L-values, the BSD ledger |
 //! | 3b | [`height`] | canonical heights, the height pairing, regulators, LLL, lower bounds, saturation |
 //! | 4 | [`conic`] | Legendre's equation, zeros and parametrisations of conics |
-//! | 4b | [`cubic`] | plane cubics `F(u, v) = c·w³` over Q_p, Eisenstein integers |
+//! | 4b | [`cubic`] | plane cubics `F(u, v) = c·w³` over Q_p, Eisenstein integers, quadratic fields (class groups, units) |
 //! | 5 | [`quartic`] | binary quartics, local solubility at every place, local images, point search |
 //! | 6 | [`selmer`] | F2 linear algebra, Q(S,2), Selmer groups from local images, local-image sizes |
 //! | 7 | [`second`] | the second descent: lifting pairing, class lifts, 4-coverings, twist obstructions |

@@ -128,6 +128,9 @@ const LINES: &[&str] = &[
     "0 1 1 -2 0",
     "y^2 = x^3",
     "not a curve",
+    // No rational point of order 2: the descent via 3-isogeny.
+    "y^2 = x^3 + 17",
+    "0 0 0 0 -2",
 ];
 
 #[test]
@@ -205,6 +208,15 @@ fn family_scan_lines_validate() {
     let fam = Family::congruent_numbers(1, 30).unwrap();
     for m in fam.members() {
         assert_valid(&scan_member(&m, &DescentOptions::default()).to_line());
+    }
+    // The families of the descent via 3-isogeny.
+    for fam in [
+        Family::mordell(-6, 6).unwrap(),
+        Family::cube_sums(1, 10).unwrap(),
+    ] {
+        for m in fam.members() {
+            assert_valid(&scan_member(&m, &DescentOptions::default()).to_line());
+        }
     }
 }
 

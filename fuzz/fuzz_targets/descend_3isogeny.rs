@@ -1,7 +1,8 @@
 //! Fuzz target: the descent via 3-isogeny on small j = 0 curves moved by a
 //! change of model, and on raw small models (which mostly have j ≠ 0).
 //!
-//! y² = x³ + k with k = ±s²·t (t ∈ {1, −3}, s from the bytes) is moved by
+//! y² = x³ + k with k = s²·t (s and t ≠ 0 from the bytes, so that the
+//! kernel field Q(√t) is Q, Q(√−3) or any small quadratic field) is moved by
 //! (u, r, s, t) from the bytes. Checks: no panic; the only errors are
 //! "no supported isogeny" and budget errors; every reported point lies on
 //! the input curve; `Isogeny3Report::recheck` passes; lower ≤ upper.
@@ -28,7 +29,11 @@ fuzz_target!(|data: &[u8]| {
     opts.search_units = 200_000;
     let curve = if data[0] & 1 == 0 {
         let s = i64::from(data[1] as i8).abs().max(1);
-        let k = if data[2] & 1 == 0 { s * s } else { -3 * s * s };
+        let t = i64::from(data[2] as i8);
+        if t == 0 {
+            return;
+        }
+        let k = s * s * t;
         let Ok(base) = Curve::from_ints([0, 0, 0, 0, k]) else {
             return;
         };

@@ -14,9 +14,14 @@
 //!   witness a reader can re-check; over R every such cubic has a point
 //!   (odd degree).
 //! * `search`: rational points on F(u, v) = c·w³ of bounded height.
+//! * `quadratic`: a quadratic field Q(√D) — ideals as binary quadratic
+//!   forms, reduction with its multiplier, the class group and its 3-part,
+//!   the fundamental unit, and the norm-one part of K(S,3) (Cohen, "A
+//!   Course in Computational Algebraic Number Theory", §5.2–5.7).
 
 pub(crate) mod eisenstein;
 pub(crate) mod local;
+pub(crate) mod quadratic;
 pub(crate) mod search;
 
 pub use eisenstein::{prime_above, reduce_mod, Eisenstein};

@@ -21,10 +21,12 @@
 //! cubics have good reduction (Hasse's bound gives a point mod p and
 //! Hensel lifts it), and over R a cubic always has a point.
 //!
-//! Handled are the k for which both fields need no class group: k a
-//! square times a sixth power, or −3 times one (the curves of
-//! x³ + y³ = n, y² = x³ − 432n², and their isogenous partners). Other k
-//! give [`Error::NoSupportedIsogeny`].
+//! Every k is handled. When k is a square or −3 times a square (the
+//! curves of x³ + y³ = n, y² = x³ − 432n², and their isogenous partners)
+//! the fields need no class group; for any other k the field Q(√D) of a
+//! side comes with its class group, the 3-part of it and, for D > 0, its
+//! fundamental unit (`cubic::quadratic`, docs/descent3.md), within the
+//! limits of [`Isogeny3Options`] (beyond them: [`Error::BudgetExhausted`]).
 //!
 //! # Rank bounds
 //! From the exact sequence
@@ -35,8 +37,8 @@
 //! (the 3-isogeny analogue of Silverman–Tate, "Rational Points on
 //! Elliptic Curves", III.6; derivation in docs/descent3.md). The Selmer
 //! groups bound the two quotients above, the images of points found bound
-//! them below. Exactly one of k, −27k is a square here, so the torsion
-//! correction is 1.
+//! them below. The torsion correction is 1 when one of k, −27k is a
+//! square, else 0.
 //!
 //! # The Tamagawa check
 //! Cassels' formula for an isogeny φ: E → E′ of odd degree ("Arithmetic on
@@ -54,11 +56,12 @@ use std::time::{Duration, Instant};
 
 use num_bigint::BigInt;
 use num_rational::BigRational;
-use num_traits::{One, Signed, Zero};
+use num_traits::{One, Signed, ToPrimitive, Zero};
 
 use crate::analytic::{analyse, AnalyticOptions, RankTheorem};
 use crate::arith::factor;
 use crate::budget::Budget;
+use crate::cubic::quadratic::FieldLimits;
 use crate::cubic::{CubicPoint, CubicWitness};
 use crate::curve::{
     global_local_data, short_integral_model, Curve, GlobalLocalData, ModelChange, Point,
@@ -68,7 +71,7 @@ use crate::local::Prime;
 use f3::Span;
 use side::{intersect_local, point_on, search_side, SideSetup};
 
-pub use side::{Generator3, SideField};
+pub use side::{ElementOrigin, Generator3, SideField};
 
 /// Options of [`descend_3isogeny`].
 #[derive(Debug, Clone, PartialEq)]
@@ -83,8 +86,11 @@ pub struct Isogeny3Options {
     pub local_units: u64,
     /// Work units for the point search of one curve (both sides).
     pub search_units: u64,
-    /// Height bound of the second search, run only when the analytic side
-    /// proves a rank above the points found.
+    /// Height bound of the second search, run when the points found stay
+    /// below the rank the analytic side proves, or below the Selmer bound
+    /// when the analytic side ran and left the rank open (the bound is
+    /// then met if enough points turn up). Not run when the analytic side
+    /// is off.
     pub deep_search_height: u64,
     /// Work units for that second search (both sides).
     pub deep_search_units: u64,
@@ -95,6 +101,14 @@ pub struct Isogeny3Options {
     /// The analytic side, run only when the descent leaves a gap between
     /// its bounds (`None`: off).
     pub analytic: Option<AnalyticOptions>,
+    /// Largest |discriminant| of a field Q(√D) whose class group is
+    /// computed (the reduced forms are enumerated, O(|disc|) work).
+    pub max_discriminant: u64,
+    /// Largest class number accepted.
+    pub max_class_number: u64,
+    /// Largest size in bits of the fundamental unit of a real field and of
+    /// the generators of principal ideals.
+    pub max_unit_bits: u64,
 }
 
 impl Default for Isogeny3Options {
@@ -109,6 +123,19 @@ impl Default for Isogeny3Options {
             tamagawa_check: true,
             time_limit: None,
             analytic: Some(AnalyticOptions::default()),
+            max_discriminant: 2_000_000,
+            max_class_number: 5_000,
+            max_unit_bits: 8_192,
+        }
+    }
+}
+
+impl Isogeny3Options {
+    fn limits(&self) -> FieldLimits {
+        FieldLimits {
+            max_discriminant: self.max_discriminant,
+            max_class_number: self.max_class_number,
+            max_unit_bits: self.max_unit_bits,
         }
     }
 }
@@ -278,9 +305,10 @@ fn budget_for(units: u64, start: Instant, limit: Option<Duration>) -> Budget {
 /// sequence (module docs).
 ///
 /// # Errors
-/// [`Error::NoSupportedIsogeny`] when j ≠ 0, or when k is neither a square
-/// nor −3 times a square (up to sixth powers); [`Error::BudgetExhausted`]
-/// when the factorisation or the local tests run out of budget or time.
+/// [`Error::NoSupportedIsogeny`] when j ≠ 0; [`Error::BudgetExhausted`]
+/// when the factorisation or the local tests run out of budget or time, or
+/// when a field Q(√D) is beyond the discriminant, class-number or
+/// unit-size limits of the options.
 pub fn descend_3isogeny(e: &Curve, opts: &Isogeny3Options) -> Result<Isogeny3Report> {
     let start = Instant::now();
     let (a, b, _short, ch) = short_integral_model(e);
@@ -308,25 +336,46 @@ pub fn descend_3isogeny(e: &Curve, opts: &Isogeny3Options) -> Result<Isogeny3Rep
     let u6 = u.pow(6);
     let k = &b / &u6;
     let change = ch.then(&ModelChange::scaling(BigRational::from_integer(u.clone()))?);
-    let (field, m) = if square_class == BigInt::one() {
-        (SideField::Rational, sqrt_int(&k)?)
-    } else if square_class == BigInt::from(-3) {
-        (SideField::Eisenstein, sqrt_int(&(-&k / 3))?)
-    } else {
-        return Err(Error::NoSupportedIsogeny {
-            reason: format!(
-                "the kernel of the 3-isogeny of y^2 = x^3 + {k} is defined over Q(√{square_class}); only Q and Q(√−3) (no class group needed) are implemented"
-            ),
-        });
-    };
     let k2 = BigInt::from(-27) * &k;
-    let (field2, m2) = match field {
-        SideField::Rational => (SideField::Eisenstein, BigInt::from(3) * &m),
-        SideField::Eisenstein => (SideField::Rational, BigInt::from(9) * &m),
+    // k = D·m² and −27k = D′·m′² with D, D′ square-free.
+    let side_of = |kk: &BigInt, dsq: &BigInt| -> Result<(SideField, BigInt)> {
+        let m = sqrt_int(&(kk / dsq))?;
+        let field = if dsq.is_one() {
+            SideField::Rational
+        } else if dsq == &BigInt::from(-3) {
+            SideField::Eisenstein
+        } else {
+            let d = dsq
+                .to_i64()
+                .filter(|d| d.unsigned_abs() <= opts.max_discriminant)
+                .ok_or_else(|| Error::BudgetExhausted {
+                    stage: format!(
+                        "the class group of Q(√{dsq}): above the discriminant limit {}",
+                        opts.max_discriminant
+                    ),
+                })?;
+            SideField::Quadratic { d }
+        };
+        Ok((field, m))
     };
+    let square_class2 = if (&square_class % 3u32).is_zero() {
+        -&square_class / 3
+    } else {
+        &square_class * -3
+    };
+    let (field, m) = side_of(&k, &square_class)?;
+    let (field2, m2) = side_of(&k2, &square_class2)?;
+    let mut qb = budget_for(opts.local_units, start, opts.time_limit);
     let setups = [
-        SideSetup::new(k.clone(), m, field, primes.clone())?,
-        SideSetup::new(k2.clone(), m2, field2, primes.clone())?,
+        SideSetup::new(k.clone(), m, field, primes.clone(), opts.limits(), &mut qb)?,
+        SideSetup::new(
+            k2.clone(),
+            m2,
+            field2,
+            primes.clone(),
+            opts.limits(),
+            &mut qb,
+        )?,
     ];
     let mut lb = budget_for(opts.local_units, start, opts.time_limit);
     let mut sb = budget_for(opts.search_units, start, opts.time_limit);
@@ -455,8 +504,14 @@ pub fn descend_3isogeny(e: &Curve, opts: &Isogeny3Options) -> Result<Isogeny3Rep
             Err(err) => return Err(err),
         }
     }
-    // A proven rank above the points found: search the cubics again, higher.
-    if let Some((r, _)) = rank {
+    // A proven rank above the points found, or bounds that the analytic
+    // side left apart: search the cubics again, higher.
+    let target = match rank {
+        Some((r, _)) => Some(r),
+        None if opts.analytic.is_some() => Some(rank_upper),
+        None => None,
+    };
+    if let Some(r) = target {
         if r > rank_lower && opts.deep_search_height > opts.search_height {
             let mut db = budget_for(opts.deep_search_units, start, opts.time_limit);
             for (idx, side) in [&mut s0, &mut s1].into_iter().enumerate() {
@@ -482,6 +537,9 @@ pub fn descend_3isogeny(e: &Curve, opts: &Isogeny3Options) -> Result<Isogeny3Rep
                 return Err(Error::Internal {
                     check: "the points found lie within the proven rank".into(),
                 });
+            }
+            if rank.is_none() && rank_lower == rank_upper {
+                rank = Some((rank_lower, Rank3Proof::Descent));
             }
         }
     }
@@ -614,6 +672,7 @@ impl std::fmt::Display for SideField {
         match self {
             SideField::Rational => write!(f, "Q (kernel point rational)"),
             SideField::Eisenstein => write!(f, "Q(√−3)"),
+            SideField::Quadratic { d } => write!(f, "Q(√{d})"),
         }
     }
 }
@@ -753,7 +812,7 @@ pub enum IsogenyDescent {
 }
 
 /// Descent via 2-isogeny when the curve has a rational point of order 2,
-/// else via 3-isogeny when it has j = 0 and a kernel over Q or Q(√−3).
+/// else via 3-isogeny when it has j = 0.
 ///
 /// # Errors
 /// Those of [`crate::descend`] for curves with a point of order 2;
@@ -778,13 +837,51 @@ pub fn descend_by_isogeny(
     }
 }
 
+impl IsogenyDescent {
+    /// Re-checks the evidence of either descent: [`crate::descent::verify_report_default`]
+    /// for a 2-isogeny report, [`Isogeny3Report::recheck`] for a 3-isogeny
+    /// one.
+    ///
+    /// # Errors
+    /// [`Error::Internal`] naming the first check that fails; the budget
+    /// errors of [`crate::descent::verify_report`].
+    pub fn recheck(&self) -> Result<()> {
+        match self {
+            IsogenyDescent::Two(r) => {
+                let v = crate::descent::verify_report_default(r)?;
+                match v.failures().first() {
+                    None => Ok(()),
+                    Some(c) => Err(Error::Internal {
+                        check: format!("{c:?}"),
+                    }),
+                }
+            }
+            IsogenyDescent::Three(r) => r.recheck(),
+        }
+    }
+}
+
 impl Isogeny3Side {
     fn setup(&self) -> Result<SideSetup> {
         let m = match self.field {
             SideField::Rational => sqrt_int(&self.k)?,
             SideField::Eisenstein => sqrt_int(&(-&self.k / 3))?,
+            SideField::Quadratic { d } => sqrt_int(&(&self.k / d))?,
         };
-        let st = SideSetup::new(self.k.clone(), m, self.field, self.primes.clone())?;
+        let limits = FieldLimits {
+            max_discriminant: u64::MAX,
+            max_class_number: u64::MAX,
+            max_unit_bits: u64::MAX,
+        };
+        let mut budget = Budget::unlimited();
+        let st = SideSetup::new(
+            self.k.clone(),
+            m,
+            self.field,
+            self.primes.clone(),
+            limits,
+            &mut budget,
+        )?;
         if st.basis != self.generators {
             return Err(Error::Internal {
                 check: "the generators of a side follow from k and S".into(),

@@ -3,8 +3,10 @@
 //! with K = Q(√k), whose image bounds E_k(Q) modulo the image of the
 //! isogenous curve.
 //!
-//! Two fields are handled, the ones without class groups or units of
-//! infinite order:
+//! Three kinds of field: the two below, without class groups or units of
+//! infinite order, and any other Q(√D) (`cubic::quadratic`: class group,
+//! fundamental unit, the cubic b·u³ + 3a·u²v + 3Db·uv² + Da·v³ = −m·w³ of
+//! δ = a + b√D):
 //! * k = m² (K = Q ⊕ Q): the group is Q*/Q*³ cut down to S, with basis the
 //!   primes of S (−1 is a cube). The class d has the homogeneous space
 //!   d²v³ − du³ = 2m·w³: from y − m = d(u/w)³ and y + m = d²(v/w)³, with
@@ -30,12 +32,17 @@ use num_traits::{One, Signed, Zero};
 
 use super::f3::{self, Span};
 use crate::budget::Budget;
+use crate::cubic::quadratic::{
+    auxiliary_prime, cubic_character, minus_part_basis, split_valuation, FieldLimits, Origin,
+    QuadField,
+};
 use crate::cubic::{
     prime_above, reduce_mod, search_points, solubility_at, BinaryCubicCurve, CubicLocal,
     CubicPoint, CubicWitness, Eisenstein,
 };
 use crate::curve::Point;
 use crate::error::{Error, Result};
+use crate::local::sqrt_mod_prime;
 use crate::local::Prime;
 
 /// The field K = Q(√k) of one side.
@@ -46,6 +53,25 @@ pub enum SideField {
     Rational,
     /// k is −3 times a square: K = Q(√−3).
     Eisenstein,
+    /// Any other k = D·m² (D square-free): K = Q(√D), with its class
+    /// group and, for D > 0, its fundamental unit.
+    Quadratic {
+        /// The square-free D.
+        d: i64,
+    },
+}
+
+/// Where a basis element of the group of a field Q(√D) comes from.
+#[derive(Debug, Clone, PartialEq, Eq, Hash)]
+#[non_exhaustive]
+pub enum ElementOrigin {
+    /// The fundamental unit (D > 0).
+    FundamentalUnit,
+    /// A generator of a product of the ideals 𝔭·𝔭̄² above these split
+    /// primes of S and the cube of an ideal.
+    SplitPrimes(Vec<BigInt>),
+    /// A generator of the cube of an ideal class of order 3.
+    ClassGroup,
 }
 
 /// One basis element of the group K(S,3) (norm one) of a side.
@@ -63,6 +89,19 @@ pub enum Generator3 {
         /// π.
         pi: Eisenstein,
     },
+    /// δ = a + b√D in Q(√D) with norm n³ (field `Quadratic`).
+    Element {
+        /// a.
+        a: BigInt,
+        /// b.
+        b: BigInt,
+        /// D.
+        d: i64,
+        /// n with N(δ) = n³.
+        n: BigInt,
+        /// Where it comes from.
+        origin: ElementOrigin,
+    },
 }
 
 impl std::fmt::Display for Generator3 {
@@ -71,6 +110,13 @@ impl std::fmt::Display for Generator3 {
             Generator3::Prime(p) => write!(f, "{p}"),
             Generator3::Omega => write!(f, "ω"),
             Generator3::SplitPrime { p, pi } => write!(f, "{p}·conj{pi}"),
+            Generator3::Element { a, b, d, .. } => {
+                if b.is_negative() {
+                    write!(f, "({a} - {}√{d})", -b)
+                } else {
+                    write!(f, "({a} + {b}√{d})")
+                }
+            }
         }
     }
 }
@@ -95,13 +141,55 @@ pub(crate) struct SideSetup {
     pub(crate) field: SideField,
     pub(crate) primes: Vec<BigInt>,
     pub(crate) basis: Vec<Generator3>,
+    /// For `Quadratic`: the split primes of S with a square root of D
+    /// modulo each (the embedding that fixes the valuations).
+    pub(crate) split: Vec<(BigInt, BigInt)>,
 }
 
 impl SideSetup {
     /// The side of y² = x³ + k with k = m² (`field` rational) or k = −3m²;
     /// S = {2, 3} ∪ the primes of k (given, ascending).
-    pub(crate) fn new(k: BigInt, m: BigInt, field: SideField, primes: Vec<BigInt>) -> Result<Self> {
+    pub(crate) fn new(
+        k: BigInt,
+        m: BigInt,
+        field: SideField,
+        primes: Vec<BigInt>,
+        limits: FieldLimits,
+        budget: &mut Budget,
+    ) -> Result<Self> {
+        let mut split = Vec::new();
         let basis = match field {
+            SideField::Quadratic { d } => {
+                let qf = QuadField::new(BigInt::from(d), limits)?;
+                for p in &primes {
+                    if qf.splits(p) {
+                        let r0 = if p == &BigInt::from(2) {
+                            BigInt::one()
+                        } else {
+                            sqrt_mod_prime(&BigInt::from(d), &Prime::new(p.clone())?).ok_or_else(
+                                || Error::Internal {
+                                    check: format!("{d} is a square modulo the split prime {p}"),
+                                },
+                            )?
+                        };
+                        split.push((p.clone(), r0));
+                    }
+                }
+                minus_part_basis(&qf, &primes, budget)?
+                    .into_iter()
+                    .map(|g| Generator3::Element {
+                        a: g.a,
+                        b: g.b,
+                        d,
+                        n: g.n,
+                        origin: match g.origin {
+                            Origin::Unit => ElementOrigin::FundamentalUnit,
+                            Origin::Primes(ps) => ElementOrigin::SplitPrimes(ps),
+                            Origin::Class => ElementOrigin::ClassGroup,
+                        },
+                    })
+                    .collect()
+            }
             SideField::Rational => primes.iter().cloned().map(Generator3::Prime).collect(),
             SideField::Eisenstein => {
                 let mut b = vec![Generator3::Omega];
@@ -123,6 +211,7 @@ impl SideSetup {
             field,
             primes,
             basis,
+            split,
         })
     }
 
@@ -162,13 +251,47 @@ impl SideSetup {
                             delta = delta.mul(&beta.pow(u32::from(x)));
                             n *= p.pow(u32::from(x));
                         }
-                        Generator3::Prime(_) => {}
+                        Generator3::Prime(_) | Generator3::Element { .. } => {}
                     }
                 }
                 let (a, b) = (delta.twice_real().clone(), delta.twice_imag().clone());
                 let three = BigInt::from(3);
                 let f = [b.clone(), &three * &a, BigInt::from(-9) * &b, -&three * &a];
                 let cubic = BinaryCubicCurve::new(f, BigInt::from(-2) * &self.m)?;
+                Ok(ClassCubic { cubic, a, b, n })
+            }
+            SideField::Quadratic { d } => {
+                let dd = BigInt::from(d);
+                let (mut a, mut b, mut n) = (BigInt::one(), BigInt::zero(), BigInt::one());
+                for (g, &x) in self.basis.iter().zip(e) {
+                    if let Generator3::Element {
+                        a: ga,
+                        b: gb,
+                        n: gn,
+                        ..
+                    } = g
+                    {
+                        for _ in 0..x {
+                            let na = &a * ga + &dd * &b * gb;
+                            let nb = &a * gb + &b * ga;
+                            a = na;
+                            b = nb;
+                            n *= gn;
+                        }
+                    }
+                }
+                // Remove small cube factors (the class does not change).
+                for p in [2u32, 3, 5, 7, 11, 13] {
+                    let p3 = BigInt::from(p * p * p);
+                    while a.is_multiple_of(&p3) && b.is_multiple_of(&p3) {
+                        a /= &p3;
+                        b /= &p3;
+                        n /= BigInt::from(p * p);
+                    }
+                }
+                let three = BigInt::from(3);
+                let f = [b.clone(), &three * &a, &three * &dd * &b, &dd * &a];
+                let cubic = BinaryCubicCurve::new(f, -self.m.clone())?;
                 Ok(ClassCubic { cubic, a, b, n })
             }
         }
@@ -200,6 +323,15 @@ impl SideSetup {
                 let x = BigRational::new(&cc.n * (u * u + BigInt::from(3) * v * v), w * w);
                 Point::new(x, y)
             }
+            SideField::Quadratic { d } => {
+                // y − m√D = (a + b√D)·(u + v√D)³/w³, x = n(u² − Dv²)/w².
+                let dd = BigInt::from(d);
+                let p = u * u * u + BigInt::from(3) * &dd * u * v * v;
+                let q = BigInt::from(3) * u * u * v + &dd * v * v * v;
+                let y = BigRational::new(&cc.a * p + &cc.b * &dd * q, w * w * w);
+                let x = BigRational::new(&cc.n * (u * u - &dd * v * v), w * w);
+                Point::new(x, y)
+            }
         }
     }
 
@@ -211,6 +343,7 @@ impl SideSetup {
         };
         let _ = x; // only y enters the class
         match self.field {
+            SideField::Quadratic { d } => self.image_quadratic(d, y),
             SideField::Rational => {
                 // y − m, or (2m)⁻¹ at the kernel point y = m.
                 let z = y - BigRational::from_integer(self.m.clone());
@@ -318,11 +451,122 @@ impl SideSetup {
         }
     }
 
+    /// The class of y − m√D in the basis: valuations at the split primes
+    /// of S and cubic characters at auxiliary split primes q ≡ 1 mod 3
+    /// outside S, added until they separate the basis; then the linear
+    /// system over F3 is solved.
+    fn image_quadratic(&self, d: i64, y: &BigRational) -> Result<Vec<u8>> {
+        let dd = BigInt::from(d);
+        let n = self.dim();
+        // γ = y·den − m·den·√D, den a cube on an integral model.
+        let den = y.denom().clone();
+        let ga = y.numer().clone();
+        let gb = -(&self.m * &den);
+        let elems: Vec<(BigInt, BigInt, BigInt)> = self
+            .basis
+            .iter()
+            .filter_map(|g| match g {
+                Generator3::Element { a, b, n, .. } => Some((a.clone(), b.clone(), n.clone())),
+                _ => None,
+            })
+            .collect();
+        let mut rows: Vec<Vec<u8>> = Vec::new();
+        for (p, r0) in &self.split {
+            let mut row: Vec<u8> = elems
+                .iter()
+                .map(|(a, b, _)| (split_valuation(a, b, &dd, p, r0) % 3) as u8)
+                .collect();
+            row.push((split_valuation(&ga, &gb, &dd, p, r0) % 3) as u8);
+            rows.push(row);
+        }
+        let gnorm = &ga * &ga - &dd * &gb * &gb;
+        let mut q = 7u64;
+        let mut tries = 0;
+        loop {
+            let (rank, solution) = solve_f3(&rows, n);
+            if rank == n {
+                return solution.ok_or_else(|| Error::Internal {
+                    check: format!(
+                        "y − {}√{d} lies in the group of y^2 = x^3 + {}",
+                        self.m, self.k
+                    ),
+                });
+            }
+            tries += 1;
+            if tries > 5_000 {
+                return Err(Error::Internal {
+                    check: format!("auxiliary primes separate the group of Q(√{d})"),
+                });
+            }
+            q += 1;
+            let qb = BigInt::from(q);
+            if self.primes.contains(&qb) || (&gnorm % &qb).is_zero() {
+                continue;
+            }
+            if elems.iter().any(|(_, _, nn)| (nn % &qb).is_zero()) {
+                continue;
+            }
+            let Some((rq, zeta)) = auxiliary_prime(&dd, q) else {
+                continue;
+            };
+            let mut row = Vec::with_capacity(n + 1);
+            let mut ok = true;
+            for (a, b, _) in
+                elems
+                    .iter()
+                    .chain(std::iter::once(&(ga.clone(), gb.clone(), BigInt::one())))
+            {
+                match cubic_character(a, b, q, rq, zeta) {
+                    Some(c) => row.push(c),
+                    None => {
+                        ok = false;
+                        break;
+                    }
+                }
+            }
+            if ok {
+                rows.push(row);
+            }
+        }
+    }
+
     /// Local solubility of the cubic of class `e` at `p`.
     pub(crate) fn local(&self, e: &[u8], p: &Prime, budget: &mut Budget) -> Result<CubicLocal> {
         let cc = self.class_cubic(e)?;
         solubility_at(&cc.cubic, p, budget)
     }
+}
+
+/// Rank of the first n columns of `rows` (each n + 1 long, the last the
+/// right-hand side) and, when the system is consistent, a solution.
+fn solve_f3(rows: &[Vec<u8>], n: usize) -> (usize, Option<Vec<u8>>) {
+    let mut m: Vec<Vec<u8>> = rows.to_vec();
+    let mut pivots = Vec::new();
+    let mut r = 0;
+    for col in 0..n {
+        let Some(p) = (r..m.len()).find(|&i| m[i][col] != 0) else {
+            continue;
+        };
+        m.swap(r, p);
+        let inv = if m[r][col] == 1 { 1 } else { 2 };
+        m[r] = f3::scale(&m[r], inv);
+        for i in 0..m.len() {
+            if i != r && m[i][col] != 0 {
+                let c = m[i][col];
+                m[i] = f3::sub(&m[i], &f3::scale(&m[r], c));
+            }
+        }
+        pivots.push(col);
+        r += 1;
+    }
+    if m[r..].iter().any(|row| row[n] != 0) {
+        return (r, None);
+    }
+    let mut x = vec![0u8; n];
+    for (i, &col) in pivots.iter().enumerate() {
+        x[col] = m[i][n];
+    }
+    (r, Some(x))
 }
 
 fn strip(n: &BigInt, p: &BigInt) -> (u64, BigInt) {

@@ -16,6 +16,14 @@ use crate::curve::{two_torsion_points, Curve};
 use crate::error::{Error, Result};
 
 /// Largest |parameter| accepted for a family range or box bound: 2⁴⁰.
+/// True when no e-th power of a prime divides n (n ≥ 1).
+fn is_power_free_u64(n: u64, e: u32) -> bool {
+    if n == 0 {
+        return false;
+    }
+    crate::arith::factor_u64(n).iter().all(|&(_, x)| x < e)
+}
+
 /// Keeps every intermediate of the enumeration inside `i128` and the
 /// square-free test (trial division up to √n ≤ 2²⁰) cheap.
 pub const MAX_PARAMETER: u64 = 1 << 40;
@@ -101,6 +109,10 @@ pub enum Parameter {
     Congruent(u64),
     /// (a, b) of y² = x³ + a x² + b x.
     Pair(i64, i64),
+    /// k of the Mordell curve y² = x³ + k.
+    Mordell(i64),
+    /// n of x³ + y³ = n, the curve y² = x³ − 432n².
+    CubeSum(u64),
 }
 
 impl fmt::Display for Parameter {
@@ -110,6 +122,8 @@ impl fmt::Display for Parameter {
             Parameter::Twist(d) => write!(f, "d={d}"),
             Parameter::Congruent(n) => write!(f, "n={n}"),
             Parameter::Pair(a, b) => write!(f, "a={a} b={b}"),
+            Parameter::Mordell(k) => write!(f, "k={k}"),
+            Parameter::CubeSum(n) => write!(f, "cubes={n}"),
         }
     }
 }
@@ -149,10 +163,18 @@ enum Kind {
     Pairs {
         bound: i64,
     },
+    Mordell {
+        from: i64,
+        to: i64,
+    },
+    CubeSums {
+        from: u64,
+        to: u64,
+    },
 }
 
-/// A family of curves with a rational point of order 2, enumerated in a
-/// fixed order.
+/// A family of curves with a rational isogeny of degree 2 or 3, enumerated
+/// in a fixed order.
 ///
 /// * [`Family::quadratic_twists`]: E^(d) for square-free d ≠ 0 with
 ///   from ≤ d ≤ to, d ascending;
@@ -160,7 +182,11 @@ enum Kind {
 ///   from ≤ n ≤ to, n ascending;
 /// * [`Family::pair_box`]: y² = x³ + a x² + b x for |a|, |b| ≤ B, a
 ///   ascending and, for each a, b ascending; the singular models (b = 0 or
-///   a² = 4b) are skipped — they are not elliptic curves and get no index.
+///   a² = 4b) are skipped — they are not elliptic curves and get no index;
+/// * [`Family::mordell`]: y² = x³ + k for sixth-power-free k ≠ 0 with
+///   from ≤ k ≤ to, k ascending;
+/// * [`Family::cube_sums`]: y² = x³ − 432n² (x³ + y³ = n) for cube-free n
+///   with from ≤ n ≤ to, n ascending.
 #[derive(Clone, Debug, PartialEq, Eq)]
 pub struct Family {
     kind: Kind,
@@ -254,10 +280,45 @@ impl Family {
         })
     }
 
+    /// The Mordell curves y² = x³ + k for sixth-power-free k ≠ 0 with
+    /// `from ≤ k ≤ to` (the scan uses the descent via 3-isogeny on those
+    /// without a rational point of order 2).
+    ///
+    /// # Errors
+    /// [`Error::InvalidArgument`] if `from > to` or a bound exceeds
+    /// `MAX_PARAMETER` in absolute value.
+    pub fn mordell(from: i64, to: i64) -> Result<Family> {
+        check_range(i128::from(from), i128::from(to))?;
+        Ok(Family {
+            kind: Kind::Mordell { from, to },
+        })
+    }
+
+    /// The curves y² = x³ − 432n² of x³ + y³ = n for cube-free n with
+    /// `from ≤ n ≤ to`.
+    ///
+    /// # Errors
+    /// [`Error::NotPositive`] if `from` is 0; [`Error::InvalidArgument`] if
+    /// `from > to` or `to` exceeds `MAX_PARAMETER`.
+    pub fn cube_sums(from: u64, to: u64) -> Result<Family> {
+        if from == 0 {
+            return Err(Error::NotPositive {
+                what: "start of the cube-sum range".into(),
+                value: BigInt::zero(),
+            });
+        }
+        check_range(i128::from(from), i128::from(to))?;
+        Ok(Family {
+            kind: Kind::CubeSums { from, to },
+        })
+    }
+
     /// The members in enumeration order, built lazily (memory O(1) in the
     /// size of the family).
     pub fn members(&self) -> Members {
         let state = match &self.kind {
+            Kind::Mordell { from, .. } => Cursor::Int(i128::from(*from)),
+            Kind::CubeSums { from, .. } => Cursor::Int(i128::from(*from)),
             Kind::Twists { from, .. } => Cursor::Int(i128::from(*from)),
             Kind::Congruent { from, .. } => Cursor::Int(i128::from(*from)),
             Kind::Pairs { bound } => Cursor::Pair(-i128::from(*bound), -i128::from(*bound)),
@@ -293,6 +354,12 @@ impl Family {
             Kind::Pairs { bound } => format!(
                 "y^2 = x^3 + a x^2 + b x with |a|, |b| <= {bound}, singular (b = 0 or a^2 = 4b) skipped"
             ),
+            Kind::Mordell { from, to } => format!(
+                "Mordell curves y^2 = x^3 + k, sixth-power-free k in [{from}, {to}], k != 0"
+            ),
+            Kind::CubeSums { from, to } => format!(
+                "sums of two cubes x^3 + y^3 = n (y^2 = x^3 - 432 n^2), cube-free n in [{from}, {to}]"
+            ),
         }
     }
 
@@ -318,6 +385,23 @@ impl Family {
                 BigInt::from(b),
                 BigInt::zero(),
             ]),
+            (Kind::Mordell { .. }, Parameter::Mordell(k)) => Curve::from_bigints([
+                BigInt::zero(),
+                BigInt::zero(),
+                BigInt::zero(),
+                BigInt::zero(),
+                BigInt::from(k),
+            ]),
+            (Kind::CubeSums { .. }, Parameter::CubeSum(n)) => {
+                let n = BigInt::from(n);
+                Curve::from_bigints([
+                    BigInt::zero(),
+                    BigInt::zero(),
+                    BigInt::zero(),
+                    BigInt::zero(),
+                    BigInt::from(-432) * &n * &n,
+                ])
+            }
             _ => Err(Error::InvalidArgument {
                 reason: format!("parameter {p} does not belong to this family"),
             }),
@@ -379,6 +463,27 @@ impl Members {
                 }
                 if cb != 0 && ca * ca != 4 * cb {
                     break Parameter::Pair(i64::try_from(ca).ok()?, i64::try_from(cb).ok()?);
+                }
+            },
+            (Kind::Mordell { to, .. }, Cursor::Int(k)) => loop {
+                if *k > i128::from(*to) {
+                    return None;
+                }
+                let cur = *k;
+                *k += 1;
+                if cur != 0 && is_power_free_u64(u64::try_from(cur.unsigned_abs()).ok()?, 6) {
+                    break Parameter::Mordell(i64::try_from(cur).ok()?);
+                }
+            },
+            (Kind::CubeSums { to, .. }, Cursor::Int(n)) => loop {
+                if *n > i128::from(*to) {
+                    return None;
+                }
+                let cur = *n;
+                *n += 1;
+                let cur = u64::try_from(cur).ok()?;
+                if is_power_free_u64(cur, 3) {
+                    break Parameter::CubeSum(cur);
                 }
             },
             _ => return None,

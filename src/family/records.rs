@@ -40,6 +40,10 @@ pub struct RecordLine {
     /// `selmer2_rank` minus dim E(Q)\[2\] (the number of even cyclic factors
     /// of the torsion): the 2-Selmer rank beyond the 2-torsion.
     pub selmer2_excess: Option<u64>,
+    /// On a line of the descent via 3-isogeny (`isogeny3`): the
+    /// dimensions over F3 of the Selmer groups of the two sides
+    /// (y² = x³ + k, then y² = x³ − 27k).
+    pub selmer3: Option<(u64, u64)>,
 }
 
 impl RecordLine {
@@ -77,7 +81,16 @@ impl RecordLine {
             .and_then(Value::as_u64)
             .zip(two_torsion_dim)
             .and_then(|(s, t)| s.checked_sub(t));
+        let selmer3 = v
+            .get("isogeny3")
+            .and_then(|i| i.get("sides"))
+            .and_then(Value::as_array)
+            .and_then(|sides| {
+                let d = |i: usize| sides.get(i)?.get("selmer_dim")?.as_u64();
+                Some((d(0)?, d(1)?))
+            });
         Some(RecordLine {
+            selmer3,
             selmer2_excess,
             index,
             parameter,
@@ -128,6 +141,9 @@ pub struct Tally {
     pub selmer_rank: BTreeMap<u64, u64>,
     /// Count of each value of [`RecordLine::selmer2_excess`].
     pub selmer2: BTreeMap<u64, u64>,
+    /// Count of each pair [`RecordLine::selmer3`] (lines of the descent via
+    /// 3-isogeny).
+    pub selmer3_pairs: BTreeMap<(u64, u64), u64>,
     trace: Vec<(u64, f64)>,
     stride: u64,
 }
@@ -157,6 +173,9 @@ impl Tally {
         }
         if let Some(s) = r.selmer2_excess {
             *self.selmer2.entry(s).or_insert(0) += 1;
+        }
+        if let Some(p) = r.selmer3 {
+            *self.selmer3_pairs.entry(p).or_insert(0) += 1;
         }
         if self.stride == 0 {
             self.stride = 1;
@@ -306,6 +325,19 @@ impl fmt::Display for Tally {
             )?;
             for (&s, &n) in &self.selmer2 {
                 writeln!(f, "                 {s:>5}  {n:>36}  {:>5.2}%", pct(n))?;
+            }
+        }
+        if !self.selmer3_pairs.is_empty() {
+            writeln!(
+                f,
+                "3-isogeny Selmer dimensions over F3  y^2=x^3+k  y^2=x^3-27k      count   share"
+            )?;
+            for (&(a, b), &n) in &self.selmer3_pairs {
+                writeln!(
+                    f,
+                    "                                   {a:>10}  {b:>11}  {n:>9}  {:>5.2}%",
+                    pct(n)
+                )?;
             }
         }
         Ok(())

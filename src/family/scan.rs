@@ -22,7 +22,7 @@ use std::time::Instant;
 use super::members::{Member, Parameter};
 use crate::descent::DescentOptions;
 use crate::error::{Error, Result};
-use crate::output::{error_line, report_line, Detail};
+use crate::output::{error_line, Detail};
 
 /// The k-th of N shards of a family: the members whose index i has
 /// i mod N = k − 1 (k from 1 to N). Shards 1/N, …, N/N partition every
@@ -133,7 +133,7 @@ impl ScanRecord {
     /// the keys of the descent contract are unchanged.
     ///
     /// Example: for n = 5 of the congruent family the line starts
-    /// `{"family_index":3,"family_parameter":"n=5","format_version":3,"input":"y^2 = x^3 - 25x",`:
+    /// `{"family_index":3,"family_parameter":"n=5","format_version":4,"input":"y^2 = x^3 - 25x",`:
     ///
     /// ```
     /// use isodescent::descent::DescentOptions;
@@ -143,7 +143,7 @@ impl ScanRecord {
     /// let n5 = fam.members().find(|m| m.line() == "y^2 = x^3 - 25x").unwrap();
     /// let line = scan_member(&n5, &DescentOptions::default()).to_line();
     /// assert!(line.starts_with(
-    ///     r#"{"family_index":3,"family_parameter":"n=5","format_version":3,"input":"y^2 = x^3 - 25x","#
+    ///     r#"{"family_index":3,"family_parameter":"n=5","format_version":4,"input":"y^2 = x^3 - 25x","#
     /// ));
     /// assert!(line.contains(r#""rank_lower":1,"rank_upper":1"#));
     /// ```
@@ -376,11 +376,10 @@ fn json_string(s: &str) -> String {
 /// [`crate::output::json_for_line`].
 fn report_for_curve(curve: &crate::curve::Curve, input: &str, options: &DescentOptions) -> String {
     let run = std::panic::catch_unwind(std::panic::AssertUnwindSafe(|| {
-        crate::descent::descend(curve, options)
+        crate::output::batch::line_for_curve(curve, input, options, Detail::Summary)
     }));
     match run {
-        Ok(Ok(r)) => report_line(input, &r, Detail::Summary),
-        Ok(Err(e)) => error_line(input, &e.to_string()),
+        Ok(line) => line,
         Err(_) => error_line(input, "internal error (panic) during the descent"),
     }
 }

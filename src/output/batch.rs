@@ -72,10 +72,7 @@ pub fn json_for_line_with(line: &str, options: &DescentOptions, detail: Detail) 
             Ok(c) => c,
             Err(e) => return error_line(input, &e.to_string()),
         };
-        match descend(&curve, options) {
-            Ok(r) => report_line(input, &r, detail),
-            Err(e) => error_line(input, &e.to_string()),
-        }
+        line_for_curve(&curve, input, options, detail)
     }));
     match result {
         Ok(s) => s,
@@ -98,5 +95,38 @@ pub fn json_for_bytes(bytes: &[u8], options: &DescentOptions, detail: Detail) ->
         LineKind::Skipped => None,
         LineKind::Text(s) => Some(json_for_line_with(s, options, detail)),
         LineKind::Invalid { lossy, reason } => Some(error_line(&lossy, &reason)),
+    }
+}
+
+/// The options of the descent via 3-isogeny that follow from those of the
+/// 2-isogeny descent: the same analytic side, clock, factoring and local
+/// budgets; the rest at their defaults.
+pub(crate) fn isogeny3_options(options: &DescentOptions) -> crate::descent3::Isogeny3Options {
+    crate::descent3::Isogeny3Options {
+        analytic: options.analytic.clone(),
+        time_limit: options.time_limit,
+        factor_units: options.factor_units,
+        ..Default::default()
+    }
+}
+
+/// The output line of one parsed curve: the 2-isogeny descent, or, on a
+/// curve without a rational point of order 2, the descent via 3-isogeny
+/// (y² = x³ + k); an error line when neither applies.
+pub(crate) fn line_for_curve(
+    curve: &Curve,
+    input: &str,
+    options: &DescentOptions,
+    detail: Detail,
+) -> String {
+    match descend(curve, options) {
+        Ok(r) => report_line(input, &r, detail),
+        Err(crate::Error::NoTwoTorsion) => {
+            match crate::descent3::descend_3isogeny(curve, &isogeny3_options(options)) {
+                Ok(r) => super::json::isogeny3_line(input, &r, detail),
+                Err(e) => error_line(input, &format!("no rational point of order 2, and {e}")),
+            }
+        }
+        Err(e) => error_line(input, &e.to_string()),
     }
 }

@@ -19,7 +19,7 @@ use crate::local::class_representatives;
 use crate::quartic::search::SearchOutcome;
 
 /// The schema version written in every line as `format_version`.
-pub const FORMAT_VERSION: u32 = 3;
+pub const FORMAT_VERSION: u32 = 4;
 
 #[derive(Serialize)]
 struct PointView {
@@ -332,7 +332,198 @@ struct LineView<'a> {
     minimal_model: Option<String>,
     reduction: BTreeMap<String, ReductionView>,
     selmer: Vec<IsogenyView>,
+    isogeny3: Option<Isogeny3View>,
     error: Option<&'a str>,
+}
+
+#[derive(Serialize)]
+struct ChangeView {
+    u: String,
+    r: String,
+    s: String,
+    t: String,
+}
+
+#[derive(Serialize)]
+struct CubicWitnessView {
+    class: Vec<u8>,
+    prime: String,
+    kind: &'static str,
+    u: String,
+    v: String,
+}
+
+#[derive(Serialize)]
+struct CubicFindView {
+    class: Vec<u8>,
+    u: String,
+    v: String,
+    w: String,
+    x: String,
+    y: String,
+}
+
+#[derive(Serialize)]
+struct Side3View {
+    k: String,
+    field: String,
+    generators: Vec<String>,
+    primes: Vec<String>,
+    selmer_dim: usize,
+    selmer_basis: Vec<Vec<u8>>,
+    image_dim: usize,
+    witnesses: Vec<CubicWitnessView>,
+    finds: Vec<CubicFindView>,
+}
+
+#[derive(Serialize)]
+struct CasselsView {
+    selmer_ratio: String,
+    tamagawa_side: String,
+    equal: bool,
+}
+
+/// The 3-isogeny part of a line (null on lines of the 2-isogeny descent).
+#[derive(Serialize)]
+struct Isogeny3View {
+    model_k: String,
+    model_change: ChangeView,
+    sides: Vec<Side3View>,
+    cassels: Option<CasselsView>,
+    theorem: Option<&'static str>,
+    sha_dim: Option<usize>,
+}
+
+fn field_word(f: &crate::descent3::SideField) -> String {
+    use crate::descent3::SideField as F;
+    match f {
+        F::Rational => "Q".to_string(),
+        F::Eisenstein => "Q(sqrt(-3))".to_string(),
+        F::Quadratic { d } => format!("Q(sqrt({d}))"),
+    }
+}
+
+fn isogeny3_view(r: &crate::descent3::Isogeny3Report, detail: Detail) -> Isogeny3View {
+    use crate::cubic::CubicWitness;
+    let sides = r
+        .sides
+        .iter()
+        .map(|s| Side3View {
+            k: s.k.to_string(),
+            field: field_word(&s.field),
+            generators: s.generators.iter().map(|g| g.to_string()).collect(),
+            primes: s.primes.iter().map(|p| p.to_string()).collect(),
+            selmer_dim: s.selmer_dim(),
+            selmer_basis: s.selmer_basis.clone(),
+            image_dim: s.image_dim,
+            witnesses: if detail == Detail::Full {
+                s.witnesses
+                    .iter()
+                    .map(|(c, p, w)| {
+                        let (kind, u, v) = match w {
+                            CubicWitness::Cube { u, v } => ("cube", u, v),
+                            CubicWitness::Zero { u, v } => ("zero", u, v),
+                        };
+                        CubicWitnessView {
+                            class: c.clone(),
+                            prime: p.to_string(),
+                            kind,
+                            u: u.to_string(),
+                            v: v.to_string(),
+                        }
+                    })
+                    .collect()
+            } else {
+                Vec::new()
+            },
+            finds: s
+                .finds
+                .iter()
+                .filter_map(|f| {
+                    Some(CubicFindView {
+                        class: f.class.clone(),
+                        u: f.on_cubic.u.to_string(),
+                        v: f.on_cubic.v.to_string(),
+                        w: f.on_cubic.w.to_string(),
+                        x: rational_text(f.point.x()?),
+                        y: rational_text(f.point.y()?),
+                    })
+                })
+                .collect(),
+        })
+        .collect();
+    Isogeny3View {
+        model_k: r.k.to_string(),
+        model_change: ChangeView {
+            u: rational_text(r.change.u()),
+            r: rational_text(r.change.r()),
+            s: rational_text(r.change.s()),
+            t: rational_text(r.change.t()),
+        },
+        sides,
+        cassels: r.tamagawa.as_ref().map(|t| CasselsView {
+            selmer_ratio: rational_text(&t.selmer_ratio),
+            tamagawa_side: rational_text(&t.formula),
+            equal: t.holds(),
+        }),
+        theorem: match &r.rank {
+            Some((_, crate::descent3::Rank3Proof::Analytic(t))) => Some(t.name()),
+            _ => None,
+        },
+        sha_dim: r.sha_dim,
+    }
+}
+
+/// The one-line JSON object of a report of the descent via 3-isogeny.
+pub(crate) fn isogeny3_line(
+    input: &str,
+    r: &crate::descent3::Isogeny3Report,
+    detail: Detail,
+) -> String {
+    let (status, stopped) = if r.cut.is_empty() {
+        ("complete", None)
+    } else {
+        (
+            "partial",
+            Some(StopView {
+                step: r.cut.join(", "),
+                reason: "a budget or the clock".to_string(),
+            }),
+        )
+    };
+    to_line(&LineView {
+        format_version: FORMAT_VERSION,
+        input: echoed_input(input),
+        curve: Some(r.curve.to_string()),
+        status,
+        stopped,
+        rank_lower: Some(r.rank_lower),
+        rank_upper: Some(r.rank_upper),
+        points: height_points_view(&r.points, &[]),
+        points_from: (!r.points.is_empty()).then_some("search"),
+        heegner: None,
+        torsion: None,
+        selmer2_rank: None,
+        rank_settled_by: r.rank.map(|(_, p)| match p {
+            crate::descent3::Rank3Proof::Descent => "descent",
+            _ => "analytic",
+        }),
+        regulator: None,
+        regulator_error: None,
+        points_generate: false,
+        saturation: None,
+        root_number: None,
+        analytic_order: None,
+        analytic: None,
+        ledger: None,
+        conflict: None,
+        conductor: None,
+        minimal_model: None,
+        reduction: BTreeMap::new(),
+        selmer: Vec::new(),
+        isogeny3: Some(isogeny3_view(r, detail)),
+        error: None,
+    })
 }
 
 fn kind_word(k: ReductionKind) -> &'static str {
@@ -587,6 +778,7 @@ fn report_view<'a>(input: &'a str, r: &DescentReport, detail: Detail) -> LineVie
                 isogenous: side_view(d.codomain(), false, detail),
             })
             .collect(),
+        isogeny3: None,
         error: None,
     }
 }
@@ -704,6 +896,7 @@ pub fn error_line(input: &str, message: &str) -> String {
         minimal_model: None,
         reduction: BTreeMap::new(),
         selmer: Vec::new(),
+        isogeny3: None,
         error: Some(message),
     })
 }
