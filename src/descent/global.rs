@@ -302,9 +302,14 @@ fn heegner_step(
             discriminant,
             class_number,
         }) => {
-            report.global.conflict = Some(format!(
-                "the Heegner trace for D = {discriminant} (h = {class_number}) is torsion although L'(E,1) is certified non-zero (Gross-Zagier)"
-            ));
+            // Gross–Zagier speaks for the maximal order (the route with odd
+            // D = −n); a torsion trace of the conductor-4 route (D = −64n)
+            // contradicts no theorem and is only recorded.
+            if discriminant.rem_euclid(2) == 1 {
+                report.global.conflict = Some(format!(
+                    "the Heegner trace for D = {discriminant} (h = {class_number}) is torsion although L'(E,1) is certified non-zero (Gross-Zagier)"
+                ));
+            }
             report.global.heegner = Some(HeegnerOutcome::Torsion {
                 discriminant,
                 class_number,

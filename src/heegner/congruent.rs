@@ -25,7 +25,7 @@ use num_rational::BigRational;
 use num_traits::{One, Signed, ToPrimitive, Zero};
 
 use super::fixed::{Cx, Fixed};
-use super::forms::Form;
+use super::forms::{Form, Rep};
 use crate::arith::sqrt_exact;
 use crate::budget::Budget;
 use crate::curve::{Curve, Point};
@@ -149,28 +149,66 @@ pub(crate) fn phi(
             check: format!("{} coefficients prepared, {terms} needed", an.len()),
         });
     }
-    // q^step by repeated multiplication.
-    let mut qs = q.clone();
-    for _ in 1..step {
-        qs = f.cmul(&qs, &q);
-    }
+    Ok((series(f, an, step, &q, terms, budget)?, terms))
+}
+
+/// `Σ_{k ≤ M, k ≡ 1 (mod step)} (a_k/k) q^k` by rectangular splitting
+/// (Paterson–Stockmeyer; common practice): with `x = q^step` and
+/// `k = 1 + step·(bL + i)`, the sum is `q·Σ_b x^{bL}·(Σ_{i<L} c_{bL+i} x^i)`;
+/// the powers `x^i`, `i < L`, are kept, each inner sum costs only
+/// multiplications and divisions by the small integers `a_k` and `k`, and
+/// the outer sum is a Horner scheme in `x^L`. About `L + M/(step·L)` full
+/// products instead of `M/step`, with `L ≈ √(M/step)` (at most 4096 powers
+/// stored). Rounding: each power `x^i` errs by ≤ `2i` ulp, each inner term
+/// by ≤ `|a_k/k|·2i + 2` ulp, each Horner step adds ≤ 2 ulp (`|x| < 1`
+/// does not enlarge earlier errors): in all ≤ `4M²` ulp, the bound the
+/// caller's guard bits cover, as for the plain sum.
+fn series(
+    f: Fixed,
+    an: &[i64],
+    step: usize,
+    q: &Cx,
+    terms: u64,
+    budget: &mut Budget,
+) -> Result<Cx> {
+    let count = (terms as usize).saturating_sub(1) / step + 1; // j = 0..count
+    let l = ((count as f64).sqrt().ceil() as usize).clamp(1, 4096);
     let limbs = u64::from(f.p / 64 + 1);
-    let mut sum = Cx::zero();
-    let mut qk = q;
-    let mut k = 1usize;
-    while k as u64 <= terms {
-        spend(budget, limbs)?;
-        let ak = an[k];
-        if ak != 0 {
-            let ak = BigInt::from(ak);
-            let kk = BigInt::from(k);
-            sum.re += &qk.re * &ak / &kk;
-            sum.im += &qk.im * &ak / &kk;
-        }
-        qk = f.cmul(&qk, &qs);
-        k += step;
+    let mut x = q.clone();
+    for _ in 1..step {
+        x = f.cmul(&x, q);
     }
-    Ok((sum, terms))
+    let mut pow: Vec<Cx> = Vec::with_capacity(l + 1);
+    pow.push(Cx {
+        re: f.one(),
+        im: BigInt::zero(),
+    });
+    for i in 1..=l {
+        spend(budget, 4 * limbs)?;
+        let next = f.cmul(&pow[i - 1], &x);
+        pow.push(next);
+    }
+    let xl = pow.pop().unwrap_or_else(Cx::zero);
+    let blocks = count.div_ceil(l);
+    let mut acc = Cx::zero();
+    for blk in (0..blocks).rev() {
+        spend(budget, 4 * limbs)?;
+        acc = f.cmul(&acc, &xl);
+        for (i, p) in pow.iter().enumerate() {
+            let j = blk * l + i;
+            if j >= count {
+                break;
+            }
+            let k = 1 + step * j;
+            let ak = an[k];
+            if ak != 0 {
+                spend(budget, limbs / 4 + 1)?;
+                acc.re += &p.re * ak / k as u64;
+                acc.im += &p.im * ak / k as u64;
+            }
+        }
+    }
+    Ok(f.cmul(&acc, q))
 }
 
 /// The least `M` with `2|q|^{M+1}/(1 − |q|) ≤ 2^{−p}`, with `|q|` inflated
@@ -237,6 +275,47 @@ pub(crate) fn point_at(
     let big_x = -(x * n);
     let max_bits = u64::from(c.f.p.saturating_sub(guard)) / 2;
     recognise(&c.f, &big_x, n, max_bits, guard)
+}
+
+/// The point of parameter `iy` on `E_n` if it is rational, else the first
+/// rational point among its halves, quarters, … down to `2^{−depth}`:
+/// returns `R`, its parameter and `j` with `2^j·R = ±Q + T`, `T ∈ E_n[2]`,
+/// `Q` the point of `iy`.
+///
+/// Halving: the real points of `E_n` are the parameters `s·ω₁/2 + iy'`
+/// (`s ∈ {0, 1}`, `y'` modulo `ω₁`, the two components), a group
+/// `R/ω₁Z × Z/2`; the doubles are the points with `s = 0`. The points `R`
+/// with `2R ∈ Q + E_n[2]` are therefore, up to adding `E_n[2]`, the
+/// parameters `i·y/2` and `i·(y/2 + ω₁/4)`; since `E_n[2] ⊂ E_n(Q)`, one
+/// representative of each coset is rational exactly when all are. Each
+/// candidate is recognised and checked on the curve exactly
+/// ([`point_at`]); the relation to `Q` is the numerical one above.
+pub(crate) fn point_or_halves(
+    c: &Constants,
+    y: &BigInt,
+    n: &BigInt,
+    guard: u32,
+    depth: u32,
+    budget: &mut Budget,
+) -> Result<Option<(Point, BigInt, u32)>> {
+    let mut level = vec![y.clone()];
+    let quarter = &c.w1 >> 2;
+    for j in 0..=depth {
+        for yy in &level {
+            spend(budget, 64 * u64::from(c.f.p / 64 + 1))?;
+            if let Some(p) = point_at(c, false, yy, n, guard) {
+                return Ok(Some((p, yy.clone(), j)));
+            }
+        }
+        level = level
+            .iter()
+            .flat_map(|yy| {
+                let h: BigInt = yy >> 1;
+                [h.clone(), h + &quarter]
+            })
+            .collect();
+    }
+    Ok(None)
 }
 
 /// The torsion points of `E_n`: `O, (0, 0), (±n, 0)`.
@@ -308,20 +387,30 @@ pub(crate) fn divide(
     Ok(None)
 }
 
-/// The sum `z = Σ φ(τ_i)` over the Heegner forms, and the number of terms.
+/// The sum `z = Σ φ(τ_i)` over the classes, and the number of terms. A
+/// class reached through `W_N` ([`Rep::Flipped`]) adds `ω₁/4 − φ(τ_F)`:
+/// for `E0` at level 32, `φ(W_N τ) = −φ(τ) + ω₁/4` modulo `Λ_f` (the sign
+/// `ε = −w(E0) = −1`, and the constant `φ(0)` is real; checked by the test
+/// `atkin_lehner_relation_of_e0`).
 pub(crate) fn trace(
     c: &Constants,
     an: &[i64],
     step: usize,
-    forms: &[Form],
+    reps: &[Rep],
     d: i64,
     budget: &mut Budget,
 ) -> Result<(Cx, u64)> {
     let mut z = Cx::zero();
     let mut terms = 0;
-    for &form in forms {
-        let (v, t) = phi(c, an, step, form, d, budget)?;
-        z = z.add(&v);
+    for rep in reps {
+        let (v, t) = phi(c, an, step, rep.form(), d, budget)?;
+        z = match rep {
+            Rep::Direct(_) => z.add(&v),
+            Rep::Flipped(_) => Cx {
+                re: z.re - v.re + (&c.w1 >> 2),
+                im: z.im - v.im,
+            },
+        };
         terms += t;
     }
     Ok((z, terms))
@@ -387,5 +476,39 @@ mod tests {
         assert!((x + 1.0).abs() < 1e-12, "{x}");
         let x = c.f.approx_f64(&c.wp(true, &half).unwrap());
         assert!(x.abs() < 1e-12, "{x}");
+    }
+
+    #[test]
+    fn atkin_lehner_relation_of_e0() {
+        // φ(−1/(32τ)) = −φ(τ) + ω₁/4 modulo Λ_f = ((1+i)/2)ω₁Z[i] (so the
+        // real part modulo ω₁), used by `trace` for classes reached through
+        // W_32; derived numerically and checked here at 200 bits. The sign
+        // is ε = −w(E0) with root number w(E0) = +1 (rank 0).
+        let c = Constants::new(200);
+        let f = c.f;
+        let e0 = Curve::from_ints([0, 0, 0, -1, 0]).unwrap();
+        let local =
+            crate::curve::global_local_data(e0.coefficients(), &mut Budget::unlimited()).unwrap();
+        let an = crate::analytic::dirichlet_coefficients(&local, 4000, &mut Budget::unlimited())
+            .unwrap();
+        // The Heegner form [32, 8, 3] of discriminant −320 = −64·5.
+        let (a, b, cc) = (32i64, 8i64, 3i64);
+        let d = b * b - 4 * a * cc;
+        let (v, _) = phi(&c, &an, 4, (a, b, cc), d, &mut Budget::unlimited()).unwrap();
+        // W_32 τ is the point of [32·C, −B, A/32] = [96, −8, 1].
+        let (w, _) = phi(
+            &c,
+            &an,
+            4,
+            (32 * cc, -b, a / 32),
+            d,
+            &mut Budget::unlimited(),
+        )
+        .unwrap();
+        let im = f.approx_f64(&(&v.im + &w.im));
+        let re = f.approx_f64(&f.div(&(&v.re + &w.re), &c.w1));
+        assert!(im.abs() < 1e-40, "{im}");
+        let frac = re - re.round();
+        assert!((frac - 0.25).abs() < 1e-12, "{re}");
     }
 }

@@ -148,10 +148,107 @@ pub(crate) fn heegner_forms(
                 let num = i128::from(b) * i128::from(b) - i128::from(d);
                 if num % (4 * i128::from(a)) == 0 {
                     let c = (num / (4 * i128::from(a))) as i64;
+                    if !level_primitive((a, b, c), n) {
+                        b += 2 * n;
+                        continue;
+                    }
                     let key = reduce(a, b, c);
                     if let std::collections::hash_map::Entry::Vacant(e) = seen.entry(key) {
                         e.insert((a, b, c));
                         order.push((a, b, c));
+                    }
+                }
+            }
+            b += 2 * n;
+        }
+        a1 += 1;
+    }
+    Ok((h, order))
+}
+
+/// True when `[A, B, C]` and `[A/N, B, CN]` are both primitive: `τ` and
+/// `Nτ` then have complex multiplication by the same order (the Heegner
+/// condition for orders; Gross 1984, §1, from memory). For a fundamental
+/// `D` this holds for every form with `N | A`.
+pub(crate) fn level_primitive((a, b, c): Form, n: i64) -> bool {
+    a.gcd(&b).gcd(&c) == 1 && (a / n).gcd(&b).gcd(&(c * n)) == 1
+}
+
+/// How a class is represented in a trace: `Direct(F)` adds `φ(τ_F)`;
+/// `Flipped(F)` stands for the class of the Heegner form `W_N(F)` and adds
+/// `c − ε·φ(τ_F)` with `φ(W_N τ) = ε·φ(τ) + c` (the Atkin–Lehner
+/// relation, `ε = −w(E)`; the caller supplies `ε` and `c` for its curve).
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub(crate) enum Rep {
+    /// `φ` at the form itself (`B ≡ β`).
+    Direct(Form),
+    /// `φ` at this `−β` form, whose `W_N` image lies in the class.
+    Flipped(Form),
+}
+
+impl Rep {
+    /// The form at which `φ` is evaluated.
+    pub(crate) fn form(&self) -> Form {
+        match *self {
+            Rep::Direct(f) | Rep::Flipped(f) => f,
+        }
+    }
+}
+
+/// One representative per class of level-`n` Heegner forms of residue
+/// `β` and discriminant `d` (any order: `d` need not be fundamental),
+/// each evaluated where `Im τ` is largest, and `h(d)`.
+///
+/// For a Heegner form `F = [A, B, C]` (`B ≡ β mod 2N`) the conjugate
+/// `F̄ = [A, −B, C]` is a `−β` form, and `W_N(τ_F̄) = −1/(Nτ_F̄)` is the
+/// point of `[NC, B, A/N]`, a `β` form again (`−1/(Nτ) = (B + √D)/(2NC)`
+/// for `τ = (B + √D)/(2A)`). So a class is reached either directly by the
+/// least `A` among its forms, or through `W_N` by the least `A` of a form
+/// `F` with `[NC, B, A/N]` in the class; `A` runs upwards, and the first
+/// way found is the one with the largest `Im τ = √|D|/(2A)` among both.
+/// One budget unit per candidate `B`.
+///
+/// # Errors
+/// [`Error::BudgetExhausted`]; [`Error::Internal`] if some class is not
+/// reached with `A ≤ N·(|D| + 1)`.
+pub(crate) fn heegner_cover(
+    d: i64,
+    n: i64,
+    beta: i64,
+    budget: &mut Budget,
+) -> Result<(usize, Vec<Rep>)> {
+    let h = reduced_forms(d).len();
+    let mut seen: HashMap<Form, Rep> = HashMap::with_capacity(h);
+    let mut order = Vec::with_capacity(h);
+    let limit = -d + 1;
+    let mut a1 = 1;
+    while seen.len() < h {
+        if a1 > limit {
+            return Err(Error::Internal {
+                check: format!(
+                    "no Heegner form of level {n} found for every class of discriminant {d}"
+                ),
+            });
+        }
+        let a = n * a1;
+        let first = beta - 2 * n * ((beta + a - 1).div_euclid(2 * n));
+        let mut b = first;
+        while b <= a {
+            budget.spend(1).map_err(|_| Error::BudgetExhausted {
+                stage: "Heegner forms".into(),
+            })?;
+            let num = i128::from(b) * i128::from(b) - i128::from(d);
+            if b > -a && num % (4 * i128::from(a)) == 0 {
+                let c = (num / (4 * i128::from(a))) as i64;
+                if level_primitive((a, b, c), n) {
+                    for (key, rep) in [
+                        (reduce(a, b, c), Rep::Direct((a, b, c))),
+                        (reduce(n * c, b, a1), Rep::Flipped((a, -b, c))),
+                    ] {
+                        if let std::collections::hash_map::Entry::Vacant(e) = seen.entry(key) {
+                            e.insert(rep);
+                            order.push(rep);
+                        }
                     }
                 }
             }

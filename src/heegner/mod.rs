@@ -14,6 +14,12 @@
 //! non-zero multiple of `L'(E_n, 1)·L(E0, 1)`, so it has infinite order
 //! exactly when `L'(E_n, 1) ≠ 0`.
 //!
+//! For square-free `n ≡ 5, 6 (mod 8)` 2 ramifies in `K`; the route uses
+//! Heegner points of conductor 4 (the order of discriminant `−64n`, the
+//! kind of points of Tian, *Cambridge J. Math.* 2 (2014), from memory).
+//! That their trace has infinite order is observed, not assumed: a torsion
+//! trace is reported as such, and every point is checked exactly.
+//!
 //! What is proven and what is numerics: the series, the periods and `℘`
 //! are evaluated in binary fixed point (`fixed`) only to *propose* the
 //! rational `x`-coordinate; the point is then checked on the curve in
@@ -75,14 +81,23 @@ impl Default for HeegnerOptions {
 pub struct HeegnerPoint {
     /// `n` of the model `y² = x³ − n²x` isomorphic to the curve.
     pub n: BigInt,
-    /// The discriminant `D = −n` of `K`.
+    /// The discriminant `D = f²·D_K` of the order used: `−n` for
+    /// `n ≡ 7 (mod 8)` (`f = 1`), `−64n` for `n ≡ 5, 6 (mod 8)` (`f = 4`).
     pub discriminant: i64,
-    /// The class number `h(D)` (the number of Heegner points summed).
+    /// The conductor `f` of the order of discriminant `D` in
+    /// `K = Q(√−n)`.
+    pub conductor: u32,
+    /// The class number `h(D)` of the order (the number of Heegner points
+    /// summed).
     pub class_number: usize,
     /// The level of the modular curve (32).
     pub level: u32,
     /// The point of `E_n(Q)` from the trace (on the input model), checked
-    /// on the curve exactly.
+    /// on the curve exactly. When the trace's parameter was halved before
+    /// recognition (index `2^j`, see `docs/heegner.md`) this is `2^j·R`
+    /// computed exactly from the recognised `R`; it equals the trace up to
+    /// sign and 2-torsion to the working precision (a numerical agreement,
+    /// not an exact check).
     pub trace_point: Point,
     /// `trace_point = ±index·point + T` with `T` torsion, checked exactly.
     pub point: Point,
@@ -101,9 +116,10 @@ pub struct HeegnerPoint {
 pub enum HeegnerOutcome {
     /// A point of infinite order, checked exactly.
     Found(HeegnerPoint),
-    /// The trace is a torsion point. By Gross–Zagier this means
-    /// `L'(E_n, 1) = 0`; when the caller has that value certified
-    /// non-zero, this outcome signals a defect.
+    /// The trace is a torsion point. For the maximal order (odd `D`) this
+    /// means `L'(E_n, 1) = 0` by Gross–Zagier; when the caller has that
+    /// value certified non-zero, this outcome signals a defect. For the
+    /// order of conductor 4 (`D = −64n`) no theorem used here excludes it.
     Torsion {
         /// `D`.
         discriminant: i64,
@@ -201,7 +217,8 @@ pub fn congruent_model(
 }
 
 /// A Heegner point on a curve isomorphic to `E_n: y² = x³ − n²x` with
-/// square-free `n ≡ 7 (mod 8)`, as a point of the input model.
+/// square-free `n ≡ 5, 6, 7 (mod 8)`, as a point of the input model
+/// (`docs/heegner.md` has the order used for each class of `n`).
 ///
 /// `predicted_height` is `ĥ` of a generator by the Birch–Swinnerton-Dyer
 /// formula with `#Ш = 1` (x-normalisation of [`crate::height`]); it is a
@@ -223,20 +240,17 @@ pub fn heegner_point(
         ));
     };
     let r8 = (&n % BigInt::from(8)).to_u64().unwrap_or(0);
-    if r8 != 7 {
-        let why = match r8 {
-            1..=3 => "root number +1 (n = 1, 2, 3 mod 8)".to_string(),
-            _ => format!(
-                "n = {r8} mod 8: 2 does not split in Q(sqrt(-n)), the Heegner hypothesis fails at level 32"
-            ),
-        };
-        return Ok(HeegnerOutcome::NotApplicable(why));
+    if !matches!(r8, 5..=7) {
+        return Ok(HeegnerOutcome::NotApplicable(
+            "root number +1 (n = 1, 2, 3 mod 8)".into(),
+        ));
     }
     let nn = match n.to_u64() {
-        Some(v) if v <= options.max_discriminant => v,
+        Some(v) if v.saturating_mul(if r8 == 7 { 1 } else { 64 }) <= options.max_discriminant => v,
         _ => {
             return Ok(HeegnerOutcome::NotApplicable(format!(
-                "|D| = {n} above the limit {}",
+                "|D| = {}·{n} above the limit {}",
+                if r8 == 7 { 1 } else { 64 },
                 options.max_discriminant
             )))
         }
@@ -263,26 +277,50 @@ fn guard_bits(terms: u64) -> u32 {
     2 * (64 - terms.leading_zeros()) + 24
 }
 
-/// The Heegner point on `E_n` itself (`n ≡ 7 mod 8`, square-free).
+/// The Heegner point on `E_n` itself (`n ≡ 5, 6, 7 mod 8`, square-free).
 fn point_on_twist(
     n: u64,
     predicted_height: Option<f64>,
     options: &HeegnerOptions,
     budget: &mut Budget,
 ) -> Result<HeegnerOutcome> {
-    let d = -(n as i64);
-    if !forms::is_fundamental(d) {
-        return Ok(HeegnerOutcome::NotApplicable(format!(
-            "{d} is not a fundamental discriminant"
-        )));
-    }
-    let Some(beta) = forms::heegner_beta(d, LEVEL) else {
-        return Ok(HeegnerOutcome::NotApplicable(format!(
-            "{d} is not a square modulo {}",
-            4 * LEVEL
-        )));
+    // The order: the maximal order of Q(√−n) for n ≡ 7 (mod 8), where 2
+    // splits; for n ≡ 5, 6 (mod 8), where 2 ramifies, the order of
+    // conductor 4, of discriminant D = 16·(−4n) = −64n, which is a square
+    // modulo 128: B = 8c with c odd (n ≡ 5), B = 16c with c odd (n ≡ 6).
+    // For n ≡ 6 the residues β ≡ 0 (mod 32) give a torsion trace (seen
+    // numerically), so β = 16 there.
+    let (d, conductor, beta) = match n % 8 {
+        7 => {
+            let d = -(n as i64);
+            if !forms::is_fundamental(d) {
+                return Ok(HeegnerOutcome::NotApplicable(format!(
+                    "{d} is not a fundamental discriminant"
+                )));
+            }
+            let Some(beta) = forms::heegner_beta(d, LEVEL) else {
+                return Ok(HeegnerOutcome::NotApplicable(format!(
+                    "{d} is not a square modulo {}",
+                    4 * LEVEL
+                )));
+            };
+            (d, 1u32, beta)
+        }
+        5 => (-64 * n as i64, 4, 8),
+        6 => (-64 * n as i64, 4, 16),
+        _ => {
+            return Ok(HeegnerOutcome::NotApplicable(format!(
+                "n = {} mod 8 is outside the routes",
+                n % 8
+            )))
+        }
     };
-    let (h, hforms) = forms::heegner_forms(d, LEVEL, beta, budget)?;
+    if (beta * beta - d) % (4 * LEVEL) != 0 {
+        return Err(Error::Internal {
+            check: format!("{beta}^2 is not {d} modulo {}", 4 * LEVEL),
+        });
+    }
+    let (h, hforms) = forms::heegner_cover(d, LEVEL, beta, budget)?;
     let nb = BigInt::from(n);
     let e = Curve::from_bigints([
         BigInt::zero(),
@@ -293,17 +331,20 @@ fn point_on_twist(
     ])?;
     // Precision: recognising X = a/d² from an approximation needs an error
     // below 1/(2d⁴) (Legendre's theorem on continued fractions), and ℘
-    // near its pole loses a further 1.5·log|X|; with log max(|a|, d²) ≤ H
-    // that is 3.5·H/ln 2 bits. H starts at the predicted height (index 1
+    // near its pole multiplies the parameter's error by |dX/dy| ≈
+    // 2|X|^{3/2}/√n: p ≥ 2·log₂(d²) + 1.5·log₂|X| + 2 bits. With
+    // H = log max(|a|, d²): if |a| ≥ d², log|X| = H − log d² and the sum is
+    // 1.5H + 0.5·log d² ≤ 2H; otherwise log|X| < 0 and it is ≤ 2H. So
+    // 2·H/ln 2 bits (plus log₂ n and the guard bits). H starts at the predicted height (index 1
     // between the trace and a generator, #Ш = 1) plus a margin for the
     // naive–canonical difference; the precision doubles on failure, so a
     // larger index or Ш costs at most twice the final attempt.
     let start_h = predicted_height
         .filter(|h| h.is_finite() && *h > 0.0)
         .map_or(40.0, |h| 1.1 * h + 2.0 * (n as f64).ln() + 10.0);
-    let amax = hforms.iter().map(|f| f.0).max().unwrap_or(LEVEL);
-    let qmax = (-std::f64::consts::PI * (n as f64).sqrt() / amax as f64).exp();
-    let mut bits = ((3.5 * start_h / std::f64::consts::LN_2) as u32 + 64)
+    let amax = hforms.iter().map(|f| f.form().0).max().unwrap_or(LEVEL);
+    let qmax = (-std::f64::consts::PI * ((-d) as f64).sqrt() / amax as f64).exp();
+    let mut bits = ((2.0 * start_h / std::f64::consts::LN_2 + (n as f64).log2()) as u32 + 64)
         .clamp(128, options.max_bits.max(128));
     // The coefficients of E0 for the largest precision that may be used.
     let e0 = Curve::from_ints([0, 0, 0, -1, 0])?;
@@ -331,11 +372,16 @@ fn point_on_twist(
                 class_number: h,
             });
         }
-        if let Some(q) = congruent::point_at(&c, false, &y, &nb, guard + 16) {
+        // The trace point itself, or a point R with 2^j·R = ±trace + T
+        // (j ≤ 3, T ∈ E_n[2]) found from the halved parameter: the order-4
+        // routes give traces of index 2, 4 or 8, and recognising R needs
+        // 4^j times fewer bits than recognising the trace.
+        if let Some((r0, y0, j)) = congruent::point_or_halves(&c, &y, &nb, guard + 16, 3, budget)? {
+            let q = e.mul(&r0, &(BigInt::from(1u8) << j));
             // Divide by the primes of the index the height ratio suggests,
             // then by 2, 3, 5, 7 while that works (each checked exactly).
             let mut primes: Vec<u64> = Vec::new();
-            if let (Some(hp), Ok(hq)) = (predicted_height, crate::height::canonical_height(&e, &q))
+            if let (Some(hp), Ok(hq)) = (predicted_height, crate::height::canonical_height(&e, &r0))
             {
                 let t = (hq.value() / hp).sqrt();
                 let rt = t.round();
@@ -356,9 +402,9 @@ fn point_on_twist(
             }
             primes.retain(|&p| p <= options.max_division_prime);
             primes.extend([2, 3, 5, 7]);
-            let mut point = q.clone();
-            let mut param = (false, y.clone());
-            let mut index = 1u64;
+            let mut point = r0;
+            let mut param = (false, y0);
+            let mut index = 1u64 << j;
             let mut tried_small = [false; 8];
             let mut divisions = 0;
             for p in primes {
@@ -401,6 +447,7 @@ fn point_on_twist(
             return Ok(HeegnerOutcome::Found(HeegnerPoint {
                 n: nb,
                 discriminant: d,
+                conductor,
                 class_number: h,
                 level: LEVEL as u32,
                 trace_point: q,

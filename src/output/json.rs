@@ -236,6 +236,7 @@ struct LedgerView {
 struct HeegnerView {
     outcome: &'static str,
     discriminant: Option<i64>,
+    conductor: Option<u32>,
     class_number: Option<usize>,
     level: Option<u32>,
     index: Option<u64>,
@@ -251,6 +252,7 @@ fn heegner_view(o: &crate::heegner::HeegnerOutcome) -> HeegnerView {
     let mut v = HeegnerView {
         outcome: "not_applicable",
         discriminant: None,
+        conductor: None,
         class_number: None,
         level: None,
         index: None,
@@ -264,6 +266,7 @@ fn heegner_view(o: &crate::heegner::HeegnerOutcome) -> HeegnerView {
         H::Found(h) => {
             v.outcome = "found";
             v.discriminant = Some(h.discriminant);
+            v.conductor = Some(h.conductor);
             v.class_number = Some(h.class_number);
             v.level = Some(h.level);
             v.index = Some(h.index);

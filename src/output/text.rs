@@ -688,8 +688,9 @@ fn heegner_text(f: &mut fmt::Formatter<'_>, r: &DescentReport) -> fmt::Result {
     match r.heegner() {
         Some(H::Found(h)) => writeln!(
             f,
-            "point from a Heegner point: D = {}, h(D) = {}, level {}; trace point {} = ±{}·point + torsion (checked exactly; {} bits, {} series terms)",
+            "point from a Heegner point: D = {} (order of conductor {}), h(D) = {}, level {}; trace point {} = ±{}·point + torsion (checked exactly; {} bits, {} series terms)",
             h.discriminant,
+            h.conductor,
             h.class_number,
             h.level,
             point_text(&h.trace_point),
