@@ -84,6 +84,11 @@ pub struct DeepSearchOptions {
     /// (see [`DeepSearchOptions::guided`]). A heuristic for the budget,
     /// never used in a proof. Default true.
     pub bsd_guided: bool,
+    /// Rank two and more, with the analytic side available: the largest
+    /// covering height a hunt sized by the predicted regulator may reach
+    /// (see [`DeepSearchOptions::guided_rank_two`]). Default 16 384, about
+    /// 9·10⁷ work units for a hunt that finds nothing.
+    pub reach_covering_height: u64,
 }
 
 impl Default for DeepSearchOptions {
@@ -97,6 +102,7 @@ impl Default for DeepSearchOptions {
             twists_per_class: 2 * TWISTS_PER_CLASS,
             max_twists: 1 << 6,
             bsd_guided: true,
+            reach_covering_height: 1 << 14,
         }
     }
 }
@@ -153,12 +159,55 @@ impl DeepSearchOptions {
             }
             m += step;
         };
-        // Never below the first round: the calibration is for large
-        // curves, and a round at the first height is cheap (1/256 of the
-        // default last round).
+        if m == 1 {
+            // The prediction with #Ш = 1 is within reach: the full rounds
+            // (which stop at the first point). Stopping them earlier at
+            // the calibrated height lost generators: on the box
+            // |a|, |b| ≤ 100, 109 curves of predicted height 10–90 whose
+            // points need covering heights far above e^{(ĥ − 3)/8}
+            // (docs/deep_search.md). When even the calibration's headroom
+            // fits in the default rounds (e^{(ĥ − 3)/8} ≤ max), a point
+            // missed there lies on a covering far larger than its height
+            // suggests; one more round, to `reach_covering_height`.
+            if height_for(target) <= max_h {
+                o.max_covering_height = self.max_covering_height.max(self.reach_covering_height);
+            }
+            return o;
+        }
+        // Never below the first round: a round at the first height is
+        // cheap (1/256 of the default last round).
         let floor = self.first_covering_height as f64;
         let h = height_for(target).max(floor).min(max_h).ceil() as u64;
         o.max_covering_height = h.clamp(self.first_covering_height, self.max_covering_height);
+        o
+    }
+
+    /// The options for a hunt for the last missing generator of a curve
+    /// of rank r ≥ 2, sized by the Birch–Swinnerton-Dyer formula.
+    /// `predicted` is the height that formula gives the missing generator
+    /// with `#Ш = 1`: the predicted regulator divided by the regulator of
+    /// the r − 1 known points (for a reduced basis the last minimum lies
+    /// between that quotient and 4/3 of it, common practice). When that
+    /// height, divided by `2^sha2_dim` (Ш\[2\] as the descent proves it), is
+    /// beyond the calibrated reach of `max_covering_height`
+    /// (`ĥ ≤ 8·ln H + 17`) but within reach of `reach_covering_height`,
+    /// the rounds go on to `reach_covering_height`; otherwise the options
+    /// are unchanged. Only the amount of searching changes; what is found
+    /// is proven as always.
+    pub fn guided_rank_two(&self, predicted: f64, sha2_dim: usize) -> DeepSearchOptions {
+        let mut o = self.clone();
+        if !(self.bsd_guided && predicted.is_finite() && predicted > 0.0) {
+            return o;
+        }
+        let h = predicted / 2f64.powi(sha2_dim.min(60) as i32);
+        let reach = 8.0 * (self.reach_covering_height as f64).ln() + REACH_OFFSET;
+        let need = height_for(h);
+        if need > self.max_covering_height as f64
+            && h <= reach
+            && self.reach_covering_height > self.max_covering_height
+        {
+            o.max_covering_height = (need.ceil() as u64).min(self.reach_covering_height);
+        }
         o
     }
 
@@ -174,7 +223,10 @@ impl DeepSearchOptions {
         }
         // 2⁶²/… would overflow the sieve's cost estimate long before; keep
         // heights where H² fits comfortably in a u64.
-        if self.max_covering_height > (1 << 24) || self.max_space_height > (1 << 24) {
+        if self.max_covering_height > (1 << 24)
+            || self.max_space_height > (1 << 24)
+            || self.reach_covering_height > (1 << 24)
+        {
             return bad("heights above 2^24 are not supported");
         }
         if self.growth < 2 || self.growth > 1 << 10 {
@@ -330,6 +382,7 @@ fn search_coverings(
     let mut sd = SecondDescentOptions::default().with_search_height(h);
     sd.search_units = sd.search_units.max(search_cost(h));
     sd.max_twists = options.max_twists;
+    sd.covariant_reduction = true;
     let outcome = if hunt.side.pairing.is_some() {
         let lift = class_lift(&hunt.side.model, d, &hunt.side.qs2, budget)?;
         let twists = soluble_twists(
@@ -636,19 +689,58 @@ mod tests {
         // The calibration of the module: stop at e^{(ĥ − 3)/8}, within
         // [first_covering_height, max_covering_height].
         let o = DeepSearchOptions::default();
-        assert_eq!(o.guided(50.0, 0).rounds(), vec![256, 357]);
-        assert_eq!(o.guided(20.0, 0).rounds(), vec![256]);
+        // Within reach with #Ш = 1: the full rounds, and one more when
+        // e^{(ĥ − 3)/8} ≤ 4096 (ĥ ≤ 69.5).
+        assert_eq!(o.guided(50.0, 0).rounds(), vec![256, 1024, 4096, 16384]);
+        assert_eq!(o.guided(20.0, 0).rounds(), vec![256, 1024, 4096, 16384]);
         assert_eq!(o.guided(80.0, 0).rounds(), vec![256, 1024, 4096]);
-        // Beyond reach: the next candidate is ĥ/9 (Ш odd), here 25.
+        // Beyond reach: the next candidate is ĥ/9 (Ш odd), here 25, and
+        // one cheap round aimed at it.
         assert_eq!(o.guided(225.0, 0).rounds(), vec![256]);
-        // With dim Ш[2] = 2 the prediction is divided by 4 first.
-        assert_eq!(o.guided(200.0, 2).rounds(), o.guided(50.0, 0).rounds());
+        // Beyond reach, ĥ/9 = 80: rounds up to e^{(80 − 3)/8}.
+        assert_eq!(o.guided(720.0, 0).rounds(), vec![256, 1024, 4096]);
+        assert_eq!(o.guided(603.0, 0).rounds(), vec![256, 1024, 2981]);
+        // With dim Ш[2] = 2 the prediction is divided by 4 first (225),
+        // and m need not be odd: 225/2² = 56.25 is in reach, and the
+        // rounds stop at e^{(56.25 − 3)/8} ≈ 778.
+        assert_eq!(o.guided(900.0, 2).rounds(), vec![256, 778]);
         let off = DeepSearchOptions {
             bsd_guided: false,
             ..DeepSearchOptions::default()
         };
         assert_eq!(off.guided(50.0, 0), off);
         assert_eq!(o.guided(f64::NAN, 0), o);
+    }
+
+    #[test]
+    fn the_predicted_regulator_raises_the_rank_two_rounds() {
+        // The rounds stop at e^{(ĥ − 3)/8} (as for rank one), raised
+        // above 4096 only for ĥ within the reach of 16384, 8·ln 16384 + 17
+        // ≈ 94.6.
+        let o = DeepSearchOptions::default();
+        assert_eq!(
+            o.guided_rank_two(90.0, 0).rounds(),
+            vec![256, 1024, 4096, 16384]
+        );
+        assert_eq!(
+            o.guided_rank_two(77.0, 0).rounds(),
+            vec![256, 1024, 4096, 10405]
+        );
+        // Needing no more than the default rounds, or beyond any reach:
+        // unchanged.
+        assert_eq!(o.guided_rank_two(60.0, 0), o);
+        assert_eq!(o.guided_rank_two(140.0, 0), o);
+        // dim Ш[2] = 1 halves the prediction: 180 → 90.
+        assert_eq!(
+            o.guided_rank_two(180.0, 1).rounds(),
+            vec![256, 1024, 4096, 16384]
+        );
+        let off = DeepSearchOptions {
+            bsd_guided: false,
+            ..DeepSearchOptions::default()
+        };
+        assert_eq!(off.guided_rank_two(90.0, 0), off);
+        assert_eq!(o.guided_rank_two(f64::NAN, 0), o);
     }
 
     #[test]

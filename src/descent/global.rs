@@ -14,7 +14,9 @@
 //!    family the layer covers; checked exactly, it becomes the point.
 //!    When the rank is decided but fewer independent points are known,
 //!    the deep search ([`super::deep_search`]) looks for the missing ones
-//!    on 4-coverings at larger heights, under its own budget.
+//!    on 4-coverings at larger heights, under its own budget; while the
+//!    bounds are open it aims at the rank the root number's parity gives
+//!    (a target only: the bounds move with the points it proves).
 //!    When the rank is decided and as many independent points are known,
 //!    [`crate::height::saturate`] turns them into generators of
 //!    E(Q)/E(Q)_tors, with heights, the regulator and the index
@@ -163,12 +165,19 @@ pub(crate) fn complete(
         heegner_step(report, hopts, options, deadline);
     }
     if let Some(dopts) = &options.deep_search {
-        let rank = report.bounds.lower;
-        if report.bounds.is_decided() && report.points.len() < rank {
+        let target = if report.bounds.is_decided() {
+            Some(report.bounds.lower)
+        } else {
+            parity_target(report)
+        };
+        if let Some(rank) = target.filter(|&r| report.points.len() < r) {
             let mut budget = options.budget(options.global_units, deadline);
             let guided = match predicted_generator_height(report) {
                 Some((h, sha2)) if rank == 1 => dopts.guided(h, sha2),
-                _ => dopts.clone(),
+                _ => match predicted_last_generator_height(report, rank) {
+                    Some((h, sha2)) => dopts.guided_rank_two(h, sha2),
+                    None => dopts.clone(),
+                },
             };
             match super::deep_search::complete_report_points_cut(report, rank, &guided, &mut budget)
             {
@@ -179,10 +188,19 @@ pub(crate) fn complete(
                         };
                         note_stop(report, "deep search for points", &e);
                     }
-                    if points.len() > report.points.len() {
+                    if points.len() > report.bounds.upper {
+                        // Independent points beyond a proven upper bound:
+                        // one of the two computations is wrong.
+                        report.global.conflict = Some(format!(
+                            "the deep search found {} independent points, above the proven upper bound {}",
+                            points.len(),
+                            report.bounds.upper
+                        ));
+                    } else if points.len() > report.points.len() {
                         // Independent points (certified by their classes):
                         // the descent's lower bound rises with them.
                         report.descent_bounds.lower = report.descent_bounds.lower.max(points.len());
+                        report.bounds.lower = report.bounds.lower.max(points.len());
                         report.points = points;
                         report.global.origin = PointOrigin::DeepSearch;
                         // The points and the Selmer bounds now prove the rank
@@ -302,6 +320,30 @@ fn heegner_step(
     }
 }
 
+/// The rank the deep search aims at while the descent's bounds are open:
+/// the largest `r` in `(lower, upper]` with `(−1)^r` equal to the
+/// certified root number `w`, and not above the analytic order of
+/// vanishing when one is known. By the parity conjecture (which follows
+/// from the finiteness of Ш) this is the rank when `upper − lower ≤ 2`;
+/// it is only a target for the search, never a claim: the bounds move
+/// only when the points are found, and each found point is proven
+/// independent by its Selmer class. `None` without a root number (the
+/// search would have no reason to expect the points).
+fn parity_target(report: &DescentReport) -> Option<usize> {
+    let b = report.bounds;
+    let a = report.global.analytic.as_ref()?;
+    if report.global.conflict.is_some() {
+        return None;
+    }
+    let w = a.root_number()?;
+    let cap = a
+        .analytic_order()
+        .map_or(b.upper, |o| o.order().min(b.upper));
+    (b.lower + 1..=cap)
+        .rev()
+        .find(|r| (if r % 2 == 0 { 1 } else { -1 }) == w)
+}
+
 /// For rank one: the canonical height of a generator predicted by the
 /// Birch–Swinnerton-Dyer formula with `#Ш = 1`,
 /// `L'(E,1)·|T|²/(Ω·∏c_p)`, and `dim Ш(E)[2]` as the descent proves it
@@ -328,6 +370,39 @@ fn predicted_generator_height(report: &DescentReport) -> Option<(f64, usize)> {
     let (_, n2) = report.torsion.structure();
     let t2 = if n2 <= 1 { 1 } else { 2 };
     let sha2 = report.selmer2_rank.map_or(0, |s| s.saturating_sub(t2 + 1));
+    Some((h, sha2))
+}
+
+/// For rank `r ≥ 2` with `r − 1` independent points known: the height of
+/// the missing generator that the Birch–Swinnerton-Dyer formula predicts
+/// with `#Ш = 1`, `L^(r)(E,1)/r!·|T|²/(Ω·∏c_p)` divided by the regulator
+/// of the known points, and `dim Ш(E)[2]` if the rank is `r` (from the
+/// 2-Selmer rank). A conjecture, used only to size the deep search.
+fn predicted_last_generator_height(report: &DescentReport, r: usize) -> Option<(f64, usize)> {
+    if r < 2 || report.points.len() + 1 != r {
+        return None;
+    }
+    let a = report.global.analytic.as_ref()?;
+    let l = a.l_value(r)?.value();
+    let omega = a.real_period()?.value();
+    let cp: f64 = report
+        .local_data
+        .as_ref()?
+        .primes
+        .iter()
+        .map(|p| p.tamagawa as f64)
+        .product();
+    let t = f64::from(report.torsion.order());
+    let factorial: f64 = (1..=r).map(|k| k as f64).product();
+    let reg = l / factorial * t * t / (omega * cp);
+    let known = crate::height::regulator(&report.curve, &report.points).ok()?;
+    let h = reg / known.value();
+    if !(h.is_finite() && h > 0.0 && known.lower() > 0.0) {
+        return None;
+    }
+    let (_, n2) = report.torsion.structure();
+    let t2 = if n2 <= 1 { 1 } else { 2 };
+    let sha2 = report.selmer2_rank.map_or(0, |s| s.saturating_sub(t2 + r));
     Some((h, sha2))
 }
 

@@ -152,6 +152,11 @@ pub struct SecondDescentOptions {
     /// Most twists `λ` examined; more (a very large `2·d·Res`) is an
     /// [`Error::BudgetExhausted`].
     pub max_twists: usize,
+    /// Reduce each 4-covering first by a positive definite quadratic
+    /// covariant built from its roots (Gauss reduction of
+    /// `Σ |x − α_j z|²/|g′(α_j)|`), then by the greedy steps; default
+    /// false (the greedy steps only).
+    pub covariant_reduction: bool,
 }
 
 impl Default for SecondDescentOptions {
@@ -160,6 +165,7 @@ impl Default for SecondDescentOptions {
             search_height: 64,
             search_units: 20_000_000,
             max_twists: 1 << 12,
+            covariant_reduction: false,
         }
     }
 }
@@ -419,6 +425,163 @@ fn size4(g: &[BigInt; 5], budget: &mut Budget) -> Result<BigInt> {
     Ok(g.iter().map(|c| c * c).sum())
 }
 
+/// A complex number for the root finder of [`covariant_frame`].
+#[derive(Clone, Copy, Debug)]
+struct Cx(f64, f64);
+
+impl Cx {
+    fn add(self, o: Cx) -> Cx {
+        Cx(self.0 + o.0, self.1 + o.1)
+    }
+    fn sub(self, o: Cx) -> Cx {
+        Cx(self.0 - o.0, self.1 - o.1)
+    }
+    fn mul(self, o: Cx) -> Cx {
+        Cx(self.0 * o.0 - self.1 * o.1, self.0 * o.1 + self.1 * o.0)
+    }
+    fn div(self, o: Cx) -> Cx {
+        let n = o.0 * o.0 + o.1 * o.1;
+        Cx(
+            (self.0 * o.0 + self.1 * o.1) / n,
+            (self.1 * o.0 - self.0 * o.1) / n,
+        )
+    }
+    fn abs(self) -> f64 {
+        self.0.hypot(self.1)
+    }
+}
+
+/// The coefficients of `g` as `f64`, all divided by the same power of two
+/// so that the largest is about 1 (`None` if `g = 0`).
+fn scaled_f64(g: &[BigInt; 5]) -> Option<[f64; 5]> {
+    use num_traits::ToPrimitive;
+    let bits = g.iter().map(|c| c.bits()).max()?;
+    if bits == 0 {
+        return None;
+    }
+    let shift = bits.saturating_sub(60);
+    let out = g.clone().map(|c| {
+        let v = (&c >> shift).to_f64().unwrap_or(0.0);
+        v / 2f64.powi(60.min(bits) as i32)
+    });
+    out.iter().all(|v| v.is_finite()).then_some(out)
+}
+
+/// The roots of `c0 t⁴ + c1 t³ + c2 t² + c3 t + c4` (`c0 ≠ 0`) by the
+/// Durand–Kerner iteration (common practice); `None` if it does not settle.
+fn quartic_roots(c: &[f64; 5]) -> Option<[Cx; 4]> {
+    if c[0] == 0.0 {
+        return None;
+    }
+    let m: Vec<f64> = c.iter().map(|x| x / c[0]).collect();
+    let p = |z: Cx| {
+        let mut v = Cx(1.0, 0.0);
+        for &mi in &m[1..] {
+            v = v.mul(z).add(Cx(mi, 0.0));
+        }
+        v
+    };
+    let radius = 1.0 + m[1..].iter().fold(0.0f64, |a, x| a.max(x.abs()));
+    let seed = Cx(0.4, 0.9);
+    let mut z = [Cx(radius, 0.0); 4];
+    let mut w = Cx(1.0, 0.0);
+    for zi in z.iter_mut() {
+        w = w.mul(seed);
+        *zi = Cx(w.0 * radius, w.1 * radius);
+    }
+    for _ in 0..500 {
+        let mut moved = 0.0f64;
+        for i in 0..4 {
+            let mut den = Cx(1.0, 0.0);
+            for j in 0..4 {
+                if i != j {
+                    den = den.mul(z[i].sub(z[j]));
+                }
+            }
+            if den.abs() == 0.0 {
+                return None;
+            }
+            let step = p(z[i]).div(den);
+            z[i] = z[i].sub(step);
+            moved = moved.max(step.abs() / (1.0 + z[i].abs()));
+        }
+        if moved < 1e-14 {
+            break;
+        }
+    }
+    z.iter()
+        .all(|r| r.0.is_finite() && r.1.is_finite())
+        .then_some(z)
+}
+
+/// A unimodular frame `T` (old = T·new) that reduces the positive definite
+/// quadratic form `Q = Σ_j |x − α_j z|²/|g′(α_j)|` over the roots `α_j` of
+/// `g(t, 1)` by Gauss's steps (`|B| ≤ A ≤ C`). The weights make `Q` follow
+/// the substitutions applied to `g` (for a quartic `g′(α_j)` picks up the
+/// square of the factor `|x − α_j z|` loses; common practice for reduction
+/// covariants of binary forms), so a reduced `Q` means a quartic whose
+/// points of small height have `x` and `z` of the same size. Floating
+/// point only chooses `T`; any unimodular `T` keeps the points in
+/// bijection, so nothing proven depends on it. The identity when the roots
+/// cannot be found (leading coefficient 0, or no convergence).
+fn covariant_frame(g: &[BigInt; 5]) -> [[BigInt; 2]; 2] {
+    let id = identity2();
+    let Some(c) = scaled_f64(g) else { return id };
+    let Some(roots) = quartic_roots(&c) else {
+        return id;
+    };
+    let dg = |z: Cx| {
+        let mut v = Cx(4.0 * c[0], 0.0);
+        for (k, &ck) in c[1..4].iter().enumerate() {
+            v = v.mul(z).add(Cx((3 - k) as f64 * ck, 0.0));
+        }
+        v
+    };
+    let (mut a, mut b, mut cc) = (0.0f64, 0.0f64, 0.0f64);
+    for r in roots {
+        let d = dg(r).abs();
+        if !(d.is_finite() && d > 0.0) {
+            return id;
+        }
+        let t = 1.0 / d;
+        a += t;
+        b -= 2.0 * t * r.0;
+        cc += t * (r.0 * r.0 + r.1 * r.1);
+    }
+    if !(a > 0.0 && cc > 0.0 && 4.0 * a * cc > b * b) {
+        return id;
+    }
+    let mut t = [[1i64, 0i64], [0i64, 1i64]];
+    for _ in 0..200 {
+        if b.abs() > a {
+            let k = (b / (2.0 * a)).round();
+            if k.is_nan() || k.abs() >= 1e12 {
+                return id;
+            }
+            // x = m − k n, z = n
+            cc += a * k * k - b * k;
+            b -= 2.0 * k * a;
+            let k = k as i64;
+            let (Some(t01), Some(t11)) = (
+                t[0][1].checked_sub(k.saturating_mul(t[0][0])),
+                t[1][1].checked_sub(k.saturating_mul(t[1][0])),
+            ) else {
+                return id;
+            };
+            t[0][1] = t01;
+            t[1][1] = t11;
+        } else if a > cc {
+            // x = −n, z = m
+            std::mem::swap(&mut a, &mut cc);
+            b = -b;
+            t = [[t[0][1], -t[0][0]], [t[1][1], -t[1][0]]];
+        } else {
+            break;
+        }
+    }
+    t.map(|row| row.map(BigInt::from))
+}
+
 /// Greedy reduction of a binary quartic by the substitutions
 /// `m ↦ m + k n` (with `k` from the shift that kills `g₃`, and `±1`) and
 /// `m ↔ n`, each accepted only if it lowers the sum of squared
@@ -670,6 +833,8 @@ struct Setup {
     resultant: BigInt,
     lambdas: Vec<BigInt>,
     known: BTreeSet<BigInt>,
+    /// Reduce the 4-coverings by the root covariant first.
+    covariant: bool,
 }
 
 /// `max = 0`: build no twist list (the caller names its twists);
@@ -765,6 +930,7 @@ fn setup(
         resultant,
         lambdas,
         known,
+        covariant: false,
     })
 }
 
@@ -807,7 +973,14 @@ fn quartic_for(
     let k = square_content(&raw, &known);
     let k2 = &k * &k;
     let scaled = raw.map(|x| x / &k2);
-    let (coeffs, frame) = reduce_quartic(&scaled, budget)?;
+    let (coeffs, frame) = if s.covariant {
+        let t = covariant_frame(&scaled);
+        let moved = transform4(&scaled, &t, budget)?;
+        let (coeffs, polish) = reduce_quartic(&moved, budget)?;
+        (coeffs, mat_mul(&t, &polish))
+    } else {
+        reduce_quartic(&scaled, budget)?
+    };
     Ok((coeffs, par, k, frame))
 }
 
@@ -976,7 +1149,8 @@ pub fn second_descent(
     budget: &mut Budget,
 ) -> Result<SecondDescentOutcome> {
     let (a, b) = (model.a(), model.b());
-    let s = setup(a, b, d, true, options.max_twists, None, budget)?;
+    let mut s = setup(a, b, d, true, options.max_twists, None, budget)?;
+    s.covariant = options.covariant_reduction;
     let f_ps = conic_primes(&s.f, budget)?;
     let g_ps = conic_primes(&s.g, budget)?;
     let mut obstructions = Vec::new();
@@ -1049,7 +1223,8 @@ pub fn second_descent_on_twists(
     budget: &mut Budget,
 ) -> Result<SecondDescentOutcome> {
     let (a, b) = (model.a(), model.b());
-    let s = setup(a, b, d, false, 0, Some(conic_point), budget)?;
+    let mut s = setup(a, b, d, false, 0, Some(conic_point), budget)?;
+    s.covariant = options.covariant_reduction;
     let [x0, y0, z0] = &s.base;
     let phi: Form2 = [0, 1, 2]
         .map(|i| x0 * &s.forms[0][i] - d * y0 * &s.forms[1][i] - &s.delta * z0 * &s.forms[2][i]);
@@ -1111,6 +1286,22 @@ pub fn second_descent_on_twists(
                 k,
                 frame,
             } => {
+                // Two twists may give the same quartic up to x ↔ z and
+                // x ↦ −x; those substitutions keep the searched box, so
+                // the second search would see the same pairs.
+                let key = equivalence_key(&coeffs);
+                if let Some(seen) = survivors
+                    .iter()
+                    .find(|sv: &&SurvivingCovering| equivalence_key(&sv.covering) == key)
+                {
+                    let search = seen.search.clone();
+                    survivors.push(SurvivingCovering {
+                        lambda,
+                        covering: coeffs,
+                        search,
+                    });
+                    continue;
+                }
                 let covering = SolubleCovering {
                     lambda,
                     coeffs,
@@ -1129,6 +1320,18 @@ pub fn second_descent_on_twists(
         survivors,
         obstructions,
     })
+}
+
+/// The least of `g(x, z)`, `g(z, x)`, `g(−x, z)` and `g(−z, x)` as
+/// coefficient vectors: equal keys mean the quartics differ by one of the
+/// substitutions `x ↔ z`, `x ↦ −x`, which map the pairs of height ≤ H
+/// onto themselves and the points of one curve onto those of the other.
+fn equivalence_key(g: &[BigInt; 5]) -> [BigInt; 5] {
+    let rev = |c: &[BigInt; 5]| [0, 1, 2, 3, 4].map(|i| c[4 - i].clone());
+    let neg =
+        |c: &[BigInt; 5]| [0, 1, 2, 3, 4].map(|i| if i % 2 == 1 { -&c[i] } else { c[i].clone() });
+    let variants = [g.clone(), rev(g), neg(g), rev(&neg(g))];
+    variants.into_iter().min().unwrap_or_else(|| g.clone())
 }
 
 /// A locally soluble 4-covering D_λ with what maps its points back to C_d.
