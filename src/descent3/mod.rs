@@ -722,7 +722,11 @@ impl std::fmt::Display for Isogeny3Report {
             writeln!(f, "  curve y^2 = x^3 {}  [{name}]", signed(&side.k))?;
             writeln!(f, "    field of y − √k: {}", side.field)?;
             let gens: Vec<String> = side.generators.iter().map(|g| g.to_string()).collect();
-            writeln!(f, "    group generators: {}", gens.join(", "))?;
+            if gens.is_empty() {
+                writeln!(f, "    group generators: none (the group is trivial)")?;
+            } else {
+                writeln!(f, "    group generators: {}", gens.join(", "))?;
+            }
             let sel: Vec<String> = side
                 .selmer_basis
                 .iter()

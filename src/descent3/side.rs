@@ -111,10 +111,18 @@ impl std::fmt::Display for Generator3 {
             Generator3::Omega => write!(f, "ω"),
             Generator3::SplitPrime { p, pi } => write!(f, "{p}·conj{pi}"),
             Generator3::Element { a, b, d, .. } => {
-                if b.is_negative() {
-                    write!(f, "({a} - {}√{d})", -b)
+                let size = b.abs();
+                let coefficient = if size.is_one() {
+                    String::new()
                 } else {
-                    write!(f, "({a} + {b}√{d})")
+                    size.to_string()
+                };
+                if b.is_zero() {
+                    write!(f, "{a}")
+                } else if b.is_negative() {
+                    write!(f, "({a} - {coefficient}√{d})")
+                } else {
+                    write!(f, "({a} + {coefficient}√{d})")
                 }
             }
         }
