@@ -240,19 +240,6 @@ pub fn is_padic_cube(z: &BigInt, p: &BigInt) -> bool {
     u.mod_floor(p).modpow(&ex, p).is_one()
 }
 
-fn pow_mod_u64(mut b: u64, mut e: u64, m: u64) -> u64 {
-    let mut r = 1 % m;
-    b %= m;
-    while e > 0 {
-        if e & 1 == 1 {
-            r = r * b % m;
-        }
-        b = b * b % m;
-        e >>= 1;
-    }
-    r
-}
-
 /// The polynomial g(t) = g₀ + g₁t + g₂t² + g₃t³ at t.
 fn eval_poly(g: &[BigInt; 4], t: &BigInt) -> BigInt {
     ((&g[3] * t + &g[2]) * t + &g[1]) * t + &g[0]
@@ -316,7 +303,7 @@ fn is_cube_i128(z: i128, p: u64) -> bool {
     }
     let r = (u % pw) as u64;
     let r = if neg { (p - r) % p } else { r };
-    pow_mod_u64(r, (p - 1) / 3, p) == 1
+    crate::arith::word::pow_mod(r, (p - 1) / 3, p) == 1
 }
 
 /// The tree in checked i128 arithmetic: `Ok(None)` on an overflow (the
@@ -498,7 +485,7 @@ fn chart_search_big(g: &[BigInt; 4], p: &BigInt, budget: &mut Budget) -> Result<
                     }
                     let is_cube = match cube_exp {
                         None => true,
-                        Some(ex) => pow_mod_u64(v, ex, pw) == 1,
+                        Some(ex) => crate::arith::word::pow_mod(v, ex, pw) == 1,
                     };
                     if is_cube {
                         return Ok(Some((BigInt::from(t), false)));

@@ -52,6 +52,7 @@ use num_integer::{Integer, Roots};
 use num_rational::BigRational;
 use num_traits::{One, Signed, ToPrimitive, Zero};
 
+use crate::arith::word::{mul_mod, pow_mod};
 use crate::budget::Budget;
 use crate::error::{Error, Result};
 use crate::local::{legendre_u64, sqrt_mod_prime, Prime};
@@ -1018,23 +1019,6 @@ pub(crate) fn cubic_character(a: &BigInt, b: &BigInt, q: u64, rq: u64, zeta: u64
     } else {
         None
     }
-}
-
-fn mul_mod(a: u64, b: u64, m: u64) -> u64 {
-    ((u128::from(a) * u128::from(b)) % u128::from(m)) as u64
-}
-
-pub(crate) fn pow_mod(mut b: u64, mut e: u64, m: u64) -> u64 {
-    let mut r = 1 % m;
-    b %= m;
-    while e > 0 {
-        if e & 1 == 1 {
-            r = mul_mod(r, b, m);
-        }
-        b = mul_mod(b, b, m);
-        e >>= 1;
-    }
-    r
 }
 
 /// An auxiliary prime q ≡ 1 mod 3 split in Q(√D): (q, √D mod q, ζ).
