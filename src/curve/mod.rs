@@ -19,6 +19,10 @@
 //!   b(a² − 4b) ≠ 0 that every layer below the descent takes.
 //! * `isogeny`: [`TwoIsogeny`] φ: E → E′, y² = x³ − 2ax² + (a² − 4b)x,
 //!   and its dual φ̂, with φ̂ ∘ φ = \[2\] [ST92, III.4].
+//! * `isogeny3`: [`rational_3_isogenies`], the rational 3-isogenies of any
+//!   model from the roots of ψ₃, as [`Isogeny3`] (Vélu's formulas, the
+//!   dual, exact checks) with the model y² = x³ + D(αx + β)²
+//!   ([`Isogeny3Model`]).
 //! * `torsion`: [`torsion`], exact, by point counts at good primes
 //!   (reduction is injective on torsion [Sil09, VII.3.1]), with an early
 //!   exit when the points of order 2 already account for the bound,
@@ -34,6 +38,7 @@
 
 pub(crate) mod equation;
 pub(crate) mod isogeny;
+pub(crate) mod isogeny3;
 pub(crate) mod model;
 pub(crate) mod point;
 mod poly;
@@ -45,6 +50,7 @@ pub(crate) mod two_torsion;
 pub(crate) mod weierstrass;
 
 pub use isogeny::TwoIsogeny;
+pub use isogeny3::{rational_3_isogenies, Isogeny3, Isogeny3Model};
 pub use model::{clear_denominators, ModelChange};
 pub use point::Point;
 pub use reduced::ReducedModel;
