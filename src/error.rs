@@ -56,7 +56,9 @@ pub enum Error {
     #[error("the curve has no rational point of order 2")]
     NoTwoTorsion,
     /// No rational isogeny that this crate's descents handle: descent via
-    /// 3-isogeny needs j = 0 and a kernel defined over Q or Q(√−3).
+    /// 3-isogeny needs j = 0 (y² = x³ + k); the reason says whether the
+    /// curve has a rational 3-isogeny (the case α ≠ 0 of
+    /// y² = x³ + D(αx + β)², not covered yet) or none.
     #[error("no supported isogeny: {reason}")]
     NoSupportedIsogeny {
         /// What the curve lacks.

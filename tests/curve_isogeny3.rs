@@ -85,13 +85,9 @@ fn count_mod(e: &Curve, p: i64) -> Option<i64> {
     Some(n)
 }
 
-/// Points on which φ̂∘φ = [3] was checked (all tests together).
-static POINTS: std::sync::atomic::AtomicUsize = std::sync::atomic::AtomicUsize::new(0);
-
 /// Every check that a point-level test can make on one isogeny.
 fn check_isogeny(e: &Curve, iso: &Isogeny3, pts: &[Point]) {
     let e1 = iso.codomain();
-    POINTS.fetch_add(pts.len(), std::sync::atomic::Ordering::Relaxed);
     for p in pts {
         let img = iso.image(p).unwrap();
         assert!(e1.contains(&img), "φ({p}) on {e1}");
@@ -201,9 +197,9 @@ fn irrational_kernel_models() {
             (m.alpha.clone(), m.beta.clone()),
             (BigInt::from(s * a), BigInt::from(s * b))
         );
-        let before = POINTS.load(std::sync::atomic::Ordering::Relaxed);
-        check_isogeny(&e, iso, &small_points(&e, 60));
-        checked += POINTS.load(std::sync::atomic::Ordering::Relaxed) - before;
+        let pts = small_points(&e, 60);
+        checked += pts.len();
+        check_isogeny(&e, iso, &pts);
     }
     assert!(checked >= 10, "{checked} points");
 }
@@ -362,4 +358,46 @@ fn budgets_give_typed_errors() {
             | Err(isodescent::Error::FactorBudgetExhausted { .. })
     ));
     assert_eq!(isogenies(&e).len(), 1);
+}
+
+// The descent on curves with j ≠ 0 and no point of order 2: a typed error
+// that names the missing case (α ≠ 0, with the model) or says there is no
+// rational 3-isogeny; the JSON line carries the same reason.
+#[test]
+fn descent_names_the_uncovered_case() {
+    use isodescent::descent3::descend_by_isogeny;
+    use isodescent::{DescentOptions, Error};
+    // y² = x³ + 2(x + 1)²: x³ + 2x² + 4x + 2 has no rational root
+    // (candidates ±1, ±2), so no point of order 2.
+    let e = flex_curve(2, 1, 1).unwrap();
+    for r in [
+        descend_3isogeny(&e, &quick3()).map(|_| ()),
+        descend_by_isogeny(&e, &DescentOptions::default(), &quick3()).map(|_| ()),
+    ] {
+        match r {
+            Err(Error::NoSupportedIsogeny { reason }) => {
+                assert!(reason.contains("α ≠ 0"), "{reason}");
+                assert!(reason.contains("D = 2, α = 1, β = 1"), "{reason}");
+            }
+            other => panic!("{other:?}"),
+        }
+    }
+    // y² = x³ − x + 1: no rational 3-isogeny (see above) and no point of
+    // order 2 (x³ − x + 1 has no root ±1).
+    let none: Curve = "0 0 0 -1 1".parse().unwrap();
+    match descend_3isogeny(&none, &quick3()) {
+        Err(Error::NoSupportedIsogeny { reason }) => {
+            assert!(reason.contains("no rational 3-isogeny"), "{reason}")
+        }
+        other => panic!("{other:?}"),
+    }
+    let line = isodescent::output::json_for_line("0 2 0 4 2", &DescentOptions::default());
+    assert!(line.contains("α ≠ 0"), "{line}");
+    // A budget of one unit: still the typed error, never a panic.
+    let mut tiny = quick3();
+    tiny.factor_units = 1;
+    assert!(matches!(
+        descend_3isogeny(&e, &tiny),
+        Err(Error::NoSupportedIsogeny { .. })
+    ));
 }

@@ -51,6 +51,7 @@
 
 pub(crate) mod f3;
 pub(crate) mod side;
+mod uncovered;
 
 use std::time::{Duration, Instant};
 
@@ -305,7 +306,9 @@ fn budget_for(units: u64, start: Instant, limit: Option<Duration>) -> Budget {
 /// sequence (module docs).
 ///
 /// # Errors
-/// [`Error::NoSupportedIsogeny`] when j ≠ 0; [`Error::BudgetExhausted`]
+/// [`Error::NoSupportedIsogeny`] when j ≠ 0, its reason saying whether the
+/// curve has a rational 3-isogeny (α ≠ 0, not covered yet, with the model
+/// y² = x³ + D(αx + β)² named) or none; [`Error::BudgetExhausted`]
 /// when the factorisation or the local tests run out of budget or time, or
 /// when a field Q(√D) is beyond the discriminant, class-number or
 /// unit-size limits of the options.
@@ -313,9 +316,7 @@ pub fn descend_3isogeny(e: &Curve, opts: &Isogeny3Options) -> Result<Isogeny3Rep
     let start = Instant::now();
     let (a, b, _short, ch) = short_integral_model(e);
     if !a.is_zero() {
-        return Err(Error::NoSupportedIsogeny {
-            reason: "j(E) ≠ 0; descent via 3-isogeny is implemented for y^2 = x^3 + k only".into(),
-        });
+        return uncovered::refuse(e, &mut budget_for(opts.factor_units, start, opts.time_limit));
     }
     let mut fb = budget_for(opts.factor_units, start, opts.time_limit);
     let fac = factor(&b, &mut fb)?;
