@@ -14,10 +14,19 @@
 //! * `descent3/selmer_stage/mordell_k_le_300`: the Selmer stage on the
 //!   Mordell curves y² = x³ + k, 0 < |k| ≤ 300 (600 curves, most over
 //!   quadratic fields with class groups and units).
+//! * `descent3/isogeny3_detection/flex_family_moved`: the rational
+//!   3-isogenies of the 587 curves y² = x³ + D(αx + β)² (D square-free,
+//!   |D| ≤ 7, 1 ≤ α ≤ 7, 1 ≤ β ≤ 7), each given on a moved model
+//!   (x ↦ x + 2, y ↦ y + x + 1): roots of ψ₃, Vélu's maps and dual with
+//!   their exact checks, the model y² = x³ + D(αx + β)² and that of the
+//!   isogenous curve (`curve::rational_3_isogenies`).
 
 use criterion::{criterion_group, criterion_main, Criterion};
+use isodescent::curve::{rational_3_isogenies, ModelChange};
 use isodescent::descent3::{descend_3isogeny, Isogeny3Options};
-use isodescent::Curve;
+use isodescent::{Budget, Curve};
+use num_bigint::BigInt;
+use num_rational::BigRational;
 
 fn cube_free(n: i64) -> bool {
     (2..)
@@ -91,6 +100,22 @@ fn bench(c: &mut Criterion) {
             for e in &small {
                 let r = descend_3isogeny(e, &full).expect("descent");
                 criterion::black_box(r.rank_lower);
+            }
+        })
+    });
+    let q = |n: i64| BigRational::from_integer(BigInt::from(n));
+    let moved = ModelChange::new(q(1), q(2), q(1), q(1)).expect("a change of model");
+    let flex: Vec<Curve> = [-7i64, -6, -5, -3, -2, -1, 1, 2, 3, 5, 6, 7]
+        .iter()
+        .flat_map(|&d| (1i64..=7).flat_map(move |a| (1i64..=7).map(move |b| (d, a, b))))
+        .filter_map(|(d, a, b)| Curve::from_ints([0, d * a * a, 0, 2 * d * a * b, d * b * b]).ok())
+        .map(|e| moved.apply_to_curve(&e))
+        .collect();
+    g.bench_function("isogeny3_detection/flex_family_moved", |b| {
+        b.iter(|| {
+            for e in &flex {
+                let v = rational_3_isogenies(e, &mut Budget::unlimited()).expect("detection");
+                criterion::black_box(v.len());
             }
         })
     });

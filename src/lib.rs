@@ -17,7 +17,7 @@
 //! | — | [`error`], [`budget`] | the one error enum; deterministic effort budgets |
 //! | 1 | [`arith`] | primality, factoring, square-free parts, integer roots, certified reals |
 //! | 2 | [`local`] | places, valuations, symbols, modular square roots, square classes, Hilbert symbols |
-//! | 3 | [`curve`] | Weierstrass models, points, 2-torsion, the checked `ReducedModel`, 2-isogenies, torsion, Tate's algorithm |
+//! | 3 | [`curve`] | Weierstrass models, points, 2-torsion, the checked `ReducedModel`, 2-isogenies, rational 3-isogenies (Vélu), torsion, Tate's algorithm |
 //! | 3a | [`analytic`] | a_p and a_n, root number, real period, certified L-values, the BSD ledger |
 //! | 3b | [`height`] | canonical heights, the height pairing, regulators, LLL, lower bounds, saturation |
 //! | 4 | [`conic`] | Legendre's equation, zeros and parametrisations of conics |

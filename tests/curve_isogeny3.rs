@@ -119,11 +119,8 @@ fn check_isogeny(e: &Curve, iso: &Isogeny3, pts: &[Point]) {
     // ψ₃ = 3x⁴ + b₂x³ + 3b₄x² + 3b₆x + b₈ of the given model vanishes at
     // the kernel's x (Silverman, III, Exercise 3.7).
     let x = iso.kernel_x();
-    let psi3 = q(3) * x.pow(4)
-        + e.b2() * x.pow(3)
-        + q(3) * e.b4() * &x * &x
-        + q(3) * e.b6() * &x
-        + e.b8();
+    let psi3 =
+        q(3) * x.pow(4) + e.b2() * x.pow(3) + q(3) * e.b4() * &x * &x + q(3) * e.b6() * &x + e.b8();
     assert!(psi3.is_zero());
 }
 
@@ -309,10 +306,7 @@ fn j_zero_agrees_with_the_alpha_zero_path() {
     for e in &curves {
         let rep = descend_3isogeny(e, &quick3()).unwrap();
         let isos = isogenies(e);
-        let zero: Vec<&Isogeny3> = isos
-            .iter()
-            .filter(|i| i.model().alpha.is_zero())
-            .collect();
+        let zero: Vec<&Isogeny3> = isos.iter().filter(|i| i.model().alpha.is_zero()).collect();
         assert_eq!(zero.len(), 1, "{e}");
         let m = zero[0].model();
         assert_eq!(&m.d * &m.beta * &m.beta, rep.k, "{e}");

@@ -207,12 +207,7 @@ fn cubic(a: &BigRational, b: &BigRational) -> QPoly {
 
 /// The x-part of φ̂∘φ (with the scaling by 1/9) equals x − ψ₂ψ₄/ψ₃² on
 /// y² = x³ + Ax + B (module docs), as a polynomial identity.
-fn composite_is_triplication(
-    a: &BigRational,
-    b: &BigRational,
-    phi: &Velu,
-    dual: &Velu,
-) -> bool {
+fn composite_is_triplication(a: &BigRational, b: &BigRational, phi: &Velu, dual: &Velu) -> bool {
     let n1 = phi.numerator();
     let t = QPoly::linear(-&phi.x0);
     let d1 = t.mul(&t);
@@ -353,7 +348,9 @@ impl Isogeny3 {
             ..model
         };
         if model.change.apply_to_curve(e) != model.curve()? {
-            return Err(internal("the change of model gives y^2 = x^3 + D(αx + β)^2"));
+            return Err(internal(
+                "the change of model gives y^2 = x^3 + D(αx + β)^2",
+            ));
         }
         let d1 = if (&d % 3u32).is_zero() {
             -&d / 3
@@ -495,17 +492,30 @@ fn flex_model(
     })
 }
 
-/// Dense polynomials over Q, constant term first (only what the exact
-/// checks need).
-#[derive(Clone, Debug, PartialEq, Eq)]
-struct QPoly(Vec<BigRational>);
+/// Dense polynomials over Q, constant term first, as integer numerators
+/// over one common denominator (no gcds in the products; only what the
+/// exact checks need).
+#[derive(Clone, Debug)]
+struct QPoly {
+    num: Vec<BigInt>,
+    den: BigInt,
+}
+
+impl PartialEq for QPoly {
+    fn eq(&self, o: &QPoly) -> bool {
+        let n = self.num.len().max(o.num.len());
+        let z = BigInt::zero();
+        (0..n).all(|i| {
+            self.num.get(i).unwrap_or(&z) * &o.den == o.num.get(i).unwrap_or(&z) * &self.den
+        })
+    }
+}
 
 impl QPoly {
-    fn new(mut c: Vec<BigRational>) -> QPoly {
-        while c.last().is_some_and(|x| x.is_zero()) {
-            c.pop();
-        }
-        QPoly(c)
+    fn new(c: Vec<BigRational>) -> QPoly {
+        let den = lcm_denominators(c.iter());
+        let num = c.iter().map(|x| x.numer() * (&den / x.denom())).collect();
+        QPoly { num, den }
     }
     fn x() -> QPoly {
         QPoly::new(vec![BigRational::zero(), BigRational::one()])
@@ -518,33 +528,46 @@ impl QPoly {
         QPoly::new(vec![c, BigRational::one()])
     }
     fn add(&self, o: &QPoly) -> QPoly {
-        let n = self.0.len().max(o.0.len());
-        let z = BigRational::zero();
-        QPoly::new(
-            (0..n)
-                .map(|i| self.0.get(i).unwrap_or(&z) + o.0.get(i).unwrap_or(&z))
-                .collect(),
-        )
+        let n = self.num.len().max(o.num.len());
+        let z = BigInt::zero();
+        let num = (0..n)
+            .map(|i| {
+                self.num.get(i).unwrap_or(&z) * &o.den + o.num.get(i).unwrap_or(&z) * &self.den
+            })
+            .collect();
+        QPoly {
+            num,
+            den: &self.den * &o.den,
+        }
     }
     fn sub(&self, o: &QPoly) -> QPoly {
         self.add(&o.scale(&rat(-1)))
     }
     fn scale(&self, k: &BigRational) -> QPoly {
-        QPoly::new(self.0.iter().map(|c| c * k).collect())
+        QPoly {
+            num: self.num.iter().map(|c| c * k.numer()).collect(),
+            den: &self.den * k.denom(),
+        }
     }
     fn mul(&self, o: &QPoly) -> QPoly {
-        if self.0.is_empty() || o.0.is_empty() {
-            return QPoly(Vec::new());
+        if self.num.is_empty() || o.num.is_empty() {
+            return QPoly {
+                num: Vec::new(),
+                den: BigInt::one(),
+            };
         }
-        let mut c = vec![BigRational::zero(); self.0.len() + o.0.len() - 1];
-        for (i, a) in self.0.iter().enumerate() {
+        let mut c = vec![BigInt::zero(); self.num.len() + o.num.len() - 1];
+        for (i, a) in self.num.iter().enumerate() {
             if a.is_zero() {
                 continue;
             }
-            for (j, b) in o.0.iter().enumerate() {
+            for (j, b) in o.num.iter().enumerate() {
                 c[i + j] += a * b;
             }
         }
-        QPoly::new(c)
+        QPoly {
+            num: c,
+            den: &self.den * &o.den,
+        }
     }
 }

@@ -316,7 +316,10 @@ pub fn descend_3isogeny(e: &Curve, opts: &Isogeny3Options) -> Result<Isogeny3Rep
     let start = Instant::now();
     let (a, b, _short, ch) = short_integral_model(e);
     if !a.is_zero() {
-        return uncovered::refuse(e, &mut budget_for(opts.factor_units, start, opts.time_limit));
+        return uncovered::refuse(
+            e,
+            &mut budget_for(opts.factor_units, start, opts.time_limit),
+        );
     }
     let mut fb = budget_for(opts.factor_units, start, opts.time_limit);
     let fac = factor(&b, &mut fb)?;

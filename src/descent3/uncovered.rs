@@ -13,8 +13,7 @@ use crate::error::{Error, Result};
 pub(crate) fn uncovered_curve(e: &Curve, budget: &mut Budget) -> Error {
     match rational_3_isogenies(e, budget) {
         Ok(isos) if isos.is_empty() => Error::NoSupportedIsogeny {
-            reason: "no rational 3-isogeny (the 3-division polynomial has no rational root)"
-                .into(),
+            reason: "no rational 3-isogeny (the 3-division polynomial has no rational root)".into(),
         },
         Ok(isos) => {
             let models: Vec<String> = isos
