@@ -13,6 +13,11 @@
 //!   or mod 9 at p = 3) or by Hensel's lemma at a zero of F, with a
 //!   witness a reader can re-check; over R every such cubic has a point
 //!   (odd degree).
+//! * `plane`: general plane cubics C(u, v, w) = 0 (ten coefficients), the
+//!   shape of the homogeneous spaces of a 3-isogeny with α ≠ 0, and their
+//!   exact solubility over Q_p by a tree over the residue classes of three
+//!   charts of P²(Z_p) with Hensel's lemma, with re-checkable witnesses
+//!   (not yet used by the descent).
 //! * `search`: rational points on F(u, v) = c·w³ of bounded height.
 //! * `quadratic`: a quadratic field Q(√D) — ideals as binary quadratic
 //!   forms, reduction with its multiplier, the class group and its 3-part,
@@ -21,9 +26,11 @@
 
 pub(crate) mod eisenstein;
 pub(crate) mod local;
+pub(crate) mod plane;
 pub(crate) mod quadratic;
 pub(crate) mod search;
 
 pub use eisenstein::{prime_above, reduce_mod, Eisenstein};
 pub use local::{is_padic_cube, solubility_at, BinaryCubicCurve, CubicLocal, CubicWitness};
+pub use plane::{PlaneCubic, PlaneCubicWitness, PLANE_CUBIC_MONOMIALS};
 pub use search::{search_points, CubicPoint};
