@@ -122,11 +122,7 @@ impl PlaneCubic {
     /// # Errors
     /// [`Error::BudgetExhausted`] when the budget runs out (the verdict is
     /// then unknown; nothing is guessed).
-    pub fn soluble_at(
-        &self,
-        p: &Prime,
-        budget: &mut Budget,
-    ) -> Result<Option<PlaneCubicWitness>> {
+    pub fn soluble_at(&self, p: &Prime, budget: &mut Budget) -> Result<Option<PlaneCubicWitness>> {
         let pv = p.get();
         for chart in 0..3 {
             let g = self.chart(chart, pv);
@@ -214,11 +210,7 @@ fn taylor(g: &[[BigInt; 4]; 4], s: &BigInt, t: &BigInt) -> [[BigInt; 4]; 4] {
 }
 
 /// The tree of one chart: a class (s₀, t₀) holding a zero of g, or None.
-fn tree(
-    g: &[[BigInt; 4]; 4],
-    p: &BigInt,
-    budget: &mut Budget,
-) -> Result<Option<(BigInt, BigInt)>> {
+fn tree(g: &[[BigInt; 4]; 4], p: &BigInt, budget: &mut Budget) -> Result<Option<(BigInt, BigInt)>> {
     let exhausted = || Error::BudgetExhausted {
         stage: "local solubility of a plane cubic".into(),
     };
@@ -249,7 +241,9 @@ fn tree(
         if hensel {
             return Ok(Some((s0, t0)));
         }
-        budget.spend(pu.saturating_mul(pu)).map_err(|_| exhausted())?;
+        budget
+            .spend(pu.saturating_mul(pu))
+            .map_err(|_| exhausted())?;
         let step = p.pow(n);
         let mut i = BigInt::zero();
         while &i < p {

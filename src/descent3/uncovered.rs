@@ -8,8 +8,9 @@ use crate::curve::{rational_3_isogenies, Curve};
 use crate::error::{Error, Result};
 
 /// The error for a curve with j ≠ 0, after looking for its rational
-/// 3-isogenies under `budget`. Errors other than budget errors of the
-/// detection itself are returned as they are.
+/// 3-isogenies under `budget`. A failed internal check of the detection
+/// is returned as it is; any other error of the detection (budget, size
+/// limit of the isogenous curve) is named in the reason.
 pub(crate) fn uncovered_curve(e: &Curve, budget: &mut Budget) -> Error {
     match rational_3_isogenies(e, budget) {
         Ok(isos) if isos.is_empty() => Error::NoSupportedIsogeny {
@@ -38,7 +39,13 @@ pub(crate) fn uncovered_curve(e: &Curve, budget: &mut Budget) -> Error {
                     .into(),
             }
         }
-        Err(other) => other,
+        Err(err @ Error::Internal { .. }) => err,
+        Err(other) => Error::NoSupportedIsogeny {
+            reason: format!(
+                "j(E) ≠ 0, outside the α = 0 (j = 0) case of the descent via 3-isogeny; \
+                 the search for a rational 3-isogeny stopped: {other}"
+            ),
+        },
     }
 }
 
