@@ -32,6 +32,8 @@ fn main() {
     let moved = ModelChange::new(q(1), q(2), q(1), q(1)).expect("a change of model");
     let (mut total, mut found, mut two, mut two_decided, mut typed, mut other) = (0, 0, 0, 0, 0, 0);
     let (mut three, mut three_decided) = (0, 0);
+    let (mut general, mut general_decided, mut cassels_fail, mut partial) = (0, 0, 0, 0);
+    let mut slowest = (0.0f64, String::new());
     let mut detect_secs = 0.0;
     let start = Instant::now();
     for d in (-bd..=bd).filter(|&d| d != 0 && squarefree(d)) {
@@ -63,14 +65,24 @@ fn main() {
                 }) {
                     found += 1;
                 }
-                match descend_by_isogeny(
-                    &e,
-                    &DescentOptions::default(),
-                    &Isogeny3Options::default(),
-                ) {
+                let t = Instant::now();
+                let out =
+                    descend_by_isogeny(&e, &DescentOptions::default(), &Isogeny3Options::default());
+                let secs = t.elapsed().as_secs_f64();
+                if secs > slowest.0 {
+                    slowest = (secs, format!("D = {d}, α = {a}, β = {b}"));
+                }
+                match out {
                     Ok(IsogenyDescent::Two(r)) => {
                         two += 1;
                         two_decided += usize::from(r.is_decided());
+                    }
+                    Ok(IsogenyDescent::ThreeGeneral(r)) => {
+                        general += 1;
+                        general_decided += usize::from(r.rank.is_some());
+                        cassels_fail +=
+                            usize::from(r.tamagawa.as_ref().is_some_and(|t| !t.holds()));
+                        partial += usize::from(!r.cut.is_empty());
                     }
                     Ok(IsogenyDescent::Three(r)) => {
                         three += 1;
@@ -94,6 +106,10 @@ fn main() {
     println!(
         "j = 0 (the α = 0 descent on y^2 = x^3 + k): {three}, rank decided on {three_decided}"
     );
+    println!(
+        "α ≠ 0 (general descent): {general}, rank decided on {general_decided}; Cassels' ratio failed on {cassels_fail}; partial {partial}"
+    );
+    println!("slowest curve: {} ({:.2} s)", slowest.1, slowest.0);
     println!("typed error, α ≠ 0 not covered: {typed}");
     println!("other outcomes: {other}");
     println!(

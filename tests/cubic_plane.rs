@@ -5,9 +5,7 @@
 
 use std::collections::BTreeMap;
 
-use isodescent::cubic::{
-    solubility_at, BinaryCubicCurve, CubicLocal, PlaneCubic, PLANE_CUBIC_MONOMIALS,
-};
+use isodescent::cubic::{solubility_at, BinaryCubicCurve, PlaneCubic, PLANE_CUBIC_MONOMIALS};
 use isodescent::{Budget, Error, Prime};
 use num_bigint::BigInt;
 use num_traits::Zero;

@@ -14,7 +14,10 @@
 //! g has no zero on the class. If v(g(s₀, t₀)) > 2·v(T₁₀) (or 2·v(T₀₁)),
 //! Hensel's lemma in s (or t) gives a zero in the class (common practice;
 //! Serre, "A Course in Arithmetic", II.2, for Hensel's lemma). Otherwise
-//! the class splits into p² classes. On a smooth cubic every branch ends:
+//! the class splits into p² classes, of which only those where
+//! G(h, k) = g(s₀ + pⁿh, t₀ + pⁿk)/p^c (c the least valuation of its
+//! coefficients) vanishes mod p are kept: on the others the valuation
+//! stays c, below their bound. On a smooth cubic every branch ends:
 //! at a zero the gradient of C does not vanish (Euler's relation carries
 //! this to the chart), away from the zeros the value is eventually fixed.
 //! A singular cubic may not end; the budget bounds the work.
@@ -26,7 +29,7 @@
 //! [`PlaneCubicWitness::verify`].
 
 use num_bigint::BigInt;
-use num_traits::{One, ToPrimitive, Zero};
+use num_traits::{One, Signed, ToPrimitive, Zero};
 
 use super::local::val;
 use crate::budget::Budget;
@@ -120,8 +123,9 @@ impl PlaneCubic {
     /// Cost: one budget unit per residue class visited and p² per split.
     ///
     /// # Errors
-    /// [`Error::BudgetExhausted`] when the budget runs out (the verdict is
-    /// then unknown; nothing is guessed).
+    /// [`Error::BudgetExhausted`] when the budget runs out, or when a class
+    /// must be split at a prime p ≥ 2³¹ (the verdict is then unknown;
+    /// nothing is guessed).
     pub fn soluble_at(&self, p: &Prime, budget: &mut Budget) -> Result<Option<PlaneCubicWitness>> {
         let pv = p.get();
         for chart in 0..3 {
@@ -245,15 +249,71 @@ fn tree(g: &[[BigInt; 4]; 4], p: &BigInt, budget: &mut Budget) -> Result<Option<
             .spend(pu.saturating_mul(pu))
             .map_err(|_| exhausted())?;
         let step = p.pow(n);
-        let mut i = BigInt::zero();
-        while &i < p {
-            let mut j = BigInt::zero();
-            while &j < p {
-                stack.push((&s0 + &i * &step, &t0 + &j * &step, n + 1));
-                j += 1u32;
+        // g(s₀ + pⁿh, t₀ + pⁿk) = p^c·G(h, k) with G primitive; a child
+        // (h, k) ≡ (i, j) mod p with G(i, j) ≢ 0 mod p keeps the valuation
+        // c below its bound (at least c + 1), so only the zeros of G mod p
+        // are kept (at most 6p of them; the test runs in machine words
+        // for p < 2^31).
+        if pu >= 1 << 31 {
+            return Err(Error::BudgetExhausted {
+                stage: format!("local solubility of a plane cubic at the large prime {p}"),
+            });
+        }
+        let gm = shifted_mod_p(&tc, p, n);
+        let pw = u128::from(pu);
+        for ii in 0..pu {
+            let h = column(&gm, ii, pu);
+            let s = &s0 + BigInt::from(ii) * &step;
+            for jj in 0..pu {
+                let x = u128::from(jj);
+                if (((h[3] * x + h[2]) % pw * x + h[1]) % pw * x + h[0]) % pw == 0 {
+                    stack.push((s.clone(), &t0 + BigInt::from(jj) * &step, n + 1));
+                }
             }
-            i += 1u32;
         }
     }
     Ok(None)
+}
+
+/// The coefficients G_ab mod p of G(h, k) = g(s₀ + pⁿh, t₀ + pⁿk)/p^c
+/// (c the least valuation of its coefficients), from the Taylor
+/// coefficients T_ab of g at (s₀, t₀); p < 2^31.
+fn shifted_mod_p(tc: &[[BigInt; 4]; 4], p: &BigInt, n: u32) -> [[u128; 4]; 4] {
+    let mut scaled: [[BigInt; 4]; 4] = Default::default();
+    let mut c = u64::MAX;
+    for a in 0..4 {
+        for b in 0..4 - a {
+            let x = &tc[a][b] * p.pow(n * (a + b) as u32);
+            if !x.is_zero() {
+                c = c.min(val(&x, p));
+            }
+            scaled[a][b] = x;
+        }
+    }
+    let pc = p.pow(u32::try_from(c).unwrap_or(0));
+    let mut out = [[0u128; 4]; 4];
+    for a in 0..4 {
+        for b in 0..4 - a {
+            let r = (&scaled[a][b] / &pc) % p;
+            let r = if r.is_negative() { r + p } else { r };
+            out[a][b] = r.to_u64().map_or(0, u128::from);
+        }
+    }
+    out
+}
+
+/// The coefficients in k of G(i, k) mod p.
+fn column(gm: &[[u128; 4]; 4], i: u64, p: u64) -> [u128; 4] {
+    let pw = u128::from(p);
+    let x = u128::from(i);
+    let ip = [1, x % pw, x * x % pw, x * x % pw * x % pw];
+    let mut h = [0u128; 4];
+    for (a, row) in gm.iter().enumerate() {
+        for (b, &c) in row.iter().enumerate() {
+            if a + b <= 3 {
+                h[b] = (h[b] + c * ip[a]) % pw;
+            }
+        }
+    }
+    h
 }

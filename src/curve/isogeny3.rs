@@ -411,6 +411,12 @@ impl Isogeny3 {
         &self.codomain_model
     }
 
+    /// (A, B) of the short model y² = x³ + Ax + B that φ starts from
+    /// (φ*ω′ = ω for dx/2y on it and on [`Isogeny3::codomain`]).
+    pub(crate) fn short_coefficients(&self) -> (&BigRational, &BigRational) {
+        (&self.a, &self.b)
+    }
+
     /// φ(P) for P on the given curve.
     ///
     /// # Errors

@@ -50,6 +50,7 @@
 //! check of the local computations.
 
 pub(crate) mod f3;
+mod flex;
 pub(crate) mod side;
 mod uncovered;
 
@@ -72,6 +73,7 @@ use crate::local::Prime;
 use f3::Span;
 use side::{intersect_local, point_on, search_side, SideSetup};
 
+pub use flex::{descend_3isogeny_general, GeneralSide3, Isogeny3GeneralReport};
 pub use side::{ElementOrigin, Generator3, SideField};
 
 /// Options of [`descend_3isogeny`].
@@ -817,10 +819,13 @@ pub enum IsogenyDescent {
     Two(crate::descent::DescentReport),
     /// Descent via 3-isogeny ([`descend_3isogeny`]).
     Three(Isogeny3Report),
+    /// Descent via a 3-isogeny with α ≠ 0 ([`descend_3isogeny_general`]).
+    ThreeGeneral(Isogeny3GeneralReport),
 }
 
 /// Descent via 2-isogeny when the curve has a rational point of order 2,
-/// else via 3-isogeny when it has j = 0.
+/// else via 3-isogeny: [`descend_3isogeny`] when j = 0, else
+/// [`descend_3isogeny_general`] when the curve has a rational 3-isogeny.
 ///
 /// # Errors
 /// Those of [`crate::descend`] for curves with a point of order 2;
@@ -833,6 +838,14 @@ pub fn descend_by_isogeny(
 ) -> Result<IsogenyDescent> {
     match crate::descent::descend(e, two) {
         Ok(r) => Ok(IsogenyDescent::Two(r)),
+        Err(Error::NoTwoTorsion) if !e.c4().is_zero() => descend_3isogeny_general(e, three)
+            .map(IsogenyDescent::ThreeGeneral)
+            .map_err(|err| match err {
+                Error::NoSupportedIsogeny { reason } => Error::NoSupportedIsogeny {
+                    reason: format!("no rational point of order 2, and {reason}"),
+                },
+                other => other,
+            }),
         Err(Error::NoTwoTorsion) => descend_3isogeny(e, three)
             .map(IsogenyDescent::Three)
             .map_err(|err| match err {
@@ -865,6 +878,7 @@ impl IsogenyDescent {
                 }
             }
             IsogenyDescent::Three(r) => r.recheck(),
+            IsogenyDescent::ThreeGeneral(r) => r.recheck(),
         }
     }
 }

@@ -1,6 +1,7 @@
 //! The typed error of [`super::descend_3isogeny`] on curves with j ≠ 0:
 //! whether the curve has a rational 3-isogeny (the case α ≠ 0 of
-//! y² = x³ + D(αx + β)², not covered by this descent yet) or none at all
+//! y² = x³ + D(αx + β)², which [`super::descend_3isogeny_general`] takes,
+//! with a report of its own) or none at all
 //! (no rational root of ψ₃), found by [`crate::curve::rational_3_isogenies`].
 
 use crate::budget::Budget;
@@ -27,7 +28,8 @@ pub(crate) fn uncovered_curve(e: &Curve, budget: &mut Budget) -> Error {
             Error::NoSupportedIsogeny {
                 reason: format!(
                     "a rational 3-isogeny with α ≠ 0 (y^2 = x^3 + D(αx + β)^2 with {}): \
-                     the descent via 3-isogeny covers α = 0 (j = 0) only",
+                     this report covers α = 0 (j = 0) only; descend_3isogeny_general \
+                     (or descend_by_isogeny) takes α ≠ 0",
                     models.join("; ")
                 ),
             }
