@@ -20,13 +20,21 @@
 //!   (x ↦ x + 2, y ↦ y + x + 1): roots of ψ₃, Vélu's maps and dual with
 //!   their exact checks, the model y² = x³ + D(αx + β)² and that of the
 //!   isogenous curve (`curve::rational_3_isogenies`).
+//! * `descent3/general_selmer_stage/flex_d_le_7_ab_le_3`: the Selmer stage
+//!   of `descend_3isogeny_general` (detection, models, both Selmer groups
+//!   from the plane cubics; no point search, no Tamagawa check, no
+//!   analytic side) on the 101 curves y² = x³ + D(αx + β)² with α ≠ 0,
+//!   D square-free, |D| ≤ 7, 1 ≤ α, β ≤ 3, that have no point of order 2
+//!   and j ≠ 0.
 
 use criterion::{criterion_group, criterion_main, Criterion};
 use isodescent::curve::{rational_3_isogenies, ModelChange};
-use isodescent::descent3::{descend_3isogeny, Isogeny3Options};
+use isodescent::descent3::{descend_3isogeny, descend_3isogeny_general, Isogeny3Options};
+use isodescent::{descend, DescentOptions, Error};
 use isodescent::{Budget, Curve};
 use num_bigint::BigInt;
 use num_rational::BigRational;
+use num_traits::Zero;
 
 fn cube_free(n: i64) -> bool {
     (2..)
@@ -116,6 +124,27 @@ fn bench(c: &mut Criterion) {
             for e in &flex {
                 let v = rational_3_isogenies(e, &mut Budget::unlimited()).expect("detection");
                 criterion::black_box(v.len());
+            }
+        })
+    });
+    let general: Vec<Curve> = [-7i64, -6, -5, -3, -2, -1, 1, 2, 3, 5, 6, 7]
+        .iter()
+        .flat_map(|&d| (1i64..=3).flat_map(move |a| (1i64..=3).map(move |b| (d, a, b))))
+        .filter_map(|(d, a, b)| Curve::from_ints([0, d * a * a, 0, 2 * d * a * b, d * b * b]).ok())
+        .filter(|e| !e.c4().is_zero())
+        .filter(|e| {
+            matches!(
+                descend(e, &DescentOptions::default()),
+                Err(Error::NoTwoTorsion)
+            )
+        })
+        .collect();
+    assert_eq!(general.len(), 101);
+    g.bench_function("general_selmer_stage/flex_d_le_7_ab_le_3", |b| {
+        b.iter(|| {
+            for e in &general {
+                let r = descend_3isogeny_general(e, &selmer_only).expect("descent");
+                criterion::black_box(r.rank_upper);
             }
         })
     });

@@ -78,8 +78,9 @@ fn unimodular(rng: &mut Lcg) -> [[i64; 3]; 3] {
         let i = rng.next(1).unsigned_abs() as usize % 3;
         let j = (i + 1 + rng.next(1).unsigned_abs() as usize % 2) % 3;
         let k = rng.next(2);
-        for c in 0..3 {
-            m[j][c] += k * m[i][c];
+        let row = m[i];
+        for (x, y) in m[j].iter_mut().zip(row) {
+            *x += k * y;
         }
     }
     m

@@ -531,7 +531,7 @@ pub fn descend_3isogeny_general(
         let fd = flex_descent(iso, opts, search, &mut lb)?;
         if best
             .as_ref()
-            .is_none_or(|(_, b)| fd.rank_upper < b.rank_upper)
+            .map_or(true, |(_, b)| fd.rank_upper < b.rank_upper)
         {
             best = Some((idx, fd));
         }
@@ -760,10 +760,11 @@ mod tests {
     use crate::descent3::descend_3isogeny;
 
     fn quick() -> Isogeny3Options {
-        let mut o = Isogeny3Options::default();
-        o.search_height = 0;
-        o.analytic = None;
-        o
+        Isogeny3Options {
+            search_height: 0,
+            analytic: None,
+            ..Default::default()
+        }
     }
 
     fn flex(d: i64, a: i64, b: i64) -> Option<Curve> {
