@@ -132,7 +132,7 @@ fn bench_families(c: &mut Criterion) {
         let isogenies: Vec<TwoIsogeny> = models
             .iter()
             .flatten()
-            .filter_map(|m| TwoIsogeny::from_model(m).ok())
+            .filter_map(|m| TwoIsogeny::from_reduced(m.reduced()).ok())
             .collect();
         let tors: Vec<_> = curves.iter().map(torsion).collect();
         let mut g = c.benchmark_group(format!("curve/family/{name}"));
@@ -170,7 +170,7 @@ fn bench_families(c: &mut Criterion) {
         g.bench_function("isogeny_from_model", |b| {
             b.iter(|| {
                 for m in models.iter().flatten() {
-                    black_box(TwoIsogeny::from_model(m).ok());
+                    black_box(TwoIsogeny::from_reduced(m.reduced()).ok());
                 }
             })
         });

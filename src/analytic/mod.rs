@@ -37,7 +37,9 @@
 //!   parity are small but not proven to vanish).
 //!
 //! The default options skip curves with conductor above
-//! [`DEFAULT_CONDUCTOR_LIMIT`]; see `docs/analytic.md`.
+//! [`DEFAULT_CONDUCTOR_LIMIT`]; see `docs/analytic.md`, included below.
+//!
+#![doc = include_str!("../../docs/analytic.md")]
 
 mod bsgs;
 mod cm;
@@ -166,13 +168,6 @@ impl AnalyticOptions {
     /// [`AnalyticOptions::twist_streamed_above`] as well.
     pub fn with_streamed_above(mut self, conductor: u64) -> Self {
         self.streamed_above = conductor;
-        self.twist_streamed_above = conductor;
-        self
-    }
-
-    /// The options with the streamed twist route above another conductor
-    /// for quadratic twists of `y² = x³ − x` only.
-    pub fn with_twist_streamed_above(mut self, conductor: u64) -> Self {
         self.twist_streamed_above = conductor;
         self
     }
@@ -307,7 +302,7 @@ impl AnalyticOrder {
     }
 
     /// True when the order is proven exactly.
-    pub fn is_exact(self) -> bool {
+    pub(crate) fn is_exact(self) -> bool {
         matches!(self, AnalyticOrder::Exact(_))
     }
 }

@@ -87,7 +87,7 @@ impl<'a> Series<'a> {
     }
 
     /// `c = 2π/√N`.
-    pub fn step(&self) -> Certified {
+    pub(crate) fn step(&self) -> Certified {
         self.c
     }
 
@@ -126,7 +126,7 @@ impl<'a> Series<'a> {
 
     /// `F(t) = Σ a_n e^{−nct}` with the truncation bound
     /// `Σ_{n>M} 2n·q^n`, `q = e^{−ct}`.
-    pub fn theta(&self, t: f64, budget: &mut Budget) -> Result<Certified> {
+    pub(crate) fn theta(&self, t: f64, budget: &mut Budget) -> Result<Certified> {
         let s = self.power_sum(t, |_| 1.0, budget)?;
         Ok(widen(s, theta_tail(&self.c, t, self.terms())))
     }

@@ -98,7 +98,7 @@ pub struct IsogenyDescent {
 
 impl IsogenyDescent {
     /// The point of order 2 on the input model generating ker φ.
-    pub fn kernel_point(&self) -> &Point {
+    pub(crate) fn kernel_point(&self) -> &Point {
         &self.kernel_point
     }
 
@@ -135,7 +135,7 @@ impl IsogenyDescent {
     /// Bounds (lower, upper) for the F2-dimension of the part of the
     /// Tate–Shafarevich group seen on E's side, Sel / α(E(Q)), and on E''s
     /// side.
-    pub fn sha_bounds(&self) -> ((usize, usize), (usize, usize)) {
+    pub(crate) fn sha_bounds(&self) -> ((usize, usize), (usize, usize)) {
         let f = |s: &SelmerSide| {
             (
                 s.dimension() - s.image_upper.min(s.dimension()),
@@ -194,7 +194,7 @@ impl IsogenyDescent {
     /// dim_F2 Sel²(E'/Q) of the isogenous curve E', torsion included
     /// (the same sequence for the dual isogeny; E'\[2\] is rational iff b is
     /// a square).
-    pub fn selmer2_rank_codomain(&self) -> Option<usize> {
+    pub(crate) fn selmer2_rank_codomain(&self) -> Option<usize> {
         let liftable = self.codomain.liftable_dim()?;
         let full = is_square(self.model.b());
         Some(exact_sequence::selmer2_dimension(

@@ -26,8 +26,10 @@
 //! exact rational arithmetic, and divisions (`Q = p·R`) are checked by
 //! exact multiplication. Nothing here claims generation: the descent hands
 //! the point to saturation ([`crate::height::saturate`]), which proves
-//! the index. `docs/heegner.md` has the method, the precision choice and
-//! the sources.
+//! the index. `docs/heegner.md`, included below, has the method, the
+//! precision choice and the sources.
+//!
+#![doc = include_str!("../../docs/heegner.md")]
 
 mod congruent;
 pub(crate) mod fixed;
