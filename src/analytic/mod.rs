@@ -50,6 +50,9 @@ pub(crate) mod root_number;
 pub(crate) mod series;
 mod stream;
 
+#[cfg(test)]
+mod tests;
+
 use num_bigint::BigInt;
 use num_traits::{One, ToPrimitive};
 
@@ -58,7 +61,7 @@ pub use coefficients::{dirichlet_coefficients, frobenius_trace, ApTable};
 pub use ledger::{sha_analytic, ShaLedger};
 pub use period::{real_period, RealPeriod};
 pub use root_number::{local_root_number, root_number_by_formula};
-pub use series::Series;
+pub(crate) use series::Series;
 
 use crate::budget::Budget;
 use crate::curve::tate::GlobalLocalData;

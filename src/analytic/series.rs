@@ -47,11 +47,10 @@ const SERIES_LIMIT: f64 = 12.0;
 /// Recompute `q^n` directly every this many terms.
 const REANCHOR: usize = 64;
 
-/// The data of one L-series: coefficients and the conductor.
+/// The data of one L-series: the coefficients and the step `c = 2π/√N`.
 #[derive(Debug, Clone)]
 pub struct Series<'a> {
     an: &'a [i64],
-    conductor: f64,
     c: Certified,
 }
 
@@ -79,11 +78,7 @@ impl<'a> Series<'a> {
         }
         let n = conductor as f64;
         let c = pi().scale(2.0).div(&Certified::exact(n).sqrt());
-        Ok(Series {
-            an,
-            conductor: n,
-            c,
-        })
+        Ok(Series { an, c })
     }
 
     /// `c = 2π/√N`.
@@ -185,11 +180,6 @@ impl<'a> Series<'a> {
             sum = sum.add(&g.scale(a as f64));
         }
         Ok(widen(sum, tail_bound(&self.c, r, m)))
-    }
-
-    /// The conductor as binary64 (exact).
-    pub fn conductor(&self) -> f64 {
-        self.conductor
     }
 }
 
