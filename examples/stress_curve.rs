@@ -79,7 +79,7 @@ fn main() -> ExitCode {
                             println!(
                                 "  side b={}: dim Sel {}, dim I {:?}, dim K {}, searches {}, 4-covering runs {:?}, pairing error {:?}",
                                 side.model().b(),
-                                side.dimension(),
+                                side.group().dim(),
                                 side.pairing().map(|p| p.liftable.dim()),
                                 side.known().dim(),
                                 side.searches().len(),

@@ -153,7 +153,7 @@ fn examine_side(n: i64, side: &SelmerSide) -> SideResult {
     SideResult {
         lower: known + found_dim,
         upper: known + max_avoiding(u, &excluded),
-        first_upper: side.dimension(),
+        first_upper: side.group().dim(),
         points: image_masks.len(),
         no_points: excluded.len(),
     }

@@ -640,7 +640,7 @@ mod tests {
     #[test]
     fn the_table_count_agrees_with_the_jacobi_count() {
         // Two ways to the same character sum; the Jacobi symbol itself is
-        // checked against sympy vectors in tests/local_layer.rs.
+        // checked against sympy vectors in src/local/tests/layer.rs.
         let mut state = 0x9e37_79b9_7f4a_7c15u64;
         for p in (3u64..super::TABLE_COUNT_BELOW).filter(|&p| crate::arith::is_prime_u64(p)) {
             for _ in 0..20 {

@@ -363,7 +363,7 @@ impl SelmerSide {
     }
 
     /// dim Sel.
-    pub fn dimension(&self) -> usize {
+    pub(crate) fn dimension(&self) -> usize {
         self.group.dim()
     }
 

@@ -98,7 +98,7 @@ pub struct IsogenyDescent {
 
 impl IsogenyDescent {
     /// The point of order 2 on the input model generating ker φ.
-    pub(crate) fn kernel_point(&self) -> &Point {
+    pub fn kernel_point(&self) -> &Point {
         &self.kernel_point
     }
 
@@ -135,7 +135,7 @@ impl IsogenyDescent {
     /// Bounds (lower, upper) for the F2-dimension of the part of the
     /// Tate–Shafarevich group seen on E's side, Sel / α(E(Q)), and on E''s
     /// side.
-    pub(crate) fn sha_bounds(&self) -> ((usize, usize), (usize, usize)) {
+    pub fn sha_bounds(&self) -> ((usize, usize), (usize, usize)) {
         let f = |s: &SelmerSide| {
             (
                 s.dimension() - s.image_upper.min(s.dimension()),

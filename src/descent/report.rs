@@ -179,7 +179,7 @@ impl DescentReport {
 
     /// The index in [`DescentReport::isogenies`] of the isogeny whose bounds
     /// are the final ones (or that gives the upper bound).
-    pub(crate) fn deciding_isogeny(&self) -> Option<usize> {
+    pub fn deciding_isogeny(&self) -> Option<usize> {
         self.deciding
     }
 
@@ -253,7 +253,7 @@ impl DescentReport {
     /// ĥ of each of [`DescentReport::points`], in the same order,
     /// certified (normalisation of [`crate::height`]); empty when a height
     /// could not be computed.
-    pub(crate) fn point_heights(&self) -> &[crate::arith::Certified] {
+    pub fn point_heights(&self) -> &[crate::arith::Certified] {
         match &self.global.saturation {
             Some(s) => &s.heights,
             None => &self.global.point_heights,
@@ -285,7 +285,7 @@ impl DescentReport {
     }
 
     /// The ledger's comparison with the 2-part of Sha the descent proves.
-    pub(crate) fn sha_two_part(&self) -> Option<ShaTwoPart> {
+    pub fn sha_two_part(&self) -> Option<ShaTwoPart> {
         self.global.sha_two_part
     }
 

@@ -182,7 +182,7 @@ pub fn heegner_forms(d: i64, level: i64, budget: &mut Budget) -> Result<Vec<(i64
 ///
 /// # Errors
 /// Budget errors from the square-free part of the scaling.
-pub fn congruent_model(
+pub(crate) fn congruent_model(
     curve: &Curve,
     budget: &mut Budget,
 ) -> Result<Option<(BigInt, ModelChange)>> {
