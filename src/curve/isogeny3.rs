@@ -301,13 +301,14 @@ impl Isogeny3 {
         let internal = |check: &str| Error::Internal {
             check: check.to_string(),
         };
-        // ψ₃ of the given model vanishes at the kernel's x.
+        // ψ₃ of the given model vanishes at the kernel's x (b₈ from
+        // 4b₈ = b₂b₆ − b₄², Silverman III.1).
         let xg = to_short.u() * to_short.u() * &x0 + to_short.r();
         let psi3 = rat(3) * xg.pow(4)
             + e.b2() * xg.pow(3)
             + rat(3) * e.b4() * &xg * &xg
             + rat(3) * e.b6() * &xg
-            + e.b8();
+            + (e.b2() * e.b6() - e.b4() * e.b4()) / rat(4);
         if !psi3.is_zero() {
             return Err(internal(
                 "the 3-division polynomial of the given model vanishes at the kernel",

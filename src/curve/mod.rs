@@ -49,6 +49,9 @@ pub(crate) mod torsion;
 pub(crate) mod two_torsion;
 pub(crate) mod weierstrass;
 
+#[cfg(test)]
+mod tests;
+
 pub use isogeny::TwoIsogeny;
 pub use isogeny3::{rational_3_isogenies, Isogeny3, Isogeny3Model};
 pub use model::{clear_denominators, ModelChange};
