@@ -26,7 +26,7 @@
 //! | 6 | [`selmer`] | F2 linear algebra, Q(S,2), Selmer groups from local images, local-image sizes |
 //! | 7 | [`second`] | the second descent: lifting pairing, class lifts, 4-coverings, twist obstructions |
 //! | 8 | [`descent`] | both sides of each 2-isogeny, rank bounds, the typed report, its verification |
-//! | 8b | [`descent3`] | descent via 3-isogeny on y² = x³ + k: Selmer groups over F3, rank bounds |
+//! | 8b | [`descent3`] | descent via 3-isogeny on y² = x³ + k and on any curve with a rational 3-isogeny (y² = x³ + D(αx + β)²): Selmer groups over F3, rank bounds |
 //! | 9 | [`output`] | reports as text and JSON, input lines as curves, batches |
 //! | 10 | [`family`] | twists, congruent numbers, boxes; ordered, parallel, sharded scans |
 //!
@@ -101,7 +101,7 @@ pub mod second;
 // Layer 8: the descent — both sides of each 2-isogeny, rank bounds, reports.
 pub mod descent;
 
-// Layer 8b: descent via 3-isogeny on y^2 = x^3 + k (Selmer groups over F3, rank bounds).
+// Layer 8b: descent via 3-isogeny on y^2 = x^3 + k and on y^2 = x^3 + D(ax + b)^2 (Selmer groups over F3, rank bounds).
 pub mod descent3;
 
 // Layer 9: the edge — reports as text and JSON, input lines as curves.
