@@ -44,8 +44,8 @@ fn unit_bits(u: &BigInt, p: &Prime) -> u8 {
 /// # Errors
 /// [`Error::Zero`] for x = 0, which has no square class.
 ///
-/// (Example, run as the unit test `square_classes_at_two`: −5 has the
-/// mask 0b110 at 2, and 17 ≡ 1 mod 8 the mask 0.)
+/// Example (a unit test in `src/local/tests/layer.rs`): at 2, −5 has the
+/// mask 0b110 and 17 ≡ 1 mod 8 the mask 0.
 pub fn square_class_int(x: &BigInt, place: &Place) -> Result<u8> {
     if x.is_zero() {
         return Err(Error::Zero {
@@ -228,18 +228,5 @@ mod tests {
     #[test]
     fn zero_has_no_class() {
         assert!(square_class_int(&BigInt::zero(), &Place::Real).is_err());
-    }
-}
-
-#[cfg(test)]
-mod example_tests {
-    use super::*;
-    use crate::local::{Place, Prime};
-
-    #[test]
-    fn square_classes_at_two() {
-        let two = Place::Finite(Prime::two());
-        assert_eq!(square_class_int(&(-5).into(), &two).unwrap(), 0b110);
-        assert_eq!(square_class_int(&17.into(), &two).unwrap(), 0);
     }
 }
