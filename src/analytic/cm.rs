@@ -230,7 +230,7 @@ fn eisenstein_mul((a, b): (i64, i64), (c, d): (i64, i64)) -> (i64, i64) {
 /// `a_p` of `y² = x³ + B` at a prime `p ≡ 1 (mod 3)`, `p ∤ 6B` (module
 /// docs).
 fn ap_j0(b: u64, p: u64) -> Option<i64> {
-    if b == 0 || p < 7 || p >= 1 << 62 {
+    if b == 0 || !(7..1 << 62).contains(&p) {
         return None;
     }
     let f = Field::new(p);
