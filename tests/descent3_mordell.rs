@@ -265,4 +265,15 @@ fn generators_are_proven_by_saturation() {
     );
     assert_eq!(v["points"].as_array().map(|a| a.len()), Some(2), "{line}");
     assert!(v["points"][0]["height"].is_string(), "{line}");
+
+    // x³ + y³ = 310, y² = x³ − 432·310²: the sieve of the height layer
+    // leaves p = 3 open (the kernel of φ is μ₃ as a Galois module), and the
+    // descent proves 3-saturation of the point found (docs/descent3.md,
+    // "Generators"). Rank 1 with root number −1 (310 ≡ 4 mod 9 is not a
+    // prime; the rank comes from the L-value here).
+    let r = run(&mordell(-432 * 310 * 310), &o);
+    assert_eq!(r.rank.map(|x| x.0), Some(1), "{r}");
+    let s = r.saturation.as_ref().expect("saturation ran");
+    assert_eq!(s.unresolved, vec![3], "{r}");
+    assert!(r.three_saturated_by_descent && r.points_generate(), "{r}");
 }

@@ -273,6 +273,11 @@ pub struct Isogeny3Report {
     /// positive and equals their number: LLL-reduced generators, their
     /// heights, the regulator and the proof (index bound, primes checked).
     pub saturation: Option<Saturation>,
+    /// True when the saturation left only p = 3 open and the descent
+    /// proved 3-saturation instead: E(Q)\[3\] = 0 and the points are those
+    /// found on the homogeneous spaces, with independent images (module
+    /// `generators`, docs/descent3.md).
+    pub three_saturated_by_descent: bool,
 }
 
 /// φ: E_k → E_{−27k}, (x, y) ↦ ((x³ + 4k)/x², y(x³ − 8k)/x³).
@@ -566,11 +571,16 @@ pub fn descend_3isogeny(e: &Curve, opts: &Isogeny3Options) -> Result<Isogeny3Rep
         cut.insert(0, "point search".to_string());
     }
     let mut gb = budget_for(opts.factor_units, start, opts.time_limit);
+    let torsion = crate::curve::torsion(e);
+    // The points are those of the finds, one per dimension they add.
+    let descent_proves_three = torsion.order() % 3 != 0
+        && rank.is_some_and(|(r, _)| r == rank_lower && user_points.len() == r);
     let (found, stop) = generators::generators(
         e,
         &user_points,
         rank.map(|(r, _)| r),
         opts.saturation.as_ref(),
+        descent_proves_three,
         &mut gb,
     );
     match stop {
@@ -594,9 +604,10 @@ pub fn descend_3isogeny(e: &Curve, opts: &Isogeny3Options) -> Result<Isogeny3Rep
         sha_dim,
         search_complete,
         cut,
-        torsion: crate::curve::torsion(e),
+        torsion,
         independent_points: found.independent,
         saturation: found.saturation,
+        three_saturated_by_descent: found.three_by_descent,
     })
 }
 
@@ -840,7 +851,9 @@ impl std::fmt::Display for Isogeny3Report {
                 writeln!(
                     f,
                     "  generators ({}): {}",
-                    if self.points_generate() {
+                    if self.points_generate() && self.three_saturated_by_descent {
+                        "proven by saturation, p = 3 by the descent"
+                    } else if self.points_generate() {
                         "proven by saturation"
                     } else {
                         "independent; saturation not proven"
@@ -969,10 +982,9 @@ impl Isogeny3Report {
     pub fn points_generate(&self) -> bool {
         match self.rank {
             Some((0, _)) => true,
-            Some((r, _)) => self
-                .saturation
-                .as_ref()
-                .is_some_and(|s| s.proven_saturated && s.generators.len() == r),
+            Some((r, _)) => self.saturation.as_ref().is_some_and(|s| {
+                (s.proven_saturated || self.three_saturated_by_descent) && s.generators.len() == r
+            }),
             None => false,
         }
     }

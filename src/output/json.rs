@@ -395,6 +395,7 @@ struct Isogeny3View {
     cassels: Option<CasselsView>,
     theorem: Option<&'static str>,
     sha_dim: Option<usize>,
+    saturation_at_3_from_descent: bool,
 }
 
 fn field_word(f: &crate::descent3::SideField) -> String {
@@ -474,6 +475,7 @@ fn isogeny3_view(r: &crate::descent3::Isogeny3Report, detail: Detail) -> Isogeny
             _ => None,
         },
         sha_dim: r.sha_dim,
+        saturation_at_3_from_descent: r.three_saturated_by_descent,
     }
 }
 
