@@ -31,6 +31,7 @@ fn main() {
     let mut uppers: BTreeMap<usize, usize> = BTreeMap::new();
     let mut ranks: BTreeMap<usize, usize> = BTreeMap::new();
     let mut missing_points = 0;
+    let (mut with_points, mut proven_generators) = (0, 0);
     for n in (lo.max(2)..=hi).filter(|&n| cube_free(n)) {
         total += 1;
         let e: Curve = match format!("0 0 0 0 {}", -432 * n * n).parse() {
@@ -52,6 +53,11 @@ fn main() {
                         }
                         if r.rank_lower < rank {
                             missing_points += 1;
+                        } else if rank > 0 {
+                            with_points += 1;
+                            if r.points_generate() {
+                                proven_generators += 1;
+                            }
                         }
                     }
                     None => open += 1,
@@ -71,6 +77,7 @@ fn main() {
         100.0 * (by_descent + by_analytic) as f64 / total.max(1) as f64
     );
     println!("not settled: {open}; errors: {errors}; settled with fewer independent points than the rank: {missing_points}");
+    println!("settled with positive rank and rank-many points: {with_points}; generators proven by saturation: {proven_generators}");
     println!("upper bound (Selmer ranks minus torsion) : count");
     for (u, c) in &uppers {
         println!("  {u} : {c}");

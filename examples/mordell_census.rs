@@ -27,6 +27,7 @@ fn main() {
     let start = Instant::now();
     let (mut total, mut by_descent, mut by_analytic, mut open, mut errors) = (0, 0, 0, 0, 0);
     let (mut missing_points, mut cassels_fail, mut partial) = (0, 0, 0);
+    let (mut with_points, mut proven_generators) = (0, 0);
     let mut uppers: BTreeMap<usize, usize> = BTreeMap::new();
     let mut ranks: BTreeMap<usize, usize> = BTreeMap::new();
     let mut slowest = (0.0f64, 0i64);
@@ -58,6 +59,11 @@ fn main() {
                         }
                         if r.rank_lower < rank {
                             missing_points += 1;
+                        } else if rank > 0 {
+                            with_points += 1;
+                            if r.points_generate() {
+                                proven_generators += 1;
+                            }
                         }
                     }
                     None => open += 1,
@@ -82,6 +88,7 @@ fn main() {
     );
     println!("not settled: {open}; errors: {errors}; partial reports: {partial}; Cassels' ratio failures: {cassels_fail}");
     println!("settled with fewer independent points than the rank: {missing_points}");
+    println!("settled with positive rank and rank-many points: {with_points}; generators proven by saturation: {proven_generators}");
     println!("slowest curve: k = {} in {:.3} s", slowest.1, slowest.0);
     println!("upper bound (Selmer ranks minus torsion) : count");
     for (u, c) in &uppers {

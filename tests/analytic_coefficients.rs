@@ -264,6 +264,18 @@ fn cm_curves() -> Vec<[i64; 5]> {
             v.push([0, 0, 0, 0, b]); // j = 0
         }
     }
+    // j = 0 with larger k (many primes of bad reduction, fields with class
+    // groups and units on the descent's side).
+    for b in [
+        9146i64,
+        -9149,
+        7777,
+        -432 * 49,
+        1_000_000_007,
+        -123_456_789_012,
+    ] {
+        v.push([0, 0, 0, 0, b]);
+    }
     // j = 0 and j = 1728 in models with a1 or a3 ≠ 0: y² + y = x³,
     // y² + y = x³ − 7, y² = x³ + x² + … reached by x ↦ x + r from the short
     // models (c4, c6 unchanged).
@@ -279,7 +291,8 @@ fn closed_forms_for_j_0_and_j_1728_equal_point_counts() {
     // The closed forms used for j = 1728 (a_p = 0 for p ≡ 3 mod 4; the
     // quartic-character formula of Ireland–Rosen, A Classical Introduction
     // to Modern Number Theory, 2nd ed., Ch. 18 §4, Thm. 5, for p ≡ 1 mod 4)
-    // and j = 0 (a_p = 0 for p ≡ 2 mod 3, ibid. Ch. 18 §3) against the
+    // and j = 0 (a_p = 0 for p ≡ 2 mod 3; the sextic-character formula of
+    // ibid. Ch. 18 §3, Thm. 4, for p ≡ 1 mod 3 — from memory) against the
     // definition a_p = p + 1 − #Ẽ(F_p) counted point by point, at every
     // prime below 1500 (tens of thousands of (curve, p) pairs).
     let ps = primes_below(1500);

@@ -175,3 +175,49 @@ fn l_prime_agrees_with_an_independent_mpmath_sum() {
     }
     assert_eq!(seen, 2);
 }
+
+#[test]
+fn j_zero_curves_above_10_to_the_10_are_analysed_by_default() {
+    // y² = x³ + k has j = 0 and its a_p come from the sextic residue symbol
+    // (module cm), so the default options analyse it up to the conductor
+    // 10¹³ of the closed-form families. The curves of x³ + y³ = p,
+    // y² = x³ − 432p², for primes p just above 4·10⁴ (conductor above
+    // 10¹⁰): p ≡ 2, 5 (mod 9) have rank 0 (Sylvester, Pépin, Lucas — from
+    // memory) and root number +1, p ≡ 4, 7, 8 (mod 9) root number −1 (from
+    // memory; Dasgupta–Voight).
+    let options = AnalyticOptions::default();
+    let mut seen = [0usize; 2];
+    for p in (40_000i64..60_000).filter(|&p| isodescent::arith::is_prime_u64(p as u64)) {
+        if seen[0] >= 3 && seen[1] >= 3 {
+            break;
+        }
+        let kind = usize::from(matches!(p % 9, 4 | 7 | 8));
+        if p % 9 == 1 || seen[kind] >= 3 {
+            continue;
+        }
+        let e = Curve::from_ints([0, 0, 0, 0, -432 * p * p]).unwrap();
+        let mut b = Budget::unlimited();
+        let l = e.tate_data(&mut b).unwrap();
+        let d = analyse(&e, &l, &options, &mut b).unwrap();
+        assert!(d.conductor() > &10_000_000_000u64.into(), "p = {p}");
+        assert_eq!(d.skipped(), None, "p = {p}");
+        assert!(d.split_check().unwrap().passed, "p = {p}");
+        match p % 9 {
+            2 | 5 => {
+                assert_eq!(d.root_number(), Some(1), "p = {p}");
+                if let Some((r, _)) = d.rank_proven() {
+                    assert_eq!(r, 0, "p = {p}");
+                }
+                seen[0] += 1;
+            }
+            4 | 7 | 8 => {
+                assert_eq!(d.root_number(), Some(-1), "p = {p}");
+                seen[1] += 1;
+            }
+            _ => {}
+        }
+    }
+    assert_eq!(seen, [3, 3]);
+    // A curve without closed forms keeps the lower limit.
+    assert!(options.conductor_limit_for(false) < options.conductor_limit_for(true));
+}

@@ -30,7 +30,21 @@
 //!   outside those four, impossible for a prime, sends the caller to the
 //!   general path).
 //!
-//! `j = 0` with `p ≡ 1 (mod 3)` is left to the general path.
+//! * `A = 0`, `p ≡ 1 (mod 3)`, `p ∤ 6B`: write `p = ππ̄` in `Z[ω]`,
+//!   `ω² + ω + 1 = 0`, with `π = a + bω` primary (`π ≡ 2 (mod 3)`: `a ≡ 2`,
+//!   `b ≡ 0 (mod 3)`), and let `χ = (4B/π)_6 ≡ (4B)^{(p−1)/6} (mod π)` be
+//!   the sextic residue symbol. Then `#E(F_p) = p + 1 + χ̄π + χπ̄`, i.e.
+//!   `a_p = −Tr(χ̄π)` (Ireland–Rosen, Ch. 18 §3, Theorem 4; from memory —
+//!   as for `j = 1728`, the statement and the conventions are fixed by the
+//!   tests against the crate's own point counts, in
+//!   `tests/analytic_coefficients.rs` and below). `p = x² + 3y²` comes
+//!   from Cornacchia's algorithm with `√−3 ≡ 2ζ + 1 (mod p)`, `ζ` a
+//!   primitive cube root of unity (`ζ = c^{(p−1)/3}` for the first `c`
+//!   with `c^{(p−1)/3} ≠ 1`); then `π = x + y√−3 = (x + y) + 2yω`, made
+//!   primary among its six associates. In `F_p ≅ Z[ω]/π`,
+//!   `ω ↦ −a·b⁻¹`, so `χ` is read off from which of the six units
+//!   `±1, ±ω, ±ω²` the power `(4B)^{(p−1)/6}` equals (anything else,
+//!   impossible for a prime, sends the caller to the general path).
 
 use super::bsgs::Mont;
 use crate::arith::word::{isqrt_u128, mul_mod, pow_mod};
@@ -47,13 +61,28 @@ pub(crate) enum Family {
     General,
 }
 
+/// True when the minimal model of the local data has `j = 0` (`c4 = 0`),
+/// so that every `a_p` at a good `p ≥ 5` has a closed form here.
+pub(crate) fn has_j_zero(local: &crate::curve::tate::GlobalLocalData) -> bool {
+    use num_traits::Zero;
+    crate::curve::weierstrass_invariants(&local.minimal_model)
+        .c4
+        .is_zero()
+}
+
 /// `a_p` by a closed form, for a good prime `p ≥ 5`, `p < 2⁶²`, where
 /// `a`, `b` are `A mod p`, `B mod p` of the short model. `None` when no
 /// closed form applies (then the caller counts).
-pub(crate) fn ap_closed_form(family: Family, a: u64, p: u64) -> Option<i64> {
+pub(crate) fn ap_closed_form(family: Family, a: u64, b: u64, p: u64) -> Option<i64> {
     match family {
         Family::General => None,
-        Family::J0 => (p % 3 == 2).then_some(0),
+        Family::J0 => {
+            if p % 3 == 2 {
+                Some(0)
+            } else {
+                ap_j0(b % p, p)
+            }
+        }
         Family::J1728 => {
             if p % 4 == 3 {
                 Some(0)
@@ -158,6 +187,89 @@ fn ap_j1728(d: u64, p: u64) -> Option<i64> {
     }
 }
 
+/// `x, y > 0` with `p = x² + 3y²`, for a prime `p ≡ 1 (mod 3)`, `p ≥ 7`:
+/// Cornacchia's algorithm (Cohen, "A Course in Computational Algebraic
+/// Number Theory", Algorithm 1.5.2, from memory), the result checked.
+fn x2_plus_3y2(f: &Field, p: u64) -> Option<(u64, u64)> {
+    // A primitive cube root of unity ζ, and √−3 = 2ζ + 1.
+    let zeta = (2..p.min(1000))
+        .map(|c| f.pow(c, (p - 1) / 3))
+        .find(|&z| z != 1)?;
+    let r = (2 * zeta + 1) % p;
+    if mul_mod(r, r, p) != p - 3 {
+        return None;
+    }
+    let root = isqrt_u128(u128::from(p)) as u64;
+    for start in [r, p - r] {
+        let (mut x, mut y) = (p, start);
+        while y > root {
+            (x, y) = (y, x % y);
+        }
+        let rest = p - y * y;
+        if rest % 3 != 0 {
+            continue;
+        }
+        let z = isqrt_u128(u128::from(rest / 3)) as u64;
+        if z > 0 && z * z == rest / 3 {
+            return Some((y, z));
+        }
+    }
+    None
+}
+
+/// `ω·(a + bω) = −b + (a − b)ω`.
+fn times_omega((a, b): (i64, i64)) -> (i64, i64) {
+    (-b, a - b)
+}
+
+/// `(a + bω)(c + dω) = (ac − bd) + (ad + bc − bd)ω`.
+fn eisenstein_mul((a, b): (i64, i64), (c, d): (i64, i64)) -> (i64, i64) {
+    (a * c - b * d, a * d + b * c - b * d)
+}
+
+/// `a_p` of `y² = x³ + B` at a prime `p ≡ 1 (mod 3)`, `p ∤ 6B` (module
+/// docs).
+fn ap_j0(b: u64, p: u64) -> Option<i64> {
+    if b == 0 || !(7..1 << 62).contains(&p) {
+        return None;
+    }
+    let f = Field::new(p);
+    let (x, y) = x2_plus_3y2(&f, p)?;
+    // |x|, |y| < 2^31, so the products below fit i64.
+    let (x, y) = (x as i64, y as i64);
+    let mut pi = (x + y, 2 * y);
+    let mut primary = None;
+    for _ in 0..3 {
+        for s in [1, -1] {
+            let (a, bb) = (s * pi.0, s * pi.1);
+            if a.rem_euclid(3) == 2 && bb.rem_euclid(3) == 0 {
+                primary = Some((a, bb));
+            }
+        }
+        pi = times_omega(pi);
+    }
+    let (a, bb) = primary?;
+    // ω ≡ −a/b (mod π) in F_p.
+    let bm = bb.rem_euclid(p as i64) as u64;
+    let am = a.rem_euclid(p as i64) as u64;
+    let w = mul_mod((p - am) % p, f.pow(bm, p - 2), p);
+    if (mul_mod(w, w, p) + w + 1) % p != 0 {
+        return None;
+    }
+    let four_b = mul_mod(4, b, p);
+    let t = f.pow(four_b, (p - 1) / 6);
+    let units: [(i64, i64); 6] = [(1, 0), (0, 1), (-1, -1), (-1, 0), (0, -1), (1, 1)];
+    let chi = units.into_iter().find(|&(c, d)| {
+        let v = (c.rem_euclid(p as i64) as u64 + mul_mod(d.rem_euclid(p as i64) as u64, w, p)) % p;
+        v == t
+    })?;
+    // χ̄ = c + dω̄ = (c − d) − dω.
+    let chi_bar = (chi.0 - chi.1, -chi.1);
+    let (u, v) = eisenstein_mul(chi_bar, (a, bb));
+    // Tr(u + vω) = 2u − v.
+    Some(-(2 * u - v))
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -174,6 +286,22 @@ mod tests {
                 u128::from(p)
             );
             assert!(a % 2 == 1 && b % 2 == 0);
+        }
+    }
+
+    #[test]
+    fn x2_plus_3y2_small_and_large() {
+        // Every prime p ≡ 1 (mod 3) is x² + 3y² (Fermat; Cox, "Primes of
+        // the Form x² + ny²", §1 — from memory).
+        for p in [7u64, 13, 19, 31, 37, 43, 1_000_003, (1 << 61) - 1] {
+            if p % 3 != 1 || !crate::arith::is_prime_u64(p) {
+                continue;
+            }
+            let (x, y) = x2_plus_3y2(&Field::new(p), p).expect("p ≡ 1 mod 3");
+            assert_eq!(
+                u128::from(x) * u128::from(x) + 3 * u128::from(y) * u128::from(y),
+                u128::from(p)
+            );
         }
     }
 }

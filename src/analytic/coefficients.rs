@@ -161,14 +161,14 @@ impl ApTable {
         // y² = x³ − 27·c4·x − 54·c6 is isomorphic to E over F_p, p ≥ 5
         // [Sil09, III.1].
         let a = (p - self.c4x27.rem(p)) % p;
-        if let Some(v) = ap_closed_form(self.family, a, p) {
+        let b = (p - self.c6x54.rem(p)) % p;
+        if let Some(v) = ap_closed_form(self.family, a, b, p) {
             return Some(v);
         }
         let bm: [u64; 3] = [self.b[0].rem(p), self.b[1].rem(p), self.b[2].rem(p)];
         if p < DIRECT_COUNT_BELOW {
             return Some(direct(bm, p));
         }
-        let b = (p - self.c6x54.rem(p)) % p;
         let fast = if p < (1 << 31) {
             super::bsgs::ap_fast(a, b, p, POINTS_TRIED, self.torsion, self.torsion_twist)
         } else {
@@ -737,20 +737,17 @@ mod tests {
                     continue;
                 }
                 // y² = x³ + cx: b2 = 0, b4 = 2c, b6 = 0.
-                let got = ap_closed_form(Family::J1728, cm, p);
+                let got = ap_closed_form(Family::J1728, cm, 0, p);
                 assert_eq!(got, Some(direct([0, 2 * cm % p, 0], p)), "A = {c}, p = {p}");
                 answered += 1;
-                // y² = x³ + c: b6 = 4c; a closed form only for p ≡ 2 (mod 3).
-                let got = ap_closed_form(Family::J0, 0, p);
-                if p % 3 == 2 {
-                    assert_eq!(got, Some(direct([0, 0, 4 * cm % p], p)), "B = {c}, p = {p}");
-                } else {
-                    assert_eq!(got, None);
-                }
+                // y² = x³ + c: b6 = 4c; a closed form at every p ≥ 5, p ∤ c
+                // (the sextic symbol for p ≡ 1 mod 3).
+                let got = ap_closed_form(Family::J0, 0, cm, p);
+                assert_eq!(got, Some(direct([0, 0, 4 * cm % p], p)), "B = {c}, p = {p}");
             }
         }
         assert!(answered > 6000);
-        assert_eq!(ap_closed_form(Family::General, 1, 101), None);
+        assert_eq!(ap_closed_form(Family::General, 1, 1, 101), None);
     }
 
     #[test]
@@ -769,7 +766,7 @@ mod tests {
                 }
                 found += 1;
                 for c in [1u64, 2, 3, 5, p - 1, p - 4, p - 25] {
-                    let v = ap_closed_form(Family::J1728, c, p).expect("closed form");
+                    let v = ap_closed_form(Family::J1728, c, 0, p).expect("closed form");
                     if let Some(w) = bsgs(c, 0, p, 200) {
                         assert_eq!(v, w, "A = {c}, p = {p}");
                         checked += 1;
@@ -778,5 +775,32 @@ mod tests {
             }
         }
         assert!(checked >= 40, "{checked}");
+    }
+
+    #[test]
+    fn sextic_closed_form_agrees_with_baby_step_giant_step_at_large_primes() {
+        // As above for y² = x³ + B at primes p ≡ 1 (mod 3) near 2^40 and
+        // 2^61: the sextic-symbol closed form (cm module docs) against the
+        // affine baby-step giant-step, which returns only a proven value.
+        let mut checked = 0;
+        for start in [(1u64 << 40) + 1, (1u64 << 61) - 1003] {
+            let mut p = start;
+            let mut found = 0;
+            while found < 4 {
+                p += 2;
+                if p % 3 != 1 || !crate::arith::is_prime_u64(p) {
+                    continue;
+                }
+                found += 1;
+                for c in [1u64, 2, 3, 5, 17, p - 1, p - 2, p - 432] {
+                    let v = ap_closed_form(Family::J0, 0, c, p).expect("closed form");
+                    if let Some(w) = bsgs(0, c, p, 200) {
+                        assert_eq!(v, w, "B = {c}, p = {p}");
+                        checked += 1;
+                    }
+                }
+            }
+        }
+        assert!(checked >= 48, "{checked}");
     }
 }

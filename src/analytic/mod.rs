@@ -69,13 +69,15 @@ use crate::curve::Curve;
 use crate::error::Result;
 
 /// Conductors above this are skipped under the default options, except
-/// for quadratic twists of `y² = x³ − x` (see
+/// for quadratic twists of `y² = x³ − x` and curves with `j = 0` (see
 /// [`DEFAULT_TWIST_CONDUCTOR_LIMIT`]). Up to it the stored route is used.
 pub const DEFAULT_CONDUCTOR_LIMIT: u64 = 10_000_000_000;
 
 /// The conductor limit under the default options for quadratic twists of
 /// `y² = x³ − x` (among them every congruent-number curve `y² = x³ − n²x`),
-/// whose coefficients come from a sieve ([`SeriesRoute::StreamedTwist`]).
+/// whose coefficients come from a sieve ([`SeriesRoute::StreamedTwist`]),
+/// and for the curves `y² = x³ + k` (`j = 0`), whose `a_p` come from the
+/// sextic residue symbol (module `cm`).
 pub const DEFAULT_TWIST_CONDUCTOR_LIMIT: u64 = 10_000_000_000_000;
 
 /// Quadratic twists of `y² = x³ − x` with conductor above this take the
@@ -108,12 +110,15 @@ const SPLIT: f64 = 1.1;
 pub struct AnalyticOptions {
     /// Curves whose conductor exceeds this are skipped (default
     /// [`DEFAULT_CONDUCTOR_LIMIT`] = 10¹⁰), unless they are quadratic twists
-    /// of `y² = x³ − x` below [`AnalyticOptions::twist_conductor_limit`].
+    /// of `y² = x³ − x` or curves with `j = 0` below
+    /// [`AnalyticOptions::twist_conductor_limit`].
     pub conductor_limit: u64,
     /// The conductor limit for quadratic twists of `y² = x³ − x`, whose
-    /// `a_p` come from a sieve rather than prime by prime (default
-    /// [`DEFAULT_TWIST_CONDUCTOR_LIMIT`] = 10¹³). The larger of the two
-    /// limits applies to them.
+    /// `a_p` come from a sieve rather than prime by prime, and for the
+    /// curves with `j = 0` (sextic twists of `y² = x³ + 1`), whose `a_p`
+    /// come from a closed form (the sextic residue symbol) rather than a
+    /// point count (default [`DEFAULT_TWIST_CONDUCTOR_LIMIT`] = 10¹³). The
+    /// larger of the two limits applies to them.
     pub twist_conductor_limit: u64,
     /// Conductors above this use the streamed route (coefficients in
     /// machine words, sums in binary64 with one error bound per sum; see
@@ -176,10 +181,11 @@ impl AnalyticOptions {
     }
 
     /// The conductor limit that applies to a curve: the larger of the two
-    /// limits for quadratic twists of `y² = x³ − x`, else
+    /// limits for quadratic twists of `y² = x³ − x` and for curves with
+    /// `j = 0` (`closed_form_family`), else
     /// [`AnalyticOptions::conductor_limit`].
-    pub fn conductor_limit_for(&self, twist_of_x3_minus_x: bool) -> u64 {
-        if twist_of_x3_minus_x {
+    pub fn conductor_limit_for(&self, closed_form_family: bool) -> u64 {
+        if closed_form_family {
             self.conductor_limit.max(self.twist_conductor_limit)
         } else {
             self.conductor_limit
@@ -544,7 +550,7 @@ pub fn analyse(
         skipped: None,
     };
     let twist = stream::twist_of_x3_minus_x(local);
-    let limit = options.conductor_limit_for(twist.is_some());
+    let limit = options.conductor_limit_for(twist.is_some() || cm::has_j_zero(local));
     let n = match local.conductor.to_u64() {
         Some(n) if n <= limit && n <= 1 << 53 => n,
         _ => {

@@ -58,7 +58,8 @@ pub struct DescentOptions {
     /// ranks settled by theorem and the Birch–Swinnerton-Dyer ledger, for
     /// curves with conductor up to the options' limit (default 10¹⁰, and
     /// 10¹³ for quadratic twists of y² = x³ − x such as the congruent-number
-    /// curves; see `AnalyticOptions::conductor_limit_for`).
+    /// curves and for curves with j = 0; see
+    /// `AnalyticOptions::conductor_limit_for`).
     pub analytic: Option<AnalyticOptions>,
     /// Saturation of the points into generators with heights and the
     /// regulator, when the rank is decided (`None`: off).

@@ -58,6 +58,7 @@
 
 pub(crate) mod f3;
 mod flex;
+mod generators;
 pub(crate) mod side;
 mod uncovered;
 
@@ -69,6 +70,7 @@ use num_traits::{One, Signed, ToPrimitive, Zero};
 
 use crate::analytic::{analyse, AnalyticOptions, RankTheorem};
 use crate::arith::factor;
+use crate::arith::Certified;
 use crate::budget::Budget;
 use crate::cubic::quadratic::FieldLimits;
 use crate::cubic::{CubicPoint, CubicWitness};
@@ -76,6 +78,7 @@ use crate::curve::{
     global_local_data, short_integral_model, Curve, GlobalLocalData, ModelChange, Point,
 };
 use crate::error::{Error, Result};
+use crate::height::{Saturation, SaturationOptions};
 use crate::local::Prime;
 use f3::Span;
 use side::{intersect_local, point_on, search_side, SideSetup};
@@ -119,6 +122,11 @@ pub struct Isogeny3Options {
     /// Largest size in bits of the fundamental unit of a real field and of
     /// the generators of principal ideals.
     pub max_unit_bits: u64,
+    /// Saturation of the independent points found into generators of
+    /// E(Q) modulo torsion, when the rank is proven and that many points
+    /// are known (`None`: off; the heights of the independent points are
+    /// computed either way). Runs under `factor_units` and the clock.
+    pub saturation: Option<SaturationOptions>,
 }
 
 impl Default for Isogeny3Options {
@@ -136,6 +144,7 @@ impl Default for Isogeny3Options {
             max_discriminant: 2_000_000,
             max_class_number: 5_000,
             max_unit_bits: 8_192,
+            saturation: Some(SaturationOptions::default()),
         }
     }
 }
@@ -230,7 +239,7 @@ pub enum Rank3Proof {
 }
 
 /// The outcome of [`descend_3isogeny`].
-#[derive(Debug, Clone, PartialEq, Eq)]
+#[derive(Debug, Clone, PartialEq)]
 #[non_exhaustive]
 pub struct Isogeny3Report {
     /// The curve as given.
@@ -261,9 +270,24 @@ pub struct Isogeny3Report {
     /// bounds are still proven).
     pub search_complete: bool,
     /// The optional steps that a budget or the clock cut short (point
-    /// search, local data, Tamagawa check, analytic side); the report is
-    /// then partial, though every number in it stays proven.
+    /// search, local data, Tamagawa check, analytic side, generators); the
+    /// report is then partial, though every number in it stays proven.
     pub cut: Vec<String>,
+    /// The torsion subgroup of the given curve.
+    pub torsion: crate::curve::TorsionGroup,
+    /// Points among `points` that are independent modulo torsion (the
+    /// certified regulator of the set is positive), with their canonical
+    /// heights (normalisation of [`crate::height`]).
+    pub independent_points: Vec<(Point, Certified)>,
+    /// The saturation of `independent_points`, run when the rank is proven
+    /// positive and equals their number: LLL-reduced generators, their
+    /// heights, the regulator and the proof (index bound, primes checked).
+    pub saturation: Option<Saturation>,
+    /// True when the saturation left only p = 3 open and the descent
+    /// proved 3-saturation instead: E(Q)\[3\] = 0 and the points are those
+    /// found on the homogeneous spaces, with independent images (module
+    /// `generators`, docs/descent3.md).
+    pub three_saturated_by_descent: bool,
 }
 
 /// φ: E_k → E_{−27k}, (x, y) ↦ ((x³ + 4k)/x², y(x³ − 8k)/x³).
@@ -559,6 +583,26 @@ pub fn descend_3isogeny(e: &Curve, opts: &Isogeny3Options) -> Result<Isogeny3Rep
     if !search_complete {
         cut.insert(0, "point search".to_string());
     }
+    let mut gb = budget_for(opts.factor_units, start, opts.time_limit);
+    let torsion = crate::curve::torsion(e);
+    // The points are those of the finds, one per dimension they add.
+    let descent_proves_three = torsion.order() % 3 != 0
+        && rank.is_some_and(|(r, _)| r == rank_lower && user_points.len() == r);
+    let (found, stop) = generators::generators(
+        e,
+        &user_points,
+        rank.map(|(r, _)| r),
+        opts.saturation.as_ref(),
+        descent_proves_three,
+        &mut gb,
+    );
+    match stop {
+        None => {}
+        Some(Error::BudgetExhausted { .. }) | Some(Error::FactorBudgetExhausted { .. }) => {
+            cut.push("generators (heights, saturation)".to_string())
+        }
+        Some(err) => return Err(err),
+    }
     let sha_dim = rank.map(|(r, _)| rank_upper - r);
     Ok(Isogeny3Report {
         curve: e.clone(),
@@ -573,6 +617,10 @@ pub fn descend_3isogeny(e: &Curve, opts: &Isogeny3Options) -> Result<Isogeny3Rep
         sha_dim,
         search_complete,
         cut,
+        torsion,
+        independent_points: found.independent,
+        saturation: found.saturation,
+        three_saturated_by_descent: found.three_by_descent,
     })
 }
 
@@ -806,6 +854,38 @@ impl std::fmt::Display for Isogeny3Report {
         for p in &self.points {
             writeln!(f, "  point on the given curve: {p}")?;
         }
+        let pm = |c: &Certified| {
+            let (v, e) = crate::arith::decimal::enclose(c.value(), c.error());
+            format!("{v} ± {e}")
+        };
+        writeln!(f, "  torsion: order {}", self.torsion.order())?;
+        match &self.saturation {
+            Some(s) => {
+                writeln!(
+                    f,
+                    "  generators ({}): {}",
+                    if self.points_generate() && self.three_saturated_by_descent {
+                        "proven by saturation, p = 3 by the descent"
+                    } else if self.points_generate() {
+                        "proven by saturation"
+                    } else {
+                        "independent; saturation not proven"
+                    },
+                    s.generators
+                        .iter()
+                        .zip(&s.heights)
+                        .map(|(p, h)| format!("{p} with ĥ = {}", pm(h)))
+                        .collect::<Vec<_>>()
+                        .join(", ")
+                )?;
+                writeln!(f, "  regulator: {}", pm(&s.regulator))?;
+            }
+            None => {
+                for (p, h) in &self.independent_points {
+                    writeln!(f, "  independent point: {p} with ĥ = {}", pm(h))?;
+                }
+            }
+        }
         if !self.cut.is_empty() {
             writeln!(
                 f,
@@ -921,6 +1001,19 @@ impl Isogeny3Side {
 }
 
 impl Isogeny3Report {
+    /// True when the rank is proven and generators of E(Q) modulo torsion
+    /// are known: the rank is 0, or saturation proved the generators of
+    /// [`Isogeny3Report::saturation`] (as many as the rank) saturated.
+    pub fn points_generate(&self) -> bool {
+        match self.rank {
+            Some((0, _)) => true,
+            Some((r, _)) => self.saturation.as_ref().is_some_and(|s| {
+                (s.proven_saturated || self.three_saturated_by_descent) && s.generators.len() == r
+            }),
+            None => false,
+        }
+    }
+
     /// Re-checks the evidence of the report exactly: the change of model
     /// gives y² = x³ + k; every Selmer basis vector has, at every prime of
     /// S, a local witness on its plane cubic that re-checks; every point
@@ -972,7 +1065,9 @@ impl Isogeny3Report {
                 }
             }
         }
-        for p in &self.points {
+        let generators = self.saturation.iter().flat_map(|s| &s.generators);
+        let independent = self.independent_points.iter().map(|(p, _)| p);
+        for p in self.points.iter().chain(independent).chain(generators) {
             if !self.curve.contains(p) {
                 return fail(format!("{p} lies on {}", self.curve));
             }

@@ -99,13 +99,14 @@ pub fn json_for_bytes(bytes: &[u8], options: &DescentOptions, detail: Detail) ->
 }
 
 /// The options of the descent via 3-isogeny that follow from those of the
-/// 2-isogeny descent: the same analytic side, clock, factoring and local
-/// budgets; the rest at their defaults.
+/// 2-isogeny descent: the same analytic side, saturation, clock, factoring
+/// and local budgets; the rest at their defaults.
 pub(crate) fn isogeny3_options(options: &DescentOptions) -> crate::descent3::Isogeny3Options {
     crate::descent3::Isogeny3Options {
         analytic: options.analytic.clone(),
         time_limit: options.time_limit,
         factor_units: options.factor_units,
+        saturation: options.saturation.clone(),
         ..Default::default()
     }
 }

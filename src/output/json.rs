@@ -395,6 +395,7 @@ struct Isogeny3View {
     cassels: Option<CasselsView>,
     theorem: Option<&'static str>,
     sha_dim: Option<usize>,
+    saturation_at_3_from_descent: bool,
 }
 
 fn field_word(f: &crate::descent3::SideField) -> String {
@@ -474,6 +475,7 @@ fn isogeny3_view(r: &crate::descent3::Isogeny3Report, detail: Detail) -> Isogeny
             _ => None,
         },
         sha_dim: r.sha_dim,
+        saturation_at_3_from_descent: r.three_saturated_by_descent,
     }
 }
 
@@ -494,6 +496,14 @@ pub(crate) fn isogeny3_line(
             }),
         )
     };
+    // The saturated generators when saturation ran, else the independent
+    // points found, each with its canonical height.
+    let (points, heights): (Vec<Point>, Vec<crate::height::Certified>) = match &r.saturation {
+        Some(s) => (s.generators.clone(), s.heights.clone()),
+        None => r.independent_points.iter().cloned().unzip(),
+    };
+    let t = &r.torsion;
+    let (n1, n2) = t.structure();
     to_line(&LineView {
         format_version: FORMAT_VERSION,
         input: echoed_input(input),
@@ -502,19 +512,37 @@ pub(crate) fn isogeny3_line(
         stopped,
         rank_lower: Some(r.rank_lower),
         rank_upper: Some(r.rank_upper),
-        points: height_points_view(&r.points, &[]),
-        points_from: (!r.points.is_empty()).then_some("search"),
+        points: height_points_view(&points, &heights),
+        points_from: (!points.is_empty()).then_some("search"),
         heegner: None,
-        torsion: None,
+        torsion: Some(TorsionView {
+            order: t.order(),
+            cyclic_factors: if n2 <= 1 { vec![n1] } else { vec![n2, n1] },
+            generators: points_view(t.generators()),
+        }),
         selmer2_rank: None,
         rank_settled_by: r.rank.map(|(_, p)| match p {
             crate::descent3::Rank3Proof::Descent => "descent",
             _ => "analytic",
         }),
-        regulator: None,
-        regulator_error: None,
-        points_generate: false,
-        saturation: None,
+        regulator: r
+            .saturation
+            .as_ref()
+            .map(|s| value_and_error(s.regulator.value(), s.regulator.error()).0),
+        regulator_error: r
+            .saturation
+            .as_ref()
+            .map(|s| value_and_error(s.regulator.value(), s.regulator.error()).1),
+        points_generate: r.points_generate(),
+        saturation: r.saturation.as_ref().map(|s| SaturationView {
+            index_bound: s.index_bound,
+            index_found: s.index_found,
+            primes_checked: s.primes_checked.clone(),
+            unresolved: s.unresolved.clone(),
+            height_lower_bound: s
+                .height_lower_bound
+                .map(|h| crate::arith::decimal::decimal_floor(h, 6)),
+        }),
         root_number: None,
         analytic_order: None,
         analytic: None,
