@@ -326,8 +326,15 @@ fn descend_isogeny_with_torsion(
         .collect();
     let torsion_e2 = crate::curve::torsion(isogeny.codomain()).points().to_vec();
 
-    let domain = isogeny_side::compute_side(model.reduced(), &primes, &torsion_e, ctx)?;
-    let codomain = isogeny_side::compute_side(isogeny.codomain_model(), &primes, &torsion_e2, ctx)?;
+    let domain = isogeny_side::compute_side(model.reduced(), &primes, &torsion_e, None, ctx)?;
+    // The domain's local images fix the order of the codomain's.
+    let codomain = isogeny_side::compute_side(
+        isogeny.codomain_model(),
+        &primes,
+        &torsion_e2,
+        Some(&domain.local_images),
+        ctx,
+    )?;
     if domain.torsion_dim + codomain.torsion_dim != 2 {
         return Err(Error::Internal {
             check: format!(
