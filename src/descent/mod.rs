@@ -324,7 +324,13 @@ fn descend_isogeny_with_torsion(
         .iter()
         .map(|p| model.from_input(p))
         .collect();
-    let torsion_e2 = crate::curve::torsion(isogeny.codomain()).points().to_vec();
+    // E′(Q)_tors has the odd part of E(Q)_tors (module `curve::torsion`):
+    // when that is trivial, the 2-primary part by halving is all of it.
+    let torsion_e2 = if torsion.points().len().is_power_of_two() {
+        crate::curve::torsion::two_group_torsion_points(isogeny.codomain())
+    } else {
+        crate::curve::torsion(isogeny.codomain()).points().to_vec()
+    };
 
     let domain = isogeny_side::compute_side(model.reduced(), &primes, &torsion_e, None, ctx)?;
     // The domain's local images fix the order of the codomain's.
