@@ -178,15 +178,6 @@ impl HeightContext {
         &self.to_min
     }
 
-    /// The primes of bad reduction, with `v_p(Δ_min)` and the Kodaira
-    /// symbol.
-    pub fn bad_primes(&self) -> Vec<(BigInt, u64, crate::curve::tate::Kodaira)> {
-        self.bad
-            .iter()
-            .map(|b| (b.prime.get().clone(), b.n, b.kodaira))
-            .collect()
-    }
-
     pub(crate) fn discriminant(&self) -> &BigInt {
         &self.disc
     }
