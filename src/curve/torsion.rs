@@ -155,7 +155,7 @@ pub fn torsion(e: &Curve) -> TorsionGroup {
 /// The points of E(Q)_tors, in the order of [`torsion`], for a curve whose
 /// torsion the caller knows to be a 2-group — without the point-count
 /// bound: the 2-primary part by halving up to order 8, which is as far as
-/// it goes over Q (Mazur's list [Maz77]: the 2-primary part is a subgroup
+/// it goes over Q (Mazur's list \[Maz77\]: the 2-primary part is a subgroup
 /// of Z/2 × Z/8). The descent uses it on the codomain E′ of a 2-isogeny
 /// φ: E → E′ when E(Q)_tors is a 2-group: φ and its dual have kernels of
 /// order 2, so they are injective on points of odd order and
