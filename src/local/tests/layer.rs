@@ -206,3 +206,15 @@ fn bad_arguments_are_typed_errors() {
     assert!(square_class(&BigRational::zero(), &Place::Real).is_err());
     assert!(hilbert_symbol_int(&BigInt::zero(), &BigInt::one(), &Place::Real).is_err());
 }
+
+/// The examples of the `sqrt_mod_prime` and `square_class_int` docs (both
+/// crate-private): 2 is a square modulo 7; at 2, −5 has the class mask
+/// 0b110 and 17 ≡ 1 mod 8 the mask 0 (common practice).
+#[test]
+fn the_documented_examples_of_the_crate_private_helpers_hold() {
+    let x = sqrt_mod_prime(&2.into(), &Prime::small(7).unwrap()).unwrap();
+    assert_eq!((&x * &x) % 7, 2.into());
+    let two = Place::Finite(Prime::two());
+    assert_eq!(square_class_int(&(-5).into(), &two).unwrap(), 0b110);
+    assert_eq!(square_class_int(&17.into(), &two).unwrap(), 0);
+}
