@@ -2,7 +2,9 @@
 //! family (the figures of "Selmer stage on machine words (issue 16)" in
 //! docs/performance.md): Tate's algorithm and the conductor, the local
 //! images, and the whole first descent (Selmer groups and local data
-//! only), on curves whose coefficients fit in machine words.
+//! only, with and without the lifting pairing: the census modes
+//! `local-only` and `isogeny-selmer` of `examples/selmer_census.rs`), on
+//! curves whose coefficients fit in machine words.
 //!
 //! Run: `cargo bench --bench selmer_words`. The file uses only the public
 //! API, so the same file runs unchanged on an earlier commit for a side
@@ -107,6 +109,9 @@ fn bench_first_descent(c: &mut Criterion) {
     let mut group = c.benchmark_group("selmer_words_descent");
     group.sample_size(10);
     let opts = DescentOptions::default().local_conditions_only();
+    // The census mode `isogeny-selmer`: the two isogeny Selmer groups only.
+    let mut isogeny_only = DescentOptions::default().local_conditions_only();
+    isogeny_only.lifting_pairing = false;
     for from in [1_000i64, 990_000] {
         let curves: Vec<Curve> = congruent(from, 100)
             .into_iter()
@@ -118,6 +123,16 @@ fn bench_first_descent(c: &mut Criterion) {
                 b.iter(|| {
                     for e in &curves {
                         black_box(descend(e, &opts).unwrap());
+                    }
+                })
+            },
+        );
+        group.bench_function(
+            format!("isogeny Selmer groups only, 100 congruent n from {from}"),
+            |b| {
+                b.iter(|| {
+                    for e in &curves {
+                        black_box(descend(e, &isogeny_only).unwrap());
                     }
                 })
             },

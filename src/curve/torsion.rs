@@ -152,6 +152,28 @@ pub fn torsion(e: &Curve) -> TorsionGroup {
     assemble(&work, &parts, bound)
 }
 
+/// The points of E(Q)_tors, in the order of [`torsion`], for a curve whose
+/// torsion the caller knows to be a 2-group — without the point-count
+/// bound: the 2-primary part by halving up to order 8, which is as far as
+/// it goes over Q (Mazur's list \[Maz77\]: the 2-primary part is a subgroup
+/// of Z/2 × Z/8). The descent uses it on the codomain E′ of a 2-isogeny
+/// φ: E → E′ when E(Q)_tors is a 2-group: φ and its dual have kernels of
+/// order 2, so they are injective on points of odd order and
+/// |E(Q)[m]| = |E′(Q)[m]| for odd m (common practice).
+///
+/// Cost: a few exact square roots (and, when points of order 4 exist, a
+/// quartic root search), no point counting.
+pub(crate) fn two_group_torsion_points(e: &Curve) -> Vec<Point> {
+    let work = WorkModel::of(e);
+    let roots = integer_roots(&work.cubic);
+    let parts: Vec<Primary> = if roots.is_empty() {
+        Vec::new()
+    } else {
+        vec![two_primary(&work, &roots, 3)]
+    };
+    assemble(&work, &parts, 0).points
+}
+
 /// The working model M: y² = x³ + f2x² + f4x + f6 with f_i ∈ Z (the input
 /// itself when it already has that shape, else its integral short model),
 /// with the change of model from the input to M.
@@ -716,6 +738,48 @@ fn factor_small(mut n: u32) -> Vec<(u32, u32)> {
 #[allow(clippy::unwrap_used)]
 mod tests {
     use super::*;
+
+    /// `two_group_torsion_points` against [`torsion`] on the codomains of
+    /// 2-isogenies whose domain has 2-group torsion: every model
+    /// y² = x³ + ax² + bx with |a|, |b| ≤ 40 and the three 2-isogenies of
+    /// y² = x³ − n²x for n ≤ 300, with the group orders met on the way
+    /// (orders 2, 4 and 8 must all occur, so halving was exercised).
+    #[test]
+    fn two_group_torsion_agrees_with_the_full_computation() {
+        use crate::curve::ReducedModel;
+        let mut models: Vec<(i64, i64)> = Vec::new();
+        for a in -40i64..=40 {
+            for b in -40i64..=40 {
+                models.push((a, b));
+            }
+        }
+        for n in 1i64..=300 {
+            models.extend([(0, -n * n), (3 * n, 2 * n * n), (-3 * n, 2 * n * n)]);
+        }
+        let mut orders = std::collections::BTreeMap::new();
+        let mut skipped_odd = 0;
+        for (a, b) in models {
+            let Ok(m) = ReducedModel::new(BigInt::from(a), BigInt::from(b)) else {
+                continue;
+            };
+            if !torsion(m.curve()).points().len().is_power_of_two() {
+                skipped_odd += 1;
+                continue;
+            }
+            let e2 = m.isogenous().unwrap();
+            let full = torsion(e2.curve());
+            assert_eq!(
+                two_group_torsion_points(e2.curve()),
+                full.points(),
+                "codomain of a = {a}, b = {b}"
+            );
+            *orders.entry(full.points().len()).or_insert(0) += 1;
+        }
+        for k in [2usize, 4, 8] {
+            assert!(orders.contains_key(&k), "{orders:?}");
+        }
+        assert!(skipped_odd > 0);
+    }
 
     #[test]
     fn point_counts_match_a_brute_force_count_over_small_fields() {

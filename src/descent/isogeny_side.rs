@@ -493,6 +493,7 @@ pub(crate) fn compute_side(
     model: &ReducedModel,
     primes: &[Prime],
     torsion: &[Point],
+    partner: Option<&[LocalImage]>,
     ctx: &DescentContext<'_>,
 ) -> Result<SelmerSide> {
     let options = ctx.options;
@@ -504,7 +505,7 @@ pub(crate) fn compute_side(
         group,
         torsion_span,
         torsion_basis,
-    } = assemble_selmer(model, primes, torsion, &mut budget)?;
+    } = assemble_selmer(model, primes, torsion, partner, &mut budget)?;
     let mut progress = Progress {
         elements: torsion_basis
             .into_iter()

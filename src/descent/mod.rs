@@ -324,10 +324,23 @@ fn descend_isogeny_with_torsion(
         .iter()
         .map(|p| model.from_input(p))
         .collect();
-    let torsion_e2 = crate::curve::torsion(isogeny.codomain()).points().to_vec();
+    // E′(Q)_tors has the odd part of E(Q)_tors (module `curve::torsion`):
+    // when that is trivial, the 2-primary part by halving is all of it.
+    let torsion_e2 = if torsion.points().len().is_power_of_two() {
+        crate::curve::torsion::two_group_torsion_points(isogeny.codomain())
+    } else {
+        crate::curve::torsion(isogeny.codomain()).points().to_vec()
+    };
 
-    let domain = isogeny_side::compute_side(model.reduced(), &primes, &torsion_e, ctx)?;
-    let codomain = isogeny_side::compute_side(isogeny.codomain_model(), &primes, &torsion_e2, ctx)?;
+    let domain = isogeny_side::compute_side(model.reduced(), &primes, &torsion_e, None, ctx)?;
+    // The domain's local images fix the order of the codomain's.
+    let codomain = isogeny_side::compute_side(
+        isogeny.codomain_model(),
+        &primes,
+        &torsion_e2,
+        Some(&domain.local_images),
+        ctx,
+    )?;
     if domain.torsion_dim + codomain.torsion_dim != 2 {
         return Err(Error::Internal {
             check: format!(

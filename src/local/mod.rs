@@ -20,6 +20,7 @@
 
 pub(crate) mod hilbert;
 pub(crate) mod known_primes;
+pub(crate) mod kummer;
 pub(crate) mod place;
 pub(crate) mod sqrt;
 pub(crate) mod square_class;

@@ -40,6 +40,7 @@ use crate::arith::word::word_paths_enabled;
 use crate::budget::Budget;
 use crate::curve::ReducedModel;
 use crate::error::{Error, Result};
+use crate::local::kummer::odd_image_members;
 use crate::local::{class_dimension, class_representatives, Place, Prime};
 use num_bigint::BigInt;
 use num_integer::Integer;
@@ -179,13 +180,22 @@ fn f2_basis(masks: &[u8]) -> Vec<u8> {
 /// Example: for `y² = x³ − x` (`a = 0, b = −1`) at `R`: `C_{−1}` is
 /// `N² = −M⁴ + e⁴`, soluble, so `W_R = {1, −1}`, masks `[0, 1]`.
 pub fn local_image(model: &ReducedModel, place: &Place, budget: &mut Budget) -> Result<LocalImage> {
-    local_image_with(model, place, budget, true)
+    local_image_with(model, place, budget, true, None)
 }
 
 /// [`local_image`]; with `by_closure` false every class is tested, with
 /// `by_closure` true a class `c` is reported insoluble without its test
 /// when some class `m` already found in `W_v` has `c ⊕ m` already found
-/// outside `W_v` (then `c ∈ W_v` would put `c ⊕ m` in the subgroup `W_v`).
+/// outside `W_v` (then `c ∈ W_v` would put `c ⊕ m` in the subgroup `W_v`),
+/// or, at an odd prime, when the closed form of `crate::local::kummer`
+/// puts `c` outside `W_v`, or, with `size` the order of `W_v` known
+/// beforehand, when that many members have been found (`W_v` is then
+/// complete).
+///
+/// `size` comes from the partner of a 2-isogeny: `|W_v(E)|·|W_v(E′)|` is
+/// the number of classes of `Q_v*/Q_v*²` (2 at `R`, 4 at odd `p`, 8 at 2;
+/// module docs, [Schaefer96, Lemma 3.8]), so the image of one side fixes
+/// the order of the other's.
 /// Both give the same image and evidence (the test
 /// `closure_skips_change_no_image` compares them over families); the
 /// skipped tests are not charged to the budget.
@@ -194,6 +204,7 @@ pub(crate) fn local_image_with(
     place: &Place,
     budget: &mut Budget,
     by_closure: bool,
+    size: Option<usize>,
 ) -> Result<LocalImage> {
     let (a, b) = (model.a(), model.b());
     let reps = class_representatives(place);
@@ -209,13 +220,24 @@ pub(crate) fn local_image_with(
     } else {
         None
     };
+    // At an odd prime, the closed form of `crate::local::kummer` names the
+    // members; the classes outside are reported insoluble without a test
+    // (the members are still tested, for their witnesses).
+    let closed = match (place, words) {
+        (Place::Finite(p), Some(w)) if by_closure && !p.is_two() => {
+            p.to_u64().and_then(|p| odd_image_members(w.a(), w.b(), p))
+        }
+        _ => None,
+    };
     // Bit m of `inside` / `outside`: class m tested and found in / not in
     // W_v (masks are below 8).
     let (mut inside, mut outside) = (0u8, 0u8);
     for (mask, d) in reps.into_iter().enumerate() {
         let mask = mask as u8;
-        let known_outside =
-            by_closure && (0..8u8).any(|m| inside >> m & 1 == 1 && outside >> (m ^ mask) & 1 == 1);
+        let known_outside = closed.is_some_and(|set| set >> mask & 1 == 0)
+            || by_closure && size.is_some_and(|s| members.len() >= s)
+            || by_closure
+                && (0..8u8).any(|m| inside >> m & 1 == 1 && outside >> (m ^ mask) & 1 == 1);
         if known_outside {
             outside |= 1 << mask;
             evidence.push(ClassEvidence {

@@ -50,6 +50,16 @@ impl SpaceWords {
         (b != 0 && disc.get()? != 0).then_some(SpaceWords { a, b })
     }
 
+    /// `a`.
+    pub(crate) fn a(&self) -> i128 {
+        self.a
+    }
+
+    /// `b`.
+    pub(crate) fn b(&self) -> i128 {
+        self.b
+    }
+
     /// The coefficients of `C_d`; `None` for `d = 0` or when something
     /// leaves `i128`.
     pub(crate) fn coeffs(&self, d: &BigInt) -> Option<[i128; 5]> {
@@ -402,8 +412,8 @@ mod tests {
             }
             for v in &places {
                 let (mut b1, mut b2) = (Budget::unlimited(), Budget::unlimited());
-                let fast = local_image_with(&model, v, &mut b1, true).unwrap();
-                let full = local_image_with(&model, v, &mut b2, false).unwrap();
+                let fast = local_image_with(&model, v, &mut b1, true, None).unwrap();
+                let full = local_image_with(&model, v, &mut b2, false, None).unwrap();
                 skipped_any |= b1.spent() < b2.spent();
                 assert_eq!(fast, full, "a = {a}, b = {b} at {v}");
                 compared += 1;
@@ -411,6 +421,84 @@ mod tests {
         }
         assert!(compared > 2000);
         assert!(skipped_any);
+    }
+
+    /// The closed form of `crate::local::kummer` against the class trees
+    /// (every class tested, `by_closure` off) at odd primes below and
+    /// above its residue-trying bound 17, on `(a, b) = (s·p^i, t·p^j)` with
+    /// deep valuations (every order of the three valuations, all ties),
+    /// on `a = 2u·p^i`, `b = p^{2i}(u² − r·p^e)`, where the residue
+    /// polynomial has a double root (case 3 of the module docs), and on
+    /// `f = (x − s·p^i)(x − t·p^j)` (rational roots).
+    #[test]
+    fn odd_closed_form_agrees_with_the_class_trees() {
+        use crate::local::kummer::odd_image_members;
+        use crate::quartic::image::local_image_with;
+        let mut seed = 0x2545_f491_4f6c_dd1du64;
+        let mut next = move |m: i64| {
+            seed ^= seed << 13;
+            seed ^= seed >> 7;
+            seed ^= seed << 17;
+            (seed % (2 * m as u64 + 1)) as i64 - m
+        };
+        let mut compared = 0;
+        let mut seen = [0usize; 16];
+        for p in [3i64, 5, 7, 11, 13, 17, 61, 67, 101, 257, 1009] {
+            let mut cases: Vec<(i128, i128)> = Vec::new();
+            for i in 0..6u32 {
+                for j in 0..9u32 {
+                    for _ in 0..36 {
+                        let (s, t) = (next(40), next(40));
+                        let a = if i == 5 {
+                            0
+                        } else {
+                            i128::from(s) * i128::from(p).pow(i)
+                        };
+                        cases.push((a, i128::from(t) * i128::from(p).pow(j)));
+                    }
+                }
+            }
+            for i in 0..4u32 {
+                for e in 1..7u32 {
+                    for _ in 0..36 {
+                        let (u, r) = (i128::from(next(30)), i128::from(next(30)));
+                        let pi = i128::from(p).pow(i);
+                        cases.push((2 * u * pi, pi * pi * (u * u - r * i128::from(p).pow(e))));
+                    }
+                }
+            }
+            // f = (x − e₁)(x − e₂) with e₁ = s·p^i, e₂ = t·p^j: a² − 4b is a
+            // square in Z (the route without a square root mod p).
+            for i in 0..5u32 {
+                for j in 0..5u32 {
+                    for _ in 0..24 {
+                        let e1 = i128::from(next(40)) * i128::from(p).pow(i);
+                        let e2 = i128::from(next(40)) * i128::from(p).pow(j);
+                        cases.push((-(e1 + e2), e1 * e2));
+                    }
+                }
+            }
+            let prime = Prime::new(BigInt::from(p)).unwrap();
+            let place = Place::Finite(prime);
+            for (a, b) in cases {
+                let Ok(model) = ReducedModel::new(BigInt::from(a), BigInt::from(b)) else {
+                    continue;
+                };
+                let full = local_image_with(&model, &place, &mut Budget::unlimited(), false, None)
+                    .unwrap();
+                let want = full.members.iter().fold(0u8, |s, &m| s | 1 << m);
+                let got = odd_image_members(a, b, p as u64);
+                assert_eq!(got, Some(want), "a = {a}, b = {b}, p = {p}");
+                seen[usize::from(want)] += 1;
+                compared += 1;
+            }
+        }
+        assert!(compared > 30_000, "{compared}");
+        // Every subgroup of Q_p*/Q_p*² containing 1 occurred: {1}, the
+        // three of order 2, and the whole group.
+        for set in [0b0001, 0b0011, 0b0101, 0b1001, 0b1111] {
+            assert!(seen[set] > 0, "{set:04b} never occurred: {seen:?}");
+        }
     }
 
     #[test]

@@ -24,8 +24,9 @@ use super::qs2::QS2;
 use crate::budget::Budget;
 use crate::curve::{Point, ReducedModel};
 use crate::error::{Error, Result};
+use crate::local::class_dimension;
 use crate::local::{Place, Prime};
-use crate::quartic::image::{local_image, LocalImage};
+use crate::quartic::image::{local_image_with, LocalImage};
 
 /// The Selmer group of one side, with the local data it was cut out by.
 #[derive(Clone, Debug, PartialEq, Eq)]
@@ -56,7 +57,12 @@ pub fn connecting_value(b: &BigInt, p: &Point) -> Option<BigRational> {
 
 /// Steps (1)–(3) of the module docs. `primes` must be the primes of
 /// `2·b·(a² − 4b)` (more are harmless); `torsion` the torsion points of
-/// the model's curve.
+/// the model's curve; `partner`, when given, the local images of the
+/// other side of the 2-isogeny (`y² = x³ − 2ax² + (a² − 4b)x`, or a model
+/// of it scaled by a square), which fix the order of each `W_v` here:
+/// `|W_v|·|W_v(partner)|` is the number of classes of `Q_v*/Q_v*²`
+/// ([`crate::quartic::local_image`] module docs, [Schaefer96, Lemma 3.8]),
+/// so the search at `v` stops once that many members are found.
 ///
 /// # Errors
 /// [`Error::BudgetExhausted`] from the local tests; [`Error::Internal`]
@@ -65,6 +71,7 @@ pub(crate) fn assemble_selmer(
     model: &ReducedModel,
     primes: &[Prime],
     torsion: &[Point],
+    partner: Option<&[LocalImage]>,
     budget: &mut Budget,
 ) -> Result<AssembledSelmer> {
     let qs2 = QS2::new(primes.to_vec());
@@ -73,7 +80,10 @@ pub(crate) fn assemble_selmer(
     let mut local_images = Vec::with_capacity(places.len());
     let mut conditions = Vec::with_capacity(places.len());
     for v in &places {
-        let w = local_image(model, v, budget)?;
+        let size = partner
+            .and_then(|ws| ws.iter().find(|w| w.place == *v))
+            .map(|w| (1usize << class_dimension(v)) >> w.dimension);
+        let w = local_image_with(model, v, budget, true, size)?;
         conditions.push(LocalCondition::from_masks(v.clone(), &w.members));
         local_images.push(w);
     }
@@ -108,4 +118,78 @@ pub(crate) fn assemble_selmer(
         torsion_span,
         torsion_basis,
     })
+}
+
+#[cfg(test)]
+#[allow(clippy::unwrap_used)]
+mod tests {
+    use super::*;
+
+    /// The order of `W_v(E′)` read off `W_v(E)` changes nothing: for the
+    /// congruent-number curves `y² = x³ − n²x` (n ≤ 300 square-free, each
+    /// of its three 2-torsion points moved to (0, 0)) and the box
+    /// `|a|, |b| ≤ 10`, the codomain's local images with the partner sizes
+    /// equal those with every class tested, at `R`, 2 and every odd prime
+    /// of `2·b·(a² − 4b)` of both sides (and 3, 5, 7).
+    #[test]
+    fn partner_sizes_change_no_image() {
+        use crate::quartic::image::local_image_with;
+        let mut models: Vec<(i64, i64)> = Vec::new();
+        for n in 1i64..=300 {
+            if (2..=17).any(|q| n % (q * q) == 0) {
+                continue;
+            }
+            models.extend([(0, -n * n), (3 * n, 2 * n * n), (-3 * n, 2 * n * n)]);
+        }
+        for a in -10i64..=10 {
+            for b in -10i64..=10 {
+                models.push((a, b));
+            }
+        }
+        let (mut compared, mut stopped_early) = (0, 0);
+        for (a, b) in models {
+            let Ok(e) = ReducedModel::new(BigInt::from(a), BigInt::from(b)) else {
+                continue;
+            };
+            let e2 = e.isogenous().unwrap();
+            // 2, 3, 5, 7 and the primes of b and a² − 4b (those of the
+            // codomain's b′ = a² − 4b and a′² − 4b′ = 16b are among them).
+            let mut primes = vec![2u64, 3, 5, 7];
+            for mut m in [b.unsigned_abs(), (a * a - 4 * b).unsigned_abs()] {
+                let mut q = 2;
+                while q * q <= m {
+                    if m % q == 0 {
+                        primes.push(q);
+                        while m % q == 0 {
+                            m /= q;
+                        }
+                    }
+                    q += 1;
+                }
+                if m > 1 {
+                    primes.push(m);
+                }
+            }
+            primes.sort_unstable();
+            primes.dedup();
+            let mut places = vec![Place::Real];
+            places.extend(
+                primes
+                    .into_iter()
+                    .map(|p| Place::Finite(Prime::small(p).unwrap())),
+            );
+            for v in &places {
+                let mine = local_image_with(&e, v, &mut Budget::unlimited(), false, None).unwrap();
+                let size = (1usize << class_dimension(v)) >> mine.dimension;
+                let (mut b1, mut b2) = (Budget::unlimited(), Budget::unlimited());
+                let fast = local_image_with(&e2, v, &mut b1, true, Some(size)).unwrap();
+                let full = local_image_with(&e2, v, &mut b2, false, None).unwrap();
+                assert_eq!(fast, full, "a = {a}, b = {b} at {v}");
+                stopped_early += usize::from(b1.spent() < b2.spent());
+                compared += 1;
+            }
+        }
+        assert!(compared > 3000, "{compared}");
+        assert!(stopped_early > 500, "{stopped_early}");
+    }
 }
