@@ -556,6 +556,7 @@ pub(crate) fn planned_terms(reps: &[Rep], d: i64, bits: u32) -> (u64, u64) {
 }
 
 /// What one attempt at one `D` gave.
+#[allow(clippy::large_enum_variant)]
 pub(crate) enum Attempt {
     /// A point `R` of the input curve, checked exactly, `m·R` (exact), and
     /// `(k, m)`: `R` was recognised at the parameter `(k·z + λ)/m`, so
