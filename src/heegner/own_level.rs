@@ -746,7 +746,7 @@ mod relation_tests {
         let mut b = Budget::unlimited();
         let local = crate::curve::global_local_data(curve.coefficients(), &mut b).unwrap();
         assert_eq!(local.conductor, BigInt::from(128));
-        let an = crate::analytic::dirichlet_coefficients(&local, 20_000, &mut b).unwrap();
+        let an = crate::analytic::dirichlet_coefficients(&local, 40_000, &mut b).unwrap();
         let f = Fixed::new(200);
         let pi = f.pi();
         let (v, _) = phi_with(f, &pi, &an, 1, (128, 75, 11), -7, &mut b).unwrap();
