@@ -5,6 +5,8 @@
 //! ```text
 //! heegner_own_level [MAX_TERMS [SECONDS]] < curves.txt
 //! ```
+//! A line `a1 a2 a3 a4 a6 | x y` only saturates the given point (to prove
+//! a point found earlier a generator without recomputing it).
 //! MAX_TERMS replaces the default cap on the series terms of one attempt;
 //! SECONDS bounds the Heegner step of each curve (the outcome is then a
 //! budget error).
@@ -18,8 +20,26 @@ use std::time::Instant;
 
 use isodescent::curve::Curve;
 use isodescent::descent::{descend, DescentOptions};
+use isodescent::curve::Point;
 use isodescent::heegner::{heegner_point, HeegnerOptions, HeegnerOutcome};
+use isodescent::height::{saturate, SaturationOptions};
 use isodescent::Budget;
+
+/// Saturation of one point: "index k, proven generator" or why not.
+fn saturation_word(curve: &Curve, p: &Point) -> String {
+    match saturate(
+        curve,
+        std::slice::from_ref(p),
+        &SaturationOptions::default(),
+        &mut Budget::unlimited(),
+    ) {
+        Ok(s) => format!(
+            "saturation: index found {}, proven saturated {}, generator height {:?}",
+            s.index_found, s.proven_saturated, s.heights
+        ),
+        Err(e) => format!("saturation: {e}"),
+    }
+}
 
 fn main() {
     let max_terms: Option<u64> = std::env::args().nth(1).and_then(|a| a.parse().ok());
@@ -28,6 +48,24 @@ fn main() {
         let Ok(line) = line else { break };
         let line = line.trim();
         if line.is_empty() || line.starts_with('#') {
+            continue;
+        }
+        if let Some((c, pt)) = line.split_once('|') {
+            let curve: Curve = match c.trim().parse() {
+                Ok(c) => c,
+                Err(e) => {
+                    println!("{line}: {e}");
+                    continue;
+                }
+            };
+            let xy: Vec<num_rational::BigRational> =
+                pt.split_whitespace().filter_map(|t| t.parse().ok()).collect();
+            if xy.len() != 2 || !curve.contains(&Point::new(xy[0].clone(), xy[1].clone())) {
+                println!("{line}: not a point of the curve");
+                continue;
+            }
+            let p = Point::new(xy[0].clone(), xy[1].clone());
+            println!("{line} | {}", saturation_word(&curve, &p));
             continue;
         }
         let curve: Curve = match line.parse() {
@@ -74,7 +112,7 @@ fn main() {
         let secs = t0.elapsed().as_secs_f64();
         let what = match out {
             Ok(HeegnerOutcome::Found(p)) => format!(
-                "found D = {} h = {} level {} bits {} terms {} index {} factor {} point {:?}",
+                "found D = {} h = {} level {} bits {} terms {} index {} factor {} point {:?} {}",
                 p.discriminant,
                 p.class_number,
                 p.level,
@@ -82,7 +120,8 @@ fn main() {
                 p.terms,
                 p.index,
                 p.trace_factor,
-                p.point
+                p.point,
+                saturation_word(&curve, &p.point)
             ),
             Ok(other) => format!("{other:?}"),
             Err(e) => format!("error: {e}"),
