@@ -19,8 +19,8 @@ use std::io::BufRead;
 use std::time::Instant;
 
 use isodescent::curve::Curve;
-use isodescent::descent::{descend, DescentOptions};
 use isodescent::curve::Point;
+use isodescent::descent::{descend, DescentOptions};
 use isodescent::heegner::{heegner_point, HeegnerOptions, HeegnerOutcome};
 use isodescent::height::{saturate, SaturationOptions};
 use isodescent::Budget;
@@ -58,8 +58,10 @@ fn main() {
                     continue;
                 }
             };
-            let xy: Vec<num_rational::BigRational> =
-                pt.split_whitespace().filter_map(|t| t.parse().ok()).collect();
+            let xy: Vec<num_rational::BigRational> = pt
+                .split_whitespace()
+                .filter_map(|t| t.parse().ok())
+                .collect();
             if xy.len() != 2 || !curve.contains(&Point::new(xy[0].clone(), xy[1].clone())) {
                 println!("{line}: not a point of the curve");
                 continue;
