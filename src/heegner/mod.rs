@@ -82,8 +82,10 @@ pub struct HeegnerOptions {
 /// the conductors reached by default (`docs/heegner.md`).
 pub const DEFAULT_MAX_OWN_LEVEL_TERMS: u64 = 4_000_000;
 
-/// Largest conductor of the route at the curve's own level.
-const MAX_OWN_LEVEL_CONDUCTOR: u64 = 1 << 31;
+/// Largest conductor of the route at the curve's own level: with
+/// `|D| ≤ 20 000` the forms' `A ≤ N(|D| + 1)` and `C·N ≤ N²(|D| + 1)/4`
+/// stay inside `i64` (the forms module computes in `i64`).
+const MAX_OWN_LEVEL_CONDUCTOR: u64 = 20_000_000;
 
 /// Largest `|D|` scanned by the route at the curve's own level.
 const MAX_OWN_LEVEL_DISCRIMINANT: u64 = 20_000;
