@@ -78,10 +78,10 @@ fn main() -> ExitCode {
                         for side in [&d.domain(), &d.codomain()] {
                             println!(
                                 "  side b={}: dim Sel {}, dim I {:?}, dim K {}, searches {}, 4-covering runs {:?}, pairing error {:?}",
-                                side.b(),
-                                side.dimension(),
-                                side.liftable_dim(),
-                                side.image_lower(),
+                                side.model().b(),
+                                side.group().dim(),
+                                side.pairing().map(|p| p.liftable.dim()),
+                                side.known().dim(),
                                 side.searches().len(),
                                 side.covering_runs()
                                     .iter()

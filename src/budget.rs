@@ -73,7 +73,7 @@ impl Budget {
     }
 
     /// Units left, or `None` for an unlimited budget.
-    pub fn remaining(&self) -> Option<u64> {
+    pub(crate) fn remaining(&self) -> Option<u64> {
         self.limit.map(|l| l.saturating_sub(self.spent))
     }
 

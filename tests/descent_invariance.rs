@@ -105,7 +105,7 @@ proptest! {
                 // image lies in the divisors of b; the local conditions
                 // at primes not dividing b force it).
                 for c in class_set(side) {
-                    prop_assert!((side.b() % &c) == BigInt::from(0), "{} does not divide {}", c, side.b());
+                    prop_assert!((side.model().b() % &c) == BigInt::from(0), "{} does not divide {}", c, side.model().b());
                 }
             }
             prop_assert_eq!(d.domain().torsion_dim() + d.codomain().torsion_dim(), 2);

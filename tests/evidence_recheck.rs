@@ -327,7 +327,7 @@ fn check_curve(label: &str, c: &Curve, opts: &DescentOptions, tally: &mut Tally)
     for iso in r.isogenies() {
         for s in [iso.domain(), iso.codomain()] {
             let k = sides.len();
-            sides.push((s.a().clone(), s.b().clone()));
+            sides.push((s.model().a().clone(), s.model().b().clone()));
             for el in s.elements() {
                 if let ClassStatus::ProvenNotImage { obstructions, .. } = &el.status {
                     for o in obstructions {

@@ -1,6 +1,6 @@
 //! The families' enumerations and the twist formula.
 
-use isodescent::curve::Curve;
+use isodescent::curve::{weierstrass_invariants, Curve};
 use isodescent::family::{is_squarefree_u64, twist_by, Family, Parameter, Shard};
 use isodescent::Error;
 use num_bigint::BigInt;
@@ -69,6 +69,20 @@ fn twisting_y2_x3_minus_x_by_five_gives_the_congruent_curve_for_five() {
     );
 }
 
+/// c4 of an integral model, from `weierstrass_invariants`.
+fn c4(e: &Curve) -> BigRational {
+    assert!(e.has_integral_coefficients());
+    let a = e.coefficients().clone().map(|c| c.to_integer());
+    BigRational::from_integer(weierstrass_invariants(&a).c4)
+}
+
+/// c6 of an integral model, from `weierstrass_invariants`.
+fn c6(e: &Curve) -> BigRational {
+    assert!(e.has_integral_coefficients());
+    let a = e.coefficients().clone().map(|c| c.to_integer());
+    BigRational::from_integer(weierstrass_invariants(&a).c6)
+}
+
 #[test]
 fn twists_scale_c4_and_c6_by_d_squared_and_d_cubed_and_keep_j() {
     // [Sil09, X.5]: E^(d) has c4 = d²c4(E), c6 = d³c6(E) up to the scaling
@@ -77,12 +91,12 @@ fn twists_scale_c4_and_c6_by_d_squared_and_d_cubed_and_keep_j() {
     let general = Curve::from_ints([1, 0, 0, -1, 0]).unwrap(); // (0, 0) has order 2
     for d in [-7i64, -1, 2, 3, 30] {
         let t = twist_by(&short, d).unwrap();
-        assert_eq!(t.c4(), &(short.c4() * q(d * d)));
-        assert_eq!(t.c6(), &(short.c6() * q(d * d * d)));
+        assert_eq!(c4(&t), c4(&short) * q(d * d));
+        assert_eq!(c6(&t), c6(&short) * q(d * d * d));
         let g = twist_by(&general, d).unwrap();
         // The general model is rescaled by u = 1/2: c4 ·16, c6 ·64.
-        assert_eq!(g.c4(), &(general.c4() * q(16 * d * d)));
-        assert_eq!(g.c6(), &(general.c6() * q(64 * d * d * d)));
+        assert_eq!(c4(&g), c4(&general) * q(16 * d * d));
+        assert_eq!(c6(&g), c6(&general) * q(64 * d * d * d));
         assert_eq!(g.j_invariant(), general.j_invariant());
         assert!(g.has_integral_coefficients());
     }

@@ -9,6 +9,7 @@ use isodescent::height::{
     SaturationOptions,
 };
 use isodescent::Budget;
+use num_bigint::BigInt;
 
 mod values;
 
@@ -90,7 +91,7 @@ fn reference_heights_and_large_conductors() {
 fn saturation_uses_the_cremona_siksek_bound() {
     let e = Curve::from_ints([0, 0, 0, -41 * 41, 0]).unwrap();
     let p = Point::from_ints(-9, 120);
-    let p3 = e.mul_i64(&p, 3);
+    let p3 = e.mul(&p, &BigInt::from(3));
     let hp = isodescent::height::canonical_height(&e, &p).unwrap();
     for (input, index) in [(p.clone(), 1), (p3, 3)] {
         let s = saturate(

@@ -100,7 +100,7 @@ proptest! {
         let d = &data()[k];
         let p = point(d, &c, t);
         let np = d.ctx.multiple(&p, &BigInt::from(n)).unwrap();
-        prop_assert_eq!(&np, &d.curve.mul_i64(&p, n));
+        prop_assert_eq!(&np, &d.curve.mul(&p, &BigInt::from(n)));
         let (hp, hn) = (h(d, &p), h(d, &np));
         let n2 = (n * n) as f64;
         prop_assert!(close(hn.value(), n2 * hp.value(), hn.error() + n2 * hp.error()),
@@ -117,7 +117,7 @@ proptest! {
         let p = point(d, &c1, t1);
         let q = point(d, &c2, t2);
         let s = h(d, &d.curve.add(&p, &q));
-        let m = h(d, &d.curve.sub(&p, &q));
+        let m = h(d, &d.curve.add(&p, &d.curve.neg(&q)));
         let (hp, hq) = (h(d, &p), h(d, &q));
         let lhs = s.value() + m.value();
         let rhs = 2.0 * hp.value() + 2.0 * hq.value();

@@ -130,7 +130,7 @@ fn saturation_works_on_the_input_model() {
     let e = Curve::from_ints([0, 0, 0, -576, 0]).unwrap();
     let p = Point::from_ints(-12, 72);
     assert!(e.contains(&p));
-    let p2 = e.mul_i64(&p, 2);
+    let p2 = e.mul(&p, &BigInt::from(2));
     let s = saturate(
         &e,
         &[p2],
@@ -189,7 +189,7 @@ fn bad_input_gives_typed_errors() {
         ));
     }
     // Dependent points: P and 2P.
-    let p2 = e.mul_i64(&p, 2);
+    let p2 = e.mul(&p, &BigInt::from(2));
     let r = saturate(
         &e,
         &[p.clone(), p2],
@@ -209,7 +209,7 @@ fn bad_input_gives_typed_errors() {
     // A tiny budget stops the work with BudgetExhausted.
     let r = saturate(
         &e,
-        &[e.mul_i64(&p, 3)],
+        &[e.mul(&p, &BigInt::from(3))],
         &SaturationOptions::default(),
         &mut Budget::with_units(50),
     );
@@ -271,9 +271,10 @@ fn a_descent_point_that_is_a_triple_is_divided() {
     assert_eq!(s.index_found, 3);
     let r = &s.generators[0];
     let tors = torsion(&e);
-    let three_r = e.mul_i64(r, 3);
+    let three_r = e.mul(r, &BigInt::from(3));
     assert!(
-        tors.points().contains(&e.sub(&three_r, p)) || tors.points().contains(&e.add(&three_r, p)),
+        tors.points().contains(&e.add(&three_r, &e.neg(p)))
+            || tors.points().contains(&e.add(&three_r, p)),
         "3R ∓ P is not torsion"
     );
     let hp = canonical_height(&e, p).unwrap();

@@ -69,7 +69,7 @@ struct SideResult {
 }
 
 fn examine_side(n: i64, side: &SelmerSide) -> SideResult {
-    let known = side.image_lower();
+    let known = side.known().dim();
     let mut undecided = Vec::new();
     for el in side.elements() {
         match &el.status {
@@ -116,8 +116,8 @@ fn examine_side(n: i64, side: &SelmerSide) -> SideResult {
             SecondDescentOutcome::Point {
                 point_x, point_y, ..
             } => {
-                let b = BigRational::from_integer(side.b().clone());
-                let a = BigRational::from_integer(side.a().clone());
+                let b = BigRational::from_integer(side.model().b().clone());
+                let a = BigRational::from_integer(side.model().a().clone());
                 assert_eq!(
                     &point_y * &point_y,
                     &point_x * &point_x * &point_x + a * &point_x * &point_x + b * &point_x,
@@ -153,7 +153,7 @@ fn examine_side(n: i64, side: &SelmerSide) -> SideResult {
     SideResult {
         lower: known + found_dim,
         upper: known + max_avoiding(u, &excluded),
-        first_upper: side.dimension(),
+        first_upper: side.group().dim(),
         points: image_masks.len(),
         no_points: excluded.len(),
     }

@@ -3,7 +3,8 @@
 //! non-minimal and non-integral input, and on bad input.
 
 use isodescent::curve::{
-    global_local_data, local_reduction, weierstrass_invariants, Kodaira, ReductionKind,
+    global_local_data, local_reduction, local_reduction_rational, weierstrass_invariants, Kodaira,
+    ReductionKind,
 };
 use isodescent::local::Prime;
 use isodescent::{Budget, Error};
@@ -300,7 +301,7 @@ fn the_curve_wrappers_give_the_same_data_as_the_coefficient_functions() {
     let e = Curve::from_ints([0, 0, 0, -16, 0]).unwrap();
     let g = e.tate_data(&mut Budget::unlimited()).unwrap();
     assert_eq!(g.conductor, BigInt::from(32));
-    let at2 = e.reduction_at(&prime(2)).unwrap();
+    let at2 = local_reduction_rational(e.coefficients(), &prime(2)).unwrap();
     assert_eq!(at2, g.primes[0]);
     let (m, ch) = e.to_minimal(&mut Budget::unlimited()).unwrap();
     assert_eq!(m, Curve::from_ints([0, 0, 0, -1, 0]).unwrap());

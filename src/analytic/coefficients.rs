@@ -68,7 +68,6 @@ pub struct ApTable {
     c6x54: Int,
     model: [BigInt; 5],
     bad: Vec<(u64, i64)>,
-    huge_bad: bool,
     /// `|E(Q)_tors|`, which divides `#E(F_p)` for good `p ≥ 3`
     /// (reduction is injective on torsion [Sil09, VII.3.1 and VII.3.4]).
     torsion: u64,
@@ -85,7 +84,6 @@ impl ApTable {
     pub fn new(local: &GlobalLocalData) -> ApTable {
         let inv = weierstrass_invariants(&local.minimal_model);
         let mut bad = Vec::new();
-        let mut huge_bad = false;
         for lr in &local.primes {
             let ap = match lr.reduction {
                 ReductionKind::SplitMultiplicative => 1,
@@ -94,8 +92,9 @@ impl ApTable {
             };
             match lr.prime.to_u64() {
                 Some(p) if lr.reduction != ReductionKind::Good => bad.push((p, ap)),
-                Some(_) => {}
-                None => huge_bad = true,
+                // good primes, and bad primes beyond u64 (no coefficient
+                // a_n with n < 2^64 involves them)
+                _ => {}
             }
         }
         let b = [Int::new(&inv.b2), Int::new(&inv.b4), Int::new(&inv.b6)];
@@ -107,7 +106,6 @@ impl ApTable {
             c6x54: Int::new(&(&inv.c6 * 54)),
             model: local.minimal_model.clone(),
             bad,
-            huge_bad,
             torsion,
             torsion_twist: if torsion % 2 == 0 { 2 } else { 1 },
             family: if inv.c6.is_zero() {
@@ -184,17 +182,6 @@ impl ApTable {
         } else {
             bsgs(a, b, p, POINTS_TRIED_LARGE)
         }
-    }
-
-    /// True when a bad prime does not fit a machine word (then the series
-    /// never reaches it and nothing changes; recorded for completeness).
-    pub fn has_huge_bad_prime(&self) -> bool {
-        self.huge_bad
-    }
-
-    /// `(p, a_p)` at the bad primes below 2⁶⁴.
-    pub fn bad_primes(&self) -> &[(u64, i64)] {
-        &self.bad
     }
 }
 
@@ -653,7 +640,7 @@ mod tests {
     #[test]
     fn the_table_count_agrees_with_the_jacobi_count() {
         // Two ways to the same character sum; the Jacobi symbol itself is
-        // checked against sympy vectors in tests/local_layer.rs.
+        // checked against sympy vectors in src/local/tests/layer.rs.
         let mut state = 0x9e37_79b9_7f4a_7c15u64;
         for p in (3u64..super::TABLE_COUNT_BELOW).filter(|&p| crate::arith::is_prime_u64(p)) {
             for _ in 0..20 {

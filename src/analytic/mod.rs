@@ -37,7 +37,9 @@
 //!   parity are small but not proven to vanish).
 //!
 //! The default options skip curves with conductor above
-//! [`DEFAULT_CONDUCTOR_LIMIT`]; see `docs/analytic.md`.
+//! [`DEFAULT_CONDUCTOR_LIMIT`]; see `docs/analytic.md`, included below.
+//!
+#![doc = include_str!("../../docs/analytic.md")]
 
 mod bsgs;
 mod cm;
@@ -48,6 +50,9 @@ pub(crate) mod root_number;
 pub(crate) mod series;
 mod stream;
 
+#[cfg(test)]
+mod tests;
+
 use num_bigint::BigInt;
 use num_traits::{One, ToPrimitive};
 
@@ -55,8 +60,8 @@ pub use crate::arith::Certified;
 pub use coefficients::{dirichlet_coefficients, frobenius_trace, ApTable};
 pub use ledger::{sha_analytic, ShaLedger};
 pub use period::{real_period, RealPeriod};
-pub use root_number::{local_root_number, root_number_by_formula};
-pub use series::Series;
+pub use root_number::root_number_by_formula;
+pub(crate) use series::Series;
 
 use crate::budget::Budget;
 use crate::curve::tate::GlobalLocalData;
@@ -166,13 +171,6 @@ impl AnalyticOptions {
     /// [`AnalyticOptions::twist_streamed_above`] as well.
     pub fn with_streamed_above(mut self, conductor: u64) -> Self {
         self.streamed_above = conductor;
-        self.twist_streamed_above = conductor;
-        self
-    }
-
-    /// The options with the streamed twist route above another conductor
-    /// for quadratic twists of `y² = x³ − x` only.
-    pub fn with_twist_streamed_above(mut self, conductor: u64) -> Self {
         self.twist_streamed_above = conductor;
         self
     }
@@ -307,7 +305,7 @@ impl AnalyticOrder {
     }
 
     /// True when the order is proven exactly.
-    pub fn is_exact(self) -> bool {
+    pub(crate) fn is_exact(self) -> bool {
         matches!(self, AnalyticOrder::Exact(_))
     }
 }
@@ -601,16 +599,13 @@ pub fn analyse(
     let lambda_first = s.g_sum(first, budget)?.scale(2.0);
     let split = s.completed_value_split(w, SPLIT, budget)?;
     let higher = |r: usize, budget: &mut Budget| s.g_sum(r, budget);
-    finish(
-        curve,
-        data,
-        &c,
+    let at_one = AtOne {
+        c,
         w,
         lambda_first,
         split,
-        Some(higher),
-        budget,
-    )
+    };
+    finish(curve, data, at_one, Some(higher), budget)
 }
 
 /// Records the root number from the test and the formula; `None` (with
@@ -639,21 +634,36 @@ fn settle_root_number(data: &mut AnalyticData, by_test: Option<i8>) -> Option<i8
     Some(w)
 }
 
+/// What either route (stored or streamed) computed at `s = 1`, handed to
+/// [`finish`].
+struct AtOne {
+    /// `c = 2π/√N`, the scale of the completed L-function.
+    c: Certified,
+    /// The root number, already settled.
+    w: i8,
+    /// `Λ^{(first)}(1)`, `first` = 0 when `w = 1`, else 1.
+    lambda_first: Certified,
+    /// `Λ(1)` by the split form at [`SPLIT`], for the consistency check.
+    split: Certified,
+}
+
 /// The split check, `L^{(first)}(E,1)`, the proven rank and, when the
 /// first value may vanish, the next derivative of the same parity (by
 /// `higher(r)` = `Σ a_n G_r(x_n)` with its bounds, when given).
-#[allow(clippy::too_many_arguments)]
 fn finish(
     curve: &Curve,
     mut data: AnalyticData,
-    c: &Certified,
-    w: i8,
-    lambda_first: Certified,
-    split: Certified,
+    at_one: AtOne,
     higher: Option<impl Fn(usize, &mut Budget) -> Result<Certified>>,
     budget: &mut Budget,
 ) -> Result<AnalyticData> {
-    let h = series::h_derivatives(c);
+    let AtOne {
+        c,
+        w,
+        lambda_first,
+        split,
+    } = at_one;
+    let h = series::h_derivatives(&c);
     let zero = Certified::exact(0.0);
     let mut lambda = [zero; 4];
     let first = if w == 1 { 0 } else { 1 };
@@ -774,5 +784,11 @@ fn analyse_streamed(
     let higher = stored
         .as_ref()
         .map(|s| move |r: usize, b: &mut Budget| s.g_sum(r, b));
-    finish(curve, data, &c, w, lambda_first, split, higher, budget)
+    let at_one = AtOne {
+        c,
+        w,
+        lambda_first,
+        split,
+    };
+    finish(curve, data, at_one, higher, budget)
 }

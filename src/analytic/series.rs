@@ -47,11 +47,10 @@ const SERIES_LIMIT: f64 = 12.0;
 /// Recompute `q^n` directly every this many terms.
 const REANCHOR: usize = 64;
 
-/// The data of one L-series: coefficients and the conductor.
+/// The data of one L-series: the coefficients and the step `c = 2π/√N`.
 #[derive(Debug, Clone)]
 pub struct Series<'a> {
     an: &'a [i64],
-    conductor: f64,
     c: Certified,
 }
 
@@ -79,15 +78,11 @@ impl<'a> Series<'a> {
         }
         let n = conductor as f64;
         let c = pi().scale(2.0).div(&Certified::exact(n).sqrt());
-        Ok(Series {
-            an,
-            conductor: n,
-            c,
-        })
+        Ok(Series { an, c })
     }
 
     /// `c = 2π/√N`.
-    pub fn step(&self) -> Certified {
+    pub(crate) fn step(&self) -> Certified {
         self.c
     }
 
@@ -126,7 +121,7 @@ impl<'a> Series<'a> {
 
     /// `F(t) = Σ a_n e^{−nct}` with the truncation bound
     /// `Σ_{n>M} 2n·q^n`, `q = e^{−ct}`.
-    pub fn theta(&self, t: f64, budget: &mut Budget) -> Result<Certified> {
+    pub(crate) fn theta(&self, t: f64, budget: &mut Budget) -> Result<Certified> {
         let s = self.power_sum(t, |_| 1.0, budget)?;
         Ok(widen(s, theta_tail(&self.c, t, self.terms())))
     }
@@ -185,11 +180,6 @@ impl<'a> Series<'a> {
             sum = sum.add(&g.scale(a as f64));
         }
         Ok(widen(sum, tail_bound(&self.c, r, m)))
-    }
-
-    /// The conductor as binary64 (exact).
-    pub fn conductor(&self) -> f64 {
-        self.conductor
     }
 }
 

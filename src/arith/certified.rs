@@ -55,7 +55,7 @@ impl Certified {
     }
 
     /// An exactly known number (radius zero).
-    pub fn exact(value: f64) -> Certified {
+    pub(crate) fn exact(value: f64) -> Certified {
         Certified { value, error: 0.0 }
     }
 

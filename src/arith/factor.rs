@@ -25,34 +25,6 @@ pub struct Factorization {
 }
 
 impl Factorization {
-    /// Builds a factorisation from a sign (`±1`) and prime powers; the
-    /// pairs are sorted and equal primes merged. The caller vouches that
-    /// the `pᵢ` are primes; nothing is checked but the sign.
-    ///
-    /// # Errors
-    /// [`Error::InvalidArgument`] for a sign other than `±1`, a
-    /// "prime" `< 2`, or an exponent 0.
-    pub fn from_parts(sign: i8, factors: Vec<(BigInt, u32)>) -> Result<Self> {
-        if sign != 1 && sign != -1 {
-            return Err(Error::InvalidArgument {
-                reason: format!("sign of a factorisation must be 1 or -1, got {sign}"),
-            });
-        }
-        let mut map: BTreeMap<BigInt, u32> = BTreeMap::new();
-        for (p, e) in factors {
-            if p < BigInt::from(2) || e == 0 {
-                return Err(Error::InvalidArgument {
-                    reason: format!("prime power {p}^{e} in a factorisation"),
-                });
-            }
-            *map.entry(p).or_insert(0) += e;
-        }
-        Ok(Factorization {
-            sign,
-            factors: map.into_iter().collect(),
-        })
-    }
-
     /// The sign of `n`: `1` or `-1`.
     pub fn sign(&self) -> i8 {
         self.sign

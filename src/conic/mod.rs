@@ -33,7 +33,7 @@
 //!
 //! # 4. The lattice of solutions modulo abc
 //! For each odd p | a let λ be a square root of −c/b modulo p
-//! ([`crate::local::sqrt_mod_prime`]); for p = 2, λ = 1. Glue by the
+//! (`local::sqrt_mod_prime`, crate-private); for p = 2, λ = 1. Glue by the
 //! Chinese remainder theorem to λ_a modulo |a|, and likewise λ_b, λ_c. Put
 //!
 //! > L = { (X, Y, Z) ∈ Z³ : Y ≡ λ_a Z (mod a), Z ≡ λ_b X (mod b),

@@ -54,11 +54,6 @@ impl ConicParametrisation {
         [f(&self.forms[0]), f(&self.forms[1]), f(&self.forms[2])]
     }
 
-    /// The point P the parametrisation was built from.
-    pub fn base_point(&self) -> &[BigInt; 3] {
-        &self.base
-    }
-
     /// The parameter (u, v), coprime, of a point R of the conic: the
     /// inverse of [`evaluate`](Self::evaluate) up to scaling. For R = P
     /// this is the tangent direction (B(P, f), −B(P, e)).

@@ -78,7 +78,7 @@ impl BinaryCubicCurve {
     }
 
     /// disc F = f₁²f₂² − 4f₀f₂³ − 4f₁³f₃ − 27f₀²f₃² + 18f₀f₁f₂f₃.
-    pub fn form_discriminant(&self) -> BigInt {
+    pub(crate) fn form_discriminant(&self) -> BigInt {
         let [a, b, c, d] = &self.f;
         b * b * c * c
             - BigInt::from(4) * a * c * c * c
@@ -94,7 +94,7 @@ impl BinaryCubicCurve {
     }
 
     /// (∂F/∂u, ∂F/∂v) at (u, v).
-    pub fn gradient(&self, u: &BigInt, v: &BigInt) -> (BigInt, BigInt) {
+    pub(crate) fn gradient(&self, u: &BigInt, v: &BigInt) -> (BigInt, BigInt) {
         let [a, b, c, d] = &self.f;
         let du = BigInt::from(3) * a * u * u + BigInt::from(2) * b * u * v + c * v * v;
         let dv = b * u * u + BigInt::from(2) * c * u * v + BigInt::from(3) * d * v * v;

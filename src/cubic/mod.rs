@@ -24,6 +24,6 @@ pub(crate) mod local;
 pub(crate) mod quadratic;
 pub(crate) mod search;
 
-pub use eisenstein::{prime_above, reduce_mod, Eisenstein};
-pub use local::{is_padic_cube, solubility_at, BinaryCubicCurve, CubicLocal, CubicWitness};
+pub(crate) use eisenstein::{prime_above, reduce_mod, Eisenstein};
+pub use local::{solubility_at, BinaryCubicCurve, CubicLocal, CubicWitness};
 pub use search::{search_points, CubicPoint};

@@ -60,27 +60,12 @@ impl TwoIsogeny {
     ///
     /// # Errors
     /// As [`TwoIsogeny::from_reduced`].
-    pub fn from_model(m: &TwoTorsionModel) -> Result<TwoIsogeny> {
+    pub(crate) fn from_model(m: &TwoTorsionModel) -> Result<TwoIsogeny> {
         TwoIsogeny::from_reduced(m.reduced())
     }
 
-    /// (a, b) of the domain E.
-    pub fn domain_coefficients(&self) -> (&BigInt, &BigInt) {
-        (self.domain.a(), self.domain.b())
-    }
-
-    /// (a′, b′) = (−2a, a² − 4b) of the codomain E′.
-    pub fn codomain_coefficients(&self) -> (BigInt, BigInt) {
-        (self.codomain.a().clone(), self.codomain.b().clone())
-    }
-
-    /// The checked model of the domain E.
-    pub fn domain_model(&self) -> &ReducedModel {
-        &self.domain
-    }
-
     /// The checked model of the codomain E′.
-    pub fn codomain_model(&self) -> &ReducedModel {
+    pub(crate) fn codomain_model(&self) -> &ReducedModel {
         &self.codomain
     }
 

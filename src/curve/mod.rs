@@ -44,6 +44,9 @@ pub(crate) mod torsion;
 pub(crate) mod two_torsion;
 pub(crate) mod weierstrass;
 
+#[cfg(test)]
+mod tests;
+
 pub use isogeny::TwoIsogeny;
 pub use model::{clear_denominators, ModelChange};
 pub use point::Point;

@@ -224,12 +224,12 @@ impl Curve {
     }
 
     /// P − Q.
-    pub fn sub(&self, p: &Point, q: &Point) -> Point {
+    pub(crate) fn sub(&self, p: &Point, q: &Point) -> Point {
         self.add(p, &self.neg(q))
     }
 
     /// \[2\]P.
-    pub fn double(&self, p: &Point) -> Point {
+    pub(crate) fn double(&self, p: &Point) -> Point {
         self.add(p, p)
     }
 
@@ -255,7 +255,7 @@ impl Curve {
     }
 
     /// \[n\]P for a machine integer n.
-    pub fn mul_i64(&self, p: &Point, n: i64) -> Point {
+    pub(crate) fn mul_i64(&self, p: &Point, n: i64) -> Point {
         self.mul(p, &BigInt::from(n))
     }
 

@@ -1364,15 +1364,6 @@ impl Curve {
         global_local_data(self.coefficients(), budget)
     }
 
-    /// Tate's algorithm at one prime: [`local_reduction_rational`] on the
-    /// coefficients.
-    ///
-    /// # Errors
-    /// None in practice (a [`Curve`] is nonsingular).
-    pub fn reduction_at(&self, p: &Prime) -> Result<LocalReduction> {
-        local_reduction_rational(self.coefficients(), p)
-    }
-
     /// The reduced global minimal model and the change of model to it
     /// (see [`global_local_data`]).
     ///

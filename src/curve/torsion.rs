@@ -88,10 +88,6 @@ impl TorsionGroup {
     pub fn structure(&self) -> (u32, u32) {
         self.structure
     }
-    /// True iff the group is cyclic.
-    pub fn is_cyclic(&self) -> bool {
-        self.structure.1 == 1
-    }
     /// Generators: none for the trivial group, one of order n1 for a cyclic
     /// group, and one of order n1 plus one of order n2 otherwise.
     pub fn generators(&self) -> &[Point] {

@@ -177,29 +177,21 @@ impl TwoTorsionModel {
         self.reduced.curve()
     }
     /// The checked pair (a, b) of the reduced curve.
-    pub(crate) fn reduced(&self) -> &ReducedModel {
+    pub fn reduced(&self) -> &ReducedModel {
         &self.reduced
     }
     /// The coefficient a of y² = x³ + a x² + b x.
-    pub fn a(&self) -> &BigInt {
+    pub(crate) fn a(&self) -> &BigInt {
         self.reduced.a()
     }
     /// The coefficient b of y² = x³ + a x² + b x (nonzero, and a² − 4b ≠ 0).
-    pub fn b(&self) -> &BigInt {
+    pub(crate) fn b(&self) -> &BigInt {
         self.reduced.b()
-    }
-    /// The curve this model was computed from.
-    pub fn input_curve(&self) -> &Curve {
-        &self.input
     }
     /// The change of model from the input curve to the reduced curve
     /// (`change().apply_to_curve(input_curve()) == curve()`).
     pub fn change(&self) -> &ModelChange {
         &self.change
-    }
-    /// The point of order 2 on the input curve that is sent to (0, 0).
-    pub fn input_point(&self) -> &Point {
-        &self.input_point
     }
     /// A point of the reduced curve, written on the input curve.
     pub fn to_input(&self, p: &Point) -> Point {

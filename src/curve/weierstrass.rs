@@ -60,6 +60,7 @@ pub struct Curve {
     b2: BigRational,
     b4: BigRational,
     b6: BigRational,
+    #[cfg_attr(not(test), allow(dead_code))] // read by the unit tests
     b8: BigRational,
     c4: BigRational,
     c6: BigRational,
@@ -294,66 +295,51 @@ impl Curve {
         Curve::new(a.map(BigRational::from_integer))
     }
 
-    /// The short model y² = x³ + A x + B.
-    ///
-    /// # Errors
-    /// [`Error::SingularCurve`] if 4A³ + 27B² = 0.
-    pub fn short(a: BigRational, b: BigRational) -> Result<Curve> {
-        Curve::new([
-            BigRational::zero(),
-            BigRational::zero(),
-            BigRational::zero(),
-            a,
-            b,
-        ])
-    }
-
     /// The coefficients `[a1, a2, a3, a4, a6]`.
     pub fn coefficients(&self) -> &[BigRational; 5] {
         &self.a
     }
     /// a1.
-    pub fn a1(&self) -> &BigRational {
+    pub(crate) fn a1(&self) -> &BigRational {
         &self.a[0]
     }
-    /// a2.
-    pub fn a2(&self) -> &BigRational {
-        &self.a[1]
-    }
     /// a3.
-    pub fn a3(&self) -> &BigRational {
+    pub(crate) fn a3(&self) -> &BigRational {
         &self.a[2]
     }
     /// a4.
-    pub fn a4(&self) -> &BigRational {
+    #[cfg(test)]
+    pub(crate) fn a4(&self) -> &BigRational {
         &self.a[3]
     }
     /// a6.
-    pub fn a6(&self) -> &BigRational {
+    #[cfg(test)]
+    pub(crate) fn a6(&self) -> &BigRational {
         &self.a[4]
     }
     /// b2 = a1² + 4a2.
-    pub fn b2(&self) -> &BigRational {
+    pub(crate) fn b2(&self) -> &BigRational {
         &self.b2
     }
     /// b4 = 2a4 + a1a3.
-    pub fn b4(&self) -> &BigRational {
+    pub(crate) fn b4(&self) -> &BigRational {
         &self.b4
     }
     /// b6 = a3² + 4a6.
-    pub fn b6(&self) -> &BigRational {
+    pub(crate) fn b6(&self) -> &BigRational {
         &self.b6
     }
     /// b8 = a1²a6 + 4a2a6 − a1a3a4 + a2a3² − a4².
-    pub fn b8(&self) -> &BigRational {
+    #[cfg(test)]
+    pub(crate) fn b8(&self) -> &BigRational {
         &self.b8
     }
     /// c4 = b2² − 24·b4.
-    pub fn c4(&self) -> &BigRational {
+    pub(crate) fn c4(&self) -> &BigRational {
         &self.c4
     }
     /// c6 = −b2³ + 36·b2·b4 − 216·b6.
-    pub fn c6(&self) -> &BigRational {
+    pub(crate) fn c6(&self) -> &BigRational {
         &self.c6
     }
     /// Δ = −b2²b8 − 8·b4³ − 27·b6² + 9·b2·b4·b6 (nonzero).
@@ -390,7 +376,8 @@ impl Curve {
     }
 
     /// True iff a1 = a2 = a3 = 0 (the model is y² = x³ + a4 x + a6).
-    pub fn is_short(&self) -> bool {
+    #[cfg(test)]
+    pub(crate) fn is_short(&self) -> bool {
         self.a[0].is_zero() && self.a[1].is_zero() && self.a[2].is_zero()
     }
 }

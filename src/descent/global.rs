@@ -29,6 +29,7 @@
 
 use num_bigint::BigInt;
 
+use super::deep_search::DeepSearchOptions;
 use super::options::DescentOptions;
 use super::report::{Completion, DescentReport, RankBounds};
 use crate::analytic::{self, AnalyticData, RankTheorem, ShaLedger};
@@ -139,23 +140,7 @@ pub(crate) fn complete(
     if let (Some(aopts), Some(local)) = (&options.analytic, &report.local_data) {
         let mut budget = options.budget(options.global_units, deadline);
         match analytic::analyse(&report.curve, local, aopts, &mut budget) {
-            Ok(a) => {
-                if let Some((r, theorem)) = a.rank_proven() {
-                    let b = report.bounds;
-                    if r < b.lower || r > b.upper {
-                        report.global.conflict = Some(format!(
-                            "{} gives rank {r}, outside the descent's proven bounds [{}, {}]",
-                            theorem.name(),
-                            b.lower,
-                            b.upper
-                        ));
-                    } else if !b.is_decided() {
-                        report.bounds = RankBounds { lower: r, upper: r };
-                        report.global.settled_by = Some(RankProof::Analytic(theorem));
-                    }
-                }
-                report.global.analytic = Some(a);
-            }
+            Ok(a) => analytic_step(report, a),
             Err(e) => note_stop(report, "analytic side", &e),
         }
     }
@@ -165,56 +150,99 @@ pub(crate) fn complete(
         heegner_step(report, hopts, options, deadline);
     }
     if let Some(dopts) = &options.deep_search {
-        let target = if report.bounds.is_decided() {
-            Some(report.bounds.lower)
-        } else {
-            parity_target(report)
-        };
-        if let Some(rank) = target.filter(|&r| report.points.len() < r) {
-            let mut budget = options.budget(options.global_units, deadline);
-            let guided = match predicted_generator_height(report) {
-                Some((h, sha2)) if rank == 1 => dopts.guided(h, sha2),
-                _ => match predicted_last_generator_height(report, rank) {
-                    Some((h, sha2)) => dopts.guided_rank_two(h, sha2),
-                    None => dopts.clone(),
-                },
-            };
-            match super::deep_search::complete_report_points_cut(report, rank, &guided, &mut budget)
-            {
-                Ok((points, cut)) => {
-                    if cut {
-                        let e = Error::BudgetExhausted {
-                            stage: "deep point search".into(),
-                        };
-                        note_stop(report, "deep search for points", &e);
-                    }
-                    if points.len() > report.bounds.upper {
-                        // Independent points beyond a proven upper bound:
-                        // one of the two computations is wrong.
-                        report.global.conflict = Some(format!(
-                            "the deep search found {} independent points, above the proven upper bound {}",
-                            points.len(),
-                            report.bounds.upper
-                        ));
-                    } else if points.len() > report.points.len() {
-                        // Independent points (certified by their classes):
-                        // the descent's lower bound rises with them.
-                        report.descent_bounds.lower = report.descent_bounds.lower.max(points.len());
-                        report.bounds.lower = report.bounds.lower.max(points.len());
-                        report.points = points;
-                        report.global.origin = PointOrigin::DeepSearch;
-                        // The points and the Selmer bounds now prove the rank
-                        // without the analytic theorem (which only guided the
-                        // search).
-                        if report.descent_bounds.is_decided() {
-                            report.global.settled_by = Some(RankProof::Descent);
-                        }
-                    }
-                }
-                Err(e) => note_stop(report, "deep search for points", &e),
-            }
+        deep_search_step(report, dopts, options, deadline);
+    }
+    heights_step(report, options, deadline);
+    ledger(report);
+}
+
+/// Step 1: the analytic side's rank, when proven by a theorem, settles
+/// the rank inside the descent's bounds, or is a conflict outside them.
+fn analytic_step(report: &mut DescentReport, a: AnalyticData) {
+    if let Some((r, theorem)) = a.rank_proven() {
+        let b = report.bounds;
+        if r < b.lower || r > b.upper {
+            report.global.conflict = Some(format!(
+                "{} gives rank {r}, outside the descent's proven bounds [{}, {}]",
+                theorem.name(),
+                b.lower,
+                b.upper
+            ));
+        } else if !b.is_decided() {
+            report.bounds = RankBounds { lower: r, upper: r };
+            report.global.settled_by = Some(RankProof::Analytic(theorem));
         }
     }
+    report.global.analytic = Some(a);
+}
+
+/// Step 2c: the deep search for the points still missing below the rank
+/// (the decided rank, or the parity's prediction), guided by the
+/// predicted generator heights when the analytic side gives them.
+fn deep_search_step(
+    report: &mut DescentReport,
+    dopts: &DeepSearchOptions,
+    options: &DescentOptions,
+    deadline: Option<std::time::Instant>,
+) {
+    let target = if report.bounds.is_decided() {
+        Some(report.bounds.lower)
+    } else {
+        parity_target(report)
+    };
+    let Some(rank) = target.filter(|&r| report.points.len() < r) else {
+        return;
+    };
+    let mut budget = options.budget(options.global_units, deadline);
+    let guided = match predicted_generator_height(report) {
+        Some((h, sha2)) if rank == 1 => dopts.guided(h, sha2),
+        _ => match predicted_last_generator_height(report, rank) {
+            Some((h, sha2)) => dopts.guided_rank_two(h, sha2),
+            None => dopts.clone(),
+        },
+    };
+    match super::deep_search::complete_report_points_cut(report, rank, &guided, &mut budget) {
+        Ok((points, cut)) => {
+            if cut {
+                let e = Error::BudgetExhausted {
+                    stage: "deep point search".into(),
+                };
+                note_stop(report, "deep search for points", &e);
+            }
+            if points.len() > report.bounds.upper {
+                // Independent points beyond a proven upper bound:
+                // one of the two computations is wrong.
+                report.global.conflict = Some(format!(
+                    "the deep search found {} independent points, above the proven upper bound {}",
+                    points.len(),
+                    report.bounds.upper
+                ));
+            } else if points.len() > report.points.len() {
+                // Independent points (certified by their classes):
+                // the descent's lower bound rises with them.
+                report.descent_bounds.lower = report.descent_bounds.lower.max(points.len());
+                report.bounds.lower = report.bounds.lower.max(points.len());
+                report.points = points;
+                report.global.origin = PointOrigin::DeepSearch;
+                // The points and the Selmer bounds now prove the rank
+                // without the analytic theorem (which only guided the
+                // search).
+                if report.descent_bounds.is_decided() {
+                    report.global.settled_by = Some(RankProof::Descent);
+                }
+            }
+        }
+        Err(e) => note_stop(report, "deep search for points", &e),
+    }
+}
+
+/// Step 3: saturation of the points when the rank is decided and they are
+/// as many as the rank; otherwise the canonical heights of the points.
+fn heights_step(
+    report: &mut DescentReport,
+    options: &DescentOptions,
+    deadline: Option<std::time::Instant>,
+) {
     let rank = report.bounds.lower;
     // One height context per curve, from the report's local data (Tate's
     // algorithm is not run again).
@@ -251,7 +279,6 @@ pub(crate) fn complete(
                 .collect();
         }
     }
-    ledger(report);
 }
 
 /// Step 2b: rank proven 1 by the analytic side and no point known — a

@@ -354,41 +354,33 @@ impl SelmerSide {
     }
 
     /// a of y² = x³ + a x² + b x.
-    pub fn a(&self) -> &BigInt {
+    pub(crate) fn a(&self) -> &BigInt {
         self.model.a()
     }
     /// b of y² = x³ + a x² + b x.
-    pub fn b(&self) -> &BigInt {
+    pub(crate) fn b(&self) -> &BigInt {
         self.model.b()
     }
 
     /// dim Sel.
-    pub fn dimension(&self) -> usize {
+    pub(crate) fn dimension(&self) -> usize {
         self.group.dim()
     }
 
     /// dim of the span of known images (a lower bound for dim α(E(Q))).
-    pub fn image_lower(&self) -> usize {
+    pub(crate) fn image_lower(&self) -> usize {
         self.known.dim()
     }
 
     /// The subgroup I of classes lifting to everywhere locally soluble
     /// 2-coverings (it contains α(E(Q))), if the pairing was computed.
-    pub fn liftable(&self) -> Option<&Subspace> {
+    pub(crate) fn liftable(&self) -> Option<&Subspace> {
         self.pairing.as_ref().map(|p| &p.liftable)
     }
 
     /// dim I, if the pairing was computed.
-    pub fn liftable_dim(&self) -> Option<usize> {
+    pub(crate) fn liftable_dim(&self) -> Option<usize> {
         self.liftable().map(Subspace::dim)
-    }
-
-    /// True iff the class d is known to lie outside I, hence outside
-    /// α(E(Q)) (whatever its entry in `elements` says). `None` when the
-    /// pairing is missing or d is not a class of Q(S, 2).
-    pub fn excluded_by_pairing(&self, d: &BigInt) -> Option<bool> {
-        let v = self.qs2.vector(d).ok()?;
-        Some(!self.liftable()?.contains(&v))
     }
 
     /// The first step of this side that a budget or the clock cut short,

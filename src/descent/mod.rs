@@ -63,7 +63,7 @@ pub use report::{Completion, DescentReport, Generators, RankBounds};
 pub use verify::{verify_report, verify_report_default, Check, Verification, DEFAULT_VERIFY_UNITS};
 
 use crate::arith::factor;
-use crate::curve::tate::global_local_data_with;
+use crate::curve::tate::{global_local_data_with, GlobalLocalData};
 use crate::curve::{
     torsion, two_torsion_model_with_budget, two_torsion_points_with_budget, Curve, Point,
     TorsionGroup, TwoIsogeny, TwoTorsionModel,
@@ -194,7 +194,7 @@ impl IsogenyDescent {
     /// dim_F2 Sel²(E'/Q) of the isogenous curve E', torsion included
     /// (the same sequence for the dual isogeny; E'\[2\] is rational iff b is
     /// a square).
-    pub fn selmer2_rank_codomain(&self) -> Option<usize> {
+    pub(crate) fn selmer2_rank_codomain(&self) -> Option<usize> {
         let liftable = self.codomain.liftable_dim()?;
         let full = is_square(self.model.b());
         Some(exact_sequence::selmer2_dimension(
@@ -387,95 +387,19 @@ pub fn descend(curve: &Curve, options: &DescentOptions) -> Result<DescentReport>
     let first_model = ts
         .first()
         .and_then(|t| first_model_and_primes(curve, t, &ctx, &mut known));
-    let disc = curve.discriminant();
-    let mut budget = ctx.factor_budget(disc.numer().bits() + disc.denom().bits());
     let mut completion = Completion::Complete;
-    // Tate's algorithm reads the clock: on a huge model it may be cut, and
-    // the descent still runs (the report is then partial, without local
-    // data).
-    let local_data = match global_local_data_with(curve.coefficients(), &mut budget, &mut known) {
-        Ok(l) => Some(l),
-        Err(e) if is_budget_error(&e) => {
-            completion = Completion::Partial {
-                step: "local data (Tate's algorithm)".into(),
-                reason: e.to_string(),
-            };
-            None
-        }
-        Err(e) => return Err(e),
+    let local_data = local_data_or_cut(curve, &ctx, &mut known, &mut completion)?;
+    let run = IsogenyRun {
+        curve,
+        ts: &ts,
+        torsion: &torsion,
+        first_model: first_model.as_ref(),
+        options,
+        started,
     };
-    let mut isogenies = Vec::with_capacity(ts.len());
-    let mut first_error = None;
-    for (i, t) in ts.iter().enumerate() {
-        let cached = if i == 0 { first_model.as_ref() } else { None };
-        match descend_isogeny_with_torsion(curve, t, &torsion, &ctx, cached, &mut known) {
-            Ok(d) => isogenies.push(d),
-            Err(e) if is_budget_error(&e) => {
-                // Fall back to the first descent alone (no search, no
-                // 4-coverings), with a short grace period of its own: the
-                // local images are cheap next to what ran out.
-                let fallback = options.clone().local_conditions_only();
-                let grace = fallback_deadline(options, started);
-                if completion.is_complete() {
-                    completion = Completion::Partial {
-                        step: format!("isogeny {}", i + 1),
-                        reason: e.to_string(),
-                    };
-                }
-                let fallback_ctx = DescentContext::new(&fallback, started).with_deadline(grace);
-                match descend_isogeny_with_torsion(
-                    curve,
-                    t,
-                    &torsion,
-                    &fallback_ctx,
-                    cached,
-                    &mut known,
-                ) {
-                    Ok(d) => isogenies.push(d),
-                    Err(e2) => {
-                        first_error.get_or_insert(e2);
-                    }
-                }
-            }
-            Err(e) => return Err(e),
-        }
-    }
+    let (isogenies, first_error) = run.each_isogeny(&ctx, &mut known, &mut completion)?;
     if isogenies.is_empty() {
-        // Every first descent stopped (local tests on very many primes,
-        // say). If the primes of b and a² − 4b are known, the classes'
-        // supports still bound the rank (`divisor_rank_bound`).
-        let e = first_error.unwrap_or(Error::BudgetExhausted {
-            stage: "every isogeny of the descent".to_string(),
-        });
-        if !matches!(e, Error::BudgetExhausted { .. }) {
-            return Err(e);
-        }
-        let fallback = options.clone().local_conditions_only();
-        let grace = fallback_deadline(options, started);
-        let fallback_ctx = DescentContext::new(&fallback, started).with_deadline(grace);
-        let mut upper = usize::MAX;
-        for (i, t) in ts.iter().enumerate() {
-            let cached = if i == 0 { first_model.as_ref() } else { None };
-            let model = match cached {
-                Some(m) => m.clone(),
-                None => match reduced_model_for(curve, t, &fallback_ctx) {
-                    Ok(m) => m,
-                    Err(_) => continue,
-                },
-            };
-            if let Ok(u) = divisor_rank_bound(&model, &fallback_ctx, &mut known) {
-                upper = upper.min(u);
-            }
-        }
-        if upper == usize::MAX {
-            return Err(e);
-        }
-        if completion.is_complete() {
-            completion = Completion::Partial {
-                step: "isogeny 1".into(),
-                reason: e.to_string(),
-            };
-        }
+        let upper = run.divisor_bound_after(first_error, &mut known, &mut completion)?;
         let mut report =
             DescentReport::new(curve.clone(), torsion, local_data, Vec::new(), completion);
         report.bounds = RankBounds { lower: 0, upper };
@@ -487,21 +411,165 @@ pub fn descend(curve: &Curve, options: &DescentOptions) -> Result<DescentReport>
     // that gave up, a class of the 4-covering route not run) also makes
     // the report partial: its classes lost evidence.
     if completion.is_complete() {
-        'cut: for (i, d) in isogenies.iter().enumerate() {
-            for side in [&d.domain, &d.codomain] {
-                if let Some((step, reason)) = side.cut_short() {
-                    completion = Completion::Partial {
-                        step: format!("isogeny {}: {step}", i + 1),
-                        reason,
-                    };
-                    break 'cut;
-                }
-            }
+        if let Some(cut) = first_cut_inside(&isogenies) {
+            completion = cut;
         }
     }
     let mut report = DescentReport::new(curve.clone(), torsion, local_data, isogenies, completion);
     global::complete(&mut report, options, ctx.deadline);
     Ok(report)
+}
+
+/// Tate's algorithm on the input model. It reads the clock: on a huge
+/// model it may be cut, and the descent still runs (the report is then
+/// partial, without local data).
+fn local_data_or_cut(
+    curve: &Curve,
+    ctx: &DescentContext<'_>,
+    known: &mut KnownPrimes,
+    completion: &mut Completion,
+) -> Result<Option<GlobalLocalData>> {
+    let disc = curve.discriminant();
+    let mut budget = ctx.factor_budget(disc.numer().bits() + disc.denom().bits());
+    match global_local_data_with(curve.coefficients(), &mut budget, known) {
+        Ok(l) => Ok(Some(l)),
+        Err(e) if is_budget_error(&e) => {
+            *completion = Completion::Partial {
+                step: "local data (Tate's algorithm)".into(),
+                reason: e.to_string(),
+            };
+            Ok(None)
+        }
+        Err(e) => Err(e),
+    }
+}
+
+/// The descents via each rational 2-torsion point of one curve.
+struct IsogenyRun<'a> {
+    curve: &'a Curve,
+    /// The rational points of order 2.
+    ts: &'a [Point],
+    torsion: &'a TorsionGroup,
+    /// The reduced model of the first point, found while factoring.
+    first_model: Option<&'a TwoTorsionModel>,
+    options: &'a DescentOptions,
+    started: Instant,
+}
+
+impl IsogenyRun<'_> {
+    /// The context of the fallback: the first descent alone (no search, no
+    /// 4-coverings), with a short grace period of its own, since the local
+    /// images are cheap next to what ran out.
+    fn fallback(&self) -> DescentOptions {
+        self.options.clone().local_conditions_only()
+    }
+
+    /// The descent via every 2-torsion point; one whose budget runs out
+    /// falls back to the first descent alone and marks the report partial.
+    /// Returns the descents that ran and the first error of a fallback.
+    fn each_isogeny(
+        &self,
+        ctx: &DescentContext<'_>,
+        known: &mut KnownPrimes,
+        completion: &mut Completion,
+    ) -> Result<(Vec<IsogenyDescent>, Option<Error>)> {
+        let mut isogenies = Vec::with_capacity(self.ts.len());
+        let mut first_error = None;
+        for (i, t) in self.ts.iter().enumerate() {
+            let cached = if i == 0 { self.first_model } else { None };
+            match descend_isogeny_with_torsion(self.curve, t, self.torsion, ctx, cached, known) {
+                Ok(d) => isogenies.push(d),
+                Err(e) if is_budget_error(&e) => {
+                    let fallback = self.fallback();
+                    let grace = fallback_deadline(self.options, self.started);
+                    if completion.is_complete() {
+                        *completion = Completion::Partial {
+                            step: format!("isogeny {}", i + 1),
+                            reason: e.to_string(),
+                        };
+                    }
+                    let fallback_ctx =
+                        DescentContext::new(&fallback, self.started).with_deadline(grace);
+                    match descend_isogeny_with_torsion(
+                        self.curve,
+                        t,
+                        self.torsion,
+                        &fallback_ctx,
+                        cached,
+                        known,
+                    ) {
+                        Ok(d) => isogenies.push(d),
+                        Err(e2) => {
+                            first_error.get_or_insert(e2);
+                        }
+                    }
+                }
+                Err(e) => return Err(e),
+            }
+        }
+        Ok((isogenies, first_error))
+    }
+
+    /// Every first descent stopped (local tests on very many primes, say).
+    /// If the primes of b and a² − 4b are known, the classes' supports
+    /// still bound the rank (`divisor_rank_bound`): the smallest such
+    /// bound over the isogenies, with the report marked partial.
+    fn divisor_bound_after(
+        &self,
+        first_error: Option<Error>,
+        known: &mut KnownPrimes,
+        completion: &mut Completion,
+    ) -> Result<usize> {
+        let e = first_error.unwrap_or(Error::BudgetExhausted {
+            stage: "every isogeny of the descent".to_string(),
+        });
+        if !matches!(e, Error::BudgetExhausted { .. }) {
+            return Err(e);
+        }
+        let fallback = self.fallback();
+        let grace = fallback_deadline(self.options, self.started);
+        let fallback_ctx = DescentContext::new(&fallback, self.started).with_deadline(grace);
+        let mut upper = usize::MAX;
+        for (i, t) in self.ts.iter().enumerate() {
+            let cached = if i == 0 { self.first_model } else { None };
+            let model = match cached {
+                Some(m) => m.clone(),
+                None => match reduced_model_for(self.curve, t, &fallback_ctx) {
+                    Ok(m) => m,
+                    Err(_) => continue,
+                },
+            };
+            if let Ok(u) = divisor_rank_bound(&model, &fallback_ctx, known) {
+                upper = upper.min(u);
+            }
+        }
+        if upper == usize::MAX {
+            return Err(e);
+        }
+        if completion.is_complete() {
+            *completion = Completion::Partial {
+                step: "isogeny 1".into(),
+                reason: e.to_string(),
+            };
+        }
+        Ok(upper)
+    }
+}
+
+/// The first step inside an isogeny's descent that a budget cut short, as
+/// a partial completion.
+fn first_cut_inside(isogenies: &[IsogenyDescent]) -> Option<Completion> {
+    for (i, d) in isogenies.iter().enumerate() {
+        for side in [&d.domain, &d.codomain] {
+            if let Some((step, reason)) = side.cut_short() {
+                return Some(Completion::Partial {
+                    step: format!("isogeny {}: {step}", i + 1),
+                    reason,
+                });
+            }
+        }
+    }
+    None
 }
 
 /// The rank bound from the supports of the classes alone, for the

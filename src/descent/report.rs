@@ -262,7 +262,7 @@ impl DescentReport {
 
     /// The regulator of the returned points, when saturation ran (1 for
     /// rank 0 is not reported here).
-    pub fn regulator(&self) -> Option<crate::arith::Certified> {
+    pub(crate) fn regulator(&self) -> Option<crate::arith::Certified> {
         self.global.saturation.as_ref().map(|s| s.regulator)
     }
 

@@ -48,6 +48,11 @@
 //! ∏_p c_p(E′)/c_p(E), with φ*ω′ = α·ω for the minimal differentials. It
 //! is recomputed from Tate's algorithm on every curve as an independent
 //! check of the local computations.
+//!
+//! The derivations, the bounds and the sources are in `docs/descent3.md`,
+//! included below.
+//!
+#![doc = include_str!("../../docs/descent3.md")]
 
 pub(crate) mod f3;
 pub(crate) mod side;

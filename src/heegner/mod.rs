@@ -31,8 +31,10 @@
 //! exact rational arithmetic, and divisions (`Q = p·R`) are checked by
 //! exact multiplication. Nothing here claims generation: the descent hands
 //! the point to saturation ([`crate::height::saturate`]), which proves
-//! the index. `docs/heegner.md` has the method, the precision choice and
-//! the sources.
+//! the index. `docs/heegner.md`, included below, has the method, the
+//! precision choice and the sources.
+//!
+#![doc = include_str!("../../docs/heegner.md")]
 
 mod congruent;
 pub(crate) mod fixed;
@@ -214,7 +216,7 @@ pub fn heegner_forms(d: i64, level: i64, budget: &mut Budget) -> Result<Vec<(i64
 ///
 /// # Errors
 /// Budget errors from the square-free part of the scaling.
-pub fn congruent_model(
+pub(crate) fn congruent_model(
     curve: &Curve,
     budget: &mut Budget,
 ) -> Result<Option<(BigInt, ModelChange)>> {

@@ -152,6 +152,151 @@ pub(crate) fn real_roots_f64(c: &[f64]) -> Vec<f64> {
     out
 }
 
+/// Brackets of the real locus `E(R)`: `p0` below the least real root of
+/// `f`, and when Δ > 0 the gap `(qa, qb)` between the two components.
+type Brackets = (f64, Option<(f64, f64)>);
+
+/// Certified brackets of the real locus from the f64 roots of
+/// `f = 4x³ + b2x² + 2b4x + b6` (`fc` its coefficients, constant first):
+/// `E(R) ⊂ [p0, qa] ∪ [qb, ∞)` when Δ > 0, `[p0, ∞)` when Δ < 0, as
+/// `(p0, Some((qa, qb)))` or `(p0, None)`, with every sign checked at the
+/// f64 points themselves; `None` when the f64 roots are too inaccurate.
+fn brackets_from_f64_roots(
+    fc: &[BigInt],
+    roots: &[f64],
+    scale: f64,
+    disc: &BigInt,
+) -> Option<Brackets> {
+    let sign = |x: f64| crate::arith::sign_at_f64(fc, x);
+    use std::cmp::Ordering::{Greater, Less};
+    for k in [1e-9, 1e-7, 1e-11, 1e-5, 1e-13] {
+        let eta = |v: f64| k * (scale + v.abs());
+        if disc.is_positive() {
+            if roots.len() != 3 {
+                break;
+            }
+            let (e3, e2, e1) = (roots[0], roots[1], roots[2]);
+            let p0 = e3 - eta(e3);
+            let p1 = 0.5 * (e3 + e2);
+            let qa = e2 + eta(e2).min(0.25 * (e1 - e2));
+            let qb = e1 - eta(e1).min(0.25 * (e1 - e2));
+            let p3 = e1 + eta(e1);
+            if !(p0 < p1 && p1 < qa && qa <= qb && qb < p3) {
+                continue;
+            }
+            if sign(p0) == Some(Less)
+                && sign(p1) == Some(Greater)
+                && sign(qa) == Some(Less)
+                && sign(qb) == Some(Less)
+                && sign(p3) == Some(Greater)
+            {
+                return Some((p0, Some((qa, qb))));
+            }
+        } else {
+            let &e1 = roots.first()?;
+            let p0 = e1 - eta(e1);
+            // Δ < 0: f has one real root, so f(p0) < 0 puts it above p0.
+            if sign(p0) == Some(Less) {
+                return Some((p0, None));
+            }
+        }
+    }
+    None
+}
+
+/// The brackets of [`brackets_from_f64_roots`] when the f64 roots are too
+/// inaccurate for them: certified isolation of the real roots of `f`
+/// (square-free: Δ ≠ 0), exact in Q, narrowed to width ≤ k·(scale + |e|)
+/// with outward f64 rounding checked exactly; the signs are re-checked
+/// exactly. `Ok(None)` when even that does not resolve the roots.
+///
+/// # Errors
+/// [`Error::Internal`] if `f` is not square-free or has the wrong number
+/// of real roots for the sign of Δ.
+fn brackets_from_isolation(fc: &[BigInt], scale: f64, disc: &BigInt) -> Result<Option<Brackets>> {
+    use crate::arith::real_roots::{f64_above, f64_below, isolate_real_roots, refine};
+    use std::cmp::Ordering::Less;
+    let sign = |x: f64| crate::arith::sign_at_f64(fc, x);
+    let mut ivs = isolate_real_roots(fc).ok_or_else(|| Error::Internal {
+        check: "4x³ + b2x² + 2b4x + b6 is square-free when Δ ≠ 0".into(),
+    })?;
+    let expected = if disc.is_positive() { 3 } else { 1 };
+    if ivs.len() != expected {
+        return Err(Error::Internal {
+            check: "4x³ + b2x² + 2b4x + b6 has 3 real roots when Δ > 0 and 1 when Δ < 0".into(),
+        });
+    }
+    // p0 < e3, e2 < qa ≤ qb < e1 from the narrowed isolating intervals.
+    for k in [1e-9, 1e-11, 1e-13] {
+        for iv in ivs.iter_mut() {
+            let e = iv.lo.to_f64().unwrap_or(f64::INFINITY).abs();
+            let Some(w) = BigRational::from_float(k * (scale + e)) else {
+                continue;
+            };
+            refine(fc, iv, &w);
+        }
+        let Some(p0) = f64_below(&ivs[0].lo) else {
+            break;
+        };
+        if sign(p0) != Some(Less) {
+            continue;
+        }
+        if !disc.is_positive() {
+            return Ok(Some((p0, None)));
+        }
+        let (Some(qa), Some(qb)) = (f64_above(&ivs[1].hi), f64_below(&ivs[2].lo)) else {
+            break;
+        };
+        if qa <= qb && sign(qa) == Some(Less) && sign(qb) == Some(Less) {
+            return Ok(Some((p0, Some((qa, qb)))));
+        }
+    }
+    Ok(None)
+}
+
+/// `b2, b4, b6, b8` of the model shifted by `x = x′ + r`
+/// [Sil09, III.1, Table 3.1].
+fn shifted_invariants([b2, b4, b6, b8]: [&BigInt; 4], r: &BigInt) -> [BigInt; 4] {
+    let r2 = r * r;
+    let r3 = &r2 * r;
+    let nb2: BigInt = b2 + r * 12;
+    let nb4: BigInt = b4 + r * b2 + &r2 * 6;
+    let nb6: BigInt = b6 + r * b4 * 2 + &r2 * b2 + &r3 * 4;
+    let nb8: BigInt = b8 + r * b6 * 3 + &r2 * b4 * 3 + &r3 * b2 + &r3 * r * 3;
+    [nb2, nb4, nb6, nb8]
+}
+
+/// Certified `(g_sup, h_sup)` of [`Archimedean`] for the real locus
+/// `x ≥ p0` and the shift `r_f` (module docs), with an allowance for the
+/// rounding of the few f64 operations.
+fn log_ratio_sups(p0: f64, r_f: f64) -> (f64, f64) {
+    // sup of log max(|x|,1) − log(x − r) over x ≥ p0 (module docs).
+    let mut g_sup = f64::NEG_INFINITY;
+    if p0 < 1.0 {
+        g_sup = g_sup.max(p0.abs().max(1.0).ln() - (p0 - r_f).ln());
+    }
+    let x0 = p0.max(1.0);
+    g_sup = g_sup.max(if r_f <= 0.0 {
+        0.0
+    } else {
+        x0.ln() - (x0 - r_f).ln()
+    });
+    // sup of log(x − r) − log max(|x|,1): below 1 at most log(1 − r)
+    // (x − r ≤ 1 − r), above max(1, p0) at most log(1 − r/x0) if r < 0.
+    let mut h_sup = if r_f < 0.0 {
+        (1.0 - r_f / x0).ln()
+    } else {
+        0.0
+    };
+    if p0 < 1.0 {
+        h_sup = h_sup.max((1.0 - r_f).ln());
+    }
+    // Rounding in the few operations above: a generous allowance.
+    g_sup += 1e-9 * (1.0 + g_sup.abs());
+    h_sup += 1e-9 * (1.0 + h_sup.abs());
+    (g_sup, h_sup)
+}
+
 /// Per-curve data for the archimedean local height on a minimal model.
 #[derive(Clone, Debug)]
 pub(crate) struct Archimedean {
@@ -199,92 +344,10 @@ impl Archimedean {
         ]
         .into_iter()
         .fold(1.0, f64::max);
-        let sign = |x: f64| crate::arith::sign_at_f64(&fc, x);
-        use std::cmp::Ordering::{Greater, Less};
-        // Certified brackets: E(R) ⊂ [p0, qa] ∪ [qb, ∞) (Δ > 0) or [p0, ∞).
-        let mut cert: Option<(f64, Option<(f64, f64)>)> = None;
-        for k in [1e-9, 1e-7, 1e-11, 1e-5, 1e-13] {
-            let eta = |v: f64| k * (scale + v.abs());
-            if disc.is_positive() {
-                if roots.len() != 3 {
-                    break;
-                }
-                let (e3, e2, e1) = (roots[0], roots[1], roots[2]);
-                let p0 = e3 - eta(e3);
-                let p1 = 0.5 * (e3 + e2);
-                let qa = e2 + eta(e2).min(0.25 * (e1 - e2));
-                let qb = e1 - eta(e1).min(0.25 * (e1 - e2));
-                let p3 = e1 + eta(e1);
-                if !(p0 < p1 && p1 < qa && qa <= qb && qb < p3) {
-                    continue;
-                }
-                if sign(p0) == Some(Less)
-                    && sign(p1) == Some(Greater)
-                    && sign(qa) == Some(Less)
-                    && sign(qb) == Some(Less)
-                    && sign(p3) == Some(Greater)
-                {
-                    cert = Some((p0, Some((qa, qb))));
-                    break;
-                }
-            } else {
-                let Some(&e1) = roots.first() else { break };
-                let p0 = e1 - eta(e1);
-                // Δ < 0: f has one real root, so f(p0) < 0 puts it above p0.
-                if sign(p0) == Some(Less) {
-                    cert = Some((p0, None));
-                    break;
-                }
-            }
-        }
-        if cert.is_none() {
-            // When the f64 roots are too inaccurate for the brackets above:
-            // certified isolation of the real roots of f (square-free: Δ ≠ 0),
-            // exact in Q.
-            let mut ivs = crate::arith::real_roots::isolate_real_roots(&fc).ok_or_else(|| {
-                Error::Internal {
-                    check: "4x³ + b2x² + 2b4x + b6 is square-free when Δ ≠ 0".into(),
-                }
-            })?;
-            let expected = if disc.is_positive() { 3 } else { 1 };
-            if ivs.len() != expected {
-                return Err(Error::Internal {
-                    check: "4x³ + b2x² + 2b4x + b6 has 3 real roots when Δ > 0 and 1 when Δ < 0"
-                        .into(),
-                });
-            }
-            use crate::arith::real_roots::{f64_above, f64_below, refine};
-            // Certified brackets: E(R) ⊂ [p0, qa] ∪ [qb, ∞) (Δ > 0) or [p0, ∞),
-            // with p0 < e3, e2 < qa ≤ qb < e1 taken from the isolating
-            // intervals narrowed to width ≤ k·(scale + |e|) (outward f64
-            // rounding checked exactly); the signs are re-checked exactly.
-            for k in [1e-9, 1e-11, 1e-13] {
-                for iv in ivs.iter_mut() {
-                    let e = iv.lo.to_f64().unwrap_or(f64::INFINITY).abs();
-                    let Some(w) = BigRational::from_float(k * (scale + e)) else {
-                        continue;
-                    };
-                    refine(&fc, iv, &w);
-                }
-                let Some(p0) = f64_below(&ivs[0].lo) else {
-                    break;
-                };
-                if sign(p0) != Some(Less) {
-                    continue;
-                }
-                if !disc.is_positive() {
-                    cert = Some((p0, None));
-                    break;
-                }
-                let (Some(qa), Some(qb)) = (f64_above(&ivs[1].hi), f64_below(&ivs[2].lo)) else {
-                    break;
-                };
-                if qa <= qb && sign(qa) == Some(Less) && sign(qb) == Some(Less) {
-                    cert = Some((p0, Some((qa, qb))));
-                    break;
-                }
-            }
-        }
+        let cert = match brackets_from_f64_roots(&fc, &roots, scale, disc) {
+            Some(c) => Some(c),
+            None => brackets_from_isolation(&fc, scale, disc)?,
+        };
         let (p0, gap) = cert.ok_or_else(|| Error::InvalidArgument {
             reason: "the real roots of 4x³ + b2x² + 2b4x + b6 lie closer together than the f64 height routine resolves".into(),
         })?;
@@ -293,13 +356,7 @@ impl Archimedean {
         let r = BigRational::from_float(r_f)
             .ok_or_else(too_big)?
             .to_integer();
-        // Shifted invariants (x = x' + r) [Sil09, III.1, Table 3.1].
-        let r2 = &r * &r;
-        let r3 = &r2 * &r;
-        let nb2: BigInt = b2 + &r * 12;
-        let nb4: BigInt = b4 + &r * b2 + &r2 * 6;
-        let nb6: BigInt = b6 + &r * b4 * 2 + &r2 * b2 + &r3 * 4;
-        let nb8: BigInt = b8 + &r * b6 * 3 + &r2 * b4 * 3 + &r3 * b2 + &r3 * &r * 3;
+        let [nb2, nb4, nb6, nb8] = shifted_invariants([b2, b4, b6, b8], &r);
         let b: [f64; 4] = [
             nb2.to_f64().unwrap_or(f64::INFINITY),
             nb4.to_f64().unwrap_or(f64::INFINITY),
@@ -319,30 +376,7 @@ impl Archimedean {
         let (zlo, zhi) = z_bounds(&b, &ranges).ok_or_else(|| Error::InvalidArgument {
             reason: "could not certify a positive lower bound for Tate's z on E(R)".into(),
         })?;
-        // sup of log max(|x|,1) − log(x − r) over x ≥ p0 (module docs).
-        let mut g_sup = f64::NEG_INFINITY;
-        if p0 < 1.0 {
-            g_sup = g_sup.max(p0.abs().max(1.0).ln() - (p0 - r_f).ln());
-        }
-        let x0 = p0.max(1.0);
-        g_sup = g_sup.max(if r_f <= 0.0 {
-            0.0
-        } else {
-            x0.ln() - (x0 - r_f).ln()
-        });
-        // sup of log(x − r) − log max(|x|,1): below 1 at most log(1 − r)
-        // (x − r ≤ 1 − r), above max(1, p0) at most log(1 − r/x0) if r < 0.
-        let mut h_sup = if r_f < 0.0 {
-            (1.0 - r_f / x0).ln()
-        } else {
-            0.0
-        };
-        if p0 < 1.0 {
-            h_sup = h_sup.max((1.0 - r_f).ln());
-        }
-        // Rounding in the few operations above: a generous allowance.
-        g_sup += 1e-9 * (1.0 + g_sup.abs());
-        h_sup += 1e-9 * (1.0 + h_sup.abs());
+        let (g_sup, h_sup) = log_ratio_sups(p0, r_f);
         let bdd = [
             Dd::from_bigint(&nb2),
             Dd::from_bigint(&nb4),

@@ -178,15 +178,6 @@ impl HeightContext {
         &self.to_min
     }
 
-    /// The primes of bad reduction, with `v_p(Δ_min)` and the Kodaira
-    /// symbol.
-    pub fn bad_primes(&self) -> Vec<(BigInt, u64, crate::curve::tate::Kodaira)> {
-        self.bad
-            .iter()
-            .map(|b| (b.prime.get().clone(), b.n, b.kodaira))
-            .collect()
-    }
-
     pub(crate) fn discriminant(&self) -> &BigInt {
         &self.disc
     }
@@ -472,7 +463,7 @@ pub fn determinant(m: &[Vec<Certified>]) -> Certified {
 /// let p = Point::from_ints(0, 0);
 /// let h = canonical_height(&e, &p).unwrap();
 /// assert!((h.value() - 0.05111140823996884).abs() <= h.error() + 1e-16 && h.error() < 1e-12);
-/// let h2 = canonical_height(&e, &e.double(&p)).unwrap();
+/// let h2 = canonical_height(&e, &e.add(&p, &p)).unwrap();
 /// assert!((h2.value() - 4.0 * h.value()).abs() <= h2.error() + 4.0 * h.error());
 /// ```
 ///

@@ -190,7 +190,7 @@ fn hermite_power(r: usize) -> f64 {
 /// use isodescent::Budget;
 /// // y² + y = x³ − x with 3·(0, 0): saturation divides by 3.
 /// let e = Curve::from_ints([0, 0, 1, -1, 0]).unwrap();
-/// let p3 = e.mul_i64(&Point::from_ints(0, 0), 3);
+/// let p3 = e.mul(&Point::from_ints(0, 0), &3.into());
 /// let s = saturate(&e, &[p3], &SaturationOptions::default(), &mut Budget::unlimited()).unwrap();
 /// assert!(s.proven_saturated);
 /// assert_eq!(s.index_found, 3);

@@ -28,9 +28,17 @@ pub(crate) mod valuation;
 
 pub use hilbert::{hilbert_symbol, hilbert_symbol_int};
 pub use place::{Place, Prime};
-pub use sqrt::{mod_inverse_with_budget, sqrt_mod_prime, sqrt_mod_prime_power};
-pub use square_class::{
-    class_dimension, class_representatives, is_square_in, square_class, square_class_int,
-};
-pub use symbols::{jacobi, kronecker, legendre, legendre_u64};
-pub use valuation::{split_valuation, valuation, valuation_rational};
+pub use sqrt::mod_inverse_with_budget;
+pub use square_class::{is_square_in, square_class};
+pub use symbols::legendre;
+pub use valuation::valuation;
+
+pub(crate) use sqrt::{sqrt_mod_prime, sqrt_mod_prime_power};
+pub(crate) use square_class::{class_dimension, class_representatives, square_class_int};
+#[cfg(test)]
+pub(crate) use symbols::jacobi;
+pub(crate) use symbols::{kronecker, legendre_u64};
+pub(crate) use valuation::{split_valuation, valuation_rational};
+
+#[cfg(test)]
+mod tests;

@@ -93,14 +93,6 @@ impl Place {
     pub fn prime(p: Prime) -> Place {
         Place::Finite(p)
     }
-
-    /// The prime of a finite place, `None` at the real place.
-    pub fn as_prime(&self) -> Option<&Prime> {
-        match self {
-            Place::Real => None,
-            Place::Finite(p) => Some(p),
-        }
-    }
 }
 
 impl fmt::Display for Place {

@@ -20,13 +20,8 @@ use crate::error::{Error, Result};
 /// A square root of a modulo the odd prime p, in [0, p), or `None` when a
 /// is a non-residue. For p = 2 returns a mod 2.
 ///
-/// Cost: O(log² p) multiplications mod p.
-///
-/// ```
-/// use isodescent::local::{sqrt_mod_prime, Prime};
-/// let x = sqrt_mod_prime(&2.into(), &Prime::small(7).unwrap()).unwrap();
-/// assert_eq!((&x * &x) % 7, 2.into());
-/// ```
+/// Cost: O(log² p) multiplications mod p. Example (a unit test in
+/// `src/local/tests/layer.rs`): a root of 2 modulo 7 squares to 2.
 pub fn sqrt_mod_prime(a: &BigInt, p: &Prime) -> Option<BigInt> {
     if let Some(pw) = p.to_u64() {
         let r = residue_u64(a, pw);

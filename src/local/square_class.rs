@@ -44,12 +44,8 @@ fn unit_bits(u: &BigInt, p: &Prime) -> u8 {
 /// # Errors
 /// [`Error::Zero`] for x = 0, which has no square class.
 ///
-/// ```
-/// use isodescent::local::{square_class_int, Place, Prime};
-/// let two = Place::Finite(Prime::two());
-/// assert_eq!(square_class_int(&(-5).into(), &two).unwrap(), 0b110);
-/// assert_eq!(square_class_int(&17.into(), &two).unwrap(), 0);  // 17 ≡ 1 mod 8
-/// ```
+/// Example (a unit test in `src/local/tests/layer.rs`): at 2, −5 has the
+/// mask 0b110 and 17 ≡ 1 mod 8 the mask 0.
 pub fn square_class_int(x: &BigInt, place: &Place) -> Result<u8> {
     if x.is_zero() {
         return Err(Error::Zero {

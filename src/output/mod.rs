@@ -57,11 +57,6 @@ impl DescentReport {
             detail,
         }
     }
-
-    /// The one-line JSON object of this report (see `json`).
-    pub fn to_json_line(&self, input: &str, detail: Detail) -> String {
-        report_line(input, self, detail)
-    }
 }
 
 impl fmt::Display for ReportText<'_> {

@@ -181,17 +181,6 @@ impl Quartic {
         acc
     }
 
-    /// `g(x, z)` at rational arguments.
-    pub fn eval_rational(&self, x: &BigRational, z: &BigRational) -> BigRational {
-        let mut zp = BigRational::one();
-        let mut acc = BigRational::from_integer(self.coeffs[0].clone());
-        for c in &self.coeffs[1..] {
-            zp *= z;
-            acc = acc * x + BigRational::from_integer(c.clone()) * &zp;
-        }
-        acc
-    }
-
     /// The invariant `I = 12 c4 c0 − 3 c3 c1 + c2²` [Cremona01, §2] (from memory).
     pub fn invariant_i(&self) -> BigInt {
         let [a, b, c, d, e] = &self.coeffs;
@@ -216,12 +205,6 @@ impl Quartic {
         let i = self.invariant_i();
         let j = self.invariant_j();
         (BigInt::from(4) * &i * &i * &i - &j * &j) / BigInt::from(27)
-    }
-
-    /// The greatest common divisor of the coefficients (`≥ 1` for a
-    /// non-degenerate form).
-    pub fn content(&self) -> BigInt {
-        self.coeffs.iter().fold(BigInt::zero(), |g, c| g.gcd(c))
     }
 }
 

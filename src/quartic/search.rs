@@ -263,11 +263,6 @@ impl Congruence {
         self.modulus
     }
 
-    /// The allowed residue pairs `(x mod m, z mod m)`, sorted.
-    pub fn allowed(&self) -> &[(u64, u64)] {
-        &self.allowed
-    }
-
     /// True iff the pair `(x, z)` satisfies the condition.
     ///
     /// Example: `Congruence::on_x(8, [1, 7])` admits `(−1, 5)` and not `(3, 5)`.

@@ -102,7 +102,7 @@ pub struct ClassLift {
 impl ClassLift {
     /// `⟨d, d'⟩` as a bit (true means −1) for `d'` given by its coordinate
     /// vector in `Q(S, 2)`.
-    pub fn pair(&self, other: &BitVec) -> bool {
+    pub(crate) fn pair(&self, other: &BitVec) -> bool {
         self.functional.dot(other)
     }
 }
@@ -128,13 +128,9 @@ pub struct LiftPairing {
 }
 
 impl LiftPairing {
-    /// `dim I`.
-    pub fn dim(&self) -> usize {
-        self.liftable.dim()
-    }
-
     /// True iff the matrix is symmetric.
-    pub fn is_symmetric(&self) -> bool {
+    #[cfg(test)]
+    pub(crate) fn is_symmetric(&self) -> bool {
         let n = self.matrix.len();
         (0..n).all(|i| (0..n).all(|j| self.matrix[i].get(j) == self.matrix[j].get(i)))
     }

@@ -138,7 +138,7 @@ impl BitVec {
     }
 
     /// Sets coordinate i; returns false (and does nothing) if i ≥ len.
-    pub fn set(&mut self, i: usize, bit: bool) -> bool {
+    pub(crate) fn set(&mut self, i: usize, bit: bool) -> bool {
         if i >= self.len {
             return false;
         }
@@ -288,7 +288,7 @@ impl Subspace {
     }
 
     /// Dimension of the ambient space.
-    pub fn ambient(&self) -> usize {
+    pub(crate) fn ambient(&self) -> usize {
         self.ambient
     }
 

@@ -39,7 +39,7 @@ pub struct LocalCondition {
 
 impl LocalCondition {
     /// W_v from the list of its member classes (bit masks).
-    pub fn from_masks(place: Place, masks: &[u8]) -> Self {
+    pub(crate) fn from_masks(place: Place, masks: &[u8]) -> Self {
         let n = class_dimension(&place);
         // The echelon basis in words (n ≤ 3): the same canonical basis as
         // `Subspace::span` of the masks.
@@ -49,19 +49,6 @@ impl LocalCondition {
         }
         let image = Subspace::from_echelon_words(n, &basis);
         LocalCondition { place, image }
-    }
-
-    /// The member classes of W_v as bit masks, ascending.
-    pub fn masks(&self) -> Vec<u8> {
-        let mut out: Vec<u8> = self
-            .image
-            .elements()
-            .unwrap_or_default()
-            .iter()
-            .map(|v| v.ones().fold(0u8, |m, i| m | (1u8 << i)))
-            .collect();
-        out.sort_unstable();
-        out
     }
 }
 

@@ -2,7 +2,7 @@
 # computed with mpmath 1.3.0 at 40 digits: Omega = 2 * int_{e1}^inf dx / sqrt(f),
 # f = 4x^3 + b2 x^2 + 2 b4 x + b6 = 4x^3 + x^2 + 116x, e1 = 0 its only real
 # root; x = t^2 removes the endpoint singularity. Used by
-# tests/analytic_values.rs (printed values inside their printed error).
+# src/analytic/tests/values.rs (printed values inside their printed error).
 from mpmath import mp, quad, sqrt, inf
 
 mp.dps = 40

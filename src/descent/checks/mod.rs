@@ -1,9 +1,11 @@
 //! Checks of the local-image counts (crate-private cross-check functions in
-//! `selmer::image_size`) against outside sources; unit tests so that the
-//! cross-check functions stay out of the public face.
+//! `selmer::image_size`) against outside sources, and of the second descent
+//! as linear algebra (`second_pairing`); unit tests so that the cross-check
+//! functions and the F2 internals they reach stay out of the public face.
 
 mod image_size_checks;
 mod image_size_families;
+mod second_pairing;
 
 use crate::arith::factor_u64;
 use crate::curve::ReducedModel;

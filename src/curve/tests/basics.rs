@@ -1,8 +1,8 @@
 //! Curves layer: invariants, parsing, display, model changes, group law on
 //! fixed examples, and bad input.
 
-use isodescent::curve::{clear_denominators, Curve, ModelChange, Point};
-use isodescent::Error;
+use crate::curve::{clear_denominators, Curve, ModelChange, Point};
+use crate::Error;
 use num_bigint::BigInt;
 use num_rational::BigRational;
 use num_traits::{One, Zero};
@@ -107,7 +107,7 @@ fn parse_errors_say_what_is_wrong() {
 
 #[test]
 fn coefficients_longer_than_the_digit_cap_are_a_parse_error() {
-    let long = "7".repeat(isodescent::curve::MAX_COEFFICIENT_DIGITS + 1);
+    let long = "7".repeat(crate::curve::MAX_COEFFICIENT_DIGITS + 1);
     let s = format!("0 0 0 {long} 1");
     match s.parse::<Curve>() {
         Err(Error::Parse { reason, input }) => {

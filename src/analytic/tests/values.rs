@@ -1,18 +1,20 @@
 //! L-values, periods, root numbers, ranks and the ledger on classical
 //! curves, and the behaviour on bad input and small budgets.
 
-use isodescent::analytic::{
+use crate::analytic::{
     analyse, sha_analytic, AnalyticData, AnalyticOptions, AnalyticOrder, RankTheorem,
     RootNumberRoute, Series, Skip,
 };
-use isodescent::arith::Certified;
-use isodescent::curve::{torsion, Curve, Point};
-use isodescent::{Budget, Error};
+use crate::arith::Certified;
+use crate::curve::{torsion, Curve, Point};
+use crate::{Budget, Error};
 use num_bigint::BigInt;
 use num_rational::BigRational;
 use num_traits::Signed;
 
-mod values;
+/// The committed reference values (shared with the integration tests).
+#[path = "../../../tests/values/mod.rs"]
+mod reference;
 
 fn run(a: [i64; 5]) -> AnalyticData {
     let e = Curve::from_ints(a).unwrap();
@@ -36,32 +38,32 @@ fn close(x: Certified, expected: f64, expected_accuracy: f64, slack: f64) {
 fn check_against_reference(tag: &str, d: &AnalyticData, order: usize, slack: f64) {
     assert_eq!(
         d.conductor(),
-        &BigInt::from(values::integer("conductor", &[tag])),
+        &BigInt::from(reference::integer("conductor", &[tag])),
         "{tag}"
     );
-    let w = values::integer("root_number", &[tag]);
+    let w = reference::integer("root_number", &[tag]);
     assert_eq!(d.root_number().map(i64::from), Some(w), "{tag}");
     assert_eq!(
         d.real_component_count().map(i64::from),
-        Some(values::integer("components", &[tag])),
+        Some(reference::integer("components", &[tag])),
         "{tag}"
     );
     close(
         d.least_real_period().unwrap(),
-        values::real("least_period", &[tag]),
+        reference::real("least_period", &[tag]),
         2e-15,
         1e-13,
     );
     close(
         d.real_period().unwrap(),
-        values::real("real_period", &[tag]),
+        reference::real("real_period", &[tag]),
         4e-15,
         1e-13,
     );
     let r = order.to_string();
     close(
         d.l_value(order).unwrap(),
-        values::real("l_derivative", &[tag, &r]),
+        reference::real("l_derivative", &[tag, &r]),
         2e-14,
         slack,
     );
@@ -69,7 +71,7 @@ fn check_against_reference(tag: &str, d: &AnalyticData, order: usize, slack: f64
 
 #[test]
 fn rank_zero_and_one_values_match_the_independent_computation() {
-    let d = run(values::curve("five_torsion"));
+    let d = run(reference::curve("five_torsion"));
     check_against_reference("five_torsion", &d, 0, 1e-12);
     assert_eq!(
         d.root_number_route(),
@@ -81,7 +83,7 @@ fn rank_zero_and_one_values_match_the_independent_computation() {
         Some((0, RankTheorem::GrossZagierKolyvagin))
     );
 
-    let d = run(values::curve("rank1_small_conductor"));
+    let d = run(reference::curve("rank1_small_conductor"));
     check_against_reference("rank1_small_conductor", &d, 1, 1e-12);
     assert_eq!(
         d.rank_proven(),
@@ -92,7 +94,7 @@ fn rank_zero_and_one_values_match_the_independent_computation() {
 
 #[test]
 fn rank_two_and_three_derivatives_match_the_independent_computation() {
-    let d = run(values::curve("rank2_small_conductor"));
+    let d = run(reference::curve("rank2_small_conductor"));
     assert!(d.l_value(0).unwrap().may_be_zero());
     check_against_reference("rank2_small_conductor", &d, 2, 1e-6);
     // only "at most 2" is proven: L''(E,1) is certified non-zero, L(E,1) is
@@ -101,7 +103,7 @@ fn rank_two_and_three_derivatives_match_the_independent_computation() {
     assert_eq!(d.analytic_rank(), None);
     assert_eq!(d.rank_proven(), None);
 
-    let d = run(values::curve("rank3_small_conductor"));
+    let d = run(reference::curve("rank3_small_conductor"));
     assert!(d.l_value(1).unwrap().may_be_zero());
     check_against_reference("rank3_small_conductor", &d, 3, 1e-6);
     assert_eq!(d.analytic_order(), Some(AnalyticOrder::AtMost(3)));
@@ -114,7 +116,7 @@ fn lemniscate_period_of_y2_x3_minus_x() {
     // y² = x³ − x: e = 1, 0, −1, ω₁ = π/M(√2, 1), two real components,
     // so Ω = 2ω₁; all values from the script. The curve has CM by Z[i]
     // (j = 1728; Silverman, AEC, III.10.2(b)), so Coates–Wiles applies.
-    let d = run(values::curve("lemniscatic"));
+    let d = run(reference::curve("lemniscatic"));
     check_against_reference("lemniscatic", &d, 0, 1e-12);
     assert_eq!(
         d.root_number_route(),
@@ -136,8 +138,7 @@ fn a_wrong_conductor_or_root_number_fails_the_split_check() {
     // are right (the functional equation; Cremona, Algorithms, §2.11).
     let e = Curve::from_ints([0, -1, 1, -10, -20]).unwrap();
     let l = e.tate_data(&mut Budget::unlimited()).unwrap();
-    let an =
-        isodescent::analytic::dirichlet_coefficients(&l, 400, &mut Budget::unlimited()).unwrap();
+    let an = crate::analytic::dirichlet_coefficients(&l, 400, &mut Budget::unlimited()).unwrap();
     let mut b = Budget::unlimited();
     for (n, w, ok) in [
         (11u64, 1i8, true),
@@ -265,7 +266,7 @@ fn limits_and_budgets_give_no_value_rather_than_a_guess() {
 fn printed(c: &Certified) -> (BigRational, BigRational) {
     let s = c.to_string();
     let (p, e) = s.split_once(" ± ").unwrap();
-    (values::exact_decimal(p), values::exact_decimal(e))
+    (reference::exact_decimal(p), reference::exact_decimal(e))
 }
 
 /// The period of y² + xy = x³ + 29x to 40 digits, computed independently
@@ -276,7 +277,7 @@ fn printed(c: &Certified) -> (BigRational, BigRational) {
 fn printed_period_is_within_its_printed_error_of_the_true_value() {
     let d = run([1, 0, 0, 29, 0]);
     let omega = d.real_period().unwrap();
-    let truth = values::exact_decimal("1.589561513112141427003747519363278507374");
+    let truth = reference::exact_decimal("1.589561513112141427003747519363278507374");
     let (p, e) = printed(&omega);
     assert!((truth - p).abs() <= e, "{omega}");
 }

@@ -5,9 +5,9 @@
 //! of a and b can contribute −1 (Serre, III.1.2, Thm. 1: (a, b)_p = 1 when
 //! p is odd and a, b are p-adic units).
 
-use isodescent::arith::factor;
-use isodescent::local::{hilbert_symbol, Place, Prime};
-use isodescent::Budget;
+use crate::arith::factor;
+use crate::local::{hilbert_symbol, Place, Prime};
+use crate::Budget;
 use num_bigint::BigInt;
 use num_rational::BigRational;
 use proptest::prelude::*;

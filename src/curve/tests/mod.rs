@@ -1,0 +1,4 @@
+//! Unit tests of the curve layer that reach crate-private accessors
+//! (the b- and c-invariants of a rational model, the short model).
+
+mod basics;
