@@ -330,9 +330,15 @@ fn heegner_step(
             class_number,
         }) => {
             // Gross–Zagier speaks for the maximal order (the route with odd
-            // D = −n); a torsion trace of the conductor-4 route (D = −64n)
-            // contradicts no theorem and is only recorded.
-            if discriminant.rem_euclid(2) == 1 {
+            // D = −n, level 32, where L(E0, 1) ≠ 0); a torsion trace of the
+            // conductor-4 route (D = −64n) contradicts no theorem and is
+            // only recorded, nor does one at the curve's own level (there
+            // L(E^D, 1) may vanish).
+            let twist_route = crate::heegner::congruent_model(&report.curve, &mut budget)
+                .ok()
+                .flatten()
+                .is_some();
+            if twist_route && discriminant.rem_euclid(2) == 1 {
                 report.global.conflict = Some(format!(
                     "the Heegner trace for D = {discriminant} (h = {class_number}) is torsion although L'(E,1) is certified non-zero (Gross-Zagier)"
                 ));

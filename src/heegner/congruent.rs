@@ -130,13 +130,26 @@ pub(crate) fn phi(
     d: i64,
     budget: &mut Budget,
 ) -> Result<(Cx, u64)> {
-    let f = c.f;
+    phi_with(c.f, &c.pi, an, step, form, d, budget)
+}
+
+/// [`phi`] with only the precision and π given (any curve's `a_k`; the
+/// tail bound `|a_k| ≤ 2k` holds for every newform of weight 2).
+pub(crate) fn phi_with(
+    f: Fixed,
+    pi: &BigInt,
+    an: &[i64],
+    step: usize,
+    form: Form,
+    d: i64,
+    budget: &mut Budget,
+) -> Result<(Cx, u64)> {
     let (a, b, _) = form;
     // |q| = e^{−π√|D|/A}; angle −πB/A reduced modulo 2π.
     let sqrt_d = f.sqrt(&f.int(&BigInt::from(-d)));
-    let modulus = f.exp(&-(f.div(&f.mul(&c.pi, &sqrt_d), &f.int(&BigInt::from(a)))));
+    let modulus = f.exp(&-(f.div(&f.mul(pi, &sqrt_d), &f.int(&BigInt::from(a)))));
     let bred = b.rem_euclid(2 * a);
-    let theta = -(f.div(&(&c.pi * BigInt::from(bred)), &f.int(&BigInt::from(a))));
+    let theta = -(f.div(&(pi * BigInt::from(bred)), &f.int(&BigInt::from(a))));
     let e = f.expi(&theta);
     let q = Cx {
         re: f.mul(&modulus, &e.re),

@@ -20,6 +20,11 @@
 //! That their trace has infinite order is observed, not assumed: a torsion
 //! trace is reported as such, and every point is checked exactly.
 //!
+//! Every other curve goes to Heegner points at its own level
+//! (`own_level`): Heegner points on `X₀(N)`, `N` the conductor, for a
+//! discriminant meeting the Heegner hypothesis at `N`, with the curve's
+//! own period lattice; bounded by [`HeegnerOptions::max_own_level_terms`].
+//!
 //! What is proven and what is numerics: the series, the periods and `℘`
 //! are evaluated in binary fixed point (`fixed`) only to *propose* the
 //! rational `x`-coordinate; the point is then checked on the curve in
@@ -34,6 +39,7 @@
 mod congruent;
 pub(crate) mod fixed;
 pub(crate) mod forms;
+mod own_level;
 
 use num_bigint::BigInt;
 use num_rational::BigRational;
@@ -65,7 +71,26 @@ pub struct HeegnerOptions {
     /// Largest prime `p` for which `Q = p·R` is tried (default 1000): the
     /// primes of the index predicted by the height ratio, and 2, 3, 5, 7.
     pub max_division_prime: u64,
+    /// Largest number of series terms (summed over the classes) of one
+    /// attempt of the route at the curve's own level (default
+    /// [`DEFAULT_MAX_OWN_LEVEL_TERMS`]); the route is not attempted when
+    /// its first precision already needs more, and stops doubling the
+    /// precision when the next one would.
+    pub max_own_level_terms: u64,
 }
+
+/// Default cap on the series terms of one attempt at the curve's own
+/// level: the terms grow like `N/√|D|` per class and bit, so this bounds
+/// the conductors reached by default (`docs/heegner.md`).
+pub const DEFAULT_MAX_OWN_LEVEL_TERMS: u64 = 4_000_000;
+
+/// Largest conductor of the route at the curve's own level: with
+/// `|D| ≤ 20 000` the forms' `A ≤ N(|D| + 1)` and `C·N ≤ N²(|D| + 1)/4`
+/// stay inside `i64` (the forms module computes in `i64`).
+const MAX_OWN_LEVEL_CONDUCTOR: u64 = 20_000_000;
+
+/// Largest `|D|` scanned by the route at the curve's own level.
+const MAX_OWN_LEVEL_DISCRIMINANT: u64 = 20_000;
 
 impl Default for HeegnerOptions {
     fn default() -> Self {
@@ -73,6 +98,7 @@ impl Default for HeegnerOptions {
             max_bits: DEFAULT_MAX_BITS,
             max_discriminant: DEFAULT_MAX_DISCRIMINANT,
             max_division_prime: 1000,
+            max_own_level_terms: DEFAULT_MAX_OWN_LEVEL_TERMS,
         }
     }
 }
@@ -92,7 +118,9 @@ pub struct HeegnerPoint {
     /// The class number `h(D)` of the order (the number of Heegner points
     /// summed).
     pub class_number: usize,
-    /// The level of the modular curve (32).
+    /// The level of the modular curve: 32 for the twists of
+    /// `y² = x³ − x`, the conductor `N` of the curve for the route at its
+    /// own level (then `n` is 0).
     pub level: u32,
     /// The point of `E_n(Q)` from the trace (on the input model), checked
     /// on the curve exactly. When the trace's parameter was halved before
@@ -105,6 +133,12 @@ pub struct HeegnerPoint {
     pub point: Point,
     /// The index divided out (1 when no division applied).
     pub index: u64,
+    /// `k` of the relation `k·trace = ±index·point + T` (`T` torsion): 1
+    /// for the twists of `y² = x³ − x`; at the curve's own level the
+    /// multiple of the trace at which a rational point was recognised
+    /// (`docs/heegner.md`: the lattice of the newform and the curve's
+    /// differ by a small index when the curve is not the optimal one).
+    pub trace_factor: u32,
     /// The working precision in bits at which the point was recognised.
     pub precision_bits: u32,
     /// Series terms summed (over all classes) at that precision.
@@ -220,7 +254,9 @@ pub(crate) fn congruent_model(
 
 /// A Heegner point on a curve isomorphic to `E_n: y² = x³ − n²x` with
 /// square-free `n ≡ 5, 6, 7 (mod 8)`, as a point of the input model
-/// (`docs/heegner.md` has the order used for each class of `n`).
+/// (`docs/heegner.md` has the order used for each class of `n`); on any
+/// other curve, a Heegner point at the curve's own level (meaningful for
+/// root number −1; `docs/heegner.md`, "The curve's own level").
 ///
 /// `predicted_height` is `ĥ` of a generator by the Birch–Swinnerton-Dyer
 /// formula with `#Ш = 1` (x-normalisation of [`crate::height`]); it is a
@@ -237,9 +273,7 @@ pub fn heegner_point(
     budget: &mut Budget,
 ) -> Result<HeegnerOutcome> {
     let Some((n, change)) = congruent_model(curve, budget)? else {
-        return Ok(HeegnerOutcome::NotApplicable(
-            "not a quadratic twist of y^2 = x^3 - x".into(),
-        ));
+        return own_level_point(curve, predicted_height, options, budget);
     };
     let r8 = (&n % BigInt::from(8)).to_u64().unwrap_or(0);
     if !matches!(r8, 5..=7) {
@@ -270,6 +304,120 @@ pub fn heegner_point(
             HeegnerOutcome::Found(h)
         }
         other => other,
+    })
+}
+
+/// The route at the curve's own level (module `own_level`): for a curve of
+/// root number −1 (the caller's business: with `w = +1` the trace is
+/// torsion or not rational, and nothing is found), Heegner points on
+/// `X₀(N)`, `N` the conductor, for up to three discriminants `D`
+/// cheapest first; the precision starts from the predicted height and
+/// doubles while the series stays within `max_own_level_terms`.
+fn own_level_point(
+    curve: &Curve,
+    predicted_height: Option<f64>,
+    options: &HeegnerOptions,
+    budget: &mut Budget,
+) -> Result<HeegnerOutcome> {
+    let local = crate::curve::global_local_data(curve.coefficients(), budget)?;
+    let Some(n) = local
+        .conductor
+        .to_u64()
+        .filter(|&n| n <= MAX_OWN_LEVEL_CONDUCTOR)
+    else {
+        return Ok(HeegnerOutcome::NotApplicable(format!(
+            "conductor {} above the own-level limit {MAX_OWN_LEVEL_CONDUCTOR}",
+            local.conductor
+        )));
+    };
+    let primes = own_level::conductor_primes(&local);
+    let max_d = options.max_discriminant.min(MAX_OWN_LEVEL_DISCRIMINANT);
+    // Precision as for the twists (see `point_on_twist`): 2·H/ln 2 bits for
+    // a point of logarithmic height H; H from the predicted height with a
+    // margin for the naive–canonical difference.
+    let start_h = predicted_height
+        .filter(|h| h.is_finite() && *h > 0.0)
+        .map_or(30.0, |h| 1.1 * h + 10.0);
+    let start_bits =
+        ((2.0 * start_h / std::f64::consts::LN_2) as u32 + 32).clamp(96, options.max_bits.max(96));
+    let choices = own_level::choose(
+        n as i64,
+        &primes,
+        max_d,
+        3,
+        (start_bits, options.max_own_level_terms),
+        budget,
+    )?;
+    let Some(first) = choices.first() else {
+        return Ok(HeegnerOutcome::NotApplicable(format!(
+            "level {n}: no discriminant |D| <= {max_d} meets the Heegner hypothesis with at most {} series terms at {start_bits} bits",
+            options.max_own_level_terms
+        )));
+    };
+    let (_, total0) = own_level::planned_terms(&first.reps, first.d, start_bits);
+    if total0 > options.max_own_level_terms {
+        return Ok(HeegnerOutcome::NotApplicable(format!(
+            "level {n}: D = {}, h(D) = {} needs {total0} series terms at {start_bits} bits, above the limit {}",
+            first.d, first.h, options.max_own_level_terms
+        )));
+    }
+    let mut an: Vec<i64> = Vec::new();
+    let mut last = None;
+    let mut torsion = None;
+    for choice in &choices {
+        let mut bits = start_bits;
+        loop {
+            let (max_terms, total) = own_level::planned_terms(&choice.reps, choice.d, bits);
+            if total > options.max_own_level_terms {
+                break;
+            }
+            if an.len() < max_terms as usize + 8 {
+                an = crate::analytic::dirichlet_coefficients(&local, max_terms + 8, budget)?;
+            }
+            last = Some((choice.d, choice.h, bits));
+            match own_level::attempt(curve, &local, &an, &choice.reps, choice.d, bits, budget)? {
+                own_level::Attempt::Found(point, trace_point, (k, m), terms) => {
+                    return Ok(HeegnerOutcome::Found(HeegnerPoint {
+                        n: BigInt::zero(),
+                        discriminant: choice.d,
+                        conductor: 1,
+                        class_number: choice.h,
+                        level: n as u32,
+                        trace_point,
+                        point,
+                        index: m as u64,
+                        trace_factor: k as u32,
+                        precision_bits: bits,
+                        terms,
+                    }))
+                }
+                own_level::Attempt::Torsion => {
+                    torsion = Some((choice.d, choice.h));
+                    break;
+                }
+                own_level::Attempt::Nothing => {}
+            }
+            if bits >= options.max_bits {
+                break;
+            }
+            bits = bits.saturating_mul(2).min(options.max_bits);
+        }
+    }
+    Ok(match (last, torsion) {
+        (_, Some((discriminant, class_number))) if last.map(|l| l.0) == Some(discriminant) => {
+            HeegnerOutcome::Torsion {
+                discriminant,
+                class_number,
+            }
+        }
+        (Some((discriminant, class_number, bits)), _) => HeegnerOutcome::NotRecognised {
+            discriminant,
+            class_number,
+            bits,
+        },
+        (None, _) => HeegnerOutcome::NotApplicable(format!(
+            "level {n}: every attempt was above the term limit"
+        )),
     })
 }
 
@@ -455,6 +603,7 @@ fn point_on_twist(
                 trace_point: q,
                 point,
                 index,
+                trace_factor: 1,
                 precision_bits: bits,
                 terms,
             }));

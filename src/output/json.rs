@@ -240,6 +240,7 @@ struct HeegnerView {
     class_number: Option<usize>,
     level: Option<u32>,
     index: Option<u64>,
+    trace_factor: Option<u32>,
     trace_point: Option<PointView>,
     precision_bits: Option<u32>,
     terms: Option<u64>,
@@ -256,6 +257,7 @@ fn heegner_view(o: &crate::heegner::HeegnerOutcome) -> HeegnerView {
         class_number: None,
         level: None,
         index: None,
+        trace_factor: None,
         trace_point: None,
         precision_bits: None,
         terms: None,
@@ -270,12 +272,15 @@ fn heegner_view(o: &crate::heegner::HeegnerOutcome) -> HeegnerView {
             v.class_number = Some(h.class_number);
             v.level = Some(h.level);
             v.index = Some(h.index);
+            v.trace_factor = Some(h.trace_factor);
             v.trace_point = point_view(&h.trace_point);
             v.precision_bits = Some(h.precision_bits);
             v.terms = Some(h.terms);
-            v.exact_check = Some(
-                "trace point on the curve in exact rationals; trace = ±index·point + torsion by exact multiplication",
-            );
+            v.exact_check = Some(if num_traits::Zero::is_zero(&h.n) {
+                "point and trace point on the curve in exact rationals; trace point = index·point by exact multiplication; trace_factor·trace = ±trace point + torsion only to the working precision"
+            } else {
+                "trace point on the curve in exact rationals; trace = ±index·point + torsion by exact multiplication"
+            });
         }
         H::Torsion {
             discriminant,

@@ -686,6 +686,18 @@ fn write_analytic(f: &mut fmt::Formatter<'_>, r: &DescentReport, a: &AnalyticDat
 fn heegner_text(f: &mut fmt::Formatter<'_>, r: &DescentReport) -> fmt::Result {
     use crate::heegner::HeegnerOutcome as H;
     match r.heegner() {
+        Some(H::Found(h)) if num_traits::Zero::is_zero(&h.n) => writeln!(
+            f,
+            "point from a Heegner point at the curve's own level {}: D = {}, h(D) = {}; trace point {} = {}·point (checked exactly), {}·trace = ±trace point + torsion to the working precision ({} bits, {} series terms)",
+            h.level,
+            h.discriminant,
+            h.class_number,
+            point_text(&h.trace_point),
+            h.index,
+            h.trace_factor,
+            h.precision_bits,
+            h.terms
+        ),
         Some(H::Found(h)) => writeln!(
             f,
             "point from a Heegner point: D = {} (order of conductor {}), h(D) = {}, level {}; trace point {} = ±{}·point + torsion (checked exactly; {} bits, {} series terms)",
