@@ -167,7 +167,7 @@ options (before or after the curve):
 
 Exit status: 0 on success (a --json batch with error lines included), 1 when
 the curve given as an argument fails or on an I/O error, 2 on a usage error.
-JSON lines follow docs/report.schema.json (format 3, docs/report_format.md).";
+JSON lines follow docs/report.schema.json (format 4, docs/report_format.md).";
 
 /// Runs `mode`; `Ok(false)` when the one curve given failed.
 fn run(mode: Mode, options: &DescentOptions, detail: Detail) -> io::Result<bool> {

@@ -131,6 +131,12 @@ const LINES: &[&str] = &[
     // No rational point of order 2: the descent via 3-isogeny.
     "y^2 = x^3 + 17",
     "0 0 0 0 -2",
+    // No rational point of order 2, a rational 3-isogeny with α ≠ 0: the
+    // point (0, 1) of y² = x³ + (x + 1)² has order 3 (common practice).
+    "y^2 = x^3 + x^2 + 2x + 1",
+    // The same with D = 1, α = 1, β = 5 (y² = x³ + (x + 5)²), where the
+    // search finds a point of infinite order.
+    "y^2 = x^3 + x^2 + 10x + 25",
 ];
 
 #[test]

@@ -16,6 +16,7 @@ use super::json::{error_line, report_line};
 use super::Detail;
 use crate::curve::Curve;
 use crate::descent::{descend, DescentOptions};
+use num_traits::Zero;
 
 /// What one raw input line is.
 #[derive(Clone, Debug, PartialEq, Eq)]
@@ -123,9 +124,17 @@ pub(crate) fn line_for_curve(
     match descend(curve, options) {
         Ok(r) => report_line(input, &r, detail),
         Err(crate::Error::NoTwoTorsion) => {
-            match crate::descent3::descend_3isogeny(curve, &isogeny3_options(options)) {
-                Ok(r) => super::json::isogeny3_line(input, &r, detail),
-                Err(e) => error_line(input, &format!("no rational point of order 2, and {e}")),
+            let three = isogeny3_options(options);
+            if curve.c4().is_zero() {
+                match crate::descent3::descend_3isogeny(curve, &three) {
+                    Ok(r) => super::json::isogeny3_line(input, &r, detail),
+                    Err(e) => error_line(input, &format!("no rational point of order 2, and {e}")),
+                }
+            } else {
+                match crate::descent3::descend_3isogeny_general(curve, &three) {
+                    Ok(r) => super::json::isogeny3_general_line(input, &r, detail),
+                    Err(e) => error_line(input, &format!("no rational point of order 2, and {e}")),
+                }
             }
         }
         Err(e) => error_line(input, &e.to_string()),

@@ -341,6 +341,10 @@ struct LineView<'a> {
     reduction: BTreeMap<String, ReductionView>,
     selmer: Vec<IsogenyView>,
     isogeny3: Option<Isogeny3View>,
+    /// Only on lines of the descent via a 3-isogeny with α ≠ 0 (absent,
+    /// not null, on every other line).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    isogeny3_general: Option<Isogeny3GeneralView>,
     error: Option<&'a str>,
 }
 
@@ -558,6 +562,177 @@ pub(crate) fn isogeny3_line(
         reduction: BTreeMap::new(),
         selmer: Vec::new(),
         isogeny3: Some(isogeny3_view(r, detail)),
+        isogeny3_general: None,
+        error: None,
+    })
+}
+
+/// The working model y² = x³ + D(αx + β)² of one side of a 3-isogeny, with
+/// the change of model that reaches it.
+#[derive(Serialize)]
+struct FlexModelView {
+    d: String,
+    alpha: String,
+    beta: String,
+    change: ChangeView,
+}
+
+#[derive(Serialize)]
+struct PlaneWitnessView {
+    class: Vec<u8>,
+    prime: String,
+    u: String,
+    v: String,
+    w: String,
+}
+
+#[derive(Serialize)]
+struct FlexSideView {
+    d: String,
+    alpha: String,
+    beta: String,
+    field: String,
+    generators: Vec<String>,
+    selmer_dim: usize,
+    selmer_basis: Vec<Vec<u8>>,
+    image_dim: usize,
+    witnesses: Vec<PlaneWitnessView>,
+    points: Vec<PointView>,
+}
+
+/// The part of a line of the descent via a 3-isogeny with α ≠ 0.
+#[derive(Serialize)]
+struct Isogeny3GeneralView {
+    model: FlexModelView,
+    isogenous_model: FlexModelView,
+    primes: Vec<String>,
+    sides: Vec<FlexSideView>,
+    cassels: Option<CasselsView>,
+    theorem: Option<&'static str>,
+}
+
+fn change_view(c: &crate::curve::ModelChange) -> ChangeView {
+    ChangeView {
+        u: rational_text(c.u()),
+        r: rational_text(c.r()),
+        s: rational_text(c.s()),
+        t: rational_text(c.t()),
+    }
+}
+
+fn flex_model_view(m: &crate::curve::Isogeny3Model) -> FlexModelView {
+    FlexModelView {
+        d: m.d.to_string(),
+        alpha: m.alpha.to_string(),
+        beta: m.beta.to_string(),
+        change: change_view(&m.change),
+    }
+}
+
+fn isogeny3_general_view(
+    r: &crate::descent3::Isogeny3GeneralReport,
+    detail: Detail,
+) -> Isogeny3GeneralView {
+    let sides = r
+        .sides
+        .iter()
+        .map(|s| FlexSideView {
+            d: s.d.to_string(),
+            alpha: s.alpha.to_string(),
+            beta: s.beta.to_string(),
+            field: field_word(&s.field),
+            generators: s.generators.iter().map(|g| g.to_string()).collect(),
+            selmer_dim: s.selmer_dim(),
+            selmer_basis: s.selmer_basis.clone(),
+            image_dim: s.image_dim,
+            witnesses: if detail == Detail::Full {
+                s.witnesses
+                    .iter()
+                    .map(|(c, p, w)| {
+                        let [u, v, w] = &w.point;
+                        PlaneWitnessView {
+                            class: c.clone(),
+                            prime: p.to_string(),
+                            u: u.to_string(),
+                            v: v.to_string(),
+                            w: w.to_string(),
+                        }
+                    })
+                    .collect()
+            } else {
+                Vec::new()
+            },
+            points: points_view(&s.points),
+        })
+        .collect();
+    Isogeny3GeneralView {
+        model: flex_model_view(&r.model),
+        isogenous_model: flex_model_view(&r.isogenous_model),
+        primes: r.primes.iter().map(|p| p.to_string()).collect(),
+        sides,
+        cassels: r.tamagawa.as_ref().map(|t| CasselsView {
+            selmer_ratio: rational_text(&t.selmer_ratio),
+            tamagawa_side: rational_text(&t.formula),
+            equal: t.holds(),
+        }),
+        theorem: match &r.rank {
+            Some((_, crate::descent3::Rank3Proof::Analytic(t))) => Some(t.name()),
+            _ => None,
+        },
+    }
+}
+
+/// The one-line JSON object of a report of the descent via a 3-isogeny
+/// with α ≠ 0: the bounds, the points found (no heights or saturation on
+/// this path yet) and the evidence under `isogeny3_general`.
+pub(crate) fn isogeny3_general_line(
+    input: &str,
+    r: &crate::descent3::Isogeny3GeneralReport,
+    detail: Detail,
+) -> String {
+    let (status, stopped) = if r.cut.is_empty() {
+        ("complete", None)
+    } else {
+        (
+            "partial",
+            Some(StopView {
+                step: r.cut.join(", "),
+                reason: "a budget or the clock".to_string(),
+            }),
+        )
+    };
+    to_line(&LineView {
+        format_version: FORMAT_VERSION,
+        input: echoed_input(input),
+        curve: Some(r.curve.to_string()),
+        status,
+        stopped,
+        rank_lower: Some(r.rank_lower),
+        rank_upper: Some(r.rank_upper),
+        points: height_points_view(&r.points, &[]),
+        points_from: (!r.points.is_empty()).then_some("search"),
+        heegner: None,
+        torsion: None,
+        selmer2_rank: None,
+        rank_settled_by: r.rank.map(|(_, p)| match p {
+            crate::descent3::Rank3Proof::Descent => "descent",
+            _ => "analytic",
+        }),
+        regulator: None,
+        regulator_error: None,
+        points_generate: false,
+        saturation: None,
+        root_number: None,
+        analytic_order: None,
+        analytic: None,
+        ledger: None,
+        conflict: None,
+        conductor: None,
+        minimal_model: None,
+        reduction: BTreeMap::new(),
+        selmer: Vec::new(),
+        isogeny3: None,
+        isogeny3_general: Some(isogeny3_general_view(r, detail)),
         error: None,
     })
 }
@@ -815,6 +990,7 @@ fn report_view<'a>(input: &'a str, r: &DescentReport, detail: Detail) -> LineVie
             })
             .collect(),
         isogeny3: None,
+        isogeny3_general: None,
         error: None,
     }
 }
@@ -933,6 +1109,7 @@ pub fn error_line(input: &str, message: &str) -> String {
         reduction: BTreeMap::new(),
         selmer: Vec::new(),
         isogeny3: None,
+        isogeny3_general: None,
         error: Some(message),
     })
 }
