@@ -205,3 +205,34 @@ fn curves_without_a_three_isogeny() {
         Err(Error::NoSupportedIsogeny { .. })
     ));
 }
+
+// Generators on the α ≠ 0 path. y² = x³ + (x + 5)² has a point of
+// infinite order with integral x in the search range and the descent
+// proves rank 1; the found point is saturated into a proven generator,
+// the torsion subgroup contains the kernel point (0, 5) of order 3
+// (common practice), and the regulator does not depend on the model: the
+// canonical height is invariant under a change of model (Silverman, "The
+// Arithmetic of Elliptic Curves", 2nd ed., VIII.9, from memory).
+#[test]
+fn saturated_generators_and_a_model_free_regulator() {
+    let e = flex(1, 1, 5).unwrap();
+    let base = run(&e, &quick());
+    assert_eq!(base.rank.map(|(r, _)| r), Some(1), "{e}");
+    assert_eq!(base.independent_points.len(), 1);
+    assert!(base.points_generate(), "saturation: {:?}", base.saturation);
+    assert_eq!(base.torsion.order() % 3, 0);
+    let reg = base.saturation.as_ref().unwrap().regulator;
+    let ch = ModelChange::new(q(2), q(3), q(-1), q(5)).unwrap();
+    let moved = ch.apply_to_curve(&e);
+    let r = run(&moved, &quick());
+    assert!(r.points_generate(), "{moved}");
+    let reg2 = r.saturation.as_ref().unwrap().regulator;
+    let gap = (reg.value() - reg2.value()).abs();
+    assert!(
+        gap <= reg.error() + reg2.error() + 1e-12,
+        "regulators {} and {} on {e} and {moved}",
+        reg.value(),
+        reg2.value()
+    );
+    assert!(reg.value() > 0.1, "{}", reg.value());
+}

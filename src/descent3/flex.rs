@@ -41,8 +41,9 @@ use crate::arith::factor;
 use crate::budget::Budget;
 use crate::cubic::quadratic::FieldLimits;
 use crate::cubic::{PlaneCubic, PlaneCubicWitness};
-use crate::curve::{global_local_data, Curve, Isogeny3, Isogeny3Model, Point};
+use crate::curve::{global_local_data, Curve, Isogeny3, Isogeny3Model, Point, TorsionGroup};
 use crate::error::{Error, Result};
+use crate::height::Saturation;
 use crate::local::Prime;
 
 /// One side y² = x³ + D(αx + β)² with its group.
@@ -444,7 +445,7 @@ impl GeneralSide3 {
 }
 
 /// The outcome of [`descend_3isogeny_general`].
-#[derive(Debug, Clone, PartialEq, Eq)]
+#[derive(Debug, Clone, PartialEq)]
 #[non_exhaustive]
 pub struct Isogeny3GeneralReport {
     /// The curve as given.
@@ -471,9 +472,34 @@ pub struct Isogeny3GeneralReport {
     pub points: Vec<Point>,
     /// Cassels' check, when asked for.
     pub tamagawa: Option<TamagawaRatio>,
-    /// Optional steps cut short by a budget or the clock (the report is
-    /// then partial; the bounds stay proven).
+    /// Optional steps cut short by a budget or the clock, or a height step
+    /// the height layer could not certify (named with its reason); the
+    /// report is then partial and the bounds stay proven.
     pub cut: Vec<String>,
+    /// The torsion subgroup of the given curve.
+    pub torsion: TorsionGroup,
+    /// Independent points among `points`, with their canonical heights
+    /// (independence certified by the height pairing).
+    pub independent_points: Vec<(Point, crate::arith::Certified)>,
+    /// The saturation of `independent_points`, when the rank is proven,
+    /// positive and equal to their number.
+    pub saturation: Option<Saturation>,
+}
+
+impl Isogeny3GeneralReport {
+    /// True when the report's generators are proven to generate E(Q)
+    /// modulo torsion: the rank is proven 0, or it is proven r > 0 and the
+    /// saturation of r independent points proved them saturated.
+    pub fn points_generate(&self) -> bool {
+        match self.rank {
+            Some((0, _)) => true,
+            Some((r, _)) => self
+                .saturation
+                .as_ref()
+                .is_some_and(|s| s.proven_saturated && s.generators.len() == r),
+            None => false,
+        }
+    }
 }
 
 /// The exported form of one side.
@@ -607,6 +633,29 @@ pub fn descend_3isogeny_general(
             Err(err) => return Err(err),
         }
     }
+    // Independent points with heights and, when the rank is proven and as
+    // many are known, their saturation (module `generators`; 3-saturation
+    // is left to the height layer's sieve on this path).
+    let mut gb = budget_for(opts.factor_units, start, opts.time_limit);
+    let torsion = crate::curve::torsion(e);
+    let (found, stop) = super::generators::generators(
+        e,
+        &points,
+        rank.map(|(r, _)| r),
+        opts.saturation.as_ref(),
+        false,
+        &mut gb,
+    );
+    match stop {
+        None => {}
+        Some(Error::BudgetExhausted { .. }) | Some(Error::FactorBudgetExhausted { .. }) => {
+            cut.push("generators (heights, saturation)".to_string())
+        }
+        // A height step the height layer cannot certify on this model
+        // (e.g. Tate's series on E(R)) leaves the bounds proven: the step
+        // is reported as not done, with its reason.
+        Some(err) => cut.push(format!("generators (heights, saturation): {err}")),
+    }
     Ok(Isogeny3GeneralReport {
         curve: e.clone(),
         model: iso.model().clone(),
@@ -619,6 +668,9 @@ pub fn descend_3isogeny_general(
         points,
         tamagawa,
         cut,
+        torsion,
+        independent_points: found.independent,
+        saturation: found.saturation,
     })
 }
 

@@ -697,10 +697,19 @@ pub(crate) fn isogeny3_general_line(
             "partial",
             Some(StopView {
                 step: r.cut.join(", "),
-                reason: "a budget or the clock".to_string(),
+                reason: "a budget, the clock, or a height step that could not be certified"
+                    .to_string(),
             }),
         )
     };
+    // As on the lines of y² = x³ + k: the saturated generators when
+    // saturation ran, else the independent points found, with heights.
+    let (points, heights): (Vec<Point>, Vec<crate::height::Certified>) = match &r.saturation {
+        Some(s) => (s.generators.clone(), s.heights.clone()),
+        None => r.independent_points.iter().cloned().unzip(),
+    };
+    let t = &r.torsion;
+    let (n1, n2) = t.structure();
     to_line(&LineView {
         format_version: FORMAT_VERSION,
         input: echoed_input(input),
@@ -709,19 +718,37 @@ pub(crate) fn isogeny3_general_line(
         stopped,
         rank_lower: Some(r.rank_lower),
         rank_upper: Some(r.rank_upper),
-        points: height_points_view(&r.points, &[]),
-        points_from: (!r.points.is_empty()).then_some("search"),
+        points: height_points_view(&points, &heights),
+        points_from: (!points.is_empty()).then_some("search"),
         heegner: None,
-        torsion: None,
+        torsion: Some(TorsionView {
+            order: t.order(),
+            cyclic_factors: if n2 <= 1 { vec![n1] } else { vec![n2, n1] },
+            generators: points_view(t.generators()),
+        }),
         selmer2_rank: None,
         rank_settled_by: r.rank.map(|(_, p)| match p {
             crate::descent3::Rank3Proof::Descent => "descent",
             _ => "analytic",
         }),
-        regulator: None,
-        regulator_error: None,
-        points_generate: false,
-        saturation: None,
+        regulator: r
+            .saturation
+            .as_ref()
+            .map(|s| value_and_error(s.regulator.value(), s.regulator.error()).0),
+        regulator_error: r
+            .saturation
+            .as_ref()
+            .map(|s| value_and_error(s.regulator.value(), s.regulator.error()).1),
+        points_generate: r.points_generate(),
+        saturation: r.saturation.as_ref().map(|s| SaturationView {
+            index_bound: s.index_bound,
+            index_found: s.index_found,
+            primes_checked: s.primes_checked.clone(),
+            unresolved: s.unresolved.clone(),
+            height_lower_bound: s
+                .height_lower_bound
+                .map(|h| crate::arith::decimal::decimal_floor(h, 6)),
+        }),
         root_number: None,
         analytic_order: None,
         analytic: None,
