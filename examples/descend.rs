@@ -31,7 +31,7 @@ use std::process::ExitCode;
 
 use isodescent::curve::Curve;
 use isodescent::descent::{descend, DescentOptions};
-use isodescent::descent3::{descend_3isogeny, Isogeny3Options};
+use isodescent::descent3::{descend_3isogeny, descend_3isogeny_general, Isogeny3Options};
 use isodescent::output::{error_line, json_for_bytes, Detail, MAX_ECHOED_INPUT_BYTES};
 
 /// Demo scenario: a handful of curves a researcher might be checking while
@@ -135,7 +135,12 @@ fn report_one(
                 let mut o = Isogeny3Options::default();
                 o.analytic = options.analytic.clone();
                 o.time_limit = options.time_limit;
-                match descend_3isogeny(&curve, &o) {
+                let done = if num_traits::Zero::is_zero(curve.j_invariant()) {
+                    descend_3isogeny(&curve, &o).map(|r| r.to_string())
+                } else {
+                    descend_3isogeny_general(&curve, &o).map(|r| r.to_string())
+                };
+                match done {
                     Ok(r) => write!(out, "{r}").map(|()| true),
                     Err(e) => writeln!(out, "{text}: no rational point of order 2, and {e}")
                         .map(|()| false),
@@ -147,7 +152,7 @@ fn report_one(
 }
 
 const HELP: &str =
-    "descend: descent via 2-isogeny (or 3-isogeny on y^2 = x^3 + k) on elliptic curves over Q
+    "descend: descent via 2-isogeny (or 3-isogeny on curves without a rational point of order 2) on elliptic curves over Q
 
   descend                          descent on the built-in demo curves, readable reports
   descend \"y^2 = x^3 - 30x^2 + 3x\" readable report for one curve

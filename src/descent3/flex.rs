@@ -737,16 +737,45 @@ impl Isogeny3GeneralReport {
     }
 }
 
+/// y² = x³ + D(αx + β)² as text, without unit coefficients or "+ −".
+fn flex_equation(d: &BigInt, alpha: &BigInt, beta: &BigInt) -> String {
+    let sign = if d.is_negative() { "-" } else { "+" };
+    let dd = d.abs();
+    let dtext = if dd.is_one() {
+        String::new()
+    } else {
+        dd.to_string()
+    };
+    let lin = match (alpha.is_zero(), beta.is_zero()) {
+        (true, _) => beta.to_string(),
+        (false, b) => {
+            let a = if alpha.is_one() {
+                "x".to_string()
+            } else if (-alpha).is_one() {
+                "-x".to_string()
+            } else {
+                format!("{alpha}x")
+            };
+            if b {
+                a
+            } else if beta.is_negative() {
+                format!("{a} - {}", beta.abs())
+            } else {
+                format!("{a} + {beta}")
+            }
+        }
+    };
+    format!("y^2 = x^3 {sign} {dtext}({lin})^2")
+}
+
 impl std::fmt::Display for Isogeny3GeneralReport {
     fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
         writeln!(f, "Descent via 3-isogeny for {}", self.curve)?;
         let m = &self.model;
         writeln!(
             f,
-            "  working model: y^2 = x^3 + {}({}x + {})^2   (u, r, s, t) = ({}, {}, {}, {})",
-            m.d,
-            m.alpha,
-            m.beta,
+            "  working model: {}   (u, r, s, t) = ({}, {}, {}, {})",
+            flex_equation(&m.d, &m.alpha, &m.beta),
             m.change.u(),
             m.change.r(),
             m.change.s(),
@@ -756,8 +785,8 @@ impl std::fmt::Display for Isogeny3GeneralReport {
         for (s, name) in self.sides.iter().zip(names) {
             writeln!(
                 f,
-                "  curve y^2 = x^3 + {}({}x + {})^2  [{name}]",
-                s.d, s.alpha, s.beta
+                "  curve {}  [{name}]",
+                flex_equation(&s.d, &s.alpha, &s.beta)
             )?;
             writeln!(f, "    field of y − √D(αx + β): {}", s.field)?;
             writeln!(
@@ -794,10 +823,40 @@ impl std::fmt::Display for Isogeny3GeneralReport {
         for p in &self.points {
             writeln!(f, "  point on the given curve: {p}")?;
         }
+        let pm = |c: &crate::arith::Certified| {
+            let (v, e) = crate::arith::decimal::enclose(c.value(), c.error());
+            format!("{v} ± {e}")
+        };
+        writeln!(f, "  torsion: order {}", self.torsion.order())?;
+        match &self.saturation {
+            Some(s) => {
+                writeln!(
+                    f,
+                    "  generators ({}): {}",
+                    if self.points_generate() {
+                        "proven by saturation"
+                    } else {
+                        "independent; saturation not proven"
+                    },
+                    s.generators
+                        .iter()
+                        .zip(&s.heights)
+                        .map(|(p, h)| format!("{p} with ĥ = {}", pm(h)))
+                        .collect::<Vec<_>>()
+                        .join(", ")
+                )?;
+                writeln!(f, "  regulator: {}", pm(&s.regulator))?;
+            }
+            None => {
+                for (p, h) in &self.independent_points {
+                    writeln!(f, "  independent point: {p} with ĥ = {}", pm(h))?;
+                }
+            }
+        }
         if !self.cut.is_empty() {
             writeln!(
                 f,
-                "  partial: cut short by a budget or the clock: {}",
+                "  partial: cut short (a budget, the clock, or a height step not certified): {}",
                 self.cut.join(", ")
             )?;
         }
