@@ -397,8 +397,13 @@ fn descent_names_the_uncovered_case() {
         }
         other => panic!("{other:?}"),
     }
+    // The JSON line runs the general descent too, with the same model.
     let line = isodescent::output::json_for_line("0 2 0 4 2", &DescentOptions::default());
-    assert!(line.contains("α ≠ 0"), "{line}");
+    assert!(
+        line.contains(r#""isogeny3_general":{"model":{"d":"2","alpha":"1","beta":"1""#),
+        "{line}"
+    );
+    assert!(line.contains(r#""error":null"#), "{line}");
     // A budget of one unit: still the typed error, never a panic.
     let mut tiny = quick3();
     tiny.factor_units = 1;
