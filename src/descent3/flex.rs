@@ -823,36 +823,18 @@ impl std::fmt::Display for Isogeny3GeneralReport {
         for p in &self.points {
             writeln!(f, "  point on the given curve: {p}")?;
         }
-        let pm = |c: &crate::arith::Certified| {
-            let (v, e) = crate::arith::decimal::enclose(c.value(), c.error());
-            format!("{v} ± {e}")
+        let label = if self.points_generate() {
+            "proven by saturation"
+        } else {
+            "independent; saturation not proven"
         };
-        writeln!(f, "  torsion: order {}", self.torsion.order())?;
-        match &self.saturation {
-            Some(s) => {
-                writeln!(
-                    f,
-                    "  generators ({}): {}",
-                    if self.points_generate() {
-                        "proven by saturation"
-                    } else {
-                        "independent; saturation not proven"
-                    },
-                    s.generators
-                        .iter()
-                        .zip(&s.heights)
-                        .map(|(p, h)| format!("{p} with ĥ = {}", pm(h)))
-                        .collect::<Vec<_>>()
-                        .join(", ")
-                )?;
-                writeln!(f, "  regulator: {}", pm(&s.regulator))?;
-            }
-            None => {
-                for (p, h) in &self.independent_points {
-                    writeln!(f, "  independent point: {p} with ĥ = {}", pm(h))?;
-                }
-            }
-        }
+        super::write_generators(
+            f,
+            &self.torsion,
+            self.saturation.as_ref(),
+            &self.independent_points,
+            label,
+        )?;
         if !self.cut.is_empty() {
             writeln!(
                 f,

@@ -854,38 +854,20 @@ impl std::fmt::Display for Isogeny3Report {
         for p in &self.points {
             writeln!(f, "  point on the given curve: {p}")?;
         }
-        let pm = |c: &Certified| {
-            let (v, e) = crate::arith::decimal::enclose(c.value(), c.error());
-            format!("{v} ± {e}")
+        let label = if self.points_generate() && self.three_saturated_by_descent {
+            "proven by saturation, p = 3 by the descent"
+        } else if self.points_generate() {
+            "proven by saturation"
+        } else {
+            "independent; saturation not proven"
         };
-        writeln!(f, "  torsion: order {}", self.torsion.order())?;
-        match &self.saturation {
-            Some(s) => {
-                writeln!(
-                    f,
-                    "  generators ({}): {}",
-                    if self.points_generate() && self.three_saturated_by_descent {
-                        "proven by saturation, p = 3 by the descent"
-                    } else if self.points_generate() {
-                        "proven by saturation"
-                    } else {
-                        "independent; saturation not proven"
-                    },
-                    s.generators
-                        .iter()
-                        .zip(&s.heights)
-                        .map(|(p, h)| format!("{p} with ĥ = {}", pm(h)))
-                        .collect::<Vec<_>>()
-                        .join(", ")
-                )?;
-                writeln!(f, "  regulator: {}", pm(&s.regulator))?;
-            }
-            None => {
-                for (p, h) in &self.independent_points {
-                    writeln!(f, "  independent point: {p} with ĥ = {}", pm(h))?;
-                }
-            }
-        }
+        write_generators(
+            f,
+            &self.torsion,
+            self.saturation.as_ref(),
+            &self.independent_points,
+            label,
+        )?;
         if !self.cut.is_empty() {
             writeln!(
                 f,
@@ -894,6 +876,43 @@ impl std::fmt::Display for Isogeny3Report {
             )?;
         }
         Ok(())
+    }
+}
+
+/// The torsion, generators (or independent points) with heights and the
+/// regulator, as the text reports of both 3-isogeny descents write them.
+pub(crate) fn write_generators(
+    f: &mut std::fmt::Formatter<'_>,
+    torsion: &crate::curve::TorsionGroup,
+    saturation: Option<&crate::height::Saturation>,
+    independent: &[(Point, Certified)],
+    label: &str,
+) -> std::fmt::Result {
+    let pm = |c: &Certified| {
+        let (v, e) = crate::arith::decimal::enclose(c.value(), c.error());
+        format!("{v} ± {e}")
+    };
+    writeln!(f, "  torsion: order {}", torsion.order())?;
+    match saturation {
+        Some(s) => {
+            writeln!(
+                f,
+                "  generators ({label}): {}",
+                s.generators
+                    .iter()
+                    .zip(&s.heights)
+                    .map(|(p, h)| format!("{p} with ĥ = {}", pm(h)))
+                    .collect::<Vec<_>>()
+                    .join(", ")
+            )?;
+            writeln!(f, "  regulator: {}", pm(&s.regulator))
+        }
+        None => {
+            for (p, h) in independent {
+                writeln!(f, "  independent point: {p} with ĥ = {}", pm(h))?;
+            }
+            Ok(())
+        }
     }
 }
 

@@ -488,62 +488,68 @@ fn isogeny3_view(r: &crate::descent3::Isogeny3Report, detail: Detail) -> Isogeny
     }
 }
 
-/// The one-line JSON object of a report of the descent via 3-isogeny.
-pub(crate) fn isogeny3_line(
-    input: &str,
-    r: &crate::descent3::Isogeny3Report,
-    detail: Detail,
-) -> String {
-    let (status, stopped) = if r.cut.is_empty() {
+/// What the lines of both 3-isogeny descents share.
+struct Line3<'r> {
+    curve: &'r crate::curve::Curve,
+    cut: &'r [String],
+    stop_reason: &'static str,
+    bounds: (usize, usize),
+    rank: Option<(usize, crate::descent3::Rank3Proof)>,
+    torsion: &'r crate::curve::TorsionGroup,
+    independent: &'r [(Point, crate::height::Certified)],
+    saturation: Option<&'r crate::height::Saturation>,
+    points_generate: bool,
+}
+
+/// The top-level fields of a 3-isogeny line: status, bounds, torsion, the
+/// saturated generators when saturation ran (else the independent points
+/// found), each with its canonical height, and the saturation; the caller
+/// fills `isogeny3` or `isogeny3_general`.
+fn line3<'a>(input: &'a str, l: &Line3<'_>) -> LineView<'a> {
+    let (status, stopped) = if l.cut.is_empty() {
         ("complete", None)
     } else {
         (
             "partial",
             Some(StopView {
-                step: r.cut.join(", "),
-                reason: "a budget or the clock".to_string(),
+                step: l.cut.join(", "),
+                reason: l.stop_reason.to_string(),
             }),
         )
     };
-    // The saturated generators when saturation ran, else the independent
-    // points found, each with its canonical height.
-    let (points, heights): (Vec<Point>, Vec<crate::height::Certified>) = match &r.saturation {
+    let (points, heights): (Vec<Point>, Vec<crate::height::Certified>) = match l.saturation {
         Some(s) => (s.generators.clone(), s.heights.clone()),
-        None => r.independent_points.iter().cloned().unzip(),
+        None => l.independent.iter().cloned().unzip(),
     };
-    let t = &r.torsion;
-    let (n1, n2) = t.structure();
-    to_line(&LineView {
+    let (n1, n2) = l.torsion.structure();
+    let reg = l
+        .saturation
+        .map(|s| value_and_error(s.regulator.value(), s.regulator.error()));
+    LineView {
         format_version: FORMAT_VERSION,
         input: echoed_input(input),
-        curve: Some(r.curve.to_string()),
+        curve: Some(l.curve.to_string()),
         status,
         stopped,
-        rank_lower: Some(r.rank_lower),
-        rank_upper: Some(r.rank_upper),
+        rank_lower: Some(l.bounds.0),
+        rank_upper: Some(l.bounds.1),
         points: height_points_view(&points, &heights),
         points_from: (!points.is_empty()).then_some("search"),
         heegner: None,
         torsion: Some(TorsionView {
-            order: t.order(),
+            order: l.torsion.order(),
             cyclic_factors: if n2 <= 1 { vec![n1] } else { vec![n2, n1] },
-            generators: points_view(t.generators()),
+            generators: points_view(l.torsion.generators()),
         }),
         selmer2_rank: None,
-        rank_settled_by: r.rank.map(|(_, p)| match p {
+        rank_settled_by: l.rank.map(|(_, p)| match p {
             crate::descent3::Rank3Proof::Descent => "descent",
             _ => "analytic",
         }),
-        regulator: r
-            .saturation
-            .as_ref()
-            .map(|s| value_and_error(s.regulator.value(), s.regulator.error()).0),
-        regulator_error: r
-            .saturation
-            .as_ref()
-            .map(|s| value_and_error(s.regulator.value(), s.regulator.error()).1),
-        points_generate: r.points_generate(),
-        saturation: r.saturation.as_ref().map(|s| SaturationView {
+        regulator: reg.clone().map(|r| r.0),
+        regulator_error: reg.map(|r| r.1),
+        points_generate: l.points_generate,
+        saturation: l.saturation.map(|s| SaturationView {
             index_bound: s.index_bound,
             index_found: s.index_found,
             primes_checked: s.primes_checked.clone(),
@@ -561,10 +567,60 @@ pub(crate) fn isogeny3_line(
         minimal_model: None,
         reduction: BTreeMap::new(),
         selmer: Vec::new(),
-        isogeny3: Some(isogeny3_view(r, detail)),
+        isogeny3: None,
         isogeny3_general: None,
         error: None,
-    })
+    }
+}
+
+/// The one-line JSON object of a report of the descent via 3-isogeny.
+pub(crate) fn isogeny3_line(
+    input: &str,
+    r: &crate::descent3::Isogeny3Report,
+    detail: Detail,
+) -> String {
+    let mut line = line3(
+        input,
+        &Line3 {
+            curve: &r.curve,
+            cut: &r.cut,
+            stop_reason: "a budget or the clock",
+            bounds: (r.rank_lower, r.rank_upper),
+            rank: r.rank,
+            torsion: &r.torsion,
+            independent: &r.independent_points,
+            saturation: r.saturation.as_ref(),
+            points_generate: r.points_generate(),
+        },
+    );
+    line.isogeny3 = Some(isogeny3_view(r, detail));
+    to_line(&line)
+}
+
+/// The one-line JSON object of a report of the descent via a 3-isogeny
+/// with α ≠ 0: the same top-level fields as [`isogeny3_line`] and the
+/// evidence under `isogeny3_general`.
+pub(crate) fn isogeny3_general_line(
+    input: &str,
+    r: &crate::descent3::Isogeny3GeneralReport,
+    detail: Detail,
+) -> String {
+    let mut line = line3(
+        input,
+        &Line3 {
+            curve: &r.curve,
+            cut: &r.cut,
+            stop_reason: "a budget, the clock, or a height step that could not be certified",
+            bounds: (r.rank_lower, r.rank_upper),
+            rank: r.rank,
+            torsion: &r.torsion,
+            independent: &r.independent_points,
+            saturation: r.saturation.as_ref(),
+            points_generate: r.points_generate(),
+        },
+    );
+    line.isogeny3_general = Some(isogeny3_general_view(r, detail));
+    to_line(&line)
 }
 
 /// The working model y² = x³ + D(αx + β)² of one side of a 3-isogeny, with
@@ -680,88 +736,6 @@ fn isogeny3_general_view(
             _ => None,
         },
     }
-}
-
-/// The one-line JSON object of a report of the descent via a 3-isogeny
-/// with α ≠ 0: the bounds, the points found (no heights or saturation on
-/// this path yet) and the evidence under `isogeny3_general`.
-pub(crate) fn isogeny3_general_line(
-    input: &str,
-    r: &crate::descent3::Isogeny3GeneralReport,
-    detail: Detail,
-) -> String {
-    let (status, stopped) = if r.cut.is_empty() {
-        ("complete", None)
-    } else {
-        (
-            "partial",
-            Some(StopView {
-                step: r.cut.join(", "),
-                reason: "a budget, the clock, or a height step that could not be certified"
-                    .to_string(),
-            }),
-        )
-    };
-    // As on the lines of y² = x³ + k: the saturated generators when
-    // saturation ran, else the independent points found, with heights.
-    let (points, heights): (Vec<Point>, Vec<crate::height::Certified>) = match &r.saturation {
-        Some(s) => (s.generators.clone(), s.heights.clone()),
-        None => r.independent_points.iter().cloned().unzip(),
-    };
-    let t = &r.torsion;
-    let (n1, n2) = t.structure();
-    to_line(&LineView {
-        format_version: FORMAT_VERSION,
-        input: echoed_input(input),
-        curve: Some(r.curve.to_string()),
-        status,
-        stopped,
-        rank_lower: Some(r.rank_lower),
-        rank_upper: Some(r.rank_upper),
-        points: height_points_view(&points, &heights),
-        points_from: (!points.is_empty()).then_some("search"),
-        heegner: None,
-        torsion: Some(TorsionView {
-            order: t.order(),
-            cyclic_factors: if n2 <= 1 { vec![n1] } else { vec![n2, n1] },
-            generators: points_view(t.generators()),
-        }),
-        selmer2_rank: None,
-        rank_settled_by: r.rank.map(|(_, p)| match p {
-            crate::descent3::Rank3Proof::Descent => "descent",
-            _ => "analytic",
-        }),
-        regulator: r
-            .saturation
-            .as_ref()
-            .map(|s| value_and_error(s.regulator.value(), s.regulator.error()).0),
-        regulator_error: r
-            .saturation
-            .as_ref()
-            .map(|s| value_and_error(s.regulator.value(), s.regulator.error()).1),
-        points_generate: r.points_generate(),
-        saturation: r.saturation.as_ref().map(|s| SaturationView {
-            index_bound: s.index_bound,
-            index_found: s.index_found,
-            primes_checked: s.primes_checked.clone(),
-            unresolved: s.unresolved.clone(),
-            height_lower_bound: s
-                .height_lower_bound
-                .map(|h| crate::arith::decimal::decimal_floor(h, 6)),
-        }),
-        root_number: None,
-        analytic_order: None,
-        analytic: None,
-        ledger: None,
-        conflict: None,
-        conductor: None,
-        minimal_model: None,
-        reduction: BTreeMap::new(),
-        selmer: Vec::new(),
-        isogeny3: None,
-        isogeny3_general: Some(isogeny3_general_view(r, detail)),
-        error: None,
-    })
 }
 
 fn kind_word(k: ReductionKind) -> &'static str {
