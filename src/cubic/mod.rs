@@ -1,4 +1,4 @@
-//! Layer 4b: the arithmetic behind descent via 3-isogeny on j = 0 curves.
+//! Layer 4b: the arithmetic behind descent via 3-isogeny.
 //!
 //! * `eisenstein`: the ring Z\[ω\] of integers of K = Q(√−3), ω = (−1 + √−3)/2
 //!   (class number 1, units ±ω^i), elements written (A + B√−3)/2 with

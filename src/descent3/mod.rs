@@ -1,4 +1,4 @@
-//! Layer 7b: descent via 3-isogeny on curves with j = 0, y² = x³ + k
+//! Layer 8b: descent via 3-isogeny on curves with j = 0, y² = x³ + k
 //! ([`descend_3isogeny`]), and on any curve with a rational 3-isogeny,
 //! y² = x³ + D(αx + β)² ([`descend_3isogeny_general`], module `flex`).
 //!
