@@ -64,6 +64,30 @@ impl Span {
     }
 }
 
+/// The cosets r, r + b, r + 2b of every r in `reps` (one F3-dimension
+/// more), while the list stays within 729 = 3⁶ entries: the local image at
+/// `p` has index at most 3⁶ in its group, so a longer list is an internal
+/// fault.
+pub(crate) fn with_multiples(
+    reps: &[Vec<u8>],
+    b: &[u8],
+    p: &num_bigint::BigInt,
+) -> crate::error::Result<Vec<Vec<u8>>> {
+    if reps.len() * 3 > 729 {
+        return Err(crate::error::Error::Internal {
+            check: format!("the local image at {p} has small index"),
+        });
+    }
+    let b2 = scale(b, 2);
+    let mut next = Vec::with_capacity(reps.len() * 3);
+    for r in reps {
+        next.push(r.clone());
+        next.push(add(r, b));
+        next.push(add(r, &b2));
+    }
+    Ok(next)
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;

@@ -32,7 +32,7 @@
 
 use num_bigint::BigInt;
 use num_rational::BigRational;
-use num_traits::{One, Signed, ToPrimitive, Zero};
+use num_traits::{One, Signed, Zero};
 
 use super::f3::{self, Span};
 use super::side::{SideField, SideSetup};
@@ -63,22 +63,7 @@ impl FlexSide {
         budget: &mut Budget,
     ) -> Result<FlexSide> {
         let (md, malpha, mbeta) = m;
-        let field = if md.is_one() {
-            SideField::Rational
-        } else if md == &BigInt::from(-3) {
-            SideField::Eisenstein
-        } else {
-            let d = md
-                .to_i64()
-                .filter(|d| d.unsigned_abs() <= limits.max_discriminant)
-                .ok_or_else(|| Error::BudgetExhausted {
-                    stage: format!(
-                        "the class group of Q(√{md}): above the discriminant limit {}",
-                        limits.max_discriminant
-                    ),
-                })?;
-            SideField::Quadratic { d }
-        };
+        let field = SideField::for_squarefree(md, limits.max_discriminant)?;
         let k = md * mbeta * mbeta;
         let setup = SideSetup::new(k, mbeta.clone(), field, primes.to_vec(), limits, budget)?;
         Ok(FlexSide {
@@ -191,18 +176,7 @@ fn intersect(
         match hit {
             Some(v) => kept.push(v),
             None => {
-                let mut next = Vec::with_capacity(reps.len() * 3);
-                for r in &reps {
-                    next.push(r.clone());
-                    next.push(f3::add(r, b));
-                    next.push(f3::add(r, &f3::scale(b, 2)));
-                }
-                reps = next;
-                if reps.len() > 729 {
-                    return Err(Error::Internal {
-                        check: format!("the local image at {} has small index", p.get()),
-                    });
-                }
+                reps = f3::with_multiples(&reps, b, p.get())?;
             }
         }
     }

@@ -66,7 +66,7 @@ use std::time::{Duration, Instant};
 
 use num_bigint::BigInt;
 use num_rational::BigRational;
-use num_traits::{One, Signed, ToPrimitive, Zero};
+use num_traits::{One, Signed, Zero};
 
 use crate::analytic::{analyse, AnalyticOptions, RankTheorem};
 use crate::arith::factor;
@@ -377,22 +377,7 @@ pub fn descend_3isogeny(e: &Curve, opts: &Isogeny3Options) -> Result<Isogeny3Rep
     // k = D·m² and −27k = D′·m′² with D, D′ square-free.
     let side_of = |kk: &BigInt, dsq: &BigInt| -> Result<(SideField, BigInt)> {
         let m = sqrt_int(&(kk / dsq))?;
-        let field = if dsq.is_one() {
-            SideField::Rational
-        } else if dsq == &BigInt::from(-3) {
-            SideField::Eisenstein
-        } else {
-            let d = dsq
-                .to_i64()
-                .filter(|d| d.unsigned_abs() <= opts.max_discriminant)
-                .ok_or_else(|| Error::BudgetExhausted {
-                    stage: format!(
-                        "the class group of Q(√{dsq}): above the discriminant limit {}",
-                        opts.max_discriminant
-                    ),
-                })?;
-            SideField::Quadratic { d }
-        };
+        let field = SideField::for_squarefree(dsq, opts.max_discriminant)?;
         Ok((field, m))
     };
     let square_class2 = if (&square_class % 3u32).is_zero() {

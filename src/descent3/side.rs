@@ -28,7 +28,7 @@
 use num_bigint::BigInt;
 use num_integer::Integer;
 use num_rational::BigRational;
-use num_traits::{One, Signed, Zero};
+use num_traits::{One, Signed, ToPrimitive, Zero};
 
 use super::f3::{self, Span};
 use crate::budget::Budget;
@@ -59,6 +59,30 @@ pub enum SideField {
         /// The square-free D.
         d: i64,
     },
+}
+
+impl SideField {
+    /// The field Q(√d) for square-free d: split (d = 1), Q(√−3), or a
+    /// quadratic field whose |d| is within `max_discriminant`.
+    ///
+    /// # Errors
+    /// [`Error::BudgetExhausted`] when |d| is above `max_discriminant`.
+    pub(crate) fn for_squarefree(d: &BigInt, max_discriminant: u64) -> Result<SideField> {
+        if d.is_one() {
+            return Ok(SideField::Rational);
+        }
+        if d == &BigInt::from(-3) {
+            return Ok(SideField::Eisenstein);
+        }
+        d.to_i64()
+            .filter(|x| x.unsigned_abs() <= max_discriminant)
+            .map(|d| SideField::Quadratic { d })
+            .ok_or_else(|| Error::BudgetExhausted {
+                stage: format!(
+                    "the class group of Q(√{d}): above the discriminant limit {max_discriminant}"
+                ),
+            })
+    }
 }
 
 /// Where a basis element of the group of a field Q(√D) comes from.
@@ -633,18 +657,7 @@ pub(crate) fn intersect_local(
                 kept.push(v);
             }
             None => {
-                let mut next = Vec::with_capacity(reps.len() * 3);
-                for r in &reps {
-                    next.push(r.clone());
-                    next.push(f3::add(r, b));
-                    next.push(f3::add(r, &f3::scale(b, 2)));
-                }
-                reps = next;
-                if reps.len() > 729 {
-                    return Err(Error::Internal {
-                        check: format!("the local image at {} has small index", p.get()),
-                    });
-                }
+                reps = f3::with_multiples(&reps, b, p.get())?;
             }
         }
     }
