@@ -123,8 +123,23 @@ pub(crate) fn heegner_forms(
     beta: i64,
     budget: &mut Budget,
 ) -> Result<(usize, Vec<Form>)> {
+    first_per_class(d, n, beta, budget, |f, _| vec![(reduce(f.0, f.1, f.2), f)])
+}
+
+/// Runs over the level-`n` primitive Heegner forms `[A, B, C]` of
+/// discriminant `d` with `B ≡ β (mod 2N)`, `A = N·a₁` upwards and `B` in
+/// `(−A, A]`; `keys(F, a₁)` names the classes `F` reaches with what stands
+/// for each, and the first of each class is kept, until all `h(d)` are
+/// reached. One budget unit per candidate `B`.
+fn first_per_class<T: Copy>(
+    d: i64,
+    n: i64,
+    beta: i64,
+    budget: &mut Budget,
+    keys: impl Fn(Form, i64) -> Vec<(Form, T)>,
+) -> Result<(usize, Vec<T>)> {
     let h = reduced_forms(d).len();
-    let mut seen: HashMap<Form, Form> = HashMap::with_capacity(h);
+    let mut seen: HashMap<Form, T> = HashMap::with_capacity(h);
     let mut order = Vec::with_capacity(h);
     let limit = -d + 1;
     let mut a1 = 1;
@@ -138,24 +153,20 @@ pub(crate) fn heegner_forms(
         }
         let a = n * a1;
         // B ≡ β (mod 2N) in (−A, A].
-        let first = beta - 2 * n * ((beta + a - 1).div_euclid(2 * n));
-        let mut b = first;
+        let mut b = beta - 2 * n * ((beta + a - 1).div_euclid(2 * n));
         while b <= a {
             budget.spend(1).map_err(|_| Error::BudgetExhausted {
                 stage: "Heegner forms".into(),
             })?;
-            if b > -a {
-                let num = i128::from(b) * i128::from(b) - i128::from(d);
-                if num % (4 * i128::from(a)) == 0 {
-                    let c = (num / (4 * i128::from(a))) as i64;
-                    if !level_primitive((a, b, c), n) {
-                        b += 2 * n;
-                        continue;
-                    }
-                    let key = reduce(a, b, c);
-                    if let std::collections::hash_map::Entry::Vacant(e) = seen.entry(key) {
-                        e.insert((a, b, c));
-                        order.push((a, b, c));
+            let num = i128::from(b) * i128::from(b) - i128::from(d);
+            if b > -a && num % (4 * i128::from(a)) == 0 {
+                let c = (num / (4 * i128::from(a))) as i64;
+                if level_primitive((a, b, c), n) {
+                    for (key, rep) in keys((a, b, c), a1) {
+                        if let std::collections::hash_map::Entry::Vacant(e) = seen.entry(key) {
+                            e.insert(rep);
+                            order.push(rep);
+                        }
                     }
                 }
             }
@@ -217,46 +228,12 @@ pub(crate) fn heegner_cover(
     beta: i64,
     budget: &mut Budget,
 ) -> Result<(usize, Vec<Rep>)> {
-    let h = reduced_forms(d).len();
-    let mut seen: HashMap<Form, Rep> = HashMap::with_capacity(h);
-    let mut order = Vec::with_capacity(h);
-    let limit = -d + 1;
-    let mut a1 = 1;
-    while seen.len() < h {
-        if a1 > limit {
-            return Err(Error::Internal {
-                check: format!(
-                    "no Heegner form of level {n} found for every class of discriminant {d}"
-                ),
-            });
-        }
-        let a = n * a1;
-        let first = beta - 2 * n * ((beta + a - 1).div_euclid(2 * n));
-        let mut b = first;
-        while b <= a {
-            budget.spend(1).map_err(|_| Error::BudgetExhausted {
-                stage: "Heegner forms".into(),
-            })?;
-            let num = i128::from(b) * i128::from(b) - i128::from(d);
-            if b > -a && num % (4 * i128::from(a)) == 0 {
-                let c = (num / (4 * i128::from(a))) as i64;
-                if level_primitive((a, b, c), n) {
-                    for (key, rep) in [
-                        (reduce(a, b, c), Rep::Direct((a, b, c))),
-                        (reduce(n * c, b, a1), Rep::Flipped((a, -b, c))),
-                    ] {
-                        if let std::collections::hash_map::Entry::Vacant(e) = seen.entry(key) {
-                            e.insert(rep);
-                            order.push(rep);
-                        }
-                    }
-                }
-            }
-            b += 2 * n;
-        }
-        a1 += 1;
-    }
-    Ok((h, order))
+    first_per_class(d, n, beta, budget, |(a, b, c), a1| {
+        vec![
+            (reduce(a, b, c), Rep::Direct((a, b, c))),
+            (reduce(n * c, b, a1), Rep::Flipped((a, -b, c))),
+        ]
+    })
 }
 
 #[cfg(test)]
