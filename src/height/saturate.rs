@@ -49,11 +49,19 @@
 //! counted only when `p` divides one of the six candidates for `#E(F_q)`.
 //! For `p ≡ 2 (mod 3)`, `p` is inert in Z\[ω\] and `p | #E(F_q)` with
 //! `q ≡ 1 (mod 3)` means Frobenius ≡ 1 mod `p`, i.e. `E[p] ⊂ E(F_q)`,
-//! whose `p`-part is not cyclic; so only the primes `q ≡ −1 (mod 3p)` are
-//! visited. All of this only chooses which `q` to examine: a skipped `q`
-//! never enters a proof, so a wrong choice could cost rows, never
-//! soundness; the count of examined primes (`max_aux_primes_per_p`)
-//! includes only those that cost a count or a row.
+//! whose `p`-part is not cyclic. So for every `p ≥ 5` only the primes
+//! `q ≡ −1 (mod 3p)` are visited: there `p | q + 1`, the odd part of
+//! `E(F_q)` is cyclic (Frobenius satisfies π² = −q; common practice), and
+//! no count is needed, so they are taken up to 50 times `max_aux_prime`
+//! (at most [`MAX_AUX_PRIME_LIMIT`]). These Frobenius elements lie outside
+//! the Galois group over Q(√−3), and still see every point outside
+//! `pE(Q)` (its Kummer image is all of `E[p]`; a Chebotarev argument,
+//! from memory); `tests/descent3_mordell.rs` settles the primes up to
+//! 199 this way on curves of rank 3 and 4. All of this only chooses which
+//! `q` to examine: a skipped `q` never enters a proof, so a wrong choice
+//! could cost rows, never soundness; the count of examined primes
+//! (`max_aux_primes_per_p`) includes only those that cost a count or a
+//! row.
 //!
 //! When a kernel vector survives many auxiliary primes, the combination
 //! `Q = Σ aᵢPᵢ + Σ b_jT_j` (some `a_k = 1`) is tested for divisibility
@@ -116,7 +124,9 @@ pub struct SaturationOptions {
     /// the common small divisibilities).
     pub primes_without_bound: u64,
     /// Largest auxiliary prime `q` (each costs `O(q)` for the point
-    /// count). Default 20 000.
+    /// count). Default 20 000. On curves with j = 0 the primes
+    /// q ≡ 2 (mod 3), which need no count, are taken up to 50 times this
+    /// (module docs, "Curves with j = 0").
     pub max_aux_prime: u64,
     /// Most auxiliary primes examined for one `p`. Default 400.
     pub max_aux_primes_per_p: usize,
@@ -445,18 +455,19 @@ fn p_saturate(
     let mut useful = 0usize;
     let mut rounds = 0usize;
     let mut examined = 0usize;
-    // On j = 0 (module docs, "Curves with j = 0") the useful q of an odd
-    // p ≡ 2 (mod 3) are the primes q ≡ −1 (mod 3p): step through them.
+    // On j = 0 (module docs, "Curves with j = 0") the rows of p ≥ 5 come
+    // from the primes q ≡ −1 (mod 3p), where #E(F_q) = q + 1 needs no
+    // count: step through them, up to `j_zero_aux_limit`.
     let j_zero = short.big_a.is_zero();
-    let (mut next, step) = if j_zero && p >= 5 && p % 3 == 2 {
-        (3 * p - 1, 3 * p)
+    let (mut next, step, q_limit) = if j_zero && p >= 5 {
+        (3 * p - 1, 3 * p, j_zero_aux_limit(options))
     } else {
-        (5, 1)
+        (5, 1, options.max_aux_prime)
     };
     loop {
         let q = next;
         next += step;
-        if q > options.max_aux_prime || examined >= options.max_aux_primes_per_p {
+        if q > q_limit || examined >= options.max_aux_primes_per_p {
             return Ok(Outcome::Unknown);
         }
         if p != 2 && j_zero && q % 3 == 2 && (q + 1) % p != 0 {
@@ -770,6 +781,16 @@ impl Fq {
     }
 }
 
+/// The largest auxiliary prime `q ≡ 2 (mod 3)` used on a curve with
+/// `j = 0`, where `#E(F_q) = q + 1` needs no count: 50 times
+/// [`SaturationOptions::max_aux_prime`], at most [`MAX_AUX_PRIME_LIMIT`].
+fn j_zero_aux_limit(options: &SaturationOptions) -> u64 {
+    options
+        .max_aux_prime
+        .saturating_mul(50)
+        .min(MAX_AUX_PRIME_LIMIT)
+}
+
 /// What is known of `#E(F_q)` for an odd prime `p` on a curve with
 /// `j = 0` before counting (module docs, "Curves with j = 0").
 enum JZeroCount {
@@ -1021,5 +1042,58 @@ mod tests {
                 }
             }
         }
+    }
+
+    // The choices of auxiliary primes on j = 0 against the point count of
+    // Y² = X³ + B (B = 1..=12) at every prime 5 ≤ q < 400 prime to 6B,
+    // for the odd primes p < 40: a known count is the count, and a q that
+    // is skipped gives no row (p ∤ #E(F_q), or the p-part is not cyclic:
+    // no point of order p^e, p^e ‖ #E(F_q)).
+    #[test]
+    fn j_zero_choices_agree_with_point_counts() {
+        let mut skipped_with_p = 0;
+        for q in (5u64..400).filter(|&q| is_prime_u64(q)) {
+            if q % 3 == 1 {
+                let (a, b) = norm_form_3(q).unwrap();
+                assert_eq!(a * a + 3 * b * b, q);
+            }
+            for big_b in (1u64..=12).filter(|b| b % q != 0) {
+                let f = Fq { q, a: 0, b: big_b };
+                let n = f.count();
+                for p in (3u64..40).filter(|&p| is_prime_u64(p)) {
+                    match j_zero_count(q, p) {
+                        JZeroCount::Known(m) => assert_eq!(m, n, "q = {q}, B = {big_b}"),
+                        JZeroCount::Unknown => {}
+                        JZeroCount::Skip => {
+                            if n % p != 0 {
+                                continue;
+                            }
+                            skipped_with_p += 1;
+                            let mut e = 0;
+                            let mut m = n;
+                            while m % p == 0 {
+                                m /= p;
+                                e += 1;
+                            }
+                            let pe = p.pow(e);
+                            // No point of order p^e: the p-part is not cyclic.
+                            for x in 0..q {
+                                let rhs = (x * x % q * x + big_b) % q;
+                                if let Some(y) = sqrt_mod(rhs, q) {
+                                    let g = f.mul(Some((x, y)), m);
+                                    assert_eq!(
+                                        f.mul(g, pe / p),
+                                        None,
+                                        "q = {q}, B = {big_b}, p = {p}"
+                                    );
+                                }
+                            }
+                        }
+                    }
+                }
+            }
+        }
+        // The third case occurs (p ≡ 2 mod 3 dividing #E(F_q), q ≡ 1 mod 3).
+        assert!(skipped_with_p > 0);
     }
 }
