@@ -321,13 +321,19 @@ fn generators_where_the_index_bound_passes_large_inert_primes() {
     let r = run(&mordell(-432 * 3526 * 3526), &o);
     assert_eq!(r.rank.map(|x| x.0), Some(3), "{r}");
     let s = r.saturation.as_ref().expect("saturation ran");
-    assert!(s.index_bound.is_some_and(|b| b > 400) && !s.beyond_max_prime, "{s:?}");
+    assert!(
+        s.index_bound.is_some_and(|b| b > 400) && !s.beyond_max_prime,
+        "{s:?}"
+    );
     assert!(r.points_generate(), "{r}");
 
     let r = run(&mordell(9052), &o);
     assert_eq!(r.rank.map(|x| x.0), Some(4), "{r}");
     let s = r.saturation.as_ref().expect("saturation ran");
-    assert!(s.primes_checked.contains(&59) && s.primes_checked.contains(&61), "{s:?}");
+    assert!(
+        s.primes_checked.contains(&59) && s.primes_checked.contains(&61),
+        "{s:?}"
+    );
     assert!(r.points_generate(), "{r}");
     r.recheck().unwrap();
 }

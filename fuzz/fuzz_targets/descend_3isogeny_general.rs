@@ -37,8 +37,13 @@ fuzz_target!(|data: &[u8]| {
         return;
     }
     // y² = x³ + Dα²x² + 2Dαβx + Dβ².
-    let Ok(base) = Curve::from_ints([0, d * alpha * alpha, 0, 2 * d * alpha * beta, d * beta * beta])
-    else {
+    let Ok(base) = Curve::from_ints([
+        0,
+        d * alpha * alpha,
+        0,
+        2 * d * alpha * beta,
+        d * beta * beta,
+    ]) else {
         return;
     };
     let u = i64::from(data[3] % 5) + 1;

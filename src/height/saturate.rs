@@ -487,7 +487,11 @@ fn p_saturate(
             None
         };
         examined += 1;
-        let cost = if known_count.is_some() { p / 4 + 16 } else { q / 8 + 16 };
+        let cost = if known_count.is_some() {
+            p / 4 + 16
+        } else {
+            q / 8 + 16
+        };
         budget.spend(cost).map_err(|_| Error::BudgetExhausted {
             stage: "p-saturation".into(),
         })?;
