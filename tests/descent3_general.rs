@@ -285,3 +285,26 @@ mod sweep {
         }
     }
 }
+
+// The clock holds on both 3-isogeny paths: with a deadline that has
+// passed when the descent starts, the answer is a typed budget error or
+// a report that names the steps the clock cut (common practice: the
+// contract of `Isogeny3Options::time_limit`).
+#[test]
+fn a_passed_deadline_stops_both_descents() {
+    let mut o = Isogeny3Options::default();
+    o.time_limit = Some(std::time::Duration::ZERO);
+    // y² = x³ + 17 (α = 0, rank 2) and y² = x³ − 7(4x + 3)² (α ≠ 0).
+    let e: Curve = "0 0 0 0 17".parse().unwrap();
+    match descend_3isogeny(&e, &o) {
+        Ok(r) => assert!(!r.cut.is_empty(), "{r}"),
+        Err(Error::BudgetExhausted { .. }) | Err(Error::FactorBudgetExhausted { .. }) => {}
+        Err(other) => panic!("{other}"),
+    }
+    let e = flex(-7, 4, 3).unwrap();
+    match descend_3isogeny_general(&e, &o) {
+        Ok(r) => assert!(!r.cut.is_empty(), "{:?}", r.cut),
+        Err(Error::BudgetExhausted { .. }) | Err(Error::FactorBudgetExhausted { .. }) => {}
+        Err(other) => panic!("{other}"),
+    }
+}
