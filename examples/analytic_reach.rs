@@ -224,9 +224,9 @@ fn main() {
                 let r = descend(&e, &options).expect("descent");
                 let cpu = (thread_cpu_ns().unwrap_or(0) - cpu0) as f64 * 1e-9;
                 times.push(cpu);
-                if r.is_decided() {
+                if r.rank_bounds().is_decided() {
                     decided += 1;
-                    if r.rank_lower() == 1 {
+                    if r.rank_bounds().lower() == 1 {
                         rank_one += 1;
                         if r.points_generate() && !r.points().is_empty() {
                             rank_one_points += 1;

@@ -110,8 +110,8 @@ fn main() -> std::process::ExitCode {
             }
         };
         t_descent += t.elapsed();
-        let rank = if report.is_decided() {
-            Some(report.rank_lower())
+        let rank = if report.rank_bounds().is_decided() {
+            Some(report.rank_bounds().lower())
         } else {
             let t = Instant::now();
             let mut b = Budget::unlimited();

@@ -24,8 +24,8 @@ fn main() -> Result<(), Box<dyn std::error::Error>> {
     let report = descend(&e, &options)?;
     println!(
         "{e}: rank in [{}, {}]",
-        report.rank_lower(),
-        report.rank_upper()
+        report.rank_bounds().lower(),
+        report.rank_bounds().upper()
     );
     match report.generators() {
         Some(g) => {

@@ -99,8 +99,8 @@ fn main() -> ExitCode {
                     .collect();
                 println!(
                     "bounds {}..{} selmer2 {} time_ms {:.1}",
-                    r.rank_lower(),
-                    r.rank_upper(),
+                    r.rank_bounds().lower(),
+                    r.rank_bounds().upper(),
                     sel.join("/"),
                     ms
                 );

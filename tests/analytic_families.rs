@@ -116,18 +116,18 @@ fn analytic_ranks_agree_with_descent_bounds() {
         let rep = descend(&e, &DescentOptions::default()).unwrap();
         if let Some((r, _)) = d.rank_proven() {
             assert!(
-                rep.rank_lower() <= r && r <= rep.rank_upper(),
+                rep.rank_bounds().lower() <= r && r <= rep.rank_bounds().upper(),
                 "({a}, {b}): analytic {r}, descent {}..{}",
-                rep.rank_lower(),
-                rep.rank_upper()
+                rep.rank_bounds().lower(),
+                rep.rank_bounds().upper()
             );
         }
         // Parity: where the descent proves the rank, Sha[φ] and Sha[φ̂]
         // vanish, so Sha[2^∞] = 0 and the 2^∞-Selmer corank is the rank;
         // then w = (−1)^rank by the 2-parity theorem (Monsky, Math. Z. 221
         // (1996), 415–420).
-        if rep.rank_lower() == rep.rank_upper() {
-            let w = if rep.rank_lower() % 2 == 0 { 1 } else { -1 };
+        if rep.rank_bounds().lower() == rep.rank_bounds().upper() {
+            let w = if rep.rank_bounds().lower() % 2 == 0 { 1 } else { -1 };
             assert_eq!(d.root_number(), Some(w), "({a}, {b})");
         }
     }

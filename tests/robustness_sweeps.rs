@@ -134,7 +134,7 @@ proptest! {
                 for p in rep.descent_points() {
                     prop_assert!(e.contains(p), "point {:?} not on {}", p, e);
                 }
-                prop_assert!(rep.rank_lower() <= rep.rank_upper());
+                prop_assert!(rep.rank_bounds().lower() <= rep.rank_bounds().upper());
                 let ver = verify_report(&rep, 2_000_000).unwrap();
                 prop_assert!(ver.all_passed(), "verification failed on {}: {:?}", e, ver.failures());
             }

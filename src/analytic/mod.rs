@@ -25,7 +25,7 @@
 //! * the root number is decided by the certified test
 //!   `F(1/t) = w·t²·F(t)` (exactly one sign can hold; the other is excluded
 //!   when `|F(1/t) ∓ t²F(t)|` exceeds its error bound), cross-checked against
-//!   the local formulas where those apply ([`RootNumberRoute`]);
+//!   the local formulas where those apply (the route is printed with the value);
 //! * `w = +1` and `L(E,1) ≠ 0` (certified) imply rank 0, and `w = −1` and
 //!   `L'(E,1) ≠ 0` imply rank 1 (Gross–Zagier 1986 and Kolyvagin 1990; for
 //!   rank 0 and CM curves also Coates–Wiles 1977) — see [`RankTheorem`];
@@ -56,7 +56,7 @@ mod tests;
 use num_bigint::BigInt;
 use num_traits::{One, ToPrimitive};
 
-pub use crate::arith::Certified;
+pub(crate) use crate::arith::Certified;
 pub use coefficients::{dirichlet_coefficients, frobenius_trace, ApTable};
 pub use ledger::{sha_analytic, ShaLedger};
 pub use period::{real_period, RealPeriod};
@@ -209,7 +209,7 @@ impl AnalyticOptions {
 /// How the root number was determined.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
 #[non_exhaustive]
-pub enum RootNumberRoute {
+pub(crate) enum RootNumberRoute {
     /// By the certified functional-equation test, and the local formulas
     /// gave the same sign.
     FunctionalEquationAndFormula,
@@ -346,7 +346,7 @@ impl AnalyticData {
     }
 
     /// How the root number was decided.
-    pub fn root_number_route(&self) -> Option<RootNumberRoute> {
+    pub(crate) fn root_number_route(&self) -> Option<RootNumberRoute> {
         self.route
     }
 
@@ -374,7 +374,7 @@ impl AnalyticData {
     }
 
     /// The number of connected components of `E(R)`.
-    pub fn real_component_count(&self) -> Option<u8> {
+    pub(crate) fn real_component_count(&self) -> Option<u8> {
         self.period.map(|p| p.components)
     }
 

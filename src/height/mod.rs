@@ -44,11 +44,13 @@ pub(crate) mod lower_bound;
 pub(crate) mod naive_vs_canonical;
 mod projective;
 pub(crate) mod saturate;
+#[cfg(test)]
+mod tests;
 
 use num_bigint::BigInt;
 use num_traits::Signed;
 
-pub use crate::arith::Certified;
+pub(crate) use crate::arith::Certified;
 use crate::budget::Budget;
 use crate::curve::tate::{GlobalLocalData, ReductionKind};
 use crate::curve::{Curve, ModelChange, Point};
@@ -256,8 +258,11 @@ impl HeightContext {
     }
 
     /// `[n]P` on the input model, by exact Jacobian arithmetic, under a
-    /// budget of [`DEFAULT_HEIGHT_UNITS`] (see
-    /// [`HeightContext::multiple_with_budget`]).
+    /// budget of [`DEFAULT_HEIGHT_UNITS`]: each doubling or addition costs
+    /// `(w + 1)²` units, `w` the size in 64-bit words of the coordinates so
+    /// far, so the budget bounds the size of the result as well as the work
+    /// (`[n]P` has about n² times the digits of P; the default allows
+    /// results of up to about 10⁴ words per coordinate).
     ///
     /// # Errors
     /// [`Error::PointNotOnCurve`]; [`Error::BudgetExhausted`] when the
@@ -276,7 +281,7 @@ impl HeightContext {
     /// # Errors
     /// [`Error::PointNotOnCurve`]; [`Error::BudgetExhausted`] when the
     /// budget or its deadline runs out.
-    pub fn multiple_with_budget(
+    pub(crate) fn multiple_with_budget(
         &self,
         p: &Point,
         n: &BigInt,
@@ -303,13 +308,13 @@ impl HeightContext {
     }
 
     /// [`HeightContext::combination`] under `budget`, charged as
-    /// [`HeightContext::multiple_with_budget`] (the default form uses
+    /// `multiple_with_budget` (the default form uses
     /// [`DEFAULT_HEIGHT_UNITS`]).
     ///
     /// # Errors
     /// As [`HeightContext::combination`]; [`Error::BudgetExhausted`] when
     /// the budget or its deadline runs out.
-    pub fn combination_with_budget(
+    pub(crate) fn combination_with_budget(
         &self,
         points: &[Point],
         coefficients: &[BigInt],
@@ -396,7 +401,7 @@ fn check_precision(precision: f64) -> Result<()> {
 /// errors `eⱼ`, Euclidean norms: multilinearity of det in the rows and
 /// Hadamard's inequality, common practice) plus an estimate
 /// `4n³·EPS·∏‖aⱼ‖` of the elimination's rounding.
-pub fn determinant(m: &[Vec<Certified>]) -> Certified {
+pub(crate) fn determinant(m: &[Vec<Certified>]) -> Certified {
     let n = m.len();
     if n == 0 {
         return Certified::exact(1.0);
@@ -478,7 +483,7 @@ pub fn canonical_height(curve: &Curve, p: &Point) -> Result<Certified> {
 ///
 /// # Errors
 /// Those of [`HeightContext::new`] and [`HeightContext::height_to`].
-pub fn canonical_height_to(curve: &Curve, p: &Point, precision: f64) -> Result<Certified> {
+pub(crate) fn canonical_height_to(curve: &Curve, p: &Point, precision: f64) -> Result<Certified> {
     check_precision(precision)?;
     curve.check_point(p)?;
     let ctx = HeightContext::new(curve, &mut Budget::with_units(DEFAULT_HEIGHT_UNITS))?;
@@ -490,7 +495,7 @@ pub fn canonical_height_to(curve: &Curve, p: &Point, precision: f64) -> Result<C
 ///
 /// # Errors
 /// Those of [`HeightContext::new`] and [`HeightContext::pairing_matrix`].
-pub fn height_gram_matrix(curve: &Curve, points: &[Point]) -> Result<Vec<Vec<Certified>>> {
+pub(crate) fn height_gram_matrix(curve: &Curve, points: &[Point]) -> Result<Vec<Vec<Certified>>> {
     for p in points {
         curve.check_point(p)?;
     }
@@ -501,7 +506,7 @@ pub fn height_gram_matrix(curve: &Curve, points: &[Point]) -> Result<Vec<Vec<Cer
 /// The regulator of `points`: `det(⟨Pᵢ, Pⱼ⟩)`.
 ///
 /// # Errors
-/// Those of [`height_gram_matrix`].
+/// Those of [`HeightContext::new`] and [`HeightContext::pairing_matrix`].
 pub fn regulator(curve: &Curve, points: &[Point]) -> Result<Certified> {
     Ok(determinant(&height_gram_matrix(curve, points)?))
 }
