@@ -142,7 +142,7 @@ impl DeepSearchOptions {
     /// Unchanged options when `bsd_guided` is off or the prediction is not
     /// a positive number. Only the amount of searching changes; what is
     /// found is proven as always.
-    pub fn guided(&self, predicted: f64, sha2_dim: usize) -> DeepSearchOptions {
+    pub(crate) fn guided(&self, predicted: f64, sha2_dim: usize) -> DeepSearchOptions {
         let mut o = self.clone();
         if !(self.bsd_guided && predicted.is_finite() && predicted > 0.0) {
             return o;
@@ -194,7 +194,7 @@ impl DeepSearchOptions {
     /// the rounds go on to `reach_covering_height`; otherwise the options
     /// are unchanged. Only the amount of searching changes; what is found
     /// is proven as always.
-    pub fn guided_rank_two(&self, predicted: f64, sha2_dim: usize) -> DeepSearchOptions {
+    pub(crate) fn guided_rank_two(&self, predicted: f64, sha2_dim: usize) -> DeepSearchOptions {
         let mut o = self.clone();
         if !(self.bsd_guided && predicted.is_finite() && predicted > 0.0) {
             return o;

@@ -109,7 +109,7 @@ impl RecordLine {
     /// The 2-isogeny Selmer rank bound min over isogenies of
     /// dim Sel^φ(E) + dim Sel^φ̂(E') − 2, an upper bound for the rank
     /// [Sil09, X.4, Remark 4.7]; `None` on an error line.
-    pub fn selmer_rank_bound(&self) -> Option<u64> {
+    pub(crate) fn selmer_rank_bound(&self) -> Option<u64> {
         self.selmer
             .iter()
             .map(|&(a, b)| (a + b).saturating_sub(2))
@@ -450,7 +450,7 @@ pub struct IndexList {
 
 impl IndexList {
     /// Examples kept.
-    pub const KEEP: usize = 20;
+    pub(crate) const KEEP: usize = 20;
 
     fn push(&mut self, i: u64) {
         self.count += 1;

@@ -171,7 +171,7 @@ impl HeightContext {
     }
 
     /// The reduced global minimal model on which heights are computed.
-    pub fn minimal_model(&self) -> &Curve {
+    pub(crate) fn minimal_model(&self) -> &Curve {
         &self.minimal
     }
 

@@ -182,14 +182,14 @@ impl Quartic {
     }
 
     /// The invariant `I = 12 c4 c0 − 3 c3 c1 + c2²` [Cremona01, §2] (from memory).
-    pub fn invariant_i(&self) -> BigInt {
+    pub(crate) fn invariant_i(&self) -> BigInt {
         let [a, b, c, d, e] = &self.coeffs;
         BigInt::from(12) * a * e - BigInt::from(3) * b * d + c * c
     }
 
     /// The invariant `J = 72 c4 c2 c0 + 9 c3 c2 c1 − 27 c4 c1² − 27 c0 c3² − 2 c2³`
     /// [Cremona01, §2] (from memory).
-    pub fn invariant_j(&self) -> BigInt {
+    pub(crate) fn invariant_j(&self) -> BigInt {
         let [a, b, c, d, e] = &self.coeffs;
         BigInt::from(72) * a * c * e + BigInt::from(9) * b * c * d
             - BigInt::from(27) * a * d * d

@@ -3,11 +3,11 @@
 
 #![allow(clippy::needless_range_loop)] // index loops mirror the matrix formulas
 
-use isodescent::conic::{
+use crate::conic::{
     parametrise, parametrise_diagonal, solve_diagonal, solve_ternary, ConicSolution, TernaryForm,
 };
-use isodescent::local::{hilbert_symbol_int, Place, Prime};
-use isodescent::{Budget, Error};
+use crate::local::{hilbert_symbol_int, Place, Prime};
+use crate::{Budget, Error};
 use num_bigint::BigInt;
 use num_integer::Integer;
 use num_rational::BigRational;
@@ -186,7 +186,7 @@ fn locally_soluble_diag(a: &BigInt, b: &BigInt, c: &BigInt) -> bool {
             places.push(Place::Finite(Prime::small(p).unwrap()));
         }
         p += 1;
-        while !isodescent::arith::is_prime_u64(p) {
+        while !crate::arith::is_prime_u64(p) {
             p += 1;
         }
     }
