@@ -81,12 +81,12 @@ pub struct DeepSearchOptions {
     pub max_twists: usize,
     /// For rank one with the analytic side available: search only as high
     /// as the height predicted by the Birch–Swinnerton-Dyer formula needs
-    /// (see [`DeepSearchOptions::guided`]). A heuristic for the budget,
+    /// (the schedule is shortened to that height). A heuristic for the budget,
     /// never used in a proof. Default true.
     pub bsd_guided: bool,
     /// Rank two and more, with the analytic side available: the largest
     /// covering height a hunt sized by the predicted regulator may reach
-    /// (see [`DeepSearchOptions::guided_rank_two`]). Default 16 384, about
+    /// (the schedule is sized by that regulator). Default 16 384, about
     /// 9·10⁷ work units for a hunt that finds nothing.
     pub reach_covering_height: u64,
 }

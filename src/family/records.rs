@@ -137,7 +137,8 @@ pub struct Tally {
     /// Count of each (dim Sel^φ(E), dim Sel^φ̂(E')) of the first isogeny
     /// listed in a record.
     pub selmer_pairs: BTreeMap<(u64, u64), u64>,
-    /// Count of each value of [`RecordLine::selmer_rank_bound`].
+    /// Count of each value of the 2-isogeny Selmer rank bound
+    /// min over isogenies of dim Sel^φ(E) + dim Sel^φ̂(E') − 2.
     pub selmer_rank: BTreeMap<u64, u64>,
     /// Count of each value of [`RecordLine::selmer2_excess`].
     pub selmer2: BTreeMap<u64, u64>,
@@ -438,7 +439,7 @@ pub fn read_for_resume<R: BufRead>(mut input: R, name: &str, shard: &Shard) -> R
     Ok(st)
 }
 
-/// Up to [`IndexList::KEEP`] example indices and the total count.
+/// Up to 20 example indices and the total count.
 #[derive(Clone, Debug, Default, PartialEq, Eq)]
 #[non_exhaustive]
 pub struct IndexList {

@@ -175,7 +175,7 @@ impl HeightContext {
         &self.minimal
     }
 
-    /// The change of model from the input curve to [`Self::minimal_model`].
+    /// The change of model from the input curve to its global minimal model.
     pub fn to_minimal(&self) -> &ModelChange {
         &self.to_min
     }

@@ -30,10 +30,12 @@ pub(crate) mod solubility;
 pub use form::Quartic;
 pub use image::{local_image, relevant_places, ClassEvidence, LocalImage};
 pub use real::real_root_count;
-pub use search::{
-    search, search_all, search_all_quartic, search_quartic, search_report, Congruence,
-    QuarticPoint, SearchOptions, SearchOutcome, SearchReport, MAX_CONGRUENCE_MODULUS, MAX_HEIGHT,
-};
+pub use search::{search, QuarticPoint, SearchOptions, SearchOutcome, MAX_HEIGHT};
+#[cfg(test)]
+pub(crate) use search::{search_all, search_all_quartic, search_quartic, search_report, Congruence};
+
+#[cfg(test)]
+mod tests;
 pub use solubility::{
     locally_soluble, odd_prime_soluble, real_soluble, two_adic_soluble, LocalPoint, LocalSolubility,
 };
