@@ -133,7 +133,8 @@ fn draw(args: &[String], k: usize) -> Vec<u64> {
 
 fn main() {
     let args: Vec<String> = std::env::args().skip(1).collect();
-    let options = AnalyticOptions::default().with_conductor_limit(u64::MAX);
+    let mut options = AnalyticOptions::default();
+    options.conductor_limit = u64::MAX;
     match args.first().map(String::as_str) {
         Some("levels") => {
             let k: usize = args.get(1).and_then(|s| s.parse().ok()).unwrap_or(5);

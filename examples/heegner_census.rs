@@ -39,7 +39,10 @@ fn main() {
             continue;
         };
         let t_off = t0.elapsed().as_secs_f64();
-        if !(before.rank_bounds().is_decided() && before.rank_bounds().lower() == 1 && before.points().is_empty()) {
+        if !(before.rank_bounds().is_decided()
+            && before.rank_bounds().lower() == 1
+            && before.points().is_empty())
+        {
             continue;
         }
         no_point += 1;

@@ -135,9 +135,11 @@ fn main() -> ExitCode {
             o.lifting_pairing = false;
             o
         }
-        "first" => DescentOptions::default()
-            .descent_only()
-            .with_four_coverings(false),
+        "first" => {
+            let mut o = DescentOptions::default().descent_only();
+            o.four_coverings = false;
+            o
+        }
         "descent" => DescentOptions::default().descent_only(),
         "analytic" => {
             let mut o = DescentOptions::default();

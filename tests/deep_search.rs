@@ -23,7 +23,11 @@ fn congruent(n: i64) -> (Curve, DescentReport) {
 /// matches Tunnell's criterion (Invent. Math. 72 (1983)), checked in
 /// tests/analytic_families.rs.
 fn premise(e: &Curve, r: &DescentReport) {
-    assert_eq!(r.rank_bounds().lower(), 0, "{e}: the default descent found a point");
+    assert_eq!(
+        r.rank_bounds().lower(),
+        0,
+        "{e}: the default descent found a point"
+    );
     assert!(r.rank_bounds().upper() >= 1);
     let d = analyse(
         e,
@@ -139,10 +143,9 @@ fn new_points_are_independent_of_the_ones_already_found() {
     // checked a second way, by a certified positive regulator (Silverman,
     // AEC 2nd ed., VIII.9: the height pairing is positive definite on
     // E(Q)/E(Q)_tors).
-    let weak = DescentOptions::default()
-        .descent_only()
-        .with_search_height(2)
-        .with_four_coverings(false);
+    let mut weak = DescentOptions::default().descent_only();
+    weak.search_height = 2;
+    weak.four_coverings = false;
     let mut checked = 0;
     for n in 1..=300i64 {
         if (2..=17).any(|k| n % (k * k) == 0) {

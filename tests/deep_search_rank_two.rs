@@ -99,7 +99,11 @@ fn check_rank_two(n: i64, descent_lower: usize) {
         Some(1),
         "n = {n}"
     );
-    assert_eq!((r.rank_bounds().lower(), r.rank_bounds().upper()), (2, 2), "n = {n}");
+    assert_eq!(
+        (r.rank_bounds().lower(), r.rank_bounds().upper()),
+        (2, 2),
+        "n = {n}"
+    );
     assert_eq!(r.rank_settled_by(), Some(RankProof::Descent), "n = {n}");
     assert_eq!(r.points_origin(), &PointOrigin::DeepSearch, "n = {n}");
     assert!(

@@ -49,7 +49,11 @@ fn congruent_number_curves_up_to_1000_all_have_a_decided_rank() {
         let r = descend(&c, &opts).unwrap();
         let label = format!("n = {n}");
         check_consistent(&label, &r);
-        assert!(r.rank_bounds().is_decided(), "{label}: {:?}", r.rank_bounds());
+        assert!(
+            r.rank_bounds().is_decided(),
+            "{label}: {:?}",
+            r.rank_bounds()
+        );
         // Tunnell with Coates–Wiles: A_n ≠ 2B_n gives L(E_n, 1) ≠ 0, so rank 0;
         // rank ≥ 1 forces the equality (the proven direction).
         if !tunnell_equality(n) {
@@ -81,7 +85,10 @@ fn the_box_up_to_twelve_is_consistent_and_decided() {
             check_consistent(&format!("a = {a}, b = {b}"), &r);
             total += 1;
             decided += usize::from(r.rank_bounds().is_decided());
-            if r.rank_bounds().is_decided() && r.rank_bounds().lower() > 0 && r.descent_points().len() == r.rank_bounds().lower() {
+            if r.rank_bounds().is_decided()
+                && r.rank_bounds().lower() > 0
+                && r.descent_points().len() == r.rank_bounds().lower()
+            {
                 with_points += 1;
                 generated += usize::from(r.points_generate());
             }

@@ -11,9 +11,8 @@ use common::squarefree;
 /// (the pairing's bound on the images is part of the second descent, and a
 /// report takes every proven bound it has).
 fn first_descent_only() -> DescentOptions {
-    let mut o = DescentOptions::default()
-        .descent_only()
-        .with_four_coverings(false);
+    let mut o = DescentOptions::default().descent_only();
+    o.four_coverings = false;
     o.lifting_pairing = false;
     o
 }
@@ -82,7 +81,8 @@ fn the_second_descent_decides_clearly_more_congruent_number_curves() {
         // both are proven intervals, so they must overlap, and the second
         // is at least as sharp
         assert!(
-            r2.rank_bounds().lower() >= r1.rank_bounds().lower() && r2.rank_bounds().upper() <= r1.rank_bounds().upper(),
+            r2.rank_bounds().lower() >= r1.rank_bounds().lower()
+                && r2.rank_bounds().upper() <= r1.rank_bounds().upper(),
             "n = {n}"
         );
         total += 1;

@@ -71,7 +71,11 @@ fn five_six_and_seven_are_congruent_with_rank_one() {
     let opts = DescentOptions::default();
     for n in [5i64, 6, 7] {
         let r = report(0, -n * n, &opts);
-        assert_eq!((r.rank_bounds().lower(), r.rank_bounds().upper()), (1, 1), "n = {n}");
+        assert_eq!(
+            (r.rank_bounds().lower(), r.rank_bounds().upper()),
+            (1, 1),
+            "n = {n}"
+        );
         assert_eq!(r.descent_points().len(), 1);
     }
 }
@@ -83,7 +87,11 @@ fn fermats_right_triangle_theorem_gives_rank_zero_for_x3_minus_x_and_x3_plus_x()
     let opts = DescentOptions::default();
     for a4 in [-1i64, 1] {
         let r = report(0, a4, &opts);
-        assert_eq!((r.rank_bounds().lower(), r.rank_bounds().upper()), (0, 0), "a4 = {a4}");
+        assert_eq!(
+            (r.rank_bounds().lower(), r.rank_bounds().upper()),
+            (0, 0),
+            "a4 = {a4}"
+        );
     }
 }
 

@@ -99,7 +99,10 @@ fn the_descent_takes_a_generator_from_an_own_level_heegner_point() {
         without.points().is_empty(),
         "the short search found a point"
     );
-    assert_eq!((without.rank_bounds().lower(), without.rank_bounds().upper()), (1, 1));
+    assert_eq!(
+        (without.rank_bounds().lower(), without.rank_bounds().upper()),
+        (1, 1)
+    );
     opts.heegner = Some(HeegnerOptions::default());
     let r = descend(&e, &opts).unwrap();
     let PointOrigin::Heegner(h) = r.points_origin() else {

@@ -3,9 +3,7 @@
 
 use isodescent::arith::Certified;
 use isodescent::curve::{Curve, Point};
-use isodescent::height::{
-    canonical_height, regulator, saturate, HeightContext, SaturationOptions,
-};
+use isodescent::height::{canonical_height, regulator, saturate, HeightContext, SaturationOptions};
 use isodescent::{Budget, Error};
 use num_bigint::BigInt;
 

@@ -144,12 +144,20 @@ fn partial_bounds_take_the_two_selmer_rank() {
             let (_, n2) = r.torsion().structure();
             let two = if n2 <= 1 { 1 } else { 2 };
             assert!(r.rank_bounds().upper() <= s2 - two, "0 {a} 0 {b} 0");
-            let own = r.isogenies().iter().map(|d| d.rank_bounds().upper()).min().unwrap();
+            let own = r
+                .isogenies()
+                .iter()
+                .map(|d| d.rank_bounds().upper())
+                .min()
+                .unwrap();
             if own > r.rank_bounds().upper() {
                 sharper += 1;
             }
             let f = descend(&c, &full).unwrap();
-            assert!(f.rank_bounds().lower() <= r.rank_bounds().upper(), "0 {a} 0 {b} 0");
+            assert!(
+                f.rank_bounds().lower() <= r.rank_bounds().upper(),
+                "0 {a} 0 {b} 0"
+            );
             let v = verify_report(&r, 1_000_000).unwrap();
             assert!(v.failures().is_empty(), "0 {a} 0 {b} 0: {:?}", v.failures());
         }

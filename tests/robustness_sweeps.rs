@@ -250,11 +250,11 @@ fn a_family_scan_prints_the_same_lines_with_one_and_two_threads() {
     let base: Curve = "0 0 0 -1 0".parse().unwrap();
     let fam = Family::quadratic_twists(&base, -12, 12).unwrap();
     let run = |threads: usize| -> Vec<String> {
-        scan(
-            fam.members(),
-            &small_options(),
-            &ScanOptions::default().with_threads(threads),
-        )
+        scan(fam.members(), &small_options(), &{
+            let mut o = ScanOptions::default();
+            o.threads = threads;
+            o
+        })
         .unwrap()
         .map(|r| r.to_line())
         .collect()

@@ -175,7 +175,8 @@ fn range() -> (i64, i64) {
 #[test]
 fn congruent_number_curves_stay_consistent_with_tunnell_after_the_second_descent() {
     let (lo, hi) = range();
-    let opts = DescentOptions::default().with_four_coverings(false);
+    let mut opts = DescentOptions::default();
+    opts.four_coverings = false;
     let (mut total, mut decided_first, mut decided_second) = (0, 0, 0);
     let (mut pts, mut nos) = (0, 0);
     for n in (lo.max(1)..=hi).filter(|&n| squarefree(n)) {

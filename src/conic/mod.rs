@@ -107,9 +107,9 @@ pub use legendre::{
     ConicSolution,
 };
 pub(crate) use param::{parametrise, parametrise_diagonal};
-pub(crate) use ternary::TernaryForm;
 #[cfg(test)]
 pub(crate) use ternary::solve_ternary;
+pub(crate) use ternary::TernaryForm;
 
 #[cfg(test)]
 mod tests;

@@ -124,12 +124,6 @@ fn height_for(h: f64) -> f64 {
 }
 
 impl DeepSearchOptions {
-    /// Defaults with another largest covering height.
-    pub fn with_max_covering_height(mut self, h: u64) -> Self {
-        self.max_covering_height = h;
-        self
-    }
-
     /// The options for a rank-one hunt sized by the Birch–Swinnerton-Dyer
     /// formula. `predicted` is the regulator that formula gives with
     /// `#Ш = 1`; the descent proves `#Ш ≥ 2^sha2_dim`, and in general the
@@ -379,7 +373,8 @@ fn search_coverings(
     options: &DeepSearchOptions,
     budget: &mut Budget,
 ) -> Result<Option<Point>> {
-    let mut sd = SecondDescentOptions::default().with_search_height(h);
+    let mut sd = SecondDescentOptions::default();
+    sd.search_height = h;
     sd.search_units = sd.search_units.max(search_cost(h));
     sd.max_twists = options.max_twists;
     sd.covariant_reduction = true;
@@ -680,7 +675,8 @@ mod tests {
         // common practice: geometric rounds ending exactly at the maximum
         let o = DeepSearchOptions::default();
         assert_eq!(o.rounds(), vec![256, 1024, 4096]);
-        let o = DeepSearchOptions::default().with_max_covering_height(300);
+        let mut o = DeepSearchOptions::default();
+        o.max_covering_height = 300;
         assert_eq!(o.rounds(), vec![256, 300]);
     }
 
@@ -750,7 +746,8 @@ mod tests {
             ..DeepSearchOptions::default()
         };
         assert!(o.check().is_err());
-        let o = DeepSearchOptions::default().with_max_covering_height(1);
+        let mut o = DeepSearchOptions::default();
+        o.max_covering_height = 1;
         assert!(o.check().is_err());
     }
 }

@@ -53,27 +53,27 @@ use crate::error::{Error, Result};
 use congruent::{Constants, LEVEL};
 
 /// Default cap on the working precision, in bits.
-pub const DEFAULT_MAX_BITS: u32 = 16_384;
+pub(crate) const DEFAULT_MAX_BITS: u32 = 16_384;
 
 /// Default cap on `|D|` (the class group is enumerated in `O(|D|)`).
-pub const DEFAULT_MAX_DISCRIMINANT: u64 = 10_000_000;
+pub(crate) const DEFAULT_MAX_DISCRIMINANT: u64 = 10_000_000;
 
 /// Options of [`heegner_point`].
 #[derive(Clone, Debug, PartialEq)]
 #[non_exhaustive]
 pub struct HeegnerOptions {
-    /// Largest working precision in bits (default [`DEFAULT_MAX_BITS`]);
+    /// Largest working precision in bits (default 16 384);
     /// the precision starts from the predicted height and doubles while
     /// the point is not recognised.
     pub max_bits: u32,
-    /// Largest `|D|` attempted (default [`DEFAULT_MAX_DISCRIMINANT`]).
+    /// Largest `|D|` attempted (default 10⁷).
     pub max_discriminant: u64,
     /// Largest prime `p` for which `Q = p·R` is tried (default 1000): the
     /// primes of the index predicted by the height ratio, and 2, 3, 5, 7.
     pub max_division_prime: u64,
     /// Largest number of series terms (summed over the classes) of one
     /// attempt of the route at the curve's own level (default
-    /// [`DEFAULT_MAX_OWN_LEVEL_TERMS`]); the route is not attempted when
+    /// 4·10⁶); the route is not attempted when
     /// its first precision already needs more, and stops doubling the
     /// precision when the next one would.
     pub max_own_level_terms: u64,
@@ -82,7 +82,7 @@ pub struct HeegnerOptions {
 /// Default cap on the series terms of one attempt at the curve's own
 /// level: the terms grow like `N/√|D|` per class and bit, so this bounds
 /// the conductors reached by default (`docs/heegner.md`).
-pub const DEFAULT_MAX_OWN_LEVEL_TERMS: u64 = 4_000_000;
+pub(crate) const DEFAULT_MAX_OWN_LEVEL_TERMS: u64 = 4_000_000;
 
 /// Largest conductor of the route at the curve's own level: with
 /// `|D| ≤ 20 000` the forms' `A ≤ N(|D| + 1)` and `C·N ≤ N²(|D| + 1)/4`

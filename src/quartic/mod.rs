@@ -32,7 +32,9 @@ pub use image::{local_image, relevant_places, ClassEvidence, LocalImage};
 pub use real::real_root_count;
 pub use search::{search, QuarticPoint, SearchOptions, SearchOutcome, MAX_HEIGHT};
 #[cfg(test)]
-pub(crate) use search::{search_all, search_all_quartic, search_quartic, search_report, Congruence};
+pub(crate) use search::{
+    search_all, search_all_quartic, search_quartic, search_report, Congruence,
+};
 
 #[cfg(test)]
 mod tests;
