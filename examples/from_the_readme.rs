@@ -32,7 +32,7 @@ fn main() -> Result<(), Box<dyn std::error::Error>> {
             let index_bound = g.certificate().and_then(|c| c.index_bound);
             println!(
                 "  {} generator(s) of E(Q) modulo torsion, proven by saturation (index bound {index_bound:?})",
-                g.len()
+                g.points().len()
             );
             for p in g.points() {
                 assert!(e.contains(p));

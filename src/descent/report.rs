@@ -359,14 +359,4 @@ impl Generators {
     pub fn certificate(&self) -> Option<&Saturation> {
         self.certificate.as_ref()
     }
-
-    /// The number of generators (the rank).
-    pub fn len(&self) -> usize {
-        self.points.len()
-    }
-
-    /// True for rank 0.
-    pub fn is_empty(&self) -> bool {
-        self.points.is_empty()
-    }
 }
