@@ -39,7 +39,6 @@ fn small() -> impl Strategy<Value = i64> {
     -6i64..=6
 }
 
-
 /// True iff the structure `(n, m)` (the group Z/n × Z/m, m | n) is one of
 /// the fifteen torsion groups of Mazur's theorem (Mazur, "Modular curves
 /// and the Eisenstein ideal", 1977; docs/references.md [Maz77]): Z/n for

@@ -108,7 +108,6 @@ fn check_group_is_consistent(e: &Curve, g: &TorsionGroup) {
     assert_eq!(g.reduction_bound() % g.order(), 0);
 }
 
-
 /// True iff the structure `(n, m)` (the group Z/n × Z/m, m | n) is one of
 /// the fifteen torsion groups of Mazur's theorem (Mazur, "Modular curves
 /// and the Eisenstein ideal", 1977; docs/references.md [Maz77]): Z/n for

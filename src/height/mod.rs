@@ -67,15 +67,15 @@ use local_terms::{Archimedean, BadPrime};
 use projective::{Jac, ShortModel};
 
 /// Default requested absolute precision of a canonical height.
-pub const DEFAULT_PRECISION: f64 = 1e-12;
+pub(crate) const DEFAULT_PRECISION: f64 = 1e-12;
 
 /// Finest absolute precision accepted (the f64 arithmetic reaches about
 /// 1e-14 on points of moderate height).
-pub const FINEST_PRECISION: f64 = 1e-14;
+pub(crate) const FINEST_PRECISION: f64 = 1e-14;
 
 /// Work units for factoring the discriminant when the caller gives no
 /// budget (the same scale as the curve layer's default for reductions).
-pub const DEFAULT_HEIGHT_UNITS: u64 = 200_000_000;
+pub(crate) const DEFAULT_HEIGHT_UNITS: u64 = 200_000_000;
 
 /// Everything about one curve that the heights of its points share: the
 /// minimal model, its bad primes, the archimedean series data and the
@@ -215,7 +215,7 @@ impl HeightContext {
         self.to_min.to_old(p)
     }
 
-    /// `ĥ(P)` to [`DEFAULT_PRECISION`] for a point of the input model.
+    /// `ĥ(P)` to absolute precision 10⁻¹² for a point of the input model.
     ///
     /// # Errors
     /// [`Error::PointNotOnCurve`] if `p` is not on the curve.
@@ -230,7 +230,7 @@ impl HeightContext {
     ///
     /// # Errors
     /// [`Error::PointNotOnCurve`]; [`Error::InvalidArgument`] if
-    /// `precision` is not a finite number ≥ [`FINEST_PRECISION`].
+    /// `precision` is not a finite number ≥ 10⁻¹⁴.
     pub fn height_to(&self, p: &Point, precision: f64) -> Result<Certified> {
         check_precision(precision)?;
         let q = self.to_min_point(p)?;
@@ -258,7 +258,7 @@ impl HeightContext {
     }
 
     /// `[n]P` on the input model, by exact Jacobian arithmetic, under a
-    /// budget of [`DEFAULT_HEIGHT_UNITS`]: each doubling or addition costs
+    /// budget of 2·10⁸ units: each doubling or addition costs
     /// `(w + 1)²` units, `w` the size in 64-bit words of the coordinates so
     /// far, so the budget bounds the size of the result as well as the work
     /// (`[n]P` has about n² times the digits of P; the default allows
@@ -275,7 +275,7 @@ impl HeightContext {
     /// addition costs `(w + 1)²` units, `w` the size in 64-bit words of the
     /// coordinates so far, so the budget bounds the size of the result as
     /// well as the work (`[n]P` has about n² times the digits of P).
-    /// [`HeightContext::multiple`] uses [`DEFAULT_HEIGHT_UNITS`] (results
+    /// [`HeightContext::multiple`] uses 2·10⁸ units (results
     /// of up to about 10⁴ words per coordinate).
     ///
     /// # Errors
@@ -293,7 +293,7 @@ impl HeightContext {
     }
 
     /// `Σ nᵢPᵢ` on the input model, by exact Jacobian arithmetic, under a
-    /// budget of [`DEFAULT_HEIGHT_UNITS`].
+    /// budget of 2·10⁸ units.
     ///
     /// # Errors
     /// [`Error::PointNotOnCurve`]; [`Error::InvalidArgument`] when the
@@ -309,7 +309,7 @@ impl HeightContext {
 
     /// [`HeightContext::combination`] under `budget`, charged as
     /// `multiple_with_budget` (the default form uses
-    /// [`DEFAULT_HEIGHT_UNITS`]).
+    /// 2·10⁸ units).
     ///
     /// # Errors
     /// As [`HeightContext::combination`]; [`Error::BudgetExhausted`] when
@@ -454,9 +454,9 @@ pub(crate) fn determinant(m: &[Vec<Certified>]) -> Certified {
     Certified::with_radius(det, err)
 }
 
-/// `ĥ(P)` to [`DEFAULT_PRECISION`] for a point `p` of `curve` (any
+/// `ĥ(P)` to absolute precision 10⁻¹² for a point `p` of `curve` (any
 /// model): builds a [`HeightContext`] with a budget of
-/// [`DEFAULT_HEIGHT_UNITS`]. Use a context directly for many points.
+/// 2·10⁸ units. Use a context directly for many points.
 ///
 /// ```
 /// use isodescent::curve::{Curve, Point};
