@@ -4,8 +4,8 @@
 use isodescent::analytic::{analyse, root_number_by_formula, AnalyticOptions};
 use isodescent::curve::{global_local_data, ModelChange};
 use isodescent::descent3::{
-    descend_3isogeny, descend_by_isogeny, Isogeny3Options,
-    Isogeny3Report, IsogenyDescent, Rank3Proof,
+    descend_3isogeny, descend_by_isogeny, Isogeny3Options, Isogeny3Report, IsogenyDescent,
+    Rank3Proof,
 };
 use isodescent::{Budget, Curve, DescentOptions, Error, Point};
 use num_bigint::BigInt;

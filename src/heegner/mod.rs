@@ -189,6 +189,7 @@ pub fn class_number(d: i64) -> Result<usize> {
     Ok(forms::reduced_forms(d).len())
 }
 
+#[cfg(test)]
 /// The Heegner forms `[A, B, C]` of level `level` for the fundamental
 /// discriminant `d` (`N | A`, `B ≡ β (mod 2N)` for the least `β ≥ 0` with
 /// `β² ≡ D (mod 4N)`, `B² − 4AC = D`), one per ideal class, each with the
@@ -197,7 +198,11 @@ pub fn class_number(d: i64) -> Result<usize> {
 /// # Errors
 /// [`Error::InvalidArgument`] for a `d` that is not a fundamental
 /// discriminant in `[−10⁷, 0)` or a level outside `1..=10⁴`; budget errors.
-pub fn heegner_forms(d: i64, level: i64, budget: &mut Budget) -> Result<Vec<(i64, i64, i64)>> {
+pub(crate) fn heegner_forms(
+    d: i64,
+    level: i64,
+    budget: &mut Budget,
+) -> Result<Vec<(i64, i64, i64)>> {
     if !(-10_000_000..0).contains(&d) || !forms::is_fundamental(d) || !(1..=10_000).contains(&level)
     {
         return Err(Error::InvalidArgument {
@@ -641,5 +646,29 @@ mod tests {
         assert!(congruent_model(&e, &mut b).unwrap().is_none());
         let e: Curve = "0 0 0 -2 0".parse().unwrap();
         assert!(congruent_model(&e, &mut b).unwrap().is_none());
+    }
+
+    #[test]
+    fn heegner_forms_agree_with_the_class_number_formula() {
+        let mut checked = 0;
+        // Class numbers h(−n) from the analytic class number formula, computed
+        // with sympy 1.14.0 by tests/data/class_numbers.py (output committed).
+        const CLASS_NUMBERS: &str = include_str!("../../tests/data/class_numbers.txt");
+        for line in CLASS_NUMBERS.lines().filter(|l| !l.starts_with('#')) {
+            let mut it = line.split_whitespace().map(|w| w.parse::<i64>().unwrap());
+            let (d, h) = (it.next().unwrap(), it.next().unwrap() as usize);
+            let forms = heegner_forms(d, 32, &mut Budget::unlimited()).unwrap();
+            // One Heegner form per class (Gross 1984, from memory): h forms,
+            // each with 32 | A, the discriminant D and one common B mod 64.
+            assert_eq!(forms.len(), h, "D = {d}");
+            let b0 = forms[0].1.rem_euclid(64);
+            for &(a, b, c) in &forms {
+                assert_eq!(a % 32, 0);
+                assert_eq!(b * b - 4 * a * c, d);
+                assert_eq!(b.rem_euclid(64), b0);
+            }
+            checked += 1;
+        }
+        assert!(checked > 200, "{checked}");
     }
 }
