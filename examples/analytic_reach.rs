@@ -229,7 +229,7 @@ fn main() {
                     decided += 1;
                     if r.rank_bounds().lower() == 1 {
                         rank_one += 1;
-                        if r.points_generate() && !r.points().is_empty() {
+                        if r.generators().is_some() && !r.points().is_empty() {
                             rank_one_points += 1;
                         }
                     }

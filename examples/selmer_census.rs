@@ -69,7 +69,7 @@ fn one(m: &[i64; 5], opts: &DescentOptions) -> Tally {
             if r.rank_bounds().is_decided() && r.rank_bounds().lower() > 0 {
                 t.positive = 1;
                 t.with_points = u64::from(r.points().len() == r.rank_bounds().lower());
-                t.generated = u64::from(r.points_generate());
+                t.generated = u64::from(r.generators().is_some());
             }
         }
         Err(_) => t.errors = 1,

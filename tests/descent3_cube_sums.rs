@@ -1,7 +1,7 @@
 //! Descent via 3-isogeny on x³ + y³ = n (the curve Y² = X³ − 432n²) and on
 //! Mordell curves y² = x³ + k with k a square or −3 times a square.
 
-use isodescent::analytic::{analyse, root_number_by_formula, AnalyticOptions};
+use isodescent::analytic::{analyse, AnalyticOptions};
 use isodescent::curve::{global_local_data, ModelChange};
 use isodescent::descent3::{
     descend_3isogeny, descend_by_isogeny, Isogeny3Options, Isogeny3Report, IsogenyDescent,
@@ -79,7 +79,7 @@ fn primes_4_7_8_mod_9_have_root_number_minus_1() {
         let local = global_local_data(e.coefficients(), &mut budget).unwrap();
         let data = analyse(&e, &local, &AnalyticOptions::default(), &mut budget).unwrap();
         assert_eq!(data.root_number(), Some(-1), "p = {p}");
-        if let Some(formula) = root_number_by_formula(&local) {
+        if let Some(formula) = data.root_number_by_formula() {
             assert_eq!(formula, -1, "p = {p}");
         }
         let r = run(&e, &quick());

@@ -61,7 +61,7 @@ pub(crate) use crate::arith::Certified;
 pub use coefficients::{dirichlet_coefficients, frobenius_trace, ApTable};
 pub use ledger::{sha_analytic, ShaLedger};
 pub use period::{real_period, RealPeriod};
-pub use root_number::root_number_by_formula;
+pub(crate) use root_number::root_number_by_formula;
 pub(crate) use series::Series;
 
 use crate::budget::Budget;

@@ -216,7 +216,7 @@ impl DescentReport {
 
     /// True when the returned points are proven to generate E(Q) modulo
     /// torsion.
-    pub fn points_generate(&self) -> bool {
+    pub(crate) fn points_generate(&self) -> bool {
         self.global
             .saturation
             .as_ref()
