@@ -225,8 +225,9 @@ impl DescentReport {
     }
 
     /// A generator set of E(Q) modulo torsion with its certificate, when
-    /// one is proven ([`DescentReport::points_generate`]); `None` when the
-    /// points are only known to be independent.
+    /// one is proven: saturation proved that [`DescentReport::points`]
+    /// generate, or the rank is proven 0 and no conflict was found. `None`
+    /// when the points are only known to be independent.
     pub fn generators(&self) -> Option<Generators> {
         if !self.points_generate() {
             return None;
