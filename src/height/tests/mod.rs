@@ -36,3 +36,21 @@ fn exact_multiples_are_budgeted() {
         .is_err();
     assert!(c, "a ten-unit budget cannot pay for [5]P");
 }
+
+/// The naive height h(P) = log max(|p|, |q|) for x(P) = p/q in lowest terms,
+/// h(O) = 0 (Silverman, The Arithmetic of Elliptic Curves, VIII.6), with
+/// its rounding bound: log 4 for x = −1/4, and 2000·log 10 for x = 10⁻²⁰⁰⁰.
+#[test]
+fn naive_height_is_log_of_the_larger_of_numerator_and_denominator() {
+    use num_bigint::BigInt;
+    use num_rational::BigRational;
+    use num_traits::{One, Pow};
+    let r = |a: i64, b: i64| BigRational::new(a.into(), b.into());
+    let p = Point::new(r(-1, 4), r(1, 8));
+    let h = super::naive_height(&p);
+    assert!(h.contains(4f64.ln()) && h.error() < 1e-12);
+    assert_eq!(super::naive_height(&Point::Infinity).value(), 0.0);
+    let big: BigInt = BigInt::from(10).pow(2000u32);
+    let q = Point::new(BigRational::new(BigInt::one(), big), r(0, 1));
+    assert!((super::naive_height(&q).value() - 2000.0 * 10f64.ln()).abs() < 1e-6);
+}
