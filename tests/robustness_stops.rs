@@ -76,7 +76,7 @@ fn a_deep_search_cut_by_its_budget_makes_the_report_partial() {
     o.heegner = None;
     let r = assert_stopped_at(line, &o, "deep search for points");
     assert_eq!((r.rank_bounds().lower(), r.rank_bounds().upper()), (1, 1));
-    assert!(r.points().is_empty() && !r.generators().is_some());
+    assert!(r.points().is_empty() && r.generators().is_none());
     // With the default budget the generator is found and the report is
     // complete (the same options otherwise).
     let mut d = DescentOptions::default();

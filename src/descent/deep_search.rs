@@ -675,8 +675,10 @@ mod tests {
         // common practice: geometric rounds ending exactly at the maximum
         let o = DeepSearchOptions::default();
         assert_eq!(o.rounds(), vec![256, 1024, 4096]);
-        let mut o = DeepSearchOptions::default();
-        o.max_covering_height = 300;
+        let o = DeepSearchOptions {
+            max_covering_height: 300,
+            ..Default::default()
+        };
         assert_eq!(o.rounds(), vec![256, 300]);
     }
 
@@ -746,8 +748,10 @@ mod tests {
             ..DeepSearchOptions::default()
         };
         assert!(o.check().is_err());
-        let mut o = DeepSearchOptions::default();
-        o.max_covering_height = 1;
+        let o = DeepSearchOptions {
+            max_covering_height: 1,
+            ..Default::default()
+        };
         assert!(o.check().is_err());
     }
 }

@@ -230,14 +230,18 @@ fn limits_and_budgets_give_no_value_rather_than_a_guess() {
     let e = Curve::from_ints([0, 0, 1, -7, 6]).unwrap();
     let l = e.tate_data(&mut Budget::unlimited()).unwrap();
     // Conductor above the limit: skipped, nothing computed.
-    let mut o = AnalyticOptions::default();
-    o.conductor_limit = 1000;
+    let o = AnalyticOptions {
+        conductor_limit: 1000,
+        ..Default::default()
+    };
     let d = analyse(&e, &l, &o, &mut Budget::unlimited()).unwrap();
     assert_eq!(d.skipped(), Some(Skip::ConductorAboveLimit));
     assert!(d.l_values().is_empty() && d.analytic_rank().is_none());
     // Five terms: the bounds are huge, so nothing is certified non-zero.
-    let mut o = AnalyticOptions::default();
-    o.max_terms = 5;
+    let o = AnalyticOptions {
+        max_terms: 5,
+        ..Default::default()
+    };
     let d = analyse(&e, &l, &o, &mut Budget::unlimited()).unwrap();
     assert!(d.analytic_rank().is_none() && d.rank_proven().is_none());
     for (_, v) in d.l_values() {
@@ -253,20 +257,17 @@ fn limits_and_budgets_give_no_value_rather_than_a_guess() {
     assert!(matches!(r, Err(Error::BudgetExhausted { .. })));
     // Options out of range.
     for o in [
-        {
-            let mut o = AnalyticOptions::default();
-            o.max_terms = 0;
-            o
+        AnalyticOptions {
+            max_terms: 0,
+            ..Default::default()
         },
-        {
-            let mut o = AnalyticOptions::default();
-            o.tolerance = 0.0;
-            o
+        AnalyticOptions {
+            tolerance: 0.0,
+            ..Default::default()
         },
-        {
-            let mut o = AnalyticOptions::default();
-            o.tolerance = f64::NAN;
-            o
+        AnalyticOptions {
+            tolerance: f64::NAN,
+            ..Default::default()
         },
     ] {
         let r = analyse(&e, &l, &o, &mut Budget::unlimited());

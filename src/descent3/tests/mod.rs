@@ -12,9 +12,10 @@ fn cube_sum_curve(n: i64) -> Curve {
 }
 
 fn quick() -> Isogeny3Options {
-    let mut o = Isogeny3Options::default();
-    o.analytic = None;
-    o
+    Isogeny3Options {
+        analytic: None,
+        ..Default::default()
+    }
 }
 
 fn run(e: &Curve, o: &Isogeny3Options) -> super::Isogeny3Report {
