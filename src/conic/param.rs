@@ -137,15 +137,8 @@ fn complete_basis(p: &[BigInt; 3]) -> ([BigInt; 3], [BigInt; 3]) {
 ///
 /// Cost: O(1) big-integer operations.
 ///
-/// ```
-/// use isodescent::conic::{parametrise, TernaryForm};
-/// use num_bigint::BigInt;
-/// // The circle x² + y² = z² through (1, 0, 1).
-/// let q = TernaryForm::diagonal(1.into(), 1.into(), (-1).into());
-/// let par = parametrise(&q, &[1.into(), 0.into(), 1.into()]).unwrap();
-/// let r = par.evaluate(&BigInt::from(2), &BigInt::from(1));
-/// assert_eq!(q.evaluate(&r), 0.into());
-/// ```
+/// Example: the circle x² + y² = z² through (1, 0, 1) (unit test
+/// `the_circle_is_parametrised_through_a_rational_point`).
 pub fn parametrise(q: &TernaryForm, point: &[BigInt; 3]) -> Result<ConicParametrisation> {
     if q.doubled_determinant().is_zero() {
         return Err(Error::Degenerate {

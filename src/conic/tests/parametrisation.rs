@@ -282,3 +282,13 @@ fn the_parametrisation_of_the_circle_has_small_integer_forms() {
         .flatten()
         .all(|c| c.abs() <= BigInt::one() * 2));
 }
+
+/// The circle x² + y² = z² through (1, 0, 1): the point of parameter
+/// (2 : 1) lies on it (common practice).
+#[test]
+fn the_circle_is_parametrised_through_a_rational_point() {
+    let q = TernaryForm::diagonal(1.into(), 1.into(), (-1).into());
+    let par = parametrise(&q, &[1.into(), 0.into(), 1.into()]).unwrap();
+    let r = par.evaluate(&BigInt::from(2), &BigInt::from(1));
+    assert_eq!(q.evaluate(&r), 0.into());
+}
