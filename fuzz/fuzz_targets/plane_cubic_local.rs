@@ -9,11 +9,34 @@
 //! checks as a proptest.
 #![no_main]
 
-use isodescent::cubic::PlaneCubic;
+use isodescent::cubic::{PlaneCubic, PLANE_CUBIC_MONOMIALS};
 use isodescent::local::Prime;
 use isodescent::{Budget, Error};
 use libfuzzer_sys::fuzz_target;
 use num_bigint::BigInt;
+
+/// ∂C/∂u, ∂C/∂v, ∂C/∂w at x, from the coefficients.
+fn gradient(cubic: &PlaneCubic, x: &[BigInt; 3]) -> [BigInt; 3] {
+    let mut g = [BigInt::from(0), BigInt::from(0), BigInt::from(0)];
+    for (c, &(i, j, k)) in cubic
+        .coefficients()
+        .iter()
+        .zip(PLANE_CUBIC_MONOMIALS.iter())
+    {
+        let e = [i, j, k];
+        for (var, gv) in g.iter_mut().enumerate() {
+            if e[var] == 0 {
+                continue;
+            }
+            let mut term = c * BigInt::from(e[var]);
+            for (o, &eo) in e.iter().enumerate() {
+                term *= x[o].pow(if o == var { eo - 1 } else { eo });
+            }
+            *gv += term;
+        }
+    }
+    g
+}
 
 const PRIMES: [u64; 15] = [2, 3, 5, 7, 11, 13, 17, 19, 23, 29, 31, 37, 41, 43, 47];
 
@@ -44,7 +67,7 @@ fuzz_target!(|data: &[u8]| {
                             continue;
                         }
                         assert!(
-                            cubic.gradient(&x).iter().all(r),
+                            gradient(&cubic, &x).iter().all(r),
                             "a smooth point mod {p} lifts: {x:?}"
                         );
                     }
