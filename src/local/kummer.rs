@@ -309,13 +309,7 @@ pub(crate) fn odd_image_members(a: i128, b: i128, p: u64) -> Option<u8> {
         if members & level == level {
             continue;
         }
-        let t2 = alpha.map(|(al, au)| (al + k, au));
-        let m = (2 * k).min(beta).min(t2.map_or(i64::MAX, |t| t.0));
-        let g = [
-            if beta == m { bu } else { 0 },
-            t2.filter(|t| t.0 == m).map_or(0, |t| t.1),
-            u64::from(2 * k == m),
-        ];
+        let (m, g) = residue_poly(k, beta, bu, alpha);
         if (k + m).rem_euclid(2) == 0 {
             let (plus, minus) = unit_classes_reached(g, p);
             if plus {
@@ -352,6 +346,270 @@ pub(crate) fn odd_image_members(a: i128, b: i128, p: u64) -> Option<u8> {
         }
     }
     Some(members)
+}
+
+/// At most this many units `t` are tried per valuation by
+/// [`OddWitnesses::witness`] before the caller runs its class tree.
+const DIRECT_TRIES: u64 = 48;
+
+/// `(m, g)` of the module docs at valuation `k`: the least of the
+/// valuations `2k`, `α + k`, `β` of the terms `x²`, `ax`, `b` of `f(p^k w)`,
+/// and the residue polynomial `[g₀, g₁, g₂]` (`g₂w² + g₁w + g₀`) of the
+/// terms of that valuation.
+fn residue_poly(k: i64, beta: i64, bu: u64, alpha: Option<(i64, u64)>) -> (i64, [u64; 3]) {
+    let t2 = alpha.map(|(al, au)| (al + k, au));
+    let m = (2 * k).min(beta).min(t2.map_or(i64::MAX, |t| t.0));
+    let g = [
+        if beta == m { bu } else { 0 },
+        t2.filter(|t| t.0 == m).map_or(0, |t| t.1),
+        u64::from(2 * k == m),
+    ];
+    (m, g)
+}
+
+/// The valuations and residues of `y² = x³ + ax² + bx` at an odd prime
+/// that [`OddWitnesses::witness`] needs, computed once per local image.
+#[derive(Debug, Clone, Copy)]
+pub(crate) struct OddWitnesses {
+    p: u64,
+    a: i128,
+    b: i128,
+    beta: i64,
+    bu: u64,
+    alpha: Option<(i64, u64)>,
+    lo: i64,
+    hi: i64,
+}
+
+impl OddWitnesses {
+    /// `None` when `p` is not an odd word below `2^63` or `b = 0`.
+    pub(crate) fn new(a: i128, b: i128, p: u64) -> Option<OddWitnesses> {
+        if p < 3 || p % 2 == 0 || p >= 1 << 63 || b == 0 {
+            return None;
+        }
+        let (beta, bu) = split(b, p);
+        let alpha = (a != 0).then(|| split(a, p));
+        let (mut lo, mut hi) = (beta.div_euclid(2), (beta + 1).div_euclid(2));
+        if let Some((al, _)) = alpha {
+            lo = lo.min(al).min(beta - al);
+            hi = hi.max(al).max(beta - al);
+        }
+        Some(OddWitnesses {
+            p,
+            a,
+            b,
+            beta,
+            bu,
+            alpha,
+            lo,
+            hi,
+        })
+    }
+
+    /// A point of the homogeneous space `C_d` over `Q_p` built from case 1
+    /// of the module docs, without a class tree: `((X, Z), tries)` with
+    /// `X/Z = s`, `s = p^j·t` (`t` a unit, `1 ≤ t ≤ 48`), such that
+    /// `x = d·s²` has `x·f(x)` a non-zero square in `Q_p`; `tries` counts
+    /// the residues tried. `None` when case 1 reaches no `x` of the class
+    /// of `d` (it may still be in `W_p`, through a root of `g`: cases 2
+    /// and 3), when no `t ≤ 48` was found, or when something leaves the
+    /// words.
+    ///
+    /// Why it is a point: `x = p^k·w` with `k = v(d) + 2j` and
+    /// `w = (d/p^{v(d)})·t²`, so `w̄ = d̄·t²`; when `k + m` is even,
+    /// `g(w̄) ≠ 0` and `w̄·g(w̄)` is a non-zero square mod `p`, case 1 makes
+    /// `x·f(x)` a non-zero square. For the integral model
+    /// `g_d(X, Z) = d·d₁²X⁴ + a·d₁²X²Z² + (b/h)·d₁Z⁴` (`h = gcd(d, b)`,
+    /// `d = d₁h`) of `C_d`, `g_d(X, Z) = d₁²Z⁴·f(x)/d` with `x = d(X/Z)²`
+    /// (expand: `d₁²(dX⁴ + aX²Z² + (b/d)Z⁴)` and `d₁²/d = d₁/h`), and
+    /// `f(x)/d = x·f(x)/(d·s)²`: a non-zero square in `Q_p`. `(X, Z)` is
+    /// `(p^j·t, 1)` for `j ≥ 0` and `(t, p^{−j})` for `j < 0`, so `p` does
+    /// not divide both. (Elementary, common practice.) Which valuations
+    /// `k` can work is read off first (the parity of `k + m` and
+    /// [`unit_classes_reached`] for the Legendre symbol of `d̄`), so the
+    /// residues are tried only where case 1 promises a hit. The caller
+    /// still checks the square exactly (`finish` of the quartic layer)
+    /// and falls back to the class tree when the check fails, so the
+    /// witness never rests on this derivation alone.
+    pub(crate) fn witness(&self, d: i128) -> Option<((i128, i128), u64)> {
+        let p = self.p;
+        if d == 0 {
+            return None;
+        }
+        let (e, du) = split(d, p);
+        let want_plus = chi(du, p) > 0;
+        // Valuations k ≡ v(d) (mod 2), nearest to v(d) first (the smallest
+        // witnesses).
+        let (kl, kh) = (self.lo.min(e) - 2, self.hi.max(e) + 2);
+        let ks = || {
+            (0..=(kh - kl) / 2)
+                .flat_map(move |dist| {
+                    [e - 2 * dist, e + 2 * dist]
+                        .into_iter()
+                        .take(1 + usize::from(dist > 0))
+                })
+                .filter(move |k| (kl..=kh).contains(k))
+        };
+        let limit = ((p - 1) / 2).min(DIRECT_TRIES);
+        let mut tries = 0u64;
+        for k in ks() {
+            let (m, g) = residue_poly(k, self.beta, self.bu, self.alpha);
+            if (k + m).rem_euclid(2) != 0 {
+                continue;
+            }
+            let (plus, minus) = unit_classes_reached(g, p);
+            if !(if want_plus { plus } else { minus }) {
+                continue;
+            }
+            for t in 1..=limit {
+                tries += 1;
+                let w = mulp(du, mulp(t, t, p), p);
+                let gw = eval(g, w, p);
+                if gw != 0 && chi(mulp(w, gw, p), p) > 0 {
+                    let j = (k - e) / 2;
+                    let pj = i128::from(p).checked_pow(u32::try_from(j.unsigned_abs()).ok()?)?;
+                    let t = i128::from(t);
+                    let point = if j >= 0 {
+                        (pj.checked_mul(t)?, 1)
+                    } else {
+                        (t, pj)
+                    };
+                    return Some((point, tries));
+                }
+            }
+        }
+        if p >= 1 << 20 {
+            return None;
+        }
+        for k in ks() {
+            let (m, g) = residue_poly(k, self.beta, self.bu, self.alpha);
+            let Some(Roots::Simple(roots, n)) = nonzero_roots(g, p, None) else {
+                continue;
+            };
+            for &root in &roots[..n] {
+                tries += 1;
+                if (chi(root, p) > 0) != want_plus {
+                    continue;
+                }
+                if let Some(st) = self.near_root(d, k, m, g, root) {
+                    return self.point(k - e, st).map(|pt| (pt, tries));
+                }
+            }
+        }
+        None
+    }
+
+    /// `(X, Z)` for `X/Z = p^j·t₁/t₂` (module docs of [`OddWitnesses::witness`]).
+    fn point(&self, two_j: i64, (t1, t2): (i128, i128)) -> Option<(i128, i128)> {
+        let j = two_j / 2;
+        let pj = i128::from(self.p).checked_pow(u32::try_from(j.unsigned_abs()).ok()?)?;
+        Some(if j >= 0 {
+            (pj.checked_mul(t1)?, t2)
+        } else {
+            (t1, pj.checked_mul(t2)?)
+        })
+    }
+
+    /// Case 2 of the module docs, made explicit: a unit `t = t₁/t₂` such
+    /// that `x = d·(p^j t)²` (`k = v(d) + 2j`) has `x·f(x)` a non-zero
+    /// square, near the root `w_e ≡ root` of `F(w) = p^{−m} f(p^k w)`.
+    ///
+    /// With `w = d_u·t²` (`d_u = d/p^{v(d)}`) and `w − w_e = p^r·η`
+    /// (`η` a unit), `F(w) = (w − w_e)·G(w)` with `G(w) ≡ g′(root)
+    /// (mod p)` (Hensel: the root is simple), so `x·f(x) =
+    /// p^{k+m+r}·w·η·G(w)` is a square iff `k + m + r` is even and
+    /// `root·η̄·g′(root)` is a square mod `p`. Take `r ∈ {1, 2}` of the
+    /// right parity, `w_e` and `τ` with `d_u·τ² ≡ w_e` modulo `P = p^{r+1}`
+    /// (Newton's method; `τ̄` exists since `root` and `d_u` have the same
+    /// Legendre symbol), and `t ≡ τ + p^r·z (mod P)`: then `w − w_e ≡
+    /// p^r·2d_u·τ·z (mod P)` (the term `p^{2r}` vanishes as `2r ≥ r + 1`),
+    /// so `z` is chosen with `(2d_u·τ·z/p)` the symbol wanted. Finally
+    /// `t₁/t₂ ≡ t (mod P)` with `|t₁|, t₂ ≤ √P` by rational reconstruction
+    /// (the extended Euclidean algorithm stopped halfway, common
+    /// practice), both prime to `p`, so the witness stays small.
+    fn near_root(&self, d: i128, k: i64, m: i64, g: [u64; 3], root: u64) -> Option<(i128, i128)> {
+        let p = self.p;
+        let r: u32 = if (k + m).rem_euclid(2) == 0 { 2 } else { 1 };
+        let big = p.checked_pow(r + 1)?;
+        let pr = p.pow(r);
+        let pow_or_zero = |e: i64| -> u64 {
+            u32::try_from(e)
+                .ok()
+                .and_then(|e| p.checked_pow(e))
+                .map_or(0, |v| v % big)
+        };
+        // F = F₂w² + F₁w + F₀ modulo P.
+        let f2 = pow_or_zero(2 * k - m);
+        let f1 = match self.alpha {
+            Some((al, _)) => mul_mod(unit_mod(self.a, p, big), pow_or_zero(al + k - m), big),
+            None => 0,
+        };
+        let f0 = mul_mod(unit_mod(self.b, p, big), pow_or_zero(self.beta - m), big);
+        let eval_big = |w: u64| {
+            let t = (mul_mod(f2, w, big) + f1) % big;
+            (mul_mod(t, w, big) + f0) % big
+        };
+        let deriv = |w: u64| (mul_mod(2 * f2 % big, w, big) + f1) % big;
+        let mut we = root;
+        for _ in 0..2 {
+            let inv = inv_mod(deriv(we), big)?;
+            we = (we + big - mul_mod(eval_big(we), inv, big)) % big;
+        }
+        debug_assert_eq!(eval_big(we), 0);
+        let du = unit_mod(d, p, big);
+        let q = mul_mod(we, inv_mod(du, big)?, big);
+        let mut tau = sqrt_mod(q % p, p)?;
+        for _ in 0..2 {
+            let inv = inv_mod(mul_mod(2, tau, big), big)?;
+            let e = (mul_mod(tau, tau, big) + big - q) % big;
+            tau = (tau + big - mul_mod(e, inv, big)) % big;
+        }
+        if tau % p == 0 || mul_mod(tau, tau, big) != q {
+            return None;
+        }
+        // The symbol wanted for η̄: that of root·g′(root).
+        let [_, g1, g2] = g;
+        let gd = (mulp(2 * g2 % p, root, p) + g1) % p;
+        let want = chi(mulp(root, gd, p), p);
+        let base = mulp(mulp(2, du % p, p), tau % p, p);
+        let mut z = 1u64;
+        while chi(mulp(base, z, p), p) != want {
+            z += 1;
+            if z >= p {
+                return None;
+            }
+        }
+        let t = (tau + mul_mod(pr, z, big)) % big;
+        reconstruct(t, big, p)
+    }
+}
+
+/// `x/p^{v(x)} mod m` for `x ≠ 0` (`p | m`, so the result is a unit mod
+/// `p`).
+fn unit_mod(mut x: i128, p: u64, m: u64) -> u64 {
+    let q = i128::from(p);
+    while x != 0 && x % q == 0 {
+        x /= q;
+    }
+    x.rem_euclid(i128::from(m)) as u64
+}
+
+/// `(t₁, t₂)` with `t₁ ≡ t·t₂ (mod m)`, `0 < t₂`, `|t₁|, t₂ ≤ √m`, both
+/// prime to `p`: the extended Euclidean algorithm on `(m, t)` stopped at
+/// the first remainder below `√m` (rational reconstruction, common
+/// practice); `None` when that fraction has `p` in it.
+fn reconstruct(t: u64, m: u64, p: u64) -> Option<(i128, i128)> {
+    let bound = isqrt_u128(u128::from(m)) as i128;
+    let (mut r0, mut r1) = (i128::from(m), i128::from(t));
+    let (mut s0, mut s1) = (0i128, 1i128);
+    while r1 > bound {
+        let q = r0 / r1;
+        (r0, r1) = (r1, r0 - q * r1);
+        (s0, s1) = (s1, s0 - q * s1);
+    }
+    let (t1, t2) = if s1 < 0 { (-r1, -s1) } else { (r1, s1) };
+    let q = i128::from(p);
+    (t2 != 0 && t1 % q != 0 && t2 % q != 0).then_some((t1, t2))
 }
 
 #[cfg(test)]
