@@ -367,22 +367,44 @@ fn residue_poly(k: i64, beta: i64, bu: u64, alpha: Option<(i64, u64)>) -> (i64, 
     (m, g)
 }
 
+/// Most valuations `k` that [`OddWitnesses`] keeps (the range of the
+/// module docs is usually a handful).
+const MAX_LEVELS: usize = 24;
+
+/// What case 1 and case 2 of the module docs say at one valuation `k`.
+#[derive(Debug, Clone, Copy, Default)]
+struct Level {
+    k: i64,
+    m: i64,
+    g: [u64; 3],
+    /// Case 1 reaches units `w` with `(w/p) = +1` / `−1` (both false when
+    /// `k + m` is odd).
+    plus: bool,
+    minus: bool,
+    /// The simple non-zero roots of `g` (none for a double root).
+    roots: [u64; 2],
+    nroots: usize,
+}
+
 /// The valuations and residues of `y² = x³ + ax² + bx` at an odd prime
-/// that [`OddWitnesses::witness`] needs, computed once per local image.
+/// that [`OddWitnesses::witness`] needs, computed once per local image:
+/// for every valuation `k` of the module docs' range (widened to hold
+/// `v(d) ∈ {0, 1}` of the class representatives), `m`, `g`, the unit
+/// classes case 1 reaches and the simple roots of `g`.
 #[derive(Debug, Clone, Copy)]
 pub(crate) struct OddWitnesses {
     p: u64,
     a: i128,
     b: i128,
     beta: i64,
-    bu: u64,
     alpha: Option<(i64, u64)>,
-    lo: i64,
-    hi: i64,
+    levels: [Level; MAX_LEVELS],
+    nlevels: usize,
 }
 
 impl OddWitnesses {
-    /// `None` when `p` is not an odd word below `2^63` or `b = 0`.
+    /// `None` when `p` is not an odd word below `2^63`, `b = 0`, or the
+    /// range of valuations is unusually long (more than 24).
     pub(crate) fn new(a: i128, b: i128, p: u64) -> Option<OddWitnesses> {
         if p < 3 || p % 2 == 0 || p >= 1 << 63 || b == 0 {
             return None;
@@ -394,43 +416,67 @@ impl OddWitnesses {
             lo = lo.min(al).min(beta - al);
             hi = hi.max(al).max(beta - al);
         }
+        let (kl, kh) = (lo.min(0) - 2, hi.max(1) + 2);
+        let n = usize::try_from(kh - kl + 1).ok()?;
+        if n > MAX_LEVELS {
+            return None;
+        }
+        let mut levels = [Level::default(); MAX_LEVELS];
+        for (slot, k) in levels.iter_mut().zip(kl..=kh) {
+            let (m, g) = residue_poly(k, beta, bu, alpha);
+            let (plus, minus) = if (k + m).rem_euclid(2) == 0 {
+                unit_classes_reached(g, p)
+            } else {
+                (false, false)
+            };
+            let (roots, nroots) = match nonzero_roots(g, p, None) {
+                Some(Roots::Simple(rs, n)) => (rs, n),
+                _ => ([0; 2], 0),
+            };
+            *slot = Level {
+                k,
+                m,
+                g,
+                plus,
+                minus,
+                roots,
+                nroots,
+            };
+        }
         Some(OddWitnesses {
             p,
             a,
             b,
             beta,
-            bu,
             alpha,
-            lo,
-            hi,
+            levels,
+            nlevels: n,
         })
     }
 
     /// A point of the homogeneous space `C_d` over `Q_p` built from case 1
-    /// of the module docs, without a class tree: `((X, Z), tries)` with
-    /// `X/Z = s`, `s = p^j·t` (`t` a unit, `1 ≤ t ≤ 48`), such that
-    /// `x = d·s²` has `x·f(x)` a non-zero square in `Q_p`; `tries` counts
-    /// the residues tried. `None` when case 1 reaches no `x` of the class
-    /// of `d` (it may still be in `W_p`, through a root of `g`: cases 2
-    /// and 3), when no `t ≤ 48` was found, or when something leaves the
-    /// words.
+    /// or case 2 of the module docs, without a class tree: `((X, Z),
+    /// tries)` with `X/Z = s = p^j·t` (`t` a unit), such that `x = d·s²`
+    /// has `x·f(x)` a non-zero square in `Q_p`; `tries` counts the residues
+    /// and roots tried. `None` when neither case reaches the class of `d`
+    /// this way (it may still be in `W_p`: case 3), or something leaves
+    /// the words.
     ///
     /// Why it is a point: `x = p^k·w` with `k = v(d) + 2j` and
-    /// `w = (d/p^{v(d)})·t²`, so `w̄ = d̄·t²`; when `k + m` is even,
-    /// `g(w̄) ≠ 0` and `w̄·g(w̄)` is a non-zero square mod `p`, case 1 makes
-    /// `x·f(x)` a non-zero square. For the integral model
+    /// `w = (d/p^{v(d)})·t²`, so `w̄ = d̄·t̄²`; in case 1 (`t ≤ 48` an
+    /// integer), when `k + m` is even, `g(w̄) ≠ 0` and `w̄·g(w̄)` is a
+    /// non-zero square mod `p`, `x·f(x)` is a non-zero square; case 2 is
+    /// [`OddWitnesses::near_root`]. For the integral model
     /// `g_d(X, Z) = d·d₁²X⁴ + a·d₁²X²Z² + (b/h)·d₁Z⁴` (`h = gcd(d, b)`,
     /// `d = d₁h`) of `C_d`, `g_d(X, Z) = d₁²Z⁴·f(x)/d` with `x = d(X/Z)²`
     /// (expand: `d₁²(dX⁴ + aX²Z² + (b/d)Z⁴)` and `d₁²/d = d₁/h`), and
     /// `f(x)/d = x·f(x)/(d·s)²`: a non-zero square in `Q_p`. `(X, Z)` is
-    /// `(p^j·t, 1)` for `j ≥ 0` and `(t, p^{−j})` for `j < 0`, so `p` does
-    /// not divide both. (Elementary, common practice.) Which valuations
-    /// `k` can work is read off first (the parity of `k + m` and
-    /// [`unit_classes_reached`] for the Legendre symbol of `d̄`), so the
-    /// residues are tried only where case 1 promises a hit. The caller
-    /// still checks the square exactly (`finish` of the quartic layer)
-    /// and falls back to the class tree when the check fails, so the
-    /// witness never rests on this derivation alone.
+    /// `(p^j·t₁, t₂)` for `j ≥ 0` and `(t₁, p^{−j}·t₂)` for `j < 0`
+    /// (`t = t₁/t₂`, both prime to `p`), so `p` does not divide both.
+    /// (Elementary, common practice.) The caller still checks the square
+    /// exactly (`finish` of the quartic layer) and falls back to the class
+    /// tree when the check fails, so the witness never rests on this
+    /// derivation alone.
     pub(crate) fn witness(&self, d: i128) -> Option<((i128, i128), u64)> {
         let p = self.p;
         if d == 0 {
@@ -438,61 +484,47 @@ impl OddWitnesses {
         }
         let (e, du) = split(d, p);
         let want_plus = chi(du, p) > 0;
+        let levels = &self.levels[..self.nlevels];
+        let k0 = levels.first()?.k;
         // Valuations k ≡ v(d) (mod 2), nearest to v(d) first (the smallest
         // witnesses).
-        let (kl, kh) = (self.lo.min(e) - 2, self.hi.max(e) + 2);
         let ks = || {
-            (0..=(kh - kl) / 2)
+            (0..=self.nlevels as i64)
                 .flat_map(move |dist| {
                     [e - 2 * dist, e + 2 * dist]
                         .into_iter()
                         .take(1 + usize::from(dist > 0))
                 })
-                .filter(move |k| (kl..=kh).contains(k))
+                .filter_map(move |k| usize::try_from(k - k0).ok().and_then(|i| levels.get(i)))
         };
         let limit = ((p - 1) / 2).min(DIRECT_TRIES);
         let mut tries = 0u64;
-        for k in ks() {
-            let (m, g) = residue_poly(k, self.beta, self.bu, self.alpha);
-            if (k + m).rem_euclid(2) != 0 {
-                continue;
-            }
-            let (plus, minus) = unit_classes_reached(g, p);
-            if !(if want_plus { plus } else { minus }) {
+        for lv in ks() {
+            if !(if want_plus { lv.plus } else { lv.minus }) {
                 continue;
             }
             for t in 1..=limit {
                 tries += 1;
                 let w = mulp(du, mulp(t, t, p), p);
-                let gw = eval(g, w, p);
+                let gw = eval(lv.g, w, p);
                 if gw != 0 && chi(mulp(w, gw, p), p) > 0 {
-                    let j = (k - e) / 2;
-                    let pj = i128::from(p).checked_pow(u32::try_from(j.unsigned_abs()).ok()?)?;
-                    let t = i128::from(t);
-                    let point = if j >= 0 {
-                        (pj.checked_mul(t)?, 1)
-                    } else {
-                        (t, pj)
-                    };
-                    return Some((point, tries));
+                    return self
+                        .point(lv.k - e, (i128::from(t), 1))
+                        .map(|pt| (pt, tries));
                 }
             }
         }
         if p >= 1 << 20 {
             return None;
         }
-        for k in ks() {
-            let (m, g) = residue_poly(k, self.beta, self.bu, self.alpha);
-            let Some(Roots::Simple(roots, n)) = nonzero_roots(g, p, None) else {
-                continue;
-            };
-            for &root in &roots[..n] {
+        for lv in ks() {
+            for &root in &lv.roots[..lv.nroots] {
                 tries += 1;
                 if (chi(root, p) > 0) != want_plus {
                     continue;
                 }
-                if let Some(st) = self.near_root(d, k, m, g, root) {
-                    return self.point(k - e, st).map(|pt| (pt, tries));
+                if let Some(st) = self.near_root(d, lv.k, lv.m, lv.g, root) {
+                    return self.point(lv.k - e, st).map(|pt| (pt, tries));
                 }
             }
         }
@@ -550,21 +582,30 @@ impl OddWitnesses {
             (mul_mod(t, w, big) + f0) % big
         };
         let deriv = |w: u64| (mul_mod(2 * f2 % big, w, big) + f1) % big;
-        let mut we = root;
-        for _ in 0..2 {
-            let inv = inv_mod(deriv(we), big)?;
-            we = (we + big - mul_mod(eval_big(we), inv, big)) % big;
-        }
-        debug_assert_eq!(eval_big(we), 0);
+        // Newton's method from precision p: one step reaches p², two reach
+        // p⁴ ⊇ P; the step at precision p^i needs the inverse only mod p^i.
+        let steps = if r == 1 { 1 } else { 2 };
+        let newton = |x0: u64, val: &dyn Fn(u64) -> u64, der: &dyn Fn(u64) -> u64| {
+            let mut x = x0;
+            let mut inv = inv_mod(der(x) % p, p)?;
+            for step in 0..steps {
+                x = (x + big - mul_mod(val(x), inv, big)) % big;
+                if step + 1 < steps {
+                    // inv ← inv·(2 − der(x)·inv): now exact mod p².
+                    let t = mul_mod(der(x), inv, big);
+                    inv = mul_mod(inv, (2 + big - t) % big, big);
+                }
+            }
+            Some(x)
+        };
+        let we = newton(root, &eval_big, &deriv)?;
         let du = unit_mod(d, p, big);
         let q = mul_mod(we, inv_mod(du, big)?, big);
-        let mut tau = sqrt_mod(q % p, p)?;
-        for _ in 0..2 {
-            let inv = inv_mod(mul_mod(2, tau, big), big)?;
-            let e = (mul_mod(tau, tau, big) + big - q) % big;
-            tau = (tau + big - mul_mod(e, inv, big)) % big;
-        }
-        if tau % p == 0 || mul_mod(tau, tau, big) != q {
+        let tau0 = sqrt_mod(q % p, p)?;
+        let sq = |x: u64| (mul_mod(x, x, big) + big - q) % big;
+        let twice = |x: u64| mul_mod(2, x, big);
+        let tau = newton(tau0, &sq, &twice)?;
+        if tau % p == 0 || eval_big(we) != 0 || sq(tau) != 0 {
             return None;
         }
         // The symbol wanted for η̄: that of root·g′(root).
@@ -587,6 +628,15 @@ impl OddWitnesses {
 /// `x/p^{v(x)} mod m` for `x ≠ 0` (`p | m`, so the result is a unit mod
 /// `p`).
 fn unit_mod(mut x: i128, p: u64, m: u64) -> u64 {
+    if let Ok(small) = i64::try_from(x) {
+        // The common case in u64 division.
+        let mut mag = small.unsigned_abs();
+        while mag != 0 && mag % p == 0 {
+            mag /= p;
+        }
+        let r = mag % m;
+        return if small < 0 && r != 0 { m - r } else { r };
+    }
     let q = i128::from(p);
     while x != 0 && x % q == 0 {
         x /= q;
@@ -599,17 +649,19 @@ fn unit_mod(mut x: i128, p: u64, m: u64) -> u64 {
 /// the first remainder below `√m` (rational reconstruction, common
 /// practice); `None` when that fraction has `p` in it.
 fn reconstruct(t: u64, m: u64, p: u64) -> Option<(i128, i128)> {
-    let bound = isqrt_u128(u128::from(m)) as i128;
-    let (mut r0, mut r1) = (i128::from(m), i128::from(t));
-    let (mut s0, mut s1) = (0i128, 1i128);
+    // m < 2^63: remainders and cofactors stay below m in absolute value.
+    let m = i64::try_from(m).ok()?;
+    let bound = isqrt_u128(m as u128) as i64;
+    let (mut r0, mut r1) = (m, i64::try_from(t).ok()?);
+    let (mut s0, mut s1) = (0i64, 1i64);
     while r1 > bound {
         let q = r0 / r1;
         (r0, r1) = (r1, r0 - q * r1);
         (s0, s1) = (s1, s0 - q * s1);
     }
     let (t1, t2) = if s1 < 0 { (-r1, -s1) } else { (r1, s1) };
-    let q = i128::from(p);
-    (t2 != 0 && t1 % q != 0 && t2 % q != 0).then_some((t1, t2))
+    let q = i64::try_from(p).ok()?;
+    (t2 != 0 && t1 % q != 0 && t2 % q != 0).then_some((i128::from(t1), i128::from(t2)))
 }
 
 #[cfg(test)]
