@@ -62,6 +62,19 @@
 //! The test `odd_closed_form_agrees_with_the_class_trees` compares the
 //! result with the local solubility tests of the quartic layer on many
 //! thousands of `(a, b, p)` with deep valuations, every case above.
+//!
+//! # Witnesses
+//! [`OddWitnesses::witness`] turns cases 1 and 2 into a point of the
+//! homogeneous space `C_d`: an `x = d·s²` with `s = p^j·t₁/t₂` small and
+//! `x·f(x)` a non-zero square, so the quartic layer needs no class tree
+//! for those classes (case 3, double roots, is left to the tree). Case 2
+//! is made explicit in [`OddWitnesses::near_root`]: Newton's method gives
+//! the root and `√(w_e/d)` modulo `p^{r+1}` (`r ≤ 2`), and rational
+//! reconstruction keeps `t₁, t₂ ≤ p^{3/2}`. The quartic layer re-checks
+//! every such point exactly; the test
+//! `quartic::image_word::tests::direct_witnesses_are_points_of_their_spaces`
+//! checks the construction itself (without that fallback) on thousands of
+//! models.
 
 use crate::arith::word::{inv_mod, isqrt_u128, jacobi_u64, mul_mod, sqrt_mod};
 
@@ -367,6 +380,17 @@ fn residue_poly(k: i64, beta: i64, bu: u64, alpha: Option<(i64, u64)>) -> (i64, 
     (m, g)
 }
 
+/// A witness of [`OddWitnesses::witness`].
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub(crate) struct DirectWitness {
+    /// The point `(X, Z)` of `C_d`.
+    pub(crate) point: (i128, i128),
+    /// Residues and roots tried (charged like the class tree's tests).
+    pub(crate) tries: u64,
+    /// Built near a simple root of `g` (case 2), else by case 1.
+    pub(crate) near_root: bool,
+}
+
 /// Most valuations `k` that [`OddWitnesses`] keeps (the range of the
 /// module docs is usually a handful).
 const MAX_LEVELS: usize = 24;
@@ -455,10 +479,10 @@ impl OddWitnesses {
     }
 
     /// A point of the homogeneous space `C_d` over `Q_p` built from case 1
-    /// or case 2 of the module docs, without a class tree: `((X, Z),
-    /// tries)` with `X/Z = s = p^j·t` (`t` a unit), such that `x = d·s²`
-    /// has `x·f(x)` a non-zero square in `Q_p`; `tries` counts the residues
-    /// and roots tried. `None` when neither case reaches the class of `d`
+    /// or case 2 of the module docs, without a class tree: `(X, Z)` with
+    /// `X/Z = s = p^j·t` (`t` a unit), such that `x = d·s²` has `x·f(x)` a
+    /// non-zero square in `Q_p`, with the number of residues and roots
+    /// tried. `None` when neither case reaches the class of `d`
     /// this way (it may still be in `W_p`: case 3), or something leaves
     /// the words.
     ///
@@ -477,7 +501,7 @@ impl OddWitnesses {
     /// exactly (`finish` of the quartic layer) and falls back to the class
     /// tree when the check fails, so the witness never rests on this
     /// derivation alone.
-    pub(crate) fn witness(&self, d: i128) -> Option<((i128, i128), u64)> {
+    pub(crate) fn witness(&self, d: i128) -> Option<DirectWitness> {
         let p = self.p;
         if d == 0 {
             return None;
@@ -510,7 +534,11 @@ impl OddWitnesses {
                 if gw != 0 && chi(mulp(w, gw, p), p) > 0 {
                     return self
                         .point(lv.k - e, (i128::from(t), 1))
-                        .map(|pt| (pt, tries));
+                        .map(|point| DirectWitness {
+                            point,
+                            tries,
+                            near_root: false,
+                        });
                 }
             }
         }
@@ -524,7 +552,11 @@ impl OddWitnesses {
                     continue;
                 }
                 if let Some(st) = self.near_root(d, lv.k, lv.m, lv.g, root) {
-                    return self.point(lv.k - e, st).map(|pt| (pt, tries));
+                    return self.point(lv.k - e, st).map(|point| DirectWitness {
+                        point,
+                        tries,
+                        near_root: true,
+                    });
                 }
             }
         }

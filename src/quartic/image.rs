@@ -43,7 +43,7 @@ use crate::arith::word::word_paths_enabled;
 use crate::budget::Budget;
 use crate::curve::ReducedModel;
 use crate::error::{Error, Result};
-use crate::local::kummer::{odd_image_members, OddWitnesses};
+use crate::local::kummer::{odd_image_members, DirectWitness, OddWitnesses};
 use crate::local::{class_dimension, class_representatives, Place, Prime};
 use num_bigint::BigInt;
 use num_integer::Integer;
@@ -178,7 +178,13 @@ fn f2_basis(masks: &[u8]) -> Vec<u8> {
 /// Cost: at most 2, 4 or 8 local solubility tests (a class is skipped
 /// when the subgroup property already rules it out, see
 /// `local_image_with`); under the word paths they run on the
-/// coefficients of `C_d` in machine words (module `image_word`).
+/// coefficients of `C_d` in machine words (module `image_word`). At an
+/// odd prime the witness of a class is first built from the closed form
+/// of `crate::local::kummer` (`OddWitnesses::witness`: a point with
+/// `x = d·s²` for a small `s`, checked exactly), and the class tree runs
+/// only for the classes that construction does not reach; the witness is
+/// then a point of `C_d` of the same kind ([`LocalPoint`], re-checked by
+/// [`LocalPoint::verify`]), not necessarily the one the tree would find.
 ///
 /// Example: for `y² = x³ − x` (`a = 0, b = −1`) at `R`: `C_{−1}` is
 /// `N² = −M⁴ + e⁴`, soluble, so `W_R = {1, −1}`, masks `[0, 1]`.
@@ -324,10 +330,11 @@ fn direct_point(
     d: &BigInt,
     model: &ReducedModel,
     p: &Prime,
-    ((xw, zw), tries): ((i128, i128), u64),
+    w: DirectWitness,
     budget: &mut Budget,
 ) -> Result<Option<LocalSolubility>> {
-    fp::charge(budget, tries, padic::ODD_STAGE)?;
+    let (xw, zw) = w.point;
+    fp::charge(budget, w.tries, padic::ODD_STAGE)?;
     let place = Place::Finite(p.clone());
     let (x, z) = (BigInt::from(xw), BigInt::from(zw));
     if let Some(c) = words.and_then(|w| w.coeffs(d)) {

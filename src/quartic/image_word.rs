@@ -520,7 +520,7 @@ mod tests {
             seed ^= seed << 17;
             (seed % (2 * m as u64 + 1)) as i64 - m
         };
-        let (mut found, mut tried) = (0, 0);
+        let (mut found, mut tried, mut near_root) = (0, 0, 0);
         for p in [3i64, 5, 7, 11, 13, 17, 19, 61, 101, 257, 1009] {
             let prime = Prime::new(BigInt::from(p)).unwrap();
             let place = Place::Finite(prime.clone());
@@ -542,13 +542,14 @@ mod tests {
                         for (mask, d) in reps.iter().enumerate() {
                             let dw = d.to_i128().unwrap();
                             tried += 1;
-                            let Some(((x, z), tries)) =
-                                OddWitnesses::new(a, b, p as u64).unwrap().witness(dw)
+                            let Some(w) = OddWitnesses::new(a, b, p as u64).unwrap().witness(dw)
                             else {
                                 continue;
                             };
+                            let (x, z) = w.point;
                             found += 1;
-                            assert!(tries >= 1);
+                            near_root += usize::from(w.near_root);
+                            assert!(w.tries >= 1);
                             let q =
                                 Quartic::two_isogeny_space(d, &BigInt::from(a), &BigInt::from(b))
                                     .unwrap();
@@ -567,8 +568,12 @@ mod tests {
                 }
             }
         }
-        eprintln!("direct witnesses: {found} of {tried}");
+        eprintln!("direct witnesses: {found} of {tried}, {near_root} near a root");
         assert!(found * 4 > tried, "{found} of {tried}");
+        assert!(
+            near_root > 500 && found - near_root > 500,
+            "{near_root} of {found}"
+        );
     }
 
     #[test]
