@@ -693,45 +693,13 @@ impl std::fmt::Display for Isogeny3GeneralReport {
             "  rank bounds: {} ≤ rank ≤ {} (exact sequence of the 3-isogeny)",
             self.rank_lower, self.rank_upper
         )?;
-        match &self.rank {
-            Some((r, Rank3Proof::Descent)) => writeln!(f, "  rank = {r}: the bounds meet")?,
-            Some((r, Rank3Proof::Analytic(t))) => {
-                writeln!(f, "  rank = {r}: certified L-value, {}", t.name())?
-            }
-            None => writeln!(f, "  rank: not settled")?,
-        }
-        if let Some(t) = &self.tamagawa {
-            writeln!(
-                f,
-                "  Cassels' ratio: |Sel^φ|/|Sel^φ̂| = {}, Tamagawa side = {} ({})",
-                t.selmer_ratio,
-                t.formula,
-                if t.holds() { "equal" } else { "DIFFERENT" }
-            )?;
-        }
-        for p in &self.points {
-            writeln!(f, "  point on the given curve: {p}")?;
-        }
         let label = if self.points_generate() {
             "proven by saturation"
         } else {
             "independent; saturation not proven"
         };
-        super::write_generators(
-            f,
-            &self.torsion,
-            self.saturation.as_ref(),
-            &self.independent_points,
-            label,
-        )?;
-        if !self.cut.is_empty() {
-            writeln!(
-                f,
-                "  partial: cut short (a budget, the clock, or a height step not certified): {}",
-                self.cut.join(", ")
-            )?;
-        }
-        Ok(())
+        let cut_by = "(a budget, the clock, or a height step not certified)";
+        self.summary().write_tail(f, None, label, cut_by)
     }
 }
 

@@ -921,6 +921,77 @@ impl std::fmt::Display for Isogeny3Report {
                 "; point search cut by a budget"
             }
         )?;
+        let label = if self.points_generate() && self.three_saturated_by_descent {
+            "proven by saturation, p = 3 by the descent"
+        } else if self.points_generate() {
+            "proven by saturation"
+        } else {
+            "independent; saturation not proven"
+        };
+        let summary = self.summary();
+        summary.write_tail(f, self.sha_dim, label, "by a budget or the clock")
+    }
+}
+
+/// What the reports of both 3-isogeny descents share, for the text and
+/// JSON writers: one construction (`summary3!`) for both report types.
+pub(crate) struct Summary3<'r> {
+    pub(crate) curve: &'r Curve,
+    pub(crate) cut: &'r [String],
+    pub(crate) bounds: (usize, usize),
+    pub(crate) rank: Option<(usize, Rank3Proof)>,
+    pub(crate) tamagawa: Option<&'r TamagawaRatio>,
+    pub(crate) points: &'r [Point],
+    pub(crate) torsion: &'r crate::curve::TorsionGroup,
+    pub(crate) independent: &'r [(Point, Certified)],
+    pub(crate) saturation: Option<&'r Saturation>,
+    pub(crate) points_generate: bool,
+}
+
+/// The [`Summary3`] of a report of either descent (same field names).
+macro_rules! summary3 {
+    ($r:expr) => {
+        Summary3 {
+            curve: &$r.curve,
+            cut: &$r.cut,
+            bounds: ($r.rank_lower, $r.rank_upper),
+            rank: $r.rank,
+            tamagawa: $r.tamagawa.as_ref(),
+            points: &$r.points,
+            torsion: &$r.torsion,
+            independent: &$r.independent_points,
+            saturation: $r.saturation.as_ref(),
+            points_generate: $r.points_generate(),
+        }
+    };
+}
+
+impl Isogeny3Report {
+    /// The fields both 3-isogeny reports share.
+    pub(crate) fn summary(&self) -> Summary3<'_> {
+        summary3!(self)
+    }
+}
+
+impl Isogeny3GeneralReport {
+    /// The fields both 3-isogeny reports share.
+    pub(crate) fn summary(&self) -> Summary3<'_> {
+        summary3!(self)
+    }
+}
+
+impl Summary3<'_> {
+    /// The end of a text report: the rank and what proved it, the
+    /// Tate–Shafarevich dimension when positive, Cassels' check, the
+    /// points, the generators (`label` says what is proven of them) and
+    /// the steps cut short (`cut_by` says by what).
+    pub(crate) fn write_tail(
+        &self,
+        f: &mut std::fmt::Formatter<'_>,
+        sha_dim: Option<usize>,
+        label: &str,
+        cut_by: &str,
+    ) -> std::fmt::Result {
         match &self.rank {
             Some((r, Rank3Proof::Descent)) => writeln!(f, "  rank = {r}: the bounds meet")?,
             Some((r, Rank3Proof::Analytic(t))) => {
@@ -928,7 +999,7 @@ impl std::fmt::Display for Isogeny3Report {
             }
             None => writeln!(f, "  rank: not settled")?,
         }
-        if let Some(d) = self.sha_dim {
+        if let Some(d) = sha_dim {
             if d > 0 {
                 writeln!(
                     f,
@@ -936,7 +1007,7 @@ impl std::fmt::Display for Isogeny3Report {
                 )?;
             }
         }
-        if let Some(t) = &self.tamagawa {
+        if let Some(t) = self.tamagawa {
             writeln!(
                 f,
                 "  Cassels' ratio: |Sel^φ|/|Sel^φ̂| = {}, Tamagawa side = {} ({})",
@@ -945,29 +1016,12 @@ impl std::fmt::Display for Isogeny3Report {
                 if t.holds() { "equal" } else { "DIFFERENT" }
             )?;
         }
-        for p in &self.points {
+        for p in self.points {
             writeln!(f, "  point on the given curve: {p}")?;
         }
-        let label = if self.points_generate() && self.three_saturated_by_descent {
-            "proven by saturation, p = 3 by the descent"
-        } else if self.points_generate() {
-            "proven by saturation"
-        } else {
-            "independent; saturation not proven"
-        };
-        write_generators(
-            f,
-            &self.torsion,
-            self.saturation.as_ref(),
-            &self.independent_points,
-            label,
-        )?;
+        write_generators(f, self.torsion, self.saturation, self.independent, label)?;
         if !self.cut.is_empty() {
-            writeln!(
-                f,
-                "  partial: cut short by a budget or the clock: {}",
-                self.cut.join(", ")
-            )?;
+            writeln!(f, "  partial: cut short {cut_by}: {}", self.cut.join(", "))?;
         }
         Ok(())
     }
