@@ -292,14 +292,10 @@ pub(crate) fn flex_descent(
 /// Cassels' ratio for φ: E → E′ (the formula of the module docs of
 /// `descent3`), with φ normalized between the short model of E and
 /// Vélu's model of E′.
-fn cassels(
-    iso: &Isogeny3,
-    d: &BigInt,
-    d1: &BigInt,
-    sel_phi: usize,
-    sel_phihat: usize,
-    budget: &mut Budget,
-) -> Result<TamagawaRatio> {
+fn cassels(iso: &Isogeny3, fd: &FlexDescent, budget: &mut Budget) -> Result<TamagawaRatio> {
+    let (d, d1) = (&fd.sides[0].side.d, &fd.sides[1].side.d);
+    let sel_phi = fd.sides[1].selmer_basis.len();
+    let sel_phihat = fd.sides[0].selmer_basis.len();
     let (a, b) = iso.short_coefficients();
     let z = BigRational::zero;
     let l1 = global_local_data(&[z(), z(), z(), a.clone(), b.clone()], budget)?;
@@ -475,14 +471,7 @@ pub fn descend_3isogeny_general(
     let points = points_on_given_curve(e, iso, &fd)?;
     let mut tb = budget_for(opts.factor_units, start, opts.time_limit);
     let tamagawa = if opts.tamagawa_check {
-        let ratio = cassels(
-            iso,
-            &fd.sides[0].side.d,
-            &fd.sides[1].side.d,
-            fd.sides[1].selmer_basis.len(),
-            fd.sides[0].selmer_basis.len(),
-            &mut tb,
-        );
+        let ratio = cassels(iso, &fd, &mut tb);
         cut_by_budget(ratio, "Tamagawa check", &mut cut)?
     } else {
         None
@@ -741,15 +730,7 @@ mod tests {
                 "k = {k}"
             );
             assert_eq!(fd.rank_upper, rep.rank_upper, "k = {k}");
-            let t = cassels(
-                iso,
-                &fd.sides[0].side.d,
-                &fd.sides[1].side.d,
-                fd.sides[1].selmer_basis.len(),
-                fd.sides[0].selmer_basis.len(),
-                &mut Budget::unlimited(),
-            )
-            .unwrap();
+            let t = cassels(iso, &fd, &mut Budget::unlimited()).unwrap();
             assert!(t.holds(), "k = {k}");
         }
     }
@@ -766,15 +747,7 @@ mod tests {
                     for iso in &isos {
                         let fd = flex_descent(iso, &quick(), 50, &mut Budget::unlimited()).unwrap();
                         n += 1;
-                        let t = cassels(
-                            iso,
-                            &fd.sides[0].side.d,
-                            &fd.sides[1].side.d,
-                            fd.sides[1].selmer_basis.len(),
-                            fd.sides[0].selmer_basis.len(),
-                            &mut Budget::unlimited(),
-                        )
-                        .unwrap();
+                        let t = cassels(iso, &fd, &mut Budget::unlimited()).unwrap();
                         nontrivial += usize::from(!t.selmer_ratio.is_one());
                         if !t.holds() {
                             bad.push((d, a, b, t.selmer_ratio, t.formula));
