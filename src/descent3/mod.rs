@@ -464,6 +464,9 @@ pub fn descend_3isogeny(e: &Curve, opts: &Isogeny3Options) -> Result<Isogeny3Rep
     })
 }
 
+/// A proven rank with what proved it.
+type ProvenRank = Option<(usize, Rank3Proof)>;
+
 /// Step three of [`descend_3isogeny`]: Tate's algorithm on y² = x³ + k
 /// when Cassels' check or the analytic side needs it, Cassels' check
 /// (from the Selmer dimensions of both sides), and the rank the analytic
@@ -475,7 +478,7 @@ fn rank_checks(
     (rank_lower, rank_upper): (usize, usize),
     (opts, start): (&Isogeny3Options, Instant),
     cut: &mut Vec<String>,
-) -> Result<(Option<TamagawaRatio>, Option<(usize, Rank3Proof)>)> {
+) -> Result<(Option<TamagawaRatio>, ProvenRank)> {
     let mut tb = budget_for(opts.factor_units, start, opts.time_limit);
     let needs_analytic = opts.analytic.is_some() && rank_lower < rank_upper;
     let local = if opts.tamagawa_check || needs_analytic {
