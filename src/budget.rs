@@ -106,6 +106,10 @@ impl Budget {
 
     /// Charges `units`; fails once the total exceeds the limit or the
     /// deadline has passed.
+    ///
+    /// # Errors
+    /// [`Exhausted`] once the total exceeds the limit or the deadline has
+    /// passed.
     pub fn spend(&mut self, units: u64) -> Result<(), Exhausted> {
         self.spent = self.spent.saturating_add(units);
         if let Some(l) = self.limit {

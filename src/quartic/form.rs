@@ -80,6 +80,9 @@ impl Quartic {
 
     /// Convenience constructor from machine integers `[c4, c3, c2, c1, c0]`;
     /// same rules as [`Quartic::new`].
+    ///
+    /// # Errors
+    /// As [`Quartic::new`].
     pub fn from_i64(coeffs: [i64; 5]) -> Result<Quartic> {
         Quartic::new(coeffs.map(BigInt::from))
     }
