@@ -78,15 +78,7 @@ impl FlexSide {
 
     /// The curve y² = x³ + D(αx + β)².
     pub(crate) fn curve(&self) -> Result<Curve> {
-        let d = &self.d;
-        let z = BigInt::zero;
-        Curve::from_bigints([
-            z(),
-            d * &self.alpha * &self.alpha,
-            z(),
-            BigInt::from(2) * d * &self.alpha * &self.beta,
-            d * &self.beta * &self.beta,
-        ])
+        crate::curve::isogeny3::flex_curve(&self.d, &self.alpha, &self.beta)
     }
 
     /// The plane cubic of the class `e` (module docs).
