@@ -4,11 +4,14 @@
 //!
 //!     cargo run --release --example cube_sums_census -- 2 2000
 
-use std::collections::BTreeMap;
 use std::time::Instant;
 
-use isodescent::descent3::{descend_3isogeny, Isogeny3Options, Rank3Proof};
+use isodescent::descent3::{descend_3isogeny, Isogeny3Options};
 use isodescent::Curve;
+
+#[path = "support/census3.rs"]
+mod census3;
+use census3::Census3;
 
 fn cube_free(n: i64) -> bool {
     (2..)
@@ -27,63 +30,34 @@ fn main() {
     );
     let opts = Isogeny3Options::default();
     let start = Instant::now();
-    let (mut total, mut by_descent, mut by_analytic, mut open, mut errors) = (0, 0, 0, 0, 0);
-    let mut uppers: BTreeMap<usize, usize> = BTreeMap::new();
-    let mut ranks: BTreeMap<usize, usize> = BTreeMap::new();
-    let mut missing_points = 0;
-    let (mut with_points, mut proven_generators) = (0, 0);
+    let mut c = Census3::default();
     for n in (lo.max(2)..=hi).filter(|&n| cube_free(n)) {
-        total += 1;
+        c.total += 1;
         let e: Curve = match format!("0 0 0 0 {}", -432 * n * n).parse() {
             Ok(e) => e,
             Err(_) => {
-                errors += 1;
+                c.errors += 1;
                 continue;
             }
         };
         match descend_3isogeny(&e, &opts) {
-            Ok(r) => {
-                *uppers.entry(r.rank_upper).or_default() += 1;
-                match r.rank {
-                    Some((rank, proof)) => {
-                        *ranks.entry(rank).or_default() += 1;
-                        match proof {
-                            Rank3Proof::Analytic(_) => by_analytic += 1,
-                            _ => by_descent += 1,
-                        }
-                        if r.rank_lower < rank {
-                            missing_points += 1;
-                        } else if rank > 0 {
-                            with_points += 1;
-                            if r.points_generate() {
-                                proven_generators += 1;
-                            }
-                        }
-                    }
-                    None => open += 1,
-                }
-            }
+            Ok(r) => c.add(&r),
             Err(err) => {
-                errors += 1;
+                c.errors += 1;
                 eprintln!("n = {n}: {err}");
             }
         }
     }
     let secs = start.elapsed().as_secs_f64();
-    println!("cube-free n in {lo}..={hi}: {total} curves in {secs:.2} s");
     println!(
-        "rank settled: {} ({:.1}%): {by_descent} by the descent alone, {by_analytic} with a certified L-value",
-        by_descent + by_analytic,
-        100.0 * (by_descent + by_analytic) as f64 / total.max(1) as f64
+        "cube-free n in {lo}..={hi}: {} curves in {secs:.2} s",
+        c.total
     );
-    println!("not settled: {open}; errors: {errors}; settled with fewer independent points than the rank: {missing_points}");
-    println!("settled with positive rank and rank-many points: {with_points}; generators proven by saturation: {proven_generators}");
-    println!("upper bound (Selmer ranks minus torsion) : count");
-    for (u, c) in &uppers {
-        println!("  {u} : {c}");
-    }
-    println!("rank : count (settled curves)");
-    for (r, c) in &ranks {
-        println!("  {r} : {c}");
-    }
+    c.print_settled();
+    println!(
+        "not settled: {}; errors: {}; settled with fewer independent points than the rank: {}",
+        c.open, c.errors, c.missing_points
+    );
+    c.print_points();
+    c.print_tables();
 }
