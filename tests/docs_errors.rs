@@ -6,18 +6,11 @@
 //! `missing_errors_doc` (common practice).
 
 use std::fs;
-use std::path::{Path, PathBuf};
+use std::path::Path;
 
-fn rust_files(dir: &Path, out: &mut Vec<PathBuf>) {
-    for e in fs::read_dir(dir).expect("readable folder").flatten() {
-        let p = e.path();
-        if p.is_dir() {
-            rust_files(&p, out);
-        } else if p.extension().is_some_and(|x| x == "rs") {
-            out.push(p);
-        }
-    }
-}
+#[path = "common/source_files.rs"]
+mod source_files;
+use source_files::rust_files;
 
 /// The doc lines (text after `///`, trimmed) of the item whose first line
 /// is `lines[at]`: the `///` and `#[…]` lines right above it.

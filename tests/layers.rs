@@ -111,16 +111,9 @@ fn crate_paths(code: &str) -> BTreeSet<String> {
     out
 }
 
-fn rust_files(dir: &Path, out: &mut Vec<PathBuf>) {
-    for e in fs::read_dir(dir).expect("readable folder").flatten() {
-        let p = e.path();
-        if p.is_dir() {
-            rust_files(&p, out);
-        } else if p.extension().is_some_and(|x| x == "rs") {
-            out.push(p);
-        }
-    }
-}
+#[path = "common/source_files.rs"]
+mod source_files;
+use source_files::rust_files;
 
 /// For each top-level module of `src/`, the modules its code names, with
 /// one file that names each.
