@@ -218,7 +218,7 @@ fn planted_faults_are_found() {
     .collect();
     let mut drawing: BTreeMap<String, BTreeMap<String, PathBuf>> = BTreeMap::new();
     fn arrow(d: &mut BTreeMap<String, BTreeMap<String, PathBuf>>, from: &str, to: &str) {
-        let file = PathBuf::from(format!("src/{from}/x.rs"));
+        let file = PathBuf::from(format!("{from} file"));
         d.entry(from.to_string())
             .or_default()
             .insert(to.to_string(), file);
@@ -235,8 +235,8 @@ fn planted_faults_are_found() {
     assert_eq!(
         got,
         [
-            "src/analytic/x.rs (analytic, row 2) uses height (row 3)",
-            "src/arith/x.rs (arith, row 1) uses descent (row 4)",
+            "analytic file (analytic, row 2) uses height (row 3)",
+            "arith file (arith, row 1) uses descent (row 4)",
             "module family is not in the layer table",
             "arith and descent use each other",
             "budget and error use each other",
