@@ -86,7 +86,10 @@ fn the_descent_takes_a_generator_from_an_own_level_heegner_point() {
     let cut = opts.clone();
     opts.heegner = Some(HeegnerOptions::default());
     let (without, r) = heegner_supplies_the_generator(&e, &cut, &opts, "(-30, -1)");
-    assert_eq!((without.rank_lower(), without.rank_upper()), (1, 1));
+    assert_eq!(
+        (without.rank_bounds().lower(), without.rank_bounds().upper()),
+        (1, 1)
+    );
     let PointOrigin::Heegner(h) = r.points_origin() else {
         panic!("{:?}", r.points_origin());
     };

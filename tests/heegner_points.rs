@@ -4,9 +4,7 @@
 use num_bigint::BigInt;
 
 use isodescent::curve::Curve;
-use isodescent::heegner::{
-    class_number, heegner_forms, heegner_point, HeegnerOptions, HeegnerOutcome,
-};
+use isodescent::heegner::{class_number, heegner_point, HeegnerOptions, HeegnerOutcome};
 use isodescent::{Budget, DescentOptions};
 
 #[path = "common/heegner.rs"]
@@ -36,22 +34,12 @@ fn torsion(n: i64) -> Vec<isodescent::curve::Point> {
 const CLASS_NUMBERS: &str = include_str!("data/class_numbers.txt");
 
 #[test]
-fn class_numbers_and_heegner_forms_agree_with_the_class_number_formula() {
+fn class_numbers_agree_with_the_class_number_formula() {
     let mut checked = 0;
     for line in CLASS_NUMBERS.lines().filter(|l| !l.starts_with('#')) {
         let mut it = line.split_whitespace().map(|w| w.parse::<i64>().unwrap());
         let (d, h) = (it.next().unwrap(), it.next().unwrap() as usize);
         assert_eq!(class_number(d).unwrap(), h, "D = {d}");
-        let forms = heegner_forms(d, 32, &mut Budget::unlimited()).unwrap();
-        // One Heegner form per class (Gross 1984, from memory): h forms,
-        // each with 32 | A, the discriminant D and one common B mod 64.
-        assert_eq!(forms.len(), h, "D = {d}");
-        let b0 = forms[0].1.rem_euclid(64);
-        for &(a, b, c) in &forms {
-            assert_eq!(a % 32, 0);
-            assert_eq!(b * b - 4 * a * c, d);
-            assert_eq!(b.rem_euclid(64), b0);
-        }
         checked += 1;
     }
     assert!(checked > 200, "{checked}");
