@@ -13,12 +13,9 @@ use isodescent::analytic::{analyse, AnalyticOptions, Skip};
 use isodescent::descent3::{descend_3isogeny, Isogeny3Options};
 use isodescent::{Budget, Curve};
 
-fn sixth_power_free(k: i64) -> bool {
-    let n = k.abs();
-    (2..)
-        .take_while(|d: &i64| d.pow(6) <= n)
-        .all(|d| n % d.pow(6) != 0)
-}
+#[path = "support/census3.rs"]
+mod census3;
+use census3::sixth_power_free;
 
 fn main() {
     let args: Vec<i64> = std::env::args()

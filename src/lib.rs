@@ -20,6 +20,7 @@
 //! | 3 | [`curve`] | Weierstrass models, points, 2-torsion, the checked `ReducedModel`, 2-isogenies, rational 3-isogenies (Vélu), torsion, Tate's algorithm |
 //! | 3a | [`analytic`] | a_p and a_n, root number, real period, certified L-values, the BSD ledger |
 //! | 3b | [`height`] | canonical heights, the height pairing, regulators, LLL, lower bounds, saturation |
+//! | 3c | [`heegner`] | Heegner points on curves of analytic rank one: the congruent-number twists and the curve's own level |
 //! | 4 | [`conic`] | Legendre's equation, zeros and parametrisations of conics |
 //! | 4b | [`cubic`] | plane cubics `F(u, v) = c·w³` over Q_p, Eisenstein integers, quadratic fields (class groups, units) |
 //! | 5 | [`quartic`] | binary quartics, local solubility at every place, local images, point search |
@@ -30,9 +31,12 @@
 //! | 9 | [`output`] | reports as text and JSON, input lines as curves, batches |
 //! | 10 | [`family`] | twists, congruent numbers, boxes; ordered, parallel, sharded scans |
 //!
-//! Layers 3a and 3b sit side by side: neither uses the other; so do 8 and 8b. The guides
-//! in `docs/` are included in, or cited from, the rustdoc of the module
-//! they explain; docs/references.md lists the literature cited as
+//! Layers 3a and 3b sit side by side: neither uses the other; so do 4 and
+//! 4b. Layer 3c sits above both 3a and 3b, and 8b above 8 (its
+//! `descend_by_isogeny` hands a curve with a point of order 2 to the
+//! 2-isogeny descent). `tests/layers.rs` checks the imports against this
+//! table. The guides in `docs/` are included in, or cited from, the
+//! rustdoc of the module they explain; docs/references.md lists the literature cited as
 //! `[Author00]`, and docs/performance.md the measured figures with the
 //! commands that produced them.
 //!

@@ -58,18 +58,9 @@ fn substitute(c: &[BigInt; 10], m: &[[i64; 3]; 3]) -> [BigInt; 10] {
     PLANE_CUBIC_MONOMIALS.map(|(i, j, k)| total.get(&[i, j, k]).cloned().unwrap_or_default())
 }
 
-/// A deterministic stream of small integers (a linear congruential
-/// generator; common practice).
-struct Lcg(u64);
-impl Lcg {
-    fn next(&mut self, m: i64) -> i64 {
-        self.0 = self
-            .0
-            .wrapping_mul(6364136223846793005)
-            .wrapping_add(1442695040888963407);
-        ((self.0 >> 33) % (2 * m as u64 + 1)) as i64 - m
-    }
-}
+#[path = "common/lcg.rs"]
+mod lcg;
+use lcg::Lcg;
 
 /// A random matrix of determinant ±1: a product of elementary operations.
 fn unimodular(rng: &mut Lcg) -> [[i64; 3]; 3] {

@@ -224,18 +224,9 @@ fn normal_form_removes_scalings() {
     assert_eq!(m.change.u(), &BigRational::new(5.into(), 1.into()));
 }
 
-/// A deterministic stream of small integers (common practice: a linear
-/// congruential generator).
-struct Lcg(u64);
-impl Lcg {
-    fn next(&mut self, m: i64) -> i64 {
-        self.0 = self
-            .0
-            .wrapping_mul(6364136223846793005)
-            .wrapping_add(1442695040888963407);
-        ((self.0 >> 33) % (2 * m as u64 + 1)) as i64 - m
-    }
-}
+#[path = "common/lcg.rs"]
+mod lcg;
+use lcg::Lcg;
 
 fn kernels(isos: &[Isogeny3]) -> Vec<(BigInt, BigInt, BigInt)> {
     let mut v: Vec<_> = isos

@@ -71,18 +71,9 @@ fn cassels_ratio_on_hundreds_of_curves() {
     assert!(positive >= 20, "{positive}");
 }
 
-/// A deterministic stream of small integers (common practice: a linear
-/// congruential generator).
-struct Lcg(u64);
-impl Lcg {
-    fn next(&mut self, m: i64) -> i64 {
-        self.0 = self
-            .0
-            .wrapping_mul(6364136223846793005)
-            .wrapping_add(1442695040888963407);
-        ((self.0 >> 33) % (2 * m as u64 + 1)) as i64 - m
-    }
-}
+#[path = "common/lcg.rs"]
+mod lcg;
+use lcg::Lcg;
 
 fn dims(r: &Isogeny3GeneralReport) -> (usize, usize, usize) {
     (

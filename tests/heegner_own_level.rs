@@ -12,9 +12,15 @@
 use isodescent::curve::{global_local_data, Curve};
 use isodescent::descent::PointOrigin;
 use isodescent::heegner::{heegner_point, HeegnerOptions, HeegnerOutcome};
-use isodescent::height::{saturate, HeightContext, SaturationOptions};
-use isodescent::{descend, Budget, DescentOptions};
+use isodescent::height::{saturate, SaturationOptions};
+use isodescent::{Budget, DescentOptions};
 use num_bigint::BigInt;
+
+#[path = "common/heegner.rs"]
+mod heegner_common;
+use heegner_common::{
+    heegner_found, heegner_supplies_the_generator, height_index, searched_generator,
+};
 
 fn curve(a: i64, b: i64) -> Curve {
     Curve::from_ints([0, a, 0, b, 0]).unwrap()
@@ -35,20 +41,9 @@ fn own_level_heegner_points_are_multiples_of_the_searched_generators() {
         (-30, -23),
     ] {
         let e = curve(a, b);
-        let mut opts = DescentOptions::default();
-        opts.heegner = None;
-        let r = descend(&e, &opts).unwrap();
-        assert!(r.generators().is_some(), "({a}, {b})");
-        let p = r.points()[0].clone();
-        let HeegnerOutcome::Found(h) = heegner_point(
-            &e,
-            None,
-            &HeegnerOptions::default(),
-            &mut Budget::unlimited(),
-        )
-        .unwrap() else {
-            panic!("({a}, {b}): no Heegner point");
-        };
+        let what = format!("({a}, {b})");
+        let (_, p) = searched_generator(&e, &what);
+        let h = heegner_found(&e, &what);
         let local = global_local_data(e.coefficients(), &mut Budget::unlimited()).unwrap();
         assert_eq!(BigInt::from(h.level), local.conductor, "({a}, {b})");
         assert!(e.contains(&h.point) && e.contains(&h.trace_point));
@@ -60,13 +55,7 @@ fn own_level_heegner_points_are_multiples_of_the_searched_generators() {
         // Fundamental D < 0 with every prime of N split: D ≡ 1 (mod 8)
         // here (2 | N for every curve of this shape).
         assert_eq!(h.discriminant.rem_euclid(8), 1, "({a}, {b})");
-        let ctx = HeightContext::new(&e, &mut Budget::unlimited()).unwrap();
-        let ratio = ctx.height(&h.point).unwrap().value() / ctx.height(&p).unwrap().value();
-        let m = ratio.sqrt().round();
-        assert!(
-            m >= 1.0 && (ratio - m * m).abs() < 1e-6 * ratio.max(1.0),
-            "({a}, {b}): height ratio {ratio}"
-        );
+        let (_, m) = height_index(&e, &h.point, &p, &what);
         // Saturation of the Heegner point alone gives a generator of the
         // same height as the searched one.
         let s = saturate(
@@ -94,28 +83,17 @@ fn the_descent_takes_a_generator_from_an_own_level_heegner_point() {
     opts.four_coverings = false;
     opts.deep_search = None;
     opts.heegner = None;
-    let without = descend(&e, &opts).unwrap();
-    assert!(
-        without.points().is_empty(),
-        "the short search found a point"
-    );
+    let cut = opts.clone();
+    opts.heegner = Some(HeegnerOptions::default());
+    let (without, r) = heegner_supplies_the_generator(&e, &cut, &opts, "(-30, -1)");
     assert_eq!(
         (without.rank_bounds().lower(), without.rank_bounds().upper()),
         (1, 1)
     );
-    opts.heegner = Some(HeegnerOptions::default());
-    let r = descend(&e, &opts).unwrap();
     let PointOrigin::Heegner(h) = r.points_origin() else {
         panic!("{:?}", r.points_origin());
     };
     assert_eq!(h.level, 14464);
-    assert!(r.generators().is_some());
-    assert!(e.contains(&r.points()[0]));
-    let l = r.sha_ledger().expect("ledger");
-    assert!(
-        l.is_square_within_error && l.nearest_square.is_some(),
-        "{l:?}"
-    );
 }
 
 #[test]

@@ -4,10 +4,14 @@
 use num_bigint::BigInt;
 
 use isodescent::curve::Curve;
-use isodescent::descent::PointOrigin;
 use isodescent::heegner::{class_number, heegner_point, HeegnerOptions, HeegnerOutcome};
-use isodescent::height::HeightContext;
-use isodescent::{descend, Budget, DescentOptions};
+use isodescent::{Budget, DescentOptions};
+
+#[path = "common/heegner.rs"]
+mod heegner_common;
+use heegner_common::{
+    heegner_found, heegner_supplies_the_generator, height_index, searched_generator,
+};
 
 fn congruent(n: i64) -> Curve {
     Curve::from_ints([0, 0, 0, -n * n, 0]).unwrap()
@@ -45,16 +49,7 @@ fn class_numbers_agree_with_the_class_number_formula() {
 fn heegner_points_lie_exactly_on_the_curves_and_have_infinite_order() {
     for n in [7i64, 15, 23, 31, 39, 47, 55, 71, 79, 127, 263] {
         let e = congruent(n);
-        let out = heegner_point(
-            &e,
-            None,
-            &HeegnerOptions::default(),
-            &mut Budget::unlimited(),
-        )
-        .unwrap();
-        let HeegnerOutcome::Found(h) = out else {
-            panic!("n = {n}: {out:?}");
-        };
+        let h = heegner_found(&e, &format!("n = {n}"));
         // Exact checks: both points satisfy the equation; neither is
         // torsion (E_n(Q)_tors = E_n[2], Koblitz, Introduction to
         // Elliptic Curves and Modular Forms, Prop. I.9.17; from memory).
@@ -110,27 +105,10 @@ fn heegner_points_agree_with_the_searched_generators() {
     // descent). n = 5, 6, 13, 14, 21, 22 use the order of conductor 4.
     for n in [7i64, 15, 23, 31, 5, 6, 13, 14, 21, 22] {
         let e = congruent(n);
-        let mut opts = DescentOptions::default();
-        opts.heegner = None;
-        let r = descend(&e, &opts).unwrap();
-        assert!(r.generators().is_some(), "n = {n}");
-        let p = r.points()[0].clone();
-        let HeegnerOutcome::Found(h) = heegner_point(
-            &e,
-            None,
-            &HeegnerOptions::default(),
-            &mut Budget::unlimited(),
-        )
-        .unwrap() else {
-            panic!("n = {n}");
-        };
-        let ctx = HeightContext::new(&e, &mut Budget::unlimited()).unwrap();
-        let ratio = ctx.height(&h.trace_point).unwrap().value() / ctx.height(&p).unwrap().value();
-        let m = ratio.sqrt().round();
-        assert!(
-            (ratio - m * m).abs() < 1e-6 * ratio.max(1.0),
-            "n = {n}: ratio {ratio}"
-        );
+        let what = format!("n = {n}");
+        let (r, p) = searched_generator(&e, &what);
+        let h = heegner_found(&e, &what);
+        let (ctx, m) = height_index(&e, &h.trace_point, &p, &what);
         let mp = ctx.multiple(&p, &BigInt::from(m as i64)).unwrap();
         let torsion = r.torsion().points().to_vec();
         let ok = torsion.iter().any(|t| {
@@ -157,28 +135,14 @@ fn the_descent_proves_a_heegner_generator_and_the_ledger_gives_a_square() {
     // order of conductor 4.
     for n in [367i64, 503, 599, 157, 677, 478, 862] {
         let e = congruent(n);
-        let mut opts = DescentOptions::default();
-        opts.heegner = None;
+        let mut without = DescentOptions::default();
+        without.heegner = None;
         // The Heegner step runs before the deep search (which finds some
         // of these generators, slower): without both, no point is known.
-        opts.deep_search = None;
-        let without = descend(&e, &opts).unwrap();
-        assert!(
-            without.points().is_empty(),
-            "n = {n}: the search found a point"
-        );
-        let r = descend(&e, &DescentOptions::default()).unwrap();
-        assert!(
-            matches!(r.points_origin(), PointOrigin::Heegner(_)),
-            "n = {n}"
-        );
-        assert!(r.generators().is_some(), "n = {n}");
-        assert!(e.contains(&r.points()[0]));
+        without.deep_search = None;
+        let with = DescentOptions::default();
+        let (_, r) = heegner_supplies_the_generator(&e, &without, &with, &format!("n = {n}"));
         let l = r.sha_ledger().expect("ledger");
-        assert!(
-            l.is_square_within_error && l.nearest_square.is_some(),
-            "n = {n}: {l:?}"
-        );
         assert!(l.value.error() < 1e-6);
     }
 }
@@ -193,16 +157,7 @@ fn conductor_four_heegner_points_for_n_5_and_6_mod_8() {
     // 2-torsion (E_n(Q)_tors = E_n[2]: Koblitz, Prop. I.9.17; from memory).
     for n in [5i64, 6, 13, 14, 29, 30, 37, 38, 101, 102, 157, 158] {
         let e = congruent(n);
-        let out = heegner_point(
-            &e,
-            None,
-            &HeegnerOptions::default(),
-            &mut Budget::unlimited(),
-        )
-        .unwrap();
-        let HeegnerOutcome::Found(h) = out else {
-            panic!("n = {n}: {out:?}");
-        };
+        let h = heegner_found(&e, &format!("n = {n}"));
         assert_eq!(h.discriminant, -64 * n, "n = {n}");
         assert_eq!(h.conductor, 4);
         assert_eq!(h.level, 32);
@@ -253,19 +208,8 @@ fn the_heegner_generator_for_157_matches_the_published_triangle() {
     let y = sq(&rhs).expect("a² + b² and x³ − n²x are squares");
     let tri = isodescent::curve::Point::new(x, y);
     assert!(e.contains(&tri));
-    let HeegnerOutcome::Found(h) = heegner_point(
-        &e,
-        None,
-        &HeegnerOptions::default(),
-        &mut Budget::unlimited(),
-    )
-    .unwrap() else {
-        panic!("157");
-    };
-    let ctx = HeightContext::new(&e, &mut Budget::unlimited()).unwrap();
-    let ratio = ctx.height(&tri).unwrap().value() / ctx.height(&h.point).unwrap().value();
-    let m = ratio.sqrt().round();
-    assert!((ratio - m * m).abs() < 1e-6 * ratio, "ratio {ratio}");
+    let h = heegner_found(&e, "157");
+    let (ctx, m) = height_index(&e, &tri, &h.point, "157");
     let mg = ctx.multiple(&h.point, &BigInt::from(m as i64)).unwrap();
     let ok = torsion(157).iter().any(|t| {
         let plus = e.add(&mg, t);

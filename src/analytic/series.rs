@@ -129,6 +129,10 @@ impl<'a> Series<'a> {
     /// `Λ(1)` computed with the splitting parameter `A`:
     /// `Σ a_n (e^{−x_nA} + w·e^{−x_n/A})/x_n`; equal to `Λ(1)` for every
     /// `A > 0` exactly when the conductor and `w` are right.
+    ///
+    /// # Errors
+    /// [`Error::InvalidArgument`] when `split` is not a positive finite
+    /// number; [`Error::BudgetExhausted`] when the budget runs out.
     pub fn completed_value_split(
         &self,
         w: i8,
@@ -150,6 +154,10 @@ impl<'a> Series<'a> {
 
     /// `S_r = Σ a_n G_r(x_n)` with its truncation bound; `Λ^{(r)}(1) =
     /// (1 + (−1)^r w)·S_r`.
+    ///
+    /// # Errors
+    /// [`Error::InvalidArgument`] for `r > 3`; [`Error::BudgetExhausted`]
+    /// when the budget runs out.
     pub fn g_sum(&self, r: usize, budget: &mut Budget) -> Result<Certified> {
         if r > 3 {
             return Err(Error::InvalidArgument {

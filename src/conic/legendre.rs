@@ -178,6 +178,9 @@ pub fn solve_diagonal_with_primes(
 /// let s = solve_diagonal_rational(&q(1, 2), &q(1, 2), &q(-1, 1), &mut Budget::unlimited()).unwrap();
 /// assert!(s.is_soluble());
 /// ```
+///
+/// # Errors
+/// As [`solve_diagonal`].
 pub fn solve_diagonal_rational(
     a: &BigRational,
     b: &BigRational,

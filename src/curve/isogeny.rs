@@ -72,6 +72,9 @@ impl TwoIsogeny {
     }
 
     /// The isogeny E′ → E″ built the same way from E′ (E″ is E scaled by 2).
+    ///
+    /// # Errors
+    /// As [`TwoIsogeny::from_reduced`].
     pub fn next(&self) -> Result<TwoIsogeny> {
         TwoIsogeny::from_reduced(&self.codomain)
     }

@@ -113,16 +113,21 @@ impl Isogeny3Model {
     /// [`Error::SingularCurve`] if the data give a singular curve (never
     /// for a model built here); the size limit of [`Curve::new`].
     pub fn curve(&self) -> Result<Curve> {
-        let z = BigInt::zero;
-        let d = &self.d;
-        Curve::from_bigints([
-            z(),
-            d * &self.alpha * &self.alpha,
-            z(),
-            BigInt::from(2) * d * &self.alpha * &self.beta,
-            d * &self.beta * &self.beta,
-        ])
+        flex_curve(&self.d, &self.alpha, &self.beta)
     }
+}
+
+/// The curve y² = x³ + D(αx + β)² = x³ + Dα²x² + 2Dαβx + Dβ² (for
+/// [`Isogeny3Model::curve`] and the sides of the descent).
+pub(crate) fn flex_curve(d: &BigInt, alpha: &BigInt, beta: &BigInt) -> Result<Curve> {
+    let z = BigInt::zero;
+    Curve::from_bigints([
+        z(),
+        d * alpha * alpha,
+        z(),
+        BigInt::from(2) * d * alpha * beta,
+        d * beta * beta,
+    ])
 }
 
 /// Vélu's data of a kernel {O, ±Q} on a short model (module docs).

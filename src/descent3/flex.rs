@@ -36,7 +36,10 @@ use num_traits::{One, Signed, Zero};
 
 use super::f3::{self, Span};
 use super::side::{SideField, SideSetup};
-use super::{budget_for, Generator3, Isogeny3Options, Rank3Proof, TamagawaRatio};
+use super::{
+    analytic_rank, budget_for, cut_by_budget, Generator3, Isogeny3Options, Rank3Proof,
+    TamagawaRatio,
+};
 use crate::arith::factor;
 use crate::budget::Budget;
 use crate::cubic::quadratic::FieldLimits;
@@ -44,7 +47,6 @@ use crate::cubic::{PlaneCubic, PlaneCubicWitness};
 use crate::curve::{global_local_data, Curve, Isogeny3, Isogeny3Model, Point, TorsionGroup};
 use crate::error::{Error, Result};
 use crate::height::Saturation;
-use crate::local::Prime;
 
 /// One side y² = x³ + D(αx + β)² with its group.
 #[derive(Debug, Clone)]
@@ -76,15 +78,7 @@ impl FlexSide {
 
     /// The curve y² = x³ + D(αx + β)².
     pub(crate) fn curve(&self) -> Result<Curve> {
-        let d = &self.d;
-        let z = BigInt::zero;
-        Curve::from_bigints([
-            z(),
-            d * &self.alpha * &self.alpha,
-            z(),
-            BigInt::from(2) * d * &self.alpha * &self.beta,
-            d * &self.beta * &self.beta,
-        ])
+        crate::curve::isogeny3::flex_curve(&self.d, &self.alpha, &self.beta)
     }
 
     /// The plane cubic of the class `e` (module docs).
@@ -153,36 +147,6 @@ impl FlexSide {
 /// Witnesses of the local solubility of a Selmer basis vector.
 pub(crate) type FlexWitness = (Vec<u8>, BigInt, PlaneCubicWitness);
 
-/// The subgroup of `l` soluble at p (as `side::intersect_local`, with the
-/// plane-cubic test).
-fn intersect(
-    side: &FlexSide,
-    l: &[Vec<u8>],
-    p: &Prime,
-    budget: &mut Budget,
-) -> Result<Vec<Vec<u8>>> {
-    let n = side.setup.dim();
-    let mut reps: Vec<Vec<u8>> = vec![vec![0u8; n]];
-    let mut kept = Vec::new();
-    for b in l {
-        let mut hit = None;
-        for r in &reps {
-            let cand = f3::sub(b, r);
-            if side.plane_cubic(&cand)?.soluble_at(p, budget)?.is_some() {
-                hit = Some(cand);
-                break;
-            }
-        }
-        match hit {
-            Some(v) => kept.push(v),
-            None => {
-                reps = f3::with_multiples(&reps, b, p.get())?;
-            }
-        }
-    }
-    Ok(kept)
-}
-
 /// The Selmer computation of one side.
 #[derive(Debug, Clone)]
 pub(crate) struct FlexSelmer {
@@ -199,31 +163,13 @@ fn selmer_side(
     search: i64,
     budget: &mut Budget,
 ) -> Result<FlexSelmer> {
-    let n = side.setup.dim();
-    let mut l: Vec<Vec<u8>> = (0..n)
-        .map(|i| {
-            let mut v = vec![0u8; n];
-            v[i] = 1;
-            v
-        })
-        .collect();
-    for p in primes {
-        l = intersect(&side, &l, &Prime::new(p.clone())?, budget)?;
-    }
-    let mut witnesses = Vec::new();
-    for v in &l {
-        let cubic = side.plane_cubic(v)?;
-        for p in primes {
-            match cubic.soluble_at(&Prime::new(p.clone())?, budget)? {
-                Some(w) => witnesses.push((v.clone(), p.clone(), w)),
-                None => {
-                    return Err(Error::Internal {
-                        check: format!("a Selmer basis vector is soluble at {p}"),
-                    })
-                }
-            }
-        }
-    }
+    let curve = flex_equation(&side.d, &side.alpha, &side.beta);
+    let f3::SelmerBasis {
+        basis: l,
+        witnesses,
+    } = f3::selmer_basis(side.setup.dim(), primes, &curve, |v, p| {
+        side.plane_cubic(v)?.soluble_at(p, budget)
+    })?;
     let mut selmer = Span::default();
     for v in &l {
         selmer.insert(v);
@@ -338,50 +284,21 @@ pub(crate) fn flex_descent(
 /// Cassels' ratio for φ: E → E′ (the formula of the module docs of
 /// `descent3`), with φ normalized between the short model of E and
 /// Vélu's model of E′.
-fn cassels(
-    iso: &Isogeny3,
-    d: &BigInt,
-    d1: &BigInt,
-    sel_phi: usize,
-    sel_phihat: usize,
-    budget: &mut Budget,
-) -> Result<TamagawaRatio> {
+fn cassels(iso: &Isogeny3, fd: &FlexDescent, budget: &mut Budget) -> Result<TamagawaRatio> {
+    let (d, d1) = (&fd.sides[0].side.d, &fd.sides[1].side.d);
+    let sel_phi = fd.sides[1].selmer_basis.len();
+    let sel_phihat = fd.sides[0].selmer_basis.len();
     let (a, b) = iso.short_coefficients();
     let z = BigRational::zero;
     let l1 = global_local_data(&[z(), z(), z(), a.clone(), b.clone()], budget)?;
     let l2 = global_local_data(iso.codomain().coefficients(), budget)?;
-    let tam = |l: &crate::curve::GlobalLocalData| -> Vec<(BigInt, u64)> {
-        l.primes
-            .iter()
-            .map(|r| (r.prime.get().clone(), r.tamagawa))
-            .collect()
-    };
-    let t1 = tam(&l1);
-    let t2 = tam(&l2);
-    let prod = |t: &[(BigInt, u64)]| t.iter().map(|(_, c)| BigInt::from(*c)).product::<BigInt>();
-    let alpha = &l2.change[0] / &l1.change[0];
-    let tors_e = if d.is_one() { 3 } else { 1 };
-    let tors_e2 = if d1.is_one() { 3 } else { 1 };
-    let real_e = if d.is_positive() { 3 } else { 1 };
-    let formula = BigRational::new(
-        BigInt::from(tors_e) * prod(&t2),
-        BigInt::from(tors_e2) * prod(&t1),
-    ) * alpha.abs()
-        / BigRational::from_integer(BigInt::from(real_e));
-    let dd = sel_phi as i64 - sel_phihat as i64;
-    let three = BigInt::from(3);
-    let selmer_ratio = if dd >= 0 {
-        BigRational::from_integer(three.pow(dd as u32))
-    } else {
-        BigRational::new(BigInt::one(), three.pow((-dd) as u32))
-    };
-    Ok(TamagawaRatio {
-        selmer_ratio,
-        formula,
-        tamagawa: t1,
-        tamagawa_isogenous: t2,
-        alpha,
-    })
+    Ok(super::cassels_ratio(
+        &l1,
+        l2,
+        (d.is_one(), d1.is_one()),
+        d.is_positive(),
+        (sel_phi, sel_phihat),
+    ))
 }
 
 /// One side of [`Isogeny3GeneralReport`]: the curve y² = x³ + D(αx + β)²
@@ -543,7 +460,69 @@ pub fn descend_3isogeny_general(
     };
     let iso = &isos[idx];
     let mut cut = Vec::new();
-    // Points on the given curve.
+    let points = points_on_given_curve(e, iso, &fd)?;
+    let mut tb = budget_for(opts.factor_units, start, opts.time_limit);
+    let tamagawa = if opts.tamagawa_check {
+        let ratio = cassels(iso, &fd, &mut tb);
+        cut_by_budget(ratio, "Tamagawa check", &mut cut)?
+    } else {
+        None
+    };
+    let (lower, upper) = (fd.rank_lower, fd.rank_upper);
+    let mut rank = (lower == upper).then_some((lower, Rank3Proof::Descent));
+    if let (Some(ao), true) = (&opts.analytic, lower < upper) {
+        let mut ab = budget_for(u64::MAX, start, opts.time_limit);
+        let data = global_local_data(e.coefficients(), &mut tb)
+            .and_then(|l| crate::analytic::analyse(e, &l, ao, &mut ab));
+        if let Some(data) = cut_by_budget(data, "analytic side", &mut cut)? {
+            if let Some(r) = analytic_rank(&data, lower, upper)? {
+                rank = Some(r);
+            }
+        }
+    }
+    // Independent points with heights and, when the rank is proven and as
+    // many are known, their saturation (module `generators`; 3-saturation
+    // is left to the height layer's sieve on this path).
+    let mut gb = budget_for(opts.factor_units, start, opts.time_limit);
+    let torsion = crate::curve::torsion(e);
+    let (found, stop) = super::generators::generators(
+        e,
+        &points,
+        rank.map(|(r, _)| r),
+        opts.saturation.as_ref(),
+        false,
+        &mut gb,
+    );
+    if let Some(err) = stop {
+        let step = "generators (heights, saturation)";
+        // A height step the height layer cannot certify on this model
+        // (e.g. Tate's series on E(R)) leaves the bounds proven: the step
+        // is reported as not done, with its reason.
+        if let Err(err) = cut_by_budget::<()>(Err(err), step, &mut cut) {
+            cut.push(format!("{step}: {err}"));
+        }
+    }
+    Ok(Isogeny3GeneralReport {
+        curve: e.clone(),
+        model: iso.model().clone(),
+        isogenous_model: iso.codomain_model().clone(),
+        sides: [export(&fd.sides[0]), export(&fd.sides[1])],
+        primes: fd.primes,
+        rank_lower: lower,
+        rank_upper: upper,
+        rank,
+        points,
+        tamagawa,
+        cut,
+        torsion,
+        independent_points: found.independent,
+        saturation: found.saturation,
+    })
+}
+
+/// The points found on both models of `fd`, moved to the given curve
+/// (through φ̂ for the isogenous side) and checked on it.
+fn points_on_given_curve(e: &Curve, iso: &Isogeny3, fd: &FlexDescent) -> Result<Vec<Point>> {
     let mut points = Vec::new();
     for (side, pts) in fd.sides.iter().enumerate() {
         for p in &pts.points {
@@ -562,90 +541,7 @@ pub fn descend_3isogeny_general(
             }
         }
     }
-    let mut tb = budget_for(opts.factor_units, start, opts.time_limit);
-    let tamagawa = if opts.tamagawa_check {
-        match cassels(
-            iso,
-            &fd.sides[0].side.d,
-            &fd.sides[1].side.d,
-            fd.sides[1].selmer_basis.len(),
-            fd.sides[0].selmer_basis.len(),
-            &mut tb,
-        ) {
-            Ok(t) => Some(t),
-            Err(Error::BudgetExhausted { .. }) | Err(Error::FactorBudgetExhausted { .. }) => {
-                cut.push("Tamagawa check".to_string());
-                None
-            }
-            Err(err) => return Err(err),
-        }
-    } else {
-        None
-    };
-    let (lower, upper) = (fd.rank_lower, fd.rank_upper);
-    let mut rank = (lower == upper).then_some((lower, Rank3Proof::Descent));
-    if let (Some(ao), true) = (&opts.analytic, lower < upper) {
-        let mut ab = budget_for(u64::MAX, start, opts.time_limit);
-        let data = global_local_data(e.coefficients(), &mut tb)
-            .and_then(|l| crate::analytic::analyse(e, &l, ao, &mut ab));
-        match data {
-            Ok(data) => {
-                if let Some((r, theorem)) = data.rank_proven() {
-                    if r < lower || r > upper {
-                        return Err(Error::Internal {
-                            check: format!(
-                                "the analytic rank {r} lies in the descent's bounds [{lower}, {upper}]"
-                            ),
-                        });
-                    }
-                    rank = Some((r, Rank3Proof::Analytic(theorem)));
-                }
-            }
-            Err(Error::BudgetExhausted { .. }) | Err(Error::FactorBudgetExhausted { .. }) => {
-                cut.push("analytic side".to_string())
-            }
-            Err(err) => return Err(err),
-        }
-    }
-    // Independent points with heights and, when the rank is proven and as
-    // many are known, their saturation (module `generators`; 3-saturation
-    // is left to the height layer's sieve on this path).
-    let mut gb = budget_for(opts.factor_units, start, opts.time_limit);
-    let torsion = crate::curve::torsion(e);
-    let (found, stop) = super::generators::generators(
-        e,
-        &points,
-        rank.map(|(r, _)| r),
-        opts.saturation.as_ref(),
-        false,
-        &mut gb,
-    );
-    match stop {
-        None => {}
-        Some(Error::BudgetExhausted { .. }) | Some(Error::FactorBudgetExhausted { .. }) => {
-            cut.push("generators (heights, saturation)".to_string())
-        }
-        // A height step the height layer cannot certify on this model
-        // (e.g. Tate's series on E(R)) leaves the bounds proven: the step
-        // is reported as not done, with its reason.
-        Some(err) => cut.push(format!("generators (heights, saturation): {err}")),
-    }
-    Ok(Isogeny3GeneralReport {
-        curve: e.clone(),
-        model: iso.model().clone(),
-        isogenous_model: iso.codomain_model().clone(),
-        sides: [export(&fd.sides[0]), export(&fd.sides[1])],
-        primes: fd.primes,
-        rank_lower: lower,
-        rank_upper: upper,
-        rank,
-        points,
-        tamagawa,
-        cut,
-        torsion,
-        independent_points: found.independent,
-        saturation: found.saturation,
-    })
+    Ok(points)
 }
 
 impl Isogeny3GeneralReport {
@@ -778,45 +674,13 @@ impl std::fmt::Display for Isogeny3GeneralReport {
             "  rank bounds: {} ≤ rank ≤ {} (exact sequence of the 3-isogeny)",
             self.rank_lower, self.rank_upper
         )?;
-        match &self.rank {
-            Some((r, Rank3Proof::Descent)) => writeln!(f, "  rank = {r}: the bounds meet")?,
-            Some((r, Rank3Proof::Analytic(t))) => {
-                writeln!(f, "  rank = {r}: certified L-value, {}", t.name())?
-            }
-            None => writeln!(f, "  rank: not settled")?,
-        }
-        if let Some(t) = &self.tamagawa {
-            writeln!(
-                f,
-                "  Cassels' ratio: |Sel^φ|/|Sel^φ̂| = {}, Tamagawa side = {} ({})",
-                t.selmer_ratio,
-                t.formula,
-                if t.holds() { "equal" } else { "DIFFERENT" }
-            )?;
-        }
-        for p in &self.points {
-            writeln!(f, "  point on the given curve: {p}")?;
-        }
         let label = if self.points_generate() {
             "proven by saturation"
         } else {
             "independent; saturation not proven"
         };
-        super::write_generators(
-            f,
-            &self.torsion,
-            self.saturation.as_ref(),
-            &self.independent_points,
-            label,
-        )?;
-        if !self.cut.is_empty() {
-            writeln!(
-                f,
-                "  partial: cut short (a budget, the clock, or a height step not certified): {}",
-                self.cut.join(", ")
-            )?;
-        }
-        Ok(())
+        let cut_by = "(a budget, the clock, or a height step not certified)";
+        self.summary().write_tail(f, None, label, cut_by)
     }
 }
 
@@ -858,15 +722,7 @@ mod tests {
                 "k = {k}"
             );
             assert_eq!(fd.rank_upper, rep.rank_upper, "k = {k}");
-            let t = cassels(
-                iso,
-                &fd.sides[0].side.d,
-                &fd.sides[1].side.d,
-                fd.sides[1].selmer_basis.len(),
-                fd.sides[0].selmer_basis.len(),
-                &mut Budget::unlimited(),
-            )
-            .unwrap();
+            let t = cassels(iso, &fd, &mut Budget::unlimited()).unwrap();
             assert!(t.holds(), "k = {k}");
         }
     }
@@ -883,15 +739,7 @@ mod tests {
                     for iso in &isos {
                         let fd = flex_descent(iso, &quick(), 50, &mut Budget::unlimited()).unwrap();
                         n += 1;
-                        let t = cassels(
-                            iso,
-                            &fd.sides[0].side.d,
-                            &fd.sides[1].side.d,
-                            fd.sides[1].selmer_basis.len(),
-                            fd.sides[0].selmer_basis.len(),
-                            &mut Budget::unlimited(),
-                        )
-                        .unwrap();
+                        let t = cassels(iso, &fd, &mut Budget::unlimited()).unwrap();
                         nontrivial += usize::from(!t.selmer_ratio.is_one());
                         if !t.holds() {
                             bad.push((d, a, b, t.selmer_ratio, t.formula));

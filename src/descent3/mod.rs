@@ -82,9 +82,8 @@ use crate::curve::{
 };
 use crate::error::{Error, Result};
 use crate::height::{Saturation, SaturationOptions};
-use crate::local::Prime;
 use f3::Span;
-use side::{intersect_local, point_on, search_side, SideSetup};
+use side::{point_on, search_side, SideSetup};
 
 pub use flex::{descend_3isogeny_general, GeneralSide3, Isogeny3GeneralReport};
 pub use side::{ElementOrigin, Generator3, SideField};
@@ -356,12 +355,229 @@ fn budget_for(units: u64, start: Instant, limit: Option<Duration>) -> Budget {
 /// unit-size limits of the options.
 pub fn descend_3isogeny(e: &Curve, opts: &Isogeny3Options) -> Result<Isogeny3Report> {
     let start = Instant::now();
-    let (a, b, _short, ch) = short_integral_model(e);
-    if !a.is_zero() {
+    let Some(model) = mordell_model(e, opts, start)? else {
         return uncovered::refuse(
             e,
             &mut budget_for(opts.factor_units, start, opts.time_limit),
         );
+    };
+    let k = model.k.clone();
+    let mut found = Finds {
+        e,
+        k: &model.k,
+        change: &model.change,
+        points: Vec::new(),
+        complete: true,
+    };
+    let mut lb = budget_for(opts.local_units, start, opts.time_limit);
+    let mut sb = budget_for(opts.search_units, start, opts.time_limit);
+    let mut sides = Vec::with_capacity(2);
+    let mut spans: Vec<Span> = Vec::with_capacity(2);
+    for (idx, st) in model.setups.iter().enumerate() {
+        let budgets = (&mut lb, &mut sb);
+        let (side, images) = first_pass(st, idx, opts.search_height, budgets, &mut found)?;
+        sides.push(side);
+        spans.push(images);
+    }
+    let [mut s0, mut s1]: [Isogeny3Side; 2] = sides.try_into().map_err(|_| Error::Internal {
+        check: "two sides".into(),
+    })?;
+    let torsion = usize::from(s0.rational_kernel) + usize::from(s1.rational_kernel);
+    let rank_upper = (s0.selmer_dim() + s1.selmer_dim()).saturating_sub(torsion);
+    let mut rank_lower = (s0.image_dim + s1.image_dim).saturating_sub(torsion);
+    if rank_lower > rank_upper {
+        return Err(Error::Internal {
+            check: "the images of points lie in the Selmer groups".into(),
+        });
+    }
+    let mut cut = Vec::new();
+    let selmer_dims = (s0.selmer_dim(), s1.selmer_dim());
+    let (tamagawa, analytic) = rank_checks(
+        &k,
+        selmer_dims,
+        (rank_lower, rank_upper),
+        (opts, start),
+        &mut cut,
+    )?;
+    let mut rank = (rank_lower == rank_upper).then_some((rank_lower, Rank3Proof::Descent));
+    if analytic.is_some() {
+        rank = analytic;
+    }
+    // A proven rank above the points found, or bounds that the analytic
+    // side left apart: search the cubics again, higher.
+    let target = match rank {
+        Some((r, _)) => Some(r),
+        None if opts.analytic.is_some() => Some(rank_upper),
+        None => None,
+    };
+    if let Some(r) = target {
+        if r > rank_lower && opts.deep_search_height > opts.search_height {
+            let mut db = budget_for(opts.deep_search_units, start, opts.time_limit);
+            for (idx, side) in [&mut s0, &mut s1].into_iter().enumerate() {
+                let st = &model.setups[idx];
+                deep_pass(st, idx, side, &mut spans[idx], opts, &mut db, &mut found)?;
+            }
+            rank_lower = (s0.image_dim + s1.image_dim).saturating_sub(torsion);
+            if rank_lower > r {
+                return Err(Error::Internal {
+                    check: "the points found lie within the proven rank".into(),
+                });
+            }
+            if rank.is_none() && rank_lower == rank_upper {
+                rank = Some((rank_lower, Rank3Proof::Descent));
+            }
+        }
+    }
+    let Finds {
+        points: user_points,
+        complete: search_complete,
+        ..
+    } = found;
+    if !search_complete {
+        cut.insert(0, "point search".to_string());
+    }
+    let mut gb = budget_for(opts.factor_units, start, opts.time_limit);
+    let torsion = crate::curve::torsion(e);
+    // The points are those of the finds, one per dimension they add.
+    let descent_proves_three = torsion.order() % 3 != 0
+        && rank.is_some_and(|(r, _)| r == rank_lower && user_points.len() == r);
+    let (gens, stop) = generators::generators(
+        e,
+        &user_points,
+        rank.map(|(r, _)| r),
+        opts.saturation.as_ref(),
+        descent_proves_three,
+        &mut gb,
+    );
+    if let Some(err) = stop {
+        cut_by_budget::<()>(Err(err), "generators (heights, saturation)", &mut cut)?;
+    }
+    let sha_dim = rank.map(|(r, _)| rank_upper - r);
+    Ok(Isogeny3Report {
+        curve: e.clone(),
+        k,
+        change: model.change,
+        sides: [s0, s1],
+        rank_lower,
+        rank_upper,
+        points: user_points,
+        tamagawa,
+        rank,
+        sha_dim,
+        search_complete,
+        cut,
+        torsion,
+        independent_points: gens.independent,
+        saturation: gens.saturation,
+        three_saturated_by_descent: gens.three_by_descent,
+    })
+}
+
+/// A proven rank with what proved it.
+type ProvenRank = Option<(usize, Rank3Proof)>;
+
+/// Step three of [`descend_3isogeny`]: Tate's algorithm on y² = x³ + k
+/// when Cassels' check or the analytic side needs it, Cassels' check
+/// (from the Selmer dimensions of both sides), and the rank the analytic
+/// side proves when the bounds differ; steps cut by a budget are added to
+/// `cut`.
+fn rank_checks(
+    k: &BigInt,
+    selmer_dims: (usize, usize),
+    (rank_lower, rank_upper): (usize, usize),
+    (opts, start): (&Isogeny3Options, Instant),
+    cut: &mut Vec<String>,
+) -> Result<(Option<TamagawaRatio>, ProvenRank)> {
+    let mut tb = budget_for(opts.factor_units, start, opts.time_limit);
+    let needs_analytic = opts.analytic.is_some() && rank_lower < rank_upper;
+    let local = if opts.tamagawa_check || needs_analytic {
+        let z = BigInt::zero;
+        let ek = Curve::from_bigints([z(), z(), z(), z(), k.clone()])?;
+        let data = global_local_data(ek.coefficients(), &mut tb).map(|l| (l, ek));
+        cut_by_budget(data, "local data (Tate's algorithm)", cut)?
+    } else {
+        None
+    };
+    let tamagawa = match (&local, opts.tamagawa_check) {
+        (Some((l1, _)), true) => cut_by_budget(
+            tamagawa_ratio(k, l1, selmer_dims.1, selmer_dims.0, &mut tb),
+            "Tamagawa check",
+            cut,
+        )?,
+        _ => None,
+    };
+    let mut rank = None;
+    if let (Some(ao), Some((l1, ek)), true) = (&opts.analytic, &local, needs_analytic) {
+        let mut ab = budget_for(u64::MAX, start, opts.time_limit);
+        match analyse(ek, l1, ao, &mut ab) {
+            Ok(data) => {
+                if let Some(r) = analytic_rank(&data, rank_lower, rank_upper)? {
+                    rank = Some(r);
+                }
+            }
+            Err(Error::BudgetExhausted { .. }) => cut.push("analytic side".to_string()),
+            Err(err) => return Err(err),
+        }
+    }
+    Ok((tamagawa, rank))
+}
+
+/// A step's outcome with a budget stop turned into a cut: `Ok(Some)` on
+/// success, `Ok(None)` with `step` added to `cut` when a budget (work or
+/// factoring) or the clock stopped it, the error otherwise.
+pub(crate) fn cut_by_budget<T>(
+    outcome: Result<T>,
+    step: &str,
+    cut: &mut Vec<String>,
+) -> Result<Option<T>> {
+    match outcome {
+        Ok(t) => Ok(Some(t)),
+        Err(Error::BudgetExhausted { .. }) | Err(Error::FactorBudgetExhausted { .. }) => {
+            cut.push(step.to_string());
+            Ok(None)
+        }
+        Err(err) => Err(err),
+    }
+}
+
+/// The rank the analytic side proves, with its theorem, after checking
+/// that it lies within the descent's bounds; `None` when no theorem
+/// settles it.
+pub(crate) fn analytic_rank(
+    data: &crate::analytic::AnalyticData,
+    lower: usize,
+    upper: usize,
+) -> Result<Option<(usize, Rank3Proof)>> {
+    let Some((r, theorem)) = data.rank_proven() else {
+        return Ok(None);
+    };
+    if r < lower || r > upper {
+        return Err(Error::Internal {
+            check: format!("the analytic rank {r} lies in the descent's bounds [{lower}, {upper}]"),
+        });
+    }
+    Ok(Some((r, Rank3Proof::Analytic(theorem))))
+}
+
+/// The curve moved to y² = x³ + k (k sixth-power free), the change of
+/// model, the primes of S and the set-up of both sides, y² = x³ + k and
+/// y² = x³ − 27k.
+struct MordellModel {
+    k: BigInt,
+    change: ModelChange,
+    setups: [SideSetup; 2],
+}
+
+/// Step one of [`descend_3isogeny`]: the working model and both sides, or
+/// `None` when the curve does not have j = 0 (a ≠ 0 on its short model).
+fn mordell_model(
+    e: &Curve,
+    opts: &Isogeny3Options,
+    start: Instant,
+) -> Result<Option<MordellModel>> {
+    let (a, b, _short, ch) = short_integral_model(e);
+    if !a.is_zero() {
+        return Ok(None);
     }
     let mut fb = budget_for(opts.factor_units, start, opts.time_limit);
     let fac = factor(&b, &mut fb)?;
@@ -384,252 +600,132 @@ pub fn descend_3isogeny(e: &Curve, opts: &Isogeny3Options) -> Result<Isogeny3Rep
     let change = ch.then(&ModelChange::scaling(BigRational::from_integer(u.clone()))?);
     let k2 = BigInt::from(-27) * &k;
     // k = D·m² and −27k = D′·m′² with D, D′ square-free.
-    let side_of = |kk: &BigInt, dsq: &BigInt| -> Result<(SideField, BigInt)> {
-        let m = sqrt_int(&(kk / dsq))?;
-        let field = SideField::for_squarefree(dsq, opts.max_discriminant)?;
-        Ok((field, m))
-    };
     let square_class2 = if (&square_class % 3u32).is_zero() {
         -&square_class / 3
     } else {
         &square_class * -3
+    };
+    let side_of = |kk: &BigInt, dsq: &BigInt| -> Result<(SideField, BigInt)> {
+        let m = sqrt_int(&(kk / dsq))?;
+        let field = SideField::for_squarefree(dsq, opts.max_discriminant)?;
+        Ok((field, m))
     };
     let (field, m) = side_of(&k, &square_class)?;
     let (field2, m2) = side_of(&k2, &square_class2)?;
     let mut qb = budget_for(opts.local_units, start, opts.time_limit);
     let setups = [
         SideSetup::new(k.clone(), m, field, primes.clone(), opts.limits(), &mut qb)?,
-        SideSetup::new(
-            k2.clone(),
-            m2,
-            field2,
-            primes.clone(),
-            opts.limits(),
-            &mut qb,
-        )?,
+        SideSetup::new(k2, m2, field2, primes, opts.limits(), &mut qb)?,
     ];
-    let mut lb = budget_for(opts.local_units, start, opts.time_limit);
-    let mut sb = budget_for(opts.search_units, start, opts.time_limit);
-    let mut search_complete = true;
-    let mut sides = Vec::with_capacity(2);
-    let mut spans: Vec<Span> = Vec::with_capacity(2);
-    let mut user_points = Vec::new();
-    let inverse_change = &change;
-    for (idx, st) in setups.iter().enumerate() {
-        let n = st.dim();
-        let mut l: Vec<Vec<u8>> = (0..n)
-            .map(|i| {
-                let mut v = vec![0u8; n];
-                v[i] = 1;
-                v
-            })
-            .collect();
-        for p in &primes {
-            let pr = Prime::new(p.clone())?;
-            l = intersect_local(st, &l, &pr, &mut lb)?.0;
-        }
-        // Witnesses for the final basis.
-        let mut witnesses = Vec::new();
-        for v in &l {
-            for p in &primes {
-                let pr = Prime::new(p.clone())?;
-                match st.local(v, &pr, &mut lb)? {
-                    crate::cubic::CubicLocal::Soluble(w) => {
-                        witnesses.push((v.clone(), p.clone(), w))
-                    }
-                    crate::cubic::CubicLocal::Insoluble => {
-                        return Err(Error::Internal {
-                            check: format!(
-                                "a Selmer basis vector of y^2 = x^3 + {} is soluble at {p}",
-                                st.k
-                            ),
-                        })
-                    }
-                }
-            }
-        }
-        let mut images = Span::default();
-        let rational_kernel = st.field == SideField::Rational;
-        if rational_kernel {
-            let t = Point::new(BigRational::zero(), BigRational::from_integer(st.m.clone()));
-            images.insert(&st.image(&t)?);
-        }
-        let mut found = Vec::new();
-        match search_side(st, &l, &mut images, &mut found, opts.search_height, &mut sb) {
-            Ok(c) => search_complete &= c,
-            Err(Error::BudgetExhausted { .. }) => search_complete = false,
+    Ok(Some(MordellModel { k, change, setups }))
+}
+
+/// The points found so far on both sides, mapped to the given curve, and
+/// whether every search ran to its end.
+struct Finds<'a> {
+    e: &'a Curve,
+    k: &'a BigInt,
+    change: &'a ModelChange,
+    points: Vec<Point>,
+    complete: bool,
+}
+
+impl Finds<'_> {
+    /// Records a search's outcome (a budget stop makes it incomplete).
+    fn searched(&mut self, outcome: Result<bool>) -> Result<()> {
+        match outcome {
+            Ok(c) => self.complete &= c,
+            Err(Error::BudgetExhausted { .. }) => self.complete = false,
             Err(err) => return Err(err),
         }
-        let finds = register_finds(found, idx, &k, e, inverse_change, &mut user_points)?;
-        sides.push(Isogeny3Side {
-            k: st.k.clone(),
-            field: st.field,
-            generators: st.basis.clone(),
-            selmer_basis: l,
-            image_dim: images.dim(),
-            witnesses,
-            finds,
-            rational_kernel,
-            primes: primes.clone(),
-        });
-        spans.push(images);
+        Ok(())
     }
-    let [mut s0, mut s1]: [Isogeny3Side; 2] = sides.try_into().map_err(|_| Error::Internal {
-        check: "two sides".into(),
+}
+
+/// Step two of [`descend_3isogeny`] for side `idx`: the Selmer group with
+/// its witnesses, the image of the kernel point when it is rational, and
+/// the points of the first search; `budgets` are those of the local tests
+/// and of the search.
+fn first_pass(
+    st: &SideSetup,
+    idx: usize,
+    height: u64,
+    budgets: (&mut Budget, &mut Budget),
+    found: &mut Finds<'_>,
+) -> Result<(Isogeny3Side, Span)> {
+    let (lb, sb) = budgets;
+    let curve = format!("y^2 = x^3 + {}", st.k);
+    let selmer = f3::selmer_basis(st.dim(), &st.primes, &curve, |v, p| {
+        Ok(match st.local(v, p, lb)? {
+            crate::cubic::CubicLocal::Soluble(w) => Some(w),
+            crate::cubic::CubicLocal::Insoluble => None,
+        })
     })?;
-    let torsion = usize::from(s0.rational_kernel) + usize::from(s1.rational_kernel);
-    let rank_upper = (s0.selmer_dim() + s1.selmer_dim()).saturating_sub(torsion);
-    let mut rank_lower = (s0.image_dim + s1.image_dim).saturating_sub(torsion);
-    if rank_lower > rank_upper {
-        return Err(Error::Internal {
-            check: "the images of points lie in the Selmer groups".into(),
-        });
+    let mut images = Span::default();
+    let rational_kernel = st.field == SideField::Rational;
+    if rational_kernel {
+        let t = Point::new(BigRational::zero(), BigRational::from_integer(st.m.clone()));
+        images.insert(&st.image(&t)?);
     }
-    let mut tb = budget_for(opts.factor_units, start, opts.time_limit);
-    let needs_analytic = opts.analytic.is_some() && rank_lower < rank_upper;
-    let mut cut = Vec::new();
-    let local = if opts.tamagawa_check || needs_analytic {
-        let z = BigInt::zero;
-        let ek = Curve::from_bigints([z(), z(), z(), z(), k.clone()])?;
-        match global_local_data(ek.coefficients(), &mut tb) {
-            Ok(l) => Some((l, ek)),
-            Err(Error::BudgetExhausted { .. }) | Err(Error::FactorBudgetExhausted { .. }) => {
-                cut.push("local data (Tate's algorithm)".to_string());
-                None
-            }
-            Err(err) => return Err(err),
-        }
-    } else {
-        None
+    let mut points = Vec::new();
+    found.searched(search_side(
+        st,
+        &selmer.basis,
+        &mut images,
+        &mut points,
+        height,
+        sb,
+    ))?;
+    let finds = register_finds(points, idx, found)?;
+    let side = Isogeny3Side {
+        k: st.k.clone(),
+        field: st.field,
+        generators: st.basis.clone(),
+        selmer_basis: selmer.basis,
+        image_dim: images.dim(),
+        witnesses: selmer.witnesses,
+        finds,
+        rational_kernel,
+        primes: st.primes.clone(),
     };
-    let tamagawa = match (&local, opts.tamagawa_check) {
-        (Some((l1, _)), true) => {
-            match tamagawa_ratio(&k, l1, s1.selmer_dim(), s0.selmer_dim(), &mut tb) {
-                Ok(t) => Some(t),
-                Err(Error::BudgetExhausted { .. }) | Err(Error::FactorBudgetExhausted { .. }) => {
-                    cut.push("Tamagawa check".to_string());
-                    None
-                }
-                Err(err) => return Err(err),
-            }
-        }
-        _ => None,
-    };
-    let mut rank = (rank_lower == rank_upper).then_some((rank_lower, Rank3Proof::Descent));
-    if let (Some(ao), Some((l1, ek)), true) = (&opts.analytic, &local, needs_analytic) {
-        let mut ab = budget_for(u64::MAX, start, opts.time_limit);
-        match analyse(ek, l1, ao, &mut ab) {
-            Ok(data) => {
-                if let Some((r, theorem)) = data.rank_proven() {
-                    if r < rank_lower || r > rank_upper {
-                        return Err(Error::Internal {
-                            check: format!(
-                                "the analytic rank {r} lies in the descent's bounds [{rank_lower}, {rank_upper}]"
-                            ),
-                        });
-                    }
-                    rank = Some((r, Rank3Proof::Analytic(theorem)));
-                }
-            }
-            Err(Error::BudgetExhausted { .. }) => cut.push("analytic side".to_string()),
-            Err(err) => return Err(err),
-        }
-    }
-    // A proven rank above the points found, or bounds that the analytic
-    // side left apart: search the cubics again, higher.
-    let target = match rank {
-        Some((r, _)) => Some(r),
-        None if opts.analytic.is_some() => Some(rank_upper),
-        None => None,
-    };
-    if let Some(r) = target {
-        if r > rank_lower && opts.deep_search_height > opts.search_height {
-            let mut db = budget_for(opts.deep_search_units, start, opts.time_limit);
-            for (idx, side) in [&mut s0, &mut s1].into_iter().enumerate() {
-                let mut found = Vec::new();
-                match search_side(
-                    &setups[idx],
-                    &side.selmer_basis,
-                    &mut spans[idx],
-                    &mut found,
-                    opts.deep_search_height,
-                    &mut db,
-                ) {
-                    Ok(c) => search_complete &= c,
-                    Err(Error::BudgetExhausted { .. }) => search_complete = false,
-                    Err(err) => return Err(err),
-                }
-                let more = register_finds(found, idx, &k, e, &change, &mut user_points)?;
-                side.finds.extend(more);
-                side.image_dim = spans[idx].dim();
-            }
-            rank_lower = (s0.image_dim + s1.image_dim).saturating_sub(torsion);
-            if rank_lower > r {
-                return Err(Error::Internal {
-                    check: "the points found lie within the proven rank".into(),
-                });
-            }
-            if rank.is_none() && rank_lower == rank_upper {
-                rank = Some((rank_lower, Rank3Proof::Descent));
-            }
-        }
-    }
-    if !search_complete {
-        cut.insert(0, "point search".to_string());
-    }
-    let mut gb = budget_for(opts.factor_units, start, opts.time_limit);
-    let torsion = crate::curve::torsion(e);
-    // The points are those of the finds, one per dimension they add.
-    let descent_proves_three = torsion.order() % 3 != 0
-        && rank.is_some_and(|(r, _)| r == rank_lower && user_points.len() == r);
-    let (found, stop) = generators::generators(
-        e,
-        &user_points,
-        rank.map(|(r, _)| r),
-        opts.saturation.as_ref(),
-        descent_proves_three,
-        &mut gb,
-    );
-    match stop {
-        None => {}
-        Some(Error::BudgetExhausted { .. }) | Some(Error::FactorBudgetExhausted { .. }) => {
-            cut.push("generators (heights, saturation)".to_string())
-        }
-        Some(err) => return Err(err),
-    }
-    let sha_dim = rank.map(|(r, _)| rank_upper - r);
-    Ok(Isogeny3Report {
-        curve: e.clone(),
-        k,
-        change,
-        sides: [s0, s1],
-        rank_lower,
-        rank_upper,
-        points: user_points,
-        tamagawa,
-        rank,
-        sha_dim,
-        search_complete,
-        cut,
-        torsion,
-        independent_points: found.independent,
-        saturation: found.saturation,
-        three_saturated_by_descent: found.three_by_descent,
-    })
+    Ok((side, images))
+}
+
+/// The deeper search of [`descend_3isogeny`] on side `idx`, at
+/// `opts.deep_search_height`, adding its finds to `side`.
+fn deep_pass(
+    st: &SideSetup,
+    idx: usize,
+    side: &mut Isogeny3Side,
+    images: &mut Span,
+    opts: &Isogeny3Options,
+    budget: &mut Budget,
+    found: &mut Finds<'_>,
+) -> Result<()> {
+    let mut points = Vec::new();
+    found.searched(search_side(
+        st,
+        &side.selmer_basis,
+        images,
+        &mut points,
+        opts.deep_search_height,
+        budget,
+    ))?;
+    let more = register_finds(points, idx, found)?;
+    side.finds.extend(more);
+    side.image_dim = images.dim();
+    Ok(())
 }
 
 /// The points found on one side as [`CubicFind`]s; each is mapped to the
 /// given curve (through φ̂ for the second side), checked, and added to
-/// `user_points`.
+/// `found.points`.
 fn register_finds(
-    found: Vec<(Vec<u8>, CubicPoint, Point)>,
+    points: Vec<(Vec<u8>, CubicPoint, Point)>,
     idx: usize,
-    k: &BigInt,
-    e: &Curve,
-    change: &ModelChange,
-    user_points: &mut Vec<Point>,
+    found: &mut Finds<'_>,
 ) -> Result<Vec<CubicFind>> {
-    let finds: Vec<CubicFind> = found
+    let finds: Vec<CubicFind> = points
         .into_iter()
         .map(|(class, on_cubic, point)| CubicFind {
             class,
@@ -641,21 +737,21 @@ fn register_finds(
         let on_e = if idx == 0 {
             f.point.clone()
         } else {
-            dual_three_isogeny(k, &f.point)
+            dual_three_isogeny(found.k, &f.point)
         };
-        if !point_on(k, &on_e) {
+        if !point_on(found.k, &on_e) {
             return Err(Error::Internal {
                 check: "φ̂ maps to y^2 = x^3 + k".into(),
             });
         }
-        let q = change.to_old(&on_e);
+        let q = found.change.to_old(&on_e);
         if !q.is_infinity() {
-            if !e.contains(&q) {
+            if !found.e.contains(&q) {
                 return Err(Error::Internal {
                     check: "a point found lies on the given curve".into(),
                 });
             }
-            user_points.push(q);
+            found.points.push(q);
         }
     }
     Ok(finds)
@@ -680,6 +776,33 @@ pub(crate) fn tamagawa_ratio(
     let k2 = BigInt::from(-27) * k;
     let e2 = Curve::from_bigints([z(), z(), z(), z(), k2.clone()])?;
     let l2 = global_local_data(e2.coefficients(), budget)?;
+    let kernels = (
+        crate::arith::is_perfect_square(k),
+        crate::arith::is_perfect_square(&k2),
+    );
+    Ok(cassels_ratio(
+        l1,
+        l2,
+        kernels,
+        k.is_positive(),
+        (sel_phi, sel_phihat),
+    ))
+}
+
+/// Cassels' formula for a 3-isogeny φ: E → E′ (module docs) from the
+/// local data of both curves, `l1` of E and `l2` of E′ (Tamagawa numbers,
+/// and α from the scalings of their minimal models):
+/// 3^(sel_phi − sel_phihat) next to |E(Q)\[φ\]| / |E′(Q)\[φ̂\]| · |α| /
+/// |E(R)\[φ\]| · ∏_p c_p(E′)/c_p(E). `kernels` says whether the kernel
+/// points of E and of E′ are rational (order 3, else 1), `positive`
+/// whether those of E are real. One formula for both descents.
+pub(crate) fn cassels_ratio(
+    l1: &GlobalLocalData,
+    l2: GlobalLocalData,
+    kernels: (bool, bool),
+    positive: bool,
+    (sel_phi, sel_phihat): (usize, usize),
+) -> TamagawaRatio {
     let tam = |l: &GlobalLocalData| -> Vec<(BigInt, u64)> {
         l.primes
             .iter()
@@ -691,35 +814,24 @@ pub(crate) fn tamagawa_ratio(
     let prod = |t: &[(BigInt, u64)]| t.iter().map(|(_, c)| BigInt::from(*c)).product::<BigInt>();
     let alpha = &l2.change[0] / &l1.change[0];
     let three = BigInt::from(3);
-    let tors_e = if crate::arith::is_perfect_square(k) {
-        3
-    } else {
-        1
-    };
-    let tors_e2 = if crate::arith::is_perfect_square(&k2) {
-        3
-    } else {
-        1
-    };
-    let real_e = if k.is_positive() { 3 } else { 1 };
-    let formula = BigRational::new(
-        BigInt::from(tors_e) * prod(&t2),
-        BigInt::from(tors_e2) * prod(&t1),
-    ) * alpha.abs()
-        / BigRational::from_integer(BigInt::from(real_e));
+    let order = |rational: bool| BigInt::from(if rational { 3 } else { 1 });
+    let real_e = order(positive);
+    let formula = BigRational::new(order(kernels.0) * prod(&t2), order(kernels.1) * prod(&t1))
+        * alpha.abs()
+        / BigRational::from_integer(real_e);
     let d = sel_phi as i64 - sel_phihat as i64;
     let selmer_ratio = if d >= 0 {
         BigRational::from_integer(three.pow(d as u32))
     } else {
         BigRational::new(BigInt::one(), three.pow((-d) as u32))
     };
-    Ok(TamagawaRatio {
+    TamagawaRatio {
         selmer_ratio,
         formula,
         tamagawa: t1,
         tamagawa_isogenous: t2,
         alpha,
-    })
+    }
 }
 
 impl std::fmt::Display for SideField {
@@ -821,6 +933,77 @@ impl std::fmt::Display for Isogeny3Report {
                 "; point search cut by a budget"
             }
         )?;
+        let label = if self.points_generate() && self.three_saturated_by_descent {
+            "proven by saturation, p = 3 by the descent"
+        } else if self.points_generate() {
+            "proven by saturation"
+        } else {
+            "independent; saturation not proven"
+        };
+        let summary = self.summary();
+        summary.write_tail(f, self.sha_dim, label, "by a budget or the clock")
+    }
+}
+
+/// What the reports of both 3-isogeny descents share, for the text and
+/// JSON writers: one construction (`summary3!`) for both report types.
+pub(crate) struct Summary3<'r> {
+    pub(crate) curve: &'r Curve,
+    pub(crate) cut: &'r [String],
+    pub(crate) bounds: (usize, usize),
+    pub(crate) rank: Option<(usize, Rank3Proof)>,
+    pub(crate) tamagawa: Option<&'r TamagawaRatio>,
+    pub(crate) points: &'r [Point],
+    pub(crate) torsion: &'r crate::curve::TorsionGroup,
+    pub(crate) independent: &'r [(Point, Certified)],
+    pub(crate) saturation: Option<&'r Saturation>,
+    pub(crate) points_generate: bool,
+}
+
+/// The [`Summary3`] of a report of either descent (same field names).
+macro_rules! summary3 {
+    ($r:expr) => {
+        Summary3 {
+            curve: &$r.curve,
+            cut: &$r.cut,
+            bounds: ($r.rank_lower, $r.rank_upper),
+            rank: $r.rank,
+            tamagawa: $r.tamagawa.as_ref(),
+            points: &$r.points,
+            torsion: &$r.torsion,
+            independent: &$r.independent_points,
+            saturation: $r.saturation.as_ref(),
+            points_generate: $r.points_generate(),
+        }
+    };
+}
+
+impl Isogeny3Report {
+    /// The fields both 3-isogeny reports share.
+    pub(crate) fn summary(&self) -> Summary3<'_> {
+        summary3!(self)
+    }
+}
+
+impl Isogeny3GeneralReport {
+    /// The fields both 3-isogeny reports share.
+    pub(crate) fn summary(&self) -> Summary3<'_> {
+        summary3!(self)
+    }
+}
+
+impl Summary3<'_> {
+    /// The end of a text report: the rank and what proved it, the
+    /// Tate–Shafarevich dimension when positive, Cassels' check, the
+    /// points, the generators (`label` says what is proven of them) and
+    /// the steps cut short (`cut_by` says by what).
+    pub(crate) fn write_tail(
+        &self,
+        f: &mut std::fmt::Formatter<'_>,
+        sha_dim: Option<usize>,
+        label: &str,
+        cut_by: &str,
+    ) -> std::fmt::Result {
         match &self.rank {
             Some((r, Rank3Proof::Descent)) => writeln!(f, "  rank = {r}: the bounds meet")?,
             Some((r, Rank3Proof::Analytic(t))) => {
@@ -828,7 +1011,7 @@ impl std::fmt::Display for Isogeny3Report {
             }
             None => writeln!(f, "  rank: not settled")?,
         }
-        if let Some(d) = self.sha_dim {
+        if let Some(d) = sha_dim {
             if d > 0 {
                 writeln!(
                     f,
@@ -836,7 +1019,7 @@ impl std::fmt::Display for Isogeny3Report {
                 )?;
             }
         }
-        if let Some(t) = &self.tamagawa {
+        if let Some(t) = self.tamagawa {
             writeln!(
                 f,
                 "  Cassels' ratio: |Sel^φ|/|Sel^φ̂| = {}, Tamagawa side = {} ({})",
@@ -845,29 +1028,12 @@ impl std::fmt::Display for Isogeny3Report {
                 if t.holds() { "equal" } else { "DIFFERENT" }
             )?;
         }
-        for p in &self.points {
+        for p in self.points {
             writeln!(f, "  point on the given curve: {p}")?;
         }
-        let label = if self.points_generate() && self.three_saturated_by_descent {
-            "proven by saturation, p = 3 by the descent"
-        } else if self.points_generate() {
-            "proven by saturation"
-        } else {
-            "independent; saturation not proven"
-        };
-        write_generators(
-            f,
-            &self.torsion,
-            self.saturation.as_ref(),
-            &self.independent_points,
-            label,
-        )?;
+        write_generators(f, self.torsion, self.saturation, self.independent, label)?;
         if !self.cut.is_empty() {
-            writeln!(
-                f,
-                "  partial: cut short by a budget or the clock: {}",
-                self.cut.join(", ")
-            )?;
+            writeln!(f, "  partial: cut short {cut_by}: {}", self.cut.join(", "))?;
         }
         Ok(())
     }

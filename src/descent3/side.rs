@@ -38,7 +38,7 @@ use crate::cubic::quadratic::{
 };
 use crate::cubic::{
     prime_above, reduce_mod, search_points, solubility_at, BinaryCubicCurve, CubicLocal,
-    CubicPoint, CubicWitness, Eisenstein,
+    CubicPoint, Eisenstein,
 };
 use crate::curve::Point;
 use crate::error::{Error, Result};
@@ -620,48 +620,6 @@ fn strip(n: &BigInt, p: &BigInt) -> (u64, BigInt) {
 fn is_cube(n: &BigInt) -> bool {
     let r = n.cbrt();
     &r * &r * &r == *n
-}
-
-/// A class with the witness of its local solubility.
-pub(crate) type ClassWitness = (Vec<u8>, CubicWitness);
-
-/// The subgroup L ∩ L_p of `l` (a basis of vectors), where L_p is the
-/// subgroup of classes whose cubic is soluble at p, found with only
-/// membership tests: coset representatives of L/(L ∩ L_p) are kept (at
-/// most |H¹(Q_p)| / |image| of them), and each basis vector either lands
-/// in a known coset (giving a new vector of the intersection) or
-/// multiplies the cosets by 3. The witnesses of the soluble tests are
-/// returned with the vectors they prove.
-pub(crate) fn intersect_local(
-    side: &SideSetup,
-    l: &[Vec<u8>],
-    p: &Prime,
-    budget: &mut Budget,
-) -> Result<(Vec<Vec<u8>>, Vec<ClassWitness>)> {
-    let n = side.dim();
-    let mut reps: Vec<Vec<u8>> = vec![vec![0u8; n]];
-    let mut kept: Vec<Vec<u8>> = Vec::new();
-    let mut witnesses = Vec::new();
-    for b in l {
-        let mut hit = None;
-        for r in &reps {
-            let cand = f3::sub(b, r);
-            if let CubicLocal::Soluble(w) = side.local(&cand, p, budget)? {
-                hit = Some((cand, w));
-                break;
-            }
-        }
-        match hit {
-            Some((v, w)) => {
-                witnesses.push((v.clone(), w));
-                kept.push(v);
-            }
-            None => {
-                reps = f3::with_multiples(&reps, b, p.get())?;
-            }
-        }
-    }
-    Ok((kept, witnesses))
 }
 
 /// Most Selmer classes whose cubics are searched on one side.

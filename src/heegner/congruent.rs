@@ -243,10 +243,32 @@ pub(crate) fn recognise(
     max_bits: u64,
     tol: u32,
 ) -> Option<Point> {
+    let n2 = n * n;
+    square_convergent(f, x, (max_bits, tol), |h, k, d| {
+        // Y² = (h³ − n²h·d⁴)/d⁶.
+        let d4 = k * k;
+        let top = h * h * h - &n2 * h * &d4;
+        let s = sqrt_exact(&top).filter(|s| !s.is_zero())?;
+        let x = BigRational::new(h.clone(), k.clone());
+        let y = BigRational::new(s, k * d);
+        Some(Point::new(x, y))
+    })
+}
+
+/// The search both recognisers share (this one on `E_n`, the one of
+/// `own_level` on any model): the continued-fraction convergents `h/k` of
+/// `x·2^{−p}` in turn, up to the first `k` of more than `max_bits` bits;
+/// for each within `2^{tol−p}` of `x·2^{−p}` with `k = d²` a perfect
+/// square, `point(h, k, d)`; the first point it gives.
+pub(crate) fn square_convergent(
+    f: &Fixed,
+    x: &BigInt,
+    (max_bits, tol): (u64, u32),
+    mut point: impl FnMut(&BigInt, &BigInt, &BigInt) -> Option<Point>,
+) -> Option<Point> {
     let (mut num, mut den) = (x.clone(), f.one());
     let (mut h1, mut h2) = (BigInt::one(), BigInt::zero());
     let (mut k1, mut k2) = (BigInt::zero(), BigInt::one());
-    let n2 = n * n;
     while !den.is_zero() {
         let a = num.div_floor(&den);
         let h = &a * &h1 + &h2;
@@ -259,13 +281,8 @@ pub(crate) fn recognise(
         // convergents (like ⌊x⌋) may happen to be points of the curve.
         let close = (x * &k - (&h << f.p)).abs() <= (&k << tol);
         if let (true, Some(d)) = (close, sqrt_exact(&k)) {
-            // Y² = (h³ − n²h·d⁴)/d⁶.
-            let d4 = &k * &k;
-            let top = &h * &h * &h - &n2 * &h * &d4;
-            if let Some(s) = sqrt_exact(&top).filter(|s| !s.is_zero()) {
-                let x = BigRational::new(h.clone(), k.clone());
-                let y = BigRational::new(s, &k * &d);
-                return Some(Point::new(x, y));
+            if let Some(p) = point(&h, &k, &d) {
+                return Some(p);
             }
         }
         let r = &num - &a * &den;
@@ -351,21 +368,27 @@ pub(crate) fn is_multiple(e: &Curve, r: &Point, q: &Point, p: u64, n: &BigInt) -
         .any(|d| tors.contains(d))
 }
 
+/// The curve `E_n` with the constants of the series at the working
+/// precision and the guard bits of recognition, for [`divide`].
+pub(crate) struct Twist<'a> {
+    pub(crate) c: &'a Constants,
+    pub(crate) e: &'a Curve,
+    pub(crate) n: &'a BigInt,
+    pub(crate) guard: u32,
+}
+
 /// Tries to write the point `Q` with elliptic parameter `(s, y)` as
 /// `p·R` (up to sign and torsion) with `R ∈ E_n(Q)`: the candidates of
 /// the module docs, each recognised and checked exactly. Returns `R` and
 /// its parameter.
-#[allow(clippy::too_many_arguments)]
 pub(crate) fn divide(
-    c: &Constants,
-    e: &Curve,
+    twist: &Twist<'_>,
     q: &Point,
     (s, y): (bool, &BigInt),
     p: u64,
-    n: &BigInt,
-    guard: u32,
     budget: &mut Budget,
 ) -> Result<Option<(Point, bool, BigInt)>> {
+    let Twist { c, e, n, guard } = *twist;
     let w1 = &c.w1;
     let half = w1 / 2;
     let mut shifts: Vec<(bool, BigInt)> = vec![(s, y.clone())];

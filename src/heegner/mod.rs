@@ -244,13 +244,7 @@ pub(crate) fn congruent_model(
     let s = -a1 / &two;
     let t = -(a3 + &r * a1) / &two;
     let change = ModelChange::translation(r, s, t).then(&ModelChange::scaling(w)?);
-    let target = Curve::from_bigints([
-        BigInt::zero(),
-        BigInt::zero(),
-        BigInt::zero(),
-        -(&n * &n),
-        BigInt::zero(),
-    ])?;
+    let target = congruent_curve(&n)?;
     if change.apply_to_curve(curve) != target {
         return Ok(None);
     }
@@ -432,6 +426,53 @@ fn guard_bits(terms: u64) -> u32 {
     2 * (64 - terms.leading_zeros()) + 24
 }
 
+/// The terms of the series of `φ` at a Heegner form with leading
+/// coefficient `a` and discriminant `d` for `bits` of precision, with the
+/// guard bits of a sum of up to four times as many terms: both routes
+/// plan their series with it.
+pub(crate) fn series_terms(d: i64, a: i64, bits: u32) -> u64 {
+    let qabs = (-std::f64::consts::PI * ((-d) as f64).sqrt() / a as f64).exp();
+    let t0 = congruent::terms_for(qabs, bits);
+    congruent::terms_for(qabs, bits + guard_bits(t0 * 4))
+}
+
+/// `E_n: y² = x³ − n²x`.
+fn congruent_curve(n: &BigInt) -> Result<Curve> {
+    Curve::from_bigints([
+        BigInt::zero(),
+        BigInt::zero(),
+        BigInt::zero(),
+        -(n * n),
+        BigInt::zero(),
+    ])
+}
+
+/// The order of the Heegner points on `E_n` (its discriminant `D`, its
+/// conductor and the `β` of the Heegner forms), or why `n` is outside the
+/// routes: the maximal order of Q(√−n) for n ≡ 7 (mod 8), where 2 splits;
+/// for n ≡ 5, 6 (mod 8), where 2 ramifies, the order of conductor 4, of
+/// discriminant D = 16·(−4n) = −64n, which is a square modulo 128: B = 8c
+/// with c odd (n ≡ 5), B = 16c with c odd (n ≡ 6). For n ≡ 6 the residues
+/// β ≡ 0 (mod 32) give a torsion trace (seen numerically), so β = 16
+/// there.
+fn twist_order(n: u64) -> std::result::Result<(i64, u32, i64), String> {
+    match n % 8 {
+        7 => {
+            let d = -(n as i64);
+            if !forms::is_fundamental(d) {
+                return Err(format!("{d} is not a fundamental discriminant"));
+            }
+            let Some(beta) = forms::heegner_beta(d, LEVEL) else {
+                return Err(format!("{d} is not a square modulo {}", 4 * LEVEL));
+            };
+            Ok((d, 1u32, beta))
+        }
+        5 => Ok((-64 * n as i64, 4, 8)),
+        6 => Ok((-64 * n as i64, 4, 16)),
+        _ => Err(format!("n = {} mod 8 is outside the routes", n % 8)),
+    }
+}
+
 /// The Heegner point on `E_n` itself (`n ≡ 5, 6, 7 mod 8`, square-free).
 fn point_on_twist(
     n: u64,
@@ -439,36 +480,9 @@ fn point_on_twist(
     options: &HeegnerOptions,
     budget: &mut Budget,
 ) -> Result<HeegnerOutcome> {
-    // The order: the maximal order of Q(√−n) for n ≡ 7 (mod 8), where 2
-    // splits; for n ≡ 5, 6 (mod 8), where 2 ramifies, the order of
-    // conductor 4, of discriminant D = 16·(−4n) = −64n, which is a square
-    // modulo 128: B = 8c with c odd (n ≡ 5), B = 16c with c odd (n ≡ 6).
-    // For n ≡ 6 the residues β ≡ 0 (mod 32) give a torsion trace (seen
-    // numerically), so β = 16 there.
-    let (d, conductor, beta) = match n % 8 {
-        7 => {
-            let d = -(n as i64);
-            if !forms::is_fundamental(d) {
-                return Ok(HeegnerOutcome::NotApplicable(format!(
-                    "{d} is not a fundamental discriminant"
-                )));
-            }
-            let Some(beta) = forms::heegner_beta(d, LEVEL) else {
-                return Ok(HeegnerOutcome::NotApplicable(format!(
-                    "{d} is not a square modulo {}",
-                    4 * LEVEL
-                )));
-            };
-            (d, 1u32, beta)
-        }
-        5 => (-64 * n as i64, 4, 8),
-        6 => (-64 * n as i64, 4, 16),
-        _ => {
-            return Ok(HeegnerOutcome::NotApplicable(format!(
-                "n = {} mod 8 is outside the routes",
-                n % 8
-            )))
-        }
+    let (d, conductor, beta) = match twist_order(n) {
+        Ok(order) => order,
+        Err(reason) => return Ok(HeegnerOutcome::NotApplicable(reason)),
     };
     if (beta * beta - d) % (4 * LEVEL) != 0 {
         return Err(Error::Internal {
@@ -477,13 +491,7 @@ fn point_on_twist(
     }
     let (h, hforms) = forms::heegner_cover(d, LEVEL, beta, budget)?;
     let nb = BigInt::from(n);
-    let e = Curve::from_bigints([
-        BigInt::zero(),
-        BigInt::zero(),
-        BigInt::zero(),
-        -(&nb * &nb),
-        BigInt::zero(),
-    ])?;
+    let e = congruent_curve(&nb)?;
     // Precision: recognising X = a/d² from an approximation needs an error
     // below 1/(2d⁴) (Legendre's theorem on continued fractions), and ℘
     // near its pole multiplies the parameter's error by |dX/dy| ≈
@@ -498,17 +506,13 @@ fn point_on_twist(
         .filter(|h| h.is_finite() && *h > 0.0)
         .map_or(40.0, |h| 1.1 * h + 2.0 * (n as f64).ln() + 10.0);
     let amax = hforms.iter().map(|f| f.form().0).max().unwrap_or(LEVEL);
-    let qmax = (-std::f64::consts::PI * ((-d) as f64).sqrt() / amax as f64).exp();
     let mut bits = ((2.0 * start_h / std::f64::consts::LN_2 + (n as f64).log2()) as u32 + 64)
         .clamp(128, options.max_bits.max(128));
     // The coefficients of E0 for the largest precision that may be used.
     let e0 = Curve::from_ints([0, 0, 0, -1, 0])?;
     let local = crate::curve::global_local_data(e0.coefficients(), budget)?;
     loop {
-        let m = congruent::terms_for(
-            qmax,
-            bits + guard_bits(congruent::terms_for(qmax, bits) * 4),
-        );
+        let m = series_terms(d, amax, bits);
         let an = crate::analytic::dirichlet_coefficients(&local, m + 8, budget)?;
         let step = an
             .iter()
@@ -533,72 +537,16 @@ fn point_on_twist(
         // 4^j times fewer bits than recognising the trace.
         if let Some((r0, y0, j)) = congruent::point_or_halves(&c, &y, &nb, guard + 16, 3, budget)? {
             let q = e.mul(&r0, &(BigInt::from(1u8) << j));
-            // Divide by the primes of the index the height ratio suggests,
-            // then by 2, 3, 5, 7 while that works (each checked exactly).
-            let mut primes: Vec<u64> = Vec::new();
-            if let (Some(hp), Ok(hq)) = (predicted_height, crate::height::canonical_height(&e, &r0))
-            {
-                let t = (hq.value() / hp).sqrt();
-                let rt = t.round();
-                if rt >= 1.0 && (t - rt).abs() < 0.02 * rt.max(1.0) && rt < 1e12 {
-                    let mut v = rt as u64;
-                    let mut p = 2;
-                    while p * p <= v {
-                        while v % p == 0 {
-                            primes.push(p);
-                            v /= p;
-                        }
-                        p += 1;
-                    }
-                    if v > 1 {
-                        primes.push(v);
-                    }
-                }
-            }
+            let mut primes = index_primes(predicted_height, &e, &r0);
             primes.retain(|&p| p <= options.max_division_prime);
             primes.extend([2, 3, 5, 7]);
-            let mut point = r0;
-            let mut param = (false, y0);
-            let mut index = 1u64 << j;
-            let mut tried_small = [false; 8];
-            let mut divisions = 0;
-            for p in primes {
-                loop {
-                    divisions += 1;
-                    if divisions > 64 {
-                        break;
-                    }
-                    let small = p < 8 && tried_small[p as usize];
-                    if small {
-                        break;
-                    }
-                    match congruent::divide(
-                        &c,
-                        &e,
-                        &point,
-                        (param.0, &param.1),
-                        p,
-                        &nb,
-                        guard + 16,
-                        budget,
-                    )? {
-                        Some((r, s, yy)) => {
-                            point = r;
-                            param = (s, yy);
-                            index = index.saturating_mul(p);
-                        }
-                        None => {
-                            if p < 8 {
-                                tried_small[p as usize] = true;
-                            }
-                            break;
-                        }
-                    }
-                    if p >= 8 {
-                        break;
-                    }
-                }
-            }
+            let twist = congruent::Twist {
+                c: &c,
+                e: &e,
+                n: &nb,
+                guard: guard + 16,
+            };
+            let (point, index) = divide_out(&twist, (r0, y0), 1u64 << j, &primes, budget)?;
             return Ok(HeegnerOutcome::Found(HeegnerPoint {
                 n: nb,
                 discriminant: d,
@@ -622,6 +570,80 @@ fn point_on_twist(
         }
         bits = bits.saturating_mul(2).min(options.max_bits);
     }
+}
+
+/// The primes of the index between the point `r0` of `E_n` and a
+/// generator that the ratio of its canonical height to the predicted
+/// height suggests (with multiplicity; none without a prediction, or when
+/// the ratio is not near a square).
+fn index_primes(predicted_height: Option<f64>, e: &Curve, r0: &Point) -> Vec<u64> {
+    let mut primes: Vec<u64> = Vec::new();
+    if let (Some(hp), Ok(hq)) = (predicted_height, crate::height::canonical_height(e, r0)) {
+        let t = (hq.value() / hp).sqrt();
+        let rt = t.round();
+        if rt >= 1.0 && (t - rt).abs() < 0.02 * rt.max(1.0) && rt < 1e12 {
+            let mut v = rt as u64;
+            let mut p = 2;
+            while p * p <= v {
+                while v % p == 0 {
+                    primes.push(p);
+                    v /= p;
+                }
+                p += 1;
+            }
+            if v > 1 {
+                primes.push(v);
+            }
+        }
+    }
+    primes
+}
+
+/// Divides the point with parameter `start` (point and `(s, y)` with
+/// `s` false) by each prime of `primes` in turn while that works (each
+/// division checked exactly; a prime below 8 that failed once is not
+/// tried again; at most 64 tries), multiplying `index` by each prime
+/// divided out. Returns the point and its index.
+fn divide_out(
+    twist: &congruent::Twist<'_>,
+    (r0, y0): (Point, BigInt),
+    mut index: u64,
+    primes: &[u64],
+    budget: &mut Budget,
+) -> Result<(Point, u64)> {
+    let mut point = r0;
+    let mut param = (false, y0);
+    let mut tried_small = [false; 8];
+    let mut divisions = 0;
+    for &p in primes {
+        loop {
+            divisions += 1;
+            if divisions > 64 {
+                break;
+            }
+            let small = p < 8 && tried_small[p as usize];
+            if small {
+                break;
+            }
+            match congruent::divide(twist, &point, (param.0, &param.1), p, budget)? {
+                Some((r, s, yy)) => {
+                    point = r;
+                    param = (s, yy);
+                    index = index.saturating_mul(p);
+                }
+                None => {
+                    if p < 8 {
+                        tried_small[p as usize] = true;
+                    }
+                    break;
+                }
+            }
+            if p >= 8 {
+                break;
+            }
+        }
+    }
+    Ok((point, index))
 }
 
 #[cfg(test)]

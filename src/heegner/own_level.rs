@@ -30,7 +30,6 @@
 //! the curve decides**, and saturation proves generation.
 
 use num_bigint::BigInt;
-use num_integer::Integer;
 use num_rational::BigRational;
 use num_traits::{FromPrimitive, Signed, ToPrimitive, Zero};
 
@@ -411,41 +410,21 @@ fn recognise(
     max_bits: u64,
     tol: u32,
 ) -> Option<Point> {
-    let (mut num, mut den) = (x.clone(), f.one());
-    let (mut h1, mut h2) = (BigInt::from(1), BigInt::zero());
-    let (mut k1, mut k2) = (BigInt::zero(), BigInt::from(1));
     let [a1, _, a3, _, _] = curve.coefficients();
-    while !den.is_zero() {
-        let a = num.div_floor(&den);
-        let h = &a * &h1 + &h2;
-        let k = &a * &k1 + &k2;
-        if k.bits() > max_bits {
-            return None;
-        }
-        let close = (x * &k - (&h << f.p)).abs() <= (&k << tol);
-        if let (true, Some(d)) = (close, sqrt_exact(&k)) {
-            // k³·f(h/k) = 4h³ + b2h²k + 2b4hk² + b6k³ = F; f(h/k) = F/d⁶.
-            let big_f = BigInt::from(4) * &h * &h * &h
-                + b[0] * &h * &h * &k
-                + b[1] * BigInt::from(2) * &h * &k * &k
-                + b[2] * &k * &k * &k;
-            if let Some(s) = sqrt_exact(&big_f).filter(|s| !s.is_zero()) {
-                let xr = BigRational::new(h.clone(), k.clone());
-                // 2y + a1x + a3 = s/d³.
-                let yy = BigRational::new(s, &k * &d);
-                let y = (yy - a1 * &xr - a3) / BigRational::from_integer(BigInt::from(2));
-                let p = Point::new(xr, y);
-                if curve.contains(&p) {
-                    return Some(p);
-                }
-            }
-        }
-        let r = &num - &a * &den;
-        num = std::mem::replace(&mut den, r);
-        h2 = std::mem::replace(&mut h1, h);
-        k2 = std::mem::replace(&mut k1, k);
-    }
-    None
+    super::congruent::square_convergent(f, x, (max_bits, tol), |h, k, d| {
+        // k³·f(h/k) = 4h³ + b2h²k + 2b4hk² + b6k³ = F; f(h/k) = F/d⁶.
+        let big_f = BigInt::from(4) * h * h * h
+            + b[0] * h * h * k
+            + b[1] * BigInt::from(2) * h * k * k
+            + b[2] * k * k * k;
+        let s = sqrt_exact(&big_f).filter(|s| !s.is_zero())?;
+        let xr = BigRational::new(h.clone(), k.clone());
+        // 2y + a1x + a3 = s/d³.
+        let yy = BigRational::new(s, k * d);
+        let y = (yy - a1 * &xr - a3) / BigRational::from_integer(BigInt::from(2));
+        let p = Point::new(xr, y);
+        curve.contains(&p).then_some(p)
+    })
 }
 
 /// A discriminant chosen for the Heegner hypothesis at level `n`.
@@ -545,10 +524,7 @@ pub(crate) fn planned_terms(reps: &[Rep], d: i64, bits: u32) -> (u64, u64) {
     let mut max = 0;
     let mut total = 0u64;
     for r in reps {
-        let a = r.form().0;
-        let qabs = (-std::f64::consts::PI * ((-d) as f64).sqrt() / a as f64).exp();
-        let t0 = terms_for(qabs, bits);
-        let t = terms_for(qabs, bits + super::guard_bits(t0 * 4));
+        let t = super::series_terms(d, r.form().0, bits);
         max = max.max(t);
         total = total.saturating_add(t);
     }
@@ -585,7 +561,6 @@ const CANDIDATES: [(i64, i64); 9] = [
 /// One attempt: the trace at `bits` for the classes `reps`, then the
 /// candidates of [`CANDIDATES`]. `an` must hold the coefficients for the
 /// largest class ([`planned_terms`]).
-#[allow(clippy::too_many_arguments)]
 pub(crate) fn attempt(
     curve: &Curve,
     local: &GlobalLocalData,

@@ -317,6 +317,11 @@ pub(crate) struct Archimedean {
 
 impl Archimedean {
     /// Sets up the series for the model with invariants `b2, b4, b6, b8`.
+    ///
+    /// # Errors
+    /// [`Error::InvalidArgument`] when the invariants exceed the `f64`
+    /// range of the height routine, or the real roots of the cubic lie
+    /// closer together than it resolves.
     pub fn new(b2: &BigInt, b4: &BigInt, b6: &BigInt, b8: &BigInt, disc: &BigInt) -> Result<Self> {
         let too_big = || Error::InvalidArgument {
             reason: "curve invariants exceed the f64 range of the height routine".into(),

@@ -249,6 +249,9 @@ impl ShortModel {
     }
 
     /// `Σ nᵢ Pᵢ`, normalised at the end.
+    ///
+    /// # Errors
+    /// As [`Self::combination_budgeted`] (with an unlimited budget).
     pub fn combination(&self, points: &[Jac], coefficients: &[BigInt]) -> Result<Jac> {
         self.combination_budgeted(points, coefficients, &mut Budget::unlimited())
     }

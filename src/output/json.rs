@@ -474,38 +474,18 @@ fn isogeny3_view(r: &crate::descent3::Isogeny3Report, detail: Detail) -> Isogeny
             t: rational_text(r.change.t()),
         },
         sides,
-        cassels: r.tamagawa.as_ref().map(|t| CasselsView {
-            selmer_ratio: rational_text(&t.selmer_ratio),
-            tamagawa_side: rational_text(&t.formula),
-            equal: t.holds(),
-        }),
-        theorem: match &r.rank {
-            Some((_, crate::descent3::Rank3Proof::Analytic(t))) => Some(t.name()),
-            _ => None,
-        },
+        cassels: r.tamagawa.as_ref().map(cassels_view),
+        theorem: theorem_name(r.rank),
         sha_dim: r.sha_dim,
         saturation_at_3_from_descent: r.three_saturated_by_descent,
     }
-}
-
-/// What the lines of both 3-isogeny descents share.
-struct Line3<'r> {
-    curve: &'r crate::curve::Curve,
-    cut: &'r [String],
-    stop_reason: &'static str,
-    bounds: (usize, usize),
-    rank: Option<(usize, crate::descent3::Rank3Proof)>,
-    torsion: &'r crate::curve::TorsionGroup,
-    independent: &'r [(Point, crate::height::Certified)],
-    saturation: Option<&'r crate::height::Saturation>,
-    points_generate: bool,
 }
 
 /// The top-level fields of a 3-isogeny line: status, bounds, torsion, the
 /// saturated generators when saturation ran (else the independent points
 /// found), each with its canonical height, and the saturation; the caller
 /// fills `isogeny3` or `isogeny3_general`.
-fn line3<'a>(input: &'a str, l: &Line3<'_>) -> LineView<'a> {
+fn line3<'a>(input: &'a str, l: &crate::descent3::Summary3<'_>, stop_reason: &str) -> LineView<'a> {
     let (status, stopped) = if l.cut.is_empty() {
         ("complete", None)
     } else {
@@ -513,7 +493,7 @@ fn line3<'a>(input: &'a str, l: &Line3<'_>) -> LineView<'a> {
             "partial",
             Some(StopView {
                 step: l.cut.join(", "),
-                reason: l.stop_reason.to_string(),
+                reason: stop_reason.to_string(),
             }),
         )
     };
@@ -521,13 +501,10 @@ fn line3<'a>(input: &'a str, l: &Line3<'_>) -> LineView<'a> {
         Some(s) => (s.generators.clone(), s.heights.clone()),
         None => l.independent.iter().cloned().unzip(),
     };
-    let (n1, n2) = l.torsion.structure();
     let reg = l
         .saturation
         .map(|s| value_and_error(s.regulator.value(), s.regulator.error()));
     LineView {
-        format_version: FORMAT_VERSION,
-        input: echoed_input(input),
         curve: Some(l.curve.to_string()),
         status,
         stopped,
@@ -535,13 +512,7 @@ fn line3<'a>(input: &'a str, l: &Line3<'_>) -> LineView<'a> {
         rank_upper: Some(l.bounds.1),
         points: height_points_view(&points, &heights),
         points_from: (!points.is_empty()).then_some("search"),
-        heegner: None,
-        torsion: Some(TorsionView {
-            order: l.torsion.order(),
-            cyclic_factors: if n2 <= 1 { vec![n1] } else { vec![n2, n1] },
-            generators: points_view(l.torsion.generators()),
-        }),
-        selmer2_rank: None,
+        torsion: Some(torsion_view(l.torsion)),
         rank_settled_by: l.rank.map(|(_, p)| match p {
             crate::descent3::Rank3Proof::Descent => "descent",
             _ => "analytic",
@@ -549,27 +520,8 @@ fn line3<'a>(input: &'a str, l: &Line3<'_>) -> LineView<'a> {
         regulator: reg.clone().map(|r| r.0),
         regulator_error: reg.map(|r| r.1),
         points_generate: l.points_generate,
-        saturation: l.saturation.map(|s| SaturationView {
-            index_bound: s.index_bound,
-            index_found: s.index_found,
-            primes_checked: s.primes_checked.clone(),
-            unresolved: s.unresolved.clone(),
-            height_lower_bound: s
-                .height_lower_bound
-                .map(|h| crate::arith::decimal::decimal_floor(h, 6)),
-        }),
-        root_number: None,
-        analytic_order: None,
-        analytic: None,
-        ledger: None,
-        conflict: None,
-        conductor: None,
-        minimal_model: None,
-        reduction: BTreeMap::new(),
-        selmer: Vec::new(),
-        isogeny3: None,
-        isogeny3_general: None,
-        error: None,
+        saturation: l.saturation.map(saturation_view),
+        ..LineView::blank(input, status)
     }
 }
 
@@ -579,20 +531,7 @@ pub(crate) fn isogeny3_line(
     r: &crate::descent3::Isogeny3Report,
     detail: Detail,
 ) -> String {
-    let mut line = line3(
-        input,
-        &Line3 {
-            curve: &r.curve,
-            cut: &r.cut,
-            stop_reason: "a budget or the clock",
-            bounds: (r.rank_lower, r.rank_upper),
-            rank: r.rank,
-            torsion: &r.torsion,
-            independent: &r.independent_points,
-            saturation: r.saturation.as_ref(),
-            points_generate: r.points_generate(),
-        },
-    );
+    let mut line = line3(input, &r.summary(), "a budget or the clock");
     line.isogeny3 = Some(isogeny3_view(r, detail));
     to_line(&line)
 }
@@ -607,17 +546,8 @@ pub(crate) fn isogeny3_general_line(
 ) -> String {
     let mut line = line3(
         input,
-        &Line3 {
-            curve: &r.curve,
-            cut: &r.cut,
-            stop_reason: "a budget, the clock, or a height step that could not be certified",
-            bounds: (r.rank_lower, r.rank_upper),
-            rank: r.rank,
-            torsion: &r.torsion,
-            independent: &r.independent_points,
-            saturation: r.saturation.as_ref(),
-            points_generate: r.points_generate(),
-        },
+        &r.summary(),
+        "a budget, the clock, or a height step that could not be certified",
     );
     line.isogeny3_general = Some(isogeny3_general_view(r, detail));
     to_line(&line)
@@ -726,15 +656,26 @@ fn isogeny3_general_view(
         isogenous_model: flex_model_view(&r.isogenous_model),
         primes: r.primes.iter().map(|p| p.to_string()).collect(),
         sides,
-        cassels: r.tamagawa.as_ref().map(|t| CasselsView {
-            selmer_ratio: rational_text(&t.selmer_ratio),
-            tamagawa_side: rational_text(&t.formula),
-            equal: t.holds(),
-        }),
-        theorem: match &r.rank {
-            Some((_, crate::descent3::Rank3Proof::Analytic(t))) => Some(t.name()),
-            _ => None,
-        },
+        cassels: r.tamagawa.as_ref().map(cassels_view),
+        theorem: theorem_name(r.rank),
+    }
+}
+
+/// Cassels' check of a 3-isogeny descent.
+fn cassels_view(t: &crate::descent3::TamagawaRatio) -> CasselsView {
+    CasselsView {
+        selmer_ratio: rational_text(&t.selmer_ratio),
+        tamagawa_side: rational_text(&t.formula),
+        equal: t.holds(),
+    }
+}
+
+/// The theorem that proved the rank of a 3-isogeny descent, when the
+/// analytic side proved it.
+fn theorem_name(rank: Option<(usize, crate::descent3::Rank3Proof)>) -> Option<&'static str> {
+    match rank {
+        Some((_, crate::descent3::Rank3Proof::Analytic(t))) => Some(t.name()),
+        _ => None,
     }
 }
 
@@ -883,9 +824,6 @@ fn covering_view(o: &CoveringObstruction) -> CoveringView {
 }
 
 fn report_view<'a>(input: &'a str, r: &DescentReport, detail: Detail) -> LineView<'a> {
-    let t = r.torsion();
-    let (n1, n2) = t.structure();
-    let cyclic_factors = if n2 <= 1 { vec![n1] } else { vec![n2, n1] };
     let ld = r.tate_data();
     let (status, stopped) = match r.completion() {
         Completion::Partial { step, reason } => (
@@ -908,11 +846,7 @@ fn report_view<'a>(input: &'a str, r: &DescentReport, detail: Detail) -> LineVie
         points: height_points_view(r.points(), r.point_heights()),
         points_from: (!r.points().is_empty()).then(|| r.points_origin().word()),
         heegner: r.heegner().map(heegner_view),
-        torsion: Some(TorsionView {
-            order: t.order(),
-            cyclic_factors,
-            generators: points_view(t.generators()),
-        }),
+        torsion: Some(torsion_view(r.torsion())),
         selmer2_rank: r.selmer2_rank(),
         rank_settled_by: r.rank_settled_by().map(|p| p.word()),
         regulator: r
@@ -922,15 +856,7 @@ fn report_view<'a>(input: &'a str, r: &DescentReport, detail: Detail) -> LineVie
             .regulator()
             .map(|g| value_and_error(g.value(), g.error()).1),
         points_generate: r.points_generate(),
-        saturation: r.saturation().map(|s| SaturationView {
-            index_bound: s.index_bound,
-            index_found: s.index_found,
-            primes_checked: s.primes_checked.clone(),
-            unresolved: s.unresolved.clone(),
-            height_lower_bound: s
-                .height_lower_bound
-                .map(|h| crate::arith::decimal::decimal_floor(h, 6)),
-        }),
+        saturation: r.saturation().map(saturation_view),
         root_number: r.analytic().and_then(|a| a.root_number()),
         analytic_order: r
             .analytic()
@@ -1083,36 +1009,72 @@ pub fn report_line(input: &str, r: &DescentReport, detail: Detail) -> String {
 /// stated).
 pub fn error_line(input: &str, message: &str) -> String {
     to_line(&LineView {
-        format_version: FORMAT_VERSION,
-        input: echoed_input(input),
-        curve: None,
-        status: "error",
-        stopped: None,
-        rank_lower: None,
-        rank_upper: None,
-        points: Vec::new(),
-        points_from: None,
-        heegner: None,
-        torsion: None,
-        selmer2_rank: None,
-        rank_settled_by: None,
-        regulator: None,
-        regulator_error: None,
-        points_generate: false,
-        saturation: None,
-        root_number: None,
-        analytic_order: None,
-        analytic: None,
-        ledger: None,
-        conflict: None,
-        conductor: None,
-        minimal_model: None,
-        reduction: BTreeMap::new(),
-        selmer: Vec::new(),
-        isogeny3: None,
-        isogeny3_general: None,
         error: Some(message),
+        ..LineView::blank(input, "error")
     })
+}
+
+impl<'a> LineView<'a> {
+    /// A line with only the input (echoed as [`error_line`] says) and the
+    /// status: every other field empty, for the writers to fill.
+    fn blank(input: &'a str, status: &'static str) -> LineView<'a> {
+        LineView {
+            format_version: FORMAT_VERSION,
+            input: echoed_input(input),
+            curve: None,
+            status,
+            stopped: None,
+            rank_lower: None,
+            rank_upper: None,
+            points: Vec::new(),
+            points_from: None,
+            heegner: None,
+            torsion: None,
+            selmer2_rank: None,
+            rank_settled_by: None,
+            regulator: None,
+            regulator_error: None,
+            points_generate: false,
+            saturation: None,
+            root_number: None,
+            analytic_order: None,
+            analytic: None,
+            ledger: None,
+            conflict: None,
+            conductor: None,
+            minimal_model: None,
+            reduction: BTreeMap::new(),
+            selmer: Vec::new(),
+            isogeny3: None,
+            isogeny3_general: None,
+            error: None,
+        }
+    }
+}
+
+/// The torsion subgroup: order, cyclic factors (the larger last) and
+/// generators.
+fn torsion_view(t: &crate::curve::TorsionGroup) -> TorsionView {
+    let (n1, n2) = t.structure();
+    TorsionView {
+        order: t.order(),
+        cyclic_factors: if n2 <= 1 { vec![n1] } else { vec![n2, n1] },
+        generators: points_view(t.generators()),
+    }
+}
+
+/// The saturation's indices, primes and height bound (6 decimals, rounded
+/// down).
+fn saturation_view(s: &crate::height::Saturation) -> SaturationView {
+    SaturationView {
+        index_bound: s.index_bound,
+        index_found: s.index_found,
+        primes_checked: s.primes_checked.clone(),
+        unresolved: s.unresolved.clone(),
+        height_lower_bound: s
+            .height_lower_bound
+            .map(|h| crate::arith::decimal::decimal_floor(h, 6)),
+    }
 }
 
 impl Serialize for DescentReport {

@@ -246,9 +246,10 @@ impl Congruence {
     #[cfg(test)]
     /// The condition `x mod m ∈ residues`, whatever `z` is.
     ///
-    /// Errors as for [`Congruence::new`].
-    ///
     /// Example: `Congruence::on_x(8, [1, 7])` keeps `x ≡ ±1 mod 8`.
+    ///
+    /// # Errors
+    /// As [`Congruence::new`].
     pub fn on_x(modulus: u64, residues: impl IntoIterator<Item = u64>) -> Result<Self> {
         check_congruence_modulus(modulus)?;
         let xs: Vec<u64> = residues.into_iter().collect();
@@ -429,6 +430,9 @@ pub fn search_report(
 ///
 /// Example: for `Quartic::from_i64([1, 0, 0, 0, 3])` the first point is
 /// `(1, 0, 1)`.
+///
+/// # Errors
+/// As [`search`] (a `Quartic` is never degenerate).
 pub fn search_quartic(
     quartic: &Quartic,
     options: &SearchOptions,
@@ -445,6 +449,9 @@ pub fn search_quartic(
 ///
 /// Example: for `Quartic::from_i64([1, 0, 0, 0, 1])` (`y² = x⁴ + z⁴`) the
 /// points are `(1, 0, 1)` and `(0, 1, 1)` at every height `≥ 1`.
+///
+/// # Errors
+/// As [`search_all`].
 pub fn search_all_quartic(
     quartic: &Quartic,
     options: &SearchOptions,

@@ -5,7 +5,7 @@
 //! computed Selmer groups. Bounded families here; the full families are in
 //! `src/descent/checks/image_size_families.rs` (ignored by default).
 
-use super::{b, primes_of_2n, rm, rmb};
+use super::{b, finite_primes, primes_of_2n, rm, rmb};
 use crate::arith::factor_u64;
 use crate::curve::ReducedModel;
 use crate::curve::{Curve, Point, TwoIsogeny};
@@ -307,15 +307,7 @@ fn check_cassels(a: i64, bb: i64) {
         diff,
         "a={a} b={bb}"
     );
-    let primes: Vec<Prime> = d
-        .codomain()
-        .local_images()
-        .iter()
-        .filter_map(|w| match &w.place {
-            Place::Finite(p) => Some(p.clone()),
-            Place::Real => None,
-        })
-        .collect();
+    let primes: Vec<Prime> = finite_primes(d.codomain().local_images());
     assert_eq!(
         selmer_difference_from_tamagawa(&rmb(d.domain().a(), d.domain().b()), &primes).unwrap(),
         diff,

@@ -7,7 +7,7 @@
 
 use std::time::Instant;
 
-use super::{primes_of_2n, rm, rmb};
+use super::{finite_primes, primes_of_2n, rm, rmb};
 use crate::arith::factor_u64;
 use crate::curve::{Curve, Point};
 use crate::descent::{descend_isogeny, DescentOptions};
@@ -127,15 +127,7 @@ fn cassels_holds(a: i64, bb: i64) -> Result<(), String> {
     .unwrap();
     let diff = d.codomain().dimension() as i64 - d.domain().dimension() as i64;
     let from_images = selmer_difference_from_images(d.codomain().local_images());
-    let primes: Vec<Prime> = d
-        .codomain()
-        .local_images()
-        .iter()
-        .filter_map(|w| match &w.place {
-            Place::Finite(p) => Some(p.clone()),
-            Place::Real => None,
-        })
-        .collect();
+    let primes: Vec<Prime> = finite_primes(d.codomain().local_images());
     let from_tamagawa =
         selmer_difference_from_tamagawa(&rmb(d.domain().a(), d.domain().b()), &primes).unwrap();
     if from_images == diff && from_tamagawa == diff {

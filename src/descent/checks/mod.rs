@@ -25,6 +25,17 @@ fn rmb(a: &BigInt, bb: &BigInt) -> ReducedModel {
     ReducedModel::new(a.clone(), bb.clone()).unwrap()
 }
 
+/// The finite places of a list of local images.
+fn finite_primes(images: &[crate::quartic::LocalImage]) -> Vec<Prime> {
+    images
+        .iter()
+        .filter_map(|w| match &w.place {
+            crate::local::Place::Finite(p) => Some(p.clone()),
+            crate::local::Place::Real => None,
+        })
+        .collect()
+}
+
 /// The primes of 2·|n| for n ≠ 0 (factor_u64 is exact).
 fn primes_of_2n(ns: &[i64]) -> Vec<Prime> {
     let mut v = vec![Prime::two()];
