@@ -337,3 +337,21 @@ fn generators_where_the_index_bound_passes_large_inert_primes() {
     assert!(r.points_generate(), "{r}");
     r.recheck().unwrap();
 }
+
+// Division by p = 5 (module docs of `height::saturate`: the roots of
+// (x − x_Q)·f_p² − F·f_{p−1}·f_{p+1}, Silverman AEC 2nd ed., Exercise 3.7,
+// checked exactly). y² = x³ + 4481 has rank 4 and the points the descent
+// finds span a sublattice of index divisible by 5: before the division
+// was taken past p = 3, p = 5 stayed unresolved and the generators were
+// not proven (docs/performance.md, issue 26, fourth part).
+#[test]
+fn generators_after_a_division_by_five() {
+    let o = Isogeny3Options::default();
+    let r = run(&mordell(4481), &o);
+    assert_eq!(r.rank.map(|x| x.0), Some(4), "{r}");
+    let s = r.saturation.as_ref().expect("saturation ran");
+    assert_eq!(s.index_found % 5, 0, "{s:?}");
+    assert!(s.primes_checked.contains(&5) && s.unresolved.is_empty(), "{s:?}");
+    assert!(r.points_generate(), "{r}");
+    r.recheck().unwrap();
+}

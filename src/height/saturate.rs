@@ -65,10 +65,12 @@
 //!
 //! When a kernel vector survives many auxiliary primes, the combination
 //! `Q = Σ aᵢPᵢ + Σ b_jT_j` (some `a_k = 1`) is tested for divisibility
-//! by `p`: for `p = 2, 3` the x-coordinates of the `R` with `pR = ±Q` are
-//! the roots of `(x − x_Q)ψ₂² − ψ₁ψ₃` resp. `(x − x_Q)ψ₃² − ψ₂ψ₄`
-//! (division polynomials, Silverman AEC Exercise 3.7); rational roots are
-//! recognised from their real approximations and then verified exactly.
+//! by `p`: for `p ≤ 7` the x-coordinates of the `R` with `pR = ±Q` are
+//! the roots of `(x − x_Q)ψ_p² − ψ_{p−1}ψ_{p+1}` (division polynomials,
+//! Silverman AEC Exercise 3.7; degree `p²`), e.g. `(x − x_Q)ψ₂² − ψ₁ψ₃`
+//! and `(x − x_Q)ψ₃² − ψ₂ψ₄` for `p = 2, 3`; rational roots are
+//! recognised from their real approximations and then verified exactly
+//! (`pR = ±Q` in exact arithmetic). Larger `p` are left unresolved.
 //! If `pR = Q`, `P_k` is replaced by `R` (the lattice grows by index `p`)
 //! and the prime is checked again. Anything not settled is reported as
 //! unresolved; generation is claimed only when every prime up to the
@@ -95,6 +97,10 @@ use crate::error::{Error, Result};
 /// Largest accepted [`SaturationOptions::max_prime`] (arithmetic mod `p`
 /// is done in 64-bit words).
 pub const MAX_PRIME_LIMIT: u64 = 100_000;
+
+/// Largest prime `p` for which a combination that survives the sieve is
+/// divided by `p` (the division polynomial has degree `p²`).
+const MAX_DIVISION_PRIME: u64 = 7;
 
 /// Largest accepted [`SaturationOptions::max_aux_prime`] (a point count
 /// mod `q` takes `O(q)` time and memory).
@@ -571,7 +577,7 @@ fn try_divide(
     v: &[u64],
     p: u64,
 ) -> Result<Option<Vec<Point>>> {
-    if p > 3 {
+    if p > MAX_DIVISION_PRIME {
         return Ok(None);
     }
     let short = ctx.short();
@@ -600,31 +606,22 @@ fn try_divide(
     let b6 = a3 * a3 + 4.0 * a6;
     let b8 = a1 * a1 * a6 + 4.0 * a2 * a6 - a1 * a3 * a4 + a2 * a3 * a3 - a4 * a4;
     let f = [b6, 2.0 * b4, b2, 4.0];
-    let psi3 = [b8, 3.0 * b6, 3.0 * b4, b2, 3.0];
-    let poly: Vec<f64> = if p == 2 {
-        // (x − xQ)·F − ψ3.
-        let mut c = poly_mul(&[-xqf, 1.0], &f);
-        for (i, v) in psi3.iter().enumerate() {
-            c[i] -= v;
-        }
-        c
+    let psi = division_cofactors(b2, b4, b6, b8, p as usize + 1);
+    let pu = p as usize;
+    // (x − xQ)·f_p² − F·f_{p−1}·f_{p+1} for odd p, (x − xQ)·F − f_3 for
+    // p = 2 (f_1 = f_2 = 1); its roots are the x(R) with pR = ±Q.
+    let (square, cross) = if p == 2 {
+        (f.to_vec(), psi[3].clone())
     } else {
-        let g = [
-            b4 * b8 - b6 * b6,
-            b2 * b8 - b4 * b6,
-            10.0 * b8,
-            10.0 * b6,
-            5.0 * b4,
-            b2,
-            2.0,
-        ];
-        let mut c = poly_mul(&poly_mul(&[-xqf, 1.0], &psi3), &psi3);
-        let fg = poly_mul(&f, &g);
-        for (i, v) in fg.iter().enumerate() {
-            c[i] -= v;
-        }
-        c
+        (
+            poly_mul(&psi[pu], &psi[pu]),
+            poly_mul(&f, &poly_mul(&psi[pu - 1], &psi[pu + 1])),
+        )
     };
+    let mut poly = poly_mul(&[-xqf, 1.0], &square);
+    for (i, v) in cross.iter().enumerate() {
+        poly[i] -= v;
+    }
     if poly.iter().any(|c| !c.is_finite()) {
         return Ok(None);
     }
@@ -664,6 +661,66 @@ fn poly_mul(a: &[f64], b: &[f64]) -> Vec<f64> {
         }
     }
     c
+}
+
+/// The division polynomials' cofactors `f_0, …, f_m` as polynomials in
+/// `x` (coefficients from the constant term up), from the b-invariants:
+/// `ψ_n = f_n` for odd `n` and `ψ_n = (2y + a₁x + a₃)·f_n` for even `n`,
+/// with `f_0 = 0`, `f_1 = f_2 = 1`, `f_3`, `f_4` as in Silverman, AEC 2nd
+/// ed., Exercise 3.7, and the doubling recurrences written for the
+/// cofactors (`F = 4x³ + b₂x² + 2b₄x + b₆ = (2y + a₁x + a₃)²`):
+/// `f_{2m} = f_m(f_{m+2}f_{m−1}² − f_{m−2}f_{m+1}²)`,
+/// `f_{2m+1} = F²f_{m+2}f_m³ − f_{m−1}f_{m+1}³` for even `m` and
+/// `f_{m+2}f_m³ − F²f_{m−1}f_{m+1}³` for odd `m`.
+/// Floating point: the result only proposes roots, which are then checked
+/// exactly.
+fn division_cofactors(b2: f64, b4: f64, b6: f64, b8: f64, m: usize) -> Vec<Vec<f64>> {
+    let f = vec![b6, 2.0 * b4, b2, 4.0];
+    let f2 = poly_mul(&f, &f);
+    let mut out: Vec<Vec<f64>> = vec![
+        vec![0.0],
+        vec![1.0],
+        vec![1.0],
+        vec![b8, 3.0 * b6, 3.0 * b4, b2, 3.0],
+        vec![
+            b4 * b8 - b6 * b6,
+            b2 * b8 - b4 * b6,
+            10.0 * b8,
+            10.0 * b6,
+            5.0 * b4,
+            b2,
+            2.0,
+        ],
+    ];
+    let cube = |a: &Vec<f64>| poly_mul(a, &poly_mul(a, a));
+    let sub = |a: Vec<f64>, b: Vec<f64>| -> Vec<f64> {
+        let mut c = vec![0.0; a.len().max(b.len())];
+        for (i, v) in a.iter().enumerate() {
+            c[i] += v;
+        }
+        for (i, v) in b.iter().enumerate() {
+            c[i] -= v;
+        }
+        c
+    };
+    for n in 5..=m {
+        let k = n / 2;
+        let next = if n % 2 == 0 {
+            let u = poly_mul(&out[k + 2], &poly_mul(&out[k - 1], &out[k - 1]));
+            let w = poly_mul(&out[k - 2], &poly_mul(&out[k + 1], &out[k + 1]));
+            poly_mul(&out[k], &sub(u, w))
+        } else {
+            let u = poly_mul(&out[k + 2], &cube(&out[k]));
+            let w = poly_mul(&out[k - 1], &cube(&out[k + 1]));
+            if k % 2 == 0 {
+                sub(poly_mul(&f2, &u), w)
+            } else {
+                sub(u, poly_mul(&f2, &w))
+            }
+        };
+        out.push(next);
+    }
+    out
 }
 
 /// Continued-fraction convergents `num/den` of `x` with `den ≤ max_den`.
@@ -1016,6 +1073,47 @@ fn nullspace(rows: &[Vec<u64>], n: usize, p: u64) -> Vec<Vec<u64>> {
 #[allow(clippy::unwrap_used)]
 mod tests {
     use super::*;
+
+    /// x(nP) = x − ψ_{n−1}ψ_{n+1}/ψ_n² (Silverman, AEC 2nd ed., Exercise
+    /// 3.7) from the cofactors, against the group law, on
+    /// y² = x³ + 17 with P = (−2, 3) (b₂ = 0, b₄ = 0, b₆ = 68, b₈ = 0) and
+    /// n = 2, …, 7; the multiples are computed exactly as rationals.
+    #[test]
+    fn division_cofactors_give_the_multiples_of_a_point() {
+        use num_rational::BigRational;
+        let curve = crate::curve::Curve::from_ints([0, 0, 0, 0, 17]).unwrap();
+        let p = curve
+            .point(
+                BigRational::from_integer((-2).into()),
+                BigRational::from_integer(3.into()),
+            )
+            .unwrap();
+        let psi = division_cofactors(0.0, 0.0, 68.0, 0.0, 8);
+        let ev = |c: &Vec<f64>, x: f64| c.iter().rev().fold(0.0, |acc, v| acc * x + v);
+        let x = -2.0;
+        let big_f = ev(&vec![68.0, 0.0, 0.0, 4.0], x);
+        for n in 2..=7usize {
+            let (num, den) = if n % 2 == 1 {
+                (
+                    big_f * ev(&psi[n - 1], x) * ev(&psi[n + 1], x),
+                    ev(&psi[n], x).powi(2),
+                )
+            } else {
+                (
+                    ev(&psi[n - 1], x) * ev(&psi[n + 1], x),
+                    big_f * ev(&psi[n], x).powi(2),
+                )
+            };
+            let predicted = x - num / den;
+            let q = curve.mul(&p, &BigInt::from(n as u64));
+            let xq = q.x().unwrap();
+            let exact = crate::height::local_terms::ratio_f64(xq.numer(), xq.denom());
+            assert!(
+                (predicted - exact).abs() <= 1e-9 * exact.abs().max(1.0),
+                "n = {n}: {predicted} against {exact}"
+            );
+        }
+    }
 
     #[test]
     fn nullspace_of_one_row_over_f3() {
