@@ -153,7 +153,9 @@ fn sieved_search_agrees_with_a_plain_scan() {
                 if num_integer::Integer::gcd(&u, &v) != 1 {
                     continue;
                 }
-                let z = cu.eval_form(&BigInt::from(u), &BigInt::from(v)) * BigInt::from(c * c);
+                let z =
+                    BigInt::from(((f[0] * u + f[1] * v) * u + f[2] * v * v) * u + f[3] * v * v * v)
+                        * BigInt::from(c * c);
                 let r = z.cbrt();
                 if &r * &r * &r == z {
                     plain = Some((u, v));

@@ -6,7 +6,8 @@
 use std::collections::BTreeMap;
 
 use isodescent::cubic::{solubility_at, BinaryCubicCurve, PlaneCubic, PLANE_CUBIC_MONOMIALS};
-use isodescent::{Budget, Error, Prime};
+use isodescent::local::Prime;
+use isodescent::{Budget, Error};
 use num_bigint::BigInt;
 use num_traits::Zero;
 

@@ -3,8 +3,10 @@
 //! points lie on the input curve, and the Selmer groups contain the images
 //! of torsion.
 
+use isodescent::arith::squarefree_part;
 use isodescent::curve::{Curve, ModelChange, ReducedModel, TwoIsogeny};
 use isodescent::descent::{descend, descend_isogeny, ClassStatus, DescentOptions};
+use isodescent::Budget;
 use num_bigint::BigInt;
 use num_rational::BigRational;
 use proptest::prelude::*;
@@ -18,13 +20,22 @@ fn curve_ab() -> impl Strategy<Value = (i64, i64)> {
 }
 
 fn class_set(s: &isodescent::descent::SelmerSide) -> Vec<BigInt> {
-    let mut v: Vec<BigInt> = s
+    // Every element of the group: the square-free parts of the products of
+    // the basis classes over all subsets (the dimensions here are small).
+    let basis: Vec<BigInt> = s
         .group()
-        .elements()
-        .unwrap()
+        .basis()
         .iter()
         .map(|x| s.qs2().integer(x))
         .collect();
+    let mut v = vec![BigInt::from(1)];
+    for c in &basis {
+        let more: Vec<BigInt> = v
+            .iter()
+            .map(|d| squarefree_part(&(d * c), &mut Budget::unlimited()).unwrap())
+            .collect();
+        v.extend(more);
+    }
     v.sort();
     v
 }

@@ -1029,7 +1029,7 @@ fn analytic_view(a: &crate::analytic::AnalyticData) -> AnalyticView {
                 }
             })
             .collect(),
-        terms: a.terms_used(),
+        terms: a.evidence().terms_used,
         theorem: a.rank_proven().map(|(_, t)| t.name()),
         skipped: a.skipped().map(|s| match s {
             Skip::ConductorAboveLimit => "conductor_above_limit",

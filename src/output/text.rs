@@ -624,7 +624,7 @@ fn write_analytic(f: &mut fmt::Formatter<'_>, r: &DescentReport, a: &AnalyticDat
         } else {
             "s"
         },
-        a.terms_used()
+        a.evidence().terms_used
     )?;
     let values: Vec<String> = a
         .l_values()
