@@ -757,7 +757,7 @@ fn space_point(p: &crate::quartic::search::QuarticPoint) -> SpacePointView {
 
 fn side_view(s: &SelmerSide, domain: bool, detail: Detail) -> SideView {
     let (sel, sha) = side_names(domain);
-    let elements = s.elements().iter().map(class_view).collect();
+    let elements = s.elements.iter().map(class_view).collect();
     let evidence = (detail == Detail::Full).then(|| evidence_view(s));
     let dim = s.dimension();
     SideView {
@@ -767,7 +767,7 @@ fn side_view(s: &SelmerSide, domain: bool, detail: Detail) -> SideView {
         dimension: dim,
         image_lower: s.image_lower(),
         image_upper: s.image_upper(),
-        torsion_image_dimension: s.torsion_dim(),
+        torsion_image_dimension: s.torsion_dim,
         sha_dimension_lower: dim - s.image_upper().min(dim),
         sha_dimension_upper: dim - s.image_lower(),
         elements,
@@ -819,8 +819,8 @@ fn evidence_view(s: &SelmerSide) -> EvidenceView {
                 }
             })
             .collect(),
-        spaces: s.searches().iter().map(space_view).collect(),
-        four_coverings: s.elements().iter().filter_map(coverings_view).collect(),
+        spaces: s.searches.iter().map(space_view).collect(),
+        four_coverings: s.elements.iter().filter_map(coverings_view).collect(),
     }
 }
 

@@ -443,8 +443,8 @@ fn class_lift_with(
             });
         };
         let value = match &v {
-            Place::Real => real_value(&setting, w.x(), w.z(), budget)?,
-            Place::Finite(p) => padic_value(p, &setting, w.x(), w.z(), budget)?,
+            Place::Real => real_value(&setting, &w.x, &w.z, budget)?,
+            Place::Finite(p) => padic_value(p, &setting, &w.x, &w.z, budget)?,
         };
         values.push(value);
     }
