@@ -27,7 +27,6 @@ pub use covering::{
     second_descent, verify_obstruction, ConicSide, NoPointEvidence, ObstructedCurve,
     SecondDescentOptions, SecondDescentOutcome, SurvivingCovering, TwistObstruction,
 };
-pub use pairing::{
-    class_lift, lift_pairing, soluble_twists, verify_class_lift, ClassLift, LiftPairing,
-    LocalLiftValue,
-};
+#[cfg(test)]
+pub(crate) use pairing::{class_lift, soluble_twists};
+pub use pairing::{lift_pairing, verify_class_lift, ClassLift, LiftPairing, LocalLiftValue};

@@ -381,7 +381,7 @@ fn functional_from(values: &[LocalLiftValue], table: &[Vec<u8>], dim: usize) -> 
 /// [`Error::InvalidArgument`] when `d ∤ b` or `C_d` is insoluble at some
 /// place of `S ∪ {∞}` (so `d` is not in the Selmer group);
 /// [`Error::SingularCurve`]; [`Error::BudgetExhausted`].
-pub fn class_lift(
+pub(crate) fn class_lift(
     model: &ReducedModel,
     d: &BigInt,
     qs2: &QS2,
@@ -540,7 +540,7 @@ pub fn lift_pairing(
 /// # Errors
 /// [`Error::InvalidArgument`] when a place of the lift has no condition;
 /// [`Error::BudgetExhausted`].
-pub fn soluble_twists(
+pub(crate) fn soluble_twists(
     lift: &ClassLift,
     qs2: &QS2,
     conditions: &[crate::selmer::LocalCondition],
