@@ -60,7 +60,7 @@ use num_traits::{One, ToPrimitive};
 pub(crate) use crate::arith::Certified;
 pub use coefficients::{dirichlet_coefficients, frobenius_trace, ApTable};
 pub use ledger::{sha_analytic, ShaLedger};
-pub use period::{real_period, RealPeriod};
+pub(crate) use period::{real_period, RealPeriod};
 pub(crate) use root_number::root_number_by_formula;
 pub(crate) use series::Series;
 
