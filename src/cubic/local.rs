@@ -170,13 +170,6 @@ pub enum CubicLocal {
     Insoluble,
 }
 
-impl CubicLocal {
-    /// True for [`CubicLocal::Soluble`].
-    pub fn is_soluble(&self) -> bool {
-        matches!(self, CubicLocal::Soluble(_))
-    }
-}
-
 /// v_p(z) for z ≠ 0.
 pub(crate) fn val(z: &BigInt, p: &BigInt) -> u64 {
     if z.is_zero() {
