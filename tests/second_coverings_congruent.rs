@@ -78,7 +78,7 @@ fn examine_side(n: i64, side: &SelmerSide) -> SideResult {
                 // Soundness: a class with a known point is never "no point".
                 let out = second_descent(
                     &side.model,
-                    &space,
+                    space,
                     &SecondDescentOptions::default(),
                     &mut Budget::unlimited(),
                 )

@@ -197,10 +197,6 @@ impl TwoTorsionModel {
     pub(crate) fn to_input(&self, p: &Point) -> Point {
         self.change.to_old(p)
     }
-    /// A point of the input curve, written on the reduced curve.
-    pub(crate) fn from_input(&self, p: &Point) -> Point {
-        self.change.to_new(p)
-    }
 }
 
 /// The reduced model E_T for descent via the 2-isogeny with kernel {O, T}

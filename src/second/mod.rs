@@ -8,7 +8,7 @@
 //! * the lifting pairing (module `pairing`): which classes `d` of `Sel`
 //!   lift to everywhere locally soluble 2-coverings, by linear algebra over
 //!   F2 ([`lift_pairing`]); for one class, its local lift values and the
-//!   twists that can lift it ([`class_lift`], [`soluble_twists`]);
+//!   twists that can lift it (`class_lift`, `soluble_twists`, crate-private);
 //! * the 4-coverings (module `covering`): for one class `d`, the finite set
 //!   of twists `λ` of the conic of `C_d`, the quartic 4-covering of each,
 //!   its local tests, a point search on the survivors

@@ -462,7 +462,7 @@ fn class_lift_with(
 /// everywhere locally soluble 2-coverings (see the module docs).
 ///
 /// # Errors
-/// As [`class_lift`] for each basis class.
+/// As `class_lift` (crate-private) for each basis class.
 /// `known` must be a subspace of `group` made of images of rational points
 /// (torsion images, say): they lie in the kernel, their rows are zero and
 /// no conic is solved for them.

@@ -128,7 +128,7 @@ impl BitVec {
     }
 
     /// True for the empty vector (length 0).
-    pub(crate) fn is_empty(&self) -> bool {
+    pub fn is_empty(&self) -> bool {
         self.len == 0
     }
 

@@ -13,6 +13,8 @@ use crate::height::{
 };
 use crate::Budget;
 
+// The reference values the integration tests and src/analytic/tests read too.
+#[allow(clippy::duplicate_mod)]
 #[path = "../../../tests/values/mod.rs"]
 mod values;
 
@@ -135,8 +137,10 @@ fn the_bound_over_the_box_and_the_congruent_curves() {
             curves.push([0, 0, 0, -n * n, 0]);
         }
     }
-    let mut opts = DescentOptions::default();
-    opts.saturation = None;
+    let opts = DescentOptions {
+        saturation: None,
+        ..DescentOptions::default()
+    };
     let (mut compared, mut none, mut worst) = (0, 0, f64::INFINITY);
     for a in &curves {
         let e = Curve::from_ints(*a).unwrap();
