@@ -22,7 +22,7 @@ pub struct QS2 {
 
 impl QS2 {
     /// Q(S, 2) for the given primes (sorted and deduplicated here).
-    pub(crate) fn new(mut primes: Vec<Prime>) -> Self {
+    pub fn new(mut primes: Vec<Prime>) -> Self {
         primes.sort();
         primes.dedup();
         QS2 { primes }
