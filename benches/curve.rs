@@ -195,7 +195,7 @@ fn bench_families(c: &mut Criterion) {
                 for (ms, t) in models.iter().zip(&tors) {
                     for m in ms {
                         for p in t.points() {
-                            black_box(m.to_input(&m.from_input(p)));
+                            black_box(m.change().to_old(&m.change().to_new(p)));
                         }
                     }
                 }

@@ -68,10 +68,10 @@ fn bench(c: &mut Criterion) {
     g.bench_function("lind_reichardt", |bch| {
         bch.iter(|| {
             lift_pairing(
-                side.model(),
-                side.qs2(),
-                side.group(),
-                side.known(),
+                &side.model,
+                &side.qs2,
+                &side.group,
+                &side.known,
                 &mut Budget::unlimited(),
             )
             .unwrap()

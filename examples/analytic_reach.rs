@@ -69,7 +69,7 @@ fn run(n: u64, options: &AnalyticOptions) -> Row {
     Row {
         n,
         conductor: d.conductor().to_string(),
-        terms: d.terms_used(),
+        terms: d.evidence().terms_used,
         seconds,
         proven: d.rank_proven().map(|r| r.0),
         skipped: d.skipped().is_some(),
@@ -198,8 +198,8 @@ fn main() {
                     println!(
                         "d = {d:>8}  N = {:>16}  terms = {:>9}  route {:?}  cpu = {cpu:>8.4} s  rank proven: {:?}",
                         r.conductor(),
-                        r.terms_used(),
-                        r.series_route(),
+                        r.evidence().terms_used,
+                        r.evidence().series_route,
                         r.rank_proven().map(|x| x.0)
                     );
                     times.push(cpu);
@@ -264,13 +264,13 @@ fn main() {
                 let cpu = (thread_cpu_ns().unwrap_or(0) - cpu0) / u64::from(reps);
                 println!(
                     "{:?}: w = {:?}, values {:?}, split {:?}, cpu {:.6} s",
-                    d.series_route(),
+                    d.evidence().series_route,
                     d.root_number(),
                     d.l_values()
                         .iter()
                         .map(|(r, v)| format!("L^({r}) = {v}"))
                         .collect::<Vec<_>>(),
-                    d.split_check().map(|s| s.difference.to_string()),
+                    d.evidence().split_check.map(|s| s.difference.to_string()),
                     cpu as f64 * 1e-9
                 );
             }

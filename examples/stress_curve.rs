@@ -78,12 +78,12 @@ fn main() -> ExitCode {
                         for side in [&d.domain(), &d.codomain()] {
                             println!(
                                 "  side b={}: dim Sel {}, dim I {:?}, dim K {}, searches {}, 4-covering runs {:?}, pairing error {:?}",
-                                side.model().b(),
-                                side.group().dim(),
-                                side.pairing().map(|p| p.liftable.dim()),
-                                side.known().dim(),
-                                side.searches().len(),
-                                side.covering_runs()
+                                side.model.b(),
+                                side.group.dim(),
+                                side.pairing.as_ref().map(|p| p.liftable.dim()),
+                                side.known.dim(),
+                                side.searches.len(),
+                                side.covering_runs
                                     .iter()
                                     .map(|r| format!("{}: {}", r.class, r.verdict.word()))
                                     .collect::<Vec<_>>(),

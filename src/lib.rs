@@ -14,7 +14,7 @@
 //!
 //! | layer | module | holds |
 //! |---|---|---|
-//! | — | [`error`], [`budget`] | the one error enum; deterministic effort budgets |
+//! | — | [`Error`], [`budget`] | the one error enum (with `Result`); deterministic effort budgets |
 //! | 1 | [`arith`] | primality, factoring, square-free parts, integer roots, certified reals |
 //! | 2 | [`local`] | places, valuations, symbols, modular square roots, square classes, Hilbert symbols |
 //! | 3 | [`curve`] | Weierstrass models, points, 2-torsion, the checked `ReducedModel`, 2-isogenies, rational 3-isogenies (Vélu), torsion, Tate's algorithm |
@@ -65,7 +65,7 @@
 
 // Cross-cutting: the error enum and deterministic effort budgets.
 pub mod budget;
-pub mod error;
+pub(crate) mod error;
 
 // The layers, lowest first; each uses only the ones above it here.
 
@@ -120,5 +120,3 @@ pub use descent::{
     descend, Completion, DescentOptions, DescentReport, Generators, RankBounds, RankProof,
 };
 pub use error::{Error, Result};
-pub use local::{Place, Prime};
-pub use output::Detail;

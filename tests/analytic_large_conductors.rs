@@ -26,12 +26,12 @@ fn both_routes_agree_within_their_bounds() {
     for n in [5i64, 6, 7, 34, 41, 157, 1767, 17683] {
         let a = congruent(n, &stored);
         let b = congruent(n, &streamed);
-        assert_eq!(a.series_route(), Some(SeriesRoute::Stored));
-        assert_eq!(b.series_route(), Some(SeriesRoute::StreamedTwist));
+        assert_eq!(a.evidence().series_route, Some(SeriesRoute::Stored));
+        assert_eq!(b.evidence().series_route, Some(SeriesRoute::StreamedTwist));
         assert_eq!(a.root_number(), b.root_number(), "n = {n}");
         assert_eq!(a.rank_proven(), b.rank_proven(), "n = {n}");
         assert_eq!(a.analytic_rank(), b.analytic_rank(), "n = {n}");
-        assert!(b.split_check().unwrap().passed, "n = {n}");
+        assert!(b.evidence().split_check.unwrap().passed, "n = {n}");
         assert_eq!(a.l_values().len(), b.l_values().len(), "n = {n}");
         for ((r, x), (s, y)) in a.l_values().iter().zip(b.l_values()) {
             assert_eq!(r, s);
@@ -48,7 +48,7 @@ fn both_routes_agree_within_their_bounds() {
     let l = e.tate_data(&mut b).unwrap();
     let x = analyse(&e, &l, &stored, &mut b).unwrap();
     let y = analyse(&e, &l, &streamed, &mut b).unwrap();
-    assert_eq!(y.series_route(), Some(SeriesRoute::Streamed));
+    assert_eq!(y.evidence().series_route, Some(SeriesRoute::Streamed));
     assert!(x.l_value(1).unwrap().overlaps(&y.l_value(1).unwrap()));
     assert_eq!(
         y.rank_proven(),
@@ -80,9 +80,9 @@ fn twists_switch_to_the_streamed_route_above_their_own_threshold() {
             route == SeriesRoute::StreamedTwist,
             "n = {n}, N = {conductor}"
         );
-        assert_eq!(d.series_route(), Some(route), "n = {n}");
+        assert_eq!(d.evidence().series_route, Some(route), "n = {n}");
         let stored = congruent(n, &options.clone().with_streamed_above(u64::MAX));
-        assert_eq!(stored.series_route(), Some(SeriesRoute::Stored));
+        assert_eq!(stored.evidence().series_route, Some(SeriesRoute::Stored));
         assert_eq!(d.rank_proven(), stored.rank_proven(), "n = {n}");
         for ((r, x), (s, y)) in d.l_values().iter().zip(stored.l_values()) {
             assert_eq!(r, s);
@@ -94,7 +94,7 @@ fn twists_switch_to_the_streamed_route_above_their_own_threshold() {
     let mut b = Budget::unlimited();
     let l = e.tate_data(&mut b).unwrap();
     let d = analyse(&e, &l, &options, &mut b).unwrap();
-    assert_eq!(d.series_route(), Some(SeriesRoute::Stored));
+    assert_eq!(d.evidence().series_route, Some(SeriesRoute::Stored));
 }
 
 #[test]
@@ -112,7 +112,7 @@ fn congruent_root_numbers_follow_the_residue_of_n_mod_8() {
         }
         let d = congruent(n, &streamed);
         let expected = if matches!(n % 8, 1..=3) { 1 } else { -1 };
-        assert_eq!(d.root_number_by_test(), Some(expected), "n = {n}");
+        assert_eq!(d.evidence().root_number_by_test, Some(expected), "n = {n}");
         assert_eq!(d.root_number(), Some(expected), "n = {n}");
         checked += 1;
     }
@@ -131,9 +131,9 @@ fn curves_with_n_near_10_to_the_5_are_decided_by_default() {
     for (n, rank) in [(100_005i64, 1usize), (100_003, 0)] {
         let d = congruent(n, &options);
         assert_eq!(d.skipped(), None, "n = {n}");
-        assert_eq!(d.series_route(), Some(SeriesRoute::StreamedTwist));
+        assert_eq!(d.evidence().series_route, Some(SeriesRoute::StreamedTwist));
         assert_eq!(d.conductor().to_string(), (32 * n * n).to_string());
-        assert!(d.split_check().unwrap().passed);
+        assert!(d.evidence().split_check.unwrap().passed);
         let proven = d.rank_proven().expect("rank settled").0;
         assert_eq!(proven, rank, "n = {n}: {:?}", d.l_values());
     }
@@ -145,7 +145,7 @@ fn curves_with_n_near_10_to_the_5_are_decided_by_default() {
         o
     });
     assert_eq!(d.skipped(), Some(Skip::ConductorAboveLimit));
-    assert!(options.conductor_limit_for(false) < options.conductor_limit_for(true));
+    assert!(options.conductor_limit < options.twist_conductor_limit);
 }
 
 #[test]
@@ -199,7 +199,7 @@ fn j_zero_curves_above_10_to_the_10_are_analysed_by_default() {
         let d = analyse(&e, &l, &options, &mut b).unwrap();
         assert!(d.conductor() > &10_000_000_000u64.into(), "p = {p}");
         assert_eq!(d.skipped(), None, "p = {p}");
-        assert!(d.split_check().unwrap().passed, "p = {p}");
+        assert!(d.evidence().split_check.unwrap().passed, "p = {p}");
         match p % 9 {
             2 | 5 => {
                 assert_eq!(d.root_number(), Some(1), "p = {p}");
@@ -217,5 +217,5 @@ fn j_zero_curves_above_10_to_the_10_are_analysed_by_default() {
     }
     assert_eq!(seen, [3, 3]);
     // A curve without closed forms keeps the lower limit.
-    assert!(options.conductor_limit_for(false) < options.conductor_limit_for(true));
+    assert!(options.conductor_limit < options.twist_conductor_limit);
 }

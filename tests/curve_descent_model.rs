@@ -123,8 +123,8 @@ fn reduced_model_of_a_rational_general_model_is_integral_reduced_and_consistent(
             let m = two_torsion_model(&e, &tp).unwrap();
             assert!(is_reduced_at_small_primes(m.reduced().a(), m.reduced().b()));
             assert_eq!(m.change().apply_to_curve(&e), *m.curve());
-            assert_eq!(m.from_input(&tp), Point::from_ints(0, 0));
-            assert_eq!(m.to_input(&Point::from_ints(0, 0)), tp);
+            assert_eq!(m.change().to_new(&tp), Point::from_ints(0, 0));
+            assert_eq!(m.change().to_old(&Point::from_ints(0, 0)), tp);
             assert_eq!(m.curve().j_invariant(), e.j_invariant());
             // The reduced curve is y^2 = x^3 + a x^2 + b x.
             let c = m.curve().coefficients();
@@ -233,7 +233,7 @@ fn the_direct_reduced_model_of_an_integral_a_b_curve_agrees_with_the_general_con
                 "{e}, T = {t}"
             );
             assert_eq!(direct.change().apply_to_curve(&e), *direct.curve());
-            assert_eq!(direct.from_input(&t), Point::from_ints(0, 0));
+            assert_eq!(direct.change().to_new(&t), Point::from_ints(0, 0));
         }
     }
 }

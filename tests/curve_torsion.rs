@@ -105,7 +105,6 @@ fn check_group_is_consistent(e: &Curve, g: &TorsionGroup) {
         g.generators().len(),
         usize::from(n1 > 1) + usize::from(n2 > 1)
     );
-    assert_eq!(g.reduction_bound() % g.order(), 0);
 }
 
 /// True iff the structure `(n, m)` (the group Z/n × Z/m, m | n) is one of

@@ -79,7 +79,7 @@ fn primes_4_7_8_mod_9_have_root_number_minus_1() {
         let local = global_local_data(e.coefficients(), &mut budget).unwrap();
         let data = analyse(&e, &local, &AnalyticOptions::default(), &mut budget).unwrap();
         assert_eq!(data.root_number(), Some(-1), "p = {p}");
-        if let Some(formula) = data.root_number_by_formula() {
+        if let Some(formula) = data.evidence().root_number_by_formula {
             assert_eq!(formula, -1, "p = {p}");
         }
         let r = run(&e, &quick());

@@ -31,23 +31,23 @@ fn lind_reichardt_class_is_proven_not_an_image() {
     );
     let side = &r.isogenies()[0].domain();
     let proven: Vec<String> = side
-        .elements()
+        .elements
         .iter()
         .filter(|e| matches!(e.status, ClassStatus::ProvenNotImage { .. }))
         .map(|e| e.class.to_string())
         .collect();
     // the class of 2 (or its coset 2·(−17) = −34) is among the proven ones
     assert!(
-        side.elements().iter().any(|e| {
+        side.elements.iter().any(|e| {
             matches!(&e.status, ClassStatus::ProvenNotImage { space, .. }
                 if *space == 2.into() || *space == (-34).into())
         }) || side
-            .covering_runs()
+            .covering_runs
             .iter()
             .any(|run| (run.class == 2.into() || run.class == (-34).into())
                 && run.verdict == CoveringVerdict::ProvenNotImage),
         "proven classes {proven:?}, runs {:?}",
-        side.covering_runs()
+        side.covering_runs
     );
     assert_eq!((r.rank_bounds().lower(), r.rank_bounds().upper()), (0, 0));
     let v = verify_report(&r, 50_000_000).unwrap();

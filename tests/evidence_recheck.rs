@@ -327,8 +327,8 @@ fn check_curve(label: &str, c: &Curve, opts: &DescentOptions, tally: &mut Tally)
     for iso in r.isogenies() {
         for s in [iso.domain(), iso.codomain()] {
             let k = sides.len();
-            sides.push((s.model().a().clone(), s.model().b().clone()));
-            for el in s.elements() {
+            sides.push((s.model.a().clone(), s.model.b().clone()));
+            for el in &s.elements {
                 if let ClassStatus::ProvenNotImage { obstructions, .. } = &el.status {
                     for o in obstructions {
                         typed.push((
@@ -449,7 +449,7 @@ fn the_degenerate_example_is_printed_as_its_conic() {
     let mut found = false;
     for iso in r.isogenies() {
         for s in [iso.domain(), iso.codomain()] {
-            for el in s.elements() {
+            for el in &s.elements {
                 if let ClassStatus::ProvenNotImage { obstructions, .. } = &el.status {
                     for o in obstructions {
                         if let CoveringObstruction::Conic {

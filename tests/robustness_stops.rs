@@ -113,7 +113,7 @@ fn each_stopped_step_is_named() {
     let r = assert_stopped_at(line, &o, "local data (Tate's algorithm)");
     assert!(r.tate_data().is_none());
     assert_eq!((r.rank_bounds().lower(), r.rank_bounds().upper()), (2, 2));
-    let json = isodescent::output::report_line(line, &r, isodescent::Detail::Summary);
+    let json = isodescent::output::report_line(line, &r, isodescent::output::Detail::Summary);
     let v: serde_json::Value = serde_json::from_str(&json).unwrap();
     assert_eq!(v["status"], "partial");
     assert!(v["conductor"].is_null() && v["minimal_model"].is_null());

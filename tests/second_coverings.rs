@@ -91,7 +91,7 @@ fn the_lind_reichardt_class_is_locally_soluble_everywhere_and_left_undecided_by_
     .unwrap();
     let undecided: Vec<&BigInt> = desc
         .domain()
-        .elements()
+        .elements
         .iter()
         .filter(|e| e.status == ClassStatus::Undecided)
         .map(|e| &e.class)

@@ -69,15 +69,15 @@ struct SideResult {
 }
 
 fn examine_side(n: i64, side: &SelmerSide) -> SideResult {
-    let known = side.known().dim();
+    let known = side.known.dim();
     let mut undecided = Vec::new();
-    for el in side.elements() {
+    for el in &side.elements {
         match &el.status {
             ClassStatus::Undecided => undecided.push(el.class.clone()),
             ClassStatus::PointImage { space, .. } => {
                 // Soundness: a class with a known point is never "no point".
                 let out = second_descent(
-                    side.model(),
+                    &side.model,
                     space,
                     &SecondDescentOptions::default(),
                     &mut Budget::unlimited(),
@@ -106,7 +106,7 @@ fn examine_side(n: i64, side: &SelmerSide) -> SideResult {
             }
         }
         let out = second_descent(
-            side.model(),
+            &side.model,
             &d,
             &SecondDescentOptions::default(),
             &mut Budget::unlimited(),
@@ -116,8 +116,8 @@ fn examine_side(n: i64, side: &SelmerSide) -> SideResult {
             SecondDescentOutcome::Point {
                 point_x, point_y, ..
             } => {
-                let b = BigRational::from_integer(side.model().b().clone());
-                let a = BigRational::from_integer(side.model().a().clone());
+                let b = BigRational::from_integer(side.model.b().clone());
+                let a = BigRational::from_integer(side.model.a().clone());
                 assert_eq!(
                     &point_y * &point_y,
                     &point_x * &point_x * &point_x + a * &point_x * &point_x + b * &point_x,
@@ -127,7 +127,7 @@ fn examine_side(n: i64, side: &SelmerSide) -> SideResult {
             }
             SecondDescentOutcome::NoPoint(ev) => {
                 assert!(
-                    verify_obstruction(side.model(), &d, &ev, &mut Budget::unlimited()),
+                    verify_obstruction(&side.model, &d, &ev, &mut Budget::unlimited()),
                     "n = {n}, d = {d}: evidence does not verify"
                 );
                 excluded.push(mask);
@@ -153,7 +153,7 @@ fn examine_side(n: i64, side: &SelmerSide) -> SideResult {
     SideResult {
         lower: known + found_dim,
         upper: known + max_avoiding(u, &excluded),
-        first_upper: side.group().dim(),
+        first_upper: side.group.dim(),
         points: image_masks.len(),
         no_points: excluded.len(),
     }

@@ -60,7 +60,7 @@ use num_traits::{One, ToPrimitive};
 pub(crate) use crate::arith::Certified;
 pub use coefficients::{dirichlet_coefficients, frobenius_trace, ApTable};
 pub use ledger::{sha_analytic, ShaLedger};
-pub use period::{real_period, RealPeriod};
+pub(crate) use period::{real_period, RealPeriod};
 pub(crate) use root_number::root_number_by_formula;
 pub(crate) use series::Series;
 
@@ -171,7 +171,7 @@ impl AnalyticOptions {
     /// limits for quadratic twists of `y² = x³ − x` and for curves with
     /// `j = 0` (`closed_form_family`), else
     /// [`AnalyticOptions::conductor_limit`].
-    pub fn conductor_limit_for(&self, closed_form_family: bool) -> u64 {
+    pub(crate) fn conductor_limit_for(&self, closed_form_family: bool) -> u64 {
         if closed_form_family {
             self.conductor_limit.max(self.twist_conductor_limit)
         } else {
@@ -227,7 +227,7 @@ pub enum RankTheorem {
 
 impl RankTheorem {
     /// The theorem's name, for reports.
-    pub fn name(&self) -> &'static str {
+    pub(crate) fn name(&self) -> &'static str {
         match self {
             RankTheorem::GrossZagierKolyvagin => {
                 "Gross-Zagier (1986) and Kolyvagin (1990), with modularity (Wiles 1995; Breuil-Conrad-Diamond-Taylor 2001)"
@@ -296,16 +296,32 @@ pub struct AnalyticData {
     conductor: BigInt,
     root_number: Option<i8>,
     route: Option<RootNumberRoute>,
-    by_formula: Option<i8>,
-    by_test: Option<i8>,
     period: Option<RealPeriod>,
     l_values: Vec<(usize, Certified)>,
     analytic_order: Option<AnalyticOrder>,
     rank_proven: Option<(usize, RankTheorem)>,
-    terms_used: u64,
-    series_route: Option<SeriesRoute>,
-    split_check: Option<SplitCheck>,
+    evidence: AnalyticEvidence,
     skipped: Option<Skip>,
+}
+
+/// How [`analyse`] reached its values: the two root-number decisions, the
+/// series summed and the consistency check of `Λ(1)`. One record, read
+/// through [`AnalyticData::evidence`].
+#[derive(Debug, Clone, Copy, PartialEq)]
+#[non_exhaustive]
+pub struct AnalyticEvidence {
+    /// The root number by the local formulas (`None` when additive at 2
+    /// or 3).
+    pub root_number_by_formula: Option<i8>,
+    /// The root number by the functional-equation test (`None` when
+    /// inconclusive or not run).
+    pub root_number_by_test: Option<i8>,
+    /// The number of terms `a_n` used.
+    pub terms_used: u64,
+    /// How the series were summed (`None` when no terms were used).
+    pub series_route: Option<SeriesRoute>,
+    /// The check of `Λ(1)` with two splitting parameters.
+    pub split_check: Option<SplitCheck>,
 }
 
 impl AnalyticData {
@@ -322,18 +338,6 @@ impl AnalyticData {
     /// How the root number was decided.
     pub(crate) fn root_number_route(&self) -> Option<RootNumberRoute> {
         self.route
-    }
-
-    /// The root number by the local formulas (`None` when additive at 2
-    /// or 3).
-    pub fn root_number_by_formula(&self) -> Option<i8> {
-        self.by_formula
-    }
-
-    /// The root number by the functional-equation test (`None` when
-    /// inconclusive or not run).
-    pub fn root_number_by_test(&self) -> Option<i8> {
-        self.by_test
     }
 
     /// `Ω`: the least positive real period of the global minimal model
@@ -385,19 +389,10 @@ impl AnalyticData {
         self.rank_proven
     }
 
-    /// The number of terms `a_n` used.
-    pub fn terms_used(&self) -> u64 {
-        self.terms_used
-    }
-
-    /// How the series were summed (`None` when no terms were used).
-    pub fn series_route(&self) -> Option<SeriesRoute> {
-        self.series_route
-    }
-
-    /// The check of `Λ(1)` with two splitting parameters.
-    pub fn split_check(&self) -> Option<SplitCheck> {
-        self.split_check
+    /// How the values were reached: both root-number decisions, the terms
+    /// and route of the series, the split check.
+    pub fn evidence(&self) -> &AnalyticEvidence {
+        &self.evidence
     }
 
     /// Why the L-values are missing, if they are.
@@ -512,15 +507,17 @@ pub fn analyse(
         conductor: local.conductor.clone(),
         root_number: None,
         route: None,
-        by_formula,
-        by_test: None,
+        evidence: AnalyticEvidence {
+            root_number_by_formula: by_formula,
+            root_number_by_test: None,
+            terms_used: 0,
+            series_route: None,
+            split_check: None,
+        },
         period: real_period(&local.minimal_model),
         l_values: Vec::new(),
         analytic_order: None,
         rank_proven: None,
-        terms_used: 0,
-        series_route: None,
-        split_check: None,
         skipped: None,
     };
     let twist = stream::twist_of_x3_minus_x(local);
@@ -564,8 +561,8 @@ pub fn analyse(
         return analyse_streamed(curve, local, data, n, m, twist, budget);
     }
     let an = dirichlet_coefficients(local, m, budget)?;
-    data.terms_used = m;
-    data.series_route = Some(SeriesRoute::Stored);
+    data.evidence.terms_used = m;
+    data.evidence.series_route = Some(SeriesRoute::Stored);
     let s = Series::new(&an, n)?;
 
     // Root number.
@@ -595,8 +592,8 @@ fn settle_root_number(data: &mut AnalyticData, by_test: Option<i8>) -> Option<i8
         data.skipped = Some(Skip::Inconsistent);
         return None;
     }
-    data.by_test = by_test;
-    let (w, route) = match (by_test, data.by_formula) {
+    data.evidence.root_number_by_test = by_test;
+    let (w, route) = match (by_test, data.evidence.root_number_by_formula) {
         (Some(a), Some(b)) if a != b => {
             data.skipped = Some(Skip::Inconsistent);
             return None;
@@ -652,7 +649,7 @@ fn finish(
     // The split check of Λ(1).
     let difference = split.minus(&lambda[0]);
     let passed = difference.may_be_zero();
-    data.split_check = Some(SplitCheck {
+    data.evidence.split_check = Some(SplitCheck {
         parameter: SPLIT,
         difference,
         passed,
@@ -705,8 +702,8 @@ fn analyse_streamed(
     use stream::PowerSum;
     let m = m.min(stream::MAX_STREAMED_TERMS);
     let an = stream::coefficients(local, m, twist, budget)?;
-    data.terms_used = m;
-    data.series_route = Some(if twist.is_some() {
+    data.evidence.terms_used = m;
+    data.evidence.series_route = Some(if twist.is_some() {
         SeriesRoute::StreamedTwist
     } else {
         SeriesRoute::Streamed

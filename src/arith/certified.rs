@@ -111,7 +111,7 @@ impl Certified {
     /// True when zero is not excluded: `|value| ≤ error` (up to rounding).
     /// When this is false, the true value is proven non-zero, with the sign
     /// of `value()`.
-    pub fn may_be_zero(&self) -> bool {
+    pub(crate) fn may_be_zero(&self) -> bool {
         !self.is_finite() || (self.lower() <= 0.0 && self.upper() >= 0.0)
     }
 

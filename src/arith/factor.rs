@@ -36,16 +36,8 @@ impl Factorization {
     }
 
     /// The distinct primes, ascending.
-    pub fn primes(&self) -> impl Iterator<Item = &BigInt> {
+    pub(crate) fn primes(&self) -> impl Iterator<Item = &BigInt> {
         self.factors.iter().map(|(p, _)| p)
-    }
-
-    /// The exponent of `p` (0 if `p` does not divide `n`).
-    pub fn exponent(&self, p: &BigInt) -> u32 {
-        self.factors
-            .binary_search_by(|(q, _)| q.cmp(p))
-            .map(|i| self.factors[i].1)
-            .unwrap_or(0)
     }
 
     /// The number `n` itself.

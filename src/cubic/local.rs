@@ -68,7 +68,7 @@ impl BinaryCubicCurve {
     }
 
     /// The coefficients f₀..f₃ of F.
-    pub fn form(&self) -> &[BigInt; 4] {
+    pub(crate) fn form(&self) -> &[BigInt; 4] {
         &self.f
     }
 
@@ -88,7 +88,7 @@ impl BinaryCubicCurve {
     }
 
     /// F(u, v).
-    pub fn eval_form(&self, u: &BigInt, v: &BigInt) -> BigInt {
+    pub(crate) fn eval_form(&self, u: &BigInt, v: &BigInt) -> BigInt {
         let [a, b, c, d] = &self.f;
         ((a * u + b * v) * u + c * v * v) * u + d * v * v * v
     }
@@ -168,13 +168,6 @@ pub enum CubicLocal {
     Soluble(CubicWitness),
     /// No point over Q_p: every residue class of the tree was ruled out.
     Insoluble,
-}
-
-impl CubicLocal {
-    /// True for [`CubicLocal::Soluble`].
-    pub fn is_soluble(&self) -> bool {
-        matches!(self, CubicLocal::Soluble(_))
-    }
 }
 
 /// v_p(z) for z ≠ 0.

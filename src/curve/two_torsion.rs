@@ -194,12 +194,8 @@ impl TwoTorsionModel {
         &self.change
     }
     /// A point of the reduced curve, written on the input curve.
-    pub fn to_input(&self, p: &Point) -> Point {
+    pub(crate) fn to_input(&self, p: &Point) -> Point {
         self.change.to_old(p)
-    }
-    /// A point of the input curve, written on the reduced curve.
-    pub fn from_input(&self, p: &Point) -> Point {
-        self.change.to_new(p)
     }
 }
 

@@ -208,37 +208,37 @@ pub struct SearchRecord {
 #[non_exhaustive]
 pub struct SelmerSide {
     /// The checked model y² = x³ + a x² + b x of this side.
-    pub(super) model: ReducedModel,
+    pub model: ReducedModel,
     /// Q(S, 2) with S = {2} ∪ primes of b(a² − 4b).
-    pub(super) qs2: QS2,
+    pub qs2: QS2,
     /// The local image at every place of S ∪ {R}, with its evidence.
     pub(super) local_images: Vec<LocalImage>,
     /// The Selmer group inside Q(S, 2).
-    pub(super) group: Subspace,
+    pub group: Subspace,
     /// The span of the known images (torsion and points found).
-    pub(super) known: Subspace,
+    pub known: Subspace,
     /// dim of the image of torsion.
-    pub(super) torsion_dim: usize,
+    pub torsion_dim: usize,
     /// An upper bound for dim α(E(Q)) (dim Sel minus what the second
     /// descent proved).
     pub(super) image_upper: usize,
     /// An adapted basis of the Selmer group with statuses: torsion images
     /// first, then point images, then the rest.
-    pub(super) elements: Vec<SelmerElement>,
+    pub elements: Vec<SelmerElement>,
     /// Every search run, in order.
-    pub(super) searches: Vec<SearchRecord>,
+    pub searches: Vec<SearchRecord>,
     /// Points of infinite order found on this side, with classes
     /// independent modulo the torsion image.
-    pub(super) points: Vec<Point>,
+    pub points: Vec<Point>,
     /// Classes handed to the 4-covering route, in order, with what it
     /// concluded.
-    pub(super) covering_runs: Vec<CoveringRun>,
+    pub covering_runs: Vec<CoveringRun>,
     /// The lifting pairing on the Selmer group and its kernel I, the
     /// classes that lift to everywhere locally soluble 2-coverings of the
     /// curve (`crate::second::pairing`); `None` if it was not asked for
     /// (the first descent alone) or its budget ran out (then
     /// `pairing_error` says why).
-    pub(super) pairing: Option<LiftPairing>,
+    pub pairing: Option<LiftPairing>,
     /// Why the pairing is missing, if its budget ran out.
     pub pairing_error: Option<Error>,
 }
@@ -285,72 +285,15 @@ pub struct CoveringRun {
 }
 
 impl SelmerSide {
-    /// The checked model y² = x³ + a x² + b x of this side.
-    pub fn model(&self) -> &ReducedModel {
-        &self.model
-    }
-
-    /// Q(S, 2) with S = {2} ∪ primes of b(a² − 4b).
-    pub fn qs2(&self) -> &QS2 {
-        &self.qs2
-    }
-
     /// The local image at every place of S ∪ {R}, with its evidence.
     pub(crate) fn local_images(&self) -> &[LocalImage] {
         &self.local_images
-    }
-
-    /// The Selmer group inside Q(S, 2).
-    pub fn group(&self) -> &Subspace {
-        &self.group
-    }
-
-    /// The span of the known images (torsion and points found).
-    pub fn known(&self) -> &Subspace {
-        &self.known
-    }
-
-    /// dim of the image of torsion.
-    pub fn torsion_dim(&self) -> usize {
-        self.torsion_dim
     }
 
     /// An upper bound for dim α(E(Q)) (dim Sel minus what the second
     /// descent proved).
     pub(crate) fn image_upper(&self) -> usize {
         self.image_upper
-    }
-
-    /// An adapted basis of the Selmer group with statuses: torsion images
-    /// first, then point images, then the rest.
-    pub fn elements(&self) -> &[SelmerElement] {
-        &self.elements
-    }
-
-    /// Every search run, in order.
-    pub fn searches(&self) -> &[SearchRecord] {
-        &self.searches
-    }
-
-    /// Points of infinite order found on this side, with classes
-    /// independent modulo the torsion image.
-    pub fn points(&self) -> &[Point] {
-        &self.points
-    }
-
-    /// Classes handed to the 4-covering route, in order, with what it
-    /// concluded.
-    pub fn covering_runs(&self) -> &[CoveringRun] {
-        &self.covering_runs
-    }
-
-    /// The lifting pairing on the Selmer group and its kernel I, the
-    /// classes that lift to everywhere locally soluble 2-coverings of the
-    /// curve (`crate::second::pairing`); `None` if it was not asked for
-    /// (the first descent alone) or its budget ran out (then
-    /// `pairing_error` says why).
-    pub fn pairing(&self) -> Option<&LiftPairing> {
-        self.pairing.as_ref()
     }
 
     /// a of y² = x³ + a x² + b x.

@@ -330,7 +330,7 @@ fn descend_isogeny_with_torsion(
     let torsion_e: Vec<Point> = torsion
         .points()
         .iter()
-        .map(|p| model.from_input(p))
+        .map(|p| model.change().to_new(p))
         .collect();
     // E′(Q)_tors has the odd part of E(Q)_tors (module `curve::torsion`):
     // when that is trivial, the 2-primary part by halving is all of it.

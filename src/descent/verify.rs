@@ -263,7 +263,7 @@ fn verify_local_images(
                         "{tag}: witness for class {} at {} checks out",
                         ev.representative, w.place
                     ),
-                    pt.place() == &w.place && pt.verify(&q) && w.contains(ev.mask),
+                    pt.place == w.place && pt.verify(&q) && w.contains(ev.mask),
                 ),
                 LocalSolubility::Insoluble { place } => {
                     let again = locally_soluble(&q, place, budget)?;

@@ -56,7 +56,6 @@ use crate::curve::tate::{GlobalLocalData, ReductionKind};
 use crate::curve::{Curve, ModelChange, Point};
 use crate::error::{Error, Result};
 
-pub use lower_bound::{cremona_siksek_bound, CremonaSiksekBound};
 pub use naive_vs_canonical::{
     difference_bounds, height_lower_bound, DifferenceBounds, HeightLowerBound,
 };

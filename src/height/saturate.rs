@@ -194,7 +194,7 @@ pub struct Saturation {
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
 #[non_exhaustive]
 pub enum LowerBoundSource {
-    /// The Cremona–Siksek argument ([`super::cremona_siksek_bound`]).
+    /// The Cremona–Siksek argument (`cremona_siksek_bound` in `src/height/lower_bound.rs`).
     CremonaSiksek,
     /// The exhaustive search of small points ([`super::naive_vs_canonical::height_lower_bound`]).
     Search,

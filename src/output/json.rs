@@ -698,7 +698,7 @@ fn space_point(p: &crate::quartic::search::QuarticPoint) -> SpacePointView {
 
 fn side_view(s: &SelmerSide, domain: bool, detail: Detail) -> SideView {
     let (sel, sha) = side_names(domain);
-    let elements = s.elements().iter().map(class_view).collect();
+    let elements = s.elements.iter().map(class_view).collect();
     let evidence = (detail == Detail::Full).then(|| evidence_view(s));
     let dim = s.dimension();
     SideView {
@@ -708,7 +708,7 @@ fn side_view(s: &SelmerSide, domain: bool, detail: Detail) -> SideView {
         dimension: dim,
         image_lower: s.image_lower(),
         image_upper: s.image_upper(),
-        torsion_image_dimension: s.torsion_dim(),
+        torsion_image_dimension: s.torsion_dim,
         sha_dimension_lower: dim - s.image_upper().min(dim),
         sha_dimension_upper: dim - s.image_lower(),
         elements,
@@ -760,8 +760,8 @@ fn evidence_view(s: &SelmerSide) -> EvidenceView {
                 }
             })
             .collect(),
-        spaces: s.searches().iter().map(space_view).collect(),
-        four_coverings: s.elements().iter().filter_map(coverings_view).collect(),
+        spaces: s.searches.iter().map(space_view).collect(),
+        four_coverings: s.elements.iter().filter_map(coverings_view).collect(),
     }
 }
 
@@ -955,7 +955,7 @@ fn analytic_view(a: &crate::analytic::AnalyticData) -> AnalyticView {
                 }
             })
             .collect(),
-        terms: a.terms_used(),
+        terms: a.evidence().terms_used,
         theorem: a.rank_proven().map(|(_, t)| t.name()),
         skipped: a.skipped().map(|s| match s {
             Skip::ConductorAboveLimit => "conductor_above_limit",

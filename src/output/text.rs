@@ -149,9 +149,9 @@ pub(crate) fn place_tally<'a>(places: impl Iterator<Item = &'a crate::local::Pla
 /// One-line summary of a side's searches and second descent.
 pub(crate) fn evidence_summary(s: &SelmerSide) -> String {
     let mut parts = Vec::new();
-    if !s.searches().is_empty() {
+    if !s.searches.is_empty() {
         let heights: Vec<u64> = s
-            .searches()
+            .searches
             .iter()
             .filter_map(|r| match &r.outcome {
                 SearchOutcome::NoneUpTo { height } => Some(*height),
@@ -160,7 +160,7 @@ pub(crate) fn evidence_summary(s: &SelmerSide) -> String {
             })
             .collect();
         let found = s
-            .searches()
+            .searches
             .iter()
             .filter(|r| matches!(r.outcome, SearchOutcome::Found(_)))
             .count();
@@ -169,7 +169,7 @@ pub(crate) fn evidence_summary(s: &SelmerSide) -> String {
             (Some(lo), Some(hi)) => format!(" to heights {lo}..{hi}"),
             _ => String::new(),
         };
-        let spaces = s.searches().len();
+        let spaces = s.searches.len();
         parts.push(format!(
             "{spaces} space{} searched{reach}, {found} point{} found",
             if spaces == 1 { "" } else { "s" },
@@ -177,7 +177,7 @@ pub(crate) fn evidence_summary(s: &SelmerSide) -> String {
         ));
     }
     let proven: Vec<&ClassStatus> = s
-        .elements()
+        .elements
         .iter()
         .map(|e| &e.status)
         .filter(|st| matches!(st, ClassStatus::ProvenNotImage { .. }))
@@ -214,7 +214,7 @@ fn write_side(
 ) -> fmt::Result {
     let (sel, _) = side_names(domain);
     writeln!(f, "  basis of {sel} in Q*/Q*^2:")?;
-    for e in s.elements() {
+    for e in &s.elements {
         writeln!(
             f,
             "    {:>8}  {}",
@@ -225,7 +225,7 @@ fn write_side(
     // Each homogeneous space once, with its equation.
     let mut shown: Vec<&BigInt> = Vec::new();
     let mut lines = Vec::new();
-    for r in s.searches() {
+    for r in &s.searches {
         if shown.contains(&&r.class) {
             continue;
         }
@@ -259,7 +259,7 @@ fn write_side(
             .map(|w| format!("{}: {}", w.place, classes_text(w)))
             .collect();
         writeln!(f, "  local images: {}", locals.join("; "))?;
-        for e in s.elements() {
+        for e in &s.elements {
             if let ClassStatus::ProvenNotImage {
                 obstructions,
                 space,
@@ -624,7 +624,7 @@ fn write_analytic(f: &mut fmt::Formatter<'_>, r: &DescentReport, a: &AnalyticDat
         } else {
             "s"
         },
-        a.terms_used()
+        a.evidence().terms_used
     )?;
     let values: Vec<String> = a
         .l_values()

@@ -130,7 +130,7 @@ impl LocalImage {
     /// True iff `members` is closed under the group law (XOR of masks) and
     /// contains the trivial class — it always should be (it is the image of
     /// a homomorphism); exposed so callers and tests can check.
-    pub fn is_subgroup(&self) -> bool {
+    pub(crate) fn is_subgroup(&self) -> bool {
         self.members.contains(&0)
             && self.members.iter().all(|x| {
                 self.members

@@ -34,12 +34,19 @@ pub const EXTRA_PRECISION: u32 = 8;
 /// * At the real place: integers `(x, z)` with `G = g(x, z) > 0`;
 ///   `y = ⌊√G⌋` and `precision = 0`.
 #[derive(Debug, Clone, PartialEq, Eq)]
+#[non_exhaustive]
 pub struct LocalPoint {
-    place: Place,
-    x: BigInt,
-    z: BigInt,
-    y: BigInt,
-    precision: u32,
+    /// The place the point lives over.
+    pub place: Place,
+    /// The `x` coordinate (an integer).
+    pub x: BigInt,
+    /// The `z` coordinate (an integer).
+    pub z: BigInt,
+    /// The approximate `y`: `y² ≡ g(x, z) mod p^precision` (finite place),
+    /// or `⌊√g(x, z)⌋` (real place).
+    pub y: BigInt,
+    /// The `p`-adic precision of `y` (0 at the real place).
+    pub precision: u32,
 }
 
 impl LocalPoint {
@@ -52,32 +59,6 @@ impl LocalPoint {
             y,
             precision,
         }
-    }
-
-    /// The place the point lives over.
-    pub fn place(&self) -> &Place {
-        &self.place
-    }
-
-    /// The `x` coordinate (an integer).
-    pub fn x(&self) -> &BigInt {
-        &self.x
-    }
-
-    /// The `z` coordinate (an integer).
-    pub fn z(&self) -> &BigInt {
-        &self.z
-    }
-
-    /// The approximate `y`: `y² ≡ g(x, z) mod p^precision` (finite place),
-    /// or `⌊√g(x, z)⌋` (real place).
-    pub fn y(&self) -> &BigInt {
-        &self.y
-    }
-
-    /// The `p`-adic precision of `y` (0 at the real place).
-    pub fn precision(&self) -> u32 {
-        self.precision
     }
 
     /// Re-checks the evidence against `q`, independently of the search:

@@ -8,7 +8,7 @@
 //! * the lifting pairing (module `pairing`): which classes `d` of `Sel`
 //!   lift to everywhere locally soluble 2-coverings, by linear algebra over
 //!   F2 ([`lift_pairing`]); for one class, its local lift values and the
-//!   twists that can lift it ([`class_lift`], [`soluble_twists`]);
+//!   twists that can lift it (`class_lift`, `soluble_twists`, crate-private);
 //! * the 4-coverings (module `covering`): for one class `d`, the finite set
 //!   of twists `λ` of the conic of `C_d`, the quartic 4-covering of each,
 //!   its local tests, a point search on the survivors
@@ -27,7 +27,6 @@ pub use covering::{
     second_descent, verify_obstruction, ConicSide, NoPointEvidence, ObstructedCurve,
     SecondDescentOptions, SecondDescentOutcome, SurvivingCovering, TwistObstruction,
 };
-pub use pairing::{
-    class_lift, lift_pairing, soluble_twists, verify_class_lift, ClassLift, LiftPairing,
-    LocalLiftValue,
-};
+#[cfg(test)]
+pub(crate) use pairing::{class_lift, soluble_twists};
+pub use pairing::{lift_pairing, verify_class_lift, ClassLift, LiftPairing, LocalLiftValue};

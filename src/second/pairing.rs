@@ -381,7 +381,7 @@ fn functional_from(values: &[LocalLiftValue], table: &[Vec<u8>], dim: usize) -> 
 /// [`Error::InvalidArgument`] when `d ∤ b` or `C_d` is insoluble at some
 /// place of `S ∪ {∞}` (so `d` is not in the Selmer group);
 /// [`Error::SingularCurve`]; [`Error::BudgetExhausted`].
-pub fn class_lift(
+pub(crate) fn class_lift(
     model: &ReducedModel,
     d: &BigInt,
     qs2: &QS2,
@@ -443,8 +443,8 @@ fn class_lift_with(
             });
         };
         let value = match &v {
-            Place::Real => real_value(&setting, w.x(), w.z(), budget)?,
-            Place::Finite(p) => padic_value(p, &setting, w.x(), w.z(), budget)?,
+            Place::Real => real_value(&setting, &w.x, &w.z, budget)?,
+            Place::Finite(p) => padic_value(p, &setting, &w.x, &w.z, budget)?,
         };
         values.push(value);
     }
@@ -462,7 +462,7 @@ fn class_lift_with(
 /// everywhere locally soluble 2-coverings (see the module docs).
 ///
 /// # Errors
-/// As [`class_lift`] for each basis class.
+/// As `class_lift` (crate-private) for each basis class.
 /// `known` must be a subspace of `group` made of images of rational points
 /// (torsion images, say): they lie in the kernel, their rows are zero and
 /// no conic is solved for them.
@@ -540,7 +540,7 @@ pub fn lift_pairing(
 /// # Errors
 /// [`Error::InvalidArgument`] when a place of the lift has no condition;
 /// [`Error::BudgetExhausted`].
-pub fn soluble_twists(
+pub(crate) fn soluble_twists(
     lift: &ClassLift,
     qs2: &QS2,
     conditions: &[crate::selmer::LocalCondition],

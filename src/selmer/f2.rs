@@ -164,14 +164,14 @@ impl BitVec {
     }
 
     /// self + other.
-    pub fn add(&self, other: &BitVec) -> BitVec {
+    pub(crate) fn add(&self, other: &BitVec) -> BitVec {
         let mut r = self.clone();
         r.add_assign(other);
         r
     }
 
     /// True for the zero vector.
-    pub fn is_zero(&self) -> bool {
+    pub(crate) fn is_zero(&self) -> bool {
         self.words().iter().all(|&w| w == 0)
     }
 
@@ -396,7 +396,7 @@ impl Subspace {
     }
 
     /// Every element of the subspace (2^dim of them); `None` if dim > 24.
-    pub fn elements(&self) -> Option<Vec<BitVec>> {
+    pub(crate) fn elements(&self) -> Option<Vec<BitVec>> {
         if self.dim() > 24 {
             return None;
         }

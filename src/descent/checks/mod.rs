@@ -3,6 +3,7 @@
 //! as linear algebra (`second_pairing`); unit tests so that the cross-check
 //! functions and the F2 internals they reach stay out of the public face.
 
+mod height_lower_bound;
 mod image_size_checks;
 mod image_size_families;
 mod second_pairing;

@@ -39,7 +39,7 @@ fn isogeny_of(a: i64, b: i64, options: &DescentOptions) -> IsogenyDescent {
 }
 
 fn elements(side: &SelmerSide) -> Vec<BitVec> {
-    side.group().elements().expect("small Selmer group")
+    side.group.elements().expect("small Selmer group")
 }
 
 /// Local duality for the two Kummer images (Cassels, "Lectures on Elliptic
@@ -93,19 +93,19 @@ fn every_class_lift_rechecks_from_its_evidence() {
     for (a, b) in curves {
         let d = isogeny_of(a, b, &DescentOptions::default().local_conditions_only());
         for side in [d.domain(), d.codomain()] {
-            let p = side.pairing().expect("pairing computed");
+            let p = side.pairing.as_ref().expect("pairing computed");
             for lift in &p.lifts {
                 let mut budget = Budget::unlimited();
                 assert!(
-                    verify_class_lift(side.model(), side.qs2(), lift, &mut budget),
+                    verify_class_lift(&side.model, &side.qs2, lift, &mut budget),
                     "a={a} b={b} class {}",
                     lift.class
                 );
                 let mut bad = lift.clone();
                 bad.functional.set(0, !bad.functional.get(0));
                 assert!(!verify_class_lift(
-                    side.model(),
-                    side.qs2(),
+                    &side.model,
+                    &side.qs2,
                     &bad,
                     &mut budget
                 ));
@@ -130,20 +130,20 @@ fn the_pairing_is_additive_in_the_first_class() {
     for (a, b) in curves {
         let d = isogeny_of(a, b, &DescentOptions::default().local_conditions_only());
         for side in [d.domain(), d.codomain()] {
-            let p = side.pairing().expect("pairing computed");
+            let p = side.pairing.as_ref().expect("pairing computed");
             let (n, k0) = (p.lifts.len(), p.known_count);
             for i in 0..n {
                 for j in (i + 1)..n {
                     let v = p.basis[k0 + i].add(&p.basis[k0 + j]);
-                    let dd = side.qs2().integer(&v);
-                    let lift = class_lift(side.model(), &dd, side.qs2(), &mut Budget::unlimited())
-                        .unwrap();
+                    let dd = side.qs2.integer(&v);
+                    let lift =
+                        class_lift(&side.model, &dd, &side.qs2, &mut Budget::unlimited()).unwrap();
                     for w in &p.basis {
                         assert_eq!(
                             lift.pair(w),
                             p.lifts[i].pair(w) ^ p.lifts[j].pair(w),
                             "a={a} b={b}: class {dd} against {}",
-                            side.qs2().integer(w)
+                            side.qs2.integer(w)
                         );
                     }
                     checked += 1;
@@ -172,22 +172,22 @@ fn the_liftable_subgroup_agrees_with_the_four_covering_route_class_by_class() {
         let d = isogeny_of(a, b, &DescentOptions::default().local_conditions_only());
         for side in [d.domain(), d.codomain()] {
             let liftable = side.liftable().expect("pairing computed");
-            if side.group().dim() > 6 {
+            if side.group.dim() > 6 {
                 continue;
             }
             for v in elements(side) {
-                let dd = side.qs2().integer(&v);
+                let dd = side.qs2.integer(&v);
                 if v.is_zero() || (dd > BigInt::from(0) && is_square(&dd)) {
                     continue;
                 }
                 let mut budget = Budget::with_units(50_000_000);
-                match second_descent(side.model(), &dd, &opts, &mut budget) {
+                match second_descent(&side.model, &dd, &opts, &mut budget) {
                     Ok(SecondDescentOutcome::NoPoint(_)) => {
                         assert!(
                             !liftable.contains(&v),
                             "a={} b={}: class {dd} has no soluble 4-covering but lies in I",
-                            side.model().a(),
-                            side.model().b()
+                            side.model.a(),
+                            side.model.b()
                         );
                         agree_out += 1;
                     }
@@ -195,8 +195,8 @@ fn the_liftable_subgroup_agrees_with_the_four_covering_route_class_by_class() {
                         assert!(
                             liftable.contains(&v),
                             "a={} b={}: class {dd} has a soluble 4-covering but lies outside I",
-                            side.model().a(),
-                            side.model().b()
+                            side.model.a(),
+                            side.model.b()
                         );
                         agree_in += 1;
                     }
@@ -483,7 +483,7 @@ fn the_pairing_matrix_is_symmetric() {
     for (a, b) in box_curves(10) {
         let d = isogeny_of(a, b, &DescentOptions::default().local_conditions_only());
         for side in [d.domain(), d.codomain()] {
-            let p = side.pairing().unwrap();
+            let p = side.pairing.as_ref().unwrap();
             assert!(p.is_symmetric(), "a={a} b={b}: {:?}", p.matrix);
         }
     }
@@ -517,7 +517,7 @@ fn the_soluble_twists_exist_exactly_for_the_kernel_of_the_pairing() {
     for (a, b) in box_curves(9) {
         let d = isogeny_of(a, b, &DescentOptions::default().local_conditions_only());
         for side in [d.domain(), d.codomain()] {
-            if side.group().dim() > 5 {
+            if side.group.dim() > 5 {
                 continue;
             }
             let conditions: Vec<LocalCondition> = side
@@ -530,11 +530,10 @@ fn the_soluble_twists_exist_exactly_for_the_kernel_of_the_pairing() {
                 if v.is_zero() {
                     continue;
                 }
-                let dd = side.qs2().integer(&v);
+                let dd = side.qs2.integer(&v);
                 let mut budget = Budget::unlimited();
-                let lift = class_lift(side.model(), &dd, side.qs2(), &mut budget).unwrap();
-                let twists =
-                    soluble_twists(&lift, side.qs2(), &conditions, 4, &mut budget).unwrap();
+                let lift = class_lift(&side.model, &dd, &side.qs2, &mut budget).unwrap();
+                let twists = soluble_twists(&lift, &side.qs2, &conditions, 4, &mut budget).unwrap();
                 assert_eq!(
                     !twists.is_empty(),
                     liftable.contains(&v),

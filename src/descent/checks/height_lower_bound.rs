@@ -1,16 +1,21 @@
-//! The Cremona–Siksek lower bound for ĥ (`src/height/lower_bound.rs`):
+//! The Cremona–Siksek lower bound for ĥ (`src/height/lower_bound.rs`, crate-private):
+//! unit checks that run whole descents, so they live above the height layer;
 //! cross-checks against the points the descent finds and against the
 //! search bound, and independently computed heights.
 
-use isodescent::curve::{Curve, Point};
-use isodescent::descent::{descend, DescentOptions};
-use isodescent::height::{
-    cremona_siksek_bound, height_lower_bound, saturate, HeightContext, LowerBoundSource,
-    SaturationOptions,
-};
-use isodescent::Budget;
 use num_bigint::BigInt;
 
+use crate::curve::{Curve, Point};
+use crate::descent::{descend, DescentOptions};
+use crate::height::lower_bound::cremona_siksek_bound;
+use crate::height::{
+    height_lower_bound, saturate, HeightContext, LowerBoundSource, SaturationOptions,
+};
+use crate::Budget;
+
+// The reference values the integration tests and src/analytic/tests read too.
+#[allow(clippy::duplicate_mod)]
+#[path = "../../../tests/values/mod.rs"]
 mod values;
 
 fn context(a: [i64; 5]) -> HeightContext {
@@ -92,7 +97,7 @@ fn saturation_uses_the_cremona_siksek_bound() {
     let e = Curve::from_ints([0, 0, 0, -41 * 41, 0]).unwrap();
     let p = Point::from_ints(-9, 120);
     let p3 = e.mul(&p, &BigInt::from(3));
-    let hp = isodescent::height::canonical_height(&e, &p).unwrap();
+    let hp = crate::height::canonical_height(&e, &p).unwrap();
     for (input, index) in [(p.clone(), 1), (p3, 3)] {
         let s = saturate(
             &e,
@@ -115,7 +120,7 @@ fn saturation_uses_the_cremona_siksek_bound() {
 /// (ignored: about a minute): the bound exists on every curve and never
 /// exceeds the ĥ of a point the default descent (with the deep search)
 /// returns. Run with
-/// `cargo test --release --test height_lower_bound -- --ignored --nocapture`.
+/// `cargo test --release --lib height_lower_bound -- --ignored --nocapture`.
 #[test]
 #[ignore]
 fn the_bound_over_the_box_and_the_congruent_curves() {
@@ -132,8 +137,10 @@ fn the_bound_over_the_box_and_the_congruent_curves() {
             curves.push([0, 0, 0, -n * n, 0]);
         }
     }
-    let mut opts = DescentOptions::default();
-    opts.saturation = None;
+    let opts = DescentOptions {
+        saturation: None,
+        ..DescentOptions::default()
+    };
     let (mut compared, mut none, mut worst) = (0, 0, f64::INFINITY);
     for a in &curves {
         let e = Curve::from_ints(*a).unwrap();
