@@ -24,7 +24,8 @@ fn scan_congruent(c: &mut Criterion) {
     for &threads in thread_counts {
         g.bench_function(format!("threads_{threads}"), |b| {
             b.iter(|| {
-                let so = ScanOptions::default().with_threads(threads);
+                let mut so = ScanOptions::default();
+                so.threads = threads;
                 let done = scan(fam.members(), &opts, &so)
                     .expect("pool starts")
                     .count();

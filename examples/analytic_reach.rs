@@ -133,7 +133,8 @@ fn draw(args: &[String], k: usize) -> Vec<u64> {
 
 fn main() {
     let args: Vec<String> = std::env::args().skip(1).collect();
-    let options = AnalyticOptions::default().with_conductor_limit(u64::MAX);
+    let mut options = AnalyticOptions::default();
+    options.conductor_limit = u64::MAX;
     match args.first().map(String::as_str) {
         Some("levels") => {
             let k: usize = args.get(1).and_then(|s| s.parse().ok()).unwrap_or(5);
@@ -224,11 +225,11 @@ fn main() {
                 let r = descend(&e, &options).expect("descent");
                 let cpu = (thread_cpu_ns().unwrap_or(0) - cpu0) as f64 * 1e-9;
                 times.push(cpu);
-                if r.is_decided() {
+                if r.rank_bounds().is_decided() {
                     decided += 1;
-                    if r.rank_lower() == 1 {
+                    if r.rank_bounds().lower() == 1 {
                         rank_one += 1;
-                        if r.points_generate() && !r.points().is_empty() {
+                        if r.generators().is_some() && !r.points().is_empty() {
                             rank_one_points += 1;
                         }
                     }

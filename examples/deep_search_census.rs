@@ -85,7 +85,8 @@ fn main() -> std::process::ExitCode {
             return std::process::ExitCode::from(2);
         }
     };
-    let deep_options = DeepSearchOptions::default().with_max_covering_height(height);
+    let mut deep_options = DeepSearchOptions::default();
+    deep_options.max_covering_height = height;
 
     let (mut positive, mut full_rank, mut generated) = (0usize, 0usize, 0usize);
     let (mut needed_deep, mut deep_ok) = (0usize, 0usize);
@@ -110,8 +111,8 @@ fn main() -> std::process::ExitCode {
             }
         };
         t_descent += t.elapsed();
-        let rank = if report.is_decided() {
-            Some(report.rank_lower())
+        let rank = if report.rank_bounds().is_decided() {
+            Some(report.rank_bounds().lower())
         } else {
             let t = Instant::now();
             let mut b = Budget::unlimited();

@@ -24,15 +24,15 @@ fn main() -> Result<(), Box<dyn std::error::Error>> {
     let report = descend(&e, &options)?;
     println!(
         "{e}: rank in [{}, {}]",
-        report.rank_lower(),
-        report.rank_upper()
+        report.rank_bounds().lower(),
+        report.rank_bounds().upper()
     );
     match report.generators() {
         Some(g) => {
             let index_bound = g.certificate().and_then(|c| c.index_bound);
             println!(
                 "  {} generator(s) of E(Q) modulo torsion, proven by saturation (index bound {index_bound:?})",
-                g.len()
+                g.points().len()
             );
             for p in g.points() {
                 assert!(e.contains(p));

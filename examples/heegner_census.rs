@@ -39,7 +39,10 @@ fn main() {
             continue;
         };
         let t_off = t0.elapsed().as_secs_f64();
-        if !(before.is_decided() && before.rank_lower() == 1 && before.points().is_empty()) {
+        if !(before.rank_bounds().is_decided()
+            && before.rank_bounds().lower() == 1
+            && before.points().is_empty())
+        {
             continue;
         }
         no_point += 1;
@@ -49,7 +52,8 @@ fn main() {
         };
         let t_on = t1.elapsed().as_secs_f64();
         costs.push(t_on);
-        if matches!(after.points_origin(), PointOrigin::Heegner(_)) && after.points_generate() {
+        if matches!(after.points_origin(), PointOrigin::Heegner(_)) && after.generators().is_some()
+        {
             proven += 1;
         } else {
             other += 1;

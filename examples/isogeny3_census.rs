@@ -75,7 +75,7 @@ fn main() {
                 match out {
                     Ok(IsogenyDescent::Two(r)) => {
                         two += 1;
-                        two_decided += usize::from(r.is_decided());
+                        two_decided += usize::from(r.rank_bounds().is_decided());
                     }
                     Ok(IsogenyDescent::ThreeGeneral(r)) => {
                         general += 1;

@@ -65,11 +65,11 @@ fn one(m: &[i64; 5], opts: &DescentOptions) -> Tally {
     match descend(&c, opts) {
         Ok(r) => {
             t.curves = 1;
-            t.decided = u64::from(r.is_decided());
-            if r.is_decided() && r.rank_lower() > 0 {
+            t.decided = u64::from(r.rank_bounds().is_decided());
+            if r.rank_bounds().is_decided() && r.rank_bounds().lower() > 0 {
                 t.positive = 1;
-                t.with_points = u64::from(r.points().len() == r.rank_lower());
-                t.generated = u64::from(r.points_generate());
+                t.with_points = u64::from(r.points().len() == r.rank_bounds().lower());
+                t.generated = u64::from(r.generators().is_some());
             }
         }
         Err(_) => t.errors = 1,
@@ -135,9 +135,11 @@ fn main() -> ExitCode {
             o.lifting_pairing = false;
             o
         }
-        "first" => DescentOptions::default()
-            .descent_only()
-            .with_four_coverings(false),
+        "first" => {
+            let mut o = DescentOptions::default().descent_only();
+            o.four_coverings = false;
+            o
+        }
         "descent" => DescentOptions::default().descent_only(),
         "analytic" => {
             let mut o = DescentOptions::default();

@@ -64,7 +64,7 @@ fn main() -> ExitCode {
         let start = Instant::now();
         let mut options = DescentOptions::default();
         if std::env::var_os("STRESS_NO_SECOND").is_some() {
-            options = options.with_four_coverings(false);
+            options.four_coverings = false;
         }
         if std::env::var_os("STRESS_NO_SEARCH").is_some() {
             options.max_classes_searched = 0;
@@ -99,8 +99,8 @@ fn main() -> ExitCode {
                     .collect();
                 println!(
                     "bounds {}..{} selmer2 {} time_ms {:.1}",
-                    r.rank_lower(),
-                    r.rank_upper(),
+                    r.rank_bounds().lower(),
+                    r.rank_bounds().upper(),
                     sel.join("/"),
                     ms
                 );

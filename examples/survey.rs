@@ -187,7 +187,7 @@ fn cmd_scan(a: &Args) -> Res<()> {
     };
     let mut options = DescentOptions::default();
     if a.height.is_some() {
-        options = options.with_search_height(number(&a.height, "--height")?);
+        options.search_height = number(&a.height, "--height")?;
     }
 
     // Resume: read what is there, cut a partial last line away.
@@ -245,7 +245,8 @@ fn cmd_scan(a: &Args) -> Res<()> {
         }
     }
 
-    let scan_opts = ScanOptions::default().with_threads(threads);
+    let mut scan_opts = ScanOptions::default();
+    scan_opts.threads = threads;
     let records = scan(source, &options, &scan_opts)?;
     let used = records.threads();
     if threads != 1 && used == 1 && !cfg!(feature = "parallel") {

@@ -18,7 +18,7 @@ use std::time::Instant;
 
 /// The budget ran out (units or deadline).
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
-pub struct Exhausted;
+pub(crate) struct Exhausted;
 
 /// A budget of deterministic work units with an optional deadline.
 #[derive(Debug, Clone)]
@@ -106,7 +106,7 @@ impl Budget {
 
     /// Charges `units`; fails once the total exceeds the limit or the
     /// deadline has passed.
-    pub fn spend(&mut self, units: u64) -> Result<(), Exhausted> {
+    pub(crate) fn spend(&mut self, units: u64) -> Result<(), Exhausted> {
         self.spent = self.spent.saturating_add(units);
         if let Some(l) = self.limit {
             if self.spent > l {

@@ -44,7 +44,7 @@
 //! fn main() -> Result<(), isodescent::Error> {
 //!     let e: Curve = "y^2 = x^3 - 36x".parse()?; // or "0 0 0 -36 0"
 //!     let report = descend(&e, &DescentOptions::default())?;
-//!     assert_eq!((report.rank_lower(), report.rank_upper()), (1, 1));
+//!     assert_eq!((report.rank_bounds().lower(), report.rank_bounds().upper()), (1, 1));
 //!     for p in report.points() {
 //!         assert!(e.contains(p)); // points come back on your model
 //!     }

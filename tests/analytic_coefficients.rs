@@ -3,7 +3,7 @@
 
 use isodescent::analytic::{dirichlet_coefficients, frobenius_trace, ApTable};
 use isodescent::curve::GlobalLocalData;
-use isodescent::curve::{Curve, TwoIsogeny};
+use isodescent::curve::{Curve, ReducedModel, TwoIsogeny};
 use isodescent::{Budget, Error};
 use num_bigint::BigInt;
 use num_integer::Integer;
@@ -128,7 +128,9 @@ fn two_isogenous_curves_have_the_same_a_p() {
     // 5.4; Tate's isogeny theorem for the converse), primes up to 30000.
     let ps = primes_below(30_000);
     for (a, b) in [(0i64, -1i64), (1, 3), (-3, 5), (7, -11), (2, -48), (0, -36)] {
-        let iso = TwoIsogeny::new(a.into(), b.into()).unwrap();
+        let iso = ReducedModel::new(a.into(), b.into())
+            .and_then(|m| TwoIsogeny::from_reduced(&m))
+            .unwrap();
         let l1 = iso.domain().tate_data(&mut Budget::unlimited()).unwrap();
         let l2 = iso.codomain().tate_data(&mut Budget::unlimited()).unwrap();
         assert_eq!(

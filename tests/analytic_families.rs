@@ -35,7 +35,8 @@ fn tunnell_range(lo: i64, hi: i64) {
     // L(E_n, 1) = 0 exactly when A_n = 2B_n (counts in tests/common).
     // L(E_n,1) is a fixed non-zero multiple of (A_n − 2B_n)² (ibid.), so a
     // tolerance of 10⁻⁸ separates the cases; the bounds stay proven.
-    let options = AnalyticOptions::default().with_tolerance(1e-8);
+    let mut options = AnalyticOptions::default();
+    options.tolerance = 1e-8;
     for n in lo..=hi {
         if !common::squarefree(n) {
             continue;
@@ -116,18 +117,22 @@ fn analytic_ranks_agree_with_descent_bounds() {
         let rep = descend(&e, &DescentOptions::default()).unwrap();
         if let Some((r, _)) = d.rank_proven() {
             assert!(
-                rep.rank_lower() <= r && r <= rep.rank_upper(),
+                rep.rank_bounds().lower() <= r && r <= rep.rank_bounds().upper(),
                 "({a}, {b}): analytic {r}, descent {}..{}",
-                rep.rank_lower(),
-                rep.rank_upper()
+                rep.rank_bounds().lower(),
+                rep.rank_bounds().upper()
             );
         }
         // Parity: where the descent proves the rank, Sha[φ] and Sha[φ̂]
         // vanish, so Sha[2^∞] = 0 and the 2^∞-Selmer corank is the rank;
         // then w = (−1)^rank by the 2-parity theorem (Monsky, Math. Z. 221
         // (1996), 415–420).
-        if rep.rank_lower() == rep.rank_upper() {
-            let w = if rep.rank_lower() % 2 == 0 { 1 } else { -1 };
+        if rep.rank_bounds().lower() == rep.rank_bounds().upper() {
+            let w = if rep.rank_bounds().lower() % 2 == 0 {
+                1
+            } else {
+                -1
+            };
             assert_eq!(d.root_number(), Some(w), "({a}, {b})");
         }
     }

@@ -6,7 +6,6 @@ mod common;
 
 use isodescent::analytic::{
     analyse, AnalyticData, AnalyticOptions, RankTheorem, SeriesRoute, Skip,
-    DEFAULT_TWIST_CONDUCTOR_LIMIT, DEFAULT_TWIST_STREAMED_ABOVE,
 };
 use isodescent::curve::Curve;
 use isodescent::Budget;
@@ -60,12 +59,12 @@ fn both_routes_agree_within_their_bounds() {
 #[test]
 fn twists_switch_to_the_streamed_route_above_their_own_threshold() {
     // Under the default options the twists of y² = x³ − x take the
-    // streamed twist route above DEFAULT_TWIST_STREAMED_ABOVE (10⁶), and
+    // streamed twist route above the default twist_streamed_above (10⁶), and
     // the stored route below; a curve without the twist route keeps the
     // stored route up to streamed_above. The values of the two routes
     // overlap on both sides of the threshold.
     let options = AnalyticOptions::default();
-    assert_eq!(DEFAULT_TWIST_STREAMED_ABOVE, 1_000_000);
+    assert_eq!(AnalyticOptions::default().twist_streamed_above, 1_000_000);
     // n = 173 (odd): N = 32·173² = 957 728; n = 179: N = 1 025 312;
     // n = 254 (even): N = 16·254² = 1 032 256.
     for (n, route) in [
@@ -77,7 +76,7 @@ fn twists_switch_to_the_streamed_route_above_their_own_threshold() {
         let d = congruent(n, &options);
         let conductor: u64 = d.conductor().to_string().parse().unwrap();
         assert_eq!(
-            conductor > DEFAULT_TWIST_STREAMED_ABOVE,
+            conductor > AnalyticOptions::default().twist_streamed_above,
             route == SeriesRoute::StreamedTwist,
             "n = {n}, N = {conductor}"
         );
@@ -140,12 +139,11 @@ fn curves_with_n_near_10_to_the_5_are_decided_by_default() {
     }
     // Above both limits nothing is computed; a curve without the twist
     // route keeps the lower limit.
-    let d = congruent(
-        600_001,
-        &options
-            .clone()
-            .with_twist_conductor_limit(DEFAULT_TWIST_CONDUCTOR_LIMIT / 1000),
-    );
+    let d = congruent(600_001, &{
+        let mut o = options.clone();
+        o.twist_conductor_limit = AnalyticOptions::default().twist_conductor_limit / 1000;
+        o
+    });
     assert_eq!(d.skipped(), Some(Skip::ConductorAboveLimit));
     assert!(options.conductor_limit_for(false) < options.conductor_limit_for(true));
 }

@@ -2,7 +2,8 @@
 //! and the 2-isogeny with its dual.
 
 use isodescent::curve::{
-    first_two_torsion_model, two_torsion_model, two_torsion_points, Curve, Point, TwoIsogeny,
+    first_two_torsion_model, two_torsion_model, two_torsion_points, Curve, Point, ReducedModel,
+    TwoIsogeny,
 };
 use isodescent::Error;
 use num_bigint::BigInt;
@@ -157,7 +158,9 @@ fn isogenous_curve_of_the_isogenous_curve_is_the_curve_scaled_by_two() {
     // Silverman–Tate, Rational Points on Elliptic Curves, III.4: applying
     // the construction twice gives y^2 = x^3 + 4a x^2 + 16b x.
     for (a, b) in [(0i64, -1i64), (2, -3), (-5, 4), (7, 11)] {
-        let phi = TwoIsogeny::new(a.into(), b.into()).unwrap();
+        let phi = ReducedModel::new(a.into(), b.into())
+            .and_then(|m| TwoIsogeny::from_reduced(&m))
+            .unwrap();
         let next = phi.next().unwrap();
         let c = next.codomain().coefficients();
         let z = |n: i64| BigRational::from_integer(n.into());
@@ -167,16 +170,18 @@ fn isogenous_curve_of_the_isogenous_curve_is_the_curve_scaled_by_two() {
 
 #[test]
 fn isogeny_sends_the_kernel_to_zero_and_rejects_singular_input() {
-    let phi = TwoIsogeny::new(2.into(), (-3).into()).unwrap();
+    let phi = ReducedModel::new(2.into(), (-3).into())
+        .and_then(|m| TwoIsogeny::from_reduced(&m))
+        .unwrap();
     assert_eq!(phi.image(&Point::from_ints(0, 0)), Point::Infinity);
     assert_eq!(phi.image(&Point::Infinity), Point::Infinity);
     assert_eq!(phi.dual_image(&Point::from_ints(0, 0)), Point::Infinity);
     assert!(matches!(
-        TwoIsogeny::new(2.into(), 0.into()),
+        ReducedModel::new(2.into(), 0.into()).and_then(|m| TwoIsogeny::from_reduced(&m)),
         Err(Error::SingularCurve { .. })
     ));
     assert!(matches!(
-        TwoIsogeny::new(2.into(), 1.into()),
+        ReducedModel::new(2.into(), 1.into()).and_then(|m| TwoIsogeny::from_reduced(&m)),
         Err(Error::SingularCurve { .. })
     ));
 }
@@ -185,7 +190,9 @@ fn isogeny_sends_the_kernel_to_zero_and_rejects_singular_input() {
 fn images_of_the_other_two_torsion_points_are_the_codomain_two_torsion() {
     // y^2 = x^3 + 2x^2 - 3x = x(x - 1)(x + 3): φ((1,0)) = φ((-3,0)) = (0,0)
     // on E' (they differ by T, and y = 0 gives x' = 0) [ST92, III.4].
-    let phi = TwoIsogeny::new(2.into(), (-3).into()).unwrap();
+    let phi = ReducedModel::new(2.into(), (-3).into())
+        .and_then(|m| TwoIsogeny::from_reduced(&m))
+        .unwrap();
     assert_eq!(phi.image(&Point::from_ints(1, 0)), Point::from_ints(0, 0));
     assert_eq!(phi.image(&Point::from_ints(-3, 0)), Point::from_ints(0, 0));
     // A point of infinite order: (3, 6) on y^2 = x^3 + 2x^2 - 3x.

@@ -23,8 +23,12 @@ fn congruent(n: i64) -> (Curve, DescentReport) {
 /// matches Tunnell's criterion (Invent. Math. 72 (1983)), checked in
 /// tests/analytic_families.rs.
 fn premise(e: &Curve, r: &DescentReport) {
-    assert_eq!(r.rank_lower(), 0, "{e}: the default descent found a point");
-    assert!(r.rank_upper() >= 1);
+    assert_eq!(
+        r.rank_bounds().lower(),
+        0,
+        "{e}: the default descent found a point"
+    );
+    assert!(r.rank_bounds().upper() >= 1);
     let d = analyse(
         e,
         r.tate_data().expect("local data under the default options"),
@@ -103,7 +107,7 @@ fn nothing_missing_small_budget_and_bad_targets() {
     // n = 5: rank 1 with the small point (−4, 6) (from memory; the descent
     // finds it), so nothing is missing and no work is spent.
     let (e, r) = congruent(5);
-    assert_eq!(r.rank_lower(), 1);
+    assert_eq!(r.rank_bounds().lower(), 1);
     let iso = &r.isogenies()[0];
     let mut b = Budget::with_units(1000);
     let got = search_missing_points(
@@ -117,7 +121,7 @@ fn nothing_missing_small_budget_and_bad_targets() {
     assert!(got.is_empty());
     assert_eq!(b.spent(), 0);
     // A target above the proven upper bound is refused with a typed error.
-    let too_many = iso.rank_upper() + 1;
+    let too_many = iso.rank_bounds().upper() + 1;
     assert!(matches!(
         search_missing_points(&e, iso, too_many, &DeepSearchOptions::default(), &mut b),
         Err(Error::InvalidArgument { .. })
@@ -139,17 +143,16 @@ fn new_points_are_independent_of_the_ones_already_found() {
     // checked a second way, by a certified positive regulator (Silverman,
     // AEC 2nd ed., VIII.9: the height pairing is positive definite on
     // E(Q)/E(Q)_tors).
-    let weak = DescentOptions::default()
-        .descent_only()
-        .with_search_height(2)
-        .with_four_coverings(false);
+    let mut weak = DescentOptions::default().descent_only();
+    weak.search_height = 2;
+    weak.four_coverings = false;
     let mut checked = 0;
     for n in 1..=300i64 {
         if (2..=17).any(|k| n % (k * k) == 0) {
             continue;
         }
         let (e, strong) = congruent(n);
-        if !(strong.is_decided() && strong.rank_lower() == 2) {
+        if !(strong.rank_bounds().is_decided() && strong.rank_bounds().lower() == 2) {
             continue;
         }
         let r = descend(&e, &weak).unwrap();

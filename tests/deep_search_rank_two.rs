@@ -88,7 +88,7 @@ fn check_rank_two(n: i64, descent_lower: usize) {
     // Premise: the descent alone leaves the rank open.
     let alone = descend(&e, &DescentOptions::default().descent_only()).unwrap();
     assert_eq!(
-        (alone.rank_lower(), alone.rank_upper()),
+        (alone.rank_bounds().lower(), alone.rank_bounds().upper()),
         (descent_lower, 2),
         "n = {n}"
     );
@@ -99,11 +99,15 @@ fn check_rank_two(n: i64, descent_lower: usize) {
         Some(1),
         "n = {n}"
     );
-    assert_eq!((r.rank_lower(), r.rank_upper()), (2, 2), "n = {n}");
+    assert_eq!(
+        (r.rank_bounds().lower(), r.rank_bounds().upper()),
+        (2, 2),
+        "n = {n}"
+    );
     assert_eq!(r.rank_settled_by(), Some(RankProof::Descent), "n = {n}");
     assert_eq!(r.points_origin(), &PointOrigin::DeepSearch, "n = {n}");
     assert!(
-        r.points_generate(),
+        r.generators().is_some(),
         "n = {n}: saturation did not prove generation"
     );
     let points = r.points();

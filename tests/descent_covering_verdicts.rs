@@ -11,9 +11,8 @@ use common::squarefree;
 /// (the pairing's bound on the images is part of the second descent, and a
 /// report takes every proven bound it has).
 fn first_descent_only() -> DescentOptions {
-    let mut o = DescentOptions::default()
-        .descent_only()
-        .with_four_coverings(false);
+    let mut o = DescentOptions::default().descent_only();
+    o.four_coverings = false;
     o.lifting_pairing = false;
     o
 }
@@ -27,7 +26,7 @@ fn lind_reichardt_class_is_proven_not_an_image() {
     let first = descend(&c, &first_descent_only()).unwrap();
     let r = descend(&c, &DescentOptions::default().descent_only()).unwrap();
     assert!(
-        first.rank_upper() > r.rank_upper(),
+        first.rank_bounds().upper() > r.rank_bounds().upper(),
         "the second descent must sharpen the bound"
     );
     let side = &r.isogenies()[0].domain();
@@ -50,7 +49,7 @@ fn lind_reichardt_class_is_proven_not_an_image() {
         "proven classes {proven:?}, runs {:?}",
         side.covering_runs()
     );
-    assert_eq!((r.rank_lower(), r.rank_upper()), (0, 0));
+    assert_eq!((r.rank_bounds().lower(), r.rank_bounds().upper()), (0, 0));
     let v = verify_report(&r, 50_000_000).unwrap();
     assert!(v.all_passed(), "{:?}", v.failures());
 }
@@ -63,8 +62,8 @@ fn a_point_beyond_the_first_search_is_found_through_a_covering() {
     let c = Curve::from_ints([0, 0, 0, -53 * 53, 0]).unwrap();
     let first = descend(&c, &first_descent_only()).unwrap();
     let r = descend(&c, &DescentOptions::default().descent_only()).unwrap();
-    assert_eq!(first.rank_lower(), 0);
-    assert_eq!((r.rank_lower(), r.rank_upper()), (1, 1));
+    assert_eq!(first.rank_bounds().lower(), 0);
+    assert_eq!((r.rank_bounds().lower(), r.rank_bounds().upper()), (1, 1));
     assert!(c.contains(&r.descent_points()[0]));
     let v = verify_report(&r, 50_000_000).unwrap();
     assert!(v.all_passed(), "{:?}", v.failures());
@@ -82,12 +81,13 @@ fn the_second_descent_decides_clearly_more_congruent_number_curves() {
         // both are proven intervals, so they must overlap, and the second
         // is at least as sharp
         assert!(
-            r2.rank_lower() >= r1.rank_lower() && r2.rank_upper() <= r1.rank_upper(),
+            r2.rank_bounds().lower() >= r1.rank_bounds().lower()
+                && r2.rank_bounds().upper() <= r1.rank_bounds().upper(),
             "n = {n}"
         );
         total += 1;
-        d1 += usize::from(r1.is_decided());
-        d2 += usize::from(r2.is_decided());
+        d1 += usize::from(r1.rank_bounds().is_decided());
+        d2 += usize::from(r2.rank_bounds().is_decided());
     }
     eprintln!("n <= 300: decided {d1}/{total} by the first descent, {d2}/{total} with the second");
     assert!(d2 >= d1 + total / 10, "first {d1}, second {d2}, of {total}");

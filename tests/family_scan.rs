@@ -24,9 +24,9 @@ fn scan_output_is_in_family_order_for_any_thread_count_and_window() {
         .collect();
     assert_eq!(sequential.len() as u64, fam.count());
     for (threads, window) in [(1, 0), (2, 0), (2, 1), (3, 2), (0, 5)] {
-        let so = ScanOptions::default()
-            .with_threads(threads)
-            .with_window(window);
+        let mut so = ScanOptions::default();
+        so.threads = threads;
+        so.window = window;
         let got = lines(&run(&fam, &so));
         assert_eq!(got, sequential, "threads {threads}, window {window}");
     }
@@ -56,7 +56,11 @@ fn a_record_line_is_the_descent_object_with_two_keys_in_front() {
 #[test]
 fn shards_of_a_scan_together_give_the_whole_scan() {
     let fam = Family::congruent_numbers(1, 60).unwrap();
-    let whole = lines(&run(&fam, &ScanOptions::default().with_threads(2)));
+    let whole = lines(&run(&fam, &{
+        let mut o = ScanOptions::default();
+        o.threads = 2;
+        o
+    }));
     let mut pieces: Vec<(u64, String)> = Vec::new();
     for k in 1..=4 {
         let s = Shard::new(k, 4).unwrap();

@@ -1,7 +1,7 @@
 //! The canonical height does not depend on the model, and doubles across
 //! a 2-isogeny.
 
-use isodescent::curve::{torsion, Curve, ModelChange, Point, TwoIsogeny};
+use isodescent::curve::{torsion, Curve, ModelChange, Point, ReducedModel, TwoIsogeny};
 use isodescent::height::HeightContext;
 use isodescent::Budget;
 use num_bigint::BigInt;
@@ -52,7 +52,9 @@ fn heights_double_across_each_two_isogeny() {
     let pts = box_points();
     assert!(pts.len() >= 60, "only {} curves with points", pts.len());
     for (a, b, p) in pts {
-        let phi = TwoIsogeny::new(a.clone(), b.clone()).unwrap();
+        let phi = ReducedModel::new(a.clone(), b.clone())
+            .and_then(|m| TwoIsogeny::from_reduced(&m))
+            .unwrap();
         let e = phi.domain();
         let e2 = phi.codomain();
         let c1 = HeightContext::new(e, &mut Budget::unlimited()).unwrap();

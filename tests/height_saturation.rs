@@ -3,9 +3,7 @@
 
 use isodescent::arith::Certified;
 use isodescent::curve::{Curve, Point};
-use isodescent::height::{
-    canonical_height, canonical_height_to, regulator, saturate, HeightContext, SaturationOptions,
-};
+use isodescent::height::{canonical_height, regulator, saturate, HeightContext, SaturationOptions};
 use isodescent::{Budget, Error};
 use num_bigint::BigInt;
 
@@ -182,9 +180,10 @@ fn bad_input_gives_typed_errors() {
         Err(Error::PointNotOnCurve { .. })
     ));
     let p = Point::from_ints(0, 0);
+    let ctx = HeightContext::new(&e, &mut Budget::unlimited()).unwrap();
     for bad in [0.0, -1.0, f64::NAN, 1e-20] {
         assert!(matches!(
-            canonical_height_to(&e, &p, bad),
+            ctx.height_to(&p, bad),
             Err(Error::InvalidArgument { .. })
         ));
     }
@@ -242,8 +241,9 @@ fn bad_input_gives_typed_errors() {
 fn coarse_and_fine_enclosures_overlap() {
     let e = Curve::from_ints([0, 1, 1, -2, 0]).unwrap();
     let p = Point::from_ints(-1, 1);
-    let fine = canonical_height_to(&e, &p, 1e-13).unwrap();
-    let coarse = canonical_height_to(&e, &p, 1e-3).unwrap();
+    let ctx = HeightContext::new(&e, &mut Budget::unlimited()).unwrap();
+    let fine = ctx.height_to(&p, 1e-13).unwrap();
+    let coarse = ctx.height_to(&p, 1e-3).unwrap();
     assert!(fine.overlaps(&coarse) && coarse.error() <= 1e-3 && fine.error() <= 1e-12);
 }
 

@@ -108,7 +108,11 @@ fn timed_descend(
         "{label}: {:.3} s, {}",
         t.elapsed().as_secs_f64(),
         match &r {
-            Ok(rep) => format!("report, rank {}..{}", rep.rank_lower(), rep.rank_upper()),
+            Ok(rep) => format!(
+                "report, rank {}..{}",
+                rep.rank_bounds().lower(),
+                rep.rank_bounds().upper()
+            ),
             Err(e) => format!(
                 "error: {}",
                 e.to_string().chars().take(90).collect::<String>()

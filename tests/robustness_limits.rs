@@ -54,7 +54,7 @@ fn hostile_lines_answer_within_the_limit_plus_margin() {
         assert!(took < limit * 15, "{line}: {took:?}");
         match result {
             Ok(r) => {
-                assert!(r.rank_lower() <= r.rank_upper(), "{line}");
+                assert!(r.rank_bounds().lower() <= r.rank_bounds().upper(), "{line}");
                 if let Completion::Partial { step, reason } = r.completion() {
                     assert!(!step.is_empty() && !reason.is_empty(), "{line}");
                 }
@@ -89,13 +89,13 @@ proptest! {
         match descend(&c, &small) {
             Ok(r) => {
                 if r.completion().is_complete() {
-                    prop_assert!(r.rank_lower() <= full.rank_lower());
+                    prop_assert!(r.rank_bounds().lower() <= full.rank_bounds().lower());
                 } else {
                     let partial = matches!(r.completion(), Completion::Partial { .. });
                     prop_assert!(partial);
                 }
-                prop_assert!(r.rank_lower() <= full.rank_lower());
-                prop_assert!(r.rank_upper() >= full.rank_upper());
+                prop_assert!(r.rank_bounds().lower() <= full.rank_bounds().lower());
+                prop_assert!(r.rank_bounds().upper() >= full.rank_bounds().upper());
             }
             Err(e) => prop_assert!(matches!(e, Error::BudgetExhausted { .. }), "{}", e),
         }

@@ -134,7 +134,7 @@ proptest! {
                 for p in rep.descent_points() {
                     prop_assert!(e.contains(p), "point {:?} not on {}", p, e);
                 }
-                prop_assert!(rep.rank_lower() <= rep.rank_upper());
+                prop_assert!(rep.rank_bounds().lower() <= rep.rank_bounds().upper());
                 let ver = verify_report(&rep, 2_000_000).unwrap();
                 prop_assert!(ver.all_passed(), "verification failed on {}: {:?}", e, ver.failures());
             }
@@ -250,11 +250,11 @@ fn a_family_scan_prints_the_same_lines_with_one_and_two_threads() {
     let base: Curve = "0 0 0 -1 0".parse().unwrap();
     let fam = Family::quadratic_twists(&base, -12, 12).unwrap();
     let run = |threads: usize| -> Vec<String> {
-        scan(
-            fam.members(),
-            &small_options(),
-            &ScanOptions::default().with_threads(threads),
-        )
+        scan(fam.members(), &small_options(), &{
+            let mut o = ScanOptions::default();
+            o.threads = threads;
+            o
+        })
         .unwrap()
         .map(|r| r.to_line())
         .collect()

@@ -75,7 +75,7 @@ fuzz_target!(|data: &[u8]| {
                 assert!(curve.contains(p), "point {p:?} not on {curve}");
             }
             assert!(
-                report.rank_lower() <= report.rank_upper(),
+                report.rank_bounds().lower() <= report.rank_bounds().upper(),
                 "bounds cross on {curve}"
             );
             match verify_report(&report, 2_000_000) {

@@ -25,7 +25,7 @@
 //! * the root number is decided by the certified test
 //!   `F(1/t) = w·t²·F(t)` (exactly one sign can hold; the other is excluded
 //!   when `|F(1/t) ∓ t²F(t)|` exceeds its error bound), cross-checked against
-//!   the local formulas where those apply ([`RootNumberRoute`]);
+//!   the local formulas where those apply (the route is printed with the value);
 //! * `w = +1` and `L(E,1) ≠ 0` (certified) imply rank 0, and `w = −1` and
 //!   `L'(E,1) ≠ 0` imply rank 1 (Gross–Zagier 1986 and Kolyvagin 1990; for
 //!   rank 0 and CM curves also Coates–Wiles 1977) — see [`RankTheorem`];
@@ -37,7 +37,8 @@
 //!   parity are small but not proven to vanish).
 //!
 //! The default options skip curves with conductor above
-//! [`DEFAULT_CONDUCTOR_LIMIT`]; see `docs/analytic.md`, included below.
+//! 10¹⁰ ([`AnalyticOptions::conductor_limit`]); see `docs/analytic.md`,
+//! included below.
 //!
 #![doc = include_str!("../../docs/analytic.md")]
 
@@ -56,11 +57,11 @@ mod tests;
 use num_bigint::BigInt;
 use num_traits::{One, ToPrimitive};
 
-pub use crate::arith::Certified;
+pub(crate) use crate::arith::Certified;
 pub use coefficients::{dirichlet_coefficients, frobenius_trace, ApTable};
 pub use ledger::{sha_analytic, ShaLedger};
 pub use period::{real_period, RealPeriod};
-pub use root_number::root_number_by_formula;
+pub(crate) use root_number::root_number_by_formula;
 pub(crate) use series::Series;
 
 use crate::budget::Budget;
@@ -70,25 +71,25 @@ use crate::error::Result;
 
 /// Conductors above this are skipped under the default options, except
 /// for quadratic twists of `y² = x³ − x` and curves with `j = 0` (see
-/// [`DEFAULT_TWIST_CONDUCTOR_LIMIT`]). Up to it the stored route is used.
-pub const DEFAULT_CONDUCTOR_LIMIT: u64 = 10_000_000_000;
+/// `DEFAULT_TWIST_CONDUCTOR_LIMIT`). Up to it the stored route is used.
+pub(crate) const DEFAULT_CONDUCTOR_LIMIT: u64 = 10_000_000_000;
 
 /// The conductor limit under the default options for quadratic twists of
 /// `y² = x³ − x` (among them every congruent-number curve `y² = x³ − n²x`),
 /// whose coefficients come from a sieve ([`SeriesRoute::StreamedTwist`]),
 /// and for the curves `y² = x³ + k` (`j = 0`), whose `a_p` come from the
 /// sextic residue symbol (module `cm`).
-pub const DEFAULT_TWIST_CONDUCTOR_LIMIT: u64 = 10_000_000_000_000;
+pub(crate) const DEFAULT_TWIST_CONDUCTOR_LIMIT: u64 = 10_000_000_000_000;
 
 /// Quadratic twists of `y² = x³ − x` with conductor above this take the
 /// streamed twist route under the default options (measured in
 /// `docs/performance.md`, issue 25: below it the stored route is as fast
 /// or faster).
-pub const DEFAULT_TWIST_STREAMED_ABOVE: u64 = 1_000_000;
+pub(crate) const DEFAULT_TWIST_STREAMED_ABOVE: u64 = 1_000_000;
 
 /// At most this many series terms under the default options (the stored
 /// route needs about 12 bytes per term, the streamed route about 4).
-pub const DEFAULT_MAX_TERMS: u64 = 30_000_000;
+pub(crate) const DEFAULT_MAX_TERMS: u64 = 30_000_000;
 
 /// `L^{(r)}(E,1)` for `r ≥ 2` is computed only with at most this many terms
 /// (by the stored route, about 12 bytes per term).
@@ -109,7 +110,7 @@ const SPLIT: f64 = 1.1;
 #[non_exhaustive]
 pub struct AnalyticOptions {
     /// Curves whose conductor exceeds this are skipped (default
-    /// [`DEFAULT_CONDUCTOR_LIMIT`] = 10¹⁰), unless they are quadratic twists
+    /// 10¹⁰), unless they are quadratic twists
     /// of `y² = x³ − x` or curves with `j = 0` below
     /// [`AnalyticOptions::twist_conductor_limit`].
     pub conductor_limit: u64,
@@ -117,21 +118,20 @@ pub struct AnalyticOptions {
     /// `a_p` come from a sieve rather than prime by prime, and for the
     /// curves with `j = 0` (sextic twists of `y² = x³ + 1`), whose `a_p`
     /// come from a closed form (the sextic residue symbol) rather than a
-    /// point count (default [`DEFAULT_TWIST_CONDUCTOR_LIMIT`] = 10¹³). The
+    /// point count (default 10¹³). The
     /// larger of the two limits applies to them.
     pub twist_conductor_limit: u64,
     /// Conductors above this use the streamed route (coefficients in
     /// machine words, sums in binary64 with one error bound per sum; see
-    /// [`SeriesRoute`]); up to it the stored route (default
-    /// [`DEFAULT_CONDUCTOR_LIMIT`], so that values below it are printed
+    /// [`SeriesRoute`]); up to it the stored route (default 10¹⁰, so that values below it are printed
     /// exactly as before).
     pub streamed_above: u64,
     /// Quadratic twists of `y² = x³ − x` with conductor above this take
     /// the streamed twist route ([`SeriesRoute::StreamedTwist`]) even below
     /// [`AnalyticOptions::streamed_above`] (default
-    /// [`DEFAULT_TWIST_STREAMED_ABOVE`], where that route is the faster one).
+    /// 10⁶, where that route is the faster one).
     pub twist_streamed_above: u64,
-    /// At most this many terms `a_n` (default [`DEFAULT_MAX_TERMS`];
+    /// At most this many terms `a_n` (default 3·10⁷;
     /// memory is about 12 bytes per term on the stored route and 4 on the
     /// streamed one). With too few terms the error bounds grow and fewer
     /// values are certified; nothing is guessed.
@@ -158,19 +158,6 @@ impl Default for AnalyticOptions {
 }
 
 impl AnalyticOptions {
-    /// The options with another conductor limit.
-    pub fn with_conductor_limit(mut self, limit: u64) -> Self {
-        self.conductor_limit = limit;
-        self
-    }
-
-    /// The options with another conductor limit for quadratic twists of
-    /// `y² = x³ − x`.
-    pub fn with_twist_conductor_limit(mut self, limit: u64) -> Self {
-        self.twist_conductor_limit = limit;
-        self
-    }
-
     /// The options with the streamed route above another conductor (0:
     /// always streamed; `u64::MAX`: never), for every curve: this sets
     /// [`AnalyticOptions::twist_streamed_above`] as well.
@@ -191,25 +178,12 @@ impl AnalyticOptions {
             self.conductor_limit
         }
     }
-
-    /// The options with another truncation target (see
-    /// [`AnalyticOptions::tolerance`]).
-    pub fn with_tolerance(mut self, tolerance: f64) -> Self {
-        self.tolerance = tolerance;
-        self
-    }
-
-    /// The options with another term limit.
-    pub fn with_max_terms(mut self, terms: u64) -> Self {
-        self.max_terms = terms;
-        self
-    }
 }
 
 /// How the root number was determined.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
 #[non_exhaustive]
-pub enum RootNumberRoute {
+pub(crate) enum RootNumberRoute {
     /// By the certified functional-equation test, and the local formulas
     /// gave the same sign.
     FunctionalEquationAndFormula,
@@ -346,7 +320,7 @@ impl AnalyticData {
     }
 
     /// How the root number was decided.
-    pub fn root_number_route(&self) -> Option<RootNumberRoute> {
+    pub(crate) fn root_number_route(&self) -> Option<RootNumberRoute> {
         self.route
     }
 
@@ -374,7 +348,7 @@ impl AnalyticData {
     }
 
     /// The number of connected components of `E(R)`.
-    pub fn real_component_count(&self) -> Option<u8> {
+    pub(crate) fn real_component_count(&self) -> Option<u8> {
         self.period.map(|p| p.components)
     }
 

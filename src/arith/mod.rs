@@ -32,10 +32,13 @@ pub(crate) mod small;
 pub(crate) mod squarefree;
 pub(crate) mod word;
 
+#[cfg(test)]
+mod tests;
+
 pub use certified::Certified;
 pub(crate) use dyadic::sign_at_f64;
 pub use factor::{factor, factor_u64, Factorization};
 pub(crate) use prime::jacobi_big;
 pub use prime::{is_prime, is_prime_u64};
-pub use roots::{is_perfect_square, isqrt, rational_sqrt_exact, sqrt_exact};
+pub(crate) use roots::{is_perfect_square, isqrt, rational_sqrt_exact, sqrt_exact};
 pub use squarefree::{is_squarefree, squarefree_kernel, squarefree_part, squarefree_part_rational};

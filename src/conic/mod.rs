@@ -81,12 +81,12 @@
 //! two-squares theorem in lattice form; common practice).
 //!
 //! # 6. General ternary forms and parametrisations
-//! [`solve_ternary`] diagonalises an integral ternary form over Q with
+//! `solve_ternary` diagonalises an integral ternary form over Q with
 //! Jacobi's leading minors and solves the diagonal form (the factors of
 //! the minors are supplied, so nothing larger is factored).
-//! [`parametrise`] turns one point P into binary quadratic forms
+//! `parametrise` turns one point P into binary quadratic forms
 //! (q₀, q₁, q₂) parametrising all rational points by the lines through P
-//! (see [`ConicParametrisation`]).
+//! (`ConicParametrisation`; both are crate-private, used by the second descent and checked by the unit tests in `src/conic/tests/`).
 //!
 //! # 7. Cost
 //! After factoring: one square root modulo each prime of abc, an LLL
@@ -106,5 +106,10 @@ pub use legendre::{
     insoluble_places, solve_diagonal, solve_diagonal_rational, solve_diagonal_with_primes,
     ConicSolution,
 };
-pub use param::{parametrise, parametrise_diagonal, ConicParametrisation};
-pub use ternary::{solve_ternary, TernaryForm};
+pub(crate) use param::{parametrise, parametrise_diagonal};
+#[cfg(test)]
+pub(crate) use ternary::solve_ternary;
+pub(crate) use ternary::TernaryForm;
+
+#[cfg(test)]
+mod tests;

@@ -6,7 +6,9 @@ use num_integer::Integer;
 use num_traits::{One, Zero};
 
 use super::legendre::primitive;
-use super::ternary::{det3, TernaryForm};
+#[cfg(test)]
+use super::ternary::det3;
+use super::ternary::TernaryForm;
 use crate::error::{Error, Result};
 
 /// A parametrisation of a non-degenerate conic q = 0 by three binary
@@ -45,6 +47,7 @@ pub struct ConicParametrisation {
 }
 
 impl ConicParametrisation {
+    #[cfg(test)]
     /// (q₀(u, v), q₁(u, v), q₂(u, v)).
     pub fn evaluate(&self, u: &BigInt, v: &BigInt) -> [BigInt; 3] {
         let uu = u * u;
@@ -54,6 +57,7 @@ impl ConicParametrisation {
         [f(&self.forms[0]), f(&self.forms[1]), f(&self.forms[2])]
     }
 
+    #[cfg(test)]
     /// The parameter (u, v), coprime, of a point R of the conic: the
     /// inverse of [`evaluate`](Self::evaluate) up to scaling. For R = P
     /// this is the tangent direction (B(P, f), −B(P, e)).
@@ -87,6 +91,7 @@ impl ConicParametrisation {
     }
 }
 
+#[cfg(test)]
 /// The matrix with columns a, b, c.
 fn cols(a: &[BigInt; 3], b: &[BigInt; 3], c: &[BigInt; 3]) -> [[BigInt; 3]; 3] {
     let mut m: [[BigInt; 3]; 3] = Default::default();
@@ -132,15 +137,8 @@ fn complete_basis(p: &[BigInt; 3]) -> ([BigInt; 3], [BigInt; 3]) {
 ///
 /// Cost: O(1) big-integer operations.
 ///
-/// ```
-/// use isodescent::conic::{parametrise, TernaryForm};
-/// use num_bigint::BigInt;
-/// // The circle x² + y² = z² through (1, 0, 1).
-/// let q = TernaryForm::diagonal(1.into(), 1.into(), (-1).into());
-/// let par = parametrise(&q, &[1.into(), 0.into(), 1.into()]).unwrap();
-/// let r = par.evaluate(&BigInt::from(2), &BigInt::from(1));
-/// assert_eq!(q.evaluate(&r), 0.into());
-/// ```
+/// Example: the circle x² + y² = z² through (1, 0, 1) (unit test
+/// `the_circle_is_parametrised_through_a_rational_point`).
 pub fn parametrise(q: &TernaryForm, point: &[BigInt; 3]) -> Result<ConicParametrisation> {
     if q.doubled_determinant().is_zero() {
         return Err(Error::Degenerate {

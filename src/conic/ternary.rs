@@ -1,17 +1,25 @@
 //! Ternary quadratic forms with integer coefficients and their zeros.
 #![allow(clippy::needless_range_loop)] // index loops mirror the formulas
 
-use std::collections::BTreeSet;
 use std::fmt;
 
 use num_bigint::BigInt;
 use num_traits::Zero;
 
+// The zero-finder for general ternary forms (`solve_ternary`) is used by
+// the unit tests only; the second descent works with diagonal conics.
+#[cfg(test)]
 use super::legendre::{primitive, solve_core, ConicSolution};
+#[cfg(test)]
 use crate::arith::factor;
+#[cfg(test)]
 use crate::budget::Budget;
+#[cfg(test)]
 use crate::error::{Error, Result};
+#[cfg(test)]
 use crate::local::Prime;
+#[cfg(test)]
+use std::collections::BTreeSet;
 
 /// The ternary quadratic form
 /// q(x, y, z) = a x² + b y² + c z² + d yz + e zx + f xy
@@ -46,6 +54,7 @@ impl TernaryForm {
         Self::new(a, b, c, BigInt::zero(), BigInt::zero(), BigInt::zero())
     }
 
+    #[cfg(test)]
     /// The form vᵀ M v of a symmetric integer matrix M.
     ///
     /// # Errors
@@ -71,12 +80,6 @@ impl TernaryForm {
             &m[0][2] * 2u32,
             &m[0][1] * 2u32,
         ))
-    }
-
-    /// The coefficients `[a, b, c, d, e, f]` of
-    /// a x² + b y² + c z² + d yz + e zx + f xy.
-    pub fn coefficients(&self) -> &[BigInt; 6] {
-        &self.coeffs
     }
 
     /// The doubled Gram matrix H (see the type docs).
@@ -121,6 +124,7 @@ pub(crate) fn det3(m: &[[BigInt; 3]; 3]) -> BigInt {
         + &m[0][2] * (&m[1][0] * &m[2][1] - &m[1][1] * &m[2][0])
 }
 
+#[cfg(test)]
 /// Small integer vectors tried as basis vectors: e₁, e₂, e₃, e₁+e₂,
 /// e₁+e₃, e₂+e₃. For a non-degenerate form one of them is anisotropic
 /// (if q(eᵢ) = q(eᵢ+eⱼ) = 0 for all i, j then every coefficient is 0).
@@ -136,6 +140,7 @@ fn small_vectors() -> Vec<[BigInt; 3]> {
     ]
 }
 
+#[cfg(test)]
 fn check_nondegenerate(q: &TernaryForm) -> Result<BigInt> {
     let det = q.doubled_determinant();
     if det.is_zero() {
@@ -146,6 +151,7 @@ fn check_nondegenerate(q: &TernaryForm) -> Result<BigInt> {
     Ok(det)
 }
 
+#[cfg(test)]
 /// A nontrivial rational zero of a non-degenerate ternary quadratic form,
 /// or a place where it has none.
 ///

@@ -60,6 +60,7 @@ pub struct PlaneCubic {
 
 /// Why a plane cubic has a point over Q_p (module docs).
 #[derive(Debug, Clone, PartialEq, Eq)]
+#[non_exhaustive]
 pub struct PlaneCubicWitness {
     /// The primitive triple (u, v, w).
     pub point: [BigInt; 3],
@@ -96,7 +97,7 @@ impl PlaneCubic {
     }
 
     /// ∂C/∂u, ∂C/∂v, ∂C/∂w at (u, v, w).
-    pub fn gradient(&self, x: &[BigInt; 3]) -> [BigInt; 3] {
+    pub(crate) fn gradient(&self, x: &[BigInt; 3]) -> [BigInt; 3] {
         let mut g = [BigInt::zero(), BigInt::zero(), BigInt::zero()];
         for (c, &(i, j, k)) in self.c.iter().zip(PLANE_CUBIC_MONOMIALS.iter()) {
             if c.is_zero() {

@@ -10,6 +10,7 @@ use crate::error::{Error, Result};
 
 /// An integer point (u : v : w) of a plane cubic F(u, v) = c·w³.
 #[derive(Debug, Clone, PartialEq, Eq, Hash)]
+#[non_exhaustive]
 pub struct CubicPoint {
     /// u.
     pub u: BigInt,

@@ -37,14 +37,6 @@ pub struct TwoIsogeny {
 }
 
 impl TwoIsogeny {
-    /// The isogeny from y² = x³ + a x² + b x.
-    ///
-    /// # Errors
-    /// [`crate::Error::SingularCurve`] if b = 0 or a² − 4b = 0.
-    pub fn new(a: BigInt, b: BigInt) -> Result<TwoIsogeny> {
-        TwoIsogeny::from_reduced(&ReducedModel::new(a, b)?)
-    }
-
     /// The isogeny from a checked model (its (0, 0) generates the kernel).
     ///
     /// # Errors

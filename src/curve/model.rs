@@ -59,7 +59,7 @@ impl ModelChange {
     }
 
     /// The identity (1, 0, 0, 0).
-    pub fn identity() -> Self {
+    pub(crate) fn identity() -> Self {
         ModelChange {
             u: BigRational::one(),
             r: BigRational::zero(),

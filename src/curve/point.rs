@@ -19,7 +19,7 @@ use std::fmt;
 
 use num_bigint::{BigInt, Sign};
 use num_rational::BigRational;
-use num_traits::{Signed, Zero};
+use num_traits::Zero;
 
 use super::weierstrass::Curve;
 use crate::error::{Error, Result};
@@ -72,37 +72,6 @@ impl Point {
             Point::Affine { y, .. } => Some(y),
         }
     }
-
-    /// The naive (logarithmic) height h(P) = log max(|p|, |q|) for
-    /// x(P) = p/q in lowest terms; h(O) = 0.
-    ///
-    /// Example: h((−1/4, ·)) = log 4 ≈ 1.386.
-    pub fn naive_height(&self) -> f64 {
-        match self {
-            Point::Infinity => 0.0,
-            Point::Affine { x, .. } => {
-                let n = x.numer().abs();
-                let d = x.denom().abs();
-                ln_bigint(if n > d { &n } else { &d })
-            }
-        }
-    }
-}
-
-/// Natural logarithm of a positive big integer as f64 (0 for 0).
-pub(crate) fn ln_bigint(n: &BigInt) -> f64 {
-    let bits = n.bits();
-    if bits == 0 {
-        return 0.0;
-    }
-    if bits <= 1000 {
-        use num_traits::ToPrimitive;
-        return n.to_f64().map(f64::ln).unwrap_or(0.0);
-    }
-    let shift = bits - 64;
-    let top: BigInt = n >> shift;
-    use num_traits::ToPrimitive;
-    top.to_f64().map(f64::ln).unwrap_or(0.0) + shift as f64 * std::f64::consts::LN_2
 }
 
 impl fmt::Display for Point {

@@ -105,15 +105,6 @@ impl TorsionGroup {
     pub fn reduction_bound(&self) -> u32 {
         self.bound
     }
-    /// True iff the structure is one of the fifteen groups of Mazur's
-    /// theorem \[Maz77\].
-    pub fn is_in_mazur_list(&self) -> bool {
-        match self.structure {
-            (n, 1) => (1..=10).contains(&n) || n == 12,
-            (n, 2) => matches!(n, 2 | 4 | 6 | 8),
-            _ => false,
-        }
-    }
 }
 
 /// The torsion subgroup of E(Q), exactly (module docs).

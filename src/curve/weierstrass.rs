@@ -354,11 +354,6 @@ impl Curve {
         })
     }
 
-    /// True iff all five coefficients are integers.
-    pub fn has_integral_coefficients(&self) -> bool {
-        self.integral
-    }
-
     /// The five coefficients as integers, if the model is integral.
     pub(crate) fn integer_coefficients(&self) -> Option<[&BigInt; 5]> {
         if self.integral {

@@ -81,12 +81,12 @@ pub struct DeepSearchOptions {
     pub max_twists: usize,
     /// For rank one with the analytic side available: search only as high
     /// as the height predicted by the Birch–Swinnerton-Dyer formula needs
-    /// (see [`DeepSearchOptions::guided`]). A heuristic for the budget,
+    /// (the schedule is shortened to that height). A heuristic for the budget,
     /// never used in a proof. Default true.
     pub bsd_guided: bool,
     /// Rank two and more, with the analytic side available: the largest
     /// covering height a hunt sized by the predicted regulator may reach
-    /// (see [`DeepSearchOptions::guided_rank_two`]). Default 16 384, about
+    /// (the schedule is sized by that regulator). Default 16 384, about
     /// 9·10⁷ work units for a hunt that finds nothing.
     pub reach_covering_height: u64,
     /// Rank one, sized by the BSD prediction: the largest covering height
@@ -166,12 +166,6 @@ fn late_room(
 }
 
 impl DeepSearchOptions {
-    /// Defaults with another largest covering height.
-    pub fn with_max_covering_height(mut self, h: u64) -> Self {
-        self.max_covering_height = h;
-        self
-    }
-
     /// The options for a rank-one hunt sized by the Birch–Swinnerton-Dyer
     /// formula. `predicted` is the regulator that formula gives with
     /// `#Ш = 1`; the descent proves `#Ш ≥ 2^sha2_dim`, and in general the
@@ -184,7 +178,7 @@ impl DeepSearchOptions {
     /// Unchanged options when `bsd_guided` is off or the prediction is not
     /// a positive number. Only the amount of searching changes; what is
     /// found is proven as always.
-    pub fn guided(&self, predicted: f64, sha2_dim: usize) -> DeepSearchOptions {
+    pub(crate) fn guided(&self, predicted: f64, sha2_dim: usize) -> DeepSearchOptions {
         let mut o = self.clone();
         if !(self.bsd_guided && predicted.is_finite() && predicted > 0.0) {
             return o;
@@ -257,7 +251,7 @@ impl DeepSearchOptions {
     /// the rounds go on to `reach_covering_height`; otherwise the options
     /// are unchanged. Only the amount of searching changes; what is found
     /// is proven as always.
-    pub fn guided_rank_two(&self, predicted: f64, sha2_dim: usize) -> DeepSearchOptions {
+    pub(crate) fn guided_rank_two(&self, predicted: f64, sha2_dim: usize) -> DeepSearchOptions {
         let mut o = self.clone();
         if !(self.bsd_guided && predicted.is_finite() && predicted > 0.0) {
             return o;
@@ -467,7 +461,8 @@ fn search_coverings(
     late: Option<u64>,
     budget: &mut Budget,
 ) -> Result<Option<Point>> {
-    let mut sd = SecondDescentOptions::default().with_search_height(h);
+    let mut sd = SecondDescentOptions::default();
+    sd.search_height = h;
     sd.search_units = sd.search_units.max(search_cost(h));
     sd.max_twists = options.max_twists;
     sd.covariant_reduction = true;
@@ -795,7 +790,10 @@ mod tests {
         // common practice: geometric rounds ending exactly at the maximum
         let o = DeepSearchOptions::default();
         assert_eq!(o.rounds(), vec![256, 1024, 4096]);
-        let o = DeepSearchOptions::default().with_max_covering_height(300);
+        let o = DeepSearchOptions {
+            max_covering_height: 300,
+            ..Default::default()
+        };
         assert_eq!(o.rounds(), vec![256, 300]);
     }
 
@@ -875,7 +873,10 @@ mod tests {
             ..DeepSearchOptions::default()
         };
         assert!(o.check().is_err());
-        let o = DeepSearchOptions::default().with_max_covering_height(1);
+        let o = DeepSearchOptions {
+            max_covering_height: 1,
+            ..Default::default()
+        };
         assert!(o.check().is_err());
     }
 }

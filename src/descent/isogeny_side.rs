@@ -296,7 +296,7 @@ impl SelmerSide {
     }
 
     /// The local image at every place of S ∪ {R}, with its evidence.
-    pub fn local_images(&self) -> &[LocalImage] {
+    pub(crate) fn local_images(&self) -> &[LocalImage] {
         &self.local_images
     }
 

@@ -52,7 +52,7 @@ use std::time::Instant;
 use num_bigint::BigInt;
 
 pub use deep_search::{complete_report_points, search_missing_points, DeepSearchOptions};
-pub use global::{PointOrigin, RankProof, ShaTwoPart};
+pub use global::{PointOrigin, RankProof};
 pub use isogeny_side::{
     ClassStatus, CoveringObstruction, CoveringRun, CoveringVerdict, SearchRecord, SelmerElement,
     SelmerSide,
@@ -98,7 +98,7 @@ pub struct IsogenyDescent {
 
 impl IsogenyDescent {
     /// The point of order 2 on the input model generating ker φ.
-    pub fn kernel_point(&self) -> &Point {
+    pub(crate) fn kernel_point(&self) -> &Point {
         &self.kernel_point
     }
 
@@ -122,20 +122,28 @@ impl IsogenyDescent {
         &self.codomain
     }
 
+    /// The rank bounds this isogeny proves on its own.
+    pub fn rank_bounds(&self) -> RankBounds {
+        RankBounds {
+            lower: self.rank_lower,
+            upper: self.rank_upper,
+        }
+    }
+
     /// Proven lower bound for the rank from this isogeny.
-    pub fn rank_lower(&self) -> usize {
+    pub(crate) fn rank_lower(&self) -> usize {
         self.rank_lower
     }
 
     /// Proven upper bound for the rank from this isogeny.
-    pub fn rank_upper(&self) -> usize {
+    pub(crate) fn rank_upper(&self) -> usize {
         self.rank_upper
     }
 
     /// Bounds (lower, upper) for the F2-dimension of the part of the
     /// Tate–Shafarevich group seen on E's side, Sel / α(E(Q)), and on E''s
     /// side.
-    pub fn sha_bounds(&self) -> ((usize, usize), (usize, usize)) {
+    pub(crate) fn sha_bounds(&self) -> ((usize, usize), (usize, usize)) {
         let f = |s: &SelmerSide| {
             (
                 s.dimension() - s.image_upper.min(s.dimension()),

@@ -147,18 +147,6 @@ impl DescentOptions {
         };
         self.budget(units, deadline)
     }
-
-    /// Defaults with a different search height.
-    pub fn with_search_height(mut self, h: u64) -> Self {
-        self.search_height = h;
-        self
-    }
-
-    /// Defaults with the second descent switched on or off.
-    pub fn with_four_coverings(mut self, on: bool) -> Self {
-        self.four_coverings = on;
-        self
-    }
 }
 
 /// The options of one descent and its wall-clock deadline (fixed when the

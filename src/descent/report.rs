@@ -179,7 +179,7 @@ impl DescentReport {
 
     /// The index in [`DescentReport::isogenies`] of the isogeny whose bounds
     /// are the final ones (or that gives the upper bound).
-    pub fn deciding_isogeny(&self) -> Option<usize> {
+    pub(crate) fn deciding_isogeny(&self) -> Option<usize> {
         self.deciding
     }
 
@@ -216,7 +216,7 @@ impl DescentReport {
 
     /// True when the returned points are proven to generate E(Q) modulo
     /// torsion.
-    pub fn points_generate(&self) -> bool {
+    pub(crate) fn points_generate(&self) -> bool {
         self.global
             .saturation
             .as_ref()
@@ -225,8 +225,9 @@ impl DescentReport {
     }
 
     /// A generator set of E(Q) modulo torsion with its certificate, when
-    /// one is proven ([`DescentReport::points_generate`]); `None` when the
-    /// points are only known to be independent.
+    /// one is proven: saturation proved that [`DescentReport::points`]
+    /// generate, or the rank is proven 0 and no conflict was found. `None`
+    /// when the points are only known to be independent.
     pub fn generators(&self) -> Option<Generators> {
         if !self.points_generate() {
             return None;
@@ -253,7 +254,7 @@ impl DescentReport {
     /// ĥ of each of [`DescentReport::points`], in the same order,
     /// certified (normalisation of [`crate::height`]); empty when a height
     /// could not be computed.
-    pub fn point_heights(&self) -> &[crate::arith::Certified] {
+    pub(crate) fn point_heights(&self) -> &[crate::arith::Certified] {
         match &self.global.saturation {
             Some(s) => &s.heights,
             None => &self.global.point_heights,
@@ -285,7 +286,7 @@ impl DescentReport {
     }
 
     /// The ledger's comparison with the 2-part of Sha the descent proves.
-    pub fn sha_two_part(&self) -> Option<ShaTwoPart> {
+    pub(crate) fn sha_two_part(&self) -> Option<ShaTwoPart> {
         self.global.sha_two_part
     }
 
@@ -296,12 +297,12 @@ impl DescentReport {
     }
 
     /// Proven lower bound for the rank of E(Q).
-    pub fn rank_lower(&self) -> usize {
+    pub(crate) fn rank_lower(&self) -> usize {
         self.bounds.lower
     }
 
     /// Proven upper bound for the rank of E(Q).
-    pub fn rank_upper(&self) -> usize {
+    pub(crate) fn rank_upper(&self) -> usize {
         self.bounds.upper
     }
 
@@ -310,11 +311,6 @@ impl DescentReport {
     /// reduction; [`DescentReport::points`] gives the points to use).
     pub fn descent_points(&self) -> &[Point] {
         &self.points
-    }
-
-    /// True when the bounds meet.
-    pub fn is_decided(&self) -> bool {
-        self.bounds.is_decided()
     }
 
     /// dim_F2 Sel²(E/Q), torsion included (so at least dim E(Q)\[2\]), from
@@ -363,15 +359,5 @@ impl Generators {
     /// is proven 0 and the empty set generates.
     pub fn certificate(&self) -> Option<&Saturation> {
         self.certificate.as_ref()
-    }
-
-    /// The number of generators (the rank).
-    pub fn len(&self) -> usize {
-        self.points.len()
-    }
-
-    /// True for rank 0.
-    pub fn is_empty(&self) -> bool {
-        self.points.is_empty()
     }
 }

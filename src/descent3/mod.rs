@@ -62,6 +62,9 @@ mod generators;
 pub(crate) mod side;
 mod uncovered;
 
+#[cfg(test)]
+mod tests;
+
 use std::time::{Duration, Instant};
 
 use num_bigint::BigInt;
@@ -291,7 +294,7 @@ pub struct Isogeny3Report {
 }
 
 /// φ: E_k → E_{−27k}, (x, y) ↦ ((x³ + 4k)/x², y(x³ − 8k)/x³).
-pub fn three_isogeny(k: &BigInt, p: &Point) -> Point {
+pub(crate) fn three_isogeny(k: &BigInt, p: &Point) -> Point {
     let (Some(x), Some(y)) = (p.x(), p.y()) else {
         return Point::Infinity;
     };
@@ -307,7 +310,7 @@ pub fn three_isogeny(k: &BigInt, p: &Point) -> Point {
 
 /// φ̂: E_{−27k} → E_k, the map φ of E_{−27k} followed by the scaling of
 /// E_{729k} to E_k (x ↦ x/9, y ↦ y/27).
-pub fn dual_three_isogeny(k: &BigInt, p: &Point) -> Point {
+pub(crate) fn dual_three_isogeny(k: &BigInt, p: &Point) -> Point {
     let kk = BigInt::from(-27) * k;
     match three_isogeny(&kk, p) {
         Point::Infinity => Point::Infinity,

@@ -109,7 +109,7 @@ impl RecordLine {
     /// The 2-isogeny Selmer rank bound min over isogenies of
     /// dim Sel^φ(E) + dim Sel^φ̂(E') − 2, an upper bound for the rank
     /// [Sil09, X.4, Remark 4.7]; `None` on an error line.
-    pub fn selmer_rank_bound(&self) -> Option<u64> {
+    pub(crate) fn selmer_rank_bound(&self) -> Option<u64> {
         self.selmer
             .iter()
             .map(|&(a, b)| (a + b).saturating_sub(2))
@@ -137,7 +137,8 @@ pub struct Tally {
     /// Count of each (dim Sel^φ(E), dim Sel^φ̂(E')) of the first isogeny
     /// listed in a record.
     pub selmer_pairs: BTreeMap<(u64, u64), u64>,
-    /// Count of each value of [`RecordLine::selmer_rank_bound`].
+    /// Count of each value of the 2-isogeny Selmer rank bound
+    /// min over isogenies of dim Sel^φ(E) + dim Sel^φ̂(E') − 2.
     pub selmer_rank: BTreeMap<u64, u64>,
     /// Count of each value of [`RecordLine::selmer2_excess`].
     pub selmer2: BTreeMap<u64, u64>,
@@ -438,7 +439,7 @@ pub fn read_for_resume<R: BufRead>(mut input: R, name: &str, shard: &Shard) -> R
     Ok(st)
 }
 
-/// Up to [`IndexList::KEEP`] example indices and the total count.
+/// Up to 20 example indices and the total count.
 #[derive(Clone, Debug, Default, PartialEq, Eq)]
 #[non_exhaustive]
 pub struct IndexList {
@@ -450,7 +451,7 @@ pub struct IndexList {
 
 impl IndexList {
     /// Examples kept.
-    pub const KEEP: usize = 20;
+    pub(crate) const KEEP: usize = 20;
 
     fn push(&mut self, i: u64) {
         self.count += 1;

@@ -187,20 +187,6 @@ pub struct ScanOptions {
     pub window: usize,
 }
 
-impl ScanOptions {
-    /// Defaults with `threads` worker threads.
-    pub fn with_threads(mut self, threads: usize) -> Self {
-        self.threads = threads;
-        self
-    }
-
-    /// Defaults with a window of `window` members.
-    pub fn with_window(mut self, window: usize) -> Self {
-        self.window = window;
-        self
-    }
-}
-
 /// The iterator of [`scan`]: one [`ScanRecord`] per member of the source,
 /// in the source's order.
 pub struct Scan<I: Iterator<Item = Member>> {

@@ -106,6 +106,7 @@ pub(crate) fn heegner_beta(d: i64, n: i64) -> Option<i64> {
     })
 }
 
+#[cfg(test)]
 /// One Heegner form `[A, B, C]` of level `n` and residue `β` per class of
 /// discriminant `d`, each with the least `A` in its class; also `h(d)`.
 /// One budget unit per candidate `B`.

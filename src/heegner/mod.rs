@@ -53,27 +53,27 @@ use crate::error::{Error, Result};
 use congruent::{Constants, LEVEL};
 
 /// Default cap on the working precision, in bits.
-pub const DEFAULT_MAX_BITS: u32 = 16_384;
+pub(crate) const DEFAULT_MAX_BITS: u32 = 16_384;
 
 /// Default cap on `|D|` (the class group is enumerated in `O(|D|)`).
-pub const DEFAULT_MAX_DISCRIMINANT: u64 = 10_000_000;
+pub(crate) const DEFAULT_MAX_DISCRIMINANT: u64 = 10_000_000;
 
 /// Options of [`heegner_point`].
 #[derive(Clone, Debug, PartialEq)]
 #[non_exhaustive]
 pub struct HeegnerOptions {
-    /// Largest working precision in bits (default [`DEFAULT_MAX_BITS`]);
+    /// Largest working precision in bits (default 16 384);
     /// the precision starts from the predicted height and doubles while
     /// the point is not recognised.
     pub max_bits: u32,
-    /// Largest `|D|` attempted (default [`DEFAULT_MAX_DISCRIMINANT`]).
+    /// Largest `|D|` attempted (default 10⁷).
     pub max_discriminant: u64,
     /// Largest prime `p` for which `Q = p·R` is tried (default 1000): the
     /// primes of the index predicted by the height ratio, and 2, 3, 5, 7.
     pub max_division_prime: u64,
     /// Largest number of series terms (summed over the classes) of one
     /// attempt of the route at the curve's own level (default
-    /// [`DEFAULT_MAX_OWN_LEVEL_TERMS`]); the route is not attempted when
+    /// 4·10⁶); the route is not attempted when
     /// its first precision already needs more, and stops doubling the
     /// precision when the next one would.
     pub max_own_level_terms: u64,
@@ -82,7 +82,7 @@ pub struct HeegnerOptions {
 /// Default cap on the series terms of one attempt at the curve's own
 /// level: the terms grow like `N/√|D|` per class and bit, so this bounds
 /// the conductors reached by default (`docs/heegner.md`).
-pub const DEFAULT_MAX_OWN_LEVEL_TERMS: u64 = 4_000_000;
+pub(crate) const DEFAULT_MAX_OWN_LEVEL_TERMS: u64 = 4_000_000;
 
 /// Largest conductor of the route at the curve's own level: with
 /// `|D| ≤ 20 000` the forms' `A ≤ N(|D| + 1)` and `C·N ≤ N²(|D| + 1)/4`
@@ -189,6 +189,7 @@ pub fn class_number(d: i64) -> Result<usize> {
     Ok(forms::reduced_forms(d).len())
 }
 
+#[cfg(test)]
 /// The Heegner forms `[A, B, C]` of level `level` for the fundamental
 /// discriminant `d` (`N | A`, `B ≡ β (mod 2N)` for the least `β ≥ 0` with
 /// `β² ≡ D (mod 4N)`, `B² − 4AC = D`), one per ideal class, each with the
@@ -197,7 +198,11 @@ pub fn class_number(d: i64) -> Result<usize> {
 /// # Errors
 /// [`Error::InvalidArgument`] for a `d` that is not a fundamental
 /// discriminant in `[−10⁷, 0)` or a level outside `1..=10⁴`; budget errors.
-pub fn heegner_forms(d: i64, level: i64, budget: &mut Budget) -> Result<Vec<(i64, i64, i64)>> {
+pub(crate) fn heegner_forms(
+    d: i64,
+    level: i64,
+    budget: &mut Budget,
+) -> Result<Vec<(i64, i64, i64)>> {
     if !(-10_000_000..0).contains(&d) || !forms::is_fundamental(d) || !(1..=10_000).contains(&level)
     {
         return Err(Error::InvalidArgument {
@@ -641,5 +646,29 @@ mod tests {
         assert!(congruent_model(&e, &mut b).unwrap().is_none());
         let e: Curve = "0 0 0 -2 0".parse().unwrap();
         assert!(congruent_model(&e, &mut b).unwrap().is_none());
+    }
+
+    #[test]
+    fn heegner_forms_agree_with_the_class_number_formula() {
+        let mut checked = 0;
+        // Class numbers h(−n) from the analytic class number formula, computed
+        // with sympy 1.14.0 by tests/data/class_numbers.py (output committed).
+        const CLASS_NUMBERS: &str = include_str!("../../tests/data/class_numbers.txt");
+        for line in CLASS_NUMBERS.lines().filter(|l| !l.starts_with('#')) {
+            let mut it = line.split_whitespace().map(|w| w.parse::<i64>().unwrap());
+            let (d, h) = (it.next().unwrap(), it.next().unwrap() as usize);
+            let forms = heegner_forms(d, 32, &mut Budget::unlimited()).unwrap();
+            // One Heegner form per class (Gross 1984, from memory): h forms,
+            // each with 32 | A, the discriminant D and one common B mod 64.
+            assert_eq!(forms.len(), h, "D = {d}");
+            let b0 = forms[0].1.rem_euclid(64);
+            for &(a, b, c) in &forms {
+                assert_eq!(a % 32, 0);
+                assert_eq!(b * b - 4 * a * c, d);
+                assert_eq!(b.rem_euclid(64), b0);
+            }
+            checked += 1;
+        }
+        assert!(checked > 200, "{checked}");
     }
 }

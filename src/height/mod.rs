@@ -44,11 +44,13 @@ pub(crate) mod lower_bound;
 pub(crate) mod naive_vs_canonical;
 mod projective;
 pub(crate) mod saturate;
+#[cfg(test)]
+mod tests;
 
 use num_bigint::BigInt;
 use num_traits::Signed;
 
-pub use crate::arith::Certified;
+pub(crate) use crate::arith::Certified;
 use crate::budget::Budget;
 use crate::curve::tate::{GlobalLocalData, ReductionKind};
 use crate::curve::{Curve, ModelChange, Point};
@@ -65,15 +67,15 @@ use local_terms::{Archimedean, BadPrime};
 use projective::{Jac, ShortModel};
 
 /// Default requested absolute precision of a canonical height.
-pub const DEFAULT_PRECISION: f64 = 1e-12;
+pub(crate) const DEFAULT_PRECISION: f64 = 1e-12;
 
 /// Finest absolute precision accepted (the f64 arithmetic reaches about
 /// 1e-14 on points of moderate height).
-pub const FINEST_PRECISION: f64 = 1e-14;
+pub(crate) const FINEST_PRECISION: f64 = 1e-14;
 
 /// Work units for factoring the discriminant when the caller gives no
 /// budget (the same scale as the curve layer's default for reductions).
-pub const DEFAULT_HEIGHT_UNITS: u64 = 200_000_000;
+pub(crate) const DEFAULT_HEIGHT_UNITS: u64 = 200_000_000;
 
 /// Everything about one curve that the heights of its points share: the
 /// minimal model, its bad primes, the archimedean series data and the
@@ -169,11 +171,11 @@ impl HeightContext {
     }
 
     /// The reduced global minimal model on which heights are computed.
-    pub fn minimal_model(&self) -> &Curve {
+    pub(crate) fn minimal_model(&self) -> &Curve {
         &self.minimal
     }
 
-    /// The change of model from the input curve to [`Self::minimal_model`].
+    /// The change of model from the input curve to its global minimal model.
     pub fn to_minimal(&self) -> &ModelChange {
         &self.to_min
     }
@@ -213,7 +215,7 @@ impl HeightContext {
         self.to_min.to_old(p)
     }
 
-    /// `ĥ(P)` to [`DEFAULT_PRECISION`] for a point of the input model.
+    /// `ĥ(P)` to absolute precision 10⁻¹² for a point of the input model.
     ///
     /// # Errors
     /// [`Error::PointNotOnCurve`] if `p` is not on the curve.
@@ -228,7 +230,7 @@ impl HeightContext {
     ///
     /// # Errors
     /// [`Error::PointNotOnCurve`]; [`Error::InvalidArgument`] if
-    /// `precision` is not a finite number ≥ [`FINEST_PRECISION`].
+    /// `precision` is not a finite number ≥ 10⁻¹⁴.
     pub fn height_to(&self, p: &Point, precision: f64) -> Result<Certified> {
         check_precision(precision)?;
         let q = self.to_min_point(p)?;
@@ -256,8 +258,11 @@ impl HeightContext {
     }
 
     /// `[n]P` on the input model, by exact Jacobian arithmetic, under a
-    /// budget of [`DEFAULT_HEIGHT_UNITS`] (see
-    /// [`HeightContext::multiple_with_budget`]).
+    /// budget of 2·10⁸ units: each doubling or addition costs
+    /// `(w + 1)²` units, `w` the size in 64-bit words of the coordinates so
+    /// far, so the budget bounds the size of the result as well as the work
+    /// (`[n]P` has about n² times the digits of P; the default allows
+    /// results of up to about 10⁴ words per coordinate).
     ///
     /// # Errors
     /// [`Error::PointNotOnCurve`]; [`Error::BudgetExhausted`] when the
@@ -270,13 +275,13 @@ impl HeightContext {
     /// addition costs `(w + 1)²` units, `w` the size in 64-bit words of the
     /// coordinates so far, so the budget bounds the size of the result as
     /// well as the work (`[n]P` has about n² times the digits of P).
-    /// [`HeightContext::multiple`] uses [`DEFAULT_HEIGHT_UNITS`] (results
+    /// [`HeightContext::multiple`] uses 2·10⁸ units (results
     /// of up to about 10⁴ words per coordinate).
     ///
     /// # Errors
     /// [`Error::PointNotOnCurve`]; [`Error::BudgetExhausted`] when the
     /// budget or its deadline runs out.
-    pub fn multiple_with_budget(
+    pub(crate) fn multiple_with_budget(
         &self,
         p: &Point,
         n: &BigInt,
@@ -288,7 +293,7 @@ impl HeightContext {
     }
 
     /// `Σ nᵢPᵢ` on the input model, by exact Jacobian arithmetic, under a
-    /// budget of [`DEFAULT_HEIGHT_UNITS`].
+    /// budget of 2·10⁸ units.
     ///
     /// # Errors
     /// [`Error::PointNotOnCurve`]; [`Error::InvalidArgument`] when the
@@ -303,13 +308,13 @@ impl HeightContext {
     }
 
     /// [`HeightContext::combination`] under `budget`, charged as
-    /// [`HeightContext::multiple_with_budget`] (the default form uses
-    /// [`DEFAULT_HEIGHT_UNITS`]).
+    /// `multiple_with_budget` (the default form uses
+    /// 2·10⁸ units).
     ///
     /// # Errors
     /// As [`HeightContext::combination`]; [`Error::BudgetExhausted`] when
     /// the budget or its deadline runs out.
-    pub fn combination_with_budget(
+    pub(crate) fn combination_with_budget(
         &self,
         points: &[Point],
         coefficients: &[BigInt],
@@ -396,7 +401,7 @@ fn check_precision(precision: f64) -> Result<()> {
 /// errors `eⱼ`, Euclidean norms: multilinearity of det in the rows and
 /// Hadamard's inequality, common practice) plus an estimate
 /// `4n³·EPS·∏‖aⱼ‖` of the elimination's rounding.
-pub fn determinant(m: &[Vec<Certified>]) -> Certified {
+pub(crate) fn determinant(m: &[Vec<Certified>]) -> Certified {
     let n = m.len();
     if n == 0 {
         return Certified::exact(1.0);
@@ -449,9 +454,9 @@ pub fn determinant(m: &[Vec<Certified>]) -> Certified {
     Certified::with_radius(det, err)
 }
 
-/// `ĥ(P)` to [`DEFAULT_PRECISION`] for a point `p` of `curve` (any
+/// `ĥ(P)` to absolute precision 10⁻¹² for a point `p` of `curve` (any
 /// model): builds a [`HeightContext`] with a budget of
-/// [`DEFAULT_HEIGHT_UNITS`]. Use a context directly for many points.
+/// 2·10⁸ units. Use a context directly for many points.
 ///
 /// ```
 /// use isodescent::curve::{Curve, Point};
@@ -478,7 +483,7 @@ pub fn canonical_height(curve: &Curve, p: &Point) -> Result<Certified> {
 ///
 /// # Errors
 /// Those of [`HeightContext::new`] and [`HeightContext::height_to`].
-pub fn canonical_height_to(curve: &Curve, p: &Point, precision: f64) -> Result<Certified> {
+pub(crate) fn canonical_height_to(curve: &Curve, p: &Point, precision: f64) -> Result<Certified> {
     check_precision(precision)?;
     curve.check_point(p)?;
     let ctx = HeightContext::new(curve, &mut Budget::with_units(DEFAULT_HEIGHT_UNITS))?;
@@ -490,7 +495,7 @@ pub fn canonical_height_to(curve: &Curve, p: &Point, precision: f64) -> Result<C
 ///
 /// # Errors
 /// Those of [`HeightContext::new`] and [`HeightContext::pairing_matrix`].
-pub fn height_gram_matrix(curve: &Curve, points: &[Point]) -> Result<Vec<Vec<Certified>>> {
+pub(crate) fn height_gram_matrix(curve: &Curve, points: &[Point]) -> Result<Vec<Vec<Certified>>> {
     for p in points {
         curve.check_point(p)?;
     }
@@ -501,7 +506,7 @@ pub fn height_gram_matrix(curve: &Curve, points: &[Point]) -> Result<Vec<Vec<Cer
 /// The regulator of `points`: `det(⟨Pᵢ, Pⱼ⟩)`.
 ///
 /// # Errors
-/// Those of [`height_gram_matrix`].
+/// Those of [`HeightContext::new`] and [`HeightContext::pairing_matrix`].
 pub fn regulator(curve: &Curve, points: &[Point]) -> Result<Certified> {
     Ok(determinant(&height_gram_matrix(curve, points)?))
 }

@@ -29,7 +29,6 @@ pub(crate) mod valuation;
 
 pub use hilbert::{hilbert_symbol, hilbert_symbol_int};
 pub use place::{Place, Prime};
-pub use sqrt::mod_inverse_with_budget;
 pub use square_class::{is_square_in, square_class};
 pub use symbols::legendre;
 pub use valuation::valuation;

@@ -14,8 +14,6 @@ use super::place::Prime;
 use super::symbols::jacobi;
 use super::valuation::split_valuation;
 use crate::arith::word::{inv_mod, mul_mod, sqrt_mod};
-use crate::budget::Budget;
-use crate::error::{Error, Result};
 
 /// A square root of a modulo the odd prime p, in [0, p), or `None` when a
 /// is a non-residue. For p = 2 returns a mod 2.
@@ -230,36 +228,6 @@ fn sqrt_unit_mod_two_power(u: &BigInt, m: u32) -> Option<BigInt> {
     Some(y.mod_floor(&(BigInt::one() << m)))
 }
 
-/// The inverse of `a` modulo `m > 1`, charging `budget` by operand size
-/// first: `64·w²` units for a `w`-word modulus (the extended Euclidean
-/// algorithm takes about `bits(m)` division steps on `w`-word numbers,
-/// counted in 64-bit word products), so that a deadline or a unit limit
-/// stops work on huge moduli before it starts.
-///
-/// `Ok(None)` when `gcd(a, m) ≠ 1` (or `m ≤ 1`).
-///
-/// # Errors
-/// [`Error::BudgetExhausted`] (stage "modular inverse") when the
-/// budget has run out.
-///
-/// Example: `mod_inverse_with_budget(3, 7, …) = Ok(Some(5))`.
-pub fn mod_inverse_with_budget(
-    a: &BigInt,
-    m: &BigInt,
-    budget: &mut Budget,
-) -> Result<Option<BigInt>> {
-    if m <= &BigInt::one() {
-        return Ok(None);
-    }
-    let w = m.bits().div_ceil(64).max(1);
-    budget
-        .spend(64 * w * w)
-        .map_err(|_| Error::BudgetExhausted {
-            stage: "modular inverse".into(),
-        })?;
-    Ok(mod_inverse(a, m))
-}
-
 /// Inverse of a modulo m (gcd must be 1).
 pub(crate) fn mod_inverse(a: &BigInt, m: &BigInt) -> Option<BigInt> {
     let e = a.mod_floor(m).extended_gcd(m);
@@ -273,22 +241,6 @@ pub(crate) fn mod_inverse(a: &BigInt, m: &BigInt) -> Option<BigInt> {
 #[cfg(test)]
 mod tests {
     use super::*;
-
-    #[test]
-    fn budgeted_inverses_invert_and_stop_on_an_empty_budget() {
-        // 3·5 = 15 ≡ 1 (mod 7); gcd(4, 8) = 4 has no inverse (common practice).
-        let mut b = Budget::unlimited();
-        let inv = mod_inverse_with_budget(&BigInt::from(3), &BigInt::from(7), &mut b);
-        assert_eq!(inv.unwrap(), Some(BigInt::from(5)));
-        let none = mod_inverse_with_budget(&BigInt::from(4), &BigInt::from(8), &mut b);
-        assert_eq!(none.unwrap(), None);
-        let huge = (BigInt::one() << 100_000u32) + 1u32;
-        let mut tiny = Budget::with_units(1000);
-        assert!(matches!(
-            mod_inverse_with_budget(&BigInt::from(3), &huge, &mut tiny),
-            Err(Error::BudgetExhausted { .. })
-        ));
-    }
 
     /// The word routes return the very same roots as the `BigInt` routes
     /// (not merely roots): all residues for small p^k, and random residues

@@ -37,6 +37,7 @@
 use crate::error::{Error, Result};
 use num_bigint::BigInt;
 use num_integer::Integer;
+#[cfg(test)]
 use num_rational::BigRational;
 use num_traits::{One, Signed, ToPrimitive, Zero};
 use std::fmt;
@@ -78,12 +79,14 @@ impl Quartic {
         Ok(q)
     }
 
+    #[cfg(test)]
     /// Convenience constructor from machine integers `[c4, c3, c2, c1, c0]`;
     /// same rules as [`Quartic::new`].
-    pub fn from_i64(coeffs: [i64; 5]) -> Result<Quartic> {
+    pub(crate) fn from_i64(coeffs: [i64; 5]) -> Result<Quartic> {
         Quartic::new(coeffs.map(BigInt::from))
     }
 
+    #[cfg(test)]
     /// Clears denominators by an exact square scaling: given rational
     /// coefficients `r_i`, returns `(q, s)` with `s ≥ 1` an integer and
     /// `q = s²·g`, so that `y² = g(x, z)` and `Y² = q(x, z)` are the same
@@ -95,7 +98,7 @@ impl Quartic {
     ///
     /// Example: `[1/4, 0, 0, 0, −17/4]` gives `s = 4` and `16·g =
     /// 4x⁴ − 68z⁴`.
-    pub fn from_rationals(coeffs: &[BigRational; 5]) -> Result<(Quartic, BigInt)> {
+    pub(crate) fn from_rationals(coeffs: &[BigRational; 5]) -> Result<(Quartic, BigInt)> {
         let mut s = BigInt::one();
         for c in coeffs {
             s = s.lcm(c.denom());
@@ -182,14 +185,14 @@ impl Quartic {
     }
 
     /// The invariant `I = 12 c4 c0 − 3 c3 c1 + c2²` [Cremona01, §2] (from memory).
-    pub fn invariant_i(&self) -> BigInt {
+    pub(crate) fn invariant_i(&self) -> BigInt {
         let [a, b, c, d, e] = &self.coeffs;
         BigInt::from(12) * a * e - BigInt::from(3) * b * d + c * c
     }
 
     /// The invariant `J = 72 c4 c2 c0 + 9 c3 c2 c1 − 27 c4 c1² − 27 c0 c3² − 2 c2³`
     /// [Cremona01, §2] (from memory).
-    pub fn invariant_j(&self) -> BigInt {
+    pub(crate) fn invariant_j(&self) -> BigInt {
         let [a, b, c, d, e] = &self.coeffs;
         BigInt::from(72) * a * c * e + BigInt::from(9) * b * c * d
             - BigInt::from(27) * a * d * d

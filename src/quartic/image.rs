@@ -41,11 +41,18 @@ use crate::budget::Budget;
 use crate::curve::ReducedModel;
 use crate::error::{Error, Result};
 use crate::local::kummer::odd_image_members;
-use crate::local::{class_dimension, class_representatives, Place, Prime};
+use crate::local::{class_dimension, class_representatives, Place};
 use num_bigint::BigInt;
-use num_integer::Integer;
-use num_traits::{One, Signed, ToPrimitive, Zero};
+use num_traits::ToPrimitive;
+// Used by `relevant_places`, which only the unit tests call.
+#[cfg(test)]
+use {
+    crate::local::Prime,
+    num_integer::Integer,
+    num_traits::{One, Signed, Zero},
+};
 
+#[cfg(test)]
 /// The places where `C_d` can fail to have points: `R`, `2`, and those of
 /// the caller's primes that divide `d·b·(a² − 4b)` (see the module docs for
 /// why no other place can obstruct). Sorted (`R` first, then primes

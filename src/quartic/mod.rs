@@ -13,7 +13,7 @@
 //!   and `p = 2` by refinement of residue classes (Lemmas P and T, module
 //!   `padic`), large `p` through Weil's bound and root finding over `F_p`
 //!   (module `fp`);
-//! * which places can obstruct ([`relevant_places`]) and the local images
+//! * which places can obstruct (`relevant_places`) and the local images
 //!   `W_v` of the descent map ([`local_image`]);
 //! * a sieved search for rational points (module `search`).
 
@@ -29,12 +29,19 @@ pub(crate) mod search;
 pub(crate) mod solubility;
 
 pub use form::Quartic;
-pub use image::{local_image, relevant_places, ClassEvidence, LocalImage};
-pub use real::real_root_count;
-pub use search::{
-    search, search_all, search_all_quartic, search_quartic, search_report, Congruence,
-    QuarticPoint, SearchOptions, SearchOutcome, SearchReport, MAX_CONGRUENCE_MODULUS, MAX_HEIGHT,
+pub use image::{local_image, ClassEvidence, LocalImage};
+pub use search::{search, QuarticPoint, SearchOptions, SearchOutcome, MAX_HEIGHT};
+pub use solubility::{locally_soluble, LocalPoint, LocalSolubility};
+
+// For the unit tests (src/quartic/tests/): the local tests at one kind
+// of place, the search variants and the congruence sieve.
+#[cfg(test)]
+pub(crate) use {
+    image::relevant_places,
+    real::real_root_count,
+    search::{search_all, search_all_quartic, search_quartic, search_report, Congruence},
+    solubility::{odd_prime_soluble, real_soluble, two_adic_soluble},
 };
-pub use solubility::{
-    locally_soluble, odd_prime_soluble, real_soluble, two_adic_soluble, LocalPoint, LocalSolubility,
-};
+
+#[cfg(test)]
+mod tests;

@@ -174,6 +174,7 @@ fn dehomogenise(q: &Quartic) -> ZPoly {
     ])
 }
 
+#[cfg(test)]
 /// The number of roots of `g` in `P¹(R)`, counted without multiplicity
 /// (for a non-degenerate quartic: with multiplicity, as all are simple).
 ///

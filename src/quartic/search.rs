@@ -78,6 +78,7 @@ use num_traits::{Signed, ToPrimitive, Zero};
 /// `i64` with room to spare.
 pub const MAX_HEIGHT: u64 = 1 << 62;
 
+#[cfg(test)]
 /// The largest modulus a caller [`Congruence`] may have.
 pub const MAX_CONGRUENCE_MODULUS: u64 = 4096;
 
@@ -211,6 +212,7 @@ pub struct Congruence {
 }
 
 impl Congruence {
+    #[cfg(test)]
     /// The condition that `(x mod m, z mod m)` lies in `allowed`.
     ///
     /// # Errors
@@ -241,6 +243,7 @@ impl Congruence {
         })
     }
 
+    #[cfg(test)]
     /// The condition `x mod m ∈ residues`, whatever `z` is.
     ///
     /// Errors as for [`Congruence::new`].
@@ -258,11 +261,6 @@ impl Congruence {
         Self::new(modulus, pairs)
     }
 
-    /// The modulus `m`.
-    pub fn modulus(&self) -> u64 {
-        self.modulus
-    }
-
     /// True iff the pair `(x, z)` satisfies the condition.
     ///
     /// Example: `Congruence::on_x(8, [1, 7])` admits `(−1, 5)` and not `(3, 5)`.
@@ -273,6 +271,7 @@ impl Congruence {
     }
 }
 
+#[cfg(test)]
 fn check_congruence_modulus(modulus: u64) -> Result<()> {
     if modulus == 0 || modulus > MAX_CONGRUENCE_MODULUS {
         return Err(Error::InvalidArgument {
@@ -288,8 +287,9 @@ fn check_congruence_modulus(modulus: u64) -> Result<()> {
 pub struct SearchOptions {
     /// The height bound `H`: pairs with `max(|x|, z) ≤ H` are searched.
     pub height: u64,
-    /// Conditions every reported pair must satisfy (all of them).
-    pub congruences: Vec<Congruence>,
+    /// Conditions every reported pair must satisfy (all of them; the
+    /// congruence sieve is crate-private).
+    pub(crate) congruences: Vec<Congruence>,
 }
 
 impl SearchOptions {
@@ -301,8 +301,9 @@ impl SearchOptions {
         }
     }
 
+    #[cfg(test)]
     /// Adds a congruence condition.
-    pub fn with_congruence(mut self, congruence: Congruence) -> Self {
+    pub(crate) fn with_congruence(mut self, congruence: Congruence) -> Self {
         self.congruences.push(congruence);
         self
     }
@@ -369,6 +370,7 @@ pub fn search(
     }
 }
 
+#[cfg(test)]
 /// Every point of `y² = g(x, z)` among the normalised coprime pairs of
 /// height at most `options.height` that satisfy `options.congruences`, in
 /// search order.
@@ -401,6 +403,7 @@ pub fn search_all(
     }
 }
 
+#[cfg(test)]
 /// Like [`search_all`], but a budget that runs out ends the search with a
 /// partial [`SearchReport`] instead of an error.
 ///
@@ -434,6 +437,7 @@ pub fn search_quartic(
     search(quartic.coeffs(), options, budget)
 }
 
+#[cfg(test)]
 /// [`search_all`] for a [`Quartic`]: every point of height
 /// `≤ options.height`, in search order.
 ///

@@ -180,9 +180,9 @@ impl LocalSolubility {
 /// Decides whether `y² = g(x, z)` has a point over `Q_v` (`v` = `place`),
 /// exactly, with evidence.
 ///
-/// Statement and method: real place by Lemma R ([`real_soluble`]); odd `p`
-/// by Lemma P ([`odd_prime_soluble`]); `p = 2` by Lemma T
-/// ([`two_adic_soluble`]). All three terminate on every non-degenerate
+/// Statement and method: real place by Lemma R (`real_soluble`); odd `p`
+/// by Lemma P (`odd_prime_soluble`); `p = 2` by Lemma T
+/// (`two_adic_soluble`). All three terminate on every non-degenerate
 /// quartic (see the module docs of `padic` for the termination proof).
 ///
 /// # Errors

@@ -172,7 +172,7 @@ impl Default for SecondDescentOptions {
 
 impl SecondDescentOptions {
     /// Defaults with another search height.
-    pub fn with_search_height(mut self, h: u64) -> Self {
+    pub(crate) fn with_search_height(mut self, h: u64) -> Self {
         self.search_height = h;
         self
     }

@@ -230,12 +230,18 @@ fn limits_and_budgets_give_no_value_rather_than_a_guess() {
     let e = Curve::from_ints([0, 0, 1, -7, 6]).unwrap();
     let l = e.tate_data(&mut Budget::unlimited()).unwrap();
     // Conductor above the limit: skipped, nothing computed.
-    let o = AnalyticOptions::default().with_conductor_limit(1000);
+    let o = AnalyticOptions {
+        conductor_limit: 1000,
+        ..Default::default()
+    };
     let d = analyse(&e, &l, &o, &mut Budget::unlimited()).unwrap();
     assert_eq!(d.skipped(), Some(Skip::ConductorAboveLimit));
     assert!(d.l_values().is_empty() && d.analytic_rank().is_none());
     // Five terms: the bounds are huge, so nothing is certified non-zero.
-    let o = AnalyticOptions::default().with_max_terms(5);
+    let o = AnalyticOptions {
+        max_terms: 5,
+        ..Default::default()
+    };
     let d = analyse(&e, &l, &o, &mut Budget::unlimited()).unwrap();
     assert!(d.analytic_rank().is_none() && d.rank_proven().is_none());
     for (_, v) in d.l_values() {
@@ -251,9 +257,18 @@ fn limits_and_budgets_give_no_value_rather_than_a_guess() {
     assert!(matches!(r, Err(Error::BudgetExhausted { .. })));
     // Options out of range.
     for o in [
-        AnalyticOptions::default().with_max_terms(0),
-        AnalyticOptions::default().with_tolerance(0.0),
-        AnalyticOptions::default().with_tolerance(f64::NAN),
+        AnalyticOptions {
+            max_terms: 0,
+            ..Default::default()
+        },
+        AnalyticOptions {
+            tolerance: 0.0,
+            ..Default::default()
+        },
+        AnalyticOptions {
+            tolerance: f64::NAN,
+            ..Default::default()
+        },
     ] {
         let r = analyse(&e, &l, &o, &mut Budget::unlimited());
         assert!(matches!(r, Err(Error::InvalidArgument { .. })));

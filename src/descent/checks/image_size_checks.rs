@@ -56,7 +56,9 @@ fn the_leading_coefficients_of_phi_and_its_dual_are_minus_one_and_minus_two() {
     assert_eq!(ISOGENY_LEADING_COEFFICIENT * DUAL_LEADING_COEFFICIENT, 2);
     let cases = [(0i64, -25i64, (-4i64, 6i64)), (1, 2, (1, 2))];
     for (a, bb, (px, py)) in cases {
-        let iso = TwoIsogeny::new(b(a), b(bb)).unwrap();
+        let iso = ReducedModel::new(b(a), b(bb))
+            .and_then(|m| TwoIsogeny::from_reduced(&m))
+            .unwrap();
         let e = iso.domain().clone();
         let e2 = iso.codomain().clone();
         let p = Point::from_ints(px, py);

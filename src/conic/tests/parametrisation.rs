@@ -3,11 +3,11 @@
 
 #![allow(clippy::needless_range_loop)] // index loops mirror the matrix formulas
 
-use isodescent::conic::{
+use crate::conic::{
     parametrise, parametrise_diagonal, solve_diagonal, solve_ternary, ConicSolution, TernaryForm,
 };
-use isodescent::local::{hilbert_symbol_int, Place, Prime};
-use isodescent::{Budget, Error};
+use crate::local::{hilbert_symbol_int, Place, Prime};
+use crate::{Budget, Error};
 use num_bigint::BigInt;
 use num_integer::Integer;
 use num_rational::BigRational;
@@ -186,7 +186,7 @@ fn locally_soluble_diag(a: &BigInt, b: &BigInt, c: &BigInt) -> bool {
             places.push(Place::Finite(Prime::small(p).unwrap()));
         }
         p += 1;
-        while !isodescent::arith::is_prime_u64(p) {
+        while !crate::arith::is_prime_u64(p) {
             p += 1;
         }
     }
@@ -281,4 +281,14 @@ fn the_parametrisation_of_the_circle_has_small_integer_forms() {
         .iter()
         .flatten()
         .all(|c| c.abs() <= BigInt::one() * 2));
+}
+
+/// The circle x² + y² = z² through (1, 0, 1): the point of parameter
+/// (2 : 1) lies on it (common practice).
+#[test]
+fn the_circle_is_parametrised_through_a_rational_point() {
+    let q = TernaryForm::diagonal(1.into(), 1.into(), (-1).into());
+    let par = parametrise(&q, &[1.into(), 0.into(), 1.into()]).unwrap();
+    let r = par.evaluate(&BigInt::from(2), &BigInt::from(1));
+    assert_eq!(q.evaluate(&r), 0.into());
 }

@@ -1,11 +1,11 @@
 //! Tests of the sieved point search on quartics `y² = g(x, z)`.
 
-use isodescent::quartic::Quartic;
-use isodescent::quartic::{
+use crate::quartic::Quartic;
+use crate::quartic::{
     search, search_all, search_all_quartic, search_quartic, search_report, Congruence,
     QuarticPoint, SearchOptions, SearchOutcome, MAX_HEIGHT,
 };
-use isodescent::{Budget, Error};
+use crate::{Budget, Error};
 use num_bigint::BigInt;
 use num_integer::Integer;
 use num_traits::{Signed, Zero};

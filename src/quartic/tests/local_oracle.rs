@@ -12,9 +12,9 @@
 //! * real: roots of `g(x, 1)` in `f64` by the Durand–Kerner iteration
 //!   [Kerner66], counted as real when their imaginary part is tiny.
 
-use isodescent::local::{Place, Prime};
-use isodescent::quartic::{locally_soluble, real_root_count, LocalSolubility, Quartic};
-use isodescent::Budget;
+use crate::local::{Place, Prime};
+use crate::quartic::{locally_soluble, real_root_count, LocalSolubility, Quartic};
+use crate::Budget;
 use proptest::prelude::*;
 
 /// `Some(true/false)` when the brute-force search decides `C(Q_p) ≠ ∅`

@@ -4,11 +4,11 @@
 //! multiplies back to n and lists primes; n = squarefree_part(n) · m²;
 //! isqrt(n)² ≤ n < (isqrt(n) + 1)².
 
-use isodescent::arith::{
+use crate::arith::{
     factor, factor_u64, is_perfect_square, is_prime, is_prime_u64, is_squarefree, isqrt,
     rational_sqrt_exact, sqrt_exact, squarefree_kernel, squarefree_part, squarefree_part_rational,
 };
-use isodescent::{Budget, Error};
+use crate::{Budget, Error};
 use num_bigint::BigInt;
 use num_rational::BigRational;
 use num_traits::{One, Signed, Zero};

@@ -1,9 +1,9 @@
 //! Local images `W_v` of the 2-isogeny descent and the relevant places.
 
-use isodescent::curve::ReducedModel;
-use isodescent::local::{Place, Prime};
-use isodescent::quartic::{local_image, relevant_places, Quartic};
-use isodescent::{Budget, Error};
+use crate::curve::ReducedModel;
+use crate::local::{Place, Prime};
+use crate::quartic::{local_image, relevant_places, Quartic};
+use crate::{Budget, Error};
 use num_bigint::BigInt;
 
 fn b(n: i64) -> BigInt {
@@ -152,7 +152,7 @@ fn relevant_places_are_r_two_and_the_bad_primes() {
 /// d with `v_p(d)` even is soluble (Hasse–Weil + Hensel, `image` docs).
 #[test]
 fn spaces_are_soluble_at_places_that_cannot_obstruct() {
-    use isodescent::quartic::locally_soluble;
+    use crate::quartic::locally_soluble;
     for (a, bb) in curves().into_iter().step_by(5) {
         let disc = bb * (a * a - 4 * bb);
         for d in [-6i64, -3, -2, -1, 1, 2, 3, 6] {

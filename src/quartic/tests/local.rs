@@ -1,12 +1,12 @@
 //! The quartic form type, real solubility and p-adic solubility: known
 //! values, bad input, evidence re-checks.
 
-use isodescent::local::{Place, Prime};
-use isodescent::quartic::{
+use crate::local::{Place, Prime};
+use crate::quartic::{
     locally_soluble, odd_prime_soluble, real_root_count, real_soluble, two_adic_soluble,
     LocalPoint, LocalSolubility, Quartic,
 };
-use isodescent::{Budget, Error};
+use crate::{Budget, Error};
 use num_bigint::BigInt;
 use num_rational::BigRational;
 

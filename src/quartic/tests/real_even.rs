@@ -3,8 +3,8 @@
 //! root (common practice: a real form of even degree changes sign only at a
 //! real root).
 
-use isodescent::quartic::{real_root_count, real_soluble, Quartic};
-use isodescent::Budget;
+use crate::quartic::{real_root_count, real_soluble, Quartic};
+use crate::Budget;
 use num_bigint::BigInt;
 use proptest::prelude::*;
 
