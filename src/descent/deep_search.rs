@@ -324,8 +324,9 @@ impl DeepSearchOptions {
 
     /// The largest covering height for side `s` (0: E, 1: E′).
     fn side_limit(&self, s: usize) -> u64 {
-        self.side_limits
-            .map_or(self.max_covering_height, |l| l[s].min(self.max_covering_height))
+        self.side_limits.map_or(self.max_covering_height, |l| {
+            l[s].min(self.max_covering_height)
+        })
     }
 
     /// Rounds above the common limit of both sides: run only where the

@@ -212,14 +212,17 @@ fn candidate_steps(
     Ok(out)
 }
 
+/// A quartic of the search with its frame and scale so far, its depth and
+/// the step back to the lattice before it.
+type Node = ([BigInt; 5], Mat2, BigInt, usize, Option<Mat2>);
+
 /// One reduction at `p` by the chains of Lemma M: `Some((g′, T, ν))` with
 /// `g′ = g∘T/ν²` integral and `I(g′) = I(g)/p⁴`, or `None`.
 fn reduce_once(g: &[BigInt; 5], p: &BigInt, budget: &mut Budget) -> Result<Option<Minimised>> {
     let p2 = p * p;
     let p4 = &p2 * &p2;
     // Depth-first: (quartic, frame so far, scale so far, depth, step back).
-    let mut stack: Vec<([BigInt; 5], Mat2, BigInt, usize, Option<Mat2>)> =
-        vec![(g.clone(), identity(), BigInt::one(), 0, None)];
+    let mut stack: Vec<Node> = vec![(g.clone(), identity(), BigInt::one(), 0, None)];
     let mut nodes = 0usize;
     while let Some((h, frame, scale, depth, skip)) = stack.pop() {
         nodes += 1;
@@ -354,13 +357,13 @@ mod tests {
         let qh = Quartic::new(h.clone()).unwrap();
         assert_eq!(qh.invariant_i(), q.invariant_i() * BigInt::from(5).pow(8));
         assert_eq!(qh.invariant_j(), q.invariant_j() * BigInt::from(5).pow(12));
-        let m = minimise(&h, &[p.clone()], &mut Budget::unlimited()).unwrap();
+        let m = minimise(&h, std::slice::from_ref(&p), &mut Budget::unlimited()).unwrap();
         let qm = Quartic::new(m.coeffs.clone()).unwrap();
         assert_eq!(qm.invariant_i(), q.invariant_i());
         assert_eq!(qm.invariant_j(), q.invariant_j());
         let back = substitute(&h, &m.frame);
-        for i in 0..5 {
-            assert_eq!(&m.coeffs[i] * &m.scale * &m.scale, back[i]);
+        for (c, b) in m.coeffs.iter().zip(back.iter()) {
+            assert_eq!(c * &m.scale * &m.scale, *b);
         }
     }
 
@@ -373,24 +376,18 @@ mod tests {
         // model), times (5381⁴, 5381⁶). One reduction at 5381 must give
         // exactly (c₄, 2c₆), i.e. a model of the same curve with minimal
         // invariants at 5381.
-        let g = big([
-            -3697909296,
-            1033969912,
-            4189775744,
-            -542103464,
-            -1189249429,
-        ]);
+        let g = big([-3697909296, 1033969912, 4189775744, -542103464, -1189249429]);
         let q = Quartic::new(g.clone()).unwrap();
         let p = BigInt::from(5381);
         let (c4, c6x2) = (BigInt::from(85888), BigInt::from(50340800));
         assert_eq!(q.invariant_i(), &c4 * p.pow(4));
         assert_eq!(q.invariant_j(), &c6x2 * p.pow(6));
-        let m = minimise(&g, &[p.clone()], &mut Budget::unlimited()).unwrap();
+        let m = minimise(&g, std::slice::from_ref(&p), &mut Budget::unlimited()).unwrap();
         let qm = Quartic::new(m.coeffs.clone()).unwrap();
         assert_eq!((qm.invariant_i(), qm.invariant_j()), (c4, c6x2));
         let back = substitute(&g, &m.frame);
-        for i in 0..5 {
-            assert_eq!(&m.coeffs[i] * &m.scale * &m.scale, back[i]);
+        for (c, b) in m.coeffs.iter().zip(back.iter()) {
+            assert_eq!(c * &m.scale * &m.scale, *b);
         }
         assert!(m.coeffs.iter().all(|c| c.bits() < 64));
     }
