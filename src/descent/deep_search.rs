@@ -175,6 +175,11 @@ impl DeepSearchOptions {
     /// calibration in docs/deep_search.md) is the target, and the rounds
     /// stop at `e^{(ĥ − 3)/8}`, a factor of about 6 above the calibrated
     /// need, clamped to `[first_covering_height, max_covering_height]`.
+    /// When the prediction with `#Ш = 1` is within reach (of
+    /// `reach_covering_height`), the rounds are set per side instead: E′'s
+    /// side to `e^{(ĥ − 3)/8}` or beyond as above, E's own side (where a
+    /// generator lies at about `e^{ĥ/4}`) on to `e^{(ĥ + 1)/4}`, at most
+    /// `own_side_max_height` (docs/deep_search.md, "The curve's own side").
     /// Unchanged options when `bsd_guided` is off or the prediction is not
     /// a positive number. Only the amount of searching changes; what is
     /// found is proven as always.
