@@ -62,6 +62,19 @@
 //! The test `odd_closed_form_agrees_with_the_class_trees` compares the
 //! result with the local solubility tests of the quartic layer on many
 //! thousands of `(a, b, p)` with deep valuations, every case above.
+//!
+//! # Witnesses
+//! [`OddWitnesses::witness`] turns cases 1 and 2 into a point of the
+//! homogeneous space `C_d`: an `x = d·s²` with `s = p^j·t₁/t₂` small and
+//! `x·f(x)` a non-zero square, so the quartic layer needs no class tree
+//! for those classes (case 3, double roots, is left to the tree). Case 2
+//! is made explicit in [`OddWitnesses::near_root`]: Newton's method gives
+//! the root and `√(w_e/d)` modulo `p^{r+1}` (`r ≤ 2`), and rational
+//! reconstruction keeps `t₁, t₂ ≤ p^{3/2}`. The quartic layer re-checks
+//! every such point exactly; the test
+//! `quartic::image_word::tests::direct_witnesses_are_points_of_their_spaces`
+//! checks the construction itself (without that fallback) on thousands of
+//! models.
 
 use crate::arith::word::{inv_mod, isqrt_u128, jacobi_u64, mul_mod, sqrt_mod};
 
@@ -309,13 +322,7 @@ pub(crate) fn odd_image_members(a: i128, b: i128, p: u64) -> Option<u8> {
         if members & level == level {
             continue;
         }
-        let t2 = alpha.map(|(al, au)| (al + k, au));
-        let m = (2 * k).min(beta).min(t2.map_or(i64::MAX, |t| t.0));
-        let g = [
-            if beta == m { bu } else { 0 },
-            t2.filter(|t| t.0 == m).map_or(0, |t| t.1),
-            u64::from(2 * k == m),
-        ];
+        let (m, g) = residue_poly(k, beta, bu, alpha);
         if (k + m).rem_euclid(2) == 0 {
             let (plus, minus) = unit_classes_reached(g, p);
             if plus {
@@ -352,6 +359,341 @@ pub(crate) fn odd_image_members(a: i128, b: i128, p: u64) -> Option<u8> {
         }
     }
     Some(members)
+}
+
+/// At most this many units `t` are tried per valuation by
+/// [`OddWitnesses::witness`] before the caller runs its class tree.
+const DIRECT_TRIES: u64 = 48;
+
+/// `(m, g)` of the module docs at valuation `k`: the least of the
+/// valuations `2k`, `α + k`, `β` of the terms `x²`, `ax`, `b` of `f(p^k w)`,
+/// and the residue polynomial `[g₀, g₁, g₂]` (`g₂w² + g₁w + g₀`) of the
+/// terms of that valuation.
+fn residue_poly(k: i64, beta: i64, bu: u64, alpha: Option<(i64, u64)>) -> (i64, [u64; 3]) {
+    let t2 = alpha.map(|(al, au)| (al + k, au));
+    let m = (2 * k).min(beta).min(t2.map_or(i64::MAX, |t| t.0));
+    let g = [
+        if beta == m { bu } else { 0 },
+        t2.filter(|t| t.0 == m).map_or(0, |t| t.1),
+        u64::from(2 * k == m),
+    ];
+    (m, g)
+}
+
+/// A witness of [`OddWitnesses::witness`].
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub(crate) struct DirectWitness {
+    /// The point `(X, Z)` of `C_d`.
+    pub(crate) point: (i128, i128),
+    /// Residues and roots tried (charged like the class tree's tests).
+    pub(crate) tries: u64,
+    /// Built near a simple root of `g` (case 2), else by case 1.
+    pub(crate) near_root: bool,
+}
+
+/// Most valuations `k` that [`OddWitnesses`] keeps (the range of the
+/// module docs is usually a handful).
+const MAX_LEVELS: usize = 24;
+
+/// What case 1 and case 2 of the module docs say at one valuation `k`.
+#[derive(Debug, Clone, Copy, Default)]
+struct Level {
+    k: i64,
+    m: i64,
+    g: [u64; 3],
+    /// Case 1 reaches units `w` with `(w/p) = +1` / `−1` (both false when
+    /// `k + m` is odd).
+    plus: bool,
+    minus: bool,
+    /// The simple non-zero roots of `g` (none for a double root).
+    roots: [u64; 2],
+    nroots: usize,
+}
+
+/// The valuations and residues of `y² = x³ + ax² + bx` at an odd prime
+/// that [`OddWitnesses::witness`] needs, computed once per local image:
+/// for every valuation `k` of the module docs' range (widened to hold
+/// `v(d) ∈ {0, 1}` of the class representatives), `m`, `g`, the unit
+/// classes case 1 reaches and the simple roots of `g`.
+#[derive(Debug, Clone, Copy)]
+pub(crate) struct OddWitnesses {
+    p: u64,
+    a: i128,
+    b: i128,
+    beta: i64,
+    alpha: Option<(i64, u64)>,
+    levels: [Level; MAX_LEVELS],
+    nlevels: usize,
+}
+
+impl OddWitnesses {
+    /// `None` when `p` is not an odd word below `2^63`, `b = 0`, or the
+    /// range of valuations is unusually long (more than 24).
+    pub(crate) fn new(a: i128, b: i128, p: u64) -> Option<OddWitnesses> {
+        if p < 3 || p % 2 == 0 || p >= 1 << 63 || b == 0 {
+            return None;
+        }
+        let (beta, bu) = split(b, p);
+        let alpha = (a != 0).then(|| split(a, p));
+        let (mut lo, mut hi) = (beta.div_euclid(2), (beta + 1).div_euclid(2));
+        if let Some((al, _)) = alpha {
+            lo = lo.min(al).min(beta - al);
+            hi = hi.max(al).max(beta - al);
+        }
+        let (kl, kh) = (lo.min(0) - 2, hi.max(1) + 2);
+        let n = usize::try_from(kh - kl + 1).ok()?;
+        if n > MAX_LEVELS {
+            return None;
+        }
+        let mut levels = [Level::default(); MAX_LEVELS];
+        for (slot, k) in levels.iter_mut().zip(kl..=kh) {
+            let (m, g) = residue_poly(k, beta, bu, alpha);
+            let (plus, minus) = if (k + m).rem_euclid(2) == 0 {
+                unit_classes_reached(g, p)
+            } else {
+                (false, false)
+            };
+            let (roots, nroots) = match nonzero_roots(g, p, None) {
+                Some(Roots::Simple(rs, n)) => (rs, n),
+                _ => ([0; 2], 0),
+            };
+            *slot = Level {
+                k,
+                m,
+                g,
+                plus,
+                minus,
+                roots,
+                nroots,
+            };
+        }
+        Some(OddWitnesses {
+            p,
+            a,
+            b,
+            beta,
+            alpha,
+            levels,
+            nlevels: n,
+        })
+    }
+
+    /// A point of the homogeneous space `C_d` over `Q_p` built from case 1
+    /// or case 2 of the module docs, without a class tree: `(X, Z)` with
+    /// `X/Z = s = p^j·t` (`t` a unit), such that `x = d·s²` has `x·f(x)` a
+    /// non-zero square in `Q_p`, with the number of residues and roots
+    /// tried. `None` when neither case reaches the class of `d`
+    /// this way (it may still be in `W_p`: case 3), or something leaves
+    /// the words.
+    ///
+    /// Why it is a point: `x = p^k·w` with `k = v(d) + 2j` and
+    /// `w = (d/p^{v(d)})·t²`, so `w̄ = d̄·t̄²`; in case 1 (`t ≤ 48` an
+    /// integer), when `k + m` is even, `g(w̄) ≠ 0` and `w̄·g(w̄)` is a
+    /// non-zero square mod `p`, `x·f(x)` is a non-zero square; case 2 is
+    /// [`OddWitnesses::near_root`]. For the integral model
+    /// `g_d(X, Z) = d·d₁²X⁴ + a·d₁²X²Z² + (b/h)·d₁Z⁴` (`h = gcd(d, b)`,
+    /// `d = d₁h`) of `C_d`, `g_d(X, Z) = d₁²Z⁴·f(x)/d` with `x = d(X/Z)²`
+    /// (expand: `d₁²(dX⁴ + aX²Z² + (b/d)Z⁴)` and `d₁²/d = d₁/h`), and
+    /// `f(x)/d = x·f(x)/(d·s)²`: a non-zero square in `Q_p`. `(X, Z)` is
+    /// `(p^j·t₁, t₂)` for `j ≥ 0` and `(t₁, p^{−j}·t₂)` for `j < 0`
+    /// (`t = t₁/t₂`, both prime to `p`), so `p` does not divide both.
+    /// (Elementary, common practice.) The caller still checks the square
+    /// exactly (`finish` of the quartic layer) and falls back to the class
+    /// tree when the check fails, so the witness never rests on this
+    /// derivation alone.
+    pub(crate) fn witness(&self, d: i128) -> Option<DirectWitness> {
+        let p = self.p;
+        if d == 0 {
+            return None;
+        }
+        let (e, du) = split(d, p);
+        let want_plus = chi(du, p) > 0;
+        let levels = &self.levels[..self.nlevels];
+        let k0 = levels.first()?.k;
+        // Valuations k ≡ v(d) (mod 2), nearest to v(d) first (the smallest
+        // witnesses).
+        let ks = || {
+            (0..=self.nlevels as i64)
+                .flat_map(move |dist| {
+                    [e - 2 * dist, e + 2 * dist]
+                        .into_iter()
+                        .take(1 + usize::from(dist > 0))
+                })
+                .filter_map(move |k| usize::try_from(k - k0).ok().and_then(|i| levels.get(i)))
+        };
+        let limit = ((p - 1) / 2).min(DIRECT_TRIES);
+        let mut tries = 0u64;
+        for lv in ks() {
+            if !(if want_plus { lv.plus } else { lv.minus }) {
+                continue;
+            }
+            for t in 1..=limit {
+                tries += 1;
+                let w = mulp(du, mulp(t, t, p), p);
+                let gw = eval(lv.g, w, p);
+                if gw != 0 && chi(mulp(w, gw, p), p) > 0 {
+                    return self
+                        .point(lv.k - e, (i128::from(t), 1))
+                        .map(|point| DirectWitness {
+                            point,
+                            tries,
+                            near_root: false,
+                        });
+                }
+            }
+        }
+        if p >= 1 << 20 {
+            return None;
+        }
+        for lv in ks() {
+            for &root in &lv.roots[..lv.nroots] {
+                tries += 1;
+                if (chi(root, p) > 0) != want_plus {
+                    continue;
+                }
+                if let Some(st) = self.near_root(d, lv.k, lv.m, lv.g, root) {
+                    return self.point(lv.k - e, st).map(|point| DirectWitness {
+                        point,
+                        tries,
+                        near_root: true,
+                    });
+                }
+            }
+        }
+        None
+    }
+
+    /// `(X, Z)` for `X/Z = p^j·t₁/t₂` (module docs of [`OddWitnesses::witness`]).
+    fn point(&self, two_j: i64, (t1, t2): (i128, i128)) -> Option<(i128, i128)> {
+        let j = two_j / 2;
+        let pj = i128::from(self.p).checked_pow(u32::try_from(j.unsigned_abs()).ok()?)?;
+        Some(if j >= 0 {
+            (pj.checked_mul(t1)?, t2)
+        } else {
+            (t1, pj.checked_mul(t2)?)
+        })
+    }
+
+    /// Case 2 of the module docs, made explicit: a unit `t = t₁/t₂` such
+    /// that `x = d·(p^j t)²` (`k = v(d) + 2j`) has `x·f(x)` a non-zero
+    /// square, near the root `w_e ≡ root` of `F(w) = p^{−m} f(p^k w)`.
+    ///
+    /// With `w = d_u·t²` (`d_u = d/p^{v(d)}`) and `w − w_e = p^r·η`
+    /// (`η` a unit), `F(w) = (w − w_e)·G(w)` with `G(w) ≡ g′(root)
+    /// (mod p)` (Hensel: the root is simple), so `x·f(x) =
+    /// p^{k+m+r}·w·η·G(w)` is a square iff `k + m + r` is even and
+    /// `root·η̄·g′(root)` is a square mod `p`. Take `r ∈ {1, 2}` of the
+    /// right parity, `w_e` and `τ` with `d_u·τ² ≡ w_e` modulo `P = p^{r+1}`
+    /// (Newton's method; `τ̄` exists since `root` and `d_u` have the same
+    /// Legendre symbol), and `t ≡ τ + p^r·z (mod P)`: then `w − w_e ≡
+    /// p^r·2d_u·τ·z (mod P)` (the term `p^{2r}` vanishes as `2r ≥ r + 1`),
+    /// so `z` is chosen with `(2d_u·τ·z/p)` the symbol wanted. Finally
+    /// `t₁/t₂ ≡ t (mod P)` with `|t₁|, t₂ ≤ √P` by rational reconstruction
+    /// (the extended Euclidean algorithm stopped halfway, common
+    /// practice), both prime to `p`, so the witness stays small.
+    fn near_root(&self, d: i128, k: i64, m: i64, g: [u64; 3], root: u64) -> Option<(i128, i128)> {
+        let p = self.p;
+        let r: u32 = if (k + m).rem_euclid(2) == 0 { 2 } else { 1 };
+        let big = p.checked_pow(r + 1)?;
+        let pr = p.pow(r);
+        let pow_or_zero = |e: i64| -> u64 {
+            u32::try_from(e)
+                .ok()
+                .and_then(|e| p.checked_pow(e))
+                .map_or(0, |v| v % big)
+        };
+        // F = F₂w² + F₁w + F₀ modulo P.
+        let f2 = pow_or_zero(2 * k - m);
+        let f1 = match self.alpha {
+            Some((al, _)) => mul_mod(unit_mod(self.a, p, big), pow_or_zero(al + k - m), big),
+            None => 0,
+        };
+        let f0 = mul_mod(unit_mod(self.b, p, big), pow_or_zero(self.beta - m), big);
+        let eval_big = |w: u64| {
+            let t = (mul_mod(f2, w, big) + f1) % big;
+            (mul_mod(t, w, big) + f0) % big
+        };
+        let deriv = |w: u64| (mul_mod(2 * f2 % big, w, big) + f1) % big;
+        // Newton's method from precision p: one step reaches p², two reach
+        // p⁴ ⊇ P; the step at precision p^i needs the inverse only mod p^i.
+        let steps = if r == 1 { 1 } else { 2 };
+        let newton = |x0: u64, val: &dyn Fn(u64) -> u64, der: &dyn Fn(u64) -> u64| {
+            let mut x = x0;
+            let mut inv = inv_mod(der(x) % p, p)?;
+            for step in 0..steps {
+                x = (x + big - mul_mod(val(x), inv, big)) % big;
+                if step + 1 < steps {
+                    // inv ← inv·(2 − der(x)·inv): now exact mod p².
+                    let t = mul_mod(der(x), inv, big);
+                    inv = mul_mod(inv, (2 + big - t) % big, big);
+                }
+            }
+            Some(x)
+        };
+        let we = newton(root, &eval_big, &deriv)?;
+        let du = unit_mod(d, p, big);
+        let q = mul_mod(we, inv_mod(du, big)?, big);
+        let tau0 = sqrt_mod(q % p, p)?;
+        let sq = |x: u64| (mul_mod(x, x, big) + big - q) % big;
+        let twice = |x: u64| mul_mod(2, x, big);
+        let tau = newton(tau0, &sq, &twice)?;
+        if tau % p == 0 || eval_big(we) != 0 || sq(tau) != 0 {
+            return None;
+        }
+        // The symbol wanted for η̄: that of root·g′(root).
+        let [_, g1, g2] = g;
+        let gd = (mulp(2 * g2 % p, root, p) + g1) % p;
+        let want = chi(mulp(root, gd, p), p);
+        let base = mulp(mulp(2, du % p, p), tau % p, p);
+        let mut z = 1u64;
+        while chi(mulp(base, z, p), p) != want {
+            z += 1;
+            if z >= p {
+                return None;
+            }
+        }
+        let t = (tau + mul_mod(pr, z, big)) % big;
+        reconstruct(t, big, p)
+    }
+}
+
+/// `x/p^{v(x)} mod m` for `x ≠ 0` (`p | m`, so the result is a unit mod
+/// `p`).
+fn unit_mod(mut x: i128, p: u64, m: u64) -> u64 {
+    if let Ok(small) = i64::try_from(x) {
+        // The common case in u64 division.
+        let mut mag = small.unsigned_abs();
+        while mag != 0 && mag % p == 0 {
+            mag /= p;
+        }
+        let r = mag % m;
+        return if small < 0 && r != 0 { m - r } else { r };
+    }
+    let q = i128::from(p);
+    while x != 0 && x % q == 0 {
+        x /= q;
+    }
+    x.rem_euclid(i128::from(m)) as u64
+}
+
+/// `(t₁, t₂)` with `t₁ ≡ t·t₂ (mod m)`, `0 < t₂`, `|t₁|, t₂ ≤ √m`, both
+/// prime to `p`: the extended Euclidean algorithm on `(m, t)` stopped at
+/// the first remainder below `√m` (rational reconstruction, common
+/// practice); `None` when that fraction has `p` in it.
+fn reconstruct(t: u64, m: u64, p: u64) -> Option<(i128, i128)> {
+    // m < 2^63: remainders and cofactors stay below m in absolute value.
+    let m = i64::try_from(m).ok()?;
+    let bound = isqrt_u128(m as u128) as i64;
+    let (mut r0, mut r1) = (m, i64::try_from(t).ok()?);
+    let (mut s0, mut s1) = (0i64, 1i64);
+    while r1 > bound {
+        let q = r0 / r1;
+        (r0, r1) = (r1, r0 - q * r1);
+        (s0, s1) = (s1, s0 - q * s1);
+    }
+    let (t1, t2) = if s1 < 0 { (-r1, -s1) } else { (r1, s1) };
+    let q = i64::try_from(p).ok()?;
+    (t2 != 0 && t1 % q != 0 && t2 % q != 0).then_some((i128::from(t1), i128::from(t2)))
 }
 
 #[cfg(test)]

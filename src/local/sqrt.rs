@@ -8,7 +8,7 @@
 
 use num_bigint::BigInt;
 use num_integer::Integer;
-use num_traits::{One, Zero};
+use num_traits::{One, ToPrimitive, Zero};
 
 use super::place::Prime;
 use super::symbols::jacobi;
@@ -112,21 +112,73 @@ fn sqrt_mod_prime_power_big(a: &BigInt, p: &Prime, k: u32) -> Option<BigInt> {
     let y = if p.is_two() {
         sqrt_unit_mod_two_power(&u, m)?
     } else {
-        let mut y = sqrt_mod_prime(&u, p)?;
-        // Hensel: y ← y − (y² − u)·(2y)^{-1} mod p^m, one digit at a time is
-        // enough here and keeps the code obviously right.
-        let mut j = 1u32;
-        while j < m {
-            j = (2 * j).min(m);
-            let pj = p.get().pow(j);
-            let inv = mod_inverse(&((&y * 2u32) % &pj), &pj)?;
-            let corr = ((&y * &y - &u) * inv).mod_floor(&pj);
-            y = (&y - corr).mod_floor(&pj);
-        }
-        y
+        let y0 = sqrt_mod_prime(&u, p)?;
+        lift_unit_root(&u, y0, p, m)?
     };
     let x = (y * p.get().pow((v / 2) as u32)).mod_floor(&pk);
     Some(x)
+}
+
+/// The root `y ∈ [0, p^m)` of `y² ≡ u (mod p^m)` with `y ≡ y₀ (mod p)`,
+/// for odd `p`, `u` a unit and `y₀² ≡ u (mod p)`, `y₀ ≢ 0`. The root is
+/// unique (Hensel's lemma: `2y₀` is a unit), so any correct lift returns
+/// this very number. Newton–Hensel doubling [Cohen93, §1.5]
+/// `y ← y − (y² − u)·w` with `w ≡ (2y)⁻¹` kept by `w ← w(2 − 2y·w)` (no
+/// inversion per step): in `u128` words when `p^⌈m/2⌉ < 2^63` and
+/// `p^m < 2^127` ([`lift_unit_root_words`]), else in `BigInt`.
+fn lift_unit_root(u: &BigInt, y0: BigInt, p: &Prime, m: u32) -> Option<BigInt> {
+    if let (Some(pw), Some(y0w)) = (p.to_u64(), y0.to_u64()) {
+        if let Some(y) = lift_unit_root_words(u, y0w, pw, m) {
+            return Some(BigInt::from(y));
+        }
+    }
+    let pb = p.get();
+    let mut y = y0;
+    let mut w = mod_inverse(&((&y * 2u32) % pb), pb)?;
+    let mut j = 1u32;
+    while j < m {
+        j = (2 * j).min(m);
+        let pj = pb.pow(j);
+        y = (&y - (&y * &y - u) * &w).mod_floor(&pj);
+        w = (&w * (BigInt::from(2) - BigInt::from(2) * &y * &w)).mod_floor(&pj);
+    }
+    Some(y.mod_floor(&pb.pow(m)))
+}
+
+/// [`lift_unit_root`] in words; `None` when `p^⌈m/2⌉ ≥ 2^63` or
+/// `p^m ≥ 2^127`. Doubling modulo `P = p^⌈m/2⌉` (all products below
+/// `2^126`), then one step to `p^m`: with `y₁` the root modulo `P`,
+/// `(y₁ + P·t)² ≡ y₁² + 2y₁·P·t (mod p^m)` because `P² ≡ 0`, so
+/// `t ≡ ((u − y₁²)/P)·w (mod p^(m − ⌈m/2⌉))`.
+fn lift_unit_root_words(u: &BigInt, y0: u64, p: u64, m: u32) -> Option<u128> {
+    let k1 = m.div_ceil(2);
+    let m1 = p.checked_pow(k1).filter(|&v| v < 1 << 63)?;
+    let full = u128::from(p).checked_pow(m).filter(|&v| v < 1 << 127)?;
+    let u_full = match u.to_i128() {
+        Some(x) => x.rem_euclid(i128::try_from(full).ok()?) as u128,
+        None => u.mod_floor(&BigInt::from(full)).to_u128()?,
+    };
+    let mm = u128::from(m1);
+    let um = u_full % mm;
+    let (mut y, mut w) = (u128::from(y0), u128::from(inv_mod(mul_mod(2, y0, p), p)?));
+    let mut j = 1u32;
+    while j < k1 {
+        j = (2 * j).min(k1);
+        let mj = u128::from(p.pow(j));
+        let e = (y * y + mm * mm - um) % mj;
+        y = (y + mj - e * w % mj) % mj;
+        let t = 2 * y % mj * w % mj;
+        w = w * ((2 + mj - t) % mj) % mj;
+    }
+    if k1 == m {
+        return Some(y % mm);
+    }
+    // w ≡ (2y₁)⁻¹ mod p^k1, and p^(m − k1) | p^k1.
+    let m2 = u128::from(p.pow(m - k1));
+    let e = (u_full + full - y * y % full) % full;
+    debug_assert_eq!(e % mm, 0);
+    let t = (e / mm) % m2 * (w % m2) % m2;
+    Some(y + mm * t)
 }
 
 // ---------------------------------------------------------------------
@@ -324,6 +376,65 @@ mod tests {
             BigInt::zero()
         );
         assert!(compared > 2000);
+    }
+
+    /// The Hensel steps of the first version of this module, one inverse
+    /// per step (kept as the reference for the lifts above).
+    fn lift_by_inverses(u: &BigInt, y0: BigInt, p: &Prime, m: u32) -> Option<BigInt> {
+        let mut y = y0;
+        let mut j = 1u32;
+        while j < m {
+            j = (2 * j).min(m);
+            let pj = p.get().pow(j);
+            let inv = mod_inverse(&((&y * 2u32) % &pj), &pj)?;
+            let corr = ((&y * &y - u) * inv).mod_floor(&pj);
+            y = (&y - corr).mod_floor(&pj);
+        }
+        Some(y)
+    }
+
+    /// The lifts with a kept inverse (in words and in `BigInt`) give the
+    /// same roots as the lifts with one inversion per step, for `p^m` on
+    /// both sides of 2^127 and `p^⌈m/2⌉` on both sides of 2^63, and the
+    /// roots square to `u`.
+    #[test]
+    fn kept_inverse_lifts_are_the_inverse_per_step_lifts() {
+        let mut x = 0x2545_f491_4f6c_dd1du64;
+        let mut next = || {
+            x ^= x << 13;
+            x ^= x >> 7;
+            x ^= x << 17;
+            x
+        };
+        let mut compared = 0;
+        // 2^61 − 1 and 2^64 − 59 are prime (sympy 1.14 isprime).
+        for (p, ms) in [
+            (3u64, &[1u32, 2, 5, 40, 79, 80, 81, 120][..]),
+            (7, &[3, 22, 45, 46, 60]),
+            (19_997, &[2, 5, 8, 9, 10, 14]),
+            (1_000_003, &[2, 3, 6, 7, 9]),
+            ((1 << 61) - 1, &[1, 2, 3]),
+            (18_446_744_073_709_551_557, &[1, 2, 3]),
+        ] {
+            let pr = Prime::small(p).unwrap();
+            for &m in ms {
+                let pm = BigInt::from(p).pow(m);
+                for _ in 0..40 {
+                    let r = BigInt::from(next()) * BigInt::from(next()) * BigInt::from(next());
+                    let u = (&r * &r).mod_floor(&pm);
+                    if (&u % p).is_zero() {
+                        continue;
+                    }
+                    let y0 = sqrt_mod_prime(&u, &pr).unwrap();
+                    let want = lift_by_inverses(&u, y0.clone(), &pr, m).unwrap();
+                    let got = lift_unit_root(&u, y0, &pr, m).unwrap();
+                    assert_eq!(got, want, "{u} mod {p}^{m}");
+                    assert!((&got * &got - &u).mod_floor(&pm).is_zero());
+                    compared += 1;
+                }
+            }
+        }
+        assert!(compared > 800, "{compared}");
     }
 
     #[test]

@@ -35,19 +35,21 @@
 
 use super::form::Quartic;
 use super::image_word;
-use super::solubility::{locally_soluble, LocalSolubility};
+use super::solubility::{
+    finish_word_coeffs, locally_soluble, padic_sqrt_of, LocalPoint, LocalSolubility,
+};
+use super::{fp, padic};
 use crate::arith::word::word_paths_enabled;
 use crate::budget::Budget;
 use crate::curve::ReducedModel;
 use crate::error::{Error, Result};
-use crate::local::kummer::odd_image_members;
-use crate::local::{class_dimension, class_representatives, Place};
+use crate::local::kummer::{odd_image_members, DirectWitness, OddWitnesses};
+use crate::local::{class_dimension, class_representatives, Place, Prime};
 use num_bigint::BigInt;
 use num_traits::ToPrimitive;
 // Used by `relevant_places`, which only the unit tests call.
 #[cfg(test)]
 use {
-    crate::local::Prime,
     num_integer::Integer,
     num_traits::{One, Signed, Zero},
 };
@@ -182,7 +184,13 @@ fn f2_basis(masks: &[u8]) -> Vec<u8> {
 /// Cost: at most 2, 4 or 8 local solubility tests (a class is skipped
 /// when the subgroup property already rules it out, see
 /// `local_image_with`); under the word paths they run on the
-/// coefficients of `C_d` in machine words (module `image_word`).
+/// coefficients of `C_d` in machine words (module `image_word`). At an
+/// odd prime the witness of a class is first built from the closed form
+/// of `crate::local::kummer` (`OddWitnesses::witness`: a point with
+/// `x = d·s²` for a small `s`, checked exactly), and the class tree runs
+/// only for the classes that construction does not reach; the witness is
+/// then a point of `C_d` of the same kind ([`LocalPoint`], re-checked by
+/// [`LocalPoint::verify`]), not necessarily the one the tree would find.
 ///
 /// Example: for `y² = x³ − x` (`a = 0, b = −1`) at `R`: `C_{−1}` is
 /// `N² = −M⁴ + e⁴`, soluble, so `W_R = {1, −1}`, masks `[0, 1]`.
@@ -227,6 +235,14 @@ pub(crate) fn local_image_with(
     } else {
         None
     };
+    // a and b in words for the witnesses of `OddWitnesses` (with or
+    // without the word paths, so that both give the same evidence).
+    let odd_witnesses = match (place, a.to_i128().zip(b.to_i128())) {
+        (Place::Finite(p), Some((aw, bw))) if !p.is_two() => {
+            p.to_u64().and_then(|pw| OddWitnesses::new(aw, bw, pw))
+        }
+        _ => None,
+    };
     // At an odd prime, the closed form of `crate::local::kummer` names the
     // members; the classes outside are reported insoluble without a test
     // (the members are still tested, for their witnesses).
@@ -256,12 +272,24 @@ pub(crate) fn local_image_with(
             });
             continue;
         }
-        let fast = words
-            .and_then(|w| w.coeffs(&d))
-            .and_then(|c| image_word::soluble_words(&c, place, budget));
-        let solubility = match fast {
-            Some(s) => s?,
-            None => {
+        // At an odd prime, a witness from the closed form first (no class
+        // tree); the class tree when it finds none.
+        let direct = odd_witnesses.and_then(|o| o.witness(d.to_i128()?));
+        let direct = match (place, direct) {
+            (Place::Finite(p), Some(w)) => direct_point(words, &d, model, p, w, budget)?,
+            _ => None,
+        };
+        let fast = if direct.is_some() {
+            None
+        } else {
+            words
+                .and_then(|w| w.coeffs(&d))
+                .and_then(|c| image_word::soluble_words(&c, place, budget))
+        };
+        let solubility = match (direct, fast) {
+            (Some(s), _) => s,
+            (None, Some(s)) => s?,
+            (None, None) => {
                 // Building the quartic is not charged (O(1) products), but
                 // on huge models it is slow: read the clock first.
                 budget
@@ -294,4 +322,41 @@ pub(crate) fn local_image_with(
         basis,
         evidence,
     })
+}
+
+/// The evidence for a witness `(X, Z)` of `C_d` at the odd prime `p` from
+/// `OddWitnesses::witness` (`tries` residues tried, charged to the budget like
+/// the class tree's tests): `y` as `solubility::finish` computes it (in
+/// words when the coefficients of `C_d` allow, else in `BigInt`, the same
+/// root either way), after an exact check that `g(X, Z)` is a non-zero
+/// square in `Q_p`. `None` when the check fails; the caller then runs
+/// the class tree.
+fn direct_point(
+    words: Option<image_word::SpaceWords>,
+    d: &BigInt,
+    model: &ReducedModel,
+    p: &Prime,
+    w: DirectWitness,
+    budget: &mut Budget,
+) -> Result<Option<LocalSolubility>> {
+    let (xw, zw) = w.point;
+    fp::charge(budget, w.tries, padic::ODD_STAGE)?;
+    let place = Place::Finite(p.clone());
+    let (x, z) = (BigInt::from(xw), BigInt::from(zw));
+    if let Some(c) = words.and_then(|w| w.coeffs(d)) {
+        if let Some((y, precision)) = finish_word_coeffs(&c, p, &x, &z) {
+            return Ok(Some(LocalSolubility::Soluble(LocalPoint::new(
+                place, x, z, y, precision,
+            ))));
+        }
+    }
+    let q = Quartic::two_isogeny_space(d, model.a(), model.b())?;
+    let g = q.eval(&x, &z);
+    if !padic::is_padic_square(&g, p) {
+        return Ok(None);
+    }
+    let (y, precision) = padic_sqrt_of(&g, p, &x, &z)?;
+    Ok(Some(LocalSolubility::Soluble(LocalPoint::new(
+        place, x, z, y, precision,
+    ))))
 }

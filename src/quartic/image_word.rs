@@ -501,6 +501,81 @@ mod tests {
         }
     }
 
+    /// The witnesses of `crate::local::kummer::OddWitnesses::witness` (case 1 of
+    /// its module docs, no class tree) are points: `g(X, Z)` is a non-zero
+    /// square in `Q_p` (`padic::is_padic_square`, Euler's criterion) with
+    /// `p ∤ gcd(X, Z)`, on the quartic of `Quartic::two_isogeny_space`,
+    /// and their classes lie in the closed-form image. Models
+    /// `(s·p^i, t·p^j)` with deep valuations at eleven odd primes, every
+    /// class representative; the route must find a witness for most
+    /// classes of even valuation (it is not a stub).
+    #[test]
+    fn direct_witnesses_are_points_of_their_spaces() {
+        use crate::local::kummer::{odd_image_members, OddWitnesses};
+        use crate::quartic::padic::is_padic_square;
+        let mut seed = 0x9e37_79b9_7f4a_7c15u64;
+        let mut next = move |m: i64| {
+            seed ^= seed << 13;
+            seed ^= seed >> 7;
+            seed ^= seed << 17;
+            (seed % (2 * m as u64 + 1)) as i64 - m
+        };
+        let (mut found, mut tried, mut near_root) = (0, 0, 0);
+        for p in [3i64, 5, 7, 11, 13, 17, 19, 61, 101, 257, 1009] {
+            let prime = Prime::new(BigInt::from(p)).unwrap();
+            let place = Place::Finite(prime.clone());
+            let reps = class_representatives(&place);
+            for i in 0..5u32 {
+                for j in 0..7u32 {
+                    for _ in 0..12 {
+                        let (s, t) = (next(60), next(60));
+                        let a = if i == 4 {
+                            0
+                        } else {
+                            i128::from(s) * i128::from(p).pow(i)
+                        };
+                        let b = i128::from(t) * i128::from(p).pow(j);
+                        let Ok(_) = ReducedModel::new(BigInt::from(a), BigInt::from(b)) else {
+                            continue;
+                        };
+                        let members = odd_image_members(a, b, p as u64).unwrap();
+                        for (mask, d) in reps.iter().enumerate() {
+                            let dw = d.to_i128().unwrap();
+                            tried += 1;
+                            let Some(w) = OddWitnesses::new(a, b, p as u64).unwrap().witness(dw)
+                            else {
+                                continue;
+                            };
+                            let (x, z) = w.point;
+                            found += 1;
+                            near_root += usize::from(w.near_root);
+                            assert!(w.tries >= 1);
+                            let q =
+                                Quartic::two_isogeny_space(d, &BigInt::from(a), &BigInt::from(b))
+                                    .unwrap();
+                            let g = q.eval(&BigInt::from(x), &BigInt::from(z));
+                            assert!(
+                                is_padic_square(&g, &prime)
+                                    && (x % i128::from(p) != 0 || z % i128::from(p) != 0),
+                                "a = {a}, b = {b}, p = {p}, d = {d}: ({x}, {z}) gives {g}"
+                            );
+                            assert!(
+                                members >> mask & 1 == 1,
+                                "a = {a}, b = {b}, p = {p}, d = {d}"
+                            );
+                        }
+                    }
+                }
+            }
+        }
+        eprintln!("direct witnesses: {found} of {tried}, {near_root} near a root");
+        assert!(found * 4 > tried, "{found} of {tried}");
+        assert!(
+            near_root > 500 && found - near_root > 500,
+            "{near_root} of {found}"
+        );
+    }
+
     #[test]
     fn integer_square_roots_are_floors() {
         for n in (0u128..2000).chain([u128::MAX, u128::MAX - 1, 1 << 126, (1 << 64) - 1]) {
