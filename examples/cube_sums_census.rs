@@ -3,17 +3,46 @@
 //! L-value), the distribution of the upper bounds, and the time taken.
 //!
 //!     cargo run --release --example cube_sums_census -- 2 2000
+//!
+//! With `LIST_UNPROVEN=1` the settled curves of positive rank with
+//! rank-many points but no proven generators are listed on stderr, with
+//! the state of their saturation.
 
 use std::collections::BTreeMap;
 use std::time::Instant;
 
-use isodescent::descent3::{descend_3isogeny, Isogeny3Options, Rank3Proof};
+use isodescent::descent3::{descend_3isogeny, Isogeny3Options, Isogeny3Report, Rank3Proof};
 use isodescent::Curve;
 
 fn cube_free(n: i64) -> bool {
     (2..)
         .take_while(|d| d * d * d <= n)
         .all(|d| n % (d * d * d) != 0)
+}
+
+/// Why a settled curve of positive rank with rank-many points has no
+/// proven generators (printed with `LIST_UNPROVEN=1`).
+fn unproven_reason(r: &Isogeny3Report) -> String {
+    let points = r.points.iter().filter(|p| !p.is_infinity()).count();
+    let head = format!(
+        "{} points, {} independent, torsion {}, cut {:?}",
+        points,
+        r.independent_points.len(),
+        r.torsion.order(),
+        r.cut
+    );
+    match &r.saturation {
+        None => format!("{head}; no saturation"),
+        Some(s) => format!(
+            "{head}; index bound {:?} ({:?}), beyond max prime {}, checked {:?}, unresolved {:?}, 3 by descent {}",
+            s.index_bound,
+            s.height_lower_bound_source,
+            s.beyond_max_prime,
+            s.primes_checked,
+            s.unresolved,
+            r.three_saturated_by_descent
+        ),
+    }
 }
 
 fn main() {
@@ -26,6 +55,7 @@ fn main() {
         args.get(1).copied().unwrap_or(1000),
     );
     let opts = Isogeny3Options::default();
+    let list_unproven = std::env::var_os("LIST_UNPROVEN").is_some();
     let start = Instant::now();
     let (mut total, mut by_descent, mut by_analytic, mut open, mut errors) = (0, 0, 0, 0, 0);
     let mut uppers: BTreeMap<usize, usize> = BTreeMap::new();
@@ -57,6 +87,8 @@ fn main() {
                             with_points += 1;
                             if r.points_generate() {
                                 proven_generators += 1;
+                            } else if list_unproven {
+                                eprintln!("n = {n}: no proven generators: {}", unproven_reason(&r));
                             }
                         }
                     }

@@ -222,3 +222,81 @@ fn general_cubics_against_brute_force() {
 fn the_zero_form_is_refused() {
     assert!(PlaneCubic::new(Default::default()).is_err());
 }
+
+/// ∂C/∂u, ∂C/∂v, ∂C/∂w at x, from the coefficients.
+fn gradient(cubic: &PlaneCubic, x: &[BigInt; 3]) -> [BigInt; 3] {
+    let mut g = [BigInt::zero(), BigInt::zero(), BigInt::zero()];
+    for (c, &(i, j, k)) in cubic
+        .coefficients()
+        .iter()
+        .zip(PLANE_CUBIC_MONOMIALS.iter())
+    {
+        let e = [i, j, k];
+        for (var, gv) in g.iter_mut().enumerate() {
+            if e[var] == 0 {
+                continue;
+            }
+            let mut term = c * BigInt::from(e[var]);
+            for (o, &eo) in e.iter().enumerate() {
+                term *= x[o].pow(if o == var { eo - 1 } else { eo });
+            }
+            *gv += term;
+        }
+    }
+    g
+}
+
+// The checks of fuzz/fuzz_targets/plane_cubic_local.rs as a proptest: ten
+// small coefficients, a prime below 50, a small budget. No panic; only a
+// budget error; a witness re-checks and is primitive; an insoluble verdict
+// leaves no point mod p with a nonzero gradient (such a point lifts to
+// Z_p by Hensel's lemma; common practice).
+mod sweep {
+    use super::*;
+    use proptest::prelude::*;
+
+    proptest! {
+        #![proptest_config(ProptestConfig { cases: 200, ..ProptestConfig::default() })]
+        #[test]
+        fn verdicts_and_witnesses_hold(
+            c in proptest::collection::vec(-128i64..128, 10),
+            p in proptest::sample::select(vec![2u64, 3, 5, 7, 11, 13, 17, 19, 23, 29, 31, 37, 41, 43, 47]),
+        ) {
+            let c: [BigInt; 10] = std::array::from_fn(|i| BigInt::from(c[i]));
+            let Ok(cubic) = PlaneCubic::new(c) else {
+                return Ok(());
+            };
+            let pb = BigInt::from(p);
+            let prime = Prime::new(pb.clone()).unwrap();
+            let out = std::panic::catch_unwind(|| {
+                cubic.soluble_at(&prime, &mut Budget::with_units(200_000))
+            });
+            prop_assert!(out.is_ok(), "panic on {:?} at {}", cubic, p);
+            match out.unwrap() {
+                Ok(Some(w)) => {
+                    prop_assert!(w.verify(&cubic, &pb));
+                    prop_assert!(w.point.iter().any(|x| !(x % &pb).is_zero()));
+                }
+                Ok(None) => {
+                    let r = |x: &BigInt| (x % &pb).is_zero();
+                    for u in 0..p {
+                        for v in 0..p {
+                            for w in 0..p {
+                                let x = [BigInt::from(u), BigInt::from(v), BigInt::from(w)];
+                                if (u, v, w) == (0, 0, 0) || !r(&cubic.eval(&x)) {
+                                    continue;
+                                }
+                                prop_assert!(
+                                    gradient(&cubic, &x).iter().all(r),
+                                    "a smooth point mod {} lifts: {:?} on {:?}", p, x, cubic
+                                );
+                            }
+                        }
+                    }
+                }
+                Err(Error::BudgetExhausted { .. }) => {}
+                Err(other) => prop_assert!(false, "{} on {:?}", other, cubic),
+            }
+        }
+    }
+}

@@ -236,3 +236,75 @@ fn saturated_generators_and_a_model_free_regulator() {
     );
     assert!(reg.value() > 0.1, "{}", reg.value());
 }
+
+// The checks of fuzz/fuzz_targets/descend_3isogeny_general.rs as a
+// proptest: y² = x³ + D(αx + β)² with D, α ≠ 0, on the model given or
+// moved by a change of model. No panic; only budget errors (these curves
+// have a rational 3-isogeny); the points lie on the curve; the report
+// re-checks (common practice).
+mod sweep {
+    use super::*;
+    use proptest::prelude::*;
+
+    proptest! {
+        #![proptest_config(ProptestConfig { cases: 24, ..ProptestConfig::default() })]
+        #[test]
+        fn no_panic_and_reports_recheck(
+            d in -10i64..11, alpha in -4i64..5, beta in -6i64..7,
+            moved in any::<bool>(), u in 1i64..6, r in -30i64..30, s in -5i64..5, t in -30i64..30,
+        ) {
+            if d == 0 || alpha == 0 {
+                return Ok(());
+            }
+            let Some(base) = flex(d, alpha, beta) else {
+                return Ok(());
+            };
+            let curve = if moved {
+                ModelChange::new(q(u), q(r), q(s), q(t)).unwrap().apply_to_curve(&base)
+            } else {
+                base
+            };
+            let mut opts = Isogeny3Options::default();
+            opts.analytic = None;
+            opts.local_units = 2_000_000;
+            opts.search_units = 200_000;
+            opts.factor_units = 2_000_000;
+            let out = std::panic::catch_unwind(|| descend_3isogeny_general(&curve, &opts));
+            prop_assert!(out.is_ok(), "panic on {}", curve);
+            match out.unwrap() {
+                Ok(rep) => {
+                    prop_assert!(rep.rank_lower <= rep.rank_upper);
+                    for p in &rep.points {
+                        prop_assert!(curve.contains(p));
+                    }
+                    prop_assert!(rep.recheck().is_ok());
+                }
+                Err(Error::BudgetExhausted { .. }) | Err(Error::FactorBudgetExhausted { .. }) => {}
+                Err(other) => prop_assert!(false, "{} on {}", other, curve),
+            }
+        }
+    }
+}
+
+// The clock holds on both 3-isogeny paths: with a deadline that has
+// passed when the descent starts, the answer is a typed budget error or
+// a report that names the steps the clock cut (common practice: the
+// contract of `Isogeny3Options::time_limit`).
+#[test]
+fn a_passed_deadline_stops_both_descents() {
+    let mut o = Isogeny3Options::default();
+    o.time_limit = Some(std::time::Duration::ZERO);
+    // y² = x³ + 17 (α = 0, rank 2) and y² = x³ − 7(4x + 3)² (α ≠ 0).
+    let e: Curve = "0 0 0 0 17".parse().unwrap();
+    match descend_3isogeny(&e, &o) {
+        Ok(r) => assert!(!r.cut.is_empty(), "{r}"),
+        Err(Error::BudgetExhausted { .. }) | Err(Error::FactorBudgetExhausted { .. }) => {}
+        Err(other) => panic!("{other}"),
+    }
+    let e = flex(-7, 4, 3).unwrap();
+    match descend_3isogeny_general(&e, &o) {
+        Ok(r) => assert!(!r.cut.is_empty(), "{:?}", r.cut),
+        Err(Error::BudgetExhausted { .. }) | Err(Error::FactorBudgetExhausted { .. }) => {}
+        Err(other) => panic!("{other}"),
+    }
+}

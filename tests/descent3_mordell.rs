@@ -201,6 +201,23 @@ fn families_of_the_descent_via_3_isogeny() {
         tally.add(&rec);
     }
     assert_eq!(tally.selmer3_pairs.values().sum::<u64>(), 40 - 4);
+    // The summary lists the sums dim Sel^φ + dim Sel^φ̂ (the plot's
+    // histogram), one row per sum, the counts adding up to those lines.
+    let text = tally.to_string();
+    let rows: Vec<(u64, u64)> = text
+        .lines()
+        .skip_while(|l| !l.starts_with("3-isogeny Selmer sum"))
+        .skip(1)
+        .map_while(|l| {
+            let w: Vec<&str> = l.split_whitespace().collect();
+            Some((w.first()?.parse().ok()?, w.get(1)?.parse().ok()?))
+        })
+        .collect();
+    let mut expected = std::collections::BTreeMap::new();
+    for (&(a, b), &n) in &tally.selmer3_pairs {
+        *expected.entry(a + b).or_insert(0u64) += n;
+    }
+    assert_eq!(rows, expected.into_iter().collect::<Vec<_>>(), "{text}");
 }
 
 // The dispatch re-checks either kind of report.
@@ -276,4 +293,47 @@ fn generators_are_proven_by_saturation() {
     let s = r.saturation.as_ref().expect("saturation ran");
     assert_eq!(s.unresolved, vec![3], "{r}");
     assert!(r.three_saturated_by_descent && r.points_generate(), "{r}");
+}
+
+// Saturation on j = 0 at primes p ≡ 2 (mod 3) above 70 (module docs of
+// `height::saturate`, "Curves with j = 0"): the useful auxiliary primes
+// are q ≡ −1 (mod 3p), where #E(F_q) = q + 1. Before, the scan over all q
+// stopped after 400 primes with too few rows, and these curves of the
+// censuses (docs/performance.md, issue 26, fourth part) had no proven
+// generators: x³ + y³ = 1798 (rank 3, index bound 377, p = 71, 83, …, 181
+// open) and y² = x³ + 9052 (rank 4, p = 59 and 61 open).
+#[test]
+fn generators_where_the_index_bound_passes_large_inert_primes() {
+    let o = Isogeny3Options::default();
+    let r = run(&mordell(-432 * 1798 * 1798), &o);
+    assert_eq!(r.rank.map(|x| x.0), Some(3), "{r}");
+    let s = r.saturation.as_ref().expect("saturation ran");
+    assert!(s.index_bound.is_some_and(|b| b > 181), "{s:?}");
+    for p in [71, 83, 89, 101, 179, 181] {
+        assert!(s.primes_checked.contains(&p), "{p}: {s:?}");
+    }
+    assert!(s.unresolved.iter().all(|&p| p == 3), "{s:?}");
+    assert!(r.points_generate(), "{r}");
+    r.recheck().unwrap();
+
+    // x³ + y³ = 3526: rank 3, index bound 428 above the old limit 200 of
+    // the primes examined (now 1000 for the descent via 3-isogeny).
+    let r = run(&mordell(-432 * 3526 * 3526), &o);
+    assert_eq!(r.rank.map(|x| x.0), Some(3), "{r}");
+    let s = r.saturation.as_ref().expect("saturation ran");
+    assert!(
+        s.index_bound.is_some_and(|b| b > 400) && !s.beyond_max_prime,
+        "{s:?}"
+    );
+    assert!(r.points_generate(), "{r}");
+
+    let r = run(&mordell(9052), &o);
+    assert_eq!(r.rank.map(|x| x.0), Some(4), "{r}");
+    let s = r.saturation.as_ref().expect("saturation ran");
+    assert!(
+        s.primes_checked.contains(&59) && s.primes_checked.contains(&61),
+        "{s:?}"
+    );
+    assert!(r.points_generate(), "{r}");
+    r.recheck().unwrap();
 }

@@ -129,6 +129,9 @@ pub struct Isogeny3Options {
     /// E(Q) modulo torsion, when the rank is proven and that many points
     /// are known (`None`: off; the heights of the independent points are
     /// computed either way). Runs under `factor_units` and the clock.
+    /// Default: [`SaturationOptions::default`] with `max_prime` 1000 (on
+    /// y² = x³ + k, j = 0, p-saturation needs no point counts; module docs
+    /// of [`crate::height`]'s saturation, "Curves with j = 0").
     pub saturation: Option<SaturationOptions>,
 }
 
@@ -147,7 +150,10 @@ impl Default for Isogeny3Options {
             max_discriminant: 2_000_000,
             max_class_number: 5_000,
             max_unit_bits: 8_192,
-            saturation: Some(SaturationOptions::default()),
+            saturation: Some(SaturationOptions {
+                max_prime: 1000,
+                ..SaturationOptions::default()
+            }),
         }
     }
 }

@@ -155,6 +155,19 @@ impl Tally {
         Tally::default()
     }
 
+    /// The distribution of dim Sel^φ(E) + dim Sel^φ̂(E′) over the lines of
+    /// the descent via 3-isogeny. By the exact sequence
+    /// 0 → E′(Q)\[φ̂\]/φ(E(Q)\[3\]) → Sel^φ(E) → Sel^3(E) → Sel^φ̂(E′)
+    /// (Schaefer–Stoll, Trans. AMS 356 (2004), §3 — from memory) the sum
+    /// bounds dim Sel^3(E) from above.
+    fn selmer3_sums(&self) -> BTreeMap<u64, u64> {
+        let mut sums = BTreeMap::new();
+        for (&(a, b), &n) in &self.selmer3_pairs {
+            *sums.entry(a + b).or_insert(0) += n;
+        }
+        sums
+    }
+
     /// Counts one record.
     pub fn add(&mut self, r: &RecordLine) {
         self.curves += 1;
@@ -339,6 +352,13 @@ impl fmt::Display for Tally {
                     "                                   {a:>10}  {b:>11}  {n:>9}  {:>5.2}%",
                     pct(n)
                 )?;
+            }
+            writeln!(
+                f,
+                "3-isogeny Selmer sum dim Sel^phi + dim Sel^phihat (>= dim Sel^3(E))      count   share"
+            )?;
+            for (s, n) in self.selmer3_sums() {
+                writeln!(f, "                 {s:>5}  {n:>54}  {:>5.2}%", pct(n))?;
             }
         }
         Ok(())

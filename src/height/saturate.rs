@@ -36,6 +36,33 @@
 //! is not cyclic (with cyclic 2-parts alone, points in the image of the
 //! dual of a rational 2-isogeny would stay invisible).
 //!
+//! # Curves with j = 0
+//! On `Y² = X³ + B` the auxiliary primes are chosen without counting
+//! where the count is known. For `q ≡ 2 (mod 3)`, `X ↦ X³` permutes F_q,
+//! so `X³ + B` takes every value once and `#E(F_q) = q + 1` (common
+//! practice; Silverman, AEC 2nd ed., Exercise 5.10, from memory): such a
+//! `q` is used for `p` only when `p | q + 1`, with no count. For
+//! `q ≡ 1 (mod 3)` the Frobenius is an element of norm `q` of Z\[ω\], so
+//! `a_q` is one of `±2a, ±(a + 3b), ±(a − 3b)` for `q = a² + 3b²`
+//! (Ireland–Rosen, "A Classical Introduction to Modern Number Theory",
+//! Ch. 18 §3, from memory; the same fact behind `analytic::cm`): `q` is
+//! counted only when `p` divides one of the six candidates for `#E(F_q)`.
+//! For `p ≡ 2 (mod 3)`, `p` is inert in Z\[ω\] and `p | #E(F_q)` with
+//! `q ≡ 1 (mod 3)` means Frobenius ≡ 1 mod `p`, i.e. `E[p] ⊂ E(F_q)`,
+//! whose `p`-part is not cyclic. So for every `p ≥ 5` only the primes
+//! `q ≡ −1 (mod 3p)` are visited: there `p | q + 1`, the odd part of
+//! `E(F_q)` is cyclic (Frobenius satisfies π² = −q; common practice), and
+//! no count is needed, so they are taken up to 50 times `max_aux_prime`
+//! (at most [`MAX_AUX_PRIME_LIMIT`]). These Frobenius elements lie outside
+//! the Galois group over Q(√−3), and still see every point outside
+//! `pE(Q)` (its Kummer image is all of `E[p]`; a Chebotarev argument,
+//! from memory); `tests/descent3_mordell.rs` settles the primes up to
+//! 199 this way on curves of rank 3 and 4. All of this only chooses which
+//! `q` to examine: a skipped `q` never enters a proof, so a wrong choice
+//! could cost rows, never soundness; the count of examined primes
+//! (`max_aux_primes_per_p`) includes only those that cost a count or a
+//! row.
+//!
 //! When a kernel vector survives many auxiliary primes, the combination
 //! `Q = Σ aᵢPᵢ + Σ b_jT_j` (some `a_k = 1`) is tested for divisibility
 //! by `p`: for `p = 2, 3` the x-coordinates of the `R` with `pR = ±Q` are
@@ -97,7 +124,9 @@ pub struct SaturationOptions {
     /// the common small divisibilities).
     pub primes_without_bound: u64,
     /// Largest auxiliary prime `q` (each costs `O(q)` for the point
-    /// count). Default 20 000.
+    /// count). Default 20 000. On curves with j = 0 the primes
+    /// q ≡ 2 (mod 3), which need no count, are taken up to 50 times this
+    /// (module docs, "Curves with j = 0").
     pub max_aux_prime: u64,
     /// Most auxiliary primes examined for one `p`. Default 400.
     pub max_aux_primes_per_p: usize,
@@ -425,26 +454,53 @@ fn p_saturate(
     let mut rows: Vec<Vec<u64>> = Vec::new();
     let mut useful = 0usize;
     let mut rounds = 0usize;
-    let mut q = 4u64;
     let mut examined = 0usize;
+    // On j = 0 (module docs, "Curves with j = 0") the rows of p ≥ 5 come
+    // from the primes q ≡ −1 (mod 3p), where #E(F_q) = q + 1 needs no
+    // count: step through them, up to `j_zero_aux_limit`.
+    let j_zero = short.big_a.is_zero();
+    let (mut next, step, q_limit) = if j_zero && p >= 5 {
+        (3 * p - 1, 3 * p, j_zero_aux_limit(options))
+    } else {
+        (5, 1, options.max_aux_prime)
+    };
     loop {
-        q += 1;
-        if q > options.max_aux_prime || examined >= options.max_aux_primes_per_p {
+        let q = next;
+        next += step;
+        if q > q_limit || examined >= options.max_aux_primes_per_p {
             return Ok(Outcome::Unknown);
+        }
+        if p != 2 && j_zero && q % 3 == 2 && (q + 1) % p != 0 {
+            // #E(F_q) = q + 1 is prime to p: no row, no work.
+            continue;
         }
         if !is_prime_u64(q) || q == p || (disc % BigInt::from(q)).is_zero() {
             continue;
         }
+        let known_count = if p != 2 && j_zero {
+            match j_zero_count(q, p) {
+                JZeroCount::Known(n) => Some(n),
+                JZeroCount::Skip => continue,
+                JZeroCount::Unknown => None,
+            }
+        } else {
+            None
+        };
         examined += 1;
-        budget
-            .spend(q / 8 + 16)
-            .map_err(|_| Error::BudgetExhausted {
-                stage: "p-saturation".into(),
-            })?;
+        let cost = if known_count.is_some() {
+            p / 4 + 16
+        } else {
+            q / 8 + 16
+        };
+        budget.spend(cost).map_err(|_| Error::BudgetExhausted {
+            stage: "p-saturation".into(),
+        })?;
         let new_rows: Vec<Vec<u64>> = if p == 2 {
             two_rows(ctx, &elems, q)
         } else {
-            cyclic_row(ctx, &elems, p, q).into_iter().collect()
+            cyclic_row(ctx, &elems, p, q, known_count)
+                .into_iter()
+                .collect()
         };
         if new_rows.is_empty() {
             continue;
@@ -729,15 +785,95 @@ impl Fq {
     }
 }
 
-/// One row from an auxiliary prime with cyclic p-part (module docs).
-fn cyclic_row(ctx: &HeightContext, elems: &[Jac], p: u64, q: u64) -> Option<Vec<u64>> {
+/// The largest auxiliary prime `q ≡ 2 (mod 3)` used on a curve with
+/// `j = 0`, where `#E(F_q) = q + 1` needs no count: 50 times
+/// [`SaturationOptions::max_aux_prime`], at most [`MAX_AUX_PRIME_LIMIT`].
+fn j_zero_aux_limit(options: &SaturationOptions) -> u64 {
+    options
+        .max_aux_prime
+        .saturating_mul(50)
+        .min(MAX_AUX_PRIME_LIMIT)
+}
+
+/// What is known of `#E(F_q)` for an odd prime `p` on a curve with
+/// `j = 0` before counting (module docs, "Curves with j = 0").
+enum JZeroCount {
+    /// `#E(F_q)`, without a count.
+    Known(u64),
+    /// `q` gives no row for `p`.
+    Skip,
+    /// A count is needed.
+    Unknown,
+}
+
+/// `#E(F_q)` for `Y² = X³ + B` (`q ∤ 6B` prime, `q ≥ 5`), as far as it is
+/// known without a count, for the rows of an odd prime `p`.
+fn j_zero_count(q: u64, p: u64) -> JZeroCount {
+    if q % 3 == 2 {
+        return JZeroCount::Known(q + 1);
+    }
+    if p % 3 == 2 {
+        // p inert in Z[ω]: p | #E(F_q) puts E[p] in E(F_q), not cyclic.
+        return JZeroCount::Skip;
+    }
+    let Some((a, b)) = norm_form_3(q) else {
+        return JZeroCount::Unknown;
+    };
+    let (a, b, q) = (i128::from(a), i128::from(b), i128::from(q));
+    let traces = [2 * a, a + 3 * b, a - 3 * b];
+    let p = i128::from(p);
+    if traces
+        .iter()
+        .any(|t| (q + 1 - t) % p == 0 || (q + 1 + t) % p == 0)
+    {
+        JZeroCount::Unknown
+    } else {
+        JZeroCount::Skip
+    }
+}
+
+/// `(a, b)` with `q = a² + 3b²`, for a prime `q ≡ 1 (mod 3)`, by
+/// Cornacchia's algorithm (Cohen, "A Course in Computational Algebraic
+/// Number Theory", Algorithm 1.5.2 — from memory); checked before it is
+/// returned, `None` when it fails.
+fn norm_form_3(q: u64) -> Option<(u64, u64)> {
+    let s = sqrt_mod(q - 3, q)?;
+    for root in [s, q - s] {
+        let (mut r0, mut r1) = (q, root);
+        while r1 * r1 > q {
+            (r0, r1) = (r1, r0 % r1);
+        }
+        let rest = q - r1 * r1;
+        if rest % 3 != 0 {
+            continue;
+        }
+        let c = rest / 3;
+        let b = (c as f64).sqrt().round() as u64;
+        for b in b.saturating_sub(1)..=b + 1 {
+            if b * b == c && r1 * r1 + 3 * b * b == q {
+                return Some((r1, b));
+            }
+        }
+    }
+    None
+}
+
+/// One row from an auxiliary prime with cyclic p-part (module docs);
+/// `known_count` is `#E(F_q)` when it is known without a count.
+fn cyclic_row(
+    ctx: &HeightContext,
+    elems: &[Jac],
+    p: u64,
+    q: u64,
+    known_count: Option<u64>,
+) -> Option<Vec<u64>> {
     let s = ctx.short();
     let f = Fq {
         q,
         a: big_mod(&s.big_a, q),
         b: big_mod(&s.big_b, q),
     };
-    let n = f.count();
+    let n = known_count.unwrap_or_else(|| f.count());
     if n % p != 0 {
         return None;
     }
@@ -910,5 +1046,58 @@ mod tests {
                 }
             }
         }
+    }
+
+    // The choices of auxiliary primes on j = 0 against the point count of
+    // Y² = X³ + B (B = 1..=12) at every prime 5 ≤ q < 400 prime to 6B,
+    // for the odd primes p < 40: a known count is the count, and a q that
+    // is skipped gives no row (p ∤ #E(F_q), or the p-part is not cyclic:
+    // no point of order p^e, p^e ‖ #E(F_q)).
+    #[test]
+    fn j_zero_choices_agree_with_point_counts() {
+        let mut skipped_with_p = 0;
+        for q in (5u64..400).filter(|&q| is_prime_u64(q)) {
+            if q % 3 == 1 {
+                let (a, b) = norm_form_3(q).unwrap();
+                assert_eq!(a * a + 3 * b * b, q);
+            }
+            for big_b in (1u64..=12).filter(|b| b % q != 0) {
+                let f = Fq { q, a: 0, b: big_b };
+                let n = f.count();
+                for p in (3u64..40).filter(|&p| is_prime_u64(p)) {
+                    match j_zero_count(q, p) {
+                        JZeroCount::Known(m) => assert_eq!(m, n, "q = {q}, B = {big_b}"),
+                        JZeroCount::Unknown => {}
+                        JZeroCount::Skip => {
+                            if n % p != 0 {
+                                continue;
+                            }
+                            skipped_with_p += 1;
+                            let mut e = 0;
+                            let mut m = n;
+                            while m % p == 0 {
+                                m /= p;
+                                e += 1;
+                            }
+                            let pe = p.pow(e);
+                            // No point of order p^e: the p-part is not cyclic.
+                            for x in 0..q {
+                                let rhs = (x * x % q * x + big_b) % q;
+                                if let Some(y) = sqrt_mod(rhs, q) {
+                                    let g = f.mul(Some((x, y)), m);
+                                    assert_eq!(
+                                        f.mul(g, pe / p),
+                                        None,
+                                        "q = {q}, B = {big_b}, p = {p}"
+                                    );
+                                }
+                            }
+                        }
+                    }
+                }
+            }
+        }
+        // The third case occurs (p ≡ 2 mod 3 dividing #E(F_q), q ≡ 1 mod 3).
+        assert!(skipped_with_p > 0);
     }
 }
