@@ -89,6 +89,16 @@ pub struct DeepSearchOptions {
     /// (the schedule is sized by that regulator). Default 16 384, about
     /// 9·10⁷ work units for a hunt that finds nothing.
     pub reach_covering_height: u64,
+    /// Rank one, sized by the BSD prediction: the largest covering height
+    /// for the open classes on the curve's own side of an isogeny (the
+    /// domain E of φ, where a generator of height ĥ lies at covering
+    /// height about e^{ĥ/4} instead of e^{ĥ/8}; docs/deep_search.md).
+    /// Default 2¹⁷ = 131 072, about 5.4·10⁸ work units per covering; such a
+    /// round is skipped, not cut, when the budget cannot pay for it.
+    pub own_side_max_height: u64,
+    /// Per-side largest heights `[E, E′]` set by [`DeepSearchOptions::guided`]
+    /// (`None`: both sides go to `max_covering_height`).
+    side_limits: Option<[u64; 2]>,
 }
 
 impl Default for DeepSearchOptions {
@@ -103,6 +113,8 @@ impl Default for DeepSearchOptions {
             max_twists: 1 << 6,
             bsd_guided: true,
             reach_covering_height: 1 << 14,
+            own_side_max_height: 1 << 17,
+            side_limits: None,
         }
     }
 }
@@ -123,6 +135,36 @@ fn height_for(h: f64) -> f64 {
     ((h - REACH_OFFSET + REACH_SLACK) / 8.0).exp()
 }
 
+/// Calibration on the curve's own side (the domain E of φ): a generator
+/// of height ĥ whose class lies in E(Q)/φ̂(E′(Q)) was found at covering
+/// height H with ĥ − 4·ln H between 0.9 and 3.5 on the eight box curves
+/// of docs/deep_search.md ("The curve's own side").
+const OWN_REACH_OFFSET: f64 = 3.5;
+
+/// The own-side rounds stop at `e^{(ĥ + OWN_SLACK)/4}`, a factor
+/// `e^{(OWN_SLACK + 0.9)/4} ≈ 1.6` above the largest height measured.
+const OWN_SLACK: f64 = 1.0;
+
+/// Work units all late rounds (own side, above the common height) of one
+/// hunt may spend together: about two covering searches at 2¹⁷ (a
+/// second or two each on the development machine, docs/performance.md).
+const LATE_UNITS: u64 = 1_200_000_000;
+
+/// The room left for a late round at height `h` (`None` for a regular
+/// round); the first late round fixes `late_start`, the units spent before.
+fn late_room(
+    options: &DeepSearchOptions,
+    h: u64,
+    late_start: &mut Option<u64>,
+    budget: &Budget,
+) -> Option<u64> {
+    if !options.is_late(h) {
+        return None;
+    }
+    let start = *late_start.get_or_insert(budget.spent());
+    Some(LATE_UNITS.saturating_sub(budget.spent().saturating_sub(start)))
+}
+
 impl DeepSearchOptions {
     /// The options for a rank-one hunt sized by the Birch–Swinnerton-Dyer
     /// formula. `predicted` is the regulator that formula gives with
@@ -133,6 +175,11 @@ impl DeepSearchOptions {
     /// calibration in docs/deep_search.md) is the target, and the rounds
     /// stop at `e^{(ĥ − 3)/8}`, a factor of about 6 above the calibrated
     /// need, clamped to `[first_covering_height, max_covering_height]`.
+    /// When the prediction with `#Ш = 1` is within reach (of
+    /// `reach_covering_height`), the rounds are set per side instead: E′'s
+    /// side to `e^{(ĥ − 3)/8}` or beyond as above, E's own side (where a
+    /// generator lies at about `e^{ĥ/4}`) on to `e^{(ĥ + 1)/4}`, at most
+    /// `own_side_max_height` (docs/deep_search.md, "The curve's own side").
     /// Unchanged options when `bsd_guided` is off or the prediction is not
     /// a positive number. Only the amount of searching changes; what is
     /// found is proven as always.
@@ -143,7 +190,8 @@ impl DeepSearchOptions {
         }
         let base = predicted / 2f64.powi(sha2_dim.min(60) as i32);
         let max_h = self.max_covering_height as f64;
-        let reach = 8.0 * max_h.ln() + REACH_OFFSET;
+        let far_h = self.max_covering_height.max(self.reach_covering_height) as f64;
+        let reach = 8.0 * far_h.ln() + REACH_OFFSET;
         let step = if sha2_dim == 0 { 2 } else { 1 };
         let mut m = 1u32;
         let target = loop {
@@ -162,10 +210,30 @@ impl DeepSearchOptions {
             // (docs/deep_search.md). When even the calibration's headroom
             // fits in the default rounds (e^{(ĥ − 3)/8} ≤ max), a point
             // missed there lies on a covering far larger than its height
-            // suggests; one more round, to `reach_covering_height`.
-            if height_for(target) <= max_h {
-                o.max_covering_height = self.max_covering_height.max(self.reach_covering_height);
-            }
+            // suggests; one more round, to `reach_covering_height`. When
+            // it does not, the rounds go on to e^{(ĥ − 3)/8}, at most
+            // `reach_covering_height`.
+            let far = self.max_covering_height.max(self.reach_covering_height);
+            let need = height_for(target);
+            let common = if need <= max_h {
+                far
+            } else {
+                (need.ceil() as u64).clamp(self.max_covering_height, far)
+            };
+            // The curve's own side: a generator whose class lies there
+            // needs e^{ĥ/4}, not e^{ĥ/8} (docs/deep_search.md); rounds to
+            // e^{(ĥ + 1)/4} for that side only, when the calibration
+            // puts the point below `own_side_max_height`.
+            let own_cap = self.own_side_max_height;
+            let own_reach = 4.0 * (own_cap as f64).ln() + OWN_REACH_OFFSET;
+            let own = if target <= own_reach {
+                (((target + OWN_SLACK) / 4.0).exp().ceil() as u64).min(own_cap)
+            } else {
+                0
+            };
+            let limits = [common.max(own), common];
+            o.max_covering_height = limits[0];
+            o.side_limits = Some(limits);
             return o;
         }
         // Never below the first round: a round at the first height is
@@ -195,6 +263,7 @@ impl DeepSearchOptions {
         }
         let h = predicted / 2f64.powi(sha2_dim.min(60) as i32);
         let reach = 8.0 * (self.reach_covering_height as f64).ln() + REACH_OFFSET;
+        o.side_limits = None;
         let need = height_for(h);
         if need > self.max_covering_height as f64
             && h <= reach
@@ -220,6 +289,7 @@ impl DeepSearchOptions {
         if self.max_covering_height > (1 << 24)
             || self.max_space_height > (1 << 24)
             || self.reach_covering_height > (1 << 24)
+            || self.own_side_max_height > (1 << 24)
         {
             return bad("heights above 2^24 are not supported");
         }
@@ -233,7 +303,8 @@ impl DeepSearchOptions {
         Ok(())
     }
 
-    /// The covering heights of the rounds, increasing.
+    /// The covering heights of the rounds, increasing (with each side's
+    /// own last height when [`DeepSearchOptions::guided`] set them).
     fn rounds(&self) -> Vec<u64> {
         let mut hs = Vec::new();
         let mut h = self.first_covering_height;
@@ -244,7 +315,29 @@ impl DeepSearchOptions {
             }
             h = h.saturating_mul(self.growth).min(self.max_covering_height);
         }
+        if let Some(limits) = self.side_limits {
+            for l in limits {
+                if l >= self.first_covering_height && l <= self.max_covering_height {
+                    hs.push(l);
+                }
+            }
+            hs.sort_unstable();
+            hs.dedup();
+        }
         hs
+    }
+
+    /// The largest covering height for side `s` (0: E, 1: E′).
+    fn side_limit(&self, s: usize) -> u64 {
+        self.side_limits.map_or(self.max_covering_height, |l| {
+            l[s].min(self.max_covering_height)
+        })
+    }
+
+    /// Rounds above the common limit of both sides: run only where the
+    /// budget can pay for them (skipped, not cut, otherwise).
+    fn is_late(&self, h: u64) -> bool {
+        self.side_limits.is_some_and(|l| h > l[0].min(l[1]))
     }
 }
 
@@ -371,6 +464,7 @@ fn search_coverings(
     d: &BigInt,
     h: u64,
     options: &DeepSearchOptions,
+    late: Option<u64>,
     budget: &mut Budget,
 ) -> Result<Option<Point>> {
     let mut sd = SecondDescentOptions::default();
@@ -380,7 +474,7 @@ fn search_coverings(
     sd.covariant_reduction = true;
     let outcome = if hunt.side.pairing.is_some() {
         let lift = class_lift(&hunt.side.model, d, &hunt.side.qs2, budget)?;
-        let twists = soluble_twists(
+        let mut twists = soluble_twists(
             &lift,
             &hunt.side.qs2,
             &hunt.conditions,
@@ -391,13 +485,30 @@ fn search_coverings(
             return Ok(None);
         }
         let needed = search_cost(h).saturating_mul(twists.len() as u64);
-        if budget.remaining().is_some_and(|r| r < needed) {
+        if let Some(room) = late {
+            // A late round (own side, above the common height) searches
+            // only the twists its room and the budget can pay for, first
+            // ones first; nothing at all is skipped, not cut.
+            let room = budget.remaining().map_or(room, |r| r.min(room));
+            let affordable = (room / search_cost(h)) as usize;
+            if affordable == 0 {
+                return Ok(None);
+            }
+            twists.truncate(affordable);
+        } else if budget.remaining().is_some_and(|r| r < needed) {
             return Err(exhausted());
         }
         second_descent_on_twists(&hunt.side.model, d, &lift.conic_point, &twists, &sd, budget)?
     } else {
         let needed = search_cost(h).saturating_mul(options.max_twists as u64);
-        if budget.remaining().is_some_and(|r| r < needed) {
+        let room = match late {
+            Some(room) => budget.remaining().map_or(room, |r| r.min(room)),
+            None => budget.remaining().unwrap_or(u64::MAX),
+        };
+        if room < needed {
+            if late.is_some() {
+                return Ok(None);
+            }
             return Err(exhausted());
         }
         second_descent(&hunt.side.model, d, &sd, budget)?
@@ -473,10 +584,15 @@ impl<'a> IsogenyHunt<'a> {
         h: u64,
         target: usize,
         options: &DeepSearchOptions,
+        late: Option<u64>,
         budget: &mut Budget,
     ) -> Result<bool> {
         let space_h = (2 * h).min(options.max_space_height);
+        let spent0 = budget.spent();
         for s in 0..2 {
+            if h > options.side_limit(s) {
+                continue;
+            }
             self.sides[s].done.clear();
             'restart: loop {
                 if self.total() >= target {
@@ -502,7 +618,8 @@ impl<'a> IsogenyHunt<'a> {
                         Err(e) => return Err(e),
                     };
                     if p.is_none() {
-                        p = match search_coverings(hunt, &d, h, options, budget) {
+                        let late = late.map(|room| room.saturating_sub(budget.spent() - spent0));
+                        p = match search_coverings(hunt, &d, h, options, late, budget) {
                             Ok(p) => p,
                             Err(e) if is_budget(&e) => {
                                 self.cut = true;
@@ -584,8 +701,10 @@ pub fn search_missing_points(
     if hunt.total() >= target_rank {
         return Ok(Vec::new());
     }
+    let mut late_start = None;
     for h in options.rounds() {
-        if hunt.round(curve, h, target_rank, options, budget)? || budget.is_exhausted() {
+        let late = late_room(options, h, &mut late_start, budget);
+        if hunt.round(curve, h, target_rank, options, late, budget)? || budget.is_exhausted() {
             break;
         }
     }
@@ -640,9 +759,11 @@ pub(crate) fn complete_report_points_cut(
         .map(IsogenyHunt::new)
         .collect();
     let curve = report.curve();
+    let mut late_start = None;
     'rounds: for h in options.rounds() {
         for hunt in &mut hunts {
-            if hunt.round(curve, h, target_rank, options, budget)? {
+            let late = late_room(options, h, &mut late_start, budget);
+            if hunt.round(curve, h, target_rank, options, late, budget)? {
                 break 'rounds;
             }
             if budget.is_exhausted() {
@@ -689,9 +810,19 @@ mod tests {
         let o = DeepSearchOptions::default();
         // Within reach with #Ш = 1: the full rounds, and one more when
         // e^{(ĥ − 3)/8} ≤ 4096 (ĥ ≤ 69.5).
-        assert_eq!(o.guided(50.0, 0).rounds(), vec![256, 1024, 4096, 16384]);
         assert_eq!(o.guided(20.0, 0).rounds(), vec![256, 1024, 4096, 16384]);
-        assert_eq!(o.guided(80.0, 0).rounds(), vec![256, 1024, 4096]);
+        // ĥ = 50 ≤ 4·ln 2¹⁷ + 3.5 ≈ 50.6: the curve's own side goes on to
+        // min(e^{51/4}, 2¹⁷); the other side stops at 16384.
+        let g = o.guided(50.0, 0);
+        assert_eq!(g.rounds(), vec![256, 1024, 4096, 16384, 65536, 131072]);
+        assert_eq!((g.side_limit(0), g.side_limit(1)), (131072, 16384));
+        assert!(g.is_late(65536) && !g.is_late(16384));
+        assert_eq!(o.guided(20.0, 0).side_limit(0), 16384);
+        // e^{(80 − 3)/8} ≈ 15138.6 > 4096, within the reach of 16384
+        // (8·ln 16384 + 17 ≈ 94.6): rounds to that height, both sides.
+        let g = o.guided(80.0, 0);
+        assert_eq!(g.rounds(), vec![256, 1024, 4096, 15139]);
+        assert_eq!((g.side_limit(0), g.side_limit(1)), (15139, 15139));
         // Beyond reach: the next candidate is ĥ/9 (Ш odd), here 25, and
         // one cheap round aimed at it.
         assert_eq!(o.guided(225.0, 0).rounds(), vec![256]);

@@ -21,6 +21,7 @@ pub(crate) mod form;
 mod fp;
 pub(crate) mod image;
 mod image_word;
+pub(crate) mod minimal;
 pub(crate) mod padic;
 mod padic_word;
 pub(crate) mod real;

@@ -1175,13 +1175,16 @@ pub fn second_descent(
     }
     let mut survivors = Vec::new();
     for (lambda, coeffs, par, k, frame) in soluble {
-        let covering = SolubleCovering {
+        let mut covering = SolubleCovering {
             lambda,
             coeffs,
             par,
             k,
             frame,
         };
+        if s.covariant {
+            covering = minimise_covering(a, b, covering, budget)?;
+        }
         match search_covering(a, b, d, &s, covering, options, budget)? {
             Ok(point) => return Ok(point),
             Err(survivor) => survivors.push(survivor),
@@ -1286,10 +1289,20 @@ pub fn second_descent_on_twists(
                 k,
                 frame,
             } => {
+                let mut covering = SolubleCovering {
+                    lambda: lambda.clone(),
+                    coeffs,
+                    par,
+                    k,
+                    frame,
+                };
+                if s.covariant {
+                    covering = minimise_covering(a, b, covering, budget)?;
+                }
                 // Two twists may give the same quartic up to x ↔ z and
                 // x ↦ −x; those substitutions keep the searched box, so
                 // the second search would see the same pairs.
-                let key = equivalence_key(&coeffs);
+                let key = equivalence_key(&covering.coeffs);
                 if let Some(seen) = survivors
                     .iter()
                     .find(|sv: &&SurvivingCovering| equivalence_key(&sv.covering) == key)
@@ -1297,18 +1310,11 @@ pub fn second_descent_on_twists(
                     let search = seen.search.clone();
                     survivors.push(SurvivingCovering {
                         lambda,
-                        covering: coeffs,
+                        covering: covering.coeffs,
                         search,
                     });
                     continue;
                 }
-                let covering = SolubleCovering {
-                    lambda,
-                    coeffs,
-                    par,
-                    k,
-                    frame,
-                };
                 match search_covering(a, b, d, &s, covering, options, budget)? {
                     Ok(point) => return Ok(point),
                     Err(survivor) => survivors.push(survivor),
@@ -1332,6 +1338,61 @@ fn equivalence_key(g: &[BigInt; 5]) -> [BigInt; 5] {
         |c: &[BigInt; 5]| [0, 1, 2, 3, 4].map(|i| if i % 2 == 1 { -&c[i] } else { c[i].clone() });
     let variants = [g.clone(), rev(g), neg(g), rev(&neg(g))];
     variants.into_iter().min().unwrap_or_else(|| g.clone())
+}
+
+/// The 4-covering minimised at the primes where its invariants exceed
+/// those of `E: y² = x³ + a x² + b x` (`crate::quartic::minimal`), then
+/// reduced again (root covariant, then the greedy steps). Its points map
+/// back as before: the frame becomes `frame·T·R` (no longer unimodular) and
+/// `k` becomes `k·ν`, where `g′ = g∘T/ν²` (`map_back` divides by the common
+/// factor of `(M, e)` and checks the point on `C_d` and `E`).
+///
+/// Which primes: a 2-covering of `E` with Jacobian `E` has invariants
+/// `(I, J) = (μ⁴·c₄, 2μ⁶·c₆)` for a rational `μ` (`c₄ = 16(a² − 3b)`,
+/// `c₆ = 32a(9b − 2a²)` of this model; common practice, checked on the
+/// coverings of docs/deep_search.md), so only the primes of the numerator of `μ`
+/// can be removed. When `μ` is not found as an exact root (it always is
+/// for a covering of `E`) the covering is left as it is.
+fn minimise_covering(
+    a: &BigInt,
+    b: &BigInt,
+    c: SolubleCovering,
+    budget: &mut Budget,
+) -> Result<SolubleCovering> {
+    let q = Quartic::new(c.coeffs.clone())?;
+    let c4 = BigInt::from(16) * (a * a - BigInt::from(3) * b);
+    let c6 = BigInt::from(32) * a * (BigInt::from(9) * b - BigInt::from(2) * a * a);
+    let ratio_root = |num: &BigInt, den: &BigInt, k: u32| -> Option<BigInt> {
+        if num.is_zero() || den.is_zero() {
+            return None;
+        }
+        let r = BigRational::new(num.clone(), den.clone());
+        let n = crate::arith::roots::exact_root(&r.numer().abs(), k)?;
+        crate::arith::roots::exact_root(r.denom(), k)?;
+        Some(n)
+    };
+    let mu = ratio_root(&q.invariant_i(), &c4, 4)
+        .or_else(|| ratio_root(&q.invariant_j(), &(BigInt::from(2) * &c6), 6));
+    let Some(mu) = mu else { return Ok(c) };
+    if mu.is_one() {
+        return Ok(c);
+    }
+    let primes: Vec<BigInt> = factor(&mu, budget)?.primes().cloned().collect();
+    let m = crate::quartic::minimal::minimise(&c.coeffs, &primes, budget)?;
+    if m.scale.is_one() {
+        return Ok(c);
+    }
+    let t = covariant_frame(&m.coeffs);
+    let moved = transform4(&m.coeffs, &t, budget)?;
+    let (coeffs, polish) = reduce_quartic(&moved, budget)?;
+    let frame = mat_mul(&mat_mul(&c.frame, &m.frame), &mat_mul(&t, &polish));
+    Ok(SolubleCovering {
+        lambda: c.lambda,
+        coeffs,
+        par: c.par,
+        k: &c.k * &m.scale,
+        frame,
+    })
 }
 
 /// A locally soluble 4-covering D_λ with what maps its points back to C_d.
