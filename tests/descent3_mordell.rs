@@ -351,7 +351,10 @@ fn generators_after_a_division_by_five() {
     assert_eq!(r.rank.map(|x| x.0), Some(4), "{r}");
     let s = r.saturation.as_ref().expect("saturation ran");
     assert_eq!(s.index_found % 5, 0, "{s:?}");
-    assert!(s.primes_checked.contains(&5) && s.unresolved.is_empty(), "{s:?}");
+    assert!(
+        s.primes_checked.contains(&5) && s.unresolved.is_empty(),
+        "{s:?}"
+    );
     assert!(r.points_generate(), "{r}");
     r.recheck().unwrap();
 }
