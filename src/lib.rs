@@ -14,7 +14,7 @@
 //!
 //! | layer | module | holds |
 //! |---|---|---|
-//! | — | [`Error`], [`budget`] | the one error enum (with `Result`); deterministic effort budgets |
+//! | — | `error`, [`budget`] | the one error enum [`Error`] (with `Result`; the module is crate-private, both live at the crate root); deterministic effort budgets |
 //! | 1 | [`arith`] | primality, factoring, square-free parts, integer roots, certified reals |
 //! | 2 | [`local`] | places, valuations, symbols, modular square roots, square classes, Hilbert symbols |
 //! | 3 | [`curve`] | Weierstrass models, points, 2-torsion, the checked `ReducedModel`, 2-isogenies, rational 3-isogenies (Vélu), torsion, Tate's algorithm |
