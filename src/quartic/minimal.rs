@@ -114,7 +114,8 @@ fn mat_mul(a: &Mat2, b: &Mat2) -> Mat2 {
     [[e(0, 0), e(0, 1)], [e(1, 0), e(1, 1)]]
 }
 
-fn poly_mul(p: &[BigInt], q: &[BigInt]) -> Vec<BigInt> {
+/// The product of two polynomials given by their coefficient lists.
+pub(crate) fn poly_mul(p: &[BigInt], q: &[BigInt]) -> Vec<BigInt> {
     let mut out = vec![BigInt::zero(); p.len() + q.len() - 1];
     for (i, a) in p.iter().enumerate() {
         for (j, b) in q.iter().enumerate() {

@@ -135,6 +135,7 @@ use crate::conic::{
 use crate::curve::ReducedModel;
 use crate::error::{Error, Result};
 use crate::local::{hilbert_symbol_int, Place, Prime};
+use crate::quartic::minimal::poly_mul;
 use crate::quartic::{
     locally_soluble, search, LocalSolubility, Quartic, QuarticPoint, SearchOptions, SearchOutcome,
 };
@@ -324,19 +325,6 @@ fn eval2(f: &Form2, u: &BigInt, v: &BigInt) -> BigInt {
     &f[0] * u * u + &f[1] * u * v + &f[2] * v * v
 }
 
-fn poly_mul(p: &[BigInt], q: &[BigInt]) -> Vec<BigInt> {
-    let mut out = vec![BigInt::zero(); p.len() + q.len() - 1];
-    for (i, a) in p.iter().enumerate() {
-        if a.is_zero() {
-            continue;
-        }
-        for (j, b) in q.iter().enumerate() {
-            out[i + j] += a * b;
-        }
-    }
-    out
-}
-
 /// `f(r₁, r₂)` for a binary quadratic `f` and binary quadratics `r₁, r₂`:
 /// a binary quartic.
 fn compose(f: &Form2, r1: &Form2, r2: &Form2) -> [BigInt; 5] {
@@ -381,25 +369,7 @@ fn transform4(g: &[BigInt; 5], t: &[[BigInt; 2]; 2], budget: &mut Budget) -> Res
 }
 
 fn transform4_raw(g: &[BigInt; 5], t: &[[BigInt; 2]; 2]) -> [BigInt; 5] {
-    let l1 = [t[0][0].clone(), t[0][1].clone()];
-    let l2 = [t[1][0].clone(), t[1][1].clone()];
-    let mut out: [BigInt; 5] = Default::default();
-    for (i, c) in g.iter().enumerate() {
-        if c.is_zero() {
-            continue;
-        }
-        let mut p = vec![c.clone()];
-        for _ in 0..(4 - i) {
-            p = poly_mul(&p, &l1);
-        }
-        for _ in 0..i {
-            p = poly_mul(&p, &l2);
-        }
-        for (k, x) in p.into_iter().enumerate() {
-            out[k] += x;
-        }
-    }
-    out
+    crate::quartic::minimal::substitute(g, t)
 }
 
 fn mat_mul(a: &[[BigInt; 2]; 2], b: &[[BigInt; 2]; 2]) -> [[BigInt; 2]; 2] {
